@@ -1,0 +1,112 @@
+/**
+ * The parsed sheet document (format version 1) as the kinematics core consumes it.
+ * Every quantity is in SI units (m, rad, s) and every vector is in the palm (world) frame
+ * unless its name says otherwise. The zod schema in `schema.ts` produces exactly this shape.
+ */
+
+export type Vec3Tuple = [number, number, number];
+
+/** Unit quaternion, scalar first, as written in sheet documents. */
+export interface QuaternionInput {
+  w: number;
+  x: number;
+  y: number;
+  z: number;
+}
+
+export type ObjectShape =
+  | { kind: 'sphere'; radius: number }
+  | { kind: 'box'; halfExtents: Vec3Tuple; filletRadius: number }
+  | { kind: 'cylinder'; radius: number; halfLength: number }
+  | { kind: 'capsule'; radius: number; halfLength: number }
+  | { kind: 'ellipsoid'; semiAxes: Vec3Tuple };
+
+export interface Pose {
+  position: Vec3Tuple;
+  orientation: QuaternionInput;
+}
+
+export interface Twist {
+  /** Velocity of the object origin, m/s, world frame. */
+  linear: Vec3Tuple;
+  /** Angular velocity, rad/s, world frame. */
+  angular: Vec3Tuple;
+}
+
+export type JointRole = 'base' | 'pivot' | 'roll' | 'other';
+
+export interface JointInput {
+  name: string;
+  role: JointRole;
+  /** Unit axis at the home configuration, palm frame. */
+  axis: Vec3Tuple;
+  /** A point on the axis at the home configuration, palm frame, m. */
+  point: Vec3Tuple;
+  /** Current joint angle, rad (0 = home). */
+  angle: number;
+  /** Joint limits, rad; absent = unlimited. */
+  limits?: { min: number; max: number };
+  /** Largest joint speed, rad/s; absent = unlimited. */
+  rateLimit?: number;
+}
+
+/** Roller geometry at the home configuration, palm frame (the last link's frame at home). */
+export type RollerInput =
+  | { kind: 'sphere'; radius: number; center: Vec3Tuple }
+  | { kind: 'cylinder'; radius: number; halfWidth: number; center: Vec3Tuple; axis: Vec3Tuple };
+
+export interface FingerInput {
+  name: string;
+  joints: JointInput[];
+  roller: RollerInput;
+}
+
+export interface SolverSettings {
+  /** Damping of the damped least-squares solve, m (added as lambda^2 to J J^T). */
+  damping: number;
+  /** Ratio sigma_min / sigma_max below which the contact Jacobian counts as near rank loss. */
+  singularRatio: number;
+  /** Contact-to-axis distance below which a roll or pivot axis warning is raised, m. */
+  axisDistance: number;
+  /** Tangential contact speed below which the steer direction is undefined, m/s. */
+  minTangentialSpeed: number;
+  /** Gap magnitude within which a contact counts as touching, m. */
+  contactTolerance: number;
+  /** Add the no-spin-about-the-normal row (soft-finger contact). */
+  softFinger: boolean;
+}
+
+export interface RunSettings {
+  /** Fraction of the pose error commanded as twist per second, 1/s. */
+  gain: number;
+  /** Tick length, s. */
+  dt: number;
+  maxTicks: number;
+  /** Convergence thresholds. */
+  positionTolerance: number;
+  angleTolerance: number;
+  stopOnSingular: boolean;
+  /** Seeded sensor noise on the measured pose (standard deviations, m and rad); absent = none. */
+  noise?: { seed: number; position: number; angle: number };
+}
+
+export interface SweepSettings {
+  /** JSON pointer of the numeric input to vary, e.g. "/hand/fingers/0/roller/radius". */
+  path: string;
+  from: number;
+  to: number;
+  steps: number;
+}
+
+export interface SheetDocument {
+  format: 'slipless.sheet';
+  version: 1;
+  title: string;
+  description: string;
+  tags: string[];
+  object: { shape: ObjectShape; pose: Pose; twist: Twist };
+  hand: { name: string; fingers: FingerInput[] };
+  motion: { target: Pose; run: RunSettings };
+  sweep?: SweepSettings;
+  solver: SolverSettings;
+}
