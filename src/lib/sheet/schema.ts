@@ -1,0 +1,438 @@
+/**
+ * The sheet document format, version 1: a zod schema whose parsed output is exactly
+ * `SheetDocument` (every quantity in SI, every unit quaternion checked, defaults filled in).
+ */
+import { z } from 'zod';
+import type {
+  FingerInput,
+  JointInput,
+  ObjectShape,
+  Pose,
+  QuaternionInput,
+  RollerInput,
+  RunSettings,
+  SheetDocument,
+  SolverSettings,
+  SweepSettings,
+  Twist,
+  Vec3Tuple,
+} from './types';
+import { QUANTITY_KINDS, parseQuantity, type QuantityKind } from './units';
+
+export const SHEET_FORMAT = 'slipless.sheet';
+export const SHEET_VERSION = 1;
+
+/** Largest deviation of |q| from 1 accepted without `normalize: true`. */
+export const QUATERNION_NORM_TOLERANCE = 1e-6;
+export const MAX_FINGERS = 8;
+export const MAX_JOINTS_PER_FINGER = 12;
+const MIN_AXIS_NORM = 1e-12;
+const MISSING = 'required field is missing';
+
+export const DEFAULT_SOLVER: SolverSettings = {
+  damping: 1e-4,
+  singularRatio: 1e-3,
+  axisDistance: 1e-3,
+  minTangentialSpeed: 1e-5,
+  contactTolerance: 2e-4,
+  softFinger: false,
+};
+
+export const DEFAULT_RUN: Omit<RunSettings, 'noise'> = {
+  gain: 2,
+  dt: 0.005,
+  maxTicks: 2000,
+  positionTolerance: 1e-4,
+  angleTolerance: 1e-3,
+  stopOnSingular: true,
+};
+
+/** Error text for a field: "required" when it is absent, the given expectation otherwise. */
+function expect(text: string) {
+  return (issue: { input?: unknown }) => (issue.input === undefined ? MISSING : text);
+}
+
+const IDENTITY: QuaternionInput = { w: 1, x: 0, y: 0, z: 0 };
+
+function quantityText(kind: Exclude<QuantityKind, 'any'>): string {
+  const { noun, si, example } = QUANTITY_KINDS[kind];
+  const siShown = kind === 'rate' ? '1/s' : si;
+  return `${noun}: a number in ${siShown} or a string with a unit such as "${example}"`;
+}
+
+function quantity(kind: QuantityKind) {
+  const text = kind === 'any' ? 'a quantity: a number in SI units or a string with a unit' : quantityText(kind);
+  return z
+    .union([z.number(), z.string()], { error: expect(`expected ${text}`) })
+    .transform((value, ctx) => {
+      const result = parseQuantity(value, kind);
+      if (!result.ok) {
+        ctx.addIssue({ code: 'custom', message: result.message, input: value });
+        return z.NEVER;
+      }
+      return result.value;
+    })
+    .meta({ description: text[0].toUpperCase() + text.slice(1) });
+}
+
+const positive = (kind: QuantityKind, unit: string) =>
+  quantity(kind).pipe(z.number().gt(0, { error: `must be greater than 0 ${unit}` }));
+const nonNegative = (kind: QuantityKind, unit: string) =>
+  quantity(kind).pipe(z.number().gte(0, { error: `must not be negative (${unit})` }));
+
+function vec3(component: z.ZodType<number, unknown>, what: string) {
+  return z
+    .tuple([component, component, component], { error: expect(`expected ${what}: an array of three components [x, y, z]`) })
+    .transform((v): Vec3Tuple => [v[0], v[1], v[2]]);
+}
+
+const lengthVector = vec3(quantity('length'), 'a position (lengths)');
+
+/** Joint and roller axes: any non-zero direction, scaled silently to unit length. */
+const axisVector = vec3(z.number({ error: expect('expected a number (axis components are unitless)') }), 'a direction')
+  .transform((v, ctx): Vec3Tuple => {
+    const norm = Math.hypot(v[0], v[1], v[2]);
+    if (!(norm > MIN_AXIS_NORM)) {
+      ctx.addIssue({ code: 'custom', message: 'axis must not be the zero vector', input: v });
+      return z.NEVER;
+    }
+    return [v[0] / norm, v[1] / norm, v[2] / norm];
+  })
+  .meta({ description: 'Direction (unitless, non-zero); scaled to unit length when read' });
+
+const name = z.string({ error: expect('expected a name (text)') }).trim().min(1, { error: 'must not be empty' }).max(120);
+
+const quaternionSchema = z
+  .strictObject({
+    w: z.number({ error: expect('expected a number') }),
+    x: z.number({ error: expect('expected a number') }),
+    y: z.number({ error: expect('expected a number') }),
+    z: z.number({ error: expect('expected a number') }),
+  })
+  .meta({ description: 'Unit quaternion, scalar first (w, x, y, z)' });
+
+const axisAngleSchema = z
+  .strictObject({ axis: axisVector, angle: quantity('angle') })
+  .transform(({ axis, angle }): QuaternionInput => {
+    const s = Math.sin(angle / 2);
+    return { w: Math.cos(angle / 2), x: s * axis[0], y: s * axis[1], z: s * axis[2] };
+  })
+  .meta({ description: 'Rotation by angle about axis (right-hand rule)' });
+
+const poseSchema = z
+  .strictObject({
+    position: lengthVector,
+    orientation: z.union([quaternionSchema, axisAngleSchema]).optional(),
+    normalize: z
+      .boolean()
+      .optional()
+      .meta({ description: 'Scale a non-unit orientation quaternion to unit length instead of rejecting it' }),
+  })
+  .transform((pose, ctx): Pose => {
+    const q = pose.orientation ?? IDENTITY;
+    const norm = Math.hypot(q.w, q.x, q.y, q.z);
+    if (!(norm > MIN_AXIS_NORM)) {
+      ctx.addIssue({ code: 'custom', message: 'orientation quaternion must not be zero', path: ['orientation'], input: q });
+      return z.NEVER;
+    }
+    if (Math.abs(norm - 1) > QUATERNION_NORM_TOLERANCE && pose.normalize !== true) {
+      ctx.addIssue({
+        code: 'custom',
+        message: `orientation quaternion is not a unit quaternion (|q| = ${norm.toPrecision(8)}, allowed 1 ± ${QUATERNION_NORM_TOLERANCE}); fix it or set "normalize": true on this pose`,
+        path: ['orientation'],
+        input: q,
+      });
+      return z.NEVER;
+    }
+    return {
+      position: pose.position,
+      orientation: { w: q.w / norm, x: q.x / norm, y: q.y / norm, z: q.z / norm },
+    };
+  });
+
+const twistSchema = z
+  .strictObject({
+    linear: vec3(quantity('speed'), 'a velocity (speeds)'),
+    angular: vec3(quantity('angularSpeed'), 'an angular velocity (angular speeds)'),
+  })
+  .transform((t): Twist => ({ linear: t.linear, angular: t.angular }));
+
+const objectShapeSchema = z.discriminatedUnion(
+  'kind',
+  [
+    z.strictObject({ kind: z.literal('sphere'), radius: positive('length', 'm') }),
+    z.strictObject({
+      kind: z.literal('box'),
+      halfExtents: vec3(positive('length', 'm'), 'three half extents (lengths)'),
+      filletRadius: nonNegative('length', 'm').optional(),
+    }),
+    z.strictObject({ kind: z.literal('cylinder'), radius: positive('length', 'm'), halfLength: positive('length', 'm') }),
+    z.strictObject({ kind: z.literal('capsule'), radius: positive('length', 'm'), halfLength: nonNegative('length', 'm') }),
+    z.strictObject({ kind: z.literal('ellipsoid'), semiAxes: vec3(positive('length', 'm'), 'three semi-axes (lengths)') }),
+  ],
+  { error: expect('expected an object shape with kind "sphere", "box", "cylinder", "capsule" or "ellipsoid"') },
+).transform((shape, ctx): ObjectShape => {
+  if (shape.kind !== 'box') return shape;
+  const filletRadius = shape.filletRadius ?? 0;
+  const smallest = Math.min(...shape.halfExtents);
+  if (filletRadius > smallest) {
+    ctx.addIssue({
+      code: 'custom',
+      message: `fillet radius (${filletRadius} m) must not exceed the smallest half extent (${smallest} m)`,
+      path: ['filletRadius'],
+      input: filletRadius,
+    });
+    return z.NEVER;
+  }
+  return { kind: 'box', halfExtents: shape.halfExtents, filletRadius };
+});
+
+const limitsSchema = z
+  .strictObject({ min: quantity('angle'), max: quantity('angle') })
+  .check((ctx) => {
+    if (ctx.value.min > ctx.value.max) {
+      ctx.issues.push({
+        code: 'custom',
+        message: `limits are reversed: min (${ctx.value.min} rad) is greater than max (${ctx.value.max} rad)`,
+        input: ctx.value,
+      });
+    }
+  });
+
+const jointSchema = z
+  .strictObject({
+    name,
+    role: z.enum(['base', 'pivot', 'roll', 'other'], { error: expect('expected a joint role: "base", "pivot", "roll" or "other"') }),
+    axis: axisVector,
+    point: lengthVector,
+    angle: quantity('angle').optional(),
+    limits: limitsSchema.optional(),
+    rateLimit: positive('angularSpeed', 'rad/s').optional(),
+  })
+  .transform((j): JointInput => {
+    const joint: JointInput = { name: j.name, role: j.role, axis: j.axis, point: j.point, angle: j.angle ?? 0 };
+    if (j.limits) joint.limits = { min: j.limits.min, max: j.limits.max };
+    if (j.rateLimit !== undefined) joint.rateLimit = j.rateLimit;
+    return joint;
+  });
+
+const rollerSchema = z
+  .discriminatedUnion(
+    'kind',
+    [
+      z.strictObject({ kind: z.literal('sphere'), radius: positive('length', 'm'), center: lengthVector }),
+      z.strictObject({
+        kind: z.literal('cylinder'),
+        radius: positive('length', 'm'),
+        halfWidth: positive('length', 'm'),
+        center: lengthVector,
+        axis: axisVector,
+      }),
+    ],
+    { error: expect('expected a roller with kind "sphere" or "cylinder"') },
+  )
+  .transform((r): RollerInput => r);
+
+function uniqueNames(what: string) {
+  return (ctx: { value: { name: string }[]; issues: z.core.$ZodRawIssue[] }) => {
+    const seen = new Map<string, number>();
+    ctx.value.forEach((item, index) => {
+      const first = seen.get(item.name);
+      if (first !== undefined) {
+        ctx.issues.push({
+          code: 'custom',
+          message: `${what} name "${item.name}" is already used at index ${first}`,
+          path: [index, 'name'],
+          input: item.name,
+        });
+      } else seen.set(item.name, index);
+    });
+  };
+}
+
+const fingerSchema = z
+  .strictObject({
+    name,
+    joints: z
+      .array(jointSchema, { error: expect('expected a list of joints') })
+      .min(1, { error: 'a finger needs at least one joint' })
+      .max(MAX_JOINTS_PER_FINGER, { error: `a finger has at most ${MAX_JOINTS_PER_FINGER} joints` })
+      .check(uniqueNames('joint')),
+    roller: rollerSchema,
+  })
+  .transform((f): FingerInput => f);
+
+const handSchema = z
+  .strictObject({
+    name,
+    fingers: z
+      .array(fingerSchema, { error: expect('expected a list of fingers') })
+      .min(1, { error: 'a hand needs at least one finger' })
+      .max(MAX_FINGERS, { error: `a hand has at most ${MAX_FINGERS} fingers` })
+      .check(uniqueNames('finger')),
+  })
+  .transform((h) => ({ name: h.name, fingers: h.fingers }));
+
+const solverSchema = z
+  .strictObject({
+    damping: nonNegative('length', 'm').default(DEFAULT_SOLVER.damping),
+    singularRatio: z
+      .number({ error: expect('expected a number between 0 and 1') })
+      .gt(0, { error: 'must be between 0 and 1' })
+      .lt(1, { error: 'must be between 0 and 1' })
+      .default(DEFAULT_SOLVER.singularRatio),
+    axisDistance: nonNegative('length', 'm').default(DEFAULT_SOLVER.axisDistance),
+    minTangentialSpeed: nonNegative('speed', 'm/s').default(DEFAULT_SOLVER.minTangentialSpeed),
+    contactTolerance: nonNegative('length', 'm').default(DEFAULT_SOLVER.contactTolerance),
+    softFinger: z.boolean().default(DEFAULT_SOLVER.softFinger),
+  })
+  .transform((s): SolverSettings => s);
+
+const noiseSchema = z.strictObject({
+  seed: z.int({ error: expect('expected an integer seed') }),
+  position: nonNegative('length', 'm'),
+  angle: nonNegative('angle', 'rad'),
+});
+
+const runSchema = z
+  .strictObject({
+    gain: positive('rate', '1/s').default(DEFAULT_RUN.gain),
+    dt: positive('time', 's').default(DEFAULT_RUN.dt),
+    maxTicks: z
+      .int({ error: expect('expected a whole number of ticks') })
+      .min(1, { error: 'at least one tick' })
+      .max(1_000_000, { error: 'at most 1000000 ticks' })
+      .default(DEFAULT_RUN.maxTicks),
+    positionTolerance: positive('length', 'm').default(DEFAULT_RUN.positionTolerance),
+    angleTolerance: positive('angle', 'rad').default(DEFAULT_RUN.angleTolerance),
+    stopOnSingular: z.boolean().default(DEFAULT_RUN.stopOnSingular),
+    noise: noiseSchema.optional(),
+  })
+  .transform((r): RunSettings => {
+    const { noise, ...rest } = r;
+    return noise ? { ...rest, noise } : rest;
+  });
+
+const sweepSchema = z
+  .strictObject({
+    path: z
+      .string()
+      .regex(/^(\/([^~/]|~[01])*)+$/, { error: 'expected a JSON pointer such as "/hand/fingers/0/roller/radius"' }),
+    from: quantity('any'),
+    to: quantity('any'),
+    steps: z
+      .int({ error: expect('expected a whole number of steps') })
+      .min(2, { error: 'a sweep needs at least 2 steps' })
+      .max(1000, { error: 'a sweep has at most 1000 steps' }),
+  })
+  .transform((s): SweepSettings => s);
+
+/** Value at a JSON pointer (RFC 6901) inside a parsed document, or undefined when it does not resolve. */
+export function resolvePointer(root: unknown, pointer: string): unknown {
+  if (pointer === '') return root;
+  let node: unknown = root;
+  for (const raw of pointer.slice(1).split('/')) {
+    const token = raw.replace(/~1/g, '/').replace(/~0/g, '~');
+    if (node === null || typeof node !== 'object' || !Object.hasOwn(node, token)) return undefined;
+    node = (node as Record<string, unknown>)[token];
+  }
+  return node;
+}
+
+/** The sheet document schema, version 1: reads unit strings and fills defaults (output in SI). */
+export const sheetSchema = z
+  .strictObject({
+    $schema: z.string().optional().meta({ description: 'Optional link to the JSON Schema, for editors' }),
+    format: z.literal(SHEET_FORMAT, { error: expect(`expected "format": "${SHEET_FORMAT}"`) }),
+    version: z.literal(SHEET_VERSION, { error: expect(`unsupported version; this reader understands version ${SHEET_VERSION}`) }),
+    title: name,
+    description: z.string().max(20_000).default(''),
+    tags: z.array(z.string().trim().min(1).max(60)).max(50).default([]),
+    object: z.strictObject({ shape: objectShapeSchema, pose: poseSchema, twist: twistSchema }),
+    hand: handSchema,
+    motion: z.strictObject({ target: poseSchema, run: runSchema.prefault({}) }),
+    sweep: sweepSchema.optional(),
+    solver: solverSchema.prefault({}),
+  })
+  .transform((d, ctx): SheetDocument => {
+    const doc: SheetDocument = {
+      format: d.format,
+      version: d.version,
+      title: d.title,
+      description: d.description,
+      tags: d.tags,
+      object: d.object,
+      hand: d.hand,
+      motion: d.motion,
+      solver: d.solver,
+    };
+    if (d.sweep) {
+      if (typeof resolvePointer(doc, d.sweep.path) !== 'number') {
+        ctx.addIssue({
+          code: 'custom',
+          message: `sweep path "${d.sweep.path}" does not point to a number in this sheet`,
+          path: ['sweep', 'path'],
+          input: d.sweep.path,
+        });
+        return z.NEVER;
+      }
+      doc.sweep = d.sweep;
+    }
+    return doc;
+  });
+
+type Exactly<A, B> = (<T>() => T extends A ? 1 : 2) extends <T>() => T extends B ? 1 : 2 ? true : false;
+const outputIsSheetDocument: Exactly<z.output<typeof sheetSchema>, SheetDocument> = true;
+void outputIsSheetDocument;
+
+export interface SheetIssue {
+  /** Location in the input document, e.g. "hand.fingers[1].joints[0].axis". */
+  path: string;
+  message: string;
+}
+
+export type ParseSheetResult = { ok: true; doc: SheetDocument } | { ok: false; issues: SheetIssue[] };
+
+/** Path of an input location as text: object keys joined by dots, array indices in brackets. */
+export function formatIssuePath(path: readonly PropertyKey[]): string {
+  let text = '';
+  for (const key of path) {
+    if (typeof key === 'number') text += `[${key}]`;
+    else text += text === '' ? String(key) : `.${String(key)}`;
+  }
+  return text === '' ? '(document)' : text;
+}
+
+function missingCount(issues: readonly z.core.$ZodIssue[]): number {
+  return issues.filter((issue) => issue.message === MISSING || issue.code === 'unrecognized_keys').length;
+}
+
+function flattenIssues(issues: readonly z.core.$ZodIssue[], prefix: readonly PropertyKey[], out: SheetIssue[]): void {
+  for (const issue of issues) {
+    const path = [...prefix, ...issue.path];
+    const best =
+      issue.code === 'invalid_union'
+        ? // The alternative the author most likely meant: the one with the fewest missing or unknown keys.
+          [...issue.errors].sort((a, b) => missingCount(a) - missingCount(b) || a.length - b.length)[0]
+        : undefined;
+    // A union of plain values (number or unit string) already carries its own message.
+    if (best && best.some((inner) => inner.path.length > 0)) {
+      flattenIssues(best, path, out);
+    } else if (issue.code === 'unrecognized_keys') {
+      for (const key of issue.keys) out.push({ path: formatIssuePath([...path, key]), message: `unknown field "${key}"` });
+    } else {
+      out.push({ path: formatIssuePath(path), message: issue.message });
+    }
+  }
+}
+
+/** Reads an untrusted sheet document (JSON value) into a SheetDocument in SI units, or lists located issues. */
+export function parseSheet(input: unknown): ParseSheetResult {
+  const result = sheetSchema.safeParse(input, {
+    error: (issue) => (issue.code === 'invalid_type' && issue.input === undefined ? MISSING : undefined),
+  });
+  if (result.success) return { ok: true, doc: result.data };
+  const issues: SheetIssue[] = [];
+  flattenIssues(result.error.issues, [], issues);
+  return { ok: false, issues };
+}
