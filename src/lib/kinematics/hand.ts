@@ -1,0 +1,179 @@
+/**
+ * Finger forward kinematics by the product of exponentials (Murray, Li & Sastry 1994, ch. 2,
+ * sec. 2.3 and 3.2; Lynch & Park 2017, "Modern Robotics", ch. 4): with revolute joint k of home
+ * axis w_k through home point r_k, g(theta) = exp(xi_1 theta_1) ... exp(xi_n theta_n) g(0), and
+ * the current axis of joint k is the home axis moved by the joints before it.
+ */
+import type { FingerInput, JointRole } from '../sheet/types';
+import type { Vec3Like } from './vec3';
+
+export type RollerKind = 'sphere' | 'cylinder';
+
+/** One finger: home geometry, mutable joint angles, and the results of forwardKinematics (world frame). */
+export interface Finger {
+  name: string;
+  jointCount: number;
+  jointNames: string[];
+  roles: JointRole[];
+  /** Index of the first joint with that role, -1 when the finger has none. */
+  baseIndex: number;
+  pivotIndex: number;
+  rollIndex: number;
+  /** Home axes and points, 3 per joint, palm frame (unit, m). */
+  homeAxes: Float64Array;
+  homePoints: Float64Array;
+  /** Current joint angles, rad; write here, then call forwardKinematics. */
+  angles: Float64Array;
+  /** Joint limits, rad (-Infinity / Infinity when absent), and rate limits, rad/s (Infinity when absent). */
+  lowerLimits: Float64Array;
+  upperLimits: Float64Array;
+  rateLimits: Float64Array;
+  rollerKind: RollerKind;
+  /** Roller radius, m. */
+  rollerRadius: number;
+  /** Half width of a cylindrical roller along its axis, m (0 for a sphere). */
+  rollerHalfWidth: number;
+  /** Roller centre and (cylinder) axis at home, palm frame. */
+  homeRollerCenter: Float64Array;
+  homeRollerAxis: Float64Array;
+  /** Current joint axes (unit) and axis points (m), 3 per joint, world frame. */
+  axes: Float64Array;
+  points: Float64Array;
+  /** Current roller centre (m) and roller axis (unit; the roll joint's axis for a sphere, zero without one), world frame. */
+  rollerCenter: Float64Array;
+  rollerAxis: Float64Array;
+  /** Rotation of the last link from home, row-major (roller frame to world). */
+  rollerRotation: Float64Array;
+  /** Scratch for one joint's exponential. */
+  jointRotation: Float64Array;
+  jointTranslation: Float64Array;
+  chainTranslation: Float64Array;
+}
+
+function firstIndexOf(roles: JointRole[], role: JointRole): number {
+  return roles.indexOf(role);
+}
+
+/** Finger compiled from its sheet input, with forward kinematics already run (palm frame, SI). */
+export function createFinger(input: FingerInput): Finger {
+  const n = input.joints.length;
+  const roles = input.joints.map((j) => j.role);
+  const finger: Finger = {
+    name: input.name,
+    jointCount: n,
+    jointNames: input.joints.map((j) => j.name),
+    roles,
+    baseIndex: firstIndexOf(roles, 'base'),
+    pivotIndex: firstIndexOf(roles, 'pivot'),
+    rollIndex: firstIndexOf(roles, 'roll'),
+    homeAxes: new Float64Array(3 * n),
+    homePoints: new Float64Array(3 * n),
+    angles: new Float64Array(n),
+    lowerLimits: new Float64Array(n),
+    upperLimits: new Float64Array(n),
+    rateLimits: new Float64Array(n),
+    rollerKind: input.roller.kind,
+    rollerRadius: input.roller.radius,
+    rollerHalfWidth: input.roller.kind === 'cylinder' ? input.roller.halfWidth : 0,
+    homeRollerCenter: Float64Array.from(input.roller.center),
+    homeRollerAxis: new Float64Array(3),
+    axes: new Float64Array(3 * n),
+    points: new Float64Array(3 * n),
+    rollerCenter: new Float64Array(3),
+    rollerAxis: new Float64Array(3),
+    rollerRotation: new Float64Array(9),
+    jointRotation: new Float64Array(9),
+    jointTranslation: new Float64Array(3),
+    chainTranslation: new Float64Array(3),
+  };
+  input.joints.forEach((joint, k) => {
+    const a = joint.axis;
+    const length = Math.hypot(a[0], a[1], a[2]);
+    for (let c = 0; c < 3; c++) {
+      finger.homeAxes[3 * k + c] = a[c] / length;
+      finger.homePoints[3 * k + c] = joint.point[c];
+    }
+    finger.angles[k] = joint.angle;
+    finger.lowerLimits[k] = joint.limits?.min ?? Number.NEGATIVE_INFINITY;
+    finger.upperLimits[k] = joint.limits?.max ?? Number.POSITIVE_INFINITY;
+    finger.rateLimits[k] = joint.rateLimit ?? Number.POSITIVE_INFINITY;
+  });
+  if (input.roller.kind === 'cylinder') {
+    const a = input.roller.axis;
+    const length = Math.hypot(a[0], a[1], a[2]);
+    for (let c = 0; c < 3; c++) finger.homeRollerAxis[c] = a[c] / length;
+  } else if (finger.rollIndex >= 0) {
+    finger.homeRollerAxis.set(finger.homeAxes.subarray(3 * finger.rollIndex, 3 * finger.rollIndex + 3));
+  }
+  return forwardKinematics(finger);
+}
+
+/**
+ * Exponential of the revolute twist with unit axis w through point r by angle theta (rad):
+ * rotation (Rodrigues' formula, row-major) and translation (I - R) r (m); axis and point are read at offset.
+ */
+export function jointExponential(axis: Vec3Like, point: Vec3Like, angle: number, rotationOut: Float64Array, translationOut: Float64Array, offset = 0): void {
+  const x = axis[offset], y = axis[offset + 1], z = axis[offset + 2];
+  const s = Math.sin(angle), v = 1 - Math.cos(angle);
+  const r = rotationOut;
+  r[0] = 1 - v * (y * y + z * z);
+  r[1] = v * x * y - s * z;
+  r[2] = v * x * z + s * y;
+  r[3] = v * x * y + s * z;
+  r[4] = 1 - v * (x * x + z * z);
+  r[5] = v * y * z - s * x;
+  r[6] = v * x * z - s * y;
+  r[7] = v * y * z + s * x;
+  r[8] = 1 - v * (x * x + y * y);
+  const px = point[offset], py = point[offset + 1], pz = point[offset + 2];
+  translationOut[0] = px - (r[0] * px + r[1] * py + r[2] * pz);
+  translationOut[1] = py - (r[3] * px + r[4] * py + r[5] * pz);
+  translationOut[2] = pz - (r[6] * px + r[7] * py + r[8] * pz);
+}
+
+/** Runs the product of exponentials at finger.angles, updating the current axes, points, roller centre and axis (world frame). */
+export function forwardKinematics(finger: Finger): Finger {
+  const R = finger.rollerRotation, t = finger.chainTranslation;
+  const Rk = finger.jointRotation, tk = finger.jointTranslation;
+  const homeAxes = finger.homeAxes, homePoints = finger.homePoints;
+  const axes = finger.axes, points = finger.points, angles = finger.angles;
+  R[0] = 1; R[1] = 0; R[2] = 0; R[3] = 0; R[4] = 1; R[5] = 0; R[6] = 0; R[7] = 0; R[8] = 1;
+  t[0] = 0; t[1] = 0; t[2] = 0;
+  for (let k = 0, o = 0; k < finger.jointCount; k++, o += 3) {
+    // Current axis and point: joint k's home twist carried by the chain of joints before it.
+    const ax = homeAxes[o], ay = homeAxes[o + 1], az = homeAxes[o + 2];
+    const px = homePoints[o], py = homePoints[o + 1], pz = homePoints[o + 2];
+    axes[o] = R[0] * ax + R[1] * ay + R[2] * az;
+    axes[o + 1] = R[3] * ax + R[4] * ay + R[5] * az;
+    axes[o + 2] = R[6] * ax + R[7] * ay + R[8] * az;
+    points[o] = R[0] * px + R[1] * py + R[2] * pz + t[0];
+    points[o + 1] = R[3] * px + R[4] * py + R[5] * pz + t[1];
+    points[o + 2] = R[6] * px + R[7] * py + R[8] * pz + t[2];
+    // exp(xi_1 th_1) ... exp(xi_k th_k) = exp(xi'_k th_k) exp(xi_1 th_1) ... exp(xi_{k-1} th_{k-1}) with xi'_k the current twist.
+    jointExponential(axes, points, angles[k], Rk, tk, o);
+    composeInPlace(Rk, tk, R, t);
+  }
+  const c = finger.homeRollerCenter, a = finger.homeRollerAxis;
+  const center = finger.rollerCenter, axis = finger.rollerAxis;
+  center[0] = R[0] * c[0] + R[1] * c[1] + R[2] * c[2] + t[0];
+  center[1] = R[3] * c[0] + R[4] * c[1] + R[5] * c[2] + t[1];
+  center[2] = R[6] * c[0] + R[7] * c[1] + R[8] * c[2] + t[2];
+  axis[0] = R[0] * a[0] + R[1] * a[1] + R[2] * a[2];
+  axis[1] = R[3] * a[0] + R[4] * a[1] + R[5] * a[2];
+  axis[2] = R[6] * a[0] + R[7] * a[1] + R[8] * a[2];
+  return finger;
+}
+
+/** (R, t) <- (Rk, tk) (R, t): rotation Rk R and translation Rk t + tk. */
+function composeInPlace(Rk: Float64Array, tk: Float64Array, R: Float64Array, t: Float64Array): void {
+  for (let col = 0; col < 3; col++) {
+    const r0 = R[col], r1 = R[3 + col], r2 = R[6 + col];
+    R[col] = Rk[0] * r0 + Rk[1] * r1 + Rk[2] * r2;
+    R[3 + col] = Rk[3] * r0 + Rk[4] * r1 + Rk[5] * r2;
+    R[6 + col] = Rk[6] * r0 + Rk[7] * r1 + Rk[8] * r2;
+  }
+  const t0 = t[0], t1 = t[1], t2 = t[2];
+  t[0] = Rk[0] * t0 + Rk[1] * t1 + Rk[2] * t2 + tk[0];
+  t[1] = Rk[3] * t0 + Rk[4] * t1 + Rk[5] * t2 + tk[1];
+  t[2] = Rk[6] * t0 + Rk[7] * t1 + Rk[8] * t2 + tk[2];
+}
