@@ -1,0 +1,582 @@
+/**
+ * Small dense matrices (Jacobians up to 6 x 40) as row-major Float64Arrays, with routines that
+ * never allocate: every buffer comes from the caller or from a reusable LinalgWorkspace.
+ * The SVD is the one-sided (Hestenes) Jacobi method, which keeps small singular values
+ * accurate to working precision relative to the matrix, unlike forming J J^T first
+ * (Demmel & Veselic, "Jacobi's method is more accurate than QR", SIAM J. Matrix Anal. Appl. 13, 1992).
+ */
+
+/** Row-major dense matrix; `data` may be longer than rows * cols so one buffer can serve several shapes. */
+export interface Matrix {
+  rows: number;
+  cols: number;
+  data: Float64Array;
+}
+
+/** Thin SVD A = U diag(s) V^T with s descending; U is rows x k, V is cols x k, k = min(rows, cols). */
+export interface SvdResult {
+  s: Float64Array;
+  u: Matrix;
+  v: Matrix;
+}
+
+/** Scratch buffers for one matrix shape bound; reuse one per solver, not shared between threads. */
+export interface LinalgWorkspace {
+  readonly maxSmall: number;
+  readonly maxLarge: number;
+  readonly rowsWork: Float64Array;
+  readonly rotation: Float64Array;
+  readonly gram: Float64Array;
+  readonly vector: Float64Array;
+  readonly singular: Float64Array;
+  readonly rowNorms: Float64Array;
+  readonly svd: SvdResult;
+}
+
+const JACOBI_TOLERANCE = 1e-15;
+const MAX_SWEEPS = 60;
+const SAFE_LOW = 2 ** -400;
+/** Relative Cholesky pivot below which the normal equations lose too many digits (sigma ratio near 1e-4). */
+const NORMAL_EQUATIONS_MIN_PIVOT = 1e-8;
+const SAFE_HIGH = 2 ** 400;
+
+/** Zero-filled rows x cols matrix (dimensionless container). */
+export function createMatrix(rows: number, cols: number): Matrix {
+  return { rows, cols, data: new Float64Array(rows * cols) };
+}
+
+/** Matrix copied from an array of equal-length rows (dimensionless container). */
+export function matrixFromRows(rows: ReadonlyArray<ArrayLike<number>>): Matrix {
+  const m = rows.length;
+  const n = m === 0 ? 0 : rows[0]!.length;
+  const out = createMatrix(m, n);
+  for (let i = 0; i < m; i++) {
+    const row = rows[i]!;
+    if (row.length !== n) throw new RangeError(`row ${i} has ${row.length} entries, expected ${n}`);
+    for (let j = 0; j < n; j++) out.data[i * n + j] = row[j]!;
+  }
+  return out;
+}
+
+/** Rows of a matrix as plain nested arrays (dimensionless container). */
+export function matrixToRows(a: Readonly<Matrix>): number[][] {
+  const rows: number[][] = [];
+  for (let i = 0; i < a.rows; i++) rows.push(Array.from(a.data.subarray(i * a.cols, (i + 1) * a.cols)));
+  return rows;
+}
+
+/** Scratch for matrices whose smaller dimension is at most maxSmall and larger at most maxLarge. */
+export function createLinalgWorkspace(maxSmall = 6, maxLarge = 40): LinalgWorkspace {
+  if (maxSmall > maxLarge) [maxSmall, maxLarge] = [maxLarge, maxSmall];
+  return {
+    maxSmall,
+    maxLarge,
+    rowsWork: new Float64Array(maxSmall * maxLarge),
+    rotation: new Float64Array(maxSmall * maxSmall),
+    gram: new Float64Array(maxSmall * maxSmall),
+    vector: new Float64Array(maxLarge),
+    singular: new Float64Array(maxSmall),
+    rowNorms: new Float64Array(maxSmall),
+    svd: {
+      s: new Float64Array(maxSmall),
+      u: createMatrix(maxLarge, maxSmall),
+      v: createMatrix(maxLarge, maxSmall),
+    },
+  };
+}
+
+function checkFits(a: Readonly<Matrix>, ws: LinalgWorkspace): void {
+  const small = a.rows < a.cols ? a.rows : a.cols;
+  const large = a.rows < a.cols ? a.cols : a.rows;
+  if (small > ws.maxSmall || large > ws.maxLarge) {
+    throw new RangeError(`${a.rows} x ${a.cols} matrix exceeds workspace ${ws.maxSmall} x ${ws.maxLarge}`);
+  }
+}
+
+/**
+ * Copies A (fat) or A^T (tall) into w as p x q with p <= q, so the Jacobi rotations always run
+ * over contiguous rows of the short side. Returns the power-of-two factor applied to the copy:
+ * entries far from 1 are rescaled exactly so their squares neither underflow nor overflow.
+ */
+function loadRows(a: Readonly<Matrix>, w: Float64Array): number {
+  const m = a.rows;
+  const n = a.cols;
+  const d = a.data;
+  let maxAbs = 0;
+  if (m <= n) {
+    for (let i = 0, len = m * n; i < len; i++) {
+      const x = d[i]!;
+      w[i] = x;
+      const ax = x < 0 ? -x : x;
+      if (ax > maxAbs) maxAbs = ax;
+    }
+  } else {
+    for (let i = 0; i < m; i++) {
+      for (let j = 0; j < n; j++) {
+        const x = d[i * n + j]!;
+        w[j * m + i] = x;
+        const ax = x < 0 ? -x : x;
+        if (ax > maxAbs) maxAbs = ax;
+      }
+    }
+  }
+  if (maxAbs === 0 || (maxAbs > SAFE_LOW && maxAbs < SAFE_HIGH)) return 1;
+  const exponent = Math.max(-1000, Math.min(1000, -Math.floor(Math.log2(maxAbs))));
+  const scale = 2 ** exponent;
+  for (let i = 0, len = m * n; i < len; i++) w[i] = w[i]! * scale;
+  return scale;
+}
+
+/**
+ * One-sided Jacobi on the rows of the p x q matrix w: afterwards its rows are mutually
+ * orthogonal and W_before = Q W_after, with Q (p x p) accumulated only when q is non-null.
+ */
+function orthogonalizeRows(w: Float64Array, p: number, q: number, rot: Float64Array | null, norms: Float64Array): void {
+  if (rot !== null) {
+    for (let i = 0; i < p * p; i++) rot[i] = 0;
+    for (let i = 0; i < p; i++) rot[i * p + i] = 1;
+  }
+  for (let sweep = 0; sweep < MAX_SWEEPS; sweep++) {
+    // Squared row norms are refreshed once per sweep and updated exactly within it
+    // (alpha' = alpha - t gamma, beta' = beta + t gamma), so each pair costs one dot product.
+    for (let i = 0; i < p; i++) {
+      let sum = 0;
+      for (let k = i * q, end = k + q; k < end; k++) sum += w[k]! * w[k]!;
+      norms[i] = sum;
+    }
+    let rotated = false;
+    for (let i = 0; i < p - 1; i++) {
+      const oi = i * q;
+      for (let j = i + 1; j < p; j++) {
+        const oj = j * q;
+        let gamma = 0;
+        for (let k = 0; k < q; k++) gamma += w[oi + k]! * w[oj + k]!;
+        const alpha = norms[i]!;
+        const beta = norms[j]!;
+        if (gamma === 0 || gamma * gamma <= JACOBI_TOLERANCE * JACOBI_TOLERANCE * alpha * beta) continue;
+        rotated = true;
+        const zeta = (beta - alpha) / (2 * gamma);
+        const t = (zeta >= 0 ? 1 : -1) / (Math.abs(zeta) + Math.sqrt(1 + zeta * zeta));
+        const c = 1 / Math.sqrt(1 + t * t);
+        const s = c * t;
+        norms[i] = alpha - t * gamma;
+        norms[j] = beta + t * gamma;
+        for (let k = 0; k < q; k++) {
+          const x = w[oi + k]!;
+          const y = w[oj + k]!;
+          w[oi + k] = c * x - s * y;
+          w[oj + k] = s * x + c * y;
+        }
+        if (rot !== null) {
+          for (let k = 0; k < p; k++) {
+            const x = rot[k * p + i]!;
+            const y = rot[k * p + j]!;
+            rot[k * p + i] = c * x - s * y;
+            rot[k * p + j] = s * x + c * y;
+          }
+        }
+      }
+    }
+    if (!rotated) return;
+  }
+}
+
+function rowNorm(w: Float64Array, row: number, q: number): number {
+  let sum = 0;
+  for (let k = row * q, end = k + q; k < end; k++) sum += w[k]! * w[k]!;
+  return Math.sqrt(sum);
+}
+
+/** Singular values of A, descending, into out[0..min(rows, cols)) (units of A's entries). */
+export function singularValues(a: Readonly<Matrix>, out: Float64Array, ws: LinalgWorkspace): Float64Array {
+  checkFits(a, ws);
+  const p = a.rows <= a.cols ? a.rows : a.cols;
+  const q = a.rows <= a.cols ? a.cols : a.rows;
+  const w = ws.rowsWork;
+  const scale = loadRows(a, w);
+  orthogonalizeRows(w, p, q, null, ws.rowNorms);
+  for (let i = 0; i < p; i++) out[i] = rowNorm(w, i, q) / scale;
+  for (let i = 1; i < p; i++) {
+    const x = out[i]!;
+    let j = i - 1;
+    while (j >= 0 && out[j]! < x) {
+      out[j + 1] = out[j]!;
+      j--;
+    }
+    out[j + 1] = x;
+  }
+  return out;
+}
+
+/** Thin SVD A = U diag(s) V^T, s descending, into out (out.u and out.v are reshaped to rows x k and cols x k). */
+export function svd(a: Readonly<Matrix>, out: SvdResult, ws: LinalgWorkspace): SvdResult {
+  checkFits(a, ws);
+  const m = a.rows;
+  const n = a.cols;
+  const fat = m <= n;
+  const p = fat ? m : n;
+  const q = fat ? n : m;
+  const w = ws.rowsWork;
+  const rot = ws.rotation;
+  const scale = loadRows(a, w);
+  orthogonalizeRows(w, p, q, rot, ws.rowNorms);
+  const s = out.s;
+  for (let i = 0; i < p; i++) s[i] = rowNorm(w, i, q);
+  // Rows of w carry sigma_i times the long-side singular vectors; rot holds the short-side ones.
+  const long = fat ? out.v : out.u;
+  const short = fat ? out.u : out.v;
+  long.rows = q;
+  long.cols = p;
+  short.rows = p;
+  short.cols = p;
+  const ld = long.data;
+  const sd = short.data;
+  for (let slot = 0; slot < p; slot++) {
+    let best = slot;
+    for (let i = slot + 1; i < p; i++) if (s[i]! > s[best]!) best = i;
+    if (best !== slot) {
+      const ts = s[slot]!;
+      s[slot] = s[best]!;
+      s[best] = ts;
+      for (let k = 0; k < q; k++) {
+        const t = w[slot * q + k]!;
+        w[slot * q + k] = w[best * q + k]!;
+        w[best * q + k] = t;
+      }
+      for (let k = 0; k < p; k++) {
+        const t = rot[k * p + slot]!;
+        rot[k * p + slot] = rot[k * p + best]!;
+        rot[k * p + best] = t;
+      }
+    }
+  }
+  for (let i = 0; i < p; i++) {
+    const sigma = s[i]!;
+    if (sigma > 0) {
+      const inv = 1 / sigma;
+      for (let k = 0; k < q; k++) ld[k * p + i] = w[i * q + k]! * inv;
+    } else {
+      for (let k = 0; k < q; k++) ld[k * p + i] = 0;
+    }
+  }
+  for (let i = 0; i < p * p; i++) sd[i] = rot[i]!;
+  completeZeroColumns(long, s, p);
+  if (scale !== 1) for (let i = 0; i < p; i++) s[i] = s[i]! / scale;
+  return out;
+}
+
+/**
+ * Columns of the long-side factor for zero singular values are undefined by the rows; fill them
+ * with unit vectors orthogonal to the others so U (or V) still has orthonormal columns.
+ */
+function completeZeroColumns(long: Matrix, s: Float64Array, p: number): void {
+  const q = long.rows;
+  const d = long.data;
+  for (let i = 0; i < p; i++) {
+    if (s[i]! > 0) continue;
+    let bestNorm = -1;
+    for (let e = 0; e < q; e++) {
+      for (let k = 0; k < q; k++) d[k * p + i] = k === e ? 1 : 0;
+      for (let pass = 0; pass < 2; pass++) {
+        for (let j = 0; j < p; j++) {
+          if (j === i || (s[j]! <= 0 && j > i)) continue;
+          let dot = 0;
+          for (let k = 0; k < q; k++) dot += d[k * p + j]! * d[k * p + i]!;
+          for (let k = 0; k < q; k++) d[k * p + i] = d[k * p + i]! - dot * d[k * p + j]!;
+        }
+      }
+      let norm = 0;
+      for (let k = 0; k < q; k++) norm += d[k * p + i]! * d[k * p + i]!;
+      norm = Math.sqrt(norm);
+      if (norm > 0.5) {
+        for (let k = 0; k < q; k++) d[k * p + i] = d[k * p + i]! / norm;
+        bestNorm = norm;
+        break;
+      }
+    }
+    if (bestNorm < 0) throw new Error('could not complete an orthonormal basis');
+  }
+}
+
+/** Default rank tolerance max(rows, cols) * eps * sigma_max, as in LAPACK-based pinv/rank (common practice). */
+export function defaultRankTolerance(rows: number, cols: number, sigmaMax: number): number {
+  return Math.max(rows, cols) * Number.EPSILON * sigmaMax;
+}
+
+/** Number of singular values above tolerance (dimensionless); s descending, first `count` used. */
+export function rank(s: ArrayLike<number>, tolerance: number, count: number = s.length): number {
+  let r = 0;
+  for (let i = 0; i < count; i++) if (s[i]! > tolerance) r++;
+  return r;
+}
+
+/** sigma_max / sigma_min over the first `count` singular values (dimensionless, Infinity at rank loss). */
+export function conditionNumber(s: ArrayLike<number>, count: number = s.length): number {
+  if (count === 0) return Number.NaN;
+  let max = 0;
+  let min = Number.POSITIVE_INFINITY;
+  for (let i = 0; i < count; i++) {
+    const x = s[i]!;
+    if (x > max) max = x;
+    if (x < min) min = x;
+  }
+  if (max === 0) return Number.NaN;
+  return min === 0 ? Number.POSITIVE_INFINITY : max / min;
+}
+
+/**
+ * Symmetric product G = A A^T (fat) or A^T A (tall) into g as k x k, k = min(rows, cols).
+ */
+function gramOfShortSide(a: Readonly<Matrix>, g: Float64Array): number {
+  const m = a.rows;
+  const n = a.cols;
+  const d = a.data;
+  if (m <= n) {
+    for (let i = 0; i < m; i++) {
+      for (let j = 0; j <= i; j++) {
+        let sum = 0;
+        for (let k = 0; k < n; k++) sum += d[i * n + k]! * d[j * n + k]!;
+        g[i * m + j] = sum;
+        g[j * m + i] = sum;
+      }
+    }
+    return m;
+  }
+  for (let i = 0; i < n; i++) {
+    for (let j = 0; j <= i; j++) {
+      let sum = 0;
+      for (let k = 0; k < m; k++) sum += d[k * n + i]! * d[k * n + j]!;
+      g[i * n + j] = sum;
+      g[j * n + i] = sum;
+    }
+  }
+  return n;
+}
+
+/**
+ * In-place Cholesky G = L L^T (lower triangle of g); false when a pivot falls to minPivot or below
+ * (G not positive definite, or too ill-conditioned for the normal-equations route).
+ */
+function choleskyInPlace(g: Float64Array, k: number, minPivot: number): boolean {
+  for (let j = 0; j < k; j++) {
+    let diag = g[j * k + j]!;
+    for (let t = 0; t < j; t++) diag -= g[j * k + t]! * g[j * k + t]!;
+    if (!(diag > minPivot)) return false;
+    const ljj = Math.sqrt(diag);
+    g[j * k + j] = ljj;
+    for (let i = j + 1; i < k; i++) {
+      let sum = g[i * k + j]!;
+      for (let t = 0; t < j; t++) sum -= g[i * k + t]! * g[j * k + t]!;
+      g[i * k + j] = sum / ljj;
+    }
+  }
+  return true;
+}
+
+/** Solves L L^T y = y in place with L from choleskyInPlace. */
+function choleskySolveInPlace(l: Float64Array, k: number, y: Float64Array): void {
+  for (let i = 0; i < k; i++) {
+    let sum = y[i]!;
+    for (let t = 0; t < i; t++) sum -= l[i * k + t]! * y[t]!;
+    y[i] = sum / l[i * k + i]!;
+  }
+  for (let i = k - 1; i >= 0; i--) {
+    let sum = y[i]!;
+    for (let t = i + 1; t < k; t++) sum -= l[t * k + i]! * y[t]!;
+    y[i] = sum / l[i * k + i]!;
+  }
+}
+
+/** Yoshikawa manipulability sqrt(det(A A^T)) (units of A's entries to the power rows; 0 when rows > cols). */
+export function manipulability(a: Readonly<Matrix>, ws: LinalgWorkspace): number {
+  checkFits(a, ws);
+  if (a.rows > a.cols) return 0;
+  const g = ws.gram;
+  const k = gramOfShortSide(a, g);
+  if (!choleskyInPlace(g, k, 0)) return 0;
+  let product = 1;
+  for (let i = 0; i < k; i++) product *= g[i * k + i]!;
+  return product;
+}
+
+/**
+ * Damped least squares x = A^T (A A^T + lambda^2 I)^{-1} b (Wampler 1986; Nakamura & Hanafusa 1986) into out[0..cols);
+ * ill-conditioned systems take the SVD route sum sigma/(sigma^2 + lambda^2) (u.b) v, minimum-norm when lambda = 0.
+ */
+export function dampedLeastSquares(
+  a: Readonly<Matrix>,
+  b: ArrayLike<number>,
+  lambda: number,
+  out: Float64Array,
+  ws: LinalgWorkspace,
+): Float64Array {
+  checkFits(a, ws);
+  const m = a.rows;
+  const n = a.cols;
+  const d = a.data;
+  const g = ws.gram;
+  const y = ws.vector;
+  const k = gramOfShortSide(a, g);
+  const damping = lambda * lambda;
+  let maxDiag = 0;
+  for (let i = 0; i < k; i++) {
+    const diag = g[i * k + i]! + damping;
+    g[i * k + i] = diag;
+    if (diag > maxDiag) maxDiag = diag;
+  }
+  if (!choleskyInPlace(g, k, NORMAL_EQUATIONS_MIN_PIVOT * maxDiag)) return dampedSvdSolve(a, b, lambda, out, ws);
+  if (m <= n) {
+    // Fat: y = (A A^T + l^2 I)^{-1} b, x = A^T y.
+    for (let i = 0; i < m; i++) y[i] = b[i]!;
+    choleskySolveInPlace(g, m, y);
+    for (let j = 0; j < n; j++) {
+      let sum = 0;
+      for (let i = 0; i < m; i++) sum += d[i * n + j]! * y[i]!;
+      out[j] = sum;
+    }
+    return out;
+  }
+  // Tall: the same x by the push-through identity, x = (A^T A + l^2 I)^{-1} A^T b.
+  for (let j = 0; j < n; j++) {
+    let sum = 0;
+    for (let i = 0; i < m; i++) sum += d[i * n + j]! * b[i]!;
+    y[j] = sum;
+  }
+  choleskySolveInPlace(g, n, y);
+  for (let j = 0; j < n; j++) out[j] = y[j]!;
+  return out;
+}
+
+function dampedSvdSolve(
+  a: Readonly<Matrix>,
+  b: ArrayLike<number>,
+  lambda: number,
+  out: Float64Array,
+  ws: LinalgWorkspace,
+): Float64Array {
+  const f = svd(a, ws.svd, ws);
+  const damping = lambda * lambda;
+  const k = a.rows < a.cols ? a.rows : a.cols;
+  const tol = defaultRankTolerance(a.rows, a.cols, f.s[0] ?? 0);
+  const u = f.u.data;
+  const v = f.v.data;
+  const coef = ws.singular;
+  for (let i = 0; i < k; i++) {
+    const sigma = f.s[i]!;
+    if (sigma <= tol) {
+      coef[i] = 0;
+      continue;
+    }
+    let dot = 0;
+    for (let r = 0; r < a.rows; r++) dot += u[r * k + i]! * b[r]!;
+    coef[i] = (dot * sigma) / (sigma * sigma + damping);
+  }
+  for (let j = 0; j < a.cols; j++) {
+    let sum = 0;
+    for (let i = 0; i < k; i++) sum += v[j * k + i]! * coef[i]!;
+    out[j] = sum;
+  }
+  return out;
+}
+
+/** Moore-Penrose pseudo-inverse A^+ = V diag(1/s) U^T into out (reshaped to cols x rows; inverse units of A). */
+export function pseudoInverse(a: Readonly<Matrix>, out: Matrix, ws: LinalgWorkspace, tolerance?: number): Matrix {
+  const f = svd(a, ws.svd, ws);
+  const m = a.rows;
+  const n = a.cols;
+  const k = m < n ? m : n;
+  const tol = tolerance ?? defaultRankTolerance(m, n, f.s[0] ?? 0);
+  const u = f.u.data;
+  const v = f.v.data;
+  out.rows = n;
+  out.cols = m;
+  const o = out.data;
+  for (let j = 0; j < n; j++) {
+    for (let r = 0; r < m; r++) {
+      let sum = 0;
+      for (let i = 0; i < k; i++) {
+        const sigma = f.s[i]!;
+        if (sigma > tol) sum += (v[j * k + i]! * u[r * k + i]!) / sigma;
+      }
+      o[j * m + r] = sum;
+    }
+  }
+  return out;
+}
+
+/**
+ * Orthonormal basis of the null space of A in the first d columns of out (reshaped to cols x cols);
+ * returns d = cols - rank (dimensionless basis vectors in A's column space coordinates).
+ */
+export function nullSpace(a: Readonly<Matrix>, out: Matrix, ws: LinalgWorkspace, tolerance?: number): number {
+  const f = svd(a, ws.svd, ws);
+  const m = a.rows;
+  const n = a.cols;
+  const k = m < n ? m : n;
+  const tol = tolerance ?? defaultRankTolerance(m, n, f.s[0] ?? 0);
+  const r = rank(f.s, tol, k);
+  const v = f.v.data;
+  out.rows = n;
+  out.cols = n;
+  const o = out.data;
+  // Row-space basis first (columns 0..r), then Gram-Schmidt completion with unit vectors.
+  for (let i = 0; i < r; i++) for (let j = 0; j < n; j++) o[j * n + i] = v[j * k + i]!;
+  let filled = r;
+  for (let e = 0; e < n && filled < n; e++) {
+    for (let j = 0; j < n; j++) o[j * n + filled] = j === e ? 1 : 0;
+    for (let pass = 0; pass < 2; pass++) {
+      for (let c = 0; c < filled; c++) {
+        let dot = 0;
+        for (let j = 0; j < n; j++) dot += o[j * n + c]! * o[j * n + filled]!;
+        for (let j = 0; j < n; j++) o[j * n + filled] = o[j * n + filled]! - dot * o[j * n + c]!;
+      }
+    }
+    let norm = 0;
+    for (let j = 0; j < n; j++) norm += o[j * n + filled]! * o[j * n + filled]!;
+    norm = Math.sqrt(norm);
+    if (norm < 0.5) continue;
+    for (let j = 0; j < n; j++) o[j * n + filled] = o[j * n + filled]! / norm;
+    filled++;
+  }
+  // Move the null-space columns (r..n) to the front.
+  const d = n - r;
+  for (let c = 0; c < d; c++) {
+    for (let j = 0; j < n; j++) {
+      const t = o[j * n + c]!;
+      o[j * n + c] = o[j * n + r + c]!;
+      o[j * n + r + c] = t;
+    }
+  }
+  return d;
+}
+
+/** out = A x (units of A times units of x); out must not alias x. */
+export function multiplyVector(a: Readonly<Matrix>, x: ArrayLike<number>, out: Float64Array): Float64Array {
+  const m = a.rows;
+  const n = a.cols;
+  const d = a.data;
+  for (let i = 0; i < m; i++) {
+    let sum = 0;
+    for (let j = 0; j < n; j++) sum += d[i * n + j]! * x[j]!;
+    out[i] = sum;
+  }
+  return out;
+}
+
+/** out = A B (reshaped to A.rows x B.cols); out must not alias A or B. */
+export function multiplyMatrices(a: Readonly<Matrix>, b: Readonly<Matrix>, out: Matrix): Matrix {
+  if (a.cols !== b.rows) throw new RangeError(`cannot multiply ${a.rows} x ${a.cols} by ${b.rows} x ${b.cols}`);
+  const m = a.rows;
+  const n = b.cols;
+  const inner = a.cols;
+  out.rows = m;
+  out.cols = n;
+  for (let i = 0; i < m; i++) {
+    for (let j = 0; j < n; j++) {
+      let sum = 0;
+      for (let t = 0; t < inner; t++) sum += a.data[i * inner + t]! * b.data[t * n + j]!;
+      out.data[i * n + j] = sum;
+    }
+  }
+  return out;
+}
