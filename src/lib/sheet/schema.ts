@@ -60,10 +60,23 @@ function quantityText(kind: Exclude<QuantityKind, 'any'>): string {
   return `${noun}: a number in ${siShown} or a string with a unit such as "${example}"`;
 }
 
-function quantity(kind: QuantityKind) {
+/** Names and descriptions of the schema parts, used for the JSON Schema export ($defs and descriptions). */
+export const sheetSchemaMetadata = z.registry<{ id?: string; description: string }>();
+
+function named<T extends z.ZodType>(schema: T, id: string | undefined, description: string): T {
+  sheetSchemaMetadata.add(schema, id === undefined ? { description } : { id, description });
+  return schema;
+}
+
+/** A number followed by a unit, e.g. "12 mm", "-0.5 rad/s", "2 /s", "1e-4 m". */
+const UNIT_STRING = /^\s*[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?\s*[A-Za-z/].*$/;
+
+const capitalised = (text: string) => text[0].toUpperCase() + text.slice(1);
+
+function quantity(kind: QuantityKind, id: string, bound?: { min: 0; strict: boolean; unit: string }) {
   const text = kind === 'any' ? 'a quantity: a number in SI units or a string with a unit' : quantityText(kind);
-  return z
-    .union([z.number(), z.string()], { error: expect(`expected ${text}`) })
+  const read = z
+    .union([z.number(), z.string().regex(UNIT_STRING)], { error: expect(`expected ${text}`) })
     .transform((value, ctx) => {
       const result = parseQuantity(value, kind);
       if (!result.ok) {
@@ -71,14 +84,30 @@ function quantity(kind: QuantityKind) {
         return z.NEVER;
       }
       return result.value;
-    })
-    .meta({ description: text[0].toUpperCase() + text.slice(1) });
+    });
+  if (!bound) return named(read, id, capitalised(text));
+  const checked = bound.strict
+    ? z.number().gt(0, { error: `must be greater than 0 ${bound.unit}` })
+    : z.number().gte(0, { error: `must not be negative (${bound.unit})` });
+  return named(read.pipe(checked), id, `${capitalised(text)}; ${bound.strict ? 'greater than 0' : 'not negative'}`);
 }
 
-const positive = (kind: QuantityKind, unit: string) =>
-  quantity(kind).pipe(z.number().gt(0, { error: `must be greater than 0 ${unit}` }));
-const nonNegative = (kind: QuantityKind, unit: string) =>
-  quantity(kind).pipe(z.number().gte(0, { error: `must not be negative (${unit})` }));
+const positive = (unit: string) => ({ min: 0, strict: true, unit }) as const;
+const nonNegative = (unit: string) => ({ min: 0, strict: false, unit }) as const;
+
+const length = quantity('length', 'Length');
+const positiveLength = quantity('length', 'PositiveLength', positive('m'));
+const nonNegativeLength = quantity('length', 'NonNegativeLength', nonNegative('m'));
+const angle = quantity('angle', 'Angle');
+const positiveAngle = quantity('angle', 'PositiveAngle', positive('rad'));
+const nonNegativeAngle = quantity('angle', 'NonNegativeAngle', nonNegative('rad'));
+const speed = quantity('speed', 'Speed');
+const nonNegativeSpeed = quantity('speed', 'NonNegativeSpeed', nonNegative('m/s'));
+const angularSpeed = quantity('angularSpeed', 'AngularSpeed');
+const positiveAngularSpeed = quantity('angularSpeed', 'PositiveAngularSpeed', positive('rad/s'));
+const positiveTime = quantity('time', 'PositiveTime', positive('s'));
+const positiveRate = quantity('rate', 'PositiveRate', positive('1/s'));
+const anyQuantity = quantity('any', 'Quantity');
 
 function vec3(component: z.ZodType<number, unknown>, what: string) {
   return z
@@ -86,7 +115,7 @@ function vec3(component: z.ZodType<number, unknown>, what: string) {
     .transform((v): Vec3Tuple => [v[0], v[1], v[2]]);
 }
 
-const lengthVector = vec3(quantity('length'), 'a position (lengths)');
+const lengthVector = named(vec3(length, 'a position (lengths)'), 'Position', 'Point [x, y, z] in the palm frame, each a length');
 
 /** Joint and roller axes: any non-zero direction, scaled silently to unit length. */
 const axisVector = vec3(z.number({ error: expect('expected a number (axis components are unitless)') }), 'a direction')
@@ -97,8 +126,8 @@ const axisVector = vec3(z.number({ error: expect('expected a number (axis compon
       return z.NEVER;
     }
     return [v[0] / norm, v[1] / norm, v[2] / norm];
-  })
-  .meta({ description: 'Direction (unitless, non-zero); scaled to unit length when read' });
+  });
+named(axisVector, 'Direction', 'Direction [x, y, z] (unitless, non-zero); scaled to unit length when read');
 
 const name = z.string({ error: expect('expected a name (text)') }).trim().min(1, { error: 'must not be empty' }).max(120);
 
@@ -108,25 +137,26 @@ const quaternionSchema = z
     x: z.number({ error: expect('expected a number') }),
     y: z.number({ error: expect('expected a number') }),
     z: z.number({ error: expect('expected a number') }),
-  })
-  .meta({ description: 'Unit quaternion, scalar first (w, x, y, z)' });
+  });
+named(quaternionSchema, 'Quaternion', `Unit quaternion, scalar first (w, x, y, z); |q| must be 1 within ${QUATERNION_NORM_TOLERANCE} unless the pose sets normalize`);
 
 const axisAngleSchema = z
-  .strictObject({ axis: axisVector, angle: quantity('angle') })
-  .transform(({ axis, angle }): QuaternionInput => {
-    const s = Math.sin(angle / 2);
-    return { w: Math.cos(angle / 2), x: s * axis[0], y: s * axis[1], z: s * axis[2] };
-  })
-  .meta({ description: 'Rotation by angle about axis (right-hand rule)' });
+  .strictObject({ axis: axisVector, angle })
+  .transform(({ axis, angle: turn }): QuaternionInput => {
+    const s = Math.sin(turn / 2);
+    return { w: Math.cos(turn / 2), x: s * axis[0], y: s * axis[1], z: s * axis[2] };
+  });
+named(axisAngleSchema, 'AxisAngle', 'Rotation by angle about axis (right-hand rule)');
 
 const poseSchema = z
   .strictObject({
     position: lengthVector,
     orientation: z.union([quaternionSchema, axisAngleSchema]).optional(),
-    normalize: z
-      .boolean()
-      .optional()
-      .meta({ description: 'Scale a non-unit orientation quaternion to unit length instead of rejecting it' }),
+    normalize: named(
+      z.boolean().optional(),
+      undefined,
+      'Scale a non-unit orientation quaternion to unit length instead of rejecting it',
+    ),
   })
   .transform((pose, ctx): Pose => {
     const q = pose.orientation ?? IDENTITY;
@@ -150,25 +180,29 @@ const poseSchema = z
     };
   });
 
+named(poseSchema, 'Pose', 'Position and orientation (quaternion or axis-angle; identity when absent)');
+
 const twistSchema = z
   .strictObject({
-    linear: vec3(quantity('speed'), 'a velocity (speeds)'),
-    angular: vec3(quantity('angularSpeed'), 'an angular velocity (angular speeds)'),
+    linear: vec3(speed, 'a velocity (speeds)'),
+    angular: vec3(angularSpeed, 'an angular velocity (angular speeds)'),
   })
   .transform((t): Twist => ({ linear: t.linear, angular: t.angular }));
+
+named(twistSchema, 'Twist', 'Velocity of the object origin (m/s) and angular velocity (rad/s), palm frame');
 
 const objectShapeSchema = z.discriminatedUnion(
   'kind',
   [
-    z.strictObject({ kind: z.literal('sphere'), radius: positive('length', 'm') }),
+    z.strictObject({ kind: z.literal('sphere'), radius: positiveLength }),
     z.strictObject({
       kind: z.literal('box'),
-      halfExtents: vec3(positive('length', 'm'), 'three half extents (lengths)'),
-      filletRadius: nonNegative('length', 'm').optional(),
+      halfExtents: vec3(positiveLength, 'three half extents (lengths)'),
+      filletRadius: nonNegativeLength.optional(),
     }),
-    z.strictObject({ kind: z.literal('cylinder'), radius: positive('length', 'm'), halfLength: positive('length', 'm') }),
-    z.strictObject({ kind: z.literal('capsule'), radius: positive('length', 'm'), halfLength: nonNegative('length', 'm') }),
-    z.strictObject({ kind: z.literal('ellipsoid'), semiAxes: vec3(positive('length', 'm'), 'three semi-axes (lengths)') }),
+    z.strictObject({ kind: z.literal('cylinder'), radius: positiveLength, halfLength: positiveLength }),
+    z.strictObject({ kind: z.literal('capsule'), radius: positiveLength, halfLength: nonNegativeLength }),
+    z.strictObject({ kind: z.literal('ellipsoid'), semiAxes: vec3(positiveLength, 'three semi-axes (lengths)') }),
   ],
   { error: expect('expected an object shape with kind "sphere", "box", "cylinder", "capsule" or "ellipsoid"') },
 ).transform((shape, ctx): ObjectShape => {
@@ -187,8 +221,10 @@ const objectShapeSchema = z.discriminatedUnion(
   return { kind: 'box', halfExtents: shape.halfExtents, filletRadius };
 });
 
+named(objectShapeSchema, 'ObjectShape', 'Convex object shape in its own frame (cylinder and capsule along z)');
+
 const limitsSchema = z
-  .strictObject({ min: quantity('angle'), max: quantity('angle') })
+  .strictObject({ min: angle, max: angle })
   .check((ctx) => {
     if (ctx.value.min > ctx.value.max) {
       ctx.issues.push({
@@ -205,9 +241,9 @@ const jointSchema = z
     role: z.enum(['base', 'pivot', 'roll', 'other'], { error: expect('expected a joint role: "base", "pivot", "roll" or "other"') }),
     axis: axisVector,
     point: lengthVector,
-    angle: quantity('angle').optional(),
+    angle: angle.optional(),
     limits: limitsSchema.optional(),
-    rateLimit: positive('angularSpeed', 'rad/s').optional(),
+    rateLimit: positiveAngularSpeed.optional(),
   })
   .transform((j): JointInput => {
     const joint: JointInput = { name: j.name, role: j.role, axis: j.axis, point: j.point, angle: j.angle ?? 0 };
@@ -216,15 +252,17 @@ const jointSchema = z
     return joint;
   });
 
+named(jointSchema, 'Joint', 'Revolute joint: axis and a point on it at home (palm frame), current angle, optional limits and rate limit');
+
 const rollerSchema = z
   .discriminatedUnion(
     'kind',
     [
-      z.strictObject({ kind: z.literal('sphere'), radius: positive('length', 'm'), center: lengthVector }),
+      z.strictObject({ kind: z.literal('sphere'), radius: positiveLength, center: lengthVector }),
       z.strictObject({
         kind: z.literal('cylinder'),
-        radius: positive('length', 'm'),
-        halfWidth: positive('length', 'm'),
+        radius: positiveLength,
+        halfWidth: positiveLength,
         center: lengthVector,
         axis: axisVector,
       }),
@@ -232,6 +270,8 @@ const rollerSchema = z
     { error: expect('expected a roller with kind "sphere" or "cylinder"') },
   )
   .transform((r): RollerInput => r);
+
+named(rollerSchema, 'Roller', 'Roller at the home configuration (palm frame): sphere, or cylinder spinning about its axis');
 
 function uniqueNames(what: string) {
   return (ctx: { value: { name: string }[]; issues: z.core.$ZodRawIssue[] }) => {
@@ -262,6 +302,8 @@ const fingerSchema = z
   })
   .transform((f): FingerInput => f);
 
+named(fingerSchema, 'Finger', 'Serial chain of revolute joints from the palm to the roller');
+
 const handSchema = z
   .strictObject({
     name,
@@ -275,36 +317,38 @@ const handSchema = z
 
 const solverSchema = z
   .strictObject({
-    damping: nonNegative('length', 'm').default(DEFAULT_SOLVER.damping),
+    damping: nonNegativeLength.default(DEFAULT_SOLVER.damping),
     singularRatio: z
       .number({ error: expect('expected a number between 0 and 1') })
       .gt(0, { error: 'must be between 0 and 1' })
       .lt(1, { error: 'must be between 0 and 1' })
       .default(DEFAULT_SOLVER.singularRatio),
-    axisDistance: nonNegative('length', 'm').default(DEFAULT_SOLVER.axisDistance),
-    minTangentialSpeed: nonNegative('speed', 'm/s').default(DEFAULT_SOLVER.minTangentialSpeed),
-    contactTolerance: nonNegative('length', 'm').default(DEFAULT_SOLVER.contactTolerance),
+    axisDistance: nonNegativeLength.default(DEFAULT_SOLVER.axisDistance),
+    minTangentialSpeed: nonNegativeSpeed.default(DEFAULT_SOLVER.minTangentialSpeed),
+    contactTolerance: nonNegativeLength.default(DEFAULT_SOLVER.contactTolerance),
     softFinger: z.boolean().default(DEFAULT_SOLVER.softFinger),
   })
   .transform((s): SolverSettings => s);
 
+named(solverSchema, 'SolverSettings', 'Thresholds and options of the contact solve; every field has a default');
+
 const noiseSchema = z.strictObject({
   seed: z.int({ error: expect('expected an integer seed') }),
-  position: nonNegative('length', 'm'),
-  angle: nonNegative('angle', 'rad'),
+  position: nonNegativeLength,
+  angle: nonNegativeAngle,
 });
 
 const runSchema = z
   .strictObject({
-    gain: positive('rate', '1/s').default(DEFAULT_RUN.gain),
-    dt: positive('time', 's').default(DEFAULT_RUN.dt),
+    gain: positiveRate.default(DEFAULT_RUN.gain),
+    dt: positiveTime.default(DEFAULT_RUN.dt),
     maxTicks: z
       .int({ error: expect('expected a whole number of ticks') })
       .min(1, { error: 'at least one tick' })
       .max(1_000_000, { error: 'at most 1000000 ticks' })
       .default(DEFAULT_RUN.maxTicks),
-    positionTolerance: positive('length', 'm').default(DEFAULT_RUN.positionTolerance),
-    angleTolerance: positive('angle', 'rad').default(DEFAULT_RUN.angleTolerance),
+    positionTolerance: positiveLength.default(DEFAULT_RUN.positionTolerance),
+    angleTolerance: positiveAngle.default(DEFAULT_RUN.angleTolerance),
     stopOnSingular: z.boolean().default(DEFAULT_RUN.stopOnSingular),
     noise: noiseSchema.optional(),
   })
@@ -313,19 +357,23 @@ const runSchema = z
     return noise ? { ...rest, noise } : rest;
   });
 
+named(runSchema, 'RunSettings', 'Closed-loop run toward the target pose; every field except noise has a default');
+
 const sweepSchema = z
   .strictObject({
     path: z
       .string()
       .regex(/^(\/([^~/]|~[01])*)+$/, { error: 'expected a JSON pointer such as "/hand/fingers/0/roller/radius"' }),
-    from: quantity('any'),
-    to: quantity('any'),
+    from: anyQuantity,
+    to: anyQuantity,
     steps: z
       .int({ error: expect('expected a whole number of steps') })
       .min(2, { error: 'a sweep needs at least 2 steps' })
       .max(1000, { error: 'a sweep has at most 1000 steps' }),
   })
   .transform((s): SweepSettings => s);
+
+named(sweepSchema, 'Sweep', 'Vary one numeric input (JSON pointer into the SI document) over a range');
 
 /** Value at a JSON pointer (RFC 6901) inside a parsed document, or undefined when it does not resolve. */
 export function resolvePointer(root: unknown, pointer: string): unknown {
@@ -342,7 +390,7 @@ export function resolvePointer(root: unknown, pointer: string): unknown {
 /** The sheet document schema, version 1: reads unit strings and fills defaults (output in SI). */
 export const sheetSchema = z
   .strictObject({
-    $schema: z.string().optional().meta({ description: 'Optional link to the JSON Schema, for editors' }),
+    $schema: named(z.string().optional(), undefined, 'Optional link to the JSON Schema, for editors'),
     format: z.literal(SHEET_FORMAT, { error: expect(`expected "format": "${SHEET_FORMAT}"`) }),
     version: z.literal(SHEET_VERSION, { error: expect(`unsupported version; this reader understands version ${SHEET_VERSION}`) }),
     title: name,
