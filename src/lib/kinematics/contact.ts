@@ -1,0 +1,304 @@
+/**
+ * Contact geometry and velocity between one roller and the object (world frame unless named
+ * otherwise): closest object point x, outward normal n, gap, roller contact point y = c - rho n,
+ * and the object's material velocity at x, v_o(x) = v + w x (x - p).
+ */
+import type { SheetDocument } from '../sheet/types';
+import { createGjkResult, createGjkWorkspace, gjkDistance, type GjkResult, type GjkWorkspace, type PosedShape } from './gjk';
+import type { Finger } from './hand';
+import { fromSheet, toMatrix3 } from './quat';
+import { closestSurfacePoint, createSurfaceQuery, cylinderShape, shapeFromInput, type ConvexShape, type SurfaceQuery } from './shapes';
+import { perpendicular, type Vec3, type Vec3Like } from './vec3';
+
+/** The object as a rigid body: shape in its own frame, pose and twist in the world frame (SI). */
+export interface RigidObject {
+  shape: ConvexShape;
+  /** Object origin, m. */
+  position: Float64Array;
+  /** Orientation quaternion [x, y, z, w], object to world. */
+  orientation: Float64Array;
+  /** Rotation matrix of the orientation, row-major; refreshed by updateObjectRotation. */
+  rotation: Float64Array;
+  /** Velocity of the object origin, m/s. */
+  linearVelocity: Float64Array;
+  /** Angular velocity, rad/s. */
+  angularVelocity: Float64Array;
+}
+
+export type ContactState = 'touching' | 'separated' | 'penetrating';
+
+/** Contact between one roller and the object (world frame unless named otherwise). */
+export interface Contact {
+  /** Closest object surface point x, m, in the world and object frames. */
+  objectPoint: Float64Array;
+  objectPointLocal: Float64Array;
+  /** Outward unit normal of the object at x, world and object frames. */
+  normal: Float64Array;
+  normalLocal: Float64Array;
+  /** Roller contact point y = c - rho n, m, world frame and roller frame (origin at the roller centre, axes of the last link). */
+  rollerPoint: Float64Array;
+  rollerPointLocal: Float64Array;
+  /** Contact direction on the roller relative to its axis: latitude from the equator and longitude from a fixed meridian, rad (NaN without an axis). */
+  latitude: number;
+  longitude: number;
+  /** |c - x| - rho, m: positive separated, negative penetrating. */
+  gap: number;
+  state: ContactState;
+  /** Object material velocity at x, m/s, and its normal and tangential parts. */
+  objectVelocity: Float64Array;
+  normalSpeed: number;
+  tangentialVelocity: Float64Array;
+  tangentialSpeed: number;
+  /** Distance from y to the roll and pivot axes, m (NaN when the finger has no such joint). */
+  rollAxisDistance: number;
+  pivotAxisDistance: number;
+  /** Distance from the roller centre to the pivot axis, m (NaN without a pivot). */
+  pivotCenterDistance: number;
+}
+
+/** Scratch for computeContact; one per scene. */
+export interface ContactWorkspace {
+  query: SurfaceQuery;
+  gjk: GjkWorkspace;
+  gjkResult: GjkResult;
+  objectPosed: PosedShape;
+  rollerPosed: PosedShape;
+  corePosed: PosedShape;
+  centerLocal: Float64Array;
+  axisLocal: Float64Array;
+  frameX: Float64Array;
+  frameY: Float64Array;
+  meridian: Float64Array;
+}
+
+/** Rigid object from a sheet's object section (world frame, SI). */
+export function createObject(input: SheetDocument['object']): RigidObject {
+  const object: RigidObject = {
+    shape: shapeFromInput(input.shape),
+    position: Float64Array.from(input.pose.position),
+    orientation: fromSheet(input.pose.orientation, new Float64Array(4)),
+    rotation: new Float64Array(9),
+    linearVelocity: Float64Array.from(input.twist.linear),
+    angularVelocity: Float64Array.from(input.twist.angular),
+  };
+  return updateObjectRotation(object);
+}
+
+/** Recomputes the object's rotation matrix from its orientation quaternion (dimensionless). */
+export function updateObjectRotation(object: RigidObject): RigidObject {
+  toMatrix3(object.orientation, object.rotation);
+  return object;
+}
+
+/** Empty contact to reuse as `out`. */
+export function createContact(): Contact {
+  return {
+    objectPoint: new Float64Array(3),
+    objectPointLocal: new Float64Array(3),
+    normal: new Float64Array(3),
+    normalLocal: new Float64Array(3),
+    rollerPoint: new Float64Array(3),
+    rollerPointLocal: new Float64Array(3),
+    latitude: Number.NaN,
+    longitude: Number.NaN,
+    gap: 0,
+    state: 'touching',
+    objectVelocity: new Float64Array(3),
+    normalSpeed: 0,
+    tangentialVelocity: new Float64Array(3),
+    tangentialSpeed: 0,
+    rollAxisDistance: Number.NaN,
+    pivotAxisDistance: Number.NaN,
+    pivotCenterDistance: Number.NaN,
+  };
+}
+
+/** New scratch space for computeContact. */
+export function createContactWorkspace(): ContactWorkspace {
+  const identity = [1, 0, 0, 0, 1, 0, 0, 0, 1];
+  return {
+    query: createSurfaceQuery(),
+    gjk: createGjkWorkspace(),
+    gjkResult: createGjkResult(),
+    objectPosed: { shape: cylinderShape(0, 0), position: new Float64Array(3), rotation: Float64Array.from(identity) },
+    rollerPosed: { shape: cylinderShape(0, 0), position: new Float64Array(3), rotation: new Float64Array(9) },
+    corePosed: { shape: cylinderShape(0, 0), position: new Float64Array(3), rotation: new Float64Array(9) },
+    centerLocal: new Float64Array(3),
+    axisLocal: new Float64Array(3),
+    frameX: new Float64Array(3),
+    frameY: new Float64Array(3),
+    meridian: new Float64Array(3),
+  };
+}
+
+/** Velocity of the object's material point at x, v + w x (x - p) (world frame, m/s). */
+export function objectPointVelocity<T extends Vec3 = number[]>(linear: Vec3Like, angular: Vec3Like, origin: Vec3Like, x: Vec3Like, out?: T): T {
+  const o = out ?? ([0, 0, 0] as T);
+  const rx = x[0] - origin[0], ry = x[1] - origin[1], rz = x[2] - origin[2];
+  const wx = angular[0], wy = angular[1], wz = angular[2];
+  const vx = linear[0] + wy * rz - wz * ry;
+  const vy = linear[1] + wz * rx - wx * rz;
+  const vz = linear[2] + wx * ry - wy * rx;
+  o[0] = vx; o[1] = vy; o[2] = vz;
+  return o;
+}
+
+/** Distance from point y to the line through r along the unit axis w (m); arrays read at offset. */
+export function distanceToAxis(axis: ArrayLike<number>, point: ArrayLike<number>, offset: number, y: Vec3Like): number {
+  const dx = y[0] - point[offset], dy = y[1] - point[offset + 1], dz = y[2] - point[offset + 2];
+  const wx = axis[offset], wy = axis[offset + 1], wz = axis[offset + 2];
+  const cx = wy * dz - wz * dy, cy = wz * dx - wx * dz, cz = wx * dy - wy * dx;
+  return Math.sqrt(cx * cx + cy * cy + cz * cz);
+}
+
+/** Contact of the finger's roller with the object after forwardKinematics (world frame, SI); tolerance is the touching band on the gap, m. */
+export function computeContact(object: RigidObject, finger: Finger, tolerance: number, out: Contact = createContact(), ws: ContactWorkspace = createContactWorkspace()): Contact {
+  const R = object.rotation, p = object.position;
+  const c = finger.rollerCenter;
+  const rho = finger.rollerRadius;
+  const cl = ws.centerLocal;
+  const dx = c[0] - p[0], dy = c[1] - p[1], dz = c[2] - p[2];
+  cl[0] = R[0] * dx + R[3] * dy + R[6] * dz;
+  cl[1] = R[1] * dx + R[4] * dy + R[7] * dz;
+  cl[2] = R[2] * dx + R[5] * dy + R[8] * dz;
+  const xl = out.objectPointLocal, nl = out.normalLocal;
+  if (finger.rollerKind === 'sphere') {
+    const q = closestSurfacePoint(object.shape, cl, ws.query);
+    xl.set(q.point);
+    nl.set(q.normal);
+    out.gap = q.signedDistance - rho;
+  } else {
+    out.gap = cylinderContactLocal(object, finger, out, ws);
+  }
+  const x = out.objectPoint, n = out.normal, y = out.rollerPoint;
+  x[0] = R[0] * xl[0] + R[1] * xl[1] + R[2] * xl[2] + p[0];
+  x[1] = R[3] * xl[0] + R[4] * xl[1] + R[5] * xl[2] + p[1];
+  x[2] = R[6] * xl[0] + R[7] * xl[1] + R[8] * xl[2] + p[2];
+  n[0] = R[0] * nl[0] + R[1] * nl[1] + R[2] * nl[2];
+  n[1] = R[3] * nl[0] + R[4] * nl[1] + R[5] * nl[2];
+  n[2] = R[6] * nl[0] + R[7] * nl[1] + R[8] * nl[2];
+  if (finger.rollerKind === 'sphere') {
+    y[0] = c[0] - rho * n[0];
+    y[1] = c[1] - rho * n[1];
+    y[2] = c[2] - rho * n[2];
+  }
+  out.state = out.gap > tolerance ? 'separated' : out.gap < -tolerance ? 'penetrating' : 'touching';
+  rollerFrameCoordinates(finger, out, ws);
+
+  const v = objectPointVelocity(object.linearVelocity, object.angularVelocity, p, x, out.objectVelocity);
+  const vn = v[0] * n[0] + v[1] * n[1] + v[2] * n[2];
+  const t = out.tangentialVelocity;
+  t[0] = v[0] - vn * n[0];
+  t[1] = v[1] - vn * n[1];
+  t[2] = v[2] - vn * n[2];
+  out.normalSpeed = vn;
+  out.tangentialSpeed = Math.sqrt(t[0] * t[0] + t[1] * t[1] + t[2] * t[2]);
+  out.rollAxisDistance = finger.rollIndex >= 0 ? distanceToAxis(finger.axes, finger.points, 3 * finger.rollIndex, y) : Number.NaN;
+  out.pivotAxisDistance = finger.pivotIndex >= 0 ? distanceToAxis(finger.axes, finger.points, 3 * finger.pivotIndex, y) : Number.NaN;
+  out.pivotCenterDistance = finger.pivotIndex >= 0 ? distanceToAxis(finger.axes, finger.points, 3 * finger.pivotIndex, c) : Number.NaN;
+  return out;
+}
+
+/**
+ * Cylindrical roller: exact GJK distance when separated. When the roller overlaps the object,
+ * GJK has no closest points, so the roller is treated as its core (the cylinder shrunk by
+ * m = min(radius, half width)) grown by a ball of radius m, which keeps the curved face exact and
+ * rounds the rims; penetration is then the core distance minus m. Writes y, x and n (object frame
+ * for x and n, world frame for y) and returns the gap, m.
+ */
+function cylinderContactLocal(object: RigidObject, finger: Finger, out: Contact, ws: ContactWorkspace): number {
+  const R = object.rotation;
+  const a = finger.rollerAxis;
+  const al = ws.axisLocal;
+  al[0] = R[0] * a[0] + R[3] * a[1] + R[6] * a[2];
+  al[1] = R[1] * a[0] + R[4] * a[1] + R[7] * a[2];
+  al[2] = R[2] * a[0] + R[5] * a[1] + R[8] * a[2];
+  // Roller frame in object coordinates: columns (e1, e2, axis), so the cylinder's z maps onto the axis.
+  const e1 = perpendicular(al, ws.frameX);
+  const e2 = ws.frameY;
+  e2[0] = al[1] * e1[2] - al[2] * e1[1];
+  e2[1] = al[2] * e1[0] - al[0] * e1[2];
+  e2[2] = al[0] * e1[1] - al[1] * e1[0];
+  const rho = finger.rollerRadius, halfWidth = finger.rollerHalfWidth;
+  ws.objectPosed.shape = object.shape;
+  const roller = ws.rollerPosed, core = ws.corePosed;
+  placeAlongAxis(roller, e1, e2, al, ws.centerLocal);
+  placeAlongAxis(core, e1, e2, al, ws.centerLocal);
+  const rs = roller.shape;
+  rs.radius = rho;
+  rs.halfLength = halfWidth;
+  const xl = out.objectPointLocal, nl = out.normalLocal;
+  const y = out.rollerPoint;
+  const result = gjkDistance(ws.objectPosed, roller, ws.gjkResult, ws.gjk);
+  let gap: number;
+  let yx: number, yy: number, yz: number;
+  if (!result.intersecting && result.distance > 0) {
+    const d = result.distance;
+    xl.set(result.pointA);
+    nl[0] = (result.pointB[0] - xl[0]) / d;
+    nl[1] = (result.pointB[1] - xl[1]) / d;
+    nl[2] = (result.pointB[2] - xl[2]) / d;
+    yx = result.pointB[0]; yy = result.pointB[1]; yz = result.pointB[2];
+    gap = d;
+  } else {
+    const margin = Math.min(rho, halfWidth);
+    const cs = core.shape;
+    cs.radius = rho - margin;
+    cs.halfLength = halfWidth - margin;
+    const inner = gjkDistance(ws.objectPosed, core, ws.gjkResult, ws.gjk);
+    if (!inner.intersecting && inner.distance > 0) {
+      const d = inner.distance;
+      xl.set(inner.pointA);
+      nl[0] = (inner.pointB[0] - xl[0]) / d;
+      nl[1] = (inner.pointB[1] - xl[1]) / d;
+      nl[2] = (inner.pointB[2] - xl[2]) / d;
+      yx = inner.pointB[0] - margin * nl[0];
+      yy = inner.pointB[1] - margin * nl[1];
+      yz = inner.pointB[2] - margin * nl[2];
+      gap = d - margin;
+    } else {
+      // Deep overlap: fall back to the object's surface nearest the roller centre.
+      const q = closestSurfacePoint(object.shape, ws.centerLocal, ws.query);
+      xl.set(q.point);
+      nl.set(q.normal);
+      gap = q.signedDistance - rho;
+      const cl = ws.centerLocal;
+      yx = cl[0] - rho * nl[0]; yy = cl[1] - rho * nl[1]; yz = cl[2] - rho * nl[2];
+    }
+  }
+  const p = object.position;
+  y[0] = R[0] * yx + R[1] * yy + R[2] * yz + p[0];
+  y[1] = R[3] * yx + R[4] * yy + R[5] * yz + p[1];
+  y[2] = R[6] * yx + R[7] * yy + R[8] * yz + p[2];
+  return gap;
+}
+
+function placeAlongAxis(posed: PosedShape, e1: Vec3Like, e2: Vec3Like, axis: Vec3Like, center: Float64Array): void {
+  const rot = posed.rotation;
+  rot[0] = e1[0]; rot[1] = e2[0]; rot[2] = axis[0];
+  rot[3] = e1[1]; rot[4] = e2[1]; rot[5] = axis[1];
+  rot[6] = e1[2]; rot[7] = e2[2]; rot[8] = axis[2];
+  posed.position.set(center);
+}
+
+function rollerFrameCoordinates(finger: Finger, out: Contact, ws: ContactWorkspace): void {
+  const Rr = finger.rollerRotation, c = finger.rollerCenter, y = out.rollerPoint, yl = out.rollerPointLocal;
+  const dx = y[0] - c[0], dy = y[1] - c[1], dz = y[2] - c[2];
+  yl[0] = Rr[0] * dx + Rr[3] * dy + Rr[6] * dz;
+  yl[1] = Rr[1] * dx + Rr[4] * dy + Rr[7] * dz;
+  yl[2] = Rr[2] * dx + Rr[5] * dy + Rr[8] * dz;
+  const a = finger.homeRollerAxis;
+  const length = Math.sqrt(yl[0] * yl[0] + yl[1] * yl[1] + yl[2] * yl[2]);
+  if (length === 0 || a[0] * a[0] + a[1] * a[1] + a[2] * a[2] === 0) {
+    out.latitude = Number.NaN;
+    out.longitude = Number.NaN;
+    return;
+  }
+  // Meridian of zero longitude: a fixed perpendicular of the roller axis in the roller frame.
+  const m = perpendicular(a, ws.meridian);
+  const ux = yl[0] / length, uy = yl[1] / length, uz = yl[2] / length;
+  const along = ux * a[0] + uy * a[1] + uz * a[2];
+  out.latitude = Math.asin(along > 1 ? 1 : along < -1 ? -1 : along);
+  const px = a[1] * m[2] - a[2] * m[1], py = a[2] * m[0] - a[0] * m[2], pz = a[0] * m[1] - a[1] * m[0];
+  out.longitude = Math.atan2(ux * px + uy * py + uz * pz, ux * m[0] + uy * m[1] + uz * m[2]);
+}

@@ -1,0 +1,196 @@
+/**
+ * Derivations of the reported numbers: for each, its formula and then the same formula with the
+ * numbers put in, as a KaTeX string, so a reader can check it by hand. Built on demand from a
+ * finished result, never in the solve loop.
+ */
+import type { SheetDocument } from '../sheet/types';
+import type { FingerResult, SheetResult } from './scene';
+
+/** One derived number. `latex` is KaTeX: symbolic formula = numbers put in = value. */
+export interface DerivationEntry {
+  /** Stable id, e.g. "finger.0.full.rates". */
+  id: string;
+  label: string;
+  latex: string;
+  /** The value (a number, or the components of a vector or matrix row by row). */
+  value: number | number[];
+  unit: string;
+}
+
+/** Number in KaTeX with four significant digits and a power of ten outside [1e-3, 1e4). */
+export function formatLatexNumber(x: number): string {
+  if (Number.isNaN(x)) return '\\text{NaN}';
+  if (!Number.isFinite(x)) return x > 0 ? '\\infty' : '-\\infty';
+  if (x === 0) return '0';
+  const magnitude = Math.abs(x);
+  if (magnitude >= 1e-3 && magnitude < 1e4) return String(Number(x.toPrecision(4)));
+  const exponent = Math.floor(Math.log10(magnitude));
+  const mantissa = Number((x / 10 ** exponent).toPrecision(4));
+  return `${mantissa} \\times 10^{${exponent}}`;
+}
+
+function column(v: ArrayLike<number>, from = 0, count = 3): string {
+  const parts: string[] = [];
+  for (let i = from; i < from + count; i++) parts.push(formatLatexNumber(v[i]));
+  return `\\begin{pmatrix} ${parts.join(' \\\\ ')} \\end{pmatrix}`;
+}
+
+function matrix(data: ArrayLike<number>, rows: number, cols: number): string {
+  const lines: string[] = [];
+  for (let i = 0; i < rows; i++) {
+    const cells: string[] = [];
+    for (let j = 0; j < cols; j++) cells.push(formatLatexNumber(data[i * cols + j]));
+    lines.push(cells.join(' & '));
+  }
+  return `\\begin{pmatrix} ${lines.join(' \\\\ ')} \\end{pmatrix}`;
+}
+
+function list(v: ArrayLike<number>, count = v.length): number[] {
+  return Array.from({ length: count }, (_, i) => v[i]);
+}
+
+function fingerEntries(doc: SheetDocument, result: SheetResult, i: number, f: FingerResult, entries: DerivationEntry[]): void {
+  const input = doc.hand.fingers[i];
+  const c = f.contact, full = f.full, s = f.steer;
+  const rho = input.roller.radius;
+  const id = `finger.${i}`;
+  const n = f.jointAngles.length;
+  const p = result.object.position;
+  const v = result.object.linearVelocity, w = result.object.angularVelocity;
+  entries.push({
+    id: `${id}.contact.gap`,
+    label: `${f.name}: gap between roller and object`,
+    latex: `\\text{gap} = \\lVert c - x \\rVert - \\rho = \\left\\lVert ${column(f.rollerCenter)} - ${column(c.objectPoint)} \\right\\rVert - ${formatLatexNumber(rho)} = ${formatLatexNumber(c.gap)}`,
+    value: c.gap,
+    unit: 'm',
+  });
+  entries.push({
+    id: `${id}.contact.rollerPoint`,
+    label: `${f.name}: roller contact point`,
+    latex: `y = c - \\rho\\, n = ${column(f.rollerCenter)} - ${formatLatexNumber(rho)} ${column(c.normal)} = ${column(c.rollerPoint)}`,
+    value: list(c.rollerPoint),
+    unit: 'm',
+  });
+  entries.push({
+    id: `${id}.contact.objectVelocity`,
+    label: `${f.name}: object velocity at the contact`,
+    latex: `v_o(x) = v + \\omega \\times (x - p) = ${column(v)} + ${column(w)} \\times \\left(${column(c.objectPoint)} - ${column(p)}\\right) = ${column(c.objectVelocity)}`,
+    value: list(c.objectVelocity),
+    unit: 'm/s',
+  });
+  entries.push({
+    id: `${id}.contact.normalSpeed`,
+    label: `${f.name}: normal part of the contact velocity`,
+    latex: `v_n = n \\cdot v_o(x) = ${column(c.normal)} \\cdot ${column(c.objectVelocity)} = ${formatLatexNumber(c.normalSpeed)}`,
+    value: c.normalSpeed,
+    unit: 'm/s',
+  });
+  entries.push({
+    id: `${id}.contact.tangentialSpeed`,
+    label: `${f.name}: tangential contact speed`,
+    latex: `\\lVert v_t \\rVert = \\lVert v_o(x) - v_n n \\rVert = \\left\\lVert ${column(c.tangentialVelocity)} \\right\\rVert = ${formatLatexNumber(c.tangentialSpeed)}`,
+    value: c.tangentialSpeed,
+    unit: 'm/s',
+  });
+  for (let k = 0; k < n; k++) {
+    const jk = [full.jacobian.data[k], full.jacobian.data[n + k], full.jacobian.data[2 * n + k]];
+    entries.push({
+      id: `${id}.jacobian.${k}`,
+      label: `${f.name}: Jacobian column of joint ${f.jointNames[k]}`,
+      latex: `J_{${k + 1}} = \\omega_{${k + 1}} \\times (y - r_{${k + 1}}) = ${column(f.jointAxes, 3 * k)} \\times \\left(${column(c.rollerPoint)} - ${column(f.jointPoints, 3 * k)}\\right) = ${column(jk)}`,
+      value: jk,
+      unit: 'm/rad',
+    });
+  }
+  const lambda = doc.solver.damping;
+  entries.push({
+    id: `${id}.full.rates`,
+    label: `${f.name}: joint rates, damped least squares`,
+    latex: `\\dot\\theta = J^T (J J^T + \\lambda^2 I)^{-1} v_o, \\quad J = ${matrix(full.jacobian.data, full.rows, n)},\\; v_o = ${column(full.target, 0, full.rows)},\\; \\lambda = ${formatLatexNumber(lambda)} \\;\\Rightarrow\\; \\dot\\theta = ${column(full.rates, 0, n)}`,
+    value: list(full.rates),
+    unit: 'rad/s',
+  });
+  entries.push({
+    id: `${id}.full.residual`,
+    label: `${f.name}: residual (slip no joint rate removes)`,
+    latex: `\\lVert v_o - J\\dot\\theta \\rVert = \\left\\lVert ${column(full.target)} - ${column(full.achieved)} \\right\\rVert = ${formatLatexNumber(full.residualNorm)}`,
+    value: full.residualNorm,
+    unit: 'm/s',
+  });
+  const sv = full.singularValues;
+  entries.push({
+    id: `${id}.full.conditionNumber`,
+    label: `${f.name}: condition number of the contact Jacobian`,
+    latex: `\\kappa = \\sigma_{\\max} / \\sigma_{\\min} = ${formatLatexNumber(sv[0])} / ${formatLatexNumber(sv[2])} = ${formatLatexNumber(full.conditionNumber)}`,
+    value: full.conditionNumber,
+    unit: '1',
+  });
+  entries.push({
+    id: `${id}.full.manipulability`,
+    label: `${f.name}: manipulability (Yoshikawa)`,
+    latex: `\\mu = \\sqrt{\\det(J J^T)} = \\sigma_1 \\sigma_2 \\sigma_3 = ${formatLatexNumber(sv[0])} \\cdot ${formatLatexNumber(sv[1])} \\cdot ${formatLatexNumber(sv[2])} = ${formatLatexNumber(full.manipulability)}`,
+    value: full.manipulability,
+    unit: 'm^3/rad^3',
+  });
+  if (!s.available) return;
+  const b = input.joints.findIndex((j) => j.role === 'base');
+  const jb = [full.jacobian.data[b], full.jacobian.data[n + b], full.jacobian.data[2 * n + b]];
+  entries.push({
+    id: `${id}.steer.baseRate`,
+    label: `${f.name}: base rate (steer and roll)`,
+    latex: `\\dot\\theta_b = \\frac{n \\cdot v_o}{n \\cdot (\\omega_b \\times (y - r_b))} = \\frac{${formatLatexNumber(c.normalSpeed)}}{${column(c.normal)} \\cdot ${column(jb)}} = \\frac{${formatLatexNumber(c.normalSpeed)}}{${formatLatexNumber(s.normalGain)}} = ${formatLatexNumber(s.baseRate)}`,
+    value: s.baseRate,
+    unit: 'rad/s',
+  });
+  entries.push({
+    id: `${id}.steer.remainder`,
+    label: `${f.name}: velocity left to the roller`,
+    latex: `u = v_o - \\dot\\theta_b J_b = ${column(c.objectVelocity)} - ${formatLatexNumber(s.baseRate)} ${column(jb)} = ${column(s.remainder)}`,
+    value: list(s.remainder),
+    unit: 'm/s',
+  });
+  entries.push({
+    id: `${id}.steer.pivotAngle`,
+    label: `${f.name}: steered pivot angle`,
+    latex: `\\theta_p' = \\theta_p + \\Delta = ${formatLatexNumber(f.jointAngles[input.joints.findIndex((j) => j.role === 'pivot')])} + ${formatLatexNumber(s.pivotChange)} = ${formatLatexNumber(s.pivotAngle)} \\quad (\\text{roll direction } \\omega_r' \\times (y - r_r') \\parallel u)`,
+    value: s.pivotAngle,
+    unit: 'rad',
+  });
+  entries.push({
+    id: `${id}.steer.rollRate`,
+    label: `${f.name}: roll rate`,
+    latex: `\\dot\\theta_r = \\pm\\frac{\\lVert u \\rVert}{d_r} = \\frac{u \\cdot d}{\\lVert d \\rVert^2},\\; \\lVert u \\rVert = ${formatLatexNumber(s.remainderNorm)},\\; d_r = ${formatLatexNumber(s.rollDistance)} \\;\\Rightarrow\\; \\dot\\theta_r = ${formatLatexNumber(s.rollRate)}`,
+    value: s.rollRate,
+    unit: 'rad/s',
+  });
+  entries.push({
+    id: `${id}.steer.rateDifference`,
+    label: `${f.name}: steer-and-roll minus full rates`,
+    latex: `\\lVert \\dot\\theta_{sr} - \\dot\\theta \\rVert = \\left\\lVert ${column(s.rates, 0, n)} - ${column(full.rates, 0, n)} \\right\\rVert = ${formatLatexNumber(s.rateDifferenceNorm)}`,
+    value: s.rateDifferenceNorm,
+    unit: 'rad/s',
+  });
+  entries.push({
+    id: `${id}.steer.conditionAfter`,
+    label: `${f.name}: condition number after steering`,
+    latex: `\\kappa' = \\sigma'_{\\max} / \\sigma'_{\\min} = ${formatLatexNumber(s.singularValuesAfter[0])} / ${formatLatexNumber(s.singularValuesAfter[2])} = ${formatLatexNumber(s.conditionAfter)}`,
+    value: s.conditionAfter,
+    unit: '1',
+  });
+}
+
+/** Derivation entries for every reported number of a solved sheet (units as listed per entry). */
+export function deriveSheet(doc: SheetDocument, result: SheetResult): DerivationEntry[] {
+  const entries: DerivationEntry[] = [];
+  result.fingers.forEach((f, i) => fingerEntries(doc, result, i, f, entries));
+  const g = result.grasp;
+  const rows = g.contactMap.rows;
+  entries.push({
+    id: 'grasp.rank',
+    label: 'Rank of the grasp (contact map of all contacts)',
+    latex: `\\operatorname{rank} \\begin{pmatrix} I & -[x_i - p]_\\times \\end{pmatrix}_{i} = \\#\\{\\sigma_j > ${formatLatexNumber(doc.solver.singularRatio)}\\,\\sigma_1\\},\\; \\sigma = ${column(g.singularValues, 0, Math.min(6, rows))} \\;\\Rightarrow\\; ${g.rank}`,
+    value: g.rank,
+    unit: '1',
+  });
+  return entries;
+}

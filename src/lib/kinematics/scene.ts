@@ -1,0 +1,203 @@
+/**
+ * A sheet compiled for repeated solving: typed arrays for the object pose and twist and for every
+ * finger's joint angles, which run loops overwrite between solves, and scratch space so that
+ * solveScene(scene, out) allocates nothing.
+ */
+import type { SheetDocument, SolverSettings } from '../sheet/types';
+import { computeContact, createContact, createContactWorkspace, createObject, updateObjectRotation, type Contact, type ContactWorkspace, type RigidObject } from './contact';
+import { computeGrasp, createGraspResult, createGraspWorkspace, type GraspResult, type GraspWorkspace } from './grasp';
+import { createFinger, forwardKinematics, type Finger } from './hand';
+import { createFullSolution, createSolveWorkspace, createSteerAndRoll, solveFull, solveSteerAndRoll, type FullSolution, type SolveWorkspace, type SteerAndRoll } from './solve';
+import { checkFinger, checkGrasp, clearWarnings, createWarningList, worstSeverity, type SheetWarning, type WarningList, type WarningSeverity } from './warnings';
+import type { Vec3Like } from './vec3';
+
+/** A compiled sheet. Mutate object and finger angles in place, then call solveScene. */
+export interface Scene {
+  document: SheetDocument;
+  object: RigidObject;
+  fingers: Finger[];
+  settings: SolverSettings;
+  workspace: SceneWorkspace;
+}
+
+/** Scratch owned by a scene. */
+export interface SceneWorkspace {
+  contact: ContactWorkspace;
+  solve: SolveWorkspace;
+  grasp: GraspWorkspace;
+  contactPoints: Float64Array;
+  contactNormals: Float64Array;
+}
+
+/** Everything computed for one finger (world frame, SI). */
+export interface FingerResult {
+  name: string;
+  jointNames: string[];
+  /** Joint angles used, rad; current joint axes (unit) and axis points (m), 3 per joint. */
+  jointAngles: Float64Array;
+  jointAxes: Float64Array;
+  jointPoints: Float64Array;
+  /** Roller centre, m, and roller axis (unit; zero for a sphere roller without a roll joint). */
+  rollerCenter: Float64Array;
+  rollerAxis: Float64Array;
+  contact: Contact;
+  full: FullSolution;
+  steer: SteerAndRoll;
+}
+
+/** The result of solving a sheet once. */
+export interface SheetResult {
+  /** Object state used: origin (m), orientation [x, y, z, w], origin velocity (m/s), angular velocity (rad/s). */
+  object: { position: Float64Array; orientation: Float64Array; linearVelocity: Float64Array; angularVelocity: Float64Array };
+  fingers: FingerResult[];
+  grasp: GraspResult;
+  /** Raised warnings, in finger order, then the grasp warning. */
+  warnings: SheetWarning[];
+  worstSeverity: WarningSeverity | 'none';
+  /** Pool behind `warnings`; reused by the next solve into this result. */
+  warningList: WarningList;
+}
+
+/** Compiles a sheet document into a reusable scene (world frame, SI). */
+export function createScene(doc: SheetDocument): Scene {
+  const fingers = doc.hand.fingers.map(createFinger);
+  const maxJoints = fingers.reduce((m, f) => Math.max(m, f.jointCount), 1);
+  const count = Math.max(1, fingers.length);
+  return {
+    document: doc,
+    object: createObject(doc.object),
+    fingers,
+    settings: { ...doc.solver },
+    workspace: {
+      contact: createContactWorkspace(),
+      solve: createSolveWorkspace(maxJoints),
+      grasp: createGraspWorkspace(count),
+      contactPoints: new Float64Array(3 * count),
+      contactNormals: new Float64Array(3 * count),
+    },
+  };
+}
+
+/** Empty result shaped for the scene, to pass as `out` to solveScene. */
+export function createResult(scene: Scene): SheetResult {
+  const warningList = createWarningList();
+  return {
+    object: { position: new Float64Array(3), orientation: new Float64Array(4), linearVelocity: new Float64Array(3), angularVelocity: new Float64Array(3) },
+    fingers: scene.fingers.map((f) => ({
+      name: f.name,
+      jointNames: f.jointNames.slice(),
+      jointAngles: new Float64Array(f.jointCount),
+      jointAxes: new Float64Array(3 * f.jointCount),
+      jointPoints: new Float64Array(3 * f.jointCount),
+      rollerCenter: new Float64Array(3),
+      rollerAxis: new Float64Array(3),
+      contact: createContact(),
+      full: createFullSolution(f.jointCount),
+      steer: createSteerAndRoll(f.jointCount),
+    })),
+    grasp: createGraspResult(Math.max(1, scene.fingers.length)),
+    warnings: warningList.items,
+    worstSeverity: 'none',
+    warningList,
+  };
+}
+
+/** Solves every finger's contact, full and steer-and-roll rates, the grasp and the warnings at the scene's current state (world frame, SI). */
+export function solveScene(scene: Scene, out: SheetResult = createResult(scene)): SheetResult {
+  const { object, fingers, settings, workspace } = scene;
+  updateObjectRotation(object);
+  out.object.position.set(object.position);
+  out.object.orientation.set(object.orientation);
+  out.object.linearVelocity.set(object.linearVelocity);
+  out.object.angularVelocity.set(object.angularVelocity);
+  const list = out.warningList;
+  clearWarnings(list);
+  const points = workspace.contactPoints, normals = workspace.contactNormals;
+  for (let i = 0; i < fingers.length; i++) {
+    const finger = fingers[i];
+    const r = out.fingers[i];
+    forwardKinematics(finger);
+    computeContact(object, finger, settings.contactTolerance, r.contact, workspace.contact);
+    solveFull(finger, r.contact, object.angularVelocity, settings, r.full, workspace.solve);
+    solveSteerAndRoll(finger, r.contact, r.full, r.steer, workspace.solve);
+    r.jointAngles.set(finger.angles);
+    r.jointAxes.set(finger.axes);
+    r.jointPoints.set(finger.points);
+    r.rollerCenter.set(finger.rollerCenter);
+    r.rollerAxis.set(finger.rollerAxis);
+    const x = r.contact.objectPoint, n = r.contact.normal;
+    points[3 * i] = x[0]; points[3 * i + 1] = x[1]; points[3 * i + 2] = x[2];
+    normals[3 * i] = n[0]; normals[3 * i + 1] = n[1]; normals[3 * i + 2] = n[2];
+    checkFinger(list, i, finger, r.contact, r.full, r.steer, settings);
+  }
+  computeGrasp(object.position, points, normals, fingers.length, settings.softFinger, settings.singularRatio, out.grasp, workspace.grasp);
+  checkGrasp(list, out.grasp);
+  out.warnings = list.items;
+  out.worstSeverity = worstSeverity(list.items);
+  return out;
+}
+
+/** Compiles and solves a sheet in one call (world frame, SI). */
+export function solveSheet(doc: SheetDocument): SheetResult {
+  return solveScene(createScene(doc));
+}
+
+/** Sets the object pose: origin (m) and orientation quaternion [x, y, z, w] (world frame). */
+export function setObjectPose(scene: Scene, position: Vec3Like, orientation: ArrayLike<number>): void {
+  const o = scene.object;
+  o.position[0] = position[0]; o.position[1] = position[1]; o.position[2] = position[2];
+  o.orientation[0] = orientation[0]; o.orientation[1] = orientation[1]; o.orientation[2] = orientation[2]; o.orientation[3] = orientation[3];
+}
+
+/** Sets the object twist: origin velocity (m/s) and angular velocity (rad/s), world frame. */
+export function setObjectTwist(scene: Scene, linear: Vec3Like, angular: Vec3Like): void {
+  const o = scene.object;
+  o.linearVelocity[0] = linear[0]; o.linearVelocity[1] = linear[1]; o.linearVelocity[2] = linear[2];
+  o.angularVelocity[0] = angular[0]; o.angularVelocity[1] = angular[1]; o.angularVelocity[2] = angular[2];
+}
+
+/** Sets one finger's joint angles (rad). */
+export function setJointAngles(scene: Scene, fingerIndex: number, angles: ArrayLike<number>): void {
+  const finger = scene.fingers[fingerIndex];
+  for (let k = 0; k < finger.jointCount; k++) finger.angles[k] = angles[k];
+}
+
+type Plain<T> = T extends Float64Array
+  ? number[]
+  : T extends WarningList
+    ? never
+    : T extends { data: Float64Array; rows: number; cols: number }
+      ? number[][]
+      : T extends (infer U)[]
+        ? Plain<U>[]
+        : T extends object
+          ? { [K in keyof T as T[K] extends WarningList ? never : K]: Plain<T[K]> }
+          : T;
+
+/** SheetResult with typed arrays as plain arrays and matrices as rows (JSON-ready). */
+export type PlainSheetResult = Plain<SheetResult>;
+
+/** JSON-ready copy of a result: Float64Arrays become arrays, matrices become arrays of rows, non-finite numbers stay as they are. */
+export function toPlainResult(result: SheetResult): PlainSheetResult {
+  return toPlain(result) as PlainSheetResult;
+}
+
+function toPlain(value: unknown): unknown {
+  if (value instanceof Float64Array) return Array.from(value);
+  if (Array.isArray(value)) return value.map(toPlain);
+  if (value !== null && typeof value === 'object') {
+    const record = value as Record<string, unknown>;
+    if (record.data instanceof Float64Array && typeof record.rows === 'number' && typeof record.cols === 'number') {
+      const rows: number[][] = [];
+      for (let i = 0; i < record.rows; i++) rows.push(Array.from(record.data.subarray(i * record.cols, (i + 1) * record.cols)));
+      return rows;
+    }
+    const out: Record<string, unknown> = {};
+    for (const [key, item] of Object.entries(record)) {
+      if (key === 'warningList') continue;
+      out[key] = toPlain(item);
+    }
+    return out;
+  }
+  return value;
+}

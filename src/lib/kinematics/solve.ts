@@ -1,0 +1,375 @@
+/**
+ * Joint rates for rolling without slipping at one contact (world frame, SI).
+ * Full solution: the roller's material point at y must move with the object, so
+ * sum_k theta_dot_k w_k x (y - r_k) = v_o(x) (revolute joint columns, Murray, Li & Sastry 1994,
+ * ch. 3, sec. 4), solved by damped least squares (Wampler 1986; Nakamura & Hanafusa 1986).
+ * Steer-and-roll solution: the base supplies the normal velocity, the pivot turns the roll
+ * direction onto what is left, and the roll joint supplies its magnitude.
+ */
+import type { SolverSettings } from '../sheet/types';
+import type { Contact } from './contact';
+import type { Finger } from './hand';
+import {
+  conditionNumber, createLinalgWorkspace, createMatrix, dampedLeastSquares, manipulability, singularValues,
+  type LinalgWorkspace, type Matrix,
+} from './linalg';
+
+/** Damped least-squares solution of J theta_dot = v_o(x) for one finger. */
+export interface FullSolution {
+  /** Rows of the solved system: 3 (point contact) or 4 (soft finger, last row n . omega). */
+  rows: number;
+  /** Contact Jacobian, rows x joints, row-major: columns w_k x (y - r_k) in m/rad, soft-finger row n . w_k. */
+  jacobian: Matrix;
+  /** Right-hand side: v_o(x) in m/s, then n . omega_object in rad/s for a soft finger. */
+  target: Float64Array;
+  /** Joint rates, rad/s. */
+  rates: Float64Array;
+  /** J theta_dot, same units as target. */
+  achieved: Float64Array;
+  /** target - achieved: the slip the joints cannot remove. */
+  residual: Float64Array;
+  /** Norm of the translational residual, m/s. */
+  residualNorm: number;
+  /** Soft-finger spin residual, rad/s (0 for point contact). */
+  spinResidual: number;
+  /** Singular values of the 3 x n translational Jacobian, descending, m/rad (missing ones are 0). */
+  singularValues: Float64Array;
+  /** sigma_min / sigma_max of the translational Jacobian (dimensionless; 0 at rank loss). */
+  singularRatio: number;
+  /** sigma_max / sigma_min (dimensionless; Infinity at rank loss). */
+  conditionNumber: number;
+  /** Yoshikawa manipulability sqrt(det(J J^T)) of the translational Jacobian, m^3/rad^3. */
+  manipulability: number;
+}
+
+/** Steer-and-roll solution for one finger (world frame, SI). */
+export interface SteerAndRoll {
+  /** The finger has a base, a pivot and a roll joint. */
+  available: boolean;
+  /** n . (w_base x (y - r_base)): normal contact speed per unit base rate, m/rad. */
+  normalGain: number;
+  /** Base rate n . v_o / normalGain, rad/s (0 when the gain vanishes). */
+  baseRate: number;
+  /** v_o(x) - baseRate (w_base x (y - r_base)), m/s: what the roller must supply. */
+  remainder: Float64Array;
+  remainderNorm: number;
+  /** Pivot change from the current angle and the steered pivot angle, rad. */
+  pivotChange: number;
+  pivotAngle: number;
+  /** The roll direction could be aligned exactly with the remainder. */
+  aligned: boolean;
+  /** Angle between the steered roll direction and the remainder's line, rad. */
+  misalignment: number;
+  /** Distance from the contact to the roll axis after steering, m. */
+  rollDistance: number;
+  /** Roll rate remainder . d / |d|^2 with d = w_roll x (y - r_roll) after steering, rad/s (= +-|remainder| / rollDistance when aligned). */
+  rollRate: number;
+  /** Joint rates: base and roll set, every other joint 0, rad/s. */
+  rates: Float64Array;
+  /** Translational Jacobian after steering (3 x joints, m/rad). */
+  jacobianAfter: Matrix;
+  /** J_after rates, m/s; residual v_o(x) - achieved and its norm. */
+  achieved: Float64Array;
+  residual: Float64Array;
+  residualNorm: number;
+  /** Condition numbers before and after steering, and the singular values after (m/rad). */
+  conditionBefore: number;
+  conditionAfter: number;
+  singularValuesAfter: Float64Array;
+  /** rates - full solution rates, rad/s, and its norm. */
+  rateDifference: Float64Array;
+  rateDifferenceNorm: number;
+}
+
+/** Scratch shared by the per-finger solves of one scene. */
+export interface SolveWorkspace {
+  linalg: LinalgWorkspace;
+  translational: Matrix;
+  singular: Float64Array;
+  /** D0, D1, D2 of the roll direction d(delta) = D0 + D1 cos delta + D2 sin delta. */
+  steer: Float64Array;
+}
+
+/** New solve scratch for fingers of up to maxJoints joints. */
+export function createSolveWorkspace(maxJoints: number): SolveWorkspace {
+  return {
+    linalg: createLinalgWorkspace(4, Math.max(4, maxJoints)),
+    translational: createMatrix(3, Math.max(1, maxJoints)),
+    singular: new Float64Array(4),
+    steer: new Float64Array(9),
+  };
+}
+
+/** Empty full solution for a finger of n joints. */
+export function createFullSolution(jointCount: number): FullSolution {
+  return {
+    rows: 3,
+    jacobian: createMatrix(4, jointCount),
+    target: new Float64Array(4),
+    rates: new Float64Array(jointCount),
+    achieved: new Float64Array(4),
+    residual: new Float64Array(4),
+    residualNorm: 0,
+    spinResidual: 0,
+    singularValues: new Float64Array(3),
+    singularRatio: 0,
+    conditionNumber: Number.POSITIVE_INFINITY,
+    manipulability: 0,
+  };
+}
+
+/** Empty steer-and-roll solution for a finger of n joints. */
+export function createSteerAndRoll(jointCount: number): SteerAndRoll {
+  return {
+    available: false,
+    normalGain: 0,
+    baseRate: 0,
+    remainder: new Float64Array(3),
+    remainderNorm: 0,
+    pivotChange: 0,
+    pivotAngle: 0,
+    aligned: false,
+    misalignment: 0,
+    rollDistance: 0,
+    rollRate: 0,
+    rates: new Float64Array(jointCount),
+    jacobianAfter: createMatrix(3, jointCount),
+    achieved: new Float64Array(3),
+    residual: new Float64Array(3),
+    residualNorm: 0,
+    conditionBefore: Number.POSITIVE_INFINITY,
+    conditionAfter: Number.POSITIVE_INFINITY,
+    singularValuesAfter: new Float64Array(3),
+    rateDifference: new Float64Array(jointCount),
+    rateDifferenceNorm: 0,
+  };
+}
+
+/**
+ * Writes the 3 x n contact Jacobian with columns w_k x (y - r_k) into out (m/rad), from axes
+ * and points packed 3 per joint (world frame); out.data is row-major with out.cols = n.
+ */
+export function contactJacobian(axes: ArrayLike<number>, points: ArrayLike<number>, jointCount: number, y: ArrayLike<number>, out: Matrix): Matrix {
+  const n = jointCount, d = out.data;
+  out.rows = 3;
+  out.cols = n;
+  for (let k = 0, o = 0; k < n; k++, o += 3) {
+    const wx = axes[o], wy = axes[o + 1], wz = axes[o + 2];
+    const ex = y[0] - points[o], ey = y[1] - points[o + 1], ez = y[2] - points[o + 2];
+    d[k] = wy * ez - wz * ey;
+    d[n + k] = wz * ex - wx * ez;
+    d[2 * n + k] = wx * ey - wy * ex;
+  }
+  return out;
+}
+
+/** Singular values (padded with zeros to three), their ratio and condition number of a 3 x n Jacobian (m/rad). */
+function conditioning(j: Matrix, out: Float64Array, ws: SolveWorkspace): number {
+  const count = j.cols < 3 ? j.cols : 3;
+  if (count > 0) singularValues(j, ws.singular, ws.linalg);
+  for (let i = 0; i < 3; i++) out[i] = i < count ? ws.singular[i] : 0;
+  return conditionNumber(out, 3);
+}
+
+/** Full damped least-squares solution for one finger after its contact is computed (world frame, SI). */
+export function solveFull(finger: Finger, contact: Contact, angularVelocity: ArrayLike<number>, settings: SolverSettings, out: FullSolution, ws: SolveWorkspace): FullSolution {
+  const n = finger.jointCount;
+  const j = out.jacobian;
+  contactJacobian(finger.axes, finger.points, n, contact.rollerPoint, j);
+  const target = out.target, v = contact.objectVelocity, nrm = contact.normal;
+  target[0] = v[0]; target[1] = v[1]; target[2] = v[2];
+  let rows = 3;
+  if (settings.softFinger) {
+    // No spin about the normal: n . (sum_k w_k theta_dot_k) = n . omega_object.
+    rows = 4;
+    const d = j.data, axes = finger.axes;
+    for (let k = 0; k < n; k++) d[3 * n + k] = nrm[0] * axes[3 * k] + nrm[1] * axes[3 * k + 1] + nrm[2] * axes[3 * k + 2];
+    target[3] = nrm[0] * angularVelocity[0] + nrm[1] * angularVelocity[1] + nrm[2] * angularVelocity[2];
+  } else {
+    target[3] = 0;
+  }
+  j.rows = rows;
+  out.rows = rows;
+  dampedLeastSquares(j, target, settings.damping, out.rates, ws.linalg);
+  const d = j.data, rates = out.rates;
+  let translational = 0;
+  for (let i = 0; i < 4; i++) {
+    let sum = 0;
+    if (i < rows) for (let k = 0; k < n; k++) sum += d[i * n + k] * rates[k];
+    out.achieved[i] = sum;
+    out.residual[i] = i < rows ? target[i] - sum : 0;
+    if (i < 3) translational += out.residual[i] * out.residual[i];
+  }
+  out.residualNorm = Math.sqrt(translational);
+  out.spinResidual = rows === 4 ? Math.abs(out.residual[3]) : 0;
+  j.rows = 3;
+  out.conditionNumber = conditioning(j, out.singularValues, ws);
+  const s = out.singularValues;
+  out.singularRatio = s[0] > 0 ? s[2] / s[0] : 0;
+  out.manipulability = n >= 3 ? manipulability(j, ws.linalg) : 0;
+  j.rows = rows;
+  return out;
+}
+
+function wrapAngle(angle: number): number {
+  const turns = Math.round(angle / (2 * Math.PI));
+  return angle - turns * 2 * Math.PI;
+}
+
+/** Steer-and-roll solution for one finger after solveFull (world frame, SI). */
+export function solveSteerAndRoll(finger: Finger, contact: Contact, full: FullSolution, out: SteerAndRoll, ws: SolveWorkspace): SteerAndRoll {
+  const n = finger.jointCount;
+  const b = finger.baseIndex, pv = finger.pivotIndex, rl = finger.rollIndex;
+  const rates = out.rates;
+  for (let k = 0; k < n; k++) rates[k] = 0;
+  out.conditionBefore = full.conditionNumber;
+  out.available = b >= 0 && pv >= 0 && rl >= 0;
+  const axes = finger.axes, points = finger.points;
+  const y = contact.rollerPoint, nrm = contact.normal, v = contact.objectVelocity;
+  const u = out.remainder;
+
+  // Base: its column's normal component must produce the normal part of the contact velocity.
+  let jbx = 0, jby = 0, jbz = 0;
+  if (b >= 0) {
+    const o = 3 * b;
+    const ex = y[0] - points[o], ey = y[1] - points[o + 1], ez = y[2] - points[o + 2];
+    jbx = axes[o + 1] * ez - axes[o + 2] * ey;
+    jby = axes[o + 2] * ex - axes[o] * ez;
+    jbz = axes[o] * ey - axes[o + 1] * ex;
+  }
+  const gain = nrm[0] * jbx + nrm[1] * jby + nrm[2] * jbz;
+  const normalSpeed = nrm[0] * v[0] + nrm[1] * v[1] + nrm[2] * v[2];
+  const baseRate = gain !== 0 && Number.isFinite(normalSpeed / gain) ? normalSpeed / gain : 0;
+  out.normalGain = gain;
+  out.baseRate = baseRate;
+  u[0] = v[0] - baseRate * jbx;
+  u[1] = v[1] - baseRate * jby;
+  u[2] = v[2] - baseRate * jbz;
+  const uNorm = Math.sqrt(u[0] * u[0] + u[1] * u[1] + u[2] * u[2]);
+  out.remainderNorm = uNorm;
+  if (b >= 0) rates[b] = baseRate;
+
+  if (!out.available) {
+    out.pivotChange = 0;
+    out.pivotAngle = pv >= 0 ? finger.angles[pv] : Number.NaN;
+    out.aligned = false;
+    out.misalignment = Number.NaN;
+    out.rollDistance = Number.NaN;
+    out.rollRate = 0;
+  } else {
+    steer(finger, contact, out, ws, uNorm);
+  }
+
+  // Jacobian after steering: joints beyond the pivot turn about the pivot line by pivotChange.
+  const ja = out.jacobianAfter;
+  contactJacobian(axes, points, n, y, ja);
+  if (out.available && out.pivotChange !== 0) steeredColumns(finger, y, out.pivotChange, ja);
+  const d = ja.data;
+  let residual = 0;
+  for (let i = 0; i < 3; i++) {
+    let sum = 0;
+    for (let k = 0; k < n; k++) sum += d[i * n + k] * rates[k];
+    out.achieved[i] = sum;
+    out.residual[i] = v[i] - sum;
+    residual += out.residual[i] * out.residual[i];
+  }
+  out.residualNorm = Math.sqrt(residual);
+  out.conditionAfter = conditioning(ja, out.singularValuesAfter, ws);
+  let difference = 0;
+  for (let k = 0; k < n; k++) {
+    const dk = rates[k] - full.rates[k];
+    out.rateDifference[k] = dk;
+    difference += dk * dk;
+  }
+  out.rateDifferenceNorm = Math.sqrt(difference);
+  return out;
+}
+
+/**
+ * Rodrigues about the pivot (unit k through q): R(delta) x = A + B cos delta + C sin delta with
+ * A = (k . x) k, B = x - A, C = k x x. With e = y - q and g = w_roll x (r_roll - q), the roll
+ * direction d(delta) = R w_roll x e - R g is linear in (1, cos, sin), so aligning it with the
+ * remainder u (m . d = 0 for m = n x u) is a + b cos delta + c sin delta = 0.
+ */
+function steer(finger: Finger, contact: Contact, out: SteerAndRoll, ws: SolveWorkspace, uNorm: number): void {
+  const axes = finger.axes, points = finger.points;
+  const po = 3 * finger.pivotIndex, ro = 3 * finger.rollIndex;
+  const kx = axes[po], ky = axes[po + 1], kz = axes[po + 2];
+  const qx = points[po], qy = points[po + 1], qz = points[po + 2];
+  const y = contact.rollerPoint, nrm = contact.normal, u = out.remainder;
+  const ex = y[0] - qx, ey = y[1] - qy, ez = y[2] - qz;
+  const wx = axes[ro], wy = axes[ro + 1], wz = axes[ro + 2];
+  const sx = points[ro] - qx, sy = points[ro + 1] - qy, sz = points[ro + 2] - qz;
+  const gx = wy * sz - wz * sy, gy = wz * sx - wx * sz, gz = wx * sy - wy * sx;
+  const kw = kx * wx + ky * wy + kz * wz;
+  const awx = kw * kx, awy = kw * ky, awz = kw * kz;
+  const bwx = wx - awx, bwy = wy - awy, bwz = wz - awz;
+  const cwx = ky * wz - kz * wy, cwy = kz * wx - kx * wz, cwz = kx * wy - ky * wx;
+  const kg = kx * gx + ky * gy + kz * gz;
+  const agx = kg * kx, agy = kg * ky, agz = kg * kz;
+  const bgx = gx - agx, bgy = gy - agy, bgz = gz - agz;
+  const cgx = ky * gz - kz * gy, cgy = kz * gx - kx * gz, cgz = kx * gy - ky * gx;
+  const D = ws.steer;
+  D[0] = awy * ez - awz * ey - agx; D[1] = awz * ex - awx * ez - agy; D[2] = awx * ey - awy * ex - agz;
+  D[3] = bwy * ez - bwz * ey - bgx; D[4] = bwz * ex - bwx * ez - bgy; D[5] = bwx * ey - bwy * ex - bgz;
+  D[6] = cwy * ez - cwz * ey - cgx; D[7] = cwz * ex - cwx * ez - cgy; D[8] = cwx * ey - cwy * ex - cgz;
+
+  let delta = 0;
+  let aligned = false;
+  if (uNorm > 0) {
+    const mx = (nrm[1] * u[2] - nrm[2] * u[1]) / uNorm;
+    const my = (nrm[2] * u[0] - nrm[0] * u[2]) / uNorm;
+    const mz = (nrm[0] * u[1] - nrm[1] * u[0]) / uNorm;
+    const a = mx * D[0] + my * D[1] + mz * D[2];
+    const bc = mx * D[3] + my * D[4] + mz * D[5];
+    const cs = mx * D[6] + my * D[7] + mz * D[8];
+    const amplitude = Math.sqrt(bc * bc + cs * cs);
+    if (amplitude > 0) {
+      const phase = Math.atan2(cs, bc);
+      const ratio = -a / amplitude;
+      aligned = ratio >= -1 && ratio <= 1;
+      // Out of reach: the closest approach is where the cosine saturates.
+      const spread = Math.acos(ratio > 1 ? 1 : ratio < -1 ? -1 : ratio);
+      const first = wrapAngle(phase + spread), second = wrapAngle(phase - spread);
+      delta = Math.abs(first) <= Math.abs(second) ? first : second;
+    }
+  }
+  const cos = Math.cos(delta), sin = Math.sin(delta);
+  const dx = D[0] + D[3] * cos + D[6] * sin;
+  const dy = D[1] + D[4] * cos + D[7] * sin;
+  const dz = D[2] + D[5] * cos + D[8] * sin;
+  const dd = dx * dx + dy * dy + dz * dz;
+  const du = dx * u[0] + dy * u[1] + dz * u[2];
+  out.pivotChange = delta;
+  out.pivotAngle = finger.angles[finger.pivotIndex] + delta;
+  out.aligned = aligned || uNorm === 0;
+  out.rollDistance = Math.sqrt(dd);
+  out.rollRate = dd > 0 ? du / dd : 0;
+  out.rates[finger.rollIndex] = out.rollRate;
+  const crossX = dy * u[2] - dz * u[1], crossY = dz * u[0] - dx * u[2], crossZ = dx * u[1] - dy * u[0];
+  out.misalignment = dd > 0 && uNorm > 0 ? Math.atan2(Math.sqrt(crossX * crossX + crossY * crossY + crossZ * crossZ), Math.abs(du)) : 0;
+}
+
+/** Rewrites the Jacobian columns of joints after the pivot as if the pivot had turned by delta (m/rad). */
+function steeredColumns(finger: Finger, y: ArrayLike<number>, delta: number, j: Matrix): void {
+  const axes = finger.axes, points = finger.points, n = finger.jointCount, d = j.data;
+  const po = 3 * finger.pivotIndex;
+  const kx = axes[po], ky = axes[po + 1], kz = axes[po + 2];
+  const qx = points[po], qy = points[po + 1], qz = points[po + 2];
+  const c = Math.cos(delta), s = Math.sin(delta), v = 1 - c;
+  const r0 = 1 - v * (ky * ky + kz * kz), r1 = v * kx * ky - s * kz, r2 = v * kx * kz + s * ky;
+  const r3 = v * kx * ky + s * kz, r4 = 1 - v * (kx * kx + kz * kz), r5 = v * ky * kz - s * kx;
+  const r6 = v * kx * kz - s * ky, r7 = v * ky * kz + s * kx, r8 = 1 - v * (kx * kx + ky * ky);
+  for (let k = finger.pivotIndex + 1; k < n; k++) {
+    const o = 3 * k;
+    const ax = axes[o], ay = axes[o + 1], az = axes[o + 2];
+    const wx = r0 * ax + r1 * ay + r2 * az, wy = r3 * ax + r4 * ay + r5 * az, wz = r6 * ax + r7 * ay + r8 * az;
+    const px = points[o] - qx, py = points[o + 1] - qy, pz = points[o + 2] - qz;
+    const ex = y[0] - (r0 * px + r1 * py + r2 * pz + qx);
+    const ey = y[1] - (r3 * px + r4 * py + r5 * pz + qy);
+    const ez = y[2] - (r6 * px + r7 * py + r8 * pz + qz);
+    d[k] = wy * ez - wz * ey;
+    d[n + k] = wz * ex - wx * ez;
+    d[2 * n + k] = wx * ey - wy * ex;
+  }
+}

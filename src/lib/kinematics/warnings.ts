@@ -1,0 +1,277 @@
+/**
+ * Coded warnings raised by a sheet solve. The catalogue is the single source of each code's
+ * severity, title and explanation; a raised warning adds the finger (and joint), the measured
+ * value and the threshold it crossed.
+ */
+import type { SolverSettings } from '../sheet/types';
+import type { Contact } from './contact';
+import type { GraspResult } from './grasp';
+import type { Finger } from './hand';
+import type { FullSolution, SteerAndRoll } from './solve';
+
+export type WarningSeverity = 'note' | 'caution' | 'singular';
+
+export type WarningCode =
+  | 'CONTACT_NEAR_ROLL_AXIS'
+  | 'CONTACT_NEAR_PIVOT_AXIS'
+  | 'TANGENTIAL_SPEED_NEAR_ZERO'
+  | 'JACOBIAN_NEAR_RANK_LOSS'
+  | 'NORMAL_VELOCITY_UNREACHABLE'
+  | 'JOINT_LIMIT_EXCEEDED'
+  | 'RATE_LIMIT_EXCEEDED'
+  | 'CONTACT_LOST'
+  | 'CONTACT_PENETRATING'
+  | 'GRASP_RANK_DEFICIENT'
+  | 'PIVOT_MISSES_ROLLER_CENTRE'
+  | 'STEER_CANNOT_ALIGN'
+  | 'SLIP_REQUIRED';
+
+export interface WarningInfo {
+  severity: WarningSeverity;
+  /** Short title for lists and margin notes. */
+  title: string;
+  /** One plain-words sentence used as the warning message. */
+  message: string;
+  /** What it means and what to do about it. */
+  explanation: string;
+  /** Unit of value and threshold. */
+  unit: string;
+}
+
+/** A raised warning; finger and joint are indices into the sheet's hand (undefined when not tied to one). */
+export interface SheetWarning {
+  code: WarningCode;
+  severity: WarningSeverity;
+  finger: number | undefined;
+  joint: number | undefined;
+  message: string;
+  /** The measured quantity and the threshold it crossed, in the catalogue unit. */
+  value: number;
+  threshold: number;
+}
+
+/** Every warning code with its severity, title, message and explanation. */
+export const WARNING_CATALOGUE: Readonly<Record<WarningCode, WarningInfo>> = {
+  CONTACT_NEAR_ROLL_AXIS: {
+    severity: 'caution',
+    title: 'Contact near the roll axis',
+    message: 'The contact point lies close to the roll axis, so rolling barely moves it.',
+    explanation:
+      'Rolling moves the contact at a speed equal to the roll rate times the distance from the contact to the roll axis. Near the axis that distance vanishes and the roll rate needed grows without bound. Move the contact away from the roller pole, or tilt the roller.',
+    unit: 'm',
+  },
+  CONTACT_NEAR_PIVOT_AXIS: {
+    severity: 'note',
+    title: 'Contact near the pivot axis',
+    message: 'The contact point lies close to the pivot axis, so the pivot only spins the roller about the contact.',
+    explanation:
+      'Turning the pivot then steers the roll direction without moving the contact, which is what steering wants, but the pivot contributes almost nothing to the contact velocity and the contact Jacobian loses a column.',
+    unit: 'm',
+  },
+  TANGENTIAL_SPEED_NEAR_ZERO: {
+    severity: 'note',
+    title: 'Tangential speed near zero',
+    message: 'The roller has almost no tangential velocity to produce, so the steering direction is undefined.',
+    explanation:
+      'The pivot angle is chosen to point the roll direction along the tangential velocity left after the base motion. When that velocity is almost zero any pivot angle works; the steer-and-roll solution keeps the current one.',
+    unit: 'm/s',
+  },
+  JACOBIAN_NEAR_RANK_LOSS: {
+    severity: 'singular',
+    title: 'Contact Jacobian near rank loss',
+    message: 'The finger cannot move its contact point freely in all three directions here.',
+    explanation:
+      'The ratio of the smallest to the largest singular value of the contact Jacobian is below the singular-ratio setting. Joint rates along the weak direction become large or the damped solve leaves slip. Change the finger posture or the contact location.',
+    unit: '1',
+  },
+  NORMAL_VELOCITY_UNREACHABLE: {
+    severity: 'singular',
+    title: 'Normal velocity unreachable',
+    message: 'No base joint can produce the contact velocity along the normal.',
+    explanation:
+      'The object surface moves toward or away from the roller, but the finger has no base joint or the base joint moves the contact almost only tangentially (its lever arm along the normal is below the axis-distance setting). The contact will open or press in.',
+    unit: 'm/rad',
+  },
+  JOINT_LIMIT_EXCEEDED: {
+    severity: 'caution',
+    title: 'Joint limit exceeded',
+    message: 'A joint angle, or the pivot angle steering asks for, is outside its limits.',
+    explanation: 'The value is the angle and the threshold the limit it crosses. Re-plan the motion or widen the limit if the mechanism allows it.',
+    unit: 'rad',
+  },
+  RATE_LIMIT_EXCEEDED: {
+    severity: 'caution',
+    title: 'Rate limit exceeded',
+    message: 'A joint would have to turn faster than its rate limit.',
+    explanation:
+      'The value is the largest joint speed asked for by the full or the steer-and-roll solution. Slow the object motion down or move the contact where the joint has more leverage.',
+    unit: 'rad/s',
+  },
+  CONTACT_LOST: {
+    severity: 'caution',
+    title: 'Contact lost',
+    message: 'The roller does not touch the object: the gap is larger than the contact tolerance.',
+    explanation: 'Rolling kinematics assume touching bodies. The rates are computed for the nearest points all the same; close the gap first.',
+    unit: 'm',
+  },
+  CONTACT_PENETRATING: {
+    severity: 'caution',
+    title: 'Contact penetrating',
+    message: 'The roller overlaps the object by more than the contact tolerance.',
+    explanation: 'Real bodies cannot overlap; the input geometry or pose is inconsistent. Rates refer to the deepest contact direction.',
+    unit: 'm',
+  },
+  GRASP_RANK_DEFICIENT: {
+    severity: 'caution',
+    title: 'Grasp cannot drive every object motion',
+    message: 'Some object twists move no contact point, so no set of contact velocities can drive them.',
+    explanation:
+      'The stacked contact map of all contacts has rank below 6. The result lists the object twist directions in its null space; motions along them are not controlled by the rollers.',
+    unit: '1',
+  },
+  PIVOT_MISSES_ROLLER_CENTRE: {
+    severity: 'note',
+    title: 'Pivot axis misses the roller centre',
+    message: 'The pivot axis does not pass through the roller centre, so steering also moves the contact.',
+    explanation:
+      'The steer-and-roll solution assumes the contact point stays put while the pivot turns, which holds only when the pivot axis passes through the roller centre. It is then only approximate; compare it with the full solution.',
+    unit: 'm',
+  },
+  STEER_CANNOT_ALIGN: {
+    severity: 'caution',
+    title: 'Steering cannot align the roll direction',
+    message: 'No pivot angle points the roll direction along the velocity the roller must produce.',
+    explanation:
+      'The pivot turns the roll direction on a cone that does not contain the needed direction; the steer-and-roll solution uses the closest pivot angle and leaves the misalignment as slip.',
+    unit: 'rad',
+  },
+  SLIP_REQUIRED: {
+    severity: 'caution',
+    title: 'Slip required',
+    message: 'No joint rates make the roller follow the object exactly; the remaining velocity would have to slip.',
+    explanation:
+      'The residual of the full damped least-squares solution exceeds the slip tolerance (the larger of the minimum tangential speed setting and 0.1 % of the contact speed).',
+    unit: 'm/s',
+  },
+};
+
+const SEVERITY_RANK: Record<WarningSeverity, number> = { note: 1, caution: 2, singular: 3 };
+
+/** A fixed pool of warning objects reused across solves (allocation-free raising). */
+export interface WarningList {
+  /** Active warnings, in the order raised. */
+  items: SheetWarning[];
+  pool: SheetWarning[];
+  count: number;
+}
+
+/** New warning list. */
+export function createWarningList(): WarningList {
+  return { items: [], pool: [], count: 0 };
+}
+
+/** Empties the list, keeping its pooled objects. */
+export function clearWarnings(list: WarningList): void {
+  list.count = 0;
+  list.items.length = 0;
+}
+
+/** Raises a warning with its measured value and the threshold it crossed (units as in the catalogue). */
+export function raiseWarning(list: WarningList, code: WarningCode, finger: number | undefined, joint: number | undefined, value: number, threshold: number): SheetWarning {
+  const info = WARNING_CATALOGUE[code];
+  let w = list.pool[list.count];
+  if (w === undefined) {
+    w = { code, severity: info.severity, finger, joint, message: info.message, value, threshold };
+    list.pool.push(w);
+  } else {
+    w.code = code;
+    w.severity = info.severity;
+    w.finger = finger;
+    w.joint = joint;
+    w.message = info.message;
+    w.value = value;
+    w.threshold = threshold;
+  }
+  list.count++;
+  list.items.push(w);
+  return w;
+}
+
+/** Highest severity among the warnings, or 'none'. */
+export function worstSeverity(warnings: readonly SheetWarning[]): WarningSeverity | 'none' {
+  let worst: WarningSeverity | 'none' = 'none';
+  let rank = 0;
+  for (const w of warnings) {
+    const r = SEVERITY_RANK[w.severity];
+    if (r > rank) {
+      rank = r;
+      worst = w.severity;
+    }
+  }
+  return worst;
+}
+
+/** One sentence with the numbers: "finger 'index': <message> (value 0.0004 m, threshold 0.001 m)". */
+export function formatWarning(w: SheetWarning, fingerNames: readonly string[] = []): string {
+  const unit = WARNING_CATALOGUE[w.code].unit;
+  const suffix = unit === '1' ? '' : ` ${unit}`;
+  const where = w.finger === undefined ? '' : `finger '${fingerNames[w.finger] ?? w.finger}'${w.joint === undefined ? '' : `, joint ${w.joint}`}: `;
+  return `${where}${w.message} (value ${formatNumber(w.value)}${suffix}, threshold ${formatNumber(w.threshold)}${suffix})`;
+}
+
+function formatNumber(x: number): string {
+  if (!Number.isFinite(x)) return String(x);
+  return Number(x.toPrecision(4)).toString();
+}
+
+/** Share of the contact speed that may remain as residual before slip is reported (dimensionless). */
+export const SLIP_RELATIVE_TOLERANCE = 1e-3;
+
+/** Residual speed above which SLIP_REQUIRED is raised, m/s. */
+export function slipTolerance(contactSpeed: number, settings: SolverSettings): number {
+  return Math.max(settings.minTangentialSpeed, SLIP_RELATIVE_TOLERANCE * contactSpeed);
+}
+
+/** Raises every per-finger warning for finger index i after its contact and solutions are computed. */
+export function checkFinger(list: WarningList, i: number, finger: Finger, contact: Contact, full: FullSolution, steer: SteerAndRoll, settings: SolverSettings): void {
+  const tolerance = settings.contactTolerance;
+  if (contact.gap > tolerance) raiseWarning(list, 'CONTACT_LOST', i, undefined, contact.gap, tolerance);
+  else if (contact.gap < -tolerance) raiseWarning(list, 'CONTACT_PENETRATING', i, undefined, contact.gap, -tolerance);
+
+  const axisDistance = settings.axisDistance;
+  if (contact.rollAxisDistance < axisDistance) raiseWarning(list, 'CONTACT_NEAR_ROLL_AXIS', i, finger.rollIndex, contact.rollAxisDistance, axisDistance);
+  if (contact.pivotAxisDistance < axisDistance) raiseWarning(list, 'CONTACT_NEAR_PIVOT_AXIS', i, finger.pivotIndex, contact.pivotAxisDistance, axisDistance);
+  if (contact.pivotCenterDistance > axisDistance) raiseWarning(list, 'PIVOT_MISSES_ROLLER_CENTRE', i, finger.pivotIndex, contact.pivotCenterDistance, axisDistance);
+
+  // The steer direction comes from what the roller must supply after the base motion.
+  const steerSpeed = steer.available ? steer.remainderNorm : contact.tangentialSpeed;
+  if (steerSpeed < settings.minTangentialSpeed) raiseWarning(list, 'TANGENTIAL_SPEED_NEAR_ZERO', i, undefined, steerSpeed, settings.minTangentialSpeed);
+  else if (steer.available && !steer.aligned) raiseWarning(list, 'STEER_CANNOT_ALIGN', i, finger.pivotIndex, steer.misalignment, 0);
+
+  if (full.singularRatio < settings.singularRatio) raiseWarning(list, 'JACOBIAN_NEAR_RANK_LOSS', i, undefined, full.singularRatio, settings.singularRatio);
+
+  if (Math.abs(contact.normalSpeed) > settings.minTangentialSpeed && !(Math.abs(steer.normalGain) >= axisDistance)) {
+    raiseWarning(list, 'NORMAL_VELOCITY_UNREACHABLE', i, finger.baseIndex >= 0 ? finger.baseIndex : undefined, Math.abs(steer.normalGain), axisDistance);
+  }
+
+  const speed = Math.sqrt(contact.objectVelocity[0] ** 2 + contact.objectVelocity[1] ** 2 + contact.objectVelocity[2] ** 2);
+  const slip = slipTolerance(speed, settings);
+  if (full.residualNorm > slip) raiseWarning(list, 'SLIP_REQUIRED', i, undefined, full.residualNorm, slip);
+
+  for (let k = 0; k < finger.jointCount; k++) {
+    const angle = finger.angles[k];
+    if (angle < finger.lowerLimits[k]) raiseWarning(list, 'JOINT_LIMIT_EXCEEDED', i, k, angle, finger.lowerLimits[k]);
+    else if (angle > finger.upperLimits[k]) raiseWarning(list, 'JOINT_LIMIT_EXCEEDED', i, k, angle, finger.upperLimits[k]);
+    else if (k === finger.pivotIndex && steer.available) {
+      if (steer.pivotAngle < finger.lowerLimits[k]) raiseWarning(list, 'JOINT_LIMIT_EXCEEDED', i, k, steer.pivotAngle, finger.lowerLimits[k]);
+      else if (steer.pivotAngle > finger.upperLimits[k]) raiseWarning(list, 'JOINT_LIMIT_EXCEEDED', i, k, steer.pivotAngle, finger.upperLimits[k]);
+    }
+    const rate = Math.max(Math.abs(full.rates[k]), Math.abs(steer.rates[k]));
+    if (rate > finger.rateLimits[k]) raiseWarning(list, 'RATE_LIMIT_EXCEEDED', i, k, rate, finger.rateLimits[k]);
+  }
+}
+
+/** Raises GRASP_RANK_DEFICIENT when the contacts cannot drive every object twist. */
+export function checkGrasp(list: WarningList, grasp: GraspResult): void {
+  if (grasp.rank < 6) raiseWarning(list, 'GRASP_RANK_DEFICIENT', undefined, undefined, grasp.rank, 6);
+}
