@@ -16,7 +16,7 @@ export default defineConfig({
   vite: { plugins: [tailwindcss()] },
   env: {
     schema: {
-      DATABASE_URL: envField.string({ context: 'server', access: 'secret', default: 'file:data/slipless.db' }),
+      DATABASE_URL: envField.string({ context: 'server', access: 'secret', optional: true }),
     },
   },
 });
