@@ -1,0 +1,267 @@
+/**
+ * A closed-loop run from the sheet's object pose toward motion.target: each tick the controller
+ * measures the pose (optionally with seeded Gaussian noise), commands the twist gain * pose error
+ * (rotation part by the log map), solves the fingers' joint rates for that twist, and the truth
+ * advances: joint angles by rate * dt, the object pose by the exponential map of the commanded
+ * twist. Everything recorded lives in typed-array columns, one entry (or one row) per tick.
+ */
+import type { RunSettings, SheetDocument } from '../sheet/types';
+import { ROTATION_METRICS, rotationDistances } from './metrics';
+import { fromSheet, multiply } from './quat';
+import { createRandom, nextGaussian, type RandomSource } from './random';
+import { createResult, createScene, solveScene, type Scene, type SheetResult } from './scene';
+import { expMap, integratePose, poseError } from './so3';
+import { WARNING_CATALOGUE, type WarningCode, type WarningSeverity } from './warnings';
+
+export type RunStopReason = 'converged' | 'tick-limit' | 'singular';
+
+/** Warning codes in bit order of RunRecord.warningMask (bit i set = WARNING_CODES[i] raised that tick). */
+export const WARNING_CODES: readonly WarningCode[] = Object.keys(WARNING_CATALOGUE) as WarningCode[];
+
+/** Index i of SEVERITY_LEVELS is the value stored in RunRecord.worstSeverity. */
+export const SEVERITY_LEVELS: readonly (WarningSeverity | 'none')[] = ['none', 'note', 'caution', 'singular'];
+
+const METRIC_COUNT = ROTATION_METRICS.length;
+/** Columns start this long (or at the tick limit) and double beyond it. */
+const INITIAL_CAPACITY = 16_384;
+
+if (WARNING_CODES.length > 32) throw new Error('warning bit mask holds at most 32 codes');
+
+/** Per-tick history of a run; every column has tickCount entries (or rows of the stated width). */
+export interface RunRecord {
+  tickCount: number;
+  stopReason: RunStopReason;
+  settings: RunSettings;
+  fingerNames: string[];
+  jointCounts: number[];
+  /** Time at the start of the tick, s. */
+  time: Float64Array;
+  /** True object origin, m (3 per tick), and orientation [x, y, z, w] (4 per tick), world frame. */
+  position: Float64Array;
+  orientation: Float64Array;
+  /** Pose the controller measured (truth plus noise; equal to the truth without noise). */
+  measuredPosition: Float64Array;
+  measuredOrientation: Float64Array;
+  /** Commanded object twist [v (m/s); w (rad/s)], world frame, 6 per tick. */
+  twist: Float64Array;
+  /** Per finger: joint angles (rad) at the start of the tick and solved joint rates (rad/s), jointCount per tick. */
+  jointAngles: Float64Array[];
+  jointRates: Float64Array[];
+  /** |target - position| of the truth, m. */
+  positionError: Float64Array;
+  /** Orientation error of the truth by Huynh's Phi2..Phi6, ROTATION_METRICS order, 5 per tick. */
+  orientationError: Float64Array;
+  /** Bit mask over WARNING_CODES of the warnings raised that tick. */
+  warningMask: Uint32Array;
+  /** Index into SEVERITY_LEVELS of the worst warning that tick. */
+  worstSeverity: Uint8Array;
+}
+
+export interface RunOptions {
+  /** Settings to use instead of doc.motion.run. */
+  settings?: RunSettings;
+  /** Called after every progressEvery ticks (default 500) with the ticks done and the tick limit. */
+  onProgress?: (ticksDone: number, maxTicks: number) => void;
+  progressEvery?: number;
+}
+
+interface Columns {
+  capacity: number;
+  time: Float64Array;
+  position: Float64Array;
+  orientation: Float64Array;
+  measuredPosition: Float64Array;
+  measuredOrientation: Float64Array;
+  twist: Float64Array;
+  jointAngles: Float64Array[];
+  jointRates: Float64Array[];
+  positionError: Float64Array;
+  orientationError: Float64Array;
+  warningMask: Uint32Array;
+  worstSeverity: Uint8Array;
+}
+
+function createColumns(capacity: number, jointCounts: readonly number[]): Columns {
+  return {
+    capacity,
+    time: new Float64Array(capacity),
+    position: new Float64Array(3 * capacity),
+    orientation: new Float64Array(4 * capacity),
+    measuredPosition: new Float64Array(3 * capacity),
+    measuredOrientation: new Float64Array(4 * capacity),
+    twist: new Float64Array(6 * capacity),
+    jointAngles: jointCounts.map((n) => new Float64Array(n * capacity)),
+    jointRates: jointCounts.map((n) => new Float64Array(n * capacity)),
+    positionError: new Float64Array(capacity),
+    orientationError: new Float64Array(METRIC_COUNT * capacity),
+    warningMask: new Uint32Array(capacity),
+    worstSeverity: new Uint8Array(capacity),
+  };
+}
+
+function grown<T extends Float64Array | Uint32Array | Uint8Array>(column: T, length: number): T {
+  const next = new (column.constructor as new (n: number) => T)(length);
+  next.set(column);
+  return next;
+}
+
+/** Doubles every column (up to the tick limit), keeping what was recorded. */
+function growColumns(c: Columns, limit: number): void {
+  const capacity = Math.min(limit, 2 * c.capacity);
+  c.time = grown(c.time, capacity);
+  c.position = grown(c.position, 3 * capacity);
+  c.orientation = grown(c.orientation, 4 * capacity);
+  c.measuredPosition = grown(c.measuredPosition, 3 * capacity);
+  c.measuredOrientation = grown(c.measuredOrientation, 4 * capacity);
+  c.twist = grown(c.twist, 6 * capacity);
+  c.jointAngles = c.jointAngles.map((column) => grown(column, (column.length / c.capacity) * capacity));
+  c.jointRates = c.jointRates.map((column) => grown(column, (column.length / c.capacity) * capacity));
+  c.positionError = grown(c.positionError, capacity);
+  c.orientationError = grown(c.orientationError, METRIC_COUNT * capacity);
+  c.warningMask = grown(c.warningMask, capacity);
+  c.worstSeverity = grown(c.worstSeverity, capacity);
+  c.capacity = capacity;
+}
+
+const CODE_BIT = new Map<WarningCode, number>(WARNING_CODES.map((code, i) => [code, i]));
+const SEVERITY_INDEX = new Map<WarningSeverity | 'none', number>(SEVERITY_LEVELS.map((level, i) => [level, i]));
+
+/** Runs the sheet's closed loop toward motion.target and records every tick (world frame, SI). */
+export function runSheet(doc: SheetDocument, options: RunOptions = {}): RunRecord {
+  return runScene(createScene(doc), options.settings ?? doc.motion.run, options);
+}
+
+/** Runs from the scene's current object pose and joint angles toward its document's target; the scene ends in the final state. */
+export function runScene(scene: Scene, settings: RunSettings, options: RunOptions = {}): RunRecord {
+  const { gain, dt, maxTicks, positionTolerance, angleTolerance, stopOnSingular, noise } = settings;
+  const target = scene.document.motion.target;
+  const targetPosition = Float64Array.from(target.position);
+  const targetOrientation = fromSheet(target.orientation, new Float64Array(4));
+  const fingers = scene.fingers;
+  const jointCounts = fingers.map((f) => f.jointCount);
+  const columns = createColumns(Math.min(maxTicks, INITIAL_CAPACITY), jointCounts);
+  const result: SheetResult = createResult(scene);
+  const object = scene.object;
+
+  const position = Float64Array.from(object.position);
+  const orientation = Float64Array.from(object.orientation);
+  const measuredPosition = new Float64Array(3);
+  const measuredOrientation = new Float64Array(4);
+  const error = new Float64Array(6);
+  const linear = new Float64Array(3);
+  const angular = new Float64Array(3);
+  const noiseRotation = new Float64Array(3);
+  const noiseQuat = new Float64Array(4);
+  const distances = new Float64Array(METRIC_COUNT);
+  const random: RandomSource | null = noise ? createRandom(noise.seed) : null;
+  const progressEvery = Math.max(1, options.progressEvery ?? 500);
+  const geodesicIndex = ROTATION_METRICS.findIndex((m) => m.key === 'phi6');
+
+  let stopReason: RunStopReason = 'tick-limit';
+  let tick = 0;
+  while (tick < maxTicks) {
+    if (tick === columns.capacity) growColumns(columns, maxTicks);
+    measure(position, orientation, measuredPosition, measuredOrientation, random, noise, noiseRotation, noiseQuat);
+    poseError(measuredPosition, measuredOrientation, targetPosition, targetOrientation, error);
+    linear[0] = gain * error[0]; linear[1] = gain * error[1]; linear[2] = gain * error[2];
+    angular[0] = gain * error[3]; angular[1] = gain * error[4]; angular[2] = gain * error[5];
+    object.position.set(measuredPosition);
+    object.orientation.set(measuredOrientation);
+    object.linearVelocity.set(linear);
+    object.angularVelocity.set(angular);
+    solveScene(scene, result);
+
+    columns.time[tick] = tick * dt;
+    columns.position.set(position, 3 * tick);
+    columns.orientation.set(orientation, 4 * tick);
+    columns.measuredPosition.set(measuredPosition, 3 * tick);
+    columns.measuredOrientation.set(measuredOrientation, 4 * tick);
+    columns.twist.set(linear, 6 * tick);
+    columns.twist.set(angular, 6 * tick + 3);
+    for (let i = 0; i < fingers.length; i++) {
+      const n = jointCounts[i]!;
+      columns.jointAngles[i]!.set(fingers[i]!.angles, n * tick);
+      columns.jointRates[i]!.set(result.fingers[i]!.full.rates.subarray(0, n), n * tick);
+    }
+    const dx = targetPosition[0]! - position[0]!, dy = targetPosition[1]! - position[1]!, dz = targetPosition[2]! - position[2]!;
+    const positionError = Math.sqrt(dx * dx + dy * dy + dz * dz);
+    columns.positionError[tick] = positionError;
+    rotationDistances(orientation, targetOrientation, distances);
+    columns.orientationError.set(distances, METRIC_COUNT * tick);
+    let mask = 0;
+    const warnings = result.warnings;
+    for (let w = 0; w < warnings.length; w++) mask |= 1 << CODE_BIT.get(warnings[w]!.code)!;
+    columns.warningMask[tick] = mask >>> 0;
+    columns.worstSeverity[tick] = SEVERITY_INDEX.get(result.worstSeverity)!;
+    tick++;
+
+    if (tick % progressEvery === 0) options.onProgress?.(tick, maxTicks);
+    if (positionError <= positionTolerance && distances[geodesicIndex]! <= angleTolerance) {
+      stopReason = 'converged';
+      break;
+    }
+    if (stopOnSingular && result.worstSeverity === 'singular') {
+      stopReason = 'singular';
+      break;
+    }
+    for (let i = 0; i < fingers.length; i++) {
+      const angles = fingers[i]!.angles;
+      const rates = result.fingers[i]!.full.rates;
+      for (let k = 0; k < angles.length; k++) angles[k] = angles[k]! + rates[k]! * dt;
+    }
+    integratePose(position, orientation, linear, angular, dt, position, orientation);
+  }
+  object.position.set(position);
+  object.orientation.set(orientation);
+
+  return {
+    tickCount: tick,
+    stopReason,
+    settings,
+    fingerNames: fingers.map((f) => f.name),
+    jointCounts,
+    time: columns.time.subarray(0, tick),
+    position: columns.position.subarray(0, 3 * tick),
+    orientation: columns.orientation.subarray(0, 4 * tick),
+    measuredPosition: columns.measuredPosition.subarray(0, 3 * tick),
+    measuredOrientation: columns.measuredOrientation.subarray(0, 4 * tick),
+    twist: columns.twist.subarray(0, 6 * tick),
+    jointAngles: columns.jointAngles.map((c, i) => c.subarray(0, jointCounts[i]! * tick)),
+    jointRates: columns.jointRates.map((c, i) => c.subarray(0, jointCounts[i]! * tick)),
+    positionError: columns.positionError.subarray(0, tick),
+    orientationError: columns.orientationError.subarray(0, METRIC_COUNT * tick),
+    warningMask: columns.warningMask.subarray(0, tick),
+    worstSeverity: columns.worstSeverity.subarray(0, tick),
+  };
+}
+
+/** Measured pose: the truth, or with noise p + N(0, s_p^2) per axis (m) and exp(N(0, s_a^2) per axis) q (rad, world frame). */
+function measure(
+  position: Float64Array,
+  orientation: Float64Array,
+  outPosition: Float64Array,
+  outOrientation: Float64Array,
+  random: RandomSource | null,
+  noise: RunSettings['noise'],
+  rotation: Float64Array,
+  rotationQuat: Float64Array,
+): void {
+  if (random === null || noise === undefined) {
+    outPosition.set(position);
+    outOrientation.set(orientation);
+    return;
+  }
+  outPosition[0] = position[0]! + noise.position * nextGaussian(random);
+  outPosition[1] = position[1]! + noise.position * nextGaussian(random);
+  outPosition[2] = position[2]! + noise.position * nextGaussian(random);
+  rotation[0] = noise.angle * nextGaussian(random);
+  rotation[1] = noise.angle * nextGaussian(random);
+  rotation[2] = noise.angle * nextGaussian(random);
+  multiply(expMap(rotation, rotationQuat), orientation, outOrientation);
+}
+
+/** Warning codes raised at one tick of a run record. */
+export function warningsAt(record: RunRecord, tick: number): WarningCode[] {
+  const mask = record.warningMask[tick]!;
+  return WARNING_CODES.filter((_, i) => (mask & (1 << i)) !== 0);
+}

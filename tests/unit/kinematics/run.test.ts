@@ -1,0 +1,158 @@
+import { describe, expect, it } from 'vitest';
+import { glMatrix, quat as glQuat, type vec3 as GlVec3 } from 'gl-matrix';
+import { createSheetFromTemplate } from '../../../src/lib/sheet/templates';
+import type { RunSettings, SheetDocument } from '../../../src/lib/sheet/types';
+import { ROTATION_METRICS } from '../../../src/lib/kinematics/metrics';
+import { SEVERITY_LEVELS, WARNING_CODES, runSheet, warningsAt } from '../../../src/lib/kinematics/run';
+import { WARNING_CATALOGUE } from '../../../src/lib/kinematics/warnings';
+
+// References: the closed loop e' = -g e under forward-Euler steps of dt shrinks the error by (1 - g dt) per tick
+// (discrete first-order system; Astrom & Murray, "Feedback Systems", 2nd ed., Ch. 6, common practice), and it stays
+// exact for the rotation because every step turns about the same axis (exp(a w) exp(b w) = exp((a + b) w),
+// Lynch & Park, "Modern Robotics", Sec. 3.2.3). Orientations are rebuilt with gl-matrix quat.setAxisAngle.
+glMatrix.setMatrixArrayType(Array);
+
+const PHI3 = ROTATION_METRICS.findIndex((m) => m.key === 'phi3');
+const PHI6 = ROTATION_METRICS.findIndex((m) => m.key === 'phi6');
+const M = ROTATION_METRICS.length;
+
+/** Tri-radial template on a 30 mm sphere; target a 45 degree turn about z and a 4 mm shift. */
+function sheet(): SheetDocument {
+  const doc = createSheetFromTemplate('tri-radial', { kind: 'sphere', radius: 0.03 });
+  const [x, y, z] = doc.object.pose.position;
+  doc.motion.target.position = [x + 0.003, y - 0.002, z + 0.002];
+  return doc;
+}
+
+function settings(overrides: Partial<RunSettings> = {}): RunSettings {
+  return { gain: 2, dt: 0.005, maxTicks: 400, positionTolerance: 1e-4, angleTolerance: 1e-3, stopOnSingular: false, ...overrides };
+}
+
+describe('runSheet', () => {
+  it('shrinks position and geodesic errors by (1 - g dt) per tick, and the orientation follows exp((theta0 - theta_k) z) q0 by gl-matrix', () => {
+    const doc = sheet();
+    const s = settings({ positionTolerance: 1e-12, angleTolerance: 1e-12, maxTicks: 200 });
+    const r = runSheet(doc, { settings: s });
+    const factor = 1 - s.gain * s.dt;
+    const theta0 = Math.PI / 4;
+    const e0 = Math.hypot(0.003, 0.002, 0.002);
+    expect(r.tickCount).toBe(200);
+    for (const k of [0, 1, 10, 100, 199]) {
+      expect(r.positionError[k]).toBeCloseTo(e0 * factor ** k, 12);
+      expect(r.orientationError[M * k + PHI6]).toBeCloseTo(theta0 * factor ** k, 12);
+      const turned = theta0 - theta0 * factor ** k;
+      const expected = glQuat.setAxisAngle(glQuat.create(), [0, 0, 1] as GlVec3, turned) as number[];
+      const q = Array.from(r.orientation.subarray(4 * k, 4 * k + 4));
+      const sign = Math.sign(q[3]!) * Math.sign(expected[3]!);
+      q.forEach((x, i) => expect(x * sign).toBeCloseTo(expected[i]!, 12));
+    }
+  });
+
+  it('commands gain times the measured error as the twist', () => {
+    const s = settings({ maxTicks: 3 });
+    const r = runSheet(sheet(), { settings: s });
+    expect(Array.from(r.twist.subarray(0, 3)).map((v) => v / s.gain)).toEqual(
+      [0.003, -0.002, 0.002].map((d) => expect.closeTo(d, 12) as unknown as number),
+    );
+    expect(r.twist[5]! / s.gain).toBeCloseTo(Math.PI / 4, 12);
+    expect(Math.abs(r.twist[3]!) + Math.abs(r.twist[4]!)).toBeLessThan(1e-15);
+  });
+
+  it('stops at the first tick k with theta0 (1 - g dt)^k within both tolerances, so tickCount = k + 1', () => {
+    const s = settings({ positionTolerance: 1e-4, angleTolerance: 1e-3, maxTicks: 5000 });
+    const r = runSheet(sheet(), { settings: s });
+    const factor = 1 - s.gain * s.dt;
+    const kAngle = Math.ceil(Math.log(s.angleTolerance / (Math.PI / 4)) / Math.log(factor));
+    const kPosition = Math.ceil(Math.log(s.positionTolerance / Math.hypot(0.003, 0.002, 0.002)) / Math.log(factor));
+    expect(r.stopReason).toBe('converged');
+    expect(r.tickCount).toBe(Math.max(kAngle, kPosition) + 1);
+  });
+
+  it('integrates joint angles by the recorded rates times dt', () => {
+    const s = settings({ maxTicks: 20 });
+    const r = runSheet(sheet(), { settings: s });
+    r.jointCounts.forEach((n, i) => {
+      const angles = r.jointAngles[i]!;
+      const rates = r.jointRates[i]!;
+      for (let k = 0; k + 1 < r.tickCount; k++) {
+        for (let j = 0; j < n; j++) expect(angles[(k + 1) * n + j]).toBeCloseTo(angles[k * n + j]! + rates[k * n + j]! * s.dt, 14);
+      }
+    });
+    expect(r.jointRates.some((column) => column.some((x) => Math.abs(x) > 1e-3))).toBe(true);
+  });
+
+  it('records Phi2..Phi6 per tick with Phi6 = 2 Phi3 (Huynh 2009) and columns of tickCount rows', () => {
+    const r = runSheet(sheet(), { settings: settings({ maxTicks: 50 }) });
+    for (let k = 0; k < r.tickCount; k++) expect(r.orientationError[M * k + PHI6]).toBeCloseTo(2 * r.orientationError[M * k + PHI3]!, 14);
+    expect([r.time.length, r.position.length, r.orientation.length, r.twist.length, r.orientationError.length]).toEqual([50, 150, 200, 300, 50 * M]);
+    expect(r.time[49]).toBeCloseTo(49 * 0.005, 15);
+    expect(r.jointAngles.map((c) => c.length)).toEqual(r.jointCounts.map((n) => 50 * n));
+  });
+
+  it('stops on a tick-limit, and on a singular warning only when stopOnSingular is set', () => {
+    const limited = runSheet(sheet(), { settings: settings({ maxTicks: 7 }) });
+    expect([limited.stopReason, limited.tickCount]).toEqual(['tick-limit', 7]);
+    // sigma_min / sigma_max < 1 for any Jacobian with unequal singular values, so this threshold always warns.
+    const strict = sheet();
+    strict.solver.singularRatio = 0.999999;
+    const stopped = runSheet(strict, { settings: settings({ stopOnSingular: true }) });
+    expect([stopped.stopReason, stopped.tickCount]).toEqual(['singular', 1]);
+    expect(warningsAt(stopped, 0)).toContain('JACOBIAN_NEAR_RANK_LOSS');
+    expect(SEVERITY_LEVELS[stopped.worstSeverity[0]!]).toBe('singular');
+    const continued = runSheet(strict, { settings: settings({ maxTicks: 7, stopOnSingular: false }) });
+    expect([continued.stopReason, continued.tickCount]).toEqual(['tick-limit', 7]);
+  });
+
+  it('decodes warning masks against WARNING_CODES, the catalogue keys', () => {
+    expect([...WARNING_CODES].sort()).toEqual(Object.keys(WARNING_CATALOGUE).sort());
+    const r = runSheet(sheet(), { settings: settings({ maxTicks: 2 }) });
+    for (const code of warningsAt(r, 0)) expect(WARNING_CATALOGUE[code]).toBeDefined();
+  });
+
+  it('adds seeded noise of the requested standard deviation to the measured pose only; same seed, same record', () => {
+    const noise = { seed: 17, position: 1e-4, angle: 2e-3 };
+    const s = settings({ maxTicks: 3000, positionTolerance: -1, angleTolerance: -1, noise });
+    const a = runSheet(sheet(), { settings: s });
+    const b = runSheet(sheet(), { settings: s });
+    const c = runSheet(sheet(), { settings: { ...s, noise: { ...noise, seed: 18 } } });
+    expect(Array.from(a.measuredPosition)).toEqual(Array.from(b.measuredPosition));
+    expect(Array.from(a.measuredPosition)).not.toEqual(Array.from(c.measuredPosition));
+    let sumSquares = 0;
+    let angleSquares = 0;
+    for (let k = 0; k < a.tickCount; k++) {
+      for (let i = 0; i < 3; i++) sumSquares += (a.measuredPosition[3 * k + i]! - a.position[3 * k + i]!) ** 2;
+      const q = a.orientation.subarray(4 * k, 4 * k + 4);
+      const m = a.measuredOrientation.subarray(4 * k, 4 * k + 4);
+      angleSquares += glQuat.getAngle(q as unknown as glQuat, m as unknown as glQuat) ** 2;
+    }
+    // Per-axis standard deviation; the rotation angle of three independent N(0, s^2) axes has E[angle^2] = 3 s^2.
+    expect(Math.sqrt(sumSquares / (3 * a.tickCount))).toBeCloseTo(noise.position, 5);
+    expect(Math.sqrt(angleSquares / (3 * a.tickCount)) / noise.angle).toBeGreaterThan(0.95);
+    expect(Math.sqrt(angleSquares / (3 * a.tickCount)) / noise.angle).toBeLessThan(1.05);
+  });
+
+  it('reports progress every N ticks', () => {
+    const calls: Array<[number, number]> = [];
+    runSheet(sheet(), { settings: settings({ maxTicks: 25, positionTolerance: -1, angleTolerance: -1 }), progressEvery: 10, onProgress: (done, max) => calls.push([done, max]) });
+    expect(calls).toEqual([
+      [10, 25],
+      [20, 25],
+    ]);
+  });
+
+  it('grows its columns past the initial capacity without losing ticks', () => {
+    const r = runSheet(sheet(), { settings: settings({ maxTicks: 20_000, positionTolerance: -1, angleTolerance: -1 }) });
+    expect(r.tickCount).toBe(20_000);
+    expect(r.time[16_384]).toBeCloseTo(16_384 * 0.005, 9);
+    expect(r.time[19_999]).toBeCloseTo(19_999 * 0.005, 9);
+    expect(r.orientationError[M * 19_999 + PHI6]).toBeLessThanOrEqual(r.orientationError[M * 16_383 + PHI6]!);
+    expect(Number.isFinite(r.position[3 * 19_999 + 2]!)).toBe(true);
+  });
+
+  it('leaves the document untouched', () => {
+    const doc = sheet();
+    const before = JSON.stringify(doc);
+    runSheet(doc, { settings: settings({ maxTicks: 10 }) });
+    expect(JSON.stringify(doc)).toBe(before);
+  });
+});
