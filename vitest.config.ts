@@ -1,9 +1,32 @@
 /// <reference types="vitest/config" />
+import { mkdtempSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { getViteConfig } from 'astro/config';
+
+// Astro inlines server env values when the config loads, so the per-run test database is named
+// here; tests/helpers/test-database.ts migrates and seeds it before any test file runs.
+process.env.DATABASE_URL = `file:${join(mkdtempSync(join(tmpdir(), 'slipless-vitest-')), 'app.db')}`;
 
 export default getViteConfig({
   test: {
-    include: ['tests/unit/**/*.test.ts'],
     testTimeout: 30_000,
+    projects: [
+      {
+        extends: true,
+        test: { name: 'unit', include: ['tests/unit/**/*.test.ts'], globalSetup: ['tests/helpers/test-database.ts'] },
+      },
+      {
+        extends: true,
+        test: {
+          name: 'e2e',
+          include: ['tests/e2e/**/*.e2e.ts'],
+          globalSetup: ['tests/e2e/server.ts'],
+          fileParallelism: false,
+          testTimeout: 60_000,
+          hookTimeout: 120_000,
+        },
+      },
+    ],
   },
 });

@@ -1,0 +1,44 @@
+import { mkdirSync } from 'node:fs';
+import { join, resolve } from 'node:path';
+import { chromium, type Browser, type Page } from 'playwright-core';
+import { inject } from 'vitest';
+
+export const CHROMIUM_PATH = '/usr/bin/chromium';
+export const SCREENSHOT_DIR = resolve('test-results/screenshots');
+
+/** Launches Debian's Chromium headless (Playwright gives it a fresh profile) with the flags that keep it off the network. */
+export async function launchBrowser(): Promise<Browser> {
+  return chromium.launch({
+    executablePath: CHROMIUM_PATH,
+    headless: true,
+    args: [
+      '--no-sandbox',
+      '--disable-quic',
+      '--no-first-run',
+      '--disable-background-networking',
+      '--disable-component-update',
+      '--disable-sync',
+      '--use-angle=swiftshader',
+      '--enable-unsafe-swiftshader',
+    ],
+  });
+}
+
+/** The base URL of the server that tests/e2e/server.ts started for this run. */
+export function baseUrl(): string {
+  return inject('baseUrl');
+}
+
+/** Saves a full-page screenshot under test-results/screenshots and returns its path. */
+export async function saveScreenshot(page: Page, name: string): Promise<string> {
+  mkdirSync(SCREENSHOT_DIR, { recursive: true });
+  const path = join(SCREENSHOT_DIR, `${name}.png`);
+  await page.screenshot({ path, fullPage: true });
+  return path;
+}
+
+declare module 'vitest' {
+  export interface ProvidedContext {
+    baseUrl: string;
+  }
+}
