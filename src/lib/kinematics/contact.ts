@@ -68,7 +68,6 @@ export interface ContactWorkspace {
   axisLocal: Float64Array;
   frameX: Float64Array;
   frameY: Float64Array;
-  meridian: Float64Array;
 }
 
 /** Rigid object from a sheet's object section (world frame, SI). */
@@ -127,7 +126,6 @@ export function createContactWorkspace(): ContactWorkspace {
     axisLocal: new Float64Array(3),
     frameX: new Float64Array(3),
     frameY: new Float64Array(3),
-    meridian: new Float64Array(3),
   };
 }
 
@@ -164,8 +162,8 @@ export function computeContact(object: RigidObject, finger: Finger, tolerance: n
   const xl = out.objectPointLocal, nl = out.normalLocal;
   if (finger.rollerKind === 'sphere') {
     const q = closestSurfacePoint(object.shape, cl, ws.query);
-    xl.set(q.point);
-    nl.set(q.normal);
+    copy3(q.point, xl);
+    copy3(q.normal, nl);
     out.gap = q.signedDistance - rho;
   } else {
     out.gap = cylinderContactLocal(object, finger, out, ws);
@@ -183,7 +181,7 @@ export function computeContact(object: RigidObject, finger: Finger, tolerance: n
     y[2] = c[2] - rho * n[2];
   }
   out.state = out.gap > tolerance ? 'separated' : out.gap < -tolerance ? 'penetrating' : 'touching';
-  rollerFrameCoordinates(finger, out, ws);
+  rollerFrameCoordinates(finger, out);
 
   const v = objectPointVelocity(object.linearVelocity, object.angularVelocity, p, x, out.objectVelocity);
   const vn = v[0] * n[0] + v[1] * n[1] + v[2] * n[2];
@@ -234,7 +232,7 @@ function cylinderContactLocal(object: RigidObject, finger: Finger, out: Contact,
   let yx: number, yy: number, yz: number;
   if (!result.intersecting && result.distance > 0) {
     const d = result.distance;
-    xl.set(result.pointA);
+    copy3(result.pointA, xl);
     nl[0] = (result.pointB[0] - xl[0]) / d;
     nl[1] = (result.pointB[1] - xl[1]) / d;
     nl[2] = (result.pointB[2] - xl[2]) / d;
@@ -248,7 +246,7 @@ function cylinderContactLocal(object: RigidObject, finger: Finger, out: Contact,
     const inner = gjkDistance(ws.objectPosed, core, ws.gjkResult, ws.gjk);
     if (!inner.intersecting && inner.distance > 0) {
       const d = inner.distance;
-      xl.set(inner.pointA);
+      copy3(inner.pointA, xl);
       nl[0] = (inner.pointB[0] - xl[0]) / d;
       nl[1] = (inner.pointB[1] - xl[1]) / d;
       nl[2] = (inner.pointB[2] - xl[2]) / d;
@@ -259,8 +257,8 @@ function cylinderContactLocal(object: RigidObject, finger: Finger, out: Contact,
     } else {
       // Deep overlap: fall back to the object's surface nearest the roller centre.
       const q = closestSurfacePoint(object.shape, ws.centerLocal, ws.query);
-      xl.set(q.point);
-      nl.set(q.normal);
+      copy3(q.point, xl);
+      copy3(q.normal, nl);
       gap = q.signedDistance - rho;
       const cl = ws.centerLocal;
       yx = cl[0] - rho * nl[0]; yy = cl[1] - rho * nl[1]; yz = cl[2] - rho * nl[2];
@@ -278,27 +276,30 @@ function placeAlongAxis(posed: PosedShape, e1: Vec3Like, e2: Vec3Like, axis: Vec
   rot[0] = e1[0]; rot[1] = e2[0]; rot[2] = axis[0];
   rot[3] = e1[1]; rot[4] = e2[1]; rot[5] = axis[1];
   rot[6] = e1[2]; rot[7] = e2[2]; rot[8] = axis[2];
-  posed.position.set(center);
+  copy3(center, posed.position);
 }
 
-function rollerFrameCoordinates(finger: Finger, out: Contact, ws: ContactWorkspace): void {
+function rollerFrameCoordinates(finger: Finger, out: Contact): void {
   const Rr = finger.rollerRotation, c = finger.rollerCenter, y = out.rollerPoint, yl = out.rollerPointLocal;
   const dx = y[0] - c[0], dy = y[1] - c[1], dz = y[2] - c[2];
   yl[0] = Rr[0] * dx + Rr[3] * dy + Rr[6] * dz;
   yl[1] = Rr[1] * dx + Rr[4] * dy + Rr[7] * dz;
   yl[2] = Rr[2] * dx + Rr[5] * dy + Rr[8] * dz;
-  const a = finger.homeRollerAxis;
+  const a = finger.homeRollerAxis, m = finger.rollerMeridian, q = finger.rollerQuarterMeridian;
   const length = Math.sqrt(yl[0] * yl[0] + yl[1] * yl[1] + yl[2] * yl[2]);
   if (length === 0 || a[0] * a[0] + a[1] * a[1] + a[2] * a[2] === 0) {
     out.latitude = Number.NaN;
     out.longitude = Number.NaN;
     return;
   }
-  // Meridian of zero longitude: a fixed perpendicular of the roller axis in the roller frame.
-  const m = perpendicular(a, ws.meridian);
   const ux = yl[0] / length, uy = yl[1] / length, uz = yl[2] / length;
   const along = ux * a[0] + uy * a[1] + uz * a[2];
   out.latitude = Math.asin(along > 1 ? 1 : along < -1 ? -1 : along);
-  const px = a[1] * m[2] - a[2] * m[1], py = a[2] * m[0] - a[0] * m[2], pz = a[0] * m[1] - a[1] * m[0];
-  out.longitude = Math.atan2(ux * px + uy * py + uz * pz, ux * m[0] + uy * m[1] + uz * m[2]);
+  out.longitude = Math.atan2(ux * q[0] + uy * q[1] + uz * q[2], ux * m[0] + uy * m[1] + uz * m[2]);
+}
+
+function copy3(from: ArrayLike<number>, to: Float64Array): void {
+  to[0] = from[0];
+  to[1] = from[1];
+  to[2] = from[2];
 }

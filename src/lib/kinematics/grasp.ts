@@ -4,8 +4,16 @@
  * v + w x (x_i - p) = [I, -[x_i - p]x] (v, w). Stacking these rows for every contact (and the
  * spin row [0, n_i^T] for a soft finger) gives the contact map A = G^T; its rank tells which
  * object motions the contacts can drive, and its null space the twists no contact notices.
+ *
+ * Referred to the contacts' centroid m instead of p (d_i = x_i - m), the map's Gram matrix is
+ * block diagonal, diag(k I, S) with S = sum_i (|d_i|^2 I - d_i d_i^T) (+ n_i n_i^T for soft
+ * fingers), so its SVD splits into sqrt(k) three times and the square roots of the eigenvalues
+ * of the 3 x 3 matrix S. Rank and null space do not depend on the reference point; a null
+ * rotation w of S gives the undrivable twist (v, w) = (-w x (m - p), w) about p.
  */
-import { createLinalgWorkspace, createMatrix, nullSpace, svd, type LinalgWorkspace, type Matrix } from './linalg';
+import { symmetricEigenvalues3 } from './solve';
+import { createMatrix, type Matrix } from './linalg';
+import { perpendicular } from './vec3';
 
 /** Rank and undrivable object twists of the grasp (world frame). */
 export interface GraspResult {
@@ -13,7 +21,7 @@ export interface GraspResult {
   contactCount: number;
   /** Contact map A (rows x 6, row-major): contact velocities (m/s; rad/s for spin rows) per object twist [v (m/s), w (rad/s)]. */
   contactMap: Matrix;
-  /** Singular values of A, descending (up to 6; mixed units, m/s per unit twist). */
+  /** Singular values of the contact map referred to the contact centroid, descending: sqrt(k) three times (dimensionless) and sqrt(eig(S)) (m). */
   singularValues: Float64Array;
   /** Numerical rank of A (dimensionless, 6 = every object twist is driven). */
   rank: number;
@@ -25,8 +33,9 @@ export interface GraspResult {
 
 /** Scratch for computeGrasp. */
 export interface GraspWorkspace {
-  linalg: LinalgWorkspace;
-  basis: Matrix;
+  eigen: Float64Array;
+  rotation: Float64Array;
+  axis: Float64Array;
 }
 
 /** Empty grasp result for up to maxContacts contacts (4 rows each, to allow soft fingers). */
@@ -41,9 +50,9 @@ export function createGraspResult(maxContacts: number): GraspResult {
   };
 }
 
-/** New scratch space for computeGrasp with up to maxContacts contacts. */
-export function createGraspWorkspace(maxContacts: number): GraspWorkspace {
-  return { linalg: createLinalgWorkspace(6, Math.max(6, 4 * maxContacts)), basis: createMatrix(6, 6) };
+/** New scratch space for computeGrasp. */
+export function createGraspWorkspace(): GraspWorkspace {
+  return { eigen: new Float64Array(3), rotation: new Float64Array(3), axis: new Float64Array(3) };
 }
 
 /**
@@ -58,7 +67,7 @@ export function computeGrasp(
   softFinger: boolean,
   relativeTolerance: number,
   out: GraspResult,
-  ws: GraspWorkspace,
+  ws: GraspWorkspace = createGraspWorkspace(),
 ): GraspResult {
   const a = out.contactMap;
   const d = a.data;
@@ -81,31 +90,95 @@ export function computeGrasp(
   a.rows = row;
   a.cols = 6;
   out.contactCount = contactCount;
-  const s = out.singularValues;
-  s.fill(0);
-  if (row === 0) {
+  const sv = out.singularValues;
+  sv.fill(0);
+  out.undrivable.fill(0);
+  if (contactCount === 0) {
     out.rank = 0;
     out.undrivableCount = 6;
-    out.undrivable.fill(0);
     for (let k = 0; k < 6; k++) out.undrivable[6 * k + k] = 1;
     return out;
   }
-  const f = svd(a, ws.linalg.svd, ws.linalg);
-  const k = row < 6 ? row : 6;
-  for (let i = 0; i < k; i++) s[i] = f.s[i];
-  const tolerance = relativeTolerance * s[0];
-  let r = 0;
-  for (let i = 0; i < k; i++) if (s[i] > tolerance) r++;
-  out.rank = r;
-  out.undrivableCount = 6 - r;
-  if (row >= 6) {
-    // Tall A: V is 6 x 6 and its columns past the rank span the null space.
-    const v = f.v.data;
-    for (let c = 0; c < 6 - r; c++) for (let j = 0; j < 6; j++) out.undrivable[6 * c + j] = v[j * 6 + r + c];
-  } else {
-    const count = nullSpace(a, ws.basis, ws.linalg, tolerance);
-    const b = ws.basis.data;
-    for (let c = 0; c < count; c++) for (let j = 0; j < 6; j++) out.undrivable[6 * c + j] = b[j * 6 + c];
+  let mx = 0, my = 0, mz = 0;
+  for (let i = 0; i < contactCount; i++) {
+    mx += points[3 * i]; my += points[3 * i + 1]; mz += points[3 * i + 2];
   }
+  mx /= contactCount; my /= contactCount; mz /= contactCount;
+  let s00 = 0, s11 = 0, s22 = 0, s01 = 0, s02 = 0, s12 = 0;
+  for (let i = 0; i < contactCount; i++) {
+    const dx = points[3 * i] - mx, dy = points[3 * i + 1] - my, dz = points[3 * i + 2] - mz;
+    const dd = dx * dx + dy * dy + dz * dz;
+    s00 += dd - dx * dx; s11 += dd - dy * dy; s22 += dd - dz * dz;
+    s01 -= dx * dy; s02 -= dx * dz; s12 -= dy * dz;
+    if (softFinger) {
+      const nx = normals[3 * i], ny = normals[3 * i + 1], nz = normals[3 * i + 2];
+      s00 += nx * nx; s11 += ny * ny; s22 += nz * nz;
+      s01 += nx * ny; s02 += nx * nz; s12 += ny * nz;
+    }
+  }
+  const e = symmetricEigenvalues3(s00, s11, s22, s01, s02, s12, ws.eigen);
+  const translational = Math.sqrt(contactCount);
+  const r0 = Math.sqrt(e[0] > 0 ? e[0] : 0), r1 = Math.sqrt(e[1] > 0 ? e[1] : 0), r2 = Math.sqrt(e[2] > 0 ? e[2] : 0);
+  // Merge sqrt(k) (three times) with the descending rotational values.
+  let t = 0, q = 0;
+  const rotational = ws.rotation;
+  rotational[0] = r0; rotational[1] = r1; rotational[2] = r2;
+  for (let i = 0; i < 6; i++) {
+    if (q >= 3 || (t < 3 && translational >= rotational[q])) {
+      sv[i] = translational;
+      t++;
+    } else {
+      sv[i] = rotational[q];
+      q++;
+    }
+  }
+  const tolerance = relativeTolerance * sv[0];
+  let nullRotations = 0;
+  for (let i = 0; i < 3; i++) if (!(rotational[i] > tolerance)) nullRotations++;
+  out.rank = 6 - nullRotations;
+  out.undrivableCount = nullRotations;
+  if (nullRotations === 0) return out;
+  const w = ws.axis;
+  if (nullRotations === 3) {
+    for (let c = 0; c < 3; c++) writeUndrivable(out.undrivable, c, c === 0 ? 1 : 0, c === 1 ? 1 : 0, c === 2 ? 1 : 0, mx - origin[0], my - origin[1], mz - origin[2]);
+    return out;
+  }
+  if (nullRotations === 1) {
+    eigenvector3(s00, s11, s22, s01, s02, s12, e[2], w);
+    writeUndrivable(out.undrivable, 0, w[0], w[1], w[2], mx - origin[0], my - origin[1], mz - origin[2]);
+    return out;
+  }
+  // Two null rotations: the plane orthogonal to the one driven rotation axis.
+  eigenvector3(s00, s11, s22, s01, s02, s12, e[0], w);
+  const u = perpendicular(w, ws.rotation);
+  writeUndrivable(out.undrivable, 0, u[0], u[1], u[2], mx - origin[0], my - origin[1], mz - origin[2]);
+  writeUndrivable(out.undrivable, 1, w[1] * u[2] - w[2] * u[1], w[2] * u[0] - w[0] * u[2], w[0] * u[1] - w[1] * u[0], mx - origin[0], my - origin[1], mz - origin[2]);
   return out;
+}
+
+/** Unit twist (v, w) about p with v = -w x (m - p), slot c of out. */
+function writeUndrivable(out: Float64Array, c: number, wx: number, wy: number, wz: number, rx: number, ry: number, rz: number): void {
+  const vx = -(wy * rz - wz * ry), vy = -(wz * rx - wx * rz), vz = -(wx * ry - wy * rx);
+  const length = Math.sqrt(vx * vx + vy * vy + vz * vz + wx * wx + wy * wy + wz * wz);
+  const o = 6 * c;
+  out[o] = vx / length; out[o + 1] = vy / length; out[o + 2] = vz / length;
+  out[o + 3] = wx / length; out[o + 4] = wy / length; out[o + 5] = wz / length;
+}
+
+/** Unit eigenvector of the symmetric 3 x 3 matrix for a simple eigenvalue lambda: the largest cross product of two rows of A - lambda I. */
+function eigenvector3(a00: number, a11: number, a22: number, a01: number, a02: number, a12: number, lambda: number, out: Float64Array): void {
+  const b00 = a00 - lambda, b11 = a11 - lambda, b22 = a22 - lambda;
+  const c0x = a01 * a12 - a02 * b11, c0y = a02 * a01 - b00 * a12, c0z = b00 * b11 - a01 * a01;
+  const c1x = a01 * b22 - a02 * a12, c1y = a02 * a02 - b00 * b22, c1z = b00 * a12 - a01 * a02;
+  const c2x = b11 * b22 - a12 * a12, c2y = a12 * a02 - a01 * b22, c2z = a01 * a12 - b11 * a02;
+  const n0 = c0x * c0x + c0y * c0y + c0z * c0z, n1 = c1x * c1x + c1y * c1y + c1z * c1z, n2 = c2x * c2x + c2y * c2y + c2z * c2z;
+  let x = c0x, y = c0y, z = c0z, m = n0;
+  if (n1 > m) { x = c1x; y = c1y; z = c1z; m = n1; }
+  if (n2 > m) { x = c2x; y = c2y; z = c2z; m = n2; }
+  const length = Math.sqrt(m);
+  if (length === 0) {
+    out[0] = 1; out[1] = 0; out[2] = 0;
+    return;
+  }
+  out[0] = x / length; out[1] = y / length; out[2] = z / length;
 }

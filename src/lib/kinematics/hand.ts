@@ -5,7 +5,7 @@
  * the current axis of joint k is the home axis moved by the joints before it.
  */
 import type { FingerInput, JointRole } from '../sheet/types';
-import type { Vec3Like } from './vec3';
+import { cross, perpendicular, type Vec3Like } from './vec3';
 
 export type RollerKind = 'sphere' | 'cylinder';
 
@@ -36,6 +36,9 @@ export interface Finger {
   /** Roller centre and (cylinder) axis at home, palm frame. */
   homeRollerCenter: Float64Array;
   homeRollerAxis: Float64Array;
+  /** Directions of longitude 0 and pi/2 on the roller, perpendicular to its axis (roller frame, unit; zero without an axis). */
+  rollerMeridian: Float64Array;
+  rollerQuarterMeridian: Float64Array;
   /** Current joint axes (unit) and axis points (m), 3 per joint, world frame. */
   axes: Float64Array;
   points: Float64Array;
@@ -77,6 +80,8 @@ export function createFinger(input: FingerInput): Finger {
     rollerHalfWidth: input.roller.kind === 'cylinder' ? input.roller.halfWidth : 0,
     homeRollerCenter: Float64Array.from(input.roller.center),
     homeRollerAxis: new Float64Array(3),
+    rollerMeridian: new Float64Array(3),
+    rollerQuarterMeridian: new Float64Array(3),
     axes: new Float64Array(3 * n),
     points: new Float64Array(3 * n),
     rollerCenter: new Float64Array(3),
@@ -104,6 +109,11 @@ export function createFinger(input: FingerInput): Finger {
     for (let c = 0; c < 3; c++) finger.homeRollerAxis[c] = a[c] / length;
   } else if (finger.rollIndex >= 0) {
     finger.homeRollerAxis.set(finger.homeAxes.subarray(3 * finger.rollIndex, 3 * finger.rollIndex + 3));
+  }
+  const axis = finger.homeRollerAxis;
+  if (axis[0] !== 0 || axis[1] !== 0 || axis[2] !== 0) {
+    const m = perpendicular(axis, finger.rollerMeridian);
+    cross(axis, m, finger.rollerQuarterMeridian);
   }
   return forwardKinematics(finger);
 }

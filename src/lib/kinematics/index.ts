@@ -54,7 +54,7 @@ export {
 } from './solve';
 export type { FullSolution, SolveWorkspace, SteerAndRoll } from './solve';
 export {
-  checkFinger, checkGrasp, clearWarnings, createWarningList, formatWarning, raiseWarning, slipTolerance, SLIP_RELATIVE_TOLERANCE,
+  checkFinger, checkGrasp, clearWarnings, createWarningList, finishWarnings, formatWarning, raiseWarning, slipTolerance, SLIP_RELATIVE_TOLERANCE,
   WARNING_CATALOGUE, worstSeverity,
 } from './warnings';
 export type { SheetWarning, WarningCode, WarningInfo, WarningList, WarningSeverity } from './warnings';

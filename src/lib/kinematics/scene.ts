@@ -8,7 +8,7 @@ import { computeContact, createContact, createContactWorkspace, createObject, up
 import { computeGrasp, createGraspResult, createGraspWorkspace, type GraspResult, type GraspWorkspace } from './grasp';
 import { createFinger, forwardKinematics, type Finger } from './hand';
 import { createFullSolution, createSolveWorkspace, createSteerAndRoll, solveFull, solveSteerAndRoll, type FullSolution, type SolveWorkspace, type SteerAndRoll } from './solve';
-import { checkFinger, checkGrasp, clearWarnings, createWarningList, worstSeverity, type SheetWarning, type WarningList, type WarningSeverity } from './warnings';
+import { checkFinger, checkGrasp, clearWarnings, createWarningList, finishWarnings, worstSeverity, type SheetWarning, type WarningList, type WarningSeverity } from './warnings';
 import type { Vec3Like } from './vec3';
 
 /** A compiled sheet. Mutate object and finger angles in place, then call solveScene. */
@@ -71,7 +71,7 @@ export function createScene(doc: SheetDocument): Scene {
     workspace: {
       contact: createContactWorkspace(),
       solve: createSolveWorkspace(maxJoints),
-      grasp: createGraspWorkspace(count),
+      grasp: createGraspWorkspace(),
       contactPoints: new Float64Array(3 * count),
       contactNormals: new Float64Array(3 * count),
     },
@@ -106,10 +106,10 @@ export function createResult(scene: Scene): SheetResult {
 export function solveScene(scene: Scene, out: SheetResult = createResult(scene)): SheetResult {
   const { object, fingers, settings, workspace } = scene;
   updateObjectRotation(object);
-  out.object.position.set(object.position);
-  out.object.orientation.set(object.orientation);
-  out.object.linearVelocity.set(object.linearVelocity);
-  out.object.angularVelocity.set(object.angularVelocity);
+  copyInto(object.position, out.object.position);
+  copyInto(object.orientation, out.object.orientation);
+  copyInto(object.linearVelocity, out.object.linearVelocity);
+  copyInto(object.angularVelocity, out.object.angularVelocity);
   const list = out.warningList;
   clearWarnings(list);
   const points = workspace.contactPoints, normals = workspace.contactNormals;
@@ -120,11 +120,11 @@ export function solveScene(scene: Scene, out: SheetResult = createResult(scene))
     computeContact(object, finger, settings.contactTolerance, r.contact, workspace.contact);
     solveFull(finger, r.contact, object.angularVelocity, settings, r.full, workspace.solve);
     solveSteerAndRoll(finger, r.contact, r.full, r.steer, workspace.solve);
-    r.jointAngles.set(finger.angles);
-    r.jointAxes.set(finger.axes);
-    r.jointPoints.set(finger.points);
-    r.rollerCenter.set(finger.rollerCenter);
-    r.rollerAxis.set(finger.rollerAxis);
+    copyInto(finger.angles, r.jointAngles);
+    copyInto(finger.axes, r.jointAxes);
+    copyInto(finger.points, r.jointPoints);
+    copyInto(finger.rollerCenter, r.rollerCenter);
+    copyInto(finger.rollerAxis, r.rollerAxis);
     const x = r.contact.objectPoint, n = r.contact.normal;
     points[3 * i] = x[0]; points[3 * i + 1] = x[1]; points[3 * i + 2] = x[2];
     normals[3 * i] = n[0]; normals[3 * i + 1] = n[1]; normals[3 * i + 2] = n[2];
@@ -132,8 +132,8 @@ export function solveScene(scene: Scene, out: SheetResult = createResult(scene))
   }
   computeGrasp(object.position, points, normals, fingers.length, settings.softFinger, settings.singularRatio, out.grasp, workspace.grasp);
   checkGrasp(list, out.grasp);
-  out.warnings = list.items;
-  out.worstSeverity = worstSeverity(list.items);
+  out.warnings = finishWarnings(list);
+  out.worstSeverity = worstSeverity(out.warnings);
   return out;
 }
 
@@ -200,4 +200,9 @@ function toPlain(value: unknown): unknown {
     return out;
   }
   return value;
+}
+
+/** Element-wise copy without TypedArray.prototype.set, whose call overhead dominates for a few elements. */
+function copyInto(from: Float64Array, to: Float64Array): void {
+  for (let i = 0; i < from.length; i++) to[i] = from[i];
 }

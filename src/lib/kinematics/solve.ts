@@ -10,7 +10,7 @@ import type { SolverSettings } from '../sheet/types';
 import type { Contact } from './contact';
 import type { Finger } from './hand';
 import {
-  conditionNumber, createLinalgWorkspace, createMatrix, dampedLeastSquares, manipulability, singularValues,
+  conditionNumber, createLinalgWorkspace, createMatrix, dampedLeastSquares,
   type LinalgWorkspace, type Matrix,
 } from './linalg';
 
@@ -32,13 +32,13 @@ export interface FullSolution {
   residualNorm: number;
   /** Soft-finger spin residual, rad/s (0 for point contact). */
   spinResidual: number;
-  /** Singular values of the 3 x n translational Jacobian, descending, m/rad (missing ones are 0). */
+  /** Singular values of the 3 x n translational Jacobian, descending, m/rad (missing ones are 0; see jacobianSingularValues). */
   singularValues: Float64Array;
   /** sigma_min / sigma_max of the translational Jacobian (dimensionless; 0 at rank loss). */
   singularRatio: number;
   /** sigma_max / sigma_min (dimensionless; Infinity at rank loss). */
   conditionNumber: number;
-  /** Yoshikawa manipulability sqrt(det(J J^T)) of the translational Jacobian, m^3/rad^3. */
+  /** Yoshikawa manipulability sqrt(det(J J^T)) of the translational Jacobian (Yoshikawa 1985), m^3/rad^3. */
   manipulability: number;
 }
 
@@ -84,8 +84,7 @@ export interface SteerAndRoll {
 /** Scratch shared by the per-finger solves of one scene. */
 export interface SolveWorkspace {
   linalg: LinalgWorkspace;
-  translational: Matrix;
-  singular: Float64Array;
+  eigen: Float64Array;
   /** D0, D1, D2 of the roll direction d(delta) = D0 + D1 cos delta + D2 sin delta. */
   steer: Float64Array;
 }
@@ -94,8 +93,7 @@ export interface SolveWorkspace {
 export function createSolveWorkspace(maxJoints: number): SolveWorkspace {
   return {
     linalg: createLinalgWorkspace(4, Math.max(4, maxJoints)),
-    translational: createMatrix(3, Math.max(1, maxJoints)),
-    singular: new Float64Array(4),
+    eigen: new Float64Array(3),
     steer: new Float64Array(9),
   };
 }
@@ -163,12 +161,67 @@ export function contactJacobian(axes: ArrayLike<number>, points: ArrayLike<numbe
   return out;
 }
 
-/** Singular values (padded with zeros to three), their ratio and condition number of a 3 x n Jacobian (m/rad). */
-function conditioning(j: Matrix, out: Float64Array, ws: SolveWorkspace): number {
-  const count = j.cols < 3 ? j.cols : 3;
-  if (count > 0) singularValues(j, ws.singular, ws.linalg);
-  for (let i = 0; i < 3; i++) out[i] = i < count ? ws.singular[i] : 0;
-  return conditionNumber(out, 3);
+/**
+ * Eigenvalues of the symmetric 3 x 3 matrix [[a00, a01, a02], [a01, a11, a12], [a02, a12, a22]],
+ * descending, into out[0..3), by the trigonometric closed form (Smith 1961, "Eigenvalues of a
+ * 3x3 real symmetric matrix", Comm. ACM 4(4), p. 168); units of the entries.
+ */
+export function symmetricEigenvalues3(a00: number, a11: number, a22: number, a01: number, a02: number, a12: number, out: Float64Array): Float64Array {
+  const p1 = a01 * a01 + a02 * a02 + a12 * a12;
+  const q = (a00 + a11 + a22) / 3;
+  const b00 = a00 - q, b11 = a11 - q, b22 = a22 - q;
+  const p2 = b00 * b00 + b11 * b11 + b22 * b22 + 2 * p1;
+  if (p2 === 0) {
+    out[0] = q; out[1] = q; out[2] = q;
+    return out;
+  }
+  const p = Math.sqrt(p2 / 6);
+  // r = det((A - q I) / p) / 2, clamped against rounding to the domain of acos.
+  const det = b00 * (b11 * b22 - a12 * a12) - a01 * (a01 * b22 - a12 * a02) + a02 * (a01 * a12 - b11 * a02);
+  let r = det / (2 * p * p * p);
+  r = r < -1 ? -1 : r > 1 ? 1 : r;
+  const phi = Math.acos(r) / 3;
+  const e0 = q + 2 * p * Math.cos(phi);
+  const e2 = q + 2 * p * Math.cos(phi + (2 * Math.PI) / 3);
+  out[0] = e0;
+  out[1] = 3 * q - e0 - e2;
+  out[2] = e2;
+  return out;
+}
+
+/**
+ * Singular values of a 3 x n Jacobian, descending and padded with zeros, into out; returns
+ * sqrt(det(J J^T)). The two largest come from the eigenvalues of J J^T; the product of all three
+ * is summed exactly over the 3 x 3 minors (Cauchy-Binet), so the smallest, product / (s1 s2),
+ * keeps its accuracy near rank loss where the eigenvalue alone would lose half the digits.
+ */
+export function jacobianSingularValues(j: Matrix, out: Float64Array, eigen: Float64Array): number {
+  const n = j.cols, d = j.data;
+  let g00 = 0, g11 = 0, g22 = 0, g01 = 0, g02 = 0, g12 = 0;
+  for (let k = 0; k < n; k++) {
+    const x = d[k], y = d[n + k], z = d[2 * n + k];
+    g00 += x * x; g11 += y * y; g22 += z * z;
+    g01 += x * y; g02 += x * z; g12 += y * z;
+  }
+  symmetricEigenvalues3(g00, g11, g22, g01, g02, g12, eigen);
+  const s0 = Math.sqrt(eigen[0] > 0 ? eigen[0] : 0);
+  const s1 = Math.sqrt(eigen[1] > 0 ? eigen[1] : 0);
+  let squaredMinors = 0;
+  for (let a = 0; a < n; a++) {
+    for (let b = a + 1; b < n; b++) {
+      for (let c = b + 1; c < n; c++) {
+        const m = d[a] * (d[n + b] * d[2 * n + c] - d[n + c] * d[2 * n + b])
+          - d[b] * (d[n + a] * d[2 * n + c] - d[n + c] * d[2 * n + a])
+          + d[c] * (d[n + a] * d[2 * n + b] - d[n + b] * d[2 * n + a]);
+        squaredMinors += m * m;
+      }
+    }
+  }
+  const product = Math.sqrt(squaredMinors);
+  out[0] = s0;
+  out[1] = s1;
+  out[2] = s0 * s1 > 0 ? Math.min(product / (s0 * s1), s1) : 0;
+  return product;
 }
 
 /** Full damped least-squares solution for one finger after its contact is computed (world frame, SI). */
@@ -203,10 +256,10 @@ export function solveFull(finger: Finger, contact: Contact, angularVelocity: Arr
   out.residualNorm = Math.sqrt(translational);
   out.spinResidual = rows === 4 ? Math.abs(out.residual[3]) : 0;
   j.rows = 3;
-  out.conditionNumber = conditioning(j, out.singularValues, ws);
+  out.manipulability = jacobianSingularValues(j, out.singularValues, ws.eigen);
   const s = out.singularValues;
+  out.conditionNumber = conditionNumber(s, 3);
   out.singularRatio = s[0] > 0 ? s[2] / s[0] : 0;
-  out.manipulability = n >= 3 ? manipulability(j, ws.linalg) : 0;
   j.rows = rows;
   return out;
 }
@@ -274,7 +327,8 @@ export function solveSteerAndRoll(finger: Finger, contact: Contact, full: FullSo
     residual += out.residual[i] * out.residual[i];
   }
   out.residualNorm = Math.sqrt(residual);
-  out.conditionAfter = conditioning(ja, out.singularValuesAfter, ws);
+  jacobianSingularValues(ja, out.singularValuesAfter, ws.eigen);
+  out.conditionAfter = conditionNumber(out.singularValuesAfter, 3);
   let difference = 0;
   for (let k = 0; k < n; k++) {
     const dk = rates[k] - full.rates[k];

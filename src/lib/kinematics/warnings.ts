@@ -173,7 +173,12 @@ export function createWarningList(): WarningList {
 /** Empties the list, keeping its pooled objects. */
 export function clearWarnings(list: WarningList): void {
   list.count = 0;
-  list.items.length = 0;
+}
+
+/** Trims `items` to the warnings raised since clearWarnings (no allocation when the count is unchanged). */
+export function finishWarnings(list: WarningList): SheetWarning[] {
+  if (list.items.length !== list.count) list.items.length = list.count;
+  return list.items;
 }
 
 /** Raises a warning with its measured value and the threshold it crossed (units as in the catalogue). */
@@ -192,8 +197,8 @@ export function raiseWarning(list: WarningList, code: WarningCode, finger: numbe
     w.value = value;
     w.threshold = threshold;
   }
+  list.items[list.count] = w;
   list.count++;
-  list.items.push(w);
   return w;
 }
 
@@ -201,7 +206,8 @@ export function raiseWarning(list: WarningList, code: WarningCode, finger: numbe
 export function worstSeverity(warnings: readonly SheetWarning[]): WarningSeverity | 'none' {
   let worst: WarningSeverity | 'none' = 'none';
   let rank = 0;
-  for (const w of warnings) {
+  for (let i = 0; i < warnings.length; i++) {
+    const w = warnings[i];
     const r = SEVERITY_RANK[w.severity];
     if (r > rank) {
       rank = r;
@@ -254,7 +260,8 @@ export function checkFinger(list: WarningList, i: number, finger: Finger, contac
     raiseWarning(list, 'NORMAL_VELOCITY_UNREACHABLE', i, finger.baseIndex >= 0 ? finger.baseIndex : undefined, Math.abs(steer.normalGain), axisDistance);
   }
 
-  const speed = Math.sqrt(contact.objectVelocity[0] ** 2 + contact.objectVelocity[1] ** 2 + contact.objectVelocity[2] ** 2);
+  const v = contact.objectVelocity;
+  const speed = Math.sqrt(v[0] * v[0] + v[1] * v[1] + v[2] * v[2]);
   const slip = slipTolerance(speed, settings);
   if (full.residualNorm > slip) raiseWarning(list, 'SLIP_REQUIRED', i, undefined, full.residualNorm, slip);
 
