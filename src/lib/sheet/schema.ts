@@ -52,6 +52,9 @@ function expect(text: string) {
   return (issue: { input?: unknown }) => (issue.input === undefined ? MISSING : text);
 }
 
+/** A number for messages: six significant digits. */
+const shown = (value: number) => String(Number(value.toPrecision(6)));
+
 const IDENTITY: QuaternionInput = { w: 1, x: 0, y: 0, z: 0 };
 
 function quantityText(kind: Exclude<QuantityKind, 'any'>): string {
@@ -212,7 +215,7 @@ const objectShapeSchema = z.discriminatedUnion(
   if (filletRadius > smallest) {
     ctx.addIssue({
       code: 'custom',
-      message: `fillet radius (${filletRadius} m) must not exceed the smallest half extent (${smallest} m)`,
+      message: `fillet radius (${shown(filletRadius)} m) must not exceed the smallest half extent (${shown(smallest)} m)`,
       path: ['filletRadius'],
       input: filletRadius,
     });
@@ -229,7 +232,7 @@ const limitsSchema = z
     if (ctx.value.min > ctx.value.max) {
       ctx.issues.push({
         code: 'custom',
-        message: `limits are reversed: min (${ctx.value.min} rad) is greater than max (${ctx.value.max} rad)`,
+        message: `limits are reversed: min (${shown(ctx.value.min)} rad) is greater than max (${shown(ctx.value.max)} rad)`,
         input: ctx.value,
       });
     }

@@ -1,0 +1,68 @@
+import { readFileSync } from 'node:fs';
+import { describe, expect, it } from 'vitest';
+import { WARNING_CATALOGUE, solveSheet, toPlainResult } from '../../../src/lib/kinematics/index';
+import { createSheetJsonSchema } from '../../../src/lib/sheet/json-schema';
+import { parseSheet } from '../../../src/lib/sheet/schema';
+import { createSheetFromTemplate } from '../../../src/lib/sheet/templates';
+
+const docsDir = new URL('../../../content/docs/', import.meta.url);
+const read = (name: string) => readFileSync(new URL(name, docsDir), 'utf8');
+const pages = ['sheet-format.md', 'outputs.md', 'warnings.md'];
+
+/** Every property name anywhere in a JSON Schema. */
+function propertyNames(schema: unknown, out = new Set<string>()): Set<string> {
+  if (Array.isArray(schema)) schema.forEach((item) => propertyNames(item, out));
+  else if (schema !== null && typeof schema === 'object') {
+    for (const [key, value] of Object.entries(schema)) {
+      if (key === 'properties' && value && typeof value === 'object') Object.keys(value).forEach((name) => out.add(name));
+      propertyNames(value, out);
+    }
+  }
+  return out;
+}
+
+describe('product docs (content/docs)', () => {
+  it.each(pages)('%s has YAML front matter with a title and an order', (page) => {
+    const match = /^---\ntitle: (.+)\norder: (\d+)\n---\n/.exec(read(page));
+    expect(match).not.toBeNull();
+  });
+
+  it('sheet-format.md names every field of the JSON Schema and links to it', () => {
+    const text = read('sheet-format.md');
+    expect(text).toContain('(/schema/sheet-v1.json)');
+    const missing = [...propertyNames(createSheetJsonSchema())].filter((name) => !text.includes(`\`${name}\``));
+    expect(missing).toEqual([]);
+  });
+
+  it('sheet-format.md examples are valid sheets', () => {
+    const blocks = [...read('sheet-format.md').matchAll(/```json\n([\s\S]*?)```/g)].map((m) => m[1]);
+    expect(blocks.length).toBeGreaterThan(0);
+    for (const block of blocks) expect(parseSheet(JSON.parse(block)).ok).toBe(true);
+  });
+
+  it('warnings.md has a section per catalogue code stating its severity', () => {
+    const text = read('warnings.md');
+    for (const [code, info] of Object.entries(WARNING_CATALOGUE)) {
+      const section = text.split(`\n## ${code}\n`)[1]?.split('\n## ')[0];
+      expect(section, code).toBeDefined();
+      expect(section).toContain(`Severity: **${info.severity}**`);
+      expect(section).toContain(info.message);
+    }
+  });
+
+  it('outputs.md explains every per-finger, grasp and object output', () => {
+    const text = read('outputs.md');
+    const plain = toPlainResult(solveSheet(createSheetFromTemplate('tri-radial', { kind: 'sphere', radius: 0.03 })));
+    const finger = plain.fingers[0];
+    const names = [
+      ...Object.keys(plain.object).map((k) => `object.${k}`),
+      ...Object.keys(finger).filter((k) => !['contact', 'full', 'steer'].includes(k)),
+      ...(['contact', 'full', 'steer'] as const).flatMap((part) => Object.keys(finger[part]).map((k) => `${part}.${k}`)),
+      ...Object.keys(plain.grasp).map((k) => `grasp.${k}`),
+      'warnings',
+      'worstSeverity',
+    ];
+    const missing = names.filter((name) => !text.includes(`\`${name}\``));
+    expect(missing).toEqual([]);
+  });
+});
