@@ -66,6 +66,7 @@ export interface ContactWorkspace {
   corePosed: PosedShape;
   centerLocal: Float64Array;
   axisLocal: Float64Array;
+  axisPoint: Float64Array;
   frameX: Float64Array;
   frameY: Float64Array;
 }
@@ -124,6 +125,7 @@ export function createContactWorkspace(): ContactWorkspace {
     corePosed: { shape: cylinderShape(0, 0), position: new Float64Array(3), rotation: new Float64Array(9) },
     centerLocal: new Float64Array(3),
     axisLocal: new Float64Array(3),
+    axisPoint: new Float64Array(3),
     frameX: new Float64Array(3),
     frameY: new Float64Array(3),
   };
@@ -198,11 +200,15 @@ export function computeContact(object: RigidObject, finger: Finger, tolerance: n
 }
 
 /**
- * Cylindrical roller: exact GJK distance when separated. When the roller overlaps the object,
- * GJK has no closest points, so the roller is treated as its core (the cylinder shrunk by
- * m = min(radius, half width)) grown by a ball of radius m, which keeps the curved face exact and
- * rounds the rims; penetration is then the core distance minus m. Writes y, x and n (object frame
- * for x and n, world frame for y) and returns the gap, m.
+ * Cylindrical roller. Along the roller axis a(s) = c + s a, |s| <= half width, the object's
+ * signed distance is convex with slope n . a; where it has an interior minimum s*, the normal
+ * there is perpendicular to the axis and the contact lies on the curved face:
+ * x = closest point of a(s*), y = a(s*) - rho n, gap = sd(a(s*)) - rho, exact to rounding and
+ * valid for penetration too. Otherwise the contact is on a rim or an end face: GJK gives it when
+ * separated; when overlapping, GJK has no closest points, so the roller is taken as its core (the
+ * cylinder shrunk by m = min(radius, half width)) grown by a ball of radius m, which rounds the
+ * rims, and penetration is the core distance minus m. Writes x and n (object frame) and y (world
+ * frame) and returns the gap, m.
  */
 function cylinderContactLocal(object: RigidObject, finger: Finger, out: Contact, ws: ContactWorkspace): number {
   const R = object.rotation;
@@ -227,10 +233,20 @@ function cylinderContactLocal(object: RigidObject, finger: Finger, out: Contact,
   rs.halfLength = halfWidth;
   const xl = out.objectPointLocal, nl = out.normalLocal;
   const y = out.rollerPoint;
-  const result = gjkDistance(ws.objectPosed, roller, ws.gjkResult, ws.gjk);
   let gap: number;
   let yx: number, yy: number, yz: number;
-  if (!result.intersecting && result.distance > 0) {
+  const s = curvedFaceContact(object.shape, ws.centerLocal, al, halfWidth, ws);
+  const result = Number.isNaN(s) ? gjkDistance(ws.objectPosed, roller, ws.gjkResult, ws.gjk) : ws.gjkResult;
+  if (!Number.isNaN(s)) {
+    const q = ws.query;
+    copy3(q.point, xl);
+    copy3(q.normal, nl);
+    gap = q.signedDistance - rho;
+    const cl = ws.centerLocal;
+    yx = cl[0] + s * al[0] - rho * nl[0];
+    yy = cl[1] + s * al[1] - rho * nl[1];
+    yz = cl[2] + s * al[2] - rho * nl[2];
+  } else if (!result.intersecting && result.distance > 0) {
     const d = result.distance;
     copy3(result.pointA, xl);
     nl[0] = (result.pointB[0] - xl[0]) / d;
@@ -269,6 +285,56 @@ function cylinderContactLocal(object: RigidObject, finger: Finger, out: Contact,
   y[1] = R[3] * yx + R[4] * yy + R[5] * yz + p[1];
   y[2] = R[6] * yx + R[7] * yy + R[8] * yz + p[2];
   return gap;
+}
+
+const SLOPE_TOLERANCE = 1e-12;
+const ROOT_ITERATIONS = 80;
+
+/** Slope n . a of the signed distance at c + s a, leaving the closest-point query in ws.query. */
+function slopeAlongAxis(shape: ConvexShape, center: Float64Array, axis: Float64Array, s: number, ws: ContactWorkspace): number {
+  const p = ws.axisPoint;
+  p[0] = center[0] + s * axis[0];
+  p[1] = center[1] + s * axis[1];
+  p[2] = center[2] + s * axis[2];
+  const n = closestSurfacePoint(shape, p, ws.query).normal;
+  return n[0] * axis[0] + n[1] * axis[1] + n[2] * axis[2];
+}
+
+/**
+ * Axial position s* in [-halfWidth, halfWidth] of the minimum of the signed distance along the
+ * roller axis when it is interior (slope changes sign), found by the Illinois variant of regula
+ * falsi on the nondecreasing slope; NaN when the minimum is at an end. ws.query then holds the
+ * closest point of c + s* a (object frame).
+ */
+function curvedFaceContact(shape: ConvexShape, center: Float64Array, axis: Float64Array, halfWidth: number, ws: ContactWorkspace): number {
+  let a = -halfWidth, b = halfWidth;
+  let fa = slopeAlongAxis(shape, center, axis, a, ws);
+  let fb = slopeAlongAxis(shape, center, axis, b, ws);
+  if (fa > SLOPE_TOLERANCE || fb < -SLOPE_TOLERANCE) return Number.NaN;
+  if (fa >= -SLOPE_TOLERANCE && fb <= SLOPE_TOLERANCE) {
+    // Flat along the whole width (line contact): take the middle of the roller.
+    slopeAlongAxis(shape, center, axis, 0, ws);
+    return 0;
+  }
+  let s = 0;
+  let side = 0;
+  for (let i = 0; i < ROOT_ITERATIONS; i++) {
+    s = (a * fb - b * fa) / (fb - fa);
+    if (!(s > a && s < b)) s = 0.5 * (a + b);
+    const fs = slopeAlongAxis(shape, center, axis, s, ws);
+    if (fs === 0 || b - a <= 1e-15 * halfWidth) return s;
+    if (fs > 0) {
+      b = s; fb = fs;
+      if (side === 1) fa *= 0.5;
+      side = 1;
+    } else {
+      a = s; fa = fs;
+      if (side === -1) fb *= 0.5;
+      side = -1;
+    }
+    if (Math.abs(fs) <= 1e-15) return s;
+  }
+  return s;
 }
 
 function placeAlongAxis(posed: PosedShape, e1: Vec3Like, e2: Vec3Like, axis: Vec3Like, center: Float64Array): void {
