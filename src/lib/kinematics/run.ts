@@ -265,3 +265,29 @@ export function warningsAt(record: RunRecord, tick: number): WarningCode[] {
   const mask = record.warningMask[tick]!;
   return WARNING_CODES.filter((_, i) => (mask & (1 << i)) !== 0);
 }
+
+/** JSON-ready copy of a run record: typed arrays as plain arrays, with the legends for warning bits and metric columns. */
+export function toPlainRunRecord(record: RunRecord) {
+  return {
+    tickCount: record.tickCount,
+    stopReason: record.stopReason,
+    settings: record.settings,
+    fingerNames: record.fingerNames,
+    jointCounts: record.jointCounts,
+    warningCodes: [...WARNING_CODES],
+    severityLevels: [...SEVERITY_LEVELS],
+    orientationMetrics: ROTATION_METRICS.map((m) => m.key),
+    time: Array.from(record.time),
+    position: Array.from(record.position),
+    orientation: Array.from(record.orientation),
+    measuredPosition: Array.from(record.measuredPosition),
+    measuredOrientation: Array.from(record.measuredOrientation),
+    twist: Array.from(record.twist),
+    jointAngles: record.jointAngles.map((c) => Array.from(c)),
+    jointRates: record.jointRates.map((c) => Array.from(c)),
+    positionError: Array.from(record.positionError),
+    orientationError: Array.from(record.orientationError),
+    warningMask: Array.from(record.warningMask),
+    worstSeverity: Array.from(record.worstSeverity),
+  };
+}

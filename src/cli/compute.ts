@@ -1,0 +1,200 @@
+/**
+ * Solves a sheet document from the command line.
+ * Usage: npm run compute -- path/to/sheet.json [--format json|csv] [--run] [--sweep]
+ * JSON (default) prints {title, result, run?, sweep?}; CSV prints one row per finger, then with
+ * --run a table with one row per tick and with --sweep one row per value and finger, each table
+ * after a blank line and a "# name" line. Exit codes: 0 solved, 1 unreadable or invalid sheet, 2 bad usage.
+ */
+import { readFileSync, realpathSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
+import { parseSheet } from '../lib/sheet/schema';
+import type { SheetDocument } from '../lib/sheet/types';
+import { solveSheet, toPlainResult, type PlainSheetResult } from '../lib/kinematics/index';
+import { ROTATION_METRICS } from '../lib/kinematics/metrics';
+import { runSheet, toPlainRunRecord, warningsAt, type RunRecord } from '../lib/kinematics/run';
+import { sweepSheet, type SweepRecord } from '../lib/kinematics/sweep';
+
+const USAGE = 'usage: npm run compute -- path/to/sheet.json [--format json|csv] [--run] [--sweep]';
+
+interface Options {
+  file: string;
+  format: 'json' | 'csv';
+  run: boolean;
+  sweep: boolean;
+}
+
+class UsageError extends Error {}
+class InputError extends Error {}
+
+function parseArguments(args: readonly string[]): Options {
+  let file: string | undefined;
+  let format: Options['format'] = 'json';
+  let run = false;
+  let sweep = false;
+  for (let i = 0; i < args.length; i++) {
+    const arg = args[i]!;
+    if (arg === '--run') run = true;
+    else if (arg === '--sweep') sweep = true;
+    else if (arg === '--format' || arg.startsWith('--format=')) {
+      const value = arg === '--format' ? args[++i] : arg.slice('--format='.length);
+      if (value !== 'json' && value !== 'csv') throw new UsageError(`--format must be json or csv, got ${value ?? 'nothing'}`);
+      format = value;
+    } else if (arg === '--help' || arg === '-h') throw new UsageError('');
+    else if (arg.startsWith('-')) throw new UsageError(`unknown option ${arg}`);
+    else if (file === undefined) file = arg;
+    else throw new UsageError(`only one sheet file, got ${file} and ${arg}`);
+  }
+  if (file === undefined) throw new UsageError('no sheet file given');
+  return { file, format, run, sweep };
+}
+
+/** Line and column (1-based) of a character offset in text. */
+function lineAndColumn(text: string, offset: number): string {
+  const before = text.slice(0, offset);
+  const line = before.split('\n').length;
+  const column = offset - before.lastIndexOf('\n');
+  return `${line}:${column}`;
+}
+
+function readSheet(file: string): SheetDocument {
+  let text: string;
+  try {
+    text = readFileSync(file, 'utf8');
+  } catch (error) {
+    throw new InputError(`${file}: cannot read the file (${(error as NodeJS.ErrnoException).code ?? String(error)})`);
+  }
+  let json: unknown;
+  try {
+    json = JSON.parse(text);
+  } catch (error) {
+    const message = (error as Error).message;
+    const position = /position (\d+)/.exec(message);
+    const where = position ? lineAndColumn(text, Number(position[1])) : lineAndColumn(text, text.length);
+    throw new InputError(`${file}:${where}: invalid JSON: ${message}`);
+  }
+  const parsed = parseSheet(json);
+  if (!parsed.ok) {
+    const lines = parsed.issues.map((issue) => `${file}: ${issue.path}: ${issue.message}`);
+    throw new InputError(`${lines.join('\n')}\n${file}: invalid sheet (${parsed.issues.length} issue${parsed.issues.length === 1 ? '' : 's'})`);
+  }
+  return parsed.doc;
+}
+
+function csvCell(value: unknown): string {
+  const text = typeof value === 'number' ? (Number.isFinite(value) ? String(value) : Number.isNaN(value) ? 'NaN' : value > 0 ? 'Infinity' : '-Infinity') : String(value ?? '');
+  return /[",\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
+}
+
+function csvTable(header: readonly string[], rows: readonly (readonly unknown[])[]): string {
+  return [header, ...rows].map((row) => row.map(csvCell).join(',')).join('\n');
+}
+
+const FINGER_COLUMNS = [
+  'finger', 'contact_state', 'gap_m', 'normal_speed_m_s', 'tangential_speed_m_s', 'residual_m_s', 'sigma1_m_rad', 'sigma2_m_rad',
+  'sigma3_m_rad', 'condition_number', 'manipulability', 'steer_base_rate_rad_s', 'steer_pivot_angle_rad', 'steer_roll_rate_rad_s',
+  'steer_residual_m_s', 'warnings',
+];
+
+function fingerRows(result: PlainSheetResult, maxJoints: number, prefix: readonly unknown[] = []): unknown[][] {
+  return result.fingers.map((finger, i) => {
+    const codes = result.warnings.filter((w) => w.finger === i).map((w) => w.code);
+    const rates = Array.from({ length: maxJoints }, (_, k) => finger.full.rates[k] ?? '');
+    return [
+      ...prefix,
+      finger.name, finger.contact.state, finger.contact.gap, finger.contact.normalSpeed, finger.contact.tangentialSpeed,
+      finger.full.residualNorm, finger.full.singularValues[0], finger.full.singularValues[1], finger.full.singularValues[2],
+      finger.full.conditionNumber, finger.full.manipulability, finger.steer.baseRate, finger.steer.pivotAngle, finger.steer.rollRate,
+      finger.steer.residualNorm, codes.join(' '), ...rates,
+    ];
+  });
+}
+
+function rateColumns(maxJoints: number): string[] {
+  return Array.from({ length: maxJoints }, (_, k) => `rate${k + 1}_rad_s`);
+}
+
+function runTable(record: RunRecord): string {
+  const metrics = ROTATION_METRICS.map((m) => `${m.key}${m.unit === 'rad' ? '_rad' : ''}`);
+  const header = ['tick', 'time_s', 'x_m', 'y_m', 'z_m', 'qx', 'qy', 'qz', 'qw', 'position_error_m', ...metrics, 'warnings'];
+  const rows: unknown[][] = [];
+  const m = ROTATION_METRICS.length;
+  for (let k = 0; k < record.tickCount; k++) {
+    rows.push([
+      k, record.time[k], ...record.position.subarray(3 * k, 3 * k + 3), ...record.orientation.subarray(4 * k, 4 * k + 4),
+      record.positionError[k], ...record.orientationError.subarray(m * k, m * k + m), warningsAt(record, k).join(' '),
+    ]);
+  }
+  return csvTable(header, rows);
+}
+
+function sweepTable(record: SweepRecord, maxJoints: number): string {
+  const rows = record.results.flatMap((result, i) => fingerRows(result, maxJoints, [record.values[i]]));
+  return csvTable(['value', ...FINGER_COLUMNS, ...rateColumns(maxJoints)], rows);
+}
+
+/** Where the command writes; the process streams when run from the shell. */
+export interface CommandOutput {
+  stdout: (text: string) => void;
+  stderr: (text: string) => void;
+}
+
+/** Runs the compute command on its arguments and returns the exit status (0 solved, 1 bad sheet, 2 bad usage). */
+export function runComputeCommand(args: readonly string[], io: CommandOutput): number {
+  const report = (text: string) => io.stderr(`${text}\n`);
+  let options: Options;
+  try {
+    options = parseArguments(args);
+  } catch (error) {
+    if (!(error instanceof UsageError)) throw error;
+    if (error.message) report(`compute: ${error.message}`);
+    report(USAGE);
+    return 2;
+  }
+  let doc: SheetDocument;
+  try {
+    doc = readSheet(options.file);
+  } catch (error) {
+    if (!(error instanceof InputError)) throw error;
+    report(error.message);
+    return 1;
+  }
+  if (options.sweep && doc.sweep === undefined) {
+    report(`${options.file}: sweep: --sweep needs a "sweep" section in the sheet`);
+    return 1;
+  }
+  const result = toPlainResult(solveSheet(doc));
+  const run = options.run ? runSheet(doc) : undefined;
+  let sweep: SweepRecord | undefined;
+  try {
+    sweep = options.sweep ? sweepSheet(doc) : undefined;
+  } catch (error) {
+    if (!(error instanceof RangeError)) throw error;
+    report(`${options.file}: sweep.path: ${error.message}`);
+    return 1;
+  }
+  const maxJoints = doc.hand.fingers.reduce((n, f) => Math.max(n, f.joints.length), 0);
+  if (options.format === 'json') {
+    const output = {
+      title: doc.title,
+      result,
+      ...(run ? { run: toPlainRunRecord(run) } : {}),
+      ...(sweep ? { sweep: { path: sweep.path, values: Array.from(sweep.values), results: sweep.results, worstSeverity: sweep.worstSeverity } } : {}),
+    };
+    // JSON has no Infinity or NaN; they are written as strings so nothing is silently lost.
+    io.stdout(`${JSON.stringify(output, (_, v: unknown) => (typeof v === 'number' && !Number.isFinite(v) ? String(v) : v), 2)}\n`);
+    return 0;
+  }
+  const tables = [csvTable([...FINGER_COLUMNS, ...rateColumns(maxJoints)], fingerRows(result, maxJoints))];
+  if (run) tables.push(`# run (${run.stopReason} after ${run.tickCount} ticks)\n${runTable(run)}`);
+  if (sweep) tables.push(`# sweep ${sweep.path}\n${sweepTable(sweep, maxJoints)}`);
+  io.stdout(`${tables.join('\n\n')}\n`);
+  return 0;
+}
+
+const invokedDirectly = process.argv[1] !== undefined && realpathSync(process.argv[1]) === realpathSync(fileURLToPath(import.meta.url));
+if (invokedDirectly) {
+  process.exitCode = runComputeCommand(process.argv.slice(2), {
+    stdout: (text) => process.stdout.write(text),
+    stderr: (text) => process.stderr.write(text),
+  });
+}

@@ -1,0 +1,156 @@
+import { execFile } from 'node:child_process';
+import { mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { afterAll, describe, expect, it } from 'vitest';
+import { runComputeCommand } from '../../../src/cli/compute';
+
+// Conventions checked (common practice): exit status 0 on success, 1 on bad input, 2 on bad usage (as in
+// GNU grep/diff); CSV rows of equal width with RFC 4180 quoting; error messages located as file:line:column.
+
+const root = fileURLToPath(new URL('../../../', import.meta.url));
+const tsx = join(root, 'node_modules', '.bin', 'tsx');
+const sheetsDir = join(root, 'content', 'sheets');
+const sheets = readdirSync(sheetsDir).filter((name) => name.endsWith('.json')).sort();
+const scratch = mkdtempSync(join(tmpdir(), 'compute-cli-'));
+afterAll(() => rmSync(scratch, { recursive: true, force: true }));
+
+interface Outcome {
+  code: number;
+  stdout: string;
+  stderr: string;
+}
+
+/** The command in this process (fast); `spawned` runs the real script through tsx. */
+function compute(...args: string[]): Promise<Outcome> {
+  let stdout = '';
+  let stderr = '';
+  const code = runComputeCommand(args, { stdout: (text) => (stdout += text), stderr: (text) => (stderr += text) });
+  return Promise.resolve({ code, stdout, stderr });
+}
+
+function spawned(...args: string[]): Promise<Outcome> {
+  return new Promise((resolve) => {
+    execFile(tsx, ['src/cli/compute.ts', ...args], { cwd: root, maxBuffer: 256 * 1024 * 1024 }, (error, stdout, stderr) => {
+      resolve({ code: error ? Number(error.code ?? 1) : 0, stdout, stderr });
+    });
+  });
+}
+
+/** Splits one CSV line by RFC 4180 rules (quoted fields may hold commas and doubled quotes). */
+function csvFields(line: string): string[] {
+  const fields: string[] = [];
+  let field = '';
+  let quoted = false;
+  for (let i = 0; i < line.length; i++) {
+    const ch = line[i]!;
+    if (quoted) {
+      if (ch === '"' && line[i + 1] === '"') {
+        field += '"';
+        i++;
+      } else if (ch === '"') quoted = false;
+      else field += ch;
+    } else if (ch === '"') quoted = true;
+    else if (ch === ',') {
+      fields.push(field);
+      field = '';
+    } else field += ch;
+  }
+  fields.push(field);
+  return fields;
+}
+
+describe('compute CLI', () => {
+  it('finds the example sheets', () => {
+    expect(sheets.length).toBeGreaterThan(0);
+  });
+
+  it('solves every example sheet to JSON with one result per finger', async () => {
+    const outcomes = await Promise.all(sheets.map((name) => compute(join('content', 'sheets', name))));
+    outcomes.forEach((outcome, i) => {
+      const source = JSON.parse(readFileSync(join(sheetsDir, sheets[i]!), 'utf8')) as { title: string; hand: { fingers: unknown[] } };
+      expect(outcome.stderr, sheets[i]).toBe('');
+      expect(outcome.code, sheets[i]).toBe(0);
+      const output = JSON.parse(outcome.stdout) as { title: string; result: { fingers: { full: { rates: number[] } }[]; warnings: unknown[] } };
+      expect(output.title).toBe(source.title);
+      expect(output.result.fingers.length).toBe(source.hand.fingers.length);
+      expect(Array.isArray(output.result.warnings)).toBe(true);
+    });
+  });
+
+  it('prints CSV with a header and one row per finger, every row as wide as the header', async () => {
+    const outcomes = await Promise.all(sheets.map((name) => compute(join('content', 'sheets', name), '--format', 'csv')));
+    outcomes.forEach((outcome, i) => {
+      const source = JSON.parse(readFileSync(join(sheetsDir, sheets[i]!), 'utf8')) as { hand: { fingers: { name: string }[] } };
+      expect(outcome.code, sheets[i]).toBe(0);
+      const lines = outcome.stdout.trimEnd().split('\n');
+      expect(lines.length).toBe(source.hand.fingers.length + 1);
+      const width = csvFields(lines[0]!).length;
+      lines.forEach((line) => expect(csvFields(line).length).toBe(width));
+      expect(lines.slice(1).map((line) => csvFields(line)[0])).toEqual(source.hand.fingers.map((f) => f.name));
+    });
+  });
+
+  it('adds a run and a sweep with --run --sweep (JSON and CSV)', async () => {
+    const withSweep = sheets.find((name) => 'sweep' in (JSON.parse(readFileSync(join(sheetsDir, name), 'utf8')) as object));
+    expect(withSweep).toBeDefined();
+    const file = join('content', 'sheets', withSweep!);
+    const [json, csv] = await Promise.all([compute(file, '--run', '--sweep'), compute(file, '--format=csv', '--run', '--sweep')]);
+    expect(json.code).toBe(0);
+    const output = JSON.parse(json.stdout) as { run: { tickCount: number; time: number[] }; sweep: { values: number[]; results: unknown[] } };
+    expect(output.run.time.length).toBe(output.run.tickCount);
+    expect(output.sweep.results.length).toBe(output.sweep.values.length);
+    expect(csv.code).toBe(0);
+    const sections = csv.stdout.trimEnd().split('\n\n');
+    expect(sections.length).toBe(3);
+    expect(sections[1]).toMatch(/^# run \(/);
+    expect(sections[2]).toMatch(/^# sweep \//);
+    expect(sections[2]!.split('\n').length).toBe(2 + output.sweep.values.length * (csv.stdout.split('\n\n')[0]!.split('\n').length - 1));
+  });
+
+  it('exits 1 with file:line:column on invalid JSON', async () => {
+    const file = join(scratch, 'broken.json');
+    writeFileSync(file, '{\n  "format": "slipless.sheet",\n  "title": "a" "b"\n}\n');
+    const outcome = await compute(file);
+    expect(outcome.code).toBe(1);
+    expect(outcome.stdout).toBe('');
+    expect(outcome.stderr).toContain(`${file}:3:16: invalid JSON`);
+  });
+
+  it('exits 1 listing each invalid field by its path', async () => {
+    const source = JSON.parse(readFileSync(join(sheetsDir, sheets[0]!), 'utf8')) as { hand: { fingers: { joints: { axis: unknown }[] }[] } };
+    source.hand.fingers[0]!.joints[0]!.axis = 'sideways';
+    const file = join(scratch, 'invalid.json');
+    writeFileSync(file, JSON.stringify(source));
+    const outcome = await compute(file);
+    expect(outcome.code).toBe(1);
+    expect(outcome.stderr).toContain(`${file}: hand.fingers[0].joints[0].axis: `);
+    expect(outcome.stderr).toMatch(/invalid sheet \(1 issue\)/);
+  });
+
+  it('runs as a script: solved sheet on stdout with status 0, invalid JSON on stderr with status 1', { timeout: 180_000 }, async () => {
+    const broken = join(scratch, 'broken-spawned.json');
+    writeFileSync(broken, '{ "format": ');
+    const [good, bad] = [await spawned(join('content', 'sheets', sheets[0]!), '--format', 'csv'), await spawned(broken)];
+    expect(good.code).toBe(0);
+    expect(good.stdout.split('\n')[0]).toMatch(/^finger,contact_state,gap_m,/);
+    expect(bad.code).toBe(1);
+    expect(bad.stderr).toContain(`${broken}:1:13: invalid JSON`);
+  });
+
+  it('exits 1 on a missing file and 2 on bad usage', async () => {
+    const [missing, unknown, format, none] = await Promise.all([
+      compute(join(scratch, 'nope.json')),
+      compute(join('content', 'sheets', sheets[0]!), '--bogus'),
+      compute(join('content', 'sheets', sheets[0]!), '--format', 'xml'),
+      compute(),
+    ]);
+    expect(missing.code).toBe(1);
+    expect(missing.stderr).toContain('cannot read the file (ENOENT)');
+    for (const outcome of [unknown, format, none]) {
+      expect(outcome.code).toBe(2);
+      expect(outcome.stderr).toContain('usage: npm run compute');
+    }
+  });
+});
