@@ -381,11 +381,17 @@ function steer(finger: Finger, contact: Contact, out: SteerAndRoll, ws: SolveWor
     if (amplitude > 0) {
       const phase = Math.atan2(cs, bc);
       const ratio = -a / amplitude;
-      aligned = ratio >= -1 && ratio <= 1;
+      const reachable = ratio >= -1 && ratio <= 1;
       // Out of reach: the closest approach is where the cosine saturates.
       const spread = Math.acos(ratio > 1 ? 1 : ratio < -1 ? -1 : ratio);
       const first = wrapAngle(phase + spread), second = wrapAngle(phase - spread);
-      delta = Math.abs(first) <= Math.abs(second) ? first : second;
+      // A root where d vanishes aligns nothing; of the usable roots take the one nearer the current angle.
+      const scale = D[0] * D[0] + D[1] * D[1] + D[2] * D[2] + D[3] * D[3] + D[4] * D[4] + D[5] * D[5] + D[6] * D[6] + D[7] * D[7] + D[8] * D[8];
+      const firstUsable = rollDirectionSquared(D, first) > 1e-18 * scale;
+      const secondUsable = rollDirectionSquared(D, second) > 1e-18 * scale;
+      if (firstUsable && (!secondUsable || Math.abs(first) <= Math.abs(second))) delta = first;
+      else if (secondUsable) delta = second;
+      aligned = reachable && (firstUsable || secondUsable);
     }
   }
   const cos = Math.cos(delta), sin = Math.sin(delta);
@@ -402,6 +408,12 @@ function steer(finger: Finger, contact: Contact, out: SteerAndRoll, ws: SolveWor
   out.rates[finger.rollIndex] = out.rollRate;
   const crossX = dy * u[2] - dz * u[1], crossY = dz * u[0] - dx * u[2], crossZ = dx * u[1] - dy * u[0];
   out.misalignment = dd > 0 && uNorm > 0 ? Math.atan2(Math.sqrt(crossX * crossX + crossY * crossY + crossZ * crossZ), Math.abs(du)) : 0;
+}
+
+function rollDirectionSquared(D: Float64Array, delta: number): number {
+  const c = Math.cos(delta), s = Math.sin(delta);
+  const x = D[0] + D[3] * c + D[6] * s, y = D[1] + D[4] * c + D[7] * s, z = D[2] + D[5] * c + D[8] * s;
+  return x * x + y * y + z * z;
 }
 
 /** Rewrites the Jacobian columns of joints after the pivot as if the pivot had turned by delta (m/rad). */
