@@ -4,7 +4,10 @@
  * each and every output and warning is kept per value.
  */
 import type { SheetDocument, SweepSettings } from '../sheet/types';
-import { createResult, createScene, solveScene, toPlainResult, type PlainSheetResult } from './scene';
+import { fromSheet } from './quat';
+import {
+  createResult, createScene, setJointAngles, setObjectPose, setObjectTwist, solveScene, toPlainResult, type PlainSheetResult, type Scene,
+} from './scene';
 import type { WarningSeverity } from './warnings';
 
 export interface SweepRecord {
@@ -52,6 +55,20 @@ function numericSlot(root: unknown, pointer: string): { holder: Record<string, n
   return { holder: holder as Record<string, number>, key };
 }
 
+/**
+ * Inputs a compiled scene holds as plain state (object pose and twist, joint angles, solver settings):
+ * sweeping one of them updates the scene instead of compiling the sheet again.
+ */
+const SCENE_STATE_PATH = /^\/(object\/(pose|twist)\/|hand\/fingers\/\d+\/joints\/\d+\/angle$|solver\/)/;
+
+/** Copies the document's pose, twist, joint angles and solver settings into the scene. */
+function syncSceneState(scene: Scene, doc: SheetDocument, orientation: Float64Array): void {
+  setObjectPose(scene, doc.object.pose.position, fromSheet(doc.object.pose.orientation, orientation));
+  setObjectTwist(scene, doc.object.twist.linear, doc.object.twist.angular);
+  doc.hand.fingers.forEach((finger, i) => setJointAngles(scene, i, finger.joints.map((joint) => joint.angle)));
+  Object.assign(scene.settings, doc.solver);
+}
+
 /** The steps values from..to inclusive, evenly spaced (SI unit of the swept input). */
 export function sweepValues(settings: SweepSettings): Float64Array {
   const { from, to, steps } = settings;
@@ -69,10 +86,15 @@ export function sweepSheet(doc: SheetDocument, settings: SweepSettings | undefin
   const values = sweepValues(settings);
   const results: PlainSheetResult[] = [];
   const worstSeverity: (WarningSeverity | 'none')[] = [];
+  const reuseScene = SCENE_STATE_PATH.test(settings.path);
+  let scene = createScene(working);
+  const result = createResult(scene);
+  const orientation = new Float64Array(4);
   for (let i = 0; i < values.length; i++) {
     holder[key] = values[i]!;
-    const scene = createScene(working);
-    const result = solveScene(scene, createResult(scene));
+    if (reuseScene) syncSceneState(scene, working, orientation);
+    else scene = createScene(working);
+    solveScene(scene, result);
     results.push(toPlainResult(result));
     worstSeverity.push(result.worstSeverity);
     options.onProgress?.(i + 1, values.length);

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { createSheetFromTemplate } from '../../../src/lib/sheet/templates';
 import type { SheetDocument } from '../../../src/lib/sheet/types';
+import { solveSheet, toPlainResult } from '../../../src/lib/kinematics/scene';
 import { sweepSheet, sweepValues } from '../../../src/lib/kinematics/sweep';
 
 // References: rigid-body velocity v(x) = v + w x (x - p) is linear in the twist (Lynch & Park, "Modern Robotics",
@@ -81,6 +82,20 @@ describe('sweepSheet', () => {
     const doc = sheet() as SheetDocument & { object: { shape: Record<string, unknown> } };
     expect(() => sweepSheet(doc, { path: '/object/shape/a~1b', from: 0, to: 1, steps: 2 })).toThrow(/no "a\/b"/);
     expect(() => sweepSheet(doc, { path: '/object/shape/a~0b', from: 0, to: 1, steps: 2 })).toThrow(/no "a~b"/);
+  });
+
+  it('gives the same outputs as compiling and solving a copy of the sheet per value, for state and geometry inputs alike', () => {
+    for (const path of ['/object/pose/orientation/z', '/hand/fingers/1/joints/0/angle', '/solver/damping', '/hand/fingers/2/roller/radius']) {
+      const doc = sheet();
+      const r = sweepSheet(doc, { path, from: 0.001, to: 0.012, steps: 3 });
+      r.values.forEach((value, i) => {
+        const copy = structuredClone(doc);
+        const tokens = path.slice(1).split('/');
+        const holder = tokens.slice(0, -1).reduce<Record<string, unknown>>((node, token) => node[token] as Record<string, unknown>, copy as unknown as Record<string, unknown>);
+        holder[tokens[tokens.length - 1]!] = value;
+        expect(r.results[i]).toEqual(toPlainResult(solveSheet(copy)));
+      });
+    }
   });
 
   it('leaves the document untouched', () => {

@@ -1,0 +1,152 @@
+/**
+ * Benchmarks of the kinematics core, printed as medians over repetitions (not a test).
+ * Usage: npm run bench [-- --quick]
+ * Measures one full solve of a three- and a five-finger hand (hand templates on a 30 mm sphere),
+ * a 10,000-tick run, a 200-value sweep, and the same three-finger contact solve written the
+ * general-purpose way with mathjs matrices (eigs of J J^T for singular values, inv and multiply
+ * for damped least squares), with the ratio between the two routes.
+ */
+import { all, create, type MathJsInstance, type Matrix as MathMatrix } from 'mathjs';
+import { createSheetFromTemplate } from '../lib/sheet/templates';
+import type { SheetDocument } from '../lib/sheet/types';
+import { createResult, createScene, solveScene } from '../lib/kinematics/index';
+import { runSheet } from '../lib/kinematics/run';
+import { sweepSheet } from '../lib/kinematics/sweep';
+
+const quick = process.argv.includes('--quick');
+const REPETITIONS = quick ? 3 : 9;
+const math: MathJsInstance = create(all);
+
+interface Measurement {
+  label: string;
+  /** Median time per call, ms. */
+  median: number;
+  min: number;
+  max: number;
+}
+
+/** Median over REPETITIONS of the time per call, each repetition timing `batch` calls after a warm-up. */
+function measure(label: string, batch: number, call: () => void): Measurement {
+  for (let i = 0; i < Math.max(1, batch >> 2); i++) call();
+  const times: number[] = [];
+  for (let r = 0; r < REPETITIONS; r++) {
+    const start = performance.now();
+    for (let i = 0; i < batch; i++) call();
+    times.push((performance.now() - start) / batch);
+  }
+  times.sort((a, b) => a - b);
+  return { label, median: times[times.length >> 1]!, min: times[0]!, max: times[times.length - 1]! };
+}
+
+function sphereSheet(templateId: string): SheetDocument {
+  return createSheetFromTemplate(templateId, { kind: 'sphere', radius: 0.03 });
+}
+
+/** Rates of one finger by the textbook route in mathjs: PoE forward kinematics, contact on a sphere, DLS, eigs. */
+function solveFingerWithMathjs(doc: SheetDocument, fingerIndex: number) {
+  const finger = doc.hand.fingers[fingerIndex]!;
+  const shape = doc.object.shape;
+  if (shape.kind !== 'sphere' || finger.roller.kind !== 'sphere') throw new Error('the mathjs route covers sphere objects and ball rollers');
+  const identity3 = math.identity(3) as MathMatrix;
+  let rotation = identity3;
+  let translation = math.matrix([0, 0, 0]);
+  const axes: MathMatrix[] = [];
+  const points: MathMatrix[] = [];
+  for (const joint of finger.joints) {
+    const w = math.matrix(joint.axis);
+    const r = math.matrix(joint.point);
+    axes.push(math.multiply(rotation, w));
+    points.push(math.add(math.multiply(rotation, r), translation) as MathMatrix);
+    const [wx, wy, wz] = joint.axis;
+    const k = math.matrix([
+      [0, -wz, wy],
+      [wz, 0, -wx],
+      [-wy, wx, 0],
+    ]);
+    // Rodrigues: R = I + sin(t) K + (1 - cos(t)) K^2; a rotation about the line through r moves the origin by (I - R) r.
+    const jointRotation = math.add(
+      math.add(identity3, math.multiply(Math.sin(joint.angle), k)),
+      math.multiply(1 - Math.cos(joint.angle), math.multiply(k, k)),
+    ) as MathMatrix;
+    const jointTranslation = math.multiply(math.subtract(identity3, jointRotation), r) as MathMatrix;
+    translation = math.add(math.multiply(rotation, jointTranslation), translation) as MathMatrix;
+    rotation = math.multiply(rotation, jointRotation);
+  }
+  const center = math.add(math.multiply(rotation, math.matrix(finger.roller.center)), translation) as MathMatrix;
+  const objectCenter = math.matrix(doc.object.pose.position);
+  const offset = math.subtract(center, objectCenter) as MathMatrix;
+  const normal = math.divide(offset, math.norm(offset)) as MathMatrix;
+  const x = math.add(objectCenter, math.multiply(shape.radius, normal)) as MathMatrix;
+  const y = math.subtract(center, math.multiply(finger.roller.radius, normal)) as MathMatrix;
+  const velocity = math.add(
+    math.matrix(doc.object.twist.linear),
+    math.cross(math.matrix(doc.object.twist.angular), math.subtract(x, objectCenter) as MathMatrix),
+  ) as MathMatrix;
+  const columns = axes.map((w, i) => (math.cross(w, math.subtract(y, points[i]!) as MathMatrix) as MathMatrix).toArray() as number[]);
+  const jacobian = math.transpose(math.matrix(columns));
+  const gram = math.multiply(jacobian, math.transpose(jacobian));
+  const damped = math.add(gram, math.multiply(doc.solver.damping ** 2, identity3)) as MathMatrix;
+  const rates = math.multiply(math.transpose(jacobian), math.multiply(math.inv(damped), velocity)) as MathMatrix;
+  const residual = math.norm(math.subtract(velocity, math.multiply(jacobian, rates)) as MathMatrix) as number;
+  const eigenvalues = (math.eigs(gram).values as MathMatrix).toArray() as number[];
+  const singular = eigenvalues.map((v) => Math.sqrt(Math.max(0, v))).sort((a, b) => b - a);
+  const condition = singular[0]! / singular[singular.length - 1]!;
+  const manipulability = Math.sqrt(Math.max(0, math.det(gram)));
+  return { rates: rates.toArray() as number[], residual, singular, condition, manipulability };
+}
+
+function format(ms: number): string {
+  if (ms < 1e-3) return `${(ms * 1e6).toFixed(0)} ns`;
+  if (ms < 1) return `${(ms * 1e3).toFixed(2)} us`;
+  return `${ms.toFixed(1)} ms`;
+}
+
+function line(m: Measurement, note = ''): string {
+  return `${m.label.padEnd(44)} ${format(m.median).padStart(10)}   (min ${format(m.min)}, max ${format(m.max)})${note ? `   ${note}` : ''}`;
+}
+
+function against(m: Measurement, targetMs: number): string {
+  const ratio = m.median / targetMs;
+  return `target < ${format(targetMs)}: ${ratio <= 1 ? 'met' : 'missed'}, ${ratio.toFixed(2)} x target`;
+}
+
+const three = sphereSheet('tri-radial');
+const five = sphereSheet('penta-fan');
+const threeScene = createScene(three);
+const threeResult = createResult(threeScene);
+const fiveScene = createScene(five);
+const fiveResult = createResult(fiveScene);
+
+// Check that both routes compute the same rates before timing them.
+solveScene(threeScene, threeResult);
+let largestDifference = 0;
+for (let i = 0; i < three.hand.fingers.length; i++) {
+  const reference = solveFingerWithMathjs(three, i);
+  reference.rates.forEach((rate, k) => {
+    largestDifference = Math.max(largestDifference, Math.abs(rate - threeResult.fingers[i]!.full.rates[k]!));
+  });
+}
+
+const runSettings = { ...three.motion.run, maxTicks: 10_000, positionTolerance: -1, angleTolerance: -1, stopOnSingular: false };
+const sweepSettings = { path: '/object/twist/angular/2', from: 0, to: 0.5, steps: 200 };
+
+const solveThree = measure('full solve, three fingers (tri-radial)', quick ? 2_000 : 20_000, () => solveScene(threeScene, threeResult));
+const solveFive = measure('full solve, five fingers (penta-fan)', quick ? 2_000 : 20_000, () => solveScene(fiveScene, fiveResult));
+const mathjsThree = measure('mathjs contact solve, three fingers', quick ? 20 : 200, () => {
+  for (let i = 0; i < three.hand.fingers.length; i++) solveFingerWithMathjs(three, i);
+});
+const run = measure('10,000-tick run, three fingers', quick ? 1 : 3, () => runSheet(three, { settings: runSettings }));
+const sweep = measure('200-value sweep, three fingers', quick ? 1 : 3, () => sweepSheet(three, sweepSettings));
+
+const speedup = mathjsThree.median / solveThree.median;
+const lines = [
+  `Kinematics benchmarks (median of ${REPETITIONS} repetitions; Node ${process.version})`,
+  line(solveThree, against(solveThree, 3e-3)),
+  line(solveFive),
+  line(run, against(run, 50)),
+  line(sweep),
+  line(mathjsThree, `ours is ${speedup.toFixed(0)} x faster (target >= 100 x: ${speedup >= 100 ? 'met' : 'missed'})`),
+  `Largest joint-rate difference between the two routes: ${largestDifference.toExponential(2)} rad/s`,
+  'The full solve also computes steer-and-roll rates, warnings and the grasp map, which the mathjs route leaves out.',
+];
+console.log(lines.join('\n'));
