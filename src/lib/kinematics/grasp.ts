@@ -11,9 +11,8 @@
  * of the 3 x 3 matrix S. Rank and null space do not depend on the reference point; a null
  * rotation w of S gives the undrivable twist (v, w) = (-w x (m - p), w) about p.
  */
-import { symmetricEigenvalues3 } from './solve';
+import { symmetricEigen3 } from './solve';
 import { createMatrix, type Matrix } from './linalg';
-import { perpendicular } from './vec3';
 
 /** Rank and undrivable object twists of the grasp (world frame). */
 export interface GraspResult {
@@ -34,8 +33,8 @@ export interface GraspResult {
 /** Scratch for computeGrasp. */
 export interface GraspWorkspace {
   eigen: Float64Array;
+  vectors: Float64Array;
   rotation: Float64Array;
-  axis: Float64Array;
 }
 
 /** Empty grasp result for up to maxContacts contacts (4 rows each, to allow soft fingers). */
@@ -52,7 +51,7 @@ export function createGraspResult(maxContacts: number): GraspResult {
 
 /** New scratch space for computeGrasp. */
 export function createGraspWorkspace(): GraspWorkspace {
-  return { eigen: new Float64Array(3), rotation: new Float64Array(3), axis: new Float64Array(3) };
+  return { eigen: new Float64Array(3), vectors: new Float64Array(9), rotation: new Float64Array(3) };
 }
 
 /**
@@ -116,7 +115,7 @@ export function computeGrasp(
       s01 += nx * ny; s02 += nx * nz; s12 += ny * nz;
     }
   }
-  const e = symmetricEigenvalues3(s00, s11, s22, s01, s02, s12, ws.eigen);
+  const e = symmetricEigen3(s00, s11, s22, s01, s02, s12, ws.eigen, ws.vectors);
   const translational = Math.sqrt(contactCount);
   const r0 = Math.sqrt(e[0] > 0 ? e[0] : 0), r1 = Math.sqrt(e[1] > 0 ? e[1] : 0), r2 = Math.sqrt(e[2] > 0 ? e[2] : 0);
   // Merge sqrt(k) (three times) with the descending rotational values.
@@ -138,21 +137,12 @@ export function computeGrasp(
   out.rank = 6 - nullRotations;
   out.undrivableCount = nullRotations;
   if (nullRotations === 0) return out;
-  const w = ws.axis;
-  if (nullRotations === 3) {
-    for (let c = 0; c < 3; c++) writeUndrivable(out.undrivable, c, c === 0 ? 1 : 0, c === 1 ? 1 : 0, c === 2 ? 1 : 0, mx - origin[0], my - origin[1], mz - origin[2]);
-    return out;
+  // Eigenvectors of S for its smallest eigenvalues are the rotations no contact notices.
+  const vectors = ws.vectors;
+  for (let c = 0; c < nullRotations; c++) {
+    const col = 3 - nullRotations + c;
+    writeUndrivable(out.undrivable, c, vectors[col], vectors[3 + col], vectors[6 + col], mx - origin[0], my - origin[1], mz - origin[2]);
   }
-  if (nullRotations === 1) {
-    eigenvector3(s00, s11, s22, s01, s02, s12, e[2], w);
-    writeUndrivable(out.undrivable, 0, w[0], w[1], w[2], mx - origin[0], my - origin[1], mz - origin[2]);
-    return out;
-  }
-  // Two null rotations: the plane orthogonal to the one driven rotation axis.
-  eigenvector3(s00, s11, s22, s01, s02, s12, e[0], w);
-  const u = perpendicular(w, ws.rotation);
-  writeUndrivable(out.undrivable, 0, u[0], u[1], u[2], mx - origin[0], my - origin[1], mz - origin[2]);
-  writeUndrivable(out.undrivable, 1, w[1] * u[2] - w[2] * u[1], w[2] * u[0] - w[0] * u[2], w[0] * u[1] - w[1] * u[0], mx - origin[0], my - origin[1], mz - origin[2]);
   return out;
 }
 
@@ -163,22 +153,4 @@ function writeUndrivable(out: Float64Array, c: number, wx: number, wy: number, w
   const o = 6 * c;
   out[o] = vx / length; out[o + 1] = vy / length; out[o + 2] = vz / length;
   out[o + 3] = wx / length; out[o + 4] = wy / length; out[o + 5] = wz / length;
-}
-
-/** Unit eigenvector of the symmetric 3 x 3 matrix for a simple eigenvalue lambda: the largest cross product of two rows of A - lambda I. */
-function eigenvector3(a00: number, a11: number, a22: number, a01: number, a02: number, a12: number, lambda: number, out: Float64Array): void {
-  const b00 = a00 - lambda, b11 = a11 - lambda, b22 = a22 - lambda;
-  const c0x = a01 * a12 - a02 * b11, c0y = a02 * a01 - b00 * a12, c0z = b00 * b11 - a01 * a01;
-  const c1x = a01 * b22 - a02 * a12, c1y = a02 * a02 - b00 * b22, c1z = b00 * a12 - a01 * a02;
-  const c2x = b11 * b22 - a12 * a12, c2y = a12 * a02 - a01 * b22, c2z = a01 * a12 - b11 * a02;
-  const n0 = c0x * c0x + c0y * c0y + c0z * c0z, n1 = c1x * c1x + c1y * c1y + c1z * c1z, n2 = c2x * c2x + c2y * c2y + c2z * c2z;
-  let x = c0x, y = c0y, z = c0z, m = n0;
-  if (n1 > m) { x = c1x; y = c1y; z = c1z; m = n1; }
-  if (n2 > m) { x = c2x; y = c2y; z = c2z; m = n2; }
-  const length = Math.sqrt(m);
-  if (length === 0) {
-    out[0] = 1; out[1] = 0; out[2] = 0;
-    return;
-  }
-  out[0] = x / length; out[1] = y / length; out[2] = z / length;
 }

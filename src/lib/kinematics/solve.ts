@@ -161,39 +161,88 @@ export function contactJacobian(axes: ArrayLike<number>, points: ArrayLike<numbe
   return out;
 }
 
+const JACOBI_SWEEPS = 16;
+
 /**
- * Eigenvalues of the symmetric 3 x 3 matrix [[a00, a01, a02], [a01, a11, a12], [a02, a12, a22]],
- * descending, into out[0..3), by the trigonometric closed form (Smith 1961, "Eigenvalues of a
- * 3x3 real symmetric matrix", Comm. ACM 4(4), p. 168); units of the entries.
+ * Eigenvalues (descending, into values) and optionally unit eigenvectors (columns of the
+ * row-major 3 x 3 vectors) of the symmetric matrix [[a00, a01, a02], [a01, a11, a12],
+ * [a02, a12, a22]] by cyclic Jacobi rotations (Golub & Van Loan, "Matrix Computations", 4th ed.,
+ * sec. 8.5.2-8.5.3), which keep every eigenvalue accurate to rounding relative to the largest,
+ * also when two coincide; units of the entries.
  */
-export function symmetricEigenvalues3(a00: number, a11: number, a22: number, a01: number, a02: number, a12: number, out: Float64Array): Float64Array {
-  const p1 = a01 * a01 + a02 * a02 + a12 * a12;
-  const q = (a00 + a11 + a22) / 3;
-  const b00 = a00 - q, b11 = a11 - q, b22 = a22 - q;
-  const p2 = b00 * b00 + b11 * b11 + b22 * b22 + 2 * p1;
-  if (p2 === 0) {
-    out[0] = q; out[1] = q; out[2] = q;
-    return out;
+export function symmetricEigen3(a00: number, a11: number, a22: number, a01: number, a02: number, a12: number, values: Float64Array, vectors: Float64Array | null = null): Float64Array {
+  let v00 = 1, v01 = 0, v02 = 0, v10 = 0, v11 = 1, v12 = 0, v20 = 0, v21 = 0, v22 = 1;
+  for (let sweep = 0; sweep < JACOBI_SWEEPS; sweep++) {
+    const off = a01 * a01 + a02 * a02 + a12 * a12;
+    if (off === 0 || off <= 1e-34 * (a00 * a00 + a11 * a11 + a22 * a22)) break;
+    // Each rotation zeroes one off-diagonal pair (p, q); c, s from Rutishauser's stable formulas.
+    if (a01 !== 0) {
+      const theta = (a11 - a00) / (2 * a01);
+      const t = (theta >= 0 ? 1 : -1) / (Math.abs(theta) + Math.sqrt(theta * theta + 1));
+      const c = 1 / Math.sqrt(t * t + 1), s = t * c;
+      a00 -= t * a01; a11 += t * a01; a01 = 0;
+      const x = a02, y = a12;
+      a02 = c * x - s * y; a12 = s * x + c * y;
+      let p = v00, q = v01; v00 = c * p - s * q; v01 = s * p + c * q;
+      p = v10; q = v11; v10 = c * p - s * q; v11 = s * p + c * q;
+      p = v20; q = v21; v20 = c * p - s * q; v21 = s * p + c * q;
+    }
+    if (a02 !== 0) {
+      const theta = (a22 - a00) / (2 * a02);
+      const t = (theta >= 0 ? 1 : -1) / (Math.abs(theta) + Math.sqrt(theta * theta + 1));
+      const c = 1 / Math.sqrt(t * t + 1), s = t * c;
+      a00 -= t * a02; a22 += t * a02; a02 = 0;
+      const x = a01, y = a12;
+      a01 = c * x - s * y; a12 = s * x + c * y;
+      let p = v00, q = v02; v00 = c * p - s * q; v02 = s * p + c * q;
+      p = v10; q = v12; v10 = c * p - s * q; v12 = s * p + c * q;
+      p = v20; q = v22; v20 = c * p - s * q; v22 = s * p + c * q;
+    }
+    if (a12 !== 0) {
+      const theta = (a22 - a11) / (2 * a12);
+      const t = (theta >= 0 ? 1 : -1) / (Math.abs(theta) + Math.sqrt(theta * theta + 1));
+      const c = 1 / Math.sqrt(t * t + 1), s = t * c;
+      a11 -= t * a12; a22 += t * a12; a12 = 0;
+      const x = a01, y = a02;
+      a01 = c * x - s * y; a02 = s * x + c * y;
+      let p = v01, q = v02; v01 = c * p - s * q; v02 = s * p + c * q;
+      p = v11; q = v12; v11 = c * p - s * q; v12 = s * p + c * q;
+      p = v21; q = v22; v21 = c * p - s * q; v22 = s * p + c * q;
+    }
   }
-  const p = Math.sqrt(p2 / 6);
-  // r = det((A - q I) / p) / 2, clamped against rounding to the domain of acos.
-  const det = b00 * (b11 * b22 - a12 * a12) - a01 * (a01 * b22 - a12 * a02) + a02 * (a01 * a12 - b11 * a02);
-  let r = det / (2 * p * p * p);
-  r = r < -1 ? -1 : r > 1 ? 1 : r;
-  const phi = Math.acos(r) / 3;
-  const e0 = q + 2 * p * Math.cos(phi);
-  const e2 = q + 2 * p * Math.cos(phi + (2 * Math.PI) / 3);
-  out[0] = e0;
-  out[1] = 3 * q - e0 - e2;
-  out[2] = e2;
-  return out;
+  values[0] = a00; values[1] = a11; values[2] = a22;
+  if (vectors !== null) {
+    vectors[0] = v00; vectors[1] = v01; vectors[2] = v02;
+    vectors[3] = v10; vectors[4] = v11; vectors[5] = v12;
+    vectors[6] = v20; vectors[7] = v21; vectors[8] = v22;
+  }
+  // Sorting network on three entries, moving eigenvector columns along.
+  if (values[0] < values[1]) swapPair(values, vectors, 0, 1);
+  if (values[1] < values[2]) swapPair(values, vectors, 1, 2);
+  if (values[0] < values[1]) swapPair(values, vectors, 0, 1);
+  return values;
+}
+
+function swapPair(values: Float64Array, vectors: Float64Array | null, i: number, k: number): void {
+  const t = values[i];
+  values[i] = values[k];
+  values[k] = t;
+  if (vectors === null) return;
+  for (let row = 0; row < 9; row += 3) {
+    const x = vectors[row + i];
+    vectors[row + i] = vectors[row + k];
+    vectors[row + k] = x;
+  }
 }
 
 /**
  * Singular values of a 3 x n Jacobian, descending and padded with zeros, into out; returns
- * sqrt(det(J J^T)). The two largest come from the eigenvalues of J J^T; the product of all three
- * is summed exactly over the 3 x 3 minors (Cauchy-Binet), so the smallest, product / (s1 s2),
- * keeps its accuracy near rank loss where the eigenvalue alone would lose half the digits.
+ * sqrt(det(J J^T)). The largest comes from the eigenvalues of J J^T. The other two come from
+ * sums of squared minors of J itself (Cauchy-Binet): E2 = sum of squared 2 x 2 minors
+ * = s1^2 s2^2 + s1^2 s3^2 + s2^2 s3^2 and P = sqrt(sum of squared 3 x 3 minors) = s1 s2 s3, so
+ * s2^2 and s3^2 are the roots of t^2 - (E2 - P^2 / s1^2) / s1^2 t + P^2 / s1^2; this keeps small
+ * singular values accurate relative to themselves, where sqrt of a small eigenvalue of J J^T
+ * would lose half the digits.
  */
 export function jacobianSingularValues(j: Matrix, out: Float64Array, eigen: Float64Array): number {
   const n = j.cols, d = j.data;
@@ -203,25 +252,34 @@ export function jacobianSingularValues(j: Matrix, out: Float64Array, eigen: Floa
     g00 += x * x; g11 += y * y; g22 += z * z;
     g01 += x * y; g02 += x * z; g12 += y * z;
   }
-  symmetricEigenvalues3(g00, g11, g22, g01, g02, g12, eigen);
-  const s0 = Math.sqrt(eigen[0] > 0 ? eigen[0] : 0);
-  const s1 = Math.sqrt(eigen[1] > 0 ? eigen[1] : 0);
-  let squaredMinors = 0;
+  symmetricEigen3(g00, g11, g22, g01, g02, g12, eigen);
+  const s1Squared = eigen[0] > 0 ? eigen[0] : 0;
+  let e2 = 0, e3 = 0;
   for (let a = 0; a < n; a++) {
     for (let b = a + 1; b < n; b++) {
+      const m01 = d[a] * d[n + b] - d[b] * d[n + a];
+      const m02 = d[a] * d[2 * n + b] - d[b] * d[2 * n + a];
+      const m12 = d[n + a] * d[2 * n + b] - d[n + b] * d[2 * n + a];
+      e2 += m01 * m01 + m02 * m02 + m12 * m12;
       for (let c = b + 1; c < n; c++) {
-        const m = d[a] * (d[n + b] * d[2 * n + c] - d[n + c] * d[2 * n + b])
-          - d[b] * (d[n + a] * d[2 * n + c] - d[n + c] * d[2 * n + a])
-          + d[c] * (d[n + a] * d[2 * n + b] - d[n + b] * d[2 * n + a]);
-        squaredMinors += m * m;
+        const m = d[c] * m12 - d[n + c] * m02 + d[2 * n + c] * m01;
+        e3 += m * m;
       }
     }
   }
-  const product = Math.sqrt(squaredMinors);
-  out[0] = s0;
-  out[1] = s1;
-  out[2] = s0 * s1 > 0 ? Math.min(product / (s0 * s1), s1) : 0;
-  return product;
+  out[0] = Math.sqrt(s1Squared);
+  if (s1Squared === 0) {
+    out[1] = 0;
+    out[2] = 0;
+    return 0;
+  }
+  const product = e3 / s1Squared;
+  const sum = Math.max(0, (e2 - product) / s1Squared);
+  const discriminant = Math.max(0, sum * sum - 4 * product);
+  const larger = 0.5 * (sum + Math.sqrt(discriminant));
+  out[1] = Math.sqrt(larger);
+  out[2] = larger > 0 ? Math.sqrt(product / larger) : 0;
+  return Math.sqrt(e3);
 }
 
 /** Full damped least-squares solution for one finger after its contact is computed (world frame, SI). */
