@@ -71,10 +71,6 @@ function expectMatrixClose(actual: number[][], expected: number[][], tol: number
   for (let i = 0; i < expected.length; i++) expectClose(actual[i]!, expected[i]!, tol);
 }
 
-function transposeRows(a: number[][]): number[][] {
-  return new MlMatrix(a).transpose().to2DArray();
-}
-
 const ws = createLinalgWorkspace(6, 40);
 
 describe('singularValues', () => {
