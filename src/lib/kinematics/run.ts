@@ -123,6 +123,11 @@ function growColumns(c: Columns, limit: number): void {
   c.capacity = capacity;
 }
 
+/** target[offset..] = source; a plain loop, because TypedArray.set costs more than the copy for a few entries. */
+function copyInto(source: Float64Array, target: Float64Array, offset: number): void {
+  for (let i = 0; i < source.length; i++) target[offset + i] = source[i]!;
+}
+
 const CODE_BIT = new Map<WarningCode, number>(WARNING_CODES.map((code, i) => [code, i]));
 const SEVERITY_INDEX = new Map<WarningSeverity | 'none', number>(SEVERITY_LEVELS.map((level, i) => [level, i]));
 
@@ -165,29 +170,35 @@ export function runScene(scene: Scene, settings: RunSettings, options: RunOption
     poseError(measuredPosition, measuredOrientation, targetPosition, targetOrientation, error);
     linear[0] = gain * error[0]; linear[1] = gain * error[1]; linear[2] = gain * error[2];
     angular[0] = gain * error[3]; angular[1] = gain * error[4]; angular[2] = gain * error[5];
-    object.position.set(measuredPosition);
-    object.orientation.set(measuredOrientation);
-    object.linearVelocity.set(linear);
-    object.angularVelocity.set(angular);
+    copyInto(measuredPosition, object.position, 0);
+    copyInto(measuredOrientation, object.orientation, 0);
+    copyInto(linear, object.linearVelocity, 0);
+    copyInto(angular, object.angularVelocity, 0);
     solveScene(scene, result);
 
     columns.time[tick] = tick * dt;
-    columns.position.set(position, 3 * tick);
-    columns.orientation.set(orientation, 4 * tick);
-    columns.measuredPosition.set(measuredPosition, 3 * tick);
-    columns.measuredOrientation.set(measuredOrientation, 4 * tick);
-    columns.twist.set(linear, 6 * tick);
-    columns.twist.set(angular, 6 * tick + 3);
+    copyInto(position, columns.position, 3 * tick);
+    copyInto(orientation, columns.orientation, 4 * tick);
+    copyInto(measuredPosition, columns.measuredPosition, 3 * tick);
+    copyInto(measuredOrientation, columns.measuredOrientation, 4 * tick);
+    copyInto(linear, columns.twist, 6 * tick);
+    copyInto(angular, columns.twist, 6 * tick + 3);
     for (let i = 0; i < fingers.length; i++) {
       const n = jointCounts[i]!;
-      columns.jointAngles[i]!.set(fingers[i]!.angles, n * tick);
-      columns.jointRates[i]!.set(result.fingers[i]!.full.rates.subarray(0, n), n * tick);
+      const angles = fingers[i]!.angles;
+      const rates = result.fingers[i]!.full.rates;
+      const angleColumn = columns.jointAngles[i]!;
+      const rateColumn = columns.jointRates[i]!;
+      for (let k = 0, o = n * tick; k < n; k++, o++) {
+        angleColumn[o] = angles[k]!;
+        rateColumn[o] = rates[k]!;
+      }
     }
     const dx = targetPosition[0]! - position[0]!, dy = targetPosition[1]! - position[1]!, dz = targetPosition[2]! - position[2]!;
     const positionError = Math.sqrt(dx * dx + dy * dy + dz * dz);
     columns.positionError[tick] = positionError;
     rotationDistances(orientation, targetOrientation, distances);
-    columns.orientationError.set(distances, METRIC_COUNT * tick);
+    copyInto(distances, columns.orientationError, METRIC_COUNT * tick);
     let mask = 0;
     const warnings = result.warnings;
     for (let w = 0; w < warnings.length; w++) mask |= 1 << CODE_BIT.get(warnings[w]!.code)!;
@@ -247,8 +258,8 @@ function measure(
   rotationQuat: Float64Array,
 ): void {
   if (random === null || noise === undefined) {
-    outPosition.set(position);
-    outOrientation.set(orientation);
+    copyInto(position, outPosition, 0);
+    copyInto(orientation, outOrientation, 0);
     return;
   }
   outPosition[0] = position[0]! + noise.position * nextGaussian(random);
