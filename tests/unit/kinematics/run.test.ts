@@ -3,7 +3,8 @@ import { glMatrix, quat as glQuat, type vec3 as GlVec3 } from 'gl-matrix';
 import { createSheetFromTemplate } from '../../../src/lib/sheet/templates';
 import type { RunSettings, SheetDocument } from '../../../src/lib/sheet/types';
 import { ROTATION_METRICS } from '../../../src/lib/kinematics/metrics';
-import { SEVERITY_LEVELS, WARNING_CODES, runSheet, warningsAt } from '../../../src/lib/kinematics/run';
+import { SEVERITY_LEVELS, WARNING_CODES, runScene, runSheet, toPlainRunRecord, warningsAt } from '../../../src/lib/kinematics/run';
+import { createScene } from '../../../src/lib/kinematics/scene';
 import { WARNING_CATALOGUE } from '../../../src/lib/kinematics/warnings';
 
 // References: the closed loop e' = -g e under forward-Euler steps of dt shrinks the error by (1 - g dt) per tick
@@ -154,5 +155,40 @@ describe('runSheet', () => {
     const before = JSON.stringify(doc);
     runSheet(doc, { settings: settings({ maxTicks: 10 }) });
     expect(JSON.stringify(doc)).toBe(before);
+  });
+});
+
+describe('runScene', () => {
+  it('leaves the scene in the final state, so a second run continues where the first stopped', () => {
+    const doc = sheet();
+    const s = settings({ maxTicks: 30, positionTolerance: -1, angleTolerance: -1 });
+    const scene = createScene(doc);
+    const first = runScene(scene, s);
+    const second = runScene(scene, s);
+    const whole = runSheet(doc, { settings: { ...s, maxTicks: 60 } });
+    // The second run starts one tick after the first one's last record.
+    expect(second.positionError[0]).toBeCloseTo(whole.positionError[30]!, 15);
+    expect(second.orientationError[PHI6]).toBeCloseTo(whole.orientationError[M * 30 + PHI6]!, 14);
+    expect(first.tickCount + second.tickCount).toBe(whole.tickCount);
+  });
+});
+
+describe('warningsAt', () => {
+  it('lists the codes whose bits are set, in WARNING_CODES order', () => {
+    const r = runSheet(sheet(), { settings: settings({ maxTicks: 1 }) });
+    r.warningMask[0] = (1 << 0) | (1 << 3);
+    expect(warningsAt(r, 0)).toEqual([WARNING_CODES[0], WARNING_CODES[3]]);
+  });
+});
+
+describe('toPlainRunRecord', () => {
+  it('survives JSON round trip with every column as an array of the recorded length and the legends attached', () => {
+    const r = runSheet(sheet(), { settings: settings({ maxTicks: 4 }) });
+    const plain = JSON.parse(JSON.stringify(toPlainRunRecord(r))) as ReturnType<typeof toPlainRunRecord>;
+    expect(plain.time).toEqual(Array.from(r.time));
+    expect(plain.orientationError.length).toBe(4 * M);
+    expect(plain.jointRates.map((c) => c.length)).toEqual(r.jointCounts.map((n) => 4 * n));
+    expect(plain.warningCodes).toEqual([...WARNING_CODES]);
+    expect(plain.orientationMetrics).toEqual(ROTATION_METRICS.map((m) => m.key));
   });
 });
