@@ -6,6 +6,7 @@
  * general-purpose way with mathjs matrices (eigs of J J^T for singular values, inv and multiply
  * for damped least squares), with the ratio between the two routes.
  */
+import { availableParallelism, cpus, loadavg } from 'node:os';
 import { all, create, type MathJsInstance, type Matrix as MathMatrix } from 'mathjs';
 import { createSheetFromTemplate } from '../lib/sheet/templates';
 import type { SheetDocument } from '../lib/sheet/types';
@@ -140,7 +141,8 @@ const sweep = measure('200-value sweep, three fingers', quick ? 1 : 3, () => swe
 
 const speedup = mathjsThree.median / solveThree.median;
 const lines = [
-  `Kinematics benchmarks (median of ${REPETITIONS} repetitions; Node ${process.version})`,
+  `Kinematics benchmarks (median of ${REPETITIONS} repetitions; Node ${process.version}; ${cpus()[0]?.model ?? 'unknown CPU'}, ` +
+    `${availableParallelism()} cores, load average ${loadavg()[0]!.toFixed(1)}: other work on the machine inflates the figures)`,
   line(solveThree, against(solveThree, 3e-3)),
   line(solveFive),
   line(run, against(run, 50)),
