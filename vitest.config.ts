@@ -8,6 +8,8 @@ import { getViteConfig } from 'astro/config';
 // here; tests/helpers/test-database.ts migrates and seeds it before any test file runs.
 process.env.DATABASE_URL = `file:${join(mkdtempSync(join(tmpdir(), 'slipless-vitest-')), 'app.db')}`;
 
+process.env.AUTH_SECRET ??= 'test-only-secret-not-for-production-use-0123456789';
+
 export default getViteConfig({
   test: {
     testTimeout: 30_000,

@@ -1,1 +1,10 @@
 /// <reference types="astro/client" />
+
+declare namespace App {
+  interface Locals {
+    /** Who is asking: a signed-in user or an API token; null when nobody is. */
+    identity: import('./lib/server/access').Identity | null;
+    /** The team the user is working in (chosen by cookie, else their first). */
+    team: import('./lib/server/access').TeamMembership | null;
+  }
+}

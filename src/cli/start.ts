@@ -8,7 +8,8 @@ const url = process.env.DATABASE_URL?.trim() || DEFAULT_DATABASE_URL;
 process.env.DATABASE_URL = url;
 
 try {
-  const { database, seed } = await prepareDatabase(url);
+  const { database, seed, authSecret } = await prepareDatabase(url);
+  process.env.AUTH_SECRET = authSecret;
   database.close();
   console.log(
     seed.seeded

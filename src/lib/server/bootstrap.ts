@@ -1,4 +1,5 @@
-import { sql } from 'drizzle-orm';
+import { randomBytes } from 'node:crypto';
+import { eq, sql } from 'drizzle-orm';
 import { migrateDatabase, openDatabase, type Database } from '../../db';
 import { appMeta } from '../../db/schema';
 import { seedDemoData, type SeedOutcome } from './seed';
@@ -13,15 +14,28 @@ async function recordStart(database: Database): Promise<void> {
   );
 }
 
+/**
+ * The secret that signs session cookies: AUTH_SECRET when set, else one generated once and kept
+ * in the database, so sessions survive restarts without any setup.
+ */
+export async function ensureAuthSecret(database: Database): Promise<string> {
+  if (process.env.AUTH_SECRET) return process.env.AUTH_SECRET;
+  await database.write((db) =>
+    db.insert(appMeta).values({ key: 'auth_secret', value: randomBytes(32).toString('base64url') }).onConflictDoNothing(),
+  );
+  const [row] = await database.db.select().from(appMeta).where(eq(appMeta.key, 'auth_secret'));
+  return row.value;
+}
+
 /** Opens, migrates, write-probes and (only when empty) seeds the database named by DATABASE_URL. */
-export async function prepareDatabase(url: string): Promise<{ database: Database; seed: SeedOutcome }> {
+export async function prepareDatabase(url: string): Promise<{ database: Database; seed: SeedOutcome; authSecret: string }> {
   let database: Database | undefined;
   try {
     database = await openDatabase(url);
     await migrateDatabase(database);
     await recordStart(database);
     const seed = await seedDemoData(database);
-    return { database, seed };
+    return { database, seed, authSecret: await ensureAuthSecret(database) };
   } catch (error) {
     database?.close();
     const reason = error instanceof Error ? (error.cause instanceof Error ? error.cause.message : error.message) : String(error);

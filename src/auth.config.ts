@@ -1,0 +1,112 @@
+import Credentials from '@auth/core/providers/credentials';
+import { CredentialsSignin } from '@auth/core/errors';
+import Nodemailer from '@auth/core/providers/nodemailer';
+import { DrizzleAdapter } from '@auth/drizzle-adapter';
+import type { Adapter } from '@auth/core/adapters';
+import { eq } from 'drizzle-orm';
+import { defineConfig } from 'auth-astro';
+import { passwordSignInSchema } from './lib/validation/auth';
+import { accounts, sessions, users, verificationTokens } from './db/schema';
+import { getDatabase } from './lib/server/database';
+import { recordAudit } from './lib/server/audit';
+import { getMemberships } from './lib/server/identity';
+import { verifyPassword } from './lib/server/passwords';
+import { countSignInAttempt, signInRetryAfter } from './lib/server/rate-limit';
+import { sendMail } from './lib/server/email';
+import { CLIENT_ADDRESS_HEADER } from './consts';
+
+
+
+class RateLimited extends CredentialsSignin {
+  code = 'rate_limited';
+}
+
+/** The Drizzle adapter with every call sent through the database's write queue. */
+async function queuedAdapter(): Promise<Adapter> {
+  const database = await getDatabase();
+  const base = DrizzleAdapter(database.db, {
+    usersTable: users,
+    accountsTable: accounts,
+    sessionsTable: sessions,
+    verificationTokensTable: verificationTokens,
+  }) as Record<string, unknown>;
+  return Object.fromEntries(
+    Object.entries(base).map(([name, method]) => [
+      name,
+      typeof method === 'function' ? (...args: unknown[]) => database.write(() => method(...args)) : method,
+    ]),
+  ) as Adapter;
+}
+
+async function auditSignIn(userId: string | null, action: string, address: string, detail: Record<string, unknown>) {
+  const database = await getDatabase();
+  const teams = userId ? await getMemberships(database, userId) : [];
+  const targets = teams.length ? teams.map((t) => t.teamId) : [null];
+  await recordAudit(database, targets.map((teamId) => ({ teamId, actorId: userId, action, address, detail })));
+}
+
+export default defineConfig({
+  secret: process.env.AUTH_SECRET,
+  trustHost: true,
+  session: { strategy: 'jwt', maxAge: 30 * 24 * 60 * 60 },
+  adapter: await queuedAdapter(),
+  pages: { signIn: '/sign-in', verifyRequest: '/sign-in/check-email', error: '/sign-in' },
+  providers: [
+    Credentials({
+      credentials: { email: { type: 'email' }, password: { type: 'password' } },
+      async authorize(raw, request) {
+        const parsed = passwordSignInSchema.safeParse(raw);
+        if (!parsed.success) return null;
+        const { email, password } = parsed.data;
+        const address = request.headers.get(CLIENT_ADDRESS_HEADER) ?? 'unknown';
+        if ((await signInRetryAfter(email, address)) > 0) {
+          await auditSignIn(null, 'auth.sign_in_blocked', address, { email });
+          throw new RateLimited();
+        }
+        const database = await getDatabase();
+        const [user] = await database.db.select().from(users).where(eq(users.email, email));
+        const ok = !!user?.passwordHash && (await verifyPassword(user.passwordHash, password));
+        await countSignInAttempt(email, address, ok);
+        await auditSignIn(user?.id ?? null, ok ? 'auth.sign_in' : 'auth.sign_in_failed', address, { email, method: 'password' });
+        return ok ? { id: user.id, email: user.email, name: user.name } : null;
+      },
+    }),
+    Nodemailer({
+      server: {},
+      async sendVerificationRequest({ identifier, url }) {
+        await sendMail({
+          to: identifier,
+          subject: 'Your Slipless sign-in link',
+          text: `Sign in to Slipless with this link (valid for 24 hours, usable once):\n\n${url}\n\nIf you did not ask for it, ignore this e-mail.`,
+        });
+      },
+    }),
+  ],
+  callbacks: {
+    async signIn({ user, email }) {
+      if (!email?.verificationRequest) return true;
+      const database = await getDatabase();
+      const [known] = await database.db.select({ id: users.id }).from(users).where(eq(users.email, String(user.email ?? '').toLowerCase()));
+      return !!known;
+    },
+    jwt({ token, user }) {
+      if (user?.id) token.sub = user.id;
+      return token;
+    },
+    session({ session, token }) {
+      return {
+        expires: session.expires,
+        user: { id: token.sub ?? '', email: session.user?.email ?? '', name: session.user?.name ?? null },
+      } as typeof session;
+    },
+  },
+  events: {
+    async signIn({ user, account }) {
+      if (account?.provider === 'nodemailer' && user.id) await auditSignIn(user.id, 'auth.sign_in', 'email-link', { method: 'email-link' });
+    },
+    async signOut(message) {
+      const token = 'token' in message ? message.token : null;
+      if (token?.sub) await auditSignIn(token.sub, 'auth.sign_out', 'session', {});
+    },
+  },
+});

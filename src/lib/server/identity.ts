@@ -1,0 +1,57 @@
+import { and, eq, isNull } from 'drizzle-orm';
+import type { Database } from '../../db';
+import { apiTokens, memberships, teams, users } from '../../db/schema';
+import { roleWithin, type Identity, type TeamMembership } from './access';
+import { API_TOKEN_PREFIX, hashSecretToken } from './tokens';
+
+const TOKEN_TOUCH_INTERVAL_MS = 60_000;
+
+/** The teams and roles of one user. */
+export async function getMemberships(database: Database, userId: string): Promise<TeamMembership[]> {
+  return database.db
+    .select({ teamId: teams.id, slug: teams.slug, name: teams.name, role: memberships.role })
+    .from(memberships)
+    .innerJoin(teams, eq(teams.id, memberships.teamId))
+    .where(eq(memberships.userId, userId))
+    .orderBy(teams.name);
+}
+
+/** The identity of a signed-in user id, or null when the user no longer exists. */
+export async function identityForUser(database: Database, userId: string): Promise<Identity | null> {
+  const [user] = await database.db.select({ id: users.id, email: users.email, name: users.name }).from(users).where(eq(users.id, userId));
+  if (!user?.email) return null;
+  return { user: { id: user.id, email: user.email, name: user.name }, via: 'session', memberships: await getMemberships(database, user.id) };
+}
+
+/**
+ * The identity behind a bearer API token: its one team at the token's role, capped by the
+ * owner's current role there; null for unknown or revoked tokens or a lapsed membership.
+ */
+export async function identityForToken(database: Database, token: string): Promise<Identity | null> {
+  if (!token.startsWith(API_TOKEN_PREFIX)) return null;
+  const [row] = await database.db
+    .select({ token: apiTokens, user: { id: users.id, email: users.email, name: users.name } })
+    .from(apiTokens)
+    .innerJoin(users, eq(users.id, apiTokens.userId))
+    .where(and(eq(apiTokens.tokenHash, hashSecretToken(token)), isNull(apiTokens.revokedAt)));
+  if (!row?.user.email) return null;
+  const membership = (await getMemberships(database, row.user.id)).find((m) => m.teamId === row.token.teamId);
+  if (!membership || !roleWithin(row.token.role, membership.role)) return null;
+  const now = Date.now();
+  if (!row.token.lastUsedAt || now - row.token.lastUsedAt.getTime() > TOKEN_TOUCH_INTERVAL_MS) {
+    await database.write((db) => db.update(apiTokens).set({ lastUsedAt: new Date(now) }).where(eq(apiTokens.id, row.token.id)));
+  }
+  return {
+    user: { id: row.user.id, email: row.user.email, name: row.user.name },
+    via: 'token',
+    tokenId: row.token.id,
+    memberships: [{ ...membership, role: row.token.role }],
+  };
+}
+
+/** Reads "Authorization: Bearer <token>", if present. */
+export function bearerToken(request: Request): string | null {
+  const header = request.headers.get('authorization');
+  const match = header?.match(/^Bearer\s+(\S+)$/i);
+  return match ? match[1] : null;
+}

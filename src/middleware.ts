@@ -1,0 +1,41 @@
+import { defineMiddleware } from 'astro:middleware';
+import { getSession } from 'auth-astro/server';
+import { TEAM_COOKIE } from './consts';
+import { errorResponse, type Identity } from './lib/server/access';
+import { getDatabase } from './lib/server/database';
+import { bearerToken, identityForToken, identityForUser } from './lib/server/identity';
+import { isSameOriginWrite, SECURITY_HEADERS } from './lib/server/request-guard';
+
+let staleSessionReported = false;
+
+/** Resolves the session cookie to an identity; a cookie signed with an old secret counts as signed out. */
+async function sessionIdentity(request: Request): Promise<Identity | null> {
+  try {
+    const session = await getSession(request);
+    const userId = (session?.user as { id?: string } | undefined)?.id;
+    return userId ? await identityForUser(await getDatabase(), userId) : null;
+  } catch (error) {
+    if (!staleSessionReported) {
+      staleSessionReported = true;
+      console.warn(`Ignoring an unreadable session cookie (was AUTH_SECRET changed?): ${(error as Error).message}`);
+    }
+    return null;
+  }
+}
+
+export const onRequest = defineMiddleware(async (context, next) => {
+  const token = bearerToken(context.request);
+  const identity = token ? await identityForToken(await getDatabase(), token) : await sessionIdentity(context.request);
+  if (token && !identity) return errorResponse(401, 'The API token is unknown, revoked or no longer valid for its team.');
+  if (!token && !isSameOriginWrite(context.request)) return errorResponse(403, 'Cross-site request refused.');
+
+  const chosen = context.cookies.get(TEAM_COOKIE)?.value;
+  context.locals.identity = identity;
+  context.locals.team = identity?.memberships.find((m) => m.slug === chosen) ?? identity?.memberships[0] ?? null;
+
+  const response = await next();
+  for (const [name, value] of Object.entries(SECURITY_HEADERS)) {
+    if (!response.headers.has(name)) response.headers.set(name, value);
+  }
+  return response;
+});
