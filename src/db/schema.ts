@@ -203,8 +203,35 @@ export const invitations = sqliteTable('invitations', {
   invitedBy: text('invited_by').references(() => users.id, { onDelete: 'set null' }),
   expiresAt: integer('expires_at', { mode: 'timestamp_ms' }).notNull(),
   acceptedAt: integer('accepted_at', { mode: 'timestamp_ms' }),
+  revokedAt: integer('revoked_at', { mode: 'timestamp_ms' }),
   createdAt: createdAt(),
 });
+
+/** One-time password reset links; only the token's SHA-256 digest is kept. */
+export const passwordResets = sqliteTable('password_resets', {
+  id: id(),
+  userId: text('user_id')
+    .notNull()
+    .references(() => users.id, { onDelete: 'cascade' }),
+  tokenHash: text('token_hash').notNull().unique(),
+  expiresAt: integer('expires_at', { mode: 'timestamp_ms' }).notNull(),
+  usedAt: integer('used_at', { mode: 'timestamp_ms' }),
+  createdAt: createdAt(),
+});
+
+/** Mail caught by the local fake SMTP server when no real relay is configured (development and demo). */
+export const mailOutbox = sqliteTable(
+  'mail_outbox',
+  {
+    id: id(),
+    to: text('to').notNull(),
+    subject: text('subject').notNull(),
+    text: text('text').notNull(),
+    html: text('html'),
+    createdAt: createdAt(),
+  },
+  (m) => [index('mail_outbox_created_idx').on(m.createdAt)],
+);
 
 export const apiTokens = sqliteTable('api_tokens', {
   id: id(),
@@ -246,3 +273,5 @@ export type NewSheet = typeof sheets.$inferInsert;
 export type SheetRevision = typeof sheetRevisions.$inferSelect;
 export type NewSheetRevision = typeof sheetRevisions.$inferInsert;
 export type AuditEvent = typeof auditEvents.$inferSelect;
+export type Invitation = typeof invitations.$inferSelect;
+export type OutboxMail = typeof mailOutbox.$inferSelect;
