@@ -18,7 +18,7 @@ export default defineConfig({
     allowedDomains: ['localhost', '127.0.0.1', ...(process.env.APP_HOSTNAMES ?? '').split(',').filter(Boolean)].map((hostname) => ({ hostname })),
   },
   image: { service: { entrypoint: 'astro/assets/services/noop' } },
-  vite: { plugins: [tailwindcss()] },
+  vite: { plugins: [tailwindcss()], build: { assetsInlineLimit: 0 } },
   env: {
     schema: {
       DATABASE_URL: envField.string({ context: 'server', access: 'secret', optional: true }),

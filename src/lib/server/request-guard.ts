@@ -1,3 +1,5 @@
+import { createHash } from 'node:crypto';
+
 const STATE_CHANGING = new Set(['POST', 'PUT', 'PATCH', 'DELETE']);
 
 /**
@@ -21,3 +23,42 @@ export const SECURITY_HEADERS: Record<string, string> = {
   'Permissions-Policy': 'camera=(), microphone=(), geolocation=()',
   'Cross-Origin-Opener-Policy': 'same-origin',
 };
+
+/**
+ * A strict Content-Security-Policy: scripts only from this origin or inline scripts whose exact
+ * SHA-256 is listed (Astro's island bootstrap), no plugins, no framing. Inline style attributes
+ * stay allowed because KaTeX positions formula glyphs with them.
+ */
+export function contentSecurityPolicy(inlineScriptHashes: string[]): string {
+  return [
+    "default-src 'self'",
+    `script-src 'self' ${inlineScriptHashes.join(' ')}`.trim(),
+    "style-src 'self' 'unsafe-inline'",
+    "img-src 'self' data: blob:",
+    "font-src 'self'",
+    "connect-src 'self'",
+    "worker-src 'self' blob:",
+    "object-src 'none'",
+    "base-uri 'self'",
+    "form-action 'self'",
+    "frame-ancestors 'none'",
+  ].join('; ');
+}
+
+/** SHA-256 source expressions of every inline script in an HTML page. */
+export function inlineScriptHashes(html: string): string[] {
+  const hashes = new Set<string>();
+  for (const match of html.matchAll(/<script(?![^>]*\ssrc=)[^>]*>([\s\S]*?)<\/script>/gi)) {
+    if (match[1].trim()) hashes.add(`'sha256-${createHash('sha256').update(match[1]).digest('base64')}'`);
+  }
+  return [...hashes];
+}
+
+/** Adds the policy to an HTML response (hashing its inline scripts); other responses pass through. */
+export async function withContentSecurityPolicy(response: Response): Promise<Response> {
+  if (!response.headers.get('content-type')?.includes('text/html')) return response;
+  const html = await response.text();
+  const headers = new Headers(response.headers);
+  headers.set('Content-Security-Policy', contentSecurityPolicy(inlineScriptHashes(html)));
+  return new Response(html, { status: response.status, statusText: response.statusText, headers });
+}
