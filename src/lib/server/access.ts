@@ -69,3 +69,10 @@ export function requirePermission(identity: Identity | null, teamId: string, per
 export function requireIdentity(identity: Identity | null): { ok: true; identity: Identity } | { ok: false; response: Response } {
   return identity ? { ok: true, identity } : { ok: false, response: errorResponse(401, 'Sign in first.') };
 }
+
+/** 401 unless signed in, 403 for API tokens: for account and token management, which a leaked token must not reach. */
+export function requireSession(identity: Identity | null): { ok: true; identity: Identity } | { ok: false; response: Response } {
+  if (!identity) return { ok: false, response: errorResponse(401, 'Sign in first.') };
+  if (identity.via !== 'session') return { ok: false, response: errorResponse(403, 'This needs a signed-in browser session; API tokens cannot do it.') };
+  return { ok: true, identity };
+}

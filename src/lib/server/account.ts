@@ -1,0 +1,50 @@
+import { eq } from 'drizzle-orm';
+import { RateLimiterMemory } from 'rate-limiter-flexible';
+import type { Database } from '../../db';
+import { users } from '../../db/schema';
+import type { Identity } from './access';
+import { recordAudit } from './audit';
+import { hashPassword, verifyPassword } from './passwords';
+
+export type PasswordChangeOutcome =
+  | { ok: true }
+  | { ok: false; status: 400 | 404 | 429; message: string; path?: 'currentPassword' | 'newPassword' };
+
+/** Wrong current passwords allowed per account in the window, so a left-open session cannot be used to guess it. */
+const currentPasswordLimiter = new RateLimiterMemory({ keyPrefix: 'password-change', points: 5, duration: 15 * 60 });
+
+/**
+ * Replaces the user's password after checking the current one; recorded in the audit trail of
+ * every team the user belongs to.
+ */
+export async function changePassword(
+  database: Database,
+  identity: Identity,
+  input: { currentPassword: string; newPassword: string },
+  address: string | null = null,
+): Promise<PasswordChangeOutcome> {
+  const userId = identity.user.id;
+  const attempts = await currentPasswordLimiter.get(userId);
+  if (attempts && attempts.remainingPoints <= 0) {
+    const minutes = Math.ceil(attempts.msBeforeNext / 60_000);
+    return { ok: false, status: 429, message: `Too many wrong passwords. Try again in ${minutes} minute${minutes === 1 ? '' : 's'}.` };
+  }
+  const [user] = await database.db.select({ passwordHash: users.passwordHash }).from(users).where(eq(users.id, userId));
+  if (!user) return { ok: false, status: 404, message: 'Not found.' };
+  if (!user.passwordHash) {
+    return { ok: false, status: 400, path: 'currentPassword', message: 'Your account signs in by e-mail link and has no password yet; use the password reset on the sign-in page to set one.' };
+  }
+  if (!(await verifyPassword(user.passwordHash, input.currentPassword))) {
+    await currentPasswordLimiter.penalty(userId, 1);
+    return { ok: false, status: 400, path: 'currentPassword', message: 'That is not your current password.' };
+  }
+  await currentPasswordLimiter.delete(userId);
+  const passwordHash = await hashPassword(input.newPassword);
+  await database.write((db) => db.update(users).set({ passwordHash }).where(eq(users.id, userId)));
+  const teams = identity.memberships.length ? identity.memberships.map((m) => m.teamId) : [null];
+  await recordAudit(
+    database,
+    teams.map((teamId) => ({ teamId, actorId: userId, action: 'auth.password_change', subject: `user:${userId}`, address })),
+  );
+  return { ok: true };
+}
