@@ -11,6 +11,7 @@ import { all, create, type MathJsInstance, type Matrix as MathMatrix } from 'mat
 import { createSheetFromTemplate } from '../lib/sheet/templates';
 import type { SheetDocument } from '../lib/sheet/types';
 import { createResult, createScene, solveScene } from '../lib/kinematics/index';
+import { createLinalgWorkspace, dampedLeastSquares, matrixFromRows, singularValues } from '../lib/kinematics/linalg';
 import { runSheet } from '../lib/kinematics/run';
 import { sweepSheet } from '../lib/kinematics/sweep';
 
@@ -139,14 +140,30 @@ const mathjsThree = measure('mathjs contact solve, three fingers', quick ? 20 : 
 const run = measure('10,000-tick run, three fingers', quick ? 1 : 3, () => runSheet(three, { settings: runSettings }));
 const sweep = measure('200-value sweep, three fingers', quick ? 1 : 3, () => sweepSheet(three, sweepSettings));
 
+// The first finger's contact Jacobian (3 x 3 here) and a 3 x 5 one with two more columns from the second finger.
+const jacobian3 = threeResult.fingers[0]!.full.jacobian;
+const rows3 = Array.from({ length: 3 }, (_, i) => Array.from(jacobian3.data.subarray(i * jacobian3.cols, (i + 1) * jacobian3.cols)));
+const extra = threeResult.fingers[1]!.full.jacobian;
+const jacobian5 = matrixFromRows(rows3.map((row, i) => [...row, extra.data[i * extra.cols]!, extra.data[i * extra.cols + 1]!]));
+const workspace = createLinalgWorkspace(6, 40);
+const rates5 = new Float64Array(5);
+const singular5 = new Float64Array(3);
+const velocity = threeResult.fingers[0]!.contact.objectVelocity;
+const linalg = measure('DLS + Jacobi singular values, 3 x 5', quick ? 20_000 : 200_000, () => {
+  dampedLeastSquares(jacobian5, velocity, three.solver.damping, rates5, workspace);
+  singularValues(jacobian5, singular5, workspace);
+});
+
 const speedup = mathjsThree.median / solveThree.median;
 const lines = [
   `Kinematics benchmarks (median of ${REPETITIONS} repetitions; Node ${process.version}; ${cpus()[0]?.model ?? 'unknown CPU'}, ` +
-    `${availableParallelism()} cores, load average ${loadavg()[0]!.toFixed(1)}: other work on the machine inflates the figures)`,
+    `${availableParallelism()} cores, load average ${loadavg()[0]!.toFixed(1)})`,
+  ...(loadavg()[0]! > availableParallelism() / 2 ? ['Other work is running on this machine; the figures are inflated by it.'] : []),
   line(solveThree, against(solveThree, 3e-3)),
   line(solveFive),
   line(run, against(run, 50)),
   line(sweep),
+  line(linalg, against(linalg, 1e-3)),
   line(mathjsThree, `ours is ${speedup.toFixed(0)} x faster (target >= 100 x: ${speedup >= 100 ? 'met' : 'missed'})`),
   `Largest joint-rate difference between the two routes: ${largestDifference.toExponential(2)} rad/s`,
   'The full solve also computes steer-and-roll rates, warnings and the grasp map, which the mathjs route leaves out.',
