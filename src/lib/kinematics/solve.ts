@@ -84,7 +84,6 @@ export interface SteerAndRoll {
 /** Scratch shared by the per-finger solves of one scene. */
 export interface SolveWorkspace {
   linalg: LinalgWorkspace;
-  eigen: Float64Array;
   /** D0, D1, D2 of the roll direction d(delta) = D0 + D1 cos delta + D2 sin delta. */
   steer: Float64Array;
 }
@@ -93,7 +92,6 @@ export interface SolveWorkspace {
 export function createSolveWorkspace(maxJoints: number): SolveWorkspace {
   return {
     linalg: createLinalgWorkspace(4, Math.max(4, maxJoints)),
-    eigen: new Float64Array(3),
     steer: new Float64Array(9),
   };
 }
@@ -162,6 +160,7 @@ export function contactJacobian(axes: ArrayLike<number>, points: ArrayLike<numbe
 }
 
 const JACOBI_SWEEPS = 16;
+const NEGLIGIBLE = 1e-16;
 
 /**
  * Eigenvalues (descending, into values) and optionally unit eigenvectors (columns of the
@@ -173,10 +172,12 @@ const JACOBI_SWEEPS = 16;
 export function symmetricEigen3(a00: number, a11: number, a22: number, a01: number, a02: number, a12: number, values: Float64Array, vectors: Float64Array | null = null): Float64Array {
   let v00 = 1, v01 = 0, v02 = 0, v10 = 0, v11 = 1, v12 = 0, v20 = 0, v21 = 0, v22 = 1;
   for (let sweep = 0; sweep < JACOBI_SWEEPS; sweep++) {
-    const off = a01 * a01 + a02 * a02 + a12 * a12;
-    if (off === 0 || off <= 1e-34 * (a00 * a00 + a11 * a11 + a22 * a22)) break;
+    // Off-diagonal entries at rounding level of the matrix scale shift the eigenvalues by less than rounding.
+    const limit = NEGLIGIBLE * (Math.abs(a00) + Math.abs(a11) + Math.abs(a22) + Math.abs(a01) + Math.abs(a02) + Math.abs(a12));
+    const skip01 = Math.abs(a01) <= limit;
+    if (skip01 && Math.abs(a02) <= limit && Math.abs(a12) <= limit) break;
     // Each rotation zeroes one off-diagonal pair (p, q); c, s from Rutishauser's stable formulas.
-    if (a01 !== 0) {
+    if (!skip01) {
       const theta = (a11 - a00) / (2 * a01);
       const t = (theta >= 0 ? 1 : -1) / (Math.abs(theta) + Math.sqrt(theta * theta + 1));
       const c = 1 / Math.sqrt(t * t + 1), s = t * c;
@@ -187,7 +188,7 @@ export function symmetricEigen3(a00: number, a11: number, a22: number, a01: numb
       p = v10; q = v11; v10 = c * p - s * q; v11 = s * p + c * q;
       p = v20; q = v21; v20 = c * p - s * q; v21 = s * p + c * q;
     }
-    if (a02 !== 0) {
+    if (Math.abs(a02) > limit) {
       const theta = (a22 - a00) / (2 * a02);
       const t = (theta >= 0 ? 1 : -1) / (Math.abs(theta) + Math.sqrt(theta * theta + 1));
       const c = 1 / Math.sqrt(t * t + 1), s = t * c;
@@ -198,7 +199,7 @@ export function symmetricEigen3(a00: number, a11: number, a22: number, a01: numb
       p = v10; q = v12; v10 = c * p - s * q; v12 = s * p + c * q;
       p = v20; q = v22; v20 = c * p - s * q; v22 = s * p + c * q;
     }
-    if (a12 !== 0) {
+    if (Math.abs(a12) > limit) {
       const theta = (a22 - a11) / (2 * a12);
       const t = (theta >= 0 ? 1 : -1) / (Math.abs(theta) + Math.sqrt(theta * theta + 1));
       const c = 1 / Math.sqrt(t * t + 1), s = t * c;
@@ -236,15 +237,34 @@ function swapPair(values: Float64Array, vectors: Float64Array | null, i: number,
 }
 
 /**
+ * Largest eigenvalue of the symmetric 3 x 3 matrix [[a00, a01, a02], [a01, a11, a12], [a02, a12, a22]]
+ * by the trigonometric closed form (Smith 1961, "Eigenvalues of a 3x3 real symmetric matrix",
+ * Comm. ACM 4(4), p. 168): accurate to rounding unless the two largest eigenvalues nearly
+ * coincide, where the relative error grows to about 1e-8 (units of the entries).
+ */
+export function largestEigenvalue3(a00: number, a11: number, a22: number, a01: number, a02: number, a12: number): number {
+  const p1 = a01 * a01 + a02 * a02 + a12 * a12;
+  const q = (a00 + a11 + a22) / 3;
+  const b00 = a00 - q, b11 = a11 - q, b22 = a22 - q;
+  const p2 = b00 * b00 + b11 * b11 + b22 * b22 + 2 * p1;
+  if (p2 === 0) return q;
+  const p = Math.sqrt(p2 / 6);
+  const det = b00 * (b11 * b22 - a12 * a12) - a01 * (a01 * b22 - a12 * a02) + a02 * (a01 * a12 - b11 * a02);
+  let r = det / (2 * p * p * p);
+  r = r < -1 ? -1 : r > 1 ? 1 : r;
+  return q + 2 * p * Math.cos(Math.acos(r) / 3);
+}
+
+/**
  * Singular values of a 3 x n Jacobian, descending and padded with zeros, into out; returns
- * sqrt(det(J J^T)). The largest comes from the eigenvalues of J J^T. The other two come from
+ * sqrt(det(J J^T)). The largest comes from the largest eigenvalue of J J^T. The other two come from
  * sums of squared minors of J itself (Cauchy-Binet): E2 = sum of squared 2 x 2 minors
  * = s1^2 s2^2 + s1^2 s3^2 + s2^2 s3^2 and P = sqrt(sum of squared 3 x 3 minors) = s1 s2 s3, so
  * s2^2 and s3^2 are the roots of t^2 - (E2 - P^2 / s1^2) / s1^2 t + P^2 / s1^2; this keeps small
  * singular values accurate relative to themselves, where sqrt of a small eigenvalue of J J^T
  * would lose half the digits.
  */
-export function jacobianSingularValues(j: Matrix, out: Float64Array, eigen: Float64Array): number {
+export function jacobianSingularValues(j: Matrix, out: Float64Array): number {
   const n = j.cols, d = j.data;
   let g00 = 0, g11 = 0, g22 = 0, g01 = 0, g02 = 0, g12 = 0;
   for (let k = 0; k < n; k++) {
@@ -252,8 +272,8 @@ export function jacobianSingularValues(j: Matrix, out: Float64Array, eigen: Floa
     g00 += x * x; g11 += y * y; g22 += z * z;
     g01 += x * y; g02 += x * z; g12 += y * z;
   }
-  symmetricEigen3(g00, g11, g22, g01, g02, g12, eigen);
-  const s1Squared = eigen[0] > 0 ? eigen[0] : 0;
+  const largest = largestEigenvalue3(g00, g11, g22, g01, g02, g12);
+  const s1Squared = largest > 0 ? largest : 0;
   let e2 = 0, e3 = 0;
   for (let a = 0; a < n; a++) {
     for (let b = a + 1; b < n; b++) {
@@ -314,7 +334,7 @@ export function solveFull(finger: Finger, contact: Contact, angularVelocity: Arr
   out.residualNorm = Math.sqrt(translational);
   out.spinResidual = rows === 4 ? Math.abs(out.residual[3]) : 0;
   j.rows = 3;
-  out.manipulability = jacobianSingularValues(j, out.singularValues, ws.eigen);
+  out.manipulability = jacobianSingularValues(j, out.singularValues);
   const s = out.singularValues;
   out.conditionNumber = conditionNumber(s, 3);
   out.singularRatio = s[0] > 0 ? s[2] / s[0] : 0;
@@ -385,7 +405,7 @@ export function solveSteerAndRoll(finger: Finger, contact: Contact, full: FullSo
     residual += out.residual[i] * out.residual[i];
   }
   out.residualNorm = Math.sqrt(residual);
-  jacobianSingularValues(ja, out.singularValuesAfter, ws.eigen);
+  jacobianSingularValues(ja, out.singularValuesAfter);
   out.conditionAfter = conditionNumber(out.singularValuesAfter, 3);
   let difference = 0;
   for (let k = 0; k < n; k++) {

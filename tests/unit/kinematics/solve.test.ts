@@ -5,7 +5,7 @@ import { createFinger } from '../../../src/lib/kinematics/hand';
 import { createMatrix, matrixFromRows } from '../../../src/lib/kinematics/linalg';
 import {
   contactJacobian, createFullSolution, createSolveWorkspace, createSteerAndRoll, jacobianSingularValues, solveFull,
-  solveSteerAndRoll, symmetricEigen3,
+  largestEigenvalue3, solveSteerAndRoll, symmetricEigen3,
 } from '../../../src/lib/kinematics/solve';
 import type { FingerInput, SheetDocument, SolverSettings } from '../../../src/lib/sheet/types';
 import { threeFingerFinger } from './three-finger-sheet';
@@ -75,11 +75,21 @@ describe('symmetricEigen3', () => {
   });
 });
 
+describe('largestEigenvalue3', () => {
+  it('matches ml-matrix EigenvalueDecomposition (to 1e-8 where the two largest coincide)', () => {
+    const cases: [number[], number][] = [[[4, 1, 2, 0.5, -0.3, 0.8], 1e-14], [[1e-3, 2e-3, 5e-4, 1e-4, 0, -2e-4], 1e-14], [[3, 3, 1, 0, 0, 0], 1e-8], [[2, 2, 2, 0, 0, 0], 1e-14]];
+    for (const [[a00, a11, a22, a01, a02, a12], tolerance] of cases) {
+      const reference = Math.max(...new EigenvalueDecomposition(new MlMatrix([[a00, a01, a02], [a01, a11, a12], [a02, a12, a22]])).realEigenvalues);
+      expect(Math.abs(largestEigenvalue3(a00, a11, a22, a01, a02, a12) - reference) / reference).toBeLessThan(tolerance);
+    }
+  });
+});
+
 describe('jacobianSingularValues', () => {
   it('matches ml-matrix SVD, and returns sqrt(det(J J^T)) (Yoshikawa 1985)', () => {
     const rows = [[0.05, 0.01, 0.003, -0.02], [0.002, 0.03, -0.012, 0.01], [0.06, 0.004, 0.02, 0.001]];
     const ours = new Float64Array(3);
-    const product = jacobianSingularValues(matrixFromRows(rows), ours, new Float64Array(3));
+    const product = jacobianSingularValues(matrixFromRows(rows), ours);
     const m = new MlMatrix(rows);
     const reference = new SingularValueDecomposition(m, { autoTranspose: true }).diagonal;
     close(ours, reference, 14);
@@ -88,14 +98,14 @@ describe('jacobianSingularValues', () => {
   it('keeps the smallest singular value accurate near rank loss (ml-matrix SVD as reference)', () => {
     const rows = [[0.05, 0, 1e-9], [0, 0.012, 0], [0.06, 0, 0]];
     const ours = new Float64Array(3);
-    jacobianSingularValues(matrixFromRows(rows), ours, new Float64Array(3));
+    jacobianSingularValues(matrixFromRows(rows), ours);
     const reference = new SingularValueDecomposition(new MlMatrix(rows), { autoTranspose: true }).diagonal;
     expect(ours[2] / reference[2]).toBeCloseTo(1, 10);
     close(ours, reference, 14);
   });
   it('pads with zeros when there are fewer than three joints', () => {
     const ours = new Float64Array(3);
-    expect(jacobianSingularValues(matrixFromRows([[3], [4], [0]]), ours, new Float64Array(3))).toBe(0);
+    expect(jacobianSingularValues(matrixFromRows([[3], [4], [0]]), ours)).toBe(0);
     close(ours, [5, 0, 0]);
   });
 });
