@@ -406,10 +406,9 @@ export function manipulability(a: Readonly<Matrix>, ws: LinalgWorkspace): number
   return product;
 }
 
-/**
- * Damped least squares x = A^T (A A^T + lambda^2 I)^{-1} b (Wampler 1986; Nakamura & Hanafusa 1986) into out[0..cols);
- * ill-conditioned systems take the SVD route sum sigma/(sigma^2 + lambda^2) (u.b) v, minimum-norm when lambda = 0.
- */
+// Ill-conditioned systems take the SVD route x = sum sigma / (sigma^2 + lambda^2) (u.b) v, the minimum-norm
+// least-squares solution when lambda = 0, because the normal equations would lose too many digits.
+/** Damped least squares x = A^T (A A^T + lambda^2 I)^{-1} b into out[0..cols) (Wampler 1986; units of b over units of A). */
 export function dampedLeastSquares(
   a: Readonly<Matrix>,
   b: ArrayLike<number>,
@@ -511,10 +510,7 @@ export function pseudoInverse(a: Readonly<Matrix>, out: Matrix, ws: LinalgWorksp
   return out;
 }
 
-/**
- * Orthonormal basis of the null space of A in the first d columns of out (reshaped to cols x cols);
- * returns d = cols - rank (dimensionless basis vectors in A's column space coordinates).
- */
+/** Orthonormal null-space basis of A in the first d columns of out (reshaped to cols x cols); returns d = cols - rank (dimensionless). */
 export function nullSpace(a: Readonly<Matrix>, out: Matrix, ws: LinalgWorkspace, tolerance?: number): number {
   const f = svd(a, ws.svd, ws);
   const m = a.rows;

@@ -47,10 +47,7 @@ export function logMap<T extends Vec3 = number[]>(q: QuatLike, out?: T): T {
   return o;
 }
 
-/**
- * Pose error as a twist [dp; dr] into out (six entries): dp = target position - position (m, world frame),
- * dr = log(q_target conj(q)) (rad, world frame), the rotation that carries the current orientation onto the target.
- */
+/** Pose error twist [dp; dr] into out: dp = target - position (m) and dr = log(q_target conj(q)) (rad), world frame. */
 export function poseError<T extends Float64Array | number[]>(
   position: Vec3Like,
   orientation: QuatLike,
@@ -69,10 +66,7 @@ export function poseError<T extends Float64Array | number[]>(
   return out;
 }
 
-/**
- * Pose after dt (s) at constant origin velocity v (m/s) and angular velocity w (rad/s), both world frame:
- * p' = p + v dt, q' = exp(w dt) q renormalised; outputs may alias the inputs.
- */
+/** Pose after dt (s) at origin velocity v (m/s) and angular velocity w (rad/s), world frame: p + v dt, exp(w dt) q; outputs may alias inputs. */
 export function integratePose(
   position: Vec3Like,
   orientation: QuatLike,
