@@ -5,6 +5,7 @@ import type { Database } from '../../db';
 import { auditEvents, memberships, sheetRevisions, sheets, teams, users } from '../../db/schema';
 import { DEMO_PASSWORD, DEMO_SHEETS_FOLDER, DEMO_TEAM, DEMO_USERS } from './demo';
 import { hashPassword } from './passwords';
+import { validateDocument } from './sheets';
 
 export interface SeedOutcome {
   seeded: boolean;
@@ -46,6 +47,8 @@ export async function seedDemoData(database: Database, sheetsFolder = DEMO_SHEET
     );
     const author = created[DEMO_USERS.findIndex((u) => u.role === 'editor')];
     for (const { file, document } of demoSheets) {
+      const checked = validateDocument(document);
+      if (!checked.ok) throw new Error(`Demo sheet ${file} is invalid: ${checked.issues[0].path}: ${checked.issues[0].message}`);
       const [sheet] = await tx
         .insert(sheets)
         .values({
@@ -60,6 +63,7 @@ export async function seedDemoData(database: Database, sheetsFolder = DEMO_SHEET
         sheetId: sheet.id,
         number: 1,
         inputs: document,
+        summary: checked.summary,
         message: 'Demo sheet',
         authorId: author.id,
       });

@@ -1,6 +1,34 @@
-import { and, eq, isNull, sql } from 'drizzle-orm';
+import { and, asc, count, desc, eq, isNull, like, or, sql, type SQL } from 'drizzle-orm';
 import type { Database } from '../../db';
-import { sheetRevisions, sheets } from '../../db/schema';
+import { sheetRevisions, sheets, users } from '../../db/schema';
+import { solveSheet, worstSeverity } from '../kinematics';
+import { parseSheet, type SheetIssue } from '../sheet/schema';
+import type { SheetDocument } from '../sheet/types';
+import type { ListSheetsQuery } from '../validation/sheets';
+
+export interface SheetSummary {
+  fingers: number;
+  worst: 'none' | 'note' | 'caution' | 'singular';
+  warningCodes: string[];
+}
+
+/** The stored summary of a revision: finger count and its warnings, computed by the kinematics core. */
+export function summarizeSheet(doc: SheetDocument): SheetSummary {
+  const result = solveSheet(doc);
+  return {
+    fingers: doc.hand.fingers.length,
+    worst: worstSeverity(result.warnings),
+    warningCodes: [...new Set(result.warnings.map((w) => w.code))].sort(),
+  };
+}
+
+export type ValidatedDocument = { ok: true; doc: SheetDocument; summary: SheetSummary } | { ok: false; issues: SheetIssue[] };
+
+/** Validates a sheet document and computes its summary. */
+export function validateDocument(input: unknown): ValidatedDocument {
+  const parsed = parseSheet(input);
+  return parsed.ok ? { ok: true, doc: parsed.doc, summary: summarizeSheet(parsed.doc) } : parsed;
+}
 
 export interface NewSheetInput {
   teamId: string;
@@ -10,6 +38,7 @@ export interface NewSheetInput {
   summary?: unknown;
   authorId: string | null;
   message?: string;
+  forkedFrom?: { sheetId: string; revision: number };
 }
 
 /** Creates a sheet with its first revision in one transaction; resolves only once committed. */
@@ -17,7 +46,15 @@ export async function createSheet(database: Database, input: NewSheetInput): Pro
   return database.transaction(async (tx) => {
     const [sheet] = await tx
       .insert(sheets)
-      .values({ teamId: input.teamId, title: input.title, tags: input.tags ?? [], latestRevision: 1, createdBy: input.authorId })
+      .values({
+        teamId: input.teamId,
+        title: input.title,
+        tags: input.tags ?? [],
+        latestRevision: 1,
+        createdBy: input.authorId,
+        forkedFromSheetId: input.forkedFrom?.sheetId ?? null,
+        forkedFromRevision: input.forkedFrom?.revision ?? null,
+      })
       .returning({ id: sheets.id });
     await tx.insert(sheetRevisions).values({
       sheetId: sheet.id,
@@ -44,7 +81,7 @@ export async function saveRevision(
   database: Database,
   sheetId: string,
   baseRevision: number,
-  revision: { inputs: unknown; summary?: unknown; message?: string; authorId: string | null },
+  revision: { inputs: unknown; summary?: unknown; message?: string; authorId: string | null; title?: string; tags?: string[] },
 ): Promise<SaveOutcome> {
   return database.transaction(async (tx) => {
     const [sheet] = await tx
@@ -65,8 +102,114 @@ export async function saveRevision(
     });
     await tx
       .update(sheets)
-      .set({ latestRevision: number, updatedAt: sql`(unixepoch('subsec') * 1000)` })
+      .set({
+        latestRevision: number,
+        updatedAt: sql`(unixepoch('subsec') * 1000)`,
+        ...(revision.title ? { title: revision.title } : {}),
+        ...(revision.tags ? { tags: revision.tags } : {}),
+      })
       .where(eq(sheets.id, sheetId));
     return { status: 'saved', revision: number };
   });
+}
+
+/** A live sheet by id, or null when it does not exist or was deleted. */
+export async function findSheet(database: Database, sheetId: string) {
+  const [sheet] = await database.db.select().from(sheets).where(and(eq(sheets.id, sheetId), isNull(sheets.deletedAt)));
+  return sheet ?? null;
+}
+
+/** One revision of a sheet with its author's name, or null. */
+export async function getRevision(database: Database, sheetId: string, number: number) {
+  const [row] = await database.db
+    .select({ revision: sheetRevisions, authorName: users.name })
+    .from(sheetRevisions)
+    .leftJoin(users, eq(users.id, sheetRevisions.authorId))
+    .where(and(eq(sheetRevisions.sheetId, sheetId), eq(sheetRevisions.number, number)));
+  return row ? { ...row.revision, authorName: row.authorName } : null;
+}
+
+/** Every revision of a sheet, newest first, without the inputs. */
+export async function listRevisions(database: Database, sheetId: string) {
+  return database.db
+    .select({
+      number: sheetRevisions.number,
+      parentRevision: sheetRevisions.parentRevision,
+      message: sheetRevisions.message,
+      summary: sheetRevisions.summary,
+      authorId: sheetRevisions.authorId,
+      authorName: users.name,
+      createdAt: sheetRevisions.createdAt,
+    })
+    .from(sheetRevisions)
+    .leftJoin(users, eq(users.id, sheetRevisions.authorId))
+    .where(eq(sheetRevisions.sheetId, sheetId))
+    .orderBy(desc(sheetRevisions.number));
+}
+
+/** Copies one revision of a sheet into a new sheet of the same team that remembers its origin. */
+export async function forkSheet(
+  database: Database,
+  source: { id: string; teamId: string; title: string; tags: string[] },
+  revisionNumber: number,
+  authorId: string,
+  title?: string,
+): Promise<{ sheetId: string; revision: number } | null> {
+  const revision = await getRevision(database, source.id, revisionNumber);
+  if (!revision) return null;
+  return createSheet(database, {
+    teamId: source.teamId,
+    title: title ?? `${source.title} (fork)`,
+    tags: source.tags,
+    inputs: revision.inputs,
+    summary: revision.summary,
+    authorId,
+    message: `Forked from revision ${revisionNumber}`,
+    forkedFrom: { sheetId: source.id, revision: revisionNumber },
+  });
+}
+
+/** One page of a team's sheets matching the query, with the total count. */
+export async function listSheets(database: Database, query: ListSheetsQuery) {
+  const latest = database.db
+    .select({ sheetId: sheetRevisions.sheetId, summary: sheetRevisions.summary, number: sheetRevisions.number })
+    .from(sheetRevisions)
+    .as('latest');
+  const filters: SQL[] = [eq(sheets.teamId, query.team), isNull(sheets.deletedAt)];
+  if (query.q) {
+    const pattern = `%${query.q.replace(/[%_]/g, (c) => `\\${c}`)}%`;
+    filters.push(or(like(sheets.title, pattern), sql`EXISTS (SELECT 1 FROM json_each(${sheets.tags}) WHERE value LIKE ${pattern} ESCAPE '\\')`)!);
+  }
+  if (query.author) filters.push(eq(sheets.createdBy, query.author));
+  if (query.warnings === 'clean') filters.push(sql`json_extract(${latest.summary}, '$.worst') = 'none'`);
+  else if (query.warnings !== 'any') filters.push(sql`json_extract(${latest.summary}, '$.worst') = ${query.warnings}`);
+  const where = and(...filters);
+  const order = query.sort === 'title' ? asc(sheets.title) : query.sort === 'created' ? desc(sheets.createdAt) : desc(sheets.updatedAt);
+  const join = and(eq(latest.sheetId, sheets.id), eq(latest.number, sheets.latestRevision));
+
+  const [rows, [{ total }]] = await Promise.all([
+    database.db
+      .select({
+        id: sheets.id,
+        title: sheets.title,
+        tags: sheets.tags,
+        status: sheets.status,
+        latestRevision: sheets.latestRevision,
+        forkedFromSheetId: sheets.forkedFromSheetId,
+        forkedFromRevision: sheets.forkedFromRevision,
+        authorId: sheets.createdBy,
+        authorName: users.name,
+        updatedAt: sheets.updatedAt,
+        summary: latest.summary,
+      })
+      .from(sheets)
+      .leftJoin(latest, join)
+      .leftJoin(users, eq(users.id, sheets.createdBy))
+      .where(where)
+      .orderBy(order)
+      .limit(query.pageSize)
+      .offset((query.page - 1) * query.pageSize),
+    database.db.select({ total: count() }).from(sheets).leftJoin(latest, join).where(where),
+  ]);
+  return { items: rows, total, page: query.page, pageSize: query.pageSize };
 }

@@ -1,0 +1,45 @@
+import { z } from 'zod';
+
+export const sheetTitleField = z.string().trim().min(1, 'Give the sheet a title.').max(160, 'Keep the title under 160 characters.');
+export const tagsField = z.array(z.string().trim().min(1).max(40)).max(20).default([]);
+
+export const createSheetBody = z.object({
+  teamId: z.string().min(1),
+  title: sheetTitleField,
+  tags: tagsField,
+  document: z.unknown(),
+  message: z.string().max(500).default('Created'),
+});
+
+export const saveRevisionBody = z.object({
+  baseRevision: z.number().int().min(1),
+  document: z.unknown(),
+  message: z.string().max(500).default(''),
+  title: sheetTitleField.optional(),
+  tags: tagsField.optional(),
+});
+
+export const forkBody = z.object({
+  revision: z.number().int().min(1).optional(),
+  title: sheetTitleField.optional(),
+});
+
+export const SHEET_SORTS = ['updated', 'title', 'created'] as const;
+export const WARNING_FILTERS = ['any', 'clean', 'note', 'caution', 'singular'] as const;
+
+export const listSheetsQuery = z.object({
+  team: z.string().min(1),
+  q: z.string().trim().max(100).optional(),
+  author: z.string().optional(),
+  warnings: z.enum(WARNING_FILTERS).default('any'),
+  sort: z.enum(SHEET_SORTS).default('updated'),
+  page: z.coerce.number().int().min(1).default(1),
+  pageSize: z.coerce.number().int().min(1).max(100).default(20),
+});
+export type ListSheetsQuery = z.infer<typeof listSheetsQuery>;
+
+/** Turns a zod error into the API's located error body. */
+export function firstIssue(error: z.ZodError): { message: string; path: string } {
+  const issue = error.issues[0];
+  return { message: issue.message, path: issue.path.join('.') };
+}

@@ -1,0 +1,17 @@
+import type { APIRoute } from 'astro';
+import { errorResponse, requirePermission } from '../../../../lib/server/access';
+import { getDatabase } from '../../../../lib/server/database';
+import { findSheet, getRevision } from '../../../../lib/server/sheets';
+
+export const GET = (async ({ params, url, locals }) => {
+  if (!locals.identity) return errorResponse(401, 'Sign in first.');
+  const database = await getDatabase();
+  const sheet = await findSheet(database, params.sheetId ?? '');
+  if (!sheet) return errorResponse(404, 'Not found.');
+  const access = requirePermission(locals.identity, sheet.teamId, 'sheet.read');
+  if (!access.ok) return access.response;
+  const wanted = Number(url.searchParams.get('revision') ?? sheet.latestRevision);
+  const revision = Number.isInteger(wanted) ? await getRevision(database, sheet.id, wanted) : null;
+  if (!revision) return errorResponse(404, `Revision ${url.searchParams.get('revision')} does not exist.`, 'revision');
+  return Response.json({ sheet, revision });
+}) satisfies APIRoute;

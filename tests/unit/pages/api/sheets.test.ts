@@ -1,0 +1,103 @@
+import { readFileSync } from 'node:fs';
+import { beforeAll, describe, expect, it } from 'vitest';
+import type { Role } from '../../../../src/db/schema';
+import type { Identity } from '../../../../src/lib/server/access';
+import * as sheetsRoute from '../../../../src/pages/api/sheets/index';
+import * as sheetRoute from '../../../../src/pages/api/sheets/[sheetId]/index';
+import * as revisionsRoute from '../../../../src/pages/api/sheets/[sheetId]/revisions';
+import * as forkRoute from '../../../../src/pages/api/sheets/[sheetId]/fork';
+import { apiContext, createTeamWithRoles } from '../../../helpers/identities';
+
+const example = JSON.parse(readFileSync('content/sheets/line4-peg-tilt.json', 'utf8'));
+let teamId: string;
+let people: Record<Role, Identity>;
+let outsider: Identity;
+
+async function create(identity: Identity, document: unknown = example) {
+  return sheetsRoute.POST(apiContext({ method: 'POST', body: { teamId, title: 'Peg tilt check', tags: ['peg'], document }, identity }));
+}
+
+beforeAll(async () => {
+  ({ teamId, identities: people } = await createTeamWithRoles('sheets'));
+  outsider = (await createTeamWithRoles('other')).identities.owner;
+});
+
+describe('POST /api/sheets', () => {
+  it('creates a sheet at revision 1 with its computed summary for an editor', async () => {
+    const response = await create(people.editor);
+    expect(response.status).toBe(201);
+    const body = await response.json();
+    expect(body.revision).toBe(1);
+    expect(body.summary.fingers).toBe(example.hand.fingers.length);
+  });
+
+  it('refuses a reviewer (403) and a stranger to the team (404)', async () => {
+    expect((await create(people.reviewer)).status).toBe(403);
+    expect((await create(outsider)).status).toBe(404);
+  });
+
+  it('locates the error in a bad document', async () => {
+    const bad = structuredClone(example);
+    bad.hand.fingers[0].joints[0].axis = [0, 0, 0];
+    const response = await create(people.editor, bad);
+    expect(response.status).toBe(400);
+    const { error } = await response.json();
+    expect(error.path).toBe('document.hand.fingers[0].joints[0].axis');
+    expect(error.issues.length).toBeGreaterThan(0);
+  });
+
+  it('locates a missing title', async () => {
+    const response = await sheetsRoute.POST(apiContext({ method: 'POST', body: { teamId, document: example }, identity: people.editor }));
+    expect(response.status).toBe(400);
+    expect((await response.json()).error.path).toBe('title');
+  });
+});
+
+describe('saving revisions', () => {
+  it('saves on the latest revision, answers 409 for a stale base and loses nothing', async () => {
+    const { sheetId } = await (await create(people.editor)).json();
+    const save = (baseRevision: number, message: string) =>
+      revisionsRoute.POST(apiContext({ method: 'POST', params: { sheetId }, body: { baseRevision, document: example, message }, identity: people.editor }));
+    expect((await save(1, 'first edit')).status).toBe(201);
+    const stale = await save(1, 'edit from an old tab');
+    expect(stale.status).toBe(409);
+    expect((await stale.json()).error).toMatchObject({ path: 'baseRevision', latestRevision: 2 });
+    const list = await (await revisionsRoute.GET(apiContext({ params: { sheetId }, identity: people.viewer }))).json();
+    expect(list.items.map((r: { number: number; message: string }) => [r.number, r.message])).toEqual([
+      [2, 'first edit'],
+      [1, 'Created'],
+    ]);
+  });
+
+  it('lets a reviewer read but not save, and hides the sheet from other teams', async () => {
+    const { sheetId } = await (await create(people.editor)).json();
+    const body = { baseRevision: 1, document: example };
+    expect((await revisionsRoute.POST(apiContext({ method: 'POST', params: { sheetId }, body, identity: people.reviewer }))).status).toBe(403);
+    expect((await sheetRoute.GET(apiContext({ params: { sheetId }, identity: people.reviewer }))).status).toBe(200);
+    expect((await sheetRoute.GET(apiContext({ params: { sheetId }, identity: outsider }))).status).toBe(404);
+    expect((await sheetRoute.GET(apiContext({ params: { sheetId } }))).status).toBe(401);
+  });
+});
+
+describe('POST /api/sheets/{id}/fork', () => {
+  it('copies a revision into a new sheet that remembers its origin', async () => {
+    const { sheetId } = await (await create(people.editor)).json();
+    const response = await forkRoute.POST(apiContext({ method: 'POST', params: { sheetId }, body: { revision: 1, title: 'Bigger rollers' }, identity: people.editor }));
+    expect(response.status).toBe(201);
+    const fork = await response.json();
+    const detail = await (await sheetRoute.GET(apiContext({ params: { sheetId: fork.sheetId }, identity: people.viewer }))).json();
+    expect(detail.sheet).toMatchObject({ title: 'Bigger rollers', forkedFromSheetId: sheetId, forkedFromRevision: 1 });
+    expect(detail.revision.inputs).toEqual(example);
+  });
+});
+
+describe('GET /api/sheets', () => {
+  it('pages through the team sheets and filters by title or tag', async () => {
+    const page = await (await sheetsRoute.GET(apiContext({ url: `http://127.0.0.1/api/sheets?team=${teamId}&pageSize=2&q=peg`, identity: people.viewer }))).json();
+    expect(page.items.length).toBe(2);
+    expect(page.total).toBeGreaterThanOrEqual(4);
+    expect(page.items.every((s: { title: string; tags: string[] }) => /peg/i.test(s.title) || s.tags.includes('peg'))).toBe(true);
+    const none = await (await sheetsRoute.GET(apiContext({ url: `http://127.0.0.1/api/sheets?team=${teamId}&q=zzz-no-match`, identity: people.viewer }))).json();
+    expect(none).toMatchObject({ items: [], total: 0 });
+  });
+});
