@@ -1,0 +1,268 @@
+import { readdirSync } from 'node:fs';
+import { join, relative, sep } from 'node:path';
+import { eq } from 'drizzle-orm';
+import { beforeAll, describe, expect, it } from 'vitest';
+import { users } from '../../../../src/db/schema';
+import type { Identity } from '../../../../src/lib/server/access';
+import { createApiToken, revokeApiToken } from '../../../../src/lib/server/api-tokens';
+import { getDatabase } from '../../../../src/lib/server/database';
+import { DEMO_PASSWORD } from '../../../../src/lib/server/demo';
+import { identityForUser } from '../../../../src/lib/server/identity';
+import { hashPassword } from '../../../../src/lib/server/passwords';
+import { addTestMember, callRoute, callThroughMiddleware, demoIdentity, demoTeamId, type Handler } from '../../../helpers/api-context';
+
+/*
+ * Every API route × every kind of caller, with the status each must get. Routes are found by
+ * listing src/pages/api, so a new route (or a new method on one) fails here until it has a row.
+ * Session callers get `locals.identity` from identityForUser; token callers go through the real
+ * middleware, which resolves the bearer with identityForToken.
+ */
+
+const API_FOLDER = join(process.cwd(), 'src', 'pages', 'api');
+const METHODS = ['GET', 'POST', 'PUT', 'PATCH', 'DELETE', 'ALL'] as const;
+type Method = (typeof METHODS)[number];
+
+const WHO = ['none', 'viewer', 'reviewer', 'editor', 'owner', 'token', 'revoked', 'other'] as const;
+type Who = (typeof WHO)[number];
+type Expected = Record<Who, number>;
+
+interface Fixture {
+  teamId: string;
+  sessions: Record<'viewer' | 'reviewer' | 'editor' | 'owner' | 'other', Identity>;
+  /** An editor's token for the demo team at role editor. */
+  token: string;
+  revokedToken: string;
+}
+
+interface Prepared {
+  params?: Record<string, string>;
+  body?: unknown;
+  /** Undoes what the call changed so later cells see the same world. */
+  cleanup?: () => Promise<void>;
+}
+
+interface Row {
+  route: string;
+  method: Method;
+  variant?: string;
+  prepare?: (fx: Fixture, who: Who) => Prepared | Promise<Prepared>;
+  expect: Expected;
+}
+
+const ALL_OK: Expected = { none: 200, viewer: 200, reviewer: 200, editor: 200, owner: 200, token: 200, revoked: 401, other: 200 };
+const SIGNED_IN_OK: Expected = { ...ALL_OK, none: 401 };
+/** Account and token management: sessions only, never a token. */
+const SESSION_ONLY = (ok: number, other = ok): Expected => ({ none: 401, viewer: ok, reviewer: ok, editor: ok, owner: ok, token: 403, revoked: 401, other });
+/** Team management: the owner only; the token (editor role) is refused like an editor; other teams see 404. */
+const OWNER_ONLY = (ok: number): Expected => ({ none: 401, viewer: 403, reviewer: 403, editor: 403, owner: ok, token: 403, revoked: 401, other: 404 });
+
+/** The session identity for a cell, or null for the anonymous and token cells. */
+function sessionOf(fx: Fixture, who: Who): Identity | null {
+  return who === 'none' || who === 'token' || who === 'revoked' ? null : fx.sessions[who];
+}
+
+/** A user id of whoever is calling (the demo editor for token cells). */
+function callerId(fx: Fixture, who: Who): string {
+  return (sessionOf(fx, who) ?? fx.sessions.editor).user.id;
+}
+
+async function newTeamMember(fx: Fixture): Promise<Prepared> {
+  const member = await addTestMember('viewer', { teamId: fx.teamId });
+  return { params: { teamId: fx.teamId, userId: member.userId } };
+}
+
+const ROWS: Row[] = [
+  { route: 'health.ts', method: 'GET', expect: ALL_OK },
+  { route: 'me.ts', method: 'GET', expect: SIGNED_IN_OK },
+  {
+    route: 'auth/[...auth].ts',
+    method: 'GET',
+    variant: 'Auth.js CSRF token',
+    prepare: () => ({ params: { auth: 'csrf' } }),
+    expect: ALL_OK,
+  },
+  {
+    route: 'auth/[...auth].ts',
+    method: 'POST',
+    variant: 'Auth.js session update without its CSRF token',
+    prepare: () => ({ params: { auth: 'session' } }),
+    expect: { none: 400, viewer: 400, reviewer: 400, editor: 400, owner: 400, token: 400, revoked: 401, other: 400 },
+  },
+  { route: 'tokens.ts', method: 'GET', expect: SESSION_ONLY(200) },
+  {
+    route: 'tokens.ts',
+    method: 'POST',
+    variant: 'viewer token',
+    prepare: (fx) => ({ body: { teamId: fx.teamId, name: 'table', role: 'viewer' } }),
+    expect: { ...SESSION_ONLY(201), other: 404 },
+  },
+  {
+    route: 'tokens.ts',
+    method: 'POST',
+    variant: 'owner token: above everyone but the owner',
+    prepare: (fx) => ({ body: { teamId: fx.teamId, name: 'table', role: 'owner' } }),
+    expect: { none: 401, viewer: 403, reviewer: 403, editor: 403, owner: 201, token: 403, revoked: 401, other: 404 },
+  },
+  {
+    route: 'tokens.ts',
+    method: 'POST',
+    variant: 'empty name',
+    prepare: (fx) => ({ body: { teamId: fx.teamId, name: ' ', role: 'viewer' } }),
+    expect: SESSION_ONLY(400),
+  },
+  {
+    route: 'tokens/[tokenId].ts',
+    method: 'DELETE',
+    variant: "the demo editor's token",
+    prepare: async (fx) => {
+      const created = await createApiToken(await getDatabase(), fx.sessions.editor, { teamId: fx.teamId, name: 'to revoke', role: 'viewer' });
+      if (!created.ok) throw new Error(created.message);
+      return { params: { tokenId: created.value.summary.id } };
+    },
+    expect: { none: 401, viewer: 404, reviewer: 404, editor: 204, owner: 204, token: 403, revoked: 401, other: 404 },
+  },
+  {
+    route: 'teams/[teamId]/members.ts',
+    method: 'GET',
+    prepare: (fx) => ({ params: { teamId: fx.teamId } }),
+    expect: { ...SIGNED_IN_OK, other: 404 },
+  },
+  {
+    route: 'teams/[teamId]/members/[userId].ts',
+    method: 'PATCH',
+    variant: 'viewer to reviewer',
+    prepare: async (fx) => ({ ...(await newTeamMember(fx)), body: { role: 'reviewer' } }),
+    expect: OWNER_ONLY(200),
+  },
+  {
+    route: 'teams/[teamId]/members/[userId].ts',
+    method: 'PATCH',
+    variant: 'unknown role',
+    prepare: async (fx) => ({ ...(await newTeamMember(fx)), body: { role: 'admin' } }),
+    expect: OWNER_ONLY(400),
+  },
+  {
+    route: 'teams/[teamId]/members/[userId].ts',
+    method: 'PATCH',
+    variant: 'demoting the only owner',
+    prepare: (fx) => ({ params: { teamId: fx.teamId, userId: fx.sessions.owner.user.id }, body: { role: 'editor' } }),
+    expect: OWNER_ONLY(409),
+  },
+  {
+    route: 'teams/[teamId]/members/[userId].ts',
+    method: 'DELETE',
+    variant: 'a viewer',
+    prepare: (fx) => newTeamMember(fx),
+    expect: OWNER_ONLY(204),
+  },
+  {
+    route: 'me/team.ts',
+    method: 'PUT',
+    variant: 'switch to the demo team',
+    prepare: (fx) => ({ body: { teamId: fx.teamId } }),
+    expect: { ...SESSION_ONLY(200), other: 404 },
+  },
+  {
+    route: 'account/password.ts',
+    method: 'POST',
+    variant: 'correct current password',
+    prepare: (fx, who) => ({
+      body: { currentPassword: DEMO_PASSWORD, newPassword: 'a-rotated-password' },
+      cleanup: async () => {
+        const passwordHash = await hashPassword(DEMO_PASSWORD);
+        const database = await getDatabase();
+        await database.write((db) => db.update(users).set({ passwordHash }).where(eq(users.id, callerId(fx, who))));
+      },
+    }),
+    expect: SESSION_ONLY(204),
+  },
+  {
+    route: 'account/password.ts',
+    method: 'POST',
+    variant: 'wrong current password',
+    prepare: () => ({ body: { currentPassword: 'not-the-password', newPassword: 'a-rotated-password' } }),
+    expect: SESSION_ONLY(400),
+  },
+];
+
+/** Every route file under src/pages/api, as a path relative to it with forward slashes. */
+function discoverRoutes(): string[] {
+  return readdirSync(API_FOLDER, { recursive: true, withFileTypes: true })
+    .filter((entry) => entry.isFile() && /\.(ts|js)$/.test(entry.name))
+    .map((entry) => relative(API_FOLDER, join(entry.parentPath, entry.name)).split(sep).join('/'))
+    .sort();
+}
+
+const routeModules = import.meta.glob<Partial<Record<Method, Handler>>>('../../../../src/pages/api/**/*.{ts,js}');
+
+async function loadRoute(route: string): Promise<Partial<Record<Method, Handler>>> {
+  const load = routeModules[`../../../../src/pages/api/${route}`];
+  if (!load) throw new Error(`No module for ${route}`);
+  return load();
+}
+
+/** The URL path of a route file with its parameters filled in. */
+function urlPath(route: string, params: Record<string, string>): string {
+  const path = route
+    .replace(/\.(ts|js)$/, '')
+    .replace(/(^|\/)index$/, '')
+    .replace(/\[(?:\.\.\.)?(\w+)\]/g, (_, name: string) => params[name] ?? `missing-${name}`);
+  return `/api/${path}`.replace(/\/$/, '');
+}
+
+async function runCell(fx: Fixture, row: Row, who: Who): Promise<number> {
+  const handler = (await loadRoute(row.route))[row.method];
+  if (!handler) throw new Error(`${row.route} exports no ${row.method}`);
+  const prepared = (await row.prepare?.(fx, who)) ?? {};
+  const params = prepared.params ?? {};
+  const spec = { method: row.method, path: urlPath(row.route, params), params, body: prepared.body };
+  try {
+    const response =
+      who === 'token' || who === 'revoked'
+        ? await callThroughMiddleware(handler, { ...spec, headers: { authorization: `Bearer ${who === 'token' ? fx.token : fx.revokedToken}` } })
+        : await callRoute(handler, { ...spec, identity: sessionOf(fx, who) });
+    return response.status;
+  } finally {
+    await prepared.cleanup?.();
+  }
+}
+
+const discovered = discoverRoutes();
+const cellCount = ROWS.length * WHO.length;
+let fixture: Fixture;
+
+beforeAll(async () => {
+  const database = await getDatabase();
+  const teamId = await demoTeamId();
+  const [viewer, reviewer, editor, owner] = await Promise.all((['viewer', 'reviewer', 'editor', 'owner'] as const).map(demoIdentity));
+  const outsider = await addTestMember('owner', { password: DEMO_PASSWORD });
+  const other = (await identityForUser(database, outsider.userId))!;
+  const live = await createApiToken(database, editor, { teamId, name: 'table: live', role: 'editor' });
+  const dead = await createApiToken(database, editor, { teamId, name: 'table: revoked', role: 'editor' });
+  if (!live.ok || !dead.ok) throw new Error('could not create the table tokens');
+  await revokeApiToken(database, editor, dead.value.summary.id);
+  fixture = { teamId, sessions: { viewer, reviewer, editor, owner, other }, token: live.value.token, revokedToken: dead.value.token };
+  console.log(`authorization table: ${discovered.length} route files, ${ROWS.length} rows × ${WHO.length} identities = ${cellCount} cells`);
+});
+
+describe(`authorization table (${ROWS.length} rows × ${WHO.length} identities = ${cellCount} cells)`, () => {
+  it('has a row for every method of every route under src/pages/api', async () => {
+    const missing: string[] = [];
+    for (const route of discovered) {
+      const module = await loadRoute(route);
+      for (const method of METHODS) {
+        if (module[method] && !ROWS.some((r) => r.route === route && r.method === method)) missing.push(`${method} ${route}`);
+      }
+    }
+    const stale = ROWS.filter((r) => !discovered.includes(r.route)).map((r) => `${r.method} ${r.route}`);
+    expect({ missing, stale }).toEqual({ missing: [], stale: [] });
+  });
+
+  for (const row of ROWS) {
+    it(`${row.method} ${row.route}${row.variant ? ` (${row.variant})` : ''}`, async () => {
+      const actual = {} as Expected;
+      for (const who of WHO) actual[who] = await runCell(fixture, row, who);
+      expect(actual).toEqual(row.expect);
+    });
+  }
+});
