@@ -1,14 +1,15 @@
-import { readdirSync } from 'node:fs';
+import { readdirSync, readFileSync } from 'node:fs';
 import { join, relative, sep } from 'node:path';
-import { eq } from 'drizzle-orm';
+import { eq, like } from 'drizzle-orm';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { users } from '../../../../src/db/schema';
+import { sheets, users } from '../../../../src/db/schema';
 import type { Identity } from '../../../../src/lib/server/access';
 import { createApiToken, revokeApiToken } from '../../../../src/lib/server/api-tokens';
 import { getDatabase } from '../../../../src/lib/server/database';
 import { DEMO_PASSWORD } from '../../../../src/lib/server/demo';
 import { identityForUser } from '../../../../src/lib/server/identity';
 import { hashPassword } from '../../../../src/lib/server/passwords';
+import { createSheet } from '../../../../src/lib/server/sheets';
 import { addTestMember, callRoute, callThroughMiddleware, demoIdentity, demoTeamId, type Handler } from '../../../helpers/api-context';
 
 /*
@@ -36,6 +37,8 @@ interface Fixture {
 
 interface Prepared {
   params?: Record<string, string>;
+  /** Search part of the URL, e.g. `?team=…`. */
+  query?: string;
   body?: unknown;
   /** Undoes what the call changed so later cells see the same world. */
   cleanup?: () => Promise<void>;
@@ -56,6 +59,10 @@ const SESSION_ONLY = (ok: number, other = ok): Expected => ({ none: 401, viewer:
 /** Team management: the owner only; the token (editor role) is refused like an editor; other teams see 404. */
 const OWNER_ONLY = (ok: number): Expected => ({ none: 401, viewer: 403, reviewer: 403, editor: 403, owner: ok, token: 403, revoked: 401, other: 404 });
 
+/** Sheet writing: editors and owners (and the editor-role token); other teams see 404. */
+const SHEET_WRITERS = (ok: number): Expected => ({ none: 401, viewer: 403, reviewer: 403, editor: ok, owner: ok, token: ok, revoked: 401, other: 404 });
+const SESSIONS = ['viewer', 'reviewer', 'editor', 'owner', 'other'] as const;
+
 /** The session identity for a cell, or null for the anonymous and token cells. */
 function sessionOf(fx: Fixture, who: Who): Identity | null {
   return who === 'none' || who === 'token' || who === 'revoked' ? null : fx.sessions[who];
@@ -64,6 +71,21 @@ function sessionOf(fx: Fixture, who: Who): Identity | null {
 /** A user id of whoever is calling (the demo editor for token cells). */
 function callerId(fx: Fixture, who: Who): string {
   return (sessionOf(fx, who) ?? fx.sessions.editor).user.id;
+}
+
+const TABLE_SHEET_TITLE = 'Authorization table scratch sheet';
+const exampleDocument = JSON.parse(readFileSync(join(process.cwd(), 'content', 'sheets', 'line4-peg-tilt.json'), 'utf8')) as unknown;
+
+/** Deletes every sheet the table made (created, saved onto or forked), so the demo team keeps its seeded sheets. */
+async function deleteTableSheets(): Promise<void> {
+  const database = await getDatabase();
+  await database.write((db) => db.delete(sheets).where(like(sheets.title, `${TABLE_SHEET_TITLE}%`)));
+}
+
+/** A fresh sheet in the demo team to save onto or fork, removed again after the call. */
+async function scratchSheet(fx: Fixture, extra: Omit<Prepared, 'params' | 'cleanup'> = {}): Promise<Prepared> {
+  const { sheetId } = await createSheet(await getDatabase(), { teamId: fx.teamId, title: TABLE_SHEET_TITLE, inputs: exampleDocument, authorId: null });
+  return { params: { sheetId }, cleanup: deleteTableSheets, ...extra };
 }
 
 async function newTeamMember(fx: Fixture): Promise<Prepared> {
@@ -163,6 +185,52 @@ const ROWS: Row[] = [
     expect: { ...SESSION_ONLY(200), other: 404 },
   },
   {
+    route: 'sheets/index.ts',
+    method: 'GET',
+    variant: 'list the demo team',
+    prepare: (fx) => ({ query: `?team=${fx.teamId}` }),
+    expect: { ...SIGNED_IN_OK, other: 404 },
+  },
+  {
+    route: 'sheets/index.ts',
+    method: 'POST',
+    variant: 'create in the demo team',
+    prepare: (fx) => ({ body: { teamId: fx.teamId, title: TABLE_SHEET_TITLE, document: exampleDocument }, cleanup: deleteTableSheets }),
+    expect: SHEET_WRITERS(201),
+  },
+  {
+    route: 'sheets/index.ts',
+    method: 'POST',
+    variant: 'no title',
+    prepare: (fx) => ({ body: { teamId: fx.teamId, title: '', document: exampleDocument } }),
+    expect: { ...SIGNED_IN_OK, ...Object.fromEntries(SESSIONS.map((who) => [who, 400])), token: 400 },
+  },
+  {
+    route: 'sheets/[sheetId]/index.ts',
+    method: 'GET',
+    prepare: (fx) => scratchSheet(fx),
+    expect: { ...SIGNED_IN_OK, other: 404 },
+  },
+  {
+    route: 'sheets/[sheetId]/revisions.ts',
+    method: 'GET',
+    prepare: (fx) => scratchSheet(fx),
+    expect: { ...SIGNED_IN_OK, other: 404 },
+  },
+  {
+    route: 'sheets/[sheetId]/revisions.ts',
+    method: 'POST',
+    variant: 'save on the latest revision',
+    prepare: (fx) => scratchSheet(fx, { body: { baseRevision: 1, document: exampleDocument, message: 'table' } }),
+    expect: SHEET_WRITERS(201),
+  },
+  {
+    route: 'sheets/[sheetId]/fork.ts',
+    method: 'POST',
+    prepare: (fx) => scratchSheet(fx, { body: { title: `${TABLE_SHEET_TITLE} (fork)` } }),
+    expect: SHEET_WRITERS(201),
+  },
+  {
     route: 'account/password.ts',
     method: 'POST',
     variant: 'correct current password',
@@ -215,7 +283,7 @@ async function runCell(fx: Fixture, row: Row, who: Who): Promise<number> {
   if (!handler) throw new Error(`${row.route} exports no ${row.method}`);
   const prepared = (await row.prepare?.(fx, who)) ?? {};
   const params = prepared.params ?? {};
-  const spec = { method: row.method, path: urlPath(row.route, params), params, body: prepared.body };
+  const spec = { method: row.method, path: urlPath(row.route, params) + (prepared.query ?? ''), params, body: prepared.body };
   try {
     const response =
       who === 'token' || who === 'revoked'
