@@ -47,9 +47,7 @@ export interface Finger {
   rollerAxis: Float64Array;
   /** Rotation of the last link from home, row-major (roller frame to world). */
   rollerRotation: Float64Array;
-  /** Scratch for one joint's exponential. */
-  jointRotation: Float64Array;
-  jointTranslation: Float64Array;
+  /** Translation of the last link from home, m (roller frame origin offset, world frame). */
   chainTranslation: Float64Array;
 }
 
@@ -87,8 +85,6 @@ export function createFinger(input: FingerInput): Finger {
     rollerCenter: new Float64Array(3),
     rollerAxis: new Float64Array(3),
     rollerRotation: new Float64Array(9),
-    jointRotation: new Float64Array(9),
-    jointTranslation: new Float64Array(3),
     chainTranslation: new Float64Array(3),
   };
   input.joints.forEach((joint, k) => {
@@ -143,47 +139,48 @@ export function jointExponential(axis: Vec3Like, point: Vec3Like, angle: number,
 
 /** Runs the product of exponentials at finger.angles, updating the current axes, points, roller centre and axis (world frame). */
 export function forwardKinematics(finger: Finger): Finger {
-  const R = finger.rollerRotation, t = finger.chainTranslation;
-  const Rk = finger.jointRotation, tk = finger.jointTranslation;
   const homeAxes = finger.homeAxes, homePoints = finger.homePoints;
   const axes = finger.axes, points = finger.points, angles = finger.angles;
-  R[0] = 1; R[1] = 0; R[2] = 0; R[3] = 0; R[4] = 1; R[5] = 0; R[6] = 0; R[7] = 0; R[8] = 1;
-  t[0] = 0; t[1] = 0; t[2] = 0;
+  // Chain so far g = (R, t), kept in locals: R row-major r0..r8.
+  let r0 = 1, r1 = 0, r2 = 0, r3 = 0, r4 = 1, r5 = 0, r6 = 0, r7 = 0, r8 = 1;
+  let t0 = 0, t1 = 0, t2 = 0;
   for (let k = 0, o = 0; k < finger.jointCount; k++, o += 3) {
     // Current axis and point: joint k's home twist carried by the chain of joints before it.
     const ax = homeAxes[o], ay = homeAxes[o + 1], az = homeAxes[o + 2];
     const px = homePoints[o], py = homePoints[o + 1], pz = homePoints[o + 2];
-    axes[o] = R[0] * ax + R[1] * ay + R[2] * az;
-    axes[o + 1] = R[3] * ax + R[4] * ay + R[5] * az;
-    axes[o + 2] = R[6] * ax + R[7] * ay + R[8] * az;
-    points[o] = R[0] * px + R[1] * py + R[2] * pz + t[0];
-    points[o + 1] = R[3] * px + R[4] * py + R[5] * pz + t[1];
-    points[o + 2] = R[6] * px + R[7] * py + R[8] * pz + t[2];
-    // exp(xi_1 th_1) ... exp(xi_k th_k) = exp(xi'_k th_k) exp(xi_1 th_1) ... exp(xi_{k-1} th_{k-1}) with xi'_k the current twist.
-    jointExponential(axes, points, angles[k], Rk, tk, o);
-    composeInPlace(Rk, tk, R, t);
+    const x = r0 * ax + r1 * ay + r2 * az, y = r3 * ax + r4 * ay + r5 * az, z = r6 * ax + r7 * ay + r8 * az;
+    const qx = r0 * px + r1 * py + r2 * pz + t0, qy = r3 * px + r4 * py + r5 * pz + t1, qz = r6 * px + r7 * py + r8 * pz + t2;
+    axes[o] = x; axes[o + 1] = y; axes[o + 2] = z;
+    points[o] = qx; points[o + 1] = qy; points[o + 2] = qz;
+    // exp(xi_1 th_1) ... exp(xi_k th_k) = exp(xi'_k th_k) g with xi'_k the current twist; exp(xi'_k th_k)
+    // is the rotation E about the current axis (Rodrigues) with translation (I - E) q.
+    const s = Math.sin(angles[k]), v = 1 - Math.cos(angles[k]);
+    const e0 = 1 - v * (y * y + z * z), e1 = v * x * y - s * z, e2 = v * x * z + s * y;
+    const e3 = v * x * y + s * z, e4 = 1 - v * (x * x + z * z), e5 = v * y * z - s * x;
+    const e6 = v * x * z - s * y, e7 = v * y * z + s * x, e8 = 1 - v * (x * x + y * y);
+    let c0 = r0, c1 = r3, c2 = r6;
+    r0 = e0 * c0 + e1 * c1 + e2 * c2; r3 = e3 * c0 + e4 * c1 + e5 * c2; r6 = e6 * c0 + e7 * c1 + e8 * c2;
+    c0 = r1; c1 = r4; c2 = r7;
+    r1 = e0 * c0 + e1 * c1 + e2 * c2; r4 = e3 * c0 + e4 * c1 + e5 * c2; r7 = e6 * c0 + e7 * c1 + e8 * c2;
+    c0 = r2; c1 = r5; c2 = r8;
+    r2 = e0 * c0 + e1 * c1 + e2 * c2; r5 = e3 * c0 + e4 * c1 + e5 * c2; r8 = e6 * c0 + e7 * c1 + e8 * c2;
+    // New translation E t + (I - E) q = E (t - q) + q.
+    const dx = t0 - qx, dy = t1 - qy, dz = t2 - qz;
+    t0 = e0 * dx + e1 * dy + e2 * dz + qx;
+    t1 = e3 * dx + e4 * dy + e5 * dz + qy;
+    t2 = e6 * dx + e7 * dy + e8 * dz + qz;
   }
+  const R = finger.rollerRotation, t = finger.chainTranslation;
+  R[0] = r0; R[1] = r1; R[2] = r2; R[3] = r3; R[4] = r4; R[5] = r5; R[6] = r6; R[7] = r7; R[8] = r8;
+  t[0] = t0; t[1] = t1; t[2] = t2;
   const c = finger.homeRollerCenter, a = finger.homeRollerAxis;
   const center = finger.rollerCenter, axis = finger.rollerAxis;
-  center[0] = R[0] * c[0] + R[1] * c[1] + R[2] * c[2] + t[0];
-  center[1] = R[3] * c[0] + R[4] * c[1] + R[5] * c[2] + t[1];
-  center[2] = R[6] * c[0] + R[7] * c[1] + R[8] * c[2] + t[2];
-  axis[0] = R[0] * a[0] + R[1] * a[1] + R[2] * a[2];
-  axis[1] = R[3] * a[0] + R[4] * a[1] + R[5] * a[2];
-  axis[2] = R[6] * a[0] + R[7] * a[1] + R[8] * a[2];
+  center[0] = r0 * c[0] + r1 * c[1] + r2 * c[2] + t0;
+  center[1] = r3 * c[0] + r4 * c[1] + r5 * c[2] + t1;
+  center[2] = r6 * c[0] + r7 * c[1] + r8 * c[2] + t2;
+  axis[0] = r0 * a[0] + r1 * a[1] + r2 * a[2];
+  axis[1] = r3 * a[0] + r4 * a[1] + r5 * a[2];
+  axis[2] = r6 * a[0] + r7 * a[1] + r8 * a[2];
   return finger;
 }
 
-/** (R, t) <- (Rk, tk) (R, t): rotation Rk R and translation Rk t + tk. */
-function composeInPlace(Rk: Float64Array, tk: Float64Array, R: Float64Array, t: Float64Array): void {
-  for (let col = 0; col < 3; col++) {
-    const r0 = R[col], r1 = R[3 + col], r2 = R[6 + col];
-    R[col] = Rk[0] * r0 + Rk[1] * r1 + Rk[2] * r2;
-    R[3 + col] = Rk[3] * r0 + Rk[4] * r1 + Rk[5] * r2;
-    R[6 + col] = Rk[6] * r0 + Rk[7] * r1 + Rk[8] * r2;
-  }
-  const t0 = t[0], t1 = t[1], t2 = t[2];
-  t[0] = Rk[0] * t0 + Rk[1] * t1 + Rk[2] * t2 + tk[0];
-  t[1] = Rk[3] * t0 + Rk[4] * t1 + Rk[5] * t2 + tk[1];
-  t[2] = Rk[6] * t0 + Rk[7] * t1 + Rk[8] * t2 + tk[2];
-}

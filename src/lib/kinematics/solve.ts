@@ -84,7 +84,7 @@ export interface SteerAndRoll {
 /** Scratch shared by the per-finger solves of one scene. */
 export interface SolveWorkspace {
   linalg: LinalgWorkspace;
-  /** D0, D1, D2 of the roll direction d(delta) = D0 + D1 cos delta + D2 sin delta. */
+  /** D0, D1, D2 of the roll direction d(delta) = D0 + D1 cos delta + D2 sin delta, then cos and sin of the chosen delta. */
   steer: Float64Array;
 }
 
@@ -92,7 +92,7 @@ export interface SolveWorkspace {
 export function createSolveWorkspace(maxJoints: number): SolveWorkspace {
   return {
     linalg: createLinalgWorkspace(4, Math.max(4, maxJoints)),
-    steer: new Float64Array(9),
+    steer: new Float64Array(11),
   };
 }
 
@@ -394,7 +394,7 @@ export function solveSteerAndRoll(finger: Finger, contact: Contact, full: FullSo
   // Jacobian after steering: joints beyond the pivot turn about the pivot line by pivotChange.
   const ja = out.jacobianAfter;
   contactJacobian(axes, points, n, y, ja);
-  if (out.available && out.pivotChange !== 0) steeredColumns(finger, y, out.pivotChange, ja);
+  if (out.available && out.pivotChange !== 0) steeredColumns(finger, y, ws.steer[9], ws.steer[10], ja);
   const d = ja.data;
   let residual = 0;
   for (let i = 0; i < 3; i++) {
@@ -446,7 +446,7 @@ function steer(finger: Finger, contact: Contact, out: SteerAndRoll, ws: SolveWor
   D[3] = bwy * ez - bwz * ey - bgx; D[4] = bwz * ex - bwx * ez - bgy; D[5] = bwx * ey - bwy * ex - bgz;
   D[6] = cwy * ez - cwz * ey - cgx; D[7] = cwz * ex - cwx * ez - cgy; D[8] = cwx * ey - cwy * ex - cgz;
 
-  let delta = 0;
+  let delta = 0, cos = 1, sin = 0;
   let aligned = false;
   if (uNorm > 0) {
     const mx = (nrm[1] * u[2] - nrm[2] * u[1]) / uNorm;
@@ -463,21 +463,28 @@ function steer(finger: Finger, contact: Contact, out: SteerAndRoll, ws: SolveWor
       // Out of reach: the closest approach is where the cosine saturates.
       const spread = Math.acos(ratio > 1 ? 1 : ratio < -1 ? -1 : ratio);
       const first = wrapAngle(phase + spread), second = wrapAngle(phase - spread);
+      const cosFirst = Math.cos(first), sinFirst = Math.sin(first);
+      const cosSecond = Math.cos(second), sinSecond = Math.sin(second);
       // A root where d vanishes aligns nothing; of the usable roots take the one nearer the current angle.
-      const scale = D[0] * D[0] + D[1] * D[1] + D[2] * D[2] + D[3] * D[3] + D[4] * D[4] + D[5] * D[5] + D[6] * D[6] + D[7] * D[7] + D[8] * D[8];
-      const firstUsable = rollDirectionSquared(D, first) > 1e-18 * scale;
-      const secondUsable = rollDirectionSquared(D, second) > 1e-18 * scale;
-      if (firstUsable && (!secondUsable || Math.abs(first) <= Math.abs(second))) delta = first;
-      else if (secondUsable) delta = second;
+      let scale = 0;
+      for (let i = 0; i < 9; i++) scale += D[i] * D[i];
+      const firstUsable = rollDirectionSquared(D, cosFirst, sinFirst) > 1e-18 * scale;
+      const secondUsable = rollDirectionSquared(D, cosSecond, sinSecond) > 1e-18 * scale;
+      if (firstUsable && (!secondUsable || Math.abs(first) <= Math.abs(second))) {
+        delta = first; cos = cosFirst; sin = sinFirst;
+      } else if (secondUsable) {
+        delta = second; cos = cosSecond; sin = sinSecond;
+      }
       aligned = reachable && (firstUsable || secondUsable);
     }
   }
-  const cos = Math.cos(delta), sin = Math.sin(delta);
   const dx = D[0] + D[3] * cos + D[6] * sin;
   const dy = D[1] + D[4] * cos + D[7] * sin;
   const dz = D[2] + D[5] * cos + D[8] * sin;
   const dd = dx * dx + dy * dy + dz * dz;
   const du = dx * u[0] + dy * u[1] + dz * u[2];
+  D[9] = cos;
+  D[10] = sin;
   out.pivotChange = delta;
   out.pivotAngle = finger.angles[finger.pivotIndex] + delta;
   out.aligned = aligned || uNorm === 0;
@@ -488,19 +495,18 @@ function steer(finger: Finger, contact: Contact, out: SteerAndRoll, ws: SolveWor
   out.misalignment = dd > 0 && uNorm > 0 ? Math.atan2(Math.sqrt(crossX * crossX + crossY * crossY + crossZ * crossZ), Math.abs(du)) : 0;
 }
 
-function rollDirectionSquared(D: Float64Array, delta: number): number {
-  const c = Math.cos(delta), s = Math.sin(delta);
+function rollDirectionSquared(D: Float64Array, c: number, s: number): number {
   const x = D[0] + D[3] * c + D[6] * s, y = D[1] + D[4] * c + D[7] * s, z = D[2] + D[5] * c + D[8] * s;
   return x * x + y * y + z * z;
 }
 
-/** Rewrites the Jacobian columns of joints after the pivot as if the pivot had turned by delta (m/rad). */
-function steeredColumns(finger: Finger, y: ArrayLike<number>, delta: number, j: Matrix): void {
+/** Rewrites the Jacobian columns of joints after the pivot as if the pivot had turned by the angle with cosine c and sine s (m/rad). */
+function steeredColumns(finger: Finger, y: ArrayLike<number>, c: number, s: number, j: Matrix): void {
   const axes = finger.axes, points = finger.points, n = finger.jointCount, d = j.data;
   const po = 3 * finger.pivotIndex;
   const kx = axes[po], ky = axes[po + 1], kz = axes[po + 2];
   const qx = points[po], qy = points[po + 1], qz = points[po + 2];
-  const c = Math.cos(delta), s = Math.sin(delta), v = 1 - c;
+  const v = 1 - c;
   const r0 = 1 - v * (ky * ky + kz * kz), r1 = v * kx * ky - s * kz, r2 = v * kx * kz + s * ky;
   const r3 = v * kx * ky + s * kz, r4 = 1 - v * (kx * kx + kz * kz), r5 = v * ky * kz - s * kx;
   const r6 = v * kx * kz - s * ky, r7 = v * ky * kz + s * kx, r8 = 1 - v * (kx * kx + ky * ky);
