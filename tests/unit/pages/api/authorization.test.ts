@@ -1,5 +1,5 @@
 import { readdirSync, readFileSync } from 'node:fs';
-import { join, relative, sep } from 'node:path';
+import { join, sep } from 'node:path';
 import { eq, like } from 'drizzle-orm';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { sheets, users } from '../../../../src/db/schema';
@@ -255,9 +255,9 @@ const ROWS: Row[] = [
 
 /** Every route file under src/pages/api, as a path relative to it with forward slashes. */
 function discoverRoutes(): string[] {
-  return readdirSync(API_FOLDER, { recursive: true, withFileTypes: true })
-    .filter((entry) => entry.isFile() && /\.(ts|js)$/.test(entry.name))
-    .map((entry) => relative(API_FOLDER, join(entry.parentPath, entry.name)).split(sep).join('/'))
+  return readdirSync(API_FOLDER, { recursive: true, encoding: 'utf8' })
+    .filter((path) => /\.(ts|js)$/.test(path))
+    .map((path) => path.split(sep).join('/'))
     .sort();
 }
 
