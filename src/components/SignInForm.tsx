@@ -72,6 +72,9 @@ export default function SignInForm({ callbackUrl, initialError }: { callbackUrl:
           <input name="password" type="password" autoComplete="current-password" className={field} aria-invalid={!!errors.password} />
           {errors.password && <span className="mt-1 block text-xs text-sienna" role="alert">{errors.password}</span>}
         </label>
+        <a href="/reset-password" className="block text-right text-xs text-graphite underline decoration-rule hover:text-verdigris-deep">
+          Forgot your password?
+        </a>
         {errors.form && <p className="text-sm text-sienna border-l-4 border-sienna pl-3" role="alert">{errors.form}</p>}
         <button disabled={busy} className="w-full bg-ink text-paper py-2 font-semibold hover:bg-verdigris-deep disabled:opacity-60">
           {busy ? 'Signing in…' : 'Sign in'}

@@ -1,0 +1,163 @@
+import { getSession } from 'auth-astro/server';
+import { eq } from 'drizzle-orm';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { mailOutbox } from '../../../src/db/schema';
+import { getDatabase } from '../../../src/lib/server/database';
+import { sendMail, usesLocalOutbox } from '../../../src/lib/server/email';
+import { FAKE_SMTP_FLAG, type FakeSmtpServer } from '../../../src/lib/server/fake-smtp';
+import { identityForUser } from '../../../src/lib/server/identity';
+import { createInvitation, INVITATION_LIFETIME_MS } from '../../../src/lib/server/invitations';
+import { listOutboxMail, splitLinks } from '../../../src/lib/server/outbox';
+import { GET as authGet, POST as authPost } from '../../../src/pages/api/auth/[...auth]';
+import { POST as acceptRoute } from '../../../src/pages/api/invitations/accept';
+import { addTestMember, callRoute, cookieJar, ORIGIN } from '../../helpers/api-context';
+import { linkIn, startTestOutbox, waitForMail } from '../../helpers/mail';
+
+let smtp: FakeSmtpServer;
+
+beforeAll(async () => {
+  smtp = await startTestOutbox();
+});
+
+afterAll(async () => {
+  await smtp?.close();
+});
+
+/** "name=value" pairs from a response's Set-Cookie headers. */
+function cookiePairs(response: Response): string[] {
+  return response.headers.getSetCookie().map((cookie) => cookie.split(';')[0]);
+}
+
+describe('local fake SMTP server', () => {
+  it('listens on loopback only and points sendMail at itself', () => {
+    expect(smtp.host).toBe('127.0.0.1');
+    expect(smtp.port).toBeGreaterThan(0);
+    expect(process.env.SMTP_HOST).toBe('127.0.0.1');
+    expect(process.env.SMTP_PORT).toBe(String(smtp.port));
+    expect(usesLocalOutbox()).toBe(true);
+  });
+
+  it('accepts mail without authentication and stores it parsed (decoded subject, text and HTML)', async () => {
+    const to = `parsed-${crypto.randomUUID().slice(0, 8)}@slipless.example`;
+    await sendMail({
+      to,
+      subject: 'Rollendrehzahl ω = 12 rad/s — check',
+      text: 'Plain part: https://slipless.example/a?b=1&c=2\nSecond line.',
+      html: '<p>HTML part</p>',
+    });
+    const mail = await waitForMail(to);
+    expect(mail.subject).toBe('Rollendrehzahl ω = 12 rad/s — check');
+    expect(mail.text.trim()).toBe('Plain part: https://slipless.example/a?b=1&c=2\nSecond line.');
+    expect(mail.html).toContain('<p>HTML part</p>');
+    expect(splitLinks(mail.text)).toEqual([
+      { text: 'Plain part: ' },
+      { text: 'https://slipless.example/a?b=1&c=2', href: 'https://slipless.example/a?b=1&c=2' },
+      { text: '\nSecond line.' },
+    ]);
+  });
+
+  it('is in use only while no relay is configured by the operator', () => {
+    const saved = { host: process.env.SMTP_HOST, flag: process.env[FAKE_SMTP_FLAG] };
+    try {
+      process.env.SMTP_HOST = 'smtp.slipless.example';
+      delete process.env[FAKE_SMTP_FLAG];
+      expect(usesLocalOutbox()).toBe(false);
+    } finally {
+      process.env.SMTP_HOST = saved.host;
+      process.env[FAKE_SMTP_FLAG] = saved.flag;
+    }
+  });
+});
+
+describe('mail round trips through the fake SMTP server', () => {
+  it('delivers an invitation whose link accepts once; the outbox shows it only to that team', async () => {
+    const database = await getDatabase();
+    const owner = await addTestMember('owner');
+    const ownerIdentity = (await identityForUser(database, owner.userId))!;
+    const email = `mailed-${crypto.randomUUID().slice(0, 8)}@slipless.example`;
+    const created = await createInvitation(database, { teamId: owner.teamId, inviter: ownerIdentity.user, email, role: 'reviewer', origin: ORIGIN });
+    expect(created.ok).toBe(true);
+
+    const mail = await waitForMail(email);
+    const link = linkIn(mail.text, '/invite/');
+    expect(link.origin).toBe(ORIGIN);
+    const token = link.pathname.slice('/invite/'.length);
+    expect((await listOutboxMail(database, owner.teamId)).map((m) => m.id)).toContain(mail.id);
+    const otherTeam = await addTestMember('owner');
+    expect((await listOutboxMail(database, otherTeam.teamId)).map((m) => m.id)).not.toContain(mail.id);
+
+    const accept = (body: unknown) => callRoute(acceptRoute, { method: 'POST', path: '/api/invitations/accept', body });
+    const accepted = await accept({ token, name: 'Mailed Reviewer', password: 'a mailed long password' });
+    expect(accepted.status).toBe(200);
+    expect(await accepted.json()).toMatchObject({ email, role: 'reviewer', createdAccount: true });
+
+    const reused = await accept({ token, name: 'Mailed Reviewer', password: 'a mailed long password' });
+    expect(reused.status).toBe(410);
+    expect((await reused.json()).error.message).toBe('This invitation was already used.');
+  });
+
+  it('refuses a mailed invitation link after seven days with a message naming whom to ask', async () => {
+    const database = await getDatabase();
+    const owner = await addTestMember('owner');
+    const ownerIdentity = (await identityForUser(database, owner.userId))!;
+    const email = `expired-${crypto.randomUUID().slice(0, 8)}@slipless.example`;
+    const eightDaysAgo = Date.now() - INVITATION_LIFETIME_MS - 24 * 60 * 60 * 1000;
+    await createInvitation(database, { teamId: owner.teamId, inviter: ownerIdentity.user, email, role: 'viewer', origin: ORIGIN, now: eightDaysAgo });
+    const token = linkIn((await waitForMail(email)).text, '/invite/').pathname.slice('/invite/'.length);
+
+    const refused = await callRoute(acceptRoute, { method: 'POST', path: '/api/invitations/accept', body: { token, name: 'Too Late', password: 'a long enough password' } });
+    expect(refused.status).toBe(410);
+    expect((await refused.json()).error.message).toBe(`This invitation has expired; ask ${ownerIdentity.user.name} (the team owner) for a new one.`);
+  });
+
+  it('delivers an Auth.js sign-in link whose callback signs the user in once', async () => {
+    const member = await addTestMember('viewer');
+    const csrf = await authGet({ request: new Request(`${ORIGIN}/api/auth/csrf`), cookies: cookieJar(), clientAddress: '127.0.0.1' } as never);
+    const { csrfToken } = (await csrf.json()) as { csrfToken: string };
+
+    const signInJar = cookieJar();
+    const signIn = await authPost({
+      request: new Request(`${ORIGIN}/api/auth/signin/nodemailer`, {
+        method: 'POST',
+        headers: { 'content-type': 'application/x-www-form-urlencoded', cookie: cookiePairs(csrf).join('; '), 'x-auth-return-redirect': '1' },
+        body: new URLSearchParams({ email: member.email, csrfToken, callbackUrl: `${ORIGIN}/` }),
+      }),
+      cookies: signInJar,
+      clientAddress: '127.0.0.1',
+    } as never);
+    expect(signIn.status).toBe(200);
+    const next = new URL((await signIn.json()).url);
+    expect(next.pathname).toBe('/api/auth/verify-request');
+    expect(next.searchParams.get('error')).toBeNull();
+
+    const mail = await waitForMail(member.email);
+    expect(mail.subject).toBe('Your Slipless sign-in link');
+    const link = linkIn(mail.text, '/api/auth/callback/nodemailer');
+    expect(link.searchParams.get('email')).toBe(member.email);
+
+    const follow = async () => {
+      const jar = cookieJar();
+      const response = await authGet({ request: new Request(link), cookies: jar, clientAddress: '127.0.0.1' } as never);
+      return { response, jar };
+    };
+    const first = await follow();
+    expect(first.response.status).toBe(302);
+    expect(first.response.headers.get('location')).toBe(`${ORIGIN}/`);
+    const sessionCookie = [...first.jar.values].find(([name]) => name.endsWith('authjs.session-token'));
+    expect(sessionCookie).toBeDefined();
+    const session = await getSession(new Request(ORIGIN, { headers: { cookie: `${sessionCookie![0]}=${sessionCookie![1]}` } }));
+    expect(session?.user).toMatchObject({ id: member.userId, email: member.email });
+
+    const second = await follow();
+    expect(second.response.headers.get('location')).toMatch(/\/sign-in\?error=Verification/);
+  });
+
+  it('keeps each caught mail once, in the outbox table', async () => {
+    const database = await getDatabase();
+    const to = `counted-${crypto.randomUUID().slice(0, 8)}@slipless.example`;
+    await sendMail({ to, subject: 'one', text: 'one' });
+    await sendMail({ to, subject: 'two', text: 'two' });
+    const rows = await database.db.select({ subject: mailOutbox.subject }).from(mailOutbox).where(eq(mailOutbox.to, to));
+    expect(rows.map((r) => r.subject).sort()).toEqual(['one', 'two']);
+  });
+});
