@@ -64,6 +64,16 @@ function fingerEntries(doc: SheetDocument, result: SheetResult, i: number, f: Fi
     value: c.gap,
     unit: 'm',
   });
+  const centerOutside = input.roller.kind === 'sphere' && c.gap > -rho;
+  entries.push({
+    id: `${id}.contact.normal`,
+    label: `${f.name}: outward object normal at the contact`,
+    latex: centerOutside
+      ? `n = \\frac{c - x}{\\lVert c - x \\rVert} = \\frac{${column(f.rollerCenter)} - ${column(c.objectPoint)}}{${formatLatexNumber(c.gap + rho)}} = ${column(c.normal)}`
+      : `n = \\frac{\\nabla \\phi(x)}{\\lVert \\nabla \\phi(x) \\rVert} = ${column(c.normal)}`,
+    value: list(c.normal),
+    unit: '1',
+  });
   entries.push({
     id: `${id}.contact.rollerPoint`,
     label: `${f.name}: roller contact point`,
@@ -92,6 +102,15 @@ function fingerEntries(doc: SheetDocument, result: SheetResult, i: number, f: Fi
     value: c.tangentialSpeed,
     unit: 'm/s',
   });
+  if (!Number.isNaN(c.latitude)) {
+    entries.push({
+      id: `${id}.contact.latitude`,
+      label: `${f.name}: contact latitude on the roller (from its equator)`,
+      latex: `\\varphi = \\arcsin\\left(\\frac{y_R \\cdot a_R}{\\lVert y_R \\rVert}\\right),\\; y_R = ${column(c.rollerPointLocal)} \\;\\Rightarrow\\; \\varphi = ${formatLatexNumber(c.latitude)},\\; \\lambda = ${formatLatexNumber(c.longitude)}`,
+      value: [c.latitude, c.longitude],
+      unit: 'rad',
+    });
+  }
   for (let k = 0; k < n; k++) {
     const jk = [full.jacobian.data[k], full.jacobian.data[n + k], full.jacobian.data[2 * n + k]];
     entries.push({
@@ -118,6 +137,13 @@ function fingerEntries(doc: SheetDocument, result: SheetResult, i: number, f: Fi
     unit: 'm/s',
   });
   const sv = full.singularValues;
+  entries.push({
+    id: `${id}.full.singularValues`,
+    label: `${f.name}: singular values of the contact Jacobian`,
+    latex: `\\sigma_i = \\sqrt{\\lambda_i(J J^T)} = ${column(sv)}`,
+    value: list(sv),
+    unit: 'm/rad',
+  });
   entries.push({
     id: `${id}.full.conditionNumber`,
     label: `${f.name}: condition number of the contact Jacobian`,
@@ -162,6 +188,13 @@ function fingerEntries(doc: SheetDocument, result: SheetResult, i: number, f: Fi
     latex: `\\dot\\theta_r = \\pm\\frac{\\lVert u \\rVert}{d_r} = \\frac{u \\cdot d}{\\lVert d \\rVert^2},\\; \\lVert u \\rVert = ${formatLatexNumber(s.remainderNorm)},\\; d_r = ${formatLatexNumber(s.rollDistance)} \\;\\Rightarrow\\; \\dot\\theta_r = ${formatLatexNumber(s.rollRate)}`,
     value: s.rollRate,
     unit: 'rad/s',
+  });
+  entries.push({
+    id: `${id}.steer.residual`,
+    label: `${f.name}: slip left by steer and roll`,
+    latex: `\\lVert v_o - J' \\dot\\theta_{sr} \\rVert = \\left\\lVert ${column(c.objectVelocity)} - ${column(s.achieved)} \\right\\rVert = ${formatLatexNumber(s.residualNorm)}`,
+    value: s.residualNorm,
+    unit: 'm/s',
   });
   entries.push({
     id: `${id}.steer.rateDifference`,

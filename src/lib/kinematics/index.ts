@@ -50,7 +50,8 @@ export {
 } from './contact';
 export type { Contact, ContactState, ContactWorkspace, RigidObject } from './contact';
 export {
-  contactJacobian, createFullSolution, createSolveWorkspace, createSteerAndRoll, solveFull, solveSteerAndRoll,
+  contactJacobian, createFullSolution, createSolveWorkspace, createSteerAndRoll, jacobianSingularValues, largestEigenvalue3,
+  solveFull, solveSteerAndRoll, symmetricEigen3,
 } from './solve';
 export type { FullSolution, SolveWorkspace, SteerAndRoll } from './solve';
 export {
@@ -64,5 +65,5 @@ export {
   createResult, createScene, setJointAngles, setObjectPose, setObjectTwist, solveScene, solveSheet, toPlainResult,
 } from './scene';
 export type { FingerResult, PlainSheetResult, Scene, SceneWorkspace, SheetResult } from './scene';
-export { deriveSheet } from './derivation';
+export { deriveSheet, formatLatexNumber } from './derivation';
 export type { DerivationEntry } from './derivation';
