@@ -23,7 +23,7 @@ export function createSheetJsonSchema(): Record<string, unknown> {
     $schema,
     title: `Slipless sheet document, format version ${SHEET_VERSION}`,
     description:
-      'Quantities are plain numbers in SI units (m, rad, s) or strings with a unit such as "12 mm". Unit dimensions, unit quaternions, joint limit order, unique names and sweep paths are checked by the application when the sheet is read.',
+      'Quantities are plain numbers in SI units (m, rad, s), strings with a unit such as "12 mm", or expressions with units over the sheet variables such as "rollerRadius + 2 mm". Unit dimensions, unit quaternions, joint limit order, unique names and sweep paths are checked by the application when the sheet is read.',
     ...rest,
   };
 }

@@ -17,7 +17,7 @@ import type {
   Twist,
   Vec3Tuple,
 } from './types';
-import { QUANTITY_KINDS, parseQuantity, type QuantityKind } from './units';
+import { QUANTITY_KINDS, parseQuantity, parseVariables, type QuantityKind, type VariableScope } from './units';
 
 export const SHEET_FORMAT = 'slipless.sheet';
 export const SHEET_VERSION = 1;
@@ -71,17 +71,25 @@ function named<T extends z.ZodType>(schema: T, id: string | undefined, descripti
   return schema;
 }
 
-/** A number followed by a unit, e.g. "12 mm", "-0.5 rad/s", "2 /s", "1e-4 m". */
-const UNIT_STRING = /^\s*[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?\s*[A-Za-z/].*$/;
+/** Longest quantity string: a unit string or a short expression over the sheet's variables. */
+const MAX_QUANTITY_TEXT = 500;
+export const MAX_VARIABLES_TEXT = 20_000;
+export const MAX_NOTES_TEXT = 100_000;
+
+/**
+ * The variables of the sheet being read. zod has no per-parse context, so parseSheet sets this
+ * for the duration of one synchronous parse and the quantity fields read it.
+ */
+let activeVariables: VariableScope | undefined;
 
 const capitalised = (text: string) => text[0].toUpperCase() + text.slice(1);
 
 function quantity(kind: QuantityKind, id: string, bound?: { min: 0; strict: boolean; unit: string }) {
   const text = kind === 'any' ? 'a quantity: a number in SI units or a string with a unit' : quantityText(kind);
   const read = z
-    .union([z.number(), z.string().regex(UNIT_STRING)], { error: expect(`expected ${text}`) })
+    .union([z.number(), z.string().trim().min(1).max(MAX_QUANTITY_TEXT)], { error: expect(`expected ${text}`) })
     .transform((value, ctx) => {
-      const result = parseQuantity(value, kind);
+      const result = parseQuantity(value, kind, activeVariables);
       if (!result.ok) {
         ctx.addIssue({ code: 'custom', message: result.message, input: value });
         return z.NEVER;
@@ -399,6 +407,16 @@ export const sheetSchema = z
     title: name,
     description: z.string().max(20_000).default(''),
     tags: z.array(z.string().trim().min(1).max(60)).max(50).default([]),
+    variables: named(
+      z.string({ error: expect('expected the variables as text, one "name = value" per line') }).max(MAX_VARIABLES_TEXT).optional(),
+      undefined,
+      'Named quantities, one "name = expression" per line (e.g. "rollerRadius = 14 mm"); any quantity field may use them in an expression',
+    ),
+    notes: named(
+      z.string({ error: expect('expected the notes as Markdown text') }).max(MAX_NOTES_TEXT).optional(),
+      undefined,
+      'Notes in Markdown, with math between $ signs',
+    ),
     object: z.strictObject({ shape: objectShapeSchema, pose: poseSchema, twist: twistSchema }),
     hand: handSchema,
     motion: z.strictObject({ target: poseSchema, run: runSchema.prefault({}) }),
@@ -417,6 +435,8 @@ export const sheetSchema = z
       motion: d.motion,
       solver: d.solver,
     };
+    if (d.variables !== undefined) doc.variables = d.variables;
+    if (d.notes !== undefined) doc.notes = d.notes;
     if (d.sweep) {
       if (typeof resolvePointer(doc, d.sweep.path) !== 'number') {
         ctx.addIssue({
@@ -440,6 +460,9 @@ export interface SheetIssue {
   /** Location in the input document, e.g. "hand.fingers[1].joints[0].axis". */
   path: string;
   message: string;
+  /** For the variables text: the 1-based line (and column when known) of the problem. */
+  line?: number;
+  column?: number;
 }
 
 export type ParseSheetResult = { ok: true; doc: SheetDocument } | { ok: false; issues: SheetIssue[] };
@@ -477,13 +500,39 @@ function flattenIssues(issues: readonly z.core.$ZodIssue[], prefix: readonly Pro
   }
 }
 
-/** Reads an untrusted sheet document (JSON value) into a SheetDocument in SI units, or lists located issues. */
+/** The variables text of an untrusted document read into values, with its issues located by line. */
+function readDocumentVariables(input: unknown): { scope: VariableScope | undefined; issues: SheetIssue[] } {
+  const text = input !== null && typeof input === 'object' ? (input as { variables?: unknown }).variables : undefined;
+  if (typeof text !== 'string' || text.length > MAX_VARIABLES_TEXT) return { scope: undefined, issues: [] };
+  const parsed = parseVariables(text);
+  return {
+    scope: parsed.values,
+    issues: parsed.issues.map((issue) => ({
+      path: 'variables',
+      message: `line ${issue.line}: ${issue.message}`,
+      line: issue.line,
+      ...(issue.column ? { column: issue.column } : {}),
+    })),
+  };
+}
+
+/**
+ * Reads an untrusted sheet document (JSON value) into a SheetDocument in SI units, or lists
+ * located issues. Quantity fields may be expressions over the document's `variables`.
+ */
 export function parseSheet(input: unknown): ParseSheetResult {
-  const result = sheetSchema.safeParse(input, {
-    error: (issue) => (issue.code === 'invalid_type' && issue.input === undefined ? MISSING : undefined),
-  });
-  if (result.success) return { ok: true, doc: result.data };
-  const issues: SheetIssue[] = [];
-  flattenIssues(result.error.issues, [], issues);
+  const variables = readDocumentVariables(input);
+  activeVariables = variables.scope;
+  let result;
+  try {
+    result = sheetSchema.safeParse(input, {
+      error: (issue) => (issue.code === 'invalid_type' && issue.input === undefined ? MISSING : undefined),
+    });
+  } finally {
+    activeVariables = undefined;
+  }
+  if (result.success && variables.issues.length === 0) return { ok: true, doc: result.data };
+  const issues: SheetIssue[] = [...variables.issues];
+  if (!result.success) flattenIssues(result.error.issues, [], issues);
   return { ok: false, issues };
 }

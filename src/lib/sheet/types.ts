@@ -109,4 +109,8 @@ export interface SheetDocument {
   motion: { target: Pose; run: RunSettings };
   sweep?: SweepSettings;
   solver: SolverSettings;
+  /** Source text of the sheet's named quantities ("rollerRadius = 14 mm" per line); already applied to every field. */
+  variables?: string;
+  /** Notes in Markdown with $math$. */
+  notes?: string;
 }
