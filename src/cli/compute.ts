@@ -9,10 +9,11 @@ import { readFileSync, realpathSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { parseSheet } from '../lib/sheet/schema';
 import type { SheetDocument } from '../lib/sheet/types';
-import { solveSheet, toPlainResult, type PlainSheetResult } from '../lib/kinematics/index';
+import { solveSheet, toPlainResult } from '../lib/kinematics/index';
 import { ROTATION_METRICS } from '../lib/kinematics/metrics';
 import { runSheet, toPlainRunRecord, warningsAt, type RunRecord } from '../lib/kinematics/run';
 import { sweepSheet, type SweepRecord } from '../lib/kinematics/sweep';
+import { csvTable, FINGER_COLUMNS, fingerRows, maxJointCount, rateColumns, resultsCsv } from '../lib/sheet/results-csv';
 
 const USAGE = 'usage: npm run compute -- path/to/sheet.json [--format json|csv] [--run] [--sweep]';
 
@@ -80,39 +81,6 @@ function readSheet(file: string): SheetDocument {
   return parsed.doc;
 }
 
-function csvCell(value: unknown): string {
-  const text = typeof value === 'number' ? (Number.isFinite(value) ? String(value) : Number.isNaN(value) ? 'NaN' : value > 0 ? 'Infinity' : '-Infinity') : String(value ?? '');
-  return /[",\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
-}
-
-function csvTable(header: readonly string[], rows: readonly (readonly unknown[])[]): string {
-  return [header, ...rows].map((row) => row.map(csvCell).join(',')).join('\n');
-}
-
-const FINGER_COLUMNS = [
-  'finger', 'contact_state', 'gap_m', 'normal_speed_m_s', 'tangential_speed_m_s', 'residual_m_s', 'sigma1_m_rad', 'sigma2_m_rad',
-  'sigma3_m_rad', 'condition_number', 'manipulability', 'steer_base_rate_rad_s', 'steer_pivot_angle_rad', 'steer_roll_rate_rad_s',
-  'steer_residual_m_s', 'warnings',
-];
-
-function fingerRows(result: PlainSheetResult, maxJoints: number, prefix: readonly unknown[] = []): unknown[][] {
-  return result.fingers.map((finger, i) => {
-    const codes = result.warnings.filter((w) => w.finger === i).map((w) => w.code);
-    const rates = Array.from({ length: maxJoints }, (_, k) => finger.full.rates[k] ?? '');
-    return [
-      ...prefix,
-      finger.name, finger.contact.state, finger.contact.gap, finger.contact.normalSpeed, finger.contact.tangentialSpeed,
-      finger.full.residualNorm, finger.full.singularValues[0], finger.full.singularValues[1], finger.full.singularValues[2],
-      finger.full.conditionNumber, finger.full.manipulability, finger.steer.baseRate, finger.steer.pivotAngle, finger.steer.rollRate,
-      finger.steer.residualNorm, codes.join(' '), ...rates,
-    ];
-  });
-}
-
-function rateColumns(maxJoints: number): string[] {
-  return Array.from({ length: maxJoints }, (_, k) => `rate${k + 1}_rad_s`);
-}
-
 function runTable(record: RunRecord): string {
   const metrics = ROTATION_METRICS.map((m) => `${m.key}${m.unit === 'rad' ? '_rad' : ''}`);
   const header = ['tick', 'time_s', 'x_m', 'y_m', 'z_m', 'qx', 'qy', 'qz', 'qw', 'position_error_m', ...metrics, 'warnings'];
@@ -172,7 +140,7 @@ export function runComputeCommand(args: readonly string[], io: CommandOutput): n
     report(`${options.file}: sweep.path: ${error.message}`);
     return 1;
   }
-  const maxJoints = doc.hand.fingers.reduce((n, f) => Math.max(n, f.joints.length), 0);
+  const maxJoints = maxJointCount(doc);
   if (options.format === 'json') {
     const output = {
       title: doc.title,
@@ -184,7 +152,7 @@ export function runComputeCommand(args: readonly string[], io: CommandOutput): n
     io.stdout(`${JSON.stringify(output, (_, v: unknown) => (typeof v === 'number' && !Number.isFinite(v) ? String(v) : v), 2)}\n`);
     return 0;
   }
-  const tables = [csvTable([...FINGER_COLUMNS, ...rateColumns(maxJoints)], fingerRows(result, maxJoints))];
+  const tables = [resultsCsv(doc, result)];
   if (run) tables.push(`# run (${run.stopReason} after ${run.tickCount} ticks)\n${runTable(run)}`);
   if (sweep) tables.push(`# sweep ${sweep.path}\n${sweepTable(sweep, maxJoints)}`);
   io.stdout(`${tables.join('\n\n')}\n`);

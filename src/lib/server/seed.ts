@@ -18,6 +18,91 @@ interface DemoSheetFile {
   tags?: string[];
 }
 
+/** A revision made from a document by setting fields (JSON pointers) to new values. */
+interface DemoEdit {
+  message: string;
+  set?: Record<string, unknown>;
+}
+
+/**
+ * Earlier revisions of shipped sheets, oldest first, each the shipped file with the fields set;
+ * `latest` is the message of the shipped file itself, the newest revision.
+ */
+const DEMO_HISTORY: Record<string, { earlier: DemoEdit[]; latest: string }> = {
+  'line4-peg-tilt.json': {
+    earlier: [
+      {
+        message: 'First check: tilt about y, across the grip line',
+        set: {
+          '/object/twist/angular': [0, '0.35 rad/s', 0],
+          '/motion/target/orientation/axis': [0, 1, 0],
+          '/hand/fingers/0/joints/0/rateLimit': '2 rad/s',
+          '/hand/fingers/1/joints/0/rateLimit': '2 rad/s',
+        },
+      },
+      {
+        message: 'Tilt about the grip line (x) as the press needs it',
+        set: { '/hand/fingers/0/joints/0/rateLimit': '2 rad/s', '/hand/fingers/1/joints/0/rateLimit': '2 rad/s' },
+      },
+    ],
+    latest: 'Base joints rated 2.5 rad/s after the motor change',
+  },
+};
+
+/** Forks of demo sheets: a copy of the origin's revision, then the edits as later revisions. */
+const DEMO_FORKS: { from: string; revision: number; title: string; edits: DemoEdit[] }[] = [
+  {
+    from: 'line4-peg-tilt.json',
+    revision: 3,
+    title: 'Peg: tilt with 16 mm rollers',
+    edits: [
+      {
+        message: '16 mm rollers; roller centres, pivots and roll spindles moved out 2 mm to keep contact',
+        set: {
+          '/title': 'Peg: tilt with 16 mm rollers',
+          '/hand/fingers/0/roller/radius': '16 mm',
+          '/hand/fingers/0/roller/center/0': '-24 mm',
+          '/hand/fingers/0/joints/1/point/0': '-24 mm',
+          '/hand/fingers/0/joints/2/point/0': '-24 mm',
+          '/hand/fingers/1/roller/radius': '16 mm',
+          '/hand/fingers/1/roller/center/0': '24 mm',
+          '/hand/fingers/1/joints/1/point/0': '24 mm',
+          '/hand/fingers/1/joints/2/point/0': '24 mm',
+        },
+      },
+    ],
+  },
+];
+
+/** Shipped sheets that began as a fork of another shipped sheet: their first revision is the origin's copy. */
+const DEMO_FORKED_FILES: Record<string, { from: string; revision: number; message: string }> = {
+  'line4-retrofit-finger-review.json': {
+    from: 'line4-bearing-housing-quarter-turn.json',
+    revision: 1,
+    message: 'Retrofit fingers fitted as found on the cell: three mounting faults',
+  },
+};
+
+const DAY = 24 * 60 * 60 * 1000;
+
+/** A copy of `document` with each JSON pointer in `set` given its value. */
+function applyEdit(document: unknown, set: Record<string, unknown> = {}): unknown {
+  const copy = structuredClone(document) as Record<string, unknown>;
+  for (const [pointer, value] of Object.entries(set)) {
+    const keys = pointer.slice(1).split('/');
+    let node: Record<string, unknown> = copy;
+    for (const key of keys.slice(0, -1)) node = node[key] as Record<string, unknown>;
+    node[keys[keys.length - 1]] = value;
+  }
+  return copy;
+}
+
+function checkedSummary(name: string, document: unknown) {
+  const checked = validateDocument(document);
+  if (!checked.ok) throw new Error(`Demo sheet ${name} is invalid: ${checked.issues[0].path}: ${checked.issues[0].message}`);
+  return checked.summary;
+}
+
 /** Reads the example sheet documents that ship with the product, sorted by file name. */
 function readDemoSheets(folder: string): { file: string; document: DemoSheetFile }[] {
   const dir = resolve(folder);
@@ -36,6 +121,7 @@ export async function seedDemoData(database: Database, sheetsFolder = DEMO_SHEET
 
   const passwordHash = await hashPassword(DEMO_PASSWORD);
   const demoSheets = readDemoSheets(sheetsFolder);
+  let sheetCount = 0;
   await database.transaction(async (tx) => {
     const [team] = await tx.insert(teams).values(DEMO_TEAM).returning();
     const created = await tx
@@ -46,29 +132,73 @@ export async function seedDemoData(database: Database, sheetsFolder = DEMO_SHEET
       created.map((user, i) => ({ teamId: team.id, userId: user.id, role: DEMO_USERS[i].role })),
     );
     const author = created[DEMO_USERS.findIndex((u) => u.role === 'editor')];
-    for (const { file, document } of demoSheets) {
-      const checked = validateDocument(document);
-      if (!checked.ok) throw new Error(`Demo sheet ${file} is invalid: ${checked.issues[0].path}: ${checked.issues[0].message}`);
+    const owner = created[DEMO_USERS.findIndex((u) => u.role === 'owner')];
+    // Demo history is spread over the past weeks so that lists sort and histories read naturally.
+    let clock = Date.now() - 30 * DAY;
+    const tick = () => new Date((clock += DAY / 3));
+    const stored = new Map<string, { sheetId: string; revisions: unknown[] }>();
+
+    const insertSheet = async (
+      name: string,
+      title: string,
+      tags: string[],
+      revisions: { document: unknown; message: string }[],
+      forkedFrom?: { sheetId: string; revision: number },
+    ) => {
+      const times = revisions.map(() => tick());
       const [sheet] = await tx
         .insert(sheets)
         .values({
           teamId: team.id,
-          title: document.title ?? file.replace(/\.json$/, ''),
-          tags: document.tags ?? [],
-          latestRevision: 1,
-          createdBy: author.id,
+          title,
+          tags,
+          latestRevision: revisions.length,
+          createdBy: forkedFrom ? owner.id : author.id,
+          forkedFromSheetId: forkedFrom?.sheetId ?? null,
+          forkedFromRevision: forkedFrom?.revision ?? null,
+          createdAt: times[0],
+          updatedAt: times[times.length - 1],
         })
         .returning();
-      await tx.insert(sheetRevisions).values({
-        sheetId: sheet.id,
-        number: 1,
-        inputs: document,
-        summary: checked.summary,
-        message: 'Demo sheet',
-        authorId: author.id,
-      });
+      await tx.insert(sheetRevisions).values(
+        revisions.map((revision, i) => ({
+          sheetId: sheet.id,
+          number: i + 1,
+          parentRevision: i === 0 ? null : i,
+          inputs: revision.document,
+          summary: checkedSummary(`${name} revision ${i + 1}`, revision.document),
+          message: revision.message,
+          authorId: forkedFrom ? owner.id : author.id,
+          createdAt: times[i],
+        })),
+      );
+      stored.set(name, { sheetId: sheet.id, revisions: revisions.map((r) => r.document) });
+    };
+
+    for (const { file, document } of demoSheets) {
+      const history = DEMO_HISTORY[file];
+      const revisions = history
+        ? [...history.earlier.map((edit) => ({ document: applyEdit(document, edit.set), message: edit.message })), { document, message: history.latest }]
+        : [{ document, message: 'Demo sheet' }];
+      const origin = DEMO_FORKED_FILES[file];
+      const source = origin ? stored.get(origin.from) : undefined;
+      if (origin && source) {
+        revisions.unshift({ document: source.revisions[origin.revision - 1], message: `Forked from revision ${origin.revision}` });
+        revisions[1].message = origin.message;
+      }
+      await insertSheet(file, document.title ?? file.replace(/\.json$/, ''), document.tags ?? [], revisions, source && origin ? { sheetId: source.sheetId, revision: origin.revision } : undefined);
     }
-    await tx.insert(auditEvents).values({ teamId: team.id, action: 'demo.seed', detail: { sheets: demoSheets.length } });
+    for (const fork of DEMO_FORKS) {
+      const source = stored.get(fork.from);
+      if (!source) continue;
+      const copied = source.revisions[fork.revision - 1];
+      const revisions = [{ document: copied, message: `Forked from revision ${fork.revision}` }];
+      for (const edit of fork.edits) revisions.push({ document: applyEdit(revisions[revisions.length - 1].document, edit.set), message: edit.message });
+      const tags = (copied as DemoSheetFile).tags ?? [];
+      await insertSheet(`${fork.from} fork`, fork.title, tags, revisions, { sheetId: source.sheetId, revision: fork.revision });
+    }
+    sheetCount = stored.size;
+    await tx.insert(auditEvents).values({ teamId: team.id, action: 'demo.seed', detail: { sheets: sheetCount } });
   });
-  return { seeded: true, users: DEMO_USERS.length, sheets: demoSheets.length };
+  return { seeded: true, users: DEMO_USERS.length, sheets: sheetCount };
 }

@@ -1,4 +1,5 @@
-import { and, asc, count, desc, eq, isNull, like, or, sql, type SQL } from 'drizzle-orm';
+import { and, asc, count, desc, eq, inArray, isNull, like, or, sql, type SQL } from 'drizzle-orm';
+import { alias } from 'drizzle-orm/sqlite-core';
 import type { Database } from '../../db';
 import { sheetRevisions, sheets, users } from '../../db/schema';
 import { solveSheet, worstSeverity } from '../kinematics';
@@ -169,6 +170,25 @@ export async function forkSheet(
   });
 }
 
+/** The live sheets forked from `sheetId` in any of `teamIds` (the teams the caller may read), oldest first. */
+export async function listForks(database: Database, sheetId: string, teamIds: readonly string[]) {
+  if (teamIds.length === 0) return [];
+  return database.db
+    .select({
+      id: sheets.id,
+      teamId: sheets.teamId,
+      title: sheets.title,
+      forkedFromRevision: sheets.forkedFromRevision,
+      latestRevision: sheets.latestRevision,
+      authorName: users.name,
+      createdAt: sheets.createdAt,
+    })
+    .from(sheets)
+    .leftJoin(users, eq(users.id, sheets.createdBy))
+    .where(and(eq(sheets.forkedFromSheetId, sheetId), inArray(sheets.teamId, [...teamIds]), isNull(sheets.deletedAt)))
+    .orderBy(asc(sheets.createdAt));
+}
+
 /** One page of a team's sheets matching the query, with the total count. */
 export async function listSheets(database: Database, query: ListSheetsQuery) {
   const latest = database.db
@@ -184,6 +204,8 @@ export async function listSheets(database: Database, query: ListSheetsQuery) {
   if (query.warnings === 'clean') filters.push(sql`json_extract(${latest.summary}, '$.worst') = 'none'`);
   else if (query.warnings !== 'any') filters.push(sql`json_extract(${latest.summary}, '$.worst') = ${query.warnings}`);
   const where = and(...filters);
+  // The origin's title is shown only when it lives in the same team, so a fork never reveals another team's sheet.
+  const origin = alias(sheets, 'origin');
   const order = query.sort === 'title' ? asc(sheets.title) : query.sort === 'created' ? desc(sheets.createdAt) : desc(sheets.updatedAt);
   const join = and(eq(latest.sheetId, sheets.id), eq(latest.number, sheets.latestRevision));
 
@@ -197,6 +219,7 @@ export async function listSheets(database: Database, query: ListSheetsQuery) {
         latestRevision: sheets.latestRevision,
         forkedFromSheetId: sheets.forkedFromSheetId,
         forkedFromRevision: sheets.forkedFromRevision,
+        forkedFromTitle: origin.title,
         authorId: sheets.createdBy,
         authorName: users.name,
         updatedAt: sheets.updatedAt,
@@ -205,6 +228,7 @@ export async function listSheets(database: Database, query: ListSheetsQuery) {
       .from(sheets)
       .leftJoin(latest, join)
       .leftJoin(users, eq(users.id, sheets.createdBy))
+      .leftJoin(origin, and(eq(origin.id, sheets.forkedFromSheetId), eq(origin.teamId, sheets.teamId), isNull(origin.deletedAt)))
       .where(where)
       .orderBy(order)
       .limit(query.pageSize)

@@ -231,6 +231,37 @@ const ROWS: Row[] = [
     expect: SHEET_WRITERS(201),
   },
   {
+    route: 'sheets/[sheetId]/compare.ts',
+    method: 'GET',
+    variant: 'revision 1 with itself',
+    prepare: (fx) => scratchSheet(fx, { query: '?from=1&to=1' }),
+    expect: { ...SIGNED_IN_OK, other: 404 },
+  },
+  {
+    route: 'sheets/[sheetId]/export.ts',
+    method: 'GET',
+    variant: 'results as CSV',
+    prepare: (fx) => scratchSheet(fx, { query: '?format=csv' }),
+    expect: { ...SIGNED_IN_OK, other: 404 },
+  },
+  {
+    route: 'sheets/import.ts',
+    method: 'POST',
+    variant: 'a valid sheet file',
+    prepare: (fx) => ({
+      body: { teamId: fx.teamId, fileName: 'table.json', title: TABLE_SHEET_TITLE, content: JSON.stringify(exampleDocument) },
+      cleanup: deleteTableSheets,
+    }),
+    expect: SHEET_WRITERS(201),
+  },
+  {
+    route: 'sheets/import.ts',
+    method: 'POST',
+    variant: 'a file that is not JSON',
+    prepare: (fx) => ({ body: { teamId: fx.teamId, fileName: 'table.json', content: '{ "format": ' } }),
+    expect: SHEET_WRITERS(400),
+  },
+  {
     route: 'account/password.ts',
     method: 'POST',
     variant: 'correct current password',

@@ -1,7 +1,7 @@
 import type { APIRoute } from 'astro';
 import { errorResponse, requirePermission } from '../../../../lib/server/access';
 import { getDatabase } from '../../../../lib/server/database';
-import { findSheet, getRevision } from '../../../../lib/server/sheets';
+import { findSheet, getRevision, listForks } from '../../../../lib/server/sheets';
 
 export const GET = (async ({ params, url, locals }) => {
   if (!locals.identity) return errorResponse(401, 'Sign in first.');
@@ -13,5 +13,6 @@ export const GET = (async ({ params, url, locals }) => {
   const wanted = Number(url.searchParams.get('revision') ?? sheet.latestRevision);
   const revision = Number.isInteger(wanted) ? await getRevision(database, sheet.id, wanted) : null;
   if (!revision) return errorResponse(404, `Revision ${url.searchParams.get('revision')} does not exist.`, 'revision');
-  return Response.json({ sheet, revision });
+  const forks = await listForks(database, sheet.id, locals.identity.memberships.map((m) => m.teamId));
+  return Response.json({ sheet, revision, forks });
 }) satisfies APIRoute;

@@ -1,0 +1,288 @@
+/**
+ * Comparing two revisions (of one sheet, or of a sheet and a fork): the stored inputs field by
+ * field, and the outputs recomputed for both by the kinematics core, number by number.
+ */
+import type { Database } from '../../db';
+import type { Sheet } from '../../db/schema';
+import { solveSheet, toPlainResult, type PlainSheetResult } from '../kinematics';
+import { formatIssuePath, parseSheet, type SheetIssue } from '../sheet/schema';
+import { getRevision } from './sheets';
+
+export type InputChangeKind = 'added' | 'removed' | 'changed';
+
+/** One difference between two input documents, at a path written like parseSheet's issue paths. */
+export interface InputChange {
+  path: string;
+  kind: InputChangeKind;
+  before?: unknown;
+  after?: unknown;
+}
+
+type Json = null | boolean | number | string | Json[] | { [key: string]: Json };
+
+function isRecord(value: unknown): value is Record<string, unknown> {
+  return value !== null && typeof value === 'object' && !Array.isArray(value);
+}
+
+function walkDiff(before: unknown, after: unknown, path: PropertyKey[], out: InputChange[]): void {
+  if (isRecord(before) && isRecord(after)) {
+    const keys = [...Object.keys(before), ...Object.keys(after).filter((key) => !Object.hasOwn(before, key))];
+    for (const key of keys) {
+      const here = [...path, key];
+      if (!Object.hasOwn(after, key)) out.push({ path: formatIssuePath(here), kind: 'removed', before: before[key] });
+      else if (!Object.hasOwn(before, key)) out.push({ path: formatIssuePath(here), kind: 'added', after: after[key] });
+      else walkDiff(before[key], after[key], here, out);
+    }
+    return;
+  }
+  if (Array.isArray(before) && Array.isArray(after)) {
+    for (let i = 0; i < Math.max(before.length, after.length); i++) {
+      const here = [...path, i];
+      if (i >= after.length) out.push({ path: formatIssuePath(here), kind: 'removed', before: before[i] });
+      else if (i >= before.length) out.push({ path: formatIssuePath(here), kind: 'added', after: after[i] });
+      else walkDiff(before[i], after[i], here, out);
+    }
+    return;
+  }
+  if (!Object.is(before, after)) out.push({ path: formatIssuePath(path), kind: 'changed', before, after });
+}
+
+/** Every added, removed and changed value between two JSON documents; arrays are compared index by index. */
+export function diffInputs(before: unknown, after: unknown): InputChange[] {
+  const out: InputChange[] = [];
+  walkDiff(before, after, [], out);
+  return out;
+}
+
+/** A field of the input shown side by side: a path and its value, where arrays of plain values count as one field. */
+export interface InputField {
+  path: string;
+  before?: Json;
+  after?: Json;
+  kind: InputChangeKind | 'same';
+}
+
+function collectLeaves(value: unknown, path: PropertyKey[], out: Map<string, Json>): void {
+  const isLeafArray = Array.isArray(value) && value.every((item) => item === null || typeof item !== 'object');
+  if (isRecord(value) && Object.keys(value).length > 0) {
+    for (const [key, item] of Object.entries(value)) collectLeaves(item, [...path, key], out);
+  } else if (Array.isArray(value) && !isLeafArray && value.length > 0) {
+    value.forEach((item, i) => collectLeaves(item, [...path, i], out));
+  } else {
+    out.set(formatIssuePath(path), value as Json);
+  }
+}
+
+/** Both documents as one list of fields in document order, each marked same, changed, added or removed. */
+export function sideBySide(before: unknown, after: unknown): InputField[] {
+  const left = new Map<string, Json>();
+  const right = new Map<string, Json>();
+  collectLeaves(before, [], left);
+  collectLeaves(after, [], right);
+  const paths = [...left.keys(), ...[...right.keys()].filter((path) => !left.has(path))];
+  return paths.map((path) => {
+    if (!right.has(path)) return { path, before: left.get(path), kind: 'removed' };
+    if (!left.has(path)) return { path, after: right.get(path), kind: 'added' };
+    const a = left.get(path), b = right.get(path);
+    return { path, before: a, after: b, kind: JSON.stringify(a) === JSON.stringify(b) ? 'same' : 'changed' };
+  });
+}
+
+/** Differences at or below this (absolute, or relative to the larger value) are rounding, shown as equal. */
+export const EQUAL_ABSOLUTE = 1e-12;
+export const EQUAL_RELATIVE = 1e-9;
+/** A relative difference from this up is highlighted as major; smaller real differences as minor. */
+export const MAJOR_RELATIVE = 0.01;
+
+export type DifferenceLevel = 'same' | 'minor' | 'major' | 'one-side';
+
+/** One output number in both revisions with its absolute and relative difference. */
+export interface OutputDifference {
+  /** Finger name, or "grasp". */
+  group: string;
+  quantity: string;
+  unit: string;
+  from: number | string | null;
+  to: number | string | null;
+  /** to − from, in `unit`; null when a side is missing or not a finite number. */
+  absolute: number | null;
+  /** (to − from) / |from|; null when from is 0 or either side is missing or not finite. */
+  relative: number | null;
+  level: DifferenceLevel;
+}
+
+type PlainFinger = PlainSheetResult['fingers'][number];
+type OutputValue = number | string;
+
+interface FingerQuantity {
+  quantity: string;
+  unit: string;
+  values: (finger: PlainFinger) => [string, OutputValue][];
+}
+
+const XYZ = ['x', 'y', 'z'];
+const single = (value: OutputValue): [string, OutputValue][] => [['', value]];
+const components = (v: readonly number[]): [string, OutputValue][] => v.map((c, i) => [XYZ[i] ?? String(i), c]);
+const perJoint = (finger: PlainFinger, rates: readonly number[]): [string, OutputValue][] => rates.map((r, k) => [finger.jointNames[k] ?? `joint ${k + 1}`, r]);
+
+/** The outputs compared per finger, in the order a reader checks them. */
+const FINGER_QUANTITIES: FingerQuantity[] = [
+  { quantity: 'contact state', unit: '', values: (f) => single(f.contact.state) },
+  { quantity: 'gap', unit: 'm', values: (f) => single(f.contact.gap) },
+  { quantity: 'contact point', unit: 'm', values: (f) => components(f.contact.objectPoint) },
+  { quantity: 'contact normal', unit: '', values: (f) => components(f.contact.normal) },
+  { quantity: 'normal speed', unit: 'm/s', values: (f) => single(f.contact.normalSpeed) },
+  { quantity: 'tangential speed', unit: 'm/s', values: (f) => single(f.contact.tangentialSpeed) },
+  { quantity: 'joint rate (full)', unit: 'rad/s', values: (f) => perJoint(f, f.full.rates) },
+  { quantity: 'slip residual (full)', unit: 'm/s', values: (f) => single(f.full.residualNorm) },
+  { quantity: 'condition number', unit: '', values: (f) => single(f.full.conditionNumber) },
+  { quantity: 'manipulability', unit: '', values: (f) => single(f.full.manipulability) },
+  { quantity: 'base rate (steer-and-roll)', unit: 'rad/s', values: (f) => single(f.steer.baseRate) },
+  { quantity: 'pivot angle (steer-and-roll)', unit: 'rad', values: (f) => single(f.steer.pivotAngle) },
+  { quantity: 'roll rate (steer-and-roll)', unit: 'rad/s', values: (f) => single(f.steer.rollRate) },
+  { quantity: 'slip residual (steer-and-roll)', unit: 'm/s', values: (f) => single(f.steer.residualNorm) },
+];
+
+function differenceOf(group: string, quantity: string, unit: string, from: OutputValue | null, to: OutputValue | null): OutputDifference {
+  const row = { group, quantity, unit, from, to };
+  if (from === null || to === null) return { ...row, absolute: null, relative: null, level: 'one-side' };
+  if (typeof from === 'string' || typeof to === 'string') {
+    return { ...row, absolute: null, relative: null, level: from === to ? 'same' : 'major' };
+  }
+  if (!Number.isFinite(from) || !Number.isFinite(to)) {
+    return { ...row, absolute: null, relative: null, level: Object.is(from, to) ? 'same' : 'major' };
+  }
+  const absolute = to - from;
+  const relative = from === 0 ? (to === 0 ? 0 : null) : absolute / Math.abs(from);
+  const rounding = Math.abs(absolute) <= EQUAL_ABSOLUTE + EQUAL_RELATIVE * Math.max(Math.abs(from), Math.abs(to));
+  const level: DifferenceLevel = rounding ? 'same' : relative === null || Math.abs(relative) >= MAJOR_RELATIVE ? 'major' : 'minor';
+  return { ...row, absolute, relative, level };
+}
+
+function fingerValues(finger: PlainFinger): Map<string, { quantity: string; unit: string; value: OutputValue }> {
+  const values = new Map<string, { quantity: string; unit: string; value: OutputValue }>();
+  for (const q of FINGER_QUANTITIES) {
+    for (const [part, value] of q.values(finger)) {
+      const quantity = part ? `${q.quantity} · ${part}` : q.quantity;
+      values.set(quantity, { quantity, unit: q.unit, value });
+    }
+  }
+  return values;
+}
+
+/** The main outputs of two results side by side; fingers are matched by name. */
+export function compareOutputs(from: PlainSheetResult, to: PlainSheetResult): OutputDifference[] {
+  const rows: OutputDifference[] = [];
+  const names = [...from.fingers.map((f) => f.name), ...to.fingers.map((f) => f.name).filter((n) => !from.fingers.some((f) => f.name === n))];
+  for (const name of names) {
+    const a = from.fingers.find((f) => f.name === name);
+    const b = to.fingers.find((f) => f.name === name);
+    const left = a ? fingerValues(a) : new Map();
+    const right = b ? fingerValues(b) : new Map();
+    const keys = [...left.keys(), ...[...right.keys()].filter((key) => !left.has(key))];
+    for (const key of keys) {
+      const entry = left.get(key) ?? right.get(key)!;
+      rows.push(differenceOf(name, entry.quantity, entry.unit, left.get(key)?.value ?? null, right.get(key)?.value ?? null));
+    }
+  }
+  rows.push(differenceOf('grasp', 'grasp map rank', '', from.grasp.rank, to.grasp.rank));
+  rows.push(differenceOf('grasp', 'undrivable object directions', '', from.grasp.undrivableCount, to.grasp.undrivableCount));
+  return rows;
+}
+
+/** A warning as compared: its code, severity, where it was raised and what it says. */
+export interface ComparedWarning {
+  code: string;
+  severity: string;
+  finger: string | null;
+  joint: string | null;
+  message: string;
+}
+
+function describeWarnings(result: PlainSheetResult): Map<string, ComparedWarning> {
+  const out = new Map<string, ComparedWarning>();
+  for (const w of result.warnings) {
+    const finger = w.finger === undefined ? null : (result.fingers[w.finger]?.name ?? null);
+    const joint = w.finger === undefined || w.joint === undefined ? null : (result.fingers[w.finger]?.jointNames[w.joint] ?? null);
+    out.set(`${w.code}|${finger ?? ''}|${joint ?? ''}`, { code: w.code, severity: w.severity, finger, joint, message: w.message });
+  }
+  return out;
+}
+
+/** Warnings raised only in `to` (added), only in `from` (removed), and in both (kept, as worded in `to`). */
+export function compareWarnings(from: PlainSheetResult, to: PlainSheetResult) {
+  const before = describeWarnings(from);
+  const after = describeWarnings(to);
+  return {
+    added: [...after].filter(([key]) => !before.has(key)).map(([, w]) => w),
+    removed: [...before].filter(([key]) => !after.has(key)).map(([, w]) => w),
+    kept: [...after].filter(([key]) => before.has(key)).map(([, w]) => w),
+  };
+}
+
+export interface ComparedSide {
+  sheetId: string;
+  sheetTitle: string;
+  revision: number;
+  message: string;
+  authorName: string | null;
+  createdAt: Date;
+  /** Issues when the stored inputs no longer read as a sheet (then no outputs are compared). */
+  issues: SheetIssue[];
+}
+
+export interface Comparison {
+  from: ComparedSide;
+  to: ComparedSide;
+  inputChanges: InputChange[];
+  fields: InputField[];
+  outputs: OutputDifference[] | null;
+  warnings: ReturnType<typeof compareWarnings> | null;
+  thresholds: { equalAbsolute: number; equalRelative: number; majorRelative: number };
+}
+
+function solveStored(inputs: unknown): { result: PlainSheetResult | null; issues: SheetIssue[] } {
+  const parsed = parseSheet(inputs);
+  return parsed.ok ? { result: toPlainResult(solveSheet(parsed.doc)), issues: [] } : { result: null, issues: parsed.issues };
+}
+
+/**
+ * Compares revision `fromRevision` of `fromSheet` with revision `toRevision` of `toSheet` (the
+ * same sheet or another one the caller may read); null when either revision does not exist.
+ */
+export async function compareRevisions(
+  database: Database,
+  fromSheet: Pick<Sheet, 'id' | 'title'>,
+  fromRevision: number,
+  toSheet: Pick<Sheet, 'id' | 'title'>,
+  toRevision: number,
+): Promise<Comparison | null> {
+  const [a, b] = await Promise.all([getRevision(database, fromSheet.id, fromRevision), getRevision(database, toSheet.id, toRevision)]);
+  if (!a || !b) return null;
+  const solvedA = solveStored(a.inputs);
+  const solvedB = solveStored(b.inputs);
+  const side = (sheet: Pick<Sheet, 'id' | 'title'>, revision: NonNullable<typeof a>, issues: SheetIssue[]): ComparedSide => ({
+    sheetId: sheet.id,
+    sheetTitle: sheet.title,
+    revision: revision.number,
+    message: revision.message,
+    authorName: revision.authorName,
+    createdAt: revision.createdAt,
+    issues,
+  });
+  const both = solvedA.result && solvedB.result ? { from: solvedA.result, to: solvedB.result } : null;
+  return {
+    from: side(fromSheet, a, solvedA.issues),
+    to: side(toSheet, b, solvedB.issues),
+    inputChanges: diffInputs(a.inputs, b.inputs),
+    fields: sideBySide(a.inputs, b.inputs),
+    outputs: both ? compareOutputs(both.from, both.to) : null,
+    warnings: both ? compareWarnings(both.from, both.to) : null,
+    thresholds: { equalAbsolute: EQUAL_ABSOLUTE, equalRelative: EQUAL_RELATIVE, majorRelative: MAJOR_RELATIVE },
+  };
+}
+
+/** JSON.stringify replacer: JSON has no Infinity or NaN, so they travel as the strings "Infinity", "-Infinity", "NaN". */
+export function nonFiniteAsText(_key: string, value: unknown): unknown {
+  return typeof value === 'number' && !Number.isFinite(value) ? String(value) : value;
+}

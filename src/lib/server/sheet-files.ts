@@ -1,0 +1,132 @@
+/**
+ * Sheet files in and out: the stored document exported as a versioned JSON file or its results
+ * as CSV, and an uploaded file read back with every problem located (line and column for JSON
+ * syntax, the field path, and its line, for the document).
+ */
+import { findNodeAtLocation, parse, parseTree, printParseErrorCode, type Node, type ParseError } from 'jsonc-parser';
+import { solveSheet, toPlainResult } from '../kinematics';
+import { resultsCsv } from '../sheet/results-csv';
+import { parseSheet, SHEET_FORMAT, SHEET_VERSION, type SheetIssue } from '../sheet/schema';
+import type { SheetDocument } from '../sheet/types';
+import { summarizeSheet, type SheetSummary } from './sheets';
+
+/** Largest sheet file accepted for import (bytes of text). */
+export const MAX_SHEET_FILE_LENGTH = 2_000_000;
+
+/** A problem in an imported file: what is wrong and where (1-based line and column, and the field for document issues). */
+export interface FileIssue {
+  message: string;
+  path?: string;
+  line?: number;
+  column?: number;
+}
+
+export type ReadSheetFile =
+  | { ok: true; document: Record<string, unknown>; doc: SheetDocument; summary: SheetSummary }
+  | { ok: false; stage: 'file' | 'syntax' | 'document'; issues: FileIssue[] };
+
+/** 1-based line and column of a character offset (columns count UTF-16 code units, as editors do). */
+export function lineAndColumn(text: string, offset: number): { line: number; column: number } {
+  const before = text.slice(0, offset);
+  const line = before.split('\n').length;
+  return { line, column: offset - before.lastIndexOf('\n') };
+}
+
+const SYNTAX_MESSAGES: Record<string, string> = {
+  InvalidSymbol: 'this is not a JSON value (text needs double quotes; true, false and null are lower case; no NaN or Infinity)',
+  InvalidNumberFormat: 'badly written number',
+  PropertyNameExpected: 'expected a field name in double quotes (JSON allows no comma before a closing brace)',
+  ValueExpected: 'expected a value (JSON allows no comma before a closing bracket, and no empty file)',
+  ColonExpected: 'expected a colon after the field name',
+  CommaExpected: 'expected a comma between two entries',
+  CloseBraceExpected: 'expected } to close the object',
+  CloseBracketExpected: 'expected ] to close the list',
+  EndOfFileExpected: 'unexpected text after the end of the document',
+  InvalidCommentToken: 'JSON allows no comments',
+  UnexpectedEndOfComment: 'JSON allows no comments',
+  UnexpectedEndOfString: 'text is not closed by a double quote before the end of the line',
+  UnexpectedEndOfNumber: 'number ends too early',
+  InvalidUnicode: 'bad \\u escape in text',
+  InvalidEscapeCharacter: 'unknown escape after a backslash in text',
+  InvalidCharacter: 'control character inside text (write it escaped, e.g. \\n)',
+};
+
+function syntaxIssue(text: string, error: ParseError): FileIssue {
+  const { line, column } = lineAndColumn(text, error.offset);
+  const code = printParseErrorCode(error.error);
+  const found = error.offset < text.length ? ` (found ${JSON.stringify(text.slice(error.offset, error.offset + Math.max(1, Math.min(error.length, 12))))})` : ' (found the end of the file)';
+  return { message: `Invalid JSON at line ${line}, column ${column}: ${SYNTAX_MESSAGES[code] ?? code}${found}.`, line, column };
+}
+
+/** Field path segments of a parseSheet issue path such as "hand.fingers[0].joints[1].axis". */
+function pathSegments(path: string): (string | number)[] {
+  if (path === '(document)') return [];
+  const segments: (string | number)[] = [];
+  for (const match of path.matchAll(/([^.[\]]+)|\[(\d+)\]/g)) segments.push(match[2] !== undefined ? Number(match[2]) : match[1]);
+  return segments;
+}
+
+/** Where in the text a field is: the field's name, or the nearest enclosing value that exists. */
+function locateField(text: string, root: Node | undefined, path: string): { line: number; column: number } | undefined {
+  if (!root) return undefined;
+  const segments = pathSegments(path);
+  for (let length = segments.length; length >= 0; length--) {
+    const node = findNodeAtLocation(root, segments.slice(0, length));
+    if (node) return lineAndColumn(text, node.parent?.type === 'property' ? node.parent.offset : node.offset);
+  }
+  return undefined;
+}
+
+/** Reads the text of a sheet file: JSON syntax first, then the document itself, each problem located. */
+export function readSheetFile(raw: string): ReadSheetFile {
+  if (raw.length > MAX_SHEET_FILE_LENGTH) {
+    return { ok: false, stage: 'file', issues: [{ message: `The file is larger than ${MAX_SHEET_FILE_LENGTH / 1_000_000} MB; a sheet document is far smaller.` }] };
+  }
+  const text = raw.replace(/^\uFEFF/, '');
+  let value: unknown;
+  try {
+    value = JSON.parse(text);
+  } catch (error) {
+    const errors: ParseError[] = [];
+    parse(text, errors, { disallowComments: true, allowTrailingComma: false, allowEmptyContent: false });
+    const issue = errors.length > 0 ? syntaxIssue(text, errors[0]) : { message: `Invalid JSON: ${(error as Error).message}.` };
+    return { ok: false, stage: 'syntax', issues: [issue] };
+  }
+  if (value === null || typeof value !== 'object' || Array.isArray(value)) {
+    return { ok: false, stage: 'document', issues: [{ message: 'A sheet file holds one JSON object with "format": "slipless.sheet".', path: '(document)', line: 1, column: 1 }] };
+  }
+  const parsed = parseSheet(value);
+  if (!parsed.ok) {
+    const root = parseTree(text);
+    return {
+      ok: false,
+      stage: 'document',
+      issues: parsed.issues.map((issue: SheetIssue) => ({ message: issue.message, path: issue.path, ...locateField(text, root, issue.path) })),
+    };
+  }
+  return { ok: true, document: value as Record<string, unknown>, doc: parsed.doc, summary: summarizeSheet(parsed.doc) };
+}
+
+/** The stored document as a file: the format and version first, then everything as saved. */
+export function exportDocument(inputs: unknown): Record<string, unknown> {
+  return { format: SHEET_FORMAT, version: SHEET_VERSION, ...(inputs as Record<string, unknown>) };
+}
+
+/** The per-finger results of a stored document as CSV, or the document's issues when it no longer reads. */
+export function exportResultsCsv(inputs: unknown): { ok: true; csv: string } | { ok: false; issues: SheetIssue[] } {
+  const parsed = parseSheet(inputs);
+  if (!parsed.ok) return parsed;
+  return { ok: true, csv: `${resultsCsv(parsed.doc, toPlainResult(solveSheet(parsed.doc)))}\n` };
+}
+
+/** A plain file name for a revision's download, e.g. "peg-tilt-about-the-grip-line-r3.json". */
+export function exportFileName(title: string, revision: number, extension: 'json' | 'csv'): string {
+  const slug = title
+    .normalize('NFKD')
+    .replace(/[\u0300-\u036f]/g, '')
+    .toLowerCase()
+    .replace(/[^a-z0-9]+/g, '-')
+    .replace(/^-+|-+$/g, '')
+    .slice(0, 80);
+  return `${slug || 'sheet'}-r${revision}.${extension}`;
+}
