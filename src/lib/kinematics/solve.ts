@@ -342,11 +342,6 @@ export function solveFull(finger: Finger, contact: Contact, angularVelocity: Arr
   return out;
 }
 
-function wrapAngle(angle: number): number {
-  const turns = Math.round(angle / (2 * Math.PI));
-  return angle - turns * 2 * Math.PI;
-}
-
 /** Steer-and-roll solution for one finger after solveFull (world frame, SI). */
 export function solveSteerAndRoll(finger: Finger, contact: Contact, full: FullSolution, out: SteerAndRoll, ws: SolveWorkspace): SteerAndRoll {
   const n = finger.jointCount;
@@ -457,24 +452,28 @@ function steer(finger: Finger, contact: Contact, out: SteerAndRoll, ws: SolveWor
     const cs = mx * D[6] + my * D[7] + mz * D[8];
     const amplitude = Math.sqrt(bc * bc + cs * cs);
     if (amplitude > 0) {
-      const phase = Math.atan2(cs, bc);
+      // Roots delta = phi +- spread with cos phi = bc / amplitude, sin phi = cs / amplitude and
+      // cos spread = -a / amplitude; their cosines and sines follow from the angle-sum formulas.
+      const cosPhi = bc / amplitude, sinPhi = cs / amplitude;
       const ratio = -a / amplitude;
       const reachable = ratio >= -1 && ratio <= 1;
       // Out of reach: the closest approach is where the cosine saturates.
-      const spread = Math.acos(ratio > 1 ? 1 : ratio < -1 ? -1 : ratio);
-      const first = wrapAngle(phase + spread), second = wrapAngle(phase - spread);
-      const cosFirst = Math.cos(first), sinFirst = Math.sin(first);
-      const cosSecond = Math.cos(second), sinSecond = Math.sin(second);
-      // A root where d vanishes aligns nothing; of the usable roots take the one nearer the current angle.
+      const cosSpread = ratio > 1 ? 1 : ratio < -1 ? -1 : ratio;
+      const sinSpread = Math.sqrt(1 - cosSpread * cosSpread);
+      const cosFirst = cosPhi * cosSpread - sinPhi * sinSpread, sinFirst = sinPhi * cosSpread + cosPhi * sinSpread;
+      const cosSecond = cosPhi * cosSpread + sinPhi * sinSpread, sinSecond = sinPhi * cosSpread - cosPhi * sinSpread;
+      // A root where d vanishes aligns nothing; of the usable roots take the one nearer the current
+      // angle, i.e. the one with the larger cosine.
       let scale = 0;
       for (let i = 0; i < 9; i++) scale += D[i] * D[i];
       const firstUsable = rollDirectionSquared(D, cosFirst, sinFirst) > 1e-18 * scale;
       const secondUsable = rollDirectionSquared(D, cosSecond, sinSecond) > 1e-18 * scale;
-      if (firstUsable && (!secondUsable || Math.abs(first) <= Math.abs(second))) {
-        delta = first; cos = cosFirst; sin = sinFirst;
+      if (firstUsable && (!secondUsable || cosFirst >= cosSecond)) {
+        cos = cosFirst; sin = sinFirst;
       } else if (secondUsable) {
-        delta = second; cos = cosSecond; sin = sinSecond;
+        cos = cosSecond; sin = sinSecond;
       }
+      delta = Math.atan2(sin, cos);
       aligned = reachable && (firstUsable || secondUsable);
     }
   }
