@@ -92,7 +92,7 @@ function CreateTokenForm({ teams, onCreated }: { teams: TokenTeam[]; onCreated: 
   }
 
   return (
-    <form onSubmit={submit} noValidate className="grid gap-4 md:grid-cols-[2fr_2fr_1fr_auto] items-start" aria-label="Create an API token">
+    <form onSubmit={submit} noValidate className="grid gap-4 md:grid-cols-[2fr_3fr_1fr_auto] items-start" aria-label="Create an API token">
       <label className={labelClass}>
         Name
         <input name="name" placeholder="CI log upload" className={inputClass} aria-invalid={!!errors.name} aria-describedby="token-name-error" />

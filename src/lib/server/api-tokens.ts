@@ -1,6 +1,6 @@
 import { and, desc, eq, isNull } from 'drizzle-orm';
 import type { Database } from '../../db';
-import { apiTokens, teams, type Role } from '../../db/schema';
+import { apiTokens, teams, users, type Role } from '../../db/schema';
 import { roleWithin, type Identity } from './access';
 import { recordAudit } from './audit';
 import { generateSecretToken } from './tokens';
@@ -109,13 +109,15 @@ export async function revokeApiToken(
   address: string | null = null,
 ): Promise<TokenOutcome<ApiTokenSummary>> {
   if (identity.via !== 'session') return { ok: false, status: 403, message: SESSION_ONLY };
-  const [token] = await database.db
-    .select(summaryColumns)
+  const [found] = await database.db
+    .select({ ...summaryColumns, holderEmail: users.email })
     .from(apiTokens)
     .innerJoin(teams, eq(teams.id, apiTokens.teamId))
+    .innerJoin(users, eq(users.id, apiTokens.userId))
     .where(eq(apiTokens.id, tokenId));
-  const ownsTeam = identity.memberships.some((m) => m.teamId === token?.teamId && m.role === 'owner');
-  if (!token || (token.userId !== identity.user.id && !ownsTeam)) return { ok: false, status: 404, message: 'Not found.' };
+  const ownsTeam = identity.memberships.some((m) => m.teamId === found?.teamId && m.role === 'owner');
+  if (!found || (found.userId !== identity.user.id && !ownsTeam)) return { ok: false, status: 404, message: 'Not found.' };
+  const { holderEmail, ...token } = found;
   if (token.revokedAt) return { ok: true, value: token };
 
   const revokedAt = new Date();
@@ -125,7 +127,7 @@ export async function revokeApiToken(
     actorId: identity.user.id,
     action: 'token.revoke',
     subject: `token:${token.id}`,
-    detail: { name: token.name, holder: token.userId },
+    detail: { name: token.name, holder: holderEmail },
     address,
   });
   return { ok: true, value: { ...token, revokedAt } };

@@ -24,20 +24,27 @@ export async function recordAudit(database: Database, entries: AuditEntry | Audi
   if (rows.length) await database.write((db) => db.insert(auditEvents).values(rows));
 }
 
-/** Audit actions this product records; sheet routes record the `sheet.*` ones. */
+/** Audit actions this product records, with the words the audit page shows; unknown actions show as recorded. */
 export const AUDIT_ACTIONS = {
   'auth.sign_in': 'Signed in',
   'auth.sign_in_failed': 'Sign-in failed',
   'auth.sign_in_blocked': 'Sign-in blocked (too many attempts)',
   'auth.sign_out': 'Signed out',
   'auth.password_change': 'Changed password',
+  'auth.password_reset': 'Reset password by e-mail',
+  'team.invite': 'Invited someone',
+  'team.invite_accepted': 'Accepted an invitation',
+  'team.invite_revoked': 'Withdrew an invitation',
   'token.create': 'Created API token',
   'token.revoke': 'Revoked API token',
   'team.role_change': 'Changed a role',
   'team.member_remove': 'Removed a member',
+  'sheet.create': 'Created a sheet',
+  'sheet.import': 'Imported a sheet',
   'sheet.save': 'Saved a sheet revision',
   'sheet.fork': 'Forked a sheet',
   'sheet.delete': 'Deleted a sheet',
+  'demo.seed': 'Seeded the demo data',
 } as const satisfies Record<string, string>;
 export type KnownAuditAction = keyof typeof AUDIT_ACTIONS;
 

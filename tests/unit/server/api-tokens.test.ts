@@ -92,7 +92,7 @@ describe('createApiToken', () => {
     const events = await database.db.select().from(auditEvents).where(eq(auditEvents.subject, `token:${summary.id}`));
     expect(events.map((e) => e.action).sort()).toEqual(['token.create', 'token.revoke']);
     expect(events.every((e) => e.teamId === teamId && e.actorId === editor.user.id)).toBe(true);
-    expect(events.find((e) => e.action === 'token.revoke')?.address).toBe('10.0.0.7');
+    expect(events.find((e) => e.action === 'token.revoke')).toMatchObject({ address: '10.0.0.7', detail: { name: 'audited', holder: 'editor@fenwick.example' } });
   });
 });
 

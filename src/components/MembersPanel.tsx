@@ -1,0 +1,284 @@
+import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { useState, type FormEvent } from 'react';
+import { fieldErrors, formatWhen, requestJson, serverErrors } from '../lib/client/api';
+import { createInvitationSchema, ROLE_SUMMARIES } from '../lib/validation/invitations';
+import { ROLE_CHOICES } from '../lib/validation/team';
+import { FieldError, FormError, dangerButton, inputClass, labelClass, primaryButton, secondaryButton } from './form-parts';
+import QueryRoot from './QueryRoot';
+
+type Role = (typeof ROLE_CHOICES)[number];
+
+interface MemberRow {
+  userId: string;
+  name: string | null;
+  email: string | null;
+  role: Role;
+  joinedAt: string;
+}
+
+interface InvitationRow {
+  id: string;
+  email: string;
+  role: Role;
+  expiresAt: string;
+  createdAt: string;
+  invitedBy: { name: string | null; email: string | null } | null;
+}
+
+interface Props {
+  teamId: string;
+  currentUserId: string;
+  isOwner: boolean;
+}
+
+const th = 'py-2 pr-4 text-left';
+const td = 'py-2 pr-4 align-top';
+
+function MemberActions({ teamId, member, isSelf }: { teamId: string; member: MemberRow; isSelf: boolean }) {
+  const queryClient = useQueryClient();
+  const [confirming, setConfirming] = useState(false);
+  const url = `/api/teams/${encodeURIComponent(teamId)}/members/${encodeURIComponent(member.userId)}`;
+  const refresh = () => queryClient.invalidateQueries({ queryKey: ['members', teamId] });
+  const changeRole = useMutation({ mutationFn: (role: Role) => requestJson(url, { method: 'PATCH', body: { role } }), onSuccess: refresh });
+  const remove = useMutation({ mutationFn: () => requestJson(url, { method: 'DELETE' }), onSuccess: refresh, onSettled: () => setConfirming(false) });
+  const error = changeRole.error ?? remove.error;
+  return (
+    <>
+      <td className={td}>
+        <select
+          aria-label={`Role of ${member.email}`}
+          value={changeRole.isPending ? changeRole.variables : member.role}
+          disabled={changeRole.isPending}
+          onChange={(event) => {
+            const role = event.target.value as Role;
+            if (isSelf && member.role === 'owner' && role !== 'owner' && !window.confirm('Give up your owner rights in this team?')) return;
+            changeRole.mutate(role);
+          }}
+          className="border-2 border-ink bg-paper px-2 py-1 font-mono text-xs uppercase"
+        >
+          {ROLE_CHOICES.map((role) => (
+            <option key={role} value={role}>
+              {role}
+            </option>
+          ))}
+        </select>
+        {error && (
+          <span className="mt-1 block text-xs text-sienna max-w-xs" role="alert">
+            {error.message}
+          </span>
+        )}
+      </td>
+      <td className="py-2 text-right whitespace-nowrap align-top">
+        {confirming ? (
+          <span className="inline-flex gap-2">
+            <button type="button" className={dangerButton} disabled={remove.isPending} onClick={() => remove.mutate()}>
+              {isSelf ? 'Leave now' : 'Remove now'}
+            </button>
+            <button type="button" className={secondaryButton} onClick={() => setConfirming(false)}>
+              Keep
+            </button>
+          </span>
+        ) : (
+          <button type="button" className={dangerButton} onClick={() => setConfirming(true)}>
+            {isSelf ? 'Leave' : 'Remove'}
+          </button>
+        )}
+      </td>
+    </>
+  );
+}
+
+function MemberTable({ teamId, currentUserId, isOwner }: Props) {
+  const members = useQuery({
+    queryKey: ['members', teamId],
+    queryFn: () => requestJson<{ members: MemberRow[] }>(`/api/teams/${encodeURIComponent(teamId)}/members`).then((r) => r.members),
+  });
+  if (members.isPending) return <p className="text-sm text-graphite">Loading members…</p>;
+  if (members.isError) return <FormError message={members.error.message} />;
+  return (
+    <div className="overflow-x-auto">
+      <table className="w-full text-sm border-collapse" data-testid="member-list">
+        <thead>
+          <tr className="border-b-2 border-ink">
+            <th className={th}>Name</th>
+            <th className={th}>E-mail</th>
+            <th className={th}>Joined</th>
+            <th className={th}>Role</th>
+            {isOwner && <th className="py-2" />}
+          </tr>
+        </thead>
+        <tbody>
+          {members.data.map((member) => (
+            <tr key={member.userId} className="border-b border-rule">
+              <td className={td + ' font-semibold'}>
+                {member.name ?? '—'}
+                {member.userId === currentUserId && <span className="ml-2 text-xs font-normal text-graphite">(you)</span>}
+              </td>
+              <td className={td + ' num text-xs'}>{member.email}</td>
+              <td className={td + ' num text-xs'}>{formatWhen(member.joinedAt)}</td>
+              {isOwner ? (
+                <MemberActions teamId={teamId} member={member} isSelf={member.userId === currentUserId} />
+              ) : (
+                <td className={td + ' num text-xs uppercase'}>{member.role}</td>
+              )}
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
+  );
+}
+
+function InviteForm({ teamId }: { teamId: string }) {
+  const queryClient = useQueryClient();
+  const [errors, setErrors] = useState<Record<string, string>>({});
+  const [sentTo, setSentTo] = useState<string | null>(null);
+  const [role, setRole] = useState<Role>('viewer');
+  const invite = useMutation({
+    mutationFn: (input: { email: string; role: Role }) =>
+      requestJson(`/api/teams/${encodeURIComponent(teamId)}/invitations`, { method: 'POST', body: input }),
+    onError: (error) => setErrors(serverErrors(error, ['email', 'role'])),
+  });
+
+  function submit(event: FormEvent<HTMLFormElement>) {
+    event.preventDefault();
+    const form = event.currentTarget;
+    setSentTo(null);
+    const parsed = createInvitationSchema.safeParse(Object.fromEntries(new FormData(form)));
+    if (!parsed.success) return setErrors(fieldErrors(parsed.error.issues));
+    setErrors({});
+    invite.mutate(parsed.data, {
+      onSuccess: () => {
+        setSentTo(parsed.data.email);
+        form.reset();
+        setRole('viewer');
+        void queryClient.invalidateQueries({ queryKey: ['invitations', teamId] });
+      },
+    });
+  }
+
+  return (
+    <form onSubmit={submit} noValidate className="space-y-3" aria-label="Invite someone by e-mail">
+      <div className="grid gap-4 md:grid-cols-[3fr_1fr_auto] items-start">
+        <label className={labelClass}>
+          E-mail
+          <input name="email" type="email" placeholder="name@example.com" className={inputClass} aria-invalid={!!errors.email} aria-describedby="invite-email-error" />
+          <FieldError id="invite-email-error" message={errors.email} />
+        </label>
+        <label className={labelClass}>
+          Role
+          <select name="role" value={role} onChange={(e) => setRole(e.target.value as Role)} className={inputClass} aria-invalid={!!errors.role}>
+            {ROLE_CHOICES.map((choice) => (
+              <option key={choice} value={choice}>
+                {choice}
+              </option>
+            ))}
+          </select>
+          <FieldError id="invite-role-error" message={errors.role} />
+        </label>
+        <div className="md:pt-6">
+          <button disabled={invite.isPending} className={primaryButton}>
+            {invite.isPending ? 'Sending…' : 'Send invitation'}
+          </button>
+        </div>
+      </div>
+      <p className="text-xs text-graphite">
+        A <span className="num uppercase">{role}</span> may: {ROLE_SUMMARIES[role]}.
+      </p>
+      <FormError message={errors.form} />
+      {sentTo && (
+        <p className="text-sm text-verdigris-deep" role="status">
+          Invitation sent to {sentTo}.
+        </p>
+      )}
+    </form>
+  );
+}
+
+function PendingInvitations({ teamId }: { teamId: string }) {
+  const queryClient = useQueryClient();
+  const invitations = useQuery({
+    queryKey: ['invitations', teamId],
+    queryFn: () => requestJson<{ invitations: InvitationRow[] }>(`/api/teams/${encodeURIComponent(teamId)}/invitations`).then((r) => r.invitations),
+  });
+  const revoke = useMutation({
+    mutationFn: (id: string) => requestJson(`/api/teams/${encodeURIComponent(teamId)}/invitations/${encodeURIComponent(id)}`, { method: 'DELETE' }),
+    onSettled: () => queryClient.invalidateQueries({ queryKey: ['invitations', teamId] }),
+  });
+  if (invitations.isPending) return <p className="text-sm text-graphite">Loading invitations…</p>;
+  if (invitations.isError) return <FormError message={invitations.error.message} />;
+  if (!invitations.data.length) return <p className="text-sm text-graphite">No invitations are waiting for an answer.</p>;
+  return (
+    <div className="overflow-x-auto">
+      {revoke.isError && <FormError message={revoke.error.message} />}
+      <table className="w-full text-sm border-collapse" data-testid="invitation-list">
+        <thead>
+          <tr className="border-b-2 border-ink">
+            <th className={th}>E-mail</th>
+            <th className={th}>Role</th>
+            <th className={th}>Invited by</th>
+            <th className={th}>Expires</th>
+            <th className="py-2" />
+          </tr>
+        </thead>
+        <tbody>
+          {invitations.data.map((invitation) => (
+            <tr key={invitation.id} className="border-b border-rule">
+              <td className={td + ' num text-xs'}>{invitation.email}</td>
+              <td className={td + ' num text-xs uppercase'}>{invitation.role}</td>
+              <td className={td}>{invitation.invitedBy?.name ?? invitation.invitedBy?.email ?? '—'}</td>
+              <td className={td + ' num text-xs'}>{formatWhen(invitation.expiresAt)}</td>
+              <td className="py-2 text-right">
+                <button type="button" className={dangerButton} disabled={revoke.isPending} onClick={() => revoke.mutate(invitation.id)}>
+                  Withdraw
+                </button>
+              </td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
+  );
+}
+
+function Members(props: Props) {
+  return (
+    <div className="space-y-10">
+      <section aria-labelledby="members-heading" className="space-y-3">
+        <h2 id="members-heading" className="text-lg font-semibold">
+          Members
+        </h2>
+        {props.isOwner && (
+          <p className="text-sm text-graphite">
+            Changing a role takes effect on the member's next request; their API tokens above the new role stop working.
+          </p>
+        )}
+        <MemberTable {...props} />
+      </section>
+      {props.isOwner && (
+        <>
+          <section aria-labelledby="invite-heading" className="space-y-3 border-t border-rule pt-6">
+            <h2 id="invite-heading" className="text-lg font-semibold">
+              Invite someone
+            </h2>
+            <InviteForm teamId={props.teamId} />
+          </section>
+          <section aria-labelledby="pending-heading" className="space-y-3 border-t border-rule pt-6">
+            <h2 id="pending-heading" className="text-lg font-semibold">
+              Pending invitations
+            </h2>
+            <PendingInvitations teamId={props.teamId} />
+          </section>
+        </>
+      )}
+    </div>
+  );
+}
+
+export default function MembersPanel(props: Props) {
+  return (
+    <QueryRoot>
+      <Members {...props} />
+    </QueryRoot>
+  );
+}
