@@ -21,8 +21,8 @@
  *     setJointAngles(scene, i, angles);        // or scene.fingers[i].angles
  *     solveScene(scene, out);                  // fills out in place and returns it
  *
- * scene.settings is a copy of doc.solver and may be changed between solves. A SheetResult holds,
- * per finger (FingerResult): the joint angles used, current joint axes and points, roller centre
+ * scene.settings is a copy of doc.solver and may be changed between solves. A SheetResult holds
+ * the object state used (result.object), then per finger (FingerResult): the joint angles used, current joint axes and points, roller centre
  * and axis, the contact (Contact: object point x, normal n, gap and state, roller point y with
  * latitude/longitude on the roller, object velocity at x split into normal and tangential parts,
  * distances to the roll and pivot axes), the full damped least-squares solution (FullSolution:
