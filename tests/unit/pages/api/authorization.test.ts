@@ -2,7 +2,7 @@ import { readdirSync, readFileSync } from 'node:fs';
 import { join, sep } from 'node:path';
 import { eq, like } from 'drizzle-orm';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { sheets, users } from '../../../../src/db/schema';
+import { invitations, sheets, users } from '../../../../src/db/schema';
 import type { Identity } from '../../../../src/lib/server/access';
 import { createApiToken, revokeApiToken } from '../../../../src/lib/server/api-tokens';
 import { getDatabase } from '../../../../src/lib/server/database';
@@ -52,7 +52,9 @@ interface Row {
   expect: Expected;
 }
 
-const ALL_OK: Expected = { none: 200, viewer: 200, reviewer: 200, editor: 200, owner: 200, token: 200, revoked: 401, other: 200 };
+/** Open to anyone; only a bad bearer token is turned away (by the middleware). */
+const PUBLIC = (status: number): Expected => ({ none: status, viewer: status, reviewer: status, editor: status, owner: status, token: status, revoked: 401, other: status });
+const ALL_OK = PUBLIC(200);
 const SIGNED_IN_OK: Expected = { ...ALL_OK, none: 401 };
 /** Account and token management: sessions only, never a token. */
 const SESSION_ONLY = (ok: number, other = ok): Expected => ({ none: 401, viewer: ok, reviewer: ok, editor: ok, owner: ok, token: 403, revoked: 401, other });
@@ -183,6 +185,63 @@ const ROWS: Row[] = [
     variant: 'switch to the demo team',
     prepare: (fx) => ({ body: { teamId: fx.teamId } }),
     expect: { ...SESSION_ONLY(200), other: 404 },
+  },
+  {
+    route: 'teams/[teamId]/invitations.ts',
+    method: 'GET',
+    prepare: (fx) => ({ params: { teamId: fx.teamId } }),
+    expect: OWNER_ONLY(200),
+  },
+  {
+    route: 'teams/[teamId]/invitations.ts',
+    method: 'POST',
+    variant: 'someone already in the team (refused before any mail)',
+    prepare: (fx) => ({ params: { teamId: fx.teamId }, body: { email: 'viewer@fenwick.example', role: 'editor' } }),
+    expect: OWNER_ONLY(409),
+  },
+  {
+    route: 'teams/[teamId]/invitations.ts',
+    method: 'POST',
+    variant: 'not an e-mail address',
+    prepare: (fx) => ({ params: { teamId: fx.teamId }, body: { email: 'line4-lead', role: 'editor' } }),
+    expect: OWNER_ONLY(400),
+  },
+  {
+    route: 'teams/[teamId]/invitations/[invitationId].ts',
+    method: 'DELETE',
+    variant: 'a pending invitation',
+    prepare: async (fx) => {
+      const database = await getDatabase();
+      const [row] = await database.write((db) =>
+        db
+          .insert(invitations)
+          .values({ teamId: fx.teamId, email: 'table-invitee@slipless.example', role: 'viewer', tokenHash: crypto.randomUUID(), expiresAt: new Date(Date.now() + 3_600_000) })
+          .returning({ id: invitations.id }),
+      );
+      return { params: { teamId: fx.teamId, invitationId: row.id } };
+    },
+    expect: OWNER_ONLY(204),
+  },
+  {
+    route: 'invitations/accept.ts',
+    method: 'POST',
+    variant: 'a link that was never issued (the token is the proof, so anyone may try)',
+    prepare: () => ({ body: { token: 'inv_never-issued' } }),
+    expect: PUBLIC(404),
+  },
+  {
+    route: 'account/password-reset.ts',
+    method: 'POST',
+    variant: 'the same answer for every address',
+    prepare: () => ({ body: { email: 'nobody@slipless.example' } }),
+    expect: PUBLIC(202),
+  },
+  {
+    route: 'account/password-reset/confirm.ts',
+    method: 'POST',
+    variant: 'a link that was never issued',
+    prepare: () => ({ body: { token: 'never-issued', password: 'a-long-new-password' } }),
+    expect: PUBLIC(404),
   },
   {
     route: 'sheets/index.ts',
