@@ -1,0 +1,49 @@
+import katex from 'katex';
+import { useMemo, useState } from 'react';
+import type { DerivationEntry } from '../../lib/kinematics';
+import { selectInput } from './sheet-styles';
+
+function renderLatex(latex: string): string {
+  return katex.renderToString(latex, { displayMode: true, throwOnError: false, output: 'html' });
+}
+
+/** Pick a contact (or the grasp) and an output; see each step with the numbers put in. */
+export default function DerivationSection({ entries, fingerNames }: { entries: DerivationEntry[]; fingerNames: string[] }) {
+  const [scope, setScope] = useState('finger.0');
+  const [output, setOutput] = useState('all');
+  const inScope = useMemo(() => entries.filter((e) => e.id.startsWith(`${scope}.`)), [entries, scope]);
+  const shown = output === 'all' ? inScope : inScope.filter((e) => e.id === output);
+  const rendered = useMemo(() => shown.map((e) => ({ ...e, html: renderLatex(e.latex) })), [shown]);
+  return (
+    <div className="space-y-3">
+      <div className="flex flex-wrap gap-3 text-[11px] uppercase tracking-wide text-graphite">
+        <label>
+          contact
+          <select className={`${selectInput} block`} value={scope} onChange={(event) => { setScope(event.target.value); setOutput('all'); }}>
+            {fingerNames.map((name, i) => (
+              <option key={i} value={`finger.${i}`}>{`${i + 1}: ${name}`}</option>
+            ))}
+            <option value="grasp">grasp</option>
+          </select>
+        </label>
+        <label>
+          output
+          <select className={`${selectInput} block`} value={output} onChange={(event) => setOutput(event.target.value)}>
+            <option value="all">every step</option>
+            {inScope.map((e) => (
+              <option key={e.id} value={e.id}>{e.label}</option>
+            ))}
+          </select>
+        </label>
+      </div>
+      <ol className="space-y-2">
+        {rendered.map((e) => (
+          <li key={e.id} className="border-l-2 border-verdigris pl-3" data-derivation={e.id}>
+            <p className="text-xs font-semibold text-graphite">{e.label} <span className="font-normal">[{e.unit}]</span></p>
+            <div className="overflow-x-auto" dangerouslySetInnerHTML={{ __html: e.html }} />
+          </li>
+        ))}
+      </ol>
+    </div>
+  );
+}

@@ -1,0 +1,39 @@
+import type { ReactNode } from 'react';
+import type { MarginWarning } from './editor-context';
+import { SEVERITY_CLASS, sectionHeading } from './sheet-styles';
+
+/** One section of the pad with its margin: the warnings this section causes sit beside it. */
+export default function PadSection({
+  id,
+  number,
+  title,
+  warnings = [],
+  children,
+}: {
+  id: string;
+  number: number;
+  title: string;
+  warnings?: MarginWarning[];
+  children: ReactNode;
+}) {
+  return (
+    <section id={id} aria-labelledby={`${id}-title`} className="grid gap-x-5 border-b border-rule py-5 lg:grid-cols-[minmax(0,1fr)_13rem]">
+      <div className="min-w-0">
+        <h2 id={`${id}-title`} className={`${sectionHeading} mb-3 flex items-baseline gap-3`}>
+          <span className="num text-graphite">{number}.</span>
+          {title}
+        </h2>
+        {children}
+      </div>
+      <aside aria-label={`Margin notes: ${title}`} className="mt-3 space-y-2 lg:mt-8" data-margin={id}>
+        {warnings.map((w, index) => (
+          <p key={`${w.code}-${index}`} className={`border-l-4 bg-paper-deep/60 px-2 py-1 text-xs ${SEVERITY_CLASS[w.severity]}`} data-warning={w.code}>
+            <span className="block font-semibold uppercase tracking-wide text-[10px]">{w.severity}</span>
+            <span className="block font-semibold text-ink">{w.title}</span>
+            <span className="block text-graphite">{w.text}</span>
+          </p>
+        ))}
+      </aside>
+    </section>
+  );
+}

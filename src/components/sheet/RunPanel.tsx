@@ -1,0 +1,104 @@
+import { useMemo, useRef } from 'react';
+import LineChart, { type LineSeries, type ShadedStretch } from '../charts/LineChart';
+import WarningStrip from '../charts/WarningStrip';
+import { primaryButton } from '../form-parts';
+import type { SheetDocument } from '../../lib/sheet/types';
+import { SEVERITY_COLOURS } from '../../lib/view/palette';
+import { describeStopReason, severityRuns, type JointSeries, type RunSeries } from '../../lib/view/series';
+import JobProgress from './JobProgress';
+import { useWorkerJob } from './useWorkerJob';
+
+const DEGREES = 180 / Math.PI;
+const SEVERITY_NAMES = ['none', 'note', 'caution', 'singular'] as const;
+
+function scaled(values: Float64Array, factor: number): Float64Array {
+  return values.map((v) => v * factor);
+}
+
+function jointLines(columns: JointSeries[], factor: number): LineSeries[] {
+  return columns.map((c) => ({ label: c.joint, values: factor === 1 ? c.values : scaled(c.values, factor) }));
+}
+
+/** Chart inputs of a finished run, built once per run. */
+function runCharts(series: RunSeries) {
+  const shaded: ShadedStretch[] = severityRuns(series.worstSeverity).map((r) => ({
+    start: r.start,
+    end: r.end,
+    colour: SEVERITY_COLOURS[SEVERITY_NAMES[r.level] as 'note'],
+  }));
+  const metric = (key: string) => series.orientationError.find((m) => m.key === key)!;
+  return {
+    shaded,
+    angles: jointLines(series.jointAngles, DEGREES),
+    rates: jointLines(series.jointRates, 1),
+    orientationAngles: [
+      { label: `${metric('phi6').name} Φ6`, values: scaled(metric('phi6').values, DEGREES) },
+      { label: `${metric('phi3').name} Φ3`, values: scaled(metric('phi3').values, DEGREES) },
+    ],
+    orientationRatios: ['phi2', 'phi4', 'phi5'].map((key, i) => ({ label: `${metric(key).name} Φ${[2, 4, 5][i]}`, values: metric(key).values })),
+    position: [{ label: 'Position error', values: scaled(series.positionError, 1000) }],
+  };
+}
+
+function RunResults({ series, stale }: { series: RunSeries; stale: boolean }) {
+  const charts = useMemo(() => runCharts(series), [series]);
+  const x = series.ticks;
+  const common = { x, xLabel: 'tick', shaded: charts.shaded, syncKey: 'sheet-run' };
+  return (
+    <div className="space-y-4" data-testid="run-results">
+      <div className="border-l-4 border-verdigris pl-3 text-sm" role="status">
+        <p data-testid="run-stop-reason">{describeStopReason(series.stopReason)}</p>
+        <p className="text-xs text-graphite">
+          <span className="num" data-testid="run-tick-count">{series.tickCount.toLocaleString('en')}</span> ticks of{' '}
+          <span className="num">{series.settings.dt * 1000} ms</span> computed in{' '}
+          <span className="num" data-testid="run-elapsed" data-ms={series.elapsedMs.toFixed(2)}>
+            {series.elapsedMs.toFixed(0)} ms
+          </span>
+          {stale && <span className="ml-2 text-ochre">The sheet has changed since this run; run again to update.</span>}
+        </p>
+      </div>
+      <WarningStrip count={series.tickCount} worst={series.worstSeverity} warnings={series.warnings} axisLabel="ticks" />
+      <div className="grid gap-4 xl:grid-cols-2">
+        <LineChart title="Joint angles" yLabel="deg" series={charts.angles} {...common} />
+        <LineChart title="Joint rates" yLabel="rad/s" series={charts.rates} {...common} />
+        <LineChart title="Orientation error (angles)" yLabel="deg" series={charts.orientationAngles} {...common} />
+        <LineChart title="Orientation error (dimensionless metrics)" yLabel="1" series={charts.orientationRatios} {...common} />
+        <LineChart title="Position error" yLabel="mm" series={charts.position} {...common} />
+      </div>
+    </div>
+  );
+}
+
+/** Runs the sheet's closed loop toward motion.target in a worker and plots what happened tick by tick. */
+export default function RunPanel({ document }: { document: SheetDocument }) {
+  const { state, start, cancel } = useWorkerJob('run-done');
+  const ranWith = useRef<SheetDocument | null>(null);
+  const run = document.motion.run;
+
+  function startRun() {
+    ranWith.current = document;
+    start({ kind: 'run', document });
+  }
+
+  return (
+    <section className="space-y-4" aria-label="Run toward the target pose" data-testid="run-panel">
+      <div className="flex flex-wrap items-end gap-4">
+        <div className="text-sm">
+          <h3 className="font-semibold">Run toward the target pose</h3>
+          <p className="text-xs text-graphite">
+            gain <span className="num">{run.gain} 1/s</span> · tick <span className="num">{run.dt * 1000} ms</span> · at most{' '}
+            <span className="num">{run.maxTicks.toLocaleString('en')}</span> ticks · tolerances{' '}
+            <span className="num">{run.positionTolerance * 1000} mm</span>, <span className="num">{(run.angleTolerance * DEGREES).toPrecision(3)}°</span>
+            {run.stopOnSingular && ' · stops on singular warnings'}
+            {run.noise && ' · with sensor noise'}
+          </p>
+        </div>
+        <button type="button" className={`${primaryButton} ml-auto`} onClick={startRun} disabled={state.status === 'running'}>
+          {state.status === 'done' ? 'Run again' : 'Run'}
+        </button>
+      </div>
+      <JobProgress state={state} unit="ticks" onCancel={cancel} />
+      {state.status === 'done' && <RunResults series={state.result} stale={ranWith.current !== document} />}
+    </section>
+  );
+}

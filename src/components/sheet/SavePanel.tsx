@@ -1,0 +1,206 @@
+import { useMutation, useQuery } from '@tanstack/react-query';
+import { useState } from 'react';
+import { describeValue, diffDocuments, pathText, rebaseDocument, type DocumentChange } from '../../lib/sheet/document-path';
+import { button, fieldInput, primaryButton } from './sheet-styles';
+
+type RawDocument = Record<string, unknown>;
+
+export class RequestError extends Error {
+  constructor(
+    readonly status: number,
+    message: string,
+    readonly body: { error?: { message?: string; path?: string; latestRevision?: number; issues?: { path: string; message: string }[] } },
+  ) {
+    super(message);
+  }
+}
+
+/** JSON request to the API; throws RequestError with the located message on failure. */
+export async function requestJson<T>(url: string, init?: { method: string; body: unknown }): Promise<T> {
+  const response = await fetch(url, {
+    method: init?.method ?? 'GET',
+    headers: init ? { 'content-type': 'application/json', accept: 'application/json' } : { accept: 'application/json' },
+    body: init ? JSON.stringify(init.body) : undefined,
+    credentials: 'same-origin',
+  });
+  const body = await response.json().catch(() => ({}));
+  if (!response.ok) throw new RequestError(response.status, body?.error?.message ?? `The server answered ${response.status}.`, body);
+  return body as T;
+}
+
+interface RevisionReply {
+  revision: { number: number; inputs: RawDocument; message: string; authorName: string | null; createdAt: string | number };
+}
+
+function ChangeList({ changes, testId }: { changes: DocumentChange[]; testId: string }) {
+  if (changes.length === 0) return <p className="text-xs text-graphite">no changes</p>;
+  return (
+    <ul className="max-h-48 overflow-auto text-xs" data-changes={testId}>
+      {changes.map((c) => (
+        <li key={pathText(c.path)} className="border-b border-rule/60 py-0.5">
+          <span className="font-mono">{pathText(c.path)}</span>: <span className="num text-graphite line-through">{describeValue(c.before)}</span> →{' '}
+          <span className="num">{describeValue(c.after)}</span>
+        </li>
+      ))}
+    </ul>
+  );
+}
+
+export interface SavePanelProps {
+  sheetId: string;
+  baseRevision: number;
+  baseDocument: RawDocument;
+  document: RawDocument;
+  dirty: boolean;
+  readsCleanly: boolean;
+  onSaved: (revision: number, saved: RawDocument) => void;
+  onReplaceDocument: (base: RawDocument, baseRevision: number, document: RawDocument) => void;
+}
+
+/** Save with a message; on a stale base, show what the other revision changed and offer re-apply or fork. Nothing is dropped. */
+export default function SavePanel(props: SavePanelProps) {
+  const { sheetId, baseRevision, baseDocument, document } = props;
+  const [message, setMessage] = useState('');
+  const [conflict, setConflict] = useState<number | null>(null);
+  const [notice, setNotice] = useState<string | null>(null);
+
+  const save = useMutation({
+    mutationFn: (input: { base: number; doc: RawDocument }) =>
+      requestJson<{ revision: number }>(`/api/sheets/${sheetId}/revisions`, {
+        method: 'POST',
+        body: {
+          baseRevision: input.base,
+          document: input.doc,
+          message: message.trim() || 'Saved',
+          ...(typeof input.doc.title === 'string' && input.doc.title.trim() ? { title: input.doc.title.trim().slice(0, 160) } : {}),
+        },
+      }),
+    onSuccess: (reply, input) => {
+      setConflict(null);
+      setMessage('');
+      setNotice(`Saved as revision ${reply.revision}.`);
+      props.onSaved(reply.revision, input.doc);
+    },
+    onError: (error) => {
+      if (error instanceof RequestError && error.status === 409 && error.body.error?.latestRevision) setConflict(error.body.error.latestRevision);
+    },
+  });
+
+  const latest = useQuery({
+    queryKey: ['sheet-revision', sheetId, conflict],
+    enabled: conflict !== null,
+    queryFn: () => requestJson<RevisionReply>(`/api/sheets/${sheetId}?revision=${conflict}`),
+  });
+
+  const fork = useMutation({
+    mutationFn: async () => {
+      const created = await requestJson<{ sheetId: string }>(`/api/sheets/${sheetId}/fork`, { method: 'POST', body: { revision: baseRevision } });
+      if (props.dirty) {
+        await requestJson(`/api/sheets/${created.sheetId}/revisions`, {
+          method: 'POST',
+          body: { baseRevision: 1, document, message: message.trim() || `My changes on top of revision ${baseRevision}` },
+        });
+      }
+      return created.sheetId;
+    },
+    onSuccess: (forkId) => {
+      props.onSaved(baseRevision, baseDocument);
+      window.location.assign(`/sheets/${forkId}`);
+    },
+  });
+
+  const theirs = latest.data?.revision;
+  const theirChanges = theirs ? diffDocuments(baseDocument, theirs.inputs) : [];
+  const myChanges = diffDocuments(baseDocument, document);
+
+  function reapply() {
+    if (!theirs || conflict === null) return;
+    const rebased = rebaseDocument(baseDocument, document, theirs.inputs);
+    props.onReplaceDocument(theirs.inputs, conflict, rebased.document);
+    if (rebased.overlapping.length > 0) {
+      setNotice(`Re-applied on top of revision ${conflict}; ${rebased.overlapping.length} field(s) were changed on both sides and now hold your value. Check them, then save.`);
+      setConflict(null);
+      return;
+    }
+    save.mutate({ base: conflict, doc: rebased.document });
+  }
+
+  const saveError = save.error && !(save.error instanceof RequestError && save.error.status === 409) ? save.error : null;
+  const saveIssues = saveError instanceof RequestError ? saveError.body.error?.issues ?? [] : [];
+
+  return (
+    <div className="space-y-3">
+      <form
+        className="flex flex-wrap items-end gap-3"
+        onSubmit={(event) => {
+          event.preventDefault();
+          setNotice(null);
+          save.mutate({ base: baseRevision, doc: document });
+        }}
+      >
+        <label className="min-w-64 flex-1 text-[11px] uppercase tracking-wide text-graphite">
+          revision message
+          <input className={`${fieldInput} font-sans`} value={message} maxLength={500} placeholder="What changed and why" onChange={(event) => setMessage(event.target.value)} />
+        </label>
+        <button type="submit" className={primaryButton} disabled={save.isPending || !props.dirty} title={props.readsCleanly ? undefined : 'The sheet has errors; saving keeps them out of the stored revision only if fixed'}>
+          {save.isPending ? 'Saving…' : 'Save revision'}
+        </button>
+        <button type="button" className={button} disabled={fork.isPending} onClick={() => fork.mutate()}>
+          {fork.isPending ? 'Forking…' : props.dirty ? 'Fork with my changes' : 'Fork'}
+        </button>
+        <span className="text-xs text-graphite" role="status" data-save-status>
+          {props.dirty ? 'Unsaved changes (kept in this browser until saved)' : 'All changes saved'}
+          {notice ? ` · ${notice}` : ''}
+        </span>
+      </form>
+      {saveError && (
+        <div role="alert" className="border-l-4 border-sienna pl-3 text-sm text-sienna">
+          {saveError.message}
+          {saveIssues.length > 1 && (
+            <ul className="text-xs">
+              {saveIssues.slice(0, 8).map((issue) => (
+                <li key={issue.path + issue.message}>
+                  <span className="font-mono">{issue.path}</span>: {issue.message}
+                </li>
+              ))}
+            </ul>
+          )}
+        </div>
+      )}
+      {fork.error && <p role="alert" className="text-sm text-sienna">{fork.error.message}</p>}
+      {conflict !== null && (
+        <section aria-label="Save conflict" className="border-2 border-ochre bg-paper p-4" data-conflict>
+          <h3 className="font-semibold">Someone saved revision {conflict} after revision {baseRevision}, which you started from.</h3>
+          <p className="text-sm text-graphite">Nothing was overwritten and your changes are still here. Compare the two, then choose.</p>
+          {latest.isPending && <p className="text-sm">Loading revision {conflict}…</p>}
+          {latest.error && <p className="text-sm text-sienna">{latest.error.message}</p>}
+          {theirs && (
+            <div className="mt-3 grid gap-4 md:grid-cols-2">
+              <div>
+                <h4 className="text-xs font-semibold uppercase tracking-wide">
+                  Their revision {conflict}: {theirs.message || 'no message'} ({theirs.authorName ?? 'someone'})
+                </h4>
+                <ChangeList changes={theirChanges} testId="theirs" />
+              </div>
+              <div>
+                <h4 className="text-xs font-semibold uppercase tracking-wide">Your unsaved changes</h4>
+                <ChangeList changes={myChanges} testId="mine" />
+              </div>
+            </div>
+          )}
+          <div className="mt-3 flex flex-wrap gap-3">
+            <button type="button" className={primaryButton} disabled={!theirs || save.isPending} onClick={reapply}>
+              Re-apply mine on top of revision {conflict} and save
+            </button>
+            <button type="button" className={button} disabled={fork.isPending} onClick={() => fork.mutate()}>
+              Save mine as a fork
+            </button>
+            <button type="button" className={button} onClick={() => setConflict(null)}>
+              Keep editing
+            </button>
+          </div>
+        </section>
+      )}
+    </div>
+  );
+}

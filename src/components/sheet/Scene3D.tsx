@@ -1,0 +1,157 @@
+import { useEffect, useMemo } from 'react';
+import { Canvas, useThree } from '@react-three/fiber';
+import * as THREE from 'three';
+import { OrbitControls } from 'three/examples/jsm/controls/OrbitControls.js';
+import type { ObjectShape, Vec3Tuple } from '../../lib/sheet/types';
+import { PALETTE, SCENE_COLOURS } from '../../lib/view/palette';
+import type { SceneModel, ViewRoller } from '../../lib/view/scene-model';
+
+const Z_UP = new THREE.Vector3(0, 0, 1);
+/** Where the camera starts, seen from the object: in front, to the right and above. */
+const VIEW_DIRECTION = new THREE.Vector3(0.9, -1.6, 0.9).normalize();
+
+const vector = (v: Vec3Tuple) => new THREE.Vector3(v[0], v[1], v[2]);
+
+/** Geometry of the object in its own frame; three's cylinders and capsules run along y, ours along z. */
+function objectGeometry(shape: ObjectShape): THREE.BufferGeometry {
+  switch (shape.kind) {
+    case 'sphere':
+      return new THREE.SphereGeometry(shape.radius, 48, 32);
+    case 'box':
+      return new THREE.BoxGeometry(2 * shape.halfExtents[0], 2 * shape.halfExtents[1], 2 * shape.halfExtents[2]);
+    case 'cylinder':
+      return new THREE.CylinderGeometry(shape.radius, shape.radius, 2 * shape.halfLength, 48).rotateX(Math.PI / 2);
+    case 'capsule':
+      return new THREE.CapsuleGeometry(shape.radius, 2 * shape.halfLength, 12, 32).rotateX(Math.PI / 2);
+    case 'ellipsoid':
+      return new THREE.SphereGeometry(1, 48, 32).scale(shape.semiAxes[0], shape.semiAxes[1], shape.semiAxes[2]);
+  }
+}
+
+function rollerGeometry(roller: ViewRoller): THREE.BufferGeometry {
+  if (roller.kind === 'sphere') return new THREE.SphereGeometry(roller.radius, 32, 20);
+  return new THREE.CylinderGeometry(roller.radius, roller.radius, 2 * roller.halfWidth, 40);
+}
+
+function SceneObject({ model }: { model: SceneModel['object'] }) {
+  const geometry = useMemo(() => objectGeometry(model.shape), [model.shape]);
+  const edges = useMemo(() => new THREE.EdgesGeometry(geometry, 30), [geometry]);
+  useEffect(() => () => (geometry.dispose(), edges.dispose()), [geometry, edges]);
+  const [x, y, z, w] = model.orientation;
+  return (
+    <group position={model.position} quaternion={[x, y, z, w]}>
+      <mesh geometry={geometry}>
+        <meshStandardMaterial color={SCENE_COLOURS.object} transparent opacity={0.6} roughness={0.8} depthWrite={false} />
+      </mesh>
+      <lineSegments geometry={edges}>
+        <lineBasicMaterial color={SCENE_COLOURS.objectEdge} />
+      </lineSegments>
+    </group>
+  );
+}
+
+function Roller({ roller }: { roller: ViewRoller }) {
+  const geometry = useMemo(() => rollerGeometry(roller), [roller.kind, roller.radius, roller.halfWidth]);
+  useEffect(() => () => geometry.dispose(), [geometry]);
+  const orientation = useMemo(() => new THREE.Quaternion().setFromUnitVectors(new THREE.Vector3(0, 1, 0), vector(roller.axis).normalize()), [roller.axis]);
+  return (
+    <mesh geometry={geometry} position={roller.center} quaternion={orientation}>
+      <meshStandardMaterial color={SCENE_COLOURS.roller} roughness={0.5} metalness={0.1} />
+    </mesh>
+  );
+}
+
+/** Plain three.js objects (lines, arrows, helpers) for the parts R3F has no element for. */
+function useLineObjects(model: SceneModel) {
+  return useMemo(() => {
+    const group = new THREE.Group();
+    const size = model.bounds.radius;
+    const chainMaterial = new THREE.LineBasicMaterial({ color: SCENE_COLOURS.chain });
+    for (const chain of model.chains) {
+      group.add(new THREE.Line(new THREE.BufferGeometry().setFromPoints(chain.map(vector)), chainMaterial));
+    }
+    const arrow = (origin: Vec3Tuple, direction: Vec3Tuple, length: number, colour: string) => {
+      if (!(length > 0)) return;
+      const head = Math.min(0.35 * length, 0.12 * size);
+      group.add(new THREE.ArrowHelper(vector(direction).normalize(), vector(origin), length, colour, head, 0.5 * head));
+    };
+    for (const contact of model.contacts) {
+      arrow(contact.point, contact.normal, model.arrows.unitLength, SCENE_COLOURS.normal);
+      const speed = Math.hypot(...contact.velocity);
+      arrow(contact.point, contact.velocity, speed * model.arrows.lengthPerSpeed, SCENE_COLOURS.velocity);
+      if (contact.rollDirection) arrow(contact.point, contact.rollDirection, 0.7 * model.arrows.unitLength, SCENE_COLOURS.roll);
+    }
+    const palm = new THREE.GridHelper(4 * size, 20, PALETTE.rule, PALETTE.grid);
+    palm.rotateX(Math.PI / 2);
+    palm.position.set(model.bounds.center[0], model.bounds.center[1], 0);
+    group.add(palm);
+    group.add(new THREE.AxesHelper(0.4 * size));
+    return group;
+  }, [model]);
+}
+
+function LinesAndArrows({ model }: { model: SceneModel }) {
+  const group = useLineObjects(model);
+  useEffect(
+    () => () =>
+      group.traverse((node) => {
+        if (node instanceof THREE.Line || node instanceof THREE.Mesh) node.geometry.dispose();
+      }),
+    [group],
+  );
+  return <primitive object={group} />;
+}
+
+/** Orbit, pan and zoom around the scene centre; the camera is placed once per `viewKey` so updates keep the user's view. */
+function Controls({ center, radius, viewKey }: { center: Vec3Tuple; radius: number; viewKey: number }) {
+  const { camera, gl, invalidate } = useThree();
+  useEffect(() => {
+    const target = vector(center);
+    camera.up.copy(Z_UP);
+    camera.position.copy(target.clone().addScaledVector(VIEW_DIRECTION, 4.2 * radius));
+    camera.near = radius / 200;
+    camera.far = radius * 200;
+    camera.lookAt(target);
+    camera.updateProjectionMatrix();
+    const controls = new OrbitControls(camera, gl.domElement);
+    controls.target.copy(target);
+    controls.enableDamping = false;
+    controls.update();
+    controls.addEventListener('change', () => invalidate());
+    invalidate();
+    return () => controls.dispose();
+    // Not on every new centre: re-placing the camera on each result would throw away the user's orbit.
+  }, [camera, gl, invalidate, viewKey]);
+  return null;
+}
+
+/** The three.js scene of a sheet: object, rollers, finger chains, contacts and their arrows, with orbit controls. */
+export default function Scene3D({ model, viewKey }: { model: SceneModel; viewKey: number }) {
+  return (
+    <Canvas
+      frameloop="demand"
+      dpr={[1, 2]}
+      camera={{ fov: 35 }}
+      className="h-full w-full touch-none"
+      aria-label="3D view of the object, rollers and contacts; drag to orbit, scroll to zoom"
+      data-testid="scene-3d"
+    >
+      <color attach="background" args={[PALETTE.paper]} />
+      <ambientLight intensity={1.1} />
+      <directionalLight position={[1, -1, 2]} intensity={1.8} />
+      <directionalLight position={[-1, 1, 0.5]} intensity={0.6} />
+      <Controls center={model.bounds.center} radius={model.bounds.radius} viewKey={viewKey} />
+      <SceneObject model={model.object} />
+      {model.rollers.map((roller, i) => (
+        <Roller key={i} roller={roller} />
+      ))}
+      {model.contacts.map((contact, i) => (
+        <mesh key={i} position={contact.point}>
+          <sphereGeometry args={[model.bounds.radius * 0.02, 16, 12]} />
+          <meshBasicMaterial color={SCENE_COLOURS.contact} />
+        </mesh>
+      ))}
+      <LinesAndArrows model={model} />
+    </Canvas>
+  );
+}

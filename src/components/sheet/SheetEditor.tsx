@@ -1,0 +1,256 @@
+import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
+import { lazy, Suspense, useCallback, useEffect, useMemo, useState } from 'react';
+import type { WarningCode } from '../../lib/kinematics';
+import { WARNING_CATALOGUE } from '../../lib/kinematics/warnings';
+import type { SheetPageData } from '../../lib/server/sheet-page';
+import { setAt, type DocumentPath } from '../../lib/sheet/document-path';
+import { parseVariables } from '../../lib/sheet/units';
+import DerivationSection from './DerivationSection';
+import { SheetEditingContext, type MarginWarning, type SheetEditing } from './editor-context';
+import { TextField } from './fields';
+import HandSection from './HandSection';
+import MotionSection from './MotionSection';
+import NotesSection from './NotesSection';
+import ObjectSection from './ObjectSection';
+import PadSection from './PadSection';
+import ResultsSection from './ResultsSection';
+import SavePanel from './SavePanel';
+import SceneView from './SceneView';
+import TitleBlock from './TitleBlock';
+import { useCompute } from './useCompute';
+import VariablesEditor from './VariablesEditor';
+
+const RunPanel = lazy(() => import('./RunPanel'));
+const SweepPanel = lazy(() => import('./SweepPanel'));
+
+type RawDocument = Record<string, unknown>;
+
+/** Which section of the pad a warning belongs beside: the inputs that cause it. */
+const SECTION_OF: Record<WarningCode, 'object' | 'hand' | 'motion' | 'results'> = {
+  CONTACT_LOST: 'object',
+  CONTACT_PENETRATING: 'object',
+  CONTACT_NEAR_ROLL_AXIS: 'hand',
+  CONTACT_NEAR_PIVOT_AXIS: 'hand',
+  PIVOT_MISSES_ROLLER_CENTRE: 'hand',
+  JOINT_LIMIT_EXCEEDED: 'hand',
+  JACOBIAN_NEAR_RANK_LOSS: 'hand',
+  TANGENTIAL_SPEED_NEAR_ZERO: 'motion',
+  NORMAL_VELOCITY_UNREACHABLE: 'motion',
+  RATE_LIMIT_EXCEEDED: 'motion',
+  STEER_CANNOT_ALIGN: 'motion',
+  SLIP_REQUIRED: 'motion',
+  GRASP_RANK_DEFICIENT: 'results',
+};
+
+const draftKey = (sheetId: string) => `slipless:sheet-draft:${sheetId}`;
+
+interface Draft {
+  baseRevision: number;
+  baseDocument: RawDocument;
+  document: RawDocument;
+  savedAt: string;
+}
+
+function readDraft(sheetId: string): Draft | null {
+  try {
+    const text = window.localStorage.getItem(draftKey(sheetId));
+    return text ? (JSON.parse(text) as Draft) : null;
+  } catch {
+    return null;
+  }
+}
+
+const same = (a: unknown, b: unknown) => JSON.stringify(a) === JSON.stringify(b);
+
+function Editor({ data }: { data: SheetPageData }) {
+  const sheetId = data.sheet.id;
+  const readOnly = !data.canEdit;
+  const initial = data.revision.inputs as RawDocument;
+  const [base, setBase] = useState({ revision: data.revision.number, document: initial });
+  const [document, setDocument] = useState<RawDocument>(initial);
+  const [restored, setRestored] = useState<string | null>(null);
+  const [latestRevision, setLatestRevision] = useState(data.sheet.latestRevision);
+
+  useEffect(() => {
+    if (readOnly) return;
+    const draft = readDraft(sheetId);
+    if (draft && !same(draft.document, draft.baseDocument)) {
+      setBase({ revision: draft.baseRevision, document: draft.baseDocument });
+      setDocument(draft.document);
+      setRestored(draft.savedAt);
+    }
+  }, [sheetId, readOnly]);
+
+  const dirty = !same(document, base.document);
+  useEffect(() => {
+    if (readOnly) return;
+    if (dirty) {
+      const draft: Draft = { baseRevision: base.revision, baseDocument: base.document, document, savedAt: new Date().toISOString() };
+      window.localStorage.setItem(draftKey(sheetId), JSON.stringify(draft));
+    } else window.localStorage.removeItem(draftKey(sheetId));
+  }, [document, base, dirty, sheetId, readOnly]);
+
+  const update = useCallback((path: DocumentPath, value: unknown) => {
+    performance.mark('slipless:edit');
+    setDocument((current) => setAt(current, path, value));
+  }, []);
+
+  const { reply, lastGood, pending } = useCompute(document);
+  useEffect(() => {
+    if (!reply || performance.getEntriesByName('slipless:edit', 'mark').length === 0) return;
+    performance.measure('slipless:edit-to-result', 'slipless:edit');
+    performance.clearMarks('slipless:edit');
+  }, [reply]);
+
+  const variablesText = typeof document.variables === 'string' ? document.variables : '';
+  const variables = useMemo(() => parseVariables(variablesText), [variablesText]);
+  const issues = useMemo(() => new Map((reply && !reply.ok ? reply.issues : []).map((i) => [i.path, i.message])), [reply]);
+  const editing: SheetEditing = useMemo(
+    () => ({ document, update, issues, variables: variables.values, readOnly }),
+    [document, update, issues, variables, readOnly],
+  );
+
+  const result = lastGood?.result ?? null;
+  const margin = useMemo(() => {
+    const bySection: Record<string, MarginWarning[]> = { object: [], hand: [], motion: [], results: [] };
+    for (const w of result?.warnings ?? []) {
+      const info = WARNING_CATALOGUE[w.code];
+      const finger = w.finger === undefined ? '' : `${result?.fingers[w.finger]?.name ?? w.finger}: `;
+      bySection[SECTION_OF[w.code]].push({ code: w.code, severity: w.severity, title: info.title, text: `${finger}${w.message}` });
+    }
+    return bySection;
+  }, [result]);
+
+  const unlocated = reply && !reply.ok ? reply.issues.filter((i) => i.path === '(document)' || i.path === 'variables') : [];
+  const fingerNames = result?.fingers.map((f) => f.name) ?? [];
+
+  return (
+    <SheetEditingContext.Provider value={editing}>
+      <div className="mx-auto max-w-[100rem] px-4 py-6">
+        <TitleBlock
+          sheetId={sheetId}
+          title={typeof document.title === 'string' ? document.title : data.sheet.title}
+          revision={base.revision}
+          latestRevision={Math.max(latestRevision, base.revision)}
+          author={data.revision.authorName}
+          checkedBy={data.checkedBy}
+          date={data.revision.createdAt}
+          status={data.sheet.status}
+          forkedFrom={data.forkedFrom}
+          forks={data.forks}
+          dirty={dirty}
+        />
+        {restored && (
+          <p className="mt-3 border-l-4 border-note pl-3 text-sm" role="status">
+            Restored your unsaved changes from {new Date(restored).toLocaleString()}.{' '}
+            <button
+              type="button"
+              className="underline"
+              onClick={() => {
+                setDocument(base.document);
+                setRestored(null);
+              }}
+            >
+              Discard them
+            </button>
+          </p>
+        )}
+        {readOnly && <p className="mt-3 text-sm text-graphite">Read only: your role can view this sheet but not change it.</p>}
+        <div className="mt-4 grid gap-6 xl:grid-cols-[minmax(0,1fr)_30rem]">
+          <div className="pad-grid min-w-0 border-2 border-ink bg-paper/95 px-5" data-pad>
+            <PadSection id="sheet-summary" number={0} title="Sheet">
+              <div className="grid gap-3 md:grid-cols-2">
+                <TextField path={['title']} label="title" />
+                <TextField path={['description']} label="description" />
+              </div>
+            </PadSection>
+            <PadSection id="object" number={1} title="Object" warnings={margin.object}>
+              <ObjectSection />
+            </PadSection>
+            <PadSection id="hand" number={2} title="Hand" warnings={margin.hand}>
+              <HandSection parsed={lastGood?.document ?? null} />
+            </PadSection>
+            <PadSection id="motion" number={3} title="Motion" warnings={margin.motion}>
+              <MotionSection />
+            </PadSection>
+            <PadSection id="variables" number={4} title="Variables">
+              <VariablesEditor
+                text={variablesText}
+                reading={variables}
+                readOnly={readOnly}
+                onChange={(text) => update(['variables'], text === '' ? undefined : text)}
+              />
+              <p className="mt-1 text-xs text-graphite">
+                One <code className="font-mono">name = value</code> per line, e.g. <code className="font-mono">rollerRadius = 14 mm</code>; any field may use the
+                names: <code className="font-mono">rollerRadius + 2 mm</code>.
+              </p>
+            </PadSection>
+            <PadSection id="results" number={5} title="Results" warnings={margin.results}>
+              {unlocated.length > 0 && (
+                <ul role="alert" className="mb-3 border-l-4 border-sienna pl-3 text-sm text-sienna">
+                  {unlocated.map((i) => (
+                    <li key={i.path + i.message}>{i.path === 'variables' ? `Variables, ${i.message}` : i.message}</li>
+                  ))}
+                </ul>
+              )}
+              {reply && !reply.ok && (
+                <p className="mb-2 text-xs text-sienna" data-issue-count>
+                  {reply.issues.length} problem{reply.issues.length === 1 ? '' : 's'} in the inputs (marked at the fields); the results below are from the last sheet that read cleanly.
+                </p>
+              )}
+              <ResultsSection result={result} stale={pending || (reply !== null && !reply.ok)} />
+            </PadSection>
+            <PadSection id="derivation" number={6} title="Derivation">
+              {lastGood ? <DerivationSection entries={lastGood.derivation} fingerNames={fingerNames} /> : <p className="text-sm text-graphite">Waiting for results.</p>}
+            </PadSection>
+            <PadSection id="notes" number={7} title="Notes">
+              <NotesSection />
+            </PadSection>
+            {!readOnly && (
+              <div className="sticky bottom-0 z-10 -mx-5 border-t-2 border-ink bg-paper px-5 py-3">
+                <SavePanel
+                  sheetId={sheetId}
+                  baseRevision={base.revision}
+                  baseDocument={base.document}
+                  document={document}
+                  dirty={dirty}
+                  readsCleanly={reply?.ok ?? false}
+                  onSaved={(revision, saved) => {
+                    setBase({ revision, document: saved });
+                    setLatestRevision((r) => Math.max(r, revision));
+                    setRestored(null);
+                    window.history.replaceState(null, '', `/sheets/${sheetId}`);
+                  }}
+                  onReplaceDocument={(theirs, theirRevision, merged) => {
+                    setBase({ revision: theirRevision, document: theirs });
+                    setLatestRevision((r) => Math.max(r, theirRevision));
+                    setDocument(merged);
+                  }}
+                />
+              </div>
+            )}
+          </div>
+          <aside className="space-y-4 xl:sticky xl:top-4 xl:self-start" aria-label="Views, runs and sweeps">
+            {lastGood ? <SceneView document={lastGood.document} result={lastGood.result} /> : <div className="h-80 border-2 border-ink bg-paper-deep" />}
+            {lastGood && (
+              <Suspense fallback={<p className="text-sm text-graphite">Loading runs and sweeps…</p>}>
+                <RunPanel document={lastGood.document} />
+                <SweepPanel document={lastGood.document} />
+              </Suspense>
+            )}
+          </aside>
+        </div>
+      </div>
+    </SheetEditingContext.Provider>
+  );
+}
+
+/** The sheet editor island: the pad, live results from a worker, the 3D view, save and fork. */
+export default function SheetEditor({ data }: { data: SheetPageData }) {
+  const [client] = useState(() => new QueryClient({ defaultOptions: { queries: { retry: 1, refetchOnWindowFocus: false } } }));
+  return (
+    <QueryClientProvider client={client}>
+      <Editor data={data} />
+    </QueryClientProvider>
+  );
+}

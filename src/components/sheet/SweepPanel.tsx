@@ -1,0 +1,134 @@
+import { useMemo, useState } from 'react';
+import LineChart, { type LineSeries, type ShadedStretch } from '../charts/LineChart';
+import WarningStrip from '../charts/WarningStrip';
+import { inputClass, labelClass, primaryButton } from '../form-parts';
+import type { SheetDocument } from '../../lib/sheet/types';
+import { SEVERITY_COLOURS } from '../../lib/view/palette';
+import { severityRuns, type SweepSeries } from '../../lib/view/series';
+import { DEFAULT_SWEEP_STEPS, sweepInputs, sweepSettingsFrom, type DisplayUnit, type SweepInput } from '../../lib/view/sweep-inputs';
+import JobProgress from './JobProgress';
+import { useWorkerJob } from './useWorkerJob';
+
+const SEVERITY_NAMES = ['none', 'note', 'caution', 'singular'] as const;
+const MAX_STEPS = 1000;
+
+/** A value for an input box: enough digits to round-trip what a person would type. */
+const shown = (value: number) => String(Number(value.toPrecision(6)));
+
+function sweepCharts(series: SweepSeries, unit: DisplayUnit) {
+  const x = series.values.map((v) => v * unit.factor);
+  const shaded: ShadedStretch[] = severityRuns(series.worstSeverity).map((r) => ({
+    start: r.start,
+    end: r.end,
+    colour: SEVERITY_COLOURS[SEVERITY_NAMES[r.level] as 'note'],
+  }));
+  const perFinger = (pick: (f: SweepSeries['fingers'][number]) => Float64Array, factor = 1): LineSeries[] =>
+    series.fingers.map((f) => ({ label: f.finger, values: factor === 1 ? pick(f) : pick(f).map((v) => v * factor) }));
+  return {
+    x,
+    shaded,
+    rates: series.fingers.flatMap((f) => f.rates.map((r) => ({ label: r.joint, values: r.values }))),
+    condition: perFinger((f) => f.conditionNumber),
+    residual: perFinger((f) => f.residual, 1000),
+    gap: perFinger((f) => f.gap, 1000),
+  };
+}
+
+function SweepResults({ series, input }: { series: SweepSeries; input: SweepInput }) {
+  const charts = useMemo(() => sweepCharts(series, input.unit), [series, input.unit]);
+  const xLabel = `${input.label} (${input.unit.symbol})`;
+  const common = { x: charts.x, xLabel, shaded: charts.shaded, syncKey: 'sheet-sweep' };
+  return (
+    <div className="space-y-4" data-testid="sweep-results">
+      <p className="text-xs text-graphite" role="status">
+        <span className="num">{series.values.length}</span> values of <span className="num">{series.path}</span> solved in{' '}
+        <span className="num">{series.elapsedMs.toFixed(0)} ms</span>. Shading marks the worst warning at each value.
+      </p>
+      <WarningStrip count={series.values.length} worst={series.worstSeverity} warnings={series.warnings} axisLabel="the swept values" />
+      <div className="grid gap-4 xl:grid-cols-2">
+        <LineChart title="Joint rates (full solution)" yLabel="rad/s" series={charts.rates} {...common} />
+        <LineChart title="Condition number of the contact Jacobian" yLabel="σmax/σmin" logY series={charts.condition} {...common} />
+        <LineChart title="Residual slip speed" yLabel="mm/s" series={charts.residual} {...common} />
+        <LineChart title="Contact gap" yLabel="mm" series={charts.gap} {...common} />
+      </div>
+    </div>
+  );
+}
+
+/** Sweeps one numeric input of the sheet over a range in a worker and plots the outputs over it. */
+export default function SweepPanel({ document }: { document: SheetDocument }) {
+  const inputs = useMemo(() => sweepInputs(document), [document]);
+  const [path, setPath] = useState(() => inputs[0]?.path ?? '');
+  const input = inputs.find((i) => i.path === path) ?? inputs[0]!;
+  const [range, setRange] = useState(() => ({ from: shown(input.from * input.unit.factor), to: shown(input.to * input.unit.factor) }));
+  const [steps, setSteps] = useState(String(document.sweep?.steps ?? DEFAULT_SWEEP_STEPS));
+  const [error, setError] = useState<string | null>(null);
+  const [sweptInput, setSweptInput] = useState<SweepInput | null>(null);
+  const { state, start, cancel } = useWorkerJob('sweep-done');
+
+  function choose(nextPath: string) {
+    const next = inputs.find((i) => i.path === nextPath)!;
+    setPath(nextPath);
+    setRange({ from: shown(next.from * next.unit.factor), to: shown(next.to * next.unit.factor) });
+  }
+
+  function submit() {
+    const from = Number(range.from), to = Number(range.to), count = Number(steps);
+    if (!Number.isFinite(from) || !Number.isFinite(to) || range.from.trim() === '' || range.to.trim() === '') {
+      setError('Give the range as two numbers in the unit shown.');
+      return;
+    }
+    if (!Number.isInteger(count) || count < 2 || count > MAX_STEPS) {
+      setError(`Steps must be a whole number from 2 to ${MAX_STEPS}.`);
+      return;
+    }
+    setError(null);
+    setSweptInput(input);
+    start({ kind: 'sweep', document, settings: sweepSettingsFrom(input, from, to, count) });
+  }
+
+  return (
+    <section className="space-y-4" aria-label="Sweep one input" data-testid="sweep-panel">
+      <form
+        onSubmit={(event) => {
+          event.preventDefault();
+          submit();
+        }}
+        noValidate
+        className="grid items-end gap-3 md:grid-cols-[3fr_1fr_1fr_1fr_auto]">
+        <label className={labelClass}>
+          Input to sweep
+          <select className={inputClass} value={input.path} onChange={(e) => choose(e.target.value)} name="sweepPath">
+            {inputs.map((i) => (
+              <option key={i.path} value={i.path}>
+                {i.label} — now {shown(i.value * i.unit.factor)} {i.unit.symbol}
+              </option>
+            ))}
+          </select>
+        </label>
+        <label className={labelClass}>
+          From ({input.unit.symbol})
+          <input className={inputClass} name="sweepFrom" inputMode="decimal" value={range.from} onChange={(e) => setRange({ ...range, from: e.target.value })} />
+        </label>
+        <label className={labelClass}>
+          To ({input.unit.symbol})
+          <input className={inputClass} name="sweepTo" inputMode="decimal" value={range.to} onChange={(e) => setRange({ ...range, to: e.target.value })} />
+        </label>
+        <label className={labelClass}>
+          Steps
+          <input className={inputClass} name="sweepSteps" inputMode="numeric" value={steps} onChange={(e) => setSteps(e.target.value)} />
+        </label>
+        <button className={primaryButton} disabled={state.status === 'running'}>
+          Sweep
+        </button>
+      </form>
+      {error && (
+        <p className="border-l-4 border-sienna pl-3 text-sm text-sienna" role="alert">
+          {error}
+        </p>
+      )}
+      <JobProgress state={state} unit="values" onCancel={cancel} />
+      {state.status === 'done' && sweptInput && <SweepResults series={state.result} input={sweptInput} />}
+    </section>
+  );
+}

@@ -1,0 +1,29 @@
+import { createContext, useContext } from 'react';
+import type { WarningCode, WarningSeverity } from '../../lib/kinematics';
+import type { DocumentPath } from '../../lib/sheet/document-path';
+import type { VariableScope } from '../../lib/sheet/units';
+
+export interface MarginWarning {
+  code: WarningCode;
+  severity: WarningSeverity;
+  title: string;
+  text: string;
+}
+
+/** What every section of the editor needs: the document as written, a way to change it, and where it is wrong. */
+export interface SheetEditing {
+  document: Record<string, unknown>;
+  update: (path: DocumentPath, value: unknown) => void;
+  /** Issues of the sheet reader by path text ("hand.fingers[0].roller.radius"). */
+  issues: ReadonlyMap<string, string>;
+  variables: VariableScope;
+  readOnly: boolean;
+}
+
+export const SheetEditingContext = createContext<SheetEditing | null>(null);
+
+export function useSheetEditing(): SheetEditing {
+  const editing = useContext(SheetEditingContext);
+  if (!editing) throw new Error('useSheetEditing outside the sheet editor');
+  return editing;
+}

@@ -1,0 +1,143 @@
+import { useId } from 'react';
+import { getAt, pathText, type DocumentPath } from '../../lib/sheet/document-path';
+import type { QuantityKind } from '../../lib/sheet/units';
+import { useSheetEditing } from './editor-context';
+import QuantityField, { storedValue } from './QuantityField';
+import { fieldInput, selectInput } from './sheet-styles';
+
+type Kind = Exclude<QuantityKind, 'any'>;
+
+/** Issue at the path or, for a vector, at the whole vector. */
+function issueAt(issues: ReadonlyMap<string, string>, path: DocumentPath): string | undefined {
+  return issues.get(pathText(path));
+}
+
+/** A quantity of the document at path. */
+export function Quantity({ path, label, kind, placeholder }: { path: DocumentPath; label: string; kind: Kind; placeholder?: string }) {
+  const { document, update, issues, variables, readOnly } = useSheetEditing();
+  return (
+    <QuantityField
+      label={label}
+      kind={kind}
+      path={pathText(path)}
+      value={getAt(document, path)}
+      variables={variables}
+      issue={issueAt(issues, path)}
+      disabled={readOnly}
+      optional={placeholder === undefined ? undefined : { placeholder }}
+      onChange={(value) => update(path, value)}
+    />
+  );
+}
+
+/** Three quantities [x, y, z] at path. */
+export function QuantityVector({ path, label, kind }: { path: DocumentPath; label: string; kind: Kind }) {
+  const { issues } = useSheetEditing();
+  const whole = issueAt(issues, path);
+  return (
+    <fieldset className="min-w-0">
+      <legend className="text-[11px] font-semibold text-ink">{label}</legend>
+      <div className="grid grid-cols-3 gap-2">
+        {(['x', 'y', 'z'] as const).map((axis, index) => (
+          <Quantity key={axis} path={[...path, index]} label={axis} kind={kind} />
+        ))}
+      </div>
+      {whole && <span className="block text-[11px] text-sienna" role="alert">{whole}</span>}
+    </fieldset>
+  );
+}
+
+/** A unitless number at path (axis and quaternion components, ratios, counts). */
+export function PlainNumber({ path, label, integer }: { path: DocumentPath; label: string; integer?: boolean }) {
+  const { document, update, issues, readOnly } = useSheetEditing();
+  const id = useId();
+  const value = getAt(document, path);
+  const issue = issueAt(issues, path);
+  return (
+    <div className="min-w-0">
+      <label htmlFor={id} className="block text-[11px] uppercase tracking-wide text-graphite">{label}</label>
+      <input
+        id={id}
+        className={fieldInput}
+        inputMode={integer ? 'numeric' : 'decimal'}
+        disabled={readOnly}
+        value={value === undefined ? '' : String(value)}
+        aria-invalid={issue ? true : undefined}
+        onChange={(event) => update(path, event.target.value.trim() === '' ? undefined : storedValue(event.target.value))}
+      />
+      {issue && <span className="block text-[11px] leading-tight text-sienna" role="alert">{issue}</span>}
+    </div>
+  );
+}
+
+/** A direction [x, y, z] of plain numbers at path. */
+export function DirectionVector({ path, label }: { path: DocumentPath; label: string }) {
+  const { issues } = useSheetEditing();
+  const whole = issueAt(issues, path);
+  return (
+    <fieldset className="min-w-0">
+      <legend className="text-[11px] font-semibold text-ink">{label}</legend>
+      <div className="grid grid-cols-3 gap-2">
+        {(['x', 'y', 'z'] as const).map((axis, index) => (
+          <PlainNumber key={axis} path={[...path, index]} label={axis} />
+        ))}
+      </div>
+      {whole && <span className="block text-[11px] text-sienna" role="alert">{whole}</span>}
+    </fieldset>
+  );
+}
+
+/** A text field at path. */
+export function TextField({ path, label }: { path: DocumentPath; label: string }) {
+  const { document, update, issues, readOnly } = useSheetEditing();
+  const id = useId();
+  const issue = issueAt(issues, path);
+  return (
+    <div className="min-w-0">
+      <label htmlFor={id} className="block text-[11px] uppercase tracking-wide text-graphite">{label}</label>
+      <input
+        id={id}
+        className={`${fieldInput} font-sans`}
+        disabled={readOnly}
+        value={String(getAt(document, path) ?? '')}
+        aria-invalid={issue ? true : undefined}
+        onChange={(event) => update(path, event.target.value)}
+      />
+      {issue && <span className="block text-[11px] text-sienna" role="alert">{issue}</span>}
+    </div>
+  );
+}
+
+/** A choice among fixed values at path. */
+export function Choice({ path, label, options, onChoose }: { path: DocumentPath; label: string; options: readonly string[]; onChoose?: (value: string) => void }) {
+  const { document, update, readOnly } = useSheetEditing();
+  const id = useId();
+  return (
+    <div>
+      <label htmlFor={id} className="block text-[11px] uppercase tracking-wide text-graphite">{label}</label>
+      <select
+        id={id}
+        className={selectInput}
+        disabled={readOnly}
+        value={String(getAt(document, path) ?? '')}
+        onChange={(event) => (onChoose ? onChoose(event.target.value) : update(path, event.target.value))}
+      >
+        {options.map((option) => (
+          <option key={option}>{option}</option>
+        ))}
+      </select>
+    </div>
+  );
+}
+
+/** A yes/no switch at path. */
+export function Toggle({ path, label, fallback }: { path: DocumentPath; label: string; fallback: boolean }) {
+  const { document, update, readOnly } = useSheetEditing();
+  const value = getAt(document, path);
+  return (
+    <label className="flex items-center gap-2 text-sm">
+      <input type="checkbox" disabled={readOnly} checked={typeof value === 'boolean' ? value : fallback} onChange={(event) => update(path, event.target.checked)} />
+      {label}
+    </label>
+  );
+}

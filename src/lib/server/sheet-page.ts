@@ -1,0 +1,72 @@
+import { and, desc, eq } from 'drizzle-orm';
+import type { Database } from '../../db';
+import { reviews, users } from '../../db/schema';
+import { can, type Identity } from './access';
+import { findSheet, getRevision, listForks } from './sheets';
+
+export interface SheetLink {
+  id: string;
+  title: string;
+  revision: number;
+}
+
+/** Everything the sheet page shows in its title block and hands to the editor. */
+export interface SheetPageData {
+  sheet: { id: string; teamId: string; title: string; status: string; latestRevision: number };
+  revision: { number: number; authorName: string | null; createdAt: string; message: string; inputs: unknown };
+  /** Reviewer who approved this revision, if any. */
+  checkedBy: string | null;
+  forkedFrom: SheetLink | null;
+  forks: SheetLink[];
+  canEdit: boolean;
+}
+
+export type SheetPageOutcome = { status: 'ok'; data: SheetPageData } | { status: 'missing'; message: string };
+
+type SheetRow = NonNullable<Awaited<ReturnType<typeof findSheet>>>;
+
+/** The latest approving reviewer of one revision. */
+async function findApprover(database: Database, sheetId: string, revision: number): Promise<string | null> {
+  const [row] = await database.db
+    .select({ name: users.name, email: users.email })
+    .from(reviews)
+    .leftJoin(users, eq(users.id, reviews.reviewerId))
+    .where(and(eq(reviews.sheetId, sheetId), eq(reviews.revision, revision), eq(reviews.verdict, 'approved')))
+    .orderBy(desc(reviews.createdAt))
+    .limit(1);
+  return row ? (row.name ?? row.email ?? 'reviewer') : null;
+}
+
+/**
+ * Loads a sheet the identity may read for its page: the revision asked for (the latest when
+ * none), its title block, where it was forked from and its forks, as far as the identity may read them.
+ */
+export async function loadSheetPage(database: Database, identity: Identity, sheet: SheetRow, revisionParam: string | null): Promise<SheetPageOutcome> {
+  const membership = identity.memberships.find((m) => m.teamId === sheet.teamId);
+  const wanted = revisionParam === null ? sheet.latestRevision : Number(revisionParam);
+  const revision = Number.isInteger(wanted) ? await getRevision(database, sheet.id, wanted) : null;
+  if (!revision) return { status: 'missing', message: `Revision ${revisionParam} of this sheet does not exist.` };
+  const readable = identity.memberships.filter((m) => can(m.role, 'sheet.read')).map((m) => m.teamId);
+  const origin = sheet.forkedFromSheetId ? await findSheet(database, sheet.forkedFromSheetId) : null;
+  const forks = await listForks(database, sheet.id, readable);
+  return {
+    status: 'ok',
+    data: {
+      sheet: { id: sheet.id, teamId: sheet.teamId, title: sheet.title, status: sheet.status, latestRevision: sheet.latestRevision },
+      revision: {
+        number: revision.number,
+        authorName: revision.authorName,
+        createdAt: new Date(revision.createdAt).toISOString(),
+        message: revision.message,
+        inputs: revision.inputs,
+      },
+      checkedBy: await findApprover(database, sheet.id, revision.number),
+      forkedFrom:
+        origin && readable.includes(origin.teamId)
+          ? { id: origin.id, title: origin.title, revision: sheet.forkedFromRevision ?? 1 }
+          : null,
+      forks: forks.map((f) => ({ id: f.id, title: f.title, revision: f.forkedFromRevision ?? 1 })),
+      canEdit: membership !== undefined && can(membership.role, 'sheet.write'),
+    },
+  };
+}

@@ -1,0 +1,57 @@
+/**
+ * The message protocol of the compute worker, as a pure function so that it can be tested
+ * without a worker: a document as written goes in, the parsed SI document, the JSON-ready
+ * results, the derivation entries and every located issue come out.
+ */
+import { deriveSheet, solveSheet, toPlainResult, type DerivationEntry, type PlainSheetResult } from '../lib/kinematics';
+import { parseSheet, type SheetIssue } from '../lib/sheet/schema';
+import type { SheetDocument } from '../lib/sheet/types';
+
+export interface ComputeRequest {
+  type: 'compute';
+  /** Increases with every request; replies carry it so that the page keeps only the newest. */
+  id: number;
+  document: unknown;
+}
+
+export type ComputeReply =
+  | {
+      type: 'computed';
+      id: number;
+      ok: true;
+      document: SheetDocument;
+      result: PlainSheetResult;
+      derivation: DerivationEntry[];
+      elapsedMs: number;
+    }
+  | { type: 'computed'; id: number; ok: false; issues: SheetIssue[]; elapsedMs: number }
+  | { type: 'refused'; message: string };
+
+function isComputeRequest(message: unknown): message is ComputeRequest {
+  if (message === null || typeof message !== 'object') return false;
+  const { type, id } = message as Record<string, unknown>;
+  return type === 'compute' && typeof id === 'number' && Number.isInteger(id);
+}
+
+/** Answers one message: reads, solves and derives the sheet, or reports where it is wrong. */
+export function computeSheet(message: unknown, now: () => number = () => performance.now()): ComputeReply {
+  if (!isComputeRequest(message)) return { type: 'refused', message: 'expected {type: "compute", id: integer, document}' };
+  const started = now();
+  const parsed = parseSheet(message.document);
+  if (!parsed.ok) return { type: 'computed', id: message.id, ok: false, issues: parsed.issues, elapsedMs: now() - started };
+  try {
+    const solved = solveSheet(parsed.doc);
+    return {
+      type: 'computed',
+      id: message.id,
+      ok: true,
+      document: parsed.doc,
+      result: toPlainResult(solved),
+      derivation: deriveSheet(parsed.doc, solved),
+      elapsedMs: now() - started,
+    };
+  } catch (error) {
+    const reason = error instanceof Error ? error.message : String(error);
+    return { type: 'computed', id: message.id, ok: false, issues: [{ path: '(document)', message: `the sheet could not be solved: ${reason}` }], elapsedMs: now() - started };
+  }
+}
