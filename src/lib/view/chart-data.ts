@@ -1,0 +1,28 @@
+/** Preparing columns for uPlot, which reads null as a gap but cannot place NaN, infinities or, on a log axis, values <= 0. */
+
+/** The column as uPlot can draw it: unchanged when every value is plottable, else a copy with null in the gaps. */
+export function plottable(values: ArrayLike<number>, logScale = false): ArrayLike<number> | (number | null)[] {
+  const drawable = (v: number) => Number.isFinite(v) && (!logScale || v > 0);
+  for (let i = 0; i < values.length; i++) {
+    if (!drawable(values[i]!)) return Array.from(values, (v) => (drawable(v) ? v : null));
+  }
+  return values;
+}
+
+/** Line style of the i-th series: colours in turn, then dashed once they run out. */
+export function seriesStyle(i: number, colours: readonly string[]): { stroke: string; dash?: number[] } {
+  const stroke = colours[i % colours.length]!;
+  const round = Math.floor(i / colours.length);
+  return round === 0 ? { stroke } : { stroke, dash: round === 1 ? [6, 3] : [2, 3] };
+}
+
+/** Ranges of x values covering index stretches [start, end), widened by half a step so single points show (x evenly spaced or not). */
+export function indexRangesToX(x: ArrayLike<number>, ranges: { start: number; end: number }[]): { from: number; to: number }[] {
+  const n = x.length;
+  if (n === 0) return [];
+  const half = (i: number, j: number) => (n > 1 ? 0.5 * (x[Math.min(n - 1, j)]! - x[Math.max(0, i)]!) : 0);
+  return ranges.map(({ start, end }) => ({
+    from: x[start]! - (start > 0 ? half(start - 1, start) : half(0, 1)),
+    to: x[end - 1]! + (end < n ? half(end - 1, end) : half(n - 2, n - 1)),
+  }));
+}

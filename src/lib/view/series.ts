@@ -1,0 +1,175 @@
+/**
+ * Plot-ready columns from runs and sweeps: one plain typed array per plotted line, so the worker
+ * can hand them over without copying and the charts can use them as they are.
+ */
+import { ROTATION_METRICS } from '../kinematics/metrics';
+import { SEVERITY_LEVELS, WARNING_CODES, type RunRecord, type RunStopReason } from '../kinematics/run';
+import type { SweepRecord } from '../kinematics/sweep';
+import { WARNING_CATALOGUE, type WarningCode, type WarningSeverity } from '../kinematics/warnings';
+import type { RunSettings, SheetDocument } from '../sheet/types';
+
+export interface JointSeries {
+  finger: string;
+  joint: string;
+  values: Float64Array;
+}
+
+export interface WarningOccurrence {
+  code: WarningCode;
+  severity: WarningSeverity;
+  title: string;
+  /** Indices (ticks or sweep steps) at which the warning was raised. */
+  indices: number[];
+}
+
+export interface RunSeries {
+  tickCount: number;
+  stopReason: RunStopReason;
+  settings: RunSettings;
+  /** Wall time of the run inside the worker, ms. */
+  elapsedMs: number;
+  ticks: Float64Array;
+  jointAngles: JointSeries[];
+  jointRates: JointSeries[];
+  positionError: Float64Array;
+  /** One column per Huynh metric, in ROTATION_METRICS order. */
+  orientationError: { key: string; name: string; unit: string; values: Float64Array }[];
+  /** Index into SEVERITY_LEVELS per tick. */
+  worstSeverity: Uint8Array;
+  warnings: WarningOccurrence[];
+}
+
+export interface SweepFingerSeries {
+  finger: string;
+  rates: JointSeries[];
+  conditionNumber: Float64Array;
+  residual: Float64Array;
+  gap: Float64Array;
+}
+
+export interface SweepSeries {
+  path: string;
+  elapsedMs: number;
+  values: Float64Array;
+  fingers: SweepFingerSeries[];
+  worstSeverity: Uint8Array;
+  warnings: WarningOccurrence[];
+}
+
+/** Column k of a row-major table with `width` entries per row and `rows` rows. */
+export function column(table: ArrayLike<number>, width: number, k: number, rows: number): Float64Array {
+  const out = new Float64Array(rows);
+  for (let i = 0; i < rows; i++) out[i] = table[i * width + k]!;
+  return out;
+}
+
+const STOP_REASON_TEXT: Record<RunStopReason, string> = {
+  converged: 'Converged: the object reached the target pose within the position and angle tolerances.',
+  'tick-limit': 'Stopped at the tick limit before reaching the target pose.',
+  singular: 'Stopped early: a singular warning was raised and the run is set to stop on singular.',
+};
+
+/** The stop reason in words. */
+export function describeStopReason(reason: RunStopReason): string {
+  return STOP_REASON_TEXT[reason];
+}
+
+function jointColumns(doc: SheetDocument, columns: ArrayLike<number>[], rows: number): JointSeries[] {
+  return doc.hand.fingers.flatMap((finger, f) =>
+    finger.joints.map((joint, k) => ({ finger: finger.name, joint: joint.name, values: column(columns[f]!, finger.joints.length, k, rows) })),
+  );
+}
+
+/** Plot columns of a run record (de-interleaved per joint and per metric) with the ticks at which each warning code was raised. */
+export function runSeries(doc: SheetDocument, record: RunRecord, elapsedMs: number): RunSeries {
+  const n = record.tickCount;
+  const ticks = new Float64Array(n);
+  for (let i = 0; i < n; i++) ticks[i] = i;
+  const warnings: WarningOccurrence[] = [];
+  WARNING_CODES.forEach((code, bit) => {
+    const indices: number[] = [];
+    for (let i = 0; i < n; i++) if ((record.warningMask[i]! & (1 << bit)) !== 0) indices.push(i);
+    if (indices.length > 0) warnings.push({ code, severity: WARNING_CATALOGUE[code].severity, title: WARNING_CATALOGUE[code].title, indices });
+  });
+  return {
+    tickCount: n,
+    stopReason: record.stopReason,
+    settings: record.settings,
+    elapsedMs,
+    ticks,
+    jointAngles: jointColumns(doc, record.jointAngles, n),
+    jointRates: jointColumns(doc, record.jointRates, n),
+    positionError: record.positionError.slice(),
+    orientationError: ROTATION_METRICS.map((metric, k) => ({
+      key: metric.key,
+      name: metric.name,
+      unit: metric.unit,
+      values: column(record.orientationError, ROTATION_METRICS.length, k, n),
+    })),
+    worstSeverity: record.worstSeverity.slice(),
+    warnings,
+  };
+}
+
+const SEVERITY_INDEX = new Map(SEVERITY_LEVELS.map((level, i) => [level, i]));
+
+/** Plot columns of a sweep: per finger its joint rates, condition number, residual and gap over the swept value, and where each warning appeared. */
+export function sweepSeries(doc: SheetDocument, record: SweepRecord, elapsedMs: number): SweepSeries {
+  const steps = record.results.length;
+  const fingers = doc.hand.fingers.map((finger, f): SweepFingerSeries => {
+    const rates = finger.joints.map((joint, k) => ({
+      finger: finger.name,
+      joint: joint.name,
+      values: Float64Array.from(record.results, (result) => result.fingers[f]!.full.rates[k]!),
+    }));
+    return {
+      finger: finger.name,
+      rates,
+      conditionNumber: Float64Array.from(record.results, (result) => result.fingers[f]!.full.conditionNumber),
+      residual: Float64Array.from(record.results, (result) => result.fingers[f]!.full.residualNorm),
+      gap: Float64Array.from(record.results, (result) => result.fingers[f]!.contact.gap),
+    };
+  });
+  const byCode = new Map<WarningCode, number[]>();
+  record.results.forEach((result, i) => {
+    for (const warning of result.warnings) {
+      const indices = byCode.get(warning.code) ?? [];
+      if (indices[indices.length - 1] !== i) indices.push(i);
+      byCode.set(warning.code, indices);
+    }
+  });
+  const warnings = WARNING_CODES.filter((code) => byCode.has(code)).map((code) => ({
+    code,
+    severity: WARNING_CATALOGUE[code].severity,
+    title: WARNING_CATALOGUE[code].title,
+    indices: byCode.get(code)!,
+  }));
+  const worstSeverity = new Uint8Array(steps);
+  record.worstSeverity.forEach((level, i) => (worstSeverity[i] = SEVERITY_INDEX.get(level)!));
+  return { path: record.path, elapsedMs, values: record.values.slice(), fingers, worstSeverity, warnings };
+}
+
+/** Stretches of equal, non-zero severity: [start, end) index ranges with their SEVERITY_LEVELS index. */
+export function severityRuns(levels: ArrayLike<number>): { start: number; end: number; level: number }[] {
+  const runs: { start: number; end: number; level: number }[] = [];
+  for (let i = 0; i < levels.length; ) {
+    const level = levels[i]!;
+    let j = i + 1;
+    while (j < levels.length && levels[j] === level) j++;
+    if (level !== 0) runs.push({ start: i, end: j, level });
+    i = j;
+  }
+  return runs;
+}
+
+/** Every ArrayBuffer behind a series, for postMessage's transfer list (each listed once). */
+export function transferablesOf(series: RunSeries | SweepSeries): ArrayBuffer[] {
+  const buffers = new Set<ArrayBuffer>();
+  const visit = (value: unknown) => {
+    if (ArrayBuffer.isView(value)) buffers.add(value.buffer as ArrayBuffer);
+    else if (Array.isArray(value)) value.forEach(visit);
+    else if (value !== null && typeof value === 'object') Object.values(value).forEach(visit);
+  };
+  visit(series);
+  return [...buffers];
+}

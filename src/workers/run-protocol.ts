@@ -1,0 +1,57 @@
+/**
+ * The message protocol of the run worker: the page posts one job (a run toward the sheet's target
+ * or a sweep of one input), the worker answers with progress messages and then exactly one result
+ * or failure. performJob is the whole worker apart from the message plumbing, so it runs in tests.
+ */
+import { runSheet } from '../lib/kinematics/run';
+import { sweepSheet } from '../lib/kinematics/sweep';
+import type { RunSettings, SheetDocument, SweepSettings } from '../lib/sheet/types';
+import { runSeries, sweepSeries, transferablesOf, type RunSeries, type SweepSeries } from '../lib/view/series';
+
+export type WorkerJob =
+  | { kind: 'run'; document: SheetDocument; settings?: RunSettings }
+  | { kind: 'sweep'; document: SheetDocument; settings: SweepSettings };
+
+export type WorkerReply =
+  | { kind: 'progress'; done: number; total: number }
+  | { kind: 'run-done'; series: RunSeries }
+  | { kind: 'sweep-done'; series: SweepSeries }
+  | { kind: 'failed'; message: string };
+
+export type PostReply = (reply: WorkerReply, transfer: ArrayBuffer[]) => void;
+
+/** About this many progress messages per run, whatever its length. */
+const PROGRESS_MESSAGES = 200;
+
+function isJob(value: unknown): value is WorkerJob {
+  if (value === null || typeof value !== 'object') return false;
+  const job = value as Record<string, unknown>;
+  const hasDocument = job.document !== null && typeof job.document === 'object';
+  if (job.kind === 'run') return hasDocument;
+  return job.kind === 'sweep' && hasDocument && job.settings !== null && typeof job.settings === 'object';
+}
+
+/** Carries out one job, posting progress and then the result (its typed arrays transferred) or the failure. */
+export function performJob(job: unknown, post: PostReply, now: () => number = () => performance.now()): void {
+  if (!isJob(job)) {
+    post({ kind: 'failed', message: 'The worker received a message that is not a run or sweep job.' }, []);
+    return;
+  }
+  const onProgress = (done: number, total: number) => post({ kind: 'progress', done, total }, []);
+  try {
+    const started = now();
+    if (job.kind === 'run') {
+      const settings = job.settings ?? job.document.motion.run;
+      const progressEvery = Math.max(1, Math.ceil(settings.maxTicks / PROGRESS_MESSAGES));
+      const record = runSheet(job.document, { settings, onProgress, progressEvery });
+      const series = runSeries(job.document, record, now() - started);
+      post({ kind: 'run-done', series }, transferablesOf(series));
+    } else {
+      const record = sweepSheet(job.document, job.settings, { onProgress });
+      const series = sweepSeries(job.document, record, now() - started);
+      post({ kind: 'sweep-done', series }, transferablesOf(series));
+    }
+  } catch (error) {
+    post({ kind: 'failed', message: error instanceof Error ? error.message : String(error) }, []);
+  }
+}

@@ -1,0 +1,65 @@
+import { describe, expect, it } from 'vitest';
+import { runSheet } from '../../../src/lib/kinematics/run';
+import { createSheetFromTemplate } from '../../../src/lib/sheet/templates';
+import { performJob, type WorkerReply } from '../../../src/workers/run-protocol';
+
+function sheet(maxTicks: number) {
+  const doc = createSheetFromTemplate('tri-radial', { kind: 'sphere', radius: 0.03 });
+  doc.motion.run = { ...doc.motion.run, maxTicks, positionTolerance: 1e-12, angleTolerance: 1e-12, stopOnSingular: false };
+  return doc;
+}
+
+/** Runs a job and collects what the worker would post. */
+function perform(job: unknown) {
+  const replies: { reply: WorkerReply; transfer: ArrayBuffer[] }[] = [];
+  let clock = 100;
+  performJob(job, (reply, transfer) => replies.push({ reply, transfer }), () => (clock += 7));
+  return replies;
+}
+
+describe('performJob', () => {
+  it('runs the sheet to its tick limit, reporting progress about 200 times and then one result', () => {
+    const doc = sheet(1000);
+    const replies = perform({ kind: 'run', document: doc });
+    const progress = replies.filter((r) => r.reply.kind === 'progress').map((r) => r.reply as { done: number; total: number });
+    expect(progress).toHaveLength(200);
+    expect(progress[0]).toEqual({ kind: 'progress', done: 5, total: 1000 });
+    expect(progress.at(-1)).toEqual({ kind: 'progress', done: 1000, total: 1000 });
+    const last = replies.at(-1)!;
+    expect(last.reply.kind).toBe('run-done');
+    if (last.reply.kind !== 'run-done') return;
+    const series = last.reply.series;
+    expect(series.tickCount).toBe(1000);
+    expect(series.stopReason).toBe('tick-limit');
+    expect(series.elapsedMs).toBe(7);
+    const record = runSheet(doc);
+    expect(Array.from(series.positionError)).toEqual(Array.from(record.positionError));
+    expect(last.transfer).toContain(series.positionError.buffer);
+    expect(last.transfer).toContain(series.jointRates[3]!.values.buffer);
+  });
+
+  it('uses the settings given with the job instead of the sheet’s', () => {
+    const doc = sheet(1000);
+    const replies = perform({ kind: 'run', document: doc, settings: { ...doc.motion.run, maxTicks: 30 } });
+    const last = replies.at(-1)!.reply;
+    expect(last.kind === 'run-done' && last.series.tickCount).toBe(30);
+  });
+
+  it('sweeps with progress after every value', () => {
+    const replies = perform({ kind: 'sweep', document: sheet(10), settings: { path: '/hand/fingers/0/roller/radius', from: 0.011, to: 0.013, steps: 5 } });
+    expect(replies.filter((r) => r.reply.kind === 'progress').map((r) => (r.reply as { done: number }).done)).toEqual([1, 2, 3, 4, 5]);
+    const last = replies.at(-1)!.reply;
+    expect(last.kind).toBe('sweep-done');
+    if (last.kind !== 'sweep-done') return;
+    [0.011, 0.0115, 0.012, 0.0125, 0.013].forEach((v, i) => expect(last.series.values[i]).toBeCloseTo(v, 15));
+    expect(last.series.fingers[0]!.gap[0]! - last.series.fingers[0]!.gap[4]!).toBeCloseTo(0.002, 12);
+  });
+
+  it('reports a failure in words for a bad sweep path or a message that is not a job', () => {
+    const bad = perform({ kind: 'sweep', document: sheet(10), settings: { path: '/object/nowhere', from: 0, to: 1, steps: 2 } });
+    expect(bad).toEqual([{ reply: { kind: 'failed', message: expect.stringMatching(/does not exist/) }, transfer: [] }]);
+    for (const junk of [null, 'run', { kind: 'run' }, { kind: 'sweep', document: {} }, { kind: 'explode', document: {} }]) {
+      expect(perform(junk)).toEqual([{ reply: { kind: 'failed', message: expect.stringMatching(/not a run or sweep job/) }, transfer: [] }]);
+    }
+  });
+});
