@@ -1,5 +1,5 @@
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
-import { lazy, Suspense, useCallback, useEffect, useMemo, useState } from 'react';
+import { useCallback, useEffect, useMemo, useState } from 'react';
 import type { WarningCode } from '../../lib/kinematics';
 import { WARNING_CATALOGUE } from '../../lib/kinematics/warnings';
 import type { SheetPageData } from '../../lib/server/sheet-page';
@@ -15,13 +15,14 @@ import ObjectSection from './ObjectSection';
 import PadSection from './PadSection';
 import ResultsSection from './ResultsSection';
 import SavePanel from './SavePanel';
-import SceneView from './SceneView';
 import TitleBlock from './TitleBlock';
 import { useCompute } from './useCompute';
 import VariablesEditor from './VariablesEditor';
 
-const RunPanel = lazy(() => import('./RunPanel'));
-const SweepPanel = lazy(() => import('./SweepPanel'));
+/** Stands where the 3D view and the run and sweep panels go. */
+function ViewPlaceholder({ label }: { label: string }) {
+  return <section className="border-2 border-dashed border-rule bg-paper-deep/50 p-6 text-sm text-graphite">{label}</section>;
+}
 
 type RawDocument = Record<string, unknown>;
 
@@ -231,13 +232,8 @@ function Editor({ data }: { data: SheetPageData }) {
             )}
           </div>
           <aside className="space-y-4 xl:sticky xl:top-4 xl:self-start" aria-label="Views, runs and sweeps">
-            {lastGood ? <SceneView document={lastGood.document} result={lastGood.result} /> : <div className="h-80 border-2 border-ink bg-paper-deep" />}
-            {lastGood && (
-              <Suspense fallback={<p className="text-sm text-graphite">Loading runs and sweeps…</p>}>
-                <RunPanel document={lastGood.document} />
-                <SweepPanel document={lastGood.document} />
-              </Suspense>
-            )}
+            <ViewPlaceholder label="3D view" />
+            <ViewPlaceholder label="Runs and sweeps" />
           </aside>
         </div>
       </div>
