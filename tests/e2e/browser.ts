@@ -42,3 +42,12 @@ declare module 'vitest' {
     baseUrl: string;
   }
 }
+
+/** Signs in through the sign-in form with e-mail and password and waits until the app has left the sign-in page. */
+export async function signIn(page: Page, email: string, password: string): Promise<void> {
+  await page.goto(`${baseUrl()}/sign-in`, { waitUntil: 'networkidle' });
+  await page.getByLabel('E-mail', { exact: true }).fill(email);
+  await page.getByLabel('Password', { exact: true }).fill(password);
+  await page.getByRole('button', { name: 'Sign in', exact: true }).click();
+  await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
+}

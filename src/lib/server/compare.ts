@@ -159,15 +159,35 @@ function differenceOf(group: string, quantity: string, unit: string, from: Outpu
   return { ...row, absolute, relative, level };
 }
 
-function fingerValues(finger: PlainFinger): Map<string, { quantity: string; unit: string; value: OutputValue }> {
-  const values = new Map<string, { quantity: string; unit: string; value: OutputValue }>();
+/** One reported output of a result: the finger (or "grasp"), what it is, its unit and value. */
+export interface OutputValueRow {
+  group: string;
+  quantity: string;
+  unit: string;
+  value: OutputValue;
+}
+
+function fingerValues(finger: PlainFinger): Map<string, OutputValueRow> {
+  const values = new Map<string, OutputValueRow>();
   for (const q of FINGER_QUANTITIES) {
     for (const [part, value] of q.values(finger)) {
       const quantity = part ? `${q.quantity} · ${part}` : q.quantity;
-      values.set(quantity, { quantity, unit: q.unit, value });
+      values.set(quantity, { group: finger.name, quantity, unit: q.unit, value });
     }
   }
   return values;
+}
+
+function graspValues(result: PlainSheetResult): OutputValueRow[] {
+  return [
+    { group: 'grasp', quantity: 'grasp map rank', unit: '', value: result.grasp.rank },
+    { group: 'grasp', quantity: 'undrivable object directions', unit: '', value: result.grasp.undrivableCount },
+  ];
+}
+
+/** The main outputs of a result, finger by finger and then the grasp, in the order a reader checks them. */
+export function listOutputs(result: PlainSheetResult): OutputValueRow[] {
+  return [...result.fingers.flatMap((f) => [...fingerValues(f).values()]), ...graspValues(result)];
 }
 
 /** The main outputs of two results side by side; fingers are matched by name. */
@@ -177,16 +197,16 @@ export function compareOutputs(from: PlainSheetResult, to: PlainSheetResult): Ou
   for (const name of names) {
     const a = from.fingers.find((f) => f.name === name);
     const b = to.fingers.find((f) => f.name === name);
-    const left = a ? fingerValues(a) : new Map();
-    const right = b ? fingerValues(b) : new Map();
+    const left = a ? fingerValues(a) : new Map<string, OutputValueRow>();
+    const right = b ? fingerValues(b) : new Map<string, OutputValueRow>();
     const keys = [...left.keys(), ...[...right.keys()].filter((key) => !left.has(key))];
     for (const key of keys) {
       const entry = left.get(key) ?? right.get(key)!;
       rows.push(differenceOf(name, entry.quantity, entry.unit, left.get(key)?.value ?? null, right.get(key)?.value ?? null));
     }
   }
-  rows.push(differenceOf('grasp', 'grasp map rank', '', from.grasp.rank, to.grasp.rank));
-  rows.push(differenceOf('grasp', 'undrivable object directions', '', from.grasp.undrivableCount, to.grasp.undrivableCount));
+  const [fromGrasp, toGrasp] = [graspValues(from), graspValues(to)];
+  fromGrasp.forEach((row, i) => rows.push(differenceOf('grasp', row.quantity, row.unit, row.value, toGrasp[i].value)));
   return rows;
 }
 
