@@ -92,7 +92,11 @@ async function scratchSheet(fx: Fixture, extra: Omit<Prepared, 'params' | 'clean
 
 async function newTeamMember(fx: Fixture): Promise<Prepared> {
   const member = await addTestMember('viewer', { teamId: fx.teamId });
-  return { params: { teamId: fx.teamId, userId: member.userId } };
+  const deleteUser = async () => {
+    const database = await getDatabase();
+    await database.write((db) => db.delete(users).where(eq(users.id, member.userId)));
+  };
+  return { params: { teamId: fx.teamId, userId: member.userId }, cleanup: deleteUser };
 }
 
 const ROWS: Row[] = [
