@@ -58,7 +58,7 @@ export interface SteerAndRoll {
   pivotAngle: number;
   /** The roll direction could be aligned exactly with the remainder. */
   aligned: boolean;
-  /** Angle between the steered roll direction and the remainder's line, rad. */
+  /** Angle between the steered roll direction and the remainder's line, rad (0 when aligned). */
   misalignment: number;
   /** Distance from the contact to the roll axis after steering, m. */
   rollDistance: number;
@@ -490,8 +490,13 @@ function steer(finger: Finger, contact: Contact, out: SteerAndRoll, ws: SolveWor
   out.rollDistance = Math.sqrt(dd);
   out.rollRate = dd > 0 ? du / dd : 0;
   out.rates[finger.rollIndex] = out.rollRate;
-  const crossX = dy * u[2] - dz * u[1], crossY = dz * u[0] - dx * u[2], crossZ = dx * u[1] - dy * u[0];
-  out.misalignment = dd > 0 && uNorm > 0 ? Math.atan2(Math.sqrt(crossX * crossX + crossY * crossY + crossZ * crossZ), Math.abs(du)) : 0;
+  // An exact alignment leaves only rounding between d and u; the angle matters only when it is real.
+  if (aligned || !(dd > 0 && uNorm > 0)) {
+    out.misalignment = 0;
+  } else {
+    const crossX = dy * u[2] - dz * u[1], crossY = dz * u[0] - dx * u[2], crossZ = dx * u[1] - dy * u[0];
+    out.misalignment = Math.atan2(Math.sqrt(crossX * crossX + crossY * crossY + crossZ * crossZ), Math.abs(du));
+  }
 }
 
 function rollDirectionSquared(D: Float64Array, c: number, s: number): number {
