@@ -241,6 +241,67 @@ function PendingInvitations({ teamId }: { teamId: string }) {
   );
 }
 
+interface TeamTokenRow {
+  id: string;
+  name: string;
+  role: Role;
+  holderName: string | null;
+  holderEmail: string | null;
+  createdAt: string;
+  lastUsedAt: string | null;
+  revokedAt: string | null;
+}
+
+function TeamTokens({ teamId }: { teamId: string }) {
+  const queryClient = useQueryClient();
+  const tokens = useQuery({
+    queryKey: ['team-tokens', teamId],
+    queryFn: () => requestJson<{ tokens: TeamTokenRow[] }>(`/api/teams/${encodeURIComponent(teamId)}/tokens`).then((r) => r.tokens),
+  });
+  const revoke = useMutation({
+    mutationFn: (id: string) => requestJson(`/api/tokens/${encodeURIComponent(id)}`, { method: 'DELETE' }),
+    onSettled: () => queryClient.invalidateQueries({ queryKey: ['team-tokens', teamId] }),
+  });
+  if (tokens.isPending) return <p className="text-sm text-graphite">Loading tokens…</p>;
+  if (tokens.isError) return <FormError message={tokens.error.message} />;
+  const active = tokens.data.filter((t) => !t.revokedAt);
+  if (!active.length) return <p className="text-sm text-graphite">No active API tokens can reach this team.</p>;
+  return (
+    <div className="overflow-x-auto">
+      {revoke.isError && <FormError message={revoke.error.message} />}
+      <table className="w-full text-sm border-collapse" data-testid="team-token-list">
+        <thead>
+          <tr className="border-b-2 border-ink">
+            <th className={th}>Token</th>
+            <th className={th}>Holder</th>
+            <th className={th}>Role</th>
+            <th className={th}>Last used</th>
+            <th className="py-2" />
+          </tr>
+        </thead>
+        <tbody>
+          {active.map((token) => (
+            <tr key={token.id} className="border-b border-rule">
+              <td className={td + ' font-semibold'}>{token.name}</td>
+              <td className={td}>
+                {token.holderName ?? '—'}
+                <span className="block text-xs text-graphite num">{token.holderEmail}</span>
+              </td>
+              <td className={td + ' num text-xs uppercase'}>{token.role}</td>
+              <td className={td + ' num text-xs'}>{formatWhen(token.lastUsedAt)}</td>
+              <td className="py-2 text-right">
+                <button type="button" className={dangerButton} disabled={revoke.isPending} onClick={() => revoke.mutate(token.id)}>
+                  Revoke
+                </button>
+              </td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
+  );
+}
+
 function Members(props: Props) {
   return (
     <div className="space-y-10">
@@ -268,6 +329,13 @@ function Members(props: Props) {
               Pending invitations
             </h2>
             <PendingInvitations teamId={props.teamId} />
+          </section>
+          <section aria-labelledby="team-tokens-heading" className="space-y-3 border-t border-rule pt-6">
+            <h2 id="team-tokens-heading" className="text-lg font-semibold">
+              API tokens in this team
+            </h2>
+            <p className="text-sm text-graphite">Every member's active tokens for this team; revoking one stops it at once.</p>
+            <TeamTokens teamId={props.teamId} />
           </section>
         </>
       )}

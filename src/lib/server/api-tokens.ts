@@ -1,4 +1,4 @@
-import { and, desc, eq, isNull } from 'drizzle-orm';
+import { and, desc, eq, isNull, sql } from 'drizzle-orm';
 import type { Database } from '../../db';
 import { apiTokens, teams, users, type Role } from '../../db/schema';
 import { roleWithin, type Identity } from './access';
@@ -96,6 +96,17 @@ export async function listApiTokens(database: Database, userId: string): Promise
     .innerJoin(teams, eq(teams.id, apiTokens.teamId))
     .where(eq(apiTokens.userId, userId))
     .orderBy(desc(apiTokens.createdAt));
+}
+
+/** A team's tokens with their holders, for the owner's overview; active ones first, then newest first. */
+export async function listTeamApiTokens(database: Database, teamId: string): Promise<(ApiTokenSummary & { holderEmail: string | null; holderName: string | null })[]> {
+  return database.db
+    .select({ ...summaryColumns, holderEmail: users.email, holderName: users.name })
+    .from(apiTokens)
+    .innerJoin(teams, eq(teams.id, apiTokens.teamId))
+    .innerJoin(users, eq(users.id, apiTokens.userId))
+    .where(eq(apiTokens.teamId, teamId))
+    .orderBy(sql`${apiTokens.revokedAt} is not null`, desc(apiTokens.createdAt));
 }
 
 /**

@@ -2,7 +2,7 @@ import { eq } from 'drizzle-orm';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { apiTokens, auditEvents } from '../../../src/db/schema';
 import type { Identity } from '../../../src/lib/server/access';
-import { createApiToken, listApiTokens, revokeApiToken } from '../../../src/lib/server/api-tokens';
+import { createApiToken, listApiTokens, listTeamApiTokens, revokeApiToken } from '../../../src/lib/server/api-tokens';
 import { getDatabase } from '../../../src/lib/server/database';
 import { identityForToken, identityForUser } from '../../../src/lib/server/identity';
 import { removeMember } from '../../../src/lib/server/members';
@@ -132,6 +132,18 @@ describe('using and revoking a token', () => {
     const { summary: second } = await mint(editor, 'viewer', 'revoke by holder');
     expect(await revokeApiToken(database, editor, second.id)).toMatchObject({ ok: true });
     expect(await revokeApiToken(database, editor, 'no-such-token')).toMatchObject({ ok: false, status: 404 });
+  });
+
+  it("lists every member's tokens of a team for the owner, active ones first, without secrets", async () => {
+    const database = await getDatabase();
+    const { token, summary } = await mint(editor, 'viewer', 'seen by the owner');
+    const { summary: gone } = await mint(editor, 'viewer', 'revoked before listing');
+    await revokeApiToken(database, editor, gone.id);
+    const listed = await listTeamApiTokens(database, teamId);
+    const revokedAt = listed.map((t) => t.revokedAt);
+    expect(revokedAt.findIndex((r) => r !== null)).toBeGreaterThan(revokedAt.lastIndexOf(null));
+    expect(listed.find((t) => t.id === summary.id)).toMatchObject({ holderEmail: 'editor@fenwick.example', role: 'viewer' });
+    expect(JSON.stringify(listed)).not.toContain(token);
   });
 
   it('stops working when the holder is removed from the team, and stays revoked if they return', async () => {

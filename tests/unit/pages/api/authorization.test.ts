@@ -191,6 +191,12 @@ const ROWS: Row[] = [
     expect: { ...SESSION_ONLY(200), other: 404 },
   },
   {
+    route: 'teams/[teamId]/tokens.ts',
+    method: 'GET',
+    prepare: (fx) => ({ params: { teamId: fx.teamId } }),
+    expect: OWNER_ONLY(200),
+  },
+  {
     route: 'teams/[teamId]/invitations.ts',
     method: 'GET',
     prepare: (fx) => ({ params: { teamId: fx.teamId } }),
