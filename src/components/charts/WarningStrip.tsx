@@ -4,7 +4,7 @@ import type { WarningOccurrence } from '../../lib/view/series';
 
 const LEVELS = ['none', 'note', 'caution', 'singular'] as const;
 const ROW_HEIGHT = 14;
-const LABEL_WIDTH = 210;
+const LABEL_WIDTH = 160;
 
 /** Consecutive indices gathered into [start, end) stretches. */
 function stretchesOf(indices: number[]): { start: number; end: number }[] {

@@ -58,7 +58,7 @@ function RunResults({ series, stale }: { series: RunSeries; stale: boolean }) {
         </p>
       </div>
       <WarningStrip count={series.tickCount} worst={series.worstSeverity} warnings={series.warnings} axisLabel="ticks" />
-      <div className="grid gap-4 xl:grid-cols-2">
+      <div className="grid gap-4 @3xl:grid-cols-2">
         <LineChart title="Joint angles" yLabel="deg" series={charts.angles} {...common} />
         <LineChart title="Joint rates" yLabel="rad/s" series={charts.rates} {...common} />
         <LineChart title="Orientation error (angles)" yLabel="deg" series={charts.orientationAngles} {...common} />
@@ -81,7 +81,7 @@ export default function RunPanel({ document }: { document: SheetDocument }) {
   }
 
   return (
-    <section className="space-y-4" aria-label="Run toward the target pose" data-testid="run-panel">
+    <section className="@container space-y-4 border-2 border-ink bg-paper p-3" aria-label="Run toward the target pose" data-testid="run-panel">
       <div className="flex flex-wrap items-end gap-4">
         <div className="text-sm">
           <h3 className="font-semibold">Run toward the target pose</h3>

@@ -45,7 +45,7 @@ function SweepResults({ series, input }: { series: SweepSeries; input: SweepInpu
         <span className="num">{series.elapsedMs.toFixed(0)} ms</span>. Shading marks the worst warning at each value.
       </p>
       <WarningStrip count={series.values.length} worst={series.worstSeverity} warnings={series.warnings} axisLabel="the swept values" />
-      <div className="grid gap-4 xl:grid-cols-2">
+      <div className="grid gap-4 @3xl:grid-cols-2">
         <LineChart title="Joint rates (full solution)" yLabel="rad/s" series={charts.rates} {...common} />
         <LineChart title="Condition number of the contact Jacobian" yLabel="σmax/σmin" logY series={charts.condition} {...common} />
         <LineChart title="Residual slip speed" yLabel="mm/s" series={charts.residual} {...common} />
@@ -88,15 +88,16 @@ export default function SweepPanel({ document }: { document: SheetDocument }) {
   }
 
   return (
-    <section className="space-y-4" aria-label="Sweep one input" data-testid="sweep-panel">
+    <section className="@container space-y-4 border-2 border-ink bg-paper p-3" aria-label="Sweep one input" data-testid="sweep-panel">
+      <h3 className="text-sm font-semibold">Sweep one input</h3>
       <form
         onSubmit={(event) => {
           event.preventDefault();
           submit();
         }}
         noValidate
-        className="grid items-end gap-3 md:grid-cols-[3fr_1fr_1fr_1fr_auto]">
-        <label className={labelClass}>
+        className="grid grid-cols-3 items-end gap-3 @2xl:grid-cols-[3fr_1fr_1fr_1fr_auto]">
+        <label className={`${labelClass} col-span-3 @2xl:col-span-1`}>
           Input to sweep
           <select className={inputClass} value={input.path} onChange={(e) => choose(e.target.value)} name="sweepPath">
             {inputs.map((i) => (
@@ -118,7 +119,7 @@ export default function SweepPanel({ document }: { document: SheetDocument }) {
           Steps
           <input className={inputClass} name="sweepSteps" inputMode="numeric" value={steps} onChange={(e) => setSteps(e.target.value)} />
         </label>
-        <button className={primaryButton} disabled={state.status === 'running'}>
+        <button className={`${primaryButton} col-span-3 @2xl:col-span-1`} disabled={state.status === 'running'}>
           Sweep
         </button>
       </form>

@@ -1,0 +1,218 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Browser, BrowserContext, Page } from 'playwright-core';
+import { createSheetFromTemplate } from '../../src/lib/sheet/templates';
+import type { SheetDocument } from '../../src/lib/sheet/types';
+import { baseUrl, launchBrowser, saveScreenshot, signIn } from './browser';
+
+const EDITOR = { email: 'editor@fenwick.example', password: 'slipless-demo' };
+const TIMED_TICKS = 2000;
+const LONG_TICKS = 1_000_000;
+
+let browser: Browser;
+let page: Page;
+let timedSheetId: string;
+let longSheetId: string;
+
+/** A three-finger sheet whose run goes to its tick limit: tolerances it cannot meet and no stop on singular warnings. */
+function sheetRunningFor(maxTicks: number, title: string): SheetDocument {
+  const doc = createSheetFromTemplate('tri-radial', { kind: 'sphere', radius: 0.03 });
+  doc.title = title;
+  doc.motion.run = { ...doc.motion.run, maxTicks, positionTolerance: 1e-12, angleTolerance: 1e-12, stopOnSingular: false };
+  return doc;
+}
+
+async function createSheet(doc: SheetDocument): Promise<string> {
+  const me = await (await page.request.get(`${baseUrl()}/api/me`)).json();
+  const response = await page.request.post(`${baseUrl()}/api/sheets`, {
+    data: { teamId: me.currentTeam, title: doc.title, tags: ['browser-test'], document: doc, message: 'Created by the scene and plot browser test' },
+  });
+  expect(response.status()).toBe(201);
+  return (await response.json()).sheetId;
+}
+
+async function openSheet(target: Page, sheetId: string): Promise<void> {
+  await target.goto(`${baseUrl()}/sheets/${sheetId}`, { waitUntil: 'networkidle' });
+  await target.getByTestId('scene-view').filter({ hasText: 'at the solved state' }).waitFor();
+}
+
+/** Pixels of a PNG that differ clearly from the paper background, and the number of distinct colours (16 levels per channel). */
+async function pixelStats(target: Page, png: Buffer): Promise<{ inked: number; total: number; colours: number }> {
+  return target.evaluate(async (base64) => {
+    const bytes = Uint8Array.from(atob(base64), (c) => c.charCodeAt(0));
+    const bitmap = await createImageBitmap(new Blob([bytes], { type: 'image/png' }));
+    const canvas = new OffscreenCanvas(bitmap.width, bitmap.height);
+    const context = canvas.getContext('2d')!;
+    context.drawImage(bitmap, 0, 0);
+    const { data } = context.getImageData(0, 0, bitmap.width, bitmap.height);
+    let inked = 0;
+    const colours = new Set<number>();
+    for (let i = 0; i < data.length; i += 4) {
+      const [r, g, b] = [data[i]!, data[i + 1]!, data[i + 2]!];
+      if (Math.abs(r - 0xf6) + Math.abs(g - 0xf4) + Math.abs(b - 0xec) > 40) inked++;
+      colours.add(((r >> 4) << 8) | ((g >> 4) << 4) | (b >> 4));
+    }
+    return { inked, total: data.length / 4, colours: colours.size };
+  }, png.toString('base64'));
+}
+
+/** Clicks Run and resolves with every progress value the bar showed and the wall time until the plots were up. */
+async function runOnce(target: Page): Promise<{ progress: number[]; wallMs: number; workerMs: number }> {
+  const panel = target.getByTestId('run-panel');
+  await target.evaluate(() => {
+    const seen: number[] = [];
+    (window as unknown as { progressSeen: number[] }).progressSeen = seen;
+    new MutationObserver(() => {
+      const bar = document.querySelector('[data-testid="run-panel"] [role="progressbar"]');
+      const value = Number(bar?.getAttribute('aria-valuenow'));
+      if (bar && value > 0 && value !== seen[seen.length - 1]) seen.push(value);
+    }).observe(document.querySelector('[data-testid="run-panel"]')!, { subtree: true, childList: true, attributes: true });
+  });
+  const started = Date.now();
+  await panel.getByRole('button', { name: /^Run( again)?$/ }).click();
+  await panel.getByTestId('run-results').waitFor();
+  await target.waitForFunction(() => document.querySelectorAll('[data-testid="run-panel"] .uplot canvas').length >= 5);
+  const wallMs = Date.now() - started;
+  const progress = await target.evaluate(() => (window as unknown as { progressSeen: number[] }).progressSeen);
+  const workerMs = Number(await panel.getByTestId('run-elapsed').getAttribute('data-ms'));
+  return { progress, wallMs, workerMs };
+}
+
+const median = (values: number[]) => {
+  const sorted = [...values].sort((a, b) => a - b);
+  return sorted.length % 2 ? sorted[(sorted.length - 1) / 2]! : 0.5 * (sorted[sorted.length / 2 - 1]! + sorted[sorted.length / 2]!);
+};
+
+beforeAll(async () => {
+  browser = await launchBrowser();
+  page = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
+  await signIn(page, EDITOR.email, EDITOR.password);
+  timedSheetId = await createSheet(sheetRunningFor(TIMED_TICKS, 'Browser test: 2,000-tick run'));
+  longSheetId = await createSheet(sheetRunningFor(LONG_TICKS, 'Browser test: million-tick run'));
+});
+
+afterAll(async () => {
+  await browser?.close();
+});
+
+describe('3D view, its SVG fallback, runs and sweeps on the sheet page', () => {
+  it('draws the scene with WebGL into a canvas that is not blank', async () => {
+    await openSheet(page, timedSheetId);
+    const view = page.getByTestId('scene-view');
+    expect(await view.getAttribute('data-webgl')).toBe('true');
+    const canvas = view.getByTestId('scene-3d').locator('canvas');
+    await canvas.waitFor();
+    await page.waitForTimeout(500);
+    const stats = await pixelStats(page, await canvas.screenshot());
+    // Object, three rollers, chains, arrows and the palm grid: a good share of inked pixels in many colours.
+    expect(stats.inked / stats.total).toBeGreaterThan(0.05);
+    expect(stats.colours).toBeGreaterThan(20);
+    expect(await view.getByTestId('scene-legend').innerText()).toMatch(/Contact normal[\s\S]*Object velocity[\s\S]*Roll direction/);
+
+    // Dragging orbits the camera: the picture changes.
+    const box = (await canvas.boundingBox())!;
+    const before = (await canvas.screenshot()).toString('base64');
+    await page.mouse.move(box.x + box.width / 2, box.y + box.height / 2);
+    await page.mouse.down();
+    await page.mouse.move(box.x + box.width / 2 + 120, box.y + box.height / 2 + 40, { steps: 8 });
+    await page.mouse.up();
+    await page.waitForTimeout(200);
+    expect((await canvas.screenshot()).toString('base64')).not.toBe(before);
+    await saveScreenshot(page, 'scene-3d');
+    await canvas.screenshot({ path: 'test-results/screenshots/scene-3d-canvas.png' });
+  });
+
+  it('falls back to top, front and side SVG views where WebGL is missing', async () => {
+    const context: BrowserContext = await browser.newContext({ viewport: { width: 1440, height: 1000 }, storageState: await page.context().storageState() });
+    await context.addInitScript(() => {
+      const original = HTMLCanvasElement.prototype.getContext;
+      HTMLCanvasElement.prototype.getContext = function (this: HTMLCanvasElement, kind: string, ...rest: unknown[]) {
+        if (/webgl/.test(kind)) return null;
+        return (original as (...args: unknown[]) => unknown).call(this, kind, ...rest);
+      } as typeof original;
+    });
+    const noGl = await context.newPage();
+    await openSheet(noGl, timedSheetId);
+    const fallback = noGl.getByTestId('scene-fallback');
+    await fallback.waitFor();
+    expect(await noGl.getByTestId('scene-view').getAttribute('data-webgl')).toBe('false');
+    expect(await noGl.getByTestId('scene-3d').count()).toBe(0);
+    for (const name of ['top', 'front', 'side']) {
+      const svg = fallback.locator(`svg[data-view="${name}"]`);
+      expect(await svg.locator('polygon[data-part="object"]').count()).toBe(1);
+      expect(await svg.locator('polygon[data-part^="roller-"]').count()).toBe(3);
+      expect(await svg.locator('g[data-part="contact"]').count()).toBe(3);
+      expect(await svg.locator('g[data-part="contact"] line').count()).toBeGreaterThanOrEqual(6);
+    }
+    await saveScreenshot(noGl, 'scene-fallback');
+    await fallback.screenshot({ path: 'test-results/screenshots/scene-fallback-views.png' });
+    await context.close();
+  });
+
+  it('runs 2,000 ticks in the worker with a progress bar and plots angles, rates, errors and warnings', async () => {
+    await openSheet(page, timedSheetId);
+    const times: { wallMs: number; workerMs: number }[] = [];
+    for (let i = 0; i < 5; i++) {
+      const { progress, wallMs, workerMs } = await runOnce(page);
+      times.push({ wallMs, workerMs });
+      if (i === 0) {
+        expect(progress.length).toBeGreaterThan(0);
+        expect(progress.every((v, k) => k === 0 || v > progress[k - 1]!)).toBe(true);
+        expect(progress[progress.length - 1]).toBeLessThanOrEqual(TIMED_TICKS);
+      }
+    }
+    const panel = page.getByTestId('run-panel');
+    expect(await panel.getByTestId('run-tick-count').innerText()).toBe('2,000');
+    expect(await panel.getByTestId('run-stop-reason').innerText()).toMatch(/tick limit/);
+    expect(await panel.locator('.uplot').count()).toBe(5);
+    for (const title of ['Joint angles', 'Joint rates', 'Orientation error (angles)', 'Orientation error (dimensionless metrics)', 'Position error']) {
+      expect(await panel.locator('.u-title', { hasText: title }).count()).toBe(1);
+    }
+    expect(await panel.locator('.u-legend').first().innerText()).toMatch(/north-base/);
+    await panel.getByTestId('warning-strip').waitFor();
+    const plot = panel.locator('.uplot canvas').first();
+    const stats = await pixelStats(page, await plot.screenshot());
+    expect(stats.colours).toBeGreaterThan(4);
+    console.info(
+      `2,000-tick run: worker median ${median(times.map((t) => t.workerMs)).toFixed(1)} ms, click-to-plots median ${median(times.map((t) => t.wallMs))} ms`,
+      JSON.stringify(times),
+    );
+    await panel.scrollIntoViewIfNeeded();
+    await saveScreenshot(page, 'run-plots');
+    await panel.screenshot({ path: 'test-results/screenshots/run-panel.png' });
+  });
+
+  it('cancels a million-tick run part way by terminating the worker', async () => {
+    await openSheet(page, longSheetId);
+    const panel = page.getByTestId('run-panel');
+    await panel.getByRole('button', { name: 'Run', exact: true }).click();
+    const bar = panel.getByRole('progressbar');
+    await page.waitForFunction(() => Number(document.querySelector('[data-testid="run-panel"] [role="progressbar"]')?.getAttribute('aria-valuenow')) > 0);
+    expect(await bar.getAttribute('aria-valuemax')).toBe(String(LONG_TICKS));
+    await panel.screenshot({ path: 'test-results/screenshots/run-progress.png' });
+    await panel.getByRole('button', { name: 'Cancel' }).click();
+    const cancelled = panel.getByTestId('job-cancelled');
+    await cancelled.waitFor();
+    expect(await cancelled.innerText()).toMatch(/Cancelled after [\d,]+ of 1,000,000 ticks/);
+    expect(await panel.getByTestId('run-results').count()).toBe(0);
+    expect(await panel.getByRole('progressbar').count()).toBe(0);
+    await panel.getByRole('button', { name: 'Run', exact: true }).isEnabled();
+  });
+
+  it('sweeps a roller radius and plots rates, conditioning, residual and gap over it', async () => {
+    await openSheet(page, timedSheetId);
+    const panel = page.getByTestId('sweep-panel');
+    await panel.getByLabel('Input to sweep').selectOption('/hand/fingers/0/roller/radius');
+    expect(await panel.getByLabel('From (mm)').inputValue()).toBe('9');
+    expect(await panel.getByLabel('To (mm)').inputValue()).toBe('15');
+    await panel.getByLabel('Steps').fill('25');
+    await panel.getByRole('button', { name: 'Sweep' }).click();
+    await panel.getByTestId('sweep-results').waitFor();
+    await page.waitForFunction(() => document.querySelectorAll('[data-testid="sweep-panel"] .uplot canvas').length >= 4);
+    for (const title of ['Joint rates (full solution)', 'Condition number of the contact Jacobian', 'Residual slip speed', 'Contact gap']) {
+      expect(await panel.locator('.u-title', { hasText: title }).count()).toBe(1);
+    }
+    expect(await panel.locator('.u-legend').nth(3).innerText()).toMatch(/north[\s\S]*southwest[\s\S]*southeast/);
+    await panel.scrollIntoViewIfNeeded();
+    await panel.screenshot({ path: 'test-results/screenshots/sweep-panel.png' });
+  });
+});
