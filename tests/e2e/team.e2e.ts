@@ -90,4 +90,49 @@ describe('team and token pages', () => {
     await expect(page.locator('#current-password-error').innerText()).resolves.toBe('That is not your current password.');
     await saveScreenshot(page, 'account');
   });
+
+  it('lets the owner see and revoke a team token from the members page', async () => {
+    const created = await page.evaluate(async () => {
+      const teamId = (await (await fetch('/api/me')).json()).currentTeam;
+      const response = await fetch('/api/tokens', {
+        method: 'POST',
+        headers: { 'content-type': 'application/json' },
+        body: JSON.stringify({ teamId, name: 'e2e team overview', role: 'viewer' }),
+      });
+      return { status: response.status, body: await response.json() };
+    });
+    expect(created.status).toBe(201);
+    expect((await callMe(created.body.token)).status).toBe(200);
+
+    await page.goto(`${baseUrl()}/team/members`);
+    const row = page.getByTestId('team-token-list').locator('tr', { hasText: 'e2e team overview' });
+    await row.waitFor();
+    await expect(row.innerText()).resolves.toMatch(/owner@fenwick\.example/);
+    await saveScreenshot(page, 'team-tokens');
+    await row.getByRole('button', { name: 'Revoke' }).click();
+    await row.waitFor({ state: 'detached' });
+    expect((await callMe(created.body.token)).status).toBe(401);
+  });
+
+  it('shows a viewer the members read-only and keeps the audit trail from them', async () => {
+    const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const viewer = await context.newPage();
+    await viewer.goto(`${baseUrl()}/sign-in`);
+    await viewer.getByLabel('E-mail', { exact: true }).fill('viewer@fenwick.example');
+    await viewer.getByLabel('Password', { exact: true }).fill('slipless-demo');
+    await viewer.getByRole('button', { name: 'Sign in' }).click();
+    await viewer.waitForURL(`${baseUrl()}/`);
+
+    await viewer.goto(`${baseUrl()}/team/members`);
+    await viewer.getByTestId('member-list').getByText('owner@fenwick.example').waitFor();
+    expect(await viewer.locator('select').count()).toBe(0);
+    expect(await viewer.getByRole('link', { name: 'Audit trail' }).count()).toBe(0);
+    expect(await viewer.getByRole('heading', { name: 'Invite someone' }).count()).toBe(0);
+    await saveScreenshot(viewer, 'team-members-viewer');
+
+    const audit = await viewer.goto(`${baseUrl()}/team/audit`);
+    expect(audit?.status()).toBe(403);
+    await expect(viewer.locator('main').innerText()).resolves.toMatch(/Only the team owner/);
+    await context.close();
+  });
 });
