@@ -119,7 +119,11 @@ export default function ImportDialog({ teamId }: { teamId: string }) {
 
           {upload.isError && (
             <section className="border-l-4 border-sienna pl-3 space-y-2" role="alert" data-testid="import-errors">
-              <p className="text-sm font-semibold text-sienna">{upload.error.message}</p>
+              <p className="text-sm font-semibold text-sienna">
+                {failure && failure.issues.length > 0
+                  ? `Nothing was imported: ${failure.issues.length === 1 ? 'one problem' : `${failure.issues.length} problems`} in the file.`
+                  : upload.error.message}
+              </p>
               {failure && failure.issues.length > 0 && (
                 <ol className="space-y-3 text-sm max-h-80 overflow-y-auto pr-1">
                   {failure.issues.map((issue, i) => (

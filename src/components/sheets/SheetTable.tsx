@@ -94,7 +94,12 @@ function useColumns() {
               </a>
               {sheet.forkedFromSheetId && (
                 <div className="mt-0.5 text-xs text-graphite" data-testid="forked-from">
-                  <span aria-hidden="true">⑂ </span>
+                  <svg aria-hidden="true" viewBox="0 0 12 12" className="inline-block w-3 h-3 mr-1 -mt-0.5 stroke-current fill-none" strokeWidth="1.4">
+                    <circle cx="3" cy="2.5" r="1.5" />
+                    <circle cx="9" cy="2.5" r="1.5" />
+                    <circle cx="6" cy="10" r="1.5" />
+                    <path d="M3 4v1.5c0 1.5 3 1.5 3 3M9 4v1.5c0 1.5-3 1.5-3 3" />
+                  </svg>
                   forked from{' '}
                   {sheet.forkedFromTitle ? (
                     <a href={`/sheets/${sheet.forkedFromSheetId}/history`} className="underline decoration-rule hover:text-verdigris-deep">

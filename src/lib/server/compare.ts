@@ -135,6 +135,7 @@ const FINGER_QUANTITIES: FingerQuantity[] = [
   { quantity: 'tangential speed', unit: 'm/s', values: (f) => single(f.contact.tangentialSpeed) },
   { quantity: 'joint rate (full)', unit: 'rad/s', values: (f) => perJoint(f, f.full.rates) },
   { quantity: 'slip residual (full)', unit: 'm/s', values: (f) => single(f.full.residualNorm) },
+  { quantity: 'singular value', unit: 'm/rad', values: (f) => f.full.singularValues.map((v, i): [string, OutputValue] => [`σ${i + 1}`, v]) },
   { quantity: 'condition number', unit: '', values: (f) => single(f.full.conditionNumber) },
   { quantity: 'manipulability', unit: '', values: (f) => single(f.full.manipulability) },
   { quantity: 'base rate (steer-and-roll)', unit: 'rad/s', values: (f) => single(f.steer.baseRate) },

@@ -1,0 +1,40 @@
+import { eq } from 'drizzle-orm';
+import { describe, expect, it } from 'vitest';
+import { sheets } from '../../../src/db/schema';
+import { getDatabase } from '../../../src/lib/server/database';
+import { listForks, listRevisions } from '../../../src/lib/server/sheets';
+import { WARNING_CATALOGUE } from '../../../src/lib/kinematics';
+import { demoTeamId } from '../../helpers/api-context';
+
+describe('demo sheets seeded into the run database', () => {
+  it('give the peg sheet three revisions and a fork with two, and make the retrofit sheet a fork of the bearing housing', async () => {
+    const database = await getDatabase();
+    const teamId = await demoTeamId();
+    const all = await database.db.select().from(sheets).where(eq(sheets.teamId, teamId));
+    const byTitle = (title: string) => all.find((s) => s.title === title)!;
+    const peg = byTitle('Peg: tilt about the grip line');
+    const pegRevisions = await listRevisions(database, peg.id);
+    expect(pegRevisions.map((r) => r.number)).toEqual([3, 2, 1]);
+    expect(new Set(pegRevisions.map((r) => r.message)).size).toBe(3);
+
+    const forks = await listForks(database, peg.id, [teamId]);
+    expect(forks).toEqual([expect.objectContaining({ title: 'Peg: tilt with 16 mm rollers', forkedFromRevision: 3, latestRevision: 2 })]);
+    const fork = await listRevisions(database, forks[0].id);
+    expect(fork.at(-1)?.message).toBe('Forked from revision 3');
+
+    const retrofit = byTitle('Retrofit fingers: mounting review');
+    expect(retrofit).toMatchObject({ forkedFromSheetId: byTitle('Bearing housing: index a quarter turn').id, forkedFromRevision: 1, latestRevision: 2 });
+  });
+
+  it('raise every kind of warning between them (latest revisions)', async () => {
+    const database = await getDatabase();
+    const teamId = await demoTeamId();
+    const all = await database.db.select().from(sheets).where(eq(sheets.teamId, teamId));
+    const codes = new Set<string>();
+    for (const sheet of all) {
+      const [latest] = await listRevisions(database, sheet.id);
+      for (const code of (latest.summary as { warningCodes: string[] }).warningCodes) codes.add(code);
+    }
+    expect([...codes].sort()).toEqual(Object.keys(WARNING_CATALOGUE).sort());
+  });
+});
