@@ -25,5 +25,5 @@ export function formatRelative(relative: number | null): string {
 export function formatInputValue(value: unknown): string {
   if (value === undefined) return '';
   if (typeof value === 'string') return value;
-  return JSON.stringify(value).replace(/,/g, ', ');
+  return JSON.stringify(value).replace(/,/g, ', ').replace(/":/g, '": ');
 }
