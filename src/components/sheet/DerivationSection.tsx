@@ -1,5 +1,5 @@
 import katex from 'katex';
-import { useMemo, useState } from 'react';
+import { memo, useMemo, useState } from 'react';
 import type { DerivationEntry } from '../../lib/kinematics';
 import { selectInput } from './sheet-styles';
 
@@ -8,12 +8,14 @@ function renderLatex(latex: string): string {
 }
 
 /** Pick a contact (or the grasp) and an output; see each step with the numbers put in. */
-export default function DerivationSection({ entries, fingerNames }: { entries: DerivationEntry[]; fingerNames: string[] }) {
+function DerivationSection({ entries, fingerNames }: { entries: DerivationEntry[]; fingerNames: string[] }) {
   const [scope, setScope] = useState('finger.0');
   const [output, setOutput] = useState('all');
   const inScope = useMemo(() => entries.filter((e) => e.id.startsWith(`${scope}.`)), [entries, scope]);
-  const shown = output === 'all' ? inScope : inScope.filter((e) => e.id === output);
-  const rendered = useMemo(() => shown.map((e) => ({ ...e, html: renderLatex(e.latex) })), [shown]);
+  const rendered = useMemo(
+    () => (output === 'all' ? inScope : inScope.filter((e) => e.id === output)).map((e) => ({ ...e, html: renderLatex(e.latex) })),
+    [inScope, output],
+  );
   return (
     <div className="space-y-3">
       <div className="flex flex-wrap gap-3 text-[11px] uppercase tracking-wide text-graphite">
@@ -47,3 +49,5 @@ export default function DerivationSection({ entries, fingerNames }: { entries: D
     </div>
   );
 }
+
+export default memo(DerivationSection);

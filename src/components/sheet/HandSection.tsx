@@ -114,7 +114,7 @@ export default function HandSection({ parsed }: { parsed: SheetDocument | null }
         )}
       </div>
       {fingers.map((finger, i) => (
-        <details key={i} open={i === 0} className="border border-rule bg-paper" data-finger={i}>
+        <details key={i} open className="border border-rule bg-paper" data-finger={i}>
           <summary className="cursor-pointer px-3 py-2 text-sm font-semibold">
             Finger {i + 1}: {String(finger.name ?? '')}{' '}
             <span className="font-normal text-graphite">

@@ -1,3 +1,4 @@
+import { memo } from 'react';
 import type { PlainSheetResult } from '../../lib/kinematics';
 import { SafetyCaution } from './SafetyCaution';
 
@@ -23,7 +24,7 @@ function Row({ label, value, unit, test }: { label: string; value: string; unit:
 }
 
 /** One table per contact and one for the grasp; the full solution beside steer-and-roll. */
-export default function ResultsSection({ result, stale }: { result: PlainSheetResult | null; stale: boolean }) {
+function ResultsSection({ result, stale }: { result: PlainSheetResult | null; stale: boolean }) {
   if (!result) return <p className="text-sm text-graphite">No results until the sheet reads without errors.</p>;
   return (
     <div className={`space-y-5 transition-opacity ${stale ? 'opacity-60' : ''}`} aria-busy={stale}>
@@ -110,3 +111,5 @@ export default function ResultsSection({ result, stale }: { result: PlainSheetRe
     </div>
   );
 }
+
+export default memo(ResultsSection);

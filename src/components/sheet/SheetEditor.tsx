@@ -1,5 +1,5 @@
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
-import { useCallback, useEffect, useMemo, useState } from 'react';
+import { lazy, memo, Suspense, useCallback, useDeferredValue, useEffect, useMemo, useState } from 'react';
 import type { WarningCode } from '../../lib/kinematics';
 import { WARNING_CATALOGUE } from '../../lib/kinematics/warnings';
 import type { SheetPageData } from '../../lib/server/sheet-page';
@@ -15,14 +15,29 @@ import ObjectSection from './ObjectSection';
 import PadSection from './PadSection';
 import ResultsSection from './ResultsSection';
 import SavePanel from './SavePanel';
+import SceneView from './SceneView';
 import TitleBlock from './TitleBlock';
 import { useCompute } from './useCompute';
 import VariablesEditor from './VariablesEditor';
 
-/** Stands where the 3D view and the run and sweep panels go. */
-function ViewPlaceholder({ label }: { label: string }) {
-  return <section className="border-2 border-dashed border-rule bg-paper-deep/50 p-6 text-sm text-graphite">{label}</section>;
-}
+const RunPanel = lazy(() => import('./RunPanel'));
+const SweepPanel = lazy(() => import('./SweepPanel'));
+
+type Solved = NonNullable<ReturnType<typeof useCompute>['lastGood']>;
+
+/** The 3D view and the run and sweep panels, redrawn after the results table (they follow a deferred copy). */
+const SideViews = memo(function SideViews({ solved }: { solved: Solved | null }) {
+  if (!solved) return <div className="h-80 border-2 border-ink bg-paper-deep" />;
+  return (
+    <>
+      <SceneView document={solved.document} result={solved.result} />
+      <Suspense fallback={<p className="text-sm text-graphite">Loading runs and sweeps…</p>}>
+        <RunPanel document={solved.document} />
+        <SweepPanel document={solved.document} />
+      </Suspense>
+    </>
+  );
+});
 
 type RawDocument = Record<string, unknown>;
 
@@ -97,6 +112,7 @@ function Editor({ data }: { data: SheetPageData }) {
   }, []);
 
   const { reply, lastGood, pending } = useCompute(document);
+  const deferred = useDeferredValue(lastGood);
   useEffect(() => {
     if (!reply || performance.getEntriesByName('slipless:edit', 'mark').length === 0) return;
     performance.measure('slipless:edit-to-result', 'slipless:edit');
@@ -123,7 +139,7 @@ function Editor({ data }: { data: SheetPageData }) {
   }, [result]);
 
   const unlocated = reply && !reply.ok ? reply.issues.filter((i) => i.path === '(document)' || i.path === 'variables') : [];
-  const fingerNames = result?.fingers.map((f) => f.name) ?? [];
+  const fingerNames = useMemo(() => result?.fingers.map((f) => f.name) ?? [], [result]);
 
   return (
     <SheetEditingContext.Provider value={editing}>
@@ -200,9 +216,14 @@ function Editor({ data }: { data: SheetPageData }) {
                 </p>
               )}
               <ResultsSection result={result} stale={pending || (reply !== null && !reply.ok)} />
+              {lastGood && (
+                <p className="mt-2 text-xs text-graphite">
+                  Solved in a background worker in <span className="num" data-compute-ms>{lastGood.elapsedMs.toFixed(1)}</span> ms.
+                </p>
+              )}
             </PadSection>
             <PadSection id="derivation" number={6} title="Derivation">
-              {lastGood ? <DerivationSection entries={lastGood.derivation} fingerNames={fingerNames} /> : <p className="text-sm text-graphite">Waiting for results.</p>}
+              {deferred ? <DerivationSection entries={deferred.derivation} fingerNames={fingerNames} /> : <p className="text-sm text-graphite">Waiting for results.</p>}
             </PadSection>
             <PadSection id="notes" number={7} title="Notes">
               <NotesSection />
@@ -232,8 +253,7 @@ function Editor({ data }: { data: SheetPageData }) {
             )}
           </div>
           <aside className="space-y-4 xl:sticky xl:top-4 xl:self-start" aria-label="Views, runs and sweeps">
-            <ViewPlaceholder label="3D view" />
-            <ViewPlaceholder label="Runs and sweeps" />
+            <SideViews solved={deferred} />
           </aside>
         </div>
       </div>

@@ -15,9 +15,9 @@ interface TitleBlockProps {
   dirty: boolean;
 }
 
-function Cell({ label, children, wide }: { label: string; children: React.ReactNode; wide?: boolean }) {
+function Cell({ label, children, wide, span3 }: { label: string; children: React.ReactNode; wide?: boolean; span3?: boolean }) {
   return (
-    <div className={`border-ink px-3 py-1.5 ${wide ? 'col-span-2' : ''}`}>
+    <div className={`border-ink px-3 py-1.5 ${wide ? 'col-span-2' : ''} ${span3 ? 'col-span-2 md:col-span-3' : ''}`}>
       <div className="text-[10px] uppercase tracking-[0.14em] text-graphite">{label}</div>
       <div className="text-sm font-semibold">{children}</div>
     </div>
@@ -68,7 +68,7 @@ export default function TitleBlock(props: TitleBlockProps) {
             <span className="font-normal text-graphite">original</span>
           )}
         </Cell>
-        <Cell label="Forks" wide>
+        <Cell label="Forks" span3>
           {props.forks.length === 0 ? (
             <span className="font-normal text-graphite">none</span>
           ) : (

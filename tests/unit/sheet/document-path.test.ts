@@ -1,0 +1,36 @@
+import { describe, expect, it } from 'vitest';
+import { diffDocuments, getAt, pathText, rebaseDocument, setAt } from '../../../src/lib/sheet/document-path';
+
+const base = { title: 'A', hand: { fingers: [{ roller: { radius: '12 mm' } }, { roller: { radius: '12 mm' } }] }, object: { pose: { position: [0, 0, '90 mm'] } } };
+
+describe('document paths', () => {
+  it('reads and writes without touching the original, sharing untouched branches', () => {
+    const next = setAt(base, ['hand', 'fingers', 1, 'roller', 'radius'], '16 mm');
+    expect(getAt(next, ['hand', 'fingers', 1, 'roller', 'radius'])).toBe('16 mm');
+    expect(getAt(base, ['hand', 'fingers', 1, 'roller', 'radius'])).toBe('12 mm');
+    expect(next.hand.fingers[0]).toBe(base.hand.fingers[0]);
+    expect(next.object).toBe(base.object);
+    expect(getAt(base, ['nothing', 'here'])).toBeUndefined();
+    expect('title' in setAt(base, ['title'], undefined)).toBe(false);
+    expect(pathText(['hand', 'fingers', 0, 'roller', 'radius'])).toBe('hand.fingers[0].roller.radius');
+  });
+
+  it('lists the leaves that differ', () => {
+    const changed = setAt(setAt(base, ['object', 'pose', 'position', 2], '80 mm'), ['notes'], 'why');
+    expect(diffDocuments(base, changed)).toEqual([
+      { path: ['object', 'pose', 'position', 2], before: '90 mm', after: '80 mm' },
+      { path: ['notes'], before: undefined, after: 'why' },
+    ]);
+  });
+
+  it('re-applies one side on top of a later revision, keeping both sides and listing overlaps', () => {
+    const mine = setAt(setAt(base, ['object', 'pose', 'position', 2], '80 mm'), ['hand', 'fingers', 0, 'roller', 'radius'], '14 mm');
+    const theirs = setAt(base, ['hand', 'fingers', 0, 'roller', 'radius'], '13 mm');
+    const theirsToo = setAt(theirs, ['title'], 'B');
+    const { document, overlapping } = rebaseDocument(base, mine, theirsToo);
+    expect(getAt(document, ['title'])).toBe('B');
+    expect(getAt(document, ['object', 'pose', 'position', 2])).toBe('80 mm');
+    expect(getAt(document, ['hand', 'fingers', 0, 'roller', 'radius'])).toBe('14 mm');
+    expect(overlapping).toEqual([{ path: ['hand', 'fingers', 0, 'roller', 'radius'], before: '13 mm', after: '14 mm' }]);
+  });
+});

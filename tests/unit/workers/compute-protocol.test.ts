@@ -1,0 +1,53 @@
+import { readFileSync } from 'node:fs';
+import { describe, expect, it } from 'vitest';
+import { computeSheet } from '../../../src/workers/compute-protocol';
+
+const sheet = () => JSON.parse(readFileSync(new URL('../../../content/sheets/line4-bearing-housing-quarter-turn.json', import.meta.url), 'utf8'));
+
+describe('computeSheet (the compute worker protocol)', () => {
+  it('answers a request with the parsed SI document, JSON-ready results and derivation, echoing the id', () => {
+    const reply = computeSheet({ type: 'compute', id: 7, document: sheet() });
+    expect(reply).toMatchObject({ type: 'computed', id: 7, ok: true });
+    if (reply.type !== 'computed' || !reply.ok) throw new Error('expected results');
+    expect(reply.result.fingers).toHaveLength(3);
+    expect(Array.isArray(reply.result.fingers[0].full.rates)).toBe(true);
+    expect(reply.document.hand.fingers[0].roller.radius).toBeCloseTo(0.012, 15);
+    expect(reply.derivation.some((e) => e.id === 'finger.0.contact.gap')).toBe(true);
+    expect(reply.elapsedMs).toBeGreaterThanOrEqual(0);
+    // Everything must survive structured cloning into the page.
+    expect(structuredClone(reply)).toEqual(reply);
+  });
+
+  it('recomputes with variables: a larger roller radius closes the gap by the difference', () => {
+    const before = computeSheet({ type: 'compute', id: 1, document: sheet() });
+    const doc = sheet();
+    doc.variables = 'rollerRadius = 12 mm';
+    doc.hand.fingers[0].roller.radius = 'rollerRadius + 4 mm';
+    const after = computeSheet({ type: 'compute', id: 2, document: doc });
+    if (before.type !== 'computed' || !before.ok || after.type !== 'computed' || !after.ok) throw new Error('expected results');
+    expect(after.result.fingers[0].contact.gap - before.result.fingers[0].contact.gap).toBeCloseTo(-0.004, 9);
+  });
+
+  it('reports located issues instead of results when the sheet does not read', () => {
+    const doc = sheet();
+    doc.variables = 'ok = 1 mm\nbad = 2 +';
+    doc.hand.fingers[1].roller.radius = '30 deg';
+    const reply = computeSheet({ type: 'compute', id: 3, document: doc }, () => 0);
+    expect(reply).toEqual({
+      type: 'computed',
+      id: 3,
+      ok: false,
+      elapsedMs: 0,
+      issues: [
+        { path: 'variables', line: 2, column: expect.any(Number), message: expect.stringMatching(/^line 2: /) },
+        { path: 'hand.fingers[1].roller.radius', message: 'expected a length, got 30 deg' },
+      ],
+    });
+  });
+
+  it('refuses messages that are not compute requests', () => {
+    expect(computeSheet({ type: 'run', id: 1 })).toMatchObject({ type: 'refused' });
+    expect(computeSheet(null)).toMatchObject({ type: 'refused' });
+    expect(computeSheet({ type: 'compute', id: 1.5, document: {} })).toMatchObject({ type: 'refused' });
+  });
+});
