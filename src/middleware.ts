@@ -4,7 +4,7 @@ import { TEAM_COOKIE } from './consts';
 import { errorResponse, type Identity } from './lib/server/access';
 import { getDatabase } from './lib/server/database';
 import { bearerToken, identityForToken, identityForUser } from './lib/server/identity';
-import { isSameOriginWrite, SECURITY_HEADERS, withContentSecurityPolicy } from './lib/server/request-guard';
+import { isSameOriginWrite, withSecurityHeaders } from './lib/server/request-guard';
 
 let staleSessionReported = false;
 
@@ -33,9 +33,5 @@ export const onRequest = defineMiddleware(async (context, next) => {
   context.locals.identity = identity;
   context.locals.team = identity?.memberships.find((m) => m.slug === chosen) ?? identity?.memberships[0] ?? null;
 
-  const response = await withContentSecurityPolicy(await next());
-  for (const [name, value] of Object.entries(SECURITY_HEADERS)) {
-    if (!response.headers.has(name)) response.headers.set(name, value);
-  }
-  return response;
+  return withSecurityHeaders(await next());
 });

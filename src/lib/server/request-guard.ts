@@ -54,11 +54,18 @@ export function inlineScriptHashes(html: string): string[] {
   return [...hashes];
 }
 
-/** Adds the policy to an HTML response (hashing its inline scripts); other responses pass through. */
-export async function withContentSecurityPolicy(response: Response): Promise<Response> {
-  if (!response.headers.get('content-type')?.includes('text/html')) return response;
-  const html = await response.text();
+/**
+ * The response with the security headers, plus the policy for HTML (hashing its inline scripts).
+ * Always a copy: responses such as Response.redirect have immutable headers.
+ */
+export async function withSecurityHeaders(response: Response): Promise<Response> {
   const headers = new Headers(response.headers);
+  for (const [name, value] of Object.entries(SECURITY_HEADERS)) {
+    if (!headers.has(name)) headers.set(name, value);
+  }
+  const init = { status: response.status, statusText: response.statusText, headers };
+  if (!headers.get('content-type')?.includes('text/html')) return new Response(response.body, init);
+  const html = await response.text();
   headers.set('Content-Security-Policy', contentSecurityPolicy(inlineScriptHashes(html)));
-  return new Response(html, { status: response.status, statusText: response.statusText, headers });
+  return new Response(html, init);
 }

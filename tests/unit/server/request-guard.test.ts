@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { contentSecurityPolicy, inlineScriptHashes, isSameOriginWrite, withContentSecurityPolicy } from '../../../src/lib/server/request-guard';
+import { contentSecurityPolicy, inlineScriptHashes, isSameOriginWrite, withSecurityHeaders } from '../../../src/lib/server/request-guard';
 
 const post = (headers: Record<string, string>) => new Request('http://127.0.0.1:4321/api/x', { method: 'POST', headers });
 
@@ -23,15 +23,23 @@ describe('inlineScriptHashes', () => {
   });
 });
 
-describe('withContentSecurityPolicy', () => {
+describe('withSecurityHeaders', () => {
   it('adds a policy without unsafe-inline scripts to HTML and leaves JSON alone', async () => {
-    const html = await withContentSecurityPolicy(new Response('<script>1</script>', { headers: { 'content-type': 'text/html' } }));
+    const html = await withSecurityHeaders(new Response('<script>1</script>', { headers: { 'content-type': 'text/html' } }));
     const policy = html.headers.get('content-security-policy') ?? '';
     expect(policy).toMatch(/script-src 'self' 'sha256-[A-Za-z0-9+/=]+'/);
     expect(policy).not.toMatch(/script-src[^;]*unsafe-inline/);
     expect(policy).toContain("frame-ancestors 'none'");
-    const json = await withContentSecurityPolicy(Response.json({ a: 1 }));
+    const json = await withSecurityHeaders(Response.json({ a: 1 }));
     expect(json.headers.get('content-security-policy')).toBeNull();
+    expect(json.headers.get('x-content-type-options')).toBe('nosniff');
     expect(contentSecurityPolicy([])).toContain("object-src 'none'");
+  });
+
+  it('copies responses whose headers are immutable, such as redirects', async () => {
+    const redirect = await withSecurityHeaders(Response.redirect('http://127.0.0.1/sign-in', 302));
+    expect(redirect.status).toBe(302);
+    expect(redirect.headers.get('location')).toBe('http://127.0.0.1/sign-in');
+    expect(redirect.headers.get('x-frame-options')).toBe('DENY');
   });
 });
