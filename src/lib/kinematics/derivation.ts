@@ -158,7 +158,16 @@ function fingerEntries(doc: SheetDocument, result: SheetResult, i: number, f: Fi
     value: full.manipulability,
     unit: 'm^3/rad^3',
   });
-  if (!s.available) return;
+  if (!s.available) {
+    entries.push({
+      id: `${id}.rankRatio`,
+      label: `${f.name}: rank judged on the full Jacobian (no steer and roll)`,
+      latex: `\\frac{\\sigma_{\\min}}{\\sigma_{\\max}} = \\frac{${formatLatexNumber(sv[2])}}{${formatLatexNumber(sv[0])}} = ${formatLatexNumber(f.rankRatio)} \\quad (\\text{limit } ${formatLatexNumber(doc.solver.singularRatio)})`,
+      value: f.rankRatio,
+      unit: '1',
+    });
+    return;
+  }
   const b = input.joints.findIndex((j) => j.role === 'base');
   const jb = [full.jacobian.data[b], full.jacobian.data[n + b], full.jacobian.data[2 * n + b]];
   entries.push({
@@ -208,6 +217,17 @@ function fingerEntries(doc: SheetDocument, result: SheetResult, i: number, f: Fi
     label: `${f.name}: condition number after steering`,
     latex: `\\kappa' = \\sigma'_{\\max} / \\sigma'_{\\min} = ${formatLatexNumber(s.singularValuesAfter[0])} / ${formatLatexNumber(s.singularValuesAfter[2])} = ${formatLatexNumber(s.conditionAfter)}`,
     value: s.conditionAfter,
+    unit: '1',
+  });
+  const pivot = input.joints.findIndex((j) => j.role === 'pivot');
+  const driveJoints = f.jointNames.map((_, k) => k).filter((k) => s.pivotDrives || k !== pivot);
+  const drive = [0, 1, 2].flatMap((row) => driveJoints.map((k) => s.jacobianAfter.data[row * n + k]));
+  const dsv = s.driveSingularValues;
+  entries.push({
+    id: `${id}.rankRatio`,
+    label: `${f.name}: rank judged after steering, on the drive columns (${driveJoints.map((k) => f.jointNames[k]).join(', ')})`,
+    latex: `\\frac{\\sigma'_2}{\\sigma'_1}\\left(J'_{\\text{drive}}\\right),\\; J'_{\\text{drive}} = ${matrix(drive, 3, driveJoints.length)},\\; \\sigma' = ${column(dsv)} \\;\\Rightarrow\\; ${formatLatexNumber(f.rankRatio)} \\quad (\\text{limit } ${formatLatexNumber(doc.solver.singularRatio)})`,
+    value: f.rankRatio,
     unit: '1',
   });
 }

@@ -28,7 +28,10 @@
  * distances to the roll and pivot axes), the full damped least-squares solution (FullSolution:
  * Jacobian, rates, residual, singular values, condition number, manipulability) and the
  * steer-and-roll solution (SteerAndRoll: base rate, pivot change and angle, roll rate,
- * conditioning before and after steering, residual and the difference from the full rates);
+ * conditioning before and after steering, the drive columns' singular values and ratio after
+ * steering, residual and the difference from the full rates), and which Jacobian rank loss and
+ * slip are judged on (rankBasis 'steered' when steer-and-roll is available, else 'full', with
+ * rankRatio);
  * then the grasp (GraspResult: contact map, rank, undrivable object twists) and the warnings,
  * whose catalogue is WARNING_CATALOGUE. toPlainResult turns a result into JSON-ready arrays.
  */
@@ -55,10 +58,10 @@ export {
 } from './solve';
 export type { FullSolution, SolveWorkspace, SteerAndRoll } from './solve';
 export {
-  checkFinger, checkGrasp, clearWarnings, createWarningList, finishWarnings, formatWarning, raiseWarning, slipTolerance, SLIP_RELATIVE_TOLERANCE,
-  WARNING_CATALOGUE, worstSeverity,
+  checkFinger, checkGrasp, clearWarnings, createWarningList, finishWarnings, formatWarning, judgedBasis, judgedRankRatio, judgedSlip, raiseWarning,
+  slipTolerance, SLIP_RELATIVE_TOLERANCE, WARNING_CATALOGUE, worstSeverity,
 } from './warnings';
-export type { SheetWarning, WarningCode, WarningInfo, WarningList, WarningSeverity } from './warnings';
+export type { JudgedBasis, SheetWarning, WarningCode, WarningInfo, WarningList, WarningSeverity } from './warnings';
 export { computeGrasp, createGraspResult, createGraspWorkspace } from './grasp';
 export type { GraspResult, GraspWorkspace } from './grasp';
 export {

@@ -8,7 +8,10 @@ import { computeContact, createContact, createContactWorkspace, createObject, up
 import { computeGrasp, createGraspResult, createGraspWorkspace, type GraspResult, type GraspWorkspace } from './grasp';
 import { createFinger, forwardKinematics, type Finger } from './hand';
 import { createFullSolution, createSolveWorkspace, createSteerAndRoll, solveFull, solveSteerAndRoll, type FullSolution, type SolveWorkspace, type SteerAndRoll } from './solve';
-import { checkFinger, checkGrasp, clearWarnings, createWarningList, finishWarnings, worstSeverity, type SheetWarning, type WarningList, type WarningSeverity } from './warnings';
+import {
+  checkFinger, checkGrasp, clearWarnings, createWarningList, finishWarnings, judgedBasis, judgedRankRatio, worstSeverity,
+  type JudgedBasis, type SheetWarning, type WarningList, type WarningSeverity,
+} from './warnings';
 import type { Vec3Like } from './vec3';
 
 /** A compiled sheet. Mutate object and finger angles in place, then call solveScene. */
@@ -43,6 +46,10 @@ export interface FingerResult {
   contact: Contact;
   full: FullSolution;
   steer: SteerAndRoll;
+  /** Jacobian that rank loss and slip are judged on: 'steered' (drive columns after steering) when steer-and-roll is available, else 'full'. */
+  rankBasis: JudgedBasis;
+  /** sigma_min / sigma_max of that Jacobian, compared with the singular-ratio setting (dimensionless). */
+  rankRatio: number;
 }
 
 /** The result of solving a sheet once. */
@@ -94,6 +101,8 @@ export function createResult(scene: Scene): SheetResult {
       contact: createContact(),
       full: createFullSolution(f.jointCount),
       steer: createSteerAndRoll(f.jointCount),
+      rankBasis: 'full' as JudgedBasis,
+      rankRatio: 0,
     })),
     grasp: createGraspResult(Math.max(1, scene.fingers.length)),
     warnings: warningList.items,
@@ -119,7 +128,9 @@ export function solveScene(scene: Scene, out: SheetResult = createResult(scene))
     forwardKinematics(finger);
     computeContact(object, finger, settings.contactTolerance, r.contact, workspace.contact);
     solveFull(finger, r.contact, object.angularVelocity, settings, r.full, workspace.solve);
-    solveSteerAndRoll(finger, r.contact, r.full, r.steer, workspace.solve);
+    solveSteerAndRoll(finger, r.contact, r.full, settings, r.steer, workspace.solve);
+    r.rankBasis = judgedBasis(r.steer);
+    r.rankRatio = judgedRankRatio(r.full, r.steer);
     copyInto(finger.angles, r.jointAngles);
     copyInto(finger.axes, r.jointAxes);
     copyInto(finger.points, r.jointPoints);

@@ -76,6 +76,20 @@ export interface SteerAndRoll {
   conditionBefore: number;
   conditionAfter: number;
   singularValuesAfter: Float64Array;
+  /**
+   * The pivot column counts as a drive column: its axis passes the contact at axisDistance or more, so
+   * turning it moves the contact. Otherwise steering acts only by turning the roll direction.
+   */
+  pivotDrives: boolean;
+  /** Number of drive columns: every joint after steering except a pivot that does not drive. */
+  driveColumnCount: number;
+  /** Singular values of the 3 x driveColumnCount drive Jacobian after steering, descending, zero-padded (m/rad). */
+  driveSingularValues: Float64Array;
+  /**
+   * sigma_2 / sigma_1 of the drive columns (1 with a single column; dimensionless, 0 at rank loss): they must
+   * span the normal and the steered roll direction; steering itself supplies the third direction.
+   */
+  driveRatio: number;
   /** rates - full solution rates, rad/s, and its norm. */
   rateDifference: Float64Array;
   rateDifferenceNorm: number;
@@ -86,6 +100,8 @@ export interface SolveWorkspace {
   linalg: LinalgWorkspace;
   /** D0, D1, D2 of the roll direction d(delta) = D0 + D1 cos delta + D2 sin delta, then cos and sin of the chosen delta. */
   steer: Float64Array;
+  /** Drive columns of the steered Jacobian (3 x up to maxJoints). */
+  drive: Matrix;
 }
 
 /** New solve scratch for fingers of up to maxJoints joints. */
@@ -93,6 +109,7 @@ export function createSolveWorkspace(maxJoints: number): SolveWorkspace {
   return {
     linalg: createLinalgWorkspace(4, Math.max(4, maxJoints)),
     steer: new Float64Array(11),
+    drive: createMatrix(3, Math.max(1, maxJoints)),
   };
 }
 
@@ -136,6 +153,10 @@ export function createSteerAndRoll(jointCount: number): SteerAndRoll {
     conditionBefore: Number.POSITIVE_INFINITY,
     conditionAfter: Number.POSITIVE_INFINITY,
     singularValuesAfter: new Float64Array(3),
+    pivotDrives: false,
+    driveColumnCount: 0,
+    driveSingularValues: new Float64Array(3),
+    driveRatio: 0,
     rateDifference: new Float64Array(jointCount),
     rateDifferenceNorm: 0,
   };
@@ -342,8 +363,8 @@ export function solveFull(finger: Finger, contact: Contact, angularVelocity: Arr
   return out;
 }
 
-/** Steer-and-roll solution for one finger after solveFull (world frame, SI). */
-export function solveSteerAndRoll(finger: Finger, contact: Contact, full: FullSolution, out: SteerAndRoll, ws: SolveWorkspace): SteerAndRoll {
+/** Steer-and-roll solution for one finger after solveFull, with the conditioning of its drive columns after steering (world frame, SI). */
+export function solveSteerAndRoll(finger: Finger, contact: Contact, full: FullSolution, settings: SolverSettings, out: SteerAndRoll, ws: SolveWorkspace): SteerAndRoll {
   const n = finger.jointCount;
   const b = finger.baseIndex, pv = finger.pivotIndex, rl = finger.rollIndex;
   const rates = out.rates;
@@ -402,6 +423,7 @@ export function solveSteerAndRoll(finger: Finger, contact: Contact, full: FullSo
   out.residualNorm = Math.sqrt(residual);
   jacobianSingularValues(ja, out.singularValuesAfter);
   out.conditionAfter = conditionNumber(out.singularValuesAfter, 3);
+  driveConditioning(finger, contact, settings.axisDistance, out, ws);
   let difference = 0;
   for (let k = 0; k < n; k++) {
     const dk = rates[k] - full.rates[k];
@@ -410,6 +432,37 @@ export function solveSteerAndRoll(finger: Finger, contact: Contact, full: FullSo
   }
   out.rateDifferenceNorm = Math.sqrt(difference);
   return out;
+}
+
+/** Directions the drive columns must span after steering: the normal and the steered roll direction. */
+const STEERED_RANK = 2;
+
+/**
+ * A pivot whose axis passes through the contact steers by turning the roll direction and adds
+ * nothing to the contact velocity, so its zero column says nothing about what the finger can do.
+ */
+function driveConditioning(finger: Finger, contact: Contact, axisDistance: number, out: SteerAndRoll, ws: SolveWorkspace): void {
+  const n = finger.jointCount, pv = finger.pivotIndex;
+  out.pivotDrives = pv < 0 || !(contact.pivotAxisDistance < axisDistance);
+  const skip = out.pivotDrives ? -1 : pv;
+  const from = out.jacobianAfter.data, drive = ws.drive, to = drive.data;
+  const m = out.pivotDrives ? n : n - 1;
+  for (let k = 0, c = 0; k < n; k++) {
+    if (k === skip) continue;
+    to[c] = from[k];
+    to[m + c] = from[n + k];
+    to[2 * m + c] = from[2 * n + k];
+    c++;
+  }
+  drive.rows = 3;
+  drive.cols = m;
+  out.driveColumnCount = m;
+  const s = out.driveSingularValues;
+  jacobianSingularValues(drive, s);
+  // Steering supplies the third direction by choosing the roll direction, so the drive columns need
+  // only span two: the normal (base) and the steered roll direction.
+  const weakest = s[(m < STEERED_RANK ? m : STEERED_RANK) - 1];
+  out.driveRatio = m > 0 && s[0] > 0 ? weakest / s[0] : 0;
 }
 
 /**

@@ -81,7 +81,7 @@ export const WARNING_CATALOGUE: Readonly<Record<WarningCode, WarningInfo>> = {
     title: 'Contact Jacobian near rank loss',
     message: 'The finger cannot move its contact point freely in all three directions here.',
     explanation:
-      'The ratio of the smallest to the largest singular value of the contact Jacobian is below the singular-ratio setting. Joint rates along the weak direction become large or the damped solve leaves slip. Change the finger posture or the contact location.',
+      'The ratio of the smallest to the largest singular value of the contact Jacobian is below the singular-ratio setting. A finger with base, pivot and roll joints is judged after steering, on the columns that drive the contact (base, roll and other joints; the pivot only when its axis misses the contact, since a pivot through the contact steers by turning the roll direction and moves nothing), which must span the normal and the steered roll direction. Any other finger is judged on its full Jacobian at the current angles. Joint rates along the weak direction become large or the solve leaves slip. Change the finger posture or the contact location.',
     unit: '1',
   },
   NORMAL_VELOCITY_UNREACHABLE: {
@@ -150,7 +150,7 @@ export const WARNING_CATALOGUE: Readonly<Record<WarningCode, WarningInfo>> = {
     title: 'Slip required',
     message: 'No joint rates make the roller follow the object exactly; the remaining velocity would have to slip.',
     explanation:
-      'The residual of the full damped least-squares solution exceeds the slip tolerance (the larger of the minimum tangential speed setting and 0.1 % of the contact speed).',
+      'The residual of the solution the finger uses exceeds the slip tolerance (the larger of the minimum tangential speed setting and 0.1 % of the contact speed): the steer-and-roll residual after steering for a finger with base, pivot and roll joints, otherwise the residual of the full damped least-squares solution.',
     unit: 'm/s',
   },
 };
@@ -238,6 +238,34 @@ export function slipTolerance(contactSpeed: number, settings: SolverSettings): n
   return Math.max(settings.minTangentialSpeed, SLIP_RELATIVE_TOLERANCE * contactSpeed);
 }
 
+/** Which Jacobian a finger's rank and slip are judged on: after steering when steer-and-roll is available, else the full one. */
+export type JudgedBasis = 'steered' | 'full';
+
+/** 'steered' when the finger has base, pivot and roll joints, else 'full'. */
+export function judgedBasis(steer: SteerAndRoll): JudgedBasis {
+  return steer.available ? 'steered' : 'full';
+}
+
+/** sigma_min / sigma_max compared with the singular-ratio setting: of the steered drive columns, or of the full Jacobian (dimensionless). */
+export function judgedRankRatio(full: FullSolution, steer: SteerAndRoll): number {
+  return steer.available ? steer.driveRatio : full.singularRatio;
+}
+
+/** Residual speed compared with the slip tolerance: steer-and-roll after steering, or full damped least squares (m/s). */
+export function judgedSlip(full: FullSolution, steer: SteerAndRoll): number {
+  return steer.available ? steer.residualNorm : full.residualNorm;
+}
+
+const RANK_MESSAGE: Record<JudgedBasis, string> = {
+  steered: `${WARNING_CATALOGUE.JACOBIAN_NEAR_RANK_LOSS.message} Judged after steering, on the base, roll and other drive columns.`,
+  full: `${WARNING_CATALOGUE.JACOBIAN_NEAR_RANK_LOSS.message} Judged on the full Jacobian at the current joint angles.`,
+};
+
+const SLIP_MESSAGE: Record<JudgedBasis, string> = {
+  steered: `${WARNING_CATALOGUE.SLIP_REQUIRED.message} Judged on the steer-and-roll residual after steering.`,
+  full: `${WARNING_CATALOGUE.SLIP_REQUIRED.message} Judged on the full damped least-squares residual.`,
+};
+
 /** Raises every per-finger warning for finger index i after its contact and solutions are computed. */
 export function checkFinger(list: WarningList, i: number, finger: Finger, contact: Contact, full: FullSolution, steer: SteerAndRoll, settings: SolverSettings): void {
   const tolerance = settings.contactTolerance;
@@ -254,7 +282,11 @@ export function checkFinger(list: WarningList, i: number, finger: Finger, contac
   if (steerSpeed < settings.minTangentialSpeed) raiseWarning(list, 'TANGENTIAL_SPEED_NEAR_ZERO', i, undefined, steerSpeed, settings.minTangentialSpeed);
   else if (steer.available && !steer.aligned) raiseWarning(list, 'STEER_CANNOT_ALIGN', i, finger.pivotIndex, steer.misalignment, 0);
 
-  if (full.singularRatio < settings.singularRatio) raiseWarning(list, 'JACOBIAN_NEAR_RANK_LOSS', i, undefined, full.singularRatio, settings.singularRatio);
+  const basis = judgedBasis(steer);
+  const rankRatio = judgedRankRatio(full, steer);
+  if (rankRatio < settings.singularRatio) {
+    raiseWarning(list, 'JACOBIAN_NEAR_RANK_LOSS', i, undefined, rankRatio, settings.singularRatio).message = RANK_MESSAGE[basis];
+  }
 
   if (Math.abs(contact.normalSpeed) > settings.minTangentialSpeed && !(Math.abs(steer.normalGain) >= axisDistance)) {
     raiseWarning(list, 'NORMAL_VELOCITY_UNREACHABLE', i, finger.baseIndex >= 0 ? finger.baseIndex : undefined, Math.abs(steer.normalGain), axisDistance);
@@ -263,7 +295,8 @@ export function checkFinger(list: WarningList, i: number, finger: Finger, contac
   const v = contact.objectVelocity;
   const speed = Math.sqrt(v[0] * v[0] + v[1] * v[1] + v[2] * v[2]);
   const slip = slipTolerance(speed, settings);
-  if (full.residualNorm > slip) raiseWarning(list, 'SLIP_REQUIRED', i, undefined, full.residualNorm, slip);
+  const residual = judgedSlip(full, steer);
+  if (residual > slip) raiseWarning(list, 'SLIP_REQUIRED', i, undefined, residual, slip).message = SLIP_MESSAGE[basis];
 
   for (let k = 0; k < finger.jointCount; k++) {
     const angle = finger.angles[k];

@@ -33,6 +33,18 @@ describe('deriveSheet', () => {
     expect(byId.get('grasp.rank')?.value).toBe(result.grasp.rank);
   });
 
+  it('states which Jacobian the rank is judged on, with the ratio of the result', () => {
+    const rank = entries.find((e) => e.id === 'finger.0.rankRatio');
+    expect(rank?.value).toBe(result.fingers[0].rankRatio);
+    expect(rank?.label).toContain('after steering');
+    expect(rank?.label).toContain('(base, roll)');
+    const unsteered = threeFingerSheet();
+    unsteered.hand.fingers[0].joints[1] = { ...unsteered.hand.fingers[0].joints[1], role: 'other' };
+    const full = deriveSheet(unsteered, solveSheet(unsteered)).find((e) => e.id === 'finger.0.rankRatio');
+    expect(full?.label).toContain('full Jacobian');
+    expect(() => katex.renderToString(full!.latex, { throwOnError: true })).not.toThrow();
+  });
+
   it('puts the numbers into the formula: base rate n . v / n . J_b with n . v = 0.01 m/s and gain 0.05 m/rad (worked by hand)', () => {
     const base = entries.find((e) => e.id === 'finger.0.steer.baseRate');
     expect(base?.latex).toContain('\\frac{0.01}{0.05}');

@@ -323,8 +323,14 @@ const provokers: Record<WarningCode, () => SheetDocument> = {
     doc.object.twist = { linear: [0, 0, 0], angular: [0, 0, 0] };
     return doc;
   },
-  // The pivot column vanishes at the contact, so a three-joint finger spans at most two directions.
-  JACOBIAN_NEAR_RANK_LOSS: () => createSheetFromTemplate('tri-radial', ball),
+  // Roll axis along the pivot axis, the contact normal: the contact sits on the roll axis whatever the
+  // steering, so the drive columns after steering (base, roll) span one direction only.
+  JACOBIAN_NEAR_RANK_LOSS: () => {
+    const doc = createSheetFromTemplate('tri-radial', ball);
+    const finger = doc.hand.fingers[0];
+    finger.joints[2].axis = finger.joints[1].axis;
+    return doc;
+  },
   NORMAL_VELOCITY_UNREACHABLE: () => {
     const doc = createSheetFromTemplate('tri-radial', ball);
     const finger = doc.hand.fingers[0];
@@ -371,7 +377,9 @@ const provokers: Record<WarningCode, () => SheetDocument> = {
   },
   SLIP_REQUIRED: () => {
     const doc = createSheetFromTemplate('tri-radial', ball);
-    // Spin about x: at the north contact this moves the surface across the current roll direction.
+    const [, pivot, roll] = doc.hand.fingers[0].joints;
+    // The pivot cone of STEER_CANNOT_ALIGN: the misalignment left after steering has to slip.
+    pivot.axis = unit(pivot.axis.map((c, i) => Math.cos((50 * Math.PI) / 180) * c + Math.sin((50 * Math.PI) / 180) * roll.axis[i]));
     doc.object.twist = { linear: [0, 0, 0], angular: [0.4, 0, 0] };
     return doc;
   },
@@ -389,7 +397,7 @@ describe('every warning code can be provoked by a constructed case', () => {
 
   it('raises no contact, limit or alignment warning for an untouched template sheet', () => {
     const codes = new Set(solveSheet(createSheetFromTemplate('tri-radial', ball)).warnings.map((w) => w.code));
-    for (const code of ['CONTACT_LOST', 'CONTACT_PENETRATING', 'JOINT_LIMIT_EXCEEDED', 'RATE_LIMIT_EXCEEDED', 'PIVOT_MISSES_ROLLER_CENTRE', 'STEER_CANNOT_ALIGN', 'CONTACT_NEAR_ROLL_AXIS'] as const) {
+    for (const code of ['CONTACT_LOST', 'CONTACT_PENETRATING', 'JOINT_LIMIT_EXCEEDED', 'RATE_LIMIT_EXCEEDED', 'PIVOT_MISSES_ROLLER_CENTRE', 'STEER_CANNOT_ALIGN', 'CONTACT_NEAR_ROLL_AXIS', 'JACOBIAN_NEAR_RANK_LOSS', 'SLIP_REQUIRED'] as const) {
       expect(codes.has(code)).toBe(false);
     }
   });

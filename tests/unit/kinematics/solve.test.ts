@@ -26,7 +26,7 @@ function solveFinger(input: FingerInput, o: ReturnType<typeof ball>, s: SolverSe
   const contact = computeContact(o, finger, s.contactTolerance);
   const ws = createSolveWorkspace(finger.jointCount);
   const full = solveFull(finger, contact, o.angularVelocity, s, createFullSolution(finger.jointCount), ws);
-  const steer = solveSteerAndRoll(finger, contact, full, createSteerAndRoll(finger.jointCount), ws);
+  const steer = solveSteerAndRoll(finger, contact, full, s, createSteerAndRoll(finger.jointCount), ws);
   return { finger, contact, full, steer };
 }
 
@@ -201,6 +201,34 @@ describe('solveSteerAndRoll', () => {
     const difference = [0, 1, 2].map((k) => steer.rates[k] - full.rates[k]);
     close(steer.rateDifference, difference, 15);
     expect(steer.rateDifferenceNorm).toBeCloseTo(Math.hypot(...difference), 15);
+  });
+
+  it('judges the drive columns after steering: base and the steered roll column, sigma_2 / sigma_1 as by ml-matrix SVD', () => {
+    const { steer } = solveFinger(threeFingerFinger(0), ball(0.04, v));
+    // Pivot through the contact: its column is zero and steering acts by turning the roll direction.
+    expect(steer.pivotDrives).toBe(false);
+    expect(steer.driveColumnCount).toBe(2);
+    // Worked by hand: base column (0.05, 0, 0.06); roll column after steering rho u / |u|, u = (0, 0.02, 0.008)
+    // (its sign, set by the roll axis, changes no singular value).
+    const u = Math.hypot(0.02, 0.008);
+    const rollColumn = [0, (0.012 * 0.02) / u, (0.012 * 0.008) / u];
+    const reference = new SingularValueDecomposition(new MlMatrix([[0.05, rollColumn[0]], [0, rollColumn[1]], [0.06, rollColumn[2]]])).diagonal;
+    expect(steer.driveSingularValues[0]).toBeCloseTo(reference[0], 14);
+    expect(steer.driveSingularValues[1]).toBeCloseTo(reference[1], 14);
+    expect(steer.driveRatio).toBeCloseTo(reference[1] / reference[0], 12);
+  });
+
+  it('counts the pivot as a drive column when its axis misses the contact by axisDistance or more', () => {
+    const input = threeFingerFinger(0);
+    // Pivot axis moved 4 mm along z: the contact now lies 4 mm from it, so turning the pivot moves the contact.
+    input.joints[1] = { ...input.joints[1], point: [0.052, 0, 0.004] };
+    const { steer, contact } = solveFinger(input, ball(0.04, v));
+    expect(contact.pivotAxisDistance).toBeCloseTo(0.004, 12);
+    expect(steer.pivotDrives).toBe(true);
+    expect(steer.driveColumnCount).toBe(3);
+    const a = steer.jacobianAfter.data;
+    const reference = new SingularValueDecomposition(new MlMatrix([[a[0], a[1], a[2]], [a[3], a[4], a[5]], [a[6], a[7], a[8]]])).diagonal;
+    expect(steer.driveRatio).toBeCloseTo(reference[1] / reference[0], 12);
   });
 
   it('reports misalignment when the pivot cone misses the needed direction', () => {

@@ -136,8 +136,33 @@ describe('checkFinger and checkGrasp, one constructed case per code', () => {
     expect(codes(doc, 0)).toContain('STEER_CANNOT_ALIGN');
   });
 
-  it('JACOBIAN_NEAR_RANK_LOSS: pivot column vanishes when the pivot passes through the contact', () => {
-    expect(codes(threeFingerSheet(), 0)).toContain('JACOBIAN_NEAR_RANK_LOSS');
+  it('JACOBIAN_NEAR_RANK_LOSS after steering: roll axis along the normal x puts the contact on it, so no steering gives a roll column', () => {
+    const doc = threeFingerSheet();
+    doc.hand.fingers[0].joints[2] = { ...doc.hand.fingers[0].joints[2], axis: [1, 0, 0] };
+    const result = solveSheet(doc);
+    const w = result.warnings.find((x) => x.code === 'JACOBIAN_NEAR_RANK_LOSS' && x.finger === 0);
+    expect(result.fingers[0].rankBasis).toBe('steered');
+    expect(w?.value).toBeLessThan(1e-12);
+    expect(w?.message).toContain('after steering');
+  });
+
+  it('JACOBIAN_NEAR_RANK_LOSS on the full Jacobian: without a pivot role the joint through the contact leaves a zero column', () => {
+    const doc = threeFingerSheet();
+    doc.hand.fingers[0].joints[1] = { ...doc.hand.fingers[0].joints[1], role: 'other' };
+    const result = solveSheet(doc);
+    const w = result.warnings.find((x) => x.code === 'JACOBIAN_NEAR_RANK_LOSS' && x.finger === 0);
+    expect(result.fingers[0].rankBasis).toBe('full');
+    expect(w?.value).toBe(0);
+    expect(w?.message).toContain('full Jacobian');
+  });
+
+  it('regression: the usual design (pivot along the normal through the roller centre) is not rank-deficient once steered', () => {
+    // Drive columns after steering: base (0.05, 0, 0.06) and roll rho u / |u|, rho = 0.012 (worked by hand),
+    // so sigma_2 / sigma_1 is about rho / |J_b| = 0.15, far above 1e-3.
+    const result = solveSheet(threeFingerSheet());
+    expect(result.warnings.map((w) => w.code)).not.toContain('JACOBIAN_NEAR_RANK_LOSS');
+    expect(result.fingers[0].rankRatio).toBeGreaterThan(0.1);
+    expect(result.fingers[0].full.singularRatio).toBeLessThan(1e-12);
   });
 
   it('NORMAL_VELOCITY_UNREACHABLE: no base joint while the surface approaches the roller', () => {
@@ -159,8 +184,29 @@ describe('checkFinger and checkGrasp, one constructed case per code', () => {
     expect(codes(doc, 0)).toContain('RATE_LIMIT_EXCEEDED');
   });
 
-  it('SLIP_REQUIRED: the rank-2 Jacobian cannot produce the needed contact velocity', () => {
-    expect(codes(threeFingerSheet(), 0)).toContain('SLIP_REQUIRED');
+  it('SLIP_REQUIRED on the steer-and-roll residual: the pivot cone misses the needed roll direction', () => {
+    const doc = threeFingerSheet();
+    const f = doc.hand.fingers[0];
+    f.joints[1] = { ...f.joints[1], axis: [0, 0, 1] };
+    f.joints[2] = { ...f.joints[2], axis: [0, Math.cos(0.3), Math.sin(0.3)] };
+    doc.object.twist = { linear: [0.01, 0.001, 0.02], angular: [0, 0, 0] };
+    const w = solveSheet(doc).warnings.find((x) => x.code === 'SLIP_REQUIRED' && x.finger === 0);
+    expect(w?.message).toContain('steer-and-roll residual');
+  });
+
+  it('SLIP_REQUIRED on the full residual: without steering v_o has 5.1 mm/s off the plane of base (0.05, 0, 0.06) and roll (0, -rho, 0)', () => {
+    const doc = threeFingerSheet();
+    doc.hand.fingers[0].joints[1] = { ...doc.hand.fingers[0].joints[1], role: 'other' };
+    const w = solveSheet(doc).warnings.find((x) => x.code === 'SLIP_REQUIRED' && x.finger === 0);
+    // v_o = (0.01, 0.02, 0.02); the plane's normal is (0.06, 0, -0.05) / |.|, worked by hand.
+    expect(w?.value).toBeCloseTo(Math.abs(0.01 * 0.06 - 0.02 * 0.05) / Math.hypot(0.06, 0.05), 6);
+    expect(w?.message).toContain('full damped least-squares residual');
+  });
+
+  it('regression: steering removes the slip the unsteered full solution would report for the usual design', () => {
+    const result = solveSheet(threeFingerSheet());
+    expect(result.warnings.map((w) => w.code)).not.toContain('SLIP_REQUIRED');
+    expect(result.fingers[0].full.residualNorm).toBeGreaterThan(1e-3);
   });
 
   it('GRASP_RANK_DEFICIENT: two contacts leave the rotation about the line through them free (Murray, Li & Sastry 1994, ch. 5)', () => {
