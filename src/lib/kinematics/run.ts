@@ -3,7 +3,9 @@
  * measures the pose (optionally with seeded Gaussian noise), commands the twist gain * pose error
  * (rotation part by the log map), solves the fingers' joint rates for that twist, and the truth
  * advances: joint angles by rate * dt, the object pose by the exponential map of the commanded
- * twist. Everything recorded lives in typed-array columns, one entry (or one row) per tick.
+ * twist. A finger with base, pivot and roll joints follows its steer-and-roll solution (the pivot
+ * jumps to the steered angle, base and roll integrate their rates), because its full solution
+ * cannot steer; any other finger follows the full damped least-squares rates. Everything recorded lives in typed-array columns, one entry (or one row) per tick.
  */
 import type { RunSettings, SheetDocument } from '../sheet/types';
 import { ROTATION_METRICS, rotationDistances } from './metrics';
@@ -17,6 +19,11 @@ export type RunStopReason = 'converged' | 'tick-limit' | 'singular';
 
 /** Warning codes in bit order of RunRecord.warningMask (bit i set = WARNING_CODES[i] raised that tick). */
 export const WARNING_CODES: readonly WarningCode[] = Object.keys(WARNING_CATALOGUE) as WarningCode[];
+
+/** Index i of SOLUTION_KINDS is the value stored in RunRecord.solution. */
+export const SOLUTION_KINDS: readonly ('full' | 'steer-and-roll')[] = ['full', 'steer-and-roll'];
+const FULL = 0;
+const STEER_AND_ROLL = 1;
 
 /** Index i of SEVERITY_LEVELS is the value stored in RunRecord.worstSeverity. */
 export const SEVERITY_LEVELS: readonly (WarningSeverity | 'none')[] = ['none', 'note', 'caution', 'singular'];
@@ -44,9 +51,14 @@ export interface RunRecord {
   measuredOrientation: Float64Array;
   /** Commanded object twist [v (m/s); w (rad/s)], world frame, 6 per tick. */
   twist: Float64Array;
-  /** Per finger: joint angles (rad) at the start of the tick and solved joint rates (rad/s), jointCount per tick. */
+  /**
+   * Per finger: joint angles (rad) at the start of the tick and the joint rates the finger followed
+   * (rad/s), jointCount per tick; under steer-and-roll the pivot's entry is pivotChange / dt.
+   */
   jointAngles: Float64Array[];
   jointRates: Float64Array[];
+  /** Index into SOLUTION_KINDS of the solution each finger followed, fingerCount per tick. */
+  solution: Uint8Array;
   /** |target - position| of the truth, m. */
   positionError: Float64Array;
   /** Orientation error of the truth by Huynh's Phi2..Phi6, ROTATION_METRICS order, 5 per tick. */
@@ -75,6 +87,7 @@ interface Columns {
   twist: Float64Array;
   jointAngles: Float64Array[];
   jointRates: Float64Array[];
+  solution: Uint8Array;
   positionError: Float64Array;
   orientationError: Float64Array;
   warningMask: Uint32Array;
@@ -92,6 +105,7 @@ function createColumns(capacity: number, jointCounts: readonly number[]): Column
     twist: new Float64Array(6 * capacity),
     jointAngles: jointCounts.map((n) => new Float64Array(n * capacity)),
     jointRates: jointCounts.map((n) => new Float64Array(n * capacity)),
+    solution: new Uint8Array(jointCounts.length * capacity),
     positionError: new Float64Array(capacity),
     orientationError: new Float64Array(METRIC_COUNT * capacity),
     warningMask: new Uint32Array(capacity),
@@ -116,6 +130,7 @@ function growColumns(c: Columns, limit: number): void {
   c.twist = grown(c.twist, 6 * capacity);
   c.jointAngles = c.jointAngles.map((column) => grown(column, (column.length / c.capacity) * capacity));
   c.jointRates = c.jointRates.map((column) => grown(column, (column.length / c.capacity) * capacity));
+  c.solution = grown(c.solution, (c.solution.length / c.capacity) * capacity);
   c.positionError = grown(c.positionError, capacity);
   c.orientationError = grown(c.orientationError, METRIC_COUNT * capacity);
   c.warningMask = grown(c.warningMask, capacity);
@@ -186,13 +201,17 @@ export function runScene(scene: Scene, settings: RunSettings, options: RunOption
     for (let i = 0; i < fingers.length; i++) {
       const n = jointCounts[i]!;
       const angles = fingers[i]!.angles;
-      const rates = result.fingers[i]!.full.rates;
+      const solved = result.fingers[i]!;
+      const steered = solved.steer.available;
+      const rates = steered ? solved.steer.rates : solved.full.rates;
       const angleColumn = columns.jointAngles[i]!;
       const rateColumn = columns.jointRates[i]!;
       for (let k = 0, o = n * tick; k < n; k++, o++) {
         angleColumn[o] = angles[k]!;
         rateColumn[o] = rates[k]!;
       }
+      if (steered) rateColumn[n * tick + fingers[i]!.pivotIndex] = solved.steer.pivotChange / dt;
+      columns.solution[fingers.length * tick + i] = steered ? STEER_AND_ROLL : FULL;
     }
     const dx = targetPosition[0]! - position[0]!, dy = targetPosition[1]! - position[1]!, dz = targetPosition[2]! - position[2]!;
     const positionError = Math.sqrt(dx * dx + dy * dy + dz * dz);
@@ -216,9 +235,13 @@ export function runScene(scene: Scene, settings: RunSettings, options: RunOption
       break;
     }
     for (let i = 0; i < fingers.length; i++) {
-      const angles = fingers[i]!.angles;
-      const rates = result.fingers[i]!.full.rates;
-      for (let k = 0; k < angles.length; k++) angles[k] = angles[k]! + rates[k]! * dt;
+      const finger = fingers[i]!;
+      const angles = finger.angles;
+      const n = jointCounts[i]!;
+      const rateColumn = columns.jointRates[i]!;
+      for (let k = 0, o = n * (tick - 1); k < n; k++, o++) angles[k] = angles[k]! + rateColumn[o]! * dt;
+      // Exactly the steered angle, not the rate times dt rounded back.
+      if (columns.solution[fingers.length * (tick - 1) + i] === STEER_AND_ROLL) angles[finger.pivotIndex] = result.fingers[i]!.steer.pivotAngle;
     }
     integratePose(position, orientation, linear, angular, dt, position, orientation);
   }
@@ -239,6 +262,7 @@ export function runScene(scene: Scene, settings: RunSettings, options: RunOption
     twist: columns.twist.subarray(0, 6 * tick),
     jointAngles: columns.jointAngles.map((c, i) => c.subarray(0, jointCounts[i]! * tick)),
     jointRates: columns.jointRates.map((c, i) => c.subarray(0, jointCounts[i]! * tick)),
+    solution: columns.solution.subarray(0, fingers.length * tick),
     positionError: columns.positionError.subarray(0, tick),
     orientationError: columns.orientationError.subarray(0, METRIC_COUNT * tick),
     warningMask: columns.warningMask.subarray(0, tick),
@@ -287,6 +311,7 @@ export function toPlainRunRecord(record: RunRecord) {
     jointCounts: record.jointCounts,
     warningCodes: [...WARNING_CODES],
     severityLevels: [...SEVERITY_LEVELS],
+    solutionKinds: [...SOLUTION_KINDS],
     orientationMetrics: ROTATION_METRICS.map((m) => m.key),
     time: Array.from(record.time),
     position: Array.from(record.position),
@@ -296,6 +321,7 @@ export function toPlainRunRecord(record: RunRecord) {
     twist: Array.from(record.twist),
     jointAngles: record.jointAngles.map((c) => Array.from(c)),
     jointRates: record.jointRates.map((c) => Array.from(c)),
+    solution: Array.from(record.solution),
     positionError: Array.from(record.positionError),
     orientationError: Array.from(record.orientationError),
     warningMask: Array.from(record.warningMask),
