@@ -1,7 +1,7 @@
 import { useEffect, useRef } from 'react';
 import uPlot from 'uplot';
 import 'uplot/dist/uPlot.min.css';
-import { indexRangesToX, plottable, seriesStyle } from '../../lib/view/chart-data';
+import { formatTick, indexRangesToX, plottable, seriesStyle } from '../../lib/view/chart-data';
 import { PALETTE, SERIES_COLOURS } from '../../lib/view/palette';
 
 export interface LineSeries {
@@ -34,9 +34,10 @@ export interface LineChartProps {
 const AXIS_FONT = '11px "JetBrains Mono", monospace';
 const LABEL_FONT = '600 12px "IBM Plex Sans", sans-serif';
 
-function axis(label: string): uPlot.Axis {
+function axis(label: string, formatted: boolean): uPlot.Axis {
   return {
     label,
+    ...(formatted ? { values: (_: uPlot, ticks: number[]) => ticks.map(formatTick), size: 56 } : {}),
     stroke: PALETTE.graphite,
     font: AXIS_FONT,
     labelFont: LABEL_FONT,
@@ -77,11 +78,10 @@ export default function LineChart({ title, x, xLabel, yLabel, series, height = 2
     const container = containerRef.current;
     if (!container) return;
     const options: uPlot.Options = {
-      title,
       width: Math.max(240, container.clientWidth),
       height,
       scales: { x: { time: false }, y: logY ? { distr: 3 } : {} },
-      axes: [axis(xLabel), axis(yLabel)],
+      axes: [axis(xLabel, false), axis(yLabel, true)],
       series: [
         { label: xLabel },
         ...series.map((s, i) => {
@@ -95,6 +95,9 @@ export default function LineChart({ title, x, xLabel, yLabel, series, height = 2
     };
     const data = [x, ...series.map((s) => plottable(s.values, logY))] as uPlot.AlignedData;
     const chart = new uPlot(options, data, container);
+    // uPlot's stylesheet is not in a cascade layer, so it outranks utility classes; an inline font wins.
+    chart.root.style.fontFamily = '"IBM Plex Sans", sans-serif';
+    chart.root.style.fontSize = '12px';
     const observer = new ResizeObserver(() => {
       const width = Math.max(240, container.clientWidth);
       if (width !== chart.width) chart.setSize({ width, height });
@@ -106,5 +109,10 @@ export default function LineChart({ title, x, xLabel, yLabel, series, height = 2
     };
   }, [title, x, xLabel, yLabel, series, height, logY, shaded, syncKey]);
 
-  return <div ref={containerRef} className="w-full min-w-0 [&_.u-title]:text-sm [&_.u-title]:font-semibold [&_.u-legend]:font-mono [&_.u-legend]:text-xs [&_.uplot]:font-sans" data-testid="line-chart" aria-label={title} role="img" />;
+  return (
+    <figure className="min-w-0" data-testid="line-chart">
+      <figcaption className="text-sm font-semibold">{title}</figcaption>
+      <div ref={containerRef} className="w-full" role="img" aria-label={`${title}: ${series.map((s) => s.label).join(', ')} over ${xLabel}`} />
+    </figure>
+  );
 }

@@ -61,6 +61,22 @@ function Roller({ roller }: { roller: ViewRoller }) {
   );
 }
 
+const Y_AXIS = new THREE.Vector3(0, 1, 0);
+
+/** A solid arrow (shaft and cone) from origin along the unit direction; thick enough to see at any zoom, unlike 1-pixel lines. */
+function arrowMesh(origin: THREE.Vector3, direction: THREE.Vector3, length: number, colour: string, shaftRadius: number): THREE.Group {
+  const head = Math.min(0.35 * length, 6 * shaftRadius);
+  const material = new THREE.MeshBasicMaterial({ color: colour });
+  const shaft = new THREE.Mesh(new THREE.CylinderGeometry(shaftRadius, shaftRadius, length - head, 10), material);
+  shaft.position.y = (length - head) / 2;
+  const cone = new THREE.Mesh(new THREE.ConeGeometry(2.4 * shaftRadius, head, 16), material);
+  cone.position.y = length - head / 2;
+  const arrow = new THREE.Group().add(shaft, cone);
+  arrow.position.copy(origin);
+  arrow.quaternion.setFromUnitVectors(Y_AXIS, direction);
+  return arrow;
+}
+
 /** Plain three.js objects (lines, arrows, helpers) for the parts R3F has no element for. */
 function useLineObjects(model: SceneModel) {
   return useMemo(() => {
@@ -71,9 +87,7 @@ function useLineObjects(model: SceneModel) {
       group.add(new THREE.Line(new THREE.BufferGeometry().setFromPoints(chain.map(vector)), chainMaterial));
     }
     const arrow = (origin: Vec3Tuple, direction: Vec3Tuple, length: number, colour: string) => {
-      if (!(length > 0)) return;
-      const head = Math.min(0.35 * length, 0.12 * size);
-      group.add(new THREE.ArrowHelper(vector(direction).normalize(), vector(origin), length, colour, head, 0.5 * head));
+      if (length > 0) group.add(arrowMesh(vector(origin), vector(direction).normalize(), length, colour, 0.012 * size));
     };
     for (const contact of model.contacts) {
       arrow(contact.point, contact.normal, model.arrows.unitLength, SCENE_COLOURS.normal);
@@ -95,7 +109,10 @@ function LinesAndArrows({ model }: { model: SceneModel }) {
   useEffect(
     () => () =>
       group.traverse((node) => {
-        if (node instanceof THREE.Line || node instanceof THREE.Mesh) node.geometry.dispose();
+        if (node instanceof THREE.Line || node instanceof THREE.Mesh) {
+          node.geometry.dispose();
+          (node.material as THREE.Material).dispose();
+        }
       }),
     [group],
   );
@@ -108,7 +125,7 @@ function Controls({ center, radius, viewKey }: { center: Vec3Tuple; radius: numb
   useEffect(() => {
     const target = vector(center);
     camera.up.copy(Z_UP);
-    camera.position.copy(target.clone().addScaledVector(VIEW_DIRECTION, 4.2 * radius));
+    camera.position.copy(target.clone().addScaledVector(VIEW_DIRECTION, 3.4 * radius));
     camera.near = radius / 200;
     camera.far = radius * 200;
     camera.lookAt(target);

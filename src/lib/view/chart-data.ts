@@ -26,3 +26,10 @@ export function indexRangesToX(x: ArrayLike<number>, ranges: { start: number; en
     to: x[end - 1]! + (end < n ? half(end - 1, end) : half(n - 2, n - 1)),
   }));
 }
+
+/** Tick labels short enough for a narrow axis: exponent form for very large or small magnitudes. */
+export function formatTick(value: number): string {
+  const magnitude = Math.abs(value);
+  if (magnitude !== 0 && (magnitude >= 1e5 || magnitude < 1e-3)) return Number(value.toPrecision(3)).toExponential().replace('e+', 'e');
+  return String(Number(value.toPrecision(4)));
+}

@@ -160,7 +160,8 @@ export function buildSceneModel(doc: SheetDocument, result: PlainSheetResult | n
   ];
   const bounds = boundsOf(hull);
   const objectSize = Math.max(...AXES.map((d) => dot(objectSupport(object, d), d) - dot(object.position, d)));
-  const unitLength = 0.6 * objectSize;
+  // Normals start at the contact and point into the roller, so they must outreach it to be seen.
+  const unitLength = Math.max(0.6 * objectSize, ...rollers.map((roller) => 2.4 * roller.radius));
   const maxSpeed = Math.max(0, ...contacts.map((c) => norm(c.velocity)));
   return {
     object,

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { indexRangesToX, plottable, seriesStyle } from '../../../src/lib/view/chart-data';
+import { formatTick, indexRangesToX, plottable, seriesStyle } from '../../../src/lib/view/chart-data';
 
 describe('plottable', () => {
   it('passes a clean column through untouched', () => {
@@ -28,5 +28,17 @@ describe('indexRangesToX', () => {
     expect(indexRangesToX(x, [{ start: 0, end: 1 }])).toEqual([{ from: -1, to: 1 }]);
     expect(indexRangesToX(x, [{ start: 3, end: 4 }])).toEqual([{ from: 5, to: 7 }]);
     expect(indexRangesToX([], [{ start: 0, end: 1 }])).toEqual([]);
+  });
+});
+
+describe('formatTick', () => {
+  it('writes large and small magnitudes with an exponent and the rest plainly', () => {
+    expect(formatTick(100_000_000)).toBe('1e8');
+    expect(formatTick(250_000)).toBe('2.5e5');
+    expect(formatTick(0.0004)).toBe('4e-4');
+    expect(formatTick(-0.000123456)).toBe('-1.23e-4');
+    expect(formatTick(0)).toBe('0');
+    expect(formatTick(-0.25)).toBe('-0.25');
+    expect(formatTick(12345)).toBe('12350');
   });
 });
