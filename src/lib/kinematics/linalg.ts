@@ -34,6 +34,8 @@ export interface LinalgWorkspace {
 }
 
 const JACOBI_TOLERANCE = 1e-15;
+/** Rows shorter than this times ||A||_F that are not orthogonal to the others are rounding noise of a rank-deficient direction. */
+const ABSOLUTE_FLOOR = Number.EPSILON;
 const MAX_SWEEPS = 60;
 const SAFE_LOW = 2 ** -100;
 /** Relative Cholesky pivot below which the normal equations lose too many digits (sigma ratio near 1e-4). */
@@ -136,14 +138,21 @@ function orthogonalizeRows(w: Float64Array, p: number, q: number, rot: Float64Ar
     for (let i = 0; i < p * p; i++) rot[i] = 0;
     for (let i = 0; i < p; i++) rot[i * p + i] = 1;
   }
+  // Rotations preserve the Frobenius norm; a row at rounding level of it (a rank-deficient direction)
+  // stays non-orthogonal noise under the relative test, so it would be rotated for every sweep left.
+  // Rows that are tiny but exactly orthogonal (graded matrices) are kept: gamma = 0 skips them first.
+  let floor = -1;
   for (let sweep = 0; sweep < MAX_SWEEPS; sweep++) {
     // Squared row norms are refreshed once per sweep and updated exactly within it
     // (alpha' = alpha - t gamma, beta' = beta + t gamma), so each pair costs one dot product.
+    let total = 0;
     for (let i = 0; i < p; i++) {
       let sum = 0;
       for (let k = i * q, end = k + q; k < end; k++) sum += w[k]! * w[k]!;
       norms[i] = sum;
+      total += sum;
     }
+    if (floor < 0) floor = ABSOLUTE_FLOOR * ABSOLUTE_FLOOR * total;
     let rotated = false;
     for (let i = 0; i < p - 1; i++) {
       const oi = i * q;
@@ -154,6 +163,14 @@ function orthogonalizeRows(w: Float64Array, p: number, q: number, rot: Float64Ar
         const alpha = norms[i]!;
         const beta = norms[j]!;
         if (gamma === 0 || gamma * gamma <= JACOBI_TOLERANCE * JACOBI_TOLERANCE * alpha * beta) continue;
+        if (alpha <= floor || beta <= floor) {
+          // Dropping the short row changes A by at most eps ||A||_F, below what rounding already did,
+          // and leaves an exact zero singular value with the rows still orthogonal.
+          const short = alpha <= beta ? oi : oj;
+          for (let k = short, end = short + q; k < end; k++) w[k] = 0;
+          norms[alpha <= beta ? i : j] = 0;
+          continue;
+        }
         rotated = true;
         // Rutishauser's t = sign(zeta) / (|zeta| + sqrt(1 + zeta^2)), zeta = (beta - alpha) / (2 gamma), rewritten
         // with d = |beta - alpha| and h = sqrt(d^2 + 4 gamma^2) as c = (d + h) / m, s = 2 sign gamma / m,

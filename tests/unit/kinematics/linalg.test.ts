@@ -170,6 +170,20 @@ describe('svd', () => {
     checkFactorization([[1, 2, 3, 4], [0, 0, 0, 0], [2, 4, 6, 8]], 3, 4);
     checkFactorization([[0, 0], [0, 0], [0, 0]], 3, 2);
   });
+
+  it('with a zero column (a joint axis through the contact): smallest singular value 0, the rest as ml-matrix, factors orthonormal', () => {
+    // Base, pivot and roll columns of a finger whose pivot passes through the contact (m/rad).
+    const contactJacobian = [[0.05, 0, 0], [0, 0, -0.012], [0.06, 0, 0]];
+    checkFactorization(contactJacobian, 3, 3);
+    expect(svd(matrixFromRows(contactJacobian), svdBuffers(3, 3), ws).s[2]).toBe(0);
+    forEachCase(13, CASES, (random) => {
+      const rows = randomRows(random, 3, 3).map((row) => [row[0]!, 0, row[2]!]);
+      checkFactorization(rows, 3, 3);
+      const s = singularValues(matrixFromRows(rows), new Float64Array(3), ws);
+      expect(s[2]).toBeLessThanOrEqual(Number.EPSILON * Math.hypot(...rows.flat()));
+      checkFactorization(randomRows(random, 5, 4).map((row) => [row[0]!, row[1]!, 0, row[3]!]), 5, 4);
+    });
+  });
 });
 
 function svdBuffers(m: number, n: number) {
