@@ -67,7 +67,7 @@ describe('sheet editor', () => {
     await saveSection(page, '[data-title-block]', 'sheet-editor-open-top');
     // JavaScript this page loaded (islands, lazy 3D view, workers), gzipped as a server would send it.
     const sizes = [...scripts].map((path) => {
-      const bytes = readFileSync(join('dist/client', path));
+      const bytes = new Uint8Array(readFileSync(join('dist/client', path)));
       return { path, raw: bytes.length, gzip: gzipSync(bytes, { level: 9 }).length };
     });
     const total = sizes.reduce((sum, s) => sum + s.gzip, 0);
