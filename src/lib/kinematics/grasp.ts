@@ -11,7 +11,7 @@
  * of the 3 x 3 matrix S. Rank and null space do not depend on the reference point; a null
  * rotation w of S gives the undrivable twist (v, w) = (-w x (m - p), w) about p.
  */
-import { symmetricEigen3 } from './solve';
+import { symmetricEigen3Packed } from './solve';
 import { createMatrix, type Matrix } from './linalg';
 
 /** Rank and undrivable object twists of the grasp (world frame). */
@@ -35,6 +35,8 @@ export interface GraspWorkspace {
   eigen: Float64Array;
   vectors: Float64Array;
   rotation: Float64Array;
+  /** S packed as [s00, s11, s22, s01, s02, s12] for symmetricEigen3Packed. */
+  entries: Float64Array;
 }
 
 /** Empty grasp result for up to maxContacts contacts (4 rows each, to allow soft fingers). */
@@ -51,7 +53,7 @@ export function createGraspResult(maxContacts: number): GraspResult {
 
 /** New scratch space for computeGrasp. */
 export function createGraspWorkspace(): GraspWorkspace {
-  return { eigen: new Float64Array(3), vectors: new Float64Array(9), rotation: new Float64Array(3) };
+  return { eigen: new Float64Array(3), vectors: new Float64Array(9), rotation: new Float64Array(3), entries: new Float64Array(6) };
 }
 
 /**
@@ -115,7 +117,9 @@ export function computeGrasp(
       s01 += nx * ny; s02 += nx * nz; s12 += ny * nz;
     }
   }
-  const e = symmetricEigen3(s00, s11, s22, s01, s02, s12, ws.eigen, ws.vectors);
+  const entries = ws.entries;
+  entries[0] = s00; entries[1] = s11; entries[2] = s22; entries[3] = s01; entries[4] = s02; entries[5] = s12;
+  const e = symmetricEigen3Packed(entries, ws.eigen, ws.vectors);
   const translational = Math.sqrt(contactCount);
   const r0 = Math.sqrt(e[0] > 0 ? e[0] : 0), r1 = Math.sqrt(e[1] > 0 ? e[1] : 0), r2 = Math.sqrt(e[2] > 0 ? e[2] : 0);
   // Merge sqrt(k) (three times) with the descending rotational values.

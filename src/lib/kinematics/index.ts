@@ -54,7 +54,7 @@ export {
 export type { Contact, ContactState, ContactWorkspace, RigidObject } from './contact';
 export {
   contactJacobian, createFullSolution, createSolveWorkspace, createSteerAndRoll, jacobianSingularValues, largestEigenvalue3,
-  solveFull, solveSteerAndRoll, symmetricEigen3,
+  solveFull, solveSteerAndRoll, symmetricEigen3, symmetricEigen3Packed,
 } from './solve';
 export type { FullSolution, SolveWorkspace, SteerAndRoll } from './solve';
 export {

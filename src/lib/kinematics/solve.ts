@@ -191,6 +191,20 @@ const NEGLIGIBLE = 1e-16;
  * also when two coincide; units of the entries.
  */
 export function symmetricEigen3(a00: number, a11: number, a22: number, a01: number, a02: number, a12: number, values: Float64Array, vectors: Float64Array | null = null): Float64Array {
+  const e = packedEntries;
+  e[0] = a00; e[1] = a11; e[2] = a22; e[3] = a01; e[4] = a02; e[5] = a12;
+  return symmetricEigen3Packed(e, values, vectors);
+}
+
+const packedEntries = new Float64Array(6);
+
+/**
+ * symmetricEigen3 with the entries packed as [a00, a11, a22, a01, a02, a12] (units of the entries):
+ * arrays cross the call unboxed, where six computed numbers passed to a function too large to
+ * inline would each be boxed on the heap.
+ */
+export function symmetricEigen3Packed(entries: ArrayLike<number>, values: Float64Array, vectors: Float64Array | null = null): Float64Array {
+  let a00 = entries[0], a11 = entries[1], a22 = entries[2], a01 = entries[3], a02 = entries[4], a12 = entries[5];
   let v00 = 1, v01 = 0, v02 = 0, v10 = 0, v11 = 1, v12 = 0, v20 = 0, v21 = 0, v22 = 1;
   for (let sweep = 0; sweep < JACOBI_SWEEPS; sweep++) {
     // Off-diagonal entries at rounding level of the matrix scale shift the eigenvalues by less than rounding.
@@ -277,15 +291,15 @@ export function largestEigenvalue3(a00: number, a11: number, a22: number, a01: n
 }
 
 /**
- * Singular values of a 3 x n Jacobian, descending and padded with zeros, into out; returns
- * sqrt(det(J J^T)). The largest comes from the largest eigenvalue of J J^T. The other two come from
+ * Singular values of a 3 x n Jacobian, descending and padded with zeros, into out (returned; their
+ * product is sqrt(det(J J^T))). The largest comes from the largest eigenvalue of J J^T. The other two come from
  * sums of squared minors of J itself (Cauchy-Binet): E2 = sum of squared 2 x 2 minors
  * = s1^2 s2^2 + s1^2 s3^2 + s2^2 s3^2 and P = sqrt(sum of squared 3 x 3 minors) = s1 s2 s3, so
  * s2^2 and s3^2 are the roots of t^2 - (E2 - P^2 / s1^2) / s1^2 t + P^2 / s1^2; this keeps small
  * singular values accurate relative to themselves, where sqrt of a small eigenvalue of J J^T
  * would lose half the digits.
  */
-export function jacobianSingularValues(j: Matrix, out: Float64Array): number {
+export function jacobianSingularValues(j: Matrix, out: Float64Array): Float64Array {
   const n = j.cols, d = j.data;
   let g00 = 0, g11 = 0, g22 = 0, g01 = 0, g02 = 0, g12 = 0;
   for (let k = 0; k < n; k++) {
@@ -312,7 +326,7 @@ export function jacobianSingularValues(j: Matrix, out: Float64Array): number {
   if (s1Squared === 0) {
     out[1] = 0;
     out[2] = 0;
-    return 0;
+    return out;
   }
   const product = e3 / s1Squared;
   const sum = Math.max(0, (e2 - product) / s1Squared);
@@ -320,7 +334,7 @@ export function jacobianSingularValues(j: Matrix, out: Float64Array): number {
   const larger = 0.5 * (sum + Math.sqrt(discriminant));
   out[1] = Math.sqrt(larger);
   out[2] = larger > 0 ? Math.sqrt(product / larger) : 0;
-  return Math.sqrt(e3);
+  return out;
 }
 
 /** Full damped least-squares solution for one finger after its contact is computed (world frame, SI). */
@@ -355,8 +369,8 @@ export function solveFull(finger: Finger, contact: Contact, angularVelocity: Arr
   out.residualNorm = Math.sqrt(translational);
   out.spinResidual = rows === 4 ? Math.abs(out.residual[3]) : 0;
   j.rows = 3;
-  out.manipulability = jacobianSingularValues(j, out.singularValues);
-  const s = out.singularValues;
+  const s = jacobianSingularValues(j, out.singularValues);
+  out.manipulability = s[0] * s[1] * s[2];
   out.conditionNumber = conditionNumber(s, 3);
   out.singularRatio = s[0] > 0 ? s[2] / s[0] : 0;
   j.rows = rows;
@@ -404,7 +418,7 @@ export function solveSteerAndRoll(finger: Finger, contact: Contact, full: FullSo
     out.rollDistance = Number.NaN;
     out.rollRate = 0;
   } else {
-    steer(finger, contact, out, ws, uNorm);
+    steer(finger, contact, out, ws);
   }
 
   // Jacobian after steering: joints beyond the pivot turn about the pivot line by pivotChange.
@@ -471,7 +485,8 @@ function driveConditioning(finger: Finger, contact: Contact, axisDistance: numbe
  * direction d(delta) = R w_roll x e - R g is linear in (1, cos, sin), so aligning it with the
  * remainder u (m . d = 0 for m = n x u) is a + b cos delta + c sin delta = 0.
  */
-function steer(finger: Finger, contact: Contact, out: SteerAndRoll, ws: SolveWorkspace, uNorm: number): void {
+function steer(finger: Finger, contact: Contact, out: SteerAndRoll, ws: SolveWorkspace): void {
+  const uNorm = out.remainderNorm;
   const axes = finger.axes, points = finger.points;
   const po = 3 * finger.pivotIndex, ro = 3 * finger.rollIndex;
   const kx = axes[po], ky = axes[po + 1], kz = axes[po + 2];

@@ -5,7 +5,7 @@ import { createFinger } from '../../../src/lib/kinematics/hand';
 import { createMatrix, matrixFromRows } from '../../../src/lib/kinematics/linalg';
 import {
   contactJacobian, createFullSolution, createSolveWorkspace, createSteerAndRoll, jacobianSingularValues, solveFull,
-  largestEigenvalue3, solveSteerAndRoll, symmetricEigen3,
+  largestEigenvalue3, solveSteerAndRoll, symmetricEigen3, symmetricEigen3Packed,
 } from '../../../src/lib/kinematics/solve';
 import type { FingerInput, SheetDocument, SolverSettings } from '../../../src/lib/sheet/types';
 import { threeFingerFinger } from './three-finger-sheet';
@@ -54,6 +54,24 @@ describe('symmetricEigen3', () => {
     [1, 1, 1, 1, 1, 1],
     [0, 0, 0, 0, 0, 0],
   ];
+  it('packed entries [a00, a11, a22, a01, a02, a12] give the same eigenvalues and vectors as ml-matrix', () => {
+    for (const [a00, a11, a22, a01, a02, a12] of cases) {
+      const values = new Float64Array(3), vectors = new Float64Array(9);
+      symmetricEigen3Packed([a00, a11, a22, a01, a02, a12], values, vectors);
+      const reference = new EigenvalueDecomposition(new MlMatrix([[a00, a01, a02], [a01, a11, a12], [a02, a12, a22]])).realEigenvalues.sort((x, y) => y - x);
+      const scale = Math.max(1e-300, Math.abs(reference[0]), Math.abs(reference[2]));
+      for (let i = 0; i < 3; i++) expect(Math.abs(values[i] - reference[i]) / scale).toBeLessThan(1e-14);
+      // A v = lambda v for every column (definition of an eigenvector).
+      const a = [[a00, a01, a02], [a01, a11, a12], [a02, a12, a22]];
+      for (let c = 0; c < 3; c++) {
+        for (let r = 0; r < 3; r++) {
+          const av = a[r][0] * vectors[c] + a[r][1] * vectors[3 + c] + a[r][2] * vectors[6 + c];
+          expect(Math.abs(av - values[c] * vectors[3 * r + c]) / scale).toBeLessThan(1e-13);
+        }
+      }
+    }
+  });
+
   it('eigenvalues match ml-matrix EigenvalueDecomposition, also when two coincide', () => {
     for (const [a00, a11, a22, a01, a02, a12] of cases) {
       const ours = symmetricEigen3(a00, a11, a22, a01, a02, a12, new Float64Array(3));
@@ -86,10 +104,11 @@ describe('largestEigenvalue3', () => {
 });
 
 describe('jacobianSingularValues', () => {
-  it('matches ml-matrix SVD, and returns sqrt(det(J J^T)) (Yoshikawa 1985)', () => {
+  it('matches ml-matrix SVD, with product sqrt(det(J J^T)) (Yoshikawa 1985)', () => {
     const rows = [[0.05, 0.01, 0.003, -0.02], [0.002, 0.03, -0.012, 0.01], [0.06, 0.004, 0.02, 0.001]];
     const ours = new Float64Array(3);
-    const product = jacobianSingularValues(matrixFromRows(rows), ours);
+    expect(jacobianSingularValues(matrixFromRows(rows), ours)).toBe(ours);
+    const product = ours[0] * ours[1] * ours[2];
     const m = new MlMatrix(rows);
     const reference = new SingularValueDecomposition(m, { autoTranspose: true }).diagonal;
     close(ours, reference, 14);
@@ -105,7 +124,7 @@ describe('jacobianSingularValues', () => {
   });
   it('pads with zeros when there are fewer than three joints', () => {
     const ours = new Float64Array(3);
-    expect(jacobianSingularValues(matrixFromRows([[3], [4], [0]]), ours)).toBe(0);
+    jacobianSingularValues(matrixFromRows([[3], [4], [0]]), ours);
     close(ours, [5, 0, 0]);
   });
 });
