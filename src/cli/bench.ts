@@ -4,7 +4,8 @@
  * Measures one full solve of a three- and a five-finger hand (hand templates on a 30 mm sphere),
  * a 10,000-tick run, a 200-value sweep, and the same three-finger contact solve written the
  * general-purpose way with mathjs matrices (eigs of J J^T for singular values, inv and multiply
- * for damped least squares), with the ratio between the two routes.
+ * for damped least squares), with the ratio between the two routes. Beside the wall-clock medians
+ * it prints the process's CPU time per call, which other work on the machine inflates less.
  */
 import { availableParallelism, cpus, loadavg } from 'node:os';
 import { all, create, type MathJsInstance, type Matrix as MathMatrix } from 'mathjs';
@@ -21,23 +22,30 @@ const math: MathJsInstance = create(all);
 
 interface Measurement {
   label: string;
-  /** Median time per call, ms. */
+  /** Median wall-clock time per call, ms. */
   median: number;
   min: number;
   max: number;
+  /** Median CPU time (user + system) of this process per call, ms: less inflated than wall-clock time when other work shares the cores. */
+  cpuMedian: number;
 }
 
 /** Median over REPETITIONS of the time per call, each repetition timing `batch` calls after a warm-up. */
 function measure(label: string, batch: number, call: () => void): Measurement {
   for (let i = 0; i < Math.max(1, batch >> 2); i++) call();
   const times: number[] = [];
+  const cpuTimes: number[] = [];
   for (let r = 0; r < REPETITIONS; r++) {
+    const cpuStart = process.cpuUsage();
     const start = performance.now();
     for (let i = 0; i < batch; i++) call();
     times.push((performance.now() - start) / batch);
+    const cpu = process.cpuUsage(cpuStart);
+    cpuTimes.push((cpu.user + cpu.system) / 1000 / batch);
   }
   times.sort((a, b) => a - b);
-  return { label, median: times[times.length >> 1]!, min: times[0]!, max: times[times.length - 1]! };
+  cpuTimes.sort((a, b) => a - b);
+  return { label, median: times[times.length >> 1]!, min: times[0]!, max: times[times.length - 1]!, cpuMedian: cpuTimes[cpuTimes.length >> 1]! };
 }
 
 function sphereSheet(templateId: string): SheetDocument {
@@ -104,7 +112,7 @@ function format(ms: number): string {
 }
 
 function line(m: Measurement, note = ''): string {
-  return `${m.label.padEnd(44)} ${format(m.median).padStart(10)}   (min ${format(m.min)}, max ${format(m.max)})${note ? `   ${note}` : ''}`;
+  return `${m.label.padEnd(44)} ${format(m.median).padStart(10)}   (min ${format(m.min)}, max ${format(m.max)}; CPU ${format(m.cpuMedian)})${note ? `   ${note}` : ''}`;
 }
 
 function against(m: Measurement, targetMs: number): string {

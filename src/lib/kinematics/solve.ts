@@ -459,24 +459,48 @@ function driveConditioning(finger: Finger, contact: Contact, axisDistance: numbe
   const n = finger.jointCount, pv = finger.pivotIndex;
   out.pivotDrives = pv < 0 || !(contact.pivotAxisDistance < axisDistance);
   const skip = out.pivotDrives ? -1 : pv;
-  const from = out.jacobianAfter.data, drive = ws.drive, to = drive.data;
   const m = out.pivotDrives ? n : n - 1;
-  for (let k = 0, c = 0; k < n; k++) {
-    if (k === skip) continue;
-    to[c] = from[k];
-    to[m + c] = from[n + k];
-    to[2 * m + c] = from[2 * n + k];
-    c++;
-  }
-  drive.rows = 3;
-  drive.cols = m;
   out.driveColumnCount = m;
-  const s = out.driveSingularValues;
-  jacobianSingularValues(drive, s);
+  const from = out.jacobianAfter.data, s = out.driveSingularValues;
+  if (m === 2) {
+    // The usual finger: base and roll, read in place.
+    const first = skip === 0 ? 1 : 0;
+    const second = skip === first + 1 ? first + 2 : first + 1;
+    twoColumnSingularValues(from, n, first, second, s);
+  } else {
+    const drive = ws.drive, to = drive.data;
+    for (let k = 0, c = 0; k < n; k++) {
+      if (k === skip) continue;
+      to[c] = from[k];
+      to[m + c] = from[n + k];
+      to[2 * m + c] = from[2 * n + k];
+      c++;
+    }
+    drive.rows = 3;
+    drive.cols = m;
+    jacobianSingularValues(drive, s);
+  }
   // Steering supplies the third direction by choosing the roll direction, so the drive columns need
   // only span two: the normal (base) and the steered roll direction.
   const weakest = s[(m < STEERED_RANK ? m : STEERED_RANK) - 1];
   out.driveRatio = m > 0 && s[0] > 0 ? weakest / s[0] : 0;
+}
+
+/**
+ * Singular values of the 3 x 2 matrix [c1 c2] of columns i and k of the 3 x n row-major d into out, padded with a zero: sigma_1^2 is
+ * the larger eigenvalue (a + b) / 2 + sqrt(((a - b) / 2)^2 + g^2) of the Gram matrix [[a, g], [g, b]], and
+ * sigma_1 sigma_2 = |c1 x c2| (Lagrange's identity), which keeps sigma_2 accurate relative to itself (m/rad).
+ */
+function twoColumnSingularValues(d: Float64Array, n: number, i: number, k: number, out: Float64Array): void {
+  const x1 = d[i], y1 = d[n + i], z1 = d[2 * n + i], x2 = d[k], y2 = d[n + k], z2 = d[2 * n + k];
+  const a = x1 * x1 + y1 * y1 + z1 * z1, b = x2 * x2 + y2 * y2 + z2 * z2, g = x1 * x2 + y1 * y2 + z1 * z2;
+  const half = 0.5 * (a - b);
+  const largest = 0.5 * (a + b) + Math.sqrt(half * half + g * g);
+  const cx = y1 * z2 - z1 * y2, cy = z1 * x2 - x1 * z2, cz = x1 * y2 - y1 * x2;
+  const s1 = Math.sqrt(largest);
+  out[0] = s1;
+  out[1] = s1 > 0 ? Math.sqrt(cx * cx + cy * cy + cz * cz) / s1 : 0;
+  out[2] = 0;
 }
 
 /**
