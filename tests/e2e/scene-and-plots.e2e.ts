@@ -229,6 +229,10 @@ describe('3D view, its SVG fallback, runs and sweeps on the sheet page', () => {
       expect(await panel.locator('figcaption', { hasText: title }).count()).toBe(1);
     }
     expect(await panel.locator('.u-legend').nth(3).innerText()).toMatch(/north[\s\S]*southwest[\s\S]*southeast/);
+    // Every plot has its full width, the log-scaled condition number too (one finger is at rank loss: infinite, shown as a gap).
+    const widths = await panel.locator('.uplot canvas').evaluateAll((canvases) => canvases.map((c) => c.getBoundingClientRect().width));
+    expect(widths.every((w) => w > 200), JSON.stringify(widths)).toBe(true);
+    expect(await panel.getByTestId('chart-gaps').count()).toBeGreaterThanOrEqual(1);
     await panel.scrollIntoViewIfNeeded();
     await panel.screenshot({ path: 'test-results/screenshots/sweep-panel.png' });
   });

@@ -37,7 +37,7 @@ const LABEL_FONT = '600 12px "IBM Plex Sans", sans-serif';
 function axis(label: string, formatted: boolean): uPlot.Axis {
   return {
     label,
-    ...(formatted ? { values: (_: uPlot, ticks: number[]) => ticks.map(formatTick), size: 56 } : {}),
+    ...(formatted ? { values: (_: uPlot, ticks: (number | null)[]) => ticks.map((tick) => (tick == null ? '' : formatTick(tick))), size: 56 } : {}),
     stroke: PALETTE.graphite,
     font: AXIS_FONT,
     labelFont: LABEL_FONT,
@@ -45,6 +45,15 @@ function axis(label: string, formatted: boolean): uPlot.Axis {
     ticks: { stroke: PALETTE.rule, width: 1 },
   };
 }
+
+/**
+ * Log-axis range that survives what sheets produce: a single repeated value (uPlot's own log
+ * range collapses on it) or no drawable value at all.
+ */
+const logRange: uPlot.Range.Function = (_u, min, max) => {
+  if (min == null || max == null || !(min > 0)) return [1, 10];
+  return min === max ? uPlot.rangeLog(min / 10, max * 10, 10, true) : uPlot.rangeLog(min, max, 10, true);
+};
 
 /** Paints the shaded stretches behind the lines, across the plotting area. */
 function shadingPlugin(stretches: ShadedStretch[], x: ArrayLike<number>): uPlot.Plugin {
@@ -73,6 +82,7 @@ function shadingPlugin(stretches: ShadedStretch[], x: ArrayLike<number>): uPlot.
 /** A uPlot line chart in our palette that fills its container's width and redraws when the data change. */
 export default function LineChart({ title, x, xLabel, yLabel, series, height = 220, logY = false, shaded = [], syncKey }: LineChartProps) {
   const containerRef = useRef<HTMLDivElement>(null);
+  const hasGaps = series.some((s) => plottable(s.values, logY) !== s.values);
 
   useEffect(() => {
     const container = containerRef.current;
@@ -80,7 +90,7 @@ export default function LineChart({ title, x, xLabel, yLabel, series, height = 2
     const options: uPlot.Options = {
       width: Math.max(240, container.clientWidth),
       height,
-      scales: { x: { time: false }, y: logY ? { distr: 3 } : {} },
+      scales: { x: { time: false }, y: logY ? { distr: 3, range: logRange } : {} },
       axes: [axis(xLabel, false), axis(yLabel, true)],
       series: [
         { label: xLabel },
@@ -113,6 +123,11 @@ export default function LineChart({ title, x, xLabel, yLabel, series, height = 2
     <figure className="min-w-0" data-testid="line-chart">
       <figcaption className="text-sm font-semibold">{title}</figcaption>
       <div ref={containerRef} className="w-full" role="img" aria-label={`${title}: ${series.map((s) => s.label).join(', ')} over ${xLabel}`} />
+      {hasGaps && (
+        <p className="text-xs text-graphite" data-testid="chart-gaps">
+          Gaps: values that cannot be drawn ({logY ? 'infinite or not positive on this log axis' : 'infinite or undefined'}).
+        </p>
+      )}
     </figure>
   );
 }
