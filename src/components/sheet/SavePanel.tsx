@@ -55,6 +55,8 @@ export interface SavePanelProps {
   readsCleanly: boolean;
   onSaved: (revision: number, saved: RawDocument) => void;
   onReplaceDocument: (base: RawDocument, baseRevision: number, document: RawDocument) => void;
+  /** Teams the user may fork into; the sheet's own team first. */
+  forkTargets: { teamId: string; name: string }[];
 }
 
 /** Save with a message; on a stale base, show what the other revision changed and offer re-apply or fork. Nothing is dropped. */
@@ -63,6 +65,7 @@ export default function SavePanel(props: SavePanelProps) {
   const [message, setMessage] = useState('');
   const [conflict, setConflict] = useState<number | null>(null);
   const [notice, setNotice] = useState<string | null>(null);
+  const [forkTeam, setForkTeam] = useState(props.forkTargets[0]?.teamId ?? '');
 
   const save = useMutation({
     mutationFn: (input: { base: number; doc: RawDocument }) =>
@@ -94,7 +97,7 @@ export default function SavePanel(props: SavePanelProps) {
 
   const fork = useMutation({
     mutationFn: async () => {
-      const created = await requestJson<{ sheetId: string }>(`/api/sheets/${sheetId}/fork`, { method: 'POST', body: { revision: baseRevision } });
+      const created = await requestJson<{ sheetId: string }>(`/api/sheets/${sheetId}/fork`, { method: 'POST', body: { revision: baseRevision, ...(forkTeam ? { teamId: forkTeam } : {}) } });
       if (props.dirty) {
         await requestJson(`/api/sheets/${created.sheetId}/revisions`, {
           method: 'POST',
@@ -148,6 +151,18 @@ export default function SavePanel(props: SavePanelProps) {
         <button type="button" className={button} disabled={fork.isPending} onClick={() => fork.mutate()}>
           {fork.isPending ? 'Forking…' : props.dirty ? 'Fork with my changes' : 'Fork'}
         </button>
+        {props.forkTargets.length > 1 && (
+          <label className="text-[11px] uppercase tracking-wide text-graphite">
+            fork into
+            <select className={`${fieldInput} font-sans`} value={forkTeam} onChange={(event) => setForkTeam(event.target.value)} data-fork-team>
+              {props.forkTargets.map((t) => (
+                <option key={t.teamId} value={t.teamId}>
+                  {t.name}
+                </option>
+              ))}
+            </select>
+          </label>
+        )}
         <span className="text-xs text-graphite" role="status" data-save-status>
           {props.dirty ? 'Unsaved changes (kept in this browser until saved)' : 'All changes saved'}
           {notice ? ` · ${notice}` : ''}

@@ -237,6 +237,7 @@ function Editor({ data }: { data: SheetPageData }) {
                   document={document}
                   dirty={dirty}
                   readsCleanly={reply?.ok ?? false}
+                  forkTargets={data.forkTargets}
                   onSaved={(revision, saved) => {
                     setBase({ revision, document: saved });
                     setLatestRevision((r) => Math.max(r, revision));

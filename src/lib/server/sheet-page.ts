@@ -19,6 +19,8 @@ export interface SheetPageData {
   forkedFrom: SheetLink | null;
   forks: SheetLink[];
   canEdit: boolean;
+  /** Teams the identity may fork this sheet into (where it may write sheets). */
+  forkTargets: { teamId: string; name: string }[];
 }
 
 export type SheetPageOutcome = { status: 'ok'; data: SheetPageData } | { status: 'missing'; message: string };
@@ -67,6 +69,10 @@ export async function loadSheetPage(database: Database, identity: Identity, shee
           : null,
       forks: forks.map((f) => ({ id: f.id, title: f.title, revision: f.forkedFromRevision ?? 1 })),
       canEdit: membership !== undefined && can(membership.role, 'sheet.write'),
+      forkTargets: identity.memberships
+        .filter((m) => can(m.role, 'sheet.write'))
+        .sort((a, b) => Number(b.teamId === sheet.teamId) - Number(a.teamId === sheet.teamId))
+        .map((m) => ({ teamId: m.teamId, name: m.name })),
     },
   };
 }

@@ -148,18 +148,19 @@ export async function listRevisions(database: Database, sheetId: string) {
     .orderBy(desc(sheetRevisions.number));
 }
 
-/** Copies one revision of a sheet into a new sheet of the same team that remembers its origin. */
+/** Copies one revision of a sheet into a new sheet of `targetTeamId` (same or another team) that remembers its origin. */
 export async function forkSheet(
   database: Database,
   source: { id: string; teamId: string; title: string; tags: string[] },
   revisionNumber: number,
   authorId: string,
   title?: string,
+  targetTeamId: string = source.teamId,
 ): Promise<{ sheetId: string; revision: number } | null> {
   const revision = await getRevision(database, source.id, revisionNumber);
   if (!revision) return null;
   return createSheet(database, {
-    teamId: source.teamId,
+    teamId: targetTeamId,
     title: title ?? `${source.title} (fork)`,
     tags: source.tags,
     inputs: revision.inputs,

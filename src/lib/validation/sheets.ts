@@ -21,6 +21,8 @@ export const saveRevisionBody = z.object({
 
 export const forkBody = z.object({
   revision: z.number().int().min(1).optional(),
+  /** Team that receives the fork; the source sheet's team when absent. */
+  teamId: z.string().min(1).optional(),
   title: sheetTitleField.optional(),
 });
 

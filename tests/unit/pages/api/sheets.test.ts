@@ -101,3 +101,27 @@ describe('GET /api/sheets', () => {
     expect(none).toMatchObject({ items: [], total: 0 });
   });
 });
+
+describe('forking into another team', () => {
+  it('needs read on the source and write on the target team, and lands the fork there', async () => {
+    const { getDatabase } = await import('../../../../src/lib/server/database');
+    const { memberships } = await import('../../../../src/db/schema');
+    const { identityForUser } = await import('../../../../src/lib/server/identity');
+    const database = await getDatabase();
+    const other = await createTeamWithRoles('fork-target');
+    const { sheetId } = await (await create(people.editor)).json();
+    // The source team's reviewer is also an editor in the other team.
+    await database.write((db) => db.insert(memberships).values({ teamId: other.teamId, userId: people.reviewer.user.id, role: 'editor' }));
+    const reviewerInBoth = (await identityForUser(database, people.reviewer.user.id))!;
+    const fork = (identity: Identity, target: string) =>
+      forkRoute.POST(apiContext({ method: 'POST', params: { sheetId }, body: { teamId: target }, identity }));
+
+    const response = await fork(reviewerInBoth, other.teamId);
+    expect(response.status).toBe(201);
+    const created = await response.json();
+    const detail = await (await sheetRoute.GET(apiContext({ params: { sheetId: created.sheetId }, identity: other.identities.viewer }))).json();
+    expect(detail.sheet).toMatchObject({ teamId: other.teamId, forkedFromSheetId: sheetId });
+    expect((await fork(reviewerInBoth, teamId)).status).toBe(403);
+    expect((await fork(people.editor, other.teamId)).status).toBe(404);
+  });
+});
