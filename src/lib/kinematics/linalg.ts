@@ -436,6 +436,7 @@ export function dampedLeastSquares(
   checkFits(a, ws);
   const m = a.rows;
   const n = a.cols;
+  if (m === 3 && n >= 3 && threeRowDampedLeastSquares(a, b, lambda * lambda, out)) return out;
   const d = a.data;
   const g = ws.gram;
   const y = ws.vector;
@@ -468,6 +469,46 @@ export function dampedLeastSquares(
   choleskySolveInPlace(g, n, y);
   for (let j = 0; j < n; j++) out[j] = y[j]!;
   return out;
+}
+
+/**
+ * dampedLeastSquares for a fat 3-row A with the Gram matrix, its Cholesky factor and both
+ * triangular solves unrolled in the general route's operation order (same results to the bit);
+ * false, with out untouched, when a pivot is too small for the normal equations.
+ */
+function threeRowDampedLeastSquares(a: Readonly<Matrix>, b: ArrayLike<number>, damping: number, out: Float64Array): boolean {
+  const n = a.cols, d = a.data;
+  let g00 = 0, g10 = 0, g11 = 0, g20 = 0, g21 = 0, g22 = 0;
+  for (let k = 0; k < n; k++) {
+    const x = d[k]!, y = d[n + k]!, z = d[2 * n + k]!;
+    g00 += x * x;
+    g10 += y * x; g11 += y * y;
+    g20 += z * x; g21 += z * y; g22 += z * z;
+  }
+  g00 += damping; g11 += damping; g22 += damping;
+  let maxDiag = 0;
+  if (g00 > maxDiag) maxDiag = g00;
+  if (g11 > maxDiag) maxDiag = g11;
+  if (g22 > maxDiag) maxDiag = g22;
+  const minPivot = NORMAL_EQUATIONS_MIN_PIVOT * maxDiag;
+  if (!(g00 > minPivot)) return false;
+  const l00 = Math.sqrt(g00);
+  const l10 = g10 / l00, l20 = g20 / l00;
+  const diag1 = g11 - l10 * l10;
+  if (!(diag1 > minPivot)) return false;
+  const l11 = Math.sqrt(diag1);
+  const l21 = (g21 - l20 * l10) / l11;
+  const diag2 = g22 - l20 * l20 - l21 * l21;
+  if (!(diag2 > minPivot)) return false;
+  const l22 = Math.sqrt(diag2);
+  const f0 = b[0]! / l00;
+  const f1 = (b[1]! - l10 * f0) / l11;
+  const f2 = (b[2]! - l20 * f0 - l21 * f1) / l22;
+  const y2 = f2 / l22;
+  const y1 = (f1 - l21 * y2) / l11;
+  const y0 = (f0 - l10 * y1 - l20 * y2) / l00;
+  for (let j = 0; j < n; j++) out[j] = 0 + d[j]! * y0 + d[n + j]! * y1 + d[2 * n + j]! * y2;
+  return true;
 }
 
 function dampedSvdSolve(
