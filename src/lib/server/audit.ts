@@ -44,6 +44,8 @@ export const AUDIT_ACTIONS = {
   'sheet.save': 'Saved a sheet revision',
   'sheet.fork': 'Forked a sheet',
   'sheet.delete': 'Deleted a sheet',
+  'sheet.approve': 'Approved a sheet revision',
+  'sheet.request_changes': 'Asked for changes to a sheet revision',
   'demo.seed': 'Seeded the demo data',
 } as const satisfies Record<string, string>;
 export type KnownAuditAction = keyof typeof AUDIT_ACTIONS;

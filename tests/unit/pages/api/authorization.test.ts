@@ -300,6 +300,30 @@ const ROWS: Row[] = [
     expect: SHEET_WRITERS(201),
   },
   {
+    route: 'sheets/[sheetId]/comments.ts',
+    method: 'GET',
+    prepare: (fx) => scratchSheet(fx),
+    expect: { ...SIGNED_IN_OK, other: 404 },
+  },
+  {
+    route: 'sheets/[sheetId]/comments.ts',
+    method: 'POST',
+    prepare: (fx) => scratchSheet(fx, { body: { revision: 1, body: 'Check the left roll rate.' } }),
+    expect: { none: 401, viewer: 403, reviewer: 201, editor: 201, owner: 201, token: 201, revoked: 401, other: 404 },
+  },
+  {
+    route: 'sheets/[sheetId]/reviews.ts',
+    method: 'GET',
+    prepare: (fx) => scratchSheet(fx),
+    expect: { ...SIGNED_IN_OK, other: 404 },
+  },
+  {
+    route: 'sheets/[sheetId]/reviews.ts',
+    method: 'POST',
+    prepare: (fx) => scratchSheet(fx, { body: { revision: 1, verdict: 'approved', body: 'Numbers check out.' } }),
+    expect: { none: 401, viewer: 403, reviewer: 201, editor: 403, owner: 201, token: 403, revoked: 401, other: 404 },
+  },
+  {
     route: 'sheets/[sheetId]/compare.ts',
     method: 'GET',
     variant: 'revision 1 with itself',
