@@ -436,7 +436,7 @@ export function dampedLeastSquares(
   checkFits(a, ws);
   const m = a.rows;
   const n = a.cols;
-  if (m === 3 && n >= 3 && threeRowDampedLeastSquares(a, b, lambda * lambda, out)) return out;
+  if (m === 3 && n >= 3 && threeRowDampedLeastSquares(a, b, lambda, out)) return out;
   const d = a.data;
   const g = ws.gram;
   const y = ws.vector;
@@ -474,10 +474,12 @@ export function dampedLeastSquares(
 /**
  * dampedLeastSquares for a fat 3-row A with the Gram matrix, its Cholesky factor and both
  * triangular solves unrolled in the general route's operation order (same results to the bit);
- * false, with out untouched, when a pivot is too small for the normal equations.
+ * false, with out untouched, when a pivot is too small for the normal equations. Takes lambda rather
+ * than its square: a number computed by the caller would be boxed on the heap to cross the call.
  */
-function threeRowDampedLeastSquares(a: Readonly<Matrix>, b: ArrayLike<number>, damping: number, out: Float64Array): boolean {
+function threeRowDampedLeastSquares(a: Readonly<Matrix>, b: ArrayLike<number>, lambda: number, out: Float64Array): boolean {
   const n = a.cols, d = a.data;
+  const damping = lambda * lambda;
   let g00 = 0, g10 = 0, g11 = 0, g20 = 0, g21 = 0, g22 = 0;
   for (let k = 0; k < n; k++) {
     const x = d[k]!, y = d[n + k]!, z = d[2 * n + k]!;

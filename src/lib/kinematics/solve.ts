@@ -424,7 +424,7 @@ export function solveSteerAndRoll(finger: Finger, contact: Contact, full: FullSo
   // Jacobian after steering: joints beyond the pivot turn about the pivot line by pivotChange.
   const ja = out.jacobianAfter;
   contactJacobian(axes, points, n, y, ja);
-  if (out.available && out.pivotChange !== 0) steeredColumns(finger, y, ws.steer[9], ws.steer[10], ja);
+  if (out.available && out.pivotChange !== 0) steeredColumns(finger, y, ws.steer, ja);
   const d = ja.data;
   let residual = 0;
   for (let i = 0; i < 3; i++) {
@@ -437,7 +437,7 @@ export function solveSteerAndRoll(finger: Finger, contact: Contact, full: FullSo
   out.residualNorm = Math.sqrt(residual);
   jacobianSingularValues(ja, out.singularValuesAfter);
   out.conditionAfter = conditionNumber(out.singularValuesAfter, 3);
-  driveConditioning(finger, contact, settings.axisDistance, out, ws);
+  driveConditioning(finger, contact, settings, out, ws);
   let difference = 0;
   for (let k = 0; k < n; k++) {
     const dk = rates[k] - full.rates[k];
@@ -455,9 +455,9 @@ const STEERED_RANK = 2;
  * A pivot whose axis passes through the contact steers by turning the roll direction and adds
  * nothing to the contact velocity, so its zero column says nothing about what the finger can do.
  */
-function driveConditioning(finger: Finger, contact: Contact, axisDistance: number, out: SteerAndRoll, ws: SolveWorkspace): void {
+function driveConditioning(finger: Finger, contact: Contact, settings: SolverSettings, out: SteerAndRoll, ws: SolveWorkspace): void {
   const n = finger.jointCount, pv = finger.pivotIndex;
-  out.pivotDrives = pv < 0 || !(contact.pivotAxisDistance < axisDistance);
+  out.pivotDrives = pv < 0 || !(contact.pivotAxisDistance < settings.axisDistance);
   const skip = out.pivotDrives ? -1 : pv;
   const m = out.pivotDrives ? n : n - 1;
   out.driveColumnCount = m;
@@ -596,9 +596,13 @@ function rollDirectionSquared(D: Float64Array, c: number, s: number): number {
   return x * x + y * y + z * z;
 }
 
-/** Rewrites the Jacobian columns of joints after the pivot as if the pivot had turned by the angle with cosine c and sine s (m/rad). */
-function steeredColumns(finger: Finger, y: ArrayLike<number>, c: number, s: number, j: Matrix): void {
+/**
+ * Rewrites the Jacobian columns of joints after the pivot as if the pivot had turned by the angle whose cosine and sine
+ * steer left in entries 9 and 10 (m/rad); they are read here because numbers passed to a call that is not inlined are boxed.
+ */
+function steeredColumns(finger: Finger, y: ArrayLike<number>, steered: Float64Array, j: Matrix): void {
   const axes = finger.axes, points = finger.points, n = finger.jointCount, d = j.data;
+  const c = steered[9], s = steered[10];
   const po = 3 * finger.pivotIndex;
   const kx = axes[po], ky = axes[po + 1], kz = axes[po + 2];
   const qx = points[po], qy = points[po + 1], qz = points[po + 2];
