@@ -42,9 +42,11 @@ function halfAngleSine(a: QuatLike, b: QuatLike): number {
 export function quaternionDifferenceNorm(q1: QuatLike, q2: QuatLike): number {
   let minus = 0;
   let plus = 0;
+  // d * d rather than d ** 2: the same value (pow returns x * x for exponent 2) without a call to pow on every run tick.
   for (let i = 0; i < 4; i++) {
-    minus += (q1[i] - q2[i]) ** 2;
-    plus += (q1[i] + q2[i]) ** 2;
+    const difference = q1[i] - q2[i], sum = q1[i] + q2[i];
+    minus += difference * difference;
+    plus += sum * sum;
   }
   return Math.sqrt(Math.min(minus, plus));
 }

@@ -215,5 +215,5 @@ function toPlain(value: unknown): unknown {
 
 /** Element-wise copy without TypedArray.prototype.set, whose call overhead dominates for a few elements. */
 function copyInto(from: Float64Array, to: Float64Array): void {
-  for (let i = 0; i < from.length; i++) to[i] = from[i];
+  for (let i = 0, n = from.length; i < n; i++) to[i] = from[i];
 }
