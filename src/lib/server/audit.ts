@@ -45,6 +45,7 @@ export const AUDIT_ACTIONS = {
   'sheet.fork': 'Forked a sheet',
   'sheet.delete': 'Deleted a sheet',
   'sheet.approve': 'Approved a sheet revision',
+  'team.rename': 'Renamed the team',
   'sheet.request_changes': 'Asked for changes to a sheet revision',
   'demo.seed': 'Seeded the demo data',
 } as const satisfies Record<string, string>;

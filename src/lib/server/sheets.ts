@@ -114,6 +114,11 @@ export async function saveRevision(
   });
 }
 
+/** Marks a sheet deleted; its revisions stay in the database for the audit trail. */
+export async function deleteSheet(database: Database, sheetId: string): Promise<void> {
+  await database.write((db) => db.update(sheets).set({ deletedAt: new Date() }).where(eq(sheets.id, sheetId)));
+}
+
 /** A live sheet by id, or null when it does not exist or was deleted. */
 export async function findSheet(database: Database, sheetId: string) {
   const [sheet] = await database.db.select().from(sheets).where(and(eq(sheets.id, sheetId), isNull(sheets.deletedAt)));

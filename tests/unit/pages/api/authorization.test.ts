@@ -6,7 +6,7 @@ import { invitations, sheets, users } from '../../../../src/db/schema';
 import type { Identity } from '../../../../src/lib/server/access';
 import { createApiToken, revokeApiToken } from '../../../../src/lib/server/api-tokens';
 import { getDatabase } from '../../../../src/lib/server/database';
-import { DEMO_PASSWORD } from '../../../../src/lib/server/demo';
+import { DEMO_PASSWORD, DEMO_TEAM } from '../../../../src/lib/server/demo';
 import { identityForUser } from '../../../../src/lib/server/identity';
 import { hashPassword } from '../../../../src/lib/server/passwords';
 import { createSheet } from '../../../../src/lib/server/sheets';
@@ -150,6 +150,20 @@ const ROWS: Row[] = [
     expect: { none: 401, viewer: 404, reviewer: 404, editor: 204, owner: 204, token: 403, revoked: 401, other: 404 },
   },
   {
+    route: 'teams/[teamId]/index.ts',
+    method: 'PATCH',
+    variant: 'rename to its current name',
+    prepare: (fx) => ({ params: { teamId: fx.teamId }, body: { name: DEMO_TEAM.name } }),
+    expect: OWNER_ONLY(200),
+  },
+  {
+    route: 'teams/[teamId]/index.ts',
+    method: 'DELETE',
+    variant: 'wrong confirmation, so nothing is deleted',
+    prepare: (fx) => ({ params: { teamId: fx.teamId }, body: { confirm: 'not-the-slug' } }),
+    expect: OWNER_ONLY(400),
+  },
+  {
     route: 'teams/[teamId]/members.ts',
     method: 'GET',
     prepare: (fx) => ({ params: { teamId: fx.teamId } }),
@@ -279,6 +293,12 @@ const ROWS: Row[] = [
     method: 'GET',
     prepare: (fx) => scratchSheet(fx),
     expect: { ...SIGNED_IN_OK, other: 404 },
+  },
+  {
+    route: 'sheets/[sheetId]/index.ts',
+    method: 'DELETE',
+    prepare: (fx) => scratchSheet(fx),
+    expect: OWNER_ONLY(204),
   },
   {
     route: 'sheets/[sheetId]/revisions.ts',

@@ -1,0 +1,33 @@
+import type { APIRoute } from 'astro';
+import { errorResponse, requirePermission } from '../../../../lib/server/access';
+import { recordAudit } from '../../../../lib/server/audit';
+import { getDatabase } from '../../../../lib/server/database';
+import { readJson } from '../../../../lib/server/http';
+import { deleteTeam, renameTeam } from '../../../../lib/server/teams';
+import { firstIssue } from '../../../../lib/validation/sheets';
+import { deleteTeamBody, renameTeamBody } from '../../../../lib/validation/teams';
+
+export const PATCH = (async ({ params, request, locals, clientAddress }) => {
+  const access = requirePermission(locals.identity, params.teamId ?? '', 'team.manage');
+  if (!access.ok) return access.response;
+  const body = renameTeamBody.safeParse(await readJson(request));
+  if (!body.success) {
+    const { message, path } = firstIssue(body.error);
+    return errorResponse(400, message, path);
+  }
+  const database = await getDatabase();
+  await renameTeam(database, access.membership.teamId, body.data.name);
+  await recordAudit(database, { teamId: access.membership.teamId, actorId: access.identity.user.id, action: 'team.rename', detail: { from: access.membership.name, to: body.data.name }, address: clientAddress });
+  return Response.json({ teamId: access.membership.teamId, name: body.data.name });
+}) satisfies APIRoute;
+
+export const DELETE = (async ({ params, request, locals }) => {
+  const access = requirePermission(locals.identity, params.teamId ?? '', 'team.manage');
+  if (!access.ok) return access.response;
+  const body = deleteTeamBody.safeParse(await readJson(request));
+  if (!body.success || body.data.confirm !== access.membership.slug) {
+    return errorResponse(400, `Type the team's short name (${access.membership.slug}) to confirm.`, 'confirm');
+  }
+  await deleteTeam(await getDatabase(), access.membership.teamId);
+  return new Response(null, { status: 204 });
+}) satisfies APIRoute;
