@@ -3,16 +3,24 @@ import { errorResponse } from './access';
 
 export type ParsedBody<T> = { ok: true; data: T } | { ok: false; response: Response };
 
-/** Reads a JSON request body and validates it; 400 with the first failing field's path otherwise. */
+/** 400 with the first failing field's message and path. */
+export function invalidInput(error: z.ZodError): Response {
+  const [issue] = error.issues;
+  return errorResponse(400, issue.message, issue.path.join('.') || undefined);
+}
+
+/**
+ * Reads a JSON request body and validates it; 400 with the first failing field's path otherwise.
+ * An empty body is validated as `undefined`, so schemas with defaults accept it.
+ */
 export async function parseJsonBody<S extends z.ZodType>(request: Request, schema: S): Promise<ParsedBody<z.infer<S>>> {
   let raw: unknown;
   try {
-    raw = await request.json();
+    const text = await request.text();
+    raw = text.trim() ? JSON.parse(text) : undefined;
   } catch {
     return { ok: false, response: errorResponse(400, 'Send a JSON body.') };
   }
   const parsed = schema.safeParse(raw);
-  if (parsed.success) return { ok: true, data: parsed.data };
-  const [issue] = parsed.error.issues;
-  return { ok: false, response: errorResponse(400, issue.message, issue.path.join('.') || undefined) };
+  return parsed.success ? { ok: true, data: parsed.data } : { ok: false, response: invalidInput(parsed.error) };
 }

@@ -19,12 +19,14 @@ export const saveRevisionBody = z.object({
   tags: tagsField.optional(),
 });
 
-export const forkBody = z.object({
-  revision: z.number().int().min(1).optional(),
-  /** Team that receives the fork; the source sheet's team when absent. */
-  teamId: z.string().min(1).optional(),
-  title: sheetTitleField.optional(),
-});
+export const forkBody = z
+  .object({
+    revision: z.number().int().min(1).optional(),
+    /** Team that receives the fork; the source sheet's team when absent. */
+    teamId: z.string().min(1).optional(),
+    title: sheetTitleField.optional(),
+  })
+  .default({});
 
 export const SHEET_SORTS = ['updated', 'title', 'created'] as const;
 export const WARNING_FILTERS = ['any', 'clean', 'note', 'caution', 'singular'] as const;
@@ -39,9 +41,3 @@ export const listSheetsQuery = z.object({
   pageSize: z.coerce.number().int().min(1).max(100).default(20),
 });
 export type ListSheetsQuery = z.infer<typeof listSheetsQuery>;
-
-/** Turns a zod error into the API's located error body. */
-export function firstIssue(error: z.ZodError): { message: string; path: string } {
-  const issue = error.issues[0];
-  return { message: issue.message, path: issue.path.join('.') };
-}

@@ -90,7 +90,7 @@ describe('singularValues', () => {
     expectClose(singularValues(a, new Float64Array(2), ws), [3 * Math.sqrt(5), Math.sqrt(5)], 1e-13);
   });
 
-  it('matches the common 2 x 3 lecture example [[3,2,2],[2,3,-2]]: sigma = 5, 3 (eigenvalues 25, 9 of A A^T; value from memory)', () => {
+  it('matches the common 2 x 3 textbook-style example [[3,2,2],[2,3,-2]]: sigma = 5, 3 (eigenvalues 25, 9 of A A^T; value from memory)', () => {
     const a = matrixFromRows([
       [3, 2, 2],
       [2, 3, -2],
@@ -379,7 +379,7 @@ describe('dampedLeastSquares', () => {
 });
 
 describe('nullSpace', () => {
-  it('finds (2, -2, -1)/3 for [[3,2,2],[2,3,-2]] (common lecture example; value from memory, checked by substitution)', () => {
+  it('finds (2, -2, -1)/3 for [[3,2,2],[2,3,-2]] (common textbook-style example; value from memory, checked by substitution)', () => {
     const out = createMatrix(3, 3);
     expect(nullSpace(matrixFromRows([[3, 2, 2], [2, 3, -2]]), out, ws)).toBe(1);
     const v = [out.data[0]!, out.data[3]!, out.data[6]!];

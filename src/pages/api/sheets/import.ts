@@ -6,7 +6,7 @@ import { readJson } from '../../../lib/server/http';
 import { readSheetFile } from '../../../lib/server/sheet-files';
 import { createSheet } from '../../../lib/server/sheets';
 import { importBody } from '../../../lib/validation/sheet-exchange';
-import { firstIssue } from '../../../lib/validation/sheets';
+import { invalidInput } from '../../../lib/server/request-body';
 
 /** The fields of a multipart upload (a `file` part plus `teamId` and optional `title`) or of a JSON body. */
 async function readImportRequest(request: Request): Promise<unknown> {
@@ -27,8 +27,7 @@ export const POST = (async ({ request, locals, clientAddress }) => {
   const body = importBody.safeParse(await readImportRequest(request));
   if (!body.success) {
     if (!locals.identity) return errorResponse(401, 'Sign in first.');
-    const { message, path } = firstIssue(body.error);
-    return errorResponse(400, message, path);
+    return invalidInput(body.error);
   }
   const access = requirePermission(locals.identity, body.data.teamId, 'sheet.write');
   if (!access.ok) return access.response;

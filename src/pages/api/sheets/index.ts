@@ -2,29 +2,24 @@ import type { APIRoute } from 'astro';
 import { errorResponse, requirePermission } from '../../../lib/server/access';
 import { recordAudit } from '../../../lib/server/audit';
 import { getDatabase } from '../../../lib/server/database';
+import { invalidDocument } from '../../../lib/server/http';
+import { invalidInput, parseJsonBody } from '../../../lib/server/request-body';
 import { createSheet, listSheets, validateDocument } from '../../../lib/server/sheets';
-import { createSheetBody, firstIssue, listSheetsQuery } from '../../../lib/validation/sheets';
-import { invalidDocument, readJson } from '../../../lib/server/http';
+import { createSheetBody, listSheetsQuery } from '../../../lib/validation/sheets';
 
 export const GET = (async ({ url, locals }) => {
+  if (!locals.identity) return errorResponse(401, 'Sign in first.');
   const query = listSheetsQuery.safeParse({ team: locals.team?.teamId, ...Object.fromEntries(url.searchParams) });
-  if (!query.success) {
-    if (!locals.identity) return errorResponse(401, 'Sign in first.');
-    const { message, path } = firstIssue(query.error);
-    return errorResponse(400, message, path);
-  }
+  if (!query.success) return invalidInput(query.error);
   const access = requirePermission(locals.identity, query.data.team, 'sheet.read');
   if (!access.ok) return access.response;
   return Response.json(await listSheets(await getDatabase(), query.data));
 }) satisfies APIRoute;
 
 export const POST = (async ({ request, locals, clientAddress }) => {
-  const body = createSheetBody.safeParse(await readJson(request));
-  if (!body.success) {
-    if (!locals.identity) return errorResponse(401, 'Sign in first.');
-    const { message, path } = firstIssue(body.error);
-    return errorResponse(400, message, path);
-  }
+  if (!locals.identity) return errorResponse(401, 'Sign in first.');
+  const body = await parseJsonBody(request, createSheetBody);
+  if (!body.ok) return body.response;
   const access = requirePermission(locals.identity, body.data.teamId, 'sheet.write');
   if (!access.ok) return access.response;
   const checked = validateDocument(body.data.document);

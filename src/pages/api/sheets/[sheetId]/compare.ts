@@ -1,23 +1,17 @@
 import type { APIRoute } from 'astro';
 import { errorResponse, requirePermission } from '../../../../lib/server/access';
 import { compareRevisions, nonFiniteAsText } from '../../../../lib/server/compare';
-import { getDatabase } from '../../../../lib/server/database';
+import { invalidInput } from '../../../../lib/server/request-body';
+import { requireSheet } from '../../../../lib/server/sheet-access';
 import { findSheet } from '../../../../lib/server/sheets';
 import { compareQuery } from '../../../../lib/validation/sheet-exchange';
-import { firstIssue } from '../../../../lib/validation/sheets';
 
 export const GET = (async ({ params, url, locals }) => {
-  if (!locals.identity) return errorResponse(401, 'Sign in first.');
-  const database = await getDatabase();
-  const sheet = await findSheet(database, params.sheetId ?? '');
-  if (!sheet) return errorResponse(404, 'Not found.');
-  const access = requirePermission(locals.identity, sheet.teamId, 'sheet.read');
+  const access = await requireSheet(locals.identity, params.sheetId, 'sheet.read');
   if (!access.ok) return access.response;
+  const { database, sheet } = access;
   const query = compareQuery.safeParse(Object.fromEntries(url.searchParams));
-  if (!query.success) {
-    const { message, path } = firstIssue(query.error);
-    return errorResponse(400, message, path);
-  }
+  if (!query.success) return invalidInput(query.error);
   const other = query.data.toSheet ? await findSheet(database, query.data.toSheet) : sheet;
   // Another team's sheet answers exactly like a missing one.
   if (!other || !requirePermission(locals.identity, other.teamId, 'sheet.read').ok) return errorResponse(404, 'Not found.', 'toSheet');

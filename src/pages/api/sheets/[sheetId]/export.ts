@@ -1,24 +1,18 @@
 import type { APIRoute } from 'astro';
-import { errorResponse, requirePermission } from '../../../../lib/server/access';
-import { getDatabase } from '../../../../lib/server/database';
+import { errorResponse } from '../../../../lib/server/access';
 import { invalidDocument } from '../../../../lib/server/http';
+import { invalidInput } from '../../../../lib/server/request-body';
+import { requireSheet } from '../../../../lib/server/sheet-access';
 import { exportDocument, exportFileName, exportResultsCsv } from '../../../../lib/server/sheet-files';
-import { findSheet, getRevision } from '../../../../lib/server/sheets';
+import { getRevision } from '../../../../lib/server/sheets';
 import { exportQuery } from '../../../../lib/validation/sheet-exchange';
-import { firstIssue } from '../../../../lib/validation/sheets';
 
 export const GET = (async ({ params, url, locals }) => {
-  if (!locals.identity) return errorResponse(401, 'Sign in first.');
-  const database = await getDatabase();
-  const sheet = await findSheet(database, params.sheetId ?? '');
-  if (!sheet) return errorResponse(404, 'Not found.');
-  const access = requirePermission(locals.identity, sheet.teamId, 'sheet.read');
+  const access = await requireSheet(locals.identity, params.sheetId, 'sheet.read');
   if (!access.ok) return access.response;
+  const { database, sheet } = access;
   const query = exportQuery.safeParse(Object.fromEntries(url.searchParams));
-  if (!query.success) {
-    const { message, path } = firstIssue(query.error);
-    return errorResponse(400, message, path);
-  }
+  if (!query.success) return invalidInput(query.error);
   const number = query.data.revision ?? sheet.latestRevision;
   const revision = await getRevision(database, sheet.id, number);
   if (!revision) return errorResponse(404, `Revision ${number} does not exist.`, 'revision');

@@ -1,25 +1,19 @@
 import type { APIRoute } from 'astro';
 import { errorResponse, requirePermission } from '../../../../lib/server/access';
 import { recordAudit } from '../../../../lib/server/audit';
-import { getDatabase } from '../../../../lib/server/database';
-import { readJson } from '../../../../lib/server/http';
-import { findSheet, forkSheet } from '../../../../lib/server/sheets';
-import { firstIssue, forkBody } from '../../../../lib/validation/sheets';
+import { parseJsonBody } from '../../../../lib/server/request-body';
+import { requireSheet } from '../../../../lib/server/sheet-access';
+import { forkSheet } from '../../../../lib/server/sheets';
+import { forkBody } from '../../../../lib/validation/sheets';
 
 export const POST = (async ({ params, request, locals, clientAddress }) => {
-  if (!locals.identity) return errorResponse(401, 'Sign in first.');
-  const database = await getDatabase();
-  const sheet = await findSheet(database, params.sheetId ?? '');
-  if (!sheet) return errorResponse(404, 'Not found.');
-  const source = requirePermission(locals.identity, sheet.teamId, 'sheet.read');
+  const source = await requireSheet(locals.identity, params.sheetId, 'sheet.read');
   if (!source.ok) return source.response;
-  const body = forkBody.safeParse((await readJson(request)) ?? {});
-  if (!body.success) {
-    const { message, path } = firstIssue(body.error);
-    return errorResponse(400, message, path);
-  }
+  const { database, sheet } = source;
+  const body = await parseJsonBody(request, forkBody);
+  if (!body.ok) return body.response;
   const targetTeamId = body.data.teamId ?? sheet.teamId;
-  const access = requirePermission(locals.identity, targetTeamId, 'sheet.write');
+  const access = requirePermission(source.identity, targetTeamId, 'sheet.write');
   if (!access.ok) return access.response;
   const revision = body.data.revision ?? sheet.latestRevision;
   const fork = await forkSheet(database, sheet, revision, access.identity.user.id, body.data.title, targetTeamId);

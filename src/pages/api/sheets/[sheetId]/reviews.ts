@@ -1,35 +1,25 @@
 import type { APIRoute } from 'astro';
-import { errorResponse, requirePermission } from '../../../../lib/server/access';
+import { errorResponse } from '../../../../lib/server/access';
 import { recordAudit } from '../../../../lib/server/audit';
-import { getDatabase } from '../../../../lib/server/database';
-import { readJson } from '../../../../lib/server/http';
+import { parseJsonBody } from '../../../../lib/server/request-body';
 import { listReviews, submitReview } from '../../../../lib/server/reviews';
-import { findSheet, getRevision } from '../../../../lib/server/sheets';
+import { requireSheet } from '../../../../lib/server/sheet-access';
+import { getRevision } from '../../../../lib/server/sheets';
 import { reviewBody } from '../../../../lib/validation/reviews';
-import { firstIssue } from '../../../../lib/validation/sheets';
 
 export const GET = (async ({ params, locals }) => {
-  if (!locals.identity) return errorResponse(401, 'Sign in first.');
-  const database = await getDatabase();
-  const sheet = await findSheet(database, params.sheetId ?? '');
-  if (!sheet) return errorResponse(404, 'Not found.');
-  const access = requirePermission(locals.identity, sheet.teamId, 'sheet.read');
+  const access = await requireSheet(locals.identity, params.sheetId, 'sheet.read');
   if (!access.ok) return access.response;
+  const { database, sheet } = access;
   return Response.json({ status: sheet.status, items: await listReviews(database, sheet.id) });
 }) satisfies APIRoute;
 
 export const POST = (async ({ params, request, locals, clientAddress }) => {
-  if (!locals.identity) return errorResponse(401, 'Sign in first.');
-  const database = await getDatabase();
-  const sheet = await findSheet(database, params.sheetId ?? '');
-  if (!sheet) return errorResponse(404, 'Not found.');
-  const access = requirePermission(locals.identity, sheet.teamId, 'sheet.review');
+  const access = await requireSheet(locals.identity, params.sheetId, 'sheet.review');
   if (!access.ok) return access.response;
-  const body = reviewBody.safeParse(await readJson(request));
-  if (!body.success) {
-    const { message, path } = firstIssue(body.error);
-    return errorResponse(400, message, path);
-  }
+  const { database, sheet } = access;
+  const body = await parseJsonBody(request, reviewBody);
+  if (!body.ok) return body.response;
   if (!(await getRevision(database, sheet.id, body.data.revision))) return errorResponse(400, `Revision ${body.data.revision} does not exist.`, 'revision');
   const review = await submitReview(database, { sheetId: sheet.id, reviewerId: access.identity.user.id, ...body.data });
   await recordAudit(database, {

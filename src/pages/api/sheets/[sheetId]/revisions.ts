@@ -1,33 +1,25 @@
 import type { APIRoute } from 'astro';
-import { errorResponse, requirePermission } from '../../../../lib/server/access';
+import { errorResponse } from '../../../../lib/server/access';
 import { recordAudit } from '../../../../lib/server/audit';
-import { getDatabase } from '../../../../lib/server/database';
-import { invalidDocument, readJson } from '../../../../lib/server/http';
-import { findSheet, listRevisions, saveRevision, validateDocument } from '../../../../lib/server/sheets';
-import { firstIssue, saveRevisionBody } from '../../../../lib/validation/sheets';
+import { invalidDocument } from '../../../../lib/server/http';
+import { parseJsonBody } from '../../../../lib/server/request-body';
+import { requireSheet } from '../../../../lib/server/sheet-access';
+import { listRevisions, saveRevision, validateDocument } from '../../../../lib/server/sheets';
+import { saveRevisionBody } from '../../../../lib/validation/sheets';
 
 export const GET = (async ({ params, locals }) => {
-  if (!locals.identity) return errorResponse(401, 'Sign in first.');
-  const database = await getDatabase();
-  const sheet = await findSheet(database, params.sheetId ?? '');
-  if (!sheet) return errorResponse(404, 'Not found.');
-  const access = requirePermission(locals.identity, sheet.teamId, 'sheet.read');
+  const access = await requireSheet(locals.identity, params.sheetId, 'sheet.read');
   if (!access.ok) return access.response;
+  const { database, sheet } = access;
   return Response.json({ items: await listRevisions(database, sheet.id) });
 }) satisfies APIRoute;
 
 export const POST = (async ({ params, request, locals, clientAddress }) => {
-  if (!locals.identity) return errorResponse(401, 'Sign in first.');
-  const database = await getDatabase();
-  const sheet = await findSheet(database, params.sheetId ?? '');
-  if (!sheet) return errorResponse(404, 'Not found.');
-  const access = requirePermission(locals.identity, sheet.teamId, 'sheet.write');
+  const access = await requireSheet(locals.identity, params.sheetId, 'sheet.write');
   if (!access.ok) return access.response;
-  const body = saveRevisionBody.safeParse(await readJson(request));
-  if (!body.success) {
-    const { message, path } = firstIssue(body.error);
-    return errorResponse(400, message, path);
-  }
+  const { database, sheet } = access;
+  const body = await parseJsonBody(request, saveRevisionBody);
+  if (!body.ok) return body.response;
   const checked = validateDocument(body.data.document);
   if (!checked.ok) return invalidDocument(checked.issues);
   const outcome = await saveRevision(database, sheet.id, body.data.baseRevision, {

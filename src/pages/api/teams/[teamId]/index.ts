@@ -2,19 +2,15 @@ import type { APIRoute } from 'astro';
 import { errorResponse, requirePermission } from '../../../../lib/server/access';
 import { recordAudit } from '../../../../lib/server/audit';
 import { getDatabase } from '../../../../lib/server/database';
-import { readJson } from '../../../../lib/server/http';
+import { parseJsonBody } from '../../../../lib/server/request-body';
 import { deleteTeam, renameTeam } from '../../../../lib/server/teams';
-import { firstIssue } from '../../../../lib/validation/sheets';
 import { deleteTeamBody, renameTeamBody } from '../../../../lib/validation/teams';
 
 export const PATCH = (async ({ params, request, locals, clientAddress }) => {
   const access = requirePermission(locals.identity, params.teamId ?? '', 'team.manage');
   if (!access.ok) return access.response;
-  const body = renameTeamBody.safeParse(await readJson(request));
-  if (!body.success) {
-    const { message, path } = firstIssue(body.error);
-    return errorResponse(400, message, path);
-  }
+  const body = await parseJsonBody(request, renameTeamBody);
+  if (!body.ok) return body.response;
   const database = await getDatabase();
   await renameTeam(database, access.membership.teamId, body.data.name);
   await recordAudit(database, { teamId: access.membership.teamId, actorId: access.identity.user.id, action: 'team.rename', detail: { from: access.membership.name, to: body.data.name }, address: clientAddress });
@@ -24,8 +20,8 @@ export const PATCH = (async ({ params, request, locals, clientAddress }) => {
 export const DELETE = (async ({ params, request, locals }) => {
   const access = requirePermission(locals.identity, params.teamId ?? '', 'team.manage');
   if (!access.ok) return access.response;
-  const body = deleteTeamBody.safeParse(await readJson(request));
-  if (!body.success || body.data.confirm !== access.membership.slug) {
+  const body = await parseJsonBody(request, deleteTeamBody);
+  if (!body.ok || body.data.confirm !== access.membership.slug) {
     return errorResponse(400, `Type the team's short name (${access.membership.slug}) to confirm.`, 'confirm');
   }
   await deleteTeam(await getDatabase(), access.membership.teamId);
