@@ -1,6 +1,9 @@
 /**
  * Benchmarks of the kinematics core, printed as medians over repetitions (not a test).
  * Usage: npm run bench [-- --quick]
+ * The script bundles this file with esbuild into one module before running it, as the app's build
+ * bundles the kinematics core for its worker, so the figures are those of the shipped code rather
+ * than of a per-file module loader.
  * Measures one full solve of a three- and a five-finger hand (hand templates on a 30 mm sphere),
  * a 10,000-tick run, a 200-value sweep, and the same three-finger contact solve written the
  * general-purpose way with mathjs matrices (eigs of J J^T for singular values, inv and multiply

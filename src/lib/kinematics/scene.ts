@@ -131,11 +131,7 @@ export function solveScene(scene: Scene, out: SheetResult = createResult(scene))
     solveSteerAndRoll(finger, r.contact, r.full, settings, r.steer, workspace.solve);
     r.rankBasis = judgedBasis(r.steer);
     r.rankRatio = judgedRankRatio(r.full, r.steer);
-    copyInto(finger.angles, r.jointAngles);
-    copyInto(finger.axes, r.jointAxes);
-    copyInto(finger.points, r.jointPoints);
-    copyInto(finger.rollerCenter, r.rollerCenter);
-    copyInto(finger.rollerAxis, r.rollerAxis);
+    snapshotJoints(finger, r);
     const x = r.contact.objectPoint, n = r.contact.normal;
     points[3 * i] = x[0]; points[3 * i + 1] = x[1]; points[3 * i + 2] = x[2];
     normals[3 * i] = n[0]; normals[3 * i + 1] = n[1]; normals[3 * i + 2] = n[2];
@@ -216,4 +212,18 @@ function toPlain(value: unknown): unknown {
 /** Element-wise copy without TypedArray.prototype.set, whose call overhead dominates for a few elements. */
 function copyInto(from: Float64Array, to: Float64Array): void {
   for (let i = 0, n = from.length; i < n; i++) to[i] = from[i];
+}
+
+/** Copies the joint angles, axes and points and the roller centre and axis that a solve used into the finger's result, in one pass over the joints. */
+function snapshotJoints(finger: Finger, r: FingerResult): void {
+  const angles = finger.angles, axes = finger.axes, points = finger.points;
+  const toAngles = r.jointAngles, toAxes = r.jointAxes, toPoints = r.jointPoints;
+  for (let k = 0, o = 0; k < finger.jointCount; k++, o += 3) {
+    toAngles[k] = angles[k];
+    toAxes[o] = axes[o]; toAxes[o + 1] = axes[o + 1]; toAxes[o + 2] = axes[o + 2];
+    toPoints[o] = points[o]; toPoints[o + 1] = points[o + 1]; toPoints[o + 2] = points[o + 2];
+  }
+  const c = finger.rollerCenter, a = finger.rollerAxis, toCenter = r.rollerCenter, toAxis = r.rollerAxis;
+  toCenter[0] = c[0]; toCenter[1] = c[1]; toCenter[2] = c[2];
+  toAxis[0] = a[0]; toAxis[1] = a[1]; toAxis[2] = a[2];
 }

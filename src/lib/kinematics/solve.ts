@@ -301,27 +301,41 @@ export function largestEigenvalue3(a00: number, a11: number, a22: number, a01: n
  */
 export function jacobianSingularValues(j: Matrix, out: Float64Array): Float64Array {
   const n = j.cols, d = j.data;
-  let g00 = 0, g11 = 0, g22 = 0, g01 = 0, g02 = 0, g12 = 0;
-  for (let k = 0; k < n; k++) {
-    const x = d[k], y = d[n + k], z = d[2 * n + k];
-    g00 += x * x; g11 += y * y; g22 += z * z;
-    g01 += x * y; g02 += x * z; g12 += y * z;
-  }
-  const largest = largestEigenvalue3(g00, g11, g22, g01, g02, g12);
-  const s1Squared = largest > 0 ? largest : 0;
+  let g00: number, g11: number, g22: number, g01: number, g02: number, g12: number;
   let e2 = 0, e3 = 0;
-  for (let a = 0; a < n; a++) {
-    for (let b = a + 1; b < n; b++) {
-      const m01 = d[a] * d[n + b] - d[b] * d[n + a];
-      const m02 = d[a] * d[2 * n + b] - d[b] * d[2 * n + a];
-      const m12 = d[n + a] * d[2 * n + b] - d[n + b] * d[2 * n + a];
-      e2 += m01 * m01 + m02 * m02 + m12 * m12;
-      for (let c = b + 1; c < n; c++) {
-        const m = d[c] * m12 - d[n + c] * m02 + d[2 * n + c] * m01;
-        e3 += m * m;
+  if (n === 3) {
+    // The usual finger, unrolled: with rows a, b, c the 2 x 2 minors are the entries of a x b, a x c and b x c, and the 3 x 3 minor is a . (b x c).
+    const ax = d[0], ay = d[1], az = d[2], bx = d[3], by = d[4], bz = d[5], cx = d[6], cy = d[7], cz = d[8];
+    g00 = ax * ax + ay * ay + az * az; g11 = bx * bx + by * by + bz * bz; g22 = cx * cx + cy * cy + cz * cz;
+    g01 = ax * bx + ay * by + az * bz; g02 = ax * cx + ay * cy + az * cz; g12 = bx * cx + by * cy + bz * cz;
+    const abx = ay * bz - az * by, aby = az * bx - ax * bz, abz = ax * by - ay * bx;
+    const acx = ay * cz - az * cy, acy = az * cx - ax * cz, acz = ax * cy - ay * cx;
+    const bcx = by * cz - bz * cy, bcy = bz * cx - bx * cz, bcz = bx * cy - by * cx;
+    e2 = abx * abx + aby * aby + abz * abz + acx * acx + acy * acy + acz * acz + bcx * bcx + bcy * bcy + bcz * bcz;
+    const det = ax * bcx + ay * bcy + az * bcz;
+    e3 = det * det;
+  } else {
+    g00 = 0; g11 = 0; g22 = 0; g01 = 0; g02 = 0; g12 = 0;
+    for (let k = 0; k < n; k++) {
+      const x = d[k], y = d[n + k], z = d[2 * n + k];
+      g00 += x * x; g11 += y * y; g22 += z * z;
+      g01 += x * y; g02 += x * z; g12 += y * z;
+    }
+    for (let a = 0; a < n; a++) {
+      for (let b = a + 1; b < n; b++) {
+        const m01 = d[a] * d[n + b] - d[b] * d[n + a];
+        const m02 = d[a] * d[2 * n + b] - d[b] * d[2 * n + a];
+        const m12 = d[n + a] * d[2 * n + b] - d[n + b] * d[2 * n + a];
+        e2 += m01 * m01 + m02 * m02 + m12 * m12;
+        for (let c = b + 1; c < n; c++) {
+          const m = d[c] * m12 - d[n + c] * m02 + d[2 * n + c] * m01;
+          e3 += m * m;
+        }
       }
     }
   }
+  const largest = largestEigenvalue3(g00, g11, g22, g01, g02, g12);
+  const s1Squared = largest > 0 ? largest : 0;
   out[0] = Math.sqrt(s1Squared);
   if (s1Squared === 0) {
     out[1] = 0;

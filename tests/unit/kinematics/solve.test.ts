@@ -122,6 +122,18 @@ describe('jacobianSingularValues', () => {
     expect(ours[2] / reference[2]).toBeCloseTo(1, 10);
     close(ours, reference, 14);
   });
+  it('takes the unrolled route for square 3 x 3 Jacobians and still matches ml-matrix SVD, including a 3 x 4 with the same first columns', () => {
+    // Seeded pseudo-random entries (a linear congruential generator) so the check is repeatable; the 3 x 4 case uses the general route.
+    let state = 12345;
+    const next = () => ((state = (state * 1103515245 + 12345) % 2147483648) / 2147483648 - 0.5) * 0.1;
+    for (let trial = 0; trial < 20; trial++) {
+      const rows = Array.from({ length: 3 }, () => [next(), next(), next()]);
+      const ours = jacobianSingularValues(matrixFromRows(rows), new Float64Array(3));
+      close(ours, new SingularValueDecomposition(new MlMatrix(rows), { autoTranspose: true }).diagonal, 14);
+      const wide = rows.map((row) => [...row, 0]);
+      close(jacobianSingularValues(matrixFromRows(wide), new Float64Array(3)), ours, 15);
+    }
+  });
   it('pads with zeros when there are fewer than three joints', () => {
     const ours = new Float64Array(3);
     jacobianSingularValues(matrixFromRows([[3], [4], [0]]), ours);
