@@ -122,22 +122,33 @@ export function solveScene(scene: Scene, out: SheetResult = createResult(scene))
   const list = out.warningList;
   clearWarnings(list);
   const points = workspace.contactPoints, normals = workspace.contactNormals;
-  for (let i = 0; i < fingers.length; i++) {
-    const finger = fingers[i];
+  const count = fingers.length;
+  // Stage by stage over all fingers rather than finger by finger: each stage's compiled code then
+  // stays in the instruction cache for every finger, which measurably speeds up the whole solve.
+  for (let i = 0; i < count; i++) forwardKinematics(fingers[i]);
+  for (let i = 0; i < count; i++) computeContact(object, fingers[i], settings.contactTolerance, out.fingers[i].contact, workspace.contact);
+  for (let i = 0; i < count; i++) {
     const r = out.fingers[i];
-    forwardKinematics(finger);
-    computeContact(object, finger, settings.contactTolerance, r.contact, workspace.contact);
-    solveFull(finger, r.contact, object.angularVelocity, settings, r.full, workspace.solve);
-    solveSteerAndRoll(finger, r.contact, r.full, settings, r.steer, workspace.solve);
+    solveFull(fingers[i], r.contact, object.angularVelocity, settings, r.full, workspace.solve);
+  }
+  for (let i = 0; i < count; i++) {
+    const r = out.fingers[i];
+    solveSteerAndRoll(fingers[i], r.contact, r.full, settings, r.steer, workspace.solve);
     r.rankBasis = judgedBasis(r.steer);
     r.rankRatio = judgedRankRatio(r.full, r.steer);
-    snapshotJoints(finger, r);
+  }
+  for (let i = 0; i < count; i++) {
+    const r = out.fingers[i];
+    snapshotJoints(fingers[i], r);
     const x = r.contact.objectPoint, n = r.contact.normal;
     points[3 * i] = x[0]; points[3 * i + 1] = x[1]; points[3 * i + 2] = x[2];
     normals[3 * i] = n[0]; normals[3 * i + 1] = n[1]; normals[3 * i + 2] = n[2];
-    checkFinger(list, i, finger, r.contact, r.full, r.steer, settings);
   }
-  computeGrasp(object.position, points, normals, fingers.length, settings.softFinger, settings.singularRatio, out.grasp, workspace.grasp);
+  for (let i = 0; i < count; i++) {
+    const r = out.fingers[i];
+    checkFinger(list, i, fingers[i], r.contact, r.full, r.steer, settings);
+  }
+  computeGrasp(object.position, points, normals, count, settings.softFinger, settings.singularRatio, out.grasp, workspace.grasp);
   checkGrasp(list, out.grasp);
   out.warnings = finishWarnings(list);
   out.worstSeverity = worstSeverity(out.warnings);
