@@ -13,26 +13,20 @@ import { fromSheet, multiply } from './quat';
 import { createRandom, nextGaussian, type RandomSource } from './random';
 import { createResult, createScene, solveScene, type Scene, type SheetResult } from './scene';
 import { expMap, integratePose, poseError } from './so3';
-import { WARNING_CATALOGUE, type WarningCode, type WarningSeverity } from './warnings';
+import { SEVERITY_LEVELS, WARNING_CODES, type WarningCode } from './warnings';
+
+export { SEVERITY_LEVELS, WARNING_CODES };
 
 export type RunStopReason = 'converged' | 'tick-limit' | 'singular';
-
-/** Warning codes in bit order of RunRecord.warningMask (bit i set = WARNING_CODES[i] raised that tick). */
-export const WARNING_CODES: readonly WarningCode[] = Object.keys(WARNING_CATALOGUE) as WarningCode[];
 
 /** Index i of SOLUTION_KINDS is the value stored in RunRecord.solution. */
 export const SOLUTION_KINDS: readonly ('full' | 'steer-and-roll')[] = ['full', 'steer-and-roll'];
 const FULL = 0;
 const STEER_AND_ROLL = 1;
 
-/** Index i of SEVERITY_LEVELS is the value stored in RunRecord.worstSeverity. */
-export const SEVERITY_LEVELS: readonly (WarningSeverity | 'none')[] = ['none', 'note', 'caution', 'singular'];
-
 const METRIC_COUNT = ROTATION_METRICS.length;
 /** Columns start this long (or at the tick limit) and double beyond it. */
 const INITIAL_CAPACITY = 16_384;
-
-if (WARNING_CODES.length > 32) throw new Error('warning bit mask holds at most 32 codes');
 
 /** Per-tick history of a run; every column has tickCount entries (or rows of the stated width). */
 export interface RunRecord {
@@ -46,7 +40,7 @@ export interface RunRecord {
   /** True object origin, m (3 per tick), and orientation [x, y, z, w] (4 per tick), world frame. */
   position: Float64Array;
   orientation: Float64Array;
-  /** Pose the controller measured (truth plus noise; equal to the truth without noise). */
+  /** Pose the controller measured: truth plus noise, or without noise the truth columns themselves (the same arrays, not copies). */
   measuredPosition: Float64Array;
   measuredOrientation: Float64Array;
   /** Commanded object twist [v (m/s); w (rad/s)], world frame, 6 per tick. */
@@ -94,14 +88,17 @@ interface Columns {
   worstSeverity: Uint8Array;
 }
 
-function createColumns(capacity: number, jointCounts: readonly number[]): Columns {
+/** Columns for capacity ticks; without noise the measured pose shares the truth's columns, because fresh memory is slow to touch. */
+function createColumns(capacity: number, jointCounts: readonly number[], noisy: boolean): Columns {
+  const position = new Float64Array(3 * capacity);
+  const orientation = new Float64Array(4 * capacity);
   return {
     capacity,
     time: new Float64Array(capacity),
-    position: new Float64Array(3 * capacity),
-    orientation: new Float64Array(4 * capacity),
-    measuredPosition: new Float64Array(3 * capacity),
-    measuredOrientation: new Float64Array(4 * capacity),
+    position,
+    orientation,
+    measuredPosition: noisy ? new Float64Array(3 * capacity) : position,
+    measuredOrientation: noisy ? new Float64Array(4 * capacity) : orientation,
     twist: new Float64Array(6 * capacity),
     jointAngles: jointCounts.map((n) => new Float64Array(n * capacity)),
     jointRates: jointCounts.map((n) => new Float64Array(n * capacity)),
@@ -122,11 +119,12 @@ function grown<T extends Float64Array | Uint32Array | Uint8Array>(column: T, len
 /** Doubles every column (up to the tick limit), keeping what was recorded. */
 function growColumns(c: Columns, limit: number): void {
   const capacity = Math.min(limit, 2 * c.capacity);
+  const noisy = c.measuredPosition !== c.position;
   c.time = grown(c.time, capacity);
   c.position = grown(c.position, 3 * capacity);
   c.orientation = grown(c.orientation, 4 * capacity);
-  c.measuredPosition = grown(c.measuredPosition, 3 * capacity);
-  c.measuredOrientation = grown(c.measuredOrientation, 4 * capacity);
+  c.measuredPosition = noisy ? grown(c.measuredPosition, 3 * capacity) : c.position;
+  c.measuredOrientation = noisy ? grown(c.measuredOrientation, 4 * capacity) : c.orientation;
   c.twist = grown(c.twist, 6 * capacity);
   c.jointAngles = c.jointAngles.map((column) => grown(column, (column.length / c.capacity) * capacity));
   c.jointRates = c.jointRates.map((column) => grown(column, (column.length / c.capacity) * capacity));
@@ -143,9 +141,6 @@ function copyInto(source: Float64Array, target: Float64Array, offset: number): v
   for (let i = 0; i < source.length; i++) target[offset + i] = source[i]!;
 }
 
-const CODE_BIT = new Map<WarningCode, number>(WARNING_CODES.map((code, i) => [code, i]));
-const SEVERITY_INDEX = new Map<WarningSeverity | 'none', number>(SEVERITY_LEVELS.map((level, i) => [level, i]));
-
 /** Runs the sheet's closed loop toward motion.target and records every tick (world frame, SI). */
 export function runSheet(doc: SheetDocument, options: RunOptions = {}): RunRecord {
   return runScene(createScene(doc), options.settings ?? doc.motion.run, options);
@@ -159,7 +154,8 @@ export function runScene(scene: Scene, settings: RunSettings, options: RunOption
   const targetOrientation = fromSheet(target.orientation, new Float64Array(4));
   const fingers = scene.fingers;
   const jointCounts = fingers.map((f) => f.jointCount);
-  const columns = createColumns(Math.min(maxTicks, INITIAL_CAPACITY), jointCounts);
+  const random: RandomSource | null = noise ? createRandom(noise.seed) : null;
+  const columns = createColumns(Math.min(maxTicks, INITIAL_CAPACITY), jointCounts, random !== null);
   const result: SheetResult = createResult(scene);
   const object = scene.object;
 
@@ -173,7 +169,6 @@ export function runScene(scene: Scene, settings: RunSettings, options: RunOption
   const noiseRotation = new Float64Array(3);
   const noiseQuat = new Float64Array(4);
   const distances = new Float64Array(METRIC_COUNT);
-  const random: RandomSource | null = noise ? createRandom(noise.seed) : null;
   const progressEvery = Math.max(1, options.progressEvery ?? 500);
   const geodesicIndex = ROTATION_METRICS.findIndex((m) => m.key === 'phi6');
 
@@ -194,8 +189,10 @@ export function runScene(scene: Scene, settings: RunSettings, options: RunOption
     columns.time[tick] = tick * dt;
     copyInto(position, columns.position, 3 * tick);
     copyInto(orientation, columns.orientation, 4 * tick);
-    copyInto(measuredPosition, columns.measuredPosition, 3 * tick);
-    copyInto(measuredOrientation, columns.measuredOrientation, 4 * tick);
+    if (random !== null) {
+      copyInto(measuredPosition, columns.measuredPosition, 3 * tick);
+      copyInto(measuredOrientation, columns.measuredOrientation, 4 * tick);
+    }
     copyInto(linear, columns.twist, 6 * tick);
     copyInto(angular, columns.twist, 6 * tick + 3);
     for (let i = 0; i < fingers.length; i++) {
@@ -218,11 +215,8 @@ export function runScene(scene: Scene, settings: RunSettings, options: RunOption
     columns.positionError[tick] = positionError;
     rotationDistances(orientation, targetOrientation, distances);
     copyInto(distances, columns.orientationError, METRIC_COUNT * tick);
-    let mask = 0;
-    const warnings = result.warnings;
-    for (let w = 0; w < warnings.length; w++) mask |= 1 << CODE_BIT.get(warnings[w]!.code)!;
-    columns.warningMask[tick] = mask >>> 0;
-    columns.worstSeverity[tick] = SEVERITY_INDEX.get(result.worstSeverity)!;
+    columns.warningMask[tick] = result.warningList.mask;
+    columns.worstSeverity[tick] = result.warningList.worstRank;
     tick++;
 
     if (tick % progressEvery === 0) options.onProgress?.(tick, maxTicks);

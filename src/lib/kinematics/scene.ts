@@ -9,7 +9,7 @@ import { computeGrasp, createGraspResult, createGraspWorkspace, type GraspResult
 import { createFinger, forwardKinematics, type Finger } from './hand';
 import { createFullSolution, createSolveWorkspace, createSteerAndRoll, solveFull, solveSteerAndRoll, type FullSolution, type SolveWorkspace, type SteerAndRoll } from './solve';
 import {
-  checkFinger, checkGrasp, clearWarnings, createWarningList, finishWarnings, judgedBasis, judgedRankRatio, worstSeverity,
+  checkFinger, checkGrasp, clearWarnings, createWarningList, finishWarnings, judgedBasis, judgedRankRatio, SEVERITY_LEVELS,
   type JudgedBasis, type SheetWarning, type WarningList, type WarningSeverity,
 } from './warnings';
 import type { Vec3Like } from './vec3';
@@ -151,7 +151,7 @@ export function solveScene(scene: Scene, out: SheetResult = createResult(scene))
   computeGrasp(object.position, points, normals, count, settings.softFinger, settings.singularRatio, out.grasp, workspace.grasp);
   checkGrasp(list, out.grasp);
   out.warnings = finishWarnings(list);
-  out.worstSeverity = worstSeverity(out.warnings);
+  out.worstSeverity = SEVERITY_LEVELS[list.worstRank];
   return out;
 }
 

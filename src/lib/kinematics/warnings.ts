@@ -155,7 +155,16 @@ export const WARNING_CATALOGUE: Readonly<Record<WarningCode, WarningInfo>> = {
   },
 };
 
-const SEVERITY_RANK: Record<WarningSeverity, number> = { note: 1, caution: 2, singular: 3 };
+/** Warning codes in catalogue order: bit i of a warning mask stands for WARNING_CODES[i]. */
+export const WARNING_CODES: readonly WarningCode[] = Object.keys(WARNING_CATALOGUE) as WarningCode[];
+
+/** Severities from none to worst: a severity's rank is its index here. */
+export const SEVERITY_LEVELS: readonly (WarningSeverity | 'none')[] = ['none', 'note', 'caution', 'singular'];
+
+if (WARNING_CODES.length > 32) throw new Error('a warning mask holds at most 32 codes');
+
+const CODE_BIT = Object.fromEntries(WARNING_CODES.map((code, i) => [code, 1 << i])) as Record<WarningCode, number>;
+const SEVERITY_RANK = Object.fromEntries(SEVERITY_LEVELS.map((level, i) => [level, i])) as Record<WarningSeverity | 'none', number>;
 
 /** A fixed pool of warning objects reused across solves (allocation-free raising). */
 export interface WarningList {
@@ -163,16 +172,22 @@ export interface WarningList {
   items: SheetWarning[];
   pool: SheetWarning[];
   count: number;
+  /** Bit mask over WARNING_CODES of the warnings raised since clearWarnings. */
+  mask: number;
+  /** SEVERITY_LEVELS index of the worst warning raised since clearWarnings (0 for none). */
+  worstRank: number;
 }
 
 /** New warning list. */
 export function createWarningList(): WarningList {
-  return { items: [], pool: [], count: 0 };
+  return { items: [], pool: [], count: 0, mask: 0, worstRank: 0 };
 }
 
 /** Empties the list, keeping its pooled objects. */
 export function clearWarnings(list: WarningList): void {
   list.count = 0;
+  list.mask = 0;
+  list.worstRank = 0;
 }
 
 /** Trims `items` to the warnings raised since clearWarnings (no allocation when the count is unchanged). */
@@ -199,22 +214,20 @@ export function raiseWarning(list: WarningList, code: WarningCode, finger: numbe
   }
   list.items[list.count] = w;
   list.count++;
+  list.mask = (list.mask | CODE_BIT[code]) >>> 0;
+  const rank = SEVERITY_RANK[info.severity];
+  if (rank > list.worstRank) list.worstRank = rank;
   return w;
 }
 
 /** Highest severity among the warnings, or 'none'. */
 export function worstSeverity(warnings: readonly SheetWarning[]): WarningSeverity | 'none' {
-  let worst: WarningSeverity | 'none' = 'none';
   let rank = 0;
   for (let i = 0; i < warnings.length; i++) {
-    const w = warnings[i];
-    const r = SEVERITY_RANK[w.severity];
-    if (r > rank) {
-      rank = r;
-      worst = w.severity;
-    }
+    const r = SEVERITY_RANK[warnings[i].severity];
+    if (r > rank) rank = r;
   }
-  return worst;
+  return SEVERITY_LEVELS[rank];
 }
 
 /** One sentence with the numbers: "finger 'index': <message> (value 0.0004 m, threshold 0.001 m)". */

@@ -135,6 +135,15 @@ describe('runSheet', () => {
     expect(Math.sqrt(angleSquares / (3 * a.tickCount)) / noise.angle).toBeLessThan(1.05);
   });
 
+  it('without noise records the measured pose as the truth itself, also after the columns grow past their first 16,384 ticks', () => {
+    const r = runSheet(sheet(), { settings: settings({ maxTicks: 17_000, positionTolerance: -1, angleTolerance: -1, stopOnSingular: false }) });
+    expect(r.tickCount).toBe(17_000);
+    expect(r.measuredPosition.buffer).toBe(r.position.buffer);
+    expect(r.measuredOrientation.buffer).toBe(r.orientation.buffer);
+    expect(r.measuredPosition.length).toBe(3 * r.tickCount);
+    expect(r.measuredOrientation.length).toBe(4 * r.tickCount);
+  });
+
   it('reports progress every N ticks', () => {
     const calls: Array<[number, number]> = [];
     runSheet(sheet(), { settings: settings({ maxTicks: 25, positionTolerance: -1, angleTolerance: -1 }), progressEvery: 10, onProgress: (done, max) => calls.push([done, max]) });

@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { solveSheet } from '../../../src/lib/kinematics/scene';
 import {
-  clearWarnings, createWarningList, finishWarnings, formatWarning, raiseWarning, slipTolerance, WARNING_CATALOGUE,
-  worstSeverity, type WarningCode,
+  clearWarnings, createWarningList, finishWarnings, formatWarning, raiseWarning, SEVERITY_LEVELS, slipTolerance, WARNING_CATALOGUE,
+  WARNING_CODES, worstSeverity, type WarningCode,
 } from '../../../src/lib/kinematics/warnings';
 import type { SheetDocument } from '../../../src/lib/sheet/types';
 import { threeFingerFinger, threeFingerSheet } from './three-finger-sheet';
@@ -53,6 +53,17 @@ describe('raiseWarning', () => {
     expect(again).toBe(first);
     expect(again).toMatchObject({ code: 'GRASP_RANK_DEFICIENT', severity: 'caution', finger: undefined, value: 5, threshold: 6 });
     expect(finishWarnings(list)).toEqual([again]);
+  });
+  it('keeps the code bit mask and the worst severity rank of what was raised, and clears both', () => {
+    const list = createWarningList();
+    raiseWarning(list, 'CONTACT_NEAR_PIVOT_AXIS', 0, 1, 0, 0.001);
+    raiseWarning(list, 'SLIP_REQUIRED', 1, undefined, 0.2, 0.1);
+    raiseWarning(list, 'SLIP_REQUIRED', 2, undefined, 0.3, 0.1);
+    expect(WARNING_CODES.filter((_, bit) => (list.mask & (1 << bit)) !== 0)).toEqual(['CONTACT_NEAR_PIVOT_AXIS', 'SLIP_REQUIRED']);
+    expect(SEVERITY_LEVELS[list.worstRank]).toBe(worstSeverity(finishWarnings(list)));
+    expect(SEVERITY_LEVELS[list.worstRank]).toBe('caution');
+    clearWarnings(list);
+    expect([list.mask, list.worstRank]).toEqual([0, 0]);
   });
 });
 
