@@ -358,10 +358,10 @@ function rollerFrameCoordinates(finger: Finger, out: Contact): void {
     out.longitude = Number.NaN;
     return;
   }
-  const ux = yl[0] / length, uy = yl[1] / length, uz = yl[2] / length;
-  const along = ux * a[0] + uy * a[1] + uz * a[2];
+  const along = (yl[0] * a[0] + yl[1] * a[1] + yl[2] * a[2]) / length;
   out.latitude = Math.asin(along > 1 ? 1 : along < -1 ? -1 : along);
-  out.longitude = Math.atan2(ux * q[0] + uy * q[1] + uz * q[2], ux * m[0] + uy * m[1] + uz * m[2]);
+  // atan2 takes the unnormalised direction: both of its arguments scale by the same positive length.
+  out.longitude = Math.atan2(yl[0] * q[0] + yl[1] * q[1] + yl[2] * q[2], yl[0] * m[0] + yl[1] * m[1] + yl[2] * m[2]);
 }
 
 function copy3(from: ArrayLike<number>, to: Float64Array): void {

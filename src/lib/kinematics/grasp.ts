@@ -92,14 +92,14 @@ export function computeGrasp(
   a.cols = 6;
   out.contactCount = contactCount;
   const sv = out.singularValues;
-  // Loops rather than fill: the builtin's call overhead outweighs a few dozen stores.
-  for (let i = 0; i < sv.length; i++) sv[i] = 0;
+  // Only the twists the last call wrote need clearing; loops rather than fill, whose call overhead outweighs a few stores.
   const undrivable = out.undrivable;
-  for (let i = 0; i < undrivable.length; i++) undrivable[i] = 0;
+  for (let i = 0, used = 6 * out.undrivableCount; i < used; i++) undrivable[i] = 0;
   if (contactCount === 0) {
+    for (let i = 0; i < 6; i++) sv[i] = 0;
     out.rank = 0;
     out.undrivableCount = 6;
-    for (let k = 0; k < 6; k++) out.undrivable[6 * k + k] = 1;
+    for (let k = 0; k < 6; k++) undrivable[6 * k + k] = 1;
     return out;
   }
   let mx = 0, my = 0, mz = 0;

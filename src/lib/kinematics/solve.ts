@@ -342,8 +342,10 @@ export function jacobianSingularValues(j: Matrix, out: Float64Array): Float64Arr
     out[2] = 0;
     return out;
   }
-  const product = e3 / s1Squared;
-  const sum = Math.max(0, (e2 - product) / s1Squared);
+  // One reciprocal rather than two dependent divisions: this chain of roots and quotients sets the cost of the call.
+  const inverse = 1 / s1Squared;
+  const product = e3 * inverse;
+  const sum = Math.max(0, (e2 - product) * inverse);
   const discriminant = Math.max(0, sum * sum - 4 * product);
   const larger = 0.5 * (sum + Math.sqrt(discriminant));
   out[1] = Math.sqrt(larger);
