@@ -373,15 +373,19 @@ export function solveFull(finger: Finger, contact: Contact, angularVelocity: Arr
   j.rows = rows;
   out.rows = rows;
   dampedLeastSquares(j, target, settings.damping, out.rates, ws.linalg);
-  const d = j.data, rates = out.rates;
+  const d = j.data, rates = out.rates, achieved = out.achieved, residual = out.residual;
   let translational = 0;
-  for (let i = 0; i < 4; i++) {
+  for (let i = 0; i < 3; i++) {
     let sum = 0;
-    if (i < rows) for (let k = 0; k < n; k++) sum += d[i * n + k] * rates[k];
-    out.achieved[i] = sum;
-    out.residual[i] = i < rows ? target[i] - sum : 0;
-    if (i < 3) translational += out.residual[i] * out.residual[i];
+    for (let k = 0, o = i * n; k < n; k++) sum += d[o + k] * rates[k];
+    achieved[i] = sum;
+    residual[i] = target[i] - sum;
+    translational += residual[i] * residual[i];
   }
+  let spin = 0;
+  if (rows === 4) for (let k = 0; k < n; k++) spin += d[3 * n + k] * rates[k];
+  achieved[3] = spin;
+  residual[3] = rows === 4 ? target[3] - spin : 0;
   out.residualNorm = Math.sqrt(translational);
   out.spinResidual = rows === 4 ? Math.abs(out.residual[3]) : 0;
   j.rows = 3;
@@ -437,9 +441,11 @@ export function solveSteerAndRoll(finger: Finger, contact: Contact, full: FullSo
     steer(finger, contact, out, ws);
   }
 
-  // Jacobian after steering: joints beyond the pivot turn about the pivot line by pivotChange.
-  const ja = out.jacobianAfter;
-  contactJacobian(axes, points, n, y, ja);
+  // Jacobian after steering: the full solution's translational rows, with the joints beyond the pivot turned about the pivot line by pivotChange.
+  const ja = out.jacobianAfter, before = full.jacobian.data, after = ja.data;
+  ja.rows = 3;
+  ja.cols = n;
+  for (let i = 0; i < 3 * n; i++) after[i] = before[i];
   if (out.available && out.pivotChange !== 0) steeredColumns(finger, y, ws.steer, ja);
   const d = ja.data;
   let residual = 0;
