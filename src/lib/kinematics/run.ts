@@ -13,7 +13,7 @@ import { fromSheet, multiply } from './quat';
 import { createRandom, nextGaussian, type RandomSource } from './random';
 import { createResult, createScene, solveScene, type Scene, type SheetResult } from './scene';
 import { expMap, integratePose, poseError } from './so3';
-import { SEVERITY_LEVELS, WARNING_CODES, type WarningCode } from './warnings';
+import { SEVERITY_LEVELS, WARNING_CATALOGUE, WARNING_CODES, severityRank, warningBit, type WarningCode } from './warnings';
 
 export { SEVERITY_LEVELS, WARNING_CODES };
 
@@ -25,6 +25,8 @@ const FULL = 0;
 const STEER_AND_ROLL = 1;
 
 const METRIC_COUNT = ROTATION_METRICS.length;
+const RATE_LIMIT_BIT = warningBit('RATE_LIMIT_EXCEEDED');
+const RATE_LIMIT_RANK = severityRank(WARNING_CATALOGUE.RATE_LIMIT_EXCEEDED.severity);
 /** Columns start this long (or at the tick limit) and double beyond it. */
 const INITIAL_CAPACITY = 16_384;
 
@@ -195,6 +197,8 @@ export function runScene(scene: Scene, settings: RunSettings, options: RunOption
     }
     copyInto(linear, columns.twist, 6 * tick);
     copyInto(angular, columns.twist, 6 * tick + 3);
+    let mask = result.warningList.mask;
+    let worstRank = result.warningList.worstRank;
     for (let i = 0; i < fingers.length; i++) {
       const n = jointCounts[i]!;
       const angles = fingers[i]!.angles;
@@ -207,7 +211,16 @@ export function runScene(scene: Scene, settings: RunSettings, options: RunOption
         angleColumn[o] = angles[k]!;
         rateColumn[o] = rates[k]!;
       }
-      if (steered) rateColumn[n * tick + fingers[i]!.pivotIndex] = solved.steer.pivotChange / dt;
+      if (steered) {
+        // The solve cannot know dt: a steered pivot turns to its new angle within the tick, so its rate is pivotChange / dt.
+        const pivot = fingers[i]!.pivotIndex;
+        const pivotRate = solved.steer.pivotChange / dt;
+        rateColumn[n * tick + pivot] = pivotRate;
+        if (Math.abs(pivotRate) > fingers[i]!.rateLimits[pivot]!) {
+          mask |= RATE_LIMIT_BIT;
+          if (RATE_LIMIT_RANK > worstRank) worstRank = RATE_LIMIT_RANK;
+        }
+      }
       columns.solution[fingers.length * tick + i] = steered ? STEER_AND_ROLL : FULL;
     }
     const dx = targetPosition[0]! - position[0]!, dy = targetPosition[1]! - position[1]!, dz = targetPosition[2]! - position[2]!;
@@ -215,8 +228,8 @@ export function runScene(scene: Scene, settings: RunSettings, options: RunOption
     columns.positionError[tick] = positionError;
     rotationDistances(orientation, targetOrientation, distances);
     copyInto(distances, columns.orientationError, METRIC_COUNT * tick);
-    columns.warningMask[tick] = result.warningList.mask;
-    columns.worstSeverity[tick] = result.warningList.worstRank;
+    columns.warningMask[tick] = mask >>> 0;
+    columns.worstSeverity[tick] = worstRank;
     tick++;
 
     if (tick % progressEvery === 0) options.onProgress?.(tick, maxTicks);

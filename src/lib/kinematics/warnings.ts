@@ -104,7 +104,7 @@ export const WARNING_CATALOGUE: Readonly<Record<WarningCode, WarningInfo>> = {
     title: 'Rate limit exceeded',
     message: 'A joint would have to turn faster than its rate limit.',
     explanation:
-      'The value is the largest joint speed asked for by the full or the steer-and-roll solution. Slow the object motion down or move the contact where the joint has more leverage.',
+      'The value is the largest joint speed asked for by the full or the steer-and-roll solution. In a run, a steered pivot reaches its new angle within one tick, so its speed there is the pivot change divided by the tick length. Slow the object motion down or move the contact where the joint has more leverage.',
     unit: 'rad/s',
   },
   CONTACT_LOST: {
@@ -165,6 +165,16 @@ if (WARNING_CODES.length > 32) throw new Error('a warning mask holds at most 32 
 
 const CODE_BIT = Object.fromEntries(WARNING_CODES.map((code, i) => [code, 1 << i])) as Record<WarningCode, number>;
 const SEVERITY_RANK = Object.fromEntries(SEVERITY_LEVELS.map((level, i) => [level, i])) as Record<WarningSeverity | 'none', number>;
+
+/** Bit of the code in a warning mask. */
+export function warningBit(code: WarningCode): number {
+  return CODE_BIT[code];
+}
+
+/** Index of the severity in SEVERITY_LEVELS. */
+export function severityRank(severity: WarningSeverity | 'none'): number {
+  return SEVERITY_RANK[severity];
+}
 
 /** A fixed pool of warning objects reused across solves (allocation-free raising). */
 export interface WarningList {

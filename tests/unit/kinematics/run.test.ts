@@ -288,6 +288,16 @@ describe('steered run toward a rotation about a known axis', () => {
     expect(pivot(last)).toBeCloseTo(pivot(1), 9);
   });
 
+  it('flags the quarter-turn pivot jump of finger 2 as RATE_LIMIT_EXCEEDED against a 100 rad/s limit ((pi / 2) / 0.005 s = 314 rad/s), only on that tick', () => {
+    const limited = structuredClone(doc);
+    limited.hand.fingers[1]!.joints[1]!.rateLimit = 100;
+    const l = runSheet(limited, { settings: s });
+    expect(warningsAt(l, 0)).toContain('RATE_LIMIT_EXCEEDED');
+    expect(SEVERITY_LEVELS[l.worstSeverity[0]!]).not.toBe('none');
+    for (let k = 1; k < l.tickCount; k++) expect(warningsAt(l, k)).not.toContain('RATE_LIMIT_EXCEEDED');
+    expect(warningsAt(r, 0)).not.toContain('RATE_LIMIT_EXCEEDED');
+  });
+
   it('rolls finger 2 through the surface arc over rho: theta (0.04 sin 120 deg) / 0.012', () => {
     const turned = theta0 - theta0 * (1 - s.gain * s.dt) ** last;
     const roll = r.jointAngles[1]![3 * last + 2]! - r.jointAngles[1]![2]!;
