@@ -90,13 +90,18 @@ export default defineConfig({
       return !!known;
     },
     jwt({ token, user }) {
-      if (user?.id) token.sub = user.id;
+      // The sign-in time lets a password change or reset end every session begun before it (users.sessionsValidFrom).
+      if (user?.id) {
+        token.sub = user.id;
+        token.signedInAt = Date.now();
+      }
       return token;
     },
     session({ session, token }) {
       return {
         expires: session.expires,
         user: { id: token.sub ?? '', email: session.user?.email ?? '', name: session.user?.name ?? null },
+        signedInAt: typeof token.signedInAt === 'number' ? token.signedInAt : 0,
       } as typeof session;
     },
   },

@@ -85,7 +85,11 @@ function PasswordForm() {
       <FormError message={errors.form} />
       {done && (
         <p className="text-sm text-verdigris-deep" role="status">
-          Password changed. Use the new one next time you sign in.
+          Password changed. Every session has been signed out, this one included:{' '}
+          <a href="/sign-in" className="underline">
+            sign in again
+          </a>{' '}
+          with the new password. API tokens keep working; revoke them on the tokens page if they may be exposed.
         </p>
       )}
       <button disabled={change.isPending} className={primaryButton}>

@@ -22,6 +22,8 @@ export const users = sqliteTable('user', {
   emailVerified: integer('emailVerified', { mode: 'timestamp_ms' }),
   image: text('image'),
   passwordHash: text('password_hash'),
+  /** Sessions signed in before this moment are refused: set when the password changes or is reset. */
+  sessionsValidFrom: integer('sessions_valid_from', { mode: 'timestamp_ms' }),
   createdAt: createdAt(),
 });
 

@@ -74,7 +74,7 @@ export async function demoIdentity(role: Role): Promise<Identity> {
   const database = await getDatabase();
   const email = DEMO_USERS.find((u) => u.role === role)!.email;
   const [user] = await database.db.select({ id: users.id }).from(users).where(eq(users.email, email));
-  return (await identityForUser(database, user.id))!;
+  return (await identityForUser(database, user.id, Date.now()))!;
 }
 
 /** Adds a new user (password `password`) to a team at `role`; creates the team when `teamSlug` is new. */

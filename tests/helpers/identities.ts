@@ -15,7 +15,7 @@ export async function createTeamWithRoles(label: string): Promise<{ teamId: stri
   for (const role of roles) {
     const [user] = await database.write((db) => db.insert(users).values({ email: `${role}-${suffix}@test.example`, name: `${role} ${suffix}` }).returning());
     await database.write((db) => db.insert(memberships).values({ teamId: team.id, userId: user.id, role }));
-    identities[role] = (await identityForUser(database, user.id))!;
+    identities[role] = (await identityForUser(database, user.id, Date.now()))!;
   }
   return { teamId: team.id, identities };
 }

@@ -14,8 +14,8 @@ export type PasswordChangeOutcome =
 const currentPasswordLimiter = new RateLimiterMemory({ keyPrefix: 'password-change', points: 5, duration: 15 * 60 });
 
 /**
- * Replaces the user's password after checking the current one; recorded in the audit trail of
- * every team the user belongs to.
+ * Replaces the user's password after checking the current one and ends every session begun before
+ * the change; recorded in the audit trail of every team the user belongs to.
  */
 export async function changePassword(
   database: Database,
@@ -40,7 +40,8 @@ export async function changePassword(
   }
   await currentPasswordLimiter.delete(userId);
   const passwordHash = await hashPassword(input.newPassword);
-  await database.write((db) => db.update(users).set({ passwordHash }).where(eq(users.id, userId)));
+  // Every session begun before now ends, this one included; API tokens are separate credentials and stay.
+  await database.write((db) => db.update(users).set({ passwordHash, sessionsValidFrom: new Date() }).where(eq(users.id, userId)));
   const teams = identity.memberships.length ? identity.memberships.map((m) => m.teamId) : [null];
   await recordAudit(
     database,

@@ -16,10 +16,17 @@ export async function getMemberships(database: Database, userId: string): Promis
     .orderBy(teams.name);
 }
 
-/** The identity of a signed-in user id, or null when the user no longer exists. */
-export async function identityForUser(database: Database, userId: string): Promise<Identity | null> {
-  const [user] = await database.db.select({ id: users.id, email: users.email, name: users.name }).from(users).where(eq(users.id, userId));
+/**
+ * The identity of a user signed in at signedInAt (ms since the epoch), or null when the user no
+ * longer exists or the session began before the password last changed or was reset.
+ */
+export async function identityForUser(database: Database, userId: string, signedInAt: number): Promise<Identity | null> {
+  const [user] = await database.db
+    .select({ id: users.id, email: users.email, name: users.name, sessionsValidFrom: users.sessionsValidFrom })
+    .from(users)
+    .where(eq(users.id, userId));
   if (!user?.email) return null;
+  if (user.sessionsValidFrom && signedInAt < user.sessionsValidFrom.getTime()) return null;
   return { user: { id: user.id, email: user.email, name: user.name }, via: 'session', memberships: await getMemberships(database, user.id) };
 }
 

@@ -99,7 +99,7 @@ export async function confirmPasswordReset(
       .where(and(eq(passwordResets.tokenHash, hashSecretToken(input.token)), isNull(passwordResets.usedAt)))
       .returning({ userId: passwordResets.userId });
     if (!used) return null;
-    await tx.update(users).set({ passwordHash, emailVerified: new Date(now) }).where(eq(users.id, used.userId));
+    await tx.update(users).set({ passwordHash, emailVerified: new Date(now), sessionsValidFrom: new Date(now) }).where(eq(users.id, used.userId));
     return used.userId;
   });
   if (!userId) return { ok: false, status: 410, message: 'This reset link was already used. Ask for a new one if you need to reset again.' };

@@ -149,7 +149,7 @@ describe('using and revoking a token', () => {
   it('stops working when the holder is removed from the team, and stays revoked if they return', async () => {
     const database = await getDatabase();
     const member = await addTestMember('editor', { teamId });
-    const identity = (await identityForUser(database, member.userId))!;
+    const identity = (await identityForUser(database, member.userId, Date.now()))!;
     const { token } = await mint(identity, 'editor', 'leaver');
     expect(await identityForToken(database, token)).not.toBeNull();
     expect(await removeMember(database, owner, teamId, member.userId)).toMatchObject({ ok: true });

@@ -73,7 +73,7 @@ describe('mail round trips through the fake SMTP server', () => {
   it('delivers an invitation whose link accepts once; the outbox shows it only to that team', async () => {
     const database = await getDatabase();
     const owner = await addTestMember('owner');
-    const ownerIdentity = (await identityForUser(database, owner.userId))!;
+    const ownerIdentity = (await identityForUser(database, owner.userId, Date.now()))!;
     const email = `mailed-${crypto.randomUUID().slice(0, 8)}@slipless.example`;
     const created = await createInvitation(database, { teamId: owner.teamId, inviter: ownerIdentity.user, email, role: 'reviewer', origin: ORIGIN });
     expect(created.ok).toBe(true);
@@ -99,7 +99,7 @@ describe('mail round trips through the fake SMTP server', () => {
   it('refuses a mailed invitation link after seven days with a message naming whom to ask', async () => {
     const database = await getDatabase();
     const owner = await addTestMember('owner');
-    const ownerIdentity = (await identityForUser(database, owner.userId))!;
+    const ownerIdentity = (await identityForUser(database, owner.userId, Date.now()))!;
     const email = `expired-${crypto.randomUUID().slice(0, 8)}@slipless.example`;
     const eightDaysAgo = Date.now() - INVITATION_LIFETIME_MS - 24 * 60 * 60 * 1000;
     await createInvitation(database, { teamId: owner.teamId, inviter: ownerIdentity.user, email, role: 'viewer', origin: ORIGIN, now: eightDaysAgo });

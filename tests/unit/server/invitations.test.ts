@@ -34,7 +34,7 @@ afterAll(async () => {
 async function freshTeam() {
   const database = await getDatabase();
   const owner = await addTestMember('owner');
-  const identity = (await identityForUser(database, owner.userId))!;
+  const identity = (await identityForUser(database, owner.userId, Date.now()))!;
   return { database, teamId: owner.teamId, owner, identity };
 }
 
@@ -94,7 +94,7 @@ describe('invitations', () => {
     expect(user.passwordHash).toMatch(/^\$argon2id\$/);
     expect(await verifyPassword(user.passwordHash!, 'a long new password')).toBe(true);
     expect(user.emailVerified).toBeInstanceOf(Date);
-    const identity = await identityForUser(team.database, user.id);
+    const identity = await identityForUser(team.database, user.id, Date.now());
     expect(identity?.memberships).toEqual([expect.objectContaining({ teamId: team.teamId, role: 'editor' })]);
 
     expect(await acceptInvitation(team.database, { token, name: 'Someone Else', password: 'another long password' })).toEqual({
@@ -172,7 +172,7 @@ describe('invitation routes', () => {
   it('lets only the owner invite, list and revoke; others get 403, other teams 404', async () => {
     const team = await freshTeam();
     const editor = await addTestMember('editor', { teamId: team.teamId });
-    const editorIdentity = (await identityForUser(team.database, editor.userId))!;
+    const editorIdentity = (await identityForUser(team.database, editor.userId, Date.now()))!;
     const outsider = await freshTeam();
     const path = `/api/teams/${team.teamId}/invitations`;
     const params = { teamId: team.teamId };

@@ -12,7 +12,7 @@ async function freshTeam() {
   const database = await getDatabase();
   const owner = await addTestMember('owner');
   const editor = await addTestMember('editor', { teamId: owner.teamId });
-  return { database, teamId: owner.teamId, owner, editor, ownerIdentity: (await identityForUser(database, owner.userId))! };
+  return { database, teamId: owner.teamId, owner, editor, ownerIdentity: (await identityForUser(database, owner.userId, Date.now()))! };
 }
 
 describe('members', () => {
@@ -48,7 +48,7 @@ describe('members', () => {
     const { database, teamId, owner, editor, ownerIdentity } = await freshTeam();
     expect(await changeRole(database, ownerIdentity, teamId, editor.userId, 'owner', '10.1.2.3')).toMatchObject({ ok: true, value: { role: 'owner' } });
     expect(await changeRole(database, ownerIdentity, teamId, owner.userId, 'viewer')).toMatchObject({ ok: true, value: { role: 'viewer' } });
-    const newOwner = (await identityForUser(database, editor.userId))!;
+    const newOwner = (await identityForUser(database, editor.userId, Date.now()))!;
     expect(await removeMember(database, newOwner, teamId, owner.userId)).toMatchObject({ ok: true });
     expect((await listMembers(database, teamId)).map((m) => m.role)).toEqual(['owner']);
 

@@ -448,7 +448,7 @@ beforeAll(async () => {
   const teamId = await demoTeamId();
   const [viewer, reviewer, editor, owner] = await Promise.all((['viewer', 'reviewer', 'editor', 'owner'] as const).map(demoIdentity));
   const outsider = await addTestMember('owner', { password: DEMO_PASSWORD });
-  const other = (await identityForUser(database, outsider.userId))!;
+  const other = (await identityForUser(database, outsider.userId, Date.now()))!;
   const live = await createApiToken(database, editor, { teamId, name: 'table: live', role: 'editor' });
   const dead = await createApiToken(database, editor, { teamId, name: 'table: revoked', role: 'editor' });
   if (!live.ok || !dead.ok) throw new Error('could not create the table tokens');

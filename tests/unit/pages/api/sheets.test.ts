@@ -112,7 +112,7 @@ describe('forking into another team', () => {
     const { sheetId } = await (await create(people.editor)).json();
     // The source team's reviewer is also an editor in the other team.
     await database.write((db) => db.insert(memberships).values({ teamId: other.teamId, userId: people.reviewer.user.id, role: 'editor' }));
-    const reviewerInBoth = (await identityForUser(database, people.reviewer.user.id))!;
+    const reviewerInBoth = (await identityForUser(database, people.reviewer.user.id, Date.now()))!;
     const fork = (identity: Identity, target: string) =>
       forkRoute.POST(apiContext({ method: 'POST', params: { sheetId }, body: { teamId: target }, identity }));
 

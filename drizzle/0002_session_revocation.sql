@@ -1,0 +1,1 @@
+ALTER TABLE `user` ADD `sessions_valid_from` integer;
