@@ -13,6 +13,13 @@ import { getMemberships } from './lib/server/identity';
 import { verifyPassword } from './lib/server/passwords';
 import { countSignInAttempt, signInRetryAfter } from './lib/server/rate-limit';
 import { sendMail } from './lib/server/email';
+
+declare module '@auth/core/types' {
+  interface Session {
+    /** When the session began (ms since the epoch); 0 for sessions begun before this was recorded. */
+    signedInAt?: number;
+  }
+}
 import { CLIENT_ADDRESS_HEADER } from './consts';
 
 

@@ -11,8 +11,8 @@ let staleSessionReported = false;
 /** Resolves the session cookie to an identity; a cookie signed with an old secret counts as signed out. */
 async function sessionIdentity(request: Request): Promise<Identity | null> {
   try {
-    const session = (await getSession(request)) as { user?: { id?: string }; signedInAt?: number } | null;
-    const userId = session?.user?.id;
+    const session = await getSession(request);
+    const userId = (session?.user as { id?: string } | undefined)?.id;
     return userId ? await identityForUser(await getDatabase(), userId, session?.signedInAt ?? 0) : null;
   } catch (error) {
     if (!staleSessionReported) {
