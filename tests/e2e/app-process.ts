@@ -1,0 +1,46 @@
+import { spawn } from 'node:child_process';
+import { existsSync } from 'node:fs';
+
+/** A running copy of the built app. */
+export interface AppProcess {
+  baseUrl: string;
+  /** Stops the app and waits until its process has exited. */
+  stop(): Promise<void>;
+}
+
+/**
+ * Starts the built app the way `npm start` serves it (src/cli/start.ts: migrate, seed, serve) on
+ * 127.0.0.1:port with the given database and environment, and waits until /api/health answers.
+ */
+export async function startApp(options: { port: number; databaseUrl: string; env?: NodeJS.ProcessEnv }): Promise<AppProcess> {
+  if (!existsSync('dist/server/entry.mjs')) throw new Error('Build first: npm run build (npm run test:e2e does it).');
+  const baseUrl = `http://127.0.0.1:${options.port}`;
+  let output = '';
+  const child = spawn('node_modules/.bin/tsx', ['src/cli/start.ts'], {
+    env: { ...(options.env ?? process.env), PORT: String(options.port), HOST: '127.0.0.1', DATABASE_URL: options.databaseUrl },
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
+  child.stdout?.on('data', (chunk) => (output += chunk));
+  child.stderr?.on('data', (chunk) => (output += chunk));
+  const exited = new Promise<void>((resolve) => child.once('exit', () => resolve()));
+  const deadline = Date.now() + 60_000;
+  for (;;) {
+    try {
+      if ((await fetch(`${baseUrl}/api/health`)).ok) break;
+    } catch {
+      // not listening yet
+    }
+    if (child.exitCode !== null || Date.now() > deadline) {
+      child.kill('SIGTERM');
+      throw new Error(`The app did not start on ${baseUrl}:\n${output}`);
+    }
+    await new Promise((r) => setTimeout(r, 200));
+  }
+  return {
+    baseUrl,
+    async stop() {
+      if (child.exitCode === null) child.kill('SIGTERM');
+      await exited;
+    },
+  };
+}
