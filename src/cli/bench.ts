@@ -1,9 +1,10 @@
 /**
- * Benchmarks of the kinematics core, printed as medians over repetitions (not a test).
+ * Benchmarks of the kinematics core, printed as medians over interleaved rounds (not a test).
  * Usage: npm run bench [-- --quick]
  * The script bundles this file with esbuild into one module before running it, as the app's build
  * bundles the kinematics core for its worker, so the figures are those of the shipped code rather
- * than of a per-file module loader.
+ * than of a per-file module loader; node runs it with --expose-gc so each timed batch starts on a
+ * collected heap.
  * Measures one full solve of a three- and a five-finger hand (hand templates on a 30 mm sphere),
  * a 10,000-tick run, a 200-value sweep, and the same three-finger contact solve written the
  * general-purpose way with mathjs matrices (eigs of J J^T for singular values, inv and multiply
@@ -20,7 +21,7 @@ import { runSheet } from '../lib/kinematics/run';
 import { sweepSheet } from '../lib/kinematics/sweep';
 
 const quick = process.argv.includes('--quick');
-const REPETITIONS = quick ? 3 : 9;
+const REPETITIONS = quick ? 3 : 15;
 const math: MathJsInstance = create(all);
 
 interface Measurement {
@@ -33,22 +34,47 @@ interface Measurement {
   cpuMedian: number;
 }
 
-/** Median over REPETITIONS of the time per call, each repetition timing `batch` calls after a warm-up. */
-function measure(label: string, batch: number, call: () => void): Measurement {
-  for (let i = 0; i < Math.max(1, batch >> 2); i++) call();
-  const times: number[] = [];
-  const cpuTimes: number[] = [];
+/** V8's gc(), present when node runs with --expose-gc (as npm run bench does). */
+const collectGarbage = (globalThis as { gc?: () => void }).gc;
+
+/** One line of the benchmark: `batch` calls are timed together, once per round. */
+interface Benchmark {
+  label: string;
+  batch: number;
+  call: () => void;
+}
+
+/** Milliseconds to let V8's background threads finish sweeping and freeing after a full collection. */
+const SETTLE_MS = 25;
+
+/**
+ * Times every benchmark once per round for REPETITIONS rounds, after a warm-up of each, and gives
+ * each line's median, min and max time per call. Interleaving the rounds spreads a slow spell of
+ * the shared machine over all lines, where consecutive repetitions of one line would all fall in it.
+ * Before each timed batch a full collection and a short pause keep one line's garbage (a run's
+ * record) from being cleaned up during the next line.
+ */
+async function measureInRounds(benchmarks: readonly Benchmark[]): Promise<Measurement[]> {
+  for (const { batch, call } of benchmarks) for (let i = 0; i < Math.max(1, batch >> 2); i++) call();
+  const times = benchmarks.map(() => [] as number[]);
+  const cpuTimes = benchmarks.map(() => [] as number[]);
   for (let r = 0; r < REPETITIONS; r++) {
-    const cpuStart = process.cpuUsage();
-    const start = performance.now();
-    for (let i = 0; i < batch; i++) call();
-    times.push((performance.now() - start) / batch);
-    const cpu = process.cpuUsage(cpuStart);
-    cpuTimes.push((cpu.user + cpu.system) / 1000 / batch);
+    for (const [k, { batch, call }] of benchmarks.entries()) {
+      collectGarbage?.();
+      await new Promise((settled) => setTimeout(settled, SETTLE_MS));
+      const cpuStart = process.cpuUsage();
+      const start = performance.now();
+      for (let i = 0; i < batch; i++) call();
+      times[k]!.push((performance.now() - start) / batch);
+      const cpu = process.cpuUsage(cpuStart);
+      cpuTimes[k]!.push((cpu.user + cpu.system) / 1000 / batch);
+    }
   }
-  times.sort((a, b) => a - b);
-  cpuTimes.sort((a, b) => a - b);
-  return { label, median: times[times.length >> 1]!, min: times[0]!, max: times[times.length - 1]!, cpuMedian: cpuTimes[cpuTimes.length >> 1]! };
+  return benchmarks.map(({ label }, k) => {
+    const sorted = times[k]!.sort((a, b) => a - b);
+    const cpu = cpuTimes[k]!.sort((a, b) => a - b);
+    return { label, median: sorted[sorted.length >> 1]!, min: sorted[0]!, max: sorted[sorted.length - 1]!, cpuMedian: cpu[cpu.length >> 1]! };
+  });
 }
 
 function sphereSheet(templateId: string): SheetDocument {
@@ -143,13 +169,6 @@ for (let i = 0; i < three.hand.fingers.length; i++) {
 const runSettings = { ...three.motion.run, maxTicks: 10_000, positionTolerance: -1, angleTolerance: -1, stopOnSingular: false };
 const sweepSettings = { path: '/object/twist/angular/2', from: 0, to: 0.5, steps: 200 };
 
-const solveThree = measure('full solve, three fingers (tri-radial)', quick ? 2_000 : 20_000, () => solveScene(threeScene, threeResult));
-const solveFive = measure('full solve, five fingers (penta-fan)', quick ? 2_000 : 20_000, () => solveScene(fiveScene, fiveResult));
-const mathjsThree = measure('mathjs contact solve, three fingers', quick ? 20 : 200, () => {
-  for (let i = 0; i < three.hand.fingers.length; i++) solveFingerWithMathjs(three, i);
-});
-const run = measure('10,000-tick run, three fingers', quick ? 1 : 3, () => runSheet(three, { settings: runSettings }));
-const sweep = measure('200-value sweep, three fingers', quick ? 1 : 3, () => sweepSheet(three, sweepSettings));
 
 // The first finger's contact Jacobian (3 x 3 here) and a 3 x 5 one with two more columns from the second finger.
 const jacobian3 = threeResult.fingers[0]!.full.jacobian;
@@ -160,14 +179,31 @@ const workspace = createLinalgWorkspace(6, 40);
 const rates5 = new Float64Array(5);
 const singular5 = new Float64Array(3);
 const velocity = threeResult.fingers[0]!.contact.objectVelocity;
-const linalg = measure('DLS + Jacobi singular values, 3 x 5', quick ? 20_000 : 200_000, () => {
-  dampedLeastSquares(jacobian5, velocity, three.solver.damping, rates5, workspace);
-  singularValues(jacobian5, singular5, workspace);
-});
+const [solveThree, solveFive, run, sweep, linalg, mathjsThree] = (await measureInRounds([
+  { label: 'full solve, three fingers (tri-radial)', batch: quick ? 2_000 : 20_000, call: () => solveScene(threeScene, threeResult) },
+  { label: 'full solve, five fingers (penta-fan)', batch: quick ? 2_000 : 20_000, call: () => solveScene(fiveScene, fiveResult) },
+  { label: '10,000-tick run, three fingers', batch: quick ? 1 : 3, call: () => runSheet(three, { settings: runSettings }) },
+  { label: '200-value sweep, three fingers', batch: quick ? 1 : 3, call: () => sweepSheet(three, sweepSettings) },
+  {
+    label: 'DLS + Jacobi singular values, 3 x 5',
+    batch: quick ? 20_000 : 200_000,
+    call: () => {
+      dampedLeastSquares(jacobian5, velocity, three.solver.damping, rates5, workspace);
+      singularValues(jacobian5, singular5, workspace);
+    },
+  },
+  {
+    label: 'mathjs contact solve, three fingers',
+    batch: quick ? 20 : 200,
+    call: () => {
+      for (let i = 0; i < three.hand.fingers.length; i++) solveFingerWithMathjs(three, i);
+    },
+  },
+])) as [Measurement, Measurement, Measurement, Measurement, Measurement, Measurement];
 
 const speedup = mathjsThree.median / solveThree.median;
 const lines = [
-  `Kinematics benchmarks (median of ${REPETITIONS} repetitions; Node ${process.version}; ${cpus()[0]?.model ?? 'unknown CPU'}, ` +
+  `Kinematics benchmarks (median of ${REPETITIONS} interleaved rounds; Node ${process.version}; ${cpus()[0]?.model ?? 'unknown CPU'}, ` +
     `${availableParallelism()} cores, load average ${loadavg()[0]!.toFixed(1)})`,
   ...(loadavg()[0]! > availableParallelism() / 2 ? ['Other work is running on this machine; the figures are inflated by it.'] : []),
   line(solveThree, against(solveThree, 3e-3)),
