@@ -13,6 +13,7 @@ import { getMemberships } from './lib/server/identity';
 import { verifyPassword } from './lib/server/passwords';
 import { countSignInAttempt, signInRetryAfter } from './lib/server/rate-limit';
 import { sendMail } from './lib/server/email';
+import { CLIENT_ADDRESS_HEADER } from './consts';
 
 declare module '@auth/core/types' {
   interface Session {
@@ -20,9 +21,6 @@ declare module '@auth/core/types' {
     signedInAt?: number;
   }
 }
-import { CLIENT_ADDRESS_HEADER } from './consts';
-
-
 
 class RateLimited extends CredentialsSignin {
   code = 'rate_limited';

@@ -2,7 +2,7 @@ import { useState, type SubmitEvent } from 'react';
 import { requestJson, fieldErrors, serverErrors } from '../lib/client/api';
 import { signInWithPassword } from '../lib/client/sign-in';
 import { newAccountSchema } from '../lib/validation/invitations';
-import { FieldError, FormError, inputClass, labelClass, primaryButton } from './form-parts';
+import { FieldError, FormError, inputClass, labelClass, NewPasswordField, primaryButton } from './form-parts';
 
 interface Props {
   token: string;
@@ -75,21 +75,7 @@ export default function AcceptInvitationForm({ token, email, teamName, hasAccoun
             <input name="name" autoComplete="name" className={inputClass} aria-invalid={!!errors.name} aria-describedby="name-error" />
             <FieldError id="name-error" message={errors.name} />
           </label>
-          <label className={labelClass}>
-            Password
-            <input
-              name="password"
-              type="password"
-              autoComplete="new-password"
-              className={inputClass}
-              aria-invalid={!!errors.password}
-              aria-describedby="password-hint password-error"
-            />
-            <span id="password-hint" className="mt-1 block text-xs font-normal text-graphite">
-              At least 10 characters; a few unrelated words make a strong one.
-            </span>
-            <FieldError id="password-error" message={errors.password} />
-          </label>
+          <NewPasswordField label="Password" name="password" error={errors.password} />
         </>
       )}
       <FormError message={errors.form} />

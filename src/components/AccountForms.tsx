@@ -3,7 +3,7 @@ import { useState, type FormEvent } from 'react';
 import { fieldErrors, requestJson, serverErrors } from '../lib/client/api';
 import { changePasswordSchema, type ChangePasswordInput } from '../lib/validation/account';
 import { switchTeamSchema } from '../lib/validation/team';
-import { FieldError, FormError, inputClass, labelClass, primaryButton } from './form-parts';
+import { FieldError, FormError, inputClass, labelClass, NewPasswordField, primaryButton } from './form-parts';
 import QueryRoot from './QueryRoot';
 
 interface TeamChoice {
@@ -76,12 +76,7 @@ function PasswordForm() {
         <input name="currentPassword" type="password" autoComplete="current-password" className={inputClass} aria-invalid={!!errors.currentPassword} aria-describedby="current-password-error" />
         <FieldError id="current-password-error" message={errors.currentPassword} />
       </label>
-      <label className={labelClass}>
-        New password
-        <input name="newPassword" type="password" autoComplete="new-password" className={inputClass} aria-invalid={!!errors.newPassword} aria-describedby="new-password-error" />
-        <FieldError id="new-password-error" message={errors.newPassword} />
-        <span className="mt-1 block text-xs font-normal text-graphite">At least 10 characters; a few unrelated words work well.</span>
-      </label>
+      <NewPasswordField label="New password" name="newPassword" error={errors.newPassword} />
       <FormError message={errors.form} />
       {done && (
         <p className="text-sm text-verdigris-deep" role="status">

@@ -2,7 +2,7 @@ import { useState, type SubmitEvent } from 'react';
 import { fieldErrors, requestJson, serverErrors } from '../lib/client/api';
 import { signInWithPassword } from '../lib/client/sign-in';
 import { passwordResetConfirmSchema } from '../lib/validation/password-reset';
-import { FieldError, FormError, inputClass, labelClass, primaryButton } from './form-parts';
+import { FormError, NewPasswordField, primaryButton } from './form-parts';
 
 type Errors = Partial<Record<'password' | 'form', string>>;
 
@@ -33,21 +33,7 @@ export default function PasswordResetForm({ token, email }: { token: string; ema
   return (
     <form onSubmit={submit} noValidate className="space-y-4" aria-label="Choose a new password">
       <input type="email" name="email" value={email} autoComplete="username" readOnly hidden />
-      <label className={labelClass}>
-        New password
-        <input
-          name="password"
-          type="password"
-          autoComplete="new-password"
-          className={inputClass}
-          aria-invalid={!!errors.password}
-          aria-describedby="password-hint password-error"
-        />
-        <span id="password-hint" className="mt-1 block text-xs font-normal text-graphite">
-          At least 10 characters; a few unrelated words make a strong one.
-        </span>
-        <FieldError id="password-error" message={errors.password} />
-      </label>
+      <NewPasswordField label="New password" name="password" error={errors.password} />
       <FormError message={errors.form} />
       <button disabled={busy} className={primaryButton + ' w-full'}>
         {busy ? 'Saving…' : 'Set the new password and sign in'}

@@ -17,6 +17,27 @@ export function FieldError({ id, message }: { id: string; message?: string }) {
   ) : null;
 }
 
+/** A field for choosing a password, with the length hint and its error; ids derive from the field name. */
+export function NewPasswordField({ label, name, error }: { label: string; name: string; error?: string }) {
+  return (
+    <label className={labelClass}>
+      {label}
+      <input
+        name={name}
+        type="password"
+        autoComplete="new-password"
+        className={inputClass}
+        aria-invalid={!!error}
+        aria-describedby={`${name}-hint ${name}-error`}
+      />
+      <span id={`${name}-hint`} className="mt-1 block text-xs font-normal text-graphite">
+        At least 10 characters; a few unrelated words make a strong one.
+      </span>
+      <FieldError id={`${name}-error`} message={error} />
+    </label>
+  );
+}
+
 /** An error that belongs to the whole form rather than one field. */
 export function FormError({ message }: { message?: string }) {
   return message ? (

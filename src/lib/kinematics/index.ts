@@ -59,7 +59,7 @@ export {
 export type { FullSolution, SolveWorkspace, SteerAndRoll } from './solve';
 export {
   checkFinger, checkGrasp, clearWarnings, createWarningList, finishWarnings, formatWarning, judgedBasis, judgedRankRatio, judgedSlip, raiseWarning,
-  slipTolerance, SLIP_RELATIVE_TOLERANCE, WARNING_CATALOGUE, worstSeverity,
+  slipTolerance, SLIP_RELATIVE_TOLERANCE, WARNING_CATALOGUE,
 } from './warnings';
 export type { JudgedBasis, SheetWarning, WarningCode, WarningInfo, WarningList, WarningSeverity } from './warnings';
 export { computeGrasp, createGraspResult, createGraspWorkspace } from './grasp';

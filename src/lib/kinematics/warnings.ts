@@ -230,16 +230,6 @@ export function raiseWarning(list: WarningList, code: WarningCode, finger: numbe
   return w;
 }
 
-/** Highest severity among the warnings, or 'none'. */
-export function worstSeverity(warnings: readonly SheetWarning[]): WarningSeverity | 'none' {
-  let rank = 0;
-  for (let i = 0; i < warnings.length; i++) {
-    const r = SEVERITY_RANK[warnings[i].severity];
-    if (r > rank) rank = r;
-  }
-  return SEVERITY_LEVELS[rank];
-}
-
 /** One sentence with the numbers: "finger 'index': <message> (value 0.0004 m, threshold 0.001 m)". */
 export function formatWarning(w: SheetWarning, fingerNames: readonly string[] = []): string {
   const unit = WARNING_CATALOGUE[w.code].unit;

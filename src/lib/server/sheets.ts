@@ -2,7 +2,7 @@ import { and, asc, count, desc, eq, inArray, isNull, like, or, sql, type SQL } f
 import { alias } from 'drizzle-orm/sqlite-core';
 import type { Database } from '../../db';
 import { sheetRevisions, sheets, users } from '../../db/schema';
-import { solveSheet, worstSeverity } from '../kinematics';
+import { solveSheet } from '../kinematics';
 import { parseSheet, type SheetIssue } from '../sheet/schema';
 import type { SheetDocument } from '../sheet/types';
 import type { ListSheetsQuery } from '../validation/sheets';
@@ -18,7 +18,7 @@ export function summarizeSheet(doc: SheetDocument): SheetSummary {
   const result = solveSheet(doc);
   return {
     fingers: doc.hand.fingers.length,
-    worst: worstSeverity(result.warnings),
+    worst: result.worstSeverity,
     warningCodes: [...new Set(result.warnings.map((w) => w.code))].sort(),
   };
 }

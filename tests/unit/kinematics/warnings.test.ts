@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { solveSheet } from '../../../src/lib/kinematics/scene';
 import {
   clearWarnings, createWarningList, finishWarnings, formatWarning, raiseWarning, SEVERITY_LEVELS, slipTolerance, WARNING_CATALOGUE,
-  WARNING_CODES, worstSeverity, type WarningCode,
+  WARNING_CODES, type WarningCode,
 } from '../../../src/lib/kinematics/warnings';
 import type { SheetDocument } from '../../../src/lib/sheet/types';
 import { threeFingerFinger, threeFingerSheet } from './three-finger-sheet';
@@ -60,22 +60,22 @@ describe('raiseWarning', () => {
     raiseWarning(list, 'SLIP_REQUIRED', 1, undefined, 0.2, 0.1);
     raiseWarning(list, 'SLIP_REQUIRED', 2, undefined, 0.3, 0.1);
     expect(WARNING_CODES.filter((_, bit) => (list.mask & (1 << bit)) !== 0)).toEqual(['CONTACT_NEAR_PIVOT_AXIS', 'SLIP_REQUIRED']);
-    expect(SEVERITY_LEVELS[list.worstRank]).toBe(worstSeverity(finishWarnings(list)));
+    expect(list.worstRank).toBe(Math.max(...finishWarnings(list).map((w) => SEVERITY_LEVELS.indexOf(w.severity))));
     expect(SEVERITY_LEVELS[list.worstRank]).toBe('caution');
     clearWarnings(list);
     expect([list.mask, list.worstRank]).toEqual([0, 0]);
   });
 });
 
-describe('worstSeverity', () => {
+describe('worst severity of a warning list', () => {
   it('orders note < caution < singular', () => {
     const list = createWarningList();
-    expect(worstSeverity(finishWarnings(list))).toBe('none');
+    expect(SEVERITY_LEVELS[list.worstRank]).toBe('none');
     raiseWarning(list, 'CONTACT_NEAR_PIVOT_AXIS', 0, 1, 0, 0.001);
-    expect(worstSeverity(finishWarnings(list))).toBe('note');
+    expect(SEVERITY_LEVELS[list.worstRank]).toBe('note');
     raiseWarning(list, 'JACOBIAN_NEAR_RANK_LOSS', 0, undefined, 0, 0.001);
     raiseWarning(list, 'CONTACT_LOST', 0, undefined, 1, 0.001);
-    expect(worstSeverity(finishWarnings(list))).toBe('singular');
+    expect(SEVERITY_LEVELS[list.worstRank]).toBe('singular');
   });
 });
 
