@@ -9,8 +9,7 @@ import { confirmPasswordReset, requestPasswordReset } from '../../../src/lib/ser
 import { addTestMember, ORIGIN } from '../../helpers/api-context';
 import { linkIn, mailsTo, startTestOutbox } from '../../helpers/mail';
 
-// Ending every session when the password changes or is reset is common practice (for example
-// OWASP Session Management Cheat Sheet, "Renew the Session ID After Any Privilege Level Change").
+// Ending every session when the password changes or is reset is common practice.
 
 let smtp: FakeSmtpServer;
 
