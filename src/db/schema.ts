@@ -266,6 +266,36 @@ export const auditEvents = sqliteTable(
   (e) => [index('audit_events_team_idx').on(e.teamId, e.createdAt)],
 );
 
+/**
+ * Sessions ended on the server (signed out) before their cookie expires: a session id listed
+ * here is refused even though its signed cookie is still valid. Rows may go once expired.
+ */
+export const endedSessions = sqliteTable(
+  'ended_sessions',
+  {
+    sessionId: text('session_id').primaryKey(),
+    userId: text('user_id').references(() => users.id, { onDelete: 'cascade' }),
+    expiresAt: integer('expires_at', { mode: 'timestamp_ms' }).notNull(),
+    createdAt: createdAt(),
+  },
+  (s) => [index('ended_sessions_expires_idx').on(s.expiresAt)],
+);
+
+/**
+ * Attempt counters shared by every app instance and kept across restarts (sign-in throttling
+ * per address, per account and per account-and-address; e-mail link requests).
+ */
+export const rateLimits = sqliteTable(
+  'rate_limits',
+  {
+    key: text('key').primaryKey(),
+    hits: integer('hits').notNull(),
+    windowStartedAt: integer('window_started_at', { mode: 'timestamp_ms' }).notNull(),
+    blockedUntil: integer('blocked_until', { mode: 'timestamp_ms' }),
+  },
+  (r) => [index('rate_limits_window_idx').on(r.windowStartedAt)],
+);
+
 export type User = typeof users.$inferSelect;
 export type NewUser = typeof users.$inferInsert;
 export type Team = typeof teams.$inferSelect;
