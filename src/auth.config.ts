@@ -10,8 +10,8 @@ import { accounts, sessions, users, verificationTokens } from './db/schema';
 import { getDatabase } from './lib/server/database';
 import { recordAudit } from './lib/server/audit';
 import { getMemberships } from './lib/server/identity';
-import { verifyPassword } from './lib/server/passwords';
-import { countSignInAttempt, signInRetryAfter } from './lib/server/rate-limit';
+import { dummyPasswordHash, verifyPassword } from './lib/server/passwords';
+import { allowSignInLink, finishSignIn, startSignIn } from './lib/server/rate-limit';
 import { sendMail } from './lib/server/email';
 import { CLIENT_ADDRESS_HEADER } from './consts';
 
@@ -64,32 +64,44 @@ export default defineConfig({
         if (!parsed.success) return null;
         const { email, password } = parsed.data;
         const address = request.headers.get(CLIENT_ADDRESS_HEADER) ?? 'unknown';
-        if ((await signInRetryAfter(email, address)) > 0) {
+        const database = await getDatabase();
+        const started = await startSignIn(database, { email, address });
+        if (!started.ok) {
           await auditSignIn(null, 'auth.sign_in_blocked', address, { email });
           throw new RateLimited();
         }
-        const database = await getDatabase();
         const [user] = await database.db.select().from(users).where(eq(users.email, email));
-        const ok = !!user?.passwordHash && (await verifyPassword(user.passwordHash, password));
-        await countSignInAttempt(email, address, ok);
+        // One argon2 check on every path, so the answer's timing does not tell which addresses have accounts.
+        const matches = await verifyPassword(user?.passwordHash ?? (await dummyPasswordHash()), password);
+        const ok = !!user?.passwordHash && matches;
+        await finishSignIn(database, started.attempt, ok);
         await auditSignIn(user?.id ?? null, ok ? 'auth.sign_in' : 'auth.sign_in_failed', address, { email, method: 'password' });
         return ok ? { id: user.id, email: user.email, name: user.name } : null;
       },
     }),
     Nodemailer({
       server: {},
-      async sendVerificationRequest({ identifier, url }) {
-        await sendMail({
+      // Every request gets the same answer at the same pace: the limits and the account lookup
+      // run for all, and the mail (only to existing accounts) is sent without being waited for.
+      async sendVerificationRequest({ identifier, url, request }) {
+        const database = await getDatabase();
+        const address = request.headers.get(CLIENT_ADDRESS_HEADER) ?? 'unknown';
+        const allowed = await allowSignInLink(database, { email: identifier, address });
+        const [known] = await database.db.select({ id: users.id }).from(users).where(eq(users.email, identifier.toLowerCase()));
+        if (!allowed || !known) return;
+        sendMail({
           to: identifier,
           subject: 'Your Slipless sign-in link',
           text: `Sign in to Slipless with this link (valid for 24 hours, usable once):\n\n${url}\n\nIf you did not ask for it, ignore this e-mail.`,
-        });
+        }).catch((error: Error) => console.error(`Sign-in link mail failed: ${error.message}`));
       },
     }),
   ],
   callbacks: {
     async signIn({ user, email }) {
-      if (!email?.verificationRequest) return true;
+      // A link request gets the same answer for every address (only existing accounts get mail);
+      // following a link, or any other sign-in, needs an existing account.
+      if (email?.verificationRequest) return true;
       const database = await getDatabase();
       const [known] = await database.db.select({ id: users.id }).from(users).where(eq(users.email, String(user.email ?? '').toLowerCase()));
       return !!known;

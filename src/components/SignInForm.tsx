@@ -6,7 +6,7 @@ type FieldErrors = Partial<Record<'email' | 'password' | 'form', string>>;
 const ERROR_TEXT: Record<string, string> = {
   CredentialsSignin: 'That e-mail and password do not match an account.',
   rate_limited: 'Too many attempts. Wait a few minutes, then try again.',
-  AccessDenied: 'No account uses that e-mail address. Ask your team owner for an invitation.',
+  AccessDenied: 'That sign-in link cannot sign you in. Ask your team owner for an invitation.',
   Verification: 'That sign-in link has expired or was already used. Ask for a new one.',
 };
 
@@ -86,7 +86,7 @@ export default function SignInForm({ callbackUrl, initialError }: { callbackUrl:
           <input name="email" type="email" placeholder="name@example.com" className={field + ' mt-0'} aria-label="E-mail for sign-in link" />
           <button disabled={busy} className="shrink-0 border-2 border-ink px-3 text-sm font-semibold hover:bg-paper-deep">Send link</button>
         </div>
-        {linkSent && <p className="text-sm text-verdigris-deep" role="status">Check your inbox: the link works once, for 24 hours.</p>}
+        {linkSent && <p className="text-sm text-verdigris-deep" role="status">If an account uses that address, a sign-in link is on its way: it works once, for 24 hours.</p>}
       </form>
     </div>
   );
