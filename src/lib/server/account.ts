@@ -1,17 +1,24 @@
 import { eq } from 'drizzle-orm';
-import { RateLimiterMemory } from 'rate-limiter-flexible';
 import type { Database } from '../../db';
 import { users } from '../../db/schema';
 import type { Identity } from './access';
 import { recordAudit } from './audit';
 import { hashPassword, verifyPassword } from './passwords';
+import { clearThrottle, hitThrottles, type ThrottleRule } from './rate-limit';
 
 export type PasswordChangeOutcome =
   | { ok: true }
   | { ok: false; status: 400 | 404 | 429; message: string; path?: 'currentPassword' | 'newPassword' };
 
-/** Wrong current passwords allowed per account in the window, so a left-open session cannot be used to guess it. */
-const currentPasswordLimiter = new RateLimiterMemory({ keyPrefix: 'password-change', points: 5, duration: 15 * 60 });
+const PASSWORD_CHANGE_WINDOW_MS = 15 * 60 * 1000;
+/** Wrong current passwords per account: 5, then none for 15 min, so a left-open session cannot be used to guess it. */
+const WRONG_CURRENT_PASSWORD: ThrottleRule = {
+  scope: 'password-change',
+  windowMs: PASSWORD_CHANGE_WINDOW_MS,
+  freeHits: 5,
+  firstDelayMs: PASSWORD_CHANGE_WINDOW_MS,
+  maxDelayMs: PASSWORD_CHANGE_WINDOW_MS,
+};
 
 /**
  * Replaces the user's password after checking the current one and ends every session begun before
@@ -24,21 +31,22 @@ export async function changePassword(
   address: string | null = null,
 ): Promise<PasswordChangeOutcome> {
   const userId = identity.user.id;
-  const attempts = await currentPasswordLimiter.get(userId);
-  if (attempts && attempts.remainingPoints <= 0) {
-    const minutes = Math.ceil(attempts.msBeforeNext / 60_000);
-    return { ok: false, status: 429, message: `Too many wrong passwords. Try again in ${minutes} minute${minutes === 1 ? '' : 's'}.` };
-  }
   const [user] = await database.db.select({ passwordHash: users.passwordHash }).from(users).where(eq(users.id, userId));
   if (!user) return { ok: false, status: 404, message: 'Not found.' };
   if (!user.passwordHash) {
     return { ok: false, status: 400, path: 'currentPassword', message: 'Your account signs in by e-mail link and has no password yet; use the password reset on the sign-in page to set one.' };
   }
+  // Counted as wrong before the check, so parallel guesses cannot all get in under the limit.
+  const throttle = { rule: WRONG_CURRENT_PASSWORD, id: userId };
+  const counted = await hitThrottles(database, [throttle]);
+  if (!counted.ok) {
+    const minutes = Math.ceil(counted.retryAfterMs / 60_000);
+    return { ok: false, status: 429, message: `Too many wrong passwords. Try again in ${minutes} minute${minutes === 1 ? '' : 's'}.` };
+  }
   if (!(await verifyPassword(user.passwordHash, input.currentPassword))) {
-    await currentPasswordLimiter.penalty(userId, 1);
     return { ok: false, status: 400, path: 'currentPassword', message: 'That is not your current password.' };
   }
-  await currentPasswordLimiter.delete(userId);
+  await clearThrottle(database, throttle);
   const passwordHash = await hashPassword(input.newPassword);
   // Every session begun before now ends, this one included; API tokens are separate credentials and stay.
   await database.write((db) => db.update(users).set({ passwordHash, sessionsValidFrom: new Date() }).where(eq(users.id, userId)));

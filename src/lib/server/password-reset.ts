@@ -1,32 +1,29 @@
 import { and, eq, isNull } from 'drizzle-orm';
-import { RateLimiterMemory } from 'rate-limiter-flexible';
 import type { Database } from '../../db';
 import { passwordResets, users } from '../../db/schema';
 import { recordAudit } from './audit';
 import { sendMail } from './email';
 import { getMemberships } from './identity';
 import { hashPassword } from './passwords';
+import { hitThrottles, type ThrottleRule } from './rate-limit';
 import { generateSecretToken, hashSecretToken } from './tokens';
 
 export const PASSWORD_RESET_TOKEN_PREFIX = 'pwr_';
 export const PASSWORD_RESET_LIFETIME_MS = 60 * 60 * 1000;
 
-/** Reset mails per address in the window: enough for a lost mail or two, too few to flood an inbox. */
-const recipientLimiter = new RateLimiterMemory({ keyPrefix: 'password-reset-recipient', points: 3, duration: 15 * 60 });
-/** Reset requests per client address in the window. */
-const clientLimiter = new RateLimiterMemory({ keyPrefix: 'password-reset-client', points: 20, duration: 15 * 60 });
+const RESET_LIMIT_WINDOW_MS = 15 * 60 * 1000;
+/** Reset mails per recipient: 3 back to back (a lost mail or two, too few to flood an inbox), then none for 15 min. */
+const RESET_RECIPIENT: ThrottleRule = {
+  scope: 'reset-recipient',
+  windowMs: RESET_LIMIT_WINDOW_MS,
+  freeHits: 3,
+  firstDelayMs: RESET_LIMIT_WINDOW_MS,
+  maxDelayMs: RESET_LIMIT_WINDOW_MS,
+};
+/** Reset requests per client address: 20 back to back, then none for 15 min. */
+const RESET_ADDRESS: ThrottleRule = { ...RESET_RECIPIENT, scope: 'reset-address', freeHits: 20 };
 
 export type PasswordResetOutcome<T> = { ok: true; value: T } | { ok: false; status: 404 | 410; message: string };
-
-/** True when the limiter still had a point to spend for `key`. */
-async function spend(limiter: RateLimiterMemory, key: string): Promise<boolean> {
-  try {
-    await limiter.consume(key);
-    return true;
-  } catch {
-    return false;
-  }
-}
 
 /**
  * Sends a one-hour, single-use reset link `${origin}/reset-password/<token>` when `email` belongs
@@ -39,7 +36,11 @@ export async function requestPasswordReset(
 ): Promise<void> {
   const now = input.now ?? Date.now();
   const email = input.email.trim().toLowerCase();
-  if (!(await spend(clientLimiter, input.address ?? 'unknown')) || !(await spend(recipientLimiter, email))) return;
+  const throttles = [
+    { rule: RESET_ADDRESS, id: input.address ?? 'unknown' },
+    { rule: RESET_RECIPIENT, id: email },
+  ];
+  if (!(await hitThrottles(database, throttles, now)).ok) return;
   const [user] = await database.db.select({ id: users.id }).from(users).where(eq(users.email, email));
   if (!user) return;
 

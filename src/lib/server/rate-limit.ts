@@ -110,6 +110,11 @@ async function refundOne(database: Database, throttle: Throttle): Promise<void> 
   );
 }
 
+/** Forgets every hit on a throttle. */
+export async function clearThrottle(database: Database, throttle: Throttle): Promise<void> {
+  await database.write((db) => db.delete(rateLimits).where(eq(rateLimits.key, keyOf(throttle))));
+}
+
 /** Deletes a rule's rows whose window and block are both over, at most every PRUNE_INTERVAL_MS. */
 async function pruneRule(database: Database, rule: ThrottleRule, now: number): Promise<void> {
   const pruned = lastPruned.get(database) ?? new Map<string, number>();
@@ -192,9 +197,7 @@ export async function finishSignIn(database: Database, attempt: SignInAttempt, s
   if (!succeeded) return;
   const pair = `${attempt.email}|${attempt.address}`;
   for (const throttle of attempt.counted) if (throttle.rule !== SIGN_IN_ACCOUNT_ADDRESS) await refundOne(database, throttle);
-  await database.write((db) =>
-    db.delete(rateLimits).where(eq(rateLimits.key, keyOf({ rule: SIGN_IN_ACCOUNT_ADDRESS, id: pair }))),
-  );
+  await clearThrottle(database, { rule: SIGN_IN_ACCOUNT_ADDRESS, id: pair });
   const known = keyOf({ rule: SIGN_IN_KNOWN_ADDRESS, id: pair });
   await database.write((db) =>
     db

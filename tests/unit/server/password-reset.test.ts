@@ -1,5 +1,5 @@
 import { and, eq } from 'drizzle-orm';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { auditEvents, passwordResets, users } from '../../../src/db/schema';
 import { getDatabase } from '../../../src/lib/server/database';
 import type { FakeSmtpServer } from '../../../src/lib/server/fake-smtp';
@@ -95,6 +95,16 @@ describe('password reset', () => {
     for (let i = 0; i < 5; i++) await requestPasswordReset(database, { email: member.email, origin: ORIGIN, address: `flood-${i}` });
     expect(await mailsTo(member.email)).toHaveLength(3);
   });
+
+  it('keeps counting reset mails across a restart of the app', async () => {
+    const database = await getDatabase();
+    const member = await addTestMember('viewer');
+    for (let i = 0; i < 3; i++) await requestPasswordReset(database, { email: member.email, origin: ORIGIN, address: `before-restart-${i}` });
+    vi.resetModules();
+    const restarted = await import('../../../src/lib/server/password-reset');
+    await restarted.requestPasswordReset(database, { email: member.email, origin: ORIGIN, address: 'after-restart' });
+    expect(await mailsTo(member.email)).toHaveLength(3);
+  });
 });
 
 describe('password reset routes', () => {
@@ -112,6 +122,11 @@ describe('password reset routes', () => {
     expect(linkIn(mail.text, '/reset-password/').origin).toBe(ORIGIN);
     await new Promise((r) => setTimeout(r, 200));
     expect(await mailsTo(unknown)).toEqual([]);
+
+    for (let i = 0; i < 4; i++) {
+      const limited = await callRoute(requestRoute, { method: 'POST', path: '/api/account/password-reset', body: { email: member.email } });
+      expect({ status: limited.status, body: await limited.json() }).toEqual(answers[0]);
+    }
 
     const bad = await callRoute(requestRoute, { method: 'POST', path: '/api/account/password-reset', body: { email: 'nope' } });
     expect(bad.status).toBe(400);
