@@ -5,7 +5,7 @@ import { recordAudit } from './audit';
 import { sendMail } from './email';
 import { getMemberships } from './identity';
 import { hashPassword } from './passwords';
-import { hitThrottles, type ThrottleRule } from './rate-limit';
+import { addressBlock, hitThrottles, type ThrottleRule } from './rate-limit';
 import { generateSecretToken, hashSecretToken } from './tokens';
 
 export const PASSWORD_RESET_TOKEN_PREFIX = 'pwr_';
@@ -37,7 +37,7 @@ export async function requestPasswordReset(
   const now = input.now ?? Date.now();
   const email = input.email.trim().toLowerCase();
   const throttles = [
-    { rule: RESET_ADDRESS, id: input.address ?? 'unknown' },
+    { rule: RESET_ADDRESS, id: addressBlock(input.address ?? 'unknown') },
     { rule: RESET_RECIPIENT, id: email },
   ];
   if (!(await hitThrottles(database, throttles, now)).ok) return;

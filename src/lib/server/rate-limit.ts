@@ -158,8 +158,24 @@ export async function hitThrottles(database: Database, throttles: readonly Throt
 /** A password sign-in under way: counted as failed until `finishSignIn` says otherwise. */
 export interface SignInAttempt {
   readonly email: string;
+  /** The client's address block (see addressBlock). */
   readonly address: string;
   readonly counted: readonly Throttle[];
+}
+
+/**
+ * The part of a client address one party holds: IPv4 as is (also when IPv4-mapped), IPv6 by its
+ * /64, since one host or home network commonly gets a whole /64 and could step through it.
+ */
+export function addressBlock(address: string): string {
+  const v4 = /^(?:::ffff:)?(\d{1,3}(?:\.\d{1,3}){3})$/i.exec(address);
+  if (v4) return v4[1];
+  if (!address.includes(':')) return address;
+  const [head, tail] = address.split('%')[0].toLowerCase().split('::');
+  const left = head ? head.split(':') : [];
+  const right = tail ? tail.split(':') : [];
+  const groups = [...left, ...Array<string>(Math.max(0, 8 - left.length - right.length)).fill('0'), ...right];
+  return `${groups.slice(0, 4).map((g) => g.replace(/^0+(?=.)/, '')).join(':')}::/64`;
 }
 
 function accountId(email: string): string {
@@ -178,18 +194,19 @@ export async function startSignIn(
   now = Date.now(),
 ): Promise<{ ok: true; attempt: SignInAttempt } | { ok: false; retryAfterMs: number }> {
   const email = accountId(input.email);
-  const known = { rule: SIGN_IN_KNOWN_ADDRESS, id: `${email}|${input.address}` };
+  const address = addressBlock(input.address);
+  const known = { rule: SIGN_IN_KNOWN_ADDRESS, id: `${email}|${address}` };
   const [row] = await database.db
     .select({ at: rateLimits.windowStartedAt })
     .from(rateLimits)
     .where(and(eq(rateLimits.key, keyOf(known)), gte(rateLimits.windowStartedAt, new Date(now - SIGN_IN_KNOWN_ADDRESS.windowMs))));
   const counted: Throttle[] = [
-    { rule: SIGN_IN_ADDRESS, id: input.address },
-    { rule: SIGN_IN_ACCOUNT_ADDRESS, id: `${email}|${input.address}` },
+    { rule: SIGN_IN_ADDRESS, id: address },
+    { rule: SIGN_IN_ACCOUNT_ADDRESS, id: `${email}|${address}` },
     ...(row ? [] : [{ rule: SIGN_IN_ACCOUNT, id: email }]),
   ];
   const outcome = await hitThrottles(database, counted, now);
-  return outcome.ok ? { ok: true, attempt: { email, address: input.address, counted } } : outcome;
+  return outcome.ok ? { ok: true, attempt: { email, address, counted } } : outcome;
 }
 
 /** Settles a started sign-in: a success takes its hits back, clears its account-and-address count and remembers the address. */
@@ -211,7 +228,7 @@ export async function finishSignIn(database: Database, attempt: SignInAttempt, s
 /** True when a sign-in link may be mailed to `email` for a request from `address`; counts the request. */
 export async function allowSignInLink(database: Database, input: { email: string; address: string }, now = Date.now()): Promise<boolean> {
   const throttles = [
-    { rule: LINK_REQUEST_ADDRESS, id: input.address },
+    { rule: LINK_REQUEST_ADDRESS, id: addressBlock(input.address) },
     { rule: LINK_REQUEST_RECIPIENT, id: accountId(input.email) },
   ];
   return (await hitThrottles(database, throttles, now)).ok;

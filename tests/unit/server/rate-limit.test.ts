@@ -119,6 +119,17 @@ describe('sign-in throttling kept in the database', () => {
     expect(attempts.filter((a) => a.ok)).toHaveLength(SIGN_IN_ACCOUNT_ADDRESS.freeHits);
   });
 
+  it('counts IPv6 addresses by their /64, which one host or home network commonly holds whole, and IPv4-mapped ones as IPv4', async () => {
+    const database = await open(tempDatabaseUrl(), true);
+    const email = 'owner@team.example';
+    for (let i = 1; i <= SIGN_IN_ACCOUNT_ADDRESS.freeHits; i++) expect((await failSignIn(database, email, `2001:db8:1:2::${i}`, T0)).ok).toBe(true);
+    expect(await startSignIn(database, { email, address: '2001:0db8:0001:0002:ffff:0:0:9' }, T0)).toMatchObject({ ok: false });
+    expect((await startSignIn(database, { email, address: '2001:db8:1:3::1' }, T0)).ok).toBe(true);
+
+    for (let i = 0; i < SIGN_IN_ACCOUNT_ADDRESS.freeHits; i++) await failSignIn(database, email, '::ffff:198.51.100.7', T0);
+    expect(await startSignIn(database, { email, address: '198.51.100.7' }, T0)).toMatchObject({ ok: false });
+  });
+
   it('counts an address over every account it tries', async () => {
     const database = await open(tempDatabaseUrl(), true);
     for (let i = 0; i < SIGN_IN_ADDRESS.freeHits; i++) expect((await failSignIn(database, `user${i}@team.example`, '203.0.113.66', T0)).ok).toBe(true);
