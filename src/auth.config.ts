@@ -22,6 +22,9 @@ declare module '@auth/core/types' {
   }
 }
 
+/** Sign-in link mails wait this long, past the answer to the request, so mailing an existing account does not slow that answer. */
+const LINK_MAIL_DELAY_MS = 1_000;
+
 class RateLimited extends CredentialsSignin {
   code = 'rate_limited';
 }
@@ -82,18 +85,19 @@ export default defineConfig({
     Nodemailer({
       server: {},
       // Every request gets the same answer at the same pace: the limits and the account lookup
-      // run for all, and the mail (only to existing accounts) is sent without being waited for.
+      // run for all, and the mail (only to existing accounts) starts once the answer is out.
       async sendVerificationRequest({ identifier, url, request }) {
         const database = await getDatabase();
         const address = request.headers.get(CLIENT_ADDRESS_HEADER) ?? 'unknown';
         const allowed = await allowSignInLink(database, { email: identifier, address });
         const [known] = await database.db.select({ id: users.id }).from(users).where(eq(users.email, identifier.toLowerCase()));
         if (!allowed || !known) return;
-        sendMail({
+        const mail = {
           to: identifier,
           subject: 'Your Slipless sign-in link',
           text: `Sign in to Slipless with this link (valid for 24 hours, usable once):\n\n${url}\n\nIf you did not ask for it, ignore this e-mail.`,
-        }).catch((error: Error) => console.error(`Sign-in link mail failed: ${error.message}`));
+        };
+        setTimeout(() => sendMail(mail).catch((error: Error) => console.error(`Sign-in link mail failed: ${error.message}`)), LINK_MAIL_DELAY_MS);
       },
     }),
   ],
