@@ -1,6 +1,7 @@
 import { eq } from 'drizzle-orm';
 import { afterAll, beforeAll, beforeEach, describe, expect, it, vi } from 'vitest';
-import { users } from '../../../../src/db/schema';
+import { createHash } from 'node:crypto';
+import { users, verificationTokens } from '../../../../src/db/schema';
 import { getDatabase } from '../../../../src/lib/server/database';
 import type { FakeSmtpServer } from '../../../../src/lib/server/fake-smtp';
 import { verifyPassword } from '../../../../src/lib/server/passwords';
@@ -81,6 +82,24 @@ describe('e-mail sign-in link', () => {
     await settle();
     expect(await mailsTo(unknown)).toEqual([]);
     const database = await getDatabase();
+    expect(await database.db.select().from(users).where(eq(users.email, unknown))).toEqual([]);
+  });
+
+  it('creates no account from a link for an address without one', async () => {
+    // Link requests for unknown addresses now store an (unsent) token too; following one must not make an account.
+    const unknown = unique('nobody');
+    const token = crypto.randomUUID();
+    const database = await getDatabase();
+    await database.write((db) =>
+      db.insert(verificationTokens).values({
+        identifier: unknown,
+        token: createHash('sha256').update(`${token}${process.env.AUTH_SECRET}`).digest('hex'),
+        expires: new Date(Date.now() + 60_000),
+      }),
+    );
+    const link = `${ORIGIN}/api/auth/callback/nodemailer?${new URLSearchParams({ callbackUrl: `${ORIGIN}/`, token, email: unknown })}`;
+    const followed = await authGet({ request: new Request(link), cookies: cookieJar(), clientAddress: '192.0.2.22' } as never);
+    expect(followed.headers.get('location')).toMatch(/\/sign-in\?error=AccessDenied/);
     expect(await database.db.select().from(users).where(eq(users.email, unknown))).toEqual([]);
   });
 
