@@ -86,7 +86,7 @@ describe('e-mail sign-in link', () => {
   });
 
   it('creates no account from a link for an address without one', async () => {
-    // Link requests for unknown addresses now store an (unsent) token too; following one must not make an account.
+    // A link request for an unknown address stores a token too (never mailed); following one must not make an account.
     const unknown = unique('nobody');
     const token = crypto.randomUUID();
     const database = await getDatabase();
