@@ -42,10 +42,16 @@ export function mailboxDir(): string {
   return inject('mailboxDir');
 }
 
+/** DATABASE_URL of the app that tests/e2e/server.ts started. */
+export function appDatabaseUrl(): string {
+  return inject('databaseUrl');
+}
+
 declare module 'vitest' {
   export interface ProvidedContext {
     baseUrl: string;
     mailboxDir: string;
+    databaseUrl: string;
   }
 }
 
