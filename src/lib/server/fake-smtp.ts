@@ -1,7 +1,10 @@
 import { randomUUID } from 'node:crypto';
-import { mkdir, writeFile } from 'node:fs/promises';
+import { createReadStream, createWriteStream } from 'node:fs';
+import { mkdir, rename } from 'node:fs/promises';
 import type { AddressInfo } from 'node:net';
 import { join, resolve } from 'node:path';
+import type { Readable } from 'node:stream';
+import { pipeline } from 'node:stream/promises';
 import { simpleParser } from 'mailparser';
 import { SMTPServer } from 'smtp-server';
 import { DEFAULT_MAILBOX_DIR } from '../../consts';
@@ -55,12 +58,15 @@ export async function startFakeSmtp(database: Database, options: FakeSmtpOptions
   const log = options.log ?? ((entry: string) => console.log(entry));
   await mkdir(mailboxDir, { recursive: true, mode: 0o700 });
 
-  async function keep(raw: Buffer, recipients: string): Promise<void> {
-    const mail = await simpleParser(raw);
+  async function keep(message: Readable, recipients: string): Promise<void> {
+    const file = join(mailboxDir, mailFileName(recipients));
+    // Written under another name first, so whoever watches the folder never opens half a mail.
+    const partial = `${file}.part`;
+    await pipeline(message, createWriteStream(partial, { mode: 0o600 }));
+    await rename(partial, file);
+    const mail = await simpleParser(createReadStream(file));
     const subject = mail.subject ?? '';
     const text = mail.text ?? '';
-    const file = join(mailboxDir, mailFileName(recipients));
-    await writeFile(file, raw, { mode: 0o600 });
     await database.write((db) =>
       db.insert(mailOutbox).values({ to: recipients, subject, text, html: typeof mail.html === 'string' ? mail.html : null }),
     );
@@ -76,12 +82,7 @@ export async function startFakeSmtp(database: Database, options: FakeSmtpOptions
     banner: 'Slipless local mailbox',
     onData(stream, session, callback) {
       const recipients = session.envelope.rcptTo.map((r) => r.address).join(', ');
-      const chunks: Buffer[] = [];
-      stream.on('data', (chunk: Buffer) => chunks.push(chunk));
-      stream.once('error', (error) => callback(error));
-      stream.once('end', () => {
-        keep(Buffer.concat(chunks), recipients).then(() => callback(), (error: Error) => callback(error));
-      });
+      keep(stream, recipients).then(() => callback(), (error: Error) => callback(error));
     },
   });
   return new Promise((resolveServer, reject) => {
