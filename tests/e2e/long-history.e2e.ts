@@ -61,6 +61,12 @@ describe('sheets too big to show at once', () => {
     console.log(`history page with ${REVISIONS + 1} revisions: ${html.bytes} bytes in ${html.ms} ms`);
     expect(html.bytes).toBeLessThan(300_000);
 
+    const compare = await timedGet(`/sheets/${sheetId}/compare?from=1&to=${REVISIONS + 1}`);
+    console.log(`compare page of r1 and r${REVISIONS + 1}: ${compare.bytes} bytes in ${compare.ms} ms`);
+    expect(compare.status).toBe(200);
+    expect(compare.bytes).toBeLessThan(300_000);
+    expect(compare.text).toMatch(/<option value="1" selected[^>]*>r1<\/option>/);
+
     const page = await editor.newPage();
     await page.goto(`${baseUrl()}/sheets/${sheetId}/history`, { waitUntil: 'networkidle' });
     const rows = page.locator('tr[data-revision]');
