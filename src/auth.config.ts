@@ -9,7 +9,7 @@ import { passwordSignInSchema } from './lib/validation/auth';
 import { accounts, sessions, users, verificationTokens } from './db/schema';
 import { getDatabase } from './lib/server/database';
 import { recordAudit } from './lib/server/audit';
-import { getMemberships } from './lib/server/identity';
+import { endSession, getMemberships } from './lib/server/identity';
 import { dummyPasswordHash, verifyPassword } from './lib/server/passwords';
 import { allowSignInLink, finishSignIn, startSignIn } from './lib/server/rate-limit';
 import { sendMail } from './lib/server/email';
@@ -19,11 +19,14 @@ declare module '@auth/core/types' {
   interface Session {
     /** When the session began (ms since the epoch); 0 for sessions begun before this was recorded. */
     signedInAt?: number;
+    /** Random id of the session, recorded at sign-out so the cookie stops working (ended_sessions). */
+    sessionId?: string;
   }
 }
 
 /** Sign-in link mails wait this long, past the answer to the request, so mailing an existing account does not slow that answer. */
 const LINK_MAIL_DELAY_MS = 1_000;
+const SESSION_MAX_AGE_S = 30 * 24 * 60 * 60;
 
 class RateLimited extends CredentialsSignin {
   code = 'rate_limited';
@@ -56,7 +59,7 @@ async function auditSignIn(userId: string | null, action: string, address: strin
 export default defineConfig({
   secret: process.env.AUTH_SECRET,
   trustHost: true,
-  session: { strategy: 'jwt', maxAge: 30 * 24 * 60 * 60 },
+  session: { strategy: 'jwt', maxAge: SESSION_MAX_AGE_S },
   adapter: await queuedAdapter(),
   pages: { signIn: '/sign-in', verifyRequest: '/sign-in/check-email', error: '/sign-in' },
   providers: [
@@ -112,9 +115,11 @@ export default defineConfig({
     },
     jwt({ token, user }) {
       // The sign-in time lets a password change or reset end every session begun before it (users.sessionsValidFrom).
+      // The session id, kept across refreshes, lets sign-out end this one session on the server.
       if (user?.id) {
         token.sub = user.id;
         token.signedInAt = Date.now();
+        token.sid = crypto.randomUUID();
       }
       return token;
     },
@@ -123,6 +128,7 @@ export default defineConfig({
         expires: session.expires,
         user: { id: token.sub ?? '', email: session.user?.email ?? '', name: session.user?.name ?? null },
         signedInAt: typeof token.signedInAt === 'number' ? token.signedInAt : 0,
+        sessionId: typeof token.sid === 'string' ? token.sid : undefined,
       } as typeof session;
     },
   },
@@ -132,6 +138,10 @@ export default defineConfig({
     },
     async signOut(message) {
       const token = 'token' in message ? message.token : null;
+      if (typeof token?.sid === 'string') {
+        const expiresAt = new Date(typeof token.exp === 'number' ? token.exp * 1000 : Date.now() + SESSION_MAX_AGE_S * 1000);
+        await endSession(await getDatabase(), { sessionId: token.sid, userId: token.sub ?? null, expiresAt });
+      }
       if (token?.sub) await auditSignIn(token.sub, 'auth.sign_out', 'session', {});
     },
   },

@@ -13,7 +13,8 @@ async function sessionIdentity(request: Request): Promise<Identity | null> {
   try {
     const session = await getSession(request);
     const userId = (session?.user as { id?: string } | undefined)?.id;
-    return userId ? await identityForUser(await getDatabase(), userId, session?.signedInAt ?? 0) : null;
+    // A session without an id began before sign-out was recorded on the server and could outlive a sign-out, so it counts as signed out.
+    return userId && session?.sessionId ? await identityForUser(await getDatabase(), userId, session.signedInAt ?? 0, session.sessionId) : null;
   } catch (error) {
     if (!staleSessionReported) {
       staleSessionReported = true;

@@ -1,5 +1,6 @@
 import { spawn } from 'node:child_process';
 import { existsSync } from 'node:fs';
+import { makeTempDir } from '../helpers/temp';
 
 /** A running copy of the built app. */
 export interface AppProcess {
@@ -17,7 +18,14 @@ export async function startApp(options: { port: number; databaseUrl: string; env
   const baseUrl = `http://127.0.0.1:${options.port}`;
   let output = '';
   const child = spawn('node_modules/.bin/tsx', ['src/cli/start.ts'], {
-    env: { ...(options.env ?? process.env), PORT: String(options.port), HOST: '127.0.0.1', DATABASE_URL: options.databaseUrl },
+    env: {
+      // Mail goes to a fresh folder unless the caller names one, so a test run never fills the working copy's data/mail.
+      MAILBOX_DIR: makeTempDir('slipless-mailbox-'),
+      ...(options.env ?? process.env),
+      PORT: String(options.port),
+      HOST: '127.0.0.1',
+      DATABASE_URL: options.databaseUrl,
+    },
     stdio: ['ignore', 'pipe', 'pipe'],
   });
   child.stdout?.on('data', (chunk) => (output += chunk));

@@ -37,9 +37,21 @@ export async function saveScreenshot(page: Page, name: string): Promise<string> 
   return path;
 }
 
+/** The folder where the app that tests/e2e/server.ts started writes every mail it sends. */
+export function mailboxDir(): string {
+  return inject('mailboxDir');
+}
+
+/** DATABASE_URL of the app that tests/e2e/server.ts started. */
+export function appDatabaseUrl(): string {
+  return inject('databaseUrl');
+}
+
 declare module 'vitest' {
   export interface ProvidedContext {
     baseUrl: string;
+    mailboxDir: string;
+    databaseUrl: string;
   }
 }
 

@@ -14,12 +14,32 @@ async function recordStart(database: Database): Promise<void> {
   );
 }
 
+const LOOPBACK_HOSTS = new Set(['', 'localhost', '127.0.0.1', '::1']);
+
+/**
+ * The warning for a secret kept in the database of an install that others use: marked
+ * production, listening beyond loopback, or sending real mail. Whoever reads the database or a
+ * backup of it could then sign session cookies for any account. Null for a local install.
+ */
+export function authSecretWarning(env: NodeJS.ProcessEnv): string | null {
+  const shared = env.NODE_ENV === 'production' || !LOOPBACK_HOSTS.has(env.HOST?.trim() ?? '') || !!env.SMTP_HOST?.trim();
+  if (!shared) return null;
+  return (
+    'Slipless: AUTH_SECRET is not set, so the key that signs session cookies is kept in the database; anyone who can read ' +
+    'the database or a backup of it can sign in as anyone. Set AUTH_SECRET (32 random bytes, e.g. `openssl rand -base64 32`) ' +
+    'from your secret manager or service environment.'
+  );
+}
+
 /**
  * The secret that signs session cookies: AUTH_SECRET when set, else one generated once and kept
- * in the database, so sessions survive restarts without any setup.
+ * in the database, so sessions survive restarts without any setup (with a warning on an install
+ * that others use).
  */
 export async function ensureAuthSecret(database: Database): Promise<string> {
   if (process.env.AUTH_SECRET) return process.env.AUTH_SECRET;
+  const warning = authSecretWarning(process.env);
+  if (warning) console.warn(warning);
   await database.write((db) =>
     db.insert(appMeta).values({ key: 'auth_secret', value: randomBytes(32).toString('base64url') }).onConflictDoNothing(),
   );

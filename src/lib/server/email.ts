@@ -25,14 +25,6 @@ export function smtpSettings() {
   };
 }
 
-/**
- * True when mail is caught by the local fake SMTP server (no relay configured by the operator),
- * so the team owner's outbox page is the only place it can be read.
- */
-export function usesLocalOutbox(): boolean {
-  return process.env[FAKE_SMTP_FLAG] === '1' || !process.env.SMTP_HOST;
-}
-
 let inProcessFake: Promise<FakeSmtpServer> | undefined;
 
 /**

@@ -1,6 +1,6 @@
-import { and, eq, isNull } from 'drizzle-orm';
+import { and, eq, isNull, lt, sql } from 'drizzle-orm';
 import type { Database } from '../../db';
-import { apiTokens, memberships, teams, users } from '../../db/schema';
+import { apiTokens, endedSessions, memberships, teams, users } from '../../db/schema';
 import { roleWithin, type Identity, type TeamMembership } from './access';
 import { API_TOKEN_PREFIX, hashSecretToken } from './tokens';
 
@@ -17,17 +17,36 @@ export async function getMemberships(database: Database, userId: string): Promis
 }
 
 /**
- * The identity of a user signed in at signedInAt (ms since the epoch), or null when the user no
- * longer exists or the session began before the password last changed or was reset.
+ * The identity of a user signed in at signedInAt (ms since the epoch) in session `sessionId`, or
+ * null when the user no longer exists, the session was signed out, or it began before the
+ * password last changed or was reset.
  */
-export async function identityForUser(database: Database, userId: string, signedInAt: number): Promise<Identity | null> {
+export async function identityForUser(database: Database, userId: string, signedInAt: number, sessionId?: string): Promise<Identity | null> {
   const [user] = await database.db
-    .select({ id: users.id, email: users.email, name: users.name, sessionsValidFrom: users.sessionsValidFrom })
+    .select({
+      id: users.id,
+      email: users.email,
+      name: users.name,
+      sessionsValidFrom: users.sessionsValidFrom,
+      ended: sessionId ? sql<number>`exists (select 1 from ${endedSessions} where ${endedSessions.sessionId} = ${sessionId})` : sql<number>`0`,
+    })
     .from(users)
     .where(eq(users.id, userId));
-  if (!user?.email) return null;
+  if (!user?.email || user.ended) return null;
   if (user.sessionsValidFrom && signedInAt < user.sessionsValidFrom.getTime()) return null;
   return { user: { id: user.id, email: user.email, name: user.name }, via: 'session', memberships: await getMemberships(database, user.id) };
+}
+
+/**
+ * Ends a session on the server, so a copy of its cookie stops working although the cookie itself
+ * stays valid until it expires. Records of sessions past their expiry are dropped on the way:
+ * their cookies are refused anyway.
+ */
+export async function endSession(database: Database, session: { sessionId: string; userId: string | null; expiresAt: Date }): Promise<void> {
+  await database.transaction(async (tx) => {
+    await tx.delete(endedSessions).where(lt(endedSessions.expiresAt, new Date()));
+    await tx.insert(endedSessions).values(session).onConflictDoNothing();
+  });
 }
 
 /**

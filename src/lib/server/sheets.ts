@@ -1,11 +1,11 @@
-import { and, asc, count, desc, eq, inArray, isNull, like, or, sql, type SQL } from 'drizzle-orm';
+import { and, asc, count, desc, eq, inArray, isNull, or, sql, type SQL } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/sqlite-core';
 import type { Database } from '../../db';
 import { sheetRevisions, sheets, users } from '../../db/schema';
 import { solveSheet } from '../kinematics';
 import { parseSheet, type SheetIssue } from '../sheet/schema';
 import type { SheetDocument } from '../sheet/types';
-import type { ListSheetsQuery } from '../validation/sheets';
+import type { ListRevisionsQuery, ListSheetsQuery } from '../validation/sheets';
 
 export interface SheetSummary {
   fingers: number;
@@ -135,22 +135,28 @@ export async function getRevision(database: Database, sheetId: string, number: n
   return row ? { ...row.revision, authorName: row.authorName } : null;
 }
 
-/** Every revision of a sheet, newest first, without the inputs. */
-export async function listRevisions(database: Database, sheetId: string) {
-  return database.db
-    .select({
-      number: sheetRevisions.number,
-      parentRevision: sheetRevisions.parentRevision,
-      message: sheetRevisions.message,
-      summary: sheetRevisions.summary,
-      authorId: sheetRevisions.authorId,
-      authorName: users.name,
-      createdAt: sheetRevisions.createdAt,
-    })
-    .from(sheetRevisions)
-    .leftJoin(users, eq(users.id, sheetRevisions.authorId))
-    .where(eq(sheetRevisions.sheetId, sheetId))
-    .orderBy(desc(sheetRevisions.number));
+/** One page of a sheet's revisions, newest first, without the inputs; with the total and the next page (null on the last). */
+export async function listRevisions(database: Database, sheetId: string, { page, pageSize }: ListRevisionsQuery) {
+  const [items, [{ total }]] = await Promise.all([
+    database.db
+      .select({
+        number: sheetRevisions.number,
+        parentRevision: sheetRevisions.parentRevision,
+        message: sheetRevisions.message,
+        summary: sheetRevisions.summary,
+        authorId: sheetRevisions.authorId,
+        authorName: users.name,
+        createdAt: sheetRevisions.createdAt,
+      })
+      .from(sheetRevisions)
+      .leftJoin(users, eq(users.id, sheetRevisions.authorId))
+      .where(eq(sheetRevisions.sheetId, sheetId))
+      .orderBy(desc(sheetRevisions.number))
+      .limit(pageSize)
+      .offset((page - 1) * pageSize),
+    database.db.select({ total: count() }).from(sheetRevisions).where(eq(sheetRevisions.sheetId, sheetId)),
+  ]);
+  return { items, total, page, pageSize, nextPage: page * pageSize < total ? page + 1 : null };
 }
 
 /** Copies one revision of a sheet into a new sheet of `targetTeamId` (same or another team) that remembers its origin. */
@@ -204,7 +210,9 @@ export async function listSheets(database: Database, query: ListSheetsQuery) {
   const filters: SQL[] = [eq(sheets.teamId, query.team), isNull(sheets.deletedAt)];
   if (query.q) {
     const pattern = `%${query.q.replace(/[%_]/g, (c) => `\\${c}`)}%`;
-    filters.push(or(like(sheets.title, pattern), sql`EXISTS (SELECT 1 FROM json_each(${sheets.tags}) WHERE value LIKE ${pattern} ESCAPE '\\')`)!);
+    filters.push(
+      or(sql`${sheets.title} LIKE ${pattern} ESCAPE '\\'`, sql`EXISTS (SELECT 1 FROM json_each(${sheets.tags}) WHERE value LIKE ${pattern} ESCAPE '\\')`)!,
+    );
   }
   if (query.author) filters.push(eq(sheets.createdBy, query.author));
   if (query.warnings === 'clean') filters.push(sql`json_extract(${latest.summary}, '$.worst') = 'none'`);

@@ -6,9 +6,23 @@
 import type { PlainSheetResult } from '../kinematics/index';
 import type { SheetDocument } from './types';
 
+function numberText(value: number): string {
+  return Number.isFinite(value) ? String(value) : Number.isNaN(value) ? 'NaN' : value > 0 ? 'Infinity' : '-Infinity';
+}
+
+/**
+ * Text such as a finger name is the sheet author's; a spreadsheet would run it as a formula when
+ * it starts with = + - @ tab or carriage return, so it gets a leading quote (OWASP CSV injection
+ * guidance). Numbers are written as numbers, so a negative rate stays a number.
+ */
+function textCell(value: unknown): string {
+  const text = String(value ?? '');
+  return /^[=+\-@\t\r]/.test(text) ? `'${text}` : text;
+}
+
 function csvCell(value: unknown): string {
-  const text = typeof value === 'number' ? (Number.isFinite(value) ? String(value) : Number.isNaN(value) ? 'NaN' : value > 0 ? 'Infinity' : '-Infinity') : String(value ?? '');
-  return /[",\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
+  const text = typeof value === 'number' ? numberText(value) : textCell(value);
+  return /[",\r\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
 }
 
 /** A header and rows as CSV text, quoted where needed, without a trailing newline. */

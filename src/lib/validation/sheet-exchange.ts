@@ -18,6 +18,15 @@ export const exportQuery = z.object({
   format: z.enum(EXPORT_FORMATS, { error: 'Choose json or csv.' }).default('json'),
 });
 
+/**
+ * The report page: a revision (the latest when absent) and the finger whose derivation it shows
+ * (the first when absent); one finger at a time keeps the report of a large hand small.
+ */
+export const reportQuery = z.object({
+  revision: revisionNumber.optional(),
+  derivation: z.coerce.number().int().min(0).default(0),
+});
+
 /** POST /api/sheets/import: a sheet file's text for a team, as JSON or as multipart form fields. */
 export const importBody = z.object({
   teamId: z.string({ error: 'Choose the team to import into.' }).min(1, 'Choose the team to import into.'),

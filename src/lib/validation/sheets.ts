@@ -41,3 +41,12 @@ export const listSheetsQuery = z.object({
   pageSize: z.coerce.number().int().min(1).max(100).default(20),
 });
 export type ListSheetsQuery = z.infer<typeof listSheetsQuery>;
+
+export const REVISION_PAGE_SIZE = 50;
+
+/** A page of a sheet's revision history; the size is capped so one request stays small whatever the history's length. */
+export const listRevisionsQuery = z.object({
+  page: z.coerce.number().int().min(1).max(1_000_000).default(1),
+  pageSize: z.coerce.number().int().min(1).max(100).default(REVISION_PAGE_SIZE),
+});
+export type ListRevisionsQuery = z.infer<typeof listRevisionsQuery>;

@@ -13,13 +13,13 @@ describe('demo sheets seeded into the run database', () => {
     const all = await database.db.select().from(sheets).where(eq(sheets.teamId, teamId));
     const byTitle = (title: string) => all.find((s) => s.title === title)!;
     const peg = byTitle('Peg: tilt about the grip line');
-    const pegRevisions = await listRevisions(database, peg.id);
+    const { items: pegRevisions } = await listRevisions(database, peg.id, { page: 1, pageSize: 50 });
     expect(pegRevisions.map((r) => r.number)).toEqual([3, 2, 1]);
     expect(new Set(pegRevisions.map((r) => r.message)).size).toBe(3);
 
     const forks = await listForks(database, peg.id, [teamId]);
     expect(forks).toEqual([expect.objectContaining({ title: 'Peg: tilt with 16 mm rollers', forkedFromRevision: 3, latestRevision: 2 })]);
-    const fork = await listRevisions(database, forks[0].id);
+    const { items: fork } = await listRevisions(database, forks[0].id, { page: 1, pageSize: 50 });
     expect(fork.at(-1)?.message).toBe('Forked from revision 3');
 
     const retrofit = byTitle('Retrofit fingers: mounting review');
@@ -32,7 +32,9 @@ describe('demo sheets seeded into the run database', () => {
     const all = await database.db.select().from(sheets).where(eq(sheets.teamId, teamId));
     const codes = new Set<string>();
     for (const sheet of all) {
-      const [latest] = await listRevisions(database, sheet.id);
+      const {
+        items: [latest],
+      } = await listRevisions(database, sheet.id, { page: 1, pageSize: 1 });
       for (const code of (latest.summary as { warningCodes: string[] }).warningCodes) codes.add(code);
     }
     expect([...codes].sort()).toEqual(Object.keys(WARNING_CATALOGUE).sort());

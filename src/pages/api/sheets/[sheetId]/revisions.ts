@@ -2,16 +2,18 @@ import type { APIRoute } from 'astro';
 import { errorResponse } from '../../../../lib/server/access';
 import { recordAudit } from '../../../../lib/server/audit';
 import { invalidDocument } from '../../../../lib/server/http';
-import { parseJsonBody } from '../../../../lib/server/request-body';
+import { invalidInput, parseJsonBody } from '../../../../lib/server/request-body';
 import { requireSheet } from '../../../../lib/server/sheet-access';
 import { listRevisions, saveRevision, validateDocument } from '../../../../lib/server/sheets';
-import { saveRevisionBody } from '../../../../lib/validation/sheets';
+import { listRevisionsQuery, saveRevisionBody } from '../../../../lib/validation/sheets';
 
-export const GET = (async ({ params, locals }) => {
+export const GET = (async ({ params, locals, url }) => {
   const access = await requireSheet(locals.identity, params.sheetId, 'sheet.read');
   if (!access.ok) return access.response;
+  const query = listRevisionsQuery.safeParse(Object.fromEntries(url.searchParams));
+  if (!query.success) return invalidInput(query.error);
   const { database, sheet } = access;
-  return Response.json({ items: await listRevisions(database, sheet.id) });
+  return Response.json(await listRevisions(database, sheet.id, query.data));
 }) satisfies APIRoute;
 
 export const POST = (async ({ params, request, locals, clientAddress }) => {
