@@ -1,10 +1,21 @@
 import { existsSync } from 'node:fs';
+import { createServer } from 'node:http';
 import { resolve } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { DEFAULT_DATABASE_URL } from '../consts';
 import type { Database } from '../db';
 import { prepareDatabase } from '../lib/server/bootstrap';
+import { edgeListener, parseTrustedProxies, type EdgeSettings, type NodeHandler } from '../lib/server/edge';
 import { startFakeSmtp, useFakeSmtp } from '../lib/server/fake-smtp';
+import { configuredPublicOrigin } from '../lib/server/public-origin';
+
+let edge: EdgeSettings;
+try {
+  edge = { trustedProxies: parseTrustedProxies(process.env.TRUSTED_PROXIES), publicOrigin: configuredPublicOrigin() };
+} catch (error) {
+  console.error(`Slipless could not start. ${(error as Error).message}`);
+  process.exit(1);
+}
 
 const url = process.env.DATABASE_URL?.trim() || DEFAULT_DATABASE_URL;
 process.env.DATABASE_URL = url;
@@ -41,4 +52,17 @@ if (!existsSync(entry)) {
   console.error('Slipless could not start: dist/server/entry.mjs is missing. Run `npm run build` first (npm start does both).');
   process.exit(1);
 }
-await import(pathToFileURL(entry).href);
+// The built entry would otherwise start Astro's own server, which believes forwarding headers
+// from any client; this process serves it behind the edge listener instead.
+process.env.ASTRO_NODE_AUTOSTART = 'disabled';
+const { handler } = (await import(pathToFileURL(entry).href)) as { handler: NodeHandler };
+const host = process.env.HOST?.trim() || 'localhost';
+const port = Number(process.env.PORT?.trim() || 4321);
+const server = createServer(edgeListener(handler, edge));
+server.on('error', (error) => {
+  console.error(`Slipless could not listen on ${host}:${port}: ${error.message}`);
+  process.exit(1);
+});
+server.listen(port, host, () => {
+  console.log(`Slipless: listening on http://${host}:${port}${edge.publicOrigin ? `; public origin ${edge.publicOrigin}` : ''}.`);
+});
