@@ -239,7 +239,7 @@ describe('the built server on loopback, default settings', () => {
     });
 
     it('marks answers for a signed-in caller as not to be stored', async () => {
-      for (const headers of [{ cookie: cookieHeader(owner) }, { authorization: `Bearer ${token}` }]) {
+      for (const headers of [{ cookie: cookieHeader(owner) }, { authorization: `Bearer ${token}` }] as Record<string, string>[]) {
         const response = await fetch(`${app.baseUrl}/api/sheets?team=${teamId}`, { headers });
         expect(response.status).toBe(200);
         expect(response.headers.get('cache-control')).toBe('no-store');

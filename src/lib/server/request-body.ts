@@ -2,7 +2,7 @@ import type { z } from 'zod';
 import { errorResponse } from './access';
 
 export type ParsedBody<T> = { ok: true; data: T } | { ok: false; response: Response };
-export type ReadBody = { ok: true; bytes: Uint8Array } | { ok: false; response: Response };
+export type ReadBody = { ok: true; bytes: Uint8Array<ArrayBuffer> } | { ok: false; response: Response };
 
 const KIB = 1024;
 const MIB = 1024 * KIB;
@@ -76,7 +76,7 @@ export function invalidInput(error: z.ZodError): Response {
 }
 
 /** The body as JSON, or undefined when it is empty; throws on text that is not JSON. */
-export function parseJson(bytes: Uint8Array): unknown {
+export function parseJson(bytes: Uint8Array<ArrayBuffer>): unknown {
   const text = new TextDecoder().decode(bytes);
   return text.trim() ? JSON.parse(text) : undefined;
 }
