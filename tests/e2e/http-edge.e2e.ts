@@ -286,7 +286,7 @@ describe('the built server behind a configured proxy with a public origin', () =
     expect(refused.status).toBe(403);
   });
 
-  it('puts the public origin into mailed links', async () => {
+  it('puts the public origin into mailed links: password reset, invitation and Auth.js sign-in link', async () => {
     const reset = await fetch(`${app.baseUrl}/api/account/password-reset`, {
       method: 'POST',
       headers: { origin: PUBLIC, 'content-type': 'application/json' },
@@ -300,13 +300,24 @@ describe('the built server behind a configured proxy with a public origin', () =
       body: JSON.stringify({ email: 'edge-invitee@slipless.example', role: 'viewer' }),
     });
     expect(invited.status).toBe(201);
+    const csrf = await fetch(`${app.baseUrl}/api/auth/csrf`);
+    const csrfJar = new Map<string, string>();
+    keepCookies(csrf, csrfJar);
+    const emailLink = await fetch(`${app.baseUrl}/api/auth/signin/nodemailer`, {
+      method: 'POST',
+      redirect: 'manual',
+      headers: { origin: PUBLIC, cookie: cookieHeader(csrfJar), 'content-type': 'application/x-www-form-urlencoded' },
+      body: new URLSearchParams({ email: 'reviewer@fenwick.example', csrfToken: ((await csrf.json()) as { csrfToken: string }).csrfToken }),
+    });
+    expect(emailLink.status).toBe(302);
+    const recipients = "('viewer@fenwick.example', 'edge-invitee@slipless.example', 'reviewer@fenwick.example')";
     let mails: { to: string; text: string }[] = [];
-    for (let tries = 0; tries < 50 && mails.length < 2; tries++) {
-      mails = await query(app, "select \"to\", text from mail_outbox where \"to\" in ('viewer@fenwick.example', 'edge-invitee@slipless.example')");
+    for (let tries = 0; tries < 50 && mails.length < 3; tries++) {
+      mails = await query(app, `select "to", text from mail_outbox where "to" in ${recipients}`);
       await new Promise((r) => setTimeout(r, 100));
     }
     const links = mails.map((mail) => mail.text.match(/https?:\/\/\S+/)?.[0] ?? '');
-    expect(links).toHaveLength(2);
+    expect(links).toHaveLength(3);
     for (const link of links) expect(link.startsWith(`${PUBLIC}/`), link).toBe(true);
   });
 
