@@ -14,8 +14,13 @@ export default defineConfig({
   integrations: [react(), mdx(), auth({ configFile: './src/auth.config.ts', injectEndpoints: false })],
   markdown: { remarkPlugins: [remarkMath], rehypePlugins: [rehypeKatex] },
   security: {
-    // Hosts the app may be reached on (any port); a deployment adds its own through APP_HOSTNAMES at build time.
-    allowedDomains: ['localhost', '127.0.0.1', ...(process.env.APP_HOSTNAMES ?? '').split(',').filter(Boolean)].map((hostname) => ({ hostname })),
+    // src/middleware.ts is the one origin check: Astro's own also refused scripts that carry a
+    // bearer token (bodiless DELETEs, multipart uploads) and ran before any header was added.
+    checkOrigin: false,
+    // Host names Astro builds request URLs from (any port); any other Host header becomes
+    // localhost, so it can never reach a mailed link. Deployments name their public origin at run
+    // time with PUBLIC_ORIGIN (src/lib/server/public-origin.ts) instead.
+    allowedDomains: [{ hostname: 'localhost' }, { hostname: '127.0.0.1' }],
   },
   image: { service: { entrypoint: 'astro/assets/services/noop' } },
   vite: { plugins: [tailwindcss()], build: { assetsInlineLimit: 0 } },

@@ -1,17 +1,22 @@
 import { defineMiddleware } from 'astro:middleware';
+import type { APIContext, MiddlewareNext } from 'astro';
 import { getSession } from 'auth-astro/server';
 import { TEAM_COOKIE } from './consts';
 import { errorResponse, type Identity } from './lib/server/access';
 import { getDatabase } from './lib/server/database';
 import { bearerToken, identityForToken, identityForUser } from './lib/server/identity';
+import { publicOrigin, publicUrl } from './lib/server/public-origin';
 import { isSameOriginWrite, withSecurityHeaders } from './lib/server/request-guard';
 
 let staleSessionReported = false;
 
-/** Resolves the session cookie to an identity; a cookie signed with an old secret counts as signed out. */
+/**
+ * Resolves the session cookie to an identity; a cookie signed with an old secret counts as signed out.
+ * Auth.js names its cookies after the scheme, so it is asked on the public URL.
+ */
 async function sessionIdentity(request: Request): Promise<Identity | null> {
   try {
-    const session = await getSession(request);
+    const session = await getSession(new Request(publicUrl(request.url), { headers: request.headers }));
     const userId = (session?.user as { id?: string } | undefined)?.id;
     // A session without an id began before sign-out was recorded on the server and could outlive a sign-out, so it counts as signed out.
     return userId && session?.sessionId ? await identityForUser(await getDatabase(), userId, session.signedInAt ?? 0, session.sessionId) : null;
@@ -24,15 +29,27 @@ async function sessionIdentity(request: Request): Promise<Identity | null> {
   }
 }
 
-export const onRequest = defineMiddleware(async (context, next) => {
+/**
+ * The app's one origin check (Astro's own is off in astro.config.mjs because it also refused
+ * token-carrying scripts): requests with a bearer token carry no cookie and pass; browser writes
+ * must come from the public origin.
+ */
+async function resolveIdentity(context: APIContext, next: MiddlewareNext, origin: string): Promise<Response> {
+  context.locals.identity = null;
+  context.locals.team = null;
   const token = bearerToken(context.request);
   const identity = token ? await identityForToken(await getDatabase(), token) : await sessionIdentity(context.request);
   if (token && !identity) return errorResponse(401, 'The API token is unknown, revoked or no longer valid for its team.');
-  if (!token && !isSameOriginWrite(context.request)) return errorResponse(403, 'Cross-site request refused.');
+  if (!token && !isSameOriginWrite(context.request, origin)) return errorResponse(403, 'Cross-site request refused.');
 
   const chosen = context.cookies.get(TEAM_COOKIE)?.value;
   context.locals.identity = identity;
   context.locals.team = identity?.memberships.find((m) => m.slug === chosen) ?? identity?.memberships[0] ?? null;
+  return next();
+}
 
-  return withSecurityHeaders(await next());
+export const onRequest = defineMiddleware(async (context, next) => {
+  const origin = publicOrigin(context.url);
+  const response = await resolveIdentity(context, next, origin);
+  return withSecurityHeaders(response, { https: origin.startsWith('https:'), signedIn: context.locals.identity !== null });
 });

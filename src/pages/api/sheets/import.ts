@@ -2,33 +2,49 @@ import type { APIRoute } from 'astro';
 import { errorResponse, requirePermission } from '../../../lib/server/access';
 import { recordAudit } from '../../../lib/server/audit';
 import { getDatabase } from '../../../lib/server/database';
-import { readJson } from '../../../lib/server/http';
+import { BODY_LIMITS, invalidInput, parseJson, readBody } from '../../../lib/server/request-body';
 import { readSheetFile } from '../../../lib/server/sheet-files';
 import { createSheet } from '../../../lib/server/sheets';
 import { importBody } from '../../../lib/validation/sheet-exchange';
-import { invalidInput } from '../../../lib/server/request-body';
 
-/** The fields of a multipart upload (a `file` part plus `teamId` and optional `title`) or of a JSON body. */
-async function readImportRequest(request: Request): Promise<unknown> {
-  if (!request.headers.get('content-type')?.startsWith('multipart/form-data')) return readJson(request);
-  const form = await request.formData().catch(() => null);
-  if (!form) return undefined;
+/**
+ * The fields of a multipart upload (a `file` part plus `teamId` and optional `title`) or of a JSON
+ * body, read within the import limit; undefined fields when the body is neither (zod reports them).
+ */
+async function readImportRequest(request: Request): Promise<{ ok: true; fields: unknown } | { ok: false; response: Response }> {
+  const body = await readBody(request, BODY_LIMITS.import);
+  if (!body.ok) return body;
+  const contentType = request.headers.get('content-type') ?? '';
+  if (!contentType.startsWith('multipart/form-data')) {
+    try {
+      return { ok: true, fields: parseJson(body.bytes) };
+    } catch {
+      return { ok: true, fields: undefined };
+    }
+  }
+  // Parsed from the counted bytes: Request.formData would read a body of any size.
+  const form = await new Response(body.bytes, { headers: { 'content-type': contentType } }).formData().catch(() => null);
+  if (!form) return { ok: true, fields: undefined };
   const file = form.get('file');
   const title = form.get('title');
   return {
-    teamId: form.get('teamId') ?? undefined,
-    fileName: file instanceof File ? file.name : undefined,
-    content: file instanceof File ? await file.text() : undefined,
-    title: typeof title === 'string' && title.trim() ? title : undefined,
+    ok: true,
+    fields: {
+      teamId: form.get('teamId') ?? undefined,
+      fileName: file instanceof File ? file.name : undefined,
+      content: file instanceof File ? await file.text() : undefined,
+      title: typeof title === 'string' && title.trim() ? title : undefined,
+    },
   };
 }
 
 export const POST = (async ({ request, locals, clientAddress }) => {
-  const body = importBody.safeParse(await readImportRequest(request));
-  if (!body.success) {
-    if (!locals.identity) return errorResponse(401, 'Sign in first.');
-    return invalidInput(body.error);
-  }
+  // Before the body: an anonymous upload is refused without reading a byte of it.
+  if (!locals.identity) return errorResponse(401, 'Sign in first.');
+  const fields = await readImportRequest(request);
+  if (!fields.ok) return fields.response;
+  const body = importBody.safeParse(fields.fields);
+  if (!body.success) return invalidInput(body.error);
   const access = requirePermission(locals.identity, body.data.teamId, 'sheet.write');
   if (!access.ok) return access.response;
   const file = readSheetFile(body.data.content);

@@ -3,7 +3,7 @@ import { errorResponse, requirePermission } from '../../../lib/server/access';
 import { recordAudit } from '../../../lib/server/audit';
 import { getDatabase } from '../../../lib/server/database';
 import { invalidDocument } from '../../../lib/server/http';
-import { invalidInput, parseJsonBody } from '../../../lib/server/request-body';
+import { BODY_LIMITS, invalidInput, parseJsonBody } from '../../../lib/server/request-body';
 import { createSheet, listSheets, validateDocument } from '../../../lib/server/sheets';
 import { createSheetBody, listSheetsQuery } from '../../../lib/validation/sheets';
 
@@ -18,7 +18,7 @@ export const GET = (async ({ url, locals }) => {
 
 export const POST = (async ({ request, locals, clientAddress }) => {
   if (!locals.identity) return errorResponse(401, 'Sign in first.');
-  const body = await parseJsonBody(request, createSheetBody);
+  const body = await parseJsonBody(request, createSheetBody, BODY_LIMITS.sheet);
   if (!body.ok) return body.response;
   const access = requirePermission(locals.identity, body.data.teamId, 'sheet.write');
   if (!access.ok) return access.response;

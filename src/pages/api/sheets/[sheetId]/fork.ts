@@ -1,7 +1,7 @@
 import type { APIRoute } from 'astro';
 import { errorResponse, requirePermission } from '../../../../lib/server/access';
 import { recordAudit } from '../../../../lib/server/audit';
-import { parseJsonBody } from '../../../../lib/server/request-body';
+import { BODY_LIMITS, parseJsonBody } from '../../../../lib/server/request-body';
 import { requireSheet } from '../../../../lib/server/sheet-access';
 import { forkSheet } from '../../../../lib/server/sheets';
 import { forkBody } from '../../../../lib/validation/sheets';
@@ -10,7 +10,7 @@ export const POST = (async ({ params, request, locals, clientAddress }) => {
   const source = await requireSheet(locals.identity, params.sheetId, 'sheet.read');
   if (!source.ok) return source.response;
   const { database, sheet } = source;
-  const body = await parseJsonBody(request, forkBody);
+  const body = await parseJsonBody(request, forkBody, BODY_LIMITS.form);
   if (!body.ok) return body.response;
   const targetTeamId = body.data.teamId ?? sheet.teamId;
   const access = requirePermission(source.identity, targetTeamId, 'sheet.write');

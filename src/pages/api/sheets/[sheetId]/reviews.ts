@@ -1,7 +1,7 @@
 import type { APIRoute } from 'astro';
 import { errorResponse } from '../../../../lib/server/access';
 import { recordAudit } from '../../../../lib/server/audit';
-import { parseJsonBody } from '../../../../lib/server/request-body';
+import { BODY_LIMITS, parseJsonBody } from '../../../../lib/server/request-body';
 import { listReviews, submitReview } from '../../../../lib/server/reviews';
 import { requireSheet } from '../../../../lib/server/sheet-access';
 import { getRevision } from '../../../../lib/server/sheets';
@@ -18,7 +18,7 @@ export const POST = (async ({ params, request, locals, clientAddress }) => {
   const access = await requireSheet(locals.identity, params.sheetId, 'sheet.review');
   if (!access.ok) return access.response;
   const { database, sheet } = access;
-  const body = await parseJsonBody(request, reviewBody);
+  const body = await parseJsonBody(request, reviewBody, BODY_LIMITS.form);
   if (!body.ok) return body.response;
   if (!(await getRevision(database, sheet.id, body.data.revision))) return errorResponse(400, `Revision ${body.data.revision} does not exist.`, 'revision');
   const review = await submitReview(database, { sheetId: sheet.id, reviewerId: access.identity.user.id, ...body.data });

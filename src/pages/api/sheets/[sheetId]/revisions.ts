@@ -2,7 +2,7 @@ import type { APIRoute } from 'astro';
 import { errorResponse } from '../../../../lib/server/access';
 import { recordAudit } from '../../../../lib/server/audit';
 import { invalidDocument } from '../../../../lib/server/http';
-import { invalidInput, parseJsonBody } from '../../../../lib/server/request-body';
+import { BODY_LIMITS, invalidInput, parseJsonBody } from '../../../../lib/server/request-body';
 import { requireSheet } from '../../../../lib/server/sheet-access';
 import { listRevisions, saveRevision, validateDocument } from '../../../../lib/server/sheets';
 import { listRevisionsQuery, saveRevisionBody } from '../../../../lib/validation/sheets';
@@ -20,7 +20,7 @@ export const POST = (async ({ params, request, locals, clientAddress }) => {
   const access = await requireSheet(locals.identity, params.sheetId, 'sheet.write');
   if (!access.ok) return access.response;
   const { database, sheet } = access;
-  const body = await parseJsonBody(request, saveRevisionBody);
+  const body = await parseJsonBody(request, saveRevisionBody, BODY_LIMITS.sheet);
   if (!body.ok) return body.response;
   const checked = validateDocument(body.data.document);
   if (!checked.ok) return invalidDocument(checked.issues);

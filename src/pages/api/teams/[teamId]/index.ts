@@ -2,14 +2,14 @@ import type { APIRoute } from 'astro';
 import { errorResponse, requirePermission } from '../../../../lib/server/access';
 import { recordAudit } from '../../../../lib/server/audit';
 import { getDatabase } from '../../../../lib/server/database';
-import { parseJsonBody } from '../../../../lib/server/request-body';
+import { BODY_LIMITS, parseJsonBody } from '../../../../lib/server/request-body';
 import { deleteTeam, renameTeam } from '../../../../lib/server/teams';
 import { deleteTeamBody, renameTeamBody } from '../../../../lib/validation/teams';
 
 export const PATCH = (async ({ params, request, locals, clientAddress }) => {
   const access = requirePermission(locals.identity, params.teamId ?? '', 'team.manage');
   if (!access.ok) return access.response;
-  const body = await parseJsonBody(request, renameTeamBody);
+  const body = await parseJsonBody(request, renameTeamBody, BODY_LIMITS.form);
   if (!body.ok) return body.response;
   const database = await getDatabase();
   await renameTeam(database, access.membership.teamId, body.data.name);
@@ -20,7 +20,8 @@ export const PATCH = (async ({ params, request, locals, clientAddress }) => {
 export const DELETE = (async ({ params, request, locals }) => {
   const access = requirePermission(locals.identity, params.teamId ?? '', 'team.manage');
   if (!access.ok) return access.response;
-  const body = await parseJsonBody(request, deleteTeamBody);
+  const body = await parseJsonBody(request, deleteTeamBody, BODY_LIMITS.form);
+  if (!body.ok && body.response.status === 413) return body.response;
   if (!body.ok || body.data.confirm !== access.membership.slug) {
     return errorResponse(400, `Type the team's short name (${access.membership.slug}) to confirm.`, 'confirm');
   }
