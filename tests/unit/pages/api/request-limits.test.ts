@@ -3,7 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Identity } from '../../../../src/lib/server/access';
 import type { FakeSmtpServer } from '../../../../src/lib/server/fake-smtp';
 import { BODY_LIMITS } from '../../../../src/lib/server/request-body';
-import { createSheet } from '../../../../src/lib/server/sheets';
+import { createSheet, deleteSheet } from '../../../../src/lib/server/sheets';
 import { getDatabase } from '../../../../src/lib/server/database';
 import { apiContext, callThroughMiddleware, demoIdentity, demoTeamId, ORIGIN, type Handler } from '../../../helpers/api-context';
 import { linkIn, startTestOutbox, waitForMail } from '../../../helpers/mail';
@@ -39,6 +39,8 @@ beforeAll(async () => {
 
 afterAll(async () => {
   delete process.env.PUBLIC_ORIGIN;
+  // The demo team keeps only its seeded sheets, which other tests read.
+  await deleteSheet(await getDatabase(), sheetId);
   await smtp?.close();
 });
 
