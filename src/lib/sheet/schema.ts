@@ -17,7 +17,16 @@ import type {
   Twist,
   Vec3Tuple,
 } from './types';
-import { QUANTITY_KINDS, parseQuantity, parseVariables, type QuantityKind, type VariableScope } from './units';
+import {
+  createExpressionBudget,
+  MAX_EXPRESSION_LENGTH,
+  QUANTITY_KINDS,
+  parseQuantity,
+  parseVariables,
+  type ExpressionBudget,
+  type QuantityKind,
+  type VariableScope,
+} from './units';
 
 export const SHEET_FORMAT = 'slipless.sheet';
 export const SHEET_VERSION = 1;
@@ -71,25 +80,25 @@ function named<T extends z.ZodType>(schema: T, id: string | undefined, descripti
   return schema;
 }
 
-/** Longest quantity string: a unit string or a short expression over the sheet's variables. */
-const MAX_QUANTITY_TEXT = 500;
 export const MAX_VARIABLES_TEXT = 20_000;
 export const MAX_NOTES_TEXT = 100_000;
 
 /**
- * The variables of the sheet being read. zod has no per-parse context, so parseSheet sets this
- * for the duration of one synchronous parse and the quantity fields read it.
+ * The variables of the sheet being read and what is left of its operations. zod has no
+ * per-parse context, so parseSheet sets these for the duration of one synchronous parse and
+ * the quantity fields read them.
  */
 let activeVariables: VariableScope | undefined;
+let activeBudget: ExpressionBudget | undefined;
 
 const capitalised = (text: string) => text[0].toUpperCase() + text.slice(1);
 
 function quantity(kind: QuantityKind, id: string, bound?: { min: 0; strict: boolean; unit: string }) {
   const text = kind === 'any' ? 'a quantity: a number in SI units or a string with a unit' : quantityText(kind);
   const read = z
-    .union([z.number(), z.string().trim().min(1).max(MAX_QUANTITY_TEXT)], { error: expect(`expected ${text}`) })
+    .union([z.number(), z.string().trim().min(1).max(MAX_EXPRESSION_LENGTH)], { error: expect(`expected ${text}`) })
     .transform((value, ctx) => {
-      const result = parseQuantity(value, kind, activeVariables);
+      const result = parseQuantity(value, kind, activeVariables, activeBudget);
       if (!result.ok) {
         ctx.addIssue({ code: 'custom', message: result.message, input: value });
         return z.NEVER;
@@ -501,10 +510,10 @@ function flattenIssues(issues: readonly z.core.$ZodIssue[], prefix: readonly Pro
 }
 
 /** The variables text of an untrusted document read into values, with its issues located by line. */
-function readDocumentVariables(input: unknown): { scope: VariableScope | undefined; issues: SheetIssue[] } {
+function readDocumentVariables(input: unknown, budget: ExpressionBudget): { scope: VariableScope | undefined; issues: SheetIssue[] } {
   const text = input !== null && typeof input === 'object' ? (input as { variables?: unknown }).variables : undefined;
   if (typeof text !== 'string' || text.length > MAX_VARIABLES_TEXT) return { scope: undefined, issues: [] };
-  const parsed = parseVariables(text);
+  const parsed = parseVariables(text, budget);
   return {
     scope: parsed.values,
     issues: parsed.issues.map((issue) => ({
@@ -521,8 +530,10 @@ function readDocumentVariables(input: unknown): { scope: VariableScope | undefin
  * located issues. Quantity fields may be expressions over the document's `variables`.
  */
 export function parseSheet(input: unknown): ParseSheetResult {
-  const variables = readDocumentVariables(input);
+  const budget = createExpressionBudget();
+  const variables = readDocumentVariables(input, budget);
   activeVariables = variables.scope;
+  activeBudget = budget;
   let result;
   try {
     result = sheetSchema.safeParse(input, {
@@ -530,6 +541,7 @@ export function parseSheet(input: unknown): ParseSheetResult {
     });
   } finally {
     activeVariables = undefined;
+    activeBudget = undefined;
   }
   if (result.success && variables.issues.length === 0) return { ok: true, doc: result.data };
   const issues: SheetIssue[] = [...variables.issues];

@@ -99,6 +99,21 @@ export const MAX_EXPRESSION_NODES = 200;
  * b, so a variable multiplied by itself on each line would double its size per line.
  */
 export const MAX_UNIT_TERMS = 32;
+/**
+ * Most operations in all expressions of one sheet together (variables and fields). Reading a
+ * sheet runs on the server's event loop; at a few microseconds per operation this keeps the
+ * largest sheet to tens of milliseconds (see src/cli/validation-cost.ts).
+ */
+export const MAX_SHEET_OPERATIONS = 2000;
+
+/** What is left of one sheet's operations; create one per sheet read with createExpressionBudget. */
+export interface ExpressionBudget {
+  remaining: number;
+}
+
+export function createExpressionBudget(): ExpressionBudget {
+  return { remaining: MAX_SHEET_OPERATIONS };
+}
 
 /** The functions expressions may call; min and max stay out so that "min" is the minute. */
 const FUNCTIONS: Readonly<Record<string, (...args: never[]) => unknown>> = {
@@ -223,7 +238,7 @@ function bracketDepth(text: string): number {
   return deepest;
 }
 
-type Compiled = { node: MathNode; code: Evaluate; symbols: readonly string[] } | { error: string; column?: number };
+type Compiled = { node: MathNode; code: Evaluate; symbols: readonly string[]; nodes: number } | { error: string; column?: number };
 
 const compiled = new Map<string, Compiled>();
 const COMPILED_CACHE_SIZE = 4000;
@@ -240,9 +255,10 @@ function compileText(text: string): Compiled {
     return { error: readableMathError(error), ...(typeof column === 'number' ? { column } : {}) };
   }
   try {
-    const code = compileNode(node, { nodes: 0 });
+    const count = { nodes: 0 };
+    const code = compileNode(node, count);
     const symbols = node.filter((inner) => math.isSymbolNode(inner)).map((inner) => (inner as unknown as { name: string }).name);
-    return { node, code, symbols };
+    return { node, code, symbols, nodes: count.nodes };
   } catch (error) {
     if (error instanceof Refused) return { error: error.message };
     throw error;
@@ -272,9 +288,15 @@ function readableMathError(error: unknown): string {
 type Evaluated = { ok: true; value: VariableValue; usesVariables: boolean } | { ok: false; message: string; column?: number };
 
 /** Evaluates an expression over the scope to a Unit or a finite number. */
-function evaluateExpression(text: string, scope: VariableScope | undefined): Evaluated {
+function evaluateExpression(text: string, scope: VariableScope | undefined, budget: ExpressionBudget | undefined): Evaluated {
+  const overBudget = { ok: false, message: `the sheet's expressions are too long together: at most ${MAX_SHEET_OPERATIONS} operations in one sheet` } as const;
+  if (budget && budget.remaining <= 0) return overBudget;
   const entry = compileExpression(text.trim());
   if ('error' in entry) return { ok: false, message: entry.error, ...(entry.column ? { column: entry.column } : {}) };
+  if (budget) {
+    budget.remaining -= entry.nodes;
+    if (budget.remaining < 0) return overBudget;
+  }
   const variables = scope ?? new Map<string, VariableValue>();
   const usesVariables = entry.symbols.some((name) => variables.has(name));
   let value: VariableValue;
@@ -295,8 +317,9 @@ function readUnit(
   text: string,
   kind: QuantityKind,
   scope?: VariableScope,
+  budget?: ExpressionBudget,
 ): { ok: true; unit: Unit; usesVariables: boolean } | { ok: false; message: string } {
-  const evaluated = evaluateExpression(text, scope);
+  const evaluated = evaluateExpression(text, scope, budget);
   if (!evaluated.ok) return { ok: false, message: `expected ${nounOf(kind)}, could not read "${text}" (${evaluated.message})` };
   if (typeof evaluated.value === 'number') {
     const example = kind === 'any' ? '12 mm' : QUANTITY_KINDS[kind].example;
@@ -310,14 +333,14 @@ function readUnit(
 
 /**
  * Converts a sheet quantity (SI number, unit string or expression over `variables`) to its SI
- * value (m, rad, s, m/s, rad/s or 1/s by kind).
+ * value (m, rad, s, m/s, rad/s or 1/s by kind). `budget`, when given, pays for the expression's operations.
  */
-export function parseQuantity(input: QuantityInput, kind: QuantityKind, variables?: VariableScope): QuantityResult {
+export function parseQuantity(input: QuantityInput, kind: QuantityKind, variables?: VariableScope, budget?: ExpressionBudget): QuantityResult {
   if (typeof input === 'number') {
     if (!Number.isFinite(input)) return { ok: false, message: `expected ${nounOf(kind)}, got ${input}` };
     return { ok: true, value: input };
   }
-  const read = readUnit(input, kind, variables);
+  const read = readUnit(input, kind, variables, budget);
   if (!read.ok) return read;
   if (kind === 'any') return { ok: true, value: read.unit.toSI().toNumber() };
   const reference = referenceUnits.get(kind);
@@ -374,9 +397,9 @@ function isReservedName(name: string): boolean {
 /**
  * Reads the variables text of a sheet: one `name = expression` per line (blank lines and
  * `# comments` allowed), each line may use the names defined above it. Every problem is
- * reported with its line; lines with problems define nothing.
+ * reported with its line; lines with problems define nothing. `budget`, when given, pays for the operations.
  */
-export function parseVariables(text: string): ParsedVariables {
+export function parseVariables(text: string, budget?: ExpressionBudget): ParsedVariables {
   const values = new Map<string, VariableValue>();
   const lines = new Map<string, number>();
   const issues: VariableIssue[] = [];
@@ -413,7 +436,7 @@ export function parseVariables(text: string): ParsedVariables {
       issues.push({ line, column: equals + 2, message: `"${name}" has no value after "="` });
       return;
     }
-    const evaluated = evaluateExpression(expression, values);
+    const evaluated = evaluateExpression(expression, values, budget);
     if (!evaluated.ok) {
       const offset = equals + 1 + (expression.length - expression.trimStart().length);
       issues.push({ line, ...(evaluated.column ? { column: Math.min(offset + evaluated.column, code.length + 1) } : {}), message: evaluated.message });

@@ -2,12 +2,14 @@ import { readFileSync, readdirSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { solveSheet, toPlainResult } from '../../../src/lib/kinematics';
 import { validateDocument } from '../../../src/lib/server/sheets';
+import { largestSheet } from '../../../src/lib/sheet/largest-sheet';
 import {
   formatVariableValue,
   kindOfValue,
   MAX_EXPRESSION_LENGTH,
   MAX_EXPRESSION_NESTING,
   MAX_EXPRESSION_NODES,
+  MAX_SHEET_OPERATIONS,
   MAX_UNIT_TERMS,
   parseQuantity,
   parseVariables,
@@ -306,5 +308,24 @@ describe('expression limits', () => {
     const squares = ['b0 = 1 mm'];
     for (let i = 1; i < 40; i++) squares.push(`b${i} = b${i - 1} * b${i - 1}`);
     expect(parseVariables(squares.join('\n')).issues.length).toBeGreaterThan(0);
+  });
+});
+
+describe('operations of one sheet', () => {
+  it('refuses a sheet whose expressions together pass the limit, naming it, and reads the largest sheet within it', () => {
+    // Each line: five constants, five units, five multiplications and four additions.
+    const line = (i: number) => `v${i} = 1 mm + 1 mm + 1 mm + 1 mm + 1 mm`;
+    const lines = (count: number) => Array.from({ length: count }, (_, i) => line(i)).join('\n');
+    const fits = Math.floor(MAX_SHEET_OPERATIONS / 19);
+    expect(validateDocument(exampleWith(lines(fits - 10), '14 mm')).ok).toBe(true);
+    const over = validateDocument(exampleWith(lines(fits + 1), '14 mm'));
+    expect(over.ok).toBe(false);
+    if (!over.ok) expect(over.issues[0]).toMatchObject({ path: 'variables', line: fits + 1, message: expect.stringContaining(`at most ${MAX_SHEET_OPERATIONS} operations in one sheet`) });
+    const fieldOver = validateDocument(exampleWith(lines(fits), '1 mm + 1 mm + 1 mm + 1 mm + 1 mm'));
+    expect(fieldOver.ok).toBe(false);
+    if (!fieldOver.ok) expect(fieldOver.issues).toContainEqual({ path: 'hand.fingers[0].roller.radius', message: expect.stringContaining(`at most ${MAX_SHEET_OPERATIONS} operations`) });
+
+    const largest = largestSheet('content/sheets/line4-peg-tilt.json');
+    expect(validateDocument(largest).ok).toBe(true);
   });
 });
