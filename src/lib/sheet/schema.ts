@@ -2,7 +2,7 @@
  * The sheet document format, version 1: a zod schema whose parsed output is exactly
  * `SheetDocument` (every quantity in SI, every unit quaternion checked, defaults filled in).
  */
-import { z } from 'zod';
+import { z } from '../validation/zod';
 import type {
   FingerInput,
   JointInput,
@@ -56,9 +56,15 @@ export const DEFAULT_RUN: Omit<RunSettings, 'noise'> = {
   stopOnSingular: true,
 };
 
-/** Error text for a field: "required" when it is absent, the given expectation otherwise. */
+/**
+ * Error text for a field: "required" when it is absent, the given expectation for a wrong type;
+ * a passed limit keeps the common message, which states the limit.
+ */
 function expect(text: string) {
-  return (issue: { input?: unknown }) => (issue.input === undefined ? MISSING : text);
+  return (issue: { input?: unknown; code?: string }) => {
+    if (issue.input === undefined) return MISSING;
+    return issue.code === 'too_big' || issue.code === 'too_small' ? undefined : text;
+  };
 }
 
 /** A number for messages: six significant digits. */
