@@ -3,11 +3,12 @@
  * which one save or import holds the event loop when run on it.
  * Usage: npx tsx src/cli/validation-cost.ts [rounds]
  */
+import { readFileSync } from 'node:fs';
 import { validateDocument } from '../lib/server/sheets';
 import { largestSheet } from '../lib/sheet/largest-sheet';
 
 const rounds = Number(process.argv[2] ?? 10);
-const document = largestSheet('content/sheets/line4-peg-tilt.json');
+const document = largestSheet(JSON.parse(readFileSync('content/sheets/line4-peg-tilt.json', 'utf8')));
 const first = validateDocument(document);
 if (!first.ok) throw new Error(`the largest sheet does not validate: ${first.issues[0].path}: ${first.issues[0].message}`);
 const times: number[] = [];

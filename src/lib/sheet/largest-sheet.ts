@@ -4,7 +4,6 @@
  * expressions allowed (each one different, so no cache helps). Used to measure the worst cost
  * of reading a sheet.
  */
-import { readFileSync } from 'node:fs';
 import { MAX_FINGERS, MAX_JOINTS_PER_FINGER, MAX_VARIABLES_TEXT } from './schema';
 import { MAX_EXPRESSION_LENGTH, MAX_SHEET_OPERATIONS, MAX_VARIABLE_LINES, parseQuantity, parseVariables, type ExpressionBudget } from './units';
 
@@ -37,9 +36,16 @@ function heaviestVariables(operations: number): string {
   return lines.join('\n');
 }
 
-/** The largest valid document built from an example sheet's first finger. */
-export function largestSheet(examplePath: string): Record<string, unknown> {
-  const example = JSON.parse(readFileSync(examplePath, 'utf8'));
+/** The parts of a sheet document as written (before parsing) that the largest sheet is built from. */
+interface WrittenSheet {
+  hand: {
+    name: string;
+    fingers: { joints: { role: string; axis: number[]; point: number[] }[]; roller: { center: number[] } & Record<string, unknown> }[];
+  };
+}
+
+/** The largest valid document built from a valid sheet document with plain SI numbers in its first finger (its object and motion kept). */
+export function largestSheet(example: WrittenSheet): Record<string, unknown> {
   const variables = heaviestVariables(MAX_SHEET_OPERATIONS / 2);
   // The example's own object and motion keep their unit strings; a margin pays for them.
   const budget = { remaining: MAX_SHEET_OPERATIONS / 2 - 100 };

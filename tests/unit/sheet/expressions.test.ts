@@ -325,7 +325,7 @@ describe('operations of one sheet', () => {
     expect(fieldOver.ok).toBe(false);
     if (!fieldOver.ok) expect(fieldOver.issues).toContainEqual({ path: 'hand.fingers[0].roller.radius', message: expect.stringContaining(`at most ${MAX_SHEET_OPERATIONS} operations`) });
 
-    const largest = largestSheet('content/sheets/line4-peg-tilt.json');
+    const largest = largestSheet(JSON.parse(readFileSync('content/sheets/line4-peg-tilt.json', 'utf8')));
     expect(validateDocument(largest).ok).toBe(true);
   });
 });
