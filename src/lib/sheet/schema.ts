@@ -151,6 +151,11 @@ const axisVector = vec3(z.number({ error: expect('expected a number (axis compon
       ctx.addIssue({ code: 'custom', message: 'axis must not be the zero vector', input: v });
       return z.NEVER;
     }
+    // Past the largest double the length is Infinity and every component would scale to 0.
+    if (!Number.isFinite(norm)) {
+      ctx.addIssue({ code: 'custom', message: 'axis components are too large to scale to unit length', input: v });
+      return z.NEVER;
+    }
     return [v[0] / norm, v[1] / norm, v[2] / norm];
   });
 named(axisVector, 'Direction', 'Direction [x, y, z] (unitless, non-zero); scaled to unit length when read');
@@ -189,6 +194,10 @@ const poseSchema = z
     const norm = Math.hypot(q.w, q.x, q.y, q.z);
     if (!(norm > MIN_AXIS_NORM)) {
       ctx.addIssue({ code: 'custom', message: 'orientation quaternion must not be zero', path: ['orientation'], input: q });
+      return z.NEVER;
+    }
+    if (!Number.isFinite(norm)) {
+      ctx.addIssue({ code: 'custom', message: 'orientation quaternion components are too large to scale to unit length', path: ['orientation'], input: q });
       return z.NEVER;
     }
     if (Math.abs(norm - 1) > QUATERNION_NORM_TOLERANCE && pose.normalize !== true) {

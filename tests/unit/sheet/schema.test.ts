@@ -292,3 +292,18 @@ describe('parseSheet messages for over-long and missing values', () => {
     expect(firstIssue({ title: undefined })).toEqual({ path: 'title', message: 'required field is missing' });
   });
 });
+
+describe('parseSheet with numbers whose length overflows', () => {
+  it('refuses an axis or a quaternion too large to scale to unit length instead of turning it into zeros', () => {
+    const huge = 1.7e308;
+    expect(issuesOf(mutated((d) => (d.hand.fingers[0].joints[0].axis = [huge, huge, huge])))).toContainEqual({
+      path: 'hand.fingers[0].joints[0].axis',
+      message: expect.stringContaining('too large'),
+    });
+    const orientation = { w: huge, x: huge, y: 0, z: 0 };
+    expect(issuesOf(mutated((d) => (d.object.pose = { ...d.object.pose, orientation, normalize: true })))).toContainEqual({
+      path: 'object.pose.orientation',
+      message: expect.stringContaining('too large'),
+    });
+  });
+});
