@@ -491,6 +491,12 @@ export interface SheetIssue {
 
 export type ParseSheetResult = { ok: true; doc: SheetDocument } | { ok: false; issues: SheetIssue[] };
 
+/**
+ * Most issues reported for one document. A file with thousands of unknown fields would
+ * otherwise be answered with thousands of issues, each located in the text by a search.
+ */
+export const MAX_SHEET_ISSUES = 50;
+
 /** Path of an input location as text: object keys joined by dots, array indices in brackets. */
 export function formatIssuePath(path: readonly PropertyKey[]): string {
   let text = '';
@@ -507,6 +513,7 @@ function missingCount(issues: readonly z.core.$ZodIssue[]): number {
 
 function flattenIssues(issues: readonly z.core.$ZodIssue[], prefix: readonly PropertyKey[], out: SheetIssue[]): void {
   for (const issue of issues) {
+    if (out.length >= MAX_SHEET_ISSUES) return;
     const path = [...prefix, ...issue.path];
     const best =
       issue.code === 'invalid_union'
@@ -517,7 +524,7 @@ function flattenIssues(issues: readonly z.core.$ZodIssue[], prefix: readonly Pro
     if (best && best.some((inner) => inner.path.length > 0)) {
       flattenIssues(best, path, out);
     } else if (issue.code === 'unrecognized_keys') {
-      for (const key of issue.keys) out.push({ path: formatIssuePath([...path, key]), message: `unknown field "${key}"` });
+      for (const key of issue.keys.slice(0, MAX_SHEET_ISSUES - out.length)) out.push({ path: formatIssuePath([...path, key]), message: `unknown field "${key}"` });
     } else {
       out.push({ path: formatIssuePath(path), message: issue.message });
     }
@@ -559,7 +566,7 @@ export function parseSheet(input: unknown): ParseSheetResult {
     activeBudget = undefined;
   }
   if (result.success && variables.issues.length === 0) return { ok: true, doc: result.data };
-  const issues: SheetIssue[] = [...variables.issues];
+  const issues: SheetIssue[] = variables.issues.slice(0, MAX_SHEET_ISSUES);
   if (!result.success) flattenIssues(result.error.issues, [], issues);
   return { ok: false, issues };
 }

@@ -3,7 +3,7 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import type { Role } from '../../../../src/db/schema';
 import { solveSheet } from '../../../../src/lib/kinematics';
 import type { Identity } from '../../../../src/lib/server/access';
-import { parseSheet } from '../../../../src/lib/sheet/schema';
+import { MAX_SHEET_ISSUES, parseSheet } from '../../../../src/lib/sheet/schema';
 import * as sheetsRoute from '../../../../src/pages/api/sheets/index';
 import * as importRoute from '../../../../src/pages/api/sheets/import';
 import * as sheetRoute from '../../../../src/pages/api/sheets/[sheetId]/index';
@@ -187,6 +187,17 @@ describe('POST /api/sheets/import of bad files', () => {
     expect(body.error.issues[0].path).toBe('object.pose.orientation');
     expect(body.error.issues[0].message).toMatch(/not a unit quaternion/);
     expect(body.error.issues[0].line).toBeGreaterThan(1);
+  });
+
+  it('reports at most MAX_SHEET_ISSUES problems of a file with thousands, located like the others', async () => {
+    const bad: Record<string, unknown> = structuredClone(example);
+    for (let i = 0; i < 20_000; i++) bad[`extra${i}`] = i;
+    const { status, body } = await importContent(JSON.stringify(bad, null, 2));
+    expect(status).toBe(400);
+    expect(body.error.issues).toHaveLength(MAX_SHEET_ISSUES);
+    expect(body.error.issues[0]).toMatchObject({ path: 'extra0', message: 'unknown field "extra0"', line: expect.any(Number) });
+    const created = await sheetsRoute.POST(apiContext({ method: 'POST', body: { teamId, title: 'Many', document: bad }, identity: people.editor }));
+    expect((await created.json()).error.issues).toHaveLength(MAX_SHEET_ISSUES);
   });
 
   it('reports an unknown field at the field itself', async () => {
