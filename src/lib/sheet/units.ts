@@ -137,7 +137,7 @@ type Evaluate = (scope: VariableScope) => VariableValue;
 function checked(value: unknown): VariableValue {
   if (typeof value === 'number') return value;
   if (isUnit(value)) {
-    if (value.units.length > MAX_UNIT_TERMS) throw new Refused(`the value multiplies more than the allowed ${MAX_UNIT_TERMS} units together (at most ${MAX_UNIT_TERMS} units)`);
+    if (value.units.length > MAX_UNIT_TERMS) throw new Refused(`the value multiplies too many units together: at most ${MAX_UNIT_TERMS} units`);
     return value;
   }
   throw new Refused('the expression does not give a single number or quantity');
@@ -238,7 +238,7 @@ function bracketDepth(text: string): number {
   return deepest;
 }
 
-type Compiled = { node: MathNode; code: Evaluate; symbols: readonly string[]; nodes: number } | { error: string; column?: number };
+type Compiled = { code: Evaluate; symbols: readonly string[]; nodes: number } | { error: string; column?: number };
 
 const compiled = new Map<string, Compiled>();
 const COMPILED_CACHE_SIZE = 4000;
@@ -258,7 +258,7 @@ function compileText(text: string): Compiled {
     const count = { nodes: 0 };
     const code = compileNode(node, count);
     const symbols = node.filter((inner) => math.isSymbolNode(inner)).map((inner) => (inner as unknown as { name: string }).name);
-    return { node, code, symbols, nodes: count.nodes };
+    return { code, symbols, nodes: count.nodes };
   } catch (error) {
     if (error instanceof Refused) return { error: error.message };
     throw error;
