@@ -1,5 +1,9 @@
 import type { z } from 'zod';
 import { errorResponse } from './access';
+import { deepNestingMessage, findDeepNesting } from './json-depth';
+
+/** Path of an issue about the request body as a whole. */
+export const BODY_PATH = '(body)';
 
 export type ParsedBody<T> = { ok: true; data: T } | { ok: false; response: Response };
 export type ReadBody = { ok: true; bytes: Uint8Array<ArrayBuffer> } | { ok: false; response: Response };
@@ -72,7 +76,7 @@ export async function readBody(request: Request, limit: number): Promise<ReadBod
 /** 400 with the first failing field's message and path. */
 export function invalidInput(error: z.ZodError): Response {
   const [issue] = error.issues;
-  return errorResponse(400, issue.message, issue.path.join('.') || undefined);
+  return errorResponse(400, issue.message, issue.path.join('.') || BODY_PATH);
 }
 
 /** The body as JSON, or undefined when it is empty; throws on text that is not JSON. */
@@ -91,9 +95,12 @@ export async function parseJsonBody<S extends z.ZodType>(request: Request, schem
   if (!body.ok) return body;
   let raw: unknown;
   try {
-    raw = parseJson(body.bytes);
+    const text = new TextDecoder().decode(body.bytes);
+    const deep = findDeepNesting(text);
+    if (deep) return { ok: false, response: errorResponse(400, `${deepNestingMessage('The request')}.`, deep.field ?? BODY_PATH) };
+    raw = text.trim() ? JSON.parse(text) : undefined;
   } catch {
-    return { ok: false, response: errorResponse(400, 'Send a JSON body.') };
+    return { ok: false, response: errorResponse(400, 'Send a JSON body.', BODY_PATH) };
   }
   const parsed = schema.safeParse(raw);
   return parsed.success ? { ok: true, data: parsed.data } : { ok: false, response: invalidInput(parsed.error) };

@@ -2,7 +2,7 @@
  * The sheet document format, version 1: a zod schema whose parsed output is exactly
  * `SheetDocument` (every quantity in SI, every unit quaternion checked, defaults filled in).
  */
-import { z } from 'zod';
+import { z } from '../validation/zod';
 import type {
   FingerInput,
   JointInput,
@@ -17,7 +17,16 @@ import type {
   Twist,
   Vec3Tuple,
 } from './types';
-import { QUANTITY_KINDS, parseQuantity, parseVariables, type QuantityKind, type VariableScope } from './units';
+import {
+  createExpressionBudget,
+  MAX_EXPRESSION_LENGTH,
+  QUANTITY_KINDS,
+  parseQuantity,
+  parseVariables,
+  type ExpressionBudget,
+  type QuantityKind,
+  type VariableScope,
+} from './units';
 
 export const SHEET_FORMAT = 'slipless.sheet';
 export const SHEET_VERSION = 1;
@@ -47,9 +56,15 @@ export const DEFAULT_RUN: Omit<RunSettings, 'noise'> = {
   stopOnSingular: true,
 };
 
-/** Error text for a field: "required" when it is absent, the given expectation otherwise. */
+/**
+ * Error text for a field: "required" when it is absent, the given expectation for a wrong type;
+ * a passed limit keeps the common message, which states the limit.
+ */
 function expect(text: string) {
-  return (issue: { input?: unknown }) => (issue.input === undefined ? MISSING : text);
+  return (issue: { input?: unknown; code?: string }) => {
+    if (issue.input === undefined) return MISSING;
+    return issue.code === 'too_big' || issue.code === 'too_small' ? undefined : text;
+  };
 }
 
 /** A number for messages: six significant digits. */
@@ -71,25 +86,25 @@ function named<T extends z.ZodType>(schema: T, id: string | undefined, descripti
   return schema;
 }
 
-/** Longest quantity string: a unit string or a short expression over the sheet's variables. */
-const MAX_QUANTITY_TEXT = 500;
 export const MAX_VARIABLES_TEXT = 20_000;
 export const MAX_NOTES_TEXT = 100_000;
 
 /**
- * The variables of the sheet being read. zod has no per-parse context, so parseSheet sets this
- * for the duration of one synchronous parse and the quantity fields read it.
+ * The variables of the sheet being read and what is left of its operations. zod has no
+ * per-parse context, so parseSheet sets these for the duration of one synchronous parse and
+ * the quantity fields read them.
  */
 let activeVariables: VariableScope | undefined;
+let activeBudget: ExpressionBudget | undefined;
 
 const capitalised = (text: string) => text[0].toUpperCase() + text.slice(1);
 
 function quantity(kind: QuantityKind, id: string, bound?: { min: 0; strict: boolean; unit: string }) {
   const text = kind === 'any' ? 'a quantity: a number in SI units or a string with a unit' : quantityText(kind);
   const read = z
-    .union([z.number(), z.string().trim().min(1).max(MAX_QUANTITY_TEXT)], { error: expect(`expected ${text}`) })
+    .union([z.number(), z.string().trim().min(1).max(MAX_EXPRESSION_LENGTH)], { error: expect(`expected ${text}`) })
     .transform((value, ctx) => {
-      const result = parseQuantity(value, kind, activeVariables);
+      const result = parseQuantity(value, kind, activeVariables, activeBudget);
       if (!result.ok) {
         ctx.addIssue({ code: 'custom', message: result.message, input: value });
         return z.NEVER;
@@ -136,6 +151,11 @@ const axisVector = vec3(z.number({ error: expect('expected a number (axis compon
       ctx.addIssue({ code: 'custom', message: 'axis must not be the zero vector', input: v });
       return z.NEVER;
     }
+    // Past the largest double the length is Infinity and every component would scale to 0.
+    if (!Number.isFinite(norm)) {
+      ctx.addIssue({ code: 'custom', message: 'axis components are too large to scale to unit length', input: v });
+      return z.NEVER;
+    }
     return [v[0] / norm, v[1] / norm, v[2] / norm];
   });
 named(axisVector, 'Direction', 'Direction [x, y, z] (unitless, non-zero); scaled to unit length when read');
@@ -174,6 +194,10 @@ const poseSchema = z
     const norm = Math.hypot(q.w, q.x, q.y, q.z);
     if (!(norm > MIN_AXIS_NORM)) {
       ctx.addIssue({ code: 'custom', message: 'orientation quaternion must not be zero', path: ['orientation'], input: q });
+      return z.NEVER;
+    }
+    if (!Number.isFinite(norm)) {
+      ctx.addIssue({ code: 'custom', message: 'orientation quaternion components are too large to scale to unit length', path: ['orientation'], input: q });
       return z.NEVER;
     }
     if (Math.abs(norm - 1) > QUATERNION_NORM_TOLERANCE && pose.normalize !== true) {
@@ -467,6 +491,12 @@ export interface SheetIssue {
 
 export type ParseSheetResult = { ok: true; doc: SheetDocument } | { ok: false; issues: SheetIssue[] };
 
+/**
+ * Most issues reported for one document. A file with thousands of unknown fields would
+ * otherwise be answered with thousands of issues, each located in the text by a search.
+ */
+export const MAX_SHEET_ISSUES = 50;
+
 /** Path of an input location as text: object keys joined by dots, array indices in brackets. */
 export function formatIssuePath(path: readonly PropertyKey[]): string {
   let text = '';
@@ -483,6 +513,7 @@ function missingCount(issues: readonly z.core.$ZodIssue[]): number {
 
 function flattenIssues(issues: readonly z.core.$ZodIssue[], prefix: readonly PropertyKey[], out: SheetIssue[]): void {
   for (const issue of issues) {
+    if (out.length >= MAX_SHEET_ISSUES) return;
     const path = [...prefix, ...issue.path];
     const best =
       issue.code === 'invalid_union'
@@ -493,7 +524,7 @@ function flattenIssues(issues: readonly z.core.$ZodIssue[], prefix: readonly Pro
     if (best && best.some((inner) => inner.path.length > 0)) {
       flattenIssues(best, path, out);
     } else if (issue.code === 'unrecognized_keys') {
-      for (const key of issue.keys) out.push({ path: formatIssuePath([...path, key]), message: `unknown field "${key}"` });
+      for (const key of issue.keys.slice(0, MAX_SHEET_ISSUES - out.length)) out.push({ path: formatIssuePath([...path, key]), message: `unknown field "${key}"` });
     } else {
       out.push({ path: formatIssuePath(path), message: issue.message });
     }
@@ -501,10 +532,10 @@ function flattenIssues(issues: readonly z.core.$ZodIssue[], prefix: readonly Pro
 }
 
 /** The variables text of an untrusted document read into values, with its issues located by line. */
-function readDocumentVariables(input: unknown): { scope: VariableScope | undefined; issues: SheetIssue[] } {
+function readDocumentVariables(input: unknown, budget: ExpressionBudget): { scope: VariableScope | undefined; issues: SheetIssue[] } {
   const text = input !== null && typeof input === 'object' ? (input as { variables?: unknown }).variables : undefined;
   if (typeof text !== 'string' || text.length > MAX_VARIABLES_TEXT) return { scope: undefined, issues: [] };
-  const parsed = parseVariables(text);
+  const parsed = parseVariables(text, budget);
   return {
     scope: parsed.values,
     issues: parsed.issues.map((issue) => ({
@@ -521,8 +552,10 @@ function readDocumentVariables(input: unknown): { scope: VariableScope | undefin
  * located issues. Quantity fields may be expressions over the document's `variables`.
  */
 export function parseSheet(input: unknown): ParseSheetResult {
-  const variables = readDocumentVariables(input);
+  const budget = createExpressionBudget();
+  const variables = readDocumentVariables(input, budget);
   activeVariables = variables.scope;
+  activeBudget = budget;
   let result;
   try {
     result = sheetSchema.safeParse(input, {
@@ -530,9 +563,10 @@ export function parseSheet(input: unknown): ParseSheetResult {
     });
   } finally {
     activeVariables = undefined;
+    activeBudget = undefined;
   }
   if (result.success && variables.issues.length === 0) return { ok: true, doc: result.data };
-  const issues: SheetIssue[] = [...variables.issues];
+  const issues: SheetIssue[] = variables.issues.slice(0, MAX_SHEET_ISSUES);
   if (!result.success) flattenIssues(result.error.issues, [], issues);
   return { ok: false, issues };
 }

@@ -6,26 +6,48 @@
  */
 import {
   absDependencies, acosDependencies, addDependencies, asinDependencies, atan2Dependencies, atanDependencies, cosDependencies,
-  create, createUnitDependencies, eDependencies, evaluateDependencies, hypotDependencies, isUnit,
+  create, createUnitDependencies, eDependencies, hypotDependencies, isUnit,
   multiplyDependencies, divideDependencies, parseDependencies, piDependencies, powDependencies, sinDependencies, sqrtDependencies,
   subtractDependencies, tanDependencies, tauDependencies, unaryMinusDependencies, unaryPlusDependencies, unitDependencies,
-  type EvalFunction, type MathNode, type Unit,
+  type MathNode, type Unit,
 } from 'mathjs';
 
 /**
  * A private mathjs instance so that the extra units below never leak into other users of mathjs;
  * built from the few functions that expressions need so that browsers load only those.
+ * Predictable: a square root of a negative number is NaN (refused as not finite), never a complex number.
  */
-const math = create({
-  unitDependencies, createUnitDependencies, evaluateDependencies, parseDependencies,
-  addDependencies, subtractDependencies, multiplyDependencies, divideDependencies, powDependencies,
-  unaryMinusDependencies, unaryPlusDependencies, piDependencies, eDependencies, tauDependencies,
-  sqrtDependencies, absDependencies, hypotDependencies,
-  sinDependencies, cosDependencies, tanDependencies, asinDependencies, acosDependencies, atanDependencies, atan2Dependencies,
-});
+const math = create(
+  {
+    unitDependencies, createUnitDependencies, parseDependencies,
+    addDependencies, subtractDependencies, multiplyDependencies, divideDependencies, powDependencies,
+    unaryMinusDependencies, unaryPlusDependencies, piDependencies, eDependencies, tauDependencies,
+    sqrtDependencies, absDependencies, hypotDependencies,
+    sinDependencies, cosDependencies, tanDependencies, asinDependencies, acosDependencies, atanDependencies, atan2Dependencies,
+  },
+  { predictable: true },
+);
 // min and max are left out on purpose: "min" must stay the unit minute.
 // Motor data sheets give speeds in revolutions per minute; 1 rpm = 2 pi rad / 60 s.
 math.createUnit('rpm', `${(2 * Math.PI) / 60} rad/s`);
+
+const parseText = math.parse;
+const { Unit: UnitType } = math;
+
+/*
+ * The instance is shared by every sheet in the process (and every request on the server), so
+ * nothing may change it once the units above exist. Expressions never reach it (the evaluator
+ * below calls only the listed functions), and as a second wall the functions that could change
+ * it are replaced by ones that refuse, as the mathjs security notes advise. config stays: the
+ * instance's functions are built lazily and read their settings through it.
+ */
+const refuse = (name: string) => () => {
+  throw new Error(`${name} is disabled in sheet expressions`);
+};
+math.import(
+  Object.fromEntries(['import', 'createUnit', 'evaluate', 'parse', 'compile', 'simplify', 'derivative', 'resolve', 'reviver'].map((name) => [name, refuse(name)])),
+  { override: true },
+);
 
 export type QuantityKind = 'length' | 'angle' | 'time' | 'speed' | 'angularSpeed' | 'rate' | 'any';
 
@@ -66,24 +88,188 @@ export type VariableValue = Unit | number;
 /** Named values that quantity expressions may use, e.g. rollerRadius -> 14 mm. */
 export type VariableScope = ReadonlyMap<string, VariableValue>;
 
-const compiled = new Map<string, { node: MathNode; code: EvalFunction } | { error: string; column?: number }>();
+/** Longest expression: a quantity field or the value of one variable. */
+export const MAX_EXPRESSION_LENGTH = 500;
+/** Deepest nesting of parentheses, brackets and function calls in one expression. */
+export const MAX_EXPRESSION_NESTING = 20;
+/** Most numbers, names and operators in one expression; evaluation does one step per node. */
+export const MAX_EXPRESSION_NODES = 200;
+/**
+ * Most unit factors in one value. mathjs keeps "a * b" as the units of a followed by those of
+ * b, so a variable multiplied by itself on each line would double its size per line.
+ */
+export const MAX_UNIT_TERMS = 32;
+/**
+ * Most operations in all expressions of one sheet together (variables and fields). Reading a
+ * sheet runs on the server's event loop; at a few microseconds per operation this keeps the
+ * largest sheet to tens of milliseconds (see src/cli/validation-cost.ts).
+ */
+export const MAX_SHEET_OPERATIONS = 2000;
+
+/** What is left of one sheet's operations; create one per sheet read with createExpressionBudget. */
+export interface ExpressionBudget {
+  remaining: number;
+}
+
+export function createExpressionBudget(): ExpressionBudget {
+  return { remaining: MAX_SHEET_OPERATIONS };
+}
+
+/** The functions expressions may call; min and max stay out so that "min" is the minute. */
+const FUNCTIONS: Readonly<Record<string, (...args: never[]) => unknown>> = {
+  sqrt: math.sqrt, abs: math.abs, hypot: math.hypot,
+  sin: math.sin, cos: math.cos, tan: math.tan, asin: math.asin, acos: math.acos, atan: math.atan, atan2: math.atan2,
+};
+const FUNCTION_LIST = Object.keys(FUNCTIONS).join(', ');
+const CONSTANTS: ReadonlyMap<string, number> = new Map([['pi', math.pi], ['e', math.e], ['tau', math.tau]]);
+const OPERATORS: Readonly<Record<string, (...args: never[]) => unknown>> = {
+  add: math.add, subtract: math.subtract, multiply: math.multiply, divide: math.divide, pow: math.pow,
+  unaryMinus: math.unaryMinus, unaryPlus: math.unaryPlus,
+};
+const COMPARISONS = new Set(['equal', 'unequal', 'smaller', 'larger', 'smallerEq', 'largerEq', 'compare']);
+const ALLOWED = `expressions may use numbers, units, variables, + - * / ^, parentheses, pi, e, tau and ${FUNCTION_LIST}`;
+
+/** An expression outside what sheets allow; its message says what is not allowed. */
+class Refused extends Error {}
+
+type Evaluate = (scope: VariableScope) => VariableValue;
+
+function checked(value: unknown): VariableValue {
+  if (typeof value === 'number') return value;
+  if (isUnit(value)) {
+    if (value.units.length > MAX_UNIT_TERMS) throw new Refused(`the value multiplies too many units together: at most ${MAX_UNIT_TERMS} units`);
+    return value;
+  }
+  throw new Refused('the expression does not give a single number or quantity');
+}
+
+function describeConstant(value: unknown): string {
+  return typeof value === 'string' ? 'text in quotes is not allowed; write the quantity itself, e.g. 12 mm' : `"${String(value)}" is not a number or quantity`;
+}
+
+/**
+ * Turns a parsed expression into a function of the variables, allowing only numbers, units,
+ * variables, the listed constants, arithmetic and the listed functions. Nothing it builds can
+ * reach the mathjs instance, so no expression can change what another one computes.
+ */
+function compileNode(node: MathNode, count: { nodes: number }): Evaluate {
+  count.nodes += 1;
+  if (count.nodes > MAX_EXPRESSION_NODES) {
+    throw new Refused(`the expression is too long: at most ${MAX_EXPRESSION_NODES} operations (numbers, names and operators)`);
+  }
+  switch (node.type) {
+    case 'ConstantNode': {
+      const { value } = node as unknown as { value: unknown };
+      if (typeof value !== 'number') throw new Refused(describeConstant(value));
+      return () => value;
+    }
+    case 'SymbolNode':
+      return compileSymbol((node as unknown as { name: string }).name);
+    case 'ParenthesisNode':
+      return compileNode((node as unknown as { content: MathNode }).content, count);
+    case 'OperatorNode': {
+      const { fn, op, args } = node as unknown as { fn: string; op: string; args: MathNode[] };
+      if (COMPARISONS.has(fn)) throw new Refused(`comparisons ("${op}") are not allowed; ${ALLOWED}`);
+      const operator = OPERATORS[fn];
+      if (!operator) throw new Refused(`the operator "${op}" is not allowed; ${ALLOWED}`);
+      const parts = args.map((arg) => compileNode(arg, count));
+      return parts.length === 1
+        ? (scope) => checked((operator as (a: VariableValue) => unknown)(parts[0](scope)))
+        : (scope) => checked((operator as (a: VariableValue, b: VariableValue) => unknown)(parts[0](scope), parts[1](scope)));
+    }
+    case 'FunctionNode': {
+      const { fn, args } = node as unknown as { fn: MathNode; args: MathNode[] };
+      const name = math.isSymbolNode(fn) ? fn.name : undefined;
+      const call = name !== undefined && Object.hasOwn(FUNCTIONS, name) ? FUNCTIONS[name] : undefined;
+      if (!call) {
+        throw new Refused(name === undefined ? `only named functions may be called; ${ALLOWED}` : `the function ${name} is not allowed; ${ALLOWED}`);
+      }
+      const parts = args.map((arg) => compileNode(arg, count));
+      return (scope) => checked((call as (...values: VariableValue[]) => unknown)(...parts.map((part) => part(scope))));
+    }
+    case 'AssignmentNode':
+    case 'FunctionAssignmentNode':
+    case 'BlockNode':
+      throw new Refused('a field takes a value, not an assignment or a list of statements');
+    case 'AccessorNode': {
+      const { index } = node as unknown as { index: { dotNotation?: boolean } };
+      throw new Refused(index.dotNotation ? `property access (".") is not allowed; ${ALLOWED}` : `indexing with [ ] is not allowed; ${ALLOWED}`);
+    }
+    case 'IndexNode':
+      throw new Refused(`indexing with [ ] is not allowed; ${ALLOWED}`);
+    case 'ArrayNode':
+      throw new Refused(`lists [ ] are not allowed; ${ALLOWED}`);
+    case 'ObjectNode':
+      throw new Refused(`objects { } are not allowed; ${ALLOWED}`);
+    case 'ConditionalNode':
+      throw new Refused(`conditions (a ? b : c) are not allowed; ${ALLOWED}`);
+    case 'RelationalNode':
+      throw new Refused(`comparisons are not allowed; ${ALLOWED}`);
+    case 'RangeNode':
+      throw new Refused(`ranges (a:b) are not allowed; ${ALLOWED}`);
+    default:
+      throw new Refused(`${node.type} is not allowed; ${ALLOWED}`);
+  }
+}
+
+function compileSymbol(name: string): Evaluate {
+  const constant = CONSTANTS.get(name);
+  if (constant !== undefined) return () => constant;
+  if (Object.hasOwn(FUNCTIONS, name)) throw new Refused(`the function ${name} needs arguments in parentheses, e.g. ${name}(...)`);
+  const isUnitName = UnitType.isValuelessUnit(name);
+  // Variables cannot take a unit's name (see isReservedName), so a unit name is always the unit.
+  if (isUnitName) return () => new UnitType(null as unknown as number, name);
+  if (Object.hasOwn(math, name)) throw new Refused(`"${name}" is not allowed; ${ALLOWED}`);
+  return (scope) => {
+    const value = scope.get(name);
+    if (value === undefined) throw new Refused(`unknown name "${name}" (not a unit, function or variable)`);
+    return value;
+  };
+}
+
+/** The deepest nesting of brackets in the text, measured before parsing so that the parser never recurses deeply. */
+function bracketDepth(text: string): number {
+  let depth = 0;
+  let deepest = 0;
+  for (const char of text) {
+    if (char === '(' || char === '[' || char === '{') deepest = Math.max(deepest, ++depth);
+    else if (char === ')' || char === ']' || char === '}') depth -= 1;
+  }
+  return deepest;
+}
+
+type Compiled = { code: Evaluate; symbols: readonly string[]; nodes: number } | { error: string; column?: number };
+
+const compiled = new Map<string, Compiled>();
 const COMPILED_CACHE_SIZE = 4000;
 
-const ASSIGNMENT_NODES = new Set(['AssignmentNode', 'FunctionAssignmentNode', 'BlockNode']);
-
-/** Parses and compiles an expression once; the sheet is read again on every keystroke, so this is cached. */
-function compileExpression(text: string) {
-  let entry = compiled.get(text);
-  if (entry) return entry;
+function compileText(text: string): Compiled {
+  if (text.length > MAX_EXPRESSION_LENGTH) return { error: `the expression is too long: at most ${MAX_EXPRESSION_LENGTH} characters` };
+  if (bracketDepth(text) > MAX_EXPRESSION_NESTING) return { error: `the expression is nested too deeply: at most ${MAX_EXPRESSION_NESTING} levels of parentheses and function calls` };
+  let node: MathNode;
   try {
-    const node = math.parse(text);
-    const forbidden = node.filter((inner) => ASSIGNMENT_NODES.has(inner.type));
-    entry = forbidden.length > 0 ? { error: 'a field takes a value, not an assignment or a list of statements' } : { node, code: node.compile() };
+    node = parseText(text);
   } catch (error) {
     // mathjs reports the 1-based position at which it gave up.
     const column = (error as { char?: number }).char;
-    entry = { error: readableMathError(error), ...(typeof column === 'number' ? { column } : {}) };
+    return { error: readableMathError(error), ...(typeof column === 'number' ? { column } : {}) };
   }
+  try {
+    const count = { nodes: 0 };
+    const code = compileNode(node, count);
+    const symbols = node.filter((inner) => math.isSymbolNode(inner)).map((inner) => (inner as unknown as { name: string }).name);
+    return { code, symbols, nodes: count.nodes };
+  } catch (error) {
+    if (error instanceof Refused) return { error: error.message };
+    throw error;
+  }
+}
+
+/** Parses and compiles an expression once; the sheet is read again on every keystroke, so this is cached. */
+function compileExpression(text: string): Compiled {
+  let entry = compiled.get(text);
+  if (entry) return entry;
+  entry = compileText(text);
   if (compiled.size >= COMPILED_CACHE_SIZE) compiled.clear();
   compiled.set(text, entry);
   return entry;
@@ -102,33 +288,38 @@ function readableMathError(error: unknown): string {
 type Evaluated = { ok: true; value: VariableValue; usesVariables: boolean } | { ok: false; message: string; column?: number };
 
 /** Evaluates an expression over the scope to a Unit or a finite number. */
-function evaluateExpression(text: string, scope: VariableScope | undefined): Evaluated {
+function evaluateExpression(text: string, scope: VariableScope | undefined, budget: ExpressionBudget | undefined): Evaluated {
+  const overBudget = { ok: false, message: `the sheet's expressions are too long together: at most ${MAX_SHEET_OPERATIONS} operations in one sheet` } as const;
+  if (budget && budget.remaining <= 0) return overBudget;
   const entry = compileExpression(text.trim());
   if ('error' in entry) return { ok: false, message: entry.error, ...(entry.column ? { column: entry.column } : {}) };
-  const usesVariables = scope !== undefined && entry.node.filter((inner) => math.isSymbolNode(inner) && scope.has(inner.name)).length > 0;
-  let value: unknown;
+  if (budget) {
+    budget.remaining -= entry.nodes;
+    if (budget.remaining < 0) return overBudget;
+  }
+  const variables = scope ?? new Map<string, VariableValue>();
+  const usesVariables = entry.symbols.some((name) => variables.has(name));
+  let value: VariableValue;
   try {
-    value = entry.code.evaluate(scope ? new Map(scope) : new Map());
+    value = entry.code(variables);
   } catch (error) {
-    return { ok: false, message: readableMathError(error) };
+    return { ok: false, message: error instanceof Refused ? error.message : readableMathError(error) };
   }
   if (typeof value === 'number') {
-    return Number.isFinite(value) ? { ok: true, value, usesVariables } : { ok: false, message: `the value is not finite (${value})` };
+    return Number.isFinite(value) ? { ok: true, value, usesVariables } : { ok: false, message: `the value is not a finite number (${value})` };
   }
-  if (isUnit(value)) {
-    if (value.value === null) return { ok: false, message: `a unit without a number; write for example "1 ${value.toString()}"` };
-    if (!Number.isFinite(value.toSI().toNumber())) return { ok: false, message: 'the value is not finite' };
-    return { ok: true, value, usesVariables };
-  }
-  return { ok: false, message: 'the expression does not give a single number or quantity' };
+  if (value.value === null) return { ok: false, message: `a unit without a number; write for example "1 ${value.toString()}"` };
+  if (!Number.isFinite(value.value)) return { ok: false, message: `the value is not a finite number (${value.value})` };
+  return { ok: true, value, usesVariables };
 }
 
 function readUnit(
   text: string,
   kind: QuantityKind,
   scope?: VariableScope,
+  budget?: ExpressionBudget,
 ): { ok: true; unit: Unit; usesVariables: boolean } | { ok: false; message: string } {
-  const evaluated = evaluateExpression(text, scope);
+  const evaluated = evaluateExpression(text, scope, budget);
   if (!evaluated.ok) return { ok: false, message: `expected ${nounOf(kind)}, could not read "${text}" (${evaluated.message})` };
   if (typeof evaluated.value === 'number') {
     const example = kind === 'any' ? '12 mm' : QUANTITY_KINDS[kind].example;
@@ -142,14 +333,14 @@ function readUnit(
 
 /**
  * Converts a sheet quantity (SI number, unit string or expression over `variables`) to its SI
- * value (m, rad, s, m/s, rad/s or 1/s by kind).
+ * value (m, rad, s, m/s, rad/s or 1/s by kind). `budget`, when given, pays for the expression's operations.
  */
-export function parseQuantity(input: QuantityInput, kind: QuantityKind, variables?: VariableScope): QuantityResult {
+export function parseQuantity(input: QuantityInput, kind: QuantityKind, variables?: VariableScope, budget?: ExpressionBudget): QuantityResult {
   if (typeof input === 'number') {
     if (!Number.isFinite(input)) return { ok: false, message: `expected ${nounOf(kind)}, got ${input}` };
     return { ok: true, value: input };
   }
-  const read = readUnit(input, kind, variables);
+  const read = readUnit(input, kind, variables, budget);
   if (!read.ok) return read;
   if (kind === 'any') return { ok: true, value: read.unit.toSI().toNumber() };
   const reference = referenceUnits.get(kind);
@@ -206,9 +397,9 @@ function isReservedName(name: string): boolean {
 /**
  * Reads the variables text of a sheet: one `name = expression` per line (blank lines and
  * `# comments` allowed), each line may use the names defined above it. Every problem is
- * reported with its line; lines with problems define nothing.
+ * reported with its line; lines with problems define nothing. `budget`, when given, pays for the operations.
  */
-export function parseVariables(text: string): ParsedVariables {
+export function parseVariables(text: string, budget?: ExpressionBudget): ParsedVariables {
   const values = new Map<string, VariableValue>();
   const lines = new Map<string, number>();
   const issues: VariableIssue[] = [];
@@ -245,7 +436,7 @@ export function parseVariables(text: string): ParsedVariables {
       issues.push({ line, column: equals + 2, message: `"${name}" has no value after "="` });
       return;
     }
-    const evaluated = evaluateExpression(expression, values);
+    const evaluated = evaluateExpression(expression, values, budget);
     if (!evaluated.ok) {
       const offset = equals + 1 + (expression.length - expression.trimStart().length);
       issues.push({ line, ...(evaluated.column ? { column: Math.min(offset + evaluated.column, code.length + 1) } : {}), message: evaluated.message });

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import { z } from './zod';
 import { newPasswordField } from './auth';
 
 export const changePasswordSchema = z

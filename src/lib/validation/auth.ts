@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import { z } from './zod';
 
 export const emailField = z.string().trim().toLowerCase().pipe(z.email('Enter an e-mail address like name@example.com.'));
 

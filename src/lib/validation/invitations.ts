@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import { z } from './zod';
 import type { Role } from '../../db/schema';
 import { emailField, newPasswordField } from './auth';
 

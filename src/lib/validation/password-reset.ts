@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import { z } from './zod';
 import { emailField, newPasswordField } from './auth';
 
 export const passwordResetRequestSchema = z.object({ email: emailField });

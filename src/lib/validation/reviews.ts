@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import { z } from './zod';
 
 export const commentBody = z.object({
   revision: z.number().int().min(1),

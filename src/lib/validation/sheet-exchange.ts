@@ -1,7 +1,14 @@
-import { z } from 'zod';
+import { z } from './zod';
 import { sheetTitleField } from './sheets';
 
-const revisionNumber = z.coerce.number({ error: 'Give a revision number.' }).int('Give a whole revision number.').min(1, 'Revisions start at 1.');
+/** A revision number in a query: plain decimal digits from 1 (not "0x1", "1e0" or "1.0", which Number() would take). */
+const revisionNumber = z
+  .string({ error: 'Give a revision number.' })
+  .regex(/^[1-9][0-9]{0,14}$/, 'Give the revision number as a whole number from 1, e.g. 3.')
+  .transform(Number);
+
+/** GET /api/sheets/{id}: a revision (the latest when absent). */
+export const sheetQuery = z.object({ revision: revisionNumber.optional() });
 
 /** GET /api/sheets/{id}/compare: two revisions, the second optionally of another sheet (a fork or an origin). */
 export const compareQuery = z.object({

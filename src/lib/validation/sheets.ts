@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import { z } from './zod';
 
 export const sheetTitleField = z.string().trim().min(1, 'Give the sheet a title.').max(160, 'Keep the title under 160 characters.');
 export const tagsField = z.array(z.string().trim().min(1).max(40)).max(20).default([]);

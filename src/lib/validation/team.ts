@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import { z } from './zod';
 import type { Role } from '../../db/schema';
 
 /** Roles from most to least rights; typed by Role so the list stays in step with the schema without importing it into the browser. */

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import { z } from './zod';
 
 export const renameTeamBody = z.object({
   name: z.string().trim().min(2, 'Give the team a name of at least 2 characters.').max(80, 'Keep the team name under 80 characters.'),

@@ -66,3 +66,14 @@ describe('product docs (content/docs)', () => {
     expect(missing).toEqual([]);
   });
 });
+
+describe('expression limits in sheet-format.md', () => {
+  it('states every limit with its current value', async () => {
+    const units = await import('../../../src/lib/sheet/units');
+    const text = read('sheet-format.md').replace(/\s+/g, ' ');
+    expect(text).toContain(`at most ${units.MAX_EXPRESSION_LENGTH} characters, ${units.MAX_EXPRESSION_NESTING} levels`);
+    expect(text).toContain(`and ${units.MAX_EXPRESSION_NODES} operations`);
+    expect(text).toContain(`at most ${units.MAX_UNIT_TERMS} units together`);
+    expect(text).toContain(`at most ${units.MAX_SHEET_OPERATIONS} operations`);
+  });
+});

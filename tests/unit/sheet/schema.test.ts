@@ -1,9 +1,12 @@
+import { readFileSync } from 'node:fs';
 import { quat } from 'gl-matrix';
 import { describe, expect, it } from 'vitest';
 import {
   DEFAULT_RUN,
   DEFAULT_SOLVER,
   MAX_FINGERS,
+  MAX_NOTES_TEXT,
+  MAX_VARIABLES_TEXT,
   SHEET_FORMAT,
   SHEET_VERSION,
   formatIssuePath,
@@ -221,7 +224,7 @@ describe('parseSheet', () => {
     expect(issues).toContainEqual({ path: 'version', message: 'unsupported version; this reader understands version 1' });
     expect(issues).toContainEqual({ path: 'hand.fingers[0].roller.raduis', message: 'unknown field "raduis"' });
     expect(issuesOf(mutated((d) => (d.format = 'other')))[0].path).toBe('format');
-    expect(issuesOf(null)).toEqual([{ path: '(document)', message: expect.stringContaining('expected object') }]);
+    expect(issuesOf(null)).toEqual([{ path: '(document)', message: expect.stringContaining('expected an object') }]);
   });
 
   it('checks that a sweep path points to a number in the sheet', () => {
@@ -260,5 +263,47 @@ describe('resolvePointer', () => {
     expect(resolvePointer(doc, '/a~1b')).toBe(1);
     expect(resolvePointer(doc, '/m~0n')).toBe(8);
     expect(resolvePointer(doc, '/missing')).toBeUndefined();
+  });
+});
+
+describe('parseSheet messages for over-long and missing values', () => {
+  const base = JSON.parse(readFileSync('content/sheets/line4-peg-tilt.json', 'utf8'));
+  const firstIssue = (changes: Record<string, unknown>) => {
+    const result = parseSheet({ ...structuredClone(base), ...changes });
+    return result.ok ? undefined : result.issues[0];
+  };
+
+  it.each([
+    ['variables', 'x'.repeat(MAX_VARIABLES_TEXT + 1), `at most ${MAX_VARIABLES_TEXT} characters`],
+    ['notes', 'x'.repeat(MAX_NOTES_TEXT + 1), `at most ${MAX_NOTES_TEXT} characters`],
+    ['title', 'x'.repeat(121), 'at most 120 characters'],
+    ['description', 'x'.repeat(20_001), 'at most 20000 characters'],
+    ['tags', Array(51).fill('t'), 'at most 50 items'],
+  ])('states the limit of %s', (field, value, message) => {
+    expect(firstIssue({ [field]: value })).toEqual({ path: field, message });
+  });
+
+  it('states the limit of a tag and of a quantity text, and still names a wrong type', () => {
+    expect(firstIssue({ tags: ['x'.repeat(61)] })).toEqual({ path: 'tags[0]', message: 'at most 60 characters' });
+    const doc = structuredClone(base);
+    doc.hand.fingers[0].roller.radius = `1 mm${' + 1 mm'.repeat(100)}`;
+    expect(parseSheet(doc)).toMatchObject({ ok: false, issues: [{ path: 'hand.fingers[0].roller.radius', message: expect.stringContaining('at most 500 characters') }] });
+    expect(firstIssue({ variables: 5 })).toEqual({ path: 'variables', message: 'expected the variables as text, one "name = value" per line' });
+    expect(firstIssue({ title: undefined })).toEqual({ path: 'title', message: 'required field is missing' });
+  });
+});
+
+describe('parseSheet with numbers whose length overflows', () => {
+  it('refuses an axis or a quaternion too large to scale to unit length instead of turning it into zeros', () => {
+    const huge = 1.7e308;
+    expect(issuesOf(mutated((d) => (d.hand.fingers[0].joints[0].axis = [huge, huge, huge])))).toContainEqual({
+      path: 'hand.fingers[0].joints[0].axis',
+      message: expect.stringContaining('too large'),
+    });
+    const orientation = { w: huge, x: huge, y: 0, z: 0 };
+    expect(issuesOf(mutated((d) => (d.object.pose = { ...d.object.pose, orientation, normalize: true })))).toContainEqual({
+      path: 'object.pose.orientation',
+      message: expect.stringContaining('too large'),
+    });
   });
 });

@@ -3,7 +3,7 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import type { Role } from '../../../../src/db/schema';
 import { solveSheet } from '../../../../src/lib/kinematics';
 import type { Identity } from '../../../../src/lib/server/access';
-import { parseSheet } from '../../../../src/lib/sheet/schema';
+import { MAX_SHEET_ISSUES, parseSheet } from '../../../../src/lib/sheet/schema';
 import * as sheetsRoute from '../../../../src/pages/api/sheets/index';
 import * as importRoute from '../../../../src/pages/api/sheets/import';
 import * as sheetRoute from '../../../../src/pages/api/sheets/[sheetId]/index';
@@ -189,6 +189,17 @@ describe('POST /api/sheets/import of bad files', () => {
     expect(body.error.issues[0].line).toBeGreaterThan(1);
   });
 
+  it('reports at most MAX_SHEET_ISSUES problems of a file with thousands, located like the others', async () => {
+    const bad: Record<string, unknown> = structuredClone(example);
+    for (let i = 0; i < 20_000; i++) bad[`extra${i}`] = i;
+    const { status, body } = await importContent(JSON.stringify(bad, null, 2));
+    expect(status).toBe(400);
+    expect(body.error.issues).toHaveLength(MAX_SHEET_ISSUES);
+    expect(body.error.issues[0]).toMatchObject({ path: 'extra0', message: 'unknown field "extra0"', line: expect.any(Number) });
+    const created = await sheetsRoute.POST(apiContext({ method: 'POST', body: { teamId, title: 'Many', document: bad }, identity: people.editor }));
+    expect((await created.json()).error.issues).toHaveLength(MAX_SHEET_ISSUES);
+  });
+
   it('reports an unknown field at the field itself', async () => {
     const bad = { ...structuredClone(example), colour: 'teal' };
     const { body } = await importContent(JSON.stringify(bad, null, 2));
@@ -207,5 +218,60 @@ describe('POST /api/sheets/import of bad files', () => {
     expect((await importContent(exampleText, 'x.json', people.viewer)).status).toBe(403);
     expect((await importContent(exampleText, 'x.json', outsider)).status).toBe(404);
     expect((await importRoute.POST(apiContext({ method: 'POST', body: { teamId, content: exampleText } }))).status).toBe(401);
+  });
+});
+
+describe('deeply nested JSON and complex values', () => {
+  const DEPTH = 10_000;
+  const deepArrays = `${'['.repeat(DEPTH)}${']'.repeat(DEPTH)}`;
+  const deepObjects = `${'{"a":'.repeat(DEPTH)}1${'}'.repeat(DEPTH)}`;
+  const deepMixed = `${'[{"a":'.repeat(DEPTH / 2)}1${'}]'.repeat(DEPTH / 2)}`;
+
+  /** Calls a route with a raw JSON body text, as a client could send it. */
+  async function postText(handler: typeof sheetsRoute.POST, text: string, params: Record<string, string> = {}) {
+    const context = apiContext({ method: 'POST', params, identity: people.editor });
+    const request = new Request('http://127.0.0.1/api/sheets', { method: 'POST', headers: { 'content-type': 'application/json' }, body: text });
+    const response = await handler({ ...context, request } as typeof context);
+    return { status: response.status, body: await response.json() };
+  }
+
+  /** A 400 whose message is not empty and whose path starts at `path`. */
+  function expectLocated(result: { status: number; body: { error?: { message?: string; path?: string } } }, path: string) {
+    expect(result.status).toBe(400);
+    expect(result.body.error?.message).toEqual(expect.any(String));
+    expect(result.body.error?.message?.length).toBeGreaterThan(0);
+    expect(result.body.error?.path === path || result.body.error?.path?.startsWith(`${path}.`)).toBe(true);
+  }
+
+  it.each([
+    ['arrays', deepArrays],
+    ['objects', deepObjects],
+    ['arrays and objects', deepMixed],
+  ])('refuses an imported file of %s nested 10,000 deep, at the content', async (_kind, text) => {
+    expectLocated(await importContent(text, 'deep.json'), 'content');
+    expectLocated(await importContent(`{"format": "slipless.sheet", "tags": ${text}}`, 'deep.json'), 'content');
+    expectLocated(await importContent(`{"format": "slipless.sheet", "tags": ${text}`, 'deep.json'), 'content');
+  });
+
+  it.each([
+    ['arrays', deepArrays],
+    ['objects', deepObjects],
+  ])('refuses a request body of %s nested 10,000 deep on create and save', async (_kind, text) => {
+    expectLocated(await postText(sheetsRoute.POST, text), text.startsWith('[') ? '(body)' : 'a');
+    expectLocated(await postText(sheetsRoute.POST, `{"teamId": ${JSON.stringify(teamId)}, "title": "Deep", "document": ${text}}`), 'document');
+    const inDocument = `{"teamId": ${JSON.stringify(teamId)}, "title": "Deep", "document": ${exampleText.replace('"tags": [', `"tags": [${text}, `)}}`;
+    expectLocated(await postText(sheetsRoute.POST, inDocument), 'document');
+    const sheetId = await createSheet(people.editor);
+    expectLocated(await postText(revisionsRoute.POST, `{"baseRevision": 1, "document": ${text}}`, { sheetId }), 'document');
+    expectLocated(await postText(revisionsRoute.POST, text, { sheetId }), text.startsWith('[') ? '(body)' : 'a');
+  });
+
+  it.each(['sqrt(-1) mm', 'asin(2) * 1 mm', '(-1 mm^2)^0.5', '1e400 mm'])('refuses the quantity %s with a message at its field', async (radius) => {
+    const bad = structuredClone(example);
+    bad.hand.fingers[0].roller.radius = radius;
+    const created = await sheetsRoute.POST(apiContext({ method: 'POST', body: { teamId, title: 'Complex', document: bad }, identity: people.editor }));
+    expectLocated({ status: created.status, body: await created.json() }, 'document.hand.fingers[0].roller.radius');
+    const imported = await importContent(JSON.stringify(bad, null, 2));
+    expectLocated(imported, 'content.hand.fingers[0].roller.radius');
   });
 });

@@ -125,3 +125,31 @@ describe('forking into another team', () => {
     expect((await fork(people.editor, other.teamId)).status).toBe(404);
   });
 });
+
+describe('messages that say what is wrong', () => {
+  it('names a missing document and an over-long message with their limits', async () => {
+    const missing = await sheetsRoute.POST(apiContext({ method: 'POST', body: { teamId, title: 'No document' }, identity: people.editor }));
+    expect(missing.status).toBe(400);
+    expect((await missing.json()).error).toEqual({ message: 'document is required', path: 'document' });
+    const long = await sheetsRoute.POST(apiContext({ method: 'POST', body: { teamId, title: 'Long', document: example, message: 'm'.repeat(501), tags: [] }, identity: people.editor }));
+    expect((await long.json()).error).toEqual({ message: 'at most 500 characters', path: 'message' });
+    const tags = await sheetsRoute.POST(apiContext({ method: 'POST', body: { teamId, title: 'Tags', document: example, tags: Array(21).fill('t') }, identity: people.editor }));
+    expect((await tags.json()).error).toEqual({ message: 'at most 20 items', path: 'tags' });
+    const revision = await sheetsRoute.POST(apiContext({ method: 'POST', body: { teamId, title: 'Tags', document: example }, identity: people.editor }));
+    const { sheetId } = await revision.json();
+    const fraction = await revisionsRoute.POST(apiContext({ method: 'POST', params: { sheetId }, body: { baseRevision: 1.5, document: example }, identity: people.editor }));
+    expect((await fraction.json()).error).toEqual({ message: 'expected a whole number', path: 'baseRevision' });
+  });
+
+  it.each(['0x1', '1e0', '1.0', ' 1', '+1', '0', '-1', 'one', ''])('reads ?revision=%s as no revision number (400 naming revision)', async (wanted) => {
+    const created = await create(people.editor);
+    const { sheetId } = await created.json();
+    const response = await sheetRoute.GET(apiContext({ url: `http://127.0.0.1/api/sheets/${sheetId}?revision=${encodeURIComponent(wanted)}`, params: { sheetId }, identity: people.viewer }));
+    expect(response.status).toBe(400);
+    const { error } = await response.json();
+    expect(error.path).toBe('revision');
+    expect(error.message).toMatch(/revision number/i);
+    const plain = await sheetRoute.GET(apiContext({ url: `http://127.0.0.1/api/sheets/${sheetId}?revision=1`, params: { sheetId }, identity: people.viewer }));
+    expect(plain.status).toBe(200);
+  });
+});

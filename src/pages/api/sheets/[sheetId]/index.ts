@@ -1,16 +1,20 @@
 import type { APIRoute } from 'astro';
 import { errorResponse } from '../../../../lib/server/access';
 import { recordAudit } from '../../../../lib/server/audit';
+import { invalidInput } from '../../../../lib/server/request-body';
 import { requireSheet } from '../../../../lib/server/sheet-access';
 import { deleteSheet, getRevision, listForks } from '../../../../lib/server/sheets';
+import { sheetQuery } from '../../../../lib/validation/sheet-exchange';
 
 export const GET = (async ({ params, url, locals }) => {
   const access = await requireSheet(locals.identity, params.sheetId, 'sheet.read');
   if (!access.ok) return access.response;
   const { database, sheet } = access;
-  const wanted = Number(url.searchParams.get('revision') ?? sheet.latestRevision);
-  const revision = Number.isInteger(wanted) ? await getRevision(database, sheet.id, wanted) : null;
-  if (!revision) return errorResponse(404, `Revision ${url.searchParams.get('revision')} does not exist.`, 'revision');
+  const query = sheetQuery.safeParse(Object.fromEntries(url.searchParams));
+  if (!query.success) return invalidInput(query.error);
+  const wanted = query.data.revision ?? sheet.latestRevision;
+  const revision = await getRevision(database, sheet.id, wanted);
+  if (!revision) return errorResponse(404, `Revision ${wanted} does not exist.`, 'revision');
   const forks = await listForks(database, sheet.id, access.identity.memberships.map((m) => m.teamId));
   return Response.json({ sheet, revision, forks });
 }) satisfies APIRoute;
