@@ -1,6 +1,6 @@
 import type { z } from 'zod';
 import { errorResponse } from './access';
-import { deepNestingMessage, findDeepNesting } from './json-depth';
+import { findOversizedJson, oversizedJsonMessage } from './json-depth';
 
 /** Path of an issue about the request body as a whole. */
 export const BODY_PATH = '(body)';
@@ -96,8 +96,8 @@ export async function parseJsonBody<S extends z.ZodType>(request: Request, schem
   let raw: unknown;
   try {
     const text = new TextDecoder().decode(body.bytes);
-    const deep = findDeepNesting(text);
-    if (deep) return { ok: false, response: errorResponse(400, `${deepNestingMessage('The request')}.`, deep.field ?? BODY_PATH) };
+    const oversized = findOversizedJson(text);
+    if (oversized) return { ok: false, response: errorResponse(400, `${oversizedJsonMessage('The request', oversized.reason)}.`, oversized.field ?? BODY_PATH) };
     raw = text.trim() ? JSON.parse(text) : undefined;
   } catch {
     return { ok: false, response: errorResponse(400, 'Send a JSON body.', BODY_PATH) };

@@ -8,7 +8,7 @@ import { solveSheet, toPlainResult } from '../kinematics';
 import { resultsCsv } from '../sheet/results-csv';
 import { parseSheet, SHEET_FORMAT, SHEET_VERSION, type SheetIssue } from '../sheet/schema';
 import type { SheetDocument } from '../sheet/types';
-import { deepNestingMessage, findDeepNesting } from './json-depth';
+import { findOversizedJson, oversizedJsonMessage } from './json-depth';
 import { summarizeSheet, type SheetSummary } from './sheets';
 
 /** Largest sheet file accepted for import (bytes of text). */
@@ -84,10 +84,10 @@ export function readSheetFile(raw: string): ReadSheetFile {
     return { ok: false, stage: 'file', issues: [{ message: `The file is larger than ${MAX_SHEET_FILE_LENGTH / 1_000_000} MB; a sheet document is far smaller.` }] };
   }
   const text = raw.replace(/^\uFEFF/, '');
-  const deep = findDeepNesting(text);
-  if (deep) {
-    const { line, column } = lineAndColumn(text, deep.offset);
-    return { ok: false, stage: 'file', issues: [{ message: `${deepNestingMessage('The file')} (line ${line}, column ${column}).`, line, column }] };
+  const oversized = findOversizedJson(text);
+  if (oversized) {
+    const { line, column } = lineAndColumn(text, oversized.offset);
+    return { ok: false, stage: 'file', issues: [{ message: `${oversizedJsonMessage('The file', oversized.reason)} (line ${line}, column ${column}).`, line, column }] };
   }
   let value: unknown;
   try {

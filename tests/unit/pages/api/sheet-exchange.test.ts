@@ -3,6 +3,8 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import type { Role } from '../../../../src/db/schema';
 import { solveSheet } from '../../../../src/lib/kinematics';
 import type { Identity } from '../../../../src/lib/server/access';
+import { MAX_JSON_VALUES } from '../../../../src/lib/server/json-depth';
+import { largestSheet } from '../../../../src/lib/sheet/largest-sheet';
 import { MAX_SHEET_ISSUES, parseSheet } from '../../../../src/lib/sheet/schema';
 import * as sheetsRoute from '../../../../src/pages/api/sheets/index';
 import * as importRoute from '../../../../src/pages/api/sheets/import';
@@ -191,7 +193,7 @@ describe('POST /api/sheets/import of bad files', () => {
 
   it('reports at most MAX_SHEET_ISSUES problems of a file with thousands, located like the others', async () => {
     const bad: Record<string, unknown> = structuredClone(example);
-    for (let i = 0; i < 20_000; i++) bad[`extra${i}`] = i;
+    for (let i = 0; i < 5_000; i++) bad[`extra${i}`] = i;
     const { status, body } = await importContent(JSON.stringify(bad, null, 2));
     expect(status).toBe(400);
     expect(body.error.issues).toHaveLength(MAX_SHEET_ISSUES);
@@ -264,6 +266,17 @@ describe('deeply nested JSON and complex values', () => {
     const sheetId = await createSheet(people.editor);
     expectLocated(await postText(revisionsRoute.POST, `{"baseRevision": 1, "document": ${text}}`, { sheetId }), 'document');
     expectLocated(await postText(revisionsRoute.POST, text, { sheetId }), text.startsWith('[') ? '(body)' : 'a');
+  });
+
+  it('refuses a file or body of more values than a sheet can hold before parsing it, at the field that holds them', async () => {
+    // Parsing, validating and locating issues cost time per value while the event loop waits.
+    const unknownFields = Object.fromEntries(Array.from({ length: MAX_JSON_VALUES + 1 }, (_, i) => [`extra${i}`, i]));
+    const padded = JSON.stringify({ ...example, ...unknownFields });
+    const imported = await importContent(padded, 'padded.json');
+    expectLocated(imported, 'content');
+    expect((imported.body as { error: { message: string } }).error.message).toMatch(/more than 20,000 values/);
+    expectLocated(await postText(sheetsRoute.POST, `{"teamId": ${JSON.stringify(teamId)}, "title": "Padded", "document": ${padded}}`), 'document');
+    expect((await importContent(JSON.stringify(largestSheet(example)), 'largest.json')).status).toBe(201);
   });
 
   it.each(['sqrt(-1) mm', 'asin(2) * 1 mm', '(-1 mm^2)^0.5', '1e400 mm'])('refuses the quantity %s with a message at its field', async (radius) => {
