@@ -5,6 +5,7 @@ import { createClient } from '@libsql/client';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { freePort, tempDatabaseUrl } from '../helpers/temp';
 import { startApp, type AppProcess } from './app-process';
+import { cookieHeader, keepCookies, signInOverHttp } from './http-session';
 
 /*
  * The built server over HTTP (no browser): what only shows once the app runs behind its own
@@ -38,31 +39,9 @@ async function query<T>(app: App, sql: string, args: (string | number)[] = []): 
   }
 }
 
-/** name=value pairs from a response's Set-Cookie headers, merged into `jar`. */
-function keepCookies(response: Response, jar: Map<string, string>): void {
-  for (const line of response.headers.getSetCookie()) {
-    const [pair] = line.split(';');
-    const at = pair.indexOf('=');
-    jar.set(pair.slice(0, at), pair.slice(at + 1));
-  }
-}
-
-const cookieHeader = (jar: Map<string, string>) => [...jar].map(([name, value]) => `${name}=${value}`).join('; ');
-
-/** Signs in through Auth.js's credentials callback the way the sign-in form does; returns the cookie jar and the answer. */
-async function signIn(baseUrl: string, origin: string, email = OWNER, headers: Record<string, string> = {}) {
-  const jar = new Map<string, string>();
-  const csrf = await fetch(`${baseUrl}/api/auth/csrf`, { headers });
-  keepCookies(csrf, jar);
-  const { csrfToken } = (await csrf.json()) as { csrfToken: string };
-  const response = await fetch(`${baseUrl}/api/auth/callback/credentials`, {
-    method: 'POST',
-    redirect: 'manual',
-    headers: { ...headers, origin, cookie: cookieHeader(jar), 'content-type': 'application/x-www-form-urlencoded', 'x-auth-return-redirect': '1' },
-    body: new URLSearchParams({ email, password: email === OWNER ? PASSWORD : 'not-the-password', csrfToken, callbackUrl: `${origin}/sheets` }),
-  });
-  keepCookies(response, jar);
-  return { jar, response };
+/** Signs in as the demo owner, or with a wrong password as anyone else. */
+function signIn(baseUrl: string, origin: string, email = OWNER, headers: Record<string, string> = {}) {
+  return signInOverHttp(baseUrl, origin, email, email === OWNER ? PASSWORD : 'not-the-password', headers);
 }
 
 async function demoTeamId(app: App): Promise<string> {

@@ -5,7 +5,7 @@
  * request from its own loopback address so the per-address limits stay out of the way, and prints
  * the distinct answers seen with the median and quartiles of each kind.
  *
- *   npm run build && npx tsx tests/e2e/sign-in-timing.ts [password rounds=60] [link rounds=60]
+ *   npm run build && npm run measure:sign-in [-- password rounds=60 link rounds=60]
  */
 import http from 'node:http';
 import { openDatabase } from '../../src/db';

@@ -1,10 +1,10 @@
 /**
  * The most expensive sheet document the format accepts: the most fingers and joints, half the
  * sheet's operations spent on variables and half on quantity fields written as the longest
- * expressions allowed (each one different, so no cache helps). Used to measure the worst cost
- * of reading a sheet.
+ * expressions allowed (each one different, so no cache helps), and the longest description.
+ * Used to measure the worst cost of reading, storing and reporting a sheet.
  */
-import { MAX_FINGERS, MAX_JOINTS_PER_FINGER, MAX_VARIABLES_TEXT } from './schema';
+import { MAX_DESCRIPTION_TEXT, MAX_FINGERS, MAX_JOINTS_PER_FINGER, MAX_VARIABLES_TEXT } from './schema';
 import { MAX_EXPRESSION_LENGTH, MAX_SHEET_OPERATIONS, MAX_VARIABLE_LINES, parseQuantity, parseVariables, type ExpressionBudget } from './units';
 
 /**
@@ -55,21 +55,28 @@ export function largestSheet(example: WrittenSheet): Record<string, unknown> {
   const angularSpeed = (value: number) => heaviestExpression(value, 'rad/s', value, ++salt, budget);
   const point = (p: number[]) => p.map((v) => length(v));
   const template = example.hand.fingers[0];
-  const fingers = Array.from({ length: MAX_FINGERS }, (_, f) => ({
-    name: `finger-${f}`,
-    joints: Array.from({ length: MAX_JOINTS_PER_FINGER }, (_, j) => {
-      const joint = template.joints[Math.min(j, template.joints.length - 1)];
-      return {
-        name: `finger-${f}-joint-${j}`,
-        role: joint.role,
-        axis: joint.axis,
-        point: point(joint.point),
-        angle: angle(0),
-        rateLimit: angularSpeed(6),
-        limits: { min: angle(-120), max: angle(120) },
-      };
-    }),
-    roller: { ...template.roller, radius: length(0.014), center: point(template.roller.center) },
-  }));
-  return { ...example, variables, hand: { name: example.hand.name, fingers } };
+  const fingers = Array.from({ length: MAX_FINGERS }, (_, f) => {
+    // Each finger turned about the palm's z axis, so every finger touches the object somewhere else.
+    const turn = (2 * Math.PI * f) / MAX_FINGERS;
+    const [c, s] = [Math.cos(turn), Math.sin(turn)];
+    const turned = (p: number[]) => [p[0] * c - p[1] * s, p[0] * s + p[1] * c, p[2]];
+    return {
+      name: `finger-${f}`,
+      joints: Array.from({ length: MAX_JOINTS_PER_FINGER }, (_, j) => {
+        const joint = template.joints[Math.min(j, template.joints.length - 1)];
+        return {
+          name: `finger-${f}-joint-${j}`,
+          role: joint.role,
+          axis: turned(joint.axis),
+          point: point(turned(joint.point)),
+          angle: angle(0),
+          rateLimit: angularSpeed(6),
+          limits: { min: angle(-120), max: angle(120) },
+        };
+      }),
+      roller: { ...template.roller, radius: length(0.014), center: point(turned(template.roller.center)) },
+    };
+  });
+  const description = 'A long description of the grasp, as long as the format allows. '.repeat(400).slice(0, MAX_DESCRIPTION_TEXT);
+  return { ...example, description, variables, hand: { name: example.hand.name, fingers } };
 }

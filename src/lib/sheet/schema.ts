@@ -88,6 +88,7 @@ function named<T extends z.ZodType>(schema: T, id: string | undefined, descripti
 
 export const MAX_VARIABLES_TEXT = 20_000;
 export const MAX_NOTES_TEXT = 100_000;
+export const MAX_DESCRIPTION_TEXT = 20_000;
 
 /**
  * The variables of the sheet being read and what is left of its operations. zod has no
@@ -429,7 +430,7 @@ export const sheetSchema = z
     format: z.literal(SHEET_FORMAT, { error: expect(`expected "format": "${SHEET_FORMAT}"`) }),
     version: z.literal(SHEET_VERSION, { error: expect(`unsupported version; this reader understands version ${SHEET_VERSION}`) }),
     title: name,
-    description: z.string().max(20_000).default(''),
+    description: z.string().max(MAX_DESCRIPTION_TEXT).default(''),
     tags: z.array(z.string().trim().min(1).max(60)).max(50).default([]),
     variables: named(
       z.string({ error: expect('expected the variables as text, one "name = value" per line') }).max(MAX_VARIABLES_TEXT).optional(),
