@@ -2,6 +2,7 @@ import { readFileSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, BrowserContext } from 'playwright-core';
 import { openDatabase } from '../../src/db';
+import { deleteSheet } from '../../src/lib/server/sheets';
 import { largestSheet } from '../helpers/largest-sheet';
 import { addRevisions } from '../helpers/revisions';
 import { appDatabaseUrl, baseUrl, launchBrowser, saveScreenshot, signIn } from './browser';
@@ -10,6 +11,7 @@ const REVISIONS = 5_000;
 
 let browser: Browser;
 let editor: BrowserContext;
+const created: string[] = [];
 
 beforeAll(async () => {
   browser = await launchBrowser();
@@ -19,14 +21,23 @@ beforeAll(async () => {
 
 afterAll(async () => {
   await browser?.close();
+  // Other browser tests list and search the demo team's sheets: leave only the seeded ones.
+  const database = await openDatabase(appDatabaseUrl());
+  try {
+    for (const sheetId of created) await deleteSheet(database, sheetId);
+  } finally {
+    database.close();
+  }
 });
 
 /** Creates a sheet in the editor's current team through the API and returns its id. */
 async function createSheet(title: string, document: unknown): Promise<string> {
   const { currentTeam } = await (await editor.request.get(`${baseUrl()}/api/me`)).json();
-  const created = await editor.request.post(`${baseUrl()}/api/sheets`, { data: { teamId: currentTeam, title, document } });
-  expect(created.status()).toBe(201);
-  return (await created.json()).sheetId;
+  const answer = await editor.request.post(`${baseUrl()}/api/sheets`, { data: { teamId: currentTeam, title, document } });
+  expect(answer.status()).toBe(201);
+  const { sheetId } = await answer.json();
+  created.push(sheetId);
+  return sheetId;
 }
 
 /** Status, size and time of one GET as the signed-in editor. */
