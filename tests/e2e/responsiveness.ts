@@ -41,6 +41,7 @@ const app = await startApp({ port: await freePort(), databaseUrl, env: { ...proc
 const healthWaits: { at: number; ms: number }[] = [];
 const poller = fork(process.argv[1], ['--poll', app.baseUrl], { execArgv: process.execArgv });
 poller.on('message', (message) => healthWaits.push(message as { at: number; ms: number }));
+while (healthWaits.length === 0) await new Promise((r) => setTimeout(r, 50));
 try {
   const { jar } = await signInOverHttp(app.baseUrl, app.baseUrl, 'editor@fenwick.example', 'slipless-demo');
   const headers = { origin: app.baseUrl, cookie: cookieHeader(jar), 'content-type': 'application/json' };
@@ -53,8 +54,10 @@ try {
   const created = await fetch(`${app.baseUrl}/api/sheets`, { method: 'POST', headers, body: JSON.stringify({ teamId: team.id, title: 'Largest sheet', document: largest }) });
   if (created.status !== 201) throw new Error(`creating the largest sheet answered ${created.status}: ${await created.text()}`);
   const { sheetId } = (await created.json()) as { sheetId: string };
+  const long = await fetch(`${app.baseUrl}/api/sheets`, { method: 'POST', headers, body: JSON.stringify({ teamId: team.id, title: 'Long history', document: example }) });
+  const { sheetId: longSheetId } = (await long.json()) as { sheetId: string };
   const database = await openDatabase(databaseUrl);
-  await addRevisions(database, sheetId, EXTRA_REVISIONS, largest);
+  await addRevisions(database, longSheetId, EXTRA_REVISIONS, example);
   database.close();
 
   // Just under the value limit and near the import size limit: the most a refused import can cost.
@@ -69,9 +72,9 @@ try {
     [`import a refused ${(paddedFile.length / 1e6).toFixed(1)} MB file of ${MAX_JSON_VALUES - 2_000} extra fields`, () => fetch(`${app.baseUrl}/api/sheets/import`, { method: 'POST', headers, body: JSON.stringify({ teamId: team.id, fileName: 'padded.json', content: paddedFile }) })],
     ['save a doubling-definitions expression', () => fetch(`${app.baseUrl}/api/sheets`, { method: 'POST', headers, body: JSON.stringify({ teamId: team.id, title: 'Attack', document: attack }) })],
     ['report of the largest sheet', () => fetch(`${app.baseUrl}/sheets/${sheetId}/report`, { headers })],
-    [`history page, ${EXTRA_REVISIONS + 1} revisions`, () => fetch(`${app.baseUrl}/sheets/${sheetId}/history`, { headers })],
-    [`revisions API, ${EXTRA_REVISIONS + 1} revisions`, () => fetch(`${app.baseUrl}/api/sheets/${sheetId}/revisions`, { headers })],
-    ['compare first and last revision', () => fetch(`${app.baseUrl}/sheets/${sheetId}/compare?from=1&to=${EXTRA_REVISIONS + 1}`, { headers })],
+    [`history page, ${EXTRA_REVISIONS + 1} revisions`, () => fetch(`${app.baseUrl}/sheets/${longSheetId}/history`, { headers })],
+    [`revisions API, ${EXTRA_REVISIONS + 1} revisions`, () => fetch(`${app.baseUrl}/api/sheets/${longSheetId}/revisions`, { headers })],
+    ['compare first and last revision', () => fetch(`${app.baseUrl}/sheets/${longSheetId}/compare?from=1&to=${EXTRA_REVISIONS + 1}`, { headers })],
     ['8 parallel anonymous 50 MB imports', () => Promise.all(Array.from({ length: 8 }, () => fetch(`${app.baseUrl}/api/sheets/import`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: fiftyMegabytes }).catch(() => undefined)))],
   ];
 

@@ -9,7 +9,7 @@
 /** Deepest nesting of lists and objects accepted in a request body or an imported file. */
 export const MAX_JSON_DEPTH = 32;
 /** Most values (list items and object members) in one text; the largest valid sheet has under 2,000. */
-export const MAX_JSON_VALUES = 20_000;
+export const MAX_JSON_VALUES = 10_000;
 
 export interface OversizedJson {
   /** What is too large: the nesting or the number of values. */

@@ -274,7 +274,7 @@ describe('deeply nested JSON and complex values', () => {
     const padded = JSON.stringify({ ...example, ...unknownFields });
     const imported = await importContent(padded, 'padded.json');
     expectLocated(imported, 'content');
-    expect((imported.body as { error: { message: string } }).error.message).toMatch(/more than 20,000 values/);
+    expect((imported.body as { error: { message: string } }).error.message).toMatch(/more than 10,000 values/);
     expectLocated(await postText(sheetsRoute.POST, `{"teamId": ${JSON.stringify(teamId)}, "title": "Padded", "document": ${padded}}`), 'document');
     expect((await importContent(JSON.stringify(largestSheet(example)), 'largest.json')).status).toBe(201);
   });
