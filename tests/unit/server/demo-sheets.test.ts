@@ -1,4 +1,4 @@
-import { eq } from 'drizzle-orm';
+import { and, eq, isNull } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
 import { sheets } from '../../../src/db/schema';
 import { getDatabase } from '../../../src/lib/server/database';
@@ -10,7 +10,7 @@ describe('demo sheets seeded into the run database', () => {
   it('give the peg sheet three revisions and a fork with two, and make the retrofit sheet a fork of the bearing housing', async () => {
     const database = await getDatabase();
     const teamId = await demoTeamId();
-    const all = await database.db.select().from(sheets).where(eq(sheets.teamId, teamId));
+    const all = await database.db.select().from(sheets).where(and(eq(sheets.teamId, teamId), isNull(sheets.deletedAt)));
     const byTitle = (title: string) => all.find((s) => s.title === title)!;
     const peg = byTitle('Peg: tilt about the grip line');
     const { items: pegRevisions } = await listRevisions(database, peg.id, { page: 1, pageSize: 50 });
@@ -29,7 +29,7 @@ describe('demo sheets seeded into the run database', () => {
   it('raise every kind of warning between them (latest revisions)', async () => {
     const database = await getDatabase();
     const teamId = await demoTeamId();
-    const all = await database.db.select().from(sheets).where(eq(sheets.teamId, teamId));
+    const all = await database.db.select().from(sheets).where(and(eq(sheets.teamId, teamId), isNull(sheets.deletedAt)));
     const codes = new Set<string>();
     for (const sheet of all) {
       const {
