@@ -73,12 +73,10 @@ function compare(element: Element, tolerance: Tolerance): { difference: number; 
 
 expect.extend({
   toBeNear(actual: unknown, expected: Nested, tolerance: Tolerance) {
+    const values = () => `\n\nReceived: ${this.utils.printReceived(actual)}\nExpected: ${this.utils.printExpected(expected)}`;
     const elements: Element[] = [];
     const shapeProblem = pairElements(actual, expected, '', elements);
-    const rule = describeTolerance(tolerance);
-    if (shapeProblem) {
-      return { pass: false, message: () => `expected ${this.utils.printReceived(actual)} to be near ${this.utils.printExpected(expected)}: ${shapeProblem}` };
-    }
+    if (shapeProblem) return { pass: false, message: () => `expected the same shape: ${shapeProblem}${values()}` };
     if (tolerance.upToSign && elements.reduce((dot, e) => dot + e.actual * e.expected, 0) < 0) {
       for (const e of elements) e.actual = -e.actual;
     }
@@ -91,16 +89,14 @@ expect.extend({
       const over = result.difference - result.allowed, worstOver = worst ? worst.difference - worst.allowed : -Infinity;
       if (!worst || (Number.isNaN(over) && !Number.isNaN(worstOver)) || over > worstOver) worst = { ...element, ...result };
     }
-    const sign = tolerance.upToSign ? ' (up to sign)' : '';
-    if (!worst) {
-      return { pass: true, message: () => `expected ${this.utils.printReceived(actual)} not to be near ${this.utils.printExpected(expected)}${sign}, but every element meets ${rule}` };
-    }
+    const rule = describeTolerance(tolerance) + (tolerance.upToSign ? ', up to sign' : '');
+    if (!worst) return { pass: true, message: () => `expected some element outside ${rule}, but all ${elements.length} are within${values()}` };
     const { path, actual: a, expected: e, difference, allowed } = worst;
     return {
       pass: false,
       message: () =>
-        `expected ${this.utils.printReceived(actual)} to be near ${this.utils.printExpected(expected)}${sign}: ` +
-        `${failures} of ${elements.length} outside ${rule}; worst ${path || 'value'}: ${a} vs ${e}, difference ${difference}, allowed ${allowed}`,
+        `expected every element within ${rule}, but ${failures} of ${elements.length} are outside; ` +
+        `worst ${path || 'value'}: ${a} vs ${e}, difference ${difference}, allowed ${allowed}${values()}`,
     };
   },
 });

@@ -50,7 +50,7 @@ describe('toBeNear on arrays', () => {
 
   it('names the worst element, its index, the difference and the tolerance used', () => {
     const message = failure(() => expect([1, 2.1, 3.01]).toBeNear([1, 2, 3], { abs: 1e-3 }));
-    expect(message).toContain('2 of 3 outside |difference| <= abs 0.001 + rel 0 * |expected|');
+    expect(message).toContain('within |difference| <= abs 0.001 + rel 0 * |expected|, but 2 of 3 are outside');
     expect(message).toMatch(/worst \[1\]: 2\.1 vs 2, difference 0\.1\d*, allowed 0\.001/);
   });
 
