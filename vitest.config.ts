@@ -16,7 +16,13 @@ export default getViteConfig({
     projects: [
       {
         extends: true,
-        test: { name: 'unit', include: ['tests/unit/**/*.test.ts'], globalSetup: ['tests/helpers/test-database.ts'] },
+        test: {
+          name: 'unit',
+          include: ['tests/unit/**/*.test.ts'],
+          globalSetup: ['tests/helpers/test-database.ts'],
+          // Registers expect(...).toBeNear, the one tolerance matcher of the numeric tests.
+          setupFiles: ['tests/helpers/tolerance.ts'],
+        },
       },
       {
         extends: true,

@@ -4,10 +4,6 @@ import { createFinger, forwardKinematics } from '../../../src/lib/kinematics/han
 import { fromAxisAngle, rotate } from '../../../src/lib/kinematics/quat';
 import type { FingerInput, SheetDocument } from '../../../src/lib/sheet/types';
 
-function close(actual: ArrayLike<number>, expected: ArrayLike<number>, digits = 12) {
-  for (let i = 0; i < expected.length; i++) expect(actual[i]).toBeCloseTo(expected[i], digits);
-}
-
 type ObjectInput = SheetDocument['object'];
 
 function object(shape: ObjectInput['shape'], position: [number, number, number] = [0, 0, 0], orientation = { w: 1, x: 0, y: 0, z: 0 }, linear: [number, number, number] = [0, 0, 0], angular: [number, number, number] = [0, 0, 0]) {
@@ -37,11 +33,11 @@ function cylinderFinger(center: [number, number, number], axis: [number, number,
 describe('objectPointVelocity', () => {
   it('wheel: v = omega x r and |v| = omega r (rigid-body kinematics, common practice)', () => {
     const v = objectPointVelocity([0, 0, 0], [0, 0, 4], [1, 1, 0], [1.5, 1, 0]);
-    close(v, [0, 2, 0]);
+    expect(v).toBeNear([0, 2, 0], { digits: 12 });
     expect(Math.hypot(v[0], v[1], v[2])).toBeCloseTo(4 * 0.5, 14);
   });
   it('adds the origin velocity (Murray, Li & Sastry 1994, ch. 2, eq. 2.55: v_q = v + omega x (q - p))', () => {
-    close(objectPointVelocity([0.1, -0.2, 0.3], [1, 2, 3], [0, 0, 0], [0.4, 0.5, 0.6]), [0.1 + (2 * 0.6 - 3 * 0.5), -0.2 + (3 * 0.4 - 1 * 0.6), 0.3 + (1 * 0.5 - 2 * 0.4)]);
+    expect(objectPointVelocity([0.1, -0.2, 0.3], [1, 2, 3], [0, 0, 0], [0.4, 0.5, 0.6])).toBeNear([0.1 + (2 * 0.6 - 3 * 0.5), -0.2 + (3 * 0.4 - 1 * 0.6), 0.3 + (1 * 0.5 - 2 * 0.4)], { digits: 12 });
   });
 });
 
@@ -56,7 +52,7 @@ describe('updateObjectRotation', () => {
     const o = object({ kind: 'sphere', radius: 1 });
     o.orientation.set(fromAxisAngle([0, 0, 1], Math.PI / 2));
     updateObjectRotation(o);
-    close([o.rotation[0], o.rotation[1], o.rotation[3]], [0, -1, 1]);
+    expect([o.rotation[0], o.rotation[1], o.rotation[3]]).toBeNear([0, -1, 1], { digits: 12 });
   });
 });
 
@@ -66,10 +62,10 @@ describe('computeContact', () => {
     const c: [number, number, number] = [0.01 + 0.03, -0.02 + 0.04, 0.03];
     const contact = computeContact(object({ kind: 'sphere', radius: 0.04 }, p), createFinger(sphereFinger(c, 0.008)), 1e-4);
     expect(contact.gap).toBeCloseTo(0.05 - 0.04 - 0.008, 14);
-    close(contact.normal, [0.6, 0.8, 0]);
-    close(contact.objectPoint, [p[0] + 0.04 * 0.6, p[1] + 0.04 * 0.8, p[2]]);
-    close(contact.rollerPoint, [c[0] - 0.008 * 0.6, c[1] - 0.008 * 0.8, c[2]]);
-    close(contact.objectPointLocal, [0.04 * 0.6, 0.04 * 0.8, 0]);
+    expect(contact.normal).toBeNear([0.6, 0.8, 0], { digits: 12 });
+    expect(contact.objectPoint).toBeNear([p[0] + 0.04 * 0.6, p[1] + 0.04 * 0.8, p[2]], { digits: 12 });
+    expect(contact.rollerPoint).toBeNear([c[0] - 0.008 * 0.6, c[1] - 0.008 * 0.8, c[2]], { digits: 12 });
+    expect(contact.objectPointLocal).toBeNear([0.04 * 0.6, 0.04 * 0.8, 0], { digits: 12 });
     expect(contact.state).toBe('separated');
   });
 
@@ -82,9 +78,9 @@ describe('computeContact', () => {
     const c: [number, number, number] = [p[0] + 0.045 * ex[0], p[1] + 0.045 * ex[1], 0.01];
     const contact = computeContact(o, createFinger(sphereFinger(c, 0.01)), 1e-4);
     expect(contact.gap).toBeCloseTo(0.005, 12);
-    close(contact.normal, ex);
-    close(contact.normalLocal, [1, 0, 0]);
-    close(contact.objectPointLocal, [0.03, 0, 0.01]);
+    expect(contact.normal).toBeNear(ex, { digits: 12 });
+    expect(contact.normalLocal).toBeNear([1, 0, 0], { digits: 12 });
+    expect(contact.objectPointLocal).toBeNear([0.03, 0, 0.01], { digits: 12 });
   });
 
   it('penetrating sphere roller: negative gap and state', () => {
@@ -96,9 +92,9 @@ describe('computeContact', () => {
   it('object velocity at the contact split into normal and tangential parts', () => {
     const o = object({ kind: 'sphere', radius: 0.04 }, [0, 0, 0], undefined, [0.01, 0, 0.02], [0, 0, 0.5]);
     const contact = computeContact(o, createFinger(sphereFinger([0.05, 0, 0], 0.01)), 1e-4);
-    close(contact.objectVelocity, [0.01, 0.5 * 0.04, 0.02]);
+    expect(contact.objectVelocity).toBeNear([0.01, 0.5 * 0.04, 0.02], { digits: 12 });
     expect(contact.normalSpeed).toBeCloseTo(0.01, 14);
-    close(contact.tangentialVelocity, [0, 0.02, 0.02]);
+    expect(contact.tangentialVelocity).toBeNear([0, 0.02, 0.02], { digits: 12 });
     expect(contact.tangentialSpeed).toBeCloseTo(Math.hypot(0.02, 0.02), 14);
   });
 
@@ -108,7 +104,7 @@ describe('computeContact', () => {
     forwardKinematics(finger);
     const contact = computeContact(object({ kind: 'sphere', radius: 0.04 }), finger, 1e-4);
     // A quarter turn of the roll joint (about z) carries the world direction -x back to -y in the roller frame.
-    close(contact.rollerPointLocal, [0, 0.01, 0]);
+    expect(contact.rollerPointLocal).toBeNear([0, 0.01, 0], { digits: 12 });
     expect(contact.latitude).toBeCloseTo(0, 14);
     // Longitude measured from the meridian finger.rollerMeridian towards rollerQuarterMeridian.
     const u = [0, 1, 0];
@@ -123,8 +119,8 @@ describe('computeContact', () => {
   it('cylinder roller lying on a box face: gap = height of the axis - face - radius (line contact, middle chosen)', () => {
     const contact = computeContact(object({ kind: 'box', halfExtents: [0.1, 0.1, 0.02], filletRadius: 0 }), createFinger(cylinderFinger([0.01, 0.02, 0.035], [1, 0, 0], 0.01, 0.005)), 1e-4);
     expect(contact.gap).toBeCloseTo(0.035 - 0.02 - 0.01, 14);
-    close(contact.normal, [0, 0, 1]);
-    close(contact.rollerPoint, [0.01, 0.02, 0.025]);
+    expect(contact.normal).toBeNear([0, 0, 1], { digits: 12 });
+    expect(contact.rollerPoint).toBeNear([0.01, 0.02, 0.025], { digits: 12 });
   });
 
   it('cylinder roller across a ball: gap = distance from the ball centre to the axis line - R - rho', () => {
@@ -137,8 +133,8 @@ describe('computeContact', () => {
     const contact = computeContact(object({ kind: 'sphere', radius: 0.02 }), createFinger(cylinderFinger(c, axis, 0.002, 0.06)), 1e-4);
     expect(contact.gap).toBeCloseTo(d - 0.02 - 0.002, 13);
     expect(contact.gap).toBeGreaterThan(0);
-    close(contact.normal, foot.map((v) => v / d));
-    close(contact.rollerPoint, foot.map((v) => v * (1 - 0.002 / d)));
+    expect(contact.normal).toBeNear(foot.map((v) => v / d), { digits: 12 });
+    expect(contact.rollerPoint).toBeNear(foot.map((v) => v * (1 - 0.002 / d)), { digits: 12 });
   });
 
   it('cylinder roller overlapping a ball on its curved face reports the penetration exactly', () => {
@@ -153,6 +149,6 @@ describe('computeContact', () => {
     const contact = computeContact(object({ kind: 'box', halfExtents: [0.1, 0.1, 0.02], filletRadius: 0 }), createFinger(cylinderFinger([0, 0, 0.05], axis, 0.01, 0.01)), 1e-4);
     const lowest = 0.05 - (0.01 * Math.cos(tilt) + 0.01 * Math.sin(tilt));
     expect(contact.gap).toBeCloseTo(lowest - 0.02, 9);
-    close(contact.normal, [0, 0, 1], 9);
+    expect(contact.normal).toBeNear([0, 0, 1], { digits: 9 });
   });
 });

@@ -3,10 +3,6 @@ import { gjkDistance, posedShape, supportPosed, createGjkWorkspace } from '../..
 import { boxShape, capsuleShape, cylinderShape, ellipsoidShape, sphereShape, signedDistance } from '../../../src/lib/kinematics/shapes';
 import { fromAxisAngle, toMatrix3 } from '../../../src/lib/kinematics/quat';
 
-function close(actual: ArrayLike<number>, expected: ArrayLike<number>, digits = 9) {
-  for (let i = 0; i < expected.length; i++) expect(actual[i]).toBeCloseTo(expected[i], digits);
-}
-
 describe('supportPosed', () => {
   it('rotates the direction into the shape frame and the point back out', () => {
     const rotation = toMatrix3(fromAxisAngle([0, 0, 1], Math.PI / 2));
@@ -14,7 +10,7 @@ describe('supportPosed', () => {
     const out = new Float64Array(3);
     supportPosed(s, [1, 1, 1], out, 0, createGjkWorkspace());
     // A quarter turn about z maps the box's x extent onto world y (right-hand rule).
-    close(out, [1 + 0.2, 2 + 0.1, 3 + 0.3], 14);
+    expect(out).toBeNear([1 + 0.2, 2 + 0.1, 3 + 0.3], { digits: 14 });
   });
 });
 
@@ -25,8 +21,8 @@ describe('gjkDistance', () => {
     const r = gjkDistance(a, b);
     expect(r.intersecting).toBe(false);
     expect(r.distance).toBeCloseTo(3 - 0.5, 9);
-    close(r.pointA, [0.1, 0.2, 0.2]);
-    close(r.pointB, [1 - 0.2 / 3, 2 - 0.4 / 3, 2 - 0.4 / 3]);
+    expect(r.pointA).toBeNear([0.1, 0.2, 0.2], { digits: 9 });
+    expect(r.pointB).toBeNear([1 - 0.2 / 3, 2 - 0.4 / 3, 2 - 0.4 / 3], { digits: 9 });
   });
 
   it('box-sphere: distance to the clamped centre minus the radius (Ericson 2005, sec. 5.1.3 and 5.2.5)', () => {
@@ -39,7 +35,7 @@ describe('gjkDistance', () => {
     const expected = Math.hypot(c[0] - q[0], c[1] - q[1], c[2] - q[2]) - 0.05;
     const r = gjkDistance(a, b);
     expect(r.distance).toBeCloseTo(expected, 9);
-    close(r.pointA, q);
+    expect(r.pointA).toBeNear(q, { digits: 9 });
   });
 
   it('cylinder lying on a wide flat box: height of the axis above the face minus the radius', () => {

@@ -5,10 +5,6 @@ import type { FingerInput } from '../../../src/lib/sheet/types';
 
 glMatrix.setMatrixArrayType(Array);
 
-function close(actual: ArrayLike<number>, expected: ArrayLike<number>, digits = 12) {
-  for (let i = 0; i < expected.length; i++) expect(actual[i]).toBeCloseTo(expected[i], digits);
-}
-
 const l1 = 0.05, l2 = 0.035;
 const planar: FingerInput = {
   name: 'planar',
@@ -30,7 +26,7 @@ describe('jointExponential', () => {
     mat4.translate(m, m, glVec3.fromValues(-point[0], -point[1], -point[2]));
     // gl-matrix mat4 is column-major: entry (row i, column j) is m[4 j + i].
     for (let i = 0; i < 3; i++) for (let j = 0; j < 3; j++) expect(R[3 * i + j]).toBeCloseTo(m[4 * j + i], 14);
-    close(t, [m[12], m[13], m[14]], 14);
+    expect(t).toBeNear([m[12], m[13], m[14]], { digits: 14 });
   });
 });
 
@@ -41,10 +37,10 @@ describe('forwardKinematics', () => {
       finger.angles[0] = q1;
       finger.angles[1] = q2;
       forwardKinematics(finger);
-      close(finger.rollerCenter, [l1 * Math.cos(q1) + l2 * Math.cos(q1 + q2), l1 * Math.sin(q1) + l2 * Math.sin(q1 + q2), 0]);
+      expect(finger.rollerCenter).toBeNear([l1 * Math.cos(q1) + l2 * Math.cos(q1 + q2), l1 * Math.sin(q1) + l2 * Math.sin(q1 + q2), 0], { digits: 12 });
       // The second joint's point moves with the first link to (l1 cos q1, l1 sin q1).
-      close(finger.points.subarray(3, 6), [l1 * Math.cos(q1), l1 * Math.sin(q1), 0]);
-      close(finger.axes.subarray(3, 6), [0, 0, 1]);
+      expect(finger.points.subarray(3, 6)).toBeNear([l1 * Math.cos(q1), l1 * Math.sin(q1), 0], { digits: 12 });
+      expect(finger.axes.subarray(3, 6)).toBeNear([0, 0, 1], { digits: 12 });
     }
   });
 
@@ -75,18 +71,18 @@ describe('forwardKinematics', () => {
       mat4.multiply(g, g, e);
     }
     for (let k = 0; k < 3; k++) {
-      close(finger.axes.subarray(3 * k, 3 * k + 3), expectedAxes[k]);
+      expect(finger.axes.subarray(3 * k, 3 * k + 3)).toBeNear(expectedAxes[k], { digits: 12 });
       const p = finger.points.subarray(3 * k, 3 * k + 3);
       // A point on the axis is defined up to sliding along it; compare the component off the axis.
       const d = [p[0] - expectedPoints[k][0], p[1] - expectedPoints[k][1], p[2] - expectedPoints[k][2]];
       const w = expectedAxes[k];
       const along = d[0] * w[0] + d[1] * w[1] + d[2] * w[2];
-      close(d.map((c, i) => c - along * w[i]), [0, 0, 0]);
+      expect(d.map((c, i) => c - along * w[i])).toBeNear([0, 0, 0], { digits: 12 });
     }
-    close(finger.rollerCenter, [...glVec3.transformMat4(glVec3.create(), glVec3.fromValues(0.07, 0.01, 0.005), g)]);
+    expect(finger.rollerCenter).toBeNear([...glVec3.transformMat4(glVec3.create(), glVec3.fromValues(0.07, 0.01, 0.005), g)], { digits: 12 });
     const axis = glVec3.transformMat4(glVec3.create(), glVec3.fromValues(1, 0, 0), g);
     glVec3.subtract(axis, axis, glVec3.transformMat4(glVec3.create(), glVec3.create(), g));
-    close(finger.rollerAxis, [...axis]);
+    expect(finger.rollerAxis).toBeNear([...axis], { digits: 12 });
   });
 
   it('records roles, limits and a sphere roller axis from the roll joint', () => {
@@ -94,6 +90,6 @@ describe('forwardKinematics', () => {
     expect([finger.baseIndex, finger.pivotIndex, finger.rollIndex]).toEqual([0, -1, 1]);
     expect([finger.lowerLimits[0], finger.upperLimits[0], finger.rateLimits[0]]).toEqual([-1, 1, 3]);
     expect(finger.upperLimits[1]).toBe(Infinity);
-    close(finger.rollerAxis, [0, 0, 1]);
+    expect(finger.rollerAxis).toBeNear([0, 0, 1], { digits: 12 });
   });
 });

@@ -61,16 +61,6 @@ function mlSingularValues(rows: number[][]): number[] {
   return new SingularValueDecomposition(rows, { autoTranspose: true }).diagonal;
 }
 
-function expectClose(actual: ArrayLike<number>, expected: ArrayLike<number>, tol: number): void {
-  expect(actual.length).toBe(expected.length);
-  for (let i = 0; i < expected.length; i++) expect(Math.abs(actual[i]! - expected[i]!)).toBeLessThanOrEqual(tol);
-}
-
-function expectMatrixClose(actual: number[][], expected: number[][], tol: number): void {
-  expect(actual.length).toBe(expected.length);
-  for (let i = 0; i < expected.length; i++) expectClose(actual[i]!, expected[i]!, tol);
-}
-
 const ws = createLinalgWorkspace(6, 40);
 
 describe('singularValues', () => {
@@ -79,7 +69,7 @@ describe('singularValues', () => {
       [0.96, 1.72],
       [2.28, 0.96],
     ]);
-    expectClose(singularValues(a, new Float64Array(2), ws), [3, 1], 1e-14);
+    expect(singularValues(a, new Float64Array(2), ws)).toBeNear([3, 1], { abs: 1e-14 });
   });
 
   it('matches Strang, Introduction to Linear Algebra (Ch. 7): [[3,0],[4,5]] has sigma = 3 sqrt5, sqrt5 (value from memory)', () => {
@@ -87,7 +77,7 @@ describe('singularValues', () => {
       [3, 0],
       [4, 5],
     ]);
-    expectClose(singularValues(a, new Float64Array(2), ws), [3 * Math.sqrt(5), Math.sqrt(5)], 1e-13);
+    expect(singularValues(a, new Float64Array(2), ws)).toBeNear([3 * Math.sqrt(5), Math.sqrt(5)], { abs: 1e-13 });
   });
 
   it('matches the common 2 x 3 textbook-style example [[3,2,2],[2,3,-2]]: sigma = 5, 3 (eigenvalues 25, 9 of A A^T; value from memory)', () => {
@@ -95,12 +85,12 @@ describe('singularValues', () => {
       [3, 2, 2],
       [2, 3, -2],
     ]);
-    expectClose(singularValues(a, new Float64Array(2), ws), [5, 3], 1e-14);
+    expect(singularValues(a, new Float64Array(2), ws)).toBeNear([5, 3], { abs: 1e-14 });
   });
 
   it('returns exact zeros for the zero matrix and sigma = 2, 0 for the rank-one all-ones 2 x 2', () => {
-    expectClose(singularValues(createMatrix(3, 5), new Float64Array(3), ws), [0, 0, 0], 0);
-    expectClose(singularValues(matrixFromRows([[1, 1], [1, 1]]), new Float64Array(2), ws), [2, 0], 1e-15);
+    expect(singularValues(createMatrix(3, 5), new Float64Array(3), ws)).toBeNear([0, 0, 0], { abs: 0 });
+    expect(singularValues(matrixFromRows([[1, 1], [1, 1]]), new Float64Array(2), ws)).toBeNear([2, 0], { abs: 1e-15 });
   });
 
   for (const [m, n] of SHAPES) {
@@ -109,7 +99,7 @@ describe('singularValues', () => {
           const rows = randomRows(random, m, n);
           const expected = mlSingularValues(rows);
           const actual = singularValues(matrixFromRows(rows), new Float64Array(Math.min(m, n)), ws);
-          expectClose(actual, expected, 1e-12 * Math.max(1, expected[0]!));
+          expect(actual).toBeNear(expected, { abs: 1e-12 * Math.max(1, expected[0]!) });
       });
     });
   }
@@ -120,10 +110,10 @@ describe('singularValues', () => {
       const base = mlSingularValues(rows);
       for (const factor of [1e-200, 1e-90, 1e-30, 1e30, 1e90, 1e200]) {
         const scaled = singularValues(matrixFromRows(rows.map((r) => r.map((x) => x * factor))), new Float64Array(3), ws);
-        expectClose(Array.from(scaled, (x) => x / factor), base, 1e-12 * base[0]!);
+        expect(Array.from(scaled, (x) => x / factor)).toBeNear(base, { abs: 1e-12 * base[0]! });
       }
     });
-    expectClose(singularValues(matrixFromRows([[0, 0, 0], [0, -5e-324, 0]]), new Float64Array(2), ws), [5e-324, 0], 0);
+    expect(singularValues(matrixFromRows([[0, 0, 0], [0, -5e-324, 0]]), new Float64Array(2), ws)).toBeNear([5e-324, 0], { abs: 0 });
   });
 
   it('leaves the input matrix untouched', () => {
@@ -199,12 +189,12 @@ function checkFactorization(rows: number[][], m: number, n: number): void {
   const v = new MlMatrix(matrixToRows(f.v));
   const scale = Math.max(1, f.s[0]!);
   const rebuilt = u.mmul(MlMatrix.diag(Array.from(f.s))).mmul(v.transpose()).to2DArray();
-  expectMatrixClose(rebuilt, rows, 1e-12 * scale);
+  expect(rebuilt).toBeNear(rows, { abs: 1e-12 * scale });
   const identity = MlMatrix.eye(k).to2DArray();
-  expectMatrixClose(u.transpose().mmul(u).to2DArray(), identity, 1e-12);
-  expectMatrixClose(v.transpose().mmul(v).to2DArray(), identity, 1e-12);
+  expect(u.transpose().mmul(u).to2DArray()).toBeNear(identity, { abs: 1e-12 });
+  expect(v.transpose().mmul(v).to2DArray()).toBeNear(identity, { abs: 1e-12 });
   for (let i = 1; i < k; i++) expect(f.s[i - 1]!).toBeGreaterThanOrEqual(f.s[i]!);
-  expectClose(f.s, mlSingularValues(rows), 1e-12 * scale);
+  expect(f.s).toBeNear(mlSingularValues(rows), { abs: 1e-12 * scale });
 }
 
 describe('rank', () => {
@@ -284,7 +274,7 @@ describe('pseudoInverse', () => {
           const expected = mlPseudoInverse(rows).to2DArray();
           const ours = matrixToRows(pseudoInverse(matrixFromRows(rows), createMatrix(n, m), ws));
           const scale = Math.max(1, ...expected.flat().map(Math.abs));
-          expectMatrixClose(ours, expected, 1e-9 * scale);
+          expect(ours).toBeNear(expected, { abs: 1e-9 * scale });
       });
     });
   }
@@ -296,10 +286,10 @@ describe('pseudoInverse', () => {
         const x = new MlMatrix(matrixToRows(pseudoInverse(matrixFromRows(rows), createMatrix(5, 3), ws)));
         const ax = a.mmul(x);
         const xa = x.mmul(a);
-        expectMatrixClose(ax.mmul(a).to2DArray(), rows, 1e-10);
-        expectMatrixClose(xa.mmul(x).to2DArray(), x.to2DArray(), 1e-8 * Math.max(1, Math.max(...x.to2DArray().flat().map(Math.abs))));
-        expectMatrixClose(ax.to2DArray(), ax.transpose().to2DArray(), 1e-10);
-        expectMatrixClose(xa.to2DArray(), xa.transpose().to2DArray(), 1e-10);
+        expect(ax.mmul(a).to2DArray()).toBeNear(rows, { abs: 1e-10 });
+        expect(xa.mmul(x).to2DArray()).toBeNear(x.to2DArray(), { abs: 1e-8 * Math.max(1, Math.max(...x.to2DArray().flat().map(Math.abs))) });
+        expect(ax.to2DArray()).toBeNear(ax.transpose().to2DArray(), { abs: 1e-10 });
+        expect(xa.to2DArray()).toBeNear(xa.transpose().to2DArray(), { abs: 1e-10 });
     });
   });
 });
@@ -318,7 +308,7 @@ describe('dampedLeastSquares', () => {
           const expected = mlSolve(augmented, rhs).getColumn(0);
           const ours = dampedLeastSquares(matrixFromRows(rows), b, lambda, new Float64Array(n), ws);
           const scale = Math.max(1, ...expected.map(Math.abs));
-          expectClose(ours, expected, 1e-8 * scale);
+          expect(ours).toBeNear(expected, { abs: 1e-8 * scale });
       });
     });
   }
@@ -332,7 +322,7 @@ describe('dampedLeastSquares', () => {
         const g = j.mmul(j.transpose()).add(MlMatrix.eye(3).mul(lambda * lambda));
         const y = new CholeskyDecomposition(g).solve(MlMatrix.columnVector(b));
         const expected = j.transpose().mmul(y).getColumn(0);
-        expectClose(dampedLeastSquares(matrixFromRows(rows), b, lambda, new Float64Array(4), ws), expected, 1e-9);
+        expect(dampedLeastSquares(matrixFromRows(rows), b, lambda, new Float64Array(4), ws)).toBeNear(expected, { abs: 1e-9 });
     });
   });
 
@@ -343,7 +333,7 @@ describe('dampedLeastSquares', () => {
         const expected = mlPseudoInverse(rows).mmul(MlMatrix.columnVector(b)).getColumn(0);
         const ours = dampedLeastSquares(matrixFromRows(rows), b, 0, new Float64Array(5), ws);
         const scale = Math.max(1, ...expected.map(Math.abs));
-        expectClose(ours, expected, 1e-7 * scale);
+        expect(ours).toBeNear(expected, { abs: 1e-7 * scale });
     });
   });
 
@@ -364,7 +354,7 @@ describe('dampedLeastSquares', () => {
       });
       const ours = dampedLeastSquares(matrixFromRows(rows), b, lambda, new Float64Array(5), ws);
       // x moves by about |dJ| / lambda^2 under a perturbation dJ of J, so both SVDs' rounding is scaled alike.
-      expectClose(ours, expected, (1e-13 / (lambda * lambda)) * Math.max(1, ...expected.map(Math.abs)));
+      expect(ours).toBeNear(expected, { abs: (1e-13 / (lambda * lambda)) * Math.max(1, ...expected.map(Math.abs)) });
     });
   });
 
@@ -384,7 +374,7 @@ describe('nullSpace', () => {
     expect(nullSpace(matrixFromRows([[3, 2, 2], [2, 3, -2]]), out, ws)).toBe(1);
     const v = [out.data[0]!, out.data[3]!, out.data[6]!];
     const sign = Math.sign(v[0]!);
-    expectClose(v.map((x) => x * sign), [2 / 3, -2 / 3, -1 / 3], 1e-14);
+    expect(v.map((x) => x * sign)).toBeNear([2 / 3, -2 / 3, -1 / 3], { abs: 1e-14 });
   });
 
   for (const [m, n, r] of [
@@ -403,8 +393,8 @@ describe('nullSpace', () => {
           const basis = new MlMatrix(matrixToRows(out)).subMatrix(0, n - 1, 0, Math.max(0, d - 1));
           if (d === 0) return;
           const product = new MlMatrix(rows).mmul(basis).to2DArray();
-          expectMatrixClose(product, product.map((row) => row.map(() => 0)), 1e-10);
-          expectMatrixClose(basis.transpose().mmul(basis).to2DArray(), MlMatrix.eye(d).to2DArray(), 1e-12);
+          expect(product).toBeNear(product.map((row) => row.map(() => 0)), { abs: 1e-10 });
+          expect(basis.transpose().mmul(basis).to2DArray()).toBeNear(MlMatrix.eye(d).to2DArray(), { abs: 1e-12 });
       });
     });
   }
@@ -416,7 +406,7 @@ describe('multiplyVector', () => {
         const rows = randomRows(random, 3, 5);
         const x = randomVector(random, 5);
         const expected = new MlMatrix(rows).mmul(MlMatrix.columnVector(x)).getColumn(0);
-        expectClose(multiplyVector(matrixFromRows(rows), x, new Float64Array(3)), expected, 1e-14);
+        expect(multiplyVector(matrixFromRows(rows), x, new Float64Array(3))).toBeNear(expected, { abs: 1e-14 });
     });
   });
 });
@@ -428,7 +418,7 @@ describe('multiplyMatrices', () => {
         const b = randomRows(random, 4, 2);
         const out: Matrix = createMatrix(3, 2);
         multiplyMatrices(matrixFromRows(a), matrixFromRows(b), out);
-        expectMatrixClose(matrixToRows(out), new MlMatrix(a).mmul(new MlMatrix(b)).to2DArray(), 1e-13);
+        expect(matrixToRows(out)).toBeNear(new MlMatrix(a).mmul(new MlMatrix(b)).to2DArray(), { abs: 1e-13 });
     });
     expect(() => multiplyMatrices(createMatrix(2, 3), createMatrix(2, 3), createMatrix(2, 3))).toThrow(RangeError);
   });

@@ -184,10 +184,10 @@ describe('rotationDistances', () => {
     const singles = [quaternionDifferenceNorm, quaternionInnerProductAngle, quaternionInnerProductDistance, rotationMatrixDeviation, geodesicAngle];
     forEachPair(13, 100, (q1, q2) => {
       const out = rotationDistances(q1, q2, new Float64Array(5));
-      singles.forEach((f, i) => expect(out[i]).toBeCloseTo(f(q1, q2), 15));
+      expect(out).toBeNear(singles.map((f) => f(q1, q2)), { digits: 15 });
     });
     const half = rotationDistances([0, 0, 0, 1], [0, 1, 0, 0], [0, 0, 0, 0, 0]);
-    ROTATION_METRICS.forEach((metric, i) => expect(half[i]).toBeCloseTo(metric.max, 14));
+    expect(half).toBeNear(ROTATION_METRICS.map((metric) => metric.max), { digits: 14 });
     expect(ROTATION_METRICS.map((m) => m.key)).toEqual(['phi2', 'phi3', 'phi4', 'phi5', 'phi6']);
   });
 });

@@ -86,6 +86,6 @@ describe('fillGaussian', () => {
     const a = createRandom(5);
     const b = createRandom(5);
     const out = fillGaussian(a, 0.01, new Float64Array(6));
-    for (let i = 0; i < 6; i++) expect(out[i]).toBeCloseTo(0.01 * nextGaussian(b), 15);
+    expect(out).toBeNear(Array.from({ length: 6 }, () => 0.01 * nextGaussian(b)), { digits: 15 });
   });
 });

@@ -48,7 +48,7 @@ describe('runSheet', () => {
       const expected = glQuat.setAxisAngle(glQuat.create(), [0, 0, 1] as GlVec3, turned) as number[];
       const q = Array.from(r.orientation.subarray(4 * k, 4 * k + 4));
       const sign = Math.sign(q[3]!) * Math.sign(expected[3]!);
-      q.forEach((x, i) => expect(x * sign).toBeCloseTo(expected[i]!, 12));
+      expect(q.map((x) => x * sign)).toBeNear(expected, { digits: 12 });
     }
   });
 
@@ -276,7 +276,7 @@ describe('steered run toward a rotation about a known axis', () => {
     const turned = theta0 - theta0 * (1 - s.gain * s.dt) ** last;
     const expected = glQuat.setAxisAngle(glQuat.create(), [1, 0, 0] as GlVec3, turned) as number[];
     const q = Array.from(r.orientation.subarray(4 * last, 4 * last + 4));
-    q.forEach((x, i) => expect(x).toBeCloseTo(expected[i]!, 12));
+    expect(q).toBeNear(expected, { digits: 12 });
     const target = glQuat.setAxisAngle(glQuat.create(), [1, 0, 0] as GlVec3, theta0);
     expect(glQuat.getAngle(target, q as unknown as glQuat)).toBeLessThanOrEqual(s.angleTolerance);
   });

@@ -4,10 +4,6 @@ import {
   signedDistance, sphereShape, support, type ConvexShape,
 } from '../../../src/lib/kinematics/shapes';
 
-function close(actual: ArrayLike<number>, expected: ArrayLike<number>, digits = 12) {
-  for (let i = 0; i < expected.length; i++) expect(actual[i]).toBeCloseTo(expected[i], digits);
-}
-
 const clamp = (v: number, lo: number, hi: number) => Math.min(Math.max(v, lo), hi);
 
 // Brute-force check: the smallest distance from p to a dense sampling of the ellipsoid surface
@@ -42,10 +38,10 @@ describe('shapeFromInput', () => {
     expect(shapeFromInput({ kind: 'sphere', radius: 0.04 })).toMatchObject({ kind: 'sphere', radius: 0.04 });
     const box = shapeFromInput({ kind: 'box', halfExtents: [0.1, 0.2, 0.3], filletRadius: 0.01 });
     expect(box.radius).toBe(0.01);
-    close(box.extents, [0.1, 0.2, 0.3]);
+    expect(box.extents).toBeNear([0.1, 0.2, 0.3], { digits: 12 });
     expect(shapeFromInput({ kind: 'cylinder', radius: 0.03, halfLength: 0.05 })).toMatchObject({ radius: 0.03, halfLength: 0.05 });
     expect(shapeFromInput({ kind: 'capsule', radius: 0.03, halfLength: 0.05 }).kind).toBe('capsule');
-    close(shapeFromInput({ kind: 'ellipsoid', semiAxes: [0.3, 0.2, 0.1] }).extents, [0.3, 0.2, 0.1]);
+    expect(shapeFromInput({ kind: 'ellipsoid', semiAxes: [0.3, 0.2, 0.1] }).extents).toBeNear([0.3, 0.2, 0.1], { digits: 12 });
   });
 });
 
@@ -55,8 +51,8 @@ describe('closestSurfacePoint', () => {
     for (const p of [[1, 2, 2], [0.1, -0.2, 0.05]]) {
       const len = Math.hypot(p[0], p[1], p[2]);
       const q = closestSurfacePoint(s, p);
-      close(q.point, p.map((c) => (0.5 * c) / len));
-      close(q.normal, p.map((c) => c / len));
+      expect(q.point).toBeNear(p.map((c) => (0.5 * c) / len), { digits: 12 });
+      expect(q.normal).toBeNear(p.map((c) => c / len), { digits: 12 });
       expect(q.signedDistance).toBeCloseTo(len - 0.5, 12);
     }
   });
@@ -67,15 +63,15 @@ describe('closestSurfacePoint', () => {
     for (const p of [[0.5, 0.05, -0.1], [0.4, -0.5, 0.6], [-0.05, 0.3, 0.1]]) {
       const expected = p.map((c, i) => clamp(c, -e[i], e[i]));
       const q = closestSurfacePoint(box, p);
-      close(q.point, expected);
+      expect(q.point).toBeNear(expected, { digits: 12 });
       expect(q.signedDistance).toBeCloseTo(Math.hypot(p[0] - expected[0], p[1] - expected[1], p[2] - expected[2]), 12);
     }
   });
 
   it('box inside: nearest face, negative distance to it (Ericson 2005, sec. 5.1.3, interior case)', () => {
     const q = closestSurfacePoint(boxShape([0.1, 0.2, 0.3]), [0.05, 0.02, -0.01]);
-    close(q.point, [0.1, 0.02, -0.01]);
-    close(q.normal, [1, 0, 0]);
+    expect(q.point).toBeNear([0.1, 0.02, -0.01], { digits: 12 });
+    expect(q.normal).toBeNear([1, 0, 0], { digits: 12 });
     expect(q.signedDistance).toBeCloseTo(-0.05, 12);
   });
 
@@ -87,7 +83,7 @@ describe('closestSurfacePoint', () => {
     const dCore = Math.hypot(p[0] - core[0], p[1] - core[1], p[2] - core[2]);
     const q = closestSurfacePoint(box, p);
     expect(q.signedDistance).toBeCloseTo(dCore - f, 12);
-    close(q.point, core.map((c, i) => c + (f * (p[i] - c)) / dCore));
+    expect(q.point).toBeNear(core.map((c, i) => c + (f * (p[i] - c)) / dCore), { digits: 12 });
     // On a flat face the fillet does not matter.
     expect(signedDistance(box, [0.15, 0, 0])).toBeCloseTo(0.05, 12);
   });
@@ -99,27 +95,27 @@ describe('closestSurfacePoint', () => {
       const d = Math.hypot(p[0] - s[0], p[1] - s[1], p[2] - s[2]);
       const q = closestSurfacePoint(cap, p);
       expect(q.signedDistance).toBeCloseTo(d - 0.02, 12);
-      close(q.normal, p.map((c, i) => (c - s[i]) / d));
+      expect(q.normal).toBeNear(p.map((c, i) => (c - s[i]) / d), { digits: 12 });
     }
   });
 
   it('cylinder: side, cap, rim and interior cases (radial and axial clamps, common practice)', () => {
     const cyl = cylinderShape(0.03, 0.05);
     let q = closestSurfacePoint(cyl, [0.06, 0.08, 0.01]);
-    close(q.point, [0.018, 0.024, 0.01]);
+    expect(q.point).toBeNear([0.018, 0.024, 0.01], { digits: 12 });
     expect(q.signedDistance).toBeCloseTo(0.07, 12);
     q = closestSurfacePoint(cyl, [0.01, 0, 0.09]);
-    close(q.point, [0.01, 0, 0.05]);
-    close(q.normal, [0, 0, 1]);
+    expect(q.point).toBeNear([0.01, 0, 0.05], { digits: 12 });
+    expect(q.normal).toBeNear([0, 0, 1], { digits: 12 });
     expect(q.signedDistance).toBeCloseTo(0.04, 12);
     q = closestSurfacePoint(cyl, [0.06, 0, -0.09]);
-    close(q.point, [0.03, 0, -0.05]);
+    expect(q.point).toBeNear([0.03, 0, -0.05], { digits: 12 });
     expect(q.signedDistance).toBeCloseTo(0.05, 12);
     q = closestSurfacePoint(cyl, [0.025, 0, 0.0]);
-    close(q.point, [0.03, 0, 0]);
+    expect(q.point).toBeNear([0.03, 0, 0], { digits: 12 });
     expect(q.signedDistance).toBeCloseTo(-0.005, 12);
     q = closestSurfacePoint(cyl, [0, 0.001, 0.049]);
-    close(q.normal, [0, 0, 1]);
+    expect(q.normal).toBeNear([0, 0, 1], { digits: 12 });
     expect(q.signedDistance).toBeCloseTo(-0.001, 12);
   });
 
@@ -127,7 +123,7 @@ describe('closestSurfacePoint', () => {
     const p = [0.3, -0.2, 0.5];
     const a = closestSurfacePoint(ellipsoidShape([0.25, 0.25, 0.25]), p);
     const b = closestSurfacePoint(sphereShape(0.25), p);
-    close(a.point, b.point);
+    expect(a.point).toBeNear(b.point, { digits: 12 });
     expect(a.signedDistance).toBeCloseTo(b.signedDistance, 12);
   });
 
@@ -195,6 +191,6 @@ describe('support', () => {
     }
   });
   it('box corner for a diagonal direction is the outer corner when unfilleted (Ericson 2005, sec. 9.5)', () => {
-    close(support(boxShape([0.1, 0.2, 0.3]), [1, -1, 1]), [0.1, -0.2, 0.3]);
+    expect(support(boxShape([0.1, 0.2, 0.3]), [1, -1, 1])).toBeNear([0.1, -0.2, 0.3], { digits: 12 });
   });
 });

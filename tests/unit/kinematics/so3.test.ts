@@ -8,18 +8,6 @@ import { createRandom, nextGaussian, nextUniform, type RandomSource } from '../.
 // Rodrigues' formula as printed in Lynch & Park, "Modern Robotics" (2017), eq. (3.51), and Murray, Li & Sastry (1994), eq. (2.14).
 glMatrix.setMatrixArrayType(Array);
 
-function close(actual: ArrayLike<number>, expected: ArrayLike<number>, tolerance = 1e-12) {
-  expect(actual.length).toBe(expected.length);
-  for (let i = 0; i < expected.length; i++) expect(Math.abs(actual[i]! - expected[i]!)).toBeLessThanOrEqual(tolerance);
-}
-
-/** Same rotation: q and -q both accepted. */
-function closeRotation(actual: ArrayLike<number>, expected: ArrayLike<number>, tolerance = 1e-12) {
-  const dot = actual[0]! * expected[0]! + actual[1]! * expected[1]! + actual[2]! * expected[2]! + actual[3]! * expected[3]!;
-  const sign = dot < 0 ? -1 : 1;
-  close(Array.from(actual, (x) => x * sign), expected, tolerance);
-}
-
 function randomUnitVector(random: RandomSource): number[] {
   const v = [nextGaussian(random), nextGaussian(random), nextGaussian(random)];
   const n = Math.hypot(v[0]!, v[1]!, v[2]!);
@@ -60,7 +48,7 @@ describe('expMap', () => {
       const axis = randomUnitVector(random);
       const angle = 4 * Math.PI * (nextUniform(random) - 0.5);
       const expected = glQuat.setAxisAngle(glQuat.create(), axis as glVec3, angle);
-      close(expMap(axis.map((x) => x * angle)), expected as number[], 1e-15);
+      expect(expMap(axis.map((x) => x * angle))).toBeNear(expected as number[], { abs: 1e-15 });
     }
   });
 
@@ -69,12 +57,12 @@ describe('expMap', () => {
     for (let i = 0; i < 100; i++) {
       const axis = randomUnitVector(random);
       const angle = Math.PI * nextUniform(random);
-      close(toMatrix3(expMap(axis.map((x) => x * angle))), rodrigues(axis, angle), 1e-14);
+      expect(toMatrix3(expMap(axis.map((x) => x * angle)))).toBeNear(rodrigues(axis, angle), { abs: 1e-14 });
     }
   });
 
   it('is exact to rounding at tiny angles (series branch), matching sin(angle/2)/angle in long form at the switch', () => {
-    close(expMap([0, 0, 0]), [0, 0, 0, 1], 0);
+    expect(expMap([0, 0, 0])).toBeNear([0, 0, 0, 1], { abs: 0 });
     for (const angle of [1e-12, 1e-8, 0.99e-4, 1.01e-4]) {
       const expected = glQuat.setAxisAngle(glQuat.create(), [0.6, 0, 0.8], angle) as number[];
       const actual = expMap([0.6 * angle, 0, 0.8 * angle]);
@@ -97,8 +85,8 @@ describe('logMap', () => {
       const axis = randomUnitVector(random);
       const angle = 0.01 + (Math.PI - 0.02) * nextUniform(random);
       const q = glQuat.setAxisAngle(glQuat.create(), axis as glVec3, angle) as number[];
-      close(logMap(q), axis.map((x) => x * angle), 1e-13);
-      close(logMap(q), matrixLog(toMatrix3(q)), 1e-11);
+      expect(logMap(q)).toBeNear(axis.map((x) => x * angle), { abs: 1e-13 });
+      expect(logMap(q)).toBeNear(matrixLog(toMatrix3(q)), { abs: 1e-11 });
     }
   });
 
@@ -111,9 +99,9 @@ describe('logMap', () => {
       // getAxisAngle returns angles in [0, 2 pi]; beyond pi the same rotation is -axis turned by 2 pi - angle.
       if (angle > Math.PI) angle -= 2 * Math.PI;
       const r = logMap(q);
-      close(r, Array.from(axis, (x) => x * angle), 1e-12);
+      expect(r).toBeNear(Array.from(axis, (x) => x * angle), { abs: 1e-12 });
       expect(Math.hypot(r[0]!, r[1]!, r[2]!)).toBeLessThanOrEqual(Math.PI + 1e-15);
-      close(logMap(q.map((x) => -x)), r, 1e-15);
+      expect(logMap(q.map((x) => -x))).toBeNear(r, { abs: 1e-15 });
     }
   });
 
@@ -126,11 +114,11 @@ describe('logMap', () => {
   });
 
   it('is accurate near pi: exactly pi about z, and pi - 1e-9 from both sides of w = 0', () => {
-    close(logMap([0, 0, 1, 0]), [0, 0, Math.PI], 1e-15);
+    expect(logMap([0, 0, 1, 0])).toBeNear([0, 0, Math.PI], { abs: 1e-15 });
     for (const angle of [Math.PI - 1e-9, Math.PI + 1e-9]) {
       const q = glQuat.setAxisAngle(glQuat.create(), [0, 1, 0], angle) as number[];
       const expected = angle > Math.PI ? -(2 * Math.PI - angle) : angle;
-      close(logMap(q), [0, expected, 0], 1e-14);
+      expect(logMap(q)).toBeNear([0, expected, 0], { abs: 1e-14 });
     }
   });
 
@@ -138,7 +126,7 @@ describe('logMap', () => {
     const random = createRandom(5);
     for (let i = 0; i < 200; i++) {
       const q = randomQuat(random);
-      closeRotation(expMap(logMap(q)), q, 1e-14);
+      expect(expMap(logMap(q))).toBeNear(q, { abs: 1e-14, upToSign: true });
     }
   });
 
@@ -163,8 +151,8 @@ describe('poseError', () => {
       let angle = glQuat.getAxisAngle(axis, relative);
       if (angle > Math.PI) angle -= 2 * Math.PI;
       const error = poseError(p, q, pt, target, new Float64Array(6));
-      close(error.subarray(0, 3), [pt[0]! - p[0]!, pt[1]! - p[1]!, pt[2]! - p[2]!], 1e-15);
-      close(error.subarray(3), Array.from(axis, (x) => x * angle), 1e-11);
+      expect(error.subarray(0, 3)).toBeNear([pt[0]! - p[0]!, pt[1]! - p[1]!, pt[2]! - p[2]!], { abs: 1e-15 });
+      expect(error.subarray(3)).toBeNear(Array.from(axis, (x) => x * angle), { abs: 1e-11 });
     }
   });
 
@@ -172,9 +160,9 @@ describe('poseError', () => {
     const random = createRandom(7);
     const q = randomQuat(random);
     const target = randomQuat(random);
-    close(poseError([1, 2, 3], q, [1, 2, 3], q, [0, 0, 0, 0, 0, 0]), [0, 0, 0, 0, 0, 0], 1e-15);
+    expect(poseError([1, 2, 3], q, [1, 2, 3], q, [0, 0, 0, 0, 0, 0])).toBeNear([0, 0, 0, 0, 0, 0], { abs: 1e-15 });
     const e = poseError([0, 0, 0], q, [0, 0, 0], target, new Float64Array(6));
-    closeRotation(glQuat.multiply(glQuat.create(), expMap(e.subarray(3)) as glQuat, q as glQuat) as number[], target, 1e-14);
+    expect(glQuat.multiply(glQuat.create(), expMap(e.subarray(3)) as glQuat, q as glQuat) as number[]).toBeNear(target, { abs: 1e-14, upToSign: true });
   });
 
   it('leaves its inputs untouched', () => {
@@ -202,8 +190,8 @@ describe('integratePose', () => {
     const angle = Math.hypot(w[0]!, w[1]!, w[2]!) * dt * steps;
     const axis = w.map((x) => x / Math.hypot(w[0]!, w[1]!, w[2]!));
     const expected = glQuat.multiply(glQuat.create(), glQuat.setAxisAngle(glQuat.create(), axis as glVec3, angle), q0 as glQuat);
-    closeRotation(q, expected as number[], 1e-12);
-    close(p, [0.3 + 0.1, 0.1 - 0.2, -0.2 + 0.05], 1e-13);
+    expect(q).toBeNear(expected as number[], { abs: 1e-12, upToSign: true });
+    expect(p).toBeNear([0.3 + 0.1, 0.1 - 0.2, -0.2 + 0.05], { abs: 1e-13 });
     expect(Math.hypot(...q)).toBeCloseTo(1, 15);
   });
 
@@ -215,7 +203,7 @@ describe('integratePose', () => {
     integratePose(p, q, [1, 0, 0], [0, 0, Math.PI], 0.5, outP, outQ);
     expect(p).toEqual([1, 2, 3]);
     expect(q).toEqual([0, 0, 0, 1]);
-    close(outP, [1.5, 2, 3], 0);
-    close(outQ, [0, 0, Math.SQRT1_2, Math.SQRT1_2], 1e-15);
+    expect(outP).toBeNear([1.5, 2, 3], { abs: 0 });
+    expect(outQ).toBeNear([0, 0, Math.SQRT1_2, Math.SQRT1_2], { abs: 1e-15 });
   });
 });

@@ -12,10 +12,6 @@ import { threeFingerFinger } from './three-finger-sheet';
 
 const settings: SolverSettings = { damping: 1e-4, singularRatio: 1e-3, axisDistance: 1e-3, minTangentialSpeed: 1e-5, contactTolerance: 2e-4, softFinger: false };
 
-function close(actual: ArrayLike<number>, expected: ArrayLike<number>, digits = 12) {
-  for (let i = 0; i < expected.length; i++) expect(actual[i]).toBeCloseTo(expected[i], digits);
-}
-
 function ball(radius: number, linear: [number, number, number], angular: [number, number, number] = [0, 0, 0]) {
   const object: SheetDocument['object'] = { shape: { kind: 'sphere', radius }, pose: { position: [0, 0, 0], orientation: { w: 1, x: 0, y: 0, z: 0 } }, twist: { linear, angular } };
   return createObject(object);
@@ -37,11 +33,11 @@ describe('contactJacobian', () => {
     const points = [0, 0, 0, l1 * Math.cos(q1), l1 * Math.sin(q1), 0];
     const tip = [l1 * Math.cos(q1) + l2 * Math.cos(q1 + q2), l1 * Math.sin(q1) + l2 * Math.sin(q1 + q2), 0];
     const j = contactJacobian(axes, points, 2, tip, createMatrix(3, 2));
-    close(j.data, [
+    expect(j.data).toBeNear([
       -l1 * Math.sin(q1) - l2 * Math.sin(q1 + q2), -l2 * Math.sin(q1 + q2),
       l1 * Math.cos(q1) + l2 * Math.cos(q1 + q2), l2 * Math.cos(q1 + q2),
       0, 0,
-    ]);
+    ], { digits: 12 });
   });
 });
 
@@ -111,7 +107,7 @@ describe('jacobianSingularValues', () => {
     const product = ours[0] * ours[1] * ours[2];
     const m = new MlMatrix(rows);
     const reference = new SingularValueDecomposition(m, { autoTranspose: true }).diagonal;
-    close(ours, reference, 14);
+    expect(ours).toBeNear(reference, { digits: 14 });
     expect(product).toBeCloseTo(Math.sqrt(determinant(m.mmul(m.transpose()))), 16);
   });
   it('keeps the smallest singular value accurate near rank loss (ml-matrix SVD as reference)', () => {
@@ -120,7 +116,7 @@ describe('jacobianSingularValues', () => {
     jacobianSingularValues(matrixFromRows(rows), ours);
     const reference = new SingularValueDecomposition(new MlMatrix(rows), { autoTranspose: true }).diagonal;
     expect(ours[2] / reference[2]).toBeCloseTo(1, 10);
-    close(ours, reference, 14);
+    expect(ours).toBeNear(reference, { digits: 14 });
   });
   it('takes the unrolled route for square 3 x 3 Jacobians and still matches ml-matrix SVD, including a 3 x 4 with the same first columns', () => {
     // Seeded pseudo-random entries (a linear congruential generator) so the check is repeatable; the 3 x 4 case uses the general route.
@@ -129,15 +125,15 @@ describe('jacobianSingularValues', () => {
     for (let trial = 0; trial < 20; trial++) {
       const rows = Array.from({ length: 3 }, () => [next(), next(), next()]);
       const ours = jacobianSingularValues(matrixFromRows(rows), new Float64Array(3));
-      close(ours, new SingularValueDecomposition(new MlMatrix(rows), { autoTranspose: true }).diagonal, 14);
+      expect(ours).toBeNear(new SingularValueDecomposition(new MlMatrix(rows), { autoTranspose: true }).diagonal, { digits: 14 });
       const wide = rows.map((row) => [...row, 0]);
-      close(jacobianSingularValues(matrixFromRows(wide), new Float64Array(3)), ours, 15);
+      expect(jacobianSingularValues(matrixFromRows(wide), new Float64Array(3))).toBeNear(ours, { digits: 15 });
     }
   });
   it('pads with zeros when there are fewer than three joints', () => {
     const ours = new Float64Array(3);
     jacobianSingularValues(matrixFromRows([[3], [4], [0]]), ours);
-    close(ours, [5, 0, 0]);
+    expect(ours).toBeNear([5, 0, 0], { digits: 12 });
   });
 });
 
@@ -149,8 +145,8 @@ describe('solveFull', () => {
     const j = new MlMatrix([0, 1, 2].map((i) => Array.from(full.jacobian.data.subarray(3 * i, 3 * i + 3))));
     const lambda2 = MlMatrix.eye(3).mul(0.003 * 0.003);
     const expected = j.transpose().mmul(inverse(j.mmul(j.transpose()).add(lambda2))).mmul(MlMatrix.columnVector(Array.from(full.target.subarray(0, 3))));
-    close(full.rates, expected.to1DArray(), 12);
-    close(full.residual.subarray(0, 3), [0, 1, 2].map((i) => full.target[i] - full.achieved[i]), 15);
+    expect(full.rates).toBeNear(expected.to1DArray(), { digits: 12 });
+    expect(full.residual.subarray(0, 3)).toBeNear([0, 1, 2].map((i) => full.target[i] - full.achieved[i]), { digits: 15 });
   });
 
   it('ball on a treadmill: roller with x and y roll axes rolls at omega_x = v_y / rho, omega_y = -v_x / rho (Montana 1988; Murray, Li & Sastry 1994, ch. 5, sphere on a plane; values from memory)', () => {
@@ -166,7 +162,7 @@ describe('solveFull', () => {
     const floor = createObject({ shape: { kind: 'box', halfExtents: [1, 1, 0.1], filletRadius: 0 }, pose: { position: [0, 0, -0.1], orientation: { w: 1, x: 0, y: 0, z: 0 } }, twist: { linear: [0.03, -0.02, 0], angular: [0, 0, 0] } });
     const { full, contact } = solveFinger(input, floor, { ...settings, damping: 0 });
     expect(contact.gap).toBeCloseTo(0, 15);
-    close(full.rates, [-0.02 / rho, -0.03 / rho]);
+    expect(full.rates).toBeNear([-0.02 / rho, -0.03 / rho], { digits: 12 });
     expect(full.residualNorm).toBeLessThan(1e-15);
     // Rolling without slipping: |v| = omega r for the resulting roller spin (common practice).
     expect(Math.hypot(full.rates[0], full.rates[1]) * rho).toBeCloseTo(Math.hypot(0.03, 0.02), 14);
@@ -175,7 +171,7 @@ describe('solveFull', () => {
   it('soft finger adds the row n . w_k with target n . omega_object', () => {
     const { full, contact } = solveFinger(threeFingerFinger(0), ball(0.04, [0, 0, 0], [0.3, 0, 0]), { ...settings, softFinger: true });
     expect(full.rows).toBe(4);
-    close(full.jacobian.data.subarray(9, 12), [contact.normal[0] * 0 + contact.normal[1] * 1 + contact.normal[2] * 0, 1, 0]);
+    expect(full.jacobian.data.subarray(9, 12)).toBeNear([contact.normal[0] * 0 + contact.normal[1] * 1 + contact.normal[2] * 0, 1, 0], { digits: 12 });
     expect(full.target[3]).toBeCloseTo(0.3, 15);
     // The pivot (along the normal) spins the roller with the object.
     expect(full.rates[1]).toBeCloseTo(0.3, 6);
@@ -202,14 +198,14 @@ describe('solveSteerAndRoll', () => {
     expect(steer.available).toBe(true);
     expect(steer.normalGain).toBeCloseTo(0.05, 15);
     expect(steer.baseRate).toBeCloseTo(0.01 / 0.05, 14);
-    close(steer.remainder, [0, 0.02, 0.02 - 0.2 * 0.06], 14);
+    expect(steer.remainder).toBeNear([0, 0.02, 0.02 - 0.2 * 0.06], { digits: 14 });
     expect(steer.pivotChange).toBeCloseTo(Math.atan2(0.008, 0.02), 12);
     expect(steer.rollDistance).toBeCloseTo(0.012, 14);
     // Wheel fact |v| = omega r (common practice): the roll rate times the distance to the roll axis is |u|.
     expect(steer.rollRate).toBeCloseTo(-Math.hypot(0.02, 0.008) / 0.012, 12);
     expect(steer.aligned).toBe(true);
     expect(steer.residualNorm).toBeLessThan(1e-15);
-    close(steer.rates, [0.2, 0, steer.rollRate], 14);
+    expect(steer.rates).toBeNear([0.2, 0, steer.rollRate], { digits: 14 });
   });
 
   it('of the two pivot solutions takes the one nearer the current angle', () => {
@@ -230,7 +226,7 @@ describe('solveSteerAndRoll', () => {
     expect(steer.conditionBefore).toBe(full.conditionNumber);
     expect(steer.singularValuesAfter[0]).toBeGreaterThan(0);
     const difference = [0, 1, 2].map((k) => steer.rates[k] - full.rates[k]);
-    close(steer.rateDifference, difference, 15);
+    expect(steer.rateDifference).toBeNear(difference, { digits: 15 });
     expect(steer.rateDifferenceNorm).toBeCloseTo(Math.hypot(...difference), 15);
   });
 

@@ -27,13 +27,13 @@ describe('sweepValues', () => {
 describe('sweepSheet', () => {
   it('gives joint rates proportional to the swept angular speed (rigid-body velocity and DLS are linear)', () => {
     const r = sweepSheet(sheet(), { path: '/object/twist/angular/2', from: 0, to: 0.4, steps: 5 });
-    [0, 0.1, 0.2, 0.3, 0.4].forEach((v, i) => expect(r.values[i]).toBeCloseTo(v, 15));
+    expect(r.values).toBeNear([0, 0.1, 0.2, 0.3, 0.4], { digits: 15 });
     const last = r.results[4]!;
     r.results.forEach((result, i) => {
       const ratio = r.values[i]! / 0.4;
       result.fingers.forEach((finger, f) => {
-        finger.full.rates.forEach((rate, k) => expect(rate).toBeCloseTo(ratio * last.fingers[f]!.full.rates[k]!, 12));
-        finger.contact.objectVelocity.forEach((v, k) => expect(v).toBeCloseTo(ratio * last.fingers[f]!.contact.objectVelocity[k]!, 14));
+        expect(finger.full.rates).toBeNear(Array.from(last.fingers[f]!.full.rates, (rate) => ratio * rate), { digits: 12 });
+        expect(finger.contact.objectVelocity).toBeNear(Array.from(last.fingers[f]!.contact.objectVelocity, (v) => ratio * v), { digits: 14 });
       });
     });
     expect(last.fingers.some((f) => f.full.rates.some((x) => Math.abs(x) > 1e-3))).toBe(true);

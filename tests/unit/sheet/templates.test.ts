@@ -67,7 +67,7 @@ describe('createSheetFromTemplate', () => {
     parsed.doc.hand.fingers.forEach((finger, i) => {
       finger.joints.forEach((joint, k) => {
         const original = doc.hand.fingers[i].joints[k];
-        for (let c = 0; c < 3; c++) expect(joint.axis[c]).toBeCloseTo(original.axis[c], 11);
+        expect(joint.axis).toBeNear(original.axis, { digits: 11 });
       });
     });
   });

@@ -18,7 +18,7 @@ describe('rollerSupport', () => {
   it('gives the ball surface point along the direction', () => {
     const ball: ViewRoller = { ...wheel, kind: 'sphere', halfWidth: 0 };
     const p = rollerSupport(ball, [0, 3, 4]);
-    [1, 2.3, 3.4].forEach((v, i) => expect(p[i]).toBeCloseTo(v, 14));
+    expect(p).toBeNear([1, 2.3, 3.4], { digits: 14 });
   });
 });
 

@@ -51,7 +51,7 @@ describe('performJob', () => {
     const last = replies.at(-1)!.reply;
     expect(last.kind).toBe('sweep-done');
     if (last.kind !== 'sweep-done') return;
-    [0.011, 0.0115, 0.012, 0.0125, 0.013].forEach((v, i) => expect(last.series.values[i]).toBeCloseTo(v, 15));
+    expect(last.series.values).toBeNear([0.011, 0.0115, 0.012, 0.0125, 0.013], { digits: 15 });
     expect(last.series.fingers[0]!.gap[0]! - last.series.fingers[0]!.gap[4]!).toBeCloseTo(0.002, 12);
   });
 
