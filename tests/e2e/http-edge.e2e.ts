@@ -164,7 +164,7 @@ describe('the built server on loopback, default settings', () => {
 
     it('stops reading a chunked sheet body past its limit and answers 413', async () => {
       const sheetId = await anySheetId(app, teamId);
-      const { stream, state } = chunkedBody(20 * 1024 * 1024);
+      const { stream, state } = chunkedBody(64 * 1024 * 1024);
       const response = await fetch(`${app.baseUrl}/api/sheets/${sheetId}/revisions`, {
         method: 'POST',
         headers: { authorization: `Bearer ${token}`, 'content-type': 'application/json' },
@@ -173,7 +173,8 @@ describe('the built server on loopback, default settings', () => {
       } as RequestInit);
       expect(response.status).toBe(413);
       expect(((await response.json()) as { error: { message: string } }).error.message).toMatch(/1 MiB/);
-      expect(state.pulled).toBeLessThan(6 * 1024 * 1024);
+      // The 1 MiB the server read plus what the loopback socket buffers took while the answer was on its way (several MiB on a busy machine).
+      expect(state.pulled).toBeLessThan(24 * 1024 * 1024);
     });
 
     it('limits Auth.js posts too', async () => {
