@@ -13,6 +13,10 @@ const createdAt = () =>
 export const ROLES = ['owner', 'editor', 'reviewer', 'viewer'] as const;
 export type Role = (typeof ROLES)[number];
 
+/** Where one revision stands in review: every saved revision starts as a draft until a reviewer gives a verdict on it. */
+export const REVIEW_STATES = ['draft', 'approved', 'changes-requested'] as const;
+export type ReviewState = (typeof REVIEW_STATES)[number];
+
 /* Auth.js tables: names and columns follow @auth/drizzle-adapter's SQLite defaults. */
 
 export const users = sqliteTable('user', {
@@ -104,9 +108,6 @@ export const sheets = sqliteTable(
       .references(() => teams.id, { onDelete: 'cascade' }),
     title: text('title').notNull(),
     tags: text('tags', { mode: 'json' }).$type<string[]>().notNull().default(sql`'[]'`),
-    status: text('status', { enum: ['draft', 'in-review', 'approved', 'changes-requested'] })
-      .notNull()
-      .default('draft'),
     latestRevision: integer('latest_revision').notNull().default(0),
     forkedFromSheetId: text('forked_from_sheet_id'),
     forkedFromRevision: integer('forked_from_revision'),
@@ -133,6 +134,8 @@ export const sheetRevisions = sqliteTable(
     summary: text('summary', { mode: 'json' }),
     message: text('message').notNull().default(''),
     authorId: text('author_id').references(() => users.id, { onDelete: 'set null' }),
+    /** The latest verdict on this revision; a sheet's state is its latest revision's, so an approval never covers later saves. */
+    reviewState: text('review_state', { enum: REVIEW_STATES }).notNull().default('draft'),
     createdAt: createdAt(),
   },
   (r) => [uniqueIndex('sheet_revisions_number_idx').on(r.sheetId, r.number)],

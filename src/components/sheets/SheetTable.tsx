@@ -13,6 +13,9 @@ export interface SheetRow {
   title: string;
   tags: string[];
   latestRevision: number;
+  /** The latest revision's review state, and the newest revision that stands approved. */
+  reviewState: 'draft' | 'approved' | 'changes-requested';
+  lastApprovedRevision: number | null;
   forkedFromSheetId: string | null;
   forkedFromRevision: number | null;
   forkedFromTitle: string | null;
@@ -136,6 +139,18 @@ function useColumns() {
           <a href={`/sheets/${row.original.id}/history`} className="num hover:text-verdigris-deep underline decoration-rule" title="Revision history">
             r{getValue()}
           </a>
+        ),
+      }),
+      column.accessor('reviewState', {
+        header: 'Review',
+        enableSorting: false,
+        cell: ({ row, getValue }) => (
+          <span className="text-xs whitespace-nowrap" data-review-badge>
+            <span className={`border px-1.5 ${getValue() === 'approved' ? 'border-verdigris' : getValue() === 'changes-requested' ? 'border-ochre' : 'border-rule'}`}>{getValue()}</span>
+            {row.original.lastApprovedRevision !== null && row.original.lastApprovedRevision !== row.original.latestRevision && (
+              <span className="ml-1 text-graphite num">approved r{row.original.lastApprovedRevision}</span>
+            )}
+          </span>
         ),
       }),
       column.accessor((sheet) => sheet.summary?.worst ?? null, {

@@ -1,7 +1,7 @@
-import { and, asc, count, desc, eq, inArray, isNull, or, sql, type SQL } from 'drizzle-orm';
+import { and, asc, count, desc, eq, getTableColumns, inArray, isNull, or, sql, type SQL } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/sqlite-core';
-import type { Database } from '../../db';
-import { sheetRevisions, sheets, users } from '../../db/schema';
+import type { Database, DrizzleDb, Transaction } from '../../db';
+import { sheetRevisions, sheets, users, type ReviewState } from '../../db/schema';
 import { solveSheet } from '../kinematics';
 import { parseSheet, type SheetIssue } from '../sheet/schema';
 import type { SheetDocument } from '../sheet/types';
@@ -119,9 +119,26 @@ export async function deleteSheet(database: Database, sheetId: string): Promise<
   await database.write((db) => db.update(sheets).set({ deletedAt: new Date() }).where(eq(sheets.id, sheetId)));
 }
 
-/** A live sheet by id, or null when it does not exist or was deleted. */
+/** The review state of a sheet's latest revision: review state belongs to revisions, and a sheet shows its latest one's. */
+const latestReviewState = sql<ReviewState>`coalesce((SELECT r.review_state FROM sheet_revisions r WHERE r.sheet_id = "sheets"."id" AND r.number = "sheets"."latest_revision"), 'draft')`;
+/** The newest revision of a sheet that stands approved, or null. Names are written out: Drizzle leaves columns unqualified in a one-table select, which a correlated subquery would misread. */
+const lastApprovedRevision = sql<number | null>`(SELECT max(r.number) FROM sheet_revisions r WHERE r.sheet_id = "sheets"."id" AND r.review_state = 'approved')`;
+
+/** Where a sheet stands in review: its latest revision's state and the last approved revision. */
+export async function findReviewState(db: DrizzleDb | Transaction, sheetId: string) {
+  const [row] = await db
+    .select({ latestRevision: sheets.latestRevision, reviewState: latestReviewState, lastApprovedRevision })
+    .from(sheets)
+    .where(eq(sheets.id, sheetId));
+  return row ?? null;
+}
+
+/** A live sheet by id with where it stands in review, or null when it does not exist or was deleted. */
 export async function findSheet(database: Database, sheetId: string) {
-  const [sheet] = await database.db.select().from(sheets).where(and(eq(sheets.id, sheetId), isNull(sheets.deletedAt)));
+  const [sheet] = await database.db
+    .select({ ...getTableColumns(sheets), reviewState: latestReviewState, lastApprovedRevision })
+    .from(sheets)
+    .where(and(eq(sheets.id, sheetId), isNull(sheets.deletedAt)));
   return sheet ?? null;
 }
 
@@ -229,7 +246,8 @@ export async function listSheets(database: Database, query: ListSheetsQuery) {
         id: sheets.id,
         title: sheets.title,
         tags: sheets.tags,
-        status: sheets.status,
+        reviewState: latestReviewState,
+        lastApprovedRevision,
         latestRevision: sheets.latestRevision,
         forkedFromSheetId: sheets.forkedFromSheetId,
         forkedFromRevision: sheets.forkedFromRevision,
