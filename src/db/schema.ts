@@ -1,5 +1,6 @@
 import { sql } from 'drizzle-orm';
 import { index, integer, primaryKey, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
+import type { SheetSummary, StoredDocument } from '../lib/sheet/summary';
 
 const id = () =>
   text('id')
@@ -130,8 +131,8 @@ export const sheetRevisions = sqliteTable(
       .references(() => sheets.id, { onDelete: 'cascade' }),
     number: integer('number').notNull(),
     parentRevision: integer('parent_revision'),
-    inputs: text('inputs', { mode: 'json' }).notNull(),
-    summary: text('summary', { mode: 'json' }),
+    inputs: text('inputs', { mode: 'json' }).$type<StoredDocument>().notNull(),
+    summary: text('summary', { mode: 'json' }).$type<SheetSummary>(),
     message: text('message').notNull().default(''),
     authorId: text('author_id').references(() => users.id, { onDelete: 'set null' }),
     /** The latest verdict on this revision; a sheet's state is its latest revision's, so an approval never covers later saves. */

@@ -6,7 +6,8 @@ import { SHEET_SORTS, WARNING_FILTERS } from '../../lib/validation/sheets';
 import { inputClass, labelClass, primaryButton, secondaryButton } from '../form-parts';
 import QueryRoot from '../QueryRoot';
 import ImportDialog from './ImportDialog';
-import WarningBadge, { type WorstWarning } from './WarningBadge';
+import type { SheetSummary } from '../../lib/sheet/summary';
+import WarningBadge from './WarningBadge';
 
 export interface SheetRow {
   id: string;
@@ -22,7 +23,7 @@ export interface SheetRow {
   authorId: string | null;
   authorName: string | null;
   updatedAt: string;
-  summary: { fingers: number; worst: WorstWarning; warningCodes: string[] } | null;
+  summary: SheetSummary | null;
 }
 
 interface SheetPage {

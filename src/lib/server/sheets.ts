@@ -5,17 +5,14 @@ import { fail, succeed, type DomainError, type Result } from '../result';
 import { sheetRevisions, sheets, users, type ReviewState } from '../../db/schema';
 import { solveSheet } from '../kinematics';
 import { parseSheet, type SheetIssue } from '../sheet/schema';
+import type { SheetSummary, StoredDocument } from '../sheet/summary';
 import type { SheetDocument } from '../sheet/types';
 import type { ListRevisionsQuery, ListSheetsQuery } from '../validation/sheets';
 import { insertAudit } from './audit';
 import { documentIssues } from './http';
 import { readSheetFile } from './sheet-files';
 
-export interface SheetSummary {
-  fingers: number;
-  worst: 'none' | 'note' | 'caution' | 'singular';
-  warningCodes: string[];
-}
+export type { SheetSummary };
 
 /** The stored summary of a revision: finger count and its warnings, computed by the kinematics core. */
 export function summarizeSheet(doc: SheetDocument): SheetSummary {
@@ -48,12 +45,17 @@ export interface CreatedSheet {
   summary: SheetSummary;
 }
 
-type Checked = { doc: SheetDocument; summary: SheetSummary; stored: unknown };
+type Checked = { doc: SheetDocument; summary: SheetSummary; stored: StoredDocument };
+
+const isStoredDocument = (value: unknown): value is StoredDocument => value !== null && typeof value === 'object' && !Array.isArray(value);
 
 /** The raw document validated with its summary: every stored revision passes through here, and is stored exactly as sent. */
-function checkDocument(raw: unknown): Result<Checked> {
+export function checkDocument(raw: unknown): Result<Checked> {
   const checked = validateDocument(raw);
-  return checked.ok ? succeed({ doc: checked.doc, summary: checked.summary, stored: raw }) : fail(documentIssues(checked.issues));
+  if (!checked.ok) return fail(documentIssues(checked.issues));
+  // A document that validates is an object; the guard only tells the compiler.
+  if (!isStoredDocument(raw)) return fail({ kind: 'invalid', message: 'A sheet document is one JSON object.', path: 'document' });
+  return succeed({ doc: checked.doc, summary: checked.summary, stored: raw });
 }
 
 /**
@@ -157,7 +159,7 @@ export async function importSheet(
 /** The latest revision a stale save missed, with what the client needs to rebase onto it without asking again. */
 export interface LatestRevision {
   number: number;
-  inputs: unknown;
+  inputs: StoredDocument;
   message: string;
   authorName: string | null;
 }
