@@ -1,5 +1,6 @@
 import { sql } from 'drizzle-orm';
 import { index, integer, primaryKey, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
+import type { SheetSummary, StoredDocument } from '../lib/sheet/summary';
 
 const id = () =>
   text('id')
@@ -12,6 +13,10 @@ const createdAt = () =>
 
 export const ROLES = ['owner', 'editor', 'reviewer', 'viewer'] as const;
 export type Role = (typeof ROLES)[number];
+
+/** Where one revision stands in review: every saved revision starts as a draft until a reviewer gives a verdict on it. */
+export const REVIEW_STATES = ['draft', 'approved', 'changes-requested'] as const;
+export type ReviewState = (typeof REVIEW_STATES)[number];
 
 /* Auth.js tables: names and columns follow @auth/drizzle-adapter's SQLite defaults. */
 
@@ -104,9 +109,6 @@ export const sheets = sqliteTable(
       .references(() => teams.id, { onDelete: 'cascade' }),
     title: text('title').notNull(),
     tags: text('tags', { mode: 'json' }).$type<string[]>().notNull().default(sql`'[]'`),
-    status: text('status', { enum: ['draft', 'in-review', 'approved', 'changes-requested'] })
-      .notNull()
-      .default('draft'),
     latestRevision: integer('latest_revision').notNull().default(0),
     forkedFromSheetId: text('forked_from_sheet_id'),
     forkedFromRevision: integer('forked_from_revision'),
@@ -129,10 +131,12 @@ export const sheetRevisions = sqliteTable(
       .references(() => sheets.id, { onDelete: 'cascade' }),
     number: integer('number').notNull(),
     parentRevision: integer('parent_revision'),
-    inputs: text('inputs', { mode: 'json' }).notNull(),
-    summary: text('summary', { mode: 'json' }),
+    inputs: text('inputs', { mode: 'json' }).$type<StoredDocument>().notNull(),
+    summary: text('summary', { mode: 'json' }).$type<SheetSummary>(),
     message: text('message').notNull().default(''),
     authorId: text('author_id').references(() => users.id, { onDelete: 'set null' }),
+    /** The latest verdict on this revision; a sheet's state is its latest revision's, so an approval never covers later saves. */
+    reviewState: text('review_state', { enum: REVIEW_STATES }).notNull().default('draft'),
     createdAt: createdAt(),
   },
   (r) => [uniqueIndex('sheet_revisions_number_idx').on(r.sheetId, r.number)],

@@ -1,9 +1,10 @@
 import { eq } from 'drizzle-orm';
 import type { Database } from '../../src/db';
 import { sheetRevisions, sheets } from '../../src/db/schema';
+import type { StoredDocument } from '../../src/lib/sheet/summary';
 
 /** Appends `count` revisions to a sheet in large batches, the way a long-lived sheet accumulates them. */
-export async function addRevisions(database: Database, sheetId: string, count: number, inputs: unknown): Promise<void> {
+export async function addRevisions(database: Database, sheetId: string, count: number, inputs: StoredDocument): Promise<void> {
   await database.transaction(async (tx) => {
     const [{ latest }] = await tx.select({ latest: sheets.latestRevision }).from(sheets).where(eq(sheets.id, sheetId));
     for (let start = 0; start < count; start += 500) {
@@ -14,7 +15,7 @@ export async function addRevisions(database: Database, sheetId: string, count: n
           number,
           parentRevision: number - 1,
           inputs,
-          summary: { fingers: 3, worst: 'none', warningCodes: [] },
+          summary: { fingers: 3, worst: 'none' as const, warningCodes: [] },
           message: `Tuning step ${number}`,
           authorId: null,
         };

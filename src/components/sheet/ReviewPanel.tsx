@@ -42,7 +42,7 @@ function Thread({ sheetId, revision, canComment, canReview }: ReviewPanelProps) 
   const comments = useQuery({ queryKey: ['comments', sheetId], queryFn: () => requestJson<{ items: CommentItem[] }>(`/api/sheets/${sheetId}/comments`) });
   const reviews = useQuery({
     queryKey: ['reviews', sheetId],
-    queryFn: () => requestJson<{ status: string; items: ReviewItem[] }>(`/api/sheets/${sheetId}/reviews`),
+    queryFn: () => requestJson<{ status: string; latestRevision: number; lastApprovedRevision: number | null; items: ReviewItem[] }>(`/api/sheets/${sheetId}/reviews`),
   });
   const comment = useMutation({
     mutationFn: (body: string) => requestJson(`/api/sheets/${sheetId}/comments`, { method: 'POST', body: { revision, body } }),
@@ -75,8 +75,17 @@ function Thread({ sheetId, revision, canComment, canReview }: ReviewPanelProps) 
     <section aria-label="Review" className="border-2 border-ink bg-paper p-5" data-review-panel>
       <header className="flex flex-wrap items-baseline justify-between gap-2">
         <h2 className="font-mono text-sm font-semibold uppercase tracking-[0.2em]">Review</h2>
-        <p className="text-sm" data-review-status>
-          Status: <strong>{reviews.data?.status ?? '…'}</strong>
+        <p className="text-sm">
+          <span data-review-status>
+            Status: <strong>{reviews.data?.status ?? '…'}</strong>
+          </span>
+          {reviews.data && (
+            <span className="text-graphite" data-last-approved>
+              {' '}
+              of revision <span className="num">{reviews.data.latestRevision}</span> ·{' '}
+              {reviews.data.lastApprovedRevision === null ? 'no revision approved yet' : <>last approved revision <span className="num">{reviews.data.lastApprovedRevision}</span></>}
+            </span>
+          )}
         </p>
       </header>
       <ol className="mt-3 space-y-2 text-sm">

@@ -1,4 +1,4 @@
-import { useMutation, useQuery } from '@tanstack/react-query';
+import { useMutation } from '@tanstack/react-query';
 import { useState } from 'react';
 import { describeValue, diffDocuments, pathText, rebaseDocument, type DocumentChange } from '../../lib/sheet/document-path';
 import { button, fieldInput, primaryButton } from './sheet-styles';
@@ -9,7 +9,7 @@ export class RequestError extends Error {
   constructor(
     readonly status: number,
     message: string,
-    readonly body: { error?: { message?: string; path?: string; latestRevision?: number; issues?: { path: string; message: string }[] } },
+    readonly body: { error?: { message?: string; path?: string; latestRevision?: number; latest?: LatestRevision; issues?: { path: string; message: string }[] } },
   ) {
     super(message);
   }
@@ -28,8 +28,12 @@ export async function requestJson<T>(url: string, init?: { method: string; body:
   return body as T;
 }
 
-interface RevisionReply {
-  revision: { number: number; inputs: RawDocument; message: string; authorName: string | null; createdAt: string | number };
+/** The revision a stale save missed, as the 409 answer carries it so the conflict panel needs no second request. */
+interface LatestRevision {
+  number: number;
+  inputs: RawDocument;
+  message: string;
+  authorName: string | null;
 }
 
 function ChangeList({ changes, testId }: { changes: DocumentChange[]; testId: string }) {
@@ -63,7 +67,8 @@ export interface SavePanelProps {
 export default function SavePanel(props: SavePanelProps) {
   const { sheetId, baseRevision, baseDocument, document } = props;
   const [message, setMessage] = useState('');
-  const [conflict, setConflict] = useState<number | null>(null);
+  const [theirs, setTheirs] = useState<LatestRevision | null>(null);
+  const conflict = theirs?.number ?? null;
   const [notice, setNotice] = useState<string | null>(null);
   const [forkTeam, setForkTeam] = useState(props.forkTargets[0]?.teamId ?? '');
 
@@ -75,24 +80,17 @@ export default function SavePanel(props: SavePanelProps) {
           baseRevision: input.base,
           document: input.doc,
           message: message.trim() || 'Saved',
-          ...(typeof input.doc.title === 'string' && input.doc.title.trim() ? { title: input.doc.title.trim().slice(0, 160) } : {}),
         },
       }),
     onSuccess: (reply, input) => {
-      setConflict(null);
+      setTheirs(null);
       setMessage('');
       setNotice(`Saved as revision ${reply.revision}.`);
       props.onSaved(reply.revision, input.doc);
     },
     onError: (error) => {
-      if (error instanceof RequestError && error.status === 409 && error.body.error?.latestRevision) setConflict(error.body.error.latestRevision);
+      if (error instanceof RequestError && error.status === 409 && error.body.error?.latest) setTheirs(error.body.error.latest);
     },
-  });
-
-  const latest = useQuery({
-    queryKey: ['sheet-revision', sheetId, conflict],
-    enabled: conflict !== null,
-    queryFn: () => requestJson<RevisionReply>(`/api/sheets/${sheetId}?revision=${conflict}`),
   });
 
   const fork = useMutation({
@@ -112,7 +110,6 @@ export default function SavePanel(props: SavePanelProps) {
     },
   });
 
-  const theirs = latest.data?.revision;
   const theirChanges = theirs ? diffDocuments(baseDocument, theirs.inputs) : [];
   const myChanges = diffDocuments(baseDocument, document);
 
@@ -122,7 +119,7 @@ export default function SavePanel(props: SavePanelProps) {
     props.onReplaceDocument(theirs.inputs, conflict, rebased.document);
     if (rebased.overlapping.length > 0) {
       setNotice(`Re-applied on top of revision ${conflict}; ${rebased.overlapping.length} field(s) were changed on both sides and now hold your value. Check them, then save.`);
-      setConflict(null);
+      setTheirs(null);
       return;
     }
     save.mutate({ base: conflict, doc: rebased.document });
@@ -187,8 +184,6 @@ export default function SavePanel(props: SavePanelProps) {
         <section aria-label="Save conflict" className="border-2 border-ochre bg-paper p-4" data-conflict>
           <h3 className="font-semibold">Someone saved revision {conflict} after revision {baseRevision}, which you started from.</h3>
           <p className="text-sm text-graphite">Nothing was overwritten and your changes are still here. Compare the two, then choose.</p>
-          {latest.isPending && <p className="text-sm">Loading revision {conflict}…</p>}
-          {latest.error && <p className="text-sm text-sienna">{latest.error.message}</p>}
           {theirs && (
             <div className="mt-3 grid gap-4 md:grid-cols-2">
               <div>
@@ -210,7 +205,7 @@ export default function SavePanel(props: SavePanelProps) {
             <button type="button" className={button} disabled={fork.isPending} onClick={() => fork.mutate()}>
               Save mine as a fork
             </button>
-            <button type="button" className={button} onClick={() => setConflict(null)}>
+            <button type="button" className={button} onClick={() => setTheirs(null)}>
               Keep editing
             </button>
           </div>

@@ -152,7 +152,8 @@ function Editor({ data }: { data: SheetPageData }) {
           author={data.revision.authorName}
           checkedBy={data.checkedBy}
           date={data.revision.createdAt}
-          status={data.sheet.status}
+          reviewState={data.sheet.reviewState}
+          lastApprovedRevision={data.sheet.lastApprovedRevision}
           forkedFrom={data.forkedFrom}
           forks={data.forks}
           dirty={dirty}

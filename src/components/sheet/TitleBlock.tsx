@@ -9,7 +9,9 @@ interface TitleBlockProps {
   author: string | null;
   checkedBy: string | null;
   date: string;
-  status: string;
+  /** The latest revision's review state, and the newest revision that stands approved. */
+  reviewState: string;
+  lastApprovedRevision: number | null;
   forkedFrom: SheetLink | null;
   forks: SheetLink[];
   dirty: boolean;
@@ -58,7 +60,16 @@ export default function TitleBlock(props: TitleBlockProps) {
             {Number.isNaN(date.getTime()) ? '—' : date.toISOString().slice(0, 10)}
           </time>
         </Cell>
-        <Cell label="Status">{props.status}</Cell>
+        <Cell label="Status">
+          <span data-review-state>{props.reviewState}</span>
+          <span className="ml-1 text-xs font-normal text-graphite" data-last-approved>
+            {props.lastApprovedRevision === null
+              ? '· never approved'
+              : props.lastApprovedRevision === latestRevision
+                ? ''
+                : `· last approved rev. ${props.lastApprovedRevision}`}
+          </span>
+        </Cell>
         <Cell label="Origin" wide>
           {props.forkedFrom ? (
             <a className="underline decoration-rule hover:text-verdigris-deep" href={`/sheets/${props.forkedFrom.id}?revision=${props.forkedFrom.revision}`} data-forked-from>

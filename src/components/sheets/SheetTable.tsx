@@ -6,20 +6,24 @@ import { SHEET_SORTS, WARNING_FILTERS } from '../../lib/validation/sheets';
 import { inputClass, labelClass, primaryButton, secondaryButton } from '../form-parts';
 import QueryRoot from '../QueryRoot';
 import ImportDialog from './ImportDialog';
-import WarningBadge, { type WorstWarning } from './WarningBadge';
+import type { SheetSummary } from '../../lib/sheet/summary';
+import WarningBadge from './WarningBadge';
 
 export interface SheetRow {
   id: string;
   title: string;
   tags: string[];
   latestRevision: number;
+  /** The latest revision's review state, and the newest revision that stands approved. */
+  reviewState: 'draft' | 'approved' | 'changes-requested';
+  lastApprovedRevision: number | null;
   forkedFromSheetId: string | null;
   forkedFromRevision: number | null;
   forkedFromTitle: string | null;
   authorId: string | null;
   authorName: string | null;
   updatedAt: string;
-  summary: { fingers: number; worst: WorstWarning; warningCodes: string[] } | null;
+  summary: SheetSummary | null;
 }
 
 interface SheetPage {
@@ -136,6 +140,18 @@ function useColumns() {
           <a href={`/sheets/${row.original.id}/history`} className="num hover:text-verdigris-deep underline decoration-rule" title="Revision history">
             r{getValue()}
           </a>
+        ),
+      }),
+      column.accessor('reviewState', {
+        header: 'Review',
+        enableSorting: false,
+        cell: ({ row, getValue }) => (
+          <span className="text-xs whitespace-nowrap" data-review-badge>
+            <span className={`border px-1.5 ${getValue() === 'approved' ? 'border-verdigris' : getValue() === 'changes-requested' ? 'border-ochre' : 'border-rule'}`}>{getValue()}</span>
+            {row.original.lastApprovedRevision !== null && row.original.lastApprovedRevision !== row.original.latestRevision && (
+              <span className="ml-1 text-graphite num">approved r{row.original.lastApprovedRevision}</span>
+            )}
+          </span>
         ),
       }),
       column.accessor((sheet) => sheet.summary?.worst ?? null, {

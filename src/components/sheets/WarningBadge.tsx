@@ -1,6 +1,6 @@
-export type WorstWarning = 'none' | 'note' | 'caution' | 'singular';
+import type { WorstSeverity } from '../../lib/sheet/summary';
 
-const STYLES: Record<WorstWarning, { label: string; className: string }> = {
+const STYLES: Record<WorstSeverity, { label: string; className: string }> = {
   none: { label: 'clean', className: 'border-verdigris text-verdigris-deep' },
   note: { label: 'note', className: 'border-note text-note' },
   caution: { label: 'caution', className: 'border-ochre bg-ochre/10 text-ochre' },
@@ -8,7 +8,7 @@ const STYLES: Record<WorstWarning, { label: string; className: string }> = {
 };
 
 /** The worst warning severity of a revision as a coloured badge; the codes go into its tooltip. */
-export default function WarningBadge({ worst, codes = [] }: { worst: WorstWarning | null | undefined; codes?: readonly string[] }) {
+export default function WarningBadge({ worst, codes = [] }: { worst: WorstSeverity | null | undefined; codes?: readonly string[] }) {
   if (!worst) return <span className="text-xs text-graphite">not computed</span>;
   const style = STYLES[worst];
   return (

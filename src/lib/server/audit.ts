@@ -1,5 +1,5 @@
 import { and, desc, eq, lt, or } from 'drizzle-orm';
-import type { Database } from '../../db';
+import type { Database, Transaction } from '../../db';
 import { auditEvents, users } from '../../db/schema';
 
 export interface AuditEntry {
@@ -11,9 +11,8 @@ export interface AuditEntry {
   address?: string | null;
 }
 
-/** Appends audit events (one per team concerned) through the write queue. */
-export async function recordAudit(database: Database, entries: AuditEntry | AuditEntry[]): Promise<void> {
-  const rows = (Array.isArray(entries) ? entries : [entries]).map((e) => ({
+function auditRows(entries: AuditEntry | AuditEntry[]) {
+  return (Array.isArray(entries) ? entries : [entries]).map((e) => ({
     teamId: e.teamId,
     actorId: e.actorId,
     action: e.action,
@@ -21,7 +20,18 @@ export async function recordAudit(database: Database, entries: AuditEntry | Audi
     detail: e.detail ?? null,
     address: e.address ?? null,
   }));
+}
+
+/** Appends audit events (one per team concerned) through the write queue. */
+export async function recordAudit(database: Database, entries: AuditEntry | AuditEntry[]): Promise<void> {
+  const rows = auditRows(entries);
   if (rows.length) await database.write((db) => db.insert(auditEvents).values(rows));
+}
+
+/** Appends audit events inside a caller's transaction, so the event commits (or not) with the change it records. */
+export async function insertAudit(tx: Transaction, entries: AuditEntry | AuditEntry[]): Promise<void> {
+  const rows = auditRows(entries);
+  if (rows.length) await tx.insert(auditEvents).values(rows);
 }
 
 /** Audit actions this product records, with the words the audit page shows; unknown actions show as recorded. */

@@ -1,6 +1,7 @@
-import { asc, desc, eq, sql } from 'drizzle-orm';
+import { and, asc, desc, eq } from 'drizzle-orm';
 import type { Database } from '../../db';
-import { comments, reviews, sheets, users } from '../../db/schema';
+import { comments, reviews, sheetRevisions, users, type ReviewState } from '../../db/schema';
+import { findReviewState } from './sheets';
 
 export type Verdict = 'approved' | 'changes-requested';
 
@@ -53,23 +54,23 @@ export async function listReviews(database: Database, sheetId: string) {
 }
 
 /**
- * Records a verdict on one revision; a verdict on the latest revision also sets the sheet's
- * status, so an approval never silently covers revisions saved after it.
+ * Records a verdict on one revision and makes it that revision's review state; the answer is the
+ * sheet's state (its latest revision's), so a verdict on an older revision never reads as covering newer ones.
  */
 export async function submitReview(
   database: Database,
   input: { sheetId: string; revision: number; reviewerId: string; verdict: Verdict; body: string },
-): Promise<{ id: string; status: string }> {
+): Promise<{ id: string; status: ReviewState }> {
   return database.transaction(async (tx) => {
     const [row] = await tx
       .insert(reviews)
       .values({ sheetId: input.sheetId, revision: input.revision, reviewerId: input.reviewerId, verdict: input.verdict, body: input.body })
       .returning({ id: reviews.id });
-    const [sheet] = await tx
-      .update(sheets)
-      .set({ status: sql`CASE WHEN ${sheets.latestRevision} = ${input.revision} THEN ${input.verdict} ELSE ${sheets.status} END` })
-      .where(eq(sheets.id, input.sheetId))
-      .returning({ status: sheets.status });
-    return { id: row.id, status: sheet.status };
+    await tx
+      .update(sheetRevisions)
+      .set({ reviewState: input.verdict })
+      .where(and(eq(sheetRevisions.sheetId, input.sheetId), eq(sheetRevisions.number, input.revision)));
+    const state = await findReviewState(tx, input.sheetId);
+    return { id: row.id, status: state?.reviewState ?? 'draft' };
   });
 }

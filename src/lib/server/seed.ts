@@ -5,7 +5,7 @@ import type { Database } from '../../db';
 import { auditEvents, memberships, sheetRevisions, sheets, teams, users } from '../../db/schema';
 import { DEMO_PASSWORD, DEMO_SHEETS_FOLDER, DEMO_TEAM, DEMO_USERS } from './demo';
 import { hashPassword } from './passwords';
-import { validateDocument } from './sheets';
+import { checkDocument } from './sheets';
 
 export interface SeedOutcome {
   seeded: boolean;
@@ -97,10 +97,11 @@ function applyEdit(document: unknown, set: Record<string, unknown> = {}): unknow
   return copy;
 }
 
-function checkedSummary(name: string, document: unknown) {
-  const checked = validateDocument(document);
-  if (!checked.ok) throw new Error(`Demo sheet ${name} is invalid: ${checked.issues[0].path}: ${checked.issues[0].message}`);
-  return checked.summary;
+/** A demo revision's document and summary, checked as every stored revision is. */
+function checkedRevision(name: string, document: unknown) {
+  const checked = checkDocument(document);
+  if (!checked.ok) throw new Error(`Demo sheet ${name} is invalid: ${checked.error.path}: ${checked.error.message}`);
+  return { inputs: checked.value.stored, summary: checked.value.summary };
 }
 
 /** Reads the example sheet documents that ship with the product, sorted by file name. */
@@ -165,8 +166,7 @@ export async function seedDemoData(database: Database, sheetsFolder = DEMO_SHEET
           sheetId: sheet.id,
           number: i + 1,
           parentRevision: i === 0 ? null : i,
-          inputs: revision.document,
-          summary: checkedSummary(`${name} revision ${i + 1}`, revision.document),
+          ...checkedRevision(`${name} revision ${i + 1}`, revision.document),
           message: revision.message,
           authorId: forkedFrom ? owner.id : author.id,
           createdAt: times[i],

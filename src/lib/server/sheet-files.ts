@@ -9,7 +9,8 @@ import { resultsCsv } from '../sheet/results-csv';
 import { parseSheet, SHEET_FORMAT, SHEET_VERSION, type SheetIssue } from '../sheet/schema';
 import type { SheetDocument } from '../sheet/types';
 import { findOversizedJson, oversizedJsonMessage } from './json-depth';
-import { summarizeSheet, type SheetSummary } from './sheets';
+import type { SheetSummary, StoredDocument } from '../sheet/summary';
+import { summarizeSheet } from './sheets';
 
 /** Largest sheet file accepted for import (bytes of text). */
 export const MAX_SHEET_FILE_LENGTH = 2_000_000;
@@ -23,7 +24,7 @@ export interface FileIssue {
 }
 
 export type ReadSheetFile =
-  | { ok: true; document: Record<string, unknown>; doc: SheetDocument; summary: SheetSummary }
+  | { ok: true; document: StoredDocument; doc: SheetDocument; summary: SheetSummary }
   | { ok: false; stage: 'file' | 'syntax' | 'document'; issues: FileIssue[] };
 
 /** 1-based line and column of a character offset (columns count UTF-16 code units, as editors do). */
@@ -114,8 +115,8 @@ export function readSheetFile(raw: string): ReadSheetFile {
 }
 
 /** The stored document as a file: the format and version first, then everything as saved. */
-export function exportDocument(inputs: unknown): Record<string, unknown> {
-  return { format: SHEET_FORMAT, version: SHEET_VERSION, ...(inputs as Record<string, unknown>) };
+export function exportDocument(inputs: StoredDocument): StoredDocument {
+  return { format: SHEET_FORMAT, version: SHEET_VERSION, ...inputs };
 }
 
 /** The per-finger results of a stored document as CSV, or the document's issues when it no longer reads. */

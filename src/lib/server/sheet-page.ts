@@ -1,6 +1,6 @@
 import { and, desc, eq } from 'drizzle-orm';
 import type { Database } from '../../db';
-import { reviews, users } from '../../db/schema';
+import { reviews, users, type ReviewState } from '../../db/schema';
 import { can, type Identity } from './access';
 import { findSheet, getRevision, listForks } from './sheets';
 
@@ -12,7 +12,8 @@ export interface SheetLink {
 
 /** Everything the sheet page shows in its title block and hands to the editor. */
 export interface SheetPageData {
-  sheet: { id: string; teamId: string; title: string; status: string; latestRevision: number };
+  /** `reviewState` is the latest revision's; `lastApprovedRevision` the newest revision that stands approved. */
+  sheet: { id: string; teamId: string; title: string; reviewState: ReviewState; lastApprovedRevision: number | null; latestRevision: number };
   revision: { number: number; authorName: string | null; createdAt: string; message: string; inputs: unknown };
   /** Reviewer who approved this revision, if any. */
   checkedBy: string | null;
@@ -54,7 +55,7 @@ export async function loadSheetPage(database: Database, identity: Identity, shee
   return {
     status: 'ok',
     data: {
-      sheet: { id: sheet.id, teamId: sheet.teamId, title: sheet.title, status: sheet.status, latestRevision: sheet.latestRevision },
+      sheet: { id: sheet.id, teamId: sheet.teamId, title: sheet.title, reviewState: sheet.reviewState, lastApprovedRevision: sheet.lastApprovedRevision, latestRevision: sheet.latestRevision },
       revision: {
         number: revision.number,
         authorName: revision.authorName,

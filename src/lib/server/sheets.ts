@@ -1,17 +1,18 @@
-import { and, asc, count, desc, eq, inArray, isNull, or, sql, type SQL } from 'drizzle-orm';
+import { and, asc, count, desc, eq, getTableColumns, inArray, isNull, or, sql, type SQL } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/sqlite-core';
-import type { Database } from '../../db';
-import { sheetRevisions, sheets, users } from '../../db/schema';
+import type { Database, DrizzleDb, Transaction } from '../../db';
+import { fail, succeed, type DomainError, type Result } from '../result';
+import { sheetRevisions, sheets, users, type ReviewState } from '../../db/schema';
 import { solveSheet } from '../kinematics';
 import { parseSheet, type SheetIssue } from '../sheet/schema';
+import type { SheetSummary, StoredDocument } from '../sheet/summary';
 import type { SheetDocument } from '../sheet/types';
 import type { ListRevisionsQuery, ListSheetsQuery } from '../validation/sheets';
+import { insertAudit } from './audit';
+import { documentIssues } from './http';
+import { readSheetFile } from './sheet-files';
 
-export interface SheetSummary {
-  fingers: number;
-  worst: 'none' | 'note' | 'caution' | 'singular';
-  warningCodes: string[];
-}
+export type { SheetSummary };
 
 /** The stored summary of a revision: finger count and its warnings, computed by the kinematics core. */
 export function summarizeSheet(doc: SheetDocument): SheetSummary {
@@ -31,86 +32,188 @@ export function validateDocument(input: unknown): ValidatedDocument {
   return parsed.ok ? { ok: true, doc: parsed.doc, summary: summarizeSheet(parsed.doc) } : parsed;
 }
 
-export interface NewSheetInput {
-  teamId: string;
-  title: string;
-  tags?: string[];
-  inputs: unknown;
-  summary?: unknown;
-  authorId: string | null;
-  message?: string;
-  forkedFrom?: { sheetId: string; revision: number };
+/** Who does it and from where, for the audit trail. */
+export interface Actor {
+  /** Null for the system (seeding, scripts). */
+  userId: string | null;
+  address?: string | null;
 }
 
-/** Creates a sheet with its first revision in one transaction; resolves only once committed. */
-export async function createSheet(database: Database, input: NewSheetInput): Promise<{ sheetId: string; revision: number }> {
-  return database.transaction(async (tx) => {
-    const [sheet] = await tx
-      .insert(sheets)
-      .values({
-        teamId: input.teamId,
-        title: input.title,
-        tags: input.tags ?? [],
-        latestRevision: 1,
-        createdBy: input.authorId,
-        forkedFromSheetId: input.forkedFrom?.sheetId ?? null,
-        forkedFromRevision: input.forkedFrom?.revision ?? null,
-      })
-      .returning({ id: sheets.id });
-    await tx.insert(sheetRevisions).values({
-      sheetId: sheet.id,
-      number: 1,
-      inputs: input.inputs,
-      summary: input.summary ?? null,
-      message: input.message ?? 'Created',
-      authorId: input.authorId,
-    });
-    return { sheetId: sheet.id, revision: 1 };
-  });
+export interface CreatedSheet {
+  sheetId: string;
+  revision: number;
+  summary: SheetSummary;
 }
 
-export type SaveOutcome =
-  | { status: 'saved'; revision: number }
-  | { status: 'stale'; latestRevision: number }
-  | { status: 'missing' };
+type Checked = { doc: SheetDocument; summary: SheetSummary; stored: StoredDocument };
+
+const isStoredDocument = (value: unknown): value is StoredDocument => value !== null && typeof value === 'object' && !Array.isArray(value);
+
+/** The raw document validated with its summary: every stored revision passes through here, and is stored exactly as sent. */
+export function checkDocument(raw: unknown): Result<Checked> {
+  const checked = validateDocument(raw);
+  if (!checked.ok) return fail(documentIssues(checked.issues));
+  // A document that validates is an object; the guard only tells the compiler.
+  if (!isStoredDocument(raw)) return fail({ kind: 'invalid', message: 'A sheet document is one JSON object.', path: 'document' });
+  return succeed({ doc: checked.doc, summary: checked.summary, stored: raw });
+}
 
 /**
- * Appends a revision on top of `baseRevision`. A save based on anything but the latest
- * revision is refused as stale so that no one's work is silently overwritten.
+ * How a new sheet is named. A title or tags given when a sheet is created, imported or forked
+ * name the new sheet only; the stored document is kept as sent, and from the first save on the
+ * sheet's title and tags are read from its latest document alone.
+ */
+interface Naming {
+  title?: string;
+  tags?: string[];
+}
+
+/** Inserts a sheet and its first revision, named by `naming` or else by the checked document. */
+async function insertSheet(
+  tx: Transaction,
+  input: { teamId: string; checked: Checked; naming: Naming; authorId: string | null; message: string; forkedFrom?: { sheetId: string; revision: number } },
+): Promise<CreatedSheet> {
+  const [sheet] = await tx
+    .insert(sheets)
+    .values({
+      teamId: input.teamId,
+      title: input.naming.title ?? input.checked.doc.title,
+      tags: input.naming.tags ?? input.checked.doc.tags,
+      latestRevision: 1,
+      createdBy: input.authorId,
+      forkedFromSheetId: input.forkedFrom?.sheetId ?? null,
+      forkedFromRevision: input.forkedFrom?.revision ?? null,
+    })
+    .returning({ id: sheets.id });
+  await tx.insert(sheetRevisions).values({
+    sheetId: sheet.id,
+    number: 1,
+    inputs: input.checked.stored,
+    summary: input.checked.summary,
+    message: input.message,
+    authorId: input.authorId,
+  });
+  return { sheetId: sheet.id, revision: 1, summary: input.checked.summary };
+}
+
+/** Creates a sheet from a raw document: validated, summarised, stored at revision 1 and audited in one transaction. */
+export async function createSheet(
+  database: Database,
+  input: { teamId: string; document: unknown; actor: Actor; title?: string; tags?: string[]; message?: string },
+): Promise<Result<CreatedSheet>> {
+  const checked = checkDocument(input.document);
+  if (!checked.ok) return checked;
+  return succeed(
+    await database.transaction(async (tx) => {
+      const created = await insertSheet(tx, {
+        teamId: input.teamId,
+        checked: checked.value,
+        naming: { title: input.title, tags: input.tags },
+        authorId: input.actor.userId,
+        message: input.message ?? 'Created',
+      });
+      await insertAudit(tx, { teamId: input.teamId, actorId: input.actor.userId, action: 'sheet.create', subject: created.sheetId, address: input.actor.address });
+      return created;
+    }),
+  );
+}
+
+/**
+ * Creates a sheet from the text of an uploaded sheet file, every problem located in the file
+ * (JSON syntax by line and column, document issues by field); an explicit title names the sheet.
+ */
+export async function importSheet(
+  database: Database,
+  input: { teamId: string; fileName: string; content: string; actor: Actor; title?: string },
+): Promise<Result<CreatedSheet>> {
+  const file = readSheetFile(input.content);
+  if (!file.ok) {
+    const [first] = file.issues;
+    const where = first.path ? `${first.path}: ` : '';
+    return fail({
+      kind: 'invalid',
+      message: file.stage === 'document' ? `${input.fileName} is not a valid sheet: ${where}${first.message}` : `${input.fileName}: ${first.message}`,
+      path: first.path ? `content.${first.path}` : 'content',
+      stage: file.stage,
+      issues: file.issues,
+    });
+  }
+  // Reading the file validated and summarised the document already.
+  const checked: Checked = { doc: file.doc, summary: file.summary, stored: file.document };
+  return succeed(
+    await database.transaction(async (tx) => {
+      const created = await insertSheet(tx, { teamId: input.teamId, checked, naming: { title: input.title }, authorId: input.actor.userId, message: `Imported from ${input.fileName}` });
+      await insertAudit(tx, {
+        teamId: input.teamId,
+        actorId: input.actor.userId,
+        action: 'sheet.import',
+        subject: created.sheetId,
+        detail: { fileName: input.fileName },
+        address: input.actor.address,
+      });
+      return created;
+    }),
+  );
+}
+
+/** The latest revision a stale save missed, with what the client needs to rebase onto it without asking again. */
+export interface LatestRevision {
+  number: number;
+  inputs: StoredDocument;
+  message: string;
+  authorName: string | null;
+}
+
+export type StaleSave = DomainError & { kind: 'stale'; latestRevision: number; latest: LatestRevision };
+
+/**
+ * Appends a revision on top of `baseRevision`, as a draft awaiting review, with the sheet's title
+ * and tags from the document and the audit event, in one transaction. A save based on anything
+ * but the latest revision is refused as stale so that no one's work is silently overwritten.
  */
 export async function saveRevision(
   database: Database,
-  sheetId: string,
-  baseRevision: number,
-  revision: { inputs: unknown; summary?: unknown; message?: string; authorId: string | null; title?: string; tags?: string[] },
-): Promise<SaveOutcome> {
-  return database.transaction(async (tx) => {
+  input: { sheetId: string; baseRevision: number; document: unknown; message?: string; actor: Actor },
+): Promise<Result<{ revision: number; summary: SheetSummary }, DomainError | StaleSave>> {
+  const checked = checkDocument(input.document);
+  if (!checked.ok) return checked;
+  const { doc, summary, stored } = checked.value;
+  return database.transaction(async (tx): Promise<Result<{ revision: number; summary: SheetSummary }, DomainError | StaleSave>> => {
     const [sheet] = await tx
-      .select({ latest: sheets.latestRevision })
+      .select({ latest: sheets.latestRevision, teamId: sheets.teamId })
       .from(sheets)
-      .where(and(eq(sheets.id, sheetId), isNull(sheets.deletedAt)));
-    if (!sheet) return { status: 'missing' };
-    if (sheet.latest !== baseRevision) return { status: 'stale', latestRevision: sheet.latest };
-    const number = baseRevision + 1;
+      .where(and(eq(sheets.id, input.sheetId), isNull(sheets.deletedAt)));
+    if (!sheet) return fail({ kind: 'not-found', message: 'Not found.' });
+    if (sheet.latest !== input.baseRevision) {
+      const [latest] = await tx
+        .select({ number: sheetRevisions.number, inputs: sheetRevisions.inputs, message: sheetRevisions.message, authorName: users.name })
+        .from(sheetRevisions)
+        .leftJoin(users, eq(users.id, sheetRevisions.authorId))
+        .where(and(eq(sheetRevisions.sheetId, input.sheetId), eq(sheetRevisions.number, sheet.latest)));
+      return fail({
+        kind: 'stale',
+        message: `Revision ${sheet.latest} was saved after the revision ${input.baseRevision} you started from. Nothing was overwritten: reload, or save your version as a fork.`,
+        path: 'baseRevision',
+        latestRevision: sheet.latest,
+        latest,
+      });
+    }
+    const number = input.baseRevision + 1;
     await tx.insert(sheetRevisions).values({
-      sheetId,
+      sheetId: input.sheetId,
       number,
-      parentRevision: baseRevision,
-      inputs: revision.inputs,
-      summary: revision.summary ?? null,
-      message: revision.message ?? '',
-      authorId: revision.authorId,
+      parentRevision: input.baseRevision,
+      inputs: stored,
+      summary,
+      message: input.message ?? '',
+      authorId: input.actor.userId,
     });
     await tx
       .update(sheets)
-      .set({
-        latestRevision: number,
-        updatedAt: sql`(unixepoch('subsec') * 1000)`,
-        ...(revision.title ? { title: revision.title } : {}),
-        ...(revision.tags ? { tags: revision.tags } : {}),
-      })
-      .where(eq(sheets.id, sheetId));
-    return { status: 'saved', revision: number };
+      .set({ latestRevision: number, title: doc.title, tags: doc.tags, updatedAt: sql`(unixepoch('subsec') * 1000)` })
+      .where(eq(sheets.id, input.sheetId));
+    await insertAudit(tx, { teamId: sheet.teamId, actorId: input.actor.userId, action: 'sheet.save', subject: input.sheetId, detail: { revision: number }, address: input.actor.address });
+    return succeed({ revision: number, summary });
   });
 }
 
@@ -119,9 +222,26 @@ export async function deleteSheet(database: Database, sheetId: string): Promise<
   await database.write((db) => db.update(sheets).set({ deletedAt: new Date() }).where(eq(sheets.id, sheetId)));
 }
 
-/** A live sheet by id, or null when it does not exist or was deleted. */
+/** The review state of a sheet's latest revision: review state belongs to revisions, and a sheet shows its latest one's. */
+const latestReviewState = sql<ReviewState>`coalesce((SELECT r.review_state FROM sheet_revisions r WHERE r.sheet_id = "sheets"."id" AND r.number = "sheets"."latest_revision"), 'draft')`;
+/** The newest revision of a sheet that stands approved, or null. Names are written out: Drizzle leaves columns unqualified in a one-table select, which a correlated subquery would misread. */
+const lastApprovedRevision = sql<number | null>`(SELECT max(r.number) FROM sheet_revisions r WHERE r.sheet_id = "sheets"."id" AND r.review_state = 'approved')`;
+
+/** Where a sheet stands in review: its latest revision's state and the last approved revision. */
+export async function findReviewState(db: DrizzleDb | Transaction, sheetId: string) {
+  const [row] = await db
+    .select({ latestRevision: sheets.latestRevision, reviewState: latestReviewState, lastApprovedRevision })
+    .from(sheets)
+    .where(eq(sheets.id, sheetId));
+  return row ?? null;
+}
+
+/** A live sheet by id with where it stands in review, or null when it does not exist or was deleted. */
 export async function findSheet(database: Database, sheetId: string) {
-  const [sheet] = await database.db.select().from(sheets).where(and(eq(sheets.id, sheetId), isNull(sheets.deletedAt)));
+  const [sheet] = await database.db
+    .select({ ...getTableColumns(sheets), reviewState: latestReviewState, lastApprovedRevision })
+    .from(sheets)
+    .where(and(eq(sheets.id, sheetId), isNull(sheets.deletedAt)));
   return sheet ?? null;
 }
 
@@ -159,27 +279,40 @@ export async function listRevisions(database: Database, sheetId: string, { page,
   return { items, total, page, pageSize, nextPage: page * pageSize < total ? page + 1 : null };
 }
 
-/** Copies one revision of a sheet into a new sheet of `targetTeamId` (same or another team) that remembers its origin. */
+/**
+ * Copies one revision of a sheet into a new sheet of `targetTeamId` (same or another team) that
+ * remembers its origin, audited in both teams when they differ; the copy is named "<title> (fork)"
+ * unless a title is given.
+ */
 export async function forkSheet(
   database: Database,
-  source: { id: string; teamId: string; title: string; tags: string[] },
-  revisionNumber: number,
-  authorId: string,
-  title?: string,
-  targetTeamId: string = source.teamId,
-): Promise<{ sheetId: string; revision: number } | null> {
-  const revision = await getRevision(database, source.id, revisionNumber);
-  if (!revision) return null;
-  return createSheet(database, {
-    teamId: targetTeamId,
-    title: title ?? `${source.title} (fork)`,
-    tags: source.tags,
-    inputs: revision.inputs,
-    summary: revision.summary,
-    authorId,
-    message: `Forked from revision ${revisionNumber}`,
-    forkedFrom: { sheetId: source.id, revision: revisionNumber },
-  });
+  input: { source: { id: string; teamId: string; title: string; tags: string[] }; revision: number; actor: Actor; title?: string; targetTeamId?: string },
+): Promise<Result<CreatedSheet>> {
+  const { source, actor } = input;
+  const targetTeamId = input.targetTeamId ?? source.teamId;
+  const revision = await getRevision(database, source.id, input.revision);
+  if (!revision) return fail({ kind: 'not-found', message: `Revision ${input.revision} does not exist.`, path: 'revision' });
+  const checked = checkDocument(revision.inputs);
+  if (!checked.ok) return checked;
+  return succeed(
+    await database.transaction(async (tx) => {
+      const created = await insertSheet(tx, {
+        teamId: targetTeamId,
+        checked: checked.value,
+        naming: { title: input.title ?? `${source.title} (fork)`, tags: source.tags },
+        authorId: actor.userId,
+        message: `Forked from revision ${input.revision}`,
+        forkedFrom: { sheetId: source.id, revision: input.revision },
+      });
+      await insertAudit(tx, [
+        { teamId: targetTeamId, actorId: actor.userId, action: 'sheet.fork', subject: created.sheetId, detail: { from: source.id, revision: input.revision }, address: actor.address },
+        ...(targetTeamId === source.teamId
+          ? []
+          : [{ teamId: source.teamId, actorId: actor.userId, action: 'sheet.fork', subject: source.id, detail: { to: created.sheetId, toTeam: targetTeamId, revision: input.revision }, address: actor.address }]),
+      ]);
+      return created;
+    }),
+  );
 }
 
 /** The live sheets forked from `sheetId` in any of `teamIds` (the teams the caller may read), oldest first. */
@@ -229,7 +362,8 @@ export async function listSheets(database: Database, query: ListSheetsQuery) {
         id: sheets.id,
         title: sheets.title,
         tags: sheets.tags,
-        status: sheets.status,
+        reviewState: latestReviewState,
+        lastApprovedRevision,
         latestRevision: sheets.latestRevision,
         forkedFromSheetId: sheets.forkedFromSheetId,
         forkedFromRevision: sheets.forkedFromRevision,

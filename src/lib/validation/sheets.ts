@@ -3,6 +3,7 @@ import { z } from './zod';
 export const sheetTitleField = z.string().trim().min(1, 'Give the sheet a title.').max(160, 'Keep the title under 160 characters.');
 export const tagsField = z.array(z.string().trim().min(1).max(40)).max(20).default([]);
 
+/** The title and tags name the new sheet; the document is stored as sent, and saves read the title and tags from it. */
 export const createSheetBody = z.object({
   teamId: z.string().min(1),
   title: sheetTitleField,
@@ -11,12 +12,11 @@ export const createSheetBody = z.object({
   message: z.string().max(500).default('Created'),
 });
 
+/** A save carries only the document: the sheet's title and tags are read from it. */
 export const saveRevisionBody = z.object({
   baseRevision: z.number().int().min(1),
   document: z.unknown(),
   message: z.string().max(500).default(''),
-  title: sheetTitleField.optional(),
-  tags: tagsField.optional(),
 });
 
 export const forkBody = z

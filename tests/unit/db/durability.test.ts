@@ -5,7 +5,8 @@ import { count, eq, inArray } from 'drizzle-orm';
 import { afterEach, describe, expect, it } from 'vitest';
 import { isBusyError, migrateDatabase, openDatabase, type Database } from '../../../src/db';
 import { sheetRevisions, sheets, teams } from '../../../src/db/schema';
-import { createSheet, saveRevision } from '../../../src/lib/server/sheets';
+import { saveRevision } from '../../../src/lib/server/sheets';
+import { createTestSheet, exampleSheetDocument } from '../../helpers/test-sheets';
 import { tempDatabaseUrl } from '../../helpers/temp';
 
 const run = promisify(execFile);
@@ -39,7 +40,7 @@ describe('writes through the queue', () => {
   it('keeps every acknowledged save when 300 saves race in one process', async () => {
     const { database, teamId } = await freshDatabase();
     const results = await Promise.allSettled(
-      Array.from({ length: 300 }, (_, i) => createSheet(database, { teamId, title: `s${i}`, inputs: { i }, authorId: null })),
+      Array.from({ length: 300 }, (_, i) => createTestSheet(database, teamId, `s${i}`)),
     );
     const acknowledged = results.flatMap((r) => (r.status === 'fulfilled' ? [r.value.sheetId] : []));
     expect(acknowledged.length).toBe(300);
@@ -65,12 +66,12 @@ describe('writes through the queue', () => {
     const blocker = createClient({ url, timeout: 5_000 });
     const held = await blocker.transaction('write');
     await held.execute("INSERT INTO app_meta (key, value) VALUES ('lock', 'held')");
-    const blocked = createSheet(database, { teamId, title: 'blocked', inputs: {}, authorId: null });
+    const blocked = createTestSheet(database, teamId, 'blocked');
     await expect(blocked).rejects.toSatisfy(isBusyError);
     await held.rollback();
     blocker.close();
 
-    const later = await createSheet(database, { teamId, title: 'after', inputs: {}, authorId: null });
+    const later = await createTestSheet(database, teamId, 'after');
     const titles = (await database.db.select({ title: sheets.title }).from(sheets)).map((r) => r.title);
     expect(titles).toEqual(['after']);
     expect((await presentSheetIds(database, [later.sheetId])).size).toBe(1);
@@ -80,19 +81,21 @@ describe('writes through the queue', () => {
 describe('saveRevision', () => {
   it('numbers revisions 1, 2, 3 and refuses a save based on a stale revision', async () => {
     const { database, teamId } = await freshDatabase();
-    const { sheetId } = await createSheet(database, { teamId, title: 'pad', inputs: { r: 1 }, authorId: null });
-    expect(await saveRevision(database, sheetId, 1, { inputs: { r: 2 }, authorId: null })).toEqual({ status: 'saved', revision: 2 });
-    expect(await saveRevision(database, sheetId, 1, { inputs: { r: 'lost?' }, authorId: null })).toEqual({
-      status: 'stale',
-      latestRevision: 2,
-    });
-    expect(await saveRevision(database, sheetId, 2, { inputs: { r: 3 }, authorId: null })).toEqual({ status: 'saved', revision: 3 });
+    const { sheetId } = await createTestSheet(database, teamId, 'pad');
+    const edit = (title: string) => ({ ...(exampleSheetDocument as object), title });
+    const save = (baseRevision: number, title: string) => saveRevision(database, { sheetId, baseRevision, document: edit(title), actor: { userId: null } });
+    expect(await save(1, 'pad 2')).toMatchObject({ ok: true, value: { revision: 2 } });
+    expect(await save(1, 'lost?')).toMatchObject({ ok: false, error: { kind: 'stale', latestRevision: 2 } });
+    expect(await save(2, 'pad 3')).toMatchObject({ ok: true, value: { revision: 3 } });
     const numbers = (await database.db.select({ n: sheetRevisions.number }).from(sheetRevisions).where(eq(sheetRevisions.sheetId, sheetId))).map((r) => r.n);
     expect(numbers.sort()).toEqual([1, 2, 3]);
   });
 
-  it('answers missing for an unknown sheet', async () => {
+  it('answers not-found for an unknown sheet', async () => {
     const { database } = await freshDatabase();
-    expect(await saveRevision(database, 'no-such-sheet', 1, { inputs: {}, authorId: null })).toEqual({ status: 'missing' });
+    expect(await saveRevision(database, { sheetId: 'no-such-sheet', baseRevision: 1, document: exampleSheetDocument, actor: { userId: null } })).toMatchObject({
+      ok: false,
+      error: { kind: 'not-found' },
+    });
   });
 });

@@ -4,7 +4,7 @@ import { migrateDatabase, openDatabase, type Database } from '../../../src/db';
 import { sheetRevisions, users } from '../../../src/db/schema';
 import { checkHealth } from '../../../src/lib/server/health';
 import { seedDemoData } from '../../../src/lib/server/seed';
-import { createSheet } from '../../../src/lib/server/sheets';
+import { createTestSheet } from '../../helpers/test-sheets';
 import { SQLD_AVAILABLE, startSqld, type SqldServer } from '../../helpers/sqld';
 
 describe.skipIf(!SQLD_AVAILABLE)('the same data layer on a libSQL server (sqld over http://)', () => {
@@ -34,7 +34,7 @@ describe.skipIf(!SQLD_AVAILABLE)('the same data layer on a libSQL server (sqld o
     const teamId = (await database.client.execute('SELECT id FROM teams LIMIT 1')).rows[0].id as string;
     const before = (await database.db.select({ n: count() }).from(sheetRevisions))[0].n;
     const results = await Promise.all(
-      Array.from({ length: 100 }, (_, i) => createSheet(database, { teamId, title: `srv-${i}`, inputs: { i }, authorId: null })),
+      Array.from({ length: 100 }, (_, i) => createTestSheet(database, teamId, `srv-${i}`)),
     );
     expect(new Set(results.map((r) => r.sheetId)).size).toBe(100);
     const after = (await database.db.select({ n: count() }).from(sheetRevisions))[0].n;

@@ -2,11 +2,12 @@ import { readFileSync } from 'node:fs';
 import { beforeAll, describe, expect, it } from 'vitest';
 import type { Database } from '../../../src/db';
 import { getDatabase } from '../../../src/lib/server/database';
-import { createSheet, listRevisions, listSheets, validateDocument } from '../../../src/lib/server/sheets';
+import { createSheet, listRevisions, listSheets } from '../../../src/lib/server/sheets';
 import { listSheetsQuery } from '../../../src/lib/validation/sheets';
 import { GET as revisionsRoute } from '../../../src/pages/api/sheets/[sheetId]/revisions';
 import { addTestMember, callRoute } from '../../helpers/api-context';
 import { addRevisions } from '../../helpers/revisions';
+import { createTestSheet, exampleSheetDocument } from '../../helpers/test-sheets';
 import { identityForUser } from '../../../src/lib/server/identity';
 
 const REVISIONS = 5_000;
@@ -16,7 +17,7 @@ describe('searching sheet titles', () => {
     const database = await getDatabase();
     const { teamId, userId } = await addTestMember('editor');
     for (const title of ['Load at 50% grip', 'Load at 500 N', 'roller a_b', 'roller axb']) {
-      await createSheet(database, { teamId, title, inputs: {}, authorId: userId });
+      await createSheet(database, { teamId, title, document: exampleSheetDocument, actor: { userId } });
     }
     const titles = async (q: string) => (await listSheets(database, listSheetsQuery.parse({ team: teamId, q }))).items.map((s) => s.title).sort();
     expect(await titles('50%')).toEqual(['Load at 50% grip']);
@@ -35,9 +36,7 @@ describe('listing revisions of a sheet with thousands of them', () => {
     const member = await addTestMember('viewer');
     identity = await identityForUser(database, member.userId, Date.now());
     const doc = JSON.parse(readFileSync('content/sheets/line4-peg-tilt.json', 'utf8'));
-    const checked = validateDocument(doc);
-    if (!checked.ok) throw new Error('example sheet does not validate');
-    ({ sheetId } = await createSheet(database, { teamId: member.teamId, title: 'Many revisions', inputs: doc, summary: checked.summary, authorId: null }));
+    ({ sheetId } = await createTestSheet(database, member.teamId, 'Many revisions', doc));
     await addRevisions(database, sheetId, REVISIONS, doc);
   });
 

@@ -6,7 +6,7 @@ import { count } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
 import { sheets, users } from '../../../src/db/schema';
 import { prepareDatabase } from '../../../src/lib/server/bootstrap';
-import { createSheet } from '../../../src/lib/server/sheets';
+import { createTestSheet } from '../../helpers/test-sheets';
 import { freePort, makeTempDir, tempDatabaseUrl } from '../../helpers/temp';
 
 const exec = promisify(execFile);
@@ -63,7 +63,7 @@ describe('prepareDatabase', () => {
     const first = await prepareDatabase(url);
     expect(first.seed).toMatchObject({ seeded: true, users: 4 });
     const teamId = (await first.database.client.execute('SELECT id FROM teams')).rows[0].id as string;
-    await createSheet(first.database, { teamId, title: 'made between starts', inputs: {}, authorId: null });
+    await createTestSheet(first.database, teamId, 'made between starts');
     const sheetsBefore = (await first.database.db.select({ n: count() }).from(sheets))[0].n;
     first.database.close();
 

@@ -1,10 +1,9 @@
 import type { APIRoute } from 'astro';
 import { errorResponse, requirePermission } from '../../../lib/server/access';
-import { recordAudit } from '../../../lib/server/audit';
 import { getDatabase } from '../../../lib/server/database';
 import { BODY_LIMITS, invalidInput, parseJson, readBody } from '../../../lib/server/request-body';
-import { readSheetFile } from '../../../lib/server/sheet-files';
-import { createSheet } from '../../../lib/server/sheets';
+import { respond } from '../../../lib/server/http';
+import { importSheet } from '../../../lib/server/sheets';
 import { importBody } from '../../../lib/validation/sheet-exchange';
 
 /**
@@ -47,39 +46,6 @@ export const POST = (async ({ request, locals, clientAddress }) => {
   if (!body.success) return invalidInput(body.error);
   const access = requirePermission(locals.identity, body.data.teamId, 'sheet.write');
   if (!access.ok) return access.response;
-  const file = readSheetFile(body.data.content);
-  if (!file.ok) {
-    const [first] = file.issues;
-    const where = first.path ? `${first.path}: ` : '';
-    return Response.json(
-      {
-        error: {
-          message: file.stage === 'document' ? `${body.data.fileName} is not a valid sheet: ${where}${first.message}` : `${body.data.fileName}: ${first.message}`,
-          path: first.path ? `content.${first.path}` : 'content',
-          stage: file.stage,
-          issues: file.issues,
-        },
-      },
-      { status: 400 },
-    );
-  }
-  const database = await getDatabase();
-  const created = await createSheet(database, {
-    teamId: body.data.teamId,
-    title: body.data.title ?? file.doc.title,
-    tags: file.doc.tags,
-    inputs: file.document,
-    summary: file.summary,
-    authorId: access.identity.user.id,
-    message: `Imported from ${body.data.fileName}`,
-  });
-  await recordAudit(database, {
-    teamId: body.data.teamId,
-    actorId: access.identity.user.id,
-    action: 'sheet.import',
-    subject: created.sheetId,
-    detail: { fileName: body.data.fileName },
-    address: clientAddress,
-  });
-  return Response.json({ ...created, summary: file.summary }, { status: 201 });
+  const { teamId, fileName, content, title } = body.data;
+  return respond(await importSheet(await getDatabase(), { teamId, fileName, content, title, actor: { userId: access.identity.user.id, address: clientAddress } }), 201);
 }) satisfies APIRoute;

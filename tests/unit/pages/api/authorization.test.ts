@@ -9,7 +9,7 @@ import { getDatabase } from '../../../../src/lib/server/database';
 import { DEMO_PASSWORD, DEMO_TEAM } from '../../../../src/lib/server/demo';
 import { identityForUser } from '../../../../src/lib/server/identity';
 import { hashPassword } from '../../../../src/lib/server/passwords';
-import { createSheet } from '../../../../src/lib/server/sheets';
+import { createTestSheet } from '../../../helpers/test-sheets';
 import { addTestMember, callRoute, callThroughMiddleware, demoIdentity, demoTeamId, type Handler } from '../../../helpers/api-context';
 
 /*
@@ -86,7 +86,7 @@ async function deleteTableSheets(): Promise<void> {
 
 /** A fresh sheet in the demo team to save onto or fork, removed again after the call. */
 async function scratchSheet(fx: Fixture, extra: Omit<Prepared, 'params' | 'cleanup'> = {}): Promise<Prepared> {
-  const { sheetId } = await createSheet(await getDatabase(), { teamId: fx.teamId, title: TABLE_SHEET_TITLE, inputs: exampleDocument, authorId: null });
+  const { sheetId } = await createTestSheet(await getDatabase(), fx.teamId, TABLE_SHEET_TITLE, exampleDocument);
   return { params: { sheetId }, cleanup: deleteTableSheets, ...extra };
 }
 

@@ -3,7 +3,8 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Identity } from '../../../../src/lib/server/access';
 import type { FakeSmtpServer } from '../../../../src/lib/server/fake-smtp';
 import { BODY_LIMITS } from '../../../../src/lib/server/request-body';
-import { createSheet, deleteSheet, validateDocument } from '../../../../src/lib/server/sheets';
+import { deleteSheet } from '../../../../src/lib/server/sheets';
+import { createTestSheet } from '../../../helpers/test-sheets';
 import { getDatabase } from '../../../../src/lib/server/database';
 import { apiContext, callThroughMiddleware, demoIdentity, demoTeamId, ORIGIN, type Handler } from '../../../helpers/api-context';
 import { linkIn, startTestOutbox, waitForMail } from '../../../helpers/mail';
@@ -33,9 +34,7 @@ let smtp: FakeSmtpServer;
 beforeAll(async () => {
   owner = await demoIdentity('owner');
   teamId = await demoTeamId();
-  const checked = validateDocument(exampleDocument);
-  if (!checked.ok) throw new Error('the example sheet does not validate');
-  ({ sheetId } = await createSheet(await getDatabase(), { teamId, title: 'Request limits scratch sheet', inputs: exampleDocument, summary: checked.summary, authorId: null }));
+  ({ sheetId } = await createTestSheet(await getDatabase(), teamId, 'Request limits scratch sheet', exampleDocument));
   smtp = await startTestOutbox();
 });
 

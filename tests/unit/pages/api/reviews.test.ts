@@ -6,6 +6,7 @@ import * as sheetsRoute from '../../../../src/pages/api/sheets/index';
 import * as revisionsRoute from '../../../../src/pages/api/sheets/[sheetId]/revisions';
 import * as commentsRoute from '../../../../src/pages/api/sheets/[sheetId]/comments';
 import * as reviewsRoute from '../../../../src/pages/api/sheets/[sheetId]/reviews';
+import * as sheetRoute from '../../../../src/pages/api/sheets/[sheetId]/index';
 import { apiContext, createTeamWithRoles } from '../../../helpers/identities';
 
 const example = JSON.parse(readFileSync('content/sheets/line4-peg-tilt.json', 'utf8'));
@@ -38,6 +39,21 @@ describe('reviews', () => {
     const sheetId = await newSheet();
     await revisionsRoute.POST(apiContext({ method: 'POST', params: { sheetId }, body: { baseRevision: 1, document: example, message: 'edit' }, identity: people.editor }));
     expect(await (await review(sheetId, 1, 'approved')).json()).toMatchObject({ status: 'draft' });
+  });
+
+  it('saving a revision makes it a draft: an approval of revision 1 does not carry over to revision 2', async () => {
+    const sheetId = await newSheet();
+    await review(sheetId, 1, 'approved');
+    const saved = await revisionsRoute.POST(apiContext({ method: 'POST', params: { sheetId }, body: { baseRevision: 1, document: example, message: 'unreviewed edit' }, identity: people.editor }));
+    expect(saved.status).toBe(201);
+    const list = await (await reviewsRoute.GET(apiContext({ params: { sheetId }, identity: people.viewer }))).json();
+    expect(list).toMatchObject({ status: 'draft', latestRevision: 2, lastApprovedRevision: 1 });
+    const detail = await (await sheetRoute.GET(apiContext({ params: { sheetId }, identity: people.viewer }))).json();
+    expect(detail.sheet).toMatchObject({ reviewState: 'draft', lastApprovedRevision: 1 });
+    expect(detail.revision).toMatchObject({ number: 2, reviewState: 'draft' });
+    expect(await (await review(sheetId, 2, 'approved')).json()).toMatchObject({ status: 'approved' });
+    const approved = await (await sheetRoute.GET(apiContext({ params: { sheetId }, identity: people.viewer }))).json();
+    expect(approved.sheet).toMatchObject({ reviewState: 'approved', lastApprovedRevision: 2 });
   });
 
   it('refuses an editor, an unknown verdict (located) and a missing revision (located)', async () => {

@@ -6,6 +6,9 @@ import * as sheetsRoute from '../../../../src/pages/api/sheets/index';
 import * as sheetRoute from '../../../../src/pages/api/sheets/[sheetId]/index';
 import * as revisionsRoute from '../../../../src/pages/api/sheets/[sheetId]/revisions';
 import * as forkRoute from '../../../../src/pages/api/sheets/[sheetId]/fork';
+import { eq } from 'drizzle-orm';
+import { auditEvents } from '../../../../src/db/schema';
+import { getDatabase } from '../../../../src/lib/server/database';
 import { apiContext, createTeamWithRoles } from '../../../helpers/identities';
 
 const example = JSON.parse(readFileSync('content/sheets/line4-peg-tilt.json', 'utf8'));
@@ -67,6 +70,51 @@ describe('saving revisions', () => {
       [2, 'first edit'],
       [1, 'Created'],
     ]);
+  });
+
+  it("answers a stale save with what the client needs to rebase: the latest revision's number, inputs, message and author", async () => {
+    const { sheetId } = await (await create(people.editor)).json();
+    const theirs = { ...structuredClone(example), description: 'Their edit' };
+    const save = (baseRevision: number, document: unknown, message: string) =>
+      revisionsRoute.POST(apiContext({ method: 'POST', params: { sheetId }, body: { baseRevision, document, message }, identity: people.editor }));
+    expect((await save(1, theirs, 'their edit')).status).toBe(201);
+    const stale = await save(1, example, 'my edit');
+    expect(stale.status).toBe(409);
+    const { error } = await stale.json();
+    expect(error).toMatchObject({ path: 'baseRevision', latestRevision: 2, latest: { number: 2, message: 'their edit', authorName: people.editor.user.name } });
+    expect(error.latest.inputs).toEqual(theirs);
+    expect(error.kind).toBeUndefined();
+  });
+
+  it('takes the title and tags from the saved document and writes the revision and its audit event together', async () => {
+    const { sheetId } = await (await create(people.editor)).json();
+    const renamed = { ...structuredClone(example), title: 'Peg tilt, renamed in the document', tags: ['renamed'] };
+    const saved = await revisionsRoute.POST(
+      apiContext({ method: 'POST', params: { sheetId }, body: { baseRevision: 1, document: renamed, title: 'A second title, ignored', tags: ['ignored'] }, identity: people.editor }),
+    );
+    expect(saved.status).toBe(201);
+    const detail = await (await sheetRoute.GET(apiContext({ params: { sheetId }, identity: people.viewer }))).json();
+    expect(detail.sheet).toMatchObject({ title: 'Peg tilt, renamed in the document', tags: ['renamed'], latestRevision: 2 });
+    const database = await getDatabase();
+    const events = await database.db.select().from(auditEvents).where(eq(auditEvents.subject, sheetId));
+    expect(events.map((e) => [e.action, e.actorId])).toEqual(
+      expect.arrayContaining([
+        ['sheet.create', people.editor.user.id],
+        ['sheet.save', people.editor.user.id],
+      ]),
+    );
+  });
+
+  it('stores nothing and audits nothing for an invalid save', async () => {
+    const { sheetId } = await (await create(people.editor)).json();
+    const bad = structuredClone(example);
+    bad.hand.fingers[0].joints[0].axis = [0, 0, 0];
+    const refused = await revisionsRoute.POST(apiContext({ method: 'POST', params: { sheetId }, body: { baseRevision: 1, document: bad }, identity: people.editor }));
+    expect(refused.status).toBe(400);
+    expect((await refused.json()).error.path).toBe('document.hand.fingers[0].joints[0].axis');
+    const database = await getDatabase();
+    const events = await database.db.select().from(auditEvents).where(eq(auditEvents.subject, sheetId));
+    expect(events.map((e) => e.action)).toEqual(['sheet.create']);
   });
 
   it('lets a reviewer read but not save, and hides the sheet from other teams', async () => {

@@ -1,6 +1,6 @@
 import type { APIRoute } from 'astro';
-import { errorResponse, requirePermission } from '../../../../lib/server/access';
-import { recordAudit } from '../../../../lib/server/audit';
+import { requirePermission } from '../../../../lib/server/access';
+import { respond } from '../../../../lib/server/http';
 import { BODY_LIMITS, parseJsonBody } from '../../../../lib/server/request-body';
 import { requireSheet } from '../../../../lib/server/sheet-access';
 import { forkSheet } from '../../../../lib/server/sheets';
@@ -15,14 +15,12 @@ export const POST = (async ({ params, request, locals, clientAddress }) => {
   const targetTeamId = body.data.teamId ?? sheet.teamId;
   const access = requirePermission(source.identity, targetTeamId, 'sheet.write');
   if (!access.ok) return access.response;
-  const revision = body.data.revision ?? sheet.latestRevision;
-  const fork = await forkSheet(database, sheet, revision, access.identity.user.id, body.data.title, targetTeamId);
-  if (!fork) return errorResponse(404, `Revision ${revision} does not exist.`, 'revision');
-  await recordAudit(database, [
-    { teamId: targetTeamId, actorId: access.identity.user.id, action: 'sheet.fork', subject: fork.sheetId, detail: { from: sheet.id, revision }, address: clientAddress },
-    ...(targetTeamId === sheet.teamId
-      ? []
-      : [{ teamId: sheet.teamId, actorId: access.identity.user.id, action: 'sheet.fork', subject: sheet.id, detail: { to: fork.sheetId, toTeam: targetTeamId, revision }, address: clientAddress }]),
-  ]);
-  return Response.json(fork, { status: 201 });
+  const fork = await forkSheet(database, {
+    source: sheet,
+    revision: body.data.revision ?? sheet.latestRevision,
+    title: body.data.title,
+    targetTeamId,
+    actor: { userId: access.identity.user.id, address: clientAddress },
+  });
+  return respond(fork, 201);
 }) satisfies APIRoute;

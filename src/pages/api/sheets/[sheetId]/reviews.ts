@@ -11,7 +11,12 @@ export const GET = (async ({ params, locals }) => {
   const access = await requireSheet(locals.identity, params.sheetId, 'sheet.read');
   if (!access.ok) return access.response;
   const { database, sheet } = access;
-  return Response.json({ status: sheet.status, items: await listReviews(database, sheet.id) });
+  return Response.json({
+    status: sheet.reviewState,
+    latestRevision: sheet.latestRevision,
+    lastApprovedRevision: sheet.lastApprovedRevision,
+    items: await listReviews(database, sheet.id),
+  });
 }) satisfies APIRoute;
 
 export const POST = (async ({ params, request, locals, clientAddress }) => {

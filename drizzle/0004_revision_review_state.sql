@@ -1,0 +1,1 @@
+ALTER TABLE `sheet_revisions` ADD `review_state` text DEFAULT 'draft' NOT NULL;
