@@ -3,7 +3,6 @@ import { CredentialsSignin } from '@auth/core/errors';
 import Nodemailer from '@auth/core/providers/nodemailer';
 import { DrizzleAdapter } from '@auth/drizzle-adapter';
 import type { Adapter } from '@auth/core/adapters';
-import { eq } from 'drizzle-orm';
 import { defineConfig } from 'auth-astro';
 import { passwordSignInSchema } from './lib/validation/auth';
 import { accounts, sessions, users, verificationTokens } from './db/schema';
@@ -13,6 +12,7 @@ import { endSession, getMemberships } from './lib/server/identity';
 import { dummyPasswordHash, verifyPassword } from './lib/server/passwords';
 import { allowSignInLink, finishSignIn, startSignIn } from './lib/server/rate-limit';
 import { sendMail } from './lib/server/email';
+import { findUserByEmail } from './lib/server/users';
 import { CLIENT_ADDRESS_HEADER } from './consts';
 
 declare module '@auth/core/types' {
@@ -76,7 +76,7 @@ export default defineConfig({
           await auditSignIn(null, 'auth.sign_in_blocked', address, { email });
           throw new RateLimited();
         }
-        const [user] = await database.db.select().from(users).where(eq(users.email, email));
+        const user = await findUserByEmail(database, email);
         // One argon2 check on every path, so the answer's timing does not tell which addresses have accounts.
         const matches = await verifyPassword(user?.passwordHash ?? (await dummyPasswordHash()), password);
         const ok = !!user?.passwordHash && matches;
@@ -93,7 +93,7 @@ export default defineConfig({
         const database = await getDatabase();
         const address = request.headers.get(CLIENT_ADDRESS_HEADER) ?? 'unknown';
         const allowed = await allowSignInLink(database, { email: identifier, address });
-        const [known] = await database.db.select({ id: users.id }).from(users).where(eq(users.email, identifier.toLowerCase()));
+        const known = await findUserByEmail(database, identifier);
         if (!allowed || !known) return;
         const mail = {
           to: identifier,
@@ -110,7 +110,7 @@ export default defineConfig({
       // following a link, or any other sign-in, needs an existing account.
       if (email?.verificationRequest) return true;
       const database = await getDatabase();
-      const [known] = await database.db.select({ id: users.id }).from(users).where(eq(users.email, String(user.email ?? '').toLowerCase()));
+      const known = await findUserByEmail(database, user.email ?? '');
       return !!known;
     },
     jwt({ token, user }) {

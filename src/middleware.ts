@@ -5,6 +5,7 @@ import { TEAM_COOKIE } from './consts';
 import { errorResponse, type Identity } from './lib/server/access';
 import { getDatabase } from './lib/server/database';
 import { bearerToken, identityForToken, identityForUser } from './lib/server/identity';
+import { needsSignIn, signInLocation } from './lib/server/page-access';
 import { publicOrigin, publicUrl } from './lib/server/public-origin';
 import { isSameOriginWrite, withSecurityHeaders } from './lib/server/request-guard';
 
@@ -32,7 +33,8 @@ async function sessionIdentity(request: Request): Promise<Identity | null> {
 /**
  * The app's one origin check (Astro's own is off in astro.config.mjs because it also refused
  * token-carrying scripts): requests with a bearer token carry no cookie and pass; browser writes
- * must come from the public origin.
+ * must come from the public origin. Signed-in pages send anyone else to sign in, here once rather
+ * than in each page.
  */
 async function resolveIdentity(context: APIContext, next: MiddlewareNext, origin: string): Promise<Response> {
   context.locals.identity = null;
@@ -45,6 +47,7 @@ async function resolveIdentity(context: APIContext, next: MiddlewareNext, origin
   const chosen = context.cookies.get(TEAM_COOKIE)?.value;
   context.locals.identity = identity;
   context.locals.team = identity?.memberships.find((m) => m.slug === chosen) ?? identity?.memberships[0] ?? null;
+  if (!identity && needsSignIn(context.routePattern)) return context.redirect(signInLocation(context.url));
   return next();
 }
 

@@ -31,6 +31,8 @@ export function cookieJar(initial: Record<string, string> = {}) {
 export interface RequestSpec {
   method?: string;
   path: string;
+  /** The route as Astro names it (`/sheets/[sheetId]`), which the middleware matches pages by. */
+  routePattern?: string;
   params?: Record<string, string>;
   body?: unknown;
   headers?: Record<string, string>;
@@ -50,6 +52,7 @@ export function apiContext(spec: RequestSpec): APIContext {
     request,
     url,
     params: spec.params ?? {},
+    routePattern: spec.routePattern ?? url.pathname,
     cookies: spec.cookies ?? cookieJar(),
     clientAddress: '127.0.0.1',
     locals: { identity, team: identity?.memberships[0] ?? null },

@@ -1,10 +1,9 @@
-import { eq } from 'drizzle-orm';
 import type { Database } from '../../db';
-import { users } from '../../db/schema';
 import type { Identity } from './access';
 import { recordAudit } from './audit';
 import { hashPassword, verifyPassword } from './passwords';
 import { clearThrottle, hitThrottles, type ThrottleRule } from './rate-limit';
+import { findUserById, replacePassword } from './users';
 
 export type PasswordChangeOutcome =
   | { ok: true }
@@ -31,7 +30,7 @@ export async function changePassword(
   address: string | null = null,
 ): Promise<PasswordChangeOutcome> {
   const userId = identity.user.id;
-  const [user] = await database.db.select({ passwordHash: users.passwordHash }).from(users).where(eq(users.id, userId));
+  const user = await findUserById(database, userId);
   if (!user) return { ok: false, status: 404, message: 'Not found.' };
   if (!user.passwordHash) {
     return { ok: false, status: 400, path: 'currentPassword', message: 'Your account signs in by e-mail link and has no password yet; use the password reset on the sign-in page to set one.' };
@@ -49,7 +48,7 @@ export async function changePassword(
   await clearThrottle(database, throttle);
   const passwordHash = await hashPassword(input.newPassword);
   // Every session begun before now ends, this one included; API tokens are separate credentials and stay.
-  await database.write((db) => db.update(users).set({ passwordHash, sessionsValidFrom: new Date() }).where(eq(users.id, userId)));
+  await database.write((db) => replacePassword(db, userId, { passwordHash, at: new Date() }));
   const teams = identity.memberships.length ? identity.memberships.map((m) => m.teamId) : [null];
   await recordAudit(
     database,

@@ -6,6 +6,7 @@ import { recordAudit } from './audit';
 import { sendMail } from './email';
 import { hashPassword } from './passwords';
 import { generateSecretToken, hashSecretToken } from './tokens';
+import { createUsers, findUserByEmail, normaliseEmail } from './users';
 
 export const INVITATION_TOKEN_PREFIX = 'inv_';
 export const INVITATION_LIFETIME_MS = 7 * 24 * 60 * 60 * 1000;
@@ -94,14 +95,16 @@ export async function createInvitation(
   input: { teamId: string; inviter: Identity['user']; email: string; role: Role; origin: string; address?: string | null; now?: number },
 ): Promise<InvitationOutcome<PendingInvitation>> {
   const now = input.now ?? Date.now();
-  const email = input.email.trim().toLowerCase();
+  const email = normaliseEmail(input.email);
   const [team] = await database.db.select({ name: teams.name }).from(teams).where(eq(teams.id, input.teamId));
   if (!team) return { ok: false, status: 404, message: 'Not found.' };
-  const [member] = await database.db
-    .select({ userId: memberships.userId })
-    .from(memberships)
-    .innerJoin(users, eq(users.id, memberships.userId))
-    .where(and(eq(memberships.teamId, input.teamId), eq(users.email, email)));
+  const existing = await findUserByEmail(database, email);
+  const [member] = existing
+    ? await database.db
+        .select({ userId: memberships.userId })
+        .from(memberships)
+        .where(and(eq(memberships.teamId, input.teamId), eq(memberships.userId, existing.id)))
+    : [];
   if (member) return { ok: false, status: 409, message: `${email} is already a member of this team.`, path: 'email' };
 
   const { token, hash } = generateSecretToken(INVITATION_TOKEN_PREFIX);
@@ -184,11 +187,6 @@ async function findByToken(database: Database, token: string) {
   return row ?? null;
 }
 
-async function findUserIdByEmail(database: Database, email: string): Promise<string | null> {
-  const [user] = await database.db.select({ id: users.id }).from(users).where(eq(users.email, email));
-  return user?.id ?? null;
-}
-
 /** The invitation behind a link, for the accept page; refused (404/410) when it cannot be used. */
 export async function previewInvitation(database: Database, token: string, now = Date.now()): Promise<InvitationOutcome<InvitationPreview>> {
   const row = token.startsWith(INVITATION_TOKEN_PREFIX) ? await findByToken(database, token) : null;
@@ -203,7 +201,7 @@ export async function previewInvitation(database: Database, token: string, now =
       teamName: row.teamName,
       inviterName: row.inviterName,
       expiresAt: row.invitation.expiresAt,
-      hasAccount: (await findUserIdByEmail(database, row.invitation.email)) !== null,
+      hasAccount: (await findUserByEmail(database, row.invitation.email)) !== null,
     },
   };
 }
@@ -232,14 +230,11 @@ export async function acceptInvitation(
     if (!invitation) return { ok: false, status: 404, message: 'This invitation link is not valid. Check that the whole link was copied.' };
     const why = refusal(invitation, preview.value.inviterName, preview.value.teamName, now);
     if (why) return { ok: false, status: 410, message: why };
-    const [existing] = await tx.select({ id: users.id }).from(users).where(eq(users.email, email));
+    const existing = await findUserByEmail(tx, email);
     let userId = existing?.id;
     if (!userId) {
       if (!passwordHash || !input.name?.trim()) return { ok: false, status: 409, message: 'The account changed meanwhile; reload the page and try again.' };
-      const [created] = await tx
-        .insert(users)
-        .values({ email, name: input.name.trim(), passwordHash, emailVerified: new Date(now) })
-        .returning({ id: users.id });
+      const [created] = await createUsers(tx, [{ email, name: input.name.trim(), passwordHash, emailVerified: new Date(now) }]);
       userId = created.id;
     }
     await tx.insert(memberships).values({ teamId: invitation.teamId, userId, role: invitation.role }).onConflictDoNothing();

@@ -7,6 +7,7 @@ import { getMemberships } from './identity';
 import { hashPassword } from './passwords';
 import { addressBlock, hitThrottles, type ThrottleRule } from './rate-limit';
 import { generateSecretToken, hashSecretToken } from './tokens';
+import { findUserByEmail, normaliseEmail, replacePassword } from './users';
 
 export const PASSWORD_RESET_TOKEN_PREFIX = 'pwr_';
 export const PASSWORD_RESET_LIFETIME_MS = 60 * 60 * 1000;
@@ -35,13 +36,13 @@ export async function requestPasswordReset(
   input: { email: string; origin: string; address?: string | null; now?: number },
 ): Promise<void> {
   const now = input.now ?? Date.now();
-  const email = input.email.trim().toLowerCase();
+  const email = normaliseEmail(input.email);
   const throttles = [
     { rule: RESET_ADDRESS, id: addressBlock(input.address ?? 'unknown') },
     { rule: RESET_RECIPIENT, id: email },
   ];
   if (!(await hitThrottles(database, throttles, now)).ok) return;
-  const [user] = await database.db.select({ id: users.id }).from(users).where(eq(users.email, email));
+  const user = await findUserByEmail(database, email);
   if (!user) return;
 
   const { token, hash } = generateSecretToken(PASSWORD_RESET_TOKEN_PREFIX);
@@ -100,7 +101,7 @@ export async function confirmPasswordReset(
       .where(and(eq(passwordResets.tokenHash, hashSecretToken(input.token)), isNull(passwordResets.usedAt)))
       .returning({ userId: passwordResets.userId });
     if (!used) return null;
-    await tx.update(users).set({ passwordHash, emailVerified: new Date(now), sessionsValidFrom: new Date(now) }).where(eq(users.id, used.userId));
+    await replacePassword(tx, used.userId, { passwordHash, at: new Date(now), emailVerified: new Date(now) });
     return used.userId;
   });
   if (!userId) return { ok: false, status: 410, message: 'This reset link was already used. Ask for a new one if you need to reset again.' };

@@ -1,6 +1,7 @@
 import { and, eq, gte, inArray, isNull, lt, lte, or, sql, type SQL } from 'drizzle-orm';
 import type { Database } from '../../db';
 import { rateLimits } from '../../db/schema';
+import { normaliseEmail } from './users';
 
 const SECOND = 1_000;
 const MINUTE = 60 * SECOND;
@@ -178,10 +179,6 @@ export function addressBlock(address: string): string {
   return `${groups.slice(0, 4).map((g) => g.replace(/^0+(?=.)/, '')).join(':')}::/64`;
 }
 
-function accountId(email: string): string {
-  return email.trim().toLowerCase();
-}
-
 /**
  * Counts a password sign-in before the password is checked (so parallel guesses cannot all slip
  * through), or says how long to wait. Delays grow per account and address and per address; the
@@ -193,7 +190,7 @@ export async function startSignIn(
   input: { email: string; address: string },
   now = Date.now(),
 ): Promise<{ ok: true; attempt: SignInAttempt } | { ok: false; retryAfterMs: number }> {
-  const email = accountId(input.email);
+  const email = normaliseEmail(input.email);
   const address = addressBlock(input.address);
   const known = { rule: SIGN_IN_KNOWN_ADDRESS, id: `${email}|${address}` };
   const [row] = await database.db
@@ -229,7 +226,7 @@ export async function finishSignIn(database: Database, attempt: SignInAttempt, s
 export async function allowSignInLink(database: Database, input: { email: string; address: string }, now = Date.now()): Promise<boolean> {
   const throttles = [
     { rule: LINK_REQUEST_ADDRESS, id: addressBlock(input.address) },
-    { rule: LINK_REQUEST_RECIPIENT, id: accountId(input.email) },
+    { rule: LINK_REQUEST_RECIPIENT, id: normaliseEmail(input.email) },
   ];
   return (await hitThrottles(database, throttles, now)).ok;
 }

@@ -2,10 +2,11 @@ import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { count } from 'drizzle-orm';
 import type { Database } from '../../db';
-import { auditEvents, memberships, sheetRevisions, sheets, teams, users } from '../../db/schema';
+import { auditEvents, memberships, sheetRevisions, sheets, teams } from '../../db/schema';
 import { DEMO_PASSWORD, DEMO_SHEETS_FOLDER, DEMO_TEAM, DEMO_USERS } from './demo';
 import { hashPassword } from './passwords';
 import { checkDocument } from './sheets';
+import { countUsers, createUsers } from './users';
 
 export interface SeedOutcome {
   seeded: boolean;
@@ -116,7 +117,7 @@ function readDemoSheets(folder: string): { file: string; document: DemoSheetFile
 
 /** Seeds the invented demo team, its users in every role and its sheets, only into an empty database. */
 export async function seedDemoData(database: Database, sheetsFolder = DEMO_SHEETS_FOLDER): Promise<SeedOutcome> {
-  const [{ n: existingUsers }] = await database.db.select({ n: count() }).from(users);
+  const existingUsers = await countUsers(database);
   const [{ n: existingTeams }] = await database.db.select({ n: count() }).from(teams);
   if (existingUsers > 0 || existingTeams > 0) return { seeded: false, users: 0, sheets: 0 };
 
@@ -125,10 +126,10 @@ export async function seedDemoData(database: Database, sheetsFolder = DEMO_SHEET
   let sheetCount = 0;
   await database.transaction(async (tx) => {
     const [team] = await tx.insert(teams).values(DEMO_TEAM).returning();
-    const created = await tx
-      .insert(users)
-      .values(DEMO_USERS.map((u) => ({ name: u.name, email: u.email, passwordHash, emailVerified: new Date() })))
-      .returning();
+    const created = await createUsers(
+      tx,
+      DEMO_USERS.map((u) => ({ name: u.name, email: u.email, passwordHash, emailVerified: new Date() })),
+    );
     await tx.insert(memberships).values(
       created.map((user, i) => ({ teamId: team.id, userId: user.id, role: DEMO_USERS[i].role })),
     );
