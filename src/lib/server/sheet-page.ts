@@ -3,6 +3,7 @@ import type { Database } from '../../db';
 import { reviews, users, type ReviewState } from '../../db/schema';
 import { can, type Identity } from './access';
 import { findSheet, getRevision, listForks } from './sheets';
+import { sheetQuery } from '../validation/sheet-exchange';
 
 export interface SheetLink {
   id: string;
@@ -46,8 +47,8 @@ async function findApprover(database: Database, sheetId: string, revision: numbe
  */
 export async function loadSheetPage(database: Database, identity: Identity, sheet: SheetRow, revisionParam: string | null): Promise<SheetPageOutcome> {
   const membership = identity.memberships.find((m) => m.teamId === sheet.teamId);
-  const wanted = revisionParam === null ? sheet.latestRevision : Number(revisionParam);
-  const revision = Number.isInteger(wanted) ? await getRevision(database, sheet.id, wanted) : null;
+  const query = sheetQuery.safeParse({ revision: revisionParam ?? undefined });
+  const revision = query.success ? await getRevision(database, sheet.id, query.data.revision ?? sheet.latestRevision) : null;
   if (!revision) return { status: 'missing', message: `Revision ${revisionParam} of this sheet does not exist.` };
   const readable = identity.memberships.filter((m) => can(m.role, 'sheet.read')).map((m) => m.teamId);
   const origin = sheet.forkedFromSheetId ? await findSheet(database, sheet.forkedFromSheetId) : null;
