@@ -2,11 +2,10 @@ import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { useState, type FormEvent } from 'react';
 import { fieldErrors, formatWhen, requestJson, serverErrors } from '../lib/client/api';
 import { createInvitationSchema, ROLE_SUMMARIES } from '../lib/validation/invitations';
-import { ROLE_CHOICES } from '../lib/validation/team';
+import { ROLES, type Role } from '../lib/roles';
 import { FieldError, FormError, dangerButton, inputClass, labelClass, primaryButton, secondaryButton } from './form-parts';
 import QueryRoot from './QueryRoot';
 
-type Role = (typeof ROLE_CHOICES)[number];
 
 interface MemberRow {
   userId: string;
@@ -56,7 +55,7 @@ function MemberActions({ teamId, member, isSelf }: { teamId: string; member: Mem
           }}
           className="border-2 border-ink bg-paper px-2 py-1 font-mono text-xs uppercase"
         >
-          {ROLE_CHOICES.map((role) => (
+          {ROLES.map((role) => (
             <option key={role} value={role}>
               {role}
             </option>
@@ -168,7 +167,7 @@ function InviteForm({ teamId }: { teamId: string }) {
         <label className={labelClass}>
           Role
           <select name="role" value={role} onChange={(e) => setRole(e.target.value as Role)} className={inputClass} aria-invalid={!!errors.role}>
-            {ROLE_CHOICES.map((choice) => (
+            {ROLES.map((choice) => (
               <option key={choice} value={choice}>
                 {choice}
               </option>

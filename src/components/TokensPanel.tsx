@@ -1,11 +1,11 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { useState, type FormEvent } from 'react';
 import { fieldErrors, formatWhen, requestJson, serverErrors } from '../lib/client/api';
+import type { Role } from '../lib/roles';
 import { createTokenSchema } from '../lib/validation/team';
 import { FieldError, FormError, dangerButton, inputClass, labelClass, primaryButton, secondaryButton } from './form-parts';
 import QueryRoot from './QueryRoot';
 
-type Role = 'owner' | 'editor' | 'reviewer' | 'viewer';
 
 export interface TokenTeam {
   teamId: string;

@@ -1,5 +1,6 @@
 import { sql } from 'drizzle-orm';
 import { index, integer, primaryKey, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
+import { ROLES } from '../lib/roles';
 import type { SheetSummary, StoredDocument } from '../lib/sheet/summary';
 
 const id = () =>
@@ -11,8 +12,6 @@ const createdAt = () =>
     .notNull()
     .default(sql`(unixepoch('subsec') * 1000)`);
 
-export const ROLES = ['owner', 'editor', 'reviewer', 'viewer'] as const;
-export type Role = (typeof ROLES)[number];
 
 /** Where one revision stands in review: every saved revision starts as a draft until a reviewer gives a verdict on it. */
 export const REVIEW_STATES = ['draft', 'approved', 'changes-requested'] as const;

@@ -1,6 +1,7 @@
 import type { APIContext } from 'astro';
 import { eq } from 'drizzle-orm';
-import { memberships, teams, users, type Role } from '../../src/db/schema';
+import { memberships, teams, users } from '../../src/db/schema';
+import type { Role } from '../../src/lib/roles';
 import type { Identity } from '../../src/lib/server/access';
 import { getDatabase } from '../../src/lib/server/database';
 import { DEMO_TEAM, DEMO_USERS } from '../../src/lib/server/demo';

@@ -1,5 +1,5 @@
 import type { APIContext } from 'astro';
-import type { Role } from '../../src/db/schema';
+import type { Role } from '../../src/lib/roles';
 import { memberships, teams, users } from '../../src/db/schema';
 import type { Identity } from '../../src/lib/server/access';
 import { getDatabase } from '../../src/lib/server/database';

@@ -1,32 +1,4 @@
-import type { Role } from '../../db/schema';
-
-export const PERMISSIONS = [
-  'sheet.read',
-  'sheet.write',
-  'sheet.comment',
-  'sheet.review',
-  'log.upload',
-  'team.manage',
-] as const;
-export type Permission = (typeof PERMISSIONS)[number];
-
-/** What each role may do in its team; the owner may do everything. */
-const GRANTS: Record<Role, readonly Permission[]> = {
-  owner: PERMISSIONS,
-  editor: ['sheet.read', 'sheet.write', 'sheet.comment'],
-  reviewer: ['sheet.read', 'sheet.comment', 'sheet.review', 'log.upload'],
-  viewer: ['sheet.read'],
-};
-
-/** True when `role` grants `permission`. */
-export function can(role: Role, permission: Permission): boolean {
-  return GRANTS[role].includes(permission);
-}
-
-/** True when every permission of `role` is also granted to `holder` (used to cap token roles). */
-export function roleWithin(role: Role, holder: Role): boolean {
-  return GRANTS[role].every((permission) => can(holder, permission));
-}
+import { can, type Permission, type Role } from '../roles';
 
 export interface TeamMembership {
   teamId: string;

@@ -1,7 +1,9 @@
 import { and, desc, eq, isNull, sql } from 'drizzle-orm';
 import type { Database } from '../../db';
-import { apiTokens, teams, users, type Role } from '../../db/schema';
-import { roleWithin, type Identity } from './access';
+import { apiTokens, teams, users } from '../../db/schema';
+import type { Role } from '../roles';
+import { roleWithin } from '../roles';
+import type { Identity } from './access';
 import { recordAudit } from './audit';
 import { generateSecretToken } from './tokens';
 

@@ -1,4 +1,4 @@
-import type { Role } from '../../db/schema';
+import type { Role } from '../roles';
 
 /** The invented demo team seeded into an empty database. Demo only: never use these sign-ins elsewhere. */
 export const DEMO_TEAM = { slug: 'fenwick-line4', name: 'Fenwick Assembly Lab · Line 4 cell' } as const;

@@ -1,7 +1,8 @@
 import { and, eq, isNull, lt, sql } from 'drizzle-orm';
 import type { Database } from '../../db';
 import { apiTokens, endedSessions, memberships, teams, users } from '../../db/schema';
-import { roleWithin, type Identity, type TeamMembership } from './access';
+import { roleWithin } from '../roles';
+import type { Identity, TeamMembership } from './access';
 import { API_TOKEN_PREFIX, hashSecretToken } from './tokens';
 
 const TOKEN_TOUCH_INTERVAL_MS = 60_000;

@@ -1,6 +1,7 @@
 import { and, desc, eq, gt, isNull } from 'drizzle-orm';
 import type { Database } from '../../db';
-import { invitations, memberships, teams, users, type Role } from '../../db/schema';
+import { invitations, memberships, teams, users } from '../../db/schema';
+import type { Role } from '../roles';
 import type { Identity } from './access';
 import { recordAudit } from './audit';
 import { sendMail } from './email';

@@ -1,6 +1,7 @@
 import { and, asc, count, eq, isNull, sql } from 'drizzle-orm';
 import type { Database, Transaction } from '../../db';
-import { apiTokens, memberships, users, type Role } from '../../db/schema';
+import { apiTokens, memberships, users } from '../../db/schema';
+import type { Role } from '../roles';
 import type { Identity } from './access';
 import { recordAudit } from './audit';
 

@@ -1,7 +1,8 @@
 import { and, desc, eq } from 'drizzle-orm';
 import type { Database } from '../../db';
 import { reviews, users, type ReviewState } from '../../db/schema';
-import { can, type Identity } from './access';
+import { can } from '../roles';
+import type { Identity } from './access';
 import { findSheet, getRevision, listForks } from './sheets';
 import { sheetQuery } from '../validation/sheet-exchange';
 

@@ -1,5 +1,5 @@
 import { z } from './zod';
-import type { Role } from '../../db/schema';
+import type { Role } from '../roles';
 import { emailField, newPasswordField } from './auth';
 
 /** What each role may do, in plain words; typed by Role so a new role cannot be left out (the schema module is server-only). */

@@ -1,10 +1,7 @@
 import { z } from './zod';
-import type { Role } from '../../db/schema';
+import { ROLES } from '../roles';
 
-/** Roles from most to least rights; typed by Role so the list stays in step with the schema without importing it into the browser. */
-export const ROLE_CHOICES = ['owner', 'editor', 'reviewer', 'viewer'] as const satisfies readonly Role[];
-
-export const roleField = z.enum(ROLE_CHOICES, 'Choose one of: owner, editor, reviewer, viewer.');
+export const roleField = z.enum(ROLES, 'Choose one of: owner, editor, reviewer, viewer.');
 
 export const teamIdField = z.string().trim().min(1, 'Choose a team.').max(100, 'That team id is too long.');
 

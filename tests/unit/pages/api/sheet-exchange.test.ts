@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { beforeAll, describe, expect, it } from 'vitest';
-import type { Role } from '../../../../src/db/schema';
+import type { Role } from '../../../../src/lib/roles';
 import { solveSheet } from '../../../../src/lib/kinematics';
 import type { Identity } from '../../../../src/lib/server/access';
 import { MAX_JSON_VALUES } from '../../../../src/lib/server/json-depth';

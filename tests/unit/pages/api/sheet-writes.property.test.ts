@@ -1,7 +1,7 @@
 import { readFileSync, readdirSync } from 'node:fs';
 import fc from 'fast-check';
 import { beforeAll, describe, expect, it } from 'vitest';
-import type { Role } from '../../../../src/db/schema';
+import type { Role } from '../../../../src/lib/roles';
 import type { Identity } from '../../../../src/lib/server/access';
 import * as sheetsRoute from '../../../../src/pages/api/sheets/index';
 import * as importRoute from '../../../../src/pages/api/sheets/import';

@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { beforeAll, describe, expect, it } from 'vitest';
-import type { Role } from '../../../../src/db/schema';
+import type { Role } from '../../../../src/lib/roles';
 import type { Identity } from '../../../../src/lib/server/access';
 import * as sheetsRoute from '../../../../src/pages/api/sheets/index';
 import * as sheetRoute from '../../../../src/pages/api/sheets/[sheetId]/index';
