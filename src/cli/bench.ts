@@ -15,10 +15,9 @@ import { availableParallelism, cpus, loadavg } from 'node:os';
 import { all, create, type MathJsInstance, type Matrix as MathMatrix } from 'mathjs';
 import { createSheetFromTemplate } from '../lib/sheet/templates';
 import type { SheetDocument } from '../lib/sheet/types';
-import { createResult, createScene, solveScene } from '../lib/kinematics/index';
-import { createLinalgWorkspace, dampedLeastSquares, matrixFromRows, singularValues } from '../lib/kinematics/linalg';
-import { runSheet } from '../lib/kinematics/run';
-import { sweepSheet } from '../lib/kinematics/sweep';
+import {
+  createLinalgWorkspace, createResult, createScene, dampedLeastSquares, matrixFromRows, matrixToRows, runSheet, singularValues, solveScene, sweepSheet,
+} from '../lib/kinematics/index';
 
 const quick = process.argv.includes('--quick');
 const REPETITIONS = quick ? 3 : 15;
@@ -172,7 +171,7 @@ const sweepSettings = { path: '/object/twist/angular/2', from: 0, to: 0.5, steps
 
 // The first finger's contact Jacobian (3 x 3 here) and a 3 x 5 one with two more columns from the second finger.
 const jacobian3 = threeResult.fingers[0]!.full.jacobian;
-const rows3 = Array.from({ length: 3 }, (_, i) => Array.from(jacobian3.data.subarray(i * jacobian3.cols, (i + 1) * jacobian3.cols)));
+const rows3 = matrixToRows(jacobian3);
 const extra = threeResult.fingers[1]!.full.jacobian;
 const jacobian5 = matrixFromRows(rows3.map((row, i) => [...row, extra.data[i * extra.cols]!, extra.data[i * extra.cols + 1]!]));
 const workspace = createLinalgWorkspace(6, 40);

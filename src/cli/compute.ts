@@ -9,10 +9,9 @@ import { readFileSync, realpathSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { parseSheet } from '../lib/sheet/schema';
 import type { SheetDocument } from '../lib/sheet/types';
-import { solveSheet, toPlainResult } from '../lib/kinematics/index';
-import { ROTATION_METRICS } from '../lib/kinematics/metrics';
-import { runSheet, toPlainRunRecord, warningsAt, type RunRecord } from '../lib/kinematics/run';
-import { sweepSheet, type SweepRecord } from '../lib/kinematics/sweep';
+import {
+  ROTATION_METRICS, runSheet, solveSheet, sweepSheet, toPlainResult, toPlainRunRecord, warningsAt, type RunRecord, type SweepRecord,
+} from '../lib/kinematics/index';
 import { csvTable, FINGER_COLUMNS, fingerRows, maxJointCount, rateColumns, resultsCsv } from '../lib/sheet/results-csv';
 
 const USAGE = 'usage: npm run compute -- path/to/sheet.json [--format json|csv] [--run] [--sweep]';

@@ -3,8 +3,7 @@
  * or a sweep of one input), the worker answers with progress messages and then exactly one result
  * or failure. performJob is the whole worker apart from the message plumbing, so it runs in tests.
  */
-import { runSheet } from '../lib/kinematics/run';
-import { sweepSheet } from '../lib/kinematics/sweep';
+import { runSheet, sweepSheet } from '../lib/kinematics';
 import type { RunSettings, SheetDocument, SweepSettings } from '../lib/sheet/types';
 import { runSeries, sweepSeries, transferablesOf, type RunSeries, type SweepSeries } from '../lib/view/series';
 

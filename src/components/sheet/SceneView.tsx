@@ -1,5 +1,5 @@
 import { Component, lazy, Suspense, useEffect, useMemo, useRef, useState, type ReactNode } from 'react';
-import type { PlainSheetResult } from '../../lib/kinematics/scene';
+import type { PlainSheetResult } from '../../lib/kinematics';
 import type { SheetDocument } from '../../lib/sheet/types';
 import { SCENE_COLOURS } from '../../lib/view/palette';
 import { buildSceneModel, type SceneModel } from '../../lib/view/scene-model';

@@ -1,7 +1,6 @@
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
 import { lazy, memo, Suspense, useCallback, useDeferredValue, useEffect, useMemo, useState } from 'react';
-import type { WarningCode } from '../../lib/kinematics';
-import { WARNING_CATALOGUE } from '../../lib/kinematics/warnings';
+import { WARNING_CATALOGUE, type WarningCode } from '../../lib/kinematics';
 import type { SheetPageData } from '../../lib/server/sheet-page';
 import { setAt, type DocumentPath } from '../../lib/sheet/document-path';
 import { parseVariables } from '../../lib/sheet/units';

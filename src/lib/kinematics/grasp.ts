@@ -11,7 +11,7 @@
  * of the 3 x 3 matrix S. Rank and null space do not depend on the reference point; a null
  * rotation w of S gives the undrivable twist (v, w) = (-w x (m - p), w) about p.
  */
-import { symmetricEigen3Packed } from './solve';
+import { symmetricEigen3Packed } from './eigen3';
 import { createMatrix, type Matrix } from './linalg';
 
 /** Rank and undrivable object twists of the grasp (world frame). */

@@ -34,39 +34,42 @@
  * rankRatio);
  * then the grasp (GraspResult: contact map, rank, undrivable object twists) and the warnings,
  * whose catalogue is WARNING_CATALOGUE. toPlainResult turns a result into JSON-ready arrays.
+ *
+ * Runs and sweeps:
+ *
+ *     const record = runSheet(doc, { settings });  // closed-loop run toward motion.target: RunRecord columns per tick
+ *     warningsAt(record, tick);                  // warning codes raised at that tick
+ *     toPlainRunRecord(record);                  // JSON-ready copy
+ *     sweepSheet(doc, { path, from, to, steps }); // SweepRecord: one plain result per value of one input
+ *
+ * Also here: the shape queries and the vec3 and quat helpers that drawing and templates use, and
+ * the dense linear algebra behind the solves (matrices, damped least squares, Jacobi singular
+ * values) for callers with their own Jacobians. Everything else (workspaces, per-solve kernels,
+ * warning bookkeeping) stays inside the core; code outside src/lib/kinematics imports only this file.
  */
 export * as vec3 from './vec3';
 export type { Vec3, Vec3Like } from './vec3';
 export * as quat from './quat';
 export type { QuatLike, Quat, Mat3 } from './quat';
-export {
-  boxShape, capsuleShape, closestSurfacePoint, createSurfaceQuery, cylinderShape, ellipsoidShape, shapeFromInput,
-  signedDistance, sphereShape, support,
-} from './shapes';
+export { closestSurfacePoint, shapeFromInput, signedDistance, support } from './shapes';
 export type { ConvexShape, ShapeKind, SurfaceQuery } from './shapes';
-export { createGjkResult, createGjkWorkspace, gjkDistance, posedShape, supportPosed } from './gjk';
-export type { GjkResult, GjkWorkspace, PosedShape } from './gjk';
-export { createFinger, forwardKinematics, jointExponential } from './hand';
-export type { Finger, RollerKind } from './hand';
-export {
-  computeContact, createContact, createContactWorkspace, createObject, distanceToAxis, objectPointVelocity, updateObjectRotation,
-} from './contact';
-export type { Contact, ContactState, ContactWorkspace, RigidObject } from './contact';
-export {
-  contactJacobian, createFullSolution, createSolveWorkspace, createSteerAndRoll, jacobianSingularValues, largestEigenvalue3,
-  solveFull, solveSteerAndRoll, symmetricEigen3, symmetricEigen3Packed,
-} from './solve';
-export type { FullSolution, SolveWorkspace, SteerAndRoll } from './solve';
-export {
-  checkFinger, checkGrasp, clearWarnings, createWarningList, finishWarnings, formatWarning, judgedBasis, judgedRankRatio, judgedSlip, raiseWarning,
-  slipTolerance, SLIP_RELATIVE_TOLERANCE, WARNING_CATALOGUE,
-} from './warnings';
-export type { JudgedBasis, SheetWarning, WarningCode, WarningInfo, WarningList, WarningSeverity } from './warnings';
-export { computeGrasp, createGraspResult, createGraspWorkspace } from './grasp';
-export type { GraspResult, GraspWorkspace } from './grasp';
+export { createLinalgWorkspace, createMatrix, dampedLeastSquares, matrixFromRows, matrixToRows, singularValues } from './linalg';
+export type { LinalgWorkspace, Matrix } from './linalg';
+export type { Contact, ContactState } from './contact';
+export type { FullSolution } from './full-solution';
+export type { SteerAndRoll } from './steer-and-roll';
+export type { GraspResult } from './grasp';
+export { SEVERITY_LEVELS, WARNING_CATALOGUE, WARNING_CODES } from './warnings';
+export type { JudgedBasis, SheetWarning, WarningCode, WarningInfo, WarningSeverity } from './warnings';
 export {
   createResult, createScene, setJointAngles, setObjectPose, setObjectTwist, solveScene, solveSheet, toPlainResult,
 } from './scene';
-export type { FingerResult, PlainSheetResult, Scene, SceneWorkspace, SheetResult } from './scene';
+export type { FingerResult, PlainSheetResult, Scene, SheetResult } from './scene';
+export { runScene, runSheet, SOLUTION_KINDS, toPlainRunRecord, warningsAt } from './run';
+export type { RunOptions, RunRecord, RunStopReason } from './run';
+export { sweepSheet, sweepValues } from './sweep';
+export type { SweepOptions, SweepRecord } from './sweep';
+export { ROTATION_METRICS } from './metrics';
+export type { RotationMetric } from './metrics';
 export { deriveSheet, formatLatexNumber } from './derivation';
 export type { DerivationEntry } from './derivation';

@@ -327,13 +327,6 @@ export function defaultRankTolerance(rows: number, cols: number, sigmaMax: numbe
   return Math.max(rows, cols) * Number.EPSILON * sigmaMax;
 }
 
-/** Number of singular values above tolerance (dimensionless); s descending, first `count` used. */
-export function rank(s: ArrayLike<number>, tolerance: number, count: number = s.length): number {
-  let r = 0;
-  for (let i = 0; i < count; i++) if (s[i]! > tolerance) r++;
-  return r;
-}
-
 /** sigma_max / sigma_min over the first `count` singular values (dimensionless, Infinity at rank loss). */
 export function conditionNumber(s: ArrayLike<number>, count: number = s.length): number {
   if (count === 0) return Number.NaN;
@@ -409,18 +402,6 @@ function choleskySolveInPlace(l: Float64Array, k: number, y: Float64Array): void
     for (let t = i + 1; t < k; t++) sum -= l[t * k + i]! * y[t]!;
     y[i] = sum / l[i * k + i]!;
   }
-}
-
-/** Yoshikawa manipulability sqrt(det(A A^T)) (units of A's entries to the power rows; 0 when rows > cols). */
-export function manipulability(a: Readonly<Matrix>, ws: LinalgWorkspace): number {
-  checkFits(a, ws);
-  if (a.rows > a.cols) return 0;
-  const g = ws.gram;
-  const k = gramOfShortSide(a, g);
-  if (!choleskyInPlace(g, k, 0)) return 0;
-  let product = 1;
-  for (let i = 0; i < k; i++) product *= g[i * k + i]!;
-  return product;
 }
 
 // Ill-conditioned systems take the SVD route x = sum sigma / (sigma^2 + lambda^2) (u.b) v, the minimum-norm
@@ -541,105 +522,6 @@ function dampedSvdSolve(
     let sum = 0;
     for (let i = 0; i < k; i++) sum += v[j * k + i]! * coef[i]!;
     out[j] = sum;
-  }
-  return out;
-}
-
-/** Moore-Penrose pseudo-inverse A^+ = V diag(1/s) U^T into out (reshaped to cols x rows; inverse units of A). */
-export function pseudoInverse(a: Readonly<Matrix>, out: Matrix, ws: LinalgWorkspace, tolerance?: number): Matrix {
-  const f = svd(a, ws.svd, ws);
-  const m = a.rows;
-  const n = a.cols;
-  const k = m < n ? m : n;
-  const tol = tolerance ?? defaultRankTolerance(m, n, f.s[0] ?? 0);
-  const u = f.u.data;
-  const v = f.v.data;
-  out.rows = n;
-  out.cols = m;
-  const o = out.data;
-  for (let j = 0; j < n; j++) {
-    for (let r = 0; r < m; r++) {
-      let sum = 0;
-      for (let i = 0; i < k; i++) {
-        const sigma = f.s[i]!;
-        if (sigma > tol) sum += (v[j * k + i]! * u[r * k + i]!) / sigma;
-      }
-      o[j * m + r] = sum;
-    }
-  }
-  return out;
-}
-
-/** Orthonormal null-space basis of A in the first d columns of out (reshaped to cols x cols); returns d = cols - rank (dimensionless). */
-export function nullSpace(a: Readonly<Matrix>, out: Matrix, ws: LinalgWorkspace, tolerance?: number): number {
-  const f = svd(a, ws.svd, ws);
-  const m = a.rows;
-  const n = a.cols;
-  const k = m < n ? m : n;
-  const tol = tolerance ?? defaultRankTolerance(m, n, f.s[0] ?? 0);
-  const r = rank(f.s, tol, k);
-  const v = f.v.data;
-  out.rows = n;
-  out.cols = n;
-  const o = out.data;
-  // Row-space basis first (columns 0..r), then Gram-Schmidt completion with unit vectors.
-  for (let i = 0; i < r; i++) for (let j = 0; j < n; j++) o[j * n + i] = v[j * k + i]!;
-  let filled = r;
-  for (let e = 0; e < n && filled < n; e++) {
-    for (let j = 0; j < n; j++) o[j * n + filled] = j === e ? 1 : 0;
-    for (let pass = 0; pass < 2; pass++) {
-      for (let c = 0; c < filled; c++) {
-        let dot = 0;
-        for (let j = 0; j < n; j++) dot += o[j * n + c]! * o[j * n + filled]!;
-        for (let j = 0; j < n; j++) o[j * n + filled] = o[j * n + filled]! - dot * o[j * n + c]!;
-      }
-    }
-    let norm = 0;
-    for (let j = 0; j < n; j++) norm += o[j * n + filled]! * o[j * n + filled]!;
-    norm = Math.sqrt(norm);
-    if (norm < 0.5) continue;
-    for (let j = 0; j < n; j++) o[j * n + filled] = o[j * n + filled]! / norm;
-    filled++;
-  }
-  // Move the null-space columns (r..n) to the front.
-  const d = n - r;
-  for (let c = 0; c < d; c++) {
-    for (let j = 0; j < n; j++) {
-      const t = o[j * n + c]!;
-      o[j * n + c] = o[j * n + r + c]!;
-      o[j * n + r + c] = t;
-    }
-  }
-  return d;
-}
-
-/** out = A x (units of A times units of x); out must not alias x. */
-export function multiplyVector(a: Readonly<Matrix>, x: ArrayLike<number>, out: Float64Array): Float64Array {
-  const m = a.rows;
-  const n = a.cols;
-  const d = a.data;
-  for (let i = 0; i < m; i++) {
-    let sum = 0;
-    for (let j = 0; j < n; j++) sum += d[i * n + j]! * x[j]!;
-    out[i] = sum;
-  }
-  return out;
-}
-
-/** out = A B (reshaped to A.rows x B.cols); out must not alias A or B. */
-export function multiplyMatrices(a: Readonly<Matrix>, b: Readonly<Matrix>, out: Matrix): Matrix {
-  if (a.cols !== b.rows) throw new RangeError(`cannot multiply ${a.rows} x ${a.cols} by ${b.rows} x ${b.cols}`);
-  const m = a.rows;
-  const n = b.cols;
-  const inner = a.cols;
-  out.rows = m;
-  out.cols = n;
-  for (let i = 0; i < m; i++) {
-    for (let j = 0; j < n; j++) {
-      let sum = 0;
-      for (let t = 0; t < inner; t++) sum += a.data[i * inner + t]! * b.data[t * n + j]!;
-      out.data[i * n + j] = sum;
-    }
   }
   return out;
 }

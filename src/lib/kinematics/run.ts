@@ -15,8 +15,6 @@ import { createResult, createScene, solveScene, type Scene, type SheetResult } f
 import { expMap, integratePose, poseError } from './so3';
 import { SEVERITY_LEVELS, WARNING_CATALOGUE, WARNING_CODES, severityRank, warningBit, type WarningCode } from './warnings';
 
-export { SEVERITY_LEVELS, WARNING_CODES };
-
 export type RunStopReason = 'converged' | 'tick-limit' | 'singular';
 
 /** Index i of SOLUTION_KINDS is the value stored in RunRecord.solution. */

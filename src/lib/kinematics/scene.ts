@@ -7,7 +7,9 @@ import type { SheetDocument, SolverSettings } from '../sheet/types';
 import { computeContact, createContact, createContactWorkspace, createObject, updateObjectRotation, type Contact, type ContactWorkspace, type RigidObject } from './contact';
 import { computeGrasp, createGraspResult, createGraspWorkspace, type GraspResult, type GraspWorkspace } from './grasp';
 import { createFinger, forwardKinematics, type Finger } from './hand';
-import { createFullSolution, createSolveWorkspace, createSteerAndRoll, solveFull, solveSteerAndRoll, type FullSolution, type SolveWorkspace, type SteerAndRoll } from './solve';
+import { createFullSolution, createFullSolveWorkspace, solveFull, type FullSolution } from './full-solution';
+import { matrixToRows, type LinalgWorkspace, type Matrix } from './linalg';
+import { createSteerAndRoll, createSteerWorkspace, solveSteerAndRoll, type SteerAndRoll, type SteerWorkspace } from './steer-and-roll';
 import {
   checkFinger, checkGrasp, clearWarnings, createWarningList, finishWarnings, judgedBasis, judgedRankRatio, SEVERITY_LEVELS,
   type JudgedBasis, type SheetWarning, type WarningList, type WarningSeverity,
@@ -26,7 +28,8 @@ export interface Scene {
 /** Scratch owned by a scene. */
 export interface SceneWorkspace {
   contact: ContactWorkspace;
-  solve: SolveWorkspace;
+  full: LinalgWorkspace;
+  steer: SteerWorkspace;
   grasp: GraspWorkspace;
   contactPoints: Float64Array;
   contactNormals: Float64Array;
@@ -77,7 +80,8 @@ export function createScene(doc: SheetDocument): Scene {
     settings: { ...doc.solver },
     workspace: {
       contact: createContactWorkspace(),
-      solve: createSolveWorkspace(maxJoints),
+      full: createFullSolveWorkspace(maxJoints),
+      steer: createSteerWorkspace(maxJoints),
       grasp: createGraspWorkspace(),
       contactPoints: new Float64Array(3 * count),
       contactNormals: new Float64Array(3 * count),
@@ -129,11 +133,11 @@ export function solveScene(scene: Scene, out: SheetResult = createResult(scene))
   for (let i = 0; i < count; i++) computeContact(object, fingers[i], settings.contactTolerance, out.fingers[i].contact, workspace.contact);
   for (let i = 0; i < count; i++) {
     const r = out.fingers[i];
-    solveFull(fingers[i], r.contact, object.angularVelocity, settings, r.full, workspace.solve);
+    solveFull(fingers[i], r.contact, object.angularVelocity, settings, r.full, workspace.full);
   }
   for (let i = 0; i < count; i++) {
     const r = out.fingers[i];
-    solveSteerAndRoll(fingers[i], r.contact, r.full, settings, r.steer, workspace.solve);
+    solveSteerAndRoll(fingers[i], r.contact, r.full, settings, r.steer, workspace.steer);
     r.rankBasis = judgedBasis(r.steer);
     r.rankRatio = judgedRankRatio(r.full, r.steer);
   }
@@ -205,11 +209,7 @@ function toPlain(value: unknown): unknown {
   if (Array.isArray(value)) return value.map(toPlain);
   if (value !== null && typeof value === 'object') {
     const record = value as Record<string, unknown>;
-    if (record.data instanceof Float64Array && typeof record.rows === 'number' && typeof record.cols === 'number') {
-      const rows: number[][] = [];
-      for (let i = 0; i < record.rows; i++) rows.push(Array.from(record.data.subarray(i * record.cols, (i + 1) * record.cols)));
-      return rows;
-    }
+    if (record.data instanceof Float64Array && typeof record.rows === 'number' && typeof record.cols === 'number') return matrixToRows(record as unknown as Matrix);
     const out: Record<string, unknown> = {};
     for (const [key, item] of Object.entries(record)) {
       if (key === 'warningList') continue;

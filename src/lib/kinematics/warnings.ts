@@ -7,7 +7,8 @@ import type { SolverSettings } from '../sheet/types';
 import type { Contact } from './contact';
 import type { GraspResult } from './grasp';
 import type { Finger } from './hand';
-import type { FullSolution, SteerAndRoll } from './solve';
+import type { FullSolution } from './full-solution';
+import type { SteerAndRoll } from './steer-and-roll';
 
 export type WarningSeverity = 'note' | 'caution' | 'singular';
 

@@ -4,8 +4,7 @@
  * normal, axis through the roller centre) -> roll (spins the roller about an axis through its
  * centre). The palm lies in the plane z = 0 and the object sits centred above it on the z axis.
  */
-import { closestSurfacePoint, shapeFromInput, signedDistance, support, type ConvexShape } from '../kinematics/shapes';
-import { cross, dot, norm, normalize, scale } from '../kinematics/vec3';
+import { closestSurfacePoint, shapeFromInput, signedDistance, support, vec3, type ConvexShape } from '../kinematics';
 import { DEFAULT_RUN, DEFAULT_SOLVER, SHEET_FORMAT, SHEET_VERSION } from './schema';
 import type { FingerInput, JointInput, ObjectShape, SheetDocument, Vec3Tuple } from './types';
 
@@ -133,11 +132,11 @@ function tidy(v: ArrayLike<number>, decimals: number): Vec3Tuple {
 /** Distance t along unit direction u (object frame) at which the surface distance equals clearance, m. */
 function rayDistanceAtClearance(shape: ConvexShape, u: Vec3Tuple, clearance: number): number {
   let inside = 0;
-  let outside = dot(support(shape, u), u) + clearance;
+  let outside = vec3.dot(support(shape, u), u) + clearance;
   // The signed distance of a convex body is convex, so along a ray from its centre it only grows.
   for (let i = 0; i < 80; i++) {
     const mid = 0.5 * (inside + outside);
-    if (signedDistance(shape, scale(u, mid)) < clearance) inside = mid;
+    if (signedDistance(shape, vec3.scale(u, mid)) < clearance) inside = mid;
     else outside = mid;
   }
   return outside;
@@ -158,14 +157,14 @@ function placeFinger(spec: FingerTemplate, shape: ConvexShape, objectCenter: Vec
     Math.sin(spec.elevation),
   ];
   const rho = spec.roller.radius;
-  const localCenter = scale(u, rayDistanceAtClearance(shape, u, rho));
+  const localCenter = vec3.scale(u, rayDistanceAtClearance(shape, u, rho));
   const normal = tuple(closestSurfacePoint(shape, localCenter).normal);
   const center = tidy(localCenter.map((c, i) => c + objectCenter[i]), 9);
   // Base axis horizontal and across the finger, so the base swings the roller along the normal;
   // on a flat top or bottom face the normal is vertical and the finger direction decides instead.
-  const across = cross([0, 0, 1], normal);
-  const sideways = normalize(norm(across) > 1e-6 ? across : [-u[1], u[0], 0]);
-  const rollAxis = tidy(normalize(cross(normal, sideways)), 12);
+  const across = vec3.cross([0, 0, 1], normal);
+  const sideways = vec3.normalize(vec3.norm(across) > 1e-6 ? across : [-u[1], u[0], 0]);
+  const rollAxis = tidy(vec3.normalize(vec3.cross(normal, sideways)), 12);
   const basePoint = tidy([spec.palmRadius * Math.cos(spec.azimuth), spec.palmRadius * Math.sin(spec.azimuth), spec.baseHeight], 9);
   const joint = (name: string, role: JointInput['role'], axis: Vec3Tuple, point: Vec3Tuple, travel: number | null, rate: number): JointInput => {
     const j: JointInput = { name, role, axis, point, angle: 0, rateLimit: rate };
@@ -176,7 +175,7 @@ function placeFinger(spec: FingerTemplate, shape: ConvexShape, objectCenter: Vec
     name: spec.name,
     joints: [
       joint(`${spec.name}-base`, 'base', tidy(sideways, 12), basePoint, spec.baseTravel, spec.rateLimits.base),
-      joint(`${spec.name}-pivot`, 'pivot', tidy(scale(normal, -1), 12), center, spec.pivotTravel, spec.rateLimits.pivot),
+      joint(`${spec.name}-pivot`, 'pivot', tidy(vec3.scale(normal, -1), 12), center, spec.pivotTravel, spec.rateLimits.pivot),
       joint(`${spec.name}-roll`, 'roll', rollAxis, center, null, spec.rateLimits.roll),
     ],
     roller:

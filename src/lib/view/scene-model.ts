@@ -5,11 +5,7 @@
  * velocity there and the direction in which the roll joint moves the roller surface.
  * World (palm) frame, SI units; quaternions [x, y, z, w].
  */
-import type { PlainSheetResult } from '../kinematics/scene';
-import type { ContactState } from '../kinematics/contact';
-import { fromSheet, rotate, rotateInverse } from '../kinematics/quat';
-import { shapeFromInput, support } from '../kinematics/shapes';
-import { cross, dot, norm, normalize, scale } from '../kinematics/vec3';
+import { quat, shapeFromInput, support, vec3, type ContactState, type PlainSheetResult } from '../kinematics';
 import type { ObjectShape, SheetDocument, Vec3Tuple } from '../sheet/types';
 
 export interface ViewRoller {
@@ -52,9 +48,9 @@ const tuple = (v: ArrayLike<number>): Vec3Tuple => [v[0]!, v[1]!, v[2]!];
 
 /** Support point of the posed object in world direction d (m). */
 export function objectSupport(model: SceneModel['object'], d: Vec3Tuple): Vec3Tuple {
-  const local = rotateInverse(model.orientation, d);
+  const local = quat.rotateInverse(model.orientation, d);
   const s = support(shapeFromInput(model.shape), local);
-  const world = rotate(model.orientation, s);
+  const world = quat.rotate(model.orientation, s);
   return [world[0]! + model.position[0], world[1]! + model.position[1], world[2]! + model.position[2]];
 }
 
@@ -62,14 +58,14 @@ export function objectSupport(model: SceneModel['object'], d: Vec3Tuple): Vec3Tu
 export function rollerSupport(roller: ViewRoller, d: Vec3Tuple): Vec3Tuple {
   const c = roller.center;
   if (roller.kind === 'sphere') {
-    const u = normalize(d);
+    const u = vec3.normalize(d);
     return [c[0] + roller.radius * u[0]!, c[1] + roller.radius * u[1]!, c[2] + roller.radius * u[2]!];
   }
   const a = roller.axis;
-  const along = dot(d, a);
+  const along = vec3.dot(d, a);
   const side = along > 0 ? roller.halfWidth : along < 0 ? -roller.halfWidth : 0;
   const radial: Vec3Tuple = [d[0] - along * a[0], d[1] - along * a[1], d[2] - along * a[2]];
-  const radialLength = norm(radial);
+  const radialLength = vec3.norm(radial);
   const r = radialLength > 1e-12 ? roller.radius / radialLength : 0;
   return [c[0] + side * a[0] + r * radial[0], c[1] + side * a[1] + r * radial[1], c[2] + side * a[2] + r * radial[2]];
 }
@@ -79,7 +75,7 @@ function rollersFrom(doc: SheetDocument, result: PlainSheetResult | null): ViewR
     const solved = result?.fingers[i];
     const roller = finger.roller;
     const homeAxis: Vec3Tuple = roller.kind === 'cylinder' ? roller.axis : [0, 0, 1];
-    const axis = solved && norm(solved.rollerAxis) > 0 ? tuple(solved.rollerAxis) : homeAxis;
+    const axis = solved && vec3.norm(solved.rollerAxis) > 0 ? tuple(solved.rollerAxis) : homeAxis;
     return {
       finger: finger.name,
       kind: roller.kind,
@@ -107,8 +103,8 @@ function rollDirectionOf(doc: SheetDocument, result: PlainSheetResult, fingerInd
   const axis = solved.jointAxes.slice(3 * rollJoint, 3 * rollJoint + 3);
   const point = solved.jointPoints.slice(3 * rollJoint, 3 * rollJoint + 3);
   const y = solved.contact.rollerPoint;
-  const direction = cross(axis, [y[0]! - point[0]!, y[1]! - point[1]!, y[2]! - point[2]!]);
-  return norm(direction) > 1e-9 ? tuple(normalize(direction)) : null;
+  const direction = vec3.cross(axis, [y[0]! - point[0]!, y[1]! - point[1]!, y[2]! - point[2]!]);
+  return vec3.norm(direction) > 1e-9 ? tuple(vec3.normalize(direction)) : null;
 }
 
 function contactsFrom(doc: SheetDocument, result: PlainSheetResult | null): ViewContact[] {
@@ -137,7 +133,7 @@ function boundsOf(points: Vec3Tuple[]): SceneModel['bounds'] {
     }
   }
   const center: Vec3Tuple = [0.5 * (min[0] + max[0]), 0.5 * (min[1] + max[1]), 0.5 * (min[2] + max[2])];
-  const radius = Math.max(1e-3, ...points.map((p) => norm([p[0] - center[0], p[1] - center[1], p[2] - center[2]])));
+  const radius = Math.max(1e-3, ...points.map((p) => vec3.norm([p[0] - center[0], p[1] - center[1], p[2] - center[2]])));
   return { center, radius };
 }
 
@@ -148,7 +144,7 @@ export function buildSceneModel(doc: SheetDocument, result: PlainSheetResult | n
     position: result ? tuple(result.object.position) : doc.object.pose.position,
     orientation: result
       ? [result.object.orientation[0]!, result.object.orientation[1]!, result.object.orientation[2]!, result.object.orientation[3]!]
-      : (fromSheet(doc.object.pose.orientation) as [number, number, number, number]),
+      : (quat.fromSheet(doc.object.pose.orientation) as [number, number, number, number]),
   };
   const rollers = rollersFrom(doc, result);
   const chains = chainsFrom(doc, result, rollers);
@@ -159,10 +155,10 @@ export function buildSceneModel(doc: SheetDocument, result: PlainSheetResult | n
     ...chains.flat(),
   ];
   const bounds = boundsOf(hull);
-  const objectSize = Math.max(...AXES.map((d) => dot(objectSupport(object, d), d) - dot(object.position, d)));
+  const objectSize = Math.max(...AXES.map((d) => vec3.dot(objectSupport(object, d), d) - vec3.dot(object.position, d)));
   // Normals start at the contact and point into the roller, so they must outreach it to be seen.
   const unitLength = Math.max(0.6 * objectSize, ...rollers.map((roller) => 2.4 * roller.radius));
-  const maxSpeed = Math.max(0, ...contacts.map((c) => norm(c.velocity)));
+  const maxSpeed = Math.max(0, ...contacts.map((c) => vec3.norm(c.velocity)));
   return {
     object,
     rollers,
@@ -175,6 +171,6 @@ export function buildSceneModel(doc: SheetDocument, result: PlainSheetResult | n
 
 /** End point of an arrow from start along direction scaled by length (m). */
 export function arrowEnd(start: Vec3Tuple, direction: Vec3Tuple, length: number): Vec3Tuple {
-  const d = scale(direction, length);
+  const d = vec3.scale(direction, length);
   return [start[0] + d[0]!, start[1] + d[1]!, start[2] + d[2]!];
 }

@@ -2,10 +2,10 @@
  * Plot-ready columns from runs and sweeps: one plain typed array per plotted line, so the worker
  * can hand them over without copying and the charts can use them as they are.
  */
-import { ROTATION_METRICS } from '../kinematics/metrics';
-import { SEVERITY_LEVELS, WARNING_CODES, type RunRecord, type RunStopReason } from '../kinematics/run';
-import type { SweepRecord } from '../kinematics/sweep';
-import { WARNING_CATALOGUE, type WarningCode, type WarningSeverity } from '../kinematics/warnings';
+import {
+  ROTATION_METRICS, SEVERITY_LEVELS, WARNING_CATALOGUE, WARNING_CODES,
+  type RunRecord, type RunStopReason, type SweepRecord, type WarningCode, type WarningSeverity,
+} from '../kinematics';
 import type { RunSettings, SheetDocument } from '../sheet/types';
 
 export interface JointSeries {

@@ -5,9 +5,9 @@ import { parseSheet } from '../../../src/lib/sheet/schema';
 import { HAND_TEMPLATES, createSheetFromTemplate } from '../../../src/lib/sheet/templates';
 import type { RunSettings, SheetDocument } from '../../../src/lib/sheet/types';
 import { ROTATION_METRICS } from '../../../src/lib/kinematics/metrics';
-import { SEVERITY_LEVELS, SOLUTION_KINDS, WARNING_CODES, runScene, runSheet, toPlainRunRecord, warningsAt } from '../../../src/lib/kinematics/run';
+import { SOLUTION_KINDS, runScene, runSheet, toPlainRunRecord, warningsAt } from '../../../src/lib/kinematics/run';
 import { createScene } from '../../../src/lib/kinematics/scene';
-import { WARNING_CATALOGUE } from '../../../src/lib/kinematics/warnings';
+import { SEVERITY_LEVELS, WARNING_CATALOGUE, WARNING_CODES } from '../../../src/lib/kinematics/warnings';
 import { threeFingerSheet } from './three-finger-sheet';
 
 // References: the closed loop e' = -g e under forward-Euler steps of dt shrinks the error by (1 - g dt) per tick

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { shapeFromInput, signedDistance } from '../../../src/lib/kinematics/shapes';
+import { shapeFromInput, signedDistance } from '../../../src/lib/kinematics';
 import { parseSheet } from '../../../src/lib/sheet/schema';
 import { HAND_TEMPLATES, createSheetFromTemplate, getHandTemplate, objectHeightFor } from '../../../src/lib/sheet/templates';
 import type { ObjectShape, Vec3Tuple } from '../../../src/lib/sheet/types';

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { solveSheet, toPlainResult } from '../../../src/lib/kinematics/scene';
+import { solveSheet, toPlainResult } from '../../../src/lib/kinematics';
 import { createSheetFromTemplate } from '../../../src/lib/sheet/templates';
 import type { Vec3Tuple } from '../../../src/lib/sheet/types';
 import { arrowEnd, buildSceneModel, rollerSupport, type ViewRoller } from '../../../src/lib/view/scene-model';

@@ -1,6 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { runSheet, SEVERITY_LEVELS, WARNING_CODES } from '../../../src/lib/kinematics/run';
-import { sweepSheet } from '../../../src/lib/kinematics/sweep';
+import { runSheet, SEVERITY_LEVELS, sweepSheet, WARNING_CODES } from '../../../src/lib/kinematics';
 import { createSheetFromTemplate } from '../../../src/lib/sheet/templates';
 import { column, describeStopReason, runSeries, severityRuns, sweepSeries, transferablesOf } from '../../../src/lib/view/series';
 

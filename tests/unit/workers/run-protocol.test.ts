@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { runSheet } from '../../../src/lib/kinematics/run';
+import { runSheet } from '../../../src/lib/kinematics';
 import { createSheetFromTemplate } from '../../../src/lib/sheet/templates';
 import { performJob, type WorkerReply } from '../../../src/workers/run-protocol';
 

@@ -1,0 +1,344 @@
+/**
+ * Steer-and-roll solution of the joint rates for rolling without slipping at one contact (world
+ * frame, SI): the base supplies the normal velocity, the pivot turns the roll direction onto what
+ * is left, and the roll joint supplies its magnitude; then the conditioning of the drive columns
+ * after steering.
+ */
+import type { SolverSettings } from '../sheet/types';
+import type { Contact } from './contact';
+import { columnPairSingularValues, jacobianSingularValues } from './eigen3';
+import type { FullSolution } from './full-solution';
+import type { Finger } from './hand';
+import { conditionNumber, createMatrix, type Matrix } from './linalg';
+
+/** Steer-and-roll solution for one finger (world frame, SI). */
+export interface SteerAndRoll {
+  /** The finger has a base, a pivot and a roll joint. */
+  available: boolean;
+  /** n . (w_base x (y - r_base)): normal contact speed per unit base rate, m/rad. */
+  normalGain: number;
+  /** Base rate n . v_o / normalGain, rad/s (0 when the gain vanishes). */
+  baseRate: number;
+  /** v_o(x) - baseRate (w_base x (y - r_base)), m/s: what the roller must supply. */
+  remainder: Float64Array;
+  remainderNorm: number;
+  /** Pivot change from the current angle and the steered pivot angle, rad. */
+  pivotChange: number;
+  pivotAngle: number;
+  /** The roll direction could be aligned exactly with the remainder. */
+  aligned: boolean;
+  /** Angle between the steered roll direction and the remainder's line, rad (0 when aligned). */
+  misalignment: number;
+  /** Distance from the contact to the roll axis after steering, m. */
+  rollDistance: number;
+  /** Roll rate remainder . d / |d|^2 with d = w_roll x (y - r_roll) after steering, rad/s (= +-|remainder| / rollDistance when aligned). */
+  rollRate: number;
+  /** Joint rates: base and roll set, every other joint 0, rad/s. */
+  rates: Float64Array;
+  /** Translational Jacobian after steering (3 x joints, m/rad). */
+  jacobianAfter: Matrix;
+  /** J_after rates, m/s; residual v_o(x) - achieved and its norm. */
+  achieved: Float64Array;
+  residual: Float64Array;
+  residualNorm: number;
+  /** Condition numbers before and after steering, and the singular values after (m/rad). */
+  conditionBefore: number;
+  conditionAfter: number;
+  singularValuesAfter: Float64Array;
+  /**
+   * The pivot column counts as a drive column: its axis passes the contact at axisDistance or more, so
+   * turning it moves the contact. Otherwise steering acts only by turning the roll direction.
+   */
+  pivotDrives: boolean;
+  /** Number of drive columns: every joint after steering except a pivot that does not drive. */
+  driveColumnCount: number;
+  /** Singular values of the 3 x driveColumnCount drive Jacobian after steering, descending, zero-padded (m/rad). */
+  driveSingularValues: Float64Array;
+  /**
+   * sigma_2 / sigma_1 of the drive columns (1 with a single column; dimensionless, 0 at rank loss): they must
+   * span the normal and the steered roll direction; steering itself supplies the third direction.
+   */
+  driveRatio: number;
+  /** rates - full solution rates, rad/s, and its norm. */
+  rateDifference: Float64Array;
+  rateDifferenceNorm: number;
+}
+
+/** Scratch for solveSteerAndRoll. */
+export interface SteerWorkspace {
+  /** D0, D1, D2 of the roll direction d(delta) = D0 + D1 cos delta + D2 sin delta, 3 numbers each. */
+  rollDirection: Float64Array;
+  /** Cosine and sine of the chosen pivot change. */
+  pivotTurn: Float64Array;
+  /** Drive columns of the steered Jacobian (3 x up to maxJoints). */
+  drive: Matrix;
+}
+
+/** New scratch for solveSteerAndRoll on fingers of up to maxJoints joints. */
+export function createSteerWorkspace(maxJoints: number): SteerWorkspace {
+  return { rollDirection: new Float64Array(9), pivotTurn: new Float64Array(2), drive: createMatrix(3, Math.max(1, maxJoints)) };
+}
+
+/** Empty steer-and-roll solution for a finger of n joints. */
+export function createSteerAndRoll(jointCount: number): SteerAndRoll {
+  return {
+    available: false,
+    normalGain: 0,
+    baseRate: 0,
+    remainder: new Float64Array(3),
+    remainderNorm: 0,
+    pivotChange: 0,
+    pivotAngle: 0,
+    aligned: false,
+    misalignment: 0,
+    rollDistance: 0,
+    rollRate: 0,
+    rates: new Float64Array(jointCount),
+    jacobianAfter: createMatrix(3, jointCount),
+    achieved: new Float64Array(3),
+    residual: new Float64Array(3),
+    residualNorm: 0,
+    conditionBefore: Number.POSITIVE_INFINITY,
+    conditionAfter: Number.POSITIVE_INFINITY,
+    singularValuesAfter: new Float64Array(3),
+    pivotDrives: false,
+    driveColumnCount: 0,
+    driveSingularValues: new Float64Array(3),
+    driveRatio: 0,
+    rateDifference: new Float64Array(jointCount),
+    rateDifferenceNorm: 0,
+  };
+}
+
+/** Steer-and-roll solution for one finger after solveFull, with the conditioning of its drive columns after steering (world frame, SI). */
+export function solveSteerAndRoll(finger: Finger, contact: Contact, full: FullSolution, settings: SolverSettings, out: SteerAndRoll, ws: SteerWorkspace): SteerAndRoll {
+  const n = finger.jointCount;
+  const b = finger.baseIndex, pv = finger.pivotIndex, rl = finger.rollIndex;
+  const rates = out.rates;
+  for (let k = 0; k < n; k++) rates[k] = 0;
+  out.conditionBefore = full.conditionNumber;
+  out.available = b >= 0 && pv >= 0 && rl >= 0;
+  const axes = finger.axes, points = finger.points;
+  const y = contact.rollerPoint, nrm = contact.normal, v = contact.objectVelocity;
+  const u = out.remainder;
+
+  // Base: its column's normal component must produce the normal part of the contact velocity.
+  let jbx = 0, jby = 0, jbz = 0;
+  if (b >= 0) {
+    const o = 3 * b;
+    const ex = y[0] - points[o], ey = y[1] - points[o + 1], ez = y[2] - points[o + 2];
+    jbx = axes[o + 1] * ez - axes[o + 2] * ey;
+    jby = axes[o + 2] * ex - axes[o] * ez;
+    jbz = axes[o] * ey - axes[o + 1] * ex;
+  }
+  const gain = nrm[0] * jbx + nrm[1] * jby + nrm[2] * jbz;
+  const normalSpeed = nrm[0] * v[0] + nrm[1] * v[1] + nrm[2] * v[2];
+  const baseRate = gain !== 0 && Number.isFinite(normalSpeed / gain) ? normalSpeed / gain : 0;
+  out.normalGain = gain;
+  out.baseRate = baseRate;
+  u[0] = v[0] - baseRate * jbx;
+  u[1] = v[1] - baseRate * jby;
+  u[2] = v[2] - baseRate * jbz;
+  const uNorm = Math.sqrt(u[0] * u[0] + u[1] * u[1] + u[2] * u[2]);
+  out.remainderNorm = uNorm;
+  if (b >= 0) rates[b] = baseRate;
+
+  if (!out.available) {
+    out.pivotChange = 0;
+    out.pivotAngle = pv >= 0 ? finger.angles[pv] : Number.NaN;
+    out.aligned = false;
+    out.misalignment = Number.NaN;
+    out.rollDistance = Number.NaN;
+    out.rollRate = 0;
+  } else {
+    steer(finger, contact, out, ws.rollDirection, ws.pivotTurn);
+  }
+
+  // Jacobian after steering: the full solution's translational rows, with the joints beyond the pivot turned about the pivot line by pivotChange.
+  const ja = out.jacobianAfter, before = full.jacobian.data, after = ja.data;
+  ja.rows = 3;
+  ja.cols = n;
+  for (let i = 0; i < 3 * n; i++) after[i] = before[i];
+  if (out.available && out.pivotChange !== 0) steeredColumns(finger, y, ws.pivotTurn, ja);
+  const d = ja.data;
+  let residual = 0;
+  for (let i = 0; i < 3; i++) {
+    let sum = 0;
+    for (let k = 0; k < n; k++) sum += d[i * n + k] * rates[k];
+    out.achieved[i] = sum;
+    out.residual[i] = v[i] - sum;
+    residual += out.residual[i] * out.residual[i];
+  }
+  out.residualNorm = Math.sqrt(residual);
+  jacobianSingularValues(ja, out.singularValuesAfter);
+  out.conditionAfter = conditionNumber(out.singularValuesAfter, 3);
+  driveConditioning(finger, contact, settings, out, ws.drive);
+  let difference = 0;
+  for (let k = 0; k < n; k++) {
+    const dk = rates[k] - full.rates[k];
+    out.rateDifference[k] = dk;
+    difference += dk * dk;
+  }
+  out.rateDifferenceNorm = Math.sqrt(difference);
+  return out;
+}
+
+/** Directions the drive columns must span after steering: the normal and the steered roll direction. */
+const STEERED_RANK = 2;
+
+/**
+ * A pivot whose axis passes through the contact steers by turning the roll direction and adds
+ * nothing to the contact velocity, so its zero column says nothing about what the finger can do.
+ */
+function driveConditioning(finger: Finger, contact: Contact, settings: SolverSettings, out: SteerAndRoll, drive: Matrix): void {
+  const n = finger.jointCount, pv = finger.pivotIndex;
+  out.pivotDrives = pv < 0 || !(contact.pivotAxisDistance < settings.axisDistance);
+  const skip = out.pivotDrives ? -1 : pv;
+  const m = out.pivotDrives ? n : n - 1;
+  out.driveColumnCount = m;
+  const from = out.jacobianAfter.data, s = out.driveSingularValues;
+  if (m === 2) {
+    // The usual finger: base and roll, read in place.
+    const first = skip === 0 ? 1 : 0;
+    const second = skip === first + 1 ? first + 2 : first + 1;
+    columnPairSingularValues(from, n, first, second, s);
+  } else {
+    const to = drive.data;
+    for (let k = 0, c = 0; k < n; k++) {
+      if (k === skip) continue;
+      to[c] = from[k];
+      to[m + c] = from[n + k];
+      to[2 * m + c] = from[2 * n + k];
+      c++;
+    }
+    drive.rows = 3;
+    drive.cols = m;
+    jacobianSingularValues(drive, s);
+  }
+  // Steering supplies the third direction by choosing the roll direction, so the drive columns need
+  // only span two: the normal (base) and the steered roll direction.
+  const weakest = s[(m < STEERED_RANK ? m : STEERED_RANK) - 1];
+  out.driveRatio = m > 0 && s[0] > 0 ? weakest / s[0] : 0;
+}
+
+/**
+ * Rodrigues about the pivot (unit k through q): R(delta) x = A + B cos delta + C sin delta with
+ * A = (k . x) k, B = x - A, C = k x x. With e = y - q and g = w_roll x (r_roll - q), the roll
+ * direction d(delta) = R w_roll x e - R g is linear in (1, cos, sin), so aligning it with the
+ * remainder u (m . d = 0 for m = n x u) is a + b cos delta + c sin delta = 0. Uses rollDirection
+ * for D0, D1, D2 and writes the cosine and sine of the chosen pivot change into pivotTurn.
+ */
+function steer(finger: Finger, contact: Contact, out: SteerAndRoll, rollDirection: Float64Array, pivotTurn: Float64Array): void {
+  const uNorm = out.remainderNorm;
+  const axes = finger.axes, points = finger.points;
+  const po = 3 * finger.pivotIndex, ro = 3 * finger.rollIndex;
+  const kx = axes[po], ky = axes[po + 1], kz = axes[po + 2];
+  const qx = points[po], qy = points[po + 1], qz = points[po + 2];
+  const y = contact.rollerPoint, nrm = contact.normal, u = out.remainder;
+  const ex = y[0] - qx, ey = y[1] - qy, ez = y[2] - qz;
+  const wx = axes[ro], wy = axes[ro + 1], wz = axes[ro + 2];
+  const sx = points[ro] - qx, sy = points[ro + 1] - qy, sz = points[ro + 2] - qz;
+  const gx = wy * sz - wz * sy, gy = wz * sx - wx * sz, gz = wx * sy - wy * sx;
+  const kw = kx * wx + ky * wy + kz * wz;
+  const awx = kw * kx, awy = kw * ky, awz = kw * kz;
+  const bwx = wx - awx, bwy = wy - awy, bwz = wz - awz;
+  const cwx = ky * wz - kz * wy, cwy = kz * wx - kx * wz, cwz = kx * wy - ky * wx;
+  const kg = kx * gx + ky * gy + kz * gz;
+  const agx = kg * kx, agy = kg * ky, agz = kg * kz;
+  const bgx = gx - agx, bgy = gy - agy, bgz = gz - agz;
+  const cgx = ky * gz - kz * gy, cgy = kz * gx - kx * gz, cgz = kx * gy - ky * gx;
+  const D = rollDirection;
+  D[0] = awy * ez - awz * ey - agx; D[1] = awz * ex - awx * ez - agy; D[2] = awx * ey - awy * ex - agz;
+  D[3] = bwy * ez - bwz * ey - bgx; D[4] = bwz * ex - bwx * ez - bgy; D[5] = bwx * ey - bwy * ex - bgz;
+  D[6] = cwy * ez - cwz * ey - cgx; D[7] = cwz * ex - cwx * ez - cgy; D[8] = cwx * ey - cwy * ex - cgz;
+
+  let delta = 0, cos = 1, sin = 0;
+  let aligned = false;
+  if (uNorm > 0) {
+    const mx = (nrm[1] * u[2] - nrm[2] * u[1]) / uNorm;
+    const my = (nrm[2] * u[0] - nrm[0] * u[2]) / uNorm;
+    const mz = (nrm[0] * u[1] - nrm[1] * u[0]) / uNorm;
+    const a = mx * D[0] + my * D[1] + mz * D[2];
+    const bc = mx * D[3] + my * D[4] + mz * D[5];
+    const cs = mx * D[6] + my * D[7] + mz * D[8];
+    const amplitude = Math.sqrt(bc * bc + cs * cs);
+    if (amplitude > 0) {
+      // Roots delta = phi +- spread with cos phi = bc / amplitude, sin phi = cs / amplitude and
+      // cos spread = -a / amplitude; their cosines and sines follow from the angle-sum formulas.
+      const cosPhi = bc / amplitude, sinPhi = cs / amplitude;
+      const ratio = -a / amplitude;
+      const reachable = ratio >= -1 && ratio <= 1;
+      // Out of reach: the closest approach is where the cosine saturates.
+      const cosSpread = ratio > 1 ? 1 : ratio < -1 ? -1 : ratio;
+      const sinSpread = Math.sqrt(1 - cosSpread * cosSpread);
+      const cosFirst = cosPhi * cosSpread - sinPhi * sinSpread, sinFirst = sinPhi * cosSpread + cosPhi * sinSpread;
+      const cosSecond = cosPhi * cosSpread + sinPhi * sinSpread, sinSecond = sinPhi * cosSpread - cosPhi * sinSpread;
+      // A root where d vanishes aligns nothing; of the usable roots take the one nearer the current
+      // angle, i.e. the one with the larger cosine.
+      let scale = 0;
+      for (let i = 0; i < 9; i++) scale += D[i] * D[i];
+      const firstUsable = rollDirectionSquared(D, cosFirst, sinFirst) > 1e-18 * scale;
+      const secondUsable = rollDirectionSquared(D, cosSecond, sinSecond) > 1e-18 * scale;
+      if (firstUsable && (!secondUsable || cosFirst >= cosSecond)) {
+        cos = cosFirst; sin = sinFirst;
+      } else if (secondUsable) {
+        cos = cosSecond; sin = sinSecond;
+      }
+      delta = Math.atan2(sin, cos);
+      aligned = reachable && (firstUsable || secondUsable);
+    }
+  }
+  const dx = D[0] + D[3] * cos + D[6] * sin;
+  const dy = D[1] + D[4] * cos + D[7] * sin;
+  const dz = D[2] + D[5] * cos + D[8] * sin;
+  const dd = dx * dx + dy * dy + dz * dz;
+  const du = dx * u[0] + dy * u[1] + dz * u[2];
+  pivotTurn[0] = cos;
+  pivotTurn[1] = sin;
+  out.pivotChange = delta;
+  out.pivotAngle = finger.angles[finger.pivotIndex] + delta;
+  out.aligned = aligned || uNorm === 0;
+  out.rollDistance = Math.sqrt(dd);
+  out.rollRate = dd > 0 ? du / dd : 0;
+  out.rates[finger.rollIndex] = out.rollRate;
+  // An exact alignment leaves only rounding between d and u; the angle matters only when it is real.
+  if (aligned || !(dd > 0 && uNorm > 0)) {
+    out.misalignment = 0;
+  } else {
+    const crossX = dy * u[2] - dz * u[1], crossY = dz * u[0] - dx * u[2], crossZ = dx * u[1] - dy * u[0];
+    out.misalignment = Math.atan2(Math.sqrt(crossX * crossX + crossY * crossY + crossZ * crossZ), Math.abs(du));
+  }
+}
+
+function rollDirectionSquared(D: Float64Array, c: number, s: number): number {
+  const x = D[0] + D[3] * c + D[6] * s, y = D[1] + D[4] * c + D[7] * s, z = D[2] + D[5] * c + D[8] * s;
+  return x * x + y * y + z * z;
+}
+
+/**
+ * Rewrites the Jacobian columns of joints after the pivot as if the pivot had turned by the angle whose cosine and sine
+ * are pivotTurn (m/rad); they come in an array because numbers passed to a call that is not inlined are boxed.
+ */
+function steeredColumns(finger: Finger, y: ArrayLike<number>, pivotTurn: Float64Array, j: Matrix): void {
+  const axes = finger.axes, points = finger.points, n = finger.jointCount, d = j.data;
+  const c = pivotTurn[0], s = pivotTurn[1];
+  const po = 3 * finger.pivotIndex;
+  const kx = axes[po], ky = axes[po + 1], kz = axes[po + 2];
+  const qx = points[po], qy = points[po + 1], qz = points[po + 2];
+  const v = 1 - c;
+  const r0 = 1 - v * (ky * ky + kz * kz), r1 = v * kx * ky - s * kz, r2 = v * kx * kz + s * ky;
+  const r3 = v * kx * ky + s * kz, r4 = 1 - v * (kx * kx + kz * kz), r5 = v * ky * kz - s * kx;
+  const r6 = v * kx * kz - s * ky, r7 = v * ky * kz + s * kx, r8 = 1 - v * (kx * kx + ky * ky);
+  for (let k = finger.pivotIndex + 1; k < n; k++) {
+    const o = 3 * k;
+    const ax = axes[o], ay = axes[o + 1], az = axes[o + 2];
+    const wx = r0 * ax + r1 * ay + r2 * az, wy = r3 * ax + r4 * ay + r5 * az, wz = r6 * ax + r7 * ay + r8 * az;
+    const px = points[o] - qx, py = points[o + 1] - qy, pz = points[o + 2] - qz;
+    const ex = y[0] - (r0 * px + r1 * py + r2 * pz + qx);
+    const ey = y[1] - (r3 * px + r4 * py + r5 * pz + qy);
+    const ez = y[2] - (r6 * px + r7 * py + r8 * pz + qz);
+    d[k] = wy * ez - wz * ey;
+    d[n + k] = wz * ex - wx * ez;
+    d[2 * n + k] = wx * ey - wy * ex;
+  }
+}
