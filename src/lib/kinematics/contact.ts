@@ -235,10 +235,10 @@ function cylinderContactLocal(object: RigidObject, finger: Finger, out: Contact,
   const y = out.rollerPoint;
   let gap: number;
   let yx: number, yy: number, yz: number;
-  const s = curvedFaceContact(object.shape, ws.centerLocal, al, halfWidth, ws);
+  const q = ws.query;
+  const s = curvedFaceContact(object.shape, ws.centerLocal, al, halfWidth, ws.axisPoint, q);
   const result = Number.isNaN(s) ? gjkDistance(ws.objectPosed, roller, ws.gjkResult, ws.gjk) : ws.gjkResult;
   if (!Number.isNaN(s)) {
-    const q = ws.query;
     copy3(q.point, xl);
     copy3(q.normal, nl);
     gap = q.signedDistance - rho;
@@ -272,7 +272,7 @@ function cylinderContactLocal(object: RigidObject, finger: Finger, out: Contact,
       gap = d - margin;
     } else {
       // Deep overlap: fall back to the object's surface nearest the roller centre.
-      const q = closestSurfacePoint(object.shape, ws.centerLocal, ws.query);
+      closestSurfacePoint(object.shape, ws.centerLocal, q);
       copy3(q.point, xl);
       copy3(q.normal, nl);
       gap = q.signedDistance - rho;
@@ -290,30 +290,29 @@ function cylinderContactLocal(object: RigidObject, finger: Finger, out: Contact,
 const SLOPE_TOLERANCE = 1e-12;
 const ROOT_ITERATIONS = 80;
 
-/** Slope n . a of the signed distance at c + s a, leaving the closest-point query in ws.query. */
-function slopeAlongAxis(shape: ConvexShape, center: Float64Array, axis: Float64Array, s: number, ws: ContactWorkspace): number {
-  const p = ws.axisPoint;
+/** Slope n . a of the signed distance at p = c + s a (object frame), with that point's closest-point query written into closest. */
+function slopeAlongAxis(shape: ConvexShape, center: Float64Array, axis: Float64Array, s: number, p: Float64Array, closest: SurfaceQuery): number {
   p[0] = center[0] + s * axis[0];
   p[1] = center[1] + s * axis[1];
   p[2] = center[2] + s * axis[2];
-  const n = closestSurfacePoint(shape, p, ws.query).normal;
+  const n = closestSurfacePoint(shape, p, closest).normal;
   return n[0] * axis[0] + n[1] * axis[1] + n[2] * axis[2];
 }
 
 /**
  * Axial position s* in [-halfWidth, halfWidth] of the minimum of the signed distance along the
  * roller axis when it is interior (slope changes sign), found by the Illinois variant of regula
- * falsi on the nondecreasing slope; NaN when the minimum is at an end. ws.query then holds the
- * closest point of c + s* a (object frame).
+ * falsi on the nondecreasing slope; NaN when the minimum is at an end. closest then holds the
+ * closest point of c + s* a (object frame); axisPoint is room for the points on the axis.
  */
-function curvedFaceContact(shape: ConvexShape, center: Float64Array, axis: Float64Array, halfWidth: number, ws: ContactWorkspace): number {
+function curvedFaceContact(shape: ConvexShape, center: Float64Array, axis: Float64Array, halfWidth: number, axisPoint: Float64Array, closest: SurfaceQuery): number {
   let a = -halfWidth, b = halfWidth;
-  let fa = slopeAlongAxis(shape, center, axis, a, ws);
-  let fb = slopeAlongAxis(shape, center, axis, b, ws);
+  let fa = slopeAlongAxis(shape, center, axis, a, axisPoint, closest);
+  let fb = slopeAlongAxis(shape, center, axis, b, axisPoint, closest);
   if (fa > SLOPE_TOLERANCE || fb < -SLOPE_TOLERANCE) return Number.NaN;
   if (fa >= -SLOPE_TOLERANCE && fb <= SLOPE_TOLERANCE) {
     // Flat along the whole width (line contact): take the middle of the roller.
-    slopeAlongAxis(shape, center, axis, 0, ws);
+    slopeAlongAxis(shape, center, axis, 0, axisPoint, closest);
     return 0;
   }
   let s = 0;
@@ -321,7 +320,7 @@ function curvedFaceContact(shape: ConvexShape, center: Float64Array, axis: Float
   for (let i = 0; i < ROOT_ITERATIONS; i++) {
     s = (a * fb - b * fa) / (fb - fa);
     if (!(s > a && s < b)) s = 0.5 * (a + b);
-    const fs = slopeAlongAxis(shape, center, axis, s, ws);
+    const fs = slopeAlongAxis(shape, center, axis, s, axisPoint, closest);
     if (fs === 0 || b - a <= 1e-15 * halfWidth) return s;
     if (fs > 0) {
       b = s; fb = fs;
