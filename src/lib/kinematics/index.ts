@@ -37,15 +37,17 @@
  *
  * Runs and sweeps:
  *
- *     const record = runSheet(doc, { settings });  // closed-loop run toward motion.target: RunRecord columns per tick
+ *     const record = runSheet(doc);              // closed-loop run toward motion.target (runScene for a compiled scene)
+ *     record.orientationError                    // per tick, one value per ROTATION_METRICS entry, in its order
  *     warningsAt(record, tick);                  // warning codes raised at that tick
  *     toPlainRunRecord(record);                  // JSON-ready copy
  *     sweepSheet(doc, { path, from, to, steps }); // SweepRecord: one plain result per value of one input
  *
  * Also here: the shape queries and the vec3 and quat helpers that drawing and templates use, and
  * the dense linear algebra behind the solves (matrices, damped least squares, Jacobi singular
- * values) for callers with their own Jacobians. Everything else (workspaces, per-solve kernels,
- * warning bookkeeping) stays inside the core; code outside src/lib/kinematics imports only this file.
+ * values, with their workspace) for callers with their own Jacobians. The scene, contact, GJK
+ * and solve workspaces, the per-solve kernels and the warning bookkeeping stay inside the core;
+ * code outside src/lib/kinematics imports only this file.
  */
 export * as vec3 from './vec3';
 export type { Vec3, Vec3Like } from './vec3';
