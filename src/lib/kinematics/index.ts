@@ -10,7 +10,6 @@
  *     const result = solveSheet(doc);          // SheetDocument from the sheet schema
  *     result.fingers[0].full.rates             // joint rates, rad/s (Float64Array, joint order of the sheet)
  *     result.warnings                          // SheetWarning[] {code, severity, finger?, joint?, message, value, threshold}
- *     const entries = deriveSheet(doc, result);  // formulas with numbers for every output
  *
  * Repeated use (runs, sweeps, benchmarks) without allocation:
  *
@@ -68,5 +67,8 @@ export {
   createResult, createScene, setJointAngles, setObjectPose, setObjectTwist, solveScene, solveSheet, toPlainResult,
 } from './scene';
 export type { FingerResult, PlainSheetResult, Scene, SceneWorkspace, SheetResult } from './scene';
-export { deriveSheet, formatLatexNumber } from './derivation';
-export type { DerivationEntry } from './derivation';
+export { ROTATION_METRICS } from './metrics';
+export { runSheet, toPlainRunRecord, warningsAt } from './run';
+export type { RunRecord } from './run';
+export { sweepSheet } from './sweep';
+export type { SweepRecord } from './sweep';

@@ -18,8 +18,8 @@ describe('document paths', () => {
   it('lists the leaves that differ', () => {
     const changed = setAt(setAt(base, ['object', 'pose', 'position', 2], '80 mm'), ['notes'], 'why');
     expect(diffDocuments(base, changed)).toEqual([
-      { path: ['object', 'pose', 'position', 2], before: '90 mm', after: '80 mm' },
-      { path: ['notes'], before: undefined, after: 'why' },
+      { path: ['object', 'pose', 'position', 2], kind: 'changed', before: '90 mm', after: '80 mm' },
+      { path: ['notes'], kind: 'added', before: undefined, after: 'why' },
     ]);
   });
 
@@ -31,6 +31,6 @@ describe('document paths', () => {
     expect(getAt(document, ['title'])).toBe('B');
     expect(getAt(document, ['object', 'pose', 'position', 2])).toBe('80 mm');
     expect(getAt(document, ['hand', 'fingers', 0, 'roller', 'radius'])).toBe('14 mm');
-    expect(overlapping).toEqual([{ path: ['hand', 'fingers', 0, 'roller', 'radius'], before: '13 mm', after: '14 mm' }]);
+    expect(overlapping).toEqual([{ path: ['hand', 'fingers', 0, 'roller', 'radius'], kind: 'changed', before: '13 mm', after: '14 mm' }]);
   });
 });
