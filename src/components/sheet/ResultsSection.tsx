@@ -1,6 +1,6 @@
 import { memo } from 'react';
 import type { PlainSheetResult } from '../../lib/kinematics';
-import { displayNumber, displayValue, formatShownNumber, output, type OutputDefinition } from '../../lib/sheet/outputs';
+import { displayNumber, displayValue, findOutput, formatShownNumber, type OutputDefinition } from '../../lib/sheet/outputs';
 import { SafetyCaution } from './SafetyCaution';
 
 function Row({ label, value, unit, test }: { label: string; value: string; unit: string; test?: string }) {
@@ -15,7 +15,7 @@ function Row({ label, value, unit, test }: { label: string; value: string; unit:
 
 /** A catalogue output of finger `finger` (or of the grasp) as one row, in its display unit; `test` marks the cell for browser tests. */
 function OutputRow({ id, result, finger = -1, test = false }: { id: string; result: PlainSheetResult; finger?: number; test?: boolean }) {
-  const definition = output(id);
+  const definition = findOutput(id);
   const testId = definition.scope === 'grasp' ? id : `${finger}.${id}`;
   return (
     <Row
@@ -27,7 +27,7 @@ function OutputRow({ id, result, finger = -1, test = false }: { id: string; resu
   );
 }
 
-const JOINT_COLUMNS = ['jointAngles', 'full.rates', 'steer.rates', 'steer.rateDifference'].map(output);
+const JOINT_COLUMNS = ['jointAngles', 'full.rates', 'steer.rates', 'steer.rateDifference'].map(findOutput);
 
 /** The k-th joint's value of a per-joint output, in its display unit. */
 function jointCell(definition: OutputDefinition, result: PlainSheetResult, finger: number, joint: number): string {
@@ -37,7 +37,7 @@ function jointCell(definition: OutputDefinition, result: PlainSheetResult, finge
 
 const [conditionBefore, conditionAfter, singularValues, conditionNumber, manipulability] = [
   'steer.conditionBefore', 'steer.conditionAfter', 'full.singularValues', 'full.conditionNumber', 'full.manipulability',
-].map(output);
+].map(findOutput);
 
 /** One table per contact and one for the grasp, labels, units and readers from the output catalogue; the full solution beside steer-and-roll. */
 function ResultsSection({ result, stale }: { result: PlainSheetResult | null; stale: boolean }) {

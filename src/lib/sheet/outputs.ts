@@ -11,8 +11,8 @@ export type OutputValue = number | string;
 /** Whose output it is: one per finger, one per joint of a finger, or one for the whole grasp. */
 export type OutputScope = 'finger' | 'joint' | 'grasp';
 
-/** The frame a vector output is expressed in (the palm, i.e. world, frame for every vector today); null for scalars. */
-export type OutputFrame = 'palm' | 'object' | null;
+/** The frame a vector output is expressed in: the palm (world) frame, as every vector the core reports; null for scalars. */
+export type OutputFrame = 'palm' | null;
 
 /** How a multi-valued output is split into named parts when listed value by value. */
 export type OutputParts = 'single' | 'xyz' | 'joints' | 'singular-values';
@@ -51,7 +51,7 @@ const same = (si: number) => si;
 const milli = (si: number) => si * 1000;
 const degrees = (si: number) => (si * 180) / Math.PI;
 
-const SI = (digits = 4) => ({ unit: '', digits, fromSI: same });
+const unitless = (digits = 4): OutputDisplay => ({ unit: '', digits, fromSI: same });
 const shown = (unit: string, fromSI = same, digits = 4): OutputDisplay => ({ unit, digits, fromSI });
 
 /**
@@ -60,7 +60,7 @@ const shown = (unit: string, fromSI = same, digits = 4): OutputDisplay => ({ uni
  */
 export const OUTPUTS: readonly OutputDefinition[] = [
   {
-    id: 'contact.state', label: 'contact state', unit: '', display: SI(), frame: null, scope: 'finger', parts: 'single', compared: true,
+    id: 'contact.state', label: 'contact state', unit: '', display: unitless(), frame: null, scope: 'finger', parts: 'single', compared: true,
     csv: { columns: ['contact_state'] }, read: (r, i) => r.fingers[i].contact.state,
   },
   {
@@ -97,11 +97,11 @@ export const OUTPUTS: readonly OutputDefinition[] = [
     read: (r, i) => r.fingers[i].full.singularValues,
   },
   {
-    id: 'full.conditionNumber', label: 'condition number', unit: '', display: SI(3), frame: null, scope: 'finger', parts: 'single', compared: true,
+    id: 'full.conditionNumber', label: 'condition number', unit: '', display: unitless(3), frame: null, scope: 'finger', parts: 'single', compared: true,
     csv: { columns: ['condition_number'] }, read: (r, i) => r.fingers[i].full.conditionNumber,
   },
   {
-    id: 'full.manipulability', label: 'manipulability', unit: '', display: SI(3), frame: null, scope: 'finger', parts: 'single', compared: true,
+    id: 'full.manipulability', label: 'manipulability', unit: '', display: unitless(3), frame: null, scope: 'finger', parts: 'single', compared: true,
     csv: { columns: ['manipulability'] }, read: (r, i) => r.fingers[i].full.manipulability,
   },
   {
@@ -150,7 +150,7 @@ export const OUTPUTS: readonly OutputDefinition[] = [
     frame: null, scope: 'joint', parts: 'joints', compared: false, read: (r, i) => r.fingers[i].steer.rateDifference,
   },
   {
-    id: 'grasp.contacts', label: 'contacts', unit: '', display: SI(), frame: null, scope: 'grasp', parts: 'single', compared: false,
+    id: 'grasp.contacts', label: 'contacts', unit: '', display: unitless(), frame: null, scope: 'grasp', parts: 'single', compared: false,
     read: (r) => r.grasp.contactCount,
   },
   {
@@ -158,7 +158,7 @@ export const OUTPUTS: readonly OutputDefinition[] = [
     parts: 'single', compared: true, read: (r) => r.grasp.rank,
   },
   {
-    id: 'grasp.undrivable', label: 'undrivable object directions', tableLabel: 'undrivable directions', unit: '', display: SI(), frame: null,
+    id: 'grasp.undrivable', label: 'undrivable object directions', tableLabel: 'undrivable directions', unit: '', display: unitless(), frame: null,
     scope: 'grasp', parts: 'single', compared: true, read: (r) => r.grasp.undrivableCount,
   },
 ];
@@ -166,7 +166,7 @@ export const OUTPUTS: readonly OutputDefinition[] = [
 const BY_ID = new Map(OUTPUTS.map((output) => [output.id, output]));
 
 /** The catalogue entry with this id; throws on an unknown id, which is a programming error. */
-export function output(id: string): OutputDefinition {
+export function findOutput(id: string): OutputDefinition {
   const found = BY_ID.get(id);
   if (!found) throw new Error(`no output "${id}" in the catalogue`);
   return found;

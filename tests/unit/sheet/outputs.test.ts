@@ -5,7 +5,7 @@ import { describe, expect, it } from 'vitest';
 import ResultsSection from '../../../src/components/sheet/ResultsSection';
 import { compareOutputs } from '../../../src/lib/server/compare';
 import { evaluateSheet } from '../../../src/lib/sheet/evaluate';
-import { displayValue, listOutputs, output, OUTPUTS } from '../../../src/lib/sheet/outputs';
+import { displayValue, findOutput, listOutputs, OUTPUTS } from '../../../src/lib/sheet/outputs';
 import { FINGER_COLUMNS, fingerRows, rateColumns, resultsCsv } from '../../../src/lib/sheet/results-csv';
 
 const evaluated = evaluateSheet(JSON.parse(readFileSync(new URL('../../../content/sheets/line4-bearing-housing-quarter-turn.json', import.meta.url), 'utf8')));
@@ -18,20 +18,20 @@ describe('the output catalogue', () => {
     expect(new Set(OUTPUTS.map((o) => o.id)).size).toBe(OUTPUTS.length);
     for (const o of OUTPUTS) {
       expect(['finger', 'joint', 'grasp']).toContain(o.scope);
-      expect(['palm', 'object', null]).toContain(o.frame);
+      expect(['palm', null]).toContain(o.frame);
       expect(typeof o.unit).toBe('string');
       expect(typeof o.display.unit).toBe('string');
       if (o.parts === 'xyz') expect(o.frame, o.id).not.toBeNull();
     }
-    expect(() => output('nothing')).toThrow(/no output "nothing"/);
+    expect(() => findOutput('nothing')).toThrow(/no output "nothing"/);
   });
 
   it('converts to display units: m to mm, rad to degrees, unitless as they are', () => {
-    expect(displayValue(output('contact.gap'), 0.0012346)).toBe('1.235');
-    expect(displayValue(output('steer.pivotAngle'), Math.PI / 2)).toBe('90');
-    expect(displayValue(output('contact.normal'), [0, -0.00001, 1])).toBe('(0, -0.00001, 1)');
-    expect(displayValue(output('contact.state'), 'touching')).toBe('touching');
-    expect(displayValue(output('full.rates'), [Number.NaN, Infinity, -Infinity])).toBe('(—, ∞, −∞)');
+    expect(displayValue(findOutput('contact.gap'), 0.0012346)).toBe('1.235');
+    expect(displayValue(findOutput('steer.pivotAngle'), Math.PI / 2)).toBe('90');
+    expect(displayValue(findOutput('contact.normal'), [0, -0.00001, 1])).toBe('(0, -0.00001, 1)');
+    expect(displayValue(findOutput('contact.state'), 'touching')).toBe('touching');
+    expect(displayValue(findOutput('full.rates'), [Number.NaN, Infinity, -Infinity])).toBe('(—, ∞, −∞)');
   });
 });
 
@@ -81,8 +81,8 @@ describe('the surfaces that read the catalogue', () => {
     ];
     expect(labels).toEqual([...result.fingers.flatMap(() => perContact), 'contacts', 'rank of the contact map', 'undrivable directions']);
     expect(html).toContain('<th class="py-1 text-right font-normal">angle, deg</th><th class="py-1 text-right font-normal">full</th>');
-    expect(html).toContain(`data-result="0.contact.gap">${displayValue(output('contact.gap'), first.contact.gap)}</td><td class="py-0.5 text-xs text-graphite">mm</td>`);
-    expect(html).toContain(`data-result="0.full.rates.0">${displayValue(output('full.rates'), first.full.rates[0])}</td>`);
+    expect(html).toContain(`data-result="0.contact.gap">${displayValue(findOutput('contact.gap'), first.contact.gap)}</td><td class="py-0.5 text-xs text-graphite">mm</td>`);
+    expect(html).toContain(`data-result="0.full.rates.0">${displayValue(findOutput('full.rates'), first.full.rates[0])}</td>`);
     expect(html).toContain('data-result="grasp.rank">');
   });
 });
