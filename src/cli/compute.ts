@@ -7,11 +7,8 @@
  */
 import { readFileSync, realpathSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
-import { parseSheet } from '../lib/sheet/schema';
-import type { SheetDocument } from '../lib/sheet/types';
-import {
-  ROTATION_METRICS, runSheet, solveSheet, sweepSheet, toPlainResult, toPlainRunRecord, warningsAt, type RunRecord, type SweepRecord,
-} from '../lib/kinematics/index';
+import { ROTATION_METRICS, runSheet, sweepSheet, toPlainRunRecord, warningsAt, type RunRecord, type SweepRecord } from '../lib/kinematics';
+import { evaluateSheet, type SheetEvaluation } from '../lib/sheet/evaluate';
 import { csvTable, FINGER_COLUMNS, fingerRows, maxJointCount, rateColumns, resultsCsv } from '../lib/sheet/results-csv';
 
 const USAGE = 'usage: npm run compute -- path/to/sheet.json [--format json|csv] [--run] [--sweep]';
@@ -56,7 +53,7 @@ function lineAndColumn(text: string, offset: number): string {
   return `${line}:${column}`;
 }
 
-function readSheet(file: string): SheetDocument {
+function evaluateFile(file: string): SheetEvaluation {
   let text: string;
   try {
     text = readFileSync(file, 'utf8');
@@ -72,12 +69,14 @@ function readSheet(file: string): SheetDocument {
     const where = position ? lineAndColumn(text, Number(position[1])) : lineAndColumn(text, text.length);
     throw new InputError(`${file}:${where}: invalid JSON: ${message}`);
   }
-  const parsed = parseSheet(json);
-  if (!parsed.ok) {
-    const lines = parsed.issues.map((issue) => `${file}: ${issue.path}: ${issue.message}`);
-    throw new InputError(`${lines.join('\n')}\n${file}: invalid sheet (${parsed.issues.length} issue${parsed.issues.length === 1 ? '' : 's'})`);
+  const evaluated = evaluateSheet(json);
+  if (!evaluated.ok) {
+    const { issues, stage } = evaluated.error;
+    const lines = issues.map((issue) => `${file}: ${issue.path}: ${issue.message}`);
+    const verdict = stage === 'solve' ? 'the sheet could not be solved' : `invalid sheet (${issues.length} issue${issues.length === 1 ? '' : 's'})`;
+    throw new InputError(`${lines.join('\n')}\n${file}: ${verdict}`);
   }
-  return parsed.doc;
+  return evaluated.value;
 }
 
 function runTable(record: RunRecord): string {
@@ -117,19 +116,19 @@ export function runComputeCommand(args: readonly string[], io: CommandOutput): n
     report(USAGE);
     return 2;
   }
-  let doc: SheetDocument;
+  let evaluation: SheetEvaluation;
   try {
-    doc = readSheet(options.file);
+    evaluation = evaluateFile(options.file);
   } catch (error) {
     if (!(error instanceof InputError)) throw error;
     report(error.message);
     return 1;
   }
+  const { doc, result } = evaluation;
   if (options.sweep && doc.sweep === undefined) {
     report(`${options.file}: sweep: --sweep needs a "sweep" section in the sheet`);
     return 1;
   }
-  const result = toPlainResult(solveSheet(doc));
   const run = options.run ? runSheet(doc) : undefined;
   let sweep: SweepRecord | undefined;
   try {

@@ -4,13 +4,13 @@
  * Usage: npx tsx src/cli/validation-cost.ts [rounds]
  */
 import { readFileSync } from 'node:fs';
-import { validateDocument } from '../lib/server/sheets';
+import { evaluateSheet } from '../lib/sheet/evaluate';
 import { largestSheet } from '../lib/sheet/largest-sheet';
 
 const rounds = Number(process.argv[2] ?? 10);
 const document = largestSheet(JSON.parse(readFileSync('content/sheets/line4-peg-tilt.json', 'utf8')));
-const first = validateDocument(document);
-if (!first.ok) throw new Error(`the largest sheet does not validate: ${first.issues[0].path}: ${first.issues[0].message}`);
+const first = evaluateSheet(document);
+if (!first.ok) throw new Error(`the largest sheet does not validate: ${first.error.issues[0].path}: ${first.error.issues[0].message}`);
 const times: number[] = [];
 // CPU time as well as wall time: on a shared machine the wall time also counts other processes' turns.
 const cpuTimes: number[] = [];
@@ -19,7 +19,7 @@ for (let round = 0; round < rounds; round++) {
   const fresh = JSON.parse(JSON.stringify(document).replaceAll('e-300', `e-${300 - round - 1}`));
   const cpu = process.cpuUsage();
   const start = performance.now();
-  validateDocument(fresh);
+  evaluateSheet(fresh);
   times.push(performance.now() - start);
   const used = process.cpuUsage(cpu);
   cpuTimes.push((used.user + used.system) / 1000);

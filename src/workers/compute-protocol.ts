@@ -3,8 +3,10 @@
  * without a worker: a document as written goes in, the parsed SI document, the JSON-ready
  * results, the derivation entries and every located issue come out.
  */
-import { deriveSheet, solveSheet, toPlainResult, type DerivationEntry, type PlainSheetResult } from '../lib/kinematics';
-import { parseSheet, type SheetIssue } from '../lib/sheet/schema';
+import type { PlainSheetResult } from '../lib/kinematics';
+import type { DerivationEntry } from '../lib/sheet/derivation';
+import { evaluateSheet } from '../lib/sheet/evaluate';
+import type { SheetIssue } from '../lib/sheet/schema';
 import type { SheetDocument } from '../lib/sheet/types';
 
 export interface ComputeRequest {
@@ -37,21 +39,8 @@ function isComputeRequest(message: unknown): message is ComputeRequest {
 export function computeSheet(message: unknown, now: () => number = () => performance.now()): ComputeReply {
   if (!isComputeRequest(message)) return { type: 'refused', message: 'expected {type: "compute", id: integer, document}' };
   const started = now();
-  const parsed = parseSheet(message.document);
-  if (!parsed.ok) return { type: 'computed', id: message.id, ok: false, issues: parsed.issues, elapsedMs: now() - started };
-  try {
-    const solved = solveSheet(parsed.doc);
-    return {
-      type: 'computed',
-      id: message.id,
-      ok: true,
-      document: parsed.doc,
-      result: toPlainResult(solved),
-      derivation: deriveSheet(parsed.doc, solved),
-      elapsedMs: now() - started,
-    };
-  } catch (error) {
-    const reason = error instanceof Error ? error.message : String(error);
-    return { type: 'computed', id: message.id, ok: false, issues: [{ path: '(document)', message: `the sheet could not be solved: ${reason}` }], elapsedMs: now() - started };
-  }
+  const evaluated = evaluateSheet(message.document, { derive: true });
+  if (!evaluated.ok) return { type: 'computed', id: message.id, ok: false, issues: evaluated.error.issues, elapsedMs: now() - started };
+  const { doc, result, derivation } = evaluated.value;
+  return { type: 'computed', id: message.id, ok: true, document: doc, result, derivation, elapsedMs: now() - started };
 }

@@ -1,6 +1,6 @@
 import katex from 'katex';
 import { memo, useMemo, useState } from 'react';
-import type { DerivationEntry } from '../../lib/kinematics';
+import type { DerivationEntry } from '../../lib/sheet/derivation';
 import { selectInput } from './sheet-styles';
 
 function renderLatex(latex: string): string {

@@ -1,17 +1,7 @@
 import { memo } from 'react';
 import type { PlainSheetResult } from '../../lib/kinematics';
+import { displayNumber, displayValue, findOutput, formatShownNumber, type OutputDefinition } from '../../lib/sheet/outputs';
 import { SafetyCaution } from './SafetyCaution';
-
-const fmt = (x: number, digits = 4) => {
-  if (Number.isNaN(x)) return '—';
-  if (!Number.isFinite(x)) return x > 0 ? '∞' : '−∞';
-  const rounded = Number(x.toPrecision(digits));
-  return String(Object.is(rounded, -0) ? 0 : rounded);
-};
-const mm = (x: number) => fmt(x * 1000);
-const vectorMm = (v: number[]) => `(${v.map(mm).join(', ')})`;
-const vector = (v: number[]) => `(${v.map((x) => fmt(x, 3)).join(', ')})`;
-const deg = (x: number) => fmt((x * 180) / Math.PI);
 
 function Row({ label, value, unit, test }: { label: string; value: string; unit: string; test?: string }) {
   return (
@@ -23,7 +13,33 @@ function Row({ label, value, unit, test }: { label: string; value: string; unit:
   );
 }
 
-/** One table per contact and one for the grasp; the full solution beside steer-and-roll. */
+/** A catalogue output of finger `finger` (or of the grasp) as one row, in its display unit; `test` marks the cell for browser tests. */
+function OutputRow({ id, result, finger = -1, test = false }: { id: string; result: PlainSheetResult; finger?: number; test?: boolean }) {
+  const definition = findOutput(id);
+  const testId = definition.scope === 'grasp' ? id : `${finger}.${id}`;
+  return (
+    <Row
+      label={definition.tableLabel ?? definition.label}
+      value={displayValue(definition, definition.read(result, finger))}
+      unit={definition.display.unit}
+      test={test ? testId : undefined}
+    />
+  );
+}
+
+const JOINT_COLUMNS = ['jointAngles', 'full.rates', 'steer.rates', 'steer.rateDifference'].map(findOutput);
+
+/** The k-th joint's value of a per-joint output, in its display unit. */
+function jointCell(definition: OutputDefinition, result: PlainSheetResult, finger: number, joint: number): string {
+  const values = definition.read(result, finger);
+  return typeof values === 'object' ? displayNumber(definition, values[joint]) : '';
+}
+
+const [conditionBefore, conditionAfter, singularValues, conditionNumber, manipulability] = [
+  'steer.conditionBefore', 'steer.conditionAfter', 'full.singularValues', 'full.conditionNumber', 'full.manipulability',
+].map(findOutput);
+
+/** One table per contact and one for the grasp, labels, units and readers from the output catalogue; the full solution beside steer-and-roll. */
 function ResultsSection({ result, stale }: { result: PlainSheetResult | null; stale: boolean }) {
   if (!result) return <p className="text-sm text-graphite">No results until the sheet reads without errors.</p>;
   return (
@@ -38,22 +54,26 @@ function ResultsSection({ result, stale }: { result: PlainSheetResult | null; st
             <div className="grid gap-x-6 md:grid-cols-2">
               <table className="w-full text-sm">
                 <tbody>
-                  <Row label="contact point x" value={vectorMm(c.objectPoint)} unit="mm" test={`${i}.contact.objectPoint`} />
-                  <Row label="normal n" value={vector(c.normal)} unit="1" />
-                  <Row label="gap" value={mm(c.gap)} unit="mm" test={`${i}.contact.gap`} />
-                  <Row label="normal velocity" value={mm(c.normalSpeed)} unit="mm/s" />
-                  <Row label="tangential velocity" value={vectorMm(c.tangentialVelocity)} unit="mm/s" />
-                  <Row label="tangential speed" value={mm(c.tangentialSpeed)} unit="mm/s" />
+                  <OutputRow id="contact.objectPoint" result={result} finger={i} test />
+                  <OutputRow id="contact.normal" result={result} finger={i} />
+                  <OutputRow id="contact.gap" result={result} finger={i} test />
+                  <OutputRow id="contact.normalSpeed" result={result} finger={i} />
+                  <OutputRow id="contact.tangentialVelocity" result={result} finger={i} />
+                  <OutputRow id="contact.tangentialSpeed" result={result} finger={i} />
                 </tbody>
               </table>
               <table className="w-full text-sm">
                 <tbody>
-                  <Row label="steer: base rate" value={fmt(f.steer.baseRate)} unit="rad/s" test={`${i}.steer.baseRate`} />
-                  <Row label="steer: pivot angle" value={deg(f.steer.pivotAngle)} unit="deg" test={`${i}.steer.pivotAngle`} />
-                  <Row label="steer: roll rate" value={fmt(f.steer.rollRate)} unit="rad/s" test={`${i}.steer.rollRate`} />
-                  <Row label="steer − full, |Δ rates|" value={fmt(f.steer.rateDifferenceNorm)} unit="rad/s" />
-                  <Row label="condition before / after steering" value={`${fmt(f.steer.conditionBefore, 3)} / ${fmt(f.steer.conditionAfter, 3)}`} unit="1" />
-                  <Row label="full: slip residual" value={mm(f.full.residualNorm)} unit="mm/s" />
+                  <OutputRow id="steer.baseRate" result={result} finger={i} test />
+                  <OutputRow id="steer.pivotAngle" result={result} finger={i} test />
+                  <OutputRow id="steer.rollRate" result={result} finger={i} test />
+                  <OutputRow id="steer.rateDifferenceNorm" result={result} finger={i} />
+                  <Row
+                    label="condition before / after steering"
+                    value={`${displayValue(conditionBefore, conditionBefore.read(result, i))} / ${displayValue(conditionAfter, conditionAfter.read(result, i))}`}
+                    unit={conditionAfter.display.unit}
+                  />
+                  <OutputRow id="full.residual" result={result} finger={i} />
                 </tbody>
               </table>
             </div>
@@ -62,27 +82,28 @@ function ResultsSection({ result, stale }: { result: PlainSheetResult | null; st
               <thead>
                 <tr className="border-b border-ink text-left text-xs text-graphite">
                   <th className="py-1 font-normal">joint</th>
-                  <th className="py-1 text-right font-normal">angle, deg</th>
-                  <th className="py-1 text-right font-normal">full</th>
-                  <th className="py-1 text-right font-normal">steer-and-roll</th>
-                  <th className="py-1 text-right font-normal">difference</th>
+                  {JOINT_COLUMNS.map((column) => (
+                    <th key={column.id} className="py-1 text-right font-normal">{column.tableLabel}</th>
+                  ))}
                 </tr>
               </thead>
               <tbody>
                 {f.jointNames.map((name, k) => (
                   <tr key={name} className="border-b border-rule/60">
                     <td className="py-0.5">{name}</td>
-                    <td className="num text-right">{deg(f.jointAngles[k])}</td>
-                    <td className="num text-right" data-result={`${i}.full.rates.${k}`}>{fmt(f.full.rates[k])}</td>
-                    <td className="num text-right">{fmt(f.steer.rates[k])}</td>
-                    <td className="num text-right">{fmt(f.steer.rateDifference[k])}</td>
+                    {JOINT_COLUMNS.map((column) => (
+                      <td key={column.id} className="num text-right" data-result={column.id === 'full.rates' ? `${i}.full.rates.${k}` : undefined}>
+                        {jointCell(column, result, i, k)}
+                      </td>
+                    ))}
                   </tr>
                 ))}
               </tbody>
             </table>
             <p className="mt-1 text-xs text-graphite">
-              full solution: σ = <span className="num">{f.full.singularValues.map((s) => fmt(s, 3)).join(', ')}</span> m/rad, condition{' '}
-              <span className="num">{fmt(f.full.conditionNumber, 3)}</span>, manipulability <span className="num">{fmt(f.full.manipulability, 3)}</span>
+              full solution: σ = <span className="num">{f.full.singularValues.map((s) => displayNumber(singularValues, s)).join(', ')}</span> {singularValues.display.unit}, condition{' '}
+              <span className="num">{displayValue(conditionNumber, conditionNumber.read(result, i))}</span>, manipulability{' '}
+              <span className="num">{displayValue(manipulability, manipulability.read(result, i))}</span>
             </p>
           </div>
         );
@@ -91,17 +112,17 @@ function ResultsSection({ result, stale }: { result: PlainSheetResult | null; st
         <h3 className="mb-2 text-sm font-semibold">Grasp</h3>
         <table className="text-sm">
           <tbody>
-            <Row label="contacts" value={String(result.grasp.contactCount)} unit="" />
-            <Row label="rank of the contact map" value={String(result.grasp.rank)} unit="of 6" test="grasp.rank" />
-            <Row label="undrivable directions" value={String(result.grasp.undrivableCount)} unit="" />
+            <OutputRow id="grasp.contacts" result={result} />
+            <OutputRow id="grasp.rank" result={result} test />
+            <OutputRow id="grasp.undrivable" result={result} />
           </tbody>
         </table>
         {result.grasp.undrivableCount > 0 && (
           <ul className="mt-2 text-xs text-graphite">
             {Array.from({ length: result.grasp.undrivableCount }, (_, k) => (
               <li key={k} className="num">
-                v = ({result.grasp.undrivable.slice(6 * k, 6 * k + 3).map((x) => fmt(x, 3)).join(', ')}), ω = (
-                {result.grasp.undrivable.slice(6 * k + 3, 6 * k + 6).map((x) => fmt(x, 3)).join(', ')})
+                v = ({result.grasp.undrivable.slice(6 * k, 6 * k + 3).map((x) => formatShownNumber(x, 3)).join(', ')}), ω = (
+                {result.grasp.undrivable.slice(6 * k + 3, 6 * k + 6).map((x) => formatShownNumber(x, 3)).join(', ')})
               </li>
             ))}
           </ul>

@@ -10,7 +10,6 @@
  *     const result = solveSheet(doc);          // SheetDocument from the sheet schema
  *     result.fingers[0].full.rates             // joint rates, rad/s (Float64Array, joint order of the sheet)
  *     result.warnings                          // SheetWarning[] {code, severity, finger?, joint?, message, value, threshold}
- *     const entries = deriveSheet(doc, result);  // formulas with numbers for every output
  *
  * Repeated use (runs, sweeps, benchmarks) without allocation:
  *
@@ -73,5 +72,3 @@ export { sweepSheet, sweepValues } from './sweep';
 export type { SweepOptions, SweepRecord } from './sweep';
 export { ROTATION_METRICS } from './metrics';
 export type { RotationMetric } from './metrics';
-export { deriveSheet, formatLatexNumber } from './derivation';
-export type { DerivationEntry } from './derivation';

@@ -4,11 +4,14 @@
  */
 import type { Database } from '../../db';
 import type { Sheet } from '../../db/schema';
-import { solveSheet, toPlainResult, type PlainSheetResult } from '../kinematics';
-import { formatIssuePath, parseSheet, type SheetIssue } from '../sheet/schema';
+import type { PlainSheetResult } from '../kinematics';
+import { diffDocuments, isRecord, pathText, type DocumentChangeKind } from '../sheet/document-path';
+import { evaluateSheet } from '../sheet/evaluate';
+import { fingerOutputs, graspOutputs, type OutputValue, type OutputValueRow } from '../sheet/outputs';
+import { formatIssuePath, type SheetIssue } from '../sheet/schema';
 import { getRevision } from './sheets';
 
-export type InputChangeKind = 'added' | 'removed' | 'changed';
+export type InputChangeKind = DocumentChangeKind;
 
 /** One difference between two input documents, at a path written like parseSheet's issue paths. */
 export interface InputChange {
@@ -20,38 +23,9 @@ export interface InputChange {
 
 type Json = null | boolean | number | string | Json[] | { [key: string]: Json };
 
-function isRecord(value: unknown): value is Record<string, unknown> {
-  return value !== null && typeof value === 'object' && !Array.isArray(value);
-}
-
-function walkDiff(before: unknown, after: unknown, path: PropertyKey[], out: InputChange[]): void {
-  if (isRecord(before) && isRecord(after)) {
-    const keys = [...Object.keys(before), ...Object.keys(after).filter((key) => !Object.hasOwn(before, key))];
-    for (const key of keys) {
-      const here = [...path, key];
-      if (!Object.hasOwn(after, key)) out.push({ path: formatIssuePath(here), kind: 'removed', before: before[key] });
-      else if (!Object.hasOwn(before, key)) out.push({ path: formatIssuePath(here), kind: 'added', after: after[key] });
-      else walkDiff(before[key], after[key], here, out);
-    }
-    return;
-  }
-  if (Array.isArray(before) && Array.isArray(after)) {
-    for (let i = 0; i < Math.max(before.length, after.length); i++) {
-      const here = [...path, i];
-      if (i >= after.length) out.push({ path: formatIssuePath(here), kind: 'removed', before: before[i] });
-      else if (i >= before.length) out.push({ path: formatIssuePath(here), kind: 'added', after: after[i] });
-      else walkDiff(before[i], after[i], here, out);
-    }
-    return;
-  }
-  if (!Object.is(before, after)) out.push({ path: formatIssuePath(path), kind: 'changed', before, after });
-}
-
 /** Every added, removed and changed value between two JSON documents; arrays are compared index by index. */
 export function diffInputs(before: unknown, after: unknown): InputChange[] {
-  const out: InputChange[] = [];
-  walkDiff(before, after, [], out);
-  return out;
+  return diffDocuments(before, after, 'by-index').map((change) => ({ ...change, path: pathText(change.path) }));
 }
 
 /** A field of the input shown side by side: a path and its value, where arrays of plain values count as one field. */
@@ -111,39 +85,6 @@ export interface OutputDifference {
   level: DifferenceLevel;
 }
 
-type PlainFinger = PlainSheetResult['fingers'][number];
-type OutputValue = number | string;
-
-interface FingerQuantity {
-  quantity: string;
-  unit: string;
-  values: (finger: PlainFinger) => [string, OutputValue][];
-}
-
-const XYZ = ['x', 'y', 'z'];
-const single = (value: OutputValue): [string, OutputValue][] => [['', value]];
-const components = (v: readonly number[]): [string, OutputValue][] => v.map((c, i) => [XYZ[i] ?? String(i), c]);
-const perJoint = (finger: PlainFinger, rates: readonly number[]): [string, OutputValue][] => rates.map((r, k) => [finger.jointNames[k] ?? `joint ${k + 1}`, r]);
-
-/** The outputs compared per finger, in the order a reader checks them. */
-const FINGER_QUANTITIES: FingerQuantity[] = [
-  { quantity: 'contact state', unit: '', values: (f) => single(f.contact.state) },
-  { quantity: 'gap', unit: 'm', values: (f) => single(f.contact.gap) },
-  { quantity: 'contact point', unit: 'm', values: (f) => components(f.contact.objectPoint) },
-  { quantity: 'contact normal', unit: '', values: (f) => components(f.contact.normal) },
-  { quantity: 'normal speed', unit: 'm/s', values: (f) => single(f.contact.normalSpeed) },
-  { quantity: 'tangential speed', unit: 'm/s', values: (f) => single(f.contact.tangentialSpeed) },
-  { quantity: 'joint rate (full)', unit: 'rad/s', values: (f) => perJoint(f, f.full.rates) },
-  { quantity: 'slip residual (full)', unit: 'm/s', values: (f) => single(f.full.residualNorm) },
-  { quantity: 'singular value', unit: 'm/rad', values: (f) => f.full.singularValues.map((v, i): [string, OutputValue] => [`σ${i + 1}`, v]) },
-  { quantity: 'condition number', unit: '', values: (f) => single(f.full.conditionNumber) },
-  { quantity: 'manipulability', unit: '', values: (f) => single(f.full.manipulability) },
-  { quantity: 'base rate (steer-and-roll)', unit: 'rad/s', values: (f) => single(f.steer.baseRate) },
-  { quantity: 'pivot angle (steer-and-roll)', unit: 'rad', values: (f) => single(f.steer.pivotAngle) },
-  { quantity: 'roll rate (steer-and-roll)', unit: 'rad/s', values: (f) => single(f.steer.rollRate) },
-  { quantity: 'slip residual (steer-and-roll)', unit: 'm/s', values: (f) => single(f.steer.residualNorm) },
-];
-
 function differenceOf(group: string, quantity: string, unit: string, from: OutputValue | null, to: OutputValue | null): OutputDifference {
   const row = { group, quantity, unit, from, to };
   if (from === null || to === null) return { ...row, absolute: null, relative: null, level: 'one-side' };
@@ -160,53 +101,24 @@ function differenceOf(group: string, quantity: string, unit: string, from: Outpu
   return { ...row, absolute, relative, level };
 }
 
-/** One reported output of a result: the finger (or "grasp"), what it is, its unit and value. */
-export interface OutputValueRow {
-  group: string;
-  quantity: string;
-  unit: string;
-  value: OutputValue;
-}
-
-function fingerValues(finger: PlainFinger): Map<string, OutputValueRow> {
-  const values = new Map<string, OutputValueRow>();
-  for (const q of FINGER_QUANTITIES) {
-    for (const [part, value] of q.values(finger)) {
-      const quantity = part ? `${q.quantity} · ${part}` : q.quantity;
-      values.set(quantity, { group: finger.name, quantity, unit: q.unit, value });
-    }
-  }
-  return values;
-}
-
-function graspValues(result: PlainSheetResult): OutputValueRow[] {
-  return [
-    { group: 'grasp', quantity: 'grasp map rank', unit: '', value: result.grasp.rank },
-    { group: 'grasp', quantity: 'undrivable object directions', unit: '', value: result.grasp.undrivableCount },
-  ];
-}
-
-/** The main outputs of a result, finger by finger and then the grasp, in the order a reader checks them. */
-export function listOutputs(result: PlainSheetResult): OutputValueRow[] {
-  return [...result.fingers.flatMap((f) => [...fingerValues(f).values()]), ...graspValues(result)];
-}
+const byQuantity = (rows: OutputValueRow[]) => new Map(rows.map((row) => [row.quantity, row]));
 
 /** The main outputs of two results side by side; fingers are matched by name. */
 export function compareOutputs(from: PlainSheetResult, to: PlainSheetResult): OutputDifference[] {
   const rows: OutputDifference[] = [];
   const names = [...from.fingers.map((f) => f.name), ...to.fingers.map((f) => f.name).filter((n) => !from.fingers.some((f) => f.name === n))];
   for (const name of names) {
-    const a = from.fingers.find((f) => f.name === name);
-    const b = to.fingers.find((f) => f.name === name);
-    const left = a ? fingerValues(a) : new Map<string, OutputValueRow>();
-    const right = b ? fingerValues(b) : new Map<string, OutputValueRow>();
+    const a = from.fingers.findIndex((f) => f.name === name);
+    const b = to.fingers.findIndex((f) => f.name === name);
+    const left = byQuantity(a >= 0 ? fingerOutputs(from, a) : []);
+    const right = byQuantity(b >= 0 ? fingerOutputs(to, b) : []);
     const keys = [...left.keys(), ...[...right.keys()].filter((key) => !left.has(key))];
     for (const key of keys) {
       const entry = left.get(key) ?? right.get(key)!;
       rows.push(differenceOf(name, entry.quantity, entry.unit, left.get(key)?.value ?? null, right.get(key)?.value ?? null));
     }
   }
-  const [fromGrasp, toGrasp] = [graspValues(from), graspValues(to)];
+  const [fromGrasp, toGrasp] = [graspOutputs(from), graspOutputs(to)];
   fromGrasp.forEach((row, i) => rows.push(differenceOf('grasp', row.quantity, row.unit, row.value, toGrasp[i].value)));
   return rows;
 }
@@ -263,8 +175,8 @@ export interface Comparison {
 }
 
 function solveStored(inputs: unknown): { result: PlainSheetResult | null; issues: SheetIssue[] } {
-  const parsed = parseSheet(inputs);
-  return parsed.ok ? { result: toPlainResult(solveSheet(parsed.doc)), issues: [] } : { result: null, issues: parsed.issues };
+  const evaluated = evaluateSheet(inputs);
+  return evaluated.ok ? { result: evaluated.value.result, issues: [] } : { result: null, issues: evaluated.error.issues };
 }
 
 /**

@@ -4,13 +4,12 @@
  * syntax, the field path, and its line, for the document).
  */
 import { findNodeAtLocation, parse, parseTree, printParseErrorCode, type Node, type ParseError } from 'jsonc-parser';
-import { solveSheet, toPlainResult } from '../kinematics';
+import { evaluateSheet } from '../sheet/evaluate';
 import { resultsCsv } from '../sheet/results-csv';
-import { parseSheet, SHEET_FORMAT, SHEET_VERSION, type SheetIssue } from '../sheet/schema';
+import { SHEET_FORMAT, SHEET_VERSION, type SheetIssue } from '../sheet/schema';
 import type { SheetDocument } from '../sheet/types';
 import { findOversizedJson, oversizedJsonMessage } from './json-depth';
 import type { SheetSummary, StoredDocument } from '../sheet/summary';
-import { summarizeSheet } from './sheets';
 
 /** Largest sheet file accepted for import (bytes of text). */
 export const MAX_SHEET_FILE_LENGTH = 2_000_000;
@@ -102,16 +101,16 @@ export function readSheetFile(raw: string): ReadSheetFile {
   if (value === null || typeof value !== 'object' || Array.isArray(value)) {
     return { ok: false, stage: 'document', issues: [{ message: 'A sheet file holds one JSON object with "format": "slipless.sheet".', path: '(document)', line: 1, column: 1 }] };
   }
-  const parsed = parseSheet(value);
-  if (!parsed.ok) {
+  const evaluated = evaluateSheet(value);
+  if (!evaluated.ok) {
     const root = parseTree(text);
     return {
       ok: false,
       stage: 'document',
-      issues: parsed.issues.map((issue: SheetIssue) => ({ message: issue.message, path: issue.path, ...locateField(text, root, issue.path) })),
+      issues: evaluated.error.issues.map((issue: SheetIssue) => ({ message: issue.message, path: issue.path, ...locateField(text, root, issue.path) })),
     };
   }
-  return { ok: true, document: value as Record<string, unknown>, doc: parsed.doc, summary: summarizeSheet(parsed.doc) };
+  return { ok: true, document: value as Record<string, unknown>, doc: evaluated.value.doc, summary: evaluated.value.summary };
 }
 
 /** The stored document as a file: the format and version first, then everything as saved. */
@@ -121,9 +120,9 @@ export function exportDocument(inputs: StoredDocument): StoredDocument {
 
 /** The per-finger results of a stored document as CSV, or the document's issues when it no longer reads. */
 export function exportResultsCsv(inputs: unknown): { ok: true; csv: string } | { ok: false; issues: SheetIssue[] } {
-  const parsed = parseSheet(inputs);
-  if (!parsed.ok) return parsed;
-  return { ok: true, csv: `${resultsCsv(parsed.doc, toPlainResult(solveSheet(parsed.doc)))}\n` };
+  const evaluated = evaluateSheet(inputs);
+  if (!evaluated.ok) return { ok: false, issues: evaluated.error.issues };
+  return { ok: true, csv: `${resultsCsv(evaluated.value.doc, evaluated.value.result)}\n` };
 }
 
 /** A plain file name for a revision's download, e.g. "peg-tilt-about-the-grip-line-r3.json". */

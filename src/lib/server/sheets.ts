@@ -3,8 +3,7 @@ import { alias } from 'drizzle-orm/sqlite-core';
 import type { Database, DrizzleDb, Transaction } from '../../db';
 import { fail, succeed, type DomainError, type Result } from '../result';
 import { sheetRevisions, sheets, users, type ReviewState } from '../../db/schema';
-import { solveSheet } from '../kinematics';
-import { parseSheet, type SheetIssue } from '../sheet/schema';
+import { evaluateSheet } from '../sheet/evaluate';
 import type { SheetSummary, StoredDocument } from '../sheet/summary';
 import type { SheetDocument } from '../sheet/types';
 import type { ListRevisionsQuery, ListSheetsQuery } from '../validation/sheets';
@@ -13,24 +12,6 @@ import { documentIssues } from './http';
 import { readSheetFile } from './sheet-files';
 
 export type { SheetSummary };
-
-/** The stored summary of a revision: finger count and its warnings, computed by the kinematics core. */
-export function summarizeSheet(doc: SheetDocument): SheetSummary {
-  const result = solveSheet(doc);
-  return {
-    fingers: doc.hand.fingers.length,
-    worst: result.worstSeverity,
-    warningCodes: [...new Set(result.warnings.map((w) => w.code))].sort(),
-  };
-}
-
-export type ValidatedDocument = { ok: true; doc: SheetDocument; summary: SheetSummary } | { ok: false; issues: SheetIssue[] };
-
-/** Validates a sheet document and computes its summary. */
-export function validateDocument(input: unknown): ValidatedDocument {
-  const parsed = parseSheet(input);
-  return parsed.ok ? { ok: true, doc: parsed.doc, summary: summarizeSheet(parsed.doc) } : parsed;
-}
 
 /** Who does it and from where, for the audit trail. */
 export interface Actor {
@@ -51,11 +32,11 @@ const isStoredDocument = (value: unknown): value is StoredDocument => value !== 
 
 /** The raw document validated with its summary: every stored revision passes through here, and is stored exactly as sent. */
 export function checkDocument(raw: unknown): Result<Checked> {
-  const checked = validateDocument(raw);
-  if (!checked.ok) return fail(documentIssues(checked.issues));
+  const evaluated = evaluateSheet(raw);
+  if (!evaluated.ok) return fail(documentIssues(evaluated.error.issues));
   // A document that validates is an object; the guard only tells the compiler.
   if (!isStoredDocument(raw)) return fail({ kind: 'invalid', message: 'A sheet document is one JSON object.', path: 'document' });
-  return succeed({ doc: checked.doc, summary: checked.summary, stored: raw });
+  return succeed({ doc: evaluated.value.doc, summary: evaluated.value.summary, stored: raw });
 }
 
 /**

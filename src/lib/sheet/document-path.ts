@@ -40,28 +40,57 @@ export function pathText(path: DocumentPath): string {
   return formatIssuePath(path);
 }
 
+export type DocumentChangeKind = 'added' | 'removed' | 'changed';
+
+/** One difference between two documents: added (no `before`), removed (no `after`) or changed. */
 export interface DocumentChange {
   path: (string | number)[];
+  kind: DocumentChangeKind;
   before: unknown;
   after: unknown;
 }
 
-const isRecord = (value: unknown): value is Record<string, unknown> => value !== null && typeof value === 'object' && !Array.isArray(value);
+/**
+ * How arrays are walked. "by-index" compares element by element and lists elements past the
+ * shorter array as added or removed (for reading: which finger or joint came or went).
+ * "whole-when-resized" compares arrays of equal length element by element and counts an array
+ * whose length changed as one change of the whole array, so that every change can be re-applied
+ * with setAt (for rebasing: a removed element cannot be set at its index).
+ */
+export type ArrayRule = 'by-index' | 'whole-when-resized';
+
+/** A JSON object (not null, not an array). */
+export const isRecord = (value: unknown): value is Record<string, unknown> => value !== null && typeof value === 'object' && !Array.isArray(value);
+
+function walk(before: unknown, after: unknown, arrays: ArrayRule, path: (string | number)[], out: DocumentChange[]): void {
+  if (isRecord(before) && isRecord(after)) {
+    const keys = [...Object.keys(before), ...Object.keys(after).filter((key) => !Object.hasOwn(before, key))];
+    for (const key of keys) {
+      if (!Object.hasOwn(after, key)) out.push({ path: [...path, key], kind: 'removed', before: before[key], after: undefined });
+      else if (!Object.hasOwn(before, key)) out.push({ path: [...path, key], kind: 'added', before: undefined, after: after[key] });
+      else walk(before[key], after[key], arrays, [...path, key], out);
+    }
+    return;
+  }
+  if (Array.isArray(before) && Array.isArray(after) && (arrays === 'by-index' || before.length === after.length)) {
+    for (let i = 0; i < Math.max(before.length, after.length); i++) {
+      if (i >= after.length) out.push({ path: [...path, i], kind: 'removed', before: before[i], after: undefined });
+      else if (i >= before.length) out.push({ path: [...path, i], kind: 'added', before: undefined, after: after[i] });
+      else walk(before[i], after[i], arrays, [...path, i], out);
+    }
+    return;
+  }
+  if (!Object.is(before, after)) out.push({ path, kind: 'changed', before, after });
+}
 
 /**
- * Every leaf that differs between two documents. Objects are compared key by key and arrays of
- * equal length element by element; an array whose length changed (a finger or joint added or
- * removed) counts as one change of the whole array.
+ * Every difference between two JSON documents, in document order. Objects are compared key by
+ * key (a key on one side only is added or removed); arrays follow `arrays` (see ArrayRule);
+ * any other two values differ unless Object.is holds.
  */
-export function diffDocuments(before: unknown, after: unknown, path: (string | number)[] = [], out: DocumentChange[] = []): DocumentChange[] {
-  if (isRecord(before) && isRecord(after)) {
-    const keys = new Set([...Object.keys(before), ...Object.keys(after)]);
-    for (const key of keys) diffDocuments(before[key], after[key], [...path, key], out);
-  } else if (Array.isArray(before) && Array.isArray(after) && before.length === after.length) {
-    before.forEach((item, index) => diffDocuments(item, after[index], [...path, index], out));
-  } else if (JSON.stringify(before) !== JSON.stringify(after)) {
-    out.push({ path, before, after });
-  }
+export function diffDocuments(before: unknown, after: unknown, arrays: ArrayRule = 'whole-when-resized'): DocumentChange[] {
+  const out: DocumentChange[] = [];
+  walk(before, after, arrays, [], out);
   return out;
 }
 
@@ -82,7 +111,7 @@ export function rebaseDocument<T>(base: T, mine: T, theirs: T): Rebased<T> {
   const overlapping: DocumentChange[] = [];
   for (const change of diffDocuments(base, mine)) {
     const other = theirChanges.get(pathText(change.path));
-    if (other && JSON.stringify(other.after) !== JSON.stringify(change.after)) overlapping.push({ path: change.path, before: other.after, after: change.after });
+    if (other && JSON.stringify(other.after) !== JSON.stringify(change.after)) overlapping.push({ path: change.path, kind: 'changed', before: other.after, after: change.after });
     document = setAt(document, change.path, change.after);
   }
   return { document, overlapping };

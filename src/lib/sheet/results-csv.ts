@@ -1,9 +1,10 @@
 /**
  * The results of a solved sheet as CSV (RFC 4180): one row per finger with the main outputs,
- * each column's SI unit in its name. Shared by the compute command and the export endpoint so
- * both write the same table.
+ * each column's SI unit in its name, as the output catalogue names them. Shared by the compute
+ * command and the export endpoint so both write the same table.
  */
-import type { PlainSheetResult } from '../kinematics/index';
+import type { PlainSheetResult } from '../kinematics';
+import { OUTPUTS } from './outputs';
 import type { SheetDocument } from './types';
 
 function numberText(value: number): string {
@@ -30,29 +31,30 @@ export function csvTable(header: readonly string[], rows: readonly (readonly unk
   return [header, ...rows].map((row) => row.map(csvCell).join(',')).join('\n');
 }
 
-export const FINGER_COLUMNS = [
-  'finger', 'contact_state', 'gap_m', 'normal_speed_m_s', 'tangential_speed_m_s', 'residual_m_s', 'sigma1_m_rad', 'sigma2_m_rad',
-  'sigma3_m_rad', 'condition_number', 'manipulability', 'steer_base_rate_rad_s', 'steer_pivot_angle_rad', 'steer_roll_rate_rad_s',
-  'steer_residual_m_s', 'warnings',
-];
+const FINGER_CSV = OUTPUTS.flatMap((output) => (output.csv && 'columns' in output.csv ? [{ output, columns: output.csv.columns }] : []));
+const JOINT_CSV = OUTPUTS.flatMap((output) => (output.csv && 'perJoint' in output.csv ? [{ output, column: output.csv.perJoint }] : []));
+
+/** The per-finger columns, from the output catalogue: the finger, its outputs, its warning codes. */
+export const FINGER_COLUMNS = ['finger', ...FINGER_CSV.flatMap((entry) => entry.columns), 'warnings'];
 
 /** One column per joint rate of the full solution, numbered in the sheet's joint order. */
 export function rateColumns(maxJoints: number): string[] {
-  return Array.from({ length: maxJoints }, (_, k) => `rate${k + 1}_rad_s`);
+  return JOINT_CSV.flatMap((entry) => Array.from({ length: maxJoints }, (_, k) => entry.column(k)));
 }
 
 /** One row per finger: FINGER_COLUMNS then the full-solution joint rates, after `prefix`. */
 export function fingerRows(result: PlainSheetResult, maxJoints: number, prefix: readonly unknown[] = []): unknown[][] {
   return result.fingers.map((finger, i) => {
     const codes = result.warnings.filter((w) => w.finger === i).map((w) => w.code);
-    const rates = Array.from({ length: maxJoints }, (_, k) => finger.full.rates[k] ?? '');
-    return [
-      ...prefix,
-      finger.name, finger.contact.state, finger.contact.gap, finger.contact.normalSpeed, finger.contact.tangentialSpeed,
-      finger.full.residualNorm, finger.full.singularValues[0], finger.full.singularValues[1], finger.full.singularValues[2],
-      finger.full.conditionNumber, finger.full.manipulability, finger.steer.baseRate, finger.steer.pivotAngle, finger.steer.rollRate,
-      finger.steer.residualNorm, codes.join(' '), ...rates,
-    ];
+    const values = FINGER_CSV.flatMap(({ output, columns }) => {
+      const value = output.read(result, i);
+      return typeof value === 'object' ? columns.map((_, k) => value[k]) : [value];
+    });
+    const perJoint = JOINT_CSV.flatMap(({ output }) => {
+      const value = output.read(result, i);
+      return Array.from({ length: maxJoints }, (_, k) => (typeof value === 'object' ? (value[k] ?? '') : ''));
+    });
+    return [...prefix, finger.name, ...values, codes.join(' '), ...perJoint];
   });
 }
 

@@ -18,8 +18,8 @@ describe('document paths', () => {
   it('lists the leaves that differ', () => {
     const changed = setAt(setAt(base, ['object', 'pose', 'position', 2], '80 mm'), ['notes'], 'why');
     expect(diffDocuments(base, changed)).toEqual([
-      { path: ['object', 'pose', 'position', 2], before: '90 mm', after: '80 mm' },
-      { path: ['notes'], before: undefined, after: 'why' },
+      { path: ['object', 'pose', 'position', 2], kind: 'changed', before: '90 mm', after: '80 mm' },
+      { path: ['notes'], kind: 'added', before: undefined, after: 'why' },
     ]);
   });
 
@@ -31,6 +31,35 @@ describe('document paths', () => {
     expect(getAt(document, ['title'])).toBe('B');
     expect(getAt(document, ['object', 'pose', 'position', 2])).toBe('80 mm');
     expect(getAt(document, ['hand', 'fingers', 0, 'roller', 'radius'])).toBe('14 mm');
-    expect(overlapping).toEqual([{ path: ['hand', 'fingers', 0, 'roller', 'radius'], before: '13 mm', after: '14 mm' }]);
+    expect(overlapping).toEqual([{ path: ['hand', 'fingers', 0, 'roller', 'radius'], kind: 'changed', before: '13 mm', after: '14 mm' }]);
+  });
+});
+
+describe('diffDocuments array rules', () => {
+  const before = { hand: { fingers: [{ name: 'a' }, { name: 'b' }] }, tags: ['x'] };
+  const after = { hand: { fingers: [{ name: 'a' }, { name: 'c' }, { name: 'd' }] }, tags: ['y'] };
+
+  it('compares resized arrays element by element and lists the extra elements as added or removed, "by-index"', () => {
+    expect(diffDocuments(before, after, 'by-index')).toEqual([
+      { path: ['hand', 'fingers', 1, 'name'], kind: 'changed', before: 'b', after: 'c' },
+      { path: ['hand', 'fingers', 2], kind: 'added', before: undefined, after: { name: 'd' } },
+      { path: ['tags', 0], kind: 'changed', before: 'x', after: 'y' },
+    ]);
+    expect(diffDocuments(after, before, 'by-index')[1]).toEqual({ path: ['hand', 'fingers', 2], kind: 'removed', before: { name: 'd' }, after: undefined });
+  });
+
+  it('counts a resized array as one change of the whole array by default, so that rebasing can set it', () => {
+    expect(diffDocuments(before, after)).toEqual([
+      { path: ['hand', 'fingers'], kind: 'changed', before: before.hand.fingers, after: after.hand.fingers },
+      { path: ['tags', 0], kind: 'changed', before: 'x', after: 'y' },
+    ]);
+    const removed = { ...after, hand: { fingers: [{ name: 'a' }] } };
+    expect(rebaseDocument(before, removed, before).document.hand.fingers).toEqual([{ name: 'a' }]);
+  });
+
+  it('compares leaves with Object.is and keys on one side only as added or removed, in document order', () => {
+    expect(diffDocuments({ a: 1, b: [1, 2], c: null }, { c: null, a: 1, b: [1, 2], d: false })).toEqual([{ path: ['d'], kind: 'added', before: undefined, after: false }]);
+    expect(diffDocuments({ a: { deep: 1 } }, {})).toEqual([{ path: ['a'], kind: 'removed', before: { deep: 1 }, after: undefined }]);
+    expect(diffDocuments({ a: [1] }, { a: { 0: 1 } })).toEqual([{ path: ['a'], kind: 'changed', before: [1], after: { 0: 1 } }]);
   });
 });

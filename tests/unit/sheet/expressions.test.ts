@@ -1,7 +1,6 @@
 import { readFileSync, readdirSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { solveSheet, toPlainResult } from '../../../src/lib/kinematics';
-import { validateDocument } from '../../../src/lib/server/sheets';
+import { evaluateSheet } from '../../../src/lib/sheet/evaluate';
 import { largestSheet } from '../../../src/lib/sheet/largest-sheet';
 import {
   formatVariableValue,
@@ -130,9 +129,9 @@ const examples = readdirSync(exampleDir)
 
 /** Everything the server derives from a document: the parsed SI document, its summary and every result, as JSON text. */
 function resultsOf(document: unknown): string {
-  const checked = validateDocument(document);
-  if (!checked.ok) throw new Error(checked.issues.map((i) => `${i.path}: ${i.message}`).join('; '));
-  return JSON.stringify({ doc: checked.doc, summary: checked.summary, result: toPlainResult(solveSheet(checked.doc)) });
+  const checked = evaluateSheet(document);
+  if (!checked.ok) throw new Error(checked.error.issues.map((i) => `${i.path}: ${i.message}`).join('; '));
+  return JSON.stringify({ doc: checked.value.doc, summary: checked.value.summary, result: checked.value.result });
 }
 
 /** An example sheet whose roller radius is `radius` and whose variables are `variables`. */
@@ -197,12 +196,12 @@ describe('expression sandbox', () => {
   const variablesBaseline = resultsOf(withVariables);
 
   it.each(HOSTILE)('refuses %s in a quantity field and in the variables, and every sheet reads as before', (hostile) => {
-    const inField = validateDocument(exampleWith('rollerRadius = 14 mm', hostile));
+    const inField = evaluateSheet(exampleWith('rollerRadius = 14 mm', hostile));
     expect(inField.ok).toBe(false);
-    if (!inField.ok) expect(inField.issues[0]).toMatchObject({ path: 'hand.fingers[0].roller.radius', message: expect.any(String) });
-    const inVariables = validateDocument(exampleWith(`x = ${hostile}\nrollerRadius = 14 mm`, 'rollerRadius'));
+    if (!inField.ok) expect(inField.error.issues[0]).toMatchObject({ path: 'hand.fingers[0].roller.radius', message: expect.any(String) });
+    const inVariables = evaluateSheet(exampleWith(`x = ${hostile}\nrollerRadius = 14 mm`, 'rollerRadius'));
     expect(inVariables.ok).toBe(false);
-    if (!inVariables.ok) expect(inVariables.issues[0]).toMatchObject({ path: 'variables', line: 1 });
+    if (!inVariables.ok) expect(inVariables.error.issues[0]).toMatchObject({ path: 'variables', line: 1 });
 
     expect(examples.map((doc) => resultsOf(doc))).toEqual(baseline);
     expect(resultsOf(withVariables)).toBe(variablesBaseline);
@@ -258,10 +257,10 @@ describe('expression sandbox', () => {
       const result = parseQuantity(text, 'length');
       expect(result, text).toMatchObject({ ok: false, message: expect.stringContaining('not a finite') });
     }
-    const parsed = validateDocument(exampleWith('bad = sqrt(-1) mm', '14 mm'));
-    expect(parsed).toMatchObject({ ok: false, issues: [{ path: 'variables', line: 1, message: expect.stringContaining('not a finite') }] });
-    const inField = validateDocument(exampleWith('', 'asin(2) * 1 mm'));
-    expect(inField).toMatchObject({ ok: false, issues: [{ path: 'hand.fingers[0].roller.radius', message: expect.stringContaining('not a finite') }] });
+    const parsed = evaluateSheet(exampleWith('bad = sqrt(-1) mm', '14 mm'));
+    expect(parsed).toMatchObject({ ok: false, error: { issues: [{ path: 'variables', line: 1, message: expect.stringContaining('not a finite') }] } });
+    const inField = evaluateSheet(exampleWith('', 'asin(2) * 1 mm'));
+    expect(inField).toMatchObject({ ok: false, error: { issues: [{ path: 'hand.fingers[0].roller.radius', message: expect.stringContaining('not a finite') }] } });
   });
 });
 
@@ -317,15 +316,15 @@ describe('operations of one sheet', () => {
     const line = (i: number) => `v${i} = 1 mm + 1 mm + 1 mm + 1 mm + 1 mm`;
     const lines = (count: number) => Array.from({ length: count }, (_, i) => line(i)).join('\n');
     const fits = Math.floor(MAX_SHEET_OPERATIONS / 19);
-    expect(validateDocument(exampleWith(lines(fits - 10), '14 mm')).ok).toBe(true);
-    const over = validateDocument(exampleWith(lines(fits + 1), '14 mm'));
+    expect(evaluateSheet(exampleWith(lines(fits - 10), '14 mm')).ok).toBe(true);
+    const over = evaluateSheet(exampleWith(lines(fits + 1), '14 mm'));
     expect(over.ok).toBe(false);
-    if (!over.ok) expect(over.issues[0]).toMatchObject({ path: 'variables', line: fits + 1, message: expect.stringContaining(`at most ${MAX_SHEET_OPERATIONS} operations in one sheet`) });
-    const fieldOver = validateDocument(exampleWith(lines(fits), '1 mm + 1 mm + 1 mm + 1 mm + 1 mm'));
+    if (!over.ok) expect(over.error.issues[0]).toMatchObject({ path: 'variables', line: fits + 1, message: expect.stringContaining(`at most ${MAX_SHEET_OPERATIONS} operations in one sheet`) });
+    const fieldOver = evaluateSheet(exampleWith(lines(fits), '1 mm + 1 mm + 1 mm + 1 mm + 1 mm'));
     expect(fieldOver.ok).toBe(false);
-    if (!fieldOver.ok) expect(fieldOver.issues).toContainEqual({ path: 'hand.fingers[0].roller.radius', message: expect.stringContaining(`at most ${MAX_SHEET_OPERATIONS} operations`) });
+    if (!fieldOver.ok) expect(fieldOver.error.issues).toContainEqual({ path: 'hand.fingers[0].roller.radius', message: expect.stringContaining(`at most ${MAX_SHEET_OPERATIONS} operations`) });
 
     const largest = largestSheet(JSON.parse(readFileSync('content/sheets/line4-peg-tilt.json', 'utf8')));
-    expect(validateDocument(largest).ok).toBe(true);
+    expect(evaluateSheet(largest).ok).toBe(true);
   });
 });

@@ -3,8 +3,8 @@
  * numbers put in, as a KaTeX string, so a reader can check it by hand. Built on demand from a
  * finished result, never in the solve loop.
  */
-import type { SheetDocument } from '../sheet/types';
-import type { FingerResult, SheetResult } from './scene';
+import type { FingerResult, SheetResult } from '../kinematics';
+import type { SheetDocument } from './types';
 
 /** One derived number. `latex` is KaTeX: symbolic formula = numbers put in = value. */
 export interface DerivationEntry {

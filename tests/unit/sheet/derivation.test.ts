@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import katex from 'katex';
-import { deriveSheet, formatLatexNumber } from '../../../src/lib/kinematics/derivation';
-import { solveSheet } from '../../../src/lib/kinematics/scene';
-import { threeFingerSheet } from './three-finger-sheet';
+import { deriveSheet, formatLatexNumber } from '../../../src/lib/sheet/derivation';
+import { solveSheet } from '../../../src/lib/kinematics';
+import { threeFingerSheet } from '../kinematics/three-finger-sheet';
 
 describe('formatLatexNumber', () => {
   it('writes four significant digits and powers of ten outside [1e-3, 1e4)', () => {

@@ -1,0 +1,67 @@
+/**
+ * The one evaluation pipeline of a sheet document: parse (units, expressions, defaults) → solve
+ * with the kinematics core → JSON-ready result → stored summary → derivation when asked. The
+ * compute worker, the sheet service, file import and export, the comparison, the report and the
+ * compute command all call it, so a sheet reads and solves the same way everywhere.
+ */
+import { solveSheet, toPlainResult, type PlainSheetResult, type SheetResult } from '../kinematics';
+import { fail, succeed, type DomainError, type Result } from '../result';
+import { deriveSheet, type DerivationEntry } from './derivation';
+import { formatIssuePath, parseSheet, type SheetIssue } from './schema';
+import type { SheetSummary } from './summary';
+import type { SheetDocument } from './types';
+
+/** A document that read and solved: the SI document, the JSON-ready result and its stored summary. */
+export interface SheetEvaluation {
+  doc: SheetDocument;
+  result: PlainSheetResult;
+  summary: SheetSummary;
+}
+
+/** An evaluation with the derivation of every reported number. */
+export interface DerivedSheetEvaluation extends SheetEvaluation {
+  derivation: DerivationEntry[];
+}
+
+/**
+ * Why a document has no results: it does not read as a sheet (stage "document", every located
+ * issue), or the core failed on it (stage "solve", one issue at the document's root).
+ */
+export interface EvaluationError extends DomainError {
+  kind: 'invalid';
+  stage: 'document' | 'solve';
+  issues: SheetIssue[];
+}
+
+export interface EvaluateOptions {
+  /** Also build the derivation (KaTeX formulas with the numbers put in); off by default, it is large. */
+  derive?: boolean;
+}
+
+/** The stored summary of a solved sheet: finger count, worst warning severity and the sorted distinct warning codes. */
+function summarize(doc: SheetDocument, result: SheetResult): SheetSummary {
+  return {
+    fingers: doc.hand.fingers.length,
+    worst: result.worstSeverity,
+    warningCodes: [...new Set(result.warnings.map((w) => w.code))].sort(),
+  };
+}
+
+/** Reads, solves and summarises a sheet document as written, and derives it when asked; never throws for a bad document. */
+export function evaluateSheet(input: unknown, options: EvaluateOptions & { derive: true }): Result<DerivedSheetEvaluation, EvaluationError>;
+export function evaluateSheet(input: unknown, options?: EvaluateOptions): Result<SheetEvaluation, EvaluationError>;
+export function evaluateSheet(input: unknown, options: EvaluateOptions = {}): Result<SheetEvaluation | DerivedSheetEvaluation, EvaluationError> {
+  const parsed = parseSheet(input);
+  if (!parsed.ok) {
+    return fail({ kind: 'invalid', stage: 'document', message: parsed.issues[0]?.message ?? 'Invalid sheet document.', issues: parsed.issues });
+  }
+  const doc = parsed.doc;
+  try {
+    const solved = solveSheet(doc);
+    const evaluation: SheetEvaluation = { doc, result: toPlainResult(solved), summary: summarize(doc, solved) };
+    return succeed(options.derive ? { ...evaluation, derivation: deriveSheet(doc, solved) } : evaluation);
+  } catch (error) {
+    const message = `the sheet could not be solved: ${error instanceof Error ? error.message : String(error)}`;
+    return fail({ kind: 'invalid', stage: 'solve', message, issues: [{ path: formatIssuePath([]), message }] });
+  }
+}

@@ -1,0 +1,238 @@
+/**
+ * The output catalogue: every reported number of a solved sheet declared once, with its labels,
+ * SI unit, display unit, frame and how to read it from a PlainSheetResult. The editor's results
+ * table, the CSV export, the revision comparison and the report all read it; a leaf module the
+ * browser may import.
+ */
+import type { PlainSheetResult } from '../kinematics';
+
+export type OutputValue = number | string;
+
+/** Whose output it is: one per finger, one per joint of a finger, or one for the whole grasp. */
+export type OutputScope = 'finger' | 'joint' | 'grasp';
+
+/** The frame a vector output is expressed in: the palm (world) frame, as every vector the core reports; null for scalars. */
+export type OutputFrame = 'palm' | null;
+
+/** How a multi-valued output is split into named parts when listed value by value. */
+export type OutputParts = 'single' | 'xyz' | 'joints' | 'singular-values';
+
+/** How the editor shows a value: its unit, significant digits and the conversion from SI. */
+export interface OutputDisplay {
+  unit: string;
+  digits: number;
+  fromSI: (si: number) => number;
+}
+
+/** Where the CSV export writes an output: one named column per part, or one numbered column per joint. */
+export type OutputCsv = { columns: readonly string[] } | { perJoint: (joint: number) => string };
+
+export interface OutputDefinition {
+  /** Stable id; the results table marks cells `${finger}.${id}` and derivation ids end the same way. */
+  id: string;
+  /** As the report and the comparison list it. */
+  label: string;
+  /** As the editor's results table labels it, when it differs from `label`. */
+  tableLabel?: string;
+  /** SI unit ('' for counts, ratios and text). */
+  unit: string;
+  display: OutputDisplay;
+  frame: OutputFrame;
+  scope: OutputScope;
+  parts: OutputParts;
+  /** Listed in the report and compared between revisions. */
+  compared: boolean;
+  csv?: OutputCsv;
+  /** The value in SI: a number or text, or one number per part. */
+  read: (result: PlainSheetResult, finger: number) => OutputValue | readonly number[];
+}
+
+const same = (si: number) => si;
+const milli = (si: number) => si * 1000;
+const degrees = (si: number) => (si * 180) / Math.PI;
+
+const unitless = (digits = 4): OutputDisplay => ({ unit: '', digits, fromSI: same });
+const shown = (unit: string, fromSI = same, digits = 4): OutputDisplay => ({ unit, digits, fromSI });
+
+/**
+ * Every output, per finger in the order a reader checks them (the order of the report, the
+ * comparison and the CSV columns), then the grasp.
+ */
+export const OUTPUTS: readonly OutputDefinition[] = [
+  {
+    id: 'contact.state', label: 'contact state', unit: '', display: unitless(), frame: null, scope: 'finger', parts: 'single', compared: true,
+    csv: { columns: ['contact_state'] }, read: (r, i) => r.fingers[i].contact.state,
+  },
+  {
+    id: 'contact.gap', label: 'gap', unit: 'm', display: shown('mm', milli), frame: null, scope: 'finger', parts: 'single', compared: true,
+    csv: { columns: ['gap_m'] }, read: (r, i) => r.fingers[i].contact.gap,
+  },
+  {
+    id: 'contact.objectPoint', label: 'contact point', tableLabel: 'contact point x', unit: 'm', display: shown('mm', milli), frame: 'palm', scope: 'finger',
+    parts: 'xyz', compared: true, read: (r, i) => r.fingers[i].contact.objectPoint,
+  },
+  {
+    id: 'contact.normal', label: 'contact normal', tableLabel: 'normal n', unit: '', display: shown('1', same, 3), frame: 'palm', scope: 'finger',
+    parts: 'xyz', compared: true, read: (r, i) => r.fingers[i].contact.normal,
+  },
+  {
+    id: 'contact.normalSpeed', label: 'normal speed', tableLabel: 'normal velocity', unit: 'm/s', display: shown('mm/s', milli), frame: null,
+    scope: 'finger', parts: 'single', compared: true, csv: { columns: ['normal_speed_m_s'] }, read: (r, i) => r.fingers[i].contact.normalSpeed,
+  },
+  {
+    id: 'contact.tangentialSpeed', label: 'tangential speed', unit: 'm/s', display: shown('mm/s', milli), frame: null, scope: 'finger', parts: 'single',
+    compared: true, csv: { columns: ['tangential_speed_m_s'] }, read: (r, i) => r.fingers[i].contact.tangentialSpeed,
+  },
+  {
+    id: 'full.rates', label: 'joint rate (full)', tableLabel: 'full', unit: 'rad/s', display: shown('rad/s'), frame: null, scope: 'joint', parts: 'joints',
+    compared: true, csv: { perJoint: (k) => `rate${k + 1}_rad_s` }, read: (r, i) => r.fingers[i].full.rates,
+  },
+  {
+    id: 'full.residual', label: 'slip residual (full)', tableLabel: 'full: slip residual', unit: 'm/s', display: shown('mm/s', milli), frame: null,
+    scope: 'finger', parts: 'single', compared: true, csv: { columns: ['residual_m_s'] }, read: (r, i) => r.fingers[i].full.residualNorm,
+  },
+  {
+    id: 'full.singularValues', label: 'singular value', unit: 'm/rad', display: shown('m/rad', same, 3), frame: null, scope: 'finger',
+    parts: 'singular-values', compared: true, csv: { columns: ['sigma1_m_rad', 'sigma2_m_rad', 'sigma3_m_rad'] },
+    read: (r, i) => r.fingers[i].full.singularValues,
+  },
+  {
+    id: 'full.conditionNumber', label: 'condition number', unit: '', display: unitless(3), frame: null, scope: 'finger', parts: 'single', compared: true,
+    csv: { columns: ['condition_number'] }, read: (r, i) => r.fingers[i].full.conditionNumber,
+  },
+  {
+    id: 'full.manipulability', label: 'manipulability', unit: '', display: unitless(3), frame: null, scope: 'finger', parts: 'single', compared: true,
+    csv: { columns: ['manipulability'] }, read: (r, i) => r.fingers[i].full.manipulability,
+  },
+  {
+    id: 'steer.baseRate', label: 'base rate (steer-and-roll)', tableLabel: 'steer: base rate', unit: 'rad/s', display: shown('rad/s'), frame: null,
+    scope: 'finger', parts: 'single', compared: true, csv: { columns: ['steer_base_rate_rad_s'] }, read: (r, i) => r.fingers[i].steer.baseRate,
+  },
+  {
+    id: 'steer.pivotAngle', label: 'pivot angle (steer-and-roll)', tableLabel: 'steer: pivot angle', unit: 'rad', display: shown('deg', degrees),
+    frame: null, scope: 'finger', parts: 'single', compared: true, csv: { columns: ['steer_pivot_angle_rad'] },
+    read: (r, i) => r.fingers[i].steer.pivotAngle,
+  },
+  {
+    id: 'steer.rollRate', label: 'roll rate (steer-and-roll)', tableLabel: 'steer: roll rate', unit: 'rad/s', display: shown('rad/s'), frame: null,
+    scope: 'finger', parts: 'single', compared: true, csv: { columns: ['steer_roll_rate_rad_s'] }, read: (r, i) => r.fingers[i].steer.rollRate,
+  },
+  {
+    id: 'steer.residual', label: 'slip residual (steer-and-roll)', unit: 'm/s', display: shown('mm/s', milli), frame: null, scope: 'finger',
+    parts: 'single', compared: true, csv: { columns: ['steer_residual_m_s'] }, read: (r, i) => r.fingers[i].steer.residualNorm,
+  },
+  {
+    id: 'contact.tangentialVelocity', label: 'tangential velocity', unit: 'm/s', display: shown('mm/s', milli), frame: 'palm', scope: 'finger',
+    parts: 'xyz', compared: false, read: (r, i) => r.fingers[i].contact.tangentialVelocity,
+  },
+  {
+    id: 'steer.rateDifferenceNorm', label: 'steer − full, |Δ rates|', unit: 'rad/s', display: shown('rad/s'), frame: null, scope: 'finger',
+    parts: 'single', compared: false, read: (r, i) => r.fingers[i].steer.rateDifferenceNorm,
+  },
+  {
+    id: 'steer.conditionBefore', label: 'condition before steering', unit: '', display: shown('1', same, 3), frame: null, scope: 'finger',
+    parts: 'single', compared: false, read: (r, i) => r.fingers[i].steer.conditionBefore,
+  },
+  {
+    id: 'steer.conditionAfter', label: 'condition after steering', unit: '', display: shown('1', same, 3), frame: null, scope: 'finger',
+    parts: 'single', compared: false, read: (r, i) => r.fingers[i].steer.conditionAfter,
+  },
+  {
+    id: 'jointAngles', label: 'joint angle', tableLabel: 'angle, deg', unit: 'rad', display: shown('deg', degrees), frame: null, scope: 'joint',
+    parts: 'joints', compared: false, read: (r, i) => r.fingers[i].jointAngles,
+  },
+  {
+    id: 'steer.rates', label: 'joint rate (steer-and-roll)', tableLabel: 'steer-and-roll', unit: 'rad/s', display: shown('rad/s'), frame: null,
+    scope: 'joint', parts: 'joints', compared: false, read: (r, i) => r.fingers[i].steer.rates,
+  },
+  {
+    id: 'steer.rateDifference', label: 'joint rate difference (steer-and-roll − full)', tableLabel: 'difference', unit: 'rad/s', display: shown('rad/s'),
+    frame: null, scope: 'joint', parts: 'joints', compared: false, read: (r, i) => r.fingers[i].steer.rateDifference,
+  },
+  {
+    id: 'grasp.contacts', label: 'contacts', unit: '', display: unitless(), frame: null, scope: 'grasp', parts: 'single', compared: false,
+    read: (r) => r.grasp.contactCount,
+  },
+  {
+    id: 'grasp.rank', label: 'grasp map rank', tableLabel: 'rank of the contact map', unit: '', display: shown('of 6'), frame: null, scope: 'grasp',
+    parts: 'single', compared: true, read: (r) => r.grasp.rank,
+  },
+  {
+    id: 'grasp.undrivable', label: 'undrivable object directions', tableLabel: 'undrivable directions', unit: '', display: unitless(), frame: null,
+    scope: 'grasp', parts: 'single', compared: true, read: (r) => r.grasp.undrivableCount,
+  },
+];
+
+const BY_ID = new Map(OUTPUTS.map((output) => [output.id, output]));
+
+/** The catalogue entry with this id; throws on an unknown id, which is a programming error. */
+export function findOutput(id: string): OutputDefinition {
+  const found = BY_ID.get(id);
+  if (!found) throw new Error(`no output "${id}" in the catalogue`);
+  return found;
+}
+
+/** A number as the editor shows it: significant digits, "—" for NaN, ∞ symbols, and no negative zero. */
+export function formatShownNumber(x: number, digits = 4): string {
+  if (Number.isNaN(x)) return '—';
+  if (!Number.isFinite(x)) return x > 0 ? '∞' : '−∞';
+  const rounded = Number(x.toPrecision(digits));
+  return String(Object.is(rounded, -0) ? 0 : rounded);
+}
+
+/** One SI number of an output in its display unit, as text. */
+export function displayNumber(definition: OutputDefinition, si: number): string {
+  return formatShownNumber(definition.display.fromSI(si), definition.display.digits);
+}
+
+/** An output's value in its display unit, as text: vectors in parentheses, text as it is. */
+export function displayValue(definition: OutputDefinition, value: OutputValue | readonly number[]): string {
+  if (typeof value === 'string') return value;
+  if (typeof value === 'number') return displayNumber(definition, value);
+  return `(${value.map((x) => displayNumber(definition, x)).join(', ')})`;
+}
+
+const XYZ = ['x', 'y', 'z'];
+
+function partName(definition: OutputDefinition, result: PlainSheetResult, finger: number, part: number): string {
+  switch (definition.parts) {
+    case 'single':
+      return '';
+    case 'xyz':
+      return XYZ[part] ?? String(part);
+    case 'joints':
+      return result.fingers[finger].jointNames[part] ?? `joint ${part + 1}`;
+    case 'singular-values':
+      return `σ${part + 1}`;
+  }
+}
+
+/** One reported output value of a result: the finger (or "grasp"), what it is, its SI unit and value. */
+export interface OutputValueRow {
+  group: string;
+  quantity: string;
+  unit: string;
+  value: OutputValue;
+}
+
+function valueRows(definition: OutputDefinition, result: PlainSheetResult, finger: number, group: string): OutputValueRow[] {
+  const value = definition.read(result, finger);
+  const parts: [string, OutputValue][] = typeof value === 'object' ? value.map((v, k) => [partName(definition, result, finger, k), v]) : [['', value]];
+  return parts.map(([part, v]) => ({ group, quantity: part ? `${definition.label} · ${part}` : definition.label, unit: definition.unit, value: v }));
+}
+
+/** The compared outputs of one finger, part by part (e.g. "contact point · x"), in catalogue order. */
+export function fingerOutputs(result: PlainSheetResult, finger: number): OutputValueRow[] {
+  const name = result.fingers[finger].name;
+  return OUTPUTS.filter((o) => o.compared && o.scope !== 'grasp').flatMap((o) => valueRows(o, result, finger, name));
+}
+
+/** The compared outputs of the grasp, in catalogue order. */
+export function graspOutputs(result: PlainSheetResult): OutputValueRow[] {
+  return OUTPUTS.filter((o) => o.compared && o.scope === 'grasp').flatMap((o) => valueRows(o, result, -1, 'grasp'));
+}
+
+/** The main outputs of a result, finger by finger and then the grasp, in the order a reader checks them. */
+export function listOutputs(result: PlainSheetResult): OutputValueRow[] {
+  return [...result.fingers.flatMap((_, i) => fingerOutputs(result, i)), ...graspOutputs(result)];
+}

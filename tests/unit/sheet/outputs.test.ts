@@ -1,0 +1,88 @@
+import { readFileSync } from 'node:fs';
+import { createElement } from 'react';
+import { renderToStaticMarkup } from 'react-dom/server';
+import { describe, expect, it } from 'vitest';
+import ResultsSection from '../../../src/components/sheet/ResultsSection';
+import { compareOutputs } from '../../../src/lib/server/compare';
+import { evaluateSheet } from '../../../src/lib/sheet/evaluate';
+import { displayValue, findOutput, listOutputs, OUTPUTS } from '../../../src/lib/sheet/outputs';
+import { FINGER_COLUMNS, fingerRows, rateColumns, resultsCsv } from '../../../src/lib/sheet/results-csv';
+
+const evaluated = evaluateSheet(JSON.parse(readFileSync(new URL('../../../content/sheets/line4-bearing-housing-quarter-turn.json', import.meta.url), 'utf8')));
+if (!evaluated.ok) throw new Error(evaluated.error.message);
+const { doc, result } = evaluated.value;
+const first = result.fingers[0];
+
+describe('the output catalogue', () => {
+  it('declares every output once, each with an SI unit, a display unit, a frame and a scope', () => {
+    expect(new Set(OUTPUTS.map((o) => o.id)).size).toBe(OUTPUTS.length);
+    for (const o of OUTPUTS) {
+      expect(['finger', 'joint', 'grasp']).toContain(o.scope);
+      expect(['palm', null]).toContain(o.frame);
+      expect(typeof o.unit).toBe('string');
+      expect(typeof o.display.unit).toBe('string');
+      if (o.parts === 'xyz') expect(o.frame, o.id).not.toBeNull();
+    }
+    expect(() => findOutput('nothing')).toThrow(/no output "nothing"/);
+  });
+
+  it('converts to display units: m to mm, rad to degrees, unitless as they are', () => {
+    expect(displayValue(findOutput('contact.gap'), 0.0012346)).toBe('1.235');
+    expect(displayValue(findOutput('steer.pivotAngle'), Math.PI / 2)).toBe('90');
+    expect(displayValue(findOutput('contact.normal'), [0, -0.00001, 1])).toBe('(0, -0.00001, 1)');
+    expect(displayValue(findOutput('contact.state'), 'touching')).toBe('touching');
+    expect(displayValue(findOutput('full.rates'), [Number.NaN, Infinity, -Infinity])).toBe('(—, ∞, −∞)');
+  });
+});
+
+describe('the surfaces that read the catalogue', () => {
+  it('writes the CSV columns as before: the finger, its outputs in SI, its warnings, then one rate column per joint', () => {
+    expect(FINGER_COLUMNS).toEqual([
+      'finger', 'contact_state', 'gap_m', 'normal_speed_m_s', 'tangential_speed_m_s', 'residual_m_s', 'sigma1_m_rad', 'sigma2_m_rad',
+      'sigma3_m_rad', 'condition_number', 'manipulability', 'steer_base_rate_rad_s', 'steer_pivot_angle_rad', 'steer_roll_rate_rad_s',
+      'steer_residual_m_s', 'warnings',
+    ]);
+    expect(rateColumns(3)).toEqual(['rate1_rad_s', 'rate2_rad_s', 'rate3_rad_s']);
+    const codes = result.warnings.filter((w) => w.finger === 0).map((w) => w.code).join(' ');
+    expect(fingerRows(result, 4, ['x'])[0]).toEqual([
+      'x', first.name, first.contact.state, first.contact.gap, first.contact.normalSpeed, first.contact.tangentialSpeed, first.full.residualNorm,
+      ...first.full.singularValues, first.full.conditionNumber, first.full.manipulability, first.steer.baseRate, first.steer.pivotAngle,
+      first.steer.rollRate, first.steer.residualNorm, codes, ...Array.from({ length: 4 }, (_, k) => first.full.rates[k] ?? ''),
+    ]);
+    expect(resultsCsv(doc, result).split('\n')).toHaveLength(result.fingers.length + 1);
+  });
+
+  it('lists a finger for the report and the comparison with the same quantities and SI units as before', () => {
+    const rows = listOutputs(result).filter((row) => row.group === first.name);
+    const xyz = (name: string) => ['x', 'y', 'z'].map((c) => `${name} · ${c}`);
+    expect(rows.map((row) => row.quantity)).toEqual([
+      'contact state', 'gap', ...xyz('contact point'), ...xyz('contact normal'), 'normal speed', 'tangential speed',
+      ...first.jointNames.map((joint) => `joint rate (full) · ${joint}`), 'slip residual (full)', 'singular value · σ1', 'singular value · σ2',
+      'singular value · σ3', 'condition number', 'manipulability', 'base rate (steer-and-roll)', 'pivot angle (steer-and-roll)',
+      'roll rate (steer-and-roll)', 'slip residual (steer-and-roll)',
+    ]);
+    expect(rows.find((row) => row.quantity === 'gap')).toEqual({ group: first.name, quantity: 'gap', unit: 'm', value: first.contact.gap });
+    expect(rows.find((row) => row.quantity === 'singular value · σ2')?.unit).toBe('m/rad');
+    expect(listOutputs(result).filter((row) => row.group === 'grasp')).toEqual([
+      { group: 'grasp', quantity: 'grasp map rank', unit: '', value: result.grasp.rank },
+      { group: 'grasp', quantity: 'undrivable object directions', unit: '', value: result.grasp.undrivableCount },
+    ]);
+    expect(compareOutputs(result, result).map((row) => [row.group, row.quantity, row.unit])).toEqual(
+      listOutputs(result).map((row) => [row.group, row.quantity, row.unit]),
+    );
+  });
+
+  it('labels the editor results table as before, with display units', () => {
+    const html = renderToStaticMarkup(createElement(ResultsSection, { result, stale: false }));
+    const labels = [...html.matchAll(/<th scope="row"[^>]*>([^<]*)<\/th>/g)].map((m) => m[1]);
+    const perContact = [
+      'contact point x', 'normal n', 'gap', 'normal velocity', 'tangential velocity', 'tangential speed', 'steer: base rate', 'steer: pivot angle',
+      'steer: roll rate', 'steer − full, |Δ rates|', 'condition before / after steering', 'full: slip residual',
+    ];
+    expect(labels).toEqual([...result.fingers.flatMap(() => perContact), 'contacts', 'rank of the contact map', 'undrivable directions']);
+    expect(html).toContain('<th class="py-1 text-right font-normal">angle, deg</th><th class="py-1 text-right font-normal">full</th>');
+    expect(html).toContain(`data-result="0.contact.gap">${displayValue(findOutput('contact.gap'), first.contact.gap)}</td><td class="py-0.5 text-xs text-graphite">mm</td>`);
+    expect(html).toContain(`data-result="0.full.rates.0">${displayValue(findOutput('full.rates'), first.full.rates[0])}</td>`);
+    expect(html).toContain('data-result="grasp.rank">');
+  });
+});
