@@ -1,4 +1,4 @@
-import { useState, type FormEvent } from 'react';
+import { useState, type SubmitEvent } from 'react';
 import { postAuthForm } from '../lib/client/api';
 import { useZodForm } from '../lib/client/use-zod-form';
 import { emailLinkSchema, passwordSignInSchema } from '../lib/validation/auth';
@@ -33,7 +33,7 @@ export default function SignInForm({ callbackUrl, initialError }: { callbackUrl:
   const busy = password.submitting || link.submitting;
   const formError = errors.form ?? initialMessage;
   // The error the page opened with (from a failed link or callback) gives way to the next attempt's.
-  const clearingInitial = (submit: (event: FormEvent<HTMLFormElement>) => Promise<void>) => (event: FormEvent<HTMLFormElement>) => {
+  const clearingInitial = (submit: (event: SubmitEvent<HTMLFormElement>) => Promise<void>) => (event: SubmitEvent<HTMLFormElement>) => {
     setInitialMessage(undefined);
     return submit(event);
   };

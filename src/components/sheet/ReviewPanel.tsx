@@ -1,5 +1,5 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import { useState, type FormEvent } from 'react';
+import { useState, type SubmitEvent } from 'react';
 import QueryRoot from '../QueryRoot';
 import { requestJson } from '../../lib/client/api';
 import type { ReviewThread, SheetComment, Verdict, Wire } from '../../lib/contract';
@@ -44,7 +44,7 @@ function Thread({ sheetId, revision, canComment, canReview }: ReviewPanelProps) 
     onError: (e: Error) => setError(e.message),
   });
 
-  function submit(event: FormEvent<HTMLFormElement>) {
+  function submit(event: SubmitEvent<HTMLFormElement>) {
     event.preventDefault();
     setError(null);
     if (!text.trim()) {
