@@ -1,7 +1,8 @@
-import { useState, type SubmitEvent } from 'react';
-import { requestJson, fieldErrors, serverErrors } from '../lib/client/api';
-import { signInWithPassword } from '../lib/client/sign-in';
+import { useState } from 'react';
+import { requestJson, signInWithPassword } from '../lib/client/api';
+import { useZodForm } from '../lib/client/use-zod-form';
 import { newAccountSchema } from '../lib/validation/invitations';
+import { z } from '../lib/validation/zod';
 import { FieldError, FormError, inputClass, labelClass, NewPasswordField, primaryButton } from './form-parts';
 
 interface Props {
@@ -14,43 +15,29 @@ interface Props {
   signedInAs: string | null;
 }
 
-type Errors = Partial<Record<'name' | 'password' | 'form', string>>;
+/** An existing account joins with nothing to fill in. */
+const joinSchema = z.object({});
 
 export default function AcceptInvitationForm({ token, email, teamName, hasAccount, signedInAs }: Props) {
-  const [errors, setErrors] = useState<Errors>({});
-  const [busy, setBusy] = useState(false);
   const [joined, setJoined] = useState(false);
-
-  async function submit(event: SubmitEvent<HTMLFormElement>) {
-    event.preventDefault();
-    let account: { name: string; password: string } | undefined;
-    if (!hasAccount) {
-      const parsed = newAccountSchema.safeParse(Object.fromEntries(new FormData(event.currentTarget)));
-      if (!parsed.success) {
-        setErrors(fieldErrors(parsed.error.issues));
-        return;
-      }
-      account = parsed.data;
-    }
-    setBusy(true);
-    setErrors({});
-    try {
+  const accept = useZodForm({
+    schema: hasAccount ? joinSchema : newAccountSchema,
+    fields: ['name', 'password'],
+    submit: async (account: { name?: string; password?: string }) => {
       await requestJson('/api/invitations/accept', { method: 'POST', body: { token, ...account } });
-    } catch (error) {
-      setErrors(serverErrors(error, ['name', 'password']));
-      setBusy(false);
-      return;
-    }
-    if (account) {
-      const { url, error } = await signInWithPassword(email, account.password, '/');
-      window.location.href = error ? '/sign-in' : url;
-    } else if (signedInAs === email) {
-      window.location.href = '/';
-    } else {
-      setJoined(true);
-      setBusy(false);
-    }
-  }
+      if (account.password) {
+        const { url, error } = await signInWithPassword(email, account.password, '/');
+        window.location.href = error ? '/sign-in' : url;
+      } else if (signedInAs === email) {
+        window.location.href = '/';
+      } else {
+        setJoined(true);
+      }
+    },
+  });
+  const { errors } = accept;
+  // After a successful accept the page is navigating away: the button stays disabled.
+  const busy = accept.submitting || accept.succeeded;
 
   if (joined) {
     return (
@@ -61,7 +48,7 @@ export default function AcceptInvitationForm({ token, email, teamName, hasAccoun
   }
 
   return (
-    <form onSubmit={submit} noValidate className="space-y-4" aria-label="Accept the invitation">
+    <form onSubmit={accept.onSubmit} noValidate className="space-y-4" aria-label="Accept the invitation">
       {hasAccount ? (
         <p className="text-sm text-graphite">
           {email} already has a Slipless account; accepting adds {teamName} to it.

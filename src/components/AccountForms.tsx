@@ -1,10 +1,8 @@
-import { useMutation } from '@tanstack/react-query';
-import { useState, type FormEvent } from 'react';
-import { fieldErrors, requestJson, serverErrors } from '../lib/client/api';
-import { changePasswordSchema, type ChangePasswordInput } from '../lib/validation/account';
+import { requestJson } from '../lib/client/api';
+import { useZodForm } from '../lib/client/use-zod-form';
+import { changePasswordSchema } from '../lib/validation/account';
 import { switchTeamSchema } from '../lib/validation/team';
 import { FieldError, FormError, inputClass, labelClass, NewPasswordField, primaryButton } from './form-parts';
-import QueryRoot from './QueryRoot';
 
 interface TeamChoice {
   teamId: string;
@@ -12,22 +10,19 @@ interface TeamChoice {
   role: string;
 }
 
-function Switcher({ teams, currentTeamId }: { teams: TeamChoice[]; currentTeamId: string | null }) {
-  const [errors, setErrors] = useState<Record<string, string>>({});
-  const switchTeam = useMutation({
-    mutationFn: (input: { teamId: string }) => requestJson('/api/me/team', { method: 'PUT', body: input }),
-    onSuccess: () => window.location.reload(),
-    onError: (error) => setErrors(serverErrors(error, ['teamId'])),
+/** Chooses the team the signed-in user works in. */
+export function TeamSwitcher({ teams, currentTeamId }: { teams: TeamChoice[]; currentTeamId: string | null }) {
+  const switchTeam = useZodForm({
+    schema: switchTeamSchema,
+    fields: ['teamId'],
+    submit: async (input) => {
+      await requestJson('/api/me/team', { method: 'PUT', body: input });
+      window.location.reload();
+    },
   });
-  function submit(event: FormEvent<HTMLFormElement>) {
-    event.preventDefault();
-    const parsed = switchTeamSchema.safeParse(Object.fromEntries(new FormData(event.currentTarget)));
-    if (!parsed.success) return setErrors(fieldErrors(parsed.error.issues));
-    setErrors({});
-    switchTeam.mutate(parsed.data);
-  }
+  const { errors } = switchTeam;
   return (
-    <form onSubmit={submit} noValidate className="flex flex-wrap gap-3 items-start" aria-label="Switch team">
+    <form onSubmit={switchTeam.onSubmit} noValidate className="flex flex-wrap gap-3 items-start" aria-label="Switch team">
       <label className={labelClass + ' grow'}>
         Work in
         <select name="teamId" defaultValue={currentTeamId ?? undefined} className={inputClass} aria-invalid={!!errors.teamId} aria-describedby="switch-team-error">
@@ -40,37 +35,27 @@ function Switcher({ teams, currentTeamId }: { teams: TeamChoice[]; currentTeamId
         <FieldError id="switch-team-error" message={errors.teamId ?? errors.form} />
       </label>
       <div className="pt-6">
-        <button disabled={switchTeam.isPending} className={primaryButton}>
-          {switchTeam.isPending ? 'Switching…' : 'Switch'}
+        <button disabled={switchTeam.submitting} className={primaryButton}>
+          {switchTeam.submitting ? 'Switching…' : 'Switch'}
         </button>
       </div>
     </form>
   );
 }
 
-function PasswordForm() {
-  const [errors, setErrors] = useState<Record<string, string>>({});
-  const [done, setDone] = useState(false);
-  const change = useMutation({
-    mutationFn: (input: ChangePasswordInput) => requestJson('/api/account/password', { method: 'POST', body: input }),
-    onError: (error) => setErrors(serverErrors(error, ['currentPassword', 'newPassword'])),
+/** Changes the signed-in user's password (which signs out every session). */
+export function PasswordChange() {
+  const change = useZodForm({
+    schema: changePasswordSchema,
+    fields: ['currentPassword', 'newPassword'],
+    submit: async (input, form) => {
+      await requestJson('/api/account/password', { method: 'POST', body: input });
+      form.reset();
+    },
   });
-  function submit(event: FormEvent<HTMLFormElement>) {
-    event.preventDefault();
-    const form = event.currentTarget;
-    setDone(false);
-    const parsed = changePasswordSchema.safeParse(Object.fromEntries(new FormData(form)));
-    if (!parsed.success) return setErrors(fieldErrors(parsed.error.issues));
-    setErrors({});
-    change.mutate(parsed.data, {
-      onSuccess: () => {
-        form.reset();
-        setDone(true);
-      },
-    });
-  }
+  const { errors } = change;
   return (
-    <form onSubmit={submit} noValidate className="space-y-4 max-w-md" aria-label="Change password">
+    <form onSubmit={change.onSubmit} noValidate className="space-y-4 max-w-md" aria-label="Change password">
       <label className={labelClass}>
         Current password
         <input name="currentPassword" type="password" autoComplete="current-password" className={inputClass} aria-invalid={!!errors.currentPassword} aria-describedby="current-password-error" />
@@ -78,7 +63,7 @@ function PasswordForm() {
       </label>
       <NewPasswordField label="New password" name="newPassword" error={errors.newPassword} />
       <FormError message={errors.form} />
-      {done && (
+      {change.succeeded && (
         <p className="text-sm text-verdigris-deep" role="status">
           Password changed. Every session has been signed out, this one included:{' '}
           <a href="/sign-in" className="underline">
@@ -87,25 +72,9 @@ function PasswordForm() {
           with the new password. API tokens keep working; revoke them on the tokens page if they may be exposed.
         </p>
       )}
-      <button disabled={change.isPending} className={primaryButton}>
-        {change.isPending ? 'Changing…' : 'Change password'}
+      <button disabled={change.submitting} className={primaryButton}>
+        {change.submitting ? 'Changing…' : 'Change password'}
       </button>
     </form>
-  );
-}
-
-export function TeamSwitcher(props: { teams: TeamChoice[]; currentTeamId: string | null }) {
-  return (
-    <QueryRoot>
-      <Switcher {...props} />
-    </QueryRoot>
-  );
-}
-
-export function PasswordChange() {
-  return (
-    <QueryRoot>
-      <PasswordForm />
-    </QueryRoot>
   );
 }

@@ -1,28 +1,12 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import { useState, type FormEvent } from 'react';
-import { fieldErrors, formatWhen, requestJson, serverErrors } from '../lib/client/api';
+import { useState } from 'react';
+import { formatWhen, requestJson } from '../lib/client/api';
+import { useZodForm } from '../lib/client/use-zod-form';
+import type { Member, PendingInvitation, TeamApiToken, Wire } from '../lib/contract';
 import { createInvitationSchema, ROLE_SUMMARIES } from '../lib/validation/invitations';
 import { ROLES, type Role } from '../lib/roles';
 import { FieldError, FormError, dangerButton, inputClass, labelClass, primaryButton, secondaryButton } from './form-parts';
 import QueryRoot from './QueryRoot';
-
-
-interface MemberRow {
-  userId: string;
-  name: string | null;
-  email: string | null;
-  role: Role;
-  joinedAt: string;
-}
-
-interface InvitationRow {
-  id: string;
-  email: string;
-  role: Role;
-  expiresAt: string;
-  createdAt: string;
-  invitedBy: { name: string | null; email: string | null } | null;
-}
 
 interface Props {
   teamId: string;
@@ -33,7 +17,7 @@ interface Props {
 const th = 'py-2 pr-4 text-left';
 const td = 'py-2 pr-4 align-top';
 
-function MemberActions({ teamId, member, isSelf }: { teamId: string; member: MemberRow; isSelf: boolean }) {
+function MemberActions({ teamId, member, isSelf }: { teamId: string; member: Wire<Member>; isSelf: boolean }) {
   const queryClient = useQueryClient();
   const [confirming, setConfirming] = useState(false);
   const url = `/api/teams/${encodeURIComponent(teamId)}/members/${encodeURIComponent(member.userId)}`;
@@ -90,7 +74,7 @@ function MemberActions({ teamId, member, isSelf }: { teamId: string; member: Mem
 function MemberTable({ teamId, currentUserId, isOwner }: Props) {
   const members = useQuery({
     queryKey: ['members', teamId],
-    queryFn: () => requestJson<{ members: MemberRow[] }>(`/api/teams/${encodeURIComponent(teamId)}/members`).then((r) => r.members),
+    queryFn: () => requestJson<{ members: Wire<Member>[] }>(`/api/teams/${encodeURIComponent(teamId)}/members`).then((r) => r.members),
   });
   if (members.isPending) return <p className="text-sm text-graphite">Loading members…</p>;
   if (members.isError) return <FormError message={members.error.message} />;
@@ -130,34 +114,23 @@ function MemberTable({ teamId, currentUserId, isOwner }: Props) {
 
 function InviteForm({ teamId }: { teamId: string }) {
   const queryClient = useQueryClient();
-  const [errors, setErrors] = useState<Record<string, string>>({});
   const [sentTo, setSentTo] = useState<string | null>(null);
   const [role, setRole] = useState<Role>('viewer');
-  const invite = useMutation({
-    mutationFn: (input: { email: string; role: Role }) =>
-      requestJson(`/api/teams/${encodeURIComponent(teamId)}/invitations`, { method: 'POST', body: input }),
-    onError: (error) => setErrors(serverErrors(error, ['email', 'role'])),
+  const invite = useZodForm({
+    schema: createInvitationSchema,
+    fields: ['email', 'role'],
+    submit: async (input, form) => {
+      await requestJson(`/api/teams/${encodeURIComponent(teamId)}/invitations`, { method: 'POST', body: input });
+      setSentTo(input.email);
+      form.reset();
+      setRole('viewer');
+      void queryClient.invalidateQueries({ queryKey: ['invitations', teamId] });
+    },
   });
-
-  function submit(event: FormEvent<HTMLFormElement>) {
-    event.preventDefault();
-    const form = event.currentTarget;
-    setSentTo(null);
-    const parsed = createInvitationSchema.safeParse(Object.fromEntries(new FormData(form)));
-    if (!parsed.success) return setErrors(fieldErrors(parsed.error.issues));
-    setErrors({});
-    invite.mutate(parsed.data, {
-      onSuccess: () => {
-        setSentTo(parsed.data.email);
-        form.reset();
-        setRole('viewer');
-        void queryClient.invalidateQueries({ queryKey: ['invitations', teamId] });
-      },
-    });
-  }
+  const { errors } = invite;
 
   return (
-    <form onSubmit={submit} noValidate className="space-y-3" aria-label="Invite someone by e-mail">
+    <form onSubmit={invite.onSubmit} noValidate className="space-y-3" aria-label="Invite someone by e-mail">
       <div className="grid gap-4 md:grid-cols-[3fr_1fr_auto] items-start">
         <label className={labelClass}>
           E-mail
@@ -176,8 +149,8 @@ function InviteForm({ teamId }: { teamId: string }) {
           <FieldError id="invite-role-error" message={errors.role} />
         </label>
         <div className="md:pt-6">
-          <button disabled={invite.isPending} className={primaryButton}>
-            {invite.isPending ? 'Sending…' : 'Send invitation'}
+          <button disabled={invite.submitting} className={primaryButton}>
+            {invite.submitting ? 'Sending…' : 'Send invitation'}
           </button>
         </div>
       </div>
@@ -185,7 +158,7 @@ function InviteForm({ teamId }: { teamId: string }) {
         A <span className="num uppercase">{role}</span> may: {ROLE_SUMMARIES[role]}.
       </p>
       <FormError message={errors.form} />
-      {sentTo && (
+      {invite.succeeded && sentTo && (
         <p className="text-sm text-verdigris-deep" role="status">
           Invitation sent to {sentTo}.
         </p>
@@ -198,7 +171,7 @@ function PendingInvitations({ teamId }: { teamId: string }) {
   const queryClient = useQueryClient();
   const invitations = useQuery({
     queryKey: ['invitations', teamId],
-    queryFn: () => requestJson<{ invitations: InvitationRow[] }>(`/api/teams/${encodeURIComponent(teamId)}/invitations`).then((r) => r.invitations),
+    queryFn: () => requestJson<{ invitations: Wire<PendingInvitation>[] }>(`/api/teams/${encodeURIComponent(teamId)}/invitations`).then((r) => r.invitations),
   });
   const revoke = useMutation({
     mutationFn: (id: string) => requestJson(`/api/teams/${encodeURIComponent(teamId)}/invitations/${encodeURIComponent(id)}`, { method: 'DELETE' }),
@@ -240,22 +213,11 @@ function PendingInvitations({ teamId }: { teamId: string }) {
   );
 }
 
-interface TeamTokenRow {
-  id: string;
-  name: string;
-  role: Role;
-  holderName: string | null;
-  holderEmail: string | null;
-  createdAt: string;
-  lastUsedAt: string | null;
-  revokedAt: string | null;
-}
-
 function TeamTokens({ teamId }: { teamId: string }) {
   const queryClient = useQueryClient();
   const tokens = useQuery({
     queryKey: ['team-tokens', teamId],
-    queryFn: () => requestJson<{ tokens: TeamTokenRow[] }>(`/api/teams/${encodeURIComponent(teamId)}/tokens`).then((r) => r.tokens),
+    queryFn: () => requestJson<{ tokens: Wire<TeamApiToken>[] }>(`/api/teams/${encodeURIComponent(teamId)}/tokens`).then((r) => r.tokens),
   });
   const revoke = useMutation({
     mutationFn: (id: string) => requestJson(`/api/tokens/${encodeURIComponent(id)}`, { method: 'DELETE' }),

@@ -1,7 +1,7 @@
-import { useState, type FormEvent } from 'react';
+import { useState, type SubmitEvent } from 'react';
+import { postAuthForm } from '../lib/client/api';
+import { useZodForm } from '../lib/client/use-zod-form';
 import { emailLinkSchema, passwordSignInSchema } from '../lib/validation/auth';
-
-type FieldErrors = Partial<Record<'email' | 'password' | 'form', string>>;
 
 const ERROR_TEXT: Record<string, string> = {
   CredentialsSignin: 'That e-mail and password do not match an account.',
@@ -10,58 +10,38 @@ const ERROR_TEXT: Record<string, string> = {
   Verification: 'That sign-in link has expired or was already used. Ask for a new one.',
 };
 
-/** Posts a form to an Auth.js endpoint with its CSRF token; returns the error code, if any. */
-async function postToAuth(path: string, fields: Record<string, string>, callbackUrl: string): Promise<{ url: string; error: string | null }> {
-  const { csrfToken } = await (await fetch('/api/auth/csrf')).json();
-  const response = await fetch(path, {
-    method: 'POST',
-    headers: { 'Content-Type': 'application/x-www-form-urlencoded', 'X-Auth-Return-Redirect': '1' },
-    body: new URLSearchParams({ ...fields, csrfToken, callbackUrl }),
-  });
-  const { url } = (await response.json()) as { url: string };
-  const params = new URL(url, window.location.origin).searchParams;
-  return { url, error: params.get('code') && params.get('code') !== 'credentials' ? params.get('code') : params.get('error') };
-}
-
 export default function SignInForm({ callbackUrl, initialError }: { callbackUrl: string; initialError?: string }) {
-  const [errors, setErrors] = useState<FieldErrors>(initialError ? { form: ERROR_TEXT[initialError] ?? 'Sign-in failed.' } : {});
-  const [busy, setBusy] = useState(false);
-  const [linkSent, setLinkSent] = useState(false);
-
-  async function submitPassword(event: FormEvent<HTMLFormElement>) {
-    event.preventDefault();
-    const data = Object.fromEntries(new FormData(event.currentTarget)) as Record<string, string>;
-    const parsed = passwordSignInSchema.safeParse(data);
-    if (!parsed.success) {
-      setErrors(Object.fromEntries(parsed.error.issues.map((i) => [String(i.path[0]), i.message])));
-      return;
-    }
-    setBusy(true);
-    setErrors({});
-    const { url, error } = await postToAuth('/api/auth/callback/credentials', parsed.data, callbackUrl);
-    setBusy(false);
-    if (error) setErrors({ form: ERROR_TEXT[error] ?? 'Sign-in failed.' });
-    else window.location.href = url;
-  }
-
-  async function submitLink(event: FormEvent<HTMLFormElement>) {
-    event.preventDefault();
-    const parsed = emailLinkSchema.safeParse(Object.fromEntries(new FormData(event.currentTarget)));
-    if (!parsed.success) {
-      setErrors({ email: parsed.error.issues[0].message });
-      return;
-    }
-    setBusy(true);
-    const { error } = await postToAuth('/api/auth/signin/nodemailer', parsed.data, callbackUrl);
-    setBusy(false);
-    if (error) setErrors({ form: ERROR_TEXT[error] ?? 'Could not send the link.' });
-    else setLinkSent(true);
-  }
+  const [initialMessage, setInitialMessage] = useState(initialError ? (ERROR_TEXT[initialError] ?? 'Sign-in failed.') : undefined);
+  const password = useZodForm({
+    schema: passwordSignInSchema,
+    fields: ['email', 'password'],
+    submit: async (input) => {
+      const { url, error } = await postAuthForm('/api/auth/callback/credentials', input, callbackUrl);
+      if (error) return { form: ERROR_TEXT[error] ?? 'Sign-in failed.' };
+      window.location.href = url;
+    },
+  });
+  const link = useZodForm({
+    schema: emailLinkSchema,
+    fields: ['email'],
+    submit: async (input) => {
+      const { error } = await postAuthForm('/api/auth/signin/nodemailer', input, callbackUrl);
+      if (error) return { form: ERROR_TEXT[error] ?? 'Could not send the link.' };
+    },
+  });
+  const errors = password.errors;
+  const busy = password.submitting || link.submitting;
+  const formError = errors.form ?? initialMessage;
+  // The error the page opened with (from a failed link or callback) gives way to the next attempt's.
+  const clearingInitial = (submit: (event: SubmitEvent<HTMLFormElement>) => Promise<void>) => (event: SubmitEvent<HTMLFormElement>) => {
+    setInitialMessage(undefined);
+    return submit(event);
+  };
 
   const field = 'mt-1 w-full border-2 border-ink bg-paper px-3 py-2 font-mono text-sm focus:outline-none focus:border-verdigris';
   return (
     <div className="space-y-8">
-      <form onSubmit={submitPassword} noValidate className="space-y-4" aria-label="Sign in with password">
+      <form onSubmit={clearingInitial(password.onSubmit)} noValidate className="space-y-4" aria-label="Sign in with password">
         <label className="block text-sm font-semibold">
           E-mail
           <input name="email" type="email" autoComplete="username" className={field} aria-invalid={!!errors.email} />
@@ -75,18 +55,19 @@ export default function SignInForm({ callbackUrl, initialError }: { callbackUrl:
         <a href="/reset-password" className="block text-right text-xs text-graphite underline decoration-rule hover:text-verdigris-deep">
           Forgot your password?
         </a>
-        {errors.form && <p className="text-sm text-sienna border-l-4 border-sienna pl-3" role="alert">{errors.form}</p>}
+        {formError && <p className="text-sm text-sienna border-l-4 border-sienna pl-3" role="alert">{formError}</p>}
         <button disabled={busy} className="w-full bg-ink text-paper py-2 font-semibold hover:bg-verdigris-deep disabled:opacity-60">
           {busy ? 'Signing in…' : 'Sign in'}
         </button>
       </form>
-      <form onSubmit={submitLink} noValidate className="border-t border-rule pt-6 space-y-3" aria-label="Sign in with an e-mail link">
+      <form onSubmit={clearingInitial(link.onSubmit)} noValidate className="border-t border-rule pt-6 space-y-3" aria-label="Sign in with an e-mail link">
         <p className="text-sm text-graphite">Or get a one-time sign-in link by e-mail:</p>
         <div className="flex gap-2">
-          <input name="email" type="email" placeholder="name@example.com" className={field + ' mt-0'} aria-label="E-mail for sign-in link" />
+          <input name="email" type="email" placeholder="name@example.com" className={field + ' mt-0'} aria-label="E-mail for sign-in link" aria-invalid={!!link.errors.email} />
           <button disabled={busy} className="shrink-0 border-2 border-ink px-3 text-sm font-semibold hover:bg-paper-deep">Send link</button>
         </div>
-        {linkSent && <p className="text-sm text-verdigris-deep" role="status">If an account uses that address, a sign-in link is on its way: it works once, for 24 hours.</p>}
+        {(link.errors.email ?? link.errors.form) && <p className="text-xs text-sienna" role="alert">{link.errors.email ?? link.errors.form}</p>}
+        {link.succeeded && <p className="text-sm text-verdigris-deep" role="status">If an account uses that address, a sign-in link is on its way: it works once, for 24 hours.</p>}
       </form>
     </div>
   );

@@ -1,32 +1,11 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import { useState, type FormEvent } from 'react';
-import { fieldErrors, formatWhen, requestJson, serverErrors } from '../lib/client/api';
-import type { Role } from '../lib/roles';
+import { useState } from 'react';
+import { formatWhen, requestJson } from '../lib/client/api';
+import { useZodForm } from '../lib/client/use-zod-form';
+import type { ApiTokenSummary, CreatedApiToken, TokenTeam, Wire } from '../lib/contract';
 import { createTokenSchema } from '../lib/validation/team';
 import { FieldError, FormError, dangerButton, inputClass, labelClass, primaryButton, secondaryButton } from './form-parts';
 import QueryRoot from './QueryRoot';
-
-
-export interface TokenTeam {
-  teamId: string;
-  name: string;
-  role: Role;
-  /** Roles a token for this team may have: the holder's own and any with fewer rights. */
-  tokenRoles: Role[];
-}
-
-interface TokenRow {
-  id: string;
-  name: string;
-  teamId: string;
-  teamName: string;
-  role: Role;
-  createdAt: string;
-  lastUsedAt: string | null;
-  revokedAt: string | null;
-}
-
-const FIELDS = ['name', 'teamId', 'role'] as const;
 
 function NewSecret({ token, name, onDone }: { token: string; name: string; onDone: () => void }) {
   const [copied, setCopied] = useState<'yes' | 'failed' | null>(null);
@@ -72,27 +51,20 @@ function NewSecret({ token, name, onDone }: { token: string; name: string; onDon
 function CreateTokenForm({ teams, onCreated }: { teams: TokenTeam[]; onCreated: (secret: { token: string; name: string }) => void }) {
   const queryClient = useQueryClient();
   const [teamId, setTeamId] = useState(teams[0]?.teamId ?? '');
-  const [errors, setErrors] = useState<Record<string, string>>({});
   const allowed = teams.find((t) => t.teamId === teamId)?.tokenRoles ?? [];
-  const create = useMutation({
-    mutationFn: (input: unknown) => requestJson<{ token: string; summary: TokenRow }>('/api/tokens', { method: 'POST', body: input }),
-    onSuccess: ({ token, summary }) => {
+  const create = useZodForm({
+    schema: createTokenSchema,
+    fields: ['name', 'teamId', 'role'],
+    submit: async (input) => {
+      const { token, summary } = await requestJson<Wire<CreatedApiToken>>('/api/tokens', { method: 'POST', body: input });
       onCreated({ token, name: summary.name });
       void queryClient.invalidateQueries({ queryKey: ['tokens'] });
     },
-    onError: (error) => setErrors(serverErrors(error, FIELDS)),
   });
-
-  function submit(event: FormEvent<HTMLFormElement>) {
-    event.preventDefault();
-    const parsed = createTokenSchema.safeParse(Object.fromEntries(new FormData(event.currentTarget)));
-    if (!parsed.success) return setErrors(fieldErrors(parsed.error.issues));
-    setErrors({});
-    create.mutate(parsed.data);
-  }
+  const { errors } = create;
 
   return (
-    <form onSubmit={submit} noValidate className="grid gap-4 md:grid-cols-[2fr_3fr_1fr_auto] items-start" aria-label="Create an API token">
+    <form onSubmit={create.onSubmit} noValidate className="grid gap-4 md:grid-cols-[2fr_3fr_1fr_auto] items-start" aria-label="Create an API token">
       <label className={labelClass}>
         Name
         <input name="name" placeholder="CI log upload" className={inputClass} aria-invalid={!!errors.name} aria-describedby="token-name-error" />
@@ -121,8 +93,8 @@ function CreateTokenForm({ teams, onCreated }: { teams: TokenTeam[]; onCreated: 
         <FieldError id="token-role-error" message={errors.role} />
       </label>
       <div className="md:pt-6">
-        <button disabled={create.isPending} className={primaryButton}>
-          {create.isPending ? 'Creating…' : 'Create token'}
+        <button disabled={create.submitting} className={primaryButton}>
+          {create.submitting ? 'Creating…' : 'Create token'}
         </button>
       </div>
       <div className="md:col-span-4">
@@ -135,7 +107,7 @@ function CreateTokenForm({ teams, onCreated }: { teams: TokenTeam[]; onCreated: 
 function TokenList() {
   const queryClient = useQueryClient();
   const [confirming, setConfirming] = useState<string | null>(null);
-  const tokens = useQuery({ queryKey: ['tokens'], queryFn: () => requestJson<{ tokens: TokenRow[] }>('/api/tokens').then((r) => r.tokens) });
+  const tokens = useQuery({ queryKey: ['tokens'], queryFn: () => requestJson<{ tokens: Wire<ApiTokenSummary>[] }>('/api/tokens').then((r) => r.tokens) });
   const revoke = useMutation({
     mutationFn: (id: string) => requestJson<void>(`/api/tokens/${encodeURIComponent(id)}`, { method: 'DELETE' }),
     onSettled: () => {

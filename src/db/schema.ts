@@ -1,5 +1,6 @@
 import { sql } from 'drizzle-orm';
 import { index, integer, primaryKey, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
+import { REVIEW_STATES, type ReviewState } from '../lib/contract/reviews';
 import { ROLES } from '../lib/roles';
 import type { SheetSummary, StoredDocument } from '../lib/sheet/summary';
 
@@ -13,9 +14,7 @@ const createdAt = () =>
     .default(sql`(unixepoch('subsec') * 1000)`);
 
 
-/** Where one revision stands in review: every saved revision starts as a draft until a reviewer gives a verdict on it. */
-export const REVIEW_STATES = ['draft', 'approved', 'changes-requested'] as const;
-export type ReviewState = (typeof REVIEW_STATES)[number];
+export { REVIEW_STATES, type ReviewState };
 
 /* Auth.js tables: names and columns follow @auth/drizzle-adapter's SQLite defaults. */
 

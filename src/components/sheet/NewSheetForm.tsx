@@ -1,8 +1,10 @@
-import { QueryClient, QueryClientProvider, useMutation } from '@tanstack/react-query';
-import { useState, type FormEvent } from 'react';
+import { useState } from 'react';
+import { requestJson } from '../../lib/client/api';
+import { useZodForm } from '../../lib/client/use-zod-form';
+import type { CreatedSheet, Wire } from '../../lib/contract';
 import { createSheetFromTemplate, HAND_TEMPLATES } from '../../lib/sheet/templates';
 import type { ObjectShape } from '../../lib/sheet/types';
-import { requestJson } from './SavePanel';
+import { createSheetBody } from '../../lib/validation/sheets';
 import { fieldInput, primaryButton, selectInput } from './sheet-styles';
 
 /** Starting dimensions of each shape, SI (m): a part of the size the templates were laid out for. */
@@ -15,32 +17,31 @@ const STARTING_SHAPES: Record<string, ObjectShape> = {
 };
 const SHAPES = Object.keys(STARTING_SHAPES);
 
-function NewSheet({ teamId }: { teamId: string }) {
+/** New sheet: a hand template and an object shape, placed in contact. */
+export default function NewSheetForm({ teamId }: { teamId: string }) {
   const [template, setTemplate] = useState(HAND_TEMPLATES[1].id);
   const [shapeKind, setShapeKind] = useState<string>('sphere');
   const [title, setTitle] = useState('');
   const shape = STARTING_SHAPES[shapeKind];
 
-  const create = useMutation({
-    mutationFn: (objectShape: ObjectShape) => {
-      const document = createSheetFromTemplate(template, objectShape);
+  const create = useZodForm({
+    schema: createSheetBody,
+    fields: ['title'],
+    read: () => {
+      const document = createSheetFromTemplate(template, shape);
       if (title.trim()) document.title = title.trim();
-      return requestJson<{ sheetId: string }>('/api/sheets', {
-        method: 'POST',
-        body: { teamId, title: document.title, tags: document.tags, document, message: 'Created from a hand template' },
-      });
+      return { teamId, title: document.title, tags: document.tags, document, message: 'Created from a hand template' };
     },
-    onSuccess: ({ sheetId }) => window.location.assign(`/sheets/${sheetId}`),
+    submit: async (body) => {
+      const { sheetId } = await requestJson<Wire<CreatedSheet>>('/api/sheets', { method: 'POST', body });
+      window.location.assign(`/sheets/${sheetId}`);
+    },
   });
-
-  function submit(event: FormEvent<HTMLFormElement>) {
-    event.preventDefault();
-    if (shape) create.mutate(shape);
-  }
+  const error = Object.values(create.errors)[0];
 
   const chosen = HAND_TEMPLATES.find((t) => t.id === template);
   return (
-    <form onSubmit={submit} className="space-y-4">
+    <form onSubmit={create.onSubmit} className="space-y-4">
       <label className="block text-sm font-semibold">
         Hand template
         <select name="template" className={`${selectInput} mt-1 block w-full`} value={template} onChange={(event) => setTemplate(event.target.value)}>
@@ -65,20 +66,10 @@ function NewSheet({ teamId }: { teamId: string }) {
         Title (optional)
         <input name="title" className={`${fieldInput} mt-1 font-sans`} maxLength={120} value={title} onChange={(event) => setTitle(event.target.value)} placeholder={`${chosen?.name} on a ${shapeKind}`} />
       </label>
-      {create.error && <p role="alert" className="text-sm text-sienna">{create.error.message}</p>}
-      <button type="submit" className={primaryButton} disabled={create.isPending || !shape}>
-        {create.isPending ? 'Creating…' : 'Create sheet'}
+      {error && <p role="alert" className="text-sm text-sienna">{error}</p>}
+      <button type="submit" className={primaryButton} disabled={create.submitting || !shape}>
+        {create.submitting ? 'Creating…' : 'Create sheet'}
       </button>
     </form>
-  );
-}
-
-/** New sheet: a hand template and an object shape, placed in contact. */
-export default function NewSheetForm({ teamId }: { teamId: string }) {
-  const [client] = useState(() => new QueryClient());
-  return (
-    <QueryClientProvider client={client}>
-      <NewSheet teamId={teamId} />
-    </QueryClientProvider>
   );
 }

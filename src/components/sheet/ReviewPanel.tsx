@@ -1,7 +1,8 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import { useState, type FormEvent } from 'react';
+import { useState, type SubmitEvent } from 'react';
 import QueryRoot from '../QueryRoot';
-import { requestJson } from './SavePanel';
+import { requestJson } from '../../lib/client/api';
+import type { ReviewThread, SheetComment, Verdict, Wire } from '../../lib/contract';
 import { button, fieldInput, primaryButton } from './sheet-styles';
 
 interface ReviewPanelProps {
@@ -11,27 +12,9 @@ interface ReviewPanelProps {
   canReview: boolean;
 }
 
-interface CommentItem {
-  id: string;
-  revision: number;
-  anchor: string | null;
-  body: string;
-  authorName: string | null;
-  createdAt: string | number;
-}
-
-interface ReviewItem {
-  id: string;
-  revision: number;
-  verdict: 'approved' | 'changes-requested';
-  body: string;
-  reviewerName: string | null;
-  createdAt: string | number;
-}
-
 const VERDICT_TEXT = { approved: 'approved', 'changes-requested': 'asked for changes' } as const;
 
-function when(value: string | number): string {
+function when(value: string): string {
   return new Date(value).toISOString().slice(0, 16).replace('T', ' ') + ' UTC';
 }
 
@@ -39,10 +22,10 @@ function Thread({ sheetId, revision, canComment, canReview }: ReviewPanelProps) 
   const queryClient = useQueryClient();
   const [text, setText] = useState('');
   const [error, setError] = useState<string | null>(null);
-  const comments = useQuery({ queryKey: ['comments', sheetId], queryFn: () => requestJson<{ items: CommentItem[] }>(`/api/sheets/${sheetId}/comments`) });
+  const comments = useQuery({ queryKey: ['comments', sheetId], queryFn: () => requestJson<{ items: Wire<SheetComment>[] }>(`/api/sheets/${sheetId}/comments`) });
   const reviews = useQuery({
     queryKey: ['reviews', sheetId],
-    queryFn: () => requestJson<{ status: string; latestRevision: number; lastApprovedRevision: number | null; items: ReviewItem[] }>(`/api/sheets/${sheetId}/reviews`),
+    queryFn: () => requestJson<Wire<ReviewThread>>(`/api/sheets/${sheetId}/reviews`),
   });
   const comment = useMutation({
     mutationFn: (body: string) => requestJson(`/api/sheets/${sheetId}/comments`, { method: 'POST', body: { revision, body } }),
@@ -53,7 +36,7 @@ function Thread({ sheetId, revision, canComment, canReview }: ReviewPanelProps) 
     onError: (e: Error) => setError(e.message),
   });
   const verdict = useMutation({
-    mutationFn: (value: ReviewItem['verdict']) => requestJson(`/api/sheets/${sheetId}/reviews`, { method: 'POST', body: { revision, verdict: value, body: text } }),
+    mutationFn: (value: Verdict) => requestJson(`/api/sheets/${sheetId}/reviews`, { method: 'POST', body: { revision, verdict: value, body: text } }),
     onSuccess: () => {
       setText('');
       return queryClient.invalidateQueries({ queryKey: ['reviews', sheetId] });
@@ -61,7 +44,7 @@ function Thread({ sheetId, revision, canComment, canReview }: ReviewPanelProps) 
     onError: (e: Error) => setError(e.message),
   });
 
-  function submit(event: FormEvent<HTMLFormElement>) {
+  function submit(event: SubmitEvent<HTMLFormElement>) {
     event.preventDefault();
     setError(null);
     if (!text.trim()) {

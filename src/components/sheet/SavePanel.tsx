@@ -1,39 +1,15 @@
 import { useMutation } from '@tanstack/react-query';
 import { useState } from 'react';
+import { ApiError, requestJson } from '../../lib/client/api';
+import type { CreatedSheet, LatestRevision, SavedRevision, StaleSaveError, Wire } from '../../lib/contract';
 import { describeValue, diffDocuments, pathText, rebaseDocument, type DocumentChange } from '../../lib/sheet/document-path';
 import { button, fieldInput, primaryButton } from './sheet-styles';
 
 type RawDocument = Record<string, unknown>;
 
-export class RequestError extends Error {
-  constructor(
-    readonly status: number,
-    message: string,
-    readonly body: { error?: { message?: string; path?: string; latestRevision?: number; latest?: LatestRevision; issues?: { path: string; message: string }[] } },
-  ) {
-    super(message);
-  }
-}
-
-/** JSON request to the API; throws RequestError with the located message on failure. */
-export async function requestJson<T>(url: string, init?: { method: string; body: unknown }): Promise<T> {
-  const response = await fetch(url, {
-    method: init?.method ?? 'GET',
-    headers: init ? { 'content-type': 'application/json', accept: 'application/json' } : { accept: 'application/json' },
-    body: init ? JSON.stringify(init.body) : undefined,
-    credentials: 'same-origin',
-  });
-  const body = await response.json().catch(() => ({}));
-  if (!response.ok) throw new RequestError(response.status, body?.error?.message ?? `The server answered ${response.status}.`, body);
-  return body as T;
-}
-
-/** The revision a stale save missed, as the 409 answer carries it so the conflict panel needs no second request. */
-interface LatestRevision {
-  number: number;
-  inputs: RawDocument;
-  message: string;
-  authorName: string | null;
+/** The stale save's 409: someone saved after our base; the error carries their revision, so the conflict panel needs no second request. */
+function staleSave(error: unknown): StaleSaveError | null {
+  return error instanceof ApiError && error.status === 409 && error.body.latest ? (error.body as unknown as StaleSaveError) : null;
 }
 
 function ChangeList({ changes, testId }: { changes: DocumentChange[]; testId: string }) {
@@ -74,7 +50,7 @@ export default function SavePanel(props: SavePanelProps) {
 
   const save = useMutation({
     mutationFn: (input: { base: number; doc: RawDocument }) =>
-      requestJson<{ revision: number }>(`/api/sheets/${sheetId}/revisions`, {
+      requestJson<Wire<SavedRevision>>(`/api/sheets/${sheetId}/revisions`, {
         method: 'POST',
         body: {
           baseRevision: input.base,
@@ -89,13 +65,14 @@ export default function SavePanel(props: SavePanelProps) {
       props.onSaved(reply.revision, input.doc);
     },
     onError: (error) => {
-      if (error instanceof RequestError && error.status === 409 && error.body.error?.latest) setTheirs(error.body.error.latest);
+      const stale = staleSave(error);
+      if (stale) setTheirs(stale.latest);
     },
   });
 
   const fork = useMutation({
     mutationFn: async () => {
-      const created = await requestJson<{ sheetId: string }>(`/api/sheets/${sheetId}/fork`, { method: 'POST', body: { revision: baseRevision, ...(forkTeam ? { teamId: forkTeam } : {}) } });
+      const created = await requestJson<Wire<CreatedSheet>>(`/api/sheets/${sheetId}/fork`, { method: 'POST', body: { revision: baseRevision, ...(forkTeam ? { teamId: forkTeam } : {}) } });
       if (props.dirty) {
         await requestJson(`/api/sheets/${created.sheetId}/revisions`, {
           method: 'POST',
@@ -125,8 +102,8 @@ export default function SavePanel(props: SavePanelProps) {
     save.mutate({ base: conflict, doc: rebased.document });
   }
 
-  const saveError = save.error && !(save.error instanceof RequestError && save.error.status === 409) ? save.error : null;
-  const saveIssues = saveError instanceof RequestError ? saveError.body.error?.issues ?? [] : [];
+  const saveError = save.error && !(save.error instanceof ApiError && save.error.status === 409) ? save.error : null;
+  const saveIssues = saveError instanceof ApiError ? saveError.issues : [];
 
   return (
     <div className="space-y-3">

@@ -1,7 +1,6 @@
-import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
 import { lazy, memo, Suspense, useCallback, useDeferredValue, useEffect, useMemo, useState } from 'react';
 import { WARNING_CATALOGUE, type WarningCode } from '../../lib/kinematics';
-import type { SheetPageData } from '../../lib/server/sheet-page';
+import type { SheetPageData } from '../../lib/contract';
 import { setAt, type DocumentPath } from '../../lib/sheet/document-path';
 import { parseVariables } from '../../lib/sheet/units';
 import DerivationSection from './DerivationSection';
@@ -12,6 +11,7 @@ import MotionSection from './MotionSection';
 import NotesSection from './NotesSection';
 import ObjectSection from './ObjectSection';
 import PadSection from './PadSection';
+import QueryRoot from '../QueryRoot';
 import ResultsSection from './ResultsSection';
 import SavePanel from './SavePanel';
 import SceneView from './SceneView';
@@ -264,10 +264,9 @@ function Editor({ data }: { data: SheetPageData }) {
 
 /** The sheet editor island: the pad, live results from a worker, the 3D view, save and fork. */
 export default function SheetEditor({ data }: { data: SheetPageData }) {
-  const [client] = useState(() => new QueryClient({ defaultOptions: { queries: { retry: 1, refetchOnWindowFocus: false } } }));
   return (
-    <QueryClientProvider client={client}>
+    <QueryRoot>
       <Editor data={data} />
-    </QueryClientProvider>
+    </QueryRoot>
   );
 }

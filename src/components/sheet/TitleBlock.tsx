@@ -1,4 +1,4 @@
-import type { SheetLink } from '../../lib/server/sheet-page';
+import type { ReviewState, SheetLink } from '../../lib/contract';
 import { SafetyCaution } from './SafetyCaution';
 
 interface TitleBlockProps {
@@ -10,7 +10,7 @@ interface TitleBlockProps {
   checkedBy: string | null;
   date: string;
   /** The latest revision's review state, and the newest revision that stands approved. */
-  reviewState: string;
+  reviewState: ReviewState;
   lastApprovedRevision: number | null;
   forkedFrom: SheetLink | null;
   forks: SheetLink[];

@@ -1,45 +1,10 @@
-import { useMutation, useQueryClient } from '@tanstack/react-query';
-import { useRef, useState, type FormEvent } from 'react';
+import { useQueryClient } from '@tanstack/react-query';
+import { useRef, useState } from 'react';
+import { ApiError, requestJson } from '../../lib/client/api';
+import { useZodForm } from '../../lib/client/use-zod-form';
+import type { CreatedSheet, Wire } from '../../lib/contract';
+import { importBody } from '../../lib/validation/sheet-exchange';
 import { FormError, inputClass, labelClass, primaryButton, secondaryButton } from '../form-parts';
-
-/** A located problem in the file as POST /api/sheets/import reports it. */
-interface FileIssue {
-  message: string;
-  path?: string;
-  line?: number;
-  column?: number;
-}
-
-class ImportError extends Error {
-  constructor(
-    message: string,
-    readonly issues: FileIssue[],
-    readonly text: string,
-  ) {
-    super(message);
-  }
-}
-
-interface Imported {
-  sheetId: string;
-  title: string;
-}
-
-async function importFile(teamId: string, file: File, title: string): Promise<Imported> {
-  const content = await file.text();
-  const response = await fetch('/api/sheets/import', {
-    method: 'POST',
-    credentials: 'same-origin',
-    headers: { accept: 'application/json', 'content-type': 'application/json' },
-    body: JSON.stringify({ teamId, fileName: file.name, content, ...(title.trim() ? { title: title.trim() } : {}) }),
-  });
-  const body = await response.json().catch(() => null);
-  if (!response.ok) {
-    const error = body?.error as { message?: string; issues?: FileIssue[] } | undefined;
-    throw new ImportError(error?.message ?? `The server answered ${response.status}.`, error?.issues ?? [], content);
-  }
-  return { sheetId: body.sheetId, title: title.trim() || file.name };
-}
 
 /** The lines around a located issue, with a caret under the column, as an editor would show them. */
 function Excerpt({ text, line, column }: { text: string; line: number; column?: number }) {
@@ -59,28 +24,35 @@ function Excerpt({ text, line, column }: { text: string; line: number; column?: 
 export default function ImportDialog({ teamId }: { teamId: string }) {
   const dialog = useRef<HTMLDialogElement>(null);
   const queryClient = useQueryClient();
-  const [fileError, setFileError] = useState<string>();
-  const upload = useMutation({
-    mutationFn: ({ file, title }: { file: File; title: string }) => importFile(teamId, file, title),
-    onSuccess: () => void queryClient.invalidateQueries({ queryKey: ['sheets'] }),
+  // The file's text, kept to show the lines around each located problem.
+  const [content, setContent] = useState('');
+  const [importedId, setImportedId] = useState<string>();
+  const upload = useZodForm({
+    schema: importBody,
+    fields: [],
+    read: async (form) => {
+      const fields = new FormData(form);
+      const file = fields.get('file');
+      const chosen = file instanceof File && file.size > 0 ? file : null;
+      const text = chosen ? await chosen.text() : undefined;
+      setContent(text ?? '');
+      const title = String(fields.get('title') ?? '').trim();
+      return { teamId, fileName: chosen?.name, content: text, ...(title ? { title } : {}) };
+    },
+    submit: async (body) => {
+      const { sheetId } = await requestJson<Wire<CreatedSheet>>('/api/sheets/import', { method: 'POST', body });
+      setImportedId(sheetId);
+      void queryClient.invalidateQueries({ queryKey: ['sheets'] });
+    },
   });
 
   function open() {
     upload.reset();
-    setFileError(undefined);
     dialog.current?.showModal();
   }
 
-  function submit(event: FormEvent<HTMLFormElement>) {
-    event.preventDefault();
-    const form = new FormData(event.currentTarget);
-    const file = form.get('file');
-    if (!(file instanceof File) || file.size === 0) return setFileError('Choose a sheet file (.json) first.');
-    setFileError(undefined);
-    upload.mutate({ file, title: String(form.get('title') ?? '') });
-  }
-
-  const failure = upload.error instanceof ImportError ? upload.error : null;
+  const inputError = upload.failure ? undefined : Object.values(upload.errors)[0];
+  const issues = upload.failure instanceof ApiError ? upload.failure.issues : [];
   return (
     <>
       <button type="button" className={secondaryButton} onClick={open} data-testid="import-open">
@@ -92,7 +64,7 @@ export default function ImportDialog({ teamId }: { teamId: string }) {
         aria-labelledby="import-title"
         data-testid="import-dialog"
       >
-        <form onSubmit={submit} noValidate className="space-y-4 p-5">
+        <form onSubmit={upload.onSubmit} noValidate className="space-y-4 p-5">
           <header className="flex items-start justify-between gap-4">
             <div>
               <h2 id="import-title" className="text-lg font-semibold">
@@ -109,24 +81,22 @@ export default function ImportDialog({ teamId }: { teamId: string }) {
           </header>
           <label className={labelClass}>
             File
-            <input type="file" name="file" accept=".json,application/json" className={inputClass} data-testid="import-file" aria-invalid={!!fileError} />
+            <input type="file" name="file" accept=".json,application/json" className={inputClass} data-testid="import-file" aria-invalid={!!upload.errors.content} />
           </label>
-          {fileError && <FormError message={fileError} />}
+          {inputError && <FormError message={inputError} />}
           <label className={labelClass}>
             Title <span className="font-normal text-graphite">(optional; the document's own title otherwise)</span>
             <input type="text" name="title" maxLength={160} className={inputClass} />
           </label>
 
-          {upload.isError && (
+          {upload.failure !== null && (
             <section className="border-l-4 border-sienna pl-3 space-y-2" role="alert" data-testid="import-errors">
               <p className="text-sm font-semibold text-sienna">
-                {failure && failure.issues.length > 0
-                  ? `Nothing was imported: ${failure.issues.length === 1 ? 'one problem' : `${failure.issues.length} problems`} in the file.`
-                  : upload.error.message}
+                {issues.length > 0 ? `Nothing was imported: ${issues.length === 1 ? 'one problem' : `${issues.length} problems`} in the file.` : upload.errors.form}
               </p>
-              {failure && failure.issues.length > 0 && (
+              {issues.length > 0 && (
                 <ol className="space-y-3 text-sm max-h-80 overflow-y-auto pr-1">
-                  {failure.issues.map((issue, i) => (
+                  {issues.map((issue, i) => (
                     <li key={i} data-testid="import-issue">
                       <p>
                         {issue.line !== undefined && (
@@ -138,21 +108,21 @@ export default function ImportDialog({ teamId }: { teamId: string }) {
                         {issue.path && <code className="num text-xs mr-2">{issue.path}</code>}
                         <span>{issue.message}</span>
                       </p>
-                      {issue.line !== undefined && <Excerpt text={failure.text} line={issue.line} column={issue.column} />}
+                      {issue.line !== undefined && <Excerpt text={content} line={issue.line} column={issue.column} />}
                     </li>
                   ))}
                 </ol>
               )}
             </section>
           )}
-          {upload.isSuccess && (
+          {upload.succeeded && importedId && (
             <p className="text-sm border-l-4 border-verdigris pl-3" role="status" data-testid="import-done">
               Imported as a new sheet.{' '}
-              <a href={`/sheets/${upload.data.sheetId}`} className="font-semibold underline hover:text-verdigris-deep">
+              <a href={`/sheets/${importedId}`} className="font-semibold underline hover:text-verdigris-deep">
                 Open it
               </a>{' '}
               or{' '}
-              <a href={`/sheets/${upload.data.sheetId}/history`} className="underline hover:text-verdigris-deep">
+              <a href={`/sheets/${importedId}/history`} className="underline hover:text-verdigris-deep">
                 see its history
               </a>
               .
@@ -162,8 +132,8 @@ export default function ImportDialog({ teamId }: { teamId: string }) {
             <button type="button" className={secondaryButton} onClick={() => dialog.current?.close()}>
               Close
             </button>
-            <button className={primaryButton} disabled={upload.isPending} data-testid="import-submit">
-              {upload.isPending ? 'Importing…' : 'Import'}
+            <button className={primaryButton} disabled={upload.submitting} data-testid="import-submit">
+              {upload.submitting ? 'Importing…' : 'Import'}
             </button>
           </footer>
         </form>

@@ -2,36 +2,12 @@ import { keepPreviousData, useQuery } from '@tanstack/react-query';
 import { createColumnHelper, flexRender, getCoreRowModel, useReactTable, type SortingState } from '@tanstack/react-table';
 import { useEffect, useMemo, useState } from 'react';
 import { formatWhen, requestJson } from '../../lib/client/api';
+import type { SheetListPage, SheetRow, Wire } from '../../lib/contract';
 import { SHEET_SORTS, WARNING_FILTERS } from '../../lib/validation/sheets';
 import { inputClass, labelClass, primaryButton, secondaryButton } from '../form-parts';
 import QueryRoot from '../QueryRoot';
 import ImportDialog from './ImportDialog';
-import type { SheetSummary } from '../../lib/sheet/summary';
 import WarningBadge from './WarningBadge';
-
-export interface SheetRow {
-  id: string;
-  title: string;
-  tags: string[];
-  latestRevision: number;
-  /** The latest revision's review state, and the newest revision that stands approved. */
-  reviewState: 'draft' | 'approved' | 'changes-requested';
-  lastApprovedRevision: number | null;
-  forkedFromSheetId: string | null;
-  forkedFromRevision: number | null;
-  forkedFromTitle: string | null;
-  authorId: string | null;
-  authorName: string | null;
-  updatedAt: string;
-  summary: SheetSummary | null;
-}
-
-interface SheetPage {
-  items: SheetRow[];
-  total: number;
-  page: number;
-  pageSize: number;
-}
 
 type Sort = (typeof SHEET_SORTS)[number];
 type WarningFilter = (typeof WARNING_FILTERS)[number];
@@ -81,7 +57,7 @@ function filtersToSearch(filters: Filters): string {
   return text ? `?${text}` : '';
 }
 
-const column = createColumnHelper<SheetRow>();
+const column = createColumnHelper<Wire<SheetRow>>();
 
 function useColumns() {
   return useMemo(
@@ -192,7 +168,7 @@ function SheetList({ teamId, teamName, canWrite, authors, initialSearch }: Sheet
       const params = new URLSearchParams({ team: teamId, warnings: filters.warnings, sort: filters.sort, page: String(filters.page), pageSize: String(filters.pageSize) });
       if (filters.q) params.set('q', filters.q);
       if (filters.author) params.set('author', filters.author);
-      return requestJson<SheetPage>(`/api/sheets?${params}`);
+      return requestJson<Wire<SheetListPage>>(`/api/sheets?${params}`);
     },
     placeholderData: keepPreviousData,
   });

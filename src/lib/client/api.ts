@@ -1,12 +1,35 @@
-/** An API error as the routes send it: `{ error: { message, path? } }` with the HTTP status. */
-export class ApiError extends Error {
+import type { ErrorBody, ErrorIssue } from '../contract';
+
+/** The message shown when a request never reached the server (offline, refused, aborted). */
+export const UNREACHABLE = 'The server could not be reached. Check the connection and try again.';
+
+/**
+ * An API error as the routes send it: `{ error: { message, path?, issues?, ...extra } }` with the
+ * HTTP status. `body` keeps the extra fields (e.g. the stale save's `latest`).
+ */
+export class ApiError<Body extends ErrorBody['error'] = ErrorBody['error']> extends Error {
   constructor(
     readonly status: number,
-    message: string,
-    readonly path?: string,
+    readonly body: Body,
   ) {
-    super(message);
+    super(body.message);
   }
+
+  /** The request field the error is about, if the server named one. */
+  get path(): string | undefined {
+    return this.body.path;
+  }
+
+  /** Every located problem the server listed (empty when it listed none). */
+  get issues(): ErrorIssue[] {
+    return this.body.issues ?? [];
+  }
+}
+
+/** The error body of a failed response, with a message even when the server sent none. */
+function errorOf(status: number, payload: unknown): ErrorBody['error'] {
+  const error = (payload as Partial<ErrorBody> | null)?.error;
+  return error && typeof error.message === 'string' ? error : { ...error, message: `The server answered ${status}.` };
 }
 
 /** Calls a JSON API route from the browser; resolves to the body (undefined for 204) or throws ApiError. */
@@ -18,28 +41,49 @@ export async function requestJson<T>(url: string, { method = 'GET', body }: { me
     credentials: 'same-origin',
   });
   if (response.status === 204) return undefined as T;
-  const payload = await response.json().catch(() => null);
-  if (!response.ok) {
-    const error = (payload as { error?: { message?: string; path?: string } } | null)?.error;
-    throw new ApiError(response.status, error?.message ?? `The server answered ${response.status}.`, error?.path);
-  }
+  const payload: unknown = await response.json().catch(() => null);
+  if (!response.ok) throw new ApiError(response.status, errorOf(response.status, payload));
   return payload as T;
 }
 
-/** Field messages from a zod error, keyed by the first path segment. */
+/**
+ * Posts a form to an Auth.js endpoint (credentials callback, e-mail link sign-in) with its CSRF
+ * token; answers where to go next and the error code Auth.js reported, if any.
+ */
+export async function postAuthForm(path: string, fields: Record<string, string>, callbackUrl: string): Promise<{ url: string; error: string | null }> {
+  const { csrfToken } = await requestJson<{ csrfToken: string }>('/api/auth/csrf');
+  const response = await fetch(path, {
+    method: 'POST',
+    headers: { 'Content-Type': 'application/x-www-form-urlencoded', 'X-Auth-Return-Redirect': '1' },
+    body: new URLSearchParams({ ...fields, csrfToken, callbackUrl }),
+    credentials: 'same-origin',
+  });
+  const { url } = (await response.json()) as { url: string };
+  const params = new URL(url, window.location.origin).searchParams;
+  // A custom sign-in refusal (e.g. rate_limited) arrives as `code`; "credentials" is Auth.js's generic one.
+  const code = params.get('code');
+  return { url, error: code && code !== 'credentials' ? code : params.get('error') };
+}
+
+/** Signs in with e-mail and password through Auth.js's credentials callback. */
+export function signInWithPassword(email: string, password: string, callbackUrl = '/'): Promise<{ url: string; error: string | null }> {
+  return postAuthForm('/api/auth/callback/credentials', { email, password }, callbackUrl);
+}
+
+/** Field messages from zod issues, keyed by the first path segment; the first message of a field wins. */
 export function fieldErrors(issues: readonly { path: readonly PropertyKey[]; message: string }[]): Record<string, string> {
   const errors: Record<string, string> = {};
   for (const issue of issues) errors[String(issue.path[0] ?? 'form')] ??= issue.message;
   return errors;
 }
 
-/** Field messages for an error thrown by `requestJson` (the field it names, else the whole form). */
+/** Field messages for an error thrown by `requestJson` (the field its `path` names, else the whole form). */
 export function serverErrors(error: unknown, fields: readonly string[]): Record<string, string> {
   if (error instanceof ApiError) {
     const field = error.path?.split('.')[0];
     return { [field && fields.includes(field) ? field : 'form']: error.message };
   }
-  return { form: 'The server could not be reached. Check the connection and try again.' };
+  return { form: UNREACHABLE };
 }
 
 const dateTime = new Intl.DateTimeFormat('en-GB', { dateStyle: 'medium', timeStyle: 'short' });

@@ -1,24 +1,12 @@
 import { and, desc, eq, isNull, sql } from 'drizzle-orm';
 import type { Database } from '../../db';
 import { apiTokens, teams, users } from '../../db/schema';
+import type { ApiTokenSummary, CreatedApiToken, TeamApiToken } from '../contract';
 import type { Role } from '../roles';
 import { roleWithin } from '../roles';
 import type { Identity } from './access';
 import { recordAudit } from './audit';
 import { generateSecretToken } from './tokens';
-
-/** What a token looks like to its holder: everything but the secret, which is never stored. */
-export interface ApiTokenSummary {
-  id: string;
-  name: string;
-  teamId: string;
-  teamName: string;
-  role: Role;
-  userId: string;
-  createdAt: Date;
-  lastUsedAt: Date | null;
-  revokedAt: Date | null;
-}
 
 export type TokenOutcome<T> = { ok: true; value: T } | { ok: false; status: 403 | 404; message: string };
 
@@ -45,7 +33,7 @@ export async function createApiToken(
   identity: Identity,
   input: { teamId: string; name: string; role: Role },
   address: string | null = null,
-): Promise<TokenOutcome<{ token: string; summary: ApiTokenSummary }>> {
+): Promise<TokenOutcome<CreatedApiToken>> {
   if (identity.via !== 'session') return { ok: false, status: 403, message: SESSION_ONLY };
   const membership = identity.memberships.find((m) => m.teamId === input.teamId);
   if (!membership) return { ok: false, status: 404, message: 'Not found.' };
@@ -101,7 +89,7 @@ export async function listApiTokens(database: Database, userId: string): Promise
 }
 
 /** A team's tokens with their holders, for the owner's overview; active ones first, then newest first. */
-export async function listTeamApiTokens(database: Database, teamId: string): Promise<(ApiTokenSummary & { holderEmail: string | null; holderName: string | null })[]> {
+export async function listTeamApiTokens(database: Database, teamId: string): Promise<TeamApiToken[]> {
   return database.db
     .select({ ...summaryColumns, holderEmail: users.email, holderName: users.name })
     .from(apiTokens)

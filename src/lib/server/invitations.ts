@@ -1,6 +1,7 @@
 import { and, desc, eq, gt, isNull } from 'drizzle-orm';
 import type { Database } from '../../db';
 import { invitations, memberships, teams, users } from '../../db/schema';
+import type { PendingInvitation } from '../contract';
 import type { Role } from '../roles';
 import type { Identity } from './access';
 import { recordAudit } from './audit';
@@ -13,15 +14,6 @@ export const INVITATION_TOKEN_PREFIX = 'inv_';
 export const INVITATION_LIFETIME_MS = 7 * 24 * 60 * 60 * 1000;
 
 export type InvitationOutcome<T> = { ok: true; value: T } | { ok: false; status: 400 | 404 | 409 | 410; message: string; path?: string };
-
-export interface PendingInvitation {
-  id: string;
-  email: string;
-  role: Role;
-  expiresAt: Date;
-  createdAt: Date;
-  invitedBy: { id: string; name: string | null; email: string | null } | null;
-}
 
 /** What the accept page shows about an invitation link. */
 export interface InvitationPreview {

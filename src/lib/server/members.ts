@@ -1,17 +1,10 @@
 import { and, asc, count, eq, isNull, sql } from 'drizzle-orm';
 import type { Database, Transaction } from '../../db';
 import { apiTokens, memberships, users } from '../../db/schema';
+import type { Member } from '../contract';
 import type { Role } from '../roles';
 import type { Identity } from './access';
 import { recordAudit } from './audit';
-
-export interface Member {
-  userId: string;
-  name: string | null;
-  email: string | null;
-  role: Role;
-  joinedAt: Date;
-}
 
 export type MemberOutcome<T> = { ok: true; value: T } | { ok: false; status: 404 | 409; message: string };
 

@@ -1,12 +1,11 @@
 import { and, asc, desc, eq } from 'drizzle-orm';
 import type { Database } from '../../db';
-import { comments, reviews, sheetRevisions, users, type ReviewState } from '../../db/schema';
+import { comments, reviews, sheetRevisions, users } from '../../db/schema';
+import type { ReviewState, SheetComment, SheetReview, Verdict } from '../contract';
 import { findReviewState } from './sheets';
 
-export type Verdict = 'approved' | 'changes-requested';
-
 /** Every comment on a sheet, oldest first, with its author's name. */
-export async function listComments(database: Database, sheetId: string) {
+export async function listComments(database: Database, sheetId: string): Promise<SheetComment[]> {
   return database.db
     .select({
       id: comments.id,
@@ -37,7 +36,7 @@ export async function addComment(
 }
 
 /** Every review of a sheet, newest first, with the reviewer's name. */
-export async function listReviews(database: Database, sheetId: string) {
+export async function listReviews(database: Database, sheetId: string): Promise<SheetReview[]> {
   return database.db
     .select({
       id: reviews.id,

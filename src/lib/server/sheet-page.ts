@@ -1,30 +1,11 @@
 import { and, desc, eq } from 'drizzle-orm';
 import type { Database } from '../../db';
-import { reviews, users, type ReviewState } from '../../db/schema';
+import { reviews, users } from '../../db/schema';
+import type { SheetPageData } from '../contract';
 import { can } from '../roles';
 import type { Identity } from './access';
 import { findSheet, getRevision, listForks } from './sheets';
 import { sheetQuery } from '../validation/sheet-exchange';
-
-export interface SheetLink {
-  id: string;
-  title: string;
-  revision: number;
-}
-
-/** Everything the sheet page shows in its title block and hands to the editor. */
-export interface SheetPageData {
-  /** `reviewState` is the latest revision's; `lastApprovedRevision` the newest revision that stands approved. */
-  sheet: { id: string; teamId: string; title: string; reviewState: ReviewState; lastApprovedRevision: number | null; latestRevision: number };
-  revision: { number: number; authorName: string | null; createdAt: string; message: string; inputs: unknown };
-  /** Reviewer who approved this revision, if any. */
-  checkedBy: string | null;
-  forkedFrom: SheetLink | null;
-  forks: SheetLink[];
-  canEdit: boolean;
-  /** Teams the identity may fork this sheet into (where it may write sheets). */
-  forkTargets: { teamId: string; name: string }[];
-}
 
 export type SheetPageOutcome = { status: 'ok'; data: SheetPageData } | { status: 'missing'; message: string };
 

@@ -1,6 +1,7 @@
 import { and, asc, count, desc, eq, getTableColumns, inArray, isNull, or, sql, type SQL } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/sqlite-core';
 import type { Database, DrizzleDb, Transaction } from '../../db';
+import type { CreatedSheet, LatestRevision, RevisionPage, SheetListPage } from '../contract';
 import { fail, succeed, type DomainError, type Result } from '../result';
 import { sheetRevisions, sheets, users, type ReviewState } from '../../db/schema';
 import { evaluateSheet } from '../sheet/evaluate';
@@ -18,12 +19,6 @@ export interface Actor {
   /** Null for the system (seeding, scripts). */
   userId: string | null;
   address?: string | null;
-}
-
-export interface CreatedSheet {
-  sheetId: string;
-  revision: number;
-  summary: SheetSummary;
 }
 
 type Checked = { doc: SheetDocument; summary: SheetSummary; stored: StoredDocument };
@@ -137,14 +132,6 @@ export async function importSheet(
   );
 }
 
-/** The latest revision a stale save missed, with what the client needs to rebase onto it without asking again. */
-export interface LatestRevision {
-  number: number;
-  inputs: StoredDocument;
-  message: string;
-  authorName: string | null;
-}
-
 export type StaleSave = DomainError & { kind: 'stale'; latestRevision: number; latest: LatestRevision };
 
 /**
@@ -237,7 +224,7 @@ export async function getRevision(database: Database, sheetId: string, number: n
 }
 
 /** One page of a sheet's revisions, newest first, without the inputs; with the total and the next page (null on the last). */
-export async function listRevisions(database: Database, sheetId: string, { page, pageSize }: ListRevisionsQuery) {
+export async function listRevisions(database: Database, sheetId: string, { page, pageSize }: ListRevisionsQuery): Promise<RevisionPage> {
   const [items, [{ total }]] = await Promise.all([
     database.db
       .select({
@@ -316,7 +303,7 @@ export async function listForks(database: Database, sheetId: string, teamIds: re
 }
 
 /** One page of a team's sheets matching the query, with the total count. */
-export async function listSheets(database: Database, query: ListSheetsQuery) {
+export async function listSheets(database: Database, query: ListSheetsQuery): Promise<SheetListPage> {
   const latest = database.db
     .select({ sheetId: sheetRevisions.sheetId, summary: sheetRevisions.summary, number: sheetRevisions.number })
     .from(sheetRevisions)

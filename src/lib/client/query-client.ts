@@ -1,0 +1,16 @@
+import { QueryClient } from '@tanstack/react-query';
+
+/**
+ * The one query policy of every island:
+ * - no retries: the API's answers are final (a 4xx will not change), and a failure shows its message at once;
+ * - no refetch on window focus: editors hold unsaved input, and lists refresh after the island's own changes;
+ * - stale at once (stale time 0): a remount or an invalidation always asks the server again.
+ */
+export function createQueryClient(): QueryClient {
+  return new QueryClient({
+    defaultOptions: {
+      queries: { retry: false, refetchOnWindowFocus: false, staleTime: 0 },
+      mutations: { retry: false },
+    },
+  });
+}
