@@ -28,7 +28,7 @@ export interface OutputDisplay {
 export type OutputCsv = { columns: readonly string[] } | { perJoint: (joint: number) => string };
 
 export interface OutputDefinition {
-  /** Stable id; the results table marks cells `${finger}.${id}` and derivation ids end the same way. */
+  /** Stable id; the results table marks cells `${finger}.${id}`. */
   id: string;
   /** As the report and the comparison list it. */
   label: string;
