@@ -2,10 +2,9 @@ import { useMutation } from '@tanstack/react-query';
 import { useState } from 'react';
 import { ApiError, requestJson } from '../../lib/client/api';
 import type { CreatedSheet, LatestRevision, SavedRevision, StaleSaveError, Wire } from '../../lib/contract';
+import type { StoredDocument } from '../../lib/sheet/summary';
 import { describeValue, diffDocuments, pathText, rebaseDocument, type DocumentChange } from '../../lib/sheet/document-path';
 import { button, fieldInput, primaryButton } from './sheet-styles';
-
-type RawDocument = Record<string, unknown>;
 
 /** The stale save's 409: someone saved after our base; the error carries their revision, so the conflict panel needs no second request. */
 function staleSave(error: unknown): StaleSaveError | null {
@@ -29,12 +28,12 @@ function ChangeList({ changes, testId }: { changes: DocumentChange[]; testId: st
 export interface SavePanelProps {
   sheetId: string;
   baseRevision: number;
-  baseDocument: RawDocument;
-  document: RawDocument;
+  baseDocument: StoredDocument;
+  document: StoredDocument;
   dirty: boolean;
   readsCleanly: boolean;
-  onSaved: (revision: number, saved: RawDocument) => void;
-  onReplaceDocument: (base: RawDocument, baseRevision: number, document: RawDocument) => void;
+  onSaved: (revision: number, saved: StoredDocument) => void;
+  onReplaceDocument: (base: StoredDocument, baseRevision: number, document: StoredDocument) => void;
   /** Teams the user may fork into; the sheet's own team first. */
   forkTargets: { teamId: string; name: string }[];
 }
@@ -49,7 +48,7 @@ export default function SavePanel(props: SavePanelProps) {
   const [forkTeam, setForkTeam] = useState(props.forkTargets[0]?.teamId ?? '');
 
   const save = useMutation({
-    mutationFn: (input: { base: number; doc: RawDocument }) =>
+    mutationFn: (input: { base: number; doc: StoredDocument }) =>
       requestJson<Wire<SavedRevision>>(`/api/sheets/${sheetId}/revisions`, {
         method: 'POST',
         body: {

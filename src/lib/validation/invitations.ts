@@ -1,8 +1,9 @@
 import { z } from './zod';
 import type { Role } from '../roles';
 import { emailField, newPasswordField } from './auth';
+import { roleField } from './team';
 
-/** What each role may do, in plain words; typed by Role so a new role cannot be left out (the schema module is server-only). */
+/** What each role may do, in plain words; typed by Role so a new role cannot be left out. */
 export const ROLE_SUMMARIES: Record<Role, string> = {
   owner: 'everything, including inviting people and setting roles',
   editor: 'create, edit and fork sheets, and comment',
@@ -10,13 +11,9 @@ export const ROLE_SUMMARIES: Record<Role, string> = {
   viewer: 'read sheets',
 };
 
-export const invitationRoleField = z.enum(['owner', 'editor', 'reviewer', 'viewer'] satisfies Role[], {
-  error: 'Choose one of: owner, editor, reviewer, viewer.',
-});
-
 export const createInvitationSchema = z.object({
   email: emailField,
-  role: invitationRoleField,
+  role: roleField,
 });
 
 export const personNameField = z.string().trim().min(1, 'Enter your name.').max(100, 'Use at most 100 characters.');
