@@ -1,9 +1,9 @@
+import type { FakeSmtpServer } from '../../../../src/lib/server/fake-smtp';
 import { eq } from 'drizzle-orm';
 import { afterAll, beforeAll, beforeEach, describe, expect, it, vi } from 'vitest';
 import { createHash } from 'node:crypto';
 import { users, verificationTokens } from '../../../../src/db/schema';
 import { getDatabase } from '../../../../src/lib/server/database';
-import type { FakeSmtpServer } from '../../../../src/lib/server/fake-smtp';
 import { verifyPassword } from '../../../../src/lib/server/passwords';
 import { LINK_REQUEST_RECIPIENT } from '../../../../src/lib/server/rate-limit';
 import { GET as authGet, POST as authPost } from '../../../../src/pages/api/auth/[...auth]';

@@ -1,7 +1,7 @@
+import type { FakeSmtpServer } from '../../../../src/lib/server/fake-smtp';
 import { readFileSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Identity } from '../../../../src/lib/server/access';
-import type { FakeSmtpServer } from '../../../../src/lib/server/fake-smtp';
 import { BODY_LIMITS } from '../../../../src/lib/server/request-body';
 import { deleteSheet } from '../../../../src/lib/server/sheets';
 import { createTestSheet } from '../../../helpers/test-sheets';
@@ -41,7 +41,7 @@ beforeAll(async () => {
 afterAll(async () => {
   delete process.env.PUBLIC_ORIGIN;
   // The demo team keeps only its seeded sheets, which other tests read.
-  await deleteSheet(await getDatabase(), sheetId);
+  await deleteSheet(await getDatabase(), sheetId, { userId: null });
   await smtp?.close();
 });
 
