@@ -2,8 +2,10 @@ import { defineMiddleware } from 'astro:middleware';
 import type { APIContext, MiddlewareNext } from 'astro';
 import { getSession } from 'auth-astro/server';
 import { TEAM_COOKIE } from './consts';
-import { errorResponse, type Identity } from './lib/server/access';
+import { fail } from './lib/result';
+import type { Identity } from './lib/server/access';
 import { getDatabase } from './lib/server/database';
+import { respond } from './lib/server/http';
 import { bearerToken, identityForToken, identityForUser } from './lib/server/identity';
 import { needsSignIn, signInLocation } from './lib/server/page-access';
 import { publicOrigin, publicUrl } from './lib/server/public-origin';
@@ -41,8 +43,8 @@ async function resolveIdentity(context: APIContext, next: MiddlewareNext, origin
   context.locals.team = null;
   const token = bearerToken(context.request);
   const identity = token ? await identityForToken(await getDatabase(), token) : await sessionIdentity(context.request);
-  if (token && !identity) return errorResponse(401, 'The API token is unknown, revoked or no longer valid for its team.');
-  if (!token && !isSameOriginWrite(context.request, origin)) return errorResponse(403, 'Cross-site request refused.');
+  if (token && !identity) return respond(fail({ kind: 'unauthenticated', message: 'The API token is unknown, revoked or no longer valid for its team.' }));
+  if (!token && !isSameOriginWrite(context.request, origin)) return respond(fail({ kind: 'forbidden', message: 'Cross-site request refused.' }));
 
   const chosen = context.cookies.get(TEAM_COOKIE)?.value;
   context.locals.identity = identity;

@@ -24,7 +24,7 @@ afterAll(async () => {
   // Other browser tests list and search the demo team's sheets: leave only the seeded ones.
   const database = await openDatabase(appDatabaseUrl());
   try {
-    for (const sheetId of created) await deleteSheet(database, sheetId);
+    for (const sheetId of created) await deleteSheet(database, sheetId, { userId: null });
   } finally {
     database.close();
   }

@@ -1,3 +1,4 @@
+import { fail, type Failure, type Result } from '../result';
 import { can, type Permission, type Role } from '../roles';
 
 export interface TeamMembership {
@@ -15,36 +16,35 @@ export interface Identity {
   tokenId?: string;
 }
 
-/** A JSON error body with a message and, for input errors, the field path. */
-export function errorResponse(status: number, message: string, path?: string): Response {
-  return Response.json({ error: { message, ...(path ? { path } : {}) } }, { status });
-}
+/** The failure for a caller who is not signed in. */
+export const signInFirst = (): Failure => fail({ kind: 'unauthenticated', message: 'Sign in first.' });
 
-export type Access = { ok: true; identity: Identity; membership: TeamMembership } | { ok: false; response: Response };
+/** The failure for something that does not exist or is another team's (the two answer alike), naming the field if any. */
+export const notFound = (message = 'Not found.', path?: string): Failure => fail({ kind: 'not-found', message, ...(path ? { path } : {}) });
+
+export type Access = Result<{ identity: Identity; membership: TeamMembership }>;
 
 /**
- * The one access check for routes and pages: 401 without an identity, 404 when the team is
- * not one of the identity's (so other teams' objects do not reveal that they exist), 403
- * when the role does not grant the permission.
+ * The one access check for routes and pages: unauthenticated without an identity, not-found
+ * when the team is not one of the identity's (so other teams' objects do not reveal that they
+ * exist), forbidden when the role does not grant the permission.
  */
 export function requirePermission(identity: Identity | null, teamId: string, permission: Permission): Access {
-  if (!identity) return { ok: false, response: errorResponse(401, 'Sign in first.') };
+  if (!identity) return signInFirst();
   const membership = identity.memberships.find((m) => m.teamId === teamId);
-  if (!membership) return { ok: false, response: errorResponse(404, 'Not found.') };
-  if (!can(membership.role, permission)) {
-    return { ok: false, response: errorResponse(403, `Your role (${membership.role}) does not allow this.`) };
-  }
-  return { ok: true, identity, membership };
+  if (!membership) return notFound();
+  if (!can(membership.role, permission)) return fail({ kind: 'forbidden', message: `Your role (${membership.role}) does not allow this.` });
+  return { ok: true, value: { identity, membership } };
 }
 
-/** 401 unless someone is signed in (by session or token). */
-export function requireIdentity(identity: Identity | null): { ok: true; identity: Identity } | { ok: false; response: Response } {
-  return identity ? { ok: true, identity } : { ok: false, response: errorResponse(401, 'Sign in first.') };
+/** Unauthenticated unless someone is signed in (by session or token). */
+export function requireIdentity(identity: Identity | null): Result<Identity> {
+  return identity ? { ok: true, value: identity } : signInFirst();
 }
 
-/** 401 unless signed in, 403 for API tokens: for account and token management, which a leaked token must not reach. */
-export function requireSession(identity: Identity | null): { ok: true; identity: Identity } | { ok: false; response: Response } {
-  if (!identity) return { ok: false, response: errorResponse(401, 'Sign in first.') };
-  if (identity.via !== 'session') return { ok: false, response: errorResponse(403, 'This needs a signed-in browser session; API tokens cannot do it.') };
-  return { ok: true, identity };
+/** Unauthenticated unless signed in, forbidden for API tokens: for account and token management, which a leaked token must not reach. */
+export function requireSession(identity: Identity | null): Result<Identity> {
+  if (!identity) return signInFirst();
+  if (identity.via !== 'session') return fail({ kind: 'forbidden', message: 'This needs a signed-in browser session; API tokens cannot do it.' });
+  return { ok: true, value: identity };
 }

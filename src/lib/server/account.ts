@@ -1,13 +1,10 @@
 import type { Database } from '../../db';
-import type { Identity } from './access';
+import { fail, succeed, type Result } from '../result';
+import { notFound, type Identity } from './access';
 import { recordAudit } from './audit';
 import { hashPassword, verifyPassword } from './passwords';
 import { clearThrottle, hitThrottles, type ThrottleRule } from './rate-limit';
 import { findUserById, replacePassword } from './users';
-
-export type PasswordChangeOutcome =
-  | { ok: true }
-  | { ok: false; status: 400 | 404 | 429; message: string; path?: 'currentPassword' | 'newPassword' };
 
 const PASSWORD_CHANGE_WINDOW_MS = 15 * 60 * 1000;
 /** Wrong current passwords per account: 5, then none for 15 min, so a left-open session cannot be used to guess it. */
@@ -28,22 +25,22 @@ export async function changePassword(
   identity: Identity,
   input: { currentPassword: string; newPassword: string },
   address: string | null = null,
-): Promise<PasswordChangeOutcome> {
+): Promise<Result<void>> {
   const userId = identity.user.id;
   const user = await findUserById(database, userId);
-  if (!user) return { ok: false, status: 404, message: 'Not found.' };
+  if (!user) return notFound();
   if (!user.passwordHash) {
-    return { ok: false, status: 400, path: 'currentPassword', message: 'Your account signs in by e-mail link and has no password yet; use the password reset on the sign-in page to set one.' };
+    return fail({ kind: 'invalid', path: 'currentPassword', message: 'Your account signs in by e-mail link and has no password yet; use the password reset on the sign-in page to set one.' });
   }
   // Counted as wrong before the check, so parallel guesses cannot all get in under the limit.
   const throttle = { rule: WRONG_CURRENT_PASSWORD, id: userId };
   const counted = await hitThrottles(database, [throttle]);
   if (!counted.ok) {
     const minutes = Math.ceil(counted.retryAfterMs / 60_000);
-    return { ok: false, status: 429, message: `Too many wrong passwords. Try again in ${minutes} minute${minutes === 1 ? '' : 's'}.` };
+    return fail({ kind: 'rate-limited', message: `Too many wrong passwords. Try again in ${minutes} minute${minutes === 1 ? '' : 's'}.` });
   }
   if (!(await verifyPassword(user.passwordHash, input.currentPassword))) {
-    return { ok: false, status: 400, path: 'currentPassword', message: 'That is not your current password.' };
+    return fail({ kind: 'invalid', path: 'currentPassword', message: 'That is not your current password.' });
   }
   await clearThrottle(database, throttle);
   const passwordHash = await hashPassword(input.newPassword);
@@ -54,5 +51,5 @@ export async function changePassword(
     database,
     teams.map((teamId) => ({ teamId, actorId: userId, action: 'auth.password_change', subject: `user:${userId}`, address })),
   );
-  return { ok: true };
+  return succeed(undefined);
 }

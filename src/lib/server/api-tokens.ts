@@ -2,13 +2,13 @@ import { and, desc, eq, isNull, sql } from 'drizzle-orm';
 import type { Database } from '../../db';
 import { apiTokens, teams, users } from '../../db/schema';
 import type { ApiTokenSummary, CreatedApiToken, TeamApiToken } from '../contract';
+import { fail, type Result } from '../result';
 import type { Role } from '../roles';
 import { roleWithin } from '../roles';
-import type { Identity } from './access';
+import { notFound, type Identity } from './access';
 import { recordAudit } from './audit';
 import { generateSecretToken } from './tokens';
 
-export type TokenOutcome<T> = { ok: true; value: T } | { ok: false; status: 403 | 404; message: string };
 
 const SESSION_ONLY = 'API tokens are managed from a signed-in browser session, not with another token.';
 
@@ -33,16 +33,16 @@ export async function createApiToken(
   identity: Identity,
   input: { teamId: string; name: string; role: Role },
   address: string | null = null,
-): Promise<TokenOutcome<CreatedApiToken>> {
-  if (identity.via !== 'session') return { ok: false, status: 403, message: SESSION_ONLY };
+): Promise<Result<CreatedApiToken>> {
+  if (identity.via !== 'session') return fail({ kind: 'forbidden', message: SESSION_ONLY });
   const membership = identity.memberships.find((m) => m.teamId === input.teamId);
-  if (!membership) return { ok: false, status: 404, message: 'Not found.' };
+  if (!membership) return notFound();
   if (!roleWithin(input.role, membership.role)) {
-    return {
-      ok: false,
-      status: 403,
+    return fail({
+      kind: 'forbidden',
       message: `A token cannot have more rights than you: your role in ${membership.name} is ${membership.role}, so choose ${membership.role} or lower.`,
-    };
+      path: 'role',
+    });
   }
   const { token, hash } = generateSecretToken();
   const [row] = await database.write((db) =>
@@ -101,15 +101,15 @@ export async function listTeamApiTokens(database: Database, teamId: string): Pro
 
 /**
  * Revokes a token: the holder may revoke their own, a team owner any token of that team.
- * Anyone else gets 404 so other people's token ids reveal nothing. Revoking twice is harmless.
+ * Anyone else gets not-found so other people's token ids reveal nothing. Revoking twice is harmless.
  */
 export async function revokeApiToken(
   database: Database,
   identity: Identity,
   tokenId: string,
   address: string | null = null,
-): Promise<TokenOutcome<ApiTokenSummary>> {
-  if (identity.via !== 'session') return { ok: false, status: 403, message: SESSION_ONLY };
+): Promise<Result<ApiTokenSummary>> {
+  if (identity.via !== 'session') return fail({ kind: 'forbidden', message: SESSION_ONLY });
   const [found] = await database.db
     .select({ ...summaryColumns, holderEmail: users.email })
     .from(apiTokens)
@@ -117,7 +117,7 @@ export async function revokeApiToken(
     .innerJoin(users, eq(users.id, apiTokens.userId))
     .where(eq(apiTokens.id, tokenId));
   const ownsTeam = identity.memberships.some((m) => m.teamId === found?.teamId && m.role === 'owner');
-  if (!found || (found.userId !== identity.user.id && !ownsTeam)) return { ok: false, status: 404, message: 'Not found.' };
+  if (!found || (found.userId !== identity.user.id && !ownsTeam)) return notFound();
   const { holderEmail, ...token } = found;
   if (token.revokedAt) return { ok: true, value: token };
 

@@ -57,6 +57,7 @@ export const AUDIT_ACTIONS = {
   'sheet.approve': 'Approved a sheet revision',
   'team.rename': 'Renamed the team',
   'sheet.request_changes': 'Asked for changes to a sheet revision',
+  'sheet.comment': 'Commented on a sheet revision',
   'demo.seed': 'Seeded the demo data',
 } as const satisfies Record<string, string>;
 export type KnownAuditAction = keyof typeof AUDIT_ACTIONS;

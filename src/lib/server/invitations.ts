@@ -2,6 +2,7 @@ import { and, desc, eq, gt, isNull } from 'drizzle-orm';
 import type { Database } from '../../db';
 import { invitations, memberships, teams, users } from '../../db/schema';
 import type { PendingInvitation } from '../contract';
+import { fail, type Result } from '../result';
 import type { Role } from '../roles';
 import type { Identity } from './access';
 import { recordAudit } from './audit';
@@ -13,7 +14,6 @@ import { createUsers, findUserByEmail, normaliseEmail } from './users';
 export const INVITATION_TOKEN_PREFIX = 'inv_';
 export const INVITATION_LIFETIME_MS = 7 * 24 * 60 * 60 * 1000;
 
-export type InvitationOutcome<T> = { ok: true; value: T } | { ok: false; status: 400 | 404 | 409 | 410; message: string; path?: string };
 
 /** What the accept page shows about an invitation link. */
 export interface InvitationPreview {
@@ -86,11 +86,11 @@ export async function listPendingInvitations(database: Database, teamId: string,
 export async function createInvitation(
   database: Database,
   input: { teamId: string; inviter: Identity['user']; email: string; role: Role; origin: string; address?: string | null; now?: number },
-): Promise<InvitationOutcome<PendingInvitation>> {
+): Promise<Result<PendingInvitation>> {
   const now = input.now ?? Date.now();
   const email = normaliseEmail(input.email);
   const [team] = await database.db.select({ name: teams.name }).from(teams).where(eq(teams.id, input.teamId));
-  if (!team) return { ok: false, status: 404, message: 'Not found.' };
+  if (!team) return fail({ kind: 'not-found', message: 'Not found.' });
   const existing = await findUserByEmail(database, email);
   const [member] = existing
     ? await database.db
@@ -98,7 +98,7 @@ export async function createInvitation(
         .from(memberships)
         .where(and(eq(memberships.teamId, input.teamId), eq(memberships.userId, existing.id)))
     : [];
-  if (member) return { ok: false, status: 409, message: `${email} is already a member of this team.`, path: 'email' };
+  if (member) return fail({ kind: 'conflict', message: `${email} is already a member of this team.`, path: 'email' });
 
   const { token, hash } = generateSecretToken(INVITATION_TOKEN_PREFIX);
   const expiresAt = new Date(now + INVITATION_LIFETIME_MS);
@@ -148,7 +148,7 @@ export async function createInvitation(
 export async function revokeInvitation(
   database: Database,
   input: { teamId: string; invitationId: string; actorId: string; address?: string | null },
-): Promise<InvitationOutcome<{ id: string; email: string }>> {
+): Promise<Result<{ id: string; email: string }>> {
   const [row] = await database.write((db) =>
     db
       .update(invitations)
@@ -158,7 +158,7 @@ export async function revokeInvitation(
       )
       .returning({ id: invitations.id, email: invitations.email }),
   );
-  if (!row) return { ok: false, status: 404, message: 'No pending invitation with that id in this team.' };
+  if (!row) return fail({ kind: 'not-found', message: 'No pending invitation with that id in this team.' });
   await recordAudit(database, {
     teamId: input.teamId,
     actorId: input.actorId,
@@ -181,11 +181,11 @@ async function findByToken(database: Database, token: string) {
 }
 
 /** The invitation behind a link, for the accept page; refused (404/410) when it cannot be used. */
-export async function previewInvitation(database: Database, token: string, now = Date.now()): Promise<InvitationOutcome<InvitationPreview>> {
+export async function previewInvitation(database: Database, token: string, now = Date.now()): Promise<Result<InvitationPreview>> {
   const row = token.startsWith(INVITATION_TOKEN_PREFIX) ? await findByToken(database, token) : null;
-  if (!row) return { ok: false, status: 404, message: 'This invitation link is not valid. Check that the whole link was copied.' };
+  if (!row) return fail({ kind: 'not-found', message: 'This invitation link is not valid. Check that the whole link was copied.' });
   const why = refusal(row.invitation, row.inviterName, row.teamName, now);
-  if (why) return { ok: false, status: 410, message: why };
+  if (why) return fail({ kind: 'gone', message: why });
   return {
     ok: true,
     value: {
@@ -207,26 +207,26 @@ export async function previewInvitation(database: Database, token: string, now =
 export async function acceptInvitation(
   database: Database,
   input: { token: string; name?: string; password?: string; address?: string | null; now?: number },
-): Promise<InvitationOutcome<{ userId: string; email: string; teamId: string; role: Role; createdAccount: boolean }>> {
+): Promise<Result<{ userId: string; email: string; teamId: string; role: Role; createdAccount: boolean }>> {
   const now = input.now ?? Date.now();
   const preview = await previewInvitation(database, input.token, now);
   if (!preview.ok) return preview;
   const { email } = preview.value;
   const needsAccount = !preview.value.hasAccount;
-  if (needsAccount && !input.name?.trim()) return { ok: false, status: 400, message: 'Enter your name.', path: 'name' };
-  if (needsAccount && !input.password) return { ok: false, status: 400, message: 'Choose a password.', path: 'password' };
+  if (needsAccount && !input.name?.trim()) return fail({ kind: 'invalid', message: 'Enter your name.', path: 'name' });
+  if (needsAccount && !input.password) return fail({ kind: 'invalid', message: 'Choose a password.', path: 'password' });
   const passwordHash = needsAccount && input.password ? await hashPassword(input.password) : null;
 
-  const outcome = await database.transaction(async (tx): Promise<InvitationOutcome<{ userId: string; teamId: string; role: Role; createdAccount: boolean; invitationId: string }>> => {
+  const outcome = await database.transaction(async (tx): Promise<Result<{ userId: string; teamId: string; role: Role; createdAccount: boolean; invitationId: string }>> => {
     // Re-read inside the queue: a second accept racing this one must see the first one's mark.
     const [invitation] = await tx.select().from(invitations).where(eq(invitations.tokenHash, hashSecretToken(input.token)));
-    if (!invitation) return { ok: false, status: 404, message: 'This invitation link is not valid. Check that the whole link was copied.' };
+    if (!invitation) return fail({ kind: 'not-found', message: 'This invitation link is not valid. Check that the whole link was copied.' });
     const why = refusal(invitation, preview.value.inviterName, preview.value.teamName, now);
-    if (why) return { ok: false, status: 410, message: why };
+    if (why) return fail({ kind: 'gone', message: why });
     const existing = await findUserByEmail(tx, email);
     let userId = existing?.id;
     if (!userId) {
-      if (!passwordHash || !input.name?.trim()) return { ok: false, status: 409, message: 'The account changed meanwhile; reload the page and try again.' };
+      if (!passwordHash || !input.name?.trim()) return fail({ kind: 'conflict', message: 'The account changed meanwhile; reload the page and try again.' });
       const [created] = await createUsers(tx, [{ email, name: input.name.trim(), passwordHash, emailVerified: new Date(now) }]);
       userId = created.id;
     }

@@ -2,11 +2,11 @@ import { and, asc, count, eq, isNull, sql } from 'drizzle-orm';
 import type { Database, Transaction } from '../../db';
 import { apiTokens, memberships, users } from '../../db/schema';
 import type { Member } from '../contract';
+import { fail, type Result } from '../result';
 import type { Role } from '../roles';
 import type { Identity } from './access';
 import { recordAudit } from './audit';
 
-export type MemberOutcome<T> = { ok: true; value: T } | { ok: false; status: 404 | 409; message: string };
 
 const memberColumns = {
   userId: users.id,
@@ -43,12 +43,12 @@ export async function changeRole(
   userId: string,
   role: Role,
   address: string | null = null,
-): Promise<MemberOutcome<Member>> {
-  const outcome = await database.transaction(async (tx): Promise<MemberOutcome<{ member: Member; from: Role }>> => {
+): Promise<Result<Member>> {
+  const outcome = await database.transaction(async (tx): Promise<Result<{ member: Member; from: Role }>> => {
     const member = await findMember(tx, teamId, userId);
-    if (!member) return { ok: false, status: 404, message: 'That person is not a member of this team.' };
+    if (!member) return fail({ kind: 'not-found', message: 'That person is not a member of this team.' });
     if (member.role === 'owner' && role !== 'owner' && (await countOwners(tx, teamId)) <= 1) {
-      return { ok: false, status: 409, message: LAST_OWNER };
+      return fail({ kind: 'conflict', message: LAST_OWNER, path: 'role' });
     }
     if (member.role !== role) {
       await tx.update(memberships).set({ role }).where(and(eq(memberships.teamId, teamId), eq(memberships.userId, userId)));
@@ -80,11 +80,11 @@ export async function removeMember(
   teamId: string,
   userId: string,
   address: string | null = null,
-): Promise<MemberOutcome<Member>> {
-  const outcome = await database.transaction(async (tx): Promise<MemberOutcome<Member>> => {
+): Promise<Result<Member>> {
+  const outcome = await database.transaction(async (tx): Promise<Result<Member>> => {
     const member = await findMember(tx, teamId, userId);
-    if (!member) return { ok: false, status: 404, message: 'That person is not a member of this team.' };
-    if (member.role === 'owner' && (await countOwners(tx, teamId)) <= 1) return { ok: false, status: 409, message: LAST_OWNER };
+    if (!member) return fail({ kind: 'not-found', message: 'That person is not a member of this team.' });
+    if (member.role === 'owner' && (await countOwners(tx, teamId)) <= 1) return fail({ kind: 'conflict', message: LAST_OWNER });
     await tx.delete(memberships).where(and(eq(memberships.teamId, teamId), eq(memberships.userId, userId)));
     await tx
       .update(apiTokens)

@@ -1,4 +1,8 @@
-import type { Identity } from './access';
+import type { Database } from '../../db';
+import type { Permission } from '../roles';
+import { requirePermission, type Access, type Identity, type TeamMembership } from './access';
+import { getDatabase } from './database';
+import { findSheet } from './sheets';
 
 /**
  * Pages only signed-in people see, as Astro names their routes: the middleware sends anyone else
@@ -48,4 +52,37 @@ export function signInLocation(url: URL): string {
 export function signedInIdentity(locals: App.Locals): Identity {
   if (!locals.identity) throw new Error('A signed-in page was rendered without an identity; is it listed in SIGNED_IN_PAGES?');
   return locals.identity;
+}
+
+type SheetRow = NonNullable<Awaited<ReturnType<typeof findSheet>>>;
+
+/** What a sheet page works with: the caller, the database, and the sheet with the caller's membership when they may read it. */
+export interface SheetPageAccess {
+  identity: Identity;
+  database: Database;
+  /** Null for a missing sheet and for another team's, which the page answers alike (404). */
+  sheet: SheetRow | null;
+  membership: TeamMembership | null;
+}
+
+/** The sheet `sheetId` when `identity` may read it (`sheet.read`), else null: a missing sheet and another team's look the same. */
+export async function findReadableSheet(database: Database, identity: Identity, sheetId: string): Promise<SheetRow | null> {
+  const sheet = await findSheet(database, sheetId);
+  return sheet && requirePermission(identity, sheet.teamId, 'sheet.read').ok ? sheet : null;
+}
+
+/** The one access check of the pages under /sheets/{id}: the signed-in caller and the sheet they may read, or no sheet. */
+export async function openSheetPage(locals: App.Locals, sheetId: string | undefined): Promise<SheetPageAccess> {
+  const identity = signedInIdentity(locals);
+  const database = await getDatabase();
+  const sheet = await findReadableSheet(database, identity, sheetId ?? '');
+  const membership = sheet ? (identity.memberships.find((m) => m.teamId === sheet.teamId) ?? null) : null;
+  return { identity, database, sheet, membership };
+}
+
+/** The one access check of the pages about the caller's current team: the caller, the team (null outside any team) and whether `permission` is granted there. */
+export function openTeamPage(locals: App.Locals, permission: Permission): { identity: Identity; team: TeamMembership | null; access: Access } {
+  const identity = signedInIdentity(locals);
+  const { team } = locals;
+  return { identity, team, access: requirePermission(identity, team?.teamId ?? '', permission) };
 }

@@ -1,6 +1,7 @@
 import { and, eq, isNull } from 'drizzle-orm';
 import type { Database } from '../../db';
 import { passwordResets, users } from '../../db/schema';
+import { fail, type Result } from '../result';
 import { recordAudit } from './audit';
 import { sendMail } from './email';
 import { getMemberships } from './identity';
@@ -23,8 +24,6 @@ const RESET_RECIPIENT: ThrottleRule = {
 };
 /** Reset requests per client address: 20 back to back, then none for 15 min. */
 const RESET_ADDRESS: ThrottleRule = { ...RESET_RECIPIENT, scope: 'reset-address', freeHits: 20 };
-
-export type PasswordResetOutcome<T> = { ok: true; value: T } | { ok: false; status: 404 | 410; message: string };
 
 /**
  * Sends a one-hour, single-use reset link `${origin}/reset-password/<token>` when `email` belongs
@@ -68,7 +67,7 @@ export async function requestPasswordReset(
 }
 
 /** Where a reset link stands, for the page that asks for the new password. */
-export async function checkPasswordResetToken(database: Database, token: string, now = Date.now()): Promise<PasswordResetOutcome<{ email: string }>> {
+export async function checkPasswordResetToken(database: Database, token: string, now = Date.now()): Promise<Result<{ email: string }>> {
   const row = token.startsWith(PASSWORD_RESET_TOKEN_PREFIX)
     ? (
         await database.db
@@ -78,9 +77,9 @@ export async function checkPasswordResetToken(database: Database, token: string,
           .where(eq(passwordResets.tokenHash, hashSecretToken(token)))
       )[0]
     : undefined;
-  if (!row?.email) return { ok: false, status: 404, message: 'This reset link is not valid. Check that the whole link was copied, or ask for a new one.' };
-  if (row.reset.usedAt) return { ok: false, status: 410, message: 'This reset link was already used. Ask for a new one if you need to reset again.' };
-  if (row.reset.expiresAt.getTime() <= now) return { ok: false, status: 410, message: 'This reset link has expired; ask for a new one.' };
+  if (!row?.email) return fail({ kind: 'not-found', message: 'This reset link is not valid. Check that the whole link was copied, or ask for a new one.', path: 'token' });
+  if (row.reset.usedAt) return fail({ kind: 'gone', message: 'This reset link was already used. Ask for a new one if you need to reset again.', path: 'token' });
+  if (row.reset.expiresAt.getTime() <= now) return fail({ kind: 'gone', message: 'This reset link has expired; ask for a new one.', path: 'token' });
   return { ok: true, value: { email: row.email } };
 }
 
@@ -88,7 +87,7 @@ export async function checkPasswordResetToken(database: Database, token: string,
 export async function confirmPasswordReset(
   database: Database,
   input: { token: string; password: string; address?: string | null; now?: number },
-): Promise<PasswordResetOutcome<{ userId: string; email: string }>> {
+): Promise<Result<{ userId: string; email: string }>> {
   const now = input.now ?? Date.now();
   const checked = await checkPasswordResetToken(database, input.token, now);
   if (!checked.ok) return checked;
@@ -104,7 +103,7 @@ export async function confirmPasswordReset(
     await replacePassword(tx, used.userId, { passwordHash, at: new Date(now), emailVerified: new Date(now) });
     return used.userId;
   });
-  if (!userId) return { ok: false, status: 410, message: 'This reset link was already used. Ask for a new one if you need to reset again.' };
+  if (!userId) return fail({ kind: 'gone', message: 'This reset link was already used. Ask for a new one if you need to reset again.', path: 'token' });
   const teams = await getMemberships(database, userId);
   await recordAudit(
     database,

@@ -1,12 +1,7 @@
 import type { z } from 'zod';
-import { errorResponse } from './access';
+import { fail, type Result } from '../result';
+import { BODY_PATH, validate, type BodyFailure } from './http';
 import { findOversizedJson, oversizedJsonMessage } from './json-depth';
-
-/** Path of an issue about the request body as a whole. */
-export const BODY_PATH = '(body)';
-
-export type ParsedBody<T> = { ok: true; data: T } | { ok: false; response: Response };
-export type ReadBody = { ok: true; bytes: Uint8Array<ArrayBuffer> } | { ok: false; response: Response };
 
 const KIB = 1024;
 const MIB = 1024 * KIB;
@@ -31,14 +26,9 @@ function formatSize(bytes: number): string {
   return bytes >= MIB ? `${bytes / MIB} MiB` : `${bytes / KIB} KiB`;
 }
 
-/**
- * 413 naming the limit. `closeConnection` once part of the body was consumed: the rest can then
- * neither be drained by the server nor be followed by another request on the same connection.
- */
-function tooLarge(limit: number, closeConnection: boolean): Response {
-  const response = errorResponse(413, `The request body is larger than the ${formatSize(limit)} this endpoint accepts.`);
-  if (closeConnection) response.headers.set('connection', 'close');
-  return response;
+/** The failure naming the limit; `closeConnection` once part of the body was consumed. */
+function tooLarge(limit: number, closeConnection: boolean): BodyFailure {
+  return { ...fail({ kind: 'too-large', message: `The request body is larger than the ${formatSize(limit)} this endpoint accepts.` }), closeConnection };
 }
 
 /**
@@ -46,10 +36,10 @@ function tooLarge(limit: number, closeConnection: boolean): Response {
  * before anything is read, and a body without one (chunked) is counted while it streams and
  * refused as soon as it passes the limit.
  */
-export async function readBody(request: Request, limit: number): Promise<ReadBody> {
+export async function readBody(request: Request, limit: number): Promise<Result<Uint8Array<ArrayBuffer>> | BodyFailure> {
   // Nothing read yet: the server discards the unread upload and the client still gets the answer.
-  if (Number(request.headers.get('content-length') ?? 0) > limit) return { ok: false, response: tooLarge(limit, false) };
-  if (!request.body) return { ok: true, bytes: new Uint8Array() };
+  if (Number(request.headers.get('content-length') ?? 0) > limit) return tooLarge(limit, false);
+  if (!request.body) return { ok: true, value: new Uint8Array() };
   const reader = request.body.getReader();
   const chunks: Uint8Array[] = [];
   let size = 0;
@@ -60,7 +50,7 @@ export async function readBody(request: Request, limit: number): Promise<ReadBod
     if (size > limit) {
       // Left unread rather than cancelled: cancelling would reset the socket before the 413 is sent.
       reader.releaseLock();
-      return { ok: false, response: tooLarge(limit, true) };
+      return tooLarge(limit, true);
     }
     chunks.push(value);
   }
@@ -70,13 +60,7 @@ export async function readBody(request: Request, limit: number): Promise<ReadBod
     bytes.set(chunk, offset);
     offset += chunk.byteLength;
   }
-  return { ok: true, bytes };
-}
-
-/** 400 with the first failing field's message and path. */
-export function invalidInput(error: z.ZodError): Response {
-  const [issue] = error.issues;
-  return errorResponse(400, issue.message, issue.path.join('.') || BODY_PATH);
+  return { ok: true, value: bytes };
 }
 
 /** The body as JSON, or undefined when it is empty; throws on text that is not JSON. */
@@ -86,22 +70,21 @@ export function parseJson(bytes: Uint8Array<ArrayBuffer>): unknown {
 }
 
 /**
- * Reads a JSON request body of at most `limit` bytes (one of BODY_LIMITS) and validates it; 413
- * past the limit, 400 with the first failing field's path otherwise. An empty body is validated
- * as `undefined`, so schemas with defaults accept it.
+ * Reads a JSON request body of at most `limit` bytes (one of BODY_LIMITS) and validates it;
+ * too-large past the limit, invalid with the first failing field's path otherwise. An empty body
+ * is validated as `undefined`, so schemas with defaults accept it.
  */
-export async function parseJsonBody<S extends z.ZodType>(request: Request, schema: S, limit: number): Promise<ParsedBody<z.infer<S>>> {
+export async function parseJsonBody<S extends z.ZodType>(request: Request, schema: S, limit: number): Promise<Result<z.infer<S>> | BodyFailure> {
   const body = await readBody(request, limit);
   if (!body.ok) return body;
   let raw: unknown;
   try {
-    const text = new TextDecoder().decode(body.bytes);
+    const text = new TextDecoder().decode(body.value);
     const oversized = findOversizedJson(text);
-    if (oversized) return { ok: false, response: errorResponse(400, `${oversizedJsonMessage('The request', oversized.reason)}.`, oversized.field ?? BODY_PATH) };
+    if (oversized) return fail({ kind: 'invalid', message: `${oversizedJsonMessage('The request', oversized.reason)}.`, path: oversized.field ?? BODY_PATH });
     raw = text.trim() ? JSON.parse(text) : undefined;
   } catch {
-    return { ok: false, response: errorResponse(400, 'Send a JSON body.', BODY_PATH) };
+    return fail({ kind: 'invalid', message: 'Send a JSON body.', path: BODY_PATH });
   }
-  const parsed = schema.safeParse(raw);
-  return parsed.success ? { ok: true, data: parsed.data } : { ok: false, response: invalidInput(parsed.error) };
+  return validate(schema, raw);
 }

@@ -2,7 +2,8 @@ import { and, asc, desc, eq } from 'drizzle-orm';
 import type { Database } from '../../db';
 import { comments, reviews, sheetRevisions, users } from '../../db/schema';
 import type { ReviewState, SheetComment, SheetReview, Verdict } from '../contract';
-import { findReviewState } from './sheets';
+import { insertAudit } from './audit';
+import { findReviewState, type Actor } from './sheets';
 
 /** Every comment on a sheet, oldest first, with its author's name. */
 export async function listComments(database: Database, sheetId: string): Promise<SheetComment[]> {
@@ -21,18 +22,20 @@ export async function listComments(database: Database, sheetId: string): Promise
     .orderBy(asc(comments.createdAt));
 }
 
-/** Adds a comment on one revision of a sheet. */
+/** Adds a comment on one revision of a sheet and its audit event, in one transaction. */
 export async function addComment(
   database: Database,
-  input: { sheetId: string; revision: number; authorId: string; body: string; anchor?: string },
+  input: { sheet: { id: string; teamId: string }; revision: number; body: string; anchor?: string; actor: Actor & { userId: string } },
 ): Promise<{ id: string }> {
-  const [row] = await database.write((db) =>
-    db
+  const { sheet, actor } = input;
+  return database.transaction(async (tx) => {
+    const [row] = await tx
       .insert(comments)
-      .values({ sheetId: input.sheetId, revision: input.revision, authorId: input.authorId, body: input.body, anchor: input.anchor ?? null })
-      .returning({ id: comments.id }),
-  );
-  return row;
+      .values({ sheetId: sheet.id, revision: input.revision, authorId: actor.userId, body: input.body, anchor: input.anchor ?? null })
+      .returning({ id: comments.id });
+    await insertAudit(tx, { teamId: sheet.teamId, actorId: actor.userId, action: 'sheet.comment', subject: sheet.id, detail: { revision: input.revision }, address: actor.address });
+    return row;
+  });
 }
 
 /** Every review of a sheet, newest first, with the reviewer's name. */
@@ -53,23 +56,33 @@ export async function listReviews(database: Database, sheetId: string): Promise<
 }
 
 /**
- * Records a verdict on one revision and makes it that revision's review state; the answer is the
- * sheet's state (its latest revision's), so a verdict on an older revision never reads as covering newer ones.
+ * Records a verdict on one revision, makes it that revision's review state and writes the audit
+ * event, in one transaction; the answer is the sheet's state (its latest revision's), so a verdict
+ * on an older revision never reads as covering newer ones.
  */
 export async function submitReview(
   database: Database,
-  input: { sheetId: string; revision: number; reviewerId: string; verdict: Verdict; body: string },
+  input: { sheet: { id: string; teamId: string }; revision: number; verdict: Verdict; body: string; actor: Actor & { userId: string } },
 ): Promise<{ id: string; status: ReviewState }> {
+  const { sheet, actor } = input;
   return database.transaction(async (tx) => {
     const [row] = await tx
       .insert(reviews)
-      .values({ sheetId: input.sheetId, revision: input.revision, reviewerId: input.reviewerId, verdict: input.verdict, body: input.body })
+      .values({ sheetId: sheet.id, revision: input.revision, reviewerId: actor.userId, verdict: input.verdict, body: input.body })
       .returning({ id: reviews.id });
     await tx
       .update(sheetRevisions)
       .set({ reviewState: input.verdict })
-      .where(and(eq(sheetRevisions.sheetId, input.sheetId), eq(sheetRevisions.number, input.revision)));
-    const state = await findReviewState(tx, input.sheetId);
+      .where(and(eq(sheetRevisions.sheetId, sheet.id), eq(sheetRevisions.number, input.revision)));
+    await insertAudit(tx, {
+      teamId: sheet.teamId,
+      actorId: actor.userId,
+      action: input.verdict === 'approved' ? 'sheet.approve' : 'sheet.request_changes',
+      subject: sheet.id,
+      detail: { revision: input.revision },
+      address: actor.address,
+    });
+    const state = await findReviewState(tx, sheet.id);
     return { id: row.id, status: state?.reviewState ?? 'draft' };
   });
 }

@@ -1,13 +1,13 @@
 import { and, desc, eq } from 'drizzle-orm';
 import type { Database } from '../../db';
 import { reviews, users } from '../../db/schema';
-import type { SheetPageData } from '../contract';
+import type { ReviewState, SheetPageData } from '../contract';
+import { fail, succeed, type Result } from '../result';
 import { can } from '../roles';
 import type { Identity } from './access';
 import { findSheet, getRevision, listForks } from './sheets';
 import { sheetQuery } from '../validation/sheet-exchange';
 
-export type SheetPageOutcome = { status: 'ok'; data: SheetPageData } | { status: 'missing'; message: string };
 
 type SheetRow = NonNullable<Awaited<ReturnType<typeof findSheet>>>;
 
@@ -27,17 +27,15 @@ async function findApprover(database: Database, sheetId: string, revision: numbe
  * Loads a sheet the identity may read for its page: the revision asked for (the latest when
  * none), its title block, where it was forked from and its forks, as far as the identity may read them.
  */
-export async function loadSheetPage(database: Database, identity: Identity, sheet: SheetRow, revisionParam: string | null): Promise<SheetPageOutcome> {
+export async function loadSheetPage(database: Database, identity: Identity, sheet: SheetRow, revisionParam: string | null): Promise<Result<SheetPageData>> {
   const membership = identity.memberships.find((m) => m.teamId === sheet.teamId);
   const query = sheetQuery.safeParse({ revision: revisionParam ?? undefined });
   const revision = query.success ? await getRevision(database, sheet.id, query.data.revision ?? sheet.latestRevision) : null;
-  if (!revision) return { status: 'missing', message: `Revision ${revisionParam} of this sheet does not exist.` };
+  if (!revision) return fail({ kind: 'not-found', message: `Revision ${revisionParam} of this sheet does not exist.`, path: 'revision' });
   const readable = identity.memberships.filter((m) => can(m.role, 'sheet.read')).map((m) => m.teamId);
   const origin = sheet.forkedFromSheetId ? await findSheet(database, sheet.forkedFromSheetId) : null;
   const forks = await listForks(database, sheet.id, readable);
-  return {
-    status: 'ok',
-    data: {
+  return succeed({
       sheet: { id: sheet.id, teamId: sheet.teamId, title: sheet.title, reviewState: sheet.reviewState, lastApprovedRevision: sheet.lastApprovedRevision, latestRevision: sheet.latestRevision },
       revision: {
         number: revision.number,
@@ -57,6 +55,5 @@ export async function loadSheetPage(database: Database, identity: Identity, shee
         .filter((m) => can(m.role, 'sheet.write'))
         .sort((a, b) => Number(b.teamId === sheet.teamId) - Number(a.teamId === sheet.teamId))
         .map((m) => ({ teamId: m.teamId, name: m.name })),
-    },
-  };
+  });
 }

@@ -185,9 +185,13 @@ export async function saveRevision(
   });
 }
 
-/** Marks a sheet deleted; its revisions stay in the database for the audit trail. */
-export async function deleteSheet(database: Database, sheetId: string): Promise<void> {
-  await database.write((db) => db.update(sheets).set({ deletedAt: new Date() }).where(eq(sheets.id, sheetId)));
+/** Marks a sheet deleted and writes the audit event in the same transaction; its revisions stay in the database for the audit trail. */
+export async function deleteSheet(database: Database, sheetId: string, actor: Actor): Promise<void> {
+  await database.transaction(async (tx) => {
+    const [sheet] = await tx.update(sheets).set({ deletedAt: new Date() }).where(eq(sheets.id, sheetId)).returning({ teamId: sheets.teamId, title: sheets.title });
+    if (!sheet) return;
+    await insertAudit(tx, { teamId: sheet.teamId, actorId: actor.userId, action: 'sheet.delete', subject: sheetId, detail: { title: sheet.title }, address: actor.address });
+  });
 }
 
 /** The review state of a sheet's latest revision: review state belongs to revisions, and a sheet shows its latest one's. */

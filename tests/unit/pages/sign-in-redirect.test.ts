@@ -66,7 +66,7 @@ describe('the middleware in front of pages', () => {
 
   it('renders a signed-in page for a caller with an identity', async () => {
     const created = await createApiToken(await getDatabase(), await demoIdentity('viewer'), { teamId: await demoTeamId(), name: 'page test', role: 'viewer' });
-    if (!created.ok) throw new Error(created.message);
+    if (!created.ok) throw new Error(created.error.message);
     const response = await callThroughMiddleware(page, { path: '/sheets', routePattern: '/sheets', headers: { authorization: `Bearer ${created.value.token}` } });
     expect(response.status).toBe(200);
   });

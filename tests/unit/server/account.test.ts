@@ -10,11 +10,11 @@ describe('changePassword', () => {
     const member = await addTestMember('editor', { password: 'the right password' });
     const identity = (await identityForUser(database, member.userId, 0))!;
     const input = { currentPassword: 'a wrong password', newPassword: 'the second password' };
-    for (let i = 0; i < 5; i++) expect(await changePassword(database, identity, input, null)).toMatchObject({ ok: false, status: 400 });
+    for (let i = 0; i < 5; i++) expect(await changePassword(database, identity, input, null)).toMatchObject({ ok: false, error: { kind: 'invalid' } });
 
     vi.resetModules();
     const restarted = await import('../../../src/lib/server/account');
     const refused = await restarted.changePassword(database, identity, { ...input, currentPassword: 'the right password' }, null);
-    expect(refused).toEqual({ ok: false, status: 429, message: 'Too many wrong passwords. Try again in 15 minutes.' });
+    expect(refused).toEqual({ ok: false, error: { kind: 'rate-limited', message: 'Too many wrong passwords. Try again in 15 minutes.' } });
   });
 });

@@ -4,6 +4,7 @@ import { apiTokens, auditEvents } from '../../../src/db/schema';
 import type { Identity } from '../../../src/lib/server/access';
 import { createApiToken, listApiTokens, listTeamApiTokens, revokeApiToken } from '../../../src/lib/server/api-tokens';
 import { getDatabase } from '../../../src/lib/server/database';
+import { statusOf } from '../../../src/lib/server/http';
 import { identityForToken, identityForUser } from '../../../src/lib/server/identity';
 import { removeMember } from '../../../src/lib/server/members';
 import { hashSecretToken } from '../../../src/lib/server/tokens';
@@ -23,7 +24,7 @@ beforeAll(async () => {
 
 async function mint(identity: Identity, role: 'owner' | 'editor' | 'reviewer' | 'viewer', name = 'test token') {
   const created = await createApiToken(await getDatabase(), identity, { teamId, name, role });
-  if (!created.ok) throw new Error(created.message);
+  if (!created.ok) throw new Error(created.error.message);
   return created.value;
 }
 
@@ -33,11 +34,11 @@ describe('createApiToken', () => {
     const outcomes = await Promise.all(
       (['owner', 'editor', 'reviewer', 'viewer'] as const).map(async (role) => [role, await createApiToken(database, editor, { teamId, name: `cap ${role}`, role })] as const),
     );
-    const statuses = Object.fromEntries(outcomes.map(([role, o]) => [role, o.ok ? 'created' : o.status]));
+    const statuses = Object.fromEntries(outcomes.map(([role, o]) => [role, o.ok ? 'created' : statusOf(o.error)]));
     // An editor lacks review and log upload, so a reviewer token would exceed the editor's rights.
     expect(statuses).toEqual({ owner: 403, editor: 'created', reviewer: 403, viewer: 'created' });
     const refused = outcomes[0][1];
-    expect(!refused.ok && refused.message).toMatch(/your role in .* is editor, so choose editor or lower/);
+    expect(!refused.ok && refused.error.message).toMatch(/your role in .* is editor, so choose editor or lower/);
     for (const role of ['owner', 'editor', 'reviewer', 'viewer'] as const) {
       expect((await createApiToken(database, owner, { teamId, name: `owner ${role}`, role })).ok).toBe(true);
     }
@@ -47,14 +48,16 @@ describe('createApiToken', () => {
     const database = await getDatabase();
     const outsider = await addTestMember('owner');
     const notMine = await createApiToken(database, editor, { teamId: outsider.teamId, name: 'x', role: 'viewer' });
-    expect(notMine).toMatchObject({ ok: false, status: 404 });
+    expect(notMine).toMatchObject({ ok: false, error: { kind: 'not-found' } });
 
     const { token } = await mint(editor, 'editor');
     const viaToken = (await identityForToken(database, token))!;
     expect(await createApiToken(database, viaToken, { teamId, name: 'minted by a token', role: 'viewer' })).toMatchObject({
       ok: false,
-      status: 403,
-      message: expect.stringMatching(/browser session/),
+      error: {
+        kind: 'forbidden',
+        message: expect.stringMatching(/browser session/),
+      },
     });
     const response = await callThroughMiddleware(createRoute, {
       method: 'POST',
@@ -127,11 +130,11 @@ describe('using and revoking a token', () => {
     const database = await getDatabase();
     const reviewer = await demoIdentity('reviewer');
     const { summary: first } = await mint(editor, 'viewer', 'revoke by owner');
-    expect(await revokeApiToken(database, reviewer, first.id)).toMatchObject({ ok: false, status: 404 });
+    expect(await revokeApiToken(database, reviewer, first.id)).toMatchObject({ ok: false, error: { kind: 'not-found' } });
     expect(await revokeApiToken(database, owner, first.id)).toMatchObject({ ok: true });
     const { summary: second } = await mint(editor, 'viewer', 'revoke by holder');
     expect(await revokeApiToken(database, editor, second.id)).toMatchObject({ ok: true });
-    expect(await revokeApiToken(database, editor, 'no-such-token')).toMatchObject({ ok: false, status: 404 });
+    expect(await revokeApiToken(database, editor, 'no-such-token')).toMatchObject({ ok: false, error: { kind: 'not-found' } });
   });
 
   it("lists every member's tokens of a team for the owner, active ones first, without secrets", async () => {

@@ -2,7 +2,6 @@ import { and, eq } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { auditEvents, invitations, memberships, users } from '../../../src/db/schema';
 import { getDatabase } from '../../../src/lib/server/database';
-import type { FakeSmtpServer } from '../../../src/lib/server/fake-smtp';
 import { identityForUser } from '../../../src/lib/server/identity';
 import {
   acceptInvitation,
@@ -18,9 +17,9 @@ import { POST as acceptRoute } from '../../../src/pages/api/invitations/accept';
 import { GET as listRoute, POST as createRoute } from '../../../src/pages/api/teams/[teamId]/invitations';
 import { DELETE as revokeRoute } from '../../../src/pages/api/teams/[teamId]/invitations/[invitationId]';
 import { addTestMember, callRoute, ORIGIN } from '../../helpers/api-context';
-import { linkIn, mailsTo, startTestOutbox, waitForMail } from '../../helpers/mail';
+import { linkIn, mailsTo, startTestOutbox, waitForMail, type TestOutbox } from '../../helpers/mail';
 
-let smtp: FakeSmtpServer;
+let smtp: TestOutbox;
 
 beforeAll(async () => {
   smtp = await startTestOutbox();
@@ -45,7 +44,7 @@ function newAddress(label: string): string {
 /** Invites `email` and returns the token from the link in the mail that arrived. */
 async function inviteAndReadToken(team: Awaited<ReturnType<typeof freshTeam>>, email: string, role: 'editor' | 'reviewer' | 'viewer' = 'reviewer', now?: number) {
   const created = await createInvitation(team.database, { teamId: team.teamId, inviter: team.identity.user, email, role, origin: ORIGIN, now });
-  if (!created.ok) throw new Error(created.message);
+  if (!created.ok) throw new Error(created.error.message);
   const mails = await mailsTo(email);
   const link = linkIn(mails[mails.length - 1].text, '/invite/');
   return { invitation: created.value, token: link.pathname.split('/').pop()!, link };
@@ -84,8 +83,8 @@ describe('invitations', () => {
 
     const preview = await previewInvitation(team.database, token);
     expect(preview).toMatchObject({ ok: true, value: { email, role: 'editor', hasAccount: false, inviterName: team.identity.user.name } });
-    expect(await acceptInvitation(team.database, { token })).toMatchObject({ ok: false, status: 400, path: 'name' });
-    expect(await acceptInvitation(team.database, { token, name: 'Ada Newcomer' })).toMatchObject({ ok: false, status: 400, path: 'password' });
+    expect(await acceptInvitation(team.database, { token })).toMatchObject({ ok: false, error: { kind: 'invalid', path: 'name' } });
+    expect(await acceptInvitation(team.database, { token, name: 'Ada Newcomer' })).toMatchObject({ ok: false, error: { kind: 'invalid', path: 'password' } });
 
     const accepted = await acceptInvitation(team.database, { token, name: 'Ada Newcomer', password: 'a long new password' });
     expect(accepted).toMatchObject({ ok: true, value: { email, teamId: team.teamId, role: 'editor', createdAccount: true } });
@@ -99,8 +98,10 @@ describe('invitations', () => {
 
     expect(await acceptInvitation(team.database, { token, name: 'Someone Else', password: 'another long password' })).toEqual({
       ok: false,
-      status: 410,
-      message: 'This invitation was already used.',
+      error: {
+        kind: 'gone',
+        message: 'This invitation was already used.',
+      },
     });
     expect(await listPendingInvitations(team.database, team.teamId)).toEqual([]);
     const actions = await team.database.db
@@ -134,8 +135,10 @@ describe('invitations', () => {
     const refused = await acceptInvitation(team.database, { token, name: 'Late Person', password: 'a long new password', now: afterExpiry });
     expect(refused).toEqual({
       ok: false,
-      status: 410,
-      message: `This invitation has expired; ask ${team.identity.user.name} (the team owner) for a new one.`,
+      error: {
+        kind: 'gone',
+        message: `This invitation has expired; ask ${team.identity.user.name} (the team owner) for a new one.`,
+      },
     });
     expect(await listPendingInvitations(team.database, team.teamId, afterExpiry)).toEqual([]);
   });
@@ -145,15 +148,15 @@ describe('invitations', () => {
     const email = newAddress('twice');
     const first = await inviteAndReadToken(team, email);
     const second = await inviteAndReadToken(team, email, 'viewer');
-    expect(await previewInvitation(team.database, first.token)).toMatchObject({ ok: false, status: 410, message: expect.stringMatching(/^This invitation was withdrawn; ask/) });
+    expect(await previewInvitation(team.database, first.token)).toMatchObject({ ok: false, error: { kind: 'gone', message: expect.stringMatching(/^This invitation was withdrawn; ask/) } });
     expect((await listPendingInvitations(team.database, team.teamId)).map((i) => i.id)).toEqual([second.invitation.id]);
 
     const revoked = await revokeInvitation(team.database, { teamId: team.teamId, invitationId: second.invitation.id, actorId: team.owner.userId });
     expect(revoked).toMatchObject({ ok: true, value: { email } });
-    expect(await acceptInvitation(team.database, { token: second.token, name: 'X', password: 'a long new password' })).toMatchObject({ ok: false, status: 410 });
+    expect(await acceptInvitation(team.database, { token: second.token, name: 'X', password: 'a long new password' })).toMatchObject({ ok: false, error: { kind: 'gone' } });
     expect(await revokeInvitation(team.database, { teamId: team.teamId, invitationId: second.invitation.id, actorId: team.owner.userId })).toMatchObject({
       ok: false,
-      status: 404,
+      error: { kind: 'not-found' },
     });
   });
 
@@ -162,9 +165,9 @@ describe('invitations', () => {
     const member = await addTestMember('editor', { teamId: team.teamId });
     expect(
       await createInvitation(team.database, { teamId: team.teamId, inviter: team.identity.user, email: member.email.toUpperCase(), role: 'viewer', origin: ORIGIN }),
-    ).toMatchObject({ ok: false, status: 409, path: 'email' });
-    expect(await previewInvitation(team.database, 'inv_not-a-real-token')).toMatchObject({ ok: false, status: 404 });
-    expect(await previewInvitation(team.database, 'slp_wrong-prefix')).toMatchObject({ ok: false, status: 404 });
+    ).toMatchObject({ ok: false, error: { kind: 'conflict', path: 'email' } });
+    expect(await previewInvitation(team.database, 'inv_not-a-real-token')).toMatchObject({ ok: false, error: { kind: 'not-found' } });
+    expect(await previewInvitation(team.database, 'slp_wrong-prefix')).toMatchObject({ ok: false, error: { kind: 'not-found' } });
   });
 });
 

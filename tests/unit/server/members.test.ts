@@ -29,8 +29,8 @@ describe('members', () => {
   it('refuses to demote or remove the last owner with 409 and a message that says what to do', async () => {
     const { database, teamId, owner, ownerIdentity } = await freshTeam();
     const demoted = await changeRole(database, ownerIdentity, teamId, owner.userId, 'editor');
-    expect(demoted).toMatchObject({ ok: false, status: 409, message: expect.stringMatching(/at least one owner.*make someone else owner first/) });
-    expect(await removeMember(database, ownerIdentity, teamId, owner.userId)).toMatchObject({ ok: false, status: 409 });
+    expect(demoted).toMatchObject({ ok: false, error: { kind: 'conflict', message: expect.stringMatching(/at least one owner.*make someone else owner first/) } });
+    expect(await removeMember(database, ownerIdentity, teamId, owner.userId)).toMatchObject({ ok: false, error: { kind: 'conflict' } });
     expect((await listMembers(database, teamId)).find((m) => m.userId === owner.userId)?.role).toBe('owner');
 
     const response = await callRoute(patchMember, {
@@ -64,8 +64,8 @@ describe('members', () => {
   it('answers 404 for someone who is not in the team and records nothing for a no-op change', async () => {
     const { database, teamId, editor, ownerIdentity } = await freshTeam();
     const stranger = await addTestMember('owner');
-    expect(await changeRole(database, ownerIdentity, teamId, stranger.userId, 'viewer')).toMatchObject({ ok: false, status: 404 });
-    expect(await removeMember(database, ownerIdentity, teamId, stranger.userId)).toMatchObject({ ok: false, status: 404 });
+    expect(await changeRole(database, ownerIdentity, teamId, stranger.userId, 'viewer')).toMatchObject({ ok: false, error: { kind: 'not-found' } });
+    expect(await removeMember(database, ownerIdentity, teamId, stranger.userId)).toMatchObject({ ok: false, error: { kind: 'not-found' } });
     expect(await changeRole(database, ownerIdentity, teamId, editor.userId, 'editor')).toMatchObject({ ok: true });
     const events = await database.db.select().from(auditEvents).where(and(eq(auditEvents.teamId, teamId), eq(auditEvents.action, 'team.role_change')));
     expect(events).toHaveLength(0);

@@ -2,7 +2,6 @@ import { and, eq } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { auditEvents, passwordResets, users } from '../../../src/db/schema';
 import { getDatabase } from '../../../src/lib/server/database';
-import type { FakeSmtpServer } from '../../../src/lib/server/fake-smtp';
 import { verifyPassword } from '../../../src/lib/server/passwords';
 import {
   checkPasswordResetToken,
@@ -14,9 +13,9 @@ import { hashSecretToken } from '../../../src/lib/server/tokens';
 import { POST as requestRoute } from '../../../src/pages/api/account/password-reset';
 import { POST as confirmRoute } from '../../../src/pages/api/account/password-reset/confirm';
 import { addTestMember, callRoute, ORIGIN } from '../../helpers/api-context';
-import { linkIn, mailsTo, startTestOutbox, waitForMail } from '../../helpers/mail';
+import { linkIn, mailsTo, startTestOutbox, waitForMail, type TestOutbox } from '../../helpers/mail';
 
-let smtp: FakeSmtpServer;
+let smtp: TestOutbox;
 
 beforeAll(async () => {
   smtp = await startTestOutbox();
@@ -58,8 +57,10 @@ describe('password reset', () => {
 
     expect(await confirmPasswordReset(database, { token, password: 'yet another password' })).toMatchObject({
       ok: false,
-      status: 410,
-      message: expect.stringMatching(/^This reset link was already used/),
+      error: {
+        kind: 'gone',
+        message: expect.stringMatching(/^This reset link was already used/),
+      },
     });
   });
 
@@ -70,8 +71,11 @@ describe('password reset', () => {
     const later = Date.now() + PASSWORD_RESET_LIFETIME_MS + 1_000;
     expect(await confirmPasswordReset(database, { token, password: 'too late password', now: later })).toEqual({
       ok: false,
-      status: 410,
-      message: 'This reset link has expired; ask for a new one.',
+      error: {
+        kind: 'gone',
+        message: 'This reset link has expired; ask for a new one.',
+        path: 'token',
+      },
     });
   });
 
@@ -81,7 +85,7 @@ describe('password reset', () => {
     const first = await requestAndReadToken(member.email);
     const second = await requestAndReadToken(member.email);
     expect(first).not.toBe(second);
-    expect(await checkPasswordResetToken(database, first)).toMatchObject({ ok: false, status: 404 });
+    expect(await checkPasswordResetToken(database, first)).toMatchObject({ ok: false, error: { kind: 'not-found' } });
     expect(await checkPasswordResetToken(database, second)).toMatchObject({ ok: true });
 
     const nobody = `nobody-${crypto.randomUUID().slice(0, 8)}@slipless.example`;

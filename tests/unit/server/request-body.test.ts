@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { z } from 'zod';
+import { respond } from '../../../src/lib/server/http';
 import { BODY_LIMITS, parseJsonBody, readBody } from '../../../src/lib/server/request-body';
 
 /** A POST whose body streams `bytes` in 16 KiB chunks without a Content-Length; `state.pulled` counts what was taken. */
@@ -28,8 +29,9 @@ describe('readBody', () => {
     const read = await readBody(request, BODY_LIMITS.sheet);
     expect(read.ok).toBe(false);
     if (read.ok) return;
-    expect(read.response.status).toBe(413);
-    expect(await message(read.response)).toMatch(/1 MiB/);
+    const response = respond(read);
+    expect(response.status).toBe(413);
+    expect(await message(response)).toMatch(/1 MiB/);
     expect(request.bodyUsed).toBe(false);
   });
 
@@ -38,15 +40,16 @@ describe('readBody', () => {
     const read = await readBody(request, BODY_LIMITS.form);
     expect(read.ok).toBe(false);
     if (read.ok) return;
-    expect(read.response.status).toBe(413);
-    expect(await message(read.response)).toMatch(/64 KiB/);
+    const response = respond(read);
+    expect(response.status).toBe(413);
+    expect(await message(response)).toMatch(/64 KiB/);
     expect(state.pulled).toBeLessThanOrEqual(BODY_LIMITS.form + 16 * 1024);
   });
 
   it('returns a body within the limit whole', async () => {
     const { request } = streamingPost(48 * 1024);
     const read = await readBody(request, BODY_LIMITS.form);
-    expect(read.ok && read.bytes.byteLength).toBe(48 * 1024);
+    expect(read.ok && read.value.byteLength).toBe(48 * 1024);
   });
 });
 
@@ -55,14 +58,14 @@ describe('parseJsonBody', () => {
 
   it('validates a body within its limit and names the failing field', async () => {
     const good = await parseJsonBody(new Request('http://x/', { method: 'POST', body: '{"name":"Ada"}' }), schema, BODY_LIMITS.form);
-    expect(good).toEqual({ ok: true, data: { name: 'Ada' } });
+    expect(good).toEqual({ ok: true, value: { name: 'Ada' } });
     const bad = await parseJsonBody(new Request('http://x/', { method: 'POST', body: '{"name":"a very long name"}' }), schema, BODY_LIMITS.form);
-    expect(!bad.ok && (await bad.response.json())).toMatchObject({ error: { path: 'name' } });
+    expect(!bad.ok && (await respond(bad).json())).toMatchObject({ error: { path: 'name' } });
   });
 
   it('answers 413 rather than parsing a body over its limit', async () => {
     const body = JSON.stringify({ name: 'x'.repeat(BODY_LIMITS.form) });
     const parsed = await parseJsonBody(new Request('http://x/', { method: 'POST', body }), schema, BODY_LIMITS.form);
-    expect(!parsed.ok && parsed.response.status).toBe(413);
+    expect(!parsed.ok && respond(parsed).status).toBe(413);
   });
 });

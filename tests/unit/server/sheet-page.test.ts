@@ -16,7 +16,7 @@ beforeAll(async () => {
 
 afterAll(async () => {
   // Other tests read the demo team's seeded sheets only.
-  await deleteSheet(await getDatabase(), sheetId);
+  await deleteSheet(await getDatabase(), sheetId, { userId: null });
 });
 
 describe('loadSheetPage', () => {
@@ -28,11 +28,11 @@ describe('loadSheetPage', () => {
   }
 
   it('opens the latest revision without a query and a named one with plain digits', async () => {
-    expect(await load(null)).toMatchObject({ status: 'ok', data: { revision: { number: 1 } } });
-    expect(await load('1')).toMatchObject({ status: 'ok', data: { revision: { number: 1 } } });
+    expect(await load(null)).toMatchObject({ ok: true, value: { revision: { number: 1 } } });
+    expect(await load('1')).toMatchObject({ ok: true, value: { revision: { number: 1 } } });
   });
 
   it.each(['0x1', '1e0', '1.0', '0', '-1', ' 1', '<script>'])('reads the revision %j as no revision, not as a number', async (revision) => {
-    expect(await load(revision)).toMatchObject({ status: 'missing' });
+    expect(await load(revision)).toMatchObject({ ok: false, error: { kind: 'not-found' } });
   });
 });

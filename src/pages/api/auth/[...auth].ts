@@ -2,6 +2,7 @@ import type { APIRoute } from 'astro';
 import { AstroAuth } from 'auth-astro/server';
 import { CLIENT_ADDRESS_HEADER } from '../../../consts';
 import { publicUrl } from '../../../lib/server/public-origin';
+import { respond } from '../../../lib/server/http';
 import { BODY_LIMITS, readBody } from '../../../lib/server/request-body';
 
 const { GET: authGet, POST: authPost } = AstroAuth();
@@ -16,9 +17,9 @@ function forAuth(handler: typeof authGet): APIRoute {
     const headers = new Headers(context.request.headers);
     headers.set(CLIENT_ADDRESS_HEADER, context.clientAddress);
     const body = await readBody(context.request, BODY_LIMITS.auth);
-    if (!body.ok) return body.response;
+    if (!body.ok) return respond(body);
     const { method } = context.request;
-    const request = new Request(publicUrl(context.request.url), { method, headers, body: method === 'GET' || method === 'HEAD' ? undefined : body.bytes });
+    const request = new Request(publicUrl(context.request.url), { method, headers, body: method === 'GET' || method === 'HEAD' ? undefined : body.value });
     return (await handler({ ...context, request })) ?? new Response('Not found', { status: 404 });
   };
 }

@@ -144,7 +144,7 @@ const ROWS: Row[] = [
     variant: "the demo editor's token",
     prepare: async (fx) => {
       const created = await createApiToken(await getDatabase(), fx.sessions.editor, { teamId: fx.teamId, name: 'to revoke', role: 'viewer' });
-      if (!created.ok) throw new Error(created.message);
+      if (!created.ok) throw new Error(created.error.message);
       return { params: { tokenId: created.value.summary.id } };
     },
     expect: { none: 401, viewer: 404, reviewer: 404, editor: 204, owner: 204, token: 403, revoked: 401, other: 404 },

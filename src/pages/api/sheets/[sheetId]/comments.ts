@@ -1,5 +1,6 @@
 import type { APIRoute } from 'astro';
-import { errorResponse } from '../../../../lib/server/access';
+import { fail } from '../../../../lib/result';
+import { respond } from '../../../../lib/server/http';
 import { BODY_LIMITS, parseJsonBody } from '../../../../lib/server/request-body';
 import { addComment, listComments } from '../../../../lib/server/reviews';
 import { requireSheet } from '../../../../lib/server/sheet-access';
@@ -8,18 +9,19 @@ import { commentBody } from '../../../../lib/validation/reviews';
 
 export const GET = (async ({ params, locals }) => {
   const access = await requireSheet(locals.identity, params.sheetId, 'sheet.read');
-  if (!access.ok) return access.response;
-  const { database, sheet } = access;
+  if (!access.ok) return respond(access);
+  const { database, sheet } = access.value;
   return Response.json({ items: await listComments(database, sheet.id) });
 }) satisfies APIRoute;
 
-export const POST = (async ({ params, request, locals }) => {
+export const POST = (async ({ params, request, locals, clientAddress }) => {
   const access = await requireSheet(locals.identity, params.sheetId, 'sheet.comment');
-  if (!access.ok) return access.response;
-  const { database, sheet } = access;
+  if (!access.ok) return respond(access);
+  const { database, sheet, identity } = access.value;
   const body = await parseJsonBody(request, commentBody, BODY_LIMITS.form);
-  if (!body.ok) return body.response;
-  if (!(await getRevision(database, sheet.id, body.data.revision))) return errorResponse(400, `Revision ${body.data.revision} does not exist.`, 'revision');
-  const created = await addComment(database, { sheetId: sheet.id, authorId: access.identity.user.id, ...body.data });
+  if (!body.ok) return respond(body);
+  const { revision } = body.value;
+  if (!(await getRevision(database, sheet.id, revision))) return respond(fail({ kind: 'invalid', message: `Revision ${revision} does not exist.`, path: 'revision' }));
+  const created = await addComment(database, { sheet, ...body.value, actor: { userId: identity.user.id, address: clientAddress } });
   return Response.json(created, { status: 201 });
 }) satisfies APIRoute;

@@ -1,7 +1,7 @@
 import type { APIRoute } from 'astro';
-import { errorResponse } from '../../../../lib/server/access';
-import { invalidDocument } from '../../../../lib/server/http';
-import { invalidInput } from '../../../../lib/server/request-body';
+import { fail } from '../../../../lib/result';
+import { notFound } from '../../../../lib/server/access';
+import { documentIssues, respond, validateQuery } from '../../../../lib/server/http';
 import { requireSheet } from '../../../../lib/server/sheet-access';
 import { exportDocument, exportFileName, exportResultsCsv } from '../../../../lib/server/sheet-files';
 import { getRevision } from '../../../../lib/server/sheets';
@@ -9,21 +9,21 @@ import { exportQuery } from '../../../../lib/validation/sheet-exchange';
 
 export const GET = (async ({ params, url, locals }) => {
   const access = await requireSheet(locals.identity, params.sheetId, 'sheet.read');
-  if (!access.ok) return access.response;
-  const { database, sheet } = access;
-  const query = exportQuery.safeParse(Object.fromEntries(url.searchParams));
-  if (!query.success) return invalidInput(query.error);
-  const number = query.data.revision ?? sheet.latestRevision;
+  if (!access.ok) return respond(access);
+  const { database, sheet } = access.value;
+  const query = validateQuery(url, exportQuery);
+  if (!query.ok) return respond(query);
+  const number = query.value.revision ?? sheet.latestRevision;
   const revision = await getRevision(database, sheet.id, number);
-  if (!revision) return errorResponse(404, `Revision ${number} does not exist.`, 'revision');
-  const fileName = exportFileName(sheet.title, number, query.data.format);
+  if (!revision) return respond(notFound(`Revision ${number} does not exist.`, 'revision'));
+  const fileName = exportFileName(sheet.title, number, query.value.format);
   const disposition = `attachment; filename="${fileName}"`;
-  if (query.data.format === 'json') {
+  if (query.value.format === 'json') {
     return new Response(`${JSON.stringify(exportDocument(revision.inputs), null, 2)}\n`, {
       headers: { 'content-type': 'application/json; charset=utf-8', 'content-disposition': disposition },
     });
   }
   const table = exportResultsCsv(revision.inputs);
-  if (!table.ok) return invalidDocument(table.issues);
+  if (!table.ok) return respond(fail(documentIssues(table.issues)));
   return new Response(table.csv, { headers: { 'content-type': 'text/csv; charset=utf-8; header=present', 'content-disposition': disposition } });
 }) satisfies APIRoute;

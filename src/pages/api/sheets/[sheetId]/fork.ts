@@ -8,19 +8,19 @@ import { forkBody } from '../../../../lib/validation/sheets';
 
 export const POST = (async ({ params, request, locals, clientAddress }) => {
   const source = await requireSheet(locals.identity, params.sheetId, 'sheet.read');
-  if (!source.ok) return source.response;
-  const { database, sheet } = source;
+  if (!source.ok) return respond(source);
+  const { database, sheet, identity } = source.value;
   const body = await parseJsonBody(request, forkBody, BODY_LIMITS.form);
-  if (!body.ok) return body.response;
-  const targetTeamId = body.data.teamId ?? sheet.teamId;
-  const access = requirePermission(source.identity, targetTeamId, 'sheet.write');
-  if (!access.ok) return access.response;
+  if (!body.ok) return respond(body);
+  const targetTeamId = body.value.teamId ?? sheet.teamId;
+  const access = requirePermission(identity, targetTeamId, 'sheet.write');
+  if (!access.ok) return respond(access);
   const fork = await forkSheet(database, {
     source: sheet,
-    revision: body.data.revision ?? sheet.latestRevision,
-    title: body.data.title,
+    revision: body.value.revision ?? sheet.latestRevision,
+    title: body.value.title,
     targetTeamId,
-    actor: { userId: access.identity.user.id, address: clientAddress },
+    actor: { userId: identity.user.id, address: clientAddress },
   });
   return respond(fork, 201);
 }) satisfies APIRoute;

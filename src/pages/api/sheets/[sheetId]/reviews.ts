@@ -1,6 +1,6 @@
 import type { APIRoute } from 'astro';
-import { errorResponse } from '../../../../lib/server/access';
-import { recordAudit } from '../../../../lib/server/audit';
+import { fail } from '../../../../lib/result';
+import { respond } from '../../../../lib/server/http';
 import { BODY_LIMITS, parseJsonBody } from '../../../../lib/server/request-body';
 import { listReviews, submitReview } from '../../../../lib/server/reviews';
 import { requireSheet } from '../../../../lib/server/sheet-access';
@@ -9,8 +9,8 @@ import { reviewBody } from '../../../../lib/validation/reviews';
 
 export const GET = (async ({ params, locals }) => {
   const access = await requireSheet(locals.identity, params.sheetId, 'sheet.read');
-  if (!access.ok) return access.response;
-  const { database, sheet } = access;
+  if (!access.ok) return respond(access);
+  const { database, sheet } = access.value;
   return Response.json({
     status: sheet.reviewState,
     latestRevision: sheet.latestRevision,
@@ -21,19 +21,12 @@ export const GET = (async ({ params, locals }) => {
 
 export const POST = (async ({ params, request, locals, clientAddress }) => {
   const access = await requireSheet(locals.identity, params.sheetId, 'sheet.review');
-  if (!access.ok) return access.response;
-  const { database, sheet } = access;
+  if (!access.ok) return respond(access);
+  const { database, sheet, identity } = access.value;
   const body = await parseJsonBody(request, reviewBody, BODY_LIMITS.form);
-  if (!body.ok) return body.response;
-  if (!(await getRevision(database, sheet.id, body.data.revision))) return errorResponse(400, `Revision ${body.data.revision} does not exist.`, 'revision');
-  const review = await submitReview(database, { sheetId: sheet.id, reviewerId: access.identity.user.id, ...body.data });
-  await recordAudit(database, {
-    teamId: sheet.teamId,
-    actorId: access.identity.user.id,
-    action: body.data.verdict === 'approved' ? 'sheet.approve' : 'sheet.request_changes',
-    subject: sheet.id,
-    detail: { revision: body.data.revision },
-    address: clientAddress,
-  });
+  if (!body.ok) return respond(body);
+  const { revision } = body.value;
+  if (!(await getRevision(database, sheet.id, revision))) return respond(fail({ kind: 'invalid', message: `Revision ${revision} does not exist.`, path: 'revision' }));
+  const review = await submitReview(database, { sheet, ...body.value, actor: { userId: identity.user.id, address: clientAddress } });
   return Response.json(review, { status: 201 });
 }) satisfies APIRoute;

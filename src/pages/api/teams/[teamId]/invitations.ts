@@ -1,6 +1,7 @@
 import type { APIRoute } from 'astro';
-import { errorResponse, requirePermission } from '../../../../lib/server/access';
+import { requirePermission } from '../../../../lib/server/access';
 import { getDatabase } from '../../../../lib/server/database';
+import { respond } from '../../../../lib/server/http';
 import { createInvitation, listPendingInvitations } from '../../../../lib/server/invitations';
 import { BODY_LIMITS, parseJsonBody } from '../../../../lib/server/request-body';
 import { createInvitationSchema } from '../../../../lib/validation/invitations';
@@ -9,24 +10,24 @@ import { publicOrigin } from '../../../../lib/server/public-origin';
 export const GET = (async ({ locals, params }) => {
   const teamId = params.teamId ?? '';
   const access = requirePermission(locals.identity, teamId, 'team.manage');
-  if (!access.ok) return access.response;
+  if (!access.ok) return respond(access);
   return Response.json({ invitations: await listPendingInvitations(await getDatabase(), teamId) });
 }) satisfies APIRoute;
 
 export const POST = (async ({ locals, params, request, url, clientAddress }) => {
   const teamId = params.teamId ?? '';
   const access = requirePermission(locals.identity, teamId, 'team.manage');
-  if (!access.ok) return access.response;
+  if (!access.ok) return respond(access);
   const body = await parseJsonBody(request, createInvitationSchema, BODY_LIMITS.form);
-  if (!body.ok) return body.response;
+  if (!body.ok) return respond(body);
   const created = await createInvitation(await getDatabase(), {
     teamId,
-    inviter: access.identity.user,
-    email: body.data.email,
-    role: body.data.role,
+    inviter: access.value.identity.user,
+    email: body.value.email,
+    role: body.value.role,
     origin: publicOrigin(url),
     address: clientAddress,
   });
-  if (!created.ok) return errorResponse(created.status, created.message, created.path);
+  if (!created.ok) return respond(created);
   return Response.json({ invitation: created.value }, { status: 201 });
 }) satisfies APIRoute;
