@@ -1,3 +1,4 @@
+import type { FakeSmtpServer } from '../../../src/lib/server/fake-smtp';
 import { and, eq } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { auditEvents, passwordResets, users } from '../../../src/db/schema';
@@ -13,9 +14,9 @@ import { hashSecretToken } from '../../../src/lib/server/tokens';
 import { POST as requestRoute } from '../../../src/pages/api/account/password-reset';
 import { POST as confirmRoute } from '../../../src/pages/api/account/password-reset/confirm';
 import { addTestMember, callRoute, ORIGIN } from '../../helpers/api-context';
-import { linkIn, mailsTo, startTestOutbox, waitForMail, type TestOutbox } from '../../helpers/mail';
+import { linkIn, mailsTo, startTestOutbox, waitForMail } from '../../helpers/mail';
 
-let smtp: TestOutbox;
+let smtp: FakeSmtpServer;
 
 beforeAll(async () => {
   smtp = await startTestOutbox();
