@@ -10,7 +10,7 @@ import rehypeKatex from 'rehype-katex';
 
 export default defineConfig({
   output: 'server',
-  adapter: node({ mode: 'standalone' }),
+  adapter: node({ mode: 'middleware' }),
   integrations: [react(), mdx(), auth({ configFile: './src/auth.config.ts', injectEndpoints: false })],
   markdown: { remarkPlugins: [remarkMath], rehypePlugins: [rehypeKatex] },
   security: {
@@ -24,9 +24,23 @@ export default defineConfig({
   },
   image: { service: { entrypoint: 'astro/assets/services/noop' } },
   vite: { plugins: [tailwindcss()], build: { assetsInlineLimit: 0 } },
+  // Every setting the server reads, declared once; all are read from the environment at run time
+  // (server secrets), so one build serves any install. README.md's settings table explains each.
   env: {
     schema: {
       DATABASE_URL: envField.string({ context: 'server', access: 'secret', optional: true }),
+      AUTH_SECRET: envField.string({ context: 'server', access: 'secret', optional: true }),
+      PUBLIC_ORIGIN: envField.string({ context: 'server', access: 'secret', optional: true }),
+      TRUSTED_PROXIES: envField.string({ context: 'server', access: 'secret', optional: true }),
+      HOST: envField.string({ context: 'server', access: 'secret', optional: true }),
+      PORT: envField.number({ context: 'server', access: 'secret', optional: true, int: true, gt: 0 }),
+      MAILBOX_DIR: envField.string({ context: 'server', access: 'secret', optional: true }),
+      SMTP_HOST: envField.string({ context: 'server', access: 'secret', optional: true }),
+      SMTP_PORT: envField.number({ context: 'server', access: 'secret', optional: true, int: true, gt: 0 }),
+      SMTP_SECURE: envField.boolean({ context: 'server', access: 'secret', default: false }),
+      SMTP_USER: envField.string({ context: 'server', access: 'secret', optional: true }),
+      SMTP_PASSWORD: envField.string({ context: 'server', access: 'secret', optional: true }),
+      SMTP_FROM: envField.string({ context: 'server', access: 'secret', optional: true }),
     },
   },
 });

@@ -8,6 +8,9 @@ import { getViteConfig } from 'astro/config';
 // here; tests/helpers/test-database.ts migrates and seeds it before any test file runs.
 process.env.DATABASE_URL = `file:${join(mkdtempSync(join(tmpdir(), 'slipless-vitest-')), 'app.db')}`;
 
+// Mail goes to the local mailbox (no SMTP_HOST in tests); its folder is this run's, never the working copy's data/mail.
+process.env.MAILBOX_DIR = mkdtempSync(join(tmpdir(), 'slipless-mailbox-'));
+
 process.env.AUTH_SECRET ??= 'test-only-secret-not-for-production-use-0123456789';
 
 export default getViteConfig({

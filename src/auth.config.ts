@@ -3,9 +3,11 @@ import { CredentialsSignin } from '@auth/core/errors';
 import Nodemailer from '@auth/core/providers/nodemailer';
 import { DrizzleAdapter } from '@auth/drizzle-adapter';
 import type { Adapter } from '@auth/core/adapters';
+import { AUTH_SECRET } from 'astro:env/server';
 import { defineConfig } from 'auth-astro';
 import { passwordSignInSchema } from './lib/validation/auth';
 import { accounts, sessions, users, verificationTokens } from './db/schema';
+import { storedAuthSecret } from './lib/server/bootstrap';
 import { getDatabase } from './lib/server/database';
 import { recordAudit } from './lib/server/audit';
 import { endSession, getMemberships } from './lib/server/identity';
@@ -57,7 +59,8 @@ async function auditSignIn(userId: string | null, action: string, address: strin
 }
 
 export default defineConfig({
-  secret: process.env.AUTH_SECRET,
+  // Without AUTH_SECRET, the one kept in the database (the start command warns where that is unsafe).
+  secret: AUTH_SECRET || (await storedAuthSecret(await getDatabase())),
   trustHost: true,
   session: { strategy: 'jwt', maxAge: SESSION_MAX_AGE_S },
   adapter: await queuedAdapter(),

@@ -3,21 +3,29 @@ import { join } from 'node:path';
 import { and, desc, eq, type SQL } from 'drizzle-orm';
 import { simpleParser } from 'mailparser';
 import { mailOutbox, type OutboxMail } from '../../src/db/schema';
+import { vi } from 'vitest';
 import { getDatabase } from '../../src/lib/server/database';
-import { startFakeSmtp, useFakeSmtp, type FakeSmtpServer } from '../../src/lib/server/fake-smtp';
-import { makeTempDir } from './temp';
+import { mailboxDir } from '../../src/lib/server/local-mailbox';
 
-export interface TestOutbox extends FakeSmtpServer {
-  /** The lines the fake server printed to its log, oldest first. */
+export interface TestOutbox {
+  /** Absolute path of the folder that receives one .eml file per mail (MAILBOX_DIR, a temp folder set in vitest.config.ts). */
+  mailboxDir: string;
+  /** The mail entries the app printed to its log, oldest first. */
   log: string[];
+  /** Stops capturing the log. */
+  close(): Promise<void>;
 }
 
-/** Starts the fake SMTP server on a free loopback port with its own mailbox folder and a captured log, and points sendMail at it. */
+/** Captures the local mailbox's log entries (no relay is set in the tests, so every mail goes to the mailbox). */
 export async function startTestOutbox(): Promise<TestOutbox> {
   const log: string[] = [];
-  const server = await startFakeSmtp(await getDatabase(), { mailboxDir: makeTempDir('slipless-mailbox-'), log: (line) => log.push(line) });
-  useFakeSmtp(server);
-  return Object.assign(server, { log });
+  const print = console.log;
+  const spy = vi.spyOn(console, 'log').mockImplementation((...args: unknown[]) => {
+    const line = args.map(String).join(' ');
+    if (line.startsWith('Mail to ')) log.push(line);
+    else print(...args);
+  });
+  return { mailboxDir: mailboxDir(process.env.MAILBOX_DIR), log, close: async () => spy.mockRestore() };
 }
 
 /** The newest mail caught for `to` (with `subject`, when given), waiting up to `timeoutMs` for one to arrive. */

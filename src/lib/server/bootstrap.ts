@@ -31,15 +31,8 @@ export function authSecretWarning(env: NodeJS.ProcessEnv): string | null {
   );
 }
 
-/**
- * The secret that signs session cookies: AUTH_SECRET when set, else one generated once and kept
- * in the database, so sessions survive restarts without any setup (with a warning on an install
- * that others use).
- */
-export async function ensureAuthSecret(database: Database): Promise<string> {
-  if (process.env.AUTH_SECRET) return process.env.AUTH_SECRET;
-  const warning = authSecretWarning(process.env);
-  if (warning) console.warn(warning);
+/** The generated secret that signs session cookies when AUTH_SECRET is unset: made once and kept in the database, so sessions survive restarts without any setup. */
+export async function storedAuthSecret(database: Database): Promise<string> {
   await database.write((db) =>
     db.insert(appMeta).values({ key: 'auth_secret', value: randomBytes(32).toString('base64url') }).onConflictDoNothing(),
   );
@@ -47,15 +40,27 @@ export async function ensureAuthSecret(database: Database): Promise<string> {
   return row.value;
 }
 
+/**
+ * The secret that signs session cookies: AUTH_SECRET when set, else the stored one, with a
+ * warning at start on an install that others use.
+ */
+export async function ensureAuthSecret(database: Database, env: NodeJS.ProcessEnv = process.env): Promise<string> {
+  if (env.AUTH_SECRET) return env.AUTH_SECRET;
+  const warning = authSecretWarning(env);
+  if (warning) console.warn(warning);
+  return storedAuthSecret(database);
+}
+
 /** Opens, migrates, write-probes and (only when empty) seeds the database named by DATABASE_URL. */
-export async function prepareDatabase(url: string): Promise<{ database: Database; seed: SeedOutcome; authSecret: string }> {
+export async function prepareDatabase(url: string): Promise<{ database: Database; seed: SeedOutcome }> {
   let database: Database | undefined;
   try {
     database = await openDatabase(url);
     await migrateDatabase(database);
     await recordStart(database);
     const seed = await seedDemoData(database);
-    return { database, seed, authSecret: await ensureAuthSecret(database) };
+    await ensureAuthSecret(database);
+    return { database, seed };
   } catch (error) {
     database?.close();
     const reason = error instanceof Error ? (error.cause instanceof Error ? error.cause.message : error.message) : String(error);

@@ -1,12 +1,12 @@
 import { readFileSync, statSync } from 'node:fs';
-import { basename, dirname, join } from 'node:path';
+import { basename, dirname, join, resolve } from 'node:path';
 import { getSession } from 'auth-astro/server';
 import { simpleParser } from 'mailparser';
 import { eq } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { mailOutbox } from '../../../src/db/schema';
 import { getDatabase } from '../../../src/lib/server/database';
-import { startFakeSmtp } from '../../../src/lib/server/fake-smtp';
+import { keepMail, mailboxDir } from '../../../src/lib/server/local-mailbox';
 import { sendMail } from '../../../src/lib/server/email';
 import { identityForUser } from '../../../src/lib/server/identity';
 import { createInvitation, INVITATION_LIFETIME_MS } from '../../../src/lib/server/invitations';
@@ -31,15 +31,16 @@ function cookiePairs(response: Response): string[] {
   return response.headers.getSetCookie().map((cookie) => cookie.split(';')[0]);
 }
 
-describe('local fake SMTP server', () => {
-  it('listens on loopback only and points sendMail at itself', () => {
-    expect(smtp.host).toBe('127.0.0.1');
-    expect(smtp.port).toBeGreaterThan(0);
-    expect(process.env.SMTP_HOST).toBe('127.0.0.1');
-    expect(process.env.SMTP_PORT).toBe(String(smtp.port));
+describe('local mailbox (no SMTP_HOST)', () => {
+  it('keeps mail in this process: no relay is started and no relay setting is written into the environment', async () => {
+    const to = `local-${crypto.randomUUID().slice(0, 8)}@slipless.example`;
+    await sendMail({ to, subject: 'Kept locally', text: 'Nothing is delivered.' });
+    expect(await waitForMail(to)).toMatchObject({ subject: 'Kept locally' });
+    expect(process.env.SMTP_HOST).toBeUndefined();
+    expect(process.env.SMTP_PORT).toBeUndefined();
   });
 
-  it('accepts mail without authentication and stores it parsed (decoded subject, text and HTML)', async () => {
+  it('stores each mail parsed (decoded subject, text and HTML)', async () => {
     const to = `parsed-${crypto.randomUUID().slice(0, 8)}@slipless.example`;
     await sendMail({
       to,
@@ -67,23 +68,19 @@ describe('local fake SMTP server', () => {
     expect((await simpleParser(readFileSync(file))).subject).toBe('Logged');
   });
 
-  it('saves into MAILBOX_DIR when no folder is given, creating it', async () => {
+  it('saves into MAILBOX_DIR (else data/mail), creating the folder', async () => {
+    expect(mailboxDir(undefined)).toBe(resolve('data/mail'));
+    expect(mailboxDir(' ')).toBe(resolve('data/mail'));
     const dir = join(makeTempDir(), 'nested', 'mail');
-    const saved = process.env.MAILBOX_DIR;
-    process.env.MAILBOX_DIR = dir;
-    try {
-      const server = await startFakeSmtp(await getDatabase(), { log: () => {} });
-      expect(server.mailboxDir).toBe(dir);
-      expect(statSync(dir).isDirectory()).toBe(true);
-      await server.close();
-    } finally {
-      if (saved === undefined) delete process.env.MAILBOX_DIR;
-      else process.env.MAILBOX_DIR = saved;
-    }
+    expect(mailboxDir(dir)).toBe(dir);
+    const raw = 'To: someone@slipless.example\nSubject: Nested\n\nBody\n';
+    await keepMail(await getDatabase(), { folder: dir, raw, recipients: 'someone@slipless.example', log: () => {} });
+    expect(statSync(dir).isDirectory()).toBe(true);
+    expect(statSync(dir).mode & 0o077).toBe(0);
   });
 });
 
-describe('mail round trips through the fake SMTP server', () => {
+describe('mail round trips through the local mailbox', () => {
   it('delivers an invitation whose link accepts once', async () => {
     const database = await getDatabase();
     const owner = await addTestMember('owner');

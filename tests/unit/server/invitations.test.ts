@@ -1,4 +1,3 @@
-import type { FakeSmtpServer } from '../../../src/lib/server/fake-smtp';
 import { and, eq } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { auditEvents, invitations, memberships, users } from '../../../src/db/schema';
@@ -18,9 +17,9 @@ import { POST as acceptRoute } from '../../../src/pages/api/invitations/accept';
 import { GET as listRoute, POST as createRoute } from '../../../src/pages/api/teams/[teamId]/invitations';
 import { DELETE as revokeRoute } from '../../../src/pages/api/teams/[teamId]/invitations/[invitationId]';
 import { addTestMember, callRoute, ORIGIN } from '../../helpers/api-context';
-import { linkIn, mailsTo, startTestOutbox, waitForMail } from '../../helpers/mail';
+import { linkIn, mailsTo, startTestOutbox, waitForMail, type TestOutbox } from '../../helpers/mail';
 
-let smtp: FakeSmtpServer;
+let smtp: TestOutbox;
 
 beforeAll(async () => {
   smtp = await startTestOutbox();

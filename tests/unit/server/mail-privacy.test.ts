@@ -59,13 +59,13 @@ describe('nobody reads mail addressed to someone else', () => {
     const mail = await waitForMail(person.email, { subject: 'Your Slipless sign-in link' });
     const link = linkIn(mail.text, '/api/auth/callback/nodemailer').href;
 
-    // The mail table is written by the fake SMTP server and read by nothing in the app, so no page,
+    // The mail table is written by the local mailbox and read by nothing in the app, so no page,
     // route or island can show a team owner (or anyone) mail addressed to another person.
     const readers = sourceFiles('src')
       .filter((file) => /mailOutbox|mail_outbox/.test(readFileSync(file, 'utf8')))
       .map((file) => relative('src', file).replaceAll('\\', '/'))
       .sort();
-    expect(readers).toEqual(['db/schema.ts', 'lib/server/fake-smtp.ts']);
+    expect(readers).toEqual(['db/schema.ts', 'lib/server/local-mailbox.ts']);
 
     const saved = readdirSync(outbox.mailboxDir).filter((name) => name.endsWith('.eml') && name.includes(person.email));
     const parsed = await Promise.all(saved.map(async (name) => simpleParser(readFileSync(join(outbox.mailboxDir, name)))));

@@ -1,4 +1,3 @@
-import type { FakeSmtpServer } from '../../../src/lib/server/fake-smtp';
 import { and, eq } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { auditEvents, passwordResets, users } from '../../../src/db/schema';
@@ -14,9 +13,9 @@ import { hashSecretToken } from '../../../src/lib/server/tokens';
 import { POST as requestRoute } from '../../../src/pages/api/account/password-reset';
 import { POST as confirmRoute } from '../../../src/pages/api/account/password-reset/confirm';
 import { addTestMember, callRoute, ORIGIN } from '../../helpers/api-context';
-import { linkIn, mailsTo, startTestOutbox, waitForMail } from '../../helpers/mail';
+import { linkIn, mailsTo, startTestOutbox, waitForMail, type TestOutbox } from '../../helpers/mail';
 
-let smtp: FakeSmtpServer;
+let smtp: TestOutbox;
 
 beforeAll(async () => {
   smtp = await startTestOutbox();

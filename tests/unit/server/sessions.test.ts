@@ -1,4 +1,3 @@
-import type { FakeSmtpServer } from '../../../src/lib/server/fake-smtp';
 import { eq } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { users } from '../../../src/db/schema';
@@ -7,11 +6,11 @@ import { getDatabase } from '../../../src/lib/server/database';
 import { identityForUser } from '../../../src/lib/server/identity';
 import { confirmPasswordReset, requestPasswordReset } from '../../../src/lib/server/password-reset';
 import { addTestMember, ORIGIN } from '../../helpers/api-context';
-import { linkIn, mailsTo, startTestOutbox } from '../../helpers/mail';
+import { linkIn, mailsTo, startTestOutbox, type TestOutbox } from '../../helpers/mail';
 
 // Ending every session when the password changes or is reset is common practice.
 
-let smtp: FakeSmtpServer;
+let smtp: TestOutbox;
 
 beforeAll(async () => {
   smtp = await startTestOutbox();

@@ -1,4 +1,3 @@
-import type { FakeSmtpServer } from '../../../../src/lib/server/fake-smtp';
 import { eq } from 'drizzle-orm';
 import { afterAll, beforeAll, beforeEach, describe, expect, it, vi } from 'vitest';
 import { createHash } from 'node:crypto';
@@ -8,14 +7,14 @@ import { verifyPassword } from '../../../../src/lib/server/passwords';
 import { LINK_REQUEST_RECIPIENT } from '../../../../src/lib/server/rate-limit';
 import { GET as authGet, POST as authPost } from '../../../../src/pages/api/auth/[...auth]';
 import { addTestMember, cookieJar, ORIGIN } from '../../../helpers/api-context';
-import { mailsTo, startTestOutbox, waitForMail } from '../../../helpers/mail';
+import { mailsTo, startTestOutbox, waitForMail, type TestOutbox } from '../../../helpers/mail';
 
 vi.mock('../../../../src/lib/server/passwords', async (importOriginal) => {
   const actual = await importOriginal<typeof import('../../../../src/lib/server/passwords')>();
   return { ...actual, verifyPassword: vi.fn(actual.verifyPassword) };
 });
 
-let smtp: FakeSmtpServer;
+let smtp: TestOutbox;
 
 beforeAll(async () => {
   smtp = await startTestOutbox();

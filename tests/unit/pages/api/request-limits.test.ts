@@ -1,4 +1,3 @@
-import type { FakeSmtpServer } from '../../../../src/lib/server/fake-smtp';
 import { readFileSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Identity } from '../../../../src/lib/server/access';
@@ -7,7 +6,7 @@ import { deleteSheet } from '../../../../src/lib/server/sheets';
 import { createTestSheet } from '../../../helpers/test-sheets';
 import { getDatabase } from '../../../../src/lib/server/database';
 import { apiContext, callThroughMiddleware, demoIdentity, demoTeamId, ORIGIN, type Handler } from '../../../helpers/api-context';
-import { linkIn, startTestOutbox, waitForMail } from '../../../helpers/mail';
+import { linkIn, startTestOutbox, waitForMail, type TestOutbox } from '../../../helpers/mail';
 import * as authRoute from '../../../../src/pages/api/auth/[...auth]';
 import * as passwordRoute from '../../../../src/pages/api/account/password';
 import * as resetRoute from '../../../../src/pages/api/account/password-reset';
@@ -29,7 +28,7 @@ const exampleDocument = JSON.parse(readFileSync('content/sheets/line4-peg-tilt.j
 let owner: Identity;
 let teamId: string;
 let sheetId: string;
-let smtp: FakeSmtpServer;
+let smtp: TestOutbox;
 
 beforeAll(async () => {
   owner = await demoIdentity('owner');
