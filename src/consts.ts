@@ -5,5 +5,5 @@ export const DATABASE_BUSY_TIMEOUT_MS = 5_000;
 /** Request header through which the auth endpoint passes the client's address to Auth.js. */
 export const CLIENT_ADDRESS_HEADER = 'x-slipless-client-address';
 export const TEAM_COOKIE = 'slipless_team';
-/** Folder where the local fake SMTP server saves each mail as an .eml file (MAILBOX_DIR overrides it). */
+/** Folder where the local mailbox saves each mail as an .eml file when no relay is set (MAILBOX_DIR overrides it). */
 export const DEFAULT_MAILBOX_DIR = 'data/mail';

@@ -223,7 +223,7 @@ export const passwordResets = sqliteTable('password_resets', {
   createdAt: createdAt(),
 });
 
-/** Mail caught by the local fake SMTP server when no real relay is configured (development and demo). */
+/** Mail kept by the local mailbox when no real relay is configured (development and demo). */
 export const mailOutbox = sqliteTable(
   'mail_outbox',
   {
