@@ -1,52 +1,20 @@
-import { createReadStream } from 'node:fs';
-import { stat } from 'node:fs/promises';
 import type { IncomingMessage, ServerResponse } from 'node:http';
-import { extname, resolve, sep } from 'node:path';
+import { resolve } from 'node:path';
+import send from 'send';
 import type { NodeHandler } from './edge';
 
-/** The types of the files a build puts in dist/client (Astro's bundles, fonts, the favicon, the sheet JSON Schema). */
-const CONTENT_TYPES: Record<string, string> = {
-  '.js': 'text/javascript; charset=utf-8',
-  '.mjs': 'text/javascript; charset=utf-8',
-  '.css': 'text/css; charset=utf-8',
-  '.json': 'application/json; charset=utf-8',
-  '.map': 'application/json; charset=utf-8',
-  '.svg': 'image/svg+xml',
-  '.png': 'image/png',
-  '.jpg': 'image/jpeg',
-  '.ico': 'image/x-icon',
-  '.webp': 'image/webp',
-  '.woff': 'font/woff',
-  '.woff2': 'font/woff2',
-  '.ttf': 'font/ttf',
-  '.txt': 'text/plain; charset=utf-8',
-  '.wasm': 'application/wasm',
-};
-
 /** Astro names its bundles after their content, so a browser may keep them for a year (common practice for hashed assets). */
-const IMMUTABLE = 'public, max-age=31536000, immutable';
-
-/** The file under `root` that `pathname` names, or null for a path that leaves it or cannot be decoded. */
-function fileFor(root: string, pathname: string): string | null {
-  let decoded: string;
-  try {
-    decoded = decodeURIComponent(pathname);
-  } catch {
-    return null;
-  }
-  if (decoded.includes('\0')) return null;
-  const file = resolve(root, `.${decoded}`);
-  return file.startsWith(root + sep) ? file : null;
-}
+const ONE_YEAR_MS = 365 * 24 * 60 * 60 * 1000;
 
 /**
  * Astro's built handler (`mode: 'middleware'`, which starts no server of its own) behind the
- * files of the build's client folder: a GET or HEAD for an existing file is answered from
- * `clientDir`, anything else goes to the app.
+ * files of the build's client folder, served by `send` as the adapter's standalone mode does: a
+ * GET or HEAD for an existing file is answered from `clientDir` (with ETag, ranges and
+ * conditional requests), anything else goes to the app.
  */
 export function withStaticFiles(app: NodeHandler, clientDir: string): NodeHandler {
   const root = resolve(clientDir);
-  return async (req: IncomingMessage, res: ServerResponse) => {
+  return (req: IncomingMessage, res: ServerResponse) => {
     const url = req.url ?? '/';
     try {
       decodeURI(url);
@@ -55,17 +23,21 @@ export function withStaticFiles(app: NodeHandler, clientDir: string): NodeHandle
       res.end('Bad request.');
       return;
     }
+    if (req.method !== 'GET' && req.method !== 'HEAD') return app(req, res);
     const pathname = url.split(/[?#]/, 1)[0];
-    const file = req.method === 'GET' || req.method === 'HEAD' ? fileFor(root, pathname) : null;
-    const found = file ? await stat(file).catch(() => null) : null;
-    if (!file || !found?.isFile()) return app(req, res);
-    res.writeHead(200, {
-      'Content-Type': CONTENT_TYPES[extname(file).toLowerCase()] ?? 'application/octet-stream',
-      'Content-Length': found.size,
-      'Last-Modified': found.mtime.toUTCString(),
-      'Cache-Control': pathname.startsWith('/_astro/') ? IMMUTABLE : 'public, max-age=0',
-    });
-    if (req.method === 'HEAD') return res.end();
-    createReadStream(file).on('error', () => res.destroy()).pipe(res);
+    const hashed = pathname.startsWith('/_astro/');
+    let fileFound = false;
+    // Before a file is found, an error means no such file (or a path outside root, a dotfile):
+    // like a directory, the app answers it.
+    send(req, pathname, { root, index: false, maxAge: hashed ? ONE_YEAR_MS : 0, immutable: hashed })
+      .on('file', () => (fileFound = true))
+      .on('directory', () => app(req, res))
+      .on('error', (error) => {
+        if (!fileFound) return app(req, res);
+        if (res.headersSent) return res.destroy();
+        res.writeHead(error.status ?? 500);
+        res.end();
+      })
+      .pipe(res);
   };
 }
