@@ -287,6 +287,11 @@ function steer(finger: Finger, contact: Contact, out: SteerAndRoll, rollDirectio
       delta = Math.atan2(sin, cos);
       aligned = reachable && (firstUsable || secondUsable);
     }
+    if (!aligned) {
+      delta = leastSlipPivotChange(D, u);
+      cos = Math.cos(delta);
+      sin = Math.sin(delta);
+    }
   }
   const dx = D[0] + D[3] * cos + D[6] * sin;
   const dy = D[1] + D[4] * cos + D[7] * sin;
@@ -308,6 +313,63 @@ function steer(finger: Finger, contact: Contact, out: SteerAndRoll, rollDirectio
     const crossX = dy * u[2] - dz * u[1], crossY = dz * u[0] - dx * u[2], crossZ = dx * u[1] - dy * u[0];
     out.misalignment = Math.atan2(Math.sqrt(crossX * crossX + crossY * crossY + crossZ * crossZ), Math.abs(du));
   }
+}
+
+/** Pivot samples of the least-slip search: fine enough that the best sample lies in the basin of the best angle. */
+const SLIP_SEARCH_SAMPLES = 72;
+/** Golden-section steps refining the best sample: the bracket of 2 (2 pi / samples) shrinks below 1e-11 rad. */
+const SLIP_SEARCH_STEPS = 56;
+const GOLDEN = (Math.sqrt(5) - 1) / 2;
+
+/**
+ * Pivot change (rad) minimising the slip |u - (u . d / |d|^2) d| that remains when no angle aligns the roll
+ * direction d(delta) with the remainder u, i.e. maximising (u . d)^2 / |d|^2, a ratio of trigonometric
+ * polynomials of orders 2 and 2 whose stationary points are the roots of one of order 3 (no closed form worth
+ * its rounding): samples the turn from the current angle outwards, so of equal samples the smaller change
+ * wins, then refines the best by golden section.
+ */
+function leastSlipPivotChange(D: Float64Array, u: Float64Array): number {
+  const step = (2 * Math.PI) / SLIP_SEARCH_SAMPLES;
+  let best = 0, bestGain = rolledGain(D, u, 0);
+  for (let k = 1; k <= SLIP_SEARCH_SAMPLES / 2; k++) {
+    for (let side = 1; side >= -1; side -= 2) {
+      const delta = side * k * step;
+      const gain = rolledGain(D, u, delta);
+      if (gain > bestGain * (1 + 1e-12)) {
+        best = delta;
+        bestGain = gain;
+      }
+    }
+  }
+  let low = best - step, high = best + step;
+  let left = high - GOLDEN * (high - low), right = low + GOLDEN * (high - low);
+  let leftGain = rolledGain(D, u, left), rightGain = rolledGain(D, u, right);
+  for (let i = 0; i < SLIP_SEARCH_STEPS; i++) {
+    if (leftGain >= rightGain) {
+      high = right;
+      right = left;
+      rightGain = leftGain;
+      left = high - GOLDEN * (high - low);
+      leftGain = rolledGain(D, u, left);
+    } else {
+      low = left;
+      left = right;
+      leftGain = rightGain;
+      right = low + GOLDEN * (high - low);
+      rightGain = rolledGain(D, u, right);
+    }
+  }
+  const refined = 0.5 * (low + high);
+  const chosen = rolledGain(D, u, refined) > bestGain ? refined : best;
+  return Math.atan2(Math.sin(chosen), Math.cos(chosen));
+}
+
+/** (u . d)^2 / |d|^2 at pivot change delta: the part of |u|^2 the roll joint supplies (0 where d vanishes). */
+function rolledGain(D: Float64Array, u: Float64Array, delta: number): number {
+  const c = Math.cos(delta), s = Math.sin(delta);
+  const x = D[0] + D[3] * c + D[6] * s, y = D[1] + D[4] * c + D[7] * s, z = D[2] + D[5] * c + D[8] * s;
+  const dd = x * x + y * y + z * z, du = x * u[0] + y * u[1] + z * u[2];
+  return dd > 0 ? (du * du) / dd : 0;
 }
 
 function rollDirectionSquared(D: Float64Array, c: number, s: number): number {
