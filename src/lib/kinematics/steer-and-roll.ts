@@ -227,7 +227,16 @@ function driveConditioning(finger: Finger, contact: Contact, settings: SolverSet
  * direction d(delta) = R w_roll x e - R g is linear in (1, cos, sin), so aligning it with the
  * remainder u (m . d = 0 for m = n x u) is a + b cos delta + c sin delta = 0. Uses rollDirection
  * for D0, D1, D2 and writes the cosine and sine of the chosen pivot change into pivotTurn.
+ * Choice of angle: of the two roots the nearer one; with no root the least-slip angle; when d vanishes at every
+ * angle (contact on the roll axis, so every angle satisfies the equation) the current angle with roll rate 0, so
+ * that rounding does not pick the angle or the roll direction.
  */
+/**
+ * Roll directions below this fraction of the lever arms at every pivot angle are rounding: the contact lies on
+ * the roll axis whatever the pivot does (perturbations of 1e-9 m stay below it for lever arms above 1 mm).
+ */
+const ROLL_AXIS_NOISE = 1e-6;
+
 function steer(finger: Finger, contact: Contact, out: SteerAndRoll, rollDirection: Float64Array, pivotTurn: Float64Array): void {
   const uNorm = out.remainderNorm;
   const axes = finger.axes, points = finger.points;
@@ -254,7 +263,11 @@ function steer(finger: Finger, contact: Contact, out: SteerAndRoll, rollDirectio
 
   let delta = 0, cos = 1, sin = 0;
   let aligned = false;
-  if (uNorm > 0) {
+  let scale = 0;
+  for (let i = 0; i < 9; i++) scale += D[i] * D[i];
+  const lever = Math.sqrt(ex * ex + ey * ey + ez * ez) + Math.sqrt(sx * sx + sy * sy + sz * sz);
+  const rollable = scale > ROLL_AXIS_NOISE * ROLL_AXIS_NOISE * lever * lever;
+  if (uNorm > 0 && rollable) {
     const mx = (nrm[1] * u[2] - nrm[2] * u[1]) / uNorm;
     const my = (nrm[2] * u[0] - nrm[0] * u[2]) / uNorm;
     const mz = (nrm[0] * u[1] - nrm[1] * u[0]) / uNorm;
@@ -275,8 +288,6 @@ function steer(finger: Finger, contact: Contact, out: SteerAndRoll, rollDirectio
       const cosSecond = cosPhi * cosSpread + sinPhi * sinSpread, sinSecond = sinPhi * cosSpread - cosPhi * sinSpread;
       // A root where d vanishes aligns nothing; of the usable roots take the one nearer the current
       // angle, i.e. the one with the larger cosine.
-      let scale = 0;
-      for (let i = 0; i < 9; i++) scale += D[i] * D[i];
       const firstUsable = rollDirectionSquared(D, cosFirst, sinFirst) > 1e-18 * scale;
       const secondUsable = rollDirectionSquared(D, cosSecond, sinSecond) > 1e-18 * scale;
       if (firstUsable && (!secondUsable || cosFirst >= cosSecond)) {
@@ -304,10 +315,10 @@ function steer(finger: Finger, contact: Contact, out: SteerAndRoll, rollDirectio
   out.pivotAngle = finger.angles[finger.pivotIndex] + delta;
   out.aligned = aligned || uNorm === 0;
   out.rollDistance = Math.sqrt(dd);
-  out.rollRate = dd > 0 ? du / dd : 0;
+  out.rollRate = rollable && dd > 0 ? du / dd : 0;
   out.rates[finger.rollIndex] = out.rollRate;
   // An exact alignment leaves only rounding between d and u; the angle matters only when it is real.
-  if (aligned || !(dd > 0 && uNorm > 0)) {
+  if (aligned || !(rollable && dd > 0 && uNorm > 0)) {
     out.misalignment = 0;
   } else {
     const crossX = dy * u[2] - dz * u[1], crossY = dz * u[0] - dx * u[2], crossZ = dx * u[1] - dy * u[0];

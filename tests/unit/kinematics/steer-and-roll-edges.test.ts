@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import { createObject } from '../../../src/lib/kinematics/contact';
 import type { Vec3Like } from '../../../src/lib/kinematics/vec3';
 import { ball, solveFinger } from './single-finger';
 import { threeFingerFinger } from './three-finger-sheet';
@@ -54,5 +55,43 @@ describe('steer-and-roll at the edges', () => {
       // Vectors at the chosen angle: the reported residual is the slip left there.
       expect(steer.residualNorm).toBeCloseTo(slipWithPivotAt(pivotAxis, rollAxis, velocity, steer.pivotAngle), 12);
     });
+  });
+
+  describe('when every pivot angle satisfies the steering equation (contact on the roll axis), a stated choice', () => {
+    /** The 40 mm ball of the test hand moved by offset (m), with a twist that needs rolling. */
+    const ballAt = (offset: [number, number, number]) =>
+      createObject({ shape: { kind: 'sphere', radius: 0.04 }, pose: { position: offset, orientation: { w: 1, x: 0, y: 0, z: 0 } }, twist: { linear: [0.01, 0.02, 0.02], angular: [0, 0, 0] } });
+    // Hand derivation: roll axis along the pivot axis (the contact normal x) through the roller centre, contact
+    // at centre - rho x on that axis, so d(delta) = w_roll x (y - r_roll) = x x (-rho x) = 0 at every angle.
+    const rollOnPivot = () => {
+      const input = threeFingerFinger(0);
+      input.joints[2] = { ...input.joints[2], axis: [1, 0, 0] };
+      return input;
+    };
+    // Hand derivation: roll axis vertical through the contact point itself; the pivot (x through the centre)
+    // passes the contact, so every pivot angle keeps the contact on the turned roll axis and d = 0 again.
+    const rollThroughContact = () => {
+      const input = threeFingerFinger(0);
+      input.joints[2] = { ...input.joints[2], point: [0.04, 0, 0] };
+      return input;
+    };
+
+    for (const [name, fixture] of [['roll axis along the pivot axis', rollOnPivot], ['roll axis through the contact', rollThroughContact]] as const) {
+      it(`${name}: keeps the current pivot angle and rolls at 0, whichever way the object moves by 1e-15 or 1e-9 m`, () => {
+        const reference = solveFinger(fixture(), ballAt([0, 0, 0])).steer;
+        // Stated rule: the smallest pivot change (none) and no roll rate, since no angle lets the roller supply anything.
+        expect(reference.pivotChange).toBe(0);
+        expect(reference.rollRate).toBe(0);
+        for (const size of [1e-15, -1e-15, 1e-9, -1e-9]) {
+          for (const axis of [0, 1, 2]) {
+            const offset: [number, number, number] = [0, 0, 0];
+            offset[axis] = size;
+            const { steer } = solveFinger(fixture(), ballAt(offset));
+            expect(steer.pivotChange, `offset ${offset}`).toBe(0);
+            expect(Math.sign(steer.rollRate), `offset ${offset}`).toBe(0);
+          }
+        }
+      });
+    }
   });
 });
