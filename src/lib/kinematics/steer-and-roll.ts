@@ -22,7 +22,10 @@ export interface SteerAndRoll {
   /** v_o(x) - baseRate (w_base x (y - r_base)), m/s: what the roller must supply. */
   remainder: Float64Array;
   remainderNorm: number;
-  /** Pivot change from the current angle and the steered pivot angle, rad. */
+  /**
+   * Pivot change from the current angle and the steered pivot angle, rad: of the aligning angles the nearer; else the
+   * least-slip angle; the current angle when the roll direction vanishes at every angle (contact on the roll axis).
+   */
   pivotChange: number;
   pivotAngle: number;
   /** The roll direction could be aligned exactly with the remainder. */
@@ -37,7 +40,7 @@ export interface SteerAndRoll {
   rates: Float64Array;
   /** Translational Jacobian after steering (3 x joints, m/rad). */
   jacobianAfter: Matrix;
-  /** J_after rates, m/s; residual v_o(x) - achieved and its norm. */
+  /** J_after rates, m/s; residual v_o(x) - achieved and its norm: the slip left after steering. */
   achieved: Float64Array;
   residual: Float64Array;
   residualNorm: number;

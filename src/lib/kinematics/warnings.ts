@@ -143,8 +143,8 @@ export const WARNING_CATALOGUE: Readonly<Record<WarningCode, WarningInfo>> = {
     title: 'Steering cannot align the roll direction',
     message: 'No pivot angle points the roll direction along the velocity the roller must produce.',
     explanation:
-      'The pivot turns the roll direction on a cone that does not contain the needed direction; the steer-and-roll solution uses the closest pivot angle and leaves the misalignment as slip.',
-    unit: 'rad',
+      'The pivot turns the roll direction on a cone that does not contain the needed direction; the steer-and-roll solution uses the pivot angle that leaves the least slip, and the value is that slip.',
+    unit: 'm/s',
   },
   SLIP_REQUIRED: {
     severity: 'caution',
@@ -294,7 +294,7 @@ export function checkFinger(list: WarningList, i: number, finger: Finger, contac
   // The steer direction comes from what the roller must supply after the base motion.
   const steerSpeed = steer.available ? steer.remainderNorm : contact.tangentialSpeed;
   if (steerSpeed < settings.minTangentialSpeed) raiseWarning(list, 'TANGENTIAL_SPEED_NEAR_ZERO', i, undefined, steerSpeed, settings.minTangentialSpeed);
-  else if (steer.available && !steer.aligned) raiseWarning(list, 'STEER_CANNOT_ALIGN', i, finger.pivotIndex, steer.misalignment, 0);
+  else if (steer.available && !steer.aligned) raiseWarning(list, 'STEER_CANNOT_ALIGN', i, finger.pivotIndex, steer.residualNorm, 0);
 
   const basis = judgedBasis(steer);
   const rankRatio = judgedRankRatio(full, steer);

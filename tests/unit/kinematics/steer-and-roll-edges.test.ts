@@ -1,8 +1,9 @@
 import { describe, expect, it } from 'vitest';
 import { createObject } from '../../../src/lib/kinematics/contact';
+import { solveSheet } from '../../../src/lib/kinematics/scene';
 import type { Vec3Like } from '../../../src/lib/kinematics/vec3';
 import { ball, solveFinger } from './single-finger';
-import { threeFingerFinger } from './three-finger-sheet';
+import { threeFingerFinger, threeFingerSheet } from './three-finger-sheet';
 
 /**
  * Finger 0 of the test hand with its pivot and roll axes replaced (both still through the roller centre, so
@@ -54,6 +55,18 @@ describe('steer-and-roll at the edges', () => {
       expect(Math.abs(gap)).toBeLessThan((2 * Math.PI) / 3600);
       // Vectors at the chosen angle: the reported residual is the slip left there.
       expect(steer.residualNorm).toBeCloseTo(slipWithPivotAt(pivotAxis, rollAxis, velocity, steer.pivotAngle), 12);
+    });
+
+    it('STEER_CANNOT_ALIGN carries the slip that remains (m/s), not 0 and not an angle', () => {
+      const doc = threeFingerSheet();
+      doc.hand.fingers[0] = tiltedFinger(pivotAxis, rollAxis);
+      doc.object.twist = { linear: velocity, angular: [0, 0, 0] };
+      const result = solveSheet(doc);
+      const warning = result.warnings.find((w) => w.code === 'STEER_CANNOT_ALIGN' && w.finger === 0);
+      // Vectors at the chosen angle (as in the scan above): the value is the slip left there.
+      const slip = slipWithPivotAt(pivotAxis, rollAxis, velocity, result.fingers[0].steer.pivotAngle);
+      expect(slip).toBeGreaterThan(1e-3);
+      expect(warning?.value).toBeCloseTo(slip, 12);
     });
   });
 
