@@ -1,4 +1,4 @@
-import { readFileSync } from 'node:fs';
+import { readdirSync, readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { readSheetFile } from '../../../src/lib/server/sheet-files';
 import { evaluateSheet } from '../../../src/lib/sheet/evaluate';
@@ -24,7 +24,7 @@ describe('inputs outside physically meaningful ranges', () => {
     doc.object.twist.angular[0] = 1e308;
     const issues = issuesOf(doc);
     expect(issues.map((i) => i.path)).toEqual(['object.twist.angular[0]']);
-    expect(issues[0]!.message).toMatch(/rad\/s/);
+    expect(issues[0]!.message).toBe('must lie between -10000 rad/s and 10000 rad/s');
   });
 
   it('refuses an object radius of 1e300 m at its path, naming the range', () => {
@@ -50,7 +50,9 @@ describe('inputs outside physically meaningful ranges', () => {
 
   it('still reads every example sheet', () => {
     const dir = new URL('../../../content/sheets/', import.meta.url);
-    for (const name of ['line4-peg-tilt.json', 'line4-bearing-housing-quarter-turn.json', 'line4-capsule-pin-flip.json', 'line4-egg-part-seam.json', 'line4-filleted-cube-tumble.json', 'line4-gauge-ball-off-centre.json', 'line4-retrofit-finger-review.json']) {
+    const names = readdirSync(dir).filter((name) => name.endsWith('.json'));
+    expect(names.length).toBeGreaterThan(0);
+    for (const name of names) {
       const evaluated = evaluateSheet(JSON.parse(readFileSync(new URL(name, dir), 'utf8')));
       expect(evaluated.ok, name).toBe(true);
     }
