@@ -8,6 +8,7 @@
 import { readFileSync, realpathSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { ROTATION_METRICS, runSheet, sweepSheet, toPlainRunRecord, warningsAt, type RunRecord, type SweepRecord } from '../lib/kinematics';
+import { jsonSyntaxIssue } from '../lib/server/sheet-files';
 import { evaluateSheet, type SheetEvaluation } from '../lib/sheet/evaluate';
 import { csvTable, FINGER_COLUMNS, fingerRows, maxJointCount, rateColumns, resultsCsv } from '../lib/sheet/results-csv';
 
@@ -45,14 +46,6 @@ function parseArguments(args: readonly string[]): Options {
   return { file, format, run, sweep };
 }
 
-/** Line and column (1-based) of a character offset in text. */
-function lineAndColumn(text: string, offset: number): string {
-  const before = text.slice(0, offset);
-  const line = before.split('\n').length;
-  const column = offset - before.lastIndexOf('\n');
-  return `${line}:${column}`;
-}
-
 function evaluateFile(file: string): SheetEvaluation {
   let text: string;
   try {
@@ -64,10 +57,9 @@ function evaluateFile(file: string): SheetEvaluation {
   try {
     json = JSON.parse(text);
   } catch (error) {
-    const message = (error as Error).message;
-    const position = /position (\d+)/.exec(message);
-    const where = position ? lineAndColumn(text, Number(position[1])) : lineAndColumn(text, text.length);
-    throw new InputError(`${file}:${where}: invalid JSON: ${message}`);
+    const issue = jsonSyntaxIssue(text);
+    if (issue?.line === undefined) throw new InputError(`${file}: invalid JSON: ${(error as Error).message}`);
+    throw new InputError(`${file}:${issue.line}:${issue.column}: invalid JSON: ${issue.message}`);
   }
   const evaluated = evaluateSheet(json);
   if (!evaluated.ok) {

@@ -59,6 +59,16 @@ function syntaxIssue(text: string, error: ParseError): FileIssue {
   return { message: `Invalid JSON at line ${line}, column ${column}: ${SYNTAX_MESSAGES[code] ?? code}${found}.`, line, column };
 }
 
+/**
+ * The first JSON syntax problem of a text, located at its own line and column (JSON.parse names
+ * no position for some, such as a NaN literal, and V8 words its messages for programmers).
+ */
+export function jsonSyntaxIssue(text: string): FileIssue | undefined {
+  const errors: ParseError[] = [];
+  parse(text, errors, { disallowComments: true, allowTrailingComma: false, allowEmptyContent: false });
+  return errors.length > 0 ? syntaxIssue(text, errors[0]) : undefined;
+}
+
 /** Field path segments of a parseSheet issue path such as "hand.fingers[0].joints[1].axis". */
 function pathSegments(path: string): (string | number)[] {
   if (path === '(document)') return [];
@@ -93,10 +103,7 @@ export function readSheetFile(raw: string): ReadSheetFile {
   try {
     value = JSON.parse(text);
   } catch (error) {
-    const errors: ParseError[] = [];
-    parse(text, errors, { disallowComments: true, allowTrailingComma: false, allowEmptyContent: false });
-    const issue = errors.length > 0 ? syntaxIssue(text, errors[0]) : { message: `Invalid JSON: ${(error as Error).message}.` };
-    return { ok: false, stage: 'syntax', issues: [issue] };
+    return { ok: false, stage: 'syntax', issues: [jsonSyntaxIssue(text) ?? { message: `Invalid JSON: ${(error as Error).message}.` }] };
   }
   if (value === null || typeof value !== 'object' || Array.isArray(value)) {
     return { ok: false, stage: 'document', issues: [{ message: 'A sheet file holds one JSON object with "format": "slipless.sheet".', path: '(document)', line: 1, column: 1 }] };

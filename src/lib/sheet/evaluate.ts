@@ -47,6 +47,40 @@ function summarize(doc: SheetDocument, result: SheetResult): SheetSummary {
   };
 }
 
+/**
+ * Outputs where +Infinity is a meaning, not an overflow: the condition number of a Jacobian that
+ * lost rank. Every other output must be a finite number.
+ */
+const UNBOUNDED_OUTPUTS: ReadonlySet<string> = new Set(['conditionNumber', 'conditionBefore', 'conditionAfter']);
+
+/** Outputs with one entry per joint of the finger, so a bad entry names its joint. */
+const PER_JOINT_OUTPUTS: ReadonlySet<string> = new Set(['rates', 'jointAngles']);
+
+/** Path (keys and indices) of the first number in a plain result that must not be reported, or undefined when all are. */
+function firstNonFinite(value: unknown, path: (string | number)[]): { path: (string | number)[]; value: number } | undefined {
+  if (typeof value === 'number') {
+    const key = path.findLast((segment) => typeof segment === 'string');
+    const allowed = value === Infinity && key !== undefined && UNBOUNDED_OUTPUTS.has(key);
+    return Number.isFinite(value) || allowed ? undefined : { path, value };
+  }
+  if (value === null || typeof value !== 'object') return undefined;
+  for (const [key, item] of Array.isArray(value) ? value.entries() : Object.entries(value)) {
+    const found = firstNonFinite(item, [...path, key]);
+    if (found) return found;
+  }
+  return undefined;
+}
+
+/** The finger and joint an output path belongs to, in words, e.g. ` (finger "left", joint "left-roll")`. */
+function describeOwner(doc: SheetDocument, path: readonly (string | number)[]): string {
+  if (path[0] !== 'fingers' || typeof path[1] !== 'number') return '';
+  const finger = doc.hand.fingers[path[1]];
+  if (!finger) return '';
+  const perJoint = path.findIndex((segment) => typeof segment === 'string' && PER_JOINT_OUTPUTS.has(segment));
+  const joint = perJoint >= 0 && typeof path[perJoint + 1] === 'number' ? finger.joints[path[perJoint + 1] as number] : undefined;
+  return joint ? ` (finger "${finger.name}", joint "${joint.name}")` : ` (finger "${finger.name}")`;
+}
+
 /** Reads, solves and summarises a sheet document as written, and derives it when asked; never throws for a bad document. */
 export function evaluateSheet(input: unknown, options: EvaluateOptions & { derive: true }): Result<DerivedSheetEvaluation, EvaluationError>;
 export function evaluateSheet(input: unknown, options?: EvaluateOptions): Result<SheetEvaluation, EvaluationError>;
@@ -58,7 +92,13 @@ export function evaluateSheet(input: unknown, options: EvaluateOptions = {}): Re
   const doc = parsed.doc;
   try {
     const solved = solveSheet(doc);
-    const evaluation: SheetEvaluation = { doc, result: toPlainResult(solved), summary: summarize(doc, solved) };
+    const result = toPlainResult(solved);
+    const bad = firstNonFinite(result, []);
+    if (bad) {
+      const message = `the result is not a finite number: ${formatIssuePath(bad.path)} is ${bad.value}${describeOwner(doc, bad.path)}; an input is too large or too small for the solve to keep its digits`;
+      return fail({ kind: 'invalid', stage: 'solve', message, issues: [{ path: formatIssuePath([]), message }] });
+    }
+    const evaluation: SheetEvaluation = { doc, result, summary: summarize(doc, solved) };
     return succeed(options.derive ? { ...evaluation, derivation: deriveSheet(doc, solved) } : evaluation);
   } catch (error) {
     const message = `the sheet could not be solved: ${error instanceof Error ? error.message : String(error)}`;

@@ -100,7 +100,39 @@ let activeBudget: ExpressionBudget | undefined;
 
 const capitalised = (text: string) => text[0].toUpperCase() + text.slice(1);
 
-function quantity(kind: QuantityKind, id: string, bound?: { min: 0; strict: boolean; unit: string }) {
+/** Largest length accepted, in m: a hand and everything it holds fit within 10 m of the palm. */
+export const MAX_LENGTH = 10;
+/** Largest speed accepted, in m/s: 100 m/s is far past any motion of an object held in a hand. */
+export const MAX_SPEED = 100;
+/** Largest angular speed accepted, in rad/s (about 95 000 rpm): faster than the fastest small motors. */
+export const MAX_ANGULAR_SPEED = 10_000;
+/** Longest time step accepted, in s: a closed-loop tick longer than an hour controls nothing. */
+export const MAX_TIME = 3600;
+/** Largest rate (loop gain) accepted, in 1/s: a million per second is past any control loop's bandwidth. */
+export const MAX_RATE = 1e6;
+/**
+ * Largest damping accepted, in m: its square is added to J Jᵀ, whose entries are squared lever
+ * arms of a hand (well under 1 m²); more damping drowns every joint rate toward zero.
+ */
+export const MAX_DAMPING = 1;
+
+/** The magnitude limit of each kind of quantity field; any quantity (sweep ends) is checked where it is used. */
+const KIND_LIMITS: Record<Exclude<QuantityKind, 'any' | 'angle'>, number> = {
+  length: MAX_LENGTH,
+  speed: MAX_SPEED,
+  angularSpeed: MAX_ANGULAR_SPEED,
+  time: MAX_TIME,
+  rate: MAX_RATE,
+};
+
+interface QuantityRange {
+  /** Refuse 0 and below (strict) or below 0. */
+  bound?: { min: 0; strict: boolean };
+  /** Largest magnitude; by default the limit of the kind. */
+  max?: number;
+}
+
+function quantity(kind: QuantityKind, id: string, range: QuantityRange = {}) {
   const text = kind === 'any' ? 'a quantity: a number in SI units or a string with a unit' : quantityText(kind);
   const read = z
     .union([z.number(), z.string().trim().min(1).max(MAX_EXPRESSION_LENGTH)], { error: expect(`expected ${text}`) })
@@ -112,28 +144,44 @@ function quantity(kind: QuantityKind, id: string, bound?: { min: 0; strict: bool
       }
       return result.value;
     });
-  if (!bound) return named(read, id, capitalised(text));
-  const checked = bound.strict
-    ? z.number().gt(0, { error: `must be greater than 0 ${bound.unit}` })
-    : z.number().gte(0, { error: `must not be negative (${bound.unit})` });
-  return named(read.pipe(checked), id, `${capitalised(text)}; ${bound.strict ? 'greater than 0' : 'not negative'}`);
+  const unit = kind === 'any' ? '' : kind === 'rate' ? '1/s' : QUANTITY_KINDS[kind].si;
+  const max = range.max ?? (kind === 'any' || kind === 'angle' ? undefined : KIND_LIMITS[kind]);
+  const { bound } = range;
+  if (!bound && max === undefined) return named(read, id, capitalised(text));
+  let checked = z.number();
+  if (bound) {
+    checked = bound.strict
+      ? checked.gt(0, { error: `must be greater than 0 ${unit}` })
+      : checked.gte(0, { error: `must not be negative (${unit})` });
+  }
+  const parts = [capitalised(text)];
+  if (bound) parts.push(bound.strict ? 'greater than 0' : 'not negative');
+  if (max !== undefined) {
+    const limit = `${shown(max)} ${unit}`;
+    checked = bound
+      ? checked.lte(max, { error: `must be at most ${limit}` })
+      : checked.gte(-max, { error: `must lie between -${limit} and ${limit}` }).lte(max, { error: `must lie between -${limit} and ${limit}` });
+    parts.push(bound ? `at most ${limit}` : `between -${limit} and ${limit}`);
+  }
+  return named(read.pipe(checked), id, parts.join('; '));
 }
 
-const positive = (unit: string) => ({ min: 0, strict: true, unit }) as const;
-const nonNegative = (unit: string) => ({ min: 0, strict: false, unit }) as const;
+const positive = { bound: { min: 0, strict: true } } as const;
+const nonNegative = { bound: { min: 0, strict: false } } as const;
 
 const length = quantity('length', 'Length');
-const positiveLength = quantity('length', 'PositiveLength', positive('m'));
-const nonNegativeLength = quantity('length', 'NonNegativeLength', nonNegative('m'));
+const positiveLength = quantity('length', 'PositiveLength', positive);
+const nonNegativeLength = quantity('length', 'NonNegativeLength', nonNegative);
+const damping = quantity('length', 'Damping', { ...nonNegative, max: MAX_DAMPING });
 const angle = quantity('angle', 'Angle');
-const positiveAngle = quantity('angle', 'PositiveAngle', positive('rad'));
-const nonNegativeAngle = quantity('angle', 'NonNegativeAngle', nonNegative('rad'));
+const positiveAngle = quantity('angle', 'PositiveAngle', positive);
+const nonNegativeAngle = quantity('angle', 'NonNegativeAngle', nonNegative);
 const speed = quantity('speed', 'Speed');
-const nonNegativeSpeed = quantity('speed', 'NonNegativeSpeed', nonNegative('m/s'));
+const nonNegativeSpeed = quantity('speed', 'NonNegativeSpeed', nonNegative);
 const angularSpeed = quantity('angularSpeed', 'AngularSpeed');
-const positiveAngularSpeed = quantity('angularSpeed', 'PositiveAngularSpeed', positive('rad/s'));
-const positiveTime = quantity('time', 'PositiveTime', positive('s'));
-const positiveRate = quantity('rate', 'PositiveRate', positive('1/s'));
+const positiveAngularSpeed = quantity('angularSpeed', 'PositiveAngularSpeed', positive);
+const positiveTime = quantity('time', 'PositiveTime', positive);
+const positiveRate = quantity('rate', 'PositiveRate', positive);
 const anyQuantity = quantity('any', 'Quantity');
 
 function vec3(component: z.ZodType<number, unknown>, what: string) {
@@ -353,7 +401,7 @@ const handSchema = z
 
 const solverSchema = z
   .strictObject({
-    damping: nonNegativeLength.default(DEFAULT_SOLVER.damping),
+    damping: damping.default(DEFAULT_SOLVER.damping),
     singularRatio: z
       .number({ error: expect('expected a number between 0 and 1') })
       .gt(0, { error: 'must be between 0 and 1' })

@@ -154,3 +154,24 @@ describe('compute CLI', () => {
     }
   });
 });
+
+describe('compute CLI at the edges of the inputs', () => {
+  it('reports a NaN literal at its own line and column, not at the end of the file', async () => {
+    const file = join(scratch, 'nan.json');
+    writeFileSync(file, '{\n  "format": "slipless.sheet",\n  "damping": NaN,\n  "title": "a"\n}\n');
+    const outcome = await compute(file);
+    expect(outcome.code).toBe(1);
+    expect(outcome.stderr).toContain(`${file}:3:14: invalid JSON`);
+  });
+
+  it('exits 1 on an angular speed of 1e308 rad/s instead of printing NaN rates', async () => {
+    const source = JSON.parse(readFileSync(join(sheetsDir, 'line4-peg-tilt.json'), 'utf8')) as { object: { twist: { angular: unknown[] } } };
+    source.object.twist.angular[0] = 1e308;
+    const file = join(scratch, 'huge-spin.json');
+    writeFileSync(file, JSON.stringify(source));
+    const outcome = await compute(file);
+    expect(outcome.code).toBe(1);
+    expect(outcome.stdout).toBe('');
+    expect(outcome.stderr).toContain(`${file}: object.twist.angular[0]: `);
+  });
+});

@@ -77,3 +77,16 @@ describe('expression limits in sheet-format.md', () => {
     expect(text).toContain(`at most ${units.MAX_SHEET_OPERATIONS} operations`);
   });
 });
+
+describe('quantity ranges in sheet-format.md', () => {
+  it('states every range with its current value', async () => {
+    const schema = await import('../../../src/lib/sheet/schema');
+    const text = read('sheet-format.md').replace(/\s+/g, ' ');
+    expect(text).toContain(`between -${schema.MAX_LENGTH} m and ${schema.MAX_LENGTH} m`);
+    expect(text).toContain(`between -${schema.MAX_SPEED} m/s and ${schema.MAX_SPEED} m/s`);
+    expect(text).toContain(`between -${schema.MAX_ANGULAR_SPEED} rad/s and ${schema.MAX_ANGULAR_SPEED} rad/s`);
+    expect(text).toContain(`at most ${schema.MAX_TIME} s`);
+    expect(text).toContain(`at most ${schema.MAX_RATE} /s`);
+    expect(text).toContain(`at most ${schema.MAX_DAMPING} m`);
+  });
+});

@@ -10,20 +10,24 @@ import { computeSheet } from '../../../src/workers/compute-protocol';
 
 // The schema keeps every document the core cannot solve out (finger and joint limits, finite
 // numbers), so a failing core is stood in for: solveSheet throws while `failure` is set.
-const control = vi.hoisted(() => ({ failure: null as unknown }));
+// `tamper` stands in for a core that overflows: it may change the solved result before it is returned.
+const control = vi.hoisted(() => ({ failure: null as unknown, tamper: null as null | ((result: import('../../../src/lib/kinematics').SheetResult) => void) }));
 vi.mock('../../../src/lib/kinematics', async (importOriginal) => {
   const core = await importOriginal<typeof import('../../../src/lib/kinematics')>();
   return {
     ...core,
     solveSheet: (...args: Parameters<typeof core.solveSheet>) => {
       if (control.failure !== null) throw control.failure;
-      return core.solveSheet(...args);
+      const solved = core.solveSheet(...args);
+      control.tamper?.(solved);
+      return solved;
     },
   };
 });
 
 afterEach(() => {
   control.failure = null;
+  control.tamper = null;
 });
 
 const text = readFileSync(new URL('../../../content/sheets/line4-bearing-housing-quarter-turn.json', import.meta.url), 'utf8');
@@ -88,5 +92,43 @@ describe('evaluateSheet', () => {
     expect(checkDocument(sheet())).toMatchObject({ ok: false, error: { kind: 'invalid', message: issue.message, path: 'document.(document)', issues: [issue] } });
     expect(readSheetFile(text)).toEqual({ ok: false, stage: 'document', issues: [{ ...issue, line: 1, column: 1 }] });
     expect(exportResultsCsv(sheet())).toEqual({ ok: false, issues: [issue] });
+  });
+});
+
+describe('evaluateSheet never reports a non-finite number', () => {
+  it('refuses a result holding NaN, naming the output, the finger and the joint', () => {
+    control.tamper = (solved) => {
+      solved.fingers[0]!.full.rates[2] = Number.NaN;
+    };
+    const evaluated = evaluateSheet(sheet());
+    expect(evaluated.ok).toBe(false);
+    if (evaluated.ok) return;
+    const finger = (sheet() as unknown as { hand: { fingers: { name: string; joints: { name: string }[] }[] } }).hand.fingers[0]!;
+    expect(evaluated.error.stage).toBe('solve');
+    expect(evaluated.error.message).toContain('fingers[0].full.rates[2] is NaN');
+    expect(evaluated.error.message).toContain(`finger "${finger.name}", joint "${finger.joints[2]!.name}"`);
+    expect(evaluated.error.issues).toEqual([{ path: '(document)', message: evaluated.error.message }]);
+  });
+
+  it('refuses an infinite residual, naming the finger', () => {
+    control.tamper = (solved) => {
+      solved.fingers[0]!.full.residual[0] = Number.POSITIVE_INFINITY;
+    };
+    const evaluated = evaluateSheet(sheet());
+    expect(evaluated.ok).toBe(false);
+    if (evaluated.ok) return;
+    const finger = (sheet() as unknown as { hand: { fingers: { name: string }[] } }).hand.fingers[0]!;
+    expect(evaluated.error.message).toContain(`fingers[0].full.residual[0] is Infinity (finger "${finger.name}")`);
+  });
+
+  it('keeps an infinite condition number (rank lost) but refuses a negative infinite one', () => {
+    control.tamper = (solved) => {
+      solved.fingers[0]!.full.conditionNumber = Number.POSITIVE_INFINITY;
+    };
+    expect(evaluateSheet(sheet()).ok).toBe(true);
+    control.tamper = (solved) => {
+      solved.fingers[0]!.full.conditionNumber = Number.NEGATIVE_INFINITY;
+    };
+    expect(evaluateSheet(sheet()).ok).toBe(false);
   });
 });
