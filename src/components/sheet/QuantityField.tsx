@@ -11,6 +11,8 @@ export const DISPLAY_UNITS: Record<Kind, string[]> = {
   time: ['ms', 's'],
   speed: ['mm/s', 'm/s'],
   angularSpeed: ['rad/s', 'rpm', 'deg/s'],
+  acceleration: ['m/s^2', 'mm/s^2'],
+  angularAcceleration: ['rad/s^2', 'deg/s^2'],
   rate: ['Hz', '1/s'],
 };
 

@@ -6,6 +6,7 @@ import { z } from '../validation/zod';
 import type {
   FingerInput,
   JointInput,
+  ObjectAcceleration,
   ObjectShape,
   Pose,
   QuaternionInput,
@@ -106,6 +107,10 @@ export const MAX_LENGTH = 10;
 export const MAX_SPEED = 100;
 /** Largest angular speed accepted, in rad/s (about 95 000 rpm): faster than the fastest small motors. */
 export const MAX_ANGULAR_SPEED = 10_000;
+/** Largest acceleration accepted, in m/s^2 (about 1000 g): far past anything a hand does to an object it holds. */
+export const MAX_ACCELERATION = 10_000;
+/** Largest angular acceleration accepted, in rad/s^2: a drive reaching the largest angular speed within 10 ms. */
+export const MAX_ANGULAR_ACCELERATION = 1e6;
 /** Longest time step accepted, in s: a closed-loop tick longer than an hour controls nothing. */
 export const MAX_TIME = 3600;
 /** Largest rate (loop gain) accepted, in 1/s: a million per second is past any control loop's bandwidth. */
@@ -121,6 +126,8 @@ const KIND_LIMITS: Record<Exclude<QuantityKind, 'any' | 'angle'>, number> = {
   length: MAX_LENGTH,
   speed: MAX_SPEED,
   angularSpeed: MAX_ANGULAR_SPEED,
+  acceleration: MAX_ACCELERATION,
+  angularAcceleration: MAX_ANGULAR_ACCELERATION,
   time: MAX_TIME,
   rate: MAX_RATE,
 };
@@ -180,6 +187,8 @@ const speed = quantity('speed', 'Speed');
 const nonNegativeSpeed = quantity('speed', 'NonNegativeSpeed', nonNegative);
 const angularSpeed = quantity('angularSpeed', 'AngularSpeed');
 const positiveAngularSpeed = quantity('angularSpeed', 'PositiveAngularSpeed', positive);
+const acceleration = quantity('acceleration', 'Acceleration');
+const angularAcceleration = quantity('angularAcceleration', 'AngularAcceleration');
 const positiveTime = quantity('time', 'PositiveTime', positive);
 const positiveRate = quantity('rate', 'PositiveRate', positive);
 const anyQuantity = quantity('any', 'Quantity');
@@ -275,6 +284,19 @@ const twistSchema = z
 
 named(twistSchema, 'Twist', 'Velocity of the object origin (m/s) and angular velocity (rad/s), palm frame');
 
+const objectAccelerationSchema = z
+  .strictObject({
+    linear: vec3(acceleration, 'an acceleration (accelerations)').optional(),
+    angular: vec3(angularAcceleration, 'an angular acceleration (angular accelerations)').optional(),
+  })
+  .transform((a): ObjectAcceleration => ({ linear: a.linear ?? [0, 0, 0], angular: a.angular ?? [0, 0, 0] }));
+
+named(
+  objectAccelerationSchema,
+  'ObjectAcceleration',
+  'Acceleration of the object origin (m/s^2) and angular acceleration (rad/s^2), palm frame, for the acceleration feed-forward; a missing part is zero',
+);
+
 const objectShapeSchema = z.discriminatedUnion(
   'kind',
   [
@@ -306,6 +328,14 @@ const objectShapeSchema = z.discriminatedUnion(
 });
 
 named(objectShapeSchema, 'ObjectShape', 'Convex object shape in its own frame (cylinder and capsule along z)');
+
+const objectSchema = z
+  .strictObject({ shape: objectShapeSchema, pose: poseSchema, twist: twistSchema, acceleration: objectAccelerationSchema.optional() })
+  .transform((o): SheetDocument['object'] => {
+    const object: SheetDocument['object'] = { shape: o.shape, pose: o.pose, twist: o.twist };
+    if (o.acceleration) object.acceleration = o.acceleration;
+    return object;
+  });
 
 const limitsSchema = z
   .strictObject({ min: angle, max: angle })
@@ -490,7 +520,7 @@ export const sheetSchema = z
       undefined,
       'Notes in Markdown, with math between $ signs',
     ),
-    object: z.strictObject({ shape: objectShapeSchema, pose: poseSchema, twist: twistSchema }),
+    object: objectSchema,
     hand: handSchema,
     motion: z.strictObject({ target: poseSchema, run: runSchema.prefault({}) }),
     sweep: sweepSchema.optional(),

@@ -33,6 +33,14 @@ export interface Twist {
   angular: Vec3Tuple;
 }
 
+/** The object's acceleration for the feed-forward, palm frame; absent means zero. */
+export interface ObjectAcceleration {
+  /** Acceleration of the object origin, m/s^2, world frame. */
+  linear: Vec3Tuple;
+  /** Angular acceleration, rad/s^2, world frame. */
+  angular: Vec3Tuple;
+}
+
 export type JointRole = 'base' | 'pivot' | 'roll' | 'other';
 
 export interface JointInput {
@@ -104,7 +112,7 @@ export interface SheetDocument {
   title: string;
   description: string;
   tags: string[];
-  object: { shape: ObjectShape; pose: Pose; twist: Twist };
+  object: { shape: ObjectShape; pose: Pose; twist: Twist; acceleration?: ObjectAcceleration };
   hand: { name: string; fingers: FingerInput[] };
   motion: { target: Pose; run: RunSettings };
   sweep?: SweepSettings;

@@ -49,7 +49,7 @@ math.import(
   { override: true },
 );
 
-export type QuantityKind = 'length' | 'angle' | 'time' | 'speed' | 'angularSpeed' | 'rate' | 'any';
+export type QuantityKind = 'length' | 'angle' | 'time' | 'speed' | 'angularSpeed' | 'acceleration' | 'angularAcceleration' | 'rate' | 'any';
 
 /** A quantity as written in a sheet document: a number in SI units or a string with a unit. */
 export type QuantityInput = number | string;
@@ -71,6 +71,8 @@ export const QUANTITY_KINDS: Record<Exclude<QuantityKind, 'any'>, KindInfo> = {
   time: { si: 's', noun: 'a time', example: '5 ms' },
   speed: { si: 'm/s', noun: 'a speed', example: '20 mm/s' },
   angularSpeed: { si: 'rad/s', noun: 'an angular speed', example: '0.5 rad/s' },
+  acceleration: { si: 'm/s^2', noun: 'an acceleration', example: '2 m/s^2' },
+  angularAcceleration: { si: 'rad/s^2', noun: 'an angular acceleration', example: '5 rad/s^2' },
   rate: { si: 's^-1', noun: 'a rate', example: '2 /s' },
 };
 
@@ -333,7 +335,7 @@ function readUnit(
 
 /**
  * Converts a sheet quantity (SI number, unit string or expression over `variables`) to its SI
- * value (m, rad, s, m/s, rad/s or 1/s by kind). `budget`, when given, pays for the expression's operations.
+ * value (m, rad, s, m/s, rad/s, m/s^2, rad/s^2 or 1/s by kind). `budget`, when given, pays for the expression's operations.
  */
 export function parseQuantity(input: QuantityInput, kind: QuantityKind, variables?: VariableScope, budget?: ExpressionBudget): QuantityResult {
   if (typeof input === 'number') {
