@@ -4,6 +4,7 @@
  * solveScene(scene, out) allocates nothing.
  */
 import type { SheetDocument, SolverSettings } from '../sheet/types';
+import type { FingerAcceleration } from './acceleration';
 import { computeContact, createContact, createContactWorkspace, createObject, updateObjectRotation, type Contact, type ContactWorkspace, type RigidObject } from './contact';
 import { computeGrasp, createGraspResult, createGraspWorkspace, type GraspResult, type GraspWorkspace } from './grasp';
 import { createFinger, forwardKinematics, type Finger } from './hand';
@@ -53,6 +54,8 @@ export interface FingerResult {
   rankBasis: JudgedBasis;
   /** sigma_min / sigma_max of that Jacobian, compared with the singular-ratio setting (dimensionless). */
   rankRatio: number;
+  /** Acceleration feed-forward, filled once per evaluation by solveAccelerations; solveScene, runs and sweeps leave it absent. */
+  acceleration?: FingerAcceleration;
 }
 
 /** The result of solving a sheet once. */

@@ -1,0 +1,163 @@
+/**
+ * Acceleration feed-forward at one contact (world frame, SI). The roller's material point at y
+ * must accelerate with the object's material point at x: with r = x - p,
+ * a_x = a_o + alpha x r + omega x (omega x r) (rigid-body acceleration, Craig 2005, ch. 6), and
+ * differentiating J(q) q_dot = v_x gives J q_ddot + J_dot q_dot = a_x (Siciliano et al. 2009,
+ * sec. 3.1), solved for q_ddot with the damping of the velocity solve. Neglected: the rolling term
+ * (omega_o - omega_f) x u of sustained rolling, where u is the speed of the contact over the
+ * surfaces, and for a soft finger n_dot . (omega_f - omega_o).
+ */
+import type { ObjectAcceleration, SolverSettings } from '../sheet/types';
+import { createLinalgWorkspace, dampedLeastSquares, type LinalgWorkspace } from './linalg';
+import type { FingerResult, SheetResult } from './scene';
+
+/** Acceleration feed-forward of one finger from its full-solution joint rates (world frame, SI). */
+export interface FingerAcceleration {
+  /** Acceleration of the object's material point at x, a_o + alpha x r + omega x (omega x r), m/s^2. */
+  objectPoint: Float64Array;
+  /** Its centripetal part omega x (omega x r), m/s^2. */
+  centripetal: Float64Array;
+  /** J_dot q_dot: acceleration of the roller's material point at y at the current joint rates with no joint acceleration, m/s^2. */
+  jacobianRate: Float64Array;
+  /** Angular acceleration of the last link at no joint acceleration, sum_k omega_k_dot q_dot_k, rad/s^2. */
+  linkAngularRate: Float64Array;
+  /** Rows solved: 3, or 4 with the soft-finger row. */
+  rows: number;
+  /** Right-hand side a_x - J_dot q_dot (m/s^2), then for a soft finger n . (alpha - sum_k omega_k_dot q_dot_k) (rad/s^2). */
+  target: Float64Array;
+  /** Joint accelerations q_ddot, rad/s^2, in the joint order of the sheet. */
+  jointAccelerations: Float64Array;
+  /** J q_ddot + J_dot q_dot: the roller material point's acceleration, m/s^2. */
+  achieved: Float64Array;
+  /** Norm of a_x - achieved, m/s^2: the acceleration the joints cannot follow. */
+  residualNorm: number;
+}
+
+/** Acceleration of the object's material point at x: a + alpha x r + omega x (omega x r), r = x - p (world frame, m/s^2); centripetalOut gets omega x (omega x r). */
+export function objectPointAcceleration(
+  linear: ArrayLike<number>, angular: ArrayLike<number>, angularVelocity: ArrayLike<number>, origin: ArrayLike<number>, x: ArrayLike<number>,
+  out: Float64Array = new Float64Array(3), centripetalOut: Float64Array = new Float64Array(3),
+): Float64Array {
+  const rx = x[0] - origin[0], ry = x[1] - origin[1], rz = x[2] - origin[2];
+  const wx = angularVelocity[0], wy = angularVelocity[1], wz = angularVelocity[2];
+  const vx = wy * rz - wz * ry, vy = wz * rx - wx * rz, vz = wx * ry - wy * rx;
+  centripetalOut[0] = wy * vz - wz * vy;
+  centripetalOut[1] = wz * vx - wx * vz;
+  centripetalOut[2] = wx * vy - wy * vx;
+  const ax = angular[0], ay = angular[1], az = angular[2];
+  out[0] = linear[0] + ay * rz - az * ry + centripetalOut[0];
+  out[1] = linear[1] + az * rx - ax * rz + centripetalOut[1];
+  out[2] = linear[2] + ax * ry - ay * rx + centripetalOut[2];
+  return out;
+}
+
+function crossInto(a: ArrayLike<number>, b: ArrayLike<number>, out: Float64Array): Float64Array {
+  const x = a[1] * b[2] - a[2] * b[1], y = a[2] * b[0] - a[0] * b[2], z = a[0] * b[1] - a[1] * b[0];
+  out[0] = x; out[1] = y; out[2] = z;
+  return out;
+}
+
+/**
+ * J_dot q_dot of the contact Jacobian with columns w_k x (y - r_k) for the material point y of the
+ * last link (world frame, m/s^2): sum_k q_dot_k [w_k_dot x (y - r_k) + w_k x (y_dot - r_k_dot)], with
+ * w_k_dot = W_k x w_k and r_k_dot = sum_{j<k} q_dot_j w_j x (r_k - r_j), W_k = sum_{j<k} q_dot_j w_j
+ * (revolute joints, axes and points packed 3 per joint); angularOut gets sum_k q_dot_k w_k_dot (rad/s^2).
+ */
+export function jacobianRateTimesRates(
+  axes: ArrayLike<number>, points: ArrayLike<number>, jointCount: number, y: ArrayLike<number>, rates: ArrayLike<number>,
+  out: Float64Array = new Float64Array(3), angularOut: Float64Array = new Float64Array(3),
+): Float64Array {
+  const axis = (k: number) => [axes[3 * k], axes[3 * k + 1], axes[3 * k + 2]];
+  const from = (k: number, to: ArrayLike<number>) => [to[0] - points[3 * k], to[1] - points[3 * k + 1], to[2] - points[3 * k + 2]];
+  const term = new Float64Array(3);
+  const yDot = new Float64Array(3);
+  for (let k = 0; k < jointCount; k++) {
+    crossInto(axis(k), from(k, y), term);
+    for (let c = 0; c < 3; c++) yDot[c] += rates[k] * term[c];
+  }
+  const linkAngularVelocity = new Float64Array(3), axisRate = new Float64Array(3), pointRate = new Float64Array(3);
+  out.fill(0);
+  angularOut.fill(0);
+  for (let k = 0; k < jointCount; k++) {
+    const w = axis(k), r = [points[3 * k], points[3 * k + 1], points[3 * k + 2]];
+    crossInto(linkAngularVelocity, w, axisRate);
+    pointRate.fill(0);
+    for (let j = 0; j < k; j++) {
+      crossInto(axis(j), from(j, r), term);
+      for (let c = 0; c < 3; c++) pointRate[c] += rates[j] * term[c];
+    }
+    crossInto(axisRate, from(k, y), term);
+    for (let c = 0; c < 3; c++) out[c] += rates[k] * term[c];
+    crossInto(w, [yDot[0] - pointRate[0], yDot[1] - pointRate[1], yDot[2] - pointRate[2]], term);
+    for (let c = 0; c < 3; c++) {
+      out[c] += rates[k] * term[c];
+      angularOut[c] += rates[k] * axisRate[c];
+      linkAngularVelocity[c] += rates[k] * w[c];
+    }
+  }
+  return out;
+}
+
+/** New, zeroed acceleration feed-forward for a finger of n joints. */
+export function createFingerAcceleration(jointCount: number): FingerAcceleration {
+  return {
+    objectPoint: new Float64Array(3),
+    centripetal: new Float64Array(3),
+    jacobianRate: new Float64Array(3),
+    linkAngularRate: new Float64Array(3),
+    rows: 3,
+    target: new Float64Array(4),
+    jointAccelerations: new Float64Array(jointCount),
+    achieved: new Float64Array(3),
+    residualNorm: 0,
+  };
+}
+
+/**
+ * Joint accelerations of one solved finger: q_ddot = J^T (J J^T + lambda^2 I)^{-1} (a_x - J_dot q_dot) on the
+ * velocity solve's Jacobian (3 rows, or 4 with the soft-finger row n . w_k and n . (alpha - sum_k w_k_dot q_dot_k)),
+ * at that solve's joint axes, points, contact and full-solution rates, object origin p and angular velocity omega (world frame, SI).
+ */
+export function solveFingerAcceleration(
+  finger: Readonly<FingerResult>, origin: ArrayLike<number>, angularVelocity: ArrayLike<number>, acceleration: Readonly<ObjectAcceleration>,
+  damping: number, out: FingerAcceleration = createFingerAcceleration(finger.jointAngles.length),
+  ws: LinalgWorkspace = createLinalgWorkspace(4, Math.max(4, finger.jointAngles.length)),
+): FingerAcceleration {
+  const jacobian = finger.full.jacobian, n = jacobian.cols, d = jacobian.data;
+  const contact = finger.contact, rates = finger.full.rates, target = out.target;
+  objectPointAcceleration(acceleration.linear, acceleration.angular, angularVelocity, origin, contact.objectPoint, out.objectPoint, out.centripetal);
+  jacobianRateTimesRates(finger.jointAxes, finger.jointPoints, n, contact.rollerPoint, rates, out.jacobianRate, out.linkAngularRate);
+  for (let c = 0; c < 3; c++) target[c] = out.objectPoint[c] - out.jacobianRate[c];
+  const normal = contact.normal, alpha = acceleration.angular, link = out.linkAngularRate;
+  // The soft-finger row keeps the spin about the normal equal: n . alpha_f = n . alpha_o, n_dot neglected.
+  target[3] = jacobian.rows === 4 ? normal[0] * (alpha[0] - link[0]) + normal[1] * (alpha[1] - link[1]) + normal[2] * (alpha[2] - link[2]) : 0;
+  out.rows = jacobian.rows;
+  dampedLeastSquares(jacobian, target, damping, out.jointAccelerations, ws);
+  let residual = 0;
+  for (let i = 0; i < 3; i++) {
+    let sum = out.jacobianRate[i];
+    for (let k = 0; k < n; k++) sum += d[i * n + k] * out.jointAccelerations[k];
+    out.achieved[i] = sum;
+    residual += (out.objectPoint[i] - sum) ** 2;
+  }
+  out.residualNorm = Math.sqrt(residual);
+  return out;
+}
+
+const ZERO_ACCELERATION: Readonly<ObjectAcceleration> = { linear: [0, 0, 0], angular: [0, 0, 0] };
+
+/**
+ * Fills every finger's acceleration feed-forward of a solved sheet, once per evaluation and never per
+ * tick, from the object's acceleration (zero when absent; world frame, SI); returns the result.
+ */
+export function solveAccelerations(result: SheetResult, acceleration: Readonly<ObjectAcceleration> | undefined, settings: Readonly<SolverSettings>): SheetResult {
+  const maxJoints = result.fingers.reduce((m, f) => Math.max(m, f.jointAngles.length), 4);
+  const ws = createLinalgWorkspace(4, maxJoints);
+  for (const finger of result.fingers) {
+    finger.acceleration = solveFingerAcceleration(
+      finger, result.object.position, result.object.angularVelocity, acceleration ?? ZERO_ACCELERATION, settings.damping,
+      createFingerAcceleration(finger.jointAngles.length), ws,
+    );
+  }
+  return result;
+}
