@@ -1,7 +1,54 @@
+import { getAt, pathText, setAt, type DocumentPath } from '../../lib/sheet/document-path';
+import type { QuantityKind } from '../../lib/sheet/units';
+import { useSheetEditing } from './editor-context';
 import { OrientationFields } from './ObjectSection';
 import { PlainNumber, Quantity, QuantityVector, Toggle } from './fields';
+import QuantityField from './QuantityField';
 
-/** Motion: the object's twist, the target pose of a run and the run settings. */
+const ACCELERATION: DocumentPath = ['object', 'acceleration'];
+
+/**
+ * One part of the object's optional acceleration: blank components read as 0, and clearing all
+ * three removes the part (and the acceleration once both parts are gone), so a sheet without an
+ * acceleration stays as it was written.
+ */
+function AccelerationVector({ part, label, kind }: { part: 'linear' | 'angular'; label: string; kind: Exclude<QuantityKind, 'any'> }) {
+  const { document, update, issues, variables, readOnly } = useSheetEditing();
+  const path = [...ACCELERATION, part];
+  const vector = getAt(document, path);
+  const components: unknown[] = Array.isArray(vector) ? vector : [];
+  const change = (index: number, value: number | string | undefined) => {
+    const next = [0, 1, 2].map((k) => (k === index ? value : components[k]));
+    const blank = next.every((x) => x === undefined);
+    const rest = setAt(getAt(document, ACCELERATION) ?? {}, [part], blank ? undefined : next.map((x) => x ?? 0));
+    update(ACCELERATION, Object.keys(rest as object).length === 0 ? undefined : rest);
+  };
+  const whole = issues.get(pathText(path));
+  return (
+    <fieldset className="min-w-0">
+      <legend className="text-[11px] font-semibold text-ink">{label}</legend>
+      <div className="grid grid-cols-3 gap-2">
+        {(['x', 'y', 'z'] as const).map((axis, index) => (
+          <QuantityField
+            key={axis}
+            label={axis}
+            kind={kind}
+            path={pathText([...path, index])}
+            value={components[index]}
+            variables={variables}
+            issue={issues.get(pathText([...path, index]))}
+            disabled={readOnly}
+            optional={{ placeholder: '0' }}
+            onChange={(value) => change(index, value)}
+          />
+        ))}
+      </div>
+      {whole && <span className="block text-[11px] text-sienna" role="alert">{whole}</span>}
+    </fieldset>
+  );
+}
+
+/** Motion: the object's twist and acceleration, the target pose of a run and the run settings. */
 export default function MotionSection() {
   const run = ['motion', 'run'];
   return (
@@ -9,6 +56,8 @@ export default function MotionSection() {
       <div className="grid gap-3 md:grid-cols-2">
         <QuantityVector path={['object', 'twist', 'linear']} label="twist: origin velocity" kind="speed" />
         <QuantityVector path={['object', 'twist', 'angular']} label="twist: angular velocity" kind="angularSpeed" />
+        <AccelerationVector part="linear" label="acceleration: origin (feed-forward; blank = 0)" kind="acceleration" />
+        <AccelerationVector part="angular" label="acceleration: angular (blank = 0)" kind="angularAcceleration" />
       </div>
       <QuantityVector path={['motion', 'target', 'position']} label="target position" kind="length" />
       <OrientationFields path={['motion', 'target', 'orientation']} />

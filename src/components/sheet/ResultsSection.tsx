@@ -27,7 +27,7 @@ function OutputRow({ id, result, finger = -1, test = false }: { id: string; resu
   );
 }
 
-const JOINT_COLUMNS = ['jointAngles', 'full.rates', 'steer.rates', 'steer.rateDifference'].map(findOutput);
+const JOINT_COLUMNS = ['jointAngles', 'full.rates', 'steer.rates', 'steer.rateDifference', 'acceleration.jointAccelerations'].map(findOutput);
 
 /** The k-th joint's value of a per-joint output, in its display unit. */
 function jointCell(definition: OutputDefinition, result: PlainSheetResult, finger: number, joint: number): string {
@@ -78,7 +78,7 @@ function ResultsSection({ result, stale }: { result: PlainSheetResult | null; st
               </table>
             </div>
             <table className="mt-3 w-full text-sm">
-              <caption className="text-left text-[11px] uppercase tracking-wide text-graphite">joint rates, rad/s: full solution beside steer-and-roll</caption>
+              <caption className="text-left text-[11px] uppercase tracking-wide text-graphite">joint rates, rad/s: full solution beside steer-and-roll; joint accelerations of the full solution</caption>
               <thead>
                 <tr className="border-b border-ink text-left text-xs text-graphite">
                   <th className="py-1 font-normal">joint</th>
@@ -100,6 +100,17 @@ function ResultsSection({ result, stale }: { result: PlainSheetResult | null; st
                 ))}
               </tbody>
             </table>
+            {f.acceleration && (
+              <table className="mt-3 w-full text-sm" data-acceleration={i}>
+                <caption className="text-left text-[11px] uppercase tracking-wide text-graphite">acceleration feed-forward (full solution, rolling term neglected)</caption>
+                <tbody>
+                  <OutputRow id="acceleration.objectPoint" result={result} finger={i} test />
+                  <OutputRow id="acceleration.centripetal" result={result} finger={i} />
+                  <OutputRow id="acceleration.jacobianRate" result={result} finger={i} />
+                  <OutputRow id="acceleration.residual" result={result} finger={i} />
+                </tbody>
+              </table>
+            )}
             <p className="mt-1 text-xs text-graphite">
               full solution: σ = <span className="num">{f.full.singularValues.map((s) => displayNumber(singularValues, s)).join(', ')}</span> {singularValues.display.unit}, condition{' '}
               <span className="num">{displayValue(conditionNumber, conditionNumber.read(result, i))}</span>, manipulability{' '}

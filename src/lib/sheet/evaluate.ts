@@ -4,7 +4,7 @@
  * compute worker, the sheet service, file import and export, the comparison, the report and the
  * compute command all call it, so a sheet reads and solves the same way everywhere.
  */
-import { solveSheet, toPlainResult, type PlainSheetResult, type SheetResult } from '../kinematics';
+import { solveAccelerations, solveSheet, toPlainResult, type PlainSheetResult, type SheetResult } from '../kinematics';
 import { fail, succeed, type DomainError, type Result } from '../result';
 import { deriveSheet, type DerivationEntry } from './derivation';
 import { formatIssuePath, parseSheet, type SheetIssue } from './schema';
@@ -54,7 +54,7 @@ function summarize(doc: SheetDocument, result: SheetResult): SheetSummary {
 const UNBOUNDED_OUTPUTS: ReadonlySet<string> = new Set(['conditionNumber', 'conditionBefore', 'conditionAfter']);
 
 /** Outputs with one entry per joint of the finger, so a bad entry names its joint. */
-const PER_JOINT_OUTPUTS: ReadonlySet<string> = new Set(['rates', 'jointAngles']);
+const PER_JOINT_OUTPUTS: ReadonlySet<string> = new Set(['rates', 'jointAngles', 'jointAccelerations']);
 
 /** Path (keys and indices) of the first number in a plain result that must not be reported, or undefined when all are. */
 function firstNonFinite(value: unknown, path: (string | number)[]): { path: (string | number)[]; value: number } | undefined {
@@ -91,7 +91,7 @@ export function evaluateSheet(input: unknown, options: EvaluateOptions = {}): Re
   }
   const doc = parsed.doc;
   try {
-    const solved = solveSheet(doc);
+    const solved = solveAccelerations(solveSheet(doc), doc.object.acceleration, doc.solver);
     const result = toPlainResult(solved);
     const bad = firstNonFinite(result, []);
     if (bad) {

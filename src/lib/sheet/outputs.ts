@@ -51,6 +51,15 @@ const same = (si: number) => si;
 const milli = (si: number) => si * 1000;
 const degrees = (si: number) => (si * 180) / Math.PI;
 
+/**
+ * A vector of the acceleration feed-forward, which only a sheet evaluation computes: results of a
+ * sweep or a run have none, and read as NaN (shown "—") rather than as a zero acceleration.
+ */
+function accelerationOf(result: PlainSheetResult, finger: number, key: 'objectPoint' | 'centripetal' | 'jacobianRate' | 'jointAccelerations'): readonly number[] {
+  const f = result.fingers[finger];
+  return f.acceleration?.[key] ?? Array.from({ length: key === 'jointAccelerations' ? f.jointNames.length : 3 }, () => Number.NaN);
+}
+
 const unitless = (digits = 4): OutputDisplay => ({ unit: '', digits, fromSI: same });
 const shown = (unit: string, fromSI = same, digits = 4): OutputDisplay => ({ unit, digits, fromSI });
 
@@ -148,6 +157,26 @@ export const OUTPUTS: readonly OutputDefinition[] = [
   {
     id: 'steer.rateDifference', label: 'joint rate difference (steer-and-roll − full)', tableLabel: 'difference', unit: 'rad/s', display: shown('rad/s'),
     frame: null, scope: 'joint', parts: 'joints', compared: false, read: (r, i) => r.fingers[i].steer.rateDifference,
+  },
+  {
+    id: 'acceleration.objectPoint', label: 'object acceleration at the contact', tableLabel: 'object acceleration a(x)', unit: 'm/s^2',
+    display: shown('m/s²'), frame: 'palm', scope: 'finger', parts: 'xyz', compared: false, read: (r, i) => accelerationOf(r, i, 'objectPoint'),
+  },
+  {
+    id: 'acceleration.centripetal', label: 'centripetal part ω × (ω × r)', tableLabel: 'of which centripetal', unit: 'm/s^2', display: shown('m/s²'),
+    frame: 'palm', scope: 'finger', parts: 'xyz', compared: false, read: (r, i) => accelerationOf(r, i, 'centripetal'),
+  },
+  {
+    id: 'acceleration.jacobianRate', label: 'roller point acceleration at zero joint acceleration (J̇ q̇)', tableLabel: 'J̇ q̇', unit: 'm/s^2',
+    display: shown('m/s²'), frame: 'palm', scope: 'finger', parts: 'xyz', compared: false, read: (r, i) => accelerationOf(r, i, 'jacobianRate'),
+  },
+  {
+    id: 'acceleration.residual', label: 'acceleration residual (full)', tableLabel: 'acceleration residual', unit: 'm/s^2', display: shown('m/s²'),
+    frame: null, scope: 'finger', parts: 'single', compared: false, read: (r, i) => r.fingers[i].acceleration?.residualNorm ?? Number.NaN,
+  },
+  {
+    id: 'acceleration.jointAccelerations', label: 'joint acceleration (full)', tableLabel: 'accel., rad/s²', unit: 'rad/s^2', display: shown('rad/s²'),
+    frame: null, scope: 'joint', parts: 'joints', compared: false, read: (r, i) => accelerationOf(r, i, 'jointAccelerations'),
   },
   {
     id: 'grasp.contacts', label: 'contacts', unit: '', display: unitless(), frame: null, scope: 'grasp', parts: 'single', compared: false,

@@ -78,6 +78,7 @@ describe('the surfaces that read the catalogue', () => {
     const perContact = [
       'contact point x', 'normal n', 'gap', 'normal velocity', 'tangential velocity', 'tangential speed', 'steer: base rate', 'steer: pivot angle',
       'steer: roll rate', 'steer − full, |Δ rates|', 'condition before / after steering', 'full: slip residual',
+      'object acceleration a(x)', 'of which centripetal', 'J̇ q̇', 'acceleration residual',
     ];
     expect(labels).toEqual([...result.fingers.flatMap(() => perContact), 'contacts', 'rank of the contact map', 'undrivable directions']);
     expect(html).toContain('<th class="py-1 text-right font-normal">angle, deg</th><th class="py-1 text-right font-normal">full</th>');
