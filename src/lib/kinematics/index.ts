@@ -69,7 +69,7 @@ export {
   createResult, createScene, setJointAngles, setObjectPose, setObjectTwist, solveScene, solveSheet, toPlainResult,
 } from './scene';
 export type { FingerResult, PlainSheetResult, Scene, SheetResult } from './scene';
-export { jacobianRateTimesRates, objectPointAcceleration, solveAccelerations, solveFingerAcceleration } from './acceleration';
+export { createFingerAcceleration, jacobianRateTimesRates, objectPointAcceleration, solveAccelerations, solveFingerAcceleration } from './acceleration';
 export type { FingerAcceleration } from './acceleration';
 export { runScene, runSheet, SOLUTION_KINDS, toPlainRunRecord, warningsAt } from './run';
 export type { RunOptions, RunRecord, RunStopReason } from './run';

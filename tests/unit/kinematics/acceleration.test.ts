@@ -226,6 +226,13 @@ describe('end to end: the velocity solution a small time step later', () => {
     const gap = measured.map((x, k) => x - qdd[k]);
     // Sphere on sphere, no relative spin condition: the rolling term explains the whole difference.
     expect(gap).toBeNear(Array.from(correction), { abs: 1e-4 * norm(qdd), rel: 1e-3 });
+    // Its size as the reference states it: along the normal omega_t^2 R rho / (R + rho) for a ball roller (rho) on a ball (R),
+    // omega_t the tangential part of omega_o - omega_f; contact speed from the contact equations (Montana 1988, from memory).
+    const n = Array.from(f.contact.normal), relative = omega.map((x, c) => x - omegaFinger[c]);
+    const spin = relative.reduce((sum, x, c) => sum + x * n[c], 0);
+    const tangential = norm(relative.map((x, c) => x - spin * n[c]));
+    const R = 0.04, rho = 0.012;
+    expect(rolling.reduce((sum, x, c) => sum + x * n[c], 0)).toBeNear((tangential ** 2 * R * rho) / (R + rho), { rel: 1e-5 });
     // How large it is here (about a tenth of q_ddot for these rates): stated in the reference as neglected.
     expect(norm(correction) / norm(qdd)).toBeGreaterThan(1e-3);
     expect(norm(correction) / norm(qdd)).toBeLessThan(1);

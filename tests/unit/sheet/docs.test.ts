@@ -85,6 +85,8 @@ describe('quantity ranges in sheet-format.md', () => {
     expect(text).toContain(`between -${schema.MAX_LENGTH} m and ${schema.MAX_LENGTH} m`);
     expect(text).toContain(`between -${schema.MAX_SPEED} m/s and ${schema.MAX_SPEED} m/s`);
     expect(text).toContain(`between -${schema.MAX_ANGULAR_SPEED} rad/s and ${schema.MAX_ANGULAR_SPEED} rad/s`);
+    expect(text).toContain(`between -${schema.MAX_ACCELERATION} m/s^2 and ${schema.MAX_ACCELERATION} m/s^2`);
+    expect(text).toContain(`between -${schema.MAX_ANGULAR_ACCELERATION} rad/s^2 and ${schema.MAX_ANGULAR_ACCELERATION} rad/s^2`);
     expect(text).toContain(`at most ${schema.MAX_TIME} s`);
     expect(text).toContain(`at most ${schema.MAX_RATE} /s`);
     expect(text).toContain(`at most ${schema.MAX_DAMPING} m`);

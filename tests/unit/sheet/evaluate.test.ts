@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { afterEach, describe, expect, it, vi } from 'vitest';
-import { solveSheet, toPlainResult } from '../../../src/lib/kinematics';
+import { solveAccelerations, solveSheet, toPlainResult } from '../../../src/lib/kinematics';
 import { checkDocument } from '../../../src/lib/server/sheets';
 import { exportResultsCsv, readSheetFile } from '../../../src/lib/server/sheet-files';
 import { deriveSheet } from '../../../src/lib/sheet/derivation';
@@ -39,7 +39,7 @@ describe('evaluateSheet', () => {
     if (!evaluated.ok) throw new Error(evaluated.error.message);
     const parsed = parseSheet(sheet());
     if (!parsed.ok) throw new Error('the example must read');
-    const solved = solveSheet(parsed.doc);
+    const solved = solveAccelerations(solveSheet(parsed.doc), parsed.doc.object.acceleration, parsed.doc.solver);
     expect(evaluated.value.doc).toEqual(parsed.doc);
     expect(evaluated.value.result).toEqual(toPlainResult(solved));
     expect(evaluated.value.summary).toEqual({
@@ -55,7 +55,7 @@ describe('evaluateSheet', () => {
     if (!evaluated.ok) throw new Error(evaluated.error.message);
     const parsed = parseSheet(sheet());
     if (!parsed.ok) throw new Error('the example must read');
-    expect(evaluated.value.derivation).toEqual(deriveSheet(parsed.doc, solveSheet(parsed.doc)));
+    expect(evaluated.value.derivation).toEqual(deriveSheet(parsed.doc, solveAccelerations(solveSheet(parsed.doc), parsed.doc.object.acceleration, parsed.doc.solver)));
   });
 
   it('answers every located issue of a document that does not read, at the document stage', () => {

@@ -1,0 +1,90 @@
+import { readFileSync } from 'node:fs';
+import katex from 'katex';
+import { describe, expect, it } from 'vitest';
+import { createFingerAcceleration, sweepSheet } from '../../../src/lib/kinematics';
+import { evaluateSheet } from '../../../src/lib/sheet/evaluate';
+import { displayValue, findOutput } from '../../../src/lib/sheet/outputs';
+import { parseSheet } from '../../../src/lib/sheet/schema';
+import { threeFingerSheet } from '../kinematics/three-finger-sheet';
+
+const exampleText = readFileSync(new URL('../../../content/sheets/line4-bearing-housing-quarter-turn.json', import.meta.url), 'utf8');
+const example = () => JSON.parse(exampleText) as Record<string, unknown> & { object: Record<string, unknown> };
+
+function issuesOf(input: unknown) {
+  const parsed = parseSheet(input);
+  return parsed.ok ? [] : parsed.issues;
+}
+
+describe('the object acceleration input', () => {
+  it('reads units: 500 mm/s^2 = 0.5 m/s^2 and 90 deg/s^2 = pi/2 rad/s^2 (SI definitions, common practice), a missing part as zero', () => {
+    const doc = example();
+    doc.object.acceleration = { linear: ['500 mm/s^2', 0, '-1 m/s^2'], angular: [0, '90 deg/s^2', 2] };
+    const parsed = parseSheet(doc);
+    if (!parsed.ok) throw new Error(parsed.issues[0].message);
+    expect(parsed.doc.object.acceleration?.linear).toBeNear([0.5, 0, -1], { abs: 1e-15 });
+    expect(parsed.doc.object.acceleration?.angular).toBeNear([0, Math.PI / 2, 2], { abs: 1e-15 });
+    doc.object.acceleration = { angular: [0, 0, 1] };
+    const angularOnly = parseSheet(doc);
+    expect(angularOnly.ok && angularOnly.doc.object.acceleration).toEqual({ linear: [0, 0, 0], angular: [0, 0, 1] });
+  });
+
+  it('leaves a sheet without an acceleration as it was written', () => {
+    const parsed = parseSheet(example());
+    expect(parsed.ok && 'acceleration' in parsed.doc.object).toBe(false);
+  });
+
+  it('refuses a wrong unit, a value out of range and an unknown field, each at its place', () => {
+    const doc = example();
+    doc.object.acceleration = { linear: ['2 m/s', 0, 0], angular: [0, 0, 2e6], spin: 1 };
+    expect(issuesOf(doc)).toEqual([
+      { path: 'object.acceleration.linear[0]', message: 'expected an acceleration, got 2 m/s' },
+      { path: 'object.acceleration.angular[2]', message: 'must lie between -1000000 rad/s^2 and 1000000 rad/s^2' },
+      { path: 'object.acceleration.spin', message: 'unknown field "spin"' },
+    ]);
+    doc.object.acceleration = { linear: [1e4 + 1, 0, 0] };
+    expect(issuesOf(doc)).toEqual([{ path: 'object.acceleration.linear[0]', message: 'must lie between -10000 m/s^2 and 10000 m/s^2' }]);
+  });
+});
+
+describe('the feed-forward in an evaluation', () => {
+  const sheet = { ...threeFingerSheet(), object: { ...threeFingerSheet().object, acceleration: { linear: [0.2, 0, -0.1], angular: [0, 0, 3] } } };
+  const evaluated = evaluateSheet(sheet, { derive: true });
+  if (!evaluated.ok) throw new Error(evaluated.error.message);
+  const { result, derivation } = evaluated.value;
+
+  it('reaches every finger of the plain result, with the object point acceleration a_o + alpha x r + omega x (omega x r)', () => {
+    for (const f of result.fingers) {
+      const x = f.contact.objectPoint, w = result.object.angularVelocity;
+      // Worked by hand for alpha and omega along z: alpha x r = 3 (-x_y, x_x, 0), omega x (omega x r) = -|w|^2 (x_x, x_y, 0) (Craig, ch. 6).
+      const expected = [0.2 - 3 * x[1] - w[2] ** 2 * x[0], 3 * x[0] - w[2] ** 2 * x[1], -0.1];
+      expect(f.acceleration?.objectPoint).toBeNear(expected, { abs: 1e-15, rel: 1e-12 });
+      expect(f.acceleration?.jointAccelerations).toHaveLength(f.jointNames.length);
+    }
+  });
+
+  it('derives the object point, J_dot q_dot, the joint accelerations and the residual of every finger, in KaTeX', () => {
+    for (const [i, f] of result.fingers.entries()) {
+      const entries = derivation.filter((e) => e.id.startsWith(`finger.${i}.acceleration.`));
+      expect(entries.map((e) => e.id.split('.').pop())).toEqual(['objectPoint', 'jacobianRate', 'jointAccelerations', 'residual']);
+      expect(entries[2].value).toEqual(f.acceleration?.jointAccelerations);
+      expect(entries[2].unit).toBe('rad/s^2');
+      for (const e of entries) expect(() => katex.renderToString(e.latex, { throwOnError: true }), e.id).not.toThrow();
+    }
+  });
+
+  it('shows "—" for results that carry no feed-forward (sweeps and runs solve velocities only)', () => {
+    const sweep = sweepSheet(threeFingerSheet(), { path: '/object/twist/angular/2', from: 0, to: 1, steps: 2 });
+    const output = findOutput('acceleration.jointAccelerations');
+    expect(displayValue(output, output.read(sweep.results[0], 0))).toBe('(—, —, —)');
+  });
+});
+
+describe('the reference page content/docs/acceleration.md', () => {
+  const text = readFileSync(new URL('../../../content/docs/acceleration.md', import.meta.url), 'utf8');
+
+  it('has front matter and explains every field of a finger acceleration', () => {
+    expect(text).toMatch(/^---\ntitle: .+\norder: \d+\n---\n/);
+    const missing = Object.keys(createFingerAcceleration(3)).filter((key) => !text.includes(`\`acceleration.${key}\``));
+    expect(missing).toEqual([]);
+  });
+});
