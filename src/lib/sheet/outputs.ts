@@ -160,7 +160,7 @@ export const OUTPUTS: readonly OutputDefinition[] = [
   },
   {
     id: 'acceleration.objectPoint', label: 'object acceleration at the contact', tableLabel: 'object acceleration a(x)', unit: 'm/s^2',
-    display: shown('m/s²'), frame: 'palm', scope: 'finger', parts: 'xyz', compared: false, read: (r, i) => accelerationOf(r, i, 'objectPoint'),
+    display: shown('m/s²'), frame: 'palm', scope: 'finger', parts: 'xyz', compared: true, read: (r, i) => accelerationOf(r, i, 'objectPoint'),
   },
   {
     id: 'acceleration.centripetal', label: 'centripetal part ω × (ω × r)', tableLabel: 'of which centripetal', unit: 'm/s^2', display: shown('m/s²'),
@@ -172,11 +172,11 @@ export const OUTPUTS: readonly OutputDefinition[] = [
   },
   {
     id: 'acceleration.residual', label: 'acceleration residual (full)', tableLabel: 'acceleration residual', unit: 'm/s^2', display: shown('m/s²'),
-    frame: null, scope: 'finger', parts: 'single', compared: false, read: (r, i) => r.fingers[i].acceleration?.residualNorm ?? Number.NaN,
+    frame: null, scope: 'finger', parts: 'single', compared: true, read: (r, i) => r.fingers[i].acceleration?.residualNorm ?? Number.NaN,
   },
   {
     id: 'acceleration.jointAccelerations', label: 'joint acceleration (full)', tableLabel: 'accel., rad/s²', unit: 'rad/s^2', display: shown('rad/s²'),
-    frame: null, scope: 'joint', parts: 'joints', compared: false, read: (r, i) => accelerationOf(r, i, 'jointAccelerations'),
+    frame: null, scope: 'joint', parts: 'joints', compared: true, read: (r, i) => accelerationOf(r, i, 'jointAccelerations'),
   },
   {
     id: 'grasp.contacts', label: 'contacts', unit: '', display: unitless(), frame: null, scope: 'grasp', parts: 'single', compared: false,

@@ -59,7 +59,8 @@ describe('the surfaces that read the catalogue', () => {
       'contact state', 'gap', ...xyz('contact point'), ...xyz('contact normal'), 'normal speed', 'tangential speed',
       ...first.jointNames.map((joint) => `joint rate (full) · ${joint}`), 'slip residual (full)', 'singular value · σ1', 'singular value · σ2',
       'singular value · σ3', 'condition number', 'manipulability', 'base rate (steer-and-roll)', 'pivot angle (steer-and-roll)',
-      'roll rate (steer-and-roll)', 'slip residual (steer-and-roll)',
+      'roll rate (steer-and-roll)', 'slip residual (steer-and-roll)', ...xyz('object acceleration at the contact'), 'acceleration residual (full)',
+      ...first.jointNames.map((joint) => `joint acceleration (full) · ${joint}`),
     ]);
     expect(rows.find((row) => row.quantity === 'gap')).toEqual({ group: first.name, quantity: 'gap', unit: 'm', value: first.contact.gap });
     expect(rows.find((row) => row.quantity === 'singular value · σ2')?.unit).toBe('m/rad');
