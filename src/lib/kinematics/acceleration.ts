@@ -10,6 +10,7 @@
 import type { ObjectAcceleration, SolverSettings } from '../sheet/types';
 import { createLinalgWorkspace, dampedLeastSquares, type LinalgWorkspace } from './linalg';
 import type { FingerResult, SheetResult } from './scene';
+import { cross } from './vec3';
 
 /** Acceleration feed-forward of one finger from its full-solution joint rates (world frame, SI). */
 export interface FingerAcceleration {
@@ -51,18 +52,10 @@ export function objectPointAcceleration(
   return out;
 }
 
-function crossInto(a: ArrayLike<number>, b: ArrayLike<number>, out: Float64Array): Float64Array {
-  const x = a[1] * b[2] - a[2] * b[1], y = a[2] * b[0] - a[0] * b[2], z = a[0] * b[1] - a[1] * b[0];
-  out[0] = x; out[1] = y; out[2] = z;
-  return out;
-}
-
-/**
- * J_dot q_dot of the contact Jacobian with columns w_k x (y - r_k) for the material point y of the
- * last link (world frame, m/s^2): sum_k q_dot_k [w_k_dot x (y - r_k) + w_k x (y_dot - r_k_dot)], with
- * w_k_dot = W_k x w_k and r_k_dot = sum_{j<k} q_dot_j w_j x (r_k - r_j), W_k = sum_{j<k} q_dot_j w_j
- * (revolute joints, axes and points packed 3 per joint); angularOut gets sum_k q_dot_k w_k_dot (rad/s^2).
- */
+// Revolute joints, axes and points packed 3 per joint: the axis of joint k turns with the joints
+// before it, w_k_dot = W_k x w_k with W_k = sum_{j<k} q_dot_j w_j; its point moves with them,
+// r_k_dot = sum_{j<k} q_dot_j w_j x (r_k - r_j); and y moves with the last link, y_dot = J q_dot.
+/** J_dot q_dot = sum_k q_dot_k [w_k_dot x (y - r_k) + w_k x (y_dot - r_k_dot)] for the last link's material point y (world frame, m/s^2); angularOut gets sum_k q_dot_k w_k_dot (rad/s^2). */
 export function jacobianRateTimesRates(
   axes: ArrayLike<number>, points: ArrayLike<number>, jointCount: number, y: ArrayLike<number>, rates: ArrayLike<number>,
   out: Float64Array = new Float64Array(3), angularOut: Float64Array = new Float64Array(3),
@@ -72,7 +65,7 @@ export function jacobianRateTimesRates(
   const term = new Float64Array(3);
   const yDot = new Float64Array(3);
   for (let k = 0; k < jointCount; k++) {
-    crossInto(axis(k), from(k, y), term);
+    cross(axis(k), from(k, y), term);
     for (let c = 0; c < 3; c++) yDot[c] += rates[k] * term[c];
   }
   const linkAngularVelocity = new Float64Array(3), axisRate = new Float64Array(3), pointRate = new Float64Array(3);
@@ -80,15 +73,15 @@ export function jacobianRateTimesRates(
   angularOut.fill(0);
   for (let k = 0; k < jointCount; k++) {
     const w = axis(k), r = [points[3 * k], points[3 * k + 1], points[3 * k + 2]];
-    crossInto(linkAngularVelocity, w, axisRate);
+    cross(linkAngularVelocity, w, axisRate);
     pointRate.fill(0);
     for (let j = 0; j < k; j++) {
-      crossInto(axis(j), from(j, r), term);
+      cross(axis(j), from(j, r), term);
       for (let c = 0; c < 3; c++) pointRate[c] += rates[j] * term[c];
     }
-    crossInto(axisRate, from(k, y), term);
+    cross(axisRate, from(k, y), term);
     for (let c = 0; c < 3; c++) out[c] += rates[k] * term[c];
-    crossInto(w, [yDot[0] - pointRate[0], yDot[1] - pointRate[1], yDot[2] - pointRate[2]], term);
+    cross(w, [yDot[0] - pointRate[0], yDot[1] - pointRate[1], yDot[2] - pointRate[2]], term);
     for (let c = 0; c < 3; c++) {
       out[c] += rates[k] * term[c];
       angularOut[c] += rates[k] * axisRate[c];
@@ -113,11 +106,9 @@ export function createFingerAcceleration(jointCount: number): FingerAcceleration
   };
 }
 
-/**
- * Joint accelerations of one solved finger: q_ddot = J^T (J J^T + lambda^2 I)^{-1} (a_x - J_dot q_dot) on the
- * velocity solve's Jacobian (3 rows, or 4 with the soft-finger row n . w_k and n . (alpha - sum_k w_k_dot q_dot_k)),
- * at that solve's joint axes, points, contact and full-solution rates, object origin p and angular velocity omega (world frame, SI).
- */
+// The Jacobian is the velocity solve's: 3 rows, or 4 with the soft-finger row n . w_k, whose
+// right-hand side becomes n . (alpha - sum_k q_dot_k w_k_dot).
+/** Joint accelerations q_ddot = J^T (J J^T + lambda^2 I)^-1 (a_x - J_dot q_dot) of one solved finger at its full-solution rates, object origin p and angular velocity (world frame, rad/s^2). */
 export function solveFingerAcceleration(
   finger: Readonly<FingerResult>, origin: ArrayLike<number>, angularVelocity: ArrayLike<number>, acceleration: Readonly<ObjectAcceleration>,
   damping: number, out: FingerAcceleration = createFingerAcceleration(finger.jointAngles.length),
@@ -146,10 +137,7 @@ export function solveFingerAcceleration(
 
 const ZERO_ACCELERATION: Readonly<ObjectAcceleration> = { linear: [0, 0, 0], angular: [0, 0, 0] };
 
-/**
- * Fills every finger's acceleration feed-forward of a solved sheet, once per evaluation and never per
- * tick, from the object's acceleration (zero when absent; world frame, SI); returns the result.
- */
+/** Fills every finger's acceleration feed-forward of a solved sheet, once per evaluation, from the object's acceleration (zero when absent; world frame, SI). */
 export function solveAccelerations(result: SheetResult, acceleration: Readonly<ObjectAcceleration> | undefined, settings: Readonly<SolverSettings>): SheetResult {
   const maxJoints = result.fingers.reduce((m, f) => Math.max(m, f.jointAngles.length), 4);
   const ws = createLinalgWorkspace(4, maxJoints);
