@@ -99,6 +99,22 @@ describe('sheet editor', () => {
     await saveSection(page, '#results', 'sheet-editor-results');
   });
 
+  it('takes the object acceleration beside the twist; the feed-forward adds it at every contact', async () => {
+    const key = '0.acceleration.objectPoint';
+    const before = await cell(page, key).innerText();
+    const x = (text: string) => Number(text.replace(/[()]/g, '').split(',')[0]);
+    const linear = field(page, 'object.acceleration.linear[0]');
+    await linear.locator('input').fill('1 m/s^2');
+    await expect(linear.locator('[data-si]').innerText()).resolves.toBe('1 m/s^2');
+    const after = await changedText(page, key, before);
+    // a(x) = a_o + alpha x r + omega x (omega x r): the origin's acceleration adds one to one (Craig, ch. 6).
+    expect(x(after) - x(before)).toBeCloseTo(1, 3);
+    await saveSection(page, '[data-acceleration="0"]', 'sheet-editor-acceleration');
+    await linear.locator('input').fill('');
+    await changedText(page, key, after);
+    await expect(cell(page, key).innerText()).resolves.toBe(before);
+  });
+
   it('uses a variable from the variables editor in a field, and shows a bad line inline', async () => {
     const editor = page.locator('[data-variables-editor]');
     await editor.click();

@@ -8,9 +8,9 @@ import QuantityField from './QuantityField';
 const ACCELERATION: DocumentPath = ['object', 'acceleration'];
 
 /**
- * One part of the object's optional acceleration: blank components read as 0, and clearing all
- * three removes the part (and the acceleration once both parts are gone), so a sheet without an
- * acceleration stays as it was written.
+ * One part of the object's optional acceleration: blank components are stored as 0, and a part
+ * left all blank or zero is removed (and the acceleration once both parts are gone), so a sheet
+ * without an acceleration stays as it was written.
  */
 function AccelerationVector({ part, label, kind }: { part: 'linear' | 'angular'; label: string; kind: Exclude<QuantityKind, 'any'> }) {
   const { document, update, issues, variables, readOnly } = useSheetEditing();
@@ -19,7 +19,8 @@ function AccelerationVector({ part, label, kind }: { part: 'linear' | 'angular';
   const components: unknown[] = Array.isArray(vector) ? vector : [];
   const change = (index: number, value: number | string | undefined) => {
     const next = [0, 1, 2].map((k) => (k === index ? value : components[k]));
-    const blank = next.every((x) => x === undefined);
+    // A zero vector means the same as none, so clearing or zeroing every component removes the part.
+    const blank = next.every((x) => x === undefined || x === 0);
     const rest = setAt(getAt(document, ACCELERATION) ?? {}, [part], blank ? undefined : next.map((x) => x ?? 0));
     update(ACCELERATION, Object.keys(rest as object).length === 0 ? undefined : rest);
   };
