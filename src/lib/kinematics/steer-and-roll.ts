@@ -32,11 +32,12 @@ export interface SteerAndRoll {
   remainderNorm: number;
   /**
    * Pivot change from the current angle and the steered pivot angle, rad: of the aligning angles the nearer; else the
-   * least-slip angle; the current angle when the roll direction vanishes at every angle (contact on the roll axis).
+   * least-slip angle; the current angle (roll rate 0) when every angle satisfies the rolling constraint: the roll
+   * direction vanishes at every angle (contact on the roll axis) or the remainder is below the minimum tangential speed.
    */
   pivotChange: number;
   pivotAngle: number;
-  /** The roll direction could be aligned exactly with the remainder. */
+  /** The roll direction could be aligned exactly with the remainder (false when a remainder below the minimum tangential speed is left unsteered). */
   aligned: boolean;
   /** Angle between the steered roll direction and the remainder's line, rad (0 when aligned). */
   misalignment: number;
@@ -177,7 +178,7 @@ export function solveSteerAndRoll(finger: Finger, contact: Contact, full: FullSo
     out.rollDistance = Number.NaN;
     out.rollRate = 0;
   } else {
-    steer(finger, contact, out, ws.rollDirection, ws.pivotTurn);
+    steer(finger, contact, out, settings.minTangentialSpeed, ws.rollDirection, ws.pivotTurn);
   }
 
   // Jacobian after steering: the full solution's translational rows, with the joints beyond the pivot turned about the pivot line by pivotChange.
@@ -253,9 +254,10 @@ function driveConditioning(finger: Finger, contact: Contact, settings: SolverSet
  * direction d(delta) = R w_roll x e - R g is linear in (1, cos, sin), so aligning it with the
  * remainder u (m . d = 0 for m = n x u) is a + b cos delta + c sin delta = 0. Uses rollDirection
  * for D0, D1, D2 and writes the cosine and sine of the chosen pivot change into pivotTurn.
- * Choice of angle: of the two roots the nearer one; with no root the least-slip angle; when d vanishes at every
- * angle (contact on the roll axis, so every angle satisfies the equation) the current angle with roll rate 0, so
- * that rounding does not pick the angle or the roll direction.
+ * Choice of angle: of the two roots the nearer one; with no root the least-slip angle; when every angle satisfies
+ * the rolling constraint, because d vanishes at every angle (contact on the roll axis) or the remainder is below
+ * the minimum tangential speed (e.g. the object point at the contact at rest), the current angle with roll rate 0,
+ * so that rounding does not pick the angle or the roll direction.
  */
 /**
  * Roll directions below this fraction of the lever arms at every pivot angle are rounding: the contact lies on
@@ -263,8 +265,11 @@ function driveConditioning(finger: Finger, contact: Contact, settings: SolverSet
  */
 const ROLL_AXIS_NOISE = 1e-6;
 
-function steer(finger: Finger, contact: Contact, out: SteerAndRoll, rollDirection: Float64Array, pivotTurn: Float64Array): void {
+function steer(finger: Finger, contact: Contact, out: SteerAndRoll, minSpeed: number, rollDirection: Float64Array, pivotTurn: Float64Array): void {
   const uNorm = out.remainderNorm;
+  // Below the minimum tangential speed every pivot angle meets the rolling constraint to within the setting, and
+  // the direction of u is rounding or noise (1e-9 m of object pose already turns it anywhere).
+  const steerable = uNorm > 0 && !(uNorm < minSpeed);
   const axes = finger.axes, points = finger.points;
   const po = 3 * finger.pivotIndex, ro = 3 * finger.rollIndex;
   const kx = axes[po], ky = axes[po + 1], kz = axes[po + 2];
@@ -293,7 +298,7 @@ function steer(finger: Finger, contact: Contact, out: SteerAndRoll, rollDirectio
   for (let i = 0; i < 9; i++) scale += D[i] * D[i];
   const lever = Math.sqrt(ex * ex + ey * ey + ez * ez) + Math.sqrt(sx * sx + sy * sy + sz * sz);
   const rollable = scale > ROLL_AXIS_NOISE * ROLL_AXIS_NOISE * lever * lever;
-  if (uNorm > 0 && rollable) {
+  if (steerable && rollable) {
     const mx = (nrm[1] * u[2] - nrm[2] * u[1]) / uNorm;
     const my = (nrm[2] * u[0] - nrm[0] * u[2]) / uNorm;
     const mz = (nrm[0] * u[1] - nrm[1] * u[0]) / uNorm;
@@ -341,10 +346,10 @@ function steer(finger: Finger, contact: Contact, out: SteerAndRoll, rollDirectio
   out.pivotAngle = finger.angles[finger.pivotIndex] + delta;
   out.aligned = aligned || uNorm === 0;
   out.rollDistance = Math.sqrt(dd);
-  out.rollRate = rollable && dd > 0 ? du / dd : 0;
+  out.rollRate = steerable && rollable && dd > 0 ? du / dd : 0;
   out.rates[finger.rollIndex] = out.rollRate;
   // An exact alignment leaves only rounding between d and u; the angle matters only when it is real.
-  if (aligned || !(rollable && dd > 0 && uNorm > 0)) {
+  if (aligned || !(rollable && dd > 0 && steerable)) {
     out.misalignment = 0;
   } else {
     const crossX = dy * u[2] - dz * u[1], crossY = dz * u[0] - dx * u[2], crossZ = dx * u[1] - dy * u[0];
