@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { createObject } from '../../../src/lib/kinematics/contact';
-import { ball, settings, solveFinger } from './single-finger';
+import { settings, solveFinger } from './single-finger';
 import { threeFingerFinger } from './three-finger-sheet';
 
 /**
