@@ -64,7 +64,7 @@ function ResultsSection({ result, stale }: { result: PlainSheetResult | null; st
               </table>
               <table className="w-full text-sm">
                 <tbody>
-                  <OutputRow id="steer.baseRate" result={result} finger={i} test />
+                  <OutputRow id="steer.baseRates" result={result} finger={i} test />
                   <OutputRow id="steer.pivotAngle" result={result} finger={i} test />
                   <OutputRow id="steer.rollRate" result={result} finger={i} test />
                   <OutputRow id="steer.rateDifferenceNorm" result={result} finger={i} />

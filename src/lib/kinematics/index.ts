@@ -26,7 +26,7 @@
  * latitude/longitude on the roller, object velocity at x split into normal and tangential parts,
  * distances to the roll and pivot axes), the full damped least-squares solution (FullSolution:
  * Jacobian, rates, residual, singular values, condition number, manipulability) and the
- * steer-and-roll solution (SteerAndRoll: base rate, pivot change and angle, roll rate,
+ * steer-and-roll solution (SteerAndRoll: base rates shared over the base joints by the minimum-norm rule, pivot change and angle, roll rate,
  * conditioning before and after steering, the drive columns' singular values and ratio after
  * steering, residual and the difference from the full rates), and which Jacobian rank loss and
  * slip are judged on (rankBasis 'steered' when steer-and-roll is available, else 'full', with

@@ -107,7 +107,7 @@ export function createResult(scene: Scene): SheetResult {
       rollerAxis: new Float64Array(3),
       contact: createContact(),
       full: createFullSolution(f.jointCount),
-      steer: createSteerAndRoll(f.jointCount),
+      steer: createSteerAndRoll(f),
       rankBasis: 'full' as JudgedBasis,
       rankRatio: 0,
     })),

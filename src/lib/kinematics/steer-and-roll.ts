@@ -1,6 +1,6 @@
 /**
  * Steer-and-roll solution of the joint rates for rolling without slipping at one contact (world
- * frame, SI): the base supplies the normal velocity, the pivot turns the roll direction onto what
+ * frame, SI): the base joints supply the normal velocity (shared by the minimum-norm rule), the pivot turns the roll direction onto what
  * is left, and the roll joint supplies its magnitude; then the conditioning of the drive columns
  * after steering.
  */
@@ -15,20 +15,29 @@ import { conditionNumber, createMatrix, type Matrix } from './linalg';
 export interface SteerAndRoll {
   /** The finger has a base, a pivot and a roll joint. */
   available: boolean;
-  /** n . (w_base x (y - r_base)): normal contact speed per unit base rate, m/rad. */
+  /** Indices of the finger's base joints, in the sheet's joint order. */
+  baseJoints: number[];
+  /** a_k = n . (w_k x (y - r_k)) per base joint k: normal contact speed per unit rate of that joint, m/rad. */
+  normalGains: Float64Array;
+  /** |a|, the length of the row of normal gains: normal contact speed per unit length of the base-rate vector, m/rad. */
   normalGain: number;
-  /** Base rate n . v_o / normalGain, rad/s (0 when the gain vanishes). */
-  baseRate: number;
-  /** v_o(x) - baseRate (w_base x (y - r_base)), m/s: what the roller must supply. */
+  /**
+   * Minimum-norm base rates a_k (n . v_o) / |a|^2 per base joint, rad/s: the Moore-Penrose pseudo-inverse of the
+   * 1 x k row a applied to the normal speed, so the base joints meet n . v_o with the least sum of squared rates
+   * (all 0 when |a| vanishes).
+   */
+  baseRates: Float64Array;
+  /** v_o(x) - sum_k baseRates_k (w_k x (y - r_k)), m/s: what the roller must supply. */
   remainder: Float64Array;
   remainderNorm: number;
   /**
    * Pivot change from the current angle and the steered pivot angle, rad: of the aligning angles the nearer; else the
-   * least-slip angle; the current angle when the roll direction vanishes at every angle (contact on the roll axis).
+   * least-slip angle; the current angle (roll rate 0) when every angle satisfies the rolling constraint: the roll
+   * direction vanishes at every angle (contact on the roll axis) or the remainder is below the minimum tangential speed.
    */
   pivotChange: number;
   pivotAngle: number;
-  /** The roll direction could be aligned exactly with the remainder. */
+  /** The roll direction could be aligned exactly with the remainder (false when a remainder below the minimum tangential speed is left unsteered). */
   aligned: boolean;
   /** Angle between the steered roll direction and the remainder's line, rad (0 when aligned). */
   misalignment: number;
@@ -36,7 +45,7 @@ export interface SteerAndRoll {
   rollDistance: number;
   /** Roll rate remainder . d / |d|^2 with d = w_roll x (y - r_roll) after steering, rad/s (= +-|remainder| / rollDistance when aligned). */
   rollRate: number;
-  /** Joint rates: base and roll set, every other joint 0, rad/s. */
+  /** Joint rates: base joints and roll set, every other joint 0, rad/s. */
   rates: Float64Array;
   /** Translational Jacobian after steering (3 x joints, m/rad). */
   jacobianAfter: Matrix;
@@ -75,19 +84,28 @@ export interface SteerWorkspace {
   pivotTurn: Float64Array;
   /** Drive columns of the steered Jacobian (3 x up to maxJoints). */
   drive: Matrix;
+  /** Translational columns w_k x (y - r_k) of the base joints, 3 numbers each (m/rad). */
+  baseColumns: Float64Array;
 }
 
 /** New scratch for solveSteerAndRoll on fingers of up to maxJoints joints. */
 export function createSteerWorkspace(maxJoints: number): SteerWorkspace {
-  return { rollDirection: new Float64Array(9), pivotTurn: new Float64Array(2), drive: createMatrix(3, Math.max(1, maxJoints)) };
+  return {
+    rollDirection: new Float64Array(9), pivotTurn: new Float64Array(2), drive: createMatrix(3, Math.max(1, maxJoints)),
+    baseColumns: new Float64Array(3 * Math.max(1, maxJoints)),
+  };
 }
 
-/** Empty steer-and-roll solution for a finger of n joints. */
-export function createSteerAndRoll(jointCount: number): SteerAndRoll {
+/** Empty steer-and-roll solution shaped for the finger's joints and base joints. */
+export function createSteerAndRoll(finger: Pick<Finger, 'jointCount' | 'roles'>): SteerAndRoll {
+  const jointCount = finger.jointCount;
+  const baseJoints = finger.roles.flatMap((role, k) => (role === 'base' ? [k] : []));
   return {
     available: false,
+    baseJoints,
+    normalGains: new Float64Array(baseJoints.length),
     normalGain: 0,
-    baseRate: 0,
+    baseRates: new Float64Array(baseJoints.length),
     remainder: new Float64Array(3),
     remainderNorm: 0,
     pivotChange: 0,
@@ -116,35 +134,41 @@ export function createSteerAndRoll(jointCount: number): SteerAndRoll {
 /** Steer-and-roll solution for one finger after solveFull, with the conditioning of its drive columns after steering (world frame, SI). */
 export function solveSteerAndRoll(finger: Finger, contact: Contact, full: FullSolution, settings: SolverSettings, out: SteerAndRoll, ws: SteerWorkspace): SteerAndRoll {
   const n = finger.jointCount;
-  const b = finger.baseIndex, pv = finger.pivotIndex, rl = finger.rollIndex;
+  const pv = finger.pivotIndex, rl = finger.rollIndex;
   const rates = out.rates;
   for (let k = 0; k < n; k++) rates[k] = 0;
   out.conditionBefore = full.conditionNumber;
-  out.available = b >= 0 && pv >= 0 && rl >= 0;
+  out.available = out.baseJoints.length > 0 && pv >= 0 && rl >= 0;
   const axes = finger.axes, points = finger.points;
   const y = contact.rollerPoint, nrm = contact.normal, v = contact.objectVelocity;
   const u = out.remainder;
 
-  // Base: its column's normal component must produce the normal part of the contact velocity.
-  let jbx = 0, jby = 0, jbz = 0;
-  if (b >= 0) {
-    const o = 3 * b;
+  // Base joints: the minimum-norm rates for the one equation sum_k a_k rate_k = n . v_o (pseudo-inverse of the row a).
+  const baseJoints = out.baseJoints, gains = out.normalGains, baseRates = out.baseRates, columns = ws.baseColumns;
+  const baseCount = baseJoints.length;
+  let gainSquared = 0;
+  for (let j = 0; j < baseCount; j++) {
+    const o = 3 * baseJoints[j], c = 3 * j;
     const ex = y[0] - points[o], ey = y[1] - points[o + 1], ez = y[2] - points[o + 2];
-    jbx = axes[o + 1] * ez - axes[o + 2] * ey;
-    jby = axes[o + 2] * ex - axes[o] * ez;
-    jbz = axes[o] * ey - axes[o + 1] * ex;
+    const jx = axes[o + 1] * ez - axes[o + 2] * ey, jy = axes[o + 2] * ex - axes[o] * ez, jz = axes[o] * ey - axes[o + 1] * ex;
+    columns[c] = jx; columns[c + 1] = jy; columns[c + 2] = jz;
+    const gain = nrm[0] * jx + nrm[1] * jy + nrm[2] * jz;
+    gains[j] = gain;
+    gainSquared += gain * gain;
   }
-  const gain = nrm[0] * jbx + nrm[1] * jby + nrm[2] * jbz;
   const normalSpeed = nrm[0] * v[0] + nrm[1] * v[1] + nrm[2] * v[2];
-  const baseRate = gain !== 0 && Number.isFinite(normalSpeed / gain) ? normalSpeed / gain : 0;
-  out.normalGain = gain;
-  out.baseRate = baseRate;
-  u[0] = v[0] - baseRate * jbx;
-  u[1] = v[1] - baseRate * jby;
-  u[2] = v[2] - baseRate * jbz;
-  const uNorm = Math.sqrt(u[0] * u[0] + u[1] * u[1] + u[2] * u[2]);
-  out.remainderNorm = uNorm;
-  if (b >= 0) rates[b] = baseRate;
+  const perGain = gainSquared > 0 && Number.isFinite(normalSpeed / gainSquared) ? normalSpeed / gainSquared : 0;
+  out.normalGain = Math.sqrt(gainSquared);
+  u[0] = v[0]; u[1] = v[1]; u[2] = v[2];
+  for (let j = 0; j < baseCount; j++) {
+    const rate = gains[j] * perGain, c = 3 * j;
+    baseRates[j] = rate;
+    rates[baseJoints[j]] = rate;
+    u[0] -= rate * columns[c];
+    u[1] -= rate * columns[c + 1];
+    u[2] -= rate * columns[c + 2];
+  }
+  out.remainderNorm = Math.sqrt(u[0] * u[0] + u[1] * u[1] + u[2] * u[2]);
 
   if (!out.available) {
     out.pivotChange = 0;
@@ -154,7 +178,7 @@ export function solveSteerAndRoll(finger: Finger, contact: Contact, full: FullSo
     out.rollDistance = Number.NaN;
     out.rollRate = 0;
   } else {
-    steer(finger, contact, out, ws.rollDirection, ws.pivotTurn);
+    steer(finger, contact, out, settings.minTangentialSpeed, ws.rollDirection, ws.pivotTurn);
   }
 
   // Jacobian after steering: the full solution's translational rows, with the joints beyond the pivot turned about the pivot line by pivotChange.
@@ -230,9 +254,10 @@ function driveConditioning(finger: Finger, contact: Contact, settings: SolverSet
  * direction d(delta) = R w_roll x e - R g is linear in (1, cos, sin), so aligning it with the
  * remainder u (m . d = 0 for m = n x u) is a + b cos delta + c sin delta = 0. Uses rollDirection
  * for D0, D1, D2 and writes the cosine and sine of the chosen pivot change into pivotTurn.
- * Choice of angle: of the two roots the nearer one; with no root the least-slip angle; when d vanishes at every
- * angle (contact on the roll axis, so every angle satisfies the equation) the current angle with roll rate 0, so
- * that rounding does not pick the angle or the roll direction.
+ * Choice of angle: of the two roots the nearer one; with no root the least-slip angle; when every angle satisfies
+ * the rolling constraint, because d vanishes at every angle (contact on the roll axis) or the remainder is below
+ * the minimum tangential speed (e.g. the object point at the contact at rest), the current angle with roll rate 0,
+ * so that rounding does not pick the angle or the roll direction.
  */
 /**
  * Roll directions below this fraction of the lever arms at every pivot angle are rounding: the contact lies on
@@ -240,8 +265,11 @@ function driveConditioning(finger: Finger, contact: Contact, settings: SolverSet
  */
 const ROLL_AXIS_NOISE = 1e-6;
 
-function steer(finger: Finger, contact: Contact, out: SteerAndRoll, rollDirection: Float64Array, pivotTurn: Float64Array): void {
+function steer(finger: Finger, contact: Contact, out: SteerAndRoll, minSpeed: number, rollDirection: Float64Array, pivotTurn: Float64Array): void {
   const uNorm = out.remainderNorm;
+  // Below the minimum tangential speed every pivot angle meets the rolling constraint to within the setting, and
+  // the direction of u is rounding or noise (1e-9 m of object pose already turns it anywhere).
+  const steerable = uNorm > 0 && !(uNorm < minSpeed);
   const axes = finger.axes, points = finger.points;
   const po = 3 * finger.pivotIndex, ro = 3 * finger.rollIndex;
   const kx = axes[po], ky = axes[po + 1], kz = axes[po + 2];
@@ -270,7 +298,7 @@ function steer(finger: Finger, contact: Contact, out: SteerAndRoll, rollDirectio
   for (let i = 0; i < 9; i++) scale += D[i] * D[i];
   const lever = Math.sqrt(ex * ex + ey * ey + ez * ez) + Math.sqrt(sx * sx + sy * sy + sz * sz);
   const rollable = scale > ROLL_AXIS_NOISE * ROLL_AXIS_NOISE * lever * lever;
-  if (uNorm > 0 && rollable) {
+  if (steerable && rollable) {
     const mx = (nrm[1] * u[2] - nrm[2] * u[1]) / uNorm;
     const my = (nrm[2] * u[0] - nrm[0] * u[2]) / uNorm;
     const mz = (nrm[0] * u[1] - nrm[1] * u[0]) / uNorm;
@@ -318,10 +346,10 @@ function steer(finger: Finger, contact: Contact, out: SteerAndRoll, rollDirectio
   out.pivotAngle = finger.angles[finger.pivotIndex] + delta;
   out.aligned = aligned || uNorm === 0;
   out.rollDistance = Math.sqrt(dd);
-  out.rollRate = rollable && dd > 0 ? du / dd : 0;
+  out.rollRate = steerable && rollable && dd > 0 ? du / dd : 0;
   out.rates[finger.rollIndex] = out.rollRate;
   // An exact alignment leaves only rounding between d and u; the angle matters only when it is real.
-  if (aligned || !(rollable && dd > 0 && uNorm > 0)) {
+  if (aligned || !(rollable && dd > 0 && steerable)) {
     out.misalignment = 0;
   } else {
     const crossX = dy * u[2] - dz * u[1], crossY = dz * u[0] - dx * u[2], crossZ = dx * u[1] - dy * u[0];

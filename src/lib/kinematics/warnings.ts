@@ -37,6 +37,10 @@ export interface WarningInfo {
   explanation: string;
   /** Unit of value and threshold. */
   unit: string;
+  /** What a raised warning's value is: the judged quantity. */
+  valueMeaning: string;
+  /** What its threshold is: the limit the value was judged against. */
+  thresholdMeaning: string;
 }
 
 /** A raised warning; finger and joint are indices into the sheet's hand (undefined when not tied to one). */
@@ -51,7 +55,7 @@ export interface SheetWarning {
   threshold: number;
 }
 
-/** Every warning code with its severity, title, message and explanation. */
+/** Every warning code with its severity, title, message, explanation and what its value and threshold are. */
 export const WARNING_CATALOGUE: Readonly<Record<WarningCode, WarningInfo>> = {
   CONTACT_NEAR_ROLL_AXIS: {
     severity: 'caution',
@@ -60,6 +64,8 @@ export const WARNING_CATALOGUE: Readonly<Record<WarningCode, WarningInfo>> = {
     explanation:
       'Rolling moves the contact at a speed equal to the roll rate times the distance from the contact to the roll axis. Near the axis that distance vanishes and the roll rate needed grows without bound. Move the contact away from the roller pole, or tilt the roller.',
     unit: 'm',
+    valueMeaning: 'the distance from the contact point to the roll axis',
+    thresholdMeaning: 'the axis-distance setting (solver.axisDistance); raised below it',
   },
   CONTACT_NEAR_PIVOT_AXIS: {
     severity: 'note',
@@ -68,6 +74,8 @@ export const WARNING_CATALOGUE: Readonly<Record<WarningCode, WarningInfo>> = {
     explanation:
       'Turning the pivot then steers the roll direction without moving the contact, which is what steering wants, but the pivot contributes almost nothing to the contact velocity and the contact Jacobian loses a column.',
     unit: 'm',
+    valueMeaning: 'the distance from the contact point to the pivot axis',
+    thresholdMeaning: 'the axis-distance setting (solver.axisDistance); raised below it',
   },
   TANGENTIAL_SPEED_NEAR_ZERO: {
     severity: 'note',
@@ -76,6 +84,8 @@ export const WARNING_CATALOGUE: Readonly<Record<WarningCode, WarningInfo>> = {
     explanation:
       'The pivot angle is chosen to point the roll direction along the tangential velocity left after the base motion. When that velocity is almost zero any pivot angle works; the steer-and-roll solution keeps the current one.',
     unit: 'm/s',
+    valueMeaning: 'the speed the roller must produce: the steer-and-roll remainder, or the tangential speed when steer-and-roll is not available',
+    thresholdMeaning: 'the minimum tangential speed setting (solver.minTangentialSpeed); raised below it',
   },
   JACOBIAN_NEAR_RANK_LOSS: {
     severity: 'singular',
@@ -84,14 +94,18 @@ export const WARNING_CATALOGUE: Readonly<Record<WarningCode, WarningInfo>> = {
     explanation:
       'The ratio of the smallest to the largest singular value of the contact Jacobian is below the singular-ratio setting. A finger with base, pivot and roll joints is judged after steering, on the columns that drive the contact (base, roll and other joints; the pivot only when its axis misses the contact, since a pivot through the contact steers by turning the roll direction and moves nothing), which must span the normal and the steered roll direction. Any other finger is judged on its full Jacobian at the current angles. Joint rates along the weak direction become large or the solve leaves slip. Change the finger posture or the contact location.',
     unit: '1',
+    valueMeaning: 'the ratio of the smallest to the largest singular value of the judged Jacobian, rankRatio on the finger result',
+    thresholdMeaning: 'the singular-ratio setting (solver.singularRatio); raised below it',
   },
   NORMAL_VELOCITY_UNREACHABLE: {
     severity: 'singular',
     title: 'Normal velocity unreachable',
     message: 'No base joint can produce the contact velocity along the normal.',
     explanation:
-      'The object surface moves toward or away from the roller, but the finger has no base joint or the base joint moves the contact almost only tangentially (its lever arm along the normal is below the axis-distance setting). The contact will open or press in.',
+      'The object surface moves toward or away from the roller, but the finger has no base joint or its base joints move the contact almost only tangentially (the length of their normal gains, the normal speed per unit length of the base-rate vector, is below the axis-distance setting). The contact will open or press in.',
     unit: 'm/rad',
+    valueMeaning: 'the normal contact speed the base joints produce per unit length of their rate vector, the length of their normal gains (0 without a base joint)',
+    thresholdMeaning: 'the axis-distance setting (solver.axisDistance) read per radian; raised below it while the normal speed exceeds solver.minTangentialSpeed',
   },
   JOINT_LIMIT_EXCEEDED: {
     severity: 'caution',
@@ -99,6 +113,8 @@ export const WARNING_CATALOGUE: Readonly<Record<WarningCode, WarningInfo>> = {
     message: 'A joint angle, or the pivot angle steering asks for, is outside its limits.',
     explanation: 'The value is the angle and the threshold the limit it crosses. Re-plan the motion or widen the limit if the mechanism allows it.',
     unit: 'rad',
+    valueMeaning: 'the joint angle, or the pivot angle steering asks for',
+    thresholdMeaning: 'the limit it crosses (limits.min or limits.max of the joint)',
   },
   RATE_LIMIT_EXCEEDED: {
     severity: 'caution',
@@ -107,6 +123,8 @@ export const WARNING_CATALOGUE: Readonly<Record<WarningCode, WarningInfo>> = {
     explanation:
       'The value is the largest joint speed asked for by the full or the steer-and-roll solution. In a run, a steered pivot reaches its new angle within one tick, so its speed there is the pivot change divided by the tick length. Slow the object motion down or move the contact where the joint has more leverage.',
     unit: 'rad/s',
+    valueMeaning: 'the larger of the full and steer-and-roll rate magnitudes of the joint',
+    thresholdMeaning: 'the rate limit of the joint (rateLimit); raised above it',
   },
   CONTACT_LOST: {
     severity: 'caution',
@@ -114,6 +132,8 @@ export const WARNING_CATALOGUE: Readonly<Record<WarningCode, WarningInfo>> = {
     message: 'The roller does not touch the object: the gap is larger than the contact tolerance.',
     explanation: 'Rolling kinematics assume touching bodies. The rates are computed for the nearest points all the same; close the gap first.',
     unit: 'm',
+    valueMeaning: 'the gap between roller and object',
+    thresholdMeaning: 'the contact tolerance (solver.contactTolerance); raised above it',
   },
   CONTACT_PENETRATING: {
     severity: 'caution',
@@ -121,6 +141,8 @@ export const WARNING_CATALOGUE: Readonly<Record<WarningCode, WarningInfo>> = {
     message: 'The roller overlaps the object by more than the contact tolerance.',
     explanation: 'Real bodies cannot overlap; the input geometry or pose is inconsistent. Rates refer to the deepest contact direction.',
     unit: 'm',
+    valueMeaning: 'the gap between roller and object, negative for an overlap',
+    thresholdMeaning: 'minus the contact tolerance (solver.contactTolerance); raised below it',
   },
   GRASP_RANK_DEFICIENT: {
     severity: 'caution',
@@ -129,6 +151,8 @@ export const WARNING_CATALOGUE: Readonly<Record<WarningCode, WarningInfo>> = {
     explanation:
       'The stacked contact map of all contacts has rank below 6. The result lists the object twist directions in its null space; motions along them are not controlled by the rollers.',
     unit: '1',
+    valueMeaning: 'the rank of the contact map of all contacts',
+    thresholdMeaning: '6, the rank at which the contacts drive every object twist; raised below it',
   },
   PIVOT_MISSES_ROLLER_CENTRE: {
     severity: 'note',
@@ -137,14 +161,18 @@ export const WARNING_CATALOGUE: Readonly<Record<WarningCode, WarningInfo>> = {
     explanation:
       'The steer-and-roll solution assumes the contact point stays put while the pivot turns, which holds only when the pivot axis passes through the roller centre. It is then only approximate; compare it with the full solution.',
     unit: 'm',
+    valueMeaning: 'the distance from the roller centre to the pivot axis',
+    thresholdMeaning: 'the axis-distance setting (solver.axisDistance); raised above it',
   },
   STEER_CANNOT_ALIGN: {
     severity: 'caution',
     title: 'Steering cannot align the roll direction',
     message: 'No pivot angle points the roll direction along the velocity the roller must produce.',
     explanation:
-      'The pivot turns the roll direction on a cone that does not contain the needed direction; the steer-and-roll solution uses the pivot angle that leaves the least slip, and the value is that slip.',
+      'The pivot turns the roll direction on a cone that does not contain the needed direction; the steer-and-roll solution uses the pivot angle that leaves the least slip, and the value is that slip, judged against the slip tolerance (a misalignment that leaves less slip than that is not reported).',
     unit: 'm/s',
+    valueMeaning: 'the slip left at the least-slip pivot angle (steer.residualNorm)',
+    thresholdMeaning: 'the slip tolerance: the larger of solver.minTangentialSpeed and 0.1 % of the contact speed; raised above it',
   },
   SLIP_REQUIRED: {
     severity: 'caution',
@@ -153,6 +181,8 @@ export const WARNING_CATALOGUE: Readonly<Record<WarningCode, WarningInfo>> = {
     explanation:
       'The residual of the solution the finger uses exceeds the slip tolerance (the larger of the minimum tangential speed setting and 0.1 % of the contact speed): the steer-and-roll residual after steering for a finger with base, pivot and roll joints, otherwise the residual of the full damped least-squares solution.',
     unit: 'm/s',
+    valueMeaning: 'the residual of the solution the finger uses: steer-and-roll after steering, or full damped least squares',
+    thresholdMeaning: 'the slip tolerance: the larger of solver.minTangentialSpeed and 0.1 % of the contact speed; raised above it',
   },
 };
 
@@ -291,10 +321,14 @@ export function checkFinger(list: WarningList, i: number, finger: Finger, contac
   if (contact.pivotAxisDistance < axisDistance) raiseWarning(list, 'CONTACT_NEAR_PIVOT_AXIS', i, finger.pivotIndex, contact.pivotAxisDistance, axisDistance);
   if (contact.pivotCenterDistance > axisDistance) raiseWarning(list, 'PIVOT_MISSES_ROLLER_CENTRE', i, finger.pivotIndex, contact.pivotCenterDistance, axisDistance);
 
+  const v = contact.objectVelocity;
+  const speed = Math.sqrt(v[0] * v[0] + v[1] * v[1] + v[2] * v[2]);
+  const slip = slipTolerance(speed, settings);
+
   // The steer direction comes from what the roller must supply after the base motion.
   const steerSpeed = steer.available ? steer.remainderNorm : contact.tangentialSpeed;
   if (steerSpeed < settings.minTangentialSpeed) raiseWarning(list, 'TANGENTIAL_SPEED_NEAR_ZERO', i, undefined, steerSpeed, settings.minTangentialSpeed);
-  else if (steer.available && !steer.aligned) raiseWarning(list, 'STEER_CANNOT_ALIGN', i, finger.pivotIndex, steer.residualNorm, 0);
+  else if (steer.available && !steer.aligned && steer.residualNorm > slip) raiseWarning(list, 'STEER_CANNOT_ALIGN', i, finger.pivotIndex, steer.residualNorm, slip);
 
   const basis = judgedBasis(steer);
   const rankRatio = judgedRankRatio(full, steer);
@@ -306,9 +340,6 @@ export function checkFinger(list: WarningList, i: number, finger: Finger, contac
     raiseWarning(list, 'NORMAL_VELOCITY_UNREACHABLE', i, finger.baseIndex >= 0 ? finger.baseIndex : undefined, Math.abs(steer.normalGain), axisDistance);
   }
 
-  const v = contact.objectVelocity;
-  const speed = Math.sqrt(v[0] * v[0] + v[1] * v[1] + v[2] * v[2]);
-  const slip = slipTolerance(speed, settings);
   const residual = judgedSlip(full, steer);
   if (residual > slip) raiseWarning(list, 'SLIP_REQUIRED', i, undefined, residual, slip).message = SLIP_MESSAGE[basis];
 

@@ -171,19 +171,24 @@ function fingerEntries(doc: SheetDocument, result: SheetResult, i: number, f: Fi
     });
     return;
   }
-  const b = input.joints.findIndex((j) => j.role === 'base');
-  const jb = [full.jacobian.data[b], full.jacobian.data[n + b], full.jacobian.data[2 * n + b]];
+  const bases = s.baseJoints.map((b, j) => ({ rate: s.baseRates[j], gain: s.normalGains[j], jb: [full.jacobian.data[b], full.jacobian.data[n + b], full.jacobian.data[2 * n + b]] }));
+  const normalSpeed = formatLatexNumber(c.normalSpeed);
+  // One base joint: the plain quotient. Several: the minimum-norm share, the pseudo-inverse of the row of normal gains.
+  const baseLatex = bases.length === 1
+    ? `\\dot\\theta_b = \\frac{n \\cdot v_o}{n \\cdot (\\omega_b \\times (y - r_b))} = \\frac{${normalSpeed}}{${column(c.normal)} \\cdot ${column(bases[0].jb)}} = \\frac{${normalSpeed}}{${formatLatexNumber(bases[0].gain)}} = ${formatLatexNumber(bases[0].rate)}`
+    : `\\dot\\theta_b = a^{+} (n \\cdot v_o) = \\frac{a \\, (n \\cdot v_o)}{\\lVert a \\rVert^2},\\; a_k = n \\cdot (\\omega_k \\times (y - r_k)) \\;\\Rightarrow\\; \\dot\\theta_b = \\frac{${column(s.normalGains, 0, bases.length)} \\cdot ${normalSpeed}}{${formatLatexNumber(s.normalGain * s.normalGain)}} = ${column(s.baseRates, 0, bases.length)}`;
   entries.push({
-    id: `${id}.steer.baseRate`,
-    label: `${f.name}: base rate (steer and roll)`,
-    latex: `\\dot\\theta_b = \\frac{n \\cdot v_o}{n \\cdot (\\omega_b \\times (y - r_b))} = \\frac{${formatLatexNumber(c.normalSpeed)}}{${column(c.normal)} \\cdot ${column(jb)}} = \\frac{${formatLatexNumber(c.normalSpeed)}}{${formatLatexNumber(s.normalGain)}} = ${formatLatexNumber(s.baseRate)}`,
-    value: s.baseRate,
+    id: `${id}.steer.baseRates`,
+    label: bases.length === 1 ? `${f.name}: base rate (steer and roll)` : `${f.name}: base rates (steer and roll, minimum-norm share of the normal velocity)`,
+    latex: baseLatex,
+    value: list(s.baseRates),
     unit: 'rad/s',
   });
+  const baseTerms = bases.map((base) => ` - ${formatLatexNumber(base.rate)} ${column(base.jb)}`).join('');
   entries.push({
     id: `${id}.steer.remainder`,
     label: `${f.name}: velocity left to the roller`,
-    latex: `u = v_o - \\dot\\theta_b J_b = ${column(c.objectVelocity)} - ${formatLatexNumber(s.baseRate)} ${column(jb)} = ${column(s.remainder)}`,
+    latex: `u = v_o - \\sum_b \\dot\\theta_b J_b = ${column(c.objectVelocity)}${baseTerms} = ${column(s.remainder)}`,
     value: list(s.remainder),
     unit: 'm/s',
   });

@@ -15,7 +15,7 @@ export type OutputScope = 'finger' | 'joint' | 'grasp';
 export type OutputFrame = 'palm' | null;
 
 /** How a multi-valued output is split into named parts when listed value by value. */
-export type OutputParts = 'single' | 'xyz' | 'joints' | 'singular-values';
+export type OutputParts = 'single' | 'xyz' | 'joints' | 'base-joints' | 'singular-values';
 
 /** How the editor shows a value: its unit, significant digits and the conversion from SI. */
 export interface OutputDisplay {
@@ -24,7 +24,7 @@ export interface OutputDisplay {
   fromSI: (si: number) => number;
 }
 
-/** Where the CSV export writes an output: one named column per part, or one numbered column per joint. */
+/** Where the CSV export writes an output: one named column per part, or one numbered column per joint (or per base joint). */
 export type OutputCsv = { columns: readonly string[] } | { perJoint: (joint: number) => string };
 
 export interface OutputDefinition {
@@ -114,8 +114,10 @@ export const OUTPUTS: readonly OutputDefinition[] = [
     csv: { columns: ['manipulability'] }, read: (r, i) => r.fingers[i].full.manipulability,
   },
   {
-    id: 'steer.baseRate', label: 'base rate (steer-and-roll)', tableLabel: 'steer: base rate', unit: 'rad/s', display: shown('rad/s'), frame: null,
-    scope: 'finger', parts: 'single', compared: true, csv: { columns: ['steer_base_rate_rad_s'] }, read: (r, i) => r.fingers[i].steer.baseRate,
+    // Several base joints share the normal velocity by the minimum-norm rule (pseudo-inverse of their row of normal gains).
+    id: 'steer.baseRates', label: 'base rate (steer-and-roll, minimum norm)', tableLabel: 'steer: base rate', unit: 'rad/s', display: shown('rad/s'),
+    frame: null, scope: 'finger', parts: 'base-joints', compared: true, csv: { perJoint: (k) => `steer_base_rate${k + 1}_rad_s` },
+    read: (r, i) => r.fingers[i].steer.baseRates,
   },
   {
     id: 'steer.pivotAngle', label: 'pivot angle (steer-and-roll)', tableLabel: 'steer: pivot angle', unit: 'rad', display: shown('deg', degrees),
@@ -231,6 +233,8 @@ function partName(definition: OutputDefinition, result: PlainSheetResult, finger
       return XYZ[part] ?? String(part);
     case 'joints':
       return result.fingers[finger].jointNames[part] ?? `joint ${part + 1}`;
+    case 'base-joints':
+      return result.fingers[finger].jointNames[result.fingers[finger].steer.baseJoints[part]] ?? `base joint ${part + 1}`;
     case 'singular-values':
       return `σ${part + 1}`;
   }

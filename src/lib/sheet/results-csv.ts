@@ -37,7 +37,7 @@ const JOINT_CSV = OUTPUTS.flatMap((output) => (output.csv && 'perJoint' in outpu
 /** The per-finger columns, from the output catalogue: the finger, its outputs, its warning codes. */
 export const FINGER_COLUMNS = ['finger', ...FINGER_CSV.flatMap((entry) => entry.columns), 'warnings'];
 
-/** One column per joint rate of the full solution, numbered in the sheet's joint order. */
+/** Numbered columns per joint (full-solution rates) and per base joint (steer-and-roll base rates), blank past a finger's count. */
 export function rateColumns(maxJoints: number): string[] {
   return JOINT_CSV.flatMap((entry) => Array.from({ length: maxJoints }, (_, k) => entry.column(k)));
 }

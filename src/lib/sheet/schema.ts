@@ -116,14 +116,24 @@ export const MAX_TIME = 3600;
 /** Largest rate (loop gain) accepted, in 1/s: a million per second is past any control loop's bandwidth. */
 export const MAX_RATE = 1e6;
 /**
+ * Largest angle magnitude accepted, in rad (about 160 turns): a continuous roll joint may carry several turns,
+ * while past this a double spaces angles by more than 1e-13 rad and their sines lose digits.
+ */
+export const MAX_ANGLE = 1000;
+/** Largest angle tolerance or angle noise accepted, in rad: no orientation error exceeds pi rad, so a larger one means nothing. */
+export const MAX_ANGLE_TOLERANCE = Math.PI;
+/** Most values of a sweep: each is a full solve, and 1000 already resolves any curve a sheet can show. */
+export const MAX_SWEEP_STEPS = 1000;
+/**
  * Largest damping accepted, in m: its square is added to J Jᵀ, whose entries are squared lever
  * arms of a hand (well under 1 m²); more damping drowns every joint rate toward zero.
  */
 export const MAX_DAMPING = 1;
 
 /** The magnitude limit of each kind of quantity field; any quantity (sweep ends) is checked where it is used. */
-const KIND_LIMITS: Record<Exclude<QuantityKind, 'any' | 'angle'>, number> = {
+const KIND_LIMITS: Record<Exclude<QuantityKind, 'any'>, number> = {
   length: MAX_LENGTH,
+  angle: MAX_ANGLE,
   speed: MAX_SPEED,
   angularSpeed: MAX_ANGULAR_SPEED,
   acceleration: MAX_ACCELERATION,
@@ -152,7 +162,7 @@ function quantity(kind: QuantityKind, id: string, range: QuantityRange = {}) {
       return result.value;
     });
   const unit = kind === 'any' ? '' : kind === 'rate' ? '1/s' : QUANTITY_KINDS[kind].si;
-  const max = range.max ?? (kind === 'any' || kind === 'angle' ? undefined : KIND_LIMITS[kind]);
+  const max = range.max ?? (kind === 'any' ? undefined : KIND_LIMITS[kind]);
   const { bound } = range;
   if (!bound && max === undefined) return named(read, id, capitalised(text));
   let checked = z.number();
@@ -181,8 +191,8 @@ const positiveLength = quantity('length', 'PositiveLength', positive);
 const nonNegativeLength = quantity('length', 'NonNegativeLength', nonNegative);
 const damping = quantity('length', 'Damping', { ...nonNegative, max: MAX_DAMPING });
 const angle = quantity('angle', 'Angle');
-const positiveAngle = quantity('angle', 'PositiveAngle', positive);
-const nonNegativeAngle = quantity('angle', 'NonNegativeAngle', nonNegative);
+const positiveAngle = quantity('angle', 'PositiveAngle', { ...positive, max: MAX_ANGLE_TOLERANCE });
+const nonNegativeAngle = quantity('angle', 'NonNegativeAngle', { ...nonNegative, max: MAX_ANGLE_TOLERANCE });
 const speed = quantity('speed', 'Speed');
 const nonNegativeSpeed = quantity('speed', 'NonNegativeSpeed', nonNegative);
 const angularSpeed = quantity('angularSpeed', 'AngularSpeed');
@@ -483,7 +493,7 @@ const sweepSchema = z
     steps: z
       .int({ error: expect('expected a whole number of steps') })
       .min(2, { error: 'a sweep needs at least 2 steps' })
-      .max(1000, { error: 'a sweep has at most 1000 steps' }),
+      .max(MAX_SWEEP_STEPS, { error: `a sweep has at most ${MAX_SWEEP_STEPS} steps` }),
   })
   .transform((s): SweepSettings => s);
 
@@ -627,6 +637,31 @@ function readDocumentVariables(input: unknown, budget: ExpressionBudget): { scop
 }
 
 /**
+ * A sweep's values lie evenly between its ends, and every range of a field is an interval, so the ends decide:
+ * each end is put into the swept field of the document as read (SI numbers, no sweep) and read again, and what
+ * that field would be refused for is reported at the end.
+ */
+function sweepEndIssues(doc: SheetDocument, sweep: SweepSettings): SheetIssue[] {
+  const tokens = sweep.path.slice(1).split('/').map((raw) => raw.replace(/~1/g, '/').replace(/~0/g, '~'));
+  const fieldPath = formatIssuePath(tokens.map((token) => (/^\d+$/.test(token) ? Number(token) : token)));
+  const issues: SheetIssue[] = [];
+  for (const end of ['from', 'to'] as const) {
+    const trial = structuredClone(doc) as unknown as Record<string, unknown>;
+    delete trial.sweep;
+    delete trial.variables;
+    delete trial.notes;
+    let holder: Record<string, unknown> = trial;
+    for (const token of tokens.slice(0, -1)) holder = holder[token] as Record<string, unknown>;
+    holder[tokens[tokens.length - 1]] = sweep[end];
+    const read = parseSheet(trial);
+    if (read.ok) continue;
+    const refused = read.issues.find((issue) => issue.path === fieldPath);
+    if (refused) issues.push({ path: `sweep.${end}`, message: `${shown(sweep[end])} is outside what ${fieldPath} accepts: ${refused.message}` });
+  }
+  return issues;
+}
+
+/**
  * Reads an untrusted sheet document (JSON value) into a SheetDocument in SI units, or lists
  * located issues. Quantity fields may be expressions over the document's `variables`.
  */
@@ -644,7 +679,10 @@ export function parseSheet(input: unknown): ParseSheetResult {
     activeVariables = undefined;
     activeBudget = undefined;
   }
-  if (result.success && variables.issues.length === 0) return { ok: true, doc: result.data };
+  if (result.success && variables.issues.length === 0) {
+    const sweepIssues = result.data.sweep ? sweepEndIssues(result.data, result.data.sweep) : [];
+    return sweepIssues.length === 0 ? { ok: true, doc: result.data } : { ok: false, issues: sweepIssues };
+  }
   const issues: SheetIssue[] = variables.issues.slice(0, MAX_SHEET_ISSUES);
   if (!result.success) flattenIssues(result.error.issues, [], issues);
   return { ok: false, issues };

@@ -146,8 +146,9 @@ describe('joint rates reproduce the object velocity at every contact when the re
       }),
       { numRuns: 150, seed: 20240611 },
     );
-    // The exact branch must not be vacuous.
-    expect(exactChecks).toBeGreaterThan(300);
+    // The exact branch must not be vacuous. fast-check favours tiny doubles, and remainders below the minimum
+    // tangential speed are left unsteered (every pivot angle meets the constraint), so they are not counted here.
+    expect(exactChecks).toBeGreaterThan(200);
   });
 });
 
@@ -203,10 +204,11 @@ describe('rotating the whole scene leaves the joint rates unchanged', () => {
           const turned = after.fingers[i];
           expect(Math.abs(turned.contact.gap - finger.contact.gap)).toBeLessThan(CONTACT_PRECISION);
           expectSameRates(turned, finger, finger.full.rates, damping);
-          // Steer and roll: the base rate is unique; the two pivot solutions can tie at +-90 degrees
+          // Steer and roll: the minimum-norm base rates are unique; the two pivot solutions can tie at +-90 degrees
           // and then differ in the sign of the roll rate, so its magnitude is compared.
-          const steerScale = 1e-6 * (1 + Math.abs(finger.steer.baseRate) + Math.abs(finger.steer.rollRate));
-          expect(Math.abs(turned.steer.baseRate - finger.steer.baseRate)).toBeLessThan(steerScale);
+          const baseRateSize = Math.hypot(...finger.steer.baseRates);
+          const steerScale = 1e-6 * (1 + baseRateSize + Math.abs(finger.steer.rollRate));
+          finger.steer.baseRates.forEach((rate, j) => expect(Math.abs(turned.steer.baseRates[j] - rate)).toBeLessThan(steerScale));
           if (finger.steer.remainderNorm > 10 * doc.solver.minTangentialSpeed) {
             expect(Math.abs(Math.abs(turned.steer.rollRate) - Math.abs(finger.steer.rollRate))).toBeLessThan(steerScale);
           }

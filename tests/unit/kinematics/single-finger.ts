@@ -18,6 +18,6 @@ export function solveFinger(input: FingerInput, o: ReturnType<typeof ball>, s: S
   const finger = createFinger(input);
   const contact = computeContact(o, finger, s.contactTolerance);
   const full = solveFull(finger, contact, o.angularVelocity, s, createFullSolution(finger.jointCount), createFullSolveWorkspace(finger.jointCount));
-  const steer = solveSteerAndRoll(finger, contact, full, s, createSteerAndRoll(finger.jointCount), createSteerWorkspace(finger.jointCount));
+  const steer = solveSteerAndRoll(finger, contact, full, s, createSteerAndRoll(finger), createSteerWorkspace(finger.jointCount));
   return { finger, contact, full, steer };
 }

@@ -13,7 +13,7 @@ describe('solveSteerAndRoll', () => {
     const { steer } = solveFinger(threeFingerFinger(0), ball(0.04, v));
     expect(steer.available).toBe(true);
     expect(steer.normalGain).toBeCloseTo(0.05, 15);
-    expect(steer.baseRate).toBeCloseTo(0.01 / 0.05, 14);
+    expect(steer.baseRates).toBeNear([0.01 / 0.05], { digits: 14 });
     expect(steer.remainder).toBeNear([0, 0.02, 0.02 - 0.2 * 0.06], { digits: 14 });
     expect(steer.pivotChange).toBeCloseTo(Math.atan2(0.008, 0.02), 12);
     expect(steer.rollDistance).toBeCloseTo(0.012, 14);

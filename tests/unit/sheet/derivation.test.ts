@@ -46,7 +46,7 @@ describe('deriveSheet', () => {
   });
 
   it('puts the numbers into the formula: base rate n . v / n . J_b with n . v = 0.01 m/s and gain 0.05 m/rad (worked by hand)', () => {
-    const base = entries.find((e) => e.id === 'finger.0.steer.baseRate');
+    const base = entries.find((e) => e.id === 'finger.0.steer.baseRates');
     expect(base?.latex).toContain('\\frac{0.01}{0.05}');
     expect(base?.latex).toContain('= 0.2');
     expect(base?.unit).toBe('rad/s');
@@ -54,7 +54,7 @@ describe('deriveSheet', () => {
 
   it('covers contact, Jacobian, full and steer-and-roll numbers for every finger', () => {
     for (let i = 0; i < 3; i++) {
-      for (const suffix of ['contact.gap', 'contact.rollerPoint', 'contact.objectVelocity', 'jacobian.0', 'jacobian.2', 'full.rates', 'full.residual', 'full.conditionNumber', 'full.manipulability', 'steer.baseRate', 'steer.pivotAngle', 'steer.rollRate', 'steer.rateDifference', 'steer.conditionAfter']) {
+      for (const suffix of ['contact.gap', 'contact.rollerPoint', 'contact.objectVelocity', 'jacobian.0', 'jacobian.2', 'full.rates', 'full.residual', 'full.conditionNumber', 'full.manipulability', 'steer.baseRates', 'steer.pivotAngle', 'steer.rollRate', 'steer.rateDifference', 'steer.conditionAfter']) {
         expect(entries.some((e) => e.id === `finger.${i}.${suffix}`), `finger.${i}.${suffix}`).toBe(true);
       }
     }

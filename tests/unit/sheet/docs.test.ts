@@ -90,5 +90,8 @@ describe('quantity ranges in sheet-format.md', () => {
     expect(text).toContain(`at most ${schema.MAX_TIME} s`);
     expect(text).toContain(`at most ${schema.MAX_RATE} /s`);
     expect(text).toContain(`at most ${schema.MAX_DAMPING} m`);
+    expect(text).toContain(`between -${schema.MAX_ANGLE} rad and ${schema.MAX_ANGLE} rad`);
+    expect(text).toContain(`at most ${Number(schema.MAX_ANGLE_TOLERANCE.toPrecision(6))} rad`);
+    expect(text).toContain(`2 to ${schema.MAX_SWEEP_STEPS}`);
   });
 });

@@ -36,18 +36,19 @@ describe('the output catalogue', () => {
 });
 
 describe('the surfaces that read the catalogue', () => {
-  it('writes the CSV columns as before: the finger, its outputs in SI, its warnings, then one rate column per joint', () => {
+  it('writes the CSV columns: the finger, its outputs in SI, its warnings, then one rate column per joint and one base-rate column per base joint', () => {
     expect(FINGER_COLUMNS).toEqual([
       'finger', 'contact_state', 'gap_m', 'normal_speed_m_s', 'tangential_speed_m_s', 'residual_m_s', 'sigma1_m_rad', 'sigma2_m_rad',
-      'sigma3_m_rad', 'condition_number', 'manipulability', 'steer_base_rate_rad_s', 'steer_pivot_angle_rad', 'steer_roll_rate_rad_s',
+      'sigma3_m_rad', 'condition_number', 'manipulability', 'steer_pivot_angle_rad', 'steer_roll_rate_rad_s',
       'steer_residual_m_s', 'warnings',
     ]);
-    expect(rateColumns(3)).toEqual(['rate1_rad_s', 'rate2_rad_s', 'rate3_rad_s']);
+    expect(rateColumns(3)).toEqual(['rate1_rad_s', 'rate2_rad_s', 'rate3_rad_s', 'steer_base_rate1_rad_s', 'steer_base_rate2_rad_s', 'steer_base_rate3_rad_s']);
     const codes = result.warnings.filter((w) => w.finger === 0).map((w) => w.code).join(' ');
     expect(fingerRows(result, 4, ['x'])[0]).toEqual([
       'x', first.name, first.contact.state, first.contact.gap, first.contact.normalSpeed, first.contact.tangentialSpeed, first.full.residualNorm,
-      ...first.full.singularValues, first.full.conditionNumber, first.full.manipulability, first.steer.baseRate, first.steer.pivotAngle,
+      ...first.full.singularValues, first.full.conditionNumber, first.full.manipulability, first.steer.pivotAngle,
       first.steer.rollRate, first.steer.residualNorm, codes, ...Array.from({ length: 4 }, (_, k) => first.full.rates[k] ?? ''),
+      ...Array.from({ length: 4 }, (_, k) => first.steer.baseRates[k] ?? ''),
     ]);
     expect(resultsCsv(doc, result).split('\n')).toHaveLength(result.fingers.length + 1);
   });
@@ -58,7 +59,8 @@ describe('the surfaces that read the catalogue', () => {
     expect(rows.map((row) => row.quantity)).toEqual([
       'contact state', 'gap', ...xyz('contact point'), ...xyz('contact normal'), 'normal speed', 'tangential speed',
       ...first.jointNames.map((joint) => `joint rate (full) · ${joint}`), 'slip residual (full)', 'singular value · σ1', 'singular value · σ2',
-      'singular value · σ3', 'condition number', 'manipulability', 'base rate (steer-and-roll)', 'pivot angle (steer-and-roll)',
+      'singular value · σ3', 'condition number', 'manipulability',
+      ...first.steer.baseJoints.map((k) => `base rate (steer-and-roll, minimum norm) · ${first.jointNames[k]}`), 'pivot angle (steer-and-roll)',
       'roll rate (steer-and-roll)', 'slip residual (steer-and-roll)', ...xyz('object acceleration at the contact'), 'acceleration residual (full)',
       ...first.jointNames.map((joint) => `joint acceleration (full) · ${joint}`),
     ]);
