@@ -4,6 +4,7 @@
  * finished result, never in the solve loop.
  */
 import type { FingerResult, SheetResult } from '../kinematics';
+import { curvatureEntries } from './derivation-curvature';
 import type { SheetDocument } from './types';
 
 /** One derived number. `latex` is KaTeX: symbolic formula = numbers put in = value. */
@@ -29,13 +30,15 @@ export function formatLatexNumber(x: number): string {
   return `${mantissa} \\times 10^{${exponent}}`;
 }
 
-function column(v: ArrayLike<number>, from = 0, count = 3): string {
+/** A vector as a KaTeX column: count entries of v from index from. */
+export function column(v: ArrayLike<number>, from = 0, count = 3): string {
   const parts: string[] = [];
   for (let i = from; i < from + count; i++) parts.push(formatLatexNumber(v[i]));
   return `\\begin{pmatrix} ${parts.join(' \\\\ ')} \\end{pmatrix}`;
 }
 
-function matrix(data: ArrayLike<number>, rows: number, cols: number): string {
+/** A row-major matrix of the given size as KaTeX. */
+export function matrix(data: ArrayLike<number>, rows: number, cols: number): string {
   const lines: string[] = [];
   for (let i = 0; i < rows; i++) {
     const cells: string[] = [];
@@ -236,6 +239,7 @@ function fingerEntries(doc: SheetDocument, result: SheetResult, i: number, f: Fi
 export function deriveSheet(doc: SheetDocument, result: SheetResult): DerivationEntry[] {
   const entries: DerivationEntry[] = [];
   result.fingers.forEach((f, i) => fingerEntries(doc, result, i, f, entries));
+  entries.push(...curvatureEntries(doc, result));
   const g = result.grasp;
   const rows = g.contactMap.rows;
   entries.push({
