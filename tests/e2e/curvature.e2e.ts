@@ -1,7 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
-import { readFileSync } from 'node:fs';
-import { baseUrl, launchBrowser, saveScreenshot, signIn } from './browser';
+import { mkdirSync, readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { baseUrl, launchBrowser, SCREENSHOT_DIR, signIn } from './browser';
 import { evaluateSheet } from '../../src/lib/sheet/evaluate';
 import { displayValue, findOutput } from '../../src/lib/sheet/outputs';
 
@@ -38,12 +39,12 @@ describe('curvature on the sheet page', () => {
     await expect(page.locator('[data-result="0.curvature.wander"]').first().innerText()).resolves.toContain(
       `moves over the roller at ${displayValue(speed, speed.read(result, 0))} mm/s`,
     );
-    await page.locator('[data-curvature="0"]').scrollIntoViewIfNeeded();
-    await saveScreenshot(page, 'curvature-results');
+    mkdirSync(SCREENSHOT_DIR, { recursive: true });
+    await page.locator('[data-contact="0"]').screenshot({ path: join(SCREENSHOT_DIR, 'curvature-results.png') });
     const derivation = page.locator('[data-derivation="finger.0.curvature.relative"]');
     await derivation.waitFor({ timeout: 20_000 });
-    await derivation.scrollIntoViewIfNeeded();
     await expect(derivation.locator('.katex').count()).resolves.toBeGreaterThan(0);
-    await saveScreenshot(page, 'curvature-derivation');
+    await page.locator('[data-derivation^="finger.0.curvature."]').last().screenshot({ path: join(SCREENSHOT_DIR, 'curvature-derivation-last.png') });
+    await derivation.screenshot({ path: join(SCREENSHOT_DIR, 'curvature-derivation.png') });
   }, 60_000);
 });

@@ -59,10 +59,9 @@ export function CurvatureTable({ result, finger }: { result: PlainSheetResult; f
       <p className="mt-1 text-xs text-graphite" data-result={`${finger}.curvature.wander`}>
         {status === 'defined' ? (
           <>
-            The contact point moves over the roller at <span className="num">{speed(rollerSpeed)}</span> {rollerSpeed.display.unit} (
-            <span className="num">{shown(rollerVelocity, result, finger)}</span>) and over the object at{' '}
-            <span className="num">{speed(objectSpeed)}</span> {objectSpeed.display.unit} (<span className="num">{shown(objectVelocity, result, finger)}</span>),
-            with the full solution&apos;s joint rates.
+            The contact point moves over the roller at <span className="num">{speed(rollerSpeed)}</span> {rollerSpeed.display.unit}, velocity{' '}
+            <span className="num">{shown(rollerVelocity, result, finger)}</span>, and over the object at <span className="num">{speed(objectSpeed)}</span>{' '}
+            {objectSpeed.display.unit}, velocity <span className="num">{shown(objectVelocity, result, finger)}</span>, with the full solution&apos;s joint rates.
           </>
         ) : (
           (NO_MOTION[status] ?? status)

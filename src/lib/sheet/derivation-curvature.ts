@@ -80,7 +80,9 @@ function relativeEntry(id: string, label: string, c: ContactCurvature): Derivati
     return { id, label, latex: '\\text{undefined: a surface has no curvature at the contact}', value: [], unit: '1/m' };
   }
   const ko = c.object.principalCurvatures!, kf = c.roller.principalCurvatures!;
-  const cos = Math.cos(r.angle), sin = Math.sin(r.angle);
+  // cos and sin of a right angle come out as 6e-17 rather than 0; shown to four digits they are 0.
+  const snap = (x: number) => (Math.abs(x) < 1e-12 ? 0 : x);
+  const cos = snap(Math.cos(r.angle)), sin = snap(Math.sin(r.angle));
   const rotation = matrix([cos, -sin, -sin, -cos], 2, 2);
   const singular = r.status === 'singular' ? ' \\quad (\\kappa_2 \\approx 0: \\text{line contact})' : '';
   return {
