@@ -240,10 +240,7 @@ function dot3(a: Vec3Like, b: Vec3Like): number {
   return a[0] * b[0] + a[1] * b[1] + a[2] * b[2];
 }
 
-/**
- * Relative curvature of the contact from the object's and the roller's curvature (palm frame) and
- * the object's outward unit normal n: K_rel = K_o + R_psi K_f R_psi in the object's contact frame (1/m).
- */
+/** Relative curvature K_rel = K_o + R_psi K_f R_psi (1/m) of the object's and roller's curvature at the contact, palm frame, n the object's outward unit normal. */
 export function relativeCurvature(object: SurfaceCurvature, roller: SurfaceCurvature, normal: Vec3Like): RelativeCurvature {
   const ko = object.principalCurvatures, kf = roller.principalCurvatures;
   const dirO = object.principalDirections, dirF = roller.principalDirections;
@@ -288,11 +285,7 @@ function solveRelative(relative: RelativeCurvature, b: Vec3Like): Vec3Tuple {
   return tuple(a * d1[0] + c * d2[0], a * d1[1] + c * d2[1], a * d1[2] + c * d2[2]);
 }
 
-/**
- * Velocities of the contact point over the roller a_f = K_rel^-1 (n x w + L_o v_t) and over the object
- * a_o = K_rel^-1 (n x w - L_f v_t), m/s, palm frame, for the relative angular velocity w = w_o - w_f (rad/s)
- * and the tangential slip v_t (m/s); touching tells whether the contact is within the touching band.
- */
+/** Contact-point velocities over roller a_f = K_rel^-1 (n x w + L_o v_t) and object a_o = K_rel^-1 (n x w - L_f v_t), m/s, palm frame, from w = w_o - w_f (rad/s) and slip v_t (m/s). */
 export function contactPointVelocities(
   object: SurfaceCurvature, roller: SurfaceCurvature, relative: RelativeCurvature, normal: Vec3Like,
   relativeAngularVelocity: Vec3Tuple, tangentialSlip: Vec3Tuple, touching: boolean,

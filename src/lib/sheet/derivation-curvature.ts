@@ -7,10 +7,10 @@ import { sheetCurvature, type ContactCurvature, type SheetResult, type SurfaceCu
 import { column, formatLatexNumber, matrix, type DerivationEntry } from './derivation';
 import type { ObjectShape, RollerInput, SheetDocument } from './types';
 
-const n = formatLatexNumber;
+const num = formatLatexNumber;
 
 function pair(values: readonly number[]): string {
-  return `(${n(values[0])},\\; ${n(values[1])})`;
+  return `(${num(values[0])},\\; ${num(values[1])})`;
 }
 
 const REGION_TEXT: Record<SurfaceCurvature['region'], string> = {
@@ -33,19 +33,19 @@ function objectFormula(shape: ObjectShape, curvature: SurfaceCurvature, pointLoc
   const result = `\\kappa = ${pair(k)}`;
   switch (shape.kind) {
     case 'sphere':
-      return `\\kappa_1 = \\kappa_2 = \\frac{1}{r} = \\frac{1}{${n(shape.radius)}} \\;\\Rightarrow\\; ${result}`;
+      return `\\kappa_1 = \\kappa_2 = \\frac{1}{r} = \\frac{1}{${num(shape.radius)}} \\;\\Rightarrow\\; ${result}`;
     case 'capsule':
       return curvature.region === 'side'
-        ? `\\kappa_1 = \\frac{1}{r} = \\frac{1}{${n(shape.radius)}} \\text{ around the axis},\\; \\kappa_2 = 0 \\text{ along it} \\;\\Rightarrow\\; ${result}`
-        : `\\kappa_1 = \\kappa_2 = \\frac{1}{r} = \\frac{1}{${n(shape.radius)}} \\;\\Rightarrow\\; ${result}`;
+        ? `\\kappa_1 = \\frac{1}{r} = \\frac{1}{${num(shape.radius)}} \\text{ around the axis},\\; \\kappa_2 = 0 \\text{ along it} \\;\\Rightarrow\\; ${result}`
+        : `\\kappa_1 = \\kappa_2 = \\frac{1}{r} = \\frac{1}{${num(shape.radius)}} \\;\\Rightarrow\\; ${result}`;
     case 'cylinder':
       return curvature.region === 'side'
-        ? `\\kappa_1 = \\frac{1}{r} = \\frac{1}{${n(shape.radius)}} \\text{ around the axis},\\; \\kappa_2 = 0 \\text{ along it} \\;\\Rightarrow\\; ${result}`
+        ? `\\kappa_1 = \\frac{1}{r} = \\frac{1}{${num(shape.radius)}} \\text{ around the axis},\\; \\kappa_2 = 0 \\text{ along it} \\;\\Rightarrow\\; ${result}`
         : `\\text{flat end: } ${result}`;
     case 'box': {
       const f = shape.filletRadius ?? 0;
-      if (curvature.region === 'rounded-edge') return `\\kappa_1 = \\frac{1}{f} = \\frac{1}{${n(f)}} \\text{ across the edge},\\; \\kappa_2 = 0 \\text{ along it} \\;\\Rightarrow\\; ${result}`;
-      if (curvature.region === 'rounded-corner') return `\\kappa_1 = \\kappa_2 = \\frac{1}{f} = \\frac{1}{${n(f)}} \\;\\Rightarrow\\; ${result}`;
+      if (curvature.region === 'rounded-edge') return `\\kappa_1 = \\frac{1}{f} = \\frac{1}{${num(f)}} \\text{ across the edge},\\; \\kappa_2 = 0 \\text{ along it} \\;\\Rightarrow\\; ${result}`;
+      if (curvature.region === 'rounded-corner') return `\\kappa_1 = \\kappa_2 = \\frac{1}{f} = \\frac{1}{${num(f)}} \\;\\Rightarrow\\; ${result}`;
       return `\\text{flat face: } ${result}`;
     }
     case 'ellipsoid': {
@@ -53,7 +53,7 @@ function objectFormula(shape: ObjectShape, curvature: SurfaceCurvature, pointLoc
       const [x, y, z] = [pointLocal[0], pointLocal[1], pointLocal[2]];
       const s = (x * x) / a ** 4 + (y * y) / b ** 4 + (z * z) / c ** 4;
       const gaussian = 1 / (a * a * b * b * c * c * s * s);
-      return `L = \\frac{P\\,\\operatorname{diag}(a^{-2}, b^{-2}, c^{-2})\\,P}{\\lVert \\operatorname{diag}(a^{-2}, b^{-2}, c^{-2})\\, x_O \\rVert},\\; (a, b, c) = (${n(a)}, ${n(b)}, ${n(c)}),\\; x_O = ${column(pointLocal)} \\;\\Rightarrow\\; ${result},\\quad \\kappa_1 \\kappa_2 = \\frac{1}{a^2 b^2 c^2 \\left(\\frac{x^2}{a^4} + \\frac{y^2}{b^4} + \\frac{z^2}{c^4}\\right)^2} = ${n(gaussian)}`;
+      return `L = \\frac{P\\,\\operatorname{diag}(a^{-2}, b^{-2}, c^{-2})\\,P}{\\lVert \\operatorname{diag}(a^{-2}, b^{-2}, c^{-2})\\, x_O \\rVert},\\; (a, b, c) = (${num(a)}, ${num(b)}, ${num(c)}),\\; x_O = ${column(pointLocal)} \\;\\Rightarrow\\; ${result},\\quad \\kappa_1 \\kappa_2 = \\frac{1}{a^2 b^2 c^2 \\left(\\frac{x^2}{a^4} + \\frac{y^2}{b^4} + \\frac{z^2}{c^4}\\right)^2} = ${num(gaussian)}`;
     }
   }
 }
@@ -63,9 +63,9 @@ function rollerFormula(roller: RollerInput, curvature: SurfaceCurvature): string
   const k = curvature.principalCurvatures;
   if (!k) return `\\text{${REGION_TEXT[curvature.region]}: the curvature is unbounded, so there are no principal curvatures}`;
   const result = `\\kappa = ${pair(k)}`;
-  if (roller.kind === 'sphere') return `\\kappa_1 = \\kappa_2 = \\frac{1}{\\rho} = \\frac{1}{${n(roller.radius)}} \\;\\Rightarrow\\; ${result}`;
+  if (roller.kind === 'sphere') return `\\kappa_1 = \\kappa_2 = \\frac{1}{\\rho} = \\frac{1}{${num(roller.radius)}} \\;\\Rightarrow\\; ${result}`;
   if (curvature.region === 'cap') return `\\text{flat end: } ${result}`;
-  return `\\kappa_1 = \\frac{1}{\\rho} = \\frac{1}{${n(roller.radius)}} \\text{ around the roller axis},\\; \\kappa_2 = 0 \\text{ along it} \\;\\Rightarrow\\; ${result}`;
+  return `\\kappa_1 = \\frac{1}{\\rho} = \\frac{1}{${num(roller.radius)}} \\text{ around the roller axis},\\; \\kappa_2 = 0 \\text{ along it} \\;\\Rightarrow\\; ${result}`;
 }
 
 function surfaceEntry(id: string, label: string, latex: string, curvature: SurfaceCurvature): DerivationEntry {
@@ -88,7 +88,7 @@ function relativeEntry(id: string, label: string, c: ContactCurvature): Derivati
   return {
     id,
     label,
-    latex: `K_{rel} = K_o + R_\\psi K_f R_\\psi = ${matrix([ko[0], 0, 0, ko[1]], 2, 2)} + ${rotation} ${matrix([kf[0], 0, 0, kf[1]], 2, 2)} ${rotation} = ${matrix(r.matrix.flat(), 2, 2)},\\; \\psi = ${n(r.angle)} \\;\\Rightarrow\\; \\kappa_{rel} = ${pair(r.principalCurvatures)}${singular}`,
+    latex: `K_{rel} = K_o + R_\\psi K_f R_\\psi = ${matrix([ko[0], 0, 0, ko[1]], 2, 2)} + ${rotation} ${matrix([kf[0], 0, 0, kf[1]], 2, 2)} ${rotation} = ${matrix(r.matrix.flat(), 2, 2)},\\; \\psi = ${num(r.angle)} \\;\\Rightarrow\\; \\kappa_{rel} = ${pair(r.principalCurvatures)}${singular}`,
     value: [...r.principalCurvatures],
     unit: '1/m',
   };
@@ -111,7 +111,7 @@ function fingerCurvatureEntries(doc: SheetDocument, result: SheetResult, i: numb
   entries.push(surfaceEntry(`${id}.roller`, `${f.name}: roller principal curvatures at the contact (${REGION_TEXT[c.roller.region]})`, rollerFormula(input.roller, c.roller), c.roller));
   entries.push(relativeEntry(`${id}.relative`, `${f.name}: relative curvature of the rolling contact (Montana)`, c));
   const w = c.wander;
-  const rates = Array.from(f.full.rates, (rate, k) => `${rate < 0 ? `(${n(rate)})` : n(rate)} ${column(f.jointAxes, 3 * k)}`).join(' - ');
+  const rates = Array.from(f.full.rates, (rate, k) => `${rate < 0 ? `(${num(rate)})` : num(rate)} ${column(f.jointAxes, 3 * k)}`).join(' - ');
   entries.push({
     id: `${id}.relativeAngularVelocity`,
     label: `${f.name}: angular velocity of the object relative to the roller`,
@@ -127,14 +127,14 @@ function fingerCurvatureEntries(doc: SheetDocument, result: SheetResult, i: numb
   entries.push({
     id: `${id}.wander.roller`,
     label: `${f.name}: velocity of the contact point over the roller`,
-    latex: `a_f = K_{rel}^{-1}\\left(n \\times w + L_o v_t\\right),\\; ${given} \\;\\Rightarrow\\; a_f = ${column(w.rollerVelocity)},\\; \\lVert a_f \\rVert = ${n(w.rollerSpeed)}`,
+    latex: `a_f = K_{rel}^{-1}\\left(n \\times w + L_o v_t\\right),\\; ${given} \\;\\Rightarrow\\; a_f = ${column(w.rollerVelocity)},\\; \\lVert a_f \\rVert = ${num(w.rollerSpeed)}`,
     value: [...w.rollerVelocity],
     unit: 'm/s',
   });
   entries.push({
     id: `${id}.wander.object`,
     label: `${f.name}: velocity of the contact point over the object`,
-    latex: `a_o = K_{rel}^{-1}\\left(n \\times w - L_f v_t\\right),\\; ${given} \\;\\Rightarrow\\; a_o = ${column(w.objectVelocity)},\\; \\lVert a_o \\rVert = ${n(w.objectSpeed)}`,
+    latex: `a_o = K_{rel}^{-1}\\left(n \\times w - L_f v_t\\right),\\; ${given} \\;\\Rightarrow\\; a_o = ${column(w.objectVelocity)},\\; \\lVert a_o \\rVert = ${num(w.objectSpeed)}`,
     value: [...w.objectVelocity],
     unit: 'm/s',
   });
