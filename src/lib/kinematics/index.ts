@@ -75,6 +75,6 @@ export type { RunOptions, RunRecord, RunStopReason } from './run';
 export { sweepSheet, sweepValues } from './sweep';
 export type { SweepOptions, SweepRecord } from './sweep';
 export { ROTATION_METRICS } from './metrics';
+export type { RotationMetric } from './metrics';
 export { sheetCurvature, SINGULAR_CURVATURE_RATIO } from './curvature';
 export type { ContactCurvature, ContactWander, RelativeCurvature, SurfaceCurvature, SurfaceRegion } from './curvature';
-export type { RotationMetric } from './metrics';
