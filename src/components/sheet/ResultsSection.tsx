@@ -1,6 +1,7 @@
 import { memo } from 'react';
 import type { PlainSheetResult } from '../../lib/kinematics';
 import { displayNumber, displayValue, findOutput, formatShownNumber, type OutputDefinition } from '../../lib/sheet/outputs';
+import { CurvatureTable } from './CurvatureTable';
 import { SafetyCaution } from './SafetyCaution';
 
 function Row({ label, value, unit, test }: { label: string; value: string; unit: string; test?: string }) {
@@ -116,6 +117,7 @@ function ResultsSection({ result, stale }: { result: PlainSheetResult | null; st
               <span className="num">{displayValue(conditionNumber, conditionNumber.read(result, i))}</span>, manipulability{' '}
               <span className="num">{displayValue(manipulability, manipulability.read(result, i))}</span>
             </p>
+            <CurvatureTable result={result} finger={i} />
           </div>
         );
       })}

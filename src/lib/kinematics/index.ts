@@ -45,6 +45,10 @@
  *     toPlainRunRecord(record);                  // JSON-ready copy
  *     sweepSheet(doc, { path, from, to, steps }); // SweepRecord: one plain result per value of one input
  *
+ * Once per evaluation (never per tick): sheetCurvature(doc, result) gives each contact's principal
+ * curvatures of object and roller, their relative curvature and how fast the contact point moves
+ * over both surfaces (Montana's contact equations), as plain arrays.
+ *
  * Also here: the shape queries and the vec3 and quat helpers that drawing and templates use, and
  * the dense linear algebra behind the solves (matrices, damped least squares, Jacobi singular
  * values, with their workspace) for callers with their own Jacobians. The scene, contact, GJK
@@ -77,3 +81,5 @@ export { sweepSheet, sweepValues } from './sweep';
 export type { SweepOptions, SweepRecord } from './sweep';
 export { ROTATION_METRICS } from './metrics';
 export type { RotationMetric } from './metrics';
+export { sheetCurvature, SINGULAR_CURVATURE_RATIO } from './curvature';
+export type { ContactCurvature, ContactWander, RelativeCurvature, SurfaceCurvature, SurfaceRegion } from './curvature';

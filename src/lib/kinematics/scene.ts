@@ -6,6 +6,7 @@
 import type { SheetDocument, SolverSettings } from '../sheet/types';
 import type { FingerAcceleration } from './acceleration';
 import { computeContact, createContact, createContactWorkspace, createObject, updateObjectRotation, type Contact, type ContactWorkspace, type RigidObject } from './contact';
+import type { ContactCurvature } from './curvature';
 import { computeGrasp, createGraspResult, createGraspWorkspace, type GraspResult, type GraspWorkspace } from './grasp';
 import { createFinger, forwardKinematics, type Finger } from './hand';
 import { createFullSolution, createFullSolveWorkspace, solveFull, type FullSolution } from './full-solution';
@@ -199,8 +200,11 @@ type Plain<T> = T extends Float64Array
           ? { [K in keyof T as T[K] extends WarningList ? never : K]: Plain<T[K]> }
           : T;
 
-/** SheetResult with typed arrays as plain arrays and matrices as rows (JSON-ready). */
-export type PlainSheetResult = Plain<SheetResult>;
+/**
+ * SheetResult with typed arrays as plain arrays and matrices as rows (JSON-ready). The evaluation
+ * pipeline adds each finger's contact curvature (sheetCurvature); runs and sweeps leave it out.
+ */
+export type PlainSheetResult = Omit<Plain<SheetResult>, 'fingers'> & { fingers: (Plain<FingerResult> & { curvature?: ContactCurvature })[] };
 
 /** JSON-ready copy of a result: Float64Arrays become arrays, matrices become arrays of rows, non-finite numbers stay as they are. */
 export function toPlainResult(result: SheetResult): PlainSheetResult {

@@ -5,6 +5,7 @@
  */
 import type { FingerResult, SheetResult } from '../kinematics';
 import { accelerationEntries } from './derivation-acceleration';
+import { curvatureEntries } from './derivation-curvature';
 import type { SheetDocument } from './types';
 
 /** One derived number. `latex` is KaTeX: symbolic formula = numbers put in = value. */
@@ -245,6 +246,7 @@ export function deriveSheet(doc: SheetDocument, result: SheetResult): Derivation
   const entries: DerivationEntry[] = [];
   result.fingers.forEach((f, i) => fingerEntries(doc, result, i, f, entries));
   result.fingers.forEach((f, i) => accelerationEntries(doc, result, i, f, entries));
+  entries.push(...curvatureEntries(doc, result));
   const g = result.grasp;
   const rows = g.contactMap.rows;
   entries.push({

@@ -4,7 +4,7 @@
  * compute worker, the sheet service, file import and export, the comparison, the report and the
  * compute command all call it, so a sheet reads and solves the same way everywhere.
  */
-import { solveAccelerations, solveSheet, toPlainResult, type PlainSheetResult, type SheetResult } from '../kinematics';
+import { sheetCurvature, solveAccelerations, solveSheet, toPlainResult, type PlainSheetResult, type SheetResult } from '../kinematics';
 import { fail, succeed, type DomainError, type Result } from '../result';
 import { deriveSheet, type DerivationEntry } from './derivation';
 import { formatIssuePath, parseSheet, type SheetIssue } from './schema';
@@ -93,6 +93,7 @@ export function evaluateSheet(input: unknown, options: EvaluateOptions = {}): Re
   try {
     const solved = solveAccelerations(solveSheet(doc), doc.object.acceleration, doc.solver);
     const result = toPlainResult(solved);
+    sheetCurvature(doc, solved).forEach((curvature, i) => { result.fingers[i].curvature = curvature; });
     const bad = firstNonFinite(result, []);
     if (bad) {
       const message = `the result is not a finite number: ${formatIssuePath(bad.path)} is ${bad.value}${describeOwner(doc, bad.path)}; an input is too large or too small for the solve to keep its digits`;

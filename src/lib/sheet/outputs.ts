@@ -15,7 +15,7 @@ export type OutputScope = 'finger' | 'joint' | 'grasp';
 export type OutputFrame = 'palm' | null;
 
 /** How a multi-valued output is split into named parts when listed value by value. */
-export type OutputParts = 'single' | 'xyz' | 'joints' | 'base-joints' | 'singular-values';
+export type OutputParts = 'single' | 'xyz' | 'joints' | 'base-joints' | 'singular-values' | 'principal';
 
 /** How the editor shows a value: its unit, significant digits and the conversion from SI. */
 export interface OutputDisplay {
@@ -59,6 +59,10 @@ function accelerationOf(result: PlainSheetResult, finger: number, key: 'objectPo
   const f = result.fingers[finger];
   return f.acceleration?.[key] ?? Array.from({ length: key === 'jointAccelerations' ? f.jointNames.length : 3 }, () => Number.NaN);
 }
+/** Principal curvatures, or NaN twice where the contact has none (a sharp edge, or a result without curvature). */
+const principal = (values: readonly number[] | null | undefined): readonly number[] => values ?? [Number.NaN, Number.NaN];
+/** A palm-frame vector, or NaN three times where it does not exist. */
+const vector = (values: readonly number[] | null | undefined): readonly number[] => values ?? [Number.NaN, Number.NaN, Number.NaN];
 
 const unitless = (digits = 4): OutputDisplay => ({ unit: '', digits, fromSI: same });
 const shown = (unit: string, fromSI = same, digits = 4): OutputDisplay => ({ unit, digits, fromSI });
@@ -181,6 +185,65 @@ export const OUTPUTS: readonly OutputDefinition[] = [
     frame: null, scope: 'joint', parts: 'joints', compared: true, read: (r, i) => accelerationOf(r, i, 'jointAccelerations'),
   },
   {
+    id: 'curvature.object', label: 'object principal curvature', tableLabel: 'object κ1, κ2', unit: '1/m', display: shown('1/m'), frame: null,
+    scope: 'finger', parts: 'principal', compared: true, csv: { columns: ['object_kappa1_1_m', 'object_kappa2_1_m'] },
+    read: (r, i) => principal(r.fingers[i].curvature?.object.principalCurvatures),
+  },
+  {
+    id: 'curvature.roller', label: 'roller principal curvature', tableLabel: 'roller κ1, κ2', unit: '1/m', display: shown('1/m'), frame: null,
+    scope: 'finger', parts: 'principal', compared: true, csv: { columns: ['roller_kappa1_1_m', 'roller_kappa2_1_m'] },
+    read: (r, i) => principal(r.fingers[i].curvature?.roller.principalCurvatures),
+  },
+  {
+    id: 'curvature.relative', label: 'relative curvature', tableLabel: 'relative κ1, κ2', unit: '1/m', display: shown('1/m'), frame: null,
+    scope: 'finger', parts: 'principal', compared: true, csv: { columns: ['relative_kappa1_1_m', 'relative_kappa2_1_m'] },
+    read: (r, i) => principal(r.fingers[i].curvature?.relative.principalCurvatures),
+  },
+  {
+    id: 'curvature.wander.status', label: 'contact-point motion', unit: '', display: unitless(), frame: null, scope: 'finger', parts: 'single',
+    compared: true, csv: { columns: ['wander_status'] }, read: (r, i) => r.fingers[i].curvature?.wander.status ?? 'not computed',
+  },
+  {
+    id: 'curvature.wander.rollerSpeed', label: 'contact-point speed over the roller', tableLabel: 'speed over the roller', unit: 'm/s',
+    display: shown('mm/s', milli), frame: null, scope: 'finger', parts: 'single', compared: true, csv: { columns: ['wander_roller_m_s'] },
+    read: (r, i) => r.fingers[i].curvature?.wander.rollerSpeed ?? Number.NaN,
+  },
+  {
+    id: 'curvature.wander.objectSpeed', label: 'contact-point speed over the object', tableLabel: 'speed over the object', unit: 'm/s',
+    display: shown('mm/s', milli), frame: null, scope: 'finger', parts: 'single', compared: true, csv: { columns: ['wander_object_m_s'] },
+    read: (r, i) => r.fingers[i].curvature?.wander.objectSpeed ?? Number.NaN,
+  },
+  {
+    id: 'curvature.object.region', label: 'object surface at the contact', tableLabel: 'object surface', unit: '', display: unitless(), frame: null,
+    scope: 'finger', parts: 'single', compared: false, read: (r, i) => r.fingers[i].curvature?.object.region ?? 'not computed',
+  },
+  {
+    id: 'curvature.roller.region', label: 'roller surface at the contact', tableLabel: 'roller surface', unit: '', display: unitless(), frame: null,
+    scope: 'finger', parts: 'single', compared: false, read: (r, i) => r.fingers[i].curvature?.roller.region ?? 'not computed',
+  },
+  {
+    id: 'curvature.object.direction', label: 'object direction of κ1', tableLabel: 'object κ1 direction', unit: '', display: shown('1', same, 3),
+    frame: 'palm', scope: 'finger', parts: 'xyz', compared: false, read: (r, i) => vector(r.fingers[i].curvature?.object.principalDirections?.[0]),
+  },
+  {
+    id: 'curvature.roller.direction', label: 'roller direction of κ1', tableLabel: 'roller κ1 direction', unit: '', display: shown('1', same, 3),
+    frame: 'palm', scope: 'finger', parts: 'xyz', compared: false, read: (r, i) => vector(r.fingers[i].curvature?.roller.principalDirections?.[0]),
+  },
+  {
+    id: 'curvature.relative.direction', label: 'relative direction of κ1', tableLabel: 'relative κ1 direction', unit: '', display: shown('1', same, 3),
+    frame: 'palm', scope: 'finger', parts: 'xyz', compared: false, read: (r, i) => vector(r.fingers[i].curvature?.relative.principalDirections?.[0]),
+  },
+  {
+    id: 'curvature.wander.rollerVelocity', label: 'contact-point velocity over the roller', tableLabel: 'velocity over the roller', unit: 'm/s',
+    display: shown('mm/s', milli), frame: 'palm', scope: 'finger', parts: 'xyz', compared: false,
+    read: (r, i) => vector(r.fingers[i].curvature?.wander.rollerVelocity),
+  },
+  {
+    id: 'curvature.wander.objectVelocity', label: 'contact-point velocity over the object', tableLabel: 'velocity over the object', unit: 'm/s',
+    display: shown('mm/s', milli), frame: 'palm', scope: 'finger', parts: 'xyz', compared: false,
+    read: (r, i) => vector(r.fingers[i].curvature?.wander.objectVelocity),
+  },
+  {
     id: 'grasp.contacts', label: 'contacts', unit: '', display: unitless(), frame: null, scope: 'grasp', parts: 'single', compared: false,
     read: (r) => r.grasp.contactCount,
   },
@@ -237,6 +300,8 @@ function partName(definition: OutputDefinition, result: PlainSheetResult, finger
       return result.fingers[finger].jointNames[result.fingers[finger].steer.baseJoints[part]] ?? `base joint ${part + 1}`;
     case 'singular-values':
       return `σ${part + 1}`;
+    case 'principal':
+      return `κ${part + 1}`;
   }
 }
 

@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { afterEach, describe, expect, it, vi } from 'vitest';
-import { solveAccelerations, solveSheet, toPlainResult } from '../../../src/lib/kinematics';
+import { sheetCurvature, solveAccelerations, solveSheet, toPlainResult } from '../../../src/lib/kinematics';
 import { checkDocument } from '../../../src/lib/server/sheets';
 import { exportResultsCsv, readSheetFile } from '../../../src/lib/server/sheet-files';
 import { deriveSheet } from '../../../src/lib/sheet/derivation';
@@ -41,7 +41,9 @@ describe('evaluateSheet', () => {
     if (!parsed.ok) throw new Error('the example must read');
     const solved = solveAccelerations(solveSheet(parsed.doc), parsed.doc.object.acceleration, parsed.doc.solver);
     expect(evaluated.value.doc).toEqual(parsed.doc);
-    expect(evaluated.value.result).toEqual(toPlainResult(solved));
+    const plain = toPlainResult(solved);
+    sheetCurvature(parsed.doc, solved).forEach((curvature, i) => { plain.fingers[i].curvature = curvature; });
+    expect(evaluated.value.result).toEqual(plain);
     expect(evaluated.value.summary).toEqual({
       fingers: parsed.doc.hand.fingers.length,
       worst: solved.worstSeverity,

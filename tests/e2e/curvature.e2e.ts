@@ -1,0 +1,50 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Browser, Page } from 'playwright-core';
+import { mkdirSync, readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { baseUrl, launchBrowser, SCREENSHOT_DIR, signIn } from './browser';
+import { evaluateSheet } from '../../src/lib/sheet/evaluate';
+import { displayValue, findOutput } from '../../src/lib/sheet/outputs';
+
+const EDITOR = { email: 'editor@fenwick.example', password: 'slipless-demo' };
+const SHEET_FILE = new URL('../../content/sheets/line4-bearing-housing-quarter-turn.json', import.meta.url);
+
+let browser: Browser;
+let page: Page;
+
+beforeAll(async () => {
+  browser = await launchBrowser();
+  page = await (await browser.newContext({ viewport: { width: 1600, height: 1000 } })).newPage();
+  await signIn(page, EDITOR.email, EDITOR.password);
+}, 60_000);
+
+afterAll(async () => {
+  await browser?.close();
+});
+
+describe('curvature on the sheet page', () => {
+  it('shows each contact\'s curvatures and contact-point speed, as the evaluation gives them, and their derivation', async () => {
+    const evaluated = evaluateSheet(JSON.parse(readFileSync(SHEET_FILE, 'utf8')));
+    if (!evaluated.ok) throw new Error(evaluated.error.message);
+    const { doc, result } = evaluated.value;
+    const me = await (await page.request.get(`${baseUrl()}/api/me`)).json();
+    const list = await (await page.request.get(`${baseUrl()}/api/sheets?team=${me.currentTeam}&q=${encodeURIComponent('Bearing housing')}`)).json();
+    const sheetId = list.items.find((s: { title: string }) => s.title === doc.title).id;
+    await page.goto(`${baseUrl()}/sheets/${sheetId}`, { waitUntil: 'networkidle' });
+    const relative = page.locator('[data-result="0.curvature.relative"]').first();
+    await relative.waitFor();
+    const definition = findOutput('curvature.relative');
+    await expect(relative.innerText()).resolves.toBe(displayValue(definition, definition.read(result, 0)));
+    const speed = findOutput('curvature.wander.rollerSpeed');
+    await expect(page.locator('[data-result="0.curvature.wander"]').first().innerText()).resolves.toContain(
+      `moves over the roller at ${displayValue(speed, speed.read(result, 0))} mm/s`,
+    );
+    mkdirSync(SCREENSHOT_DIR, { recursive: true });
+    await page.locator('[data-contact="0"]').screenshot({ path: join(SCREENSHOT_DIR, 'curvature-results.png') });
+    const derivation = page.locator('[data-derivation="finger.0.curvature.relative"]');
+    await derivation.waitFor({ timeout: 20_000 });
+    await expect(derivation.locator('.katex').count()).resolves.toBeGreaterThan(0);
+    await page.locator('[data-derivation^="finger.0.curvature."]').last().screenshot({ path: join(SCREENSHOT_DIR, 'curvature-derivation-last.png') });
+    await derivation.screenshot({ path: join(SCREENSHOT_DIR, 'curvature-derivation.png') });
+  }, 60_000);
+});
