@@ -7,8 +7,9 @@ import type { PlainSheetResult } from '../kinematics';
 import { OUTPUTS } from './outputs';
 import type { SheetDocument } from './types';
 
+/** A number as CSV text; NaN marks a value the contact does not have (a line contact's speed), written as an empty cell. */
 function numberText(value: number): string {
-  return Number.isFinite(value) ? String(value) : Number.isNaN(value) ? 'NaN' : value > 0 ? 'Infinity' : '-Infinity';
+  return Number.isFinite(value) ? String(value) : Number.isNaN(value) ? '' : value > 0 ? 'Infinity' : '-Infinity';
 }
 
 /**
