@@ -8,7 +8,7 @@ import { computeContact, createContact, createContactWorkspace, createObject, up
 import { computeGrasp, createGraspResult, createGraspWorkspace, type GraspResult, type GraspWorkspace } from './grasp';
 import { createFinger, forwardKinematics, type Finger } from './hand';
 import { createFullSolution, createFullSolveWorkspace, solveFull, type FullSolution } from './full-solution';
-import { matrixToRows, type LinalgWorkspace, type Matrix } from './linalg';
+import { matrixToRows, numericalRank, type LinalgWorkspace, type Matrix } from './linalg';
 import { createSteerAndRoll, createSteerWorkspace, solveSteerAndRoll, type SteerAndRoll, type SteerWorkspace } from './steer-and-roll';
 import {
   checkFinger, checkGrasp, clearWarnings, createWarningList, finishWarnings, judgedBasis, judgedRankRatio, SEVERITY_LEVELS,
@@ -53,6 +53,8 @@ export interface FingerResult {
   rankBasis: JudgedBasis;
   /** sigma_min / sigma_max of that Jacobian, compared with the singular-ratio setting (dimensionless). */
   rankRatio: number;
+  /** Numerical rank of the steered drive columns (steer.driveSingularValues above full.rankTolerance), 0 to 3; 0 without steer-and-roll. */
+  driveRank: number;
 }
 
 /** The result of solving a sheet once. */
@@ -107,6 +109,7 @@ export function createResult(scene: Scene): SheetResult {
       steer: createSteerAndRoll(f.jointCount),
       rankBasis: 'full' as JudgedBasis,
       rankRatio: 0,
+      driveRank: 0,
     })),
     grasp: createGraspResult(Math.max(1, scene.fingers.length)),
     warnings: warningList.items,
@@ -140,6 +143,7 @@ export function solveScene(scene: Scene, out: SheetResult = createResult(scene))
     solveSteerAndRoll(fingers[i], r.contact, r.full, settings, r.steer, workspace.steer);
     r.rankBasis = judgedBasis(r.steer);
     r.rankRatio = judgedRankRatio(r.full, r.steer);
+    r.driveRank = r.steer.available ? numericalRank(r.steer.driveSingularValues, 3, r.full.rankTolerance) : 0;
   }
   for (let i = 0; i < count; i++) {
     const r = out.fingers[i];
