@@ -105,8 +105,14 @@ export function contactRankTolerance(points: ArrayLike<number>, jointCount: numb
   return (rows > jointCount ? rows : jointCount) * Number.EPSILON * scale;
 }
 
-/** Full damped least-squares solution for one finger after its contact is computed (world frame, SI). */
+/** Full damped least-squares solution for one finger after its contact is computed, with the conditioning of its Jacobian (world frame, SI). */
 export function solveFull(finger: Finger, contact: Contact, angularVelocity: ArrayLike<number>, settings: SolverSettings, out: FullSolution, ws: LinalgWorkspace): FullSolution {
+  solveFullRates(finger, contact, angularVelocity, settings, out, ws);
+  return conditionFull(finger, contact, out);
+}
+
+/** The Jacobian, rates, achieved velocity and residual of solveFull without the conditioning (world frame, SI). */
+export function solveFullRates(finger: Finger, contact: Contact, angularVelocity: ArrayLike<number>, settings: SolverSettings, out: FullSolution, ws: LinalgWorkspace): FullSolution {
   const n = finger.jointCount;
   const j = out.jacobian;
   contactJacobian(finger.axes, finger.points, n, contact.rollerPoint, j);
@@ -140,9 +146,15 @@ export function solveFull(finger: Finger, contact: Contact, angularVelocity: Arr
   residual[3] = rows === 4 ? target[3] - spin : 0;
   out.residualNorm = Math.sqrt(translational);
   out.spinResidual = rows === 4 ? Math.abs(out.residual[3]) : 0;
+  return out;
+}
+
+/** Singular values, rank, rank tolerance, ratio, condition number and manipulability of the translational Jacobian that solveFullRates wrote into out. */
+export function conditionFull(finger: Finger, contact: Contact, out: FullSolution): FullSolution {
+  const j = out.jacobian, rows = j.rows;
   j.rows = 3;
   const s = jacobianSingularValues(j, out.singularValues);
-  const tolerance = contactRankTolerance(finger.points, n, contact.rollerPoint, 3);
+  const tolerance = contactRankTolerance(finger.points, finger.jointCount, contact.rollerPoint, 3);
   out.manipulability = s[0] * s[1] * s[2];
   out.rankTolerance = tolerance;
   out.rank = numericalRank(s, 3, tolerance);
