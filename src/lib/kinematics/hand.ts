@@ -49,13 +49,6 @@ export interface Finger {
   rollerRotation: Float64Array;
   /** Translation of the last link from home, m (roller frame origin offset, world frame). */
   chainTranslation: Float64Array;
-  /**
-   * Per joint: the angle (rad) whose sine and versine 1 - cos forwardKinematics last computed, and those two values
-   * (NaN until the first call): solves that keep the angles (sweeps over object inputs, repeated solves) skip the trigonometry.
-   */
-  trigAngles: Float64Array;
-  sines: Float64Array;
-  versines: Float64Array;
 }
 
 function firstIndexOf(roles: JointRole[], role: JointRole): number {
@@ -93,9 +86,6 @@ export function createFinger(input: FingerInput): Finger {
     rollerAxis: new Float64Array(3),
     rollerRotation: new Float64Array(9),
     chainTranslation: new Float64Array(3),
-    trigAngles: new Float64Array(n).fill(Number.NaN),
-    sines: new Float64Array(n),
-    versines: new Float64Array(n),
   };
   input.joints.forEach((joint, k) => {
     const a = joint.axis;
@@ -151,7 +141,6 @@ export function jointExponential(axis: Vec3Like, point: Vec3Like, angle: number,
 export function forwardKinematics(finger: Finger): Finger {
   const homeAxes = finger.homeAxes, homePoints = finger.homePoints;
   const axes = finger.axes, points = finger.points, angles = finger.angles;
-  const trigAngles = finger.trigAngles, sines = finger.sines, versines = finger.versines;
   // Chain so far g = (R, t), kept in locals: R row-major r0..r8.
   let r0 = 1, r1 = 0, r2 = 0, r3 = 0, r4 = 1, r5 = 0, r6 = 0, r7 = 0, r8 = 1;
   let t0 = 0, t1 = 0, t2 = 0;
@@ -165,13 +154,7 @@ export function forwardKinematics(finger: Finger): Finger {
     points[o] = qx; points[o + 1] = qy; points[o + 2] = qz;
     // exp(xi_1 th_1) ... exp(xi_k th_k) = exp(xi'_k th_k) g with xi'_k the current twist; exp(xi'_k th_k)
     // is the rotation E about the current axis (Rodrigues) with translation (I - E) q.
-    const angle = angles[k];
-    if (angle !== trigAngles[k]) {
-      trigAngles[k] = angle;
-      sines[k] = Math.sin(angle);
-      versines[k] = 1 - Math.cos(angle);
-    }
-    const s = sines[k], v = versines[k];
+    const s = Math.sin(angles[k]), v = 1 - Math.cos(angles[k]);
     const e0 = 1 - v * (y * y + z * z), e1 = v * x * y - s * z, e2 = v * x * z + s * y;
     const e3 = v * x * y + s * z, e4 = 1 - v * (x * x + z * z), e5 = v * y * z - s * x;
     const e6 = v * x * z - s * y, e7 = v * y * z + s * x, e8 = 1 - v * (x * x + y * y);
