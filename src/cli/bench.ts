@@ -205,9 +205,9 @@ const lines = [
   `Kinematics benchmarks (median of ${REPETITIONS} interleaved rounds; Node ${process.version}; ${cpus()[0]?.model ?? 'unknown CPU'}, ` +
     `${availableParallelism()} cores, load average ${loadavg()[0]!.toFixed(1)})`,
   ...(loadavg()[0]! > availableParallelism() / 2 ? ['Other work is running on this machine; the figures are inflated by it.'] : []),
-  line(solveThree, against(solveThree, 3e-3)),
+  line(solveThree, against(solveThree, 2e-3)),
   line(solveFive),
-  line(run, against(run, 50)),
+  line(run, against(run, 30)),
   line(sweep),
   line(linalg, against(linalg, 1e-3)),
   line(mathjsThree, `ours is ${speedup.toFixed(0)} x faster (target >= 100 x: ${speedup >= 100 ? 'met' : 'missed'})`),

@@ -39,6 +39,9 @@ function jointCell(definition: OutputDefinition, result: PlainSheetResult, finge
 const [conditionBefore, conditionAfter, singularValues, conditionNumber, manipulability] = [
   'steer.conditionBefore', 'steer.conditionAfter', 'full.singularValues', 'full.conditionNumber', 'full.manipulability',
 ].map(findOutput);
+const [fullRank, rankTolerance, driveSingularValues, driveRank, graspSingularValues] = [
+  'full.rank', 'full.rankTolerance', 'steer.driveSingularValues', 'driveRank', 'grasp.singularValues',
+].map(findOutput);
 
 /** One table per contact and one for the grasp, labels, units and readers from the output catalogue; the full solution beside steer-and-roll. */
 function ResultsSection({ result, stale }: { result: PlainSheetResult | null; stale: boolean }) {
@@ -113,10 +116,19 @@ function ResultsSection({ result, stale }: { result: PlainSheetResult | null; st
               </table>
             )}
             <p className="mt-1 text-xs text-graphite">
-              full solution: σ = <span className="num">{f.full.singularValues.map((s) => displayNumber(singularValues, s)).join(', ')}</span> {singularValues.display.unit}, condition{' '}
+              full solution: σ = <span className="num">{f.full.singularValues.map((s) => displayNumber(singularValues, s)).join(', ')}</span> {singularValues.display.unit}, rank{' '}
+              <span className="num" data-result={`${i}.full.rank`}>{displayValue(fullRank, fullRank.read(result, i))}</span> {fullRank.display.unit} (σ counted above{' '}
+              <span className="num">{displayValue(rankTolerance, rankTolerance.read(result, i))}</span> {rankTolerance.display.unit}), condition{' '}
               <span className="num">{displayValue(conditionNumber, conditionNumber.read(result, i))}</span>, manipulability{' '}
               <span className="num">{displayValue(manipulability, manipulability.read(result, i))}</span>
             </p>
+            {f.steer.available && (
+              <p className="text-xs text-graphite">
+                drive columns after steering: σ = <span className="num">{displayValue(driveSingularValues, driveSingularValues.read(result, i))}</span>{' '}
+                {driveSingularValues.display.unit}, rank <span className="num" data-result={`${i}.driveRank`}>{displayValue(driveRank, driveRank.read(result, i))}</span>{' '}
+                {driveRank.display.unit}
+              </p>
+            )}
             <CurvatureTable result={result} finger={i} />
           </div>
         );
@@ -130,6 +142,9 @@ function ResultsSection({ result, stale }: { result: PlainSheetResult | null; st
             <OutputRow id="grasp.undrivable" result={result} />
           </tbody>
         </table>
+        <p className="mt-1 text-xs text-graphite">
+          σ = <span className="num">{displayValue(graspSingularValues, graspSingularValues.read(result, -1))}</span> (1 for translations, m for rotations)
+        </p>
         {result.grasp.undrivableCount > 0 && (
           <ul className="mt-2 text-xs text-graphite">
             {Array.from({ length: result.grasp.undrivableCount }, (_, k) => (

@@ -151,8 +151,18 @@ export function distanceToAxis(axis: ArrayLike<number>, point: ArrayLike<number>
   return Math.sqrt(cx * cx + cy * cy + cz * cz);
 }
 
-/** Contact of the finger's roller with the object after forwardKinematics (world frame, SI); tolerance is the touching band on the gap, m. */
-export function computeContact(object: RigidObject, finger: Finger, tolerance: number, out: Contact = createContact(), ws: ContactWorkspace = createContactWorkspace()): Contact {
+/**
+ * Contact of the finger's roller with the object after forwardKinematics (world frame, SI); tolerance is the touching band on the gap, m.
+ * Without rollerCoordinates the roller-frame point, latitude and longitude keep their previous values (runs do not record them).
+ */
+export function computeContact(
+  object: RigidObject,
+  finger: Finger,
+  tolerance: number,
+  out: Contact = createContact(),
+  ws: ContactWorkspace = createContactWorkspace(),
+  rollerCoordinates = true,
+): Contact {
   const R = object.rotation, p = object.position;
   const c = finger.rollerCenter;
   const rho = finger.rollerRadius;
@@ -183,7 +193,7 @@ export function computeContact(object: RigidObject, finger: Finger, tolerance: n
     y[2] = c[2] - rho * n[2];
   }
   out.state = out.gap > tolerance ? 'separated' : out.gap < -tolerance ? 'penetrating' : 'touching';
-  rollerFrameCoordinates(finger, out);
+  if (rollerCoordinates) rollerFrameCoordinates(finger, out);
 
   const v = objectPointVelocity(object.linearVelocity, object.angularVelocity, p, x, out.objectVelocity);
   const vn = v[0] * n[0] + v[1] * n[1] + v[2] * n[2];

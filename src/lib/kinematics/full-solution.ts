@@ -9,7 +9,7 @@ import type { Contact } from './contact';
 import { jacobianSingularValues } from './eigen3';
 import type { Finger } from './hand';
 import {
-  conditionNumber, createLinalgWorkspace, createMatrix, dampedLeastSquares,
+  conditionNumber, createLinalgWorkspace, createMatrix, dampedLeastSquares, numericalRank,
   type LinalgWorkspace, type Matrix,
 } from './linalg';
 
@@ -33,9 +33,13 @@ export interface FullSolution {
   spinResidual: number;
   /** Singular values of the 3 x n translational Jacobian, descending, m/rad (missing ones are 0; see jacobianSingularValues). */
   singularValues: Float64Array;
-  /** sigma_min / sigma_max of the translational Jacobian (dimensionless; 0 at rank loss). */
+  /** Singular values above rankTolerance: the numerical rank of the translational Jacobian, 0 to 3 (full rank 3). */
+  rank: number;
+  /** Rank tolerance of this finger's Jacobians at the current posture (m/rad; see contactRankTolerance). */
+  rankTolerance: number;
+  /** sigma_min / sigma_max of the translational Jacobian (dimensionless; 0 when rank is below 3). */
   singularRatio: number;
-  /** sigma_max / sigma_min (dimensionless; Infinity at rank loss). */
+  /** sigma_max / sigma_min (dimensionless; Infinity when rank is below 3). */
   conditionNumber: number;
   /** Yoshikawa manipulability sqrt(det(J J^T)) of the translational Jacobian (Yoshikawa 1985), m^3/rad^3. */
   manipulability: number;
@@ -58,6 +62,8 @@ export function createFullSolution(jointCount: number): FullSolution {
     residualNorm: 0,
     spinResidual: 0,
     singularValues: new Float64Array(3),
+    rank: 0,
+    rankTolerance: 0,
     singularRatio: 0,
     conditionNumber: Number.POSITIVE_INFINITY,
     manipulability: 0,
@@ -82,8 +88,31 @@ export function contactJacobian(axes: ArrayLike<number>, points: ArrayLike<numbe
   return out;
 }
 
-/** Full damped least-squares solution for one finger after its contact is computed (world frame, SI). */
+/**
+ * Numerical-rank tolerance of a contact Jacobian with columns w_k x (y - r_k) (m/rad): max(rows, cols) eps
+ * times sum_k (|y|_1 + |r_k|_1), for points r_k packed 3 per joint and y in the palm frame (m). The usual
+ * max(rows, cols) eps sigma_max (Golub & Van Loan, "Matrix Computations", sec. 5.4.1) assumes entries exact
+ * to rounding of their own size; these entries come from forward kinematics and y - r_k, which round at the
+ * size of the positions, not of the lever arm, so a finger far from the palm origin with short lever arms
+ * leaves a sigma_min of rank loss far above eps sigma_max. The perturbation of the entries is at most of this
+ * size, so by Weyl's inequality it bounds what rounding adds to a zero singular value; the sum of positions
+ * is at least ||J||_F >= sigma_max, so the usual tolerance is never larger.
+ */
+export function contactRankTolerance(points: ArrayLike<number>, jointCount: number, y: ArrayLike<number>, rows: number): number {
+  const yScale = Math.abs(y[0]) + Math.abs(y[1]) + Math.abs(y[2]);
+  let scale = 0;
+  for (let o = 0, end = 3 * jointCount; o < end; o += 3) scale += yScale + Math.abs(points[o]) + Math.abs(points[o + 1]) + Math.abs(points[o + 2]);
+  return (rows > jointCount ? rows : jointCount) * Number.EPSILON * scale;
+}
+
+/** Full damped least-squares solution for one finger after its contact is computed, with the conditioning of its Jacobian (world frame, SI). */
 export function solveFull(finger: Finger, contact: Contact, angularVelocity: ArrayLike<number>, settings: SolverSettings, out: FullSolution, ws: LinalgWorkspace): FullSolution {
+  solveFullRates(finger, contact, angularVelocity, settings, out, ws);
+  return conditionFull(finger, contact, out);
+}
+
+/** The Jacobian, rates, achieved velocity and residual of solveFull without the conditioning (world frame, SI). */
+export function solveFullRates(finger: Finger, contact: Contact, angularVelocity: ArrayLike<number>, settings: SolverSettings, out: FullSolution, ws: LinalgWorkspace): FullSolution {
   const n = finger.jointCount;
   const j = out.jacobian;
   contactJacobian(finger.axes, finger.points, n, contact.rollerPoint, j);
@@ -117,11 +146,20 @@ export function solveFull(finger: Finger, contact: Contact, angularVelocity: Arr
   residual[3] = rows === 4 ? target[3] - spin : 0;
   out.residualNorm = Math.sqrt(translational);
   out.spinResidual = rows === 4 ? Math.abs(out.residual[3]) : 0;
+  return out;
+}
+
+/** Singular values, rank, rank tolerance, ratio, condition number and manipulability of the translational Jacobian that solveFullRates wrote into out. */
+export function conditionFull(finger: Finger, contact: Contact, out: FullSolution): FullSolution {
+  const j = out.jacobian, rows = j.rows;
   j.rows = 3;
   const s = jacobianSingularValues(j, out.singularValues);
+  const tolerance = contactRankTolerance(finger.points, finger.jointCount, contact.rollerPoint, 3);
   out.manipulability = s[0] * s[1] * s[2];
-  out.conditionNumber = conditionNumber(s, 3);
-  out.singularRatio = s[0] > 0 ? s[2] / s[0] : 0;
+  out.rankTolerance = tolerance;
+  out.rank = numericalRank(s, 3, tolerance);
+  out.conditionNumber = conditionNumber(s, 3, tolerance);
+  out.singularRatio = out.rank === 3 ? s[2] / s[0] : 0;
   j.rows = rows;
   return out;
 }

@@ -58,7 +58,14 @@ export function createGraspWorkspace(): GraspWorkspace {
 
 /**
  * Grasp of contacts at points x_i (3 per contact) with normals n_i about the object origin p
- * (world frame, m); relativeTolerance sets the rank cut sigma > relativeTolerance sigma_max.
+ * (world frame, m); a singular value counts toward the rank when sigma > rankRatio sigma_max
+ * (the solver's singular-ratio setting, dimensionless).
+ *
+ * The cut is a judgement, not the numerical rank max(rows, cols) eps sigma_max of the finger
+ * Jacobians: a twist whose singular value is below it needs contact speeds 1 / rankRatio times those
+ * of the best driven twist, which the rollers cannot give in practice; and the rotational values are
+ * square roots of eigenvalues of S, so an exactly undrivable rotation still shows about
+ * sqrt(eps) sigma_max of rounding, far above any eps-sized cut.
  */
 export function computeGrasp(
   origin: ArrayLike<number>,
@@ -66,7 +73,7 @@ export function computeGrasp(
   normals: ArrayLike<number>,
   contactCount: number,
   softFinger: boolean,
-  relativeTolerance: number,
+  rankRatio: number,
   out: GraspResult,
   ws: GraspWorkspace = createGraspWorkspace(),
 ): GraspResult {
@@ -137,7 +144,7 @@ export function computeGrasp(
       q++;
     }
   }
-  const tolerance = relativeTolerance * sv[0];
+  const tolerance = rankRatio * sv[0];
   let nullRotations = 0;
   for (let i = 0; i < 3; i++) if (!(rotational[i] > tolerance)) nullRotations++;
   out.rank = 6 - nullRotations;

@@ -322,13 +322,28 @@ function completeZeroColumns(long: Matrix, s: Float64Array, p: number): void {
   }
 }
 
-/** Default rank tolerance max(rows, cols) * eps * sigma_max, as in LAPACK-based pinv/rank (common practice). */
+/**
+ * Numerical-rank tolerance max(rows, cols) eps sigma_max (Golub & Van Loan, "Matrix Computations", 4th ed.,
+ * sec. 5.4.1; NumPy's matrix_rank default): singular values at or below it are rounding of an exactly
+ * rank-deficient matrix whose entries are exact to working precision (units of sigma).
+ */
 export function defaultRankTolerance(rows: number, cols: number, sigmaMax: number): number {
   return Math.max(rows, cols) * Number.EPSILON * sigmaMax;
 }
 
-/** sigma_max / sigma_min over the first `count` singular values (dimensionless, Infinity at rank loss). */
-export function conditionNumber(s: ArrayLike<number>, count: number = s.length): number {
+/** Number of the first `count` singular values above tolerance: the numerical rank (dimensionless; tolerance in units of s). */
+export function numericalRank(s: ArrayLike<number>, count: number, tolerance: number): number {
+  let rank = 0;
+  for (let i = 0; i < count; i++) if (s[i]! > tolerance) rank++;
+  return rank;
+}
+
+/**
+ * sigma_max / sigma_min over the first `count` singular values (dimensionless): Infinity when the numerical rank
+ * is below count, i.e. some sigma is at or below tolerance (units of s; default defaultRankTolerance(count, count,
+ * sigma_max)); NaN for the zero matrix.
+ */
+export function conditionNumber(s: ArrayLike<number>, count: number = s.length, tolerance?: number): number {
   if (count === 0) return Number.NaN;
   let max = 0;
   let min = Number.POSITIVE_INFINITY;
@@ -338,7 +353,8 @@ export function conditionNumber(s: ArrayLike<number>, count: number = s.length):
     if (x < min) min = x;
   }
   if (max === 0) return Number.NaN;
-  return min === 0 ? Number.POSITIVE_INFINITY : max / min;
+  const cut = tolerance ?? defaultRankTolerance(count, count, max);
+  return min <= cut ? Number.POSITIVE_INFINITY : max / min;
 }
 
 /**

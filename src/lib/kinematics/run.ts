@@ -184,7 +184,7 @@ export function runScene(scene: Scene, settings: RunSettings, options: RunOption
     copyInto(measuredOrientation, object.orientation, 0);
     copyInto(linear, object.linearVelocity, 0);
     copyInto(angular, object.angularVelocity, 0);
-    solveScene(scene, result);
+    solveScene(scene, result, 'run');
 
     columns.time[tick] = tick * dt;
     copyInto(position, columns.position, 3 * tick);

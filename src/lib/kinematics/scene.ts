@@ -9,8 +9,8 @@ import { computeContact, createContact, createContactWorkspace, createObject, up
 import type { ContactCurvature } from './curvature';
 import { computeGrasp, createGraspResult, createGraspWorkspace, type GraspResult, type GraspWorkspace } from './grasp';
 import { createFinger, forwardKinematics, type Finger } from './hand';
-import { createFullSolution, createFullSolveWorkspace, solveFull, type FullSolution } from './full-solution';
-import { matrixToRows, type LinalgWorkspace, type Matrix } from './linalg';
+import { conditionFull, createFullSolution, createFullSolveWorkspace, solveFull, solveFullRates, type FullSolution } from './full-solution';
+import { matrixToRows, numericalRank, type LinalgWorkspace, type Matrix } from './linalg';
 import { createSteerAndRoll, createSteerWorkspace, solveSteerAndRoll, type SteerAndRoll, type SteerWorkspace } from './steer-and-roll';
 import {
   checkFinger, checkGrasp, clearWarnings, createWarningList, finishWarnings, judgedBasis, judgedRankRatio, SEVERITY_LEVELS,
@@ -57,6 +57,8 @@ export interface FingerResult {
   rankRatio: number;
   /** Acceleration feed-forward, filled once per evaluation by solveAccelerations; solveScene, runs and sweeps leave it absent. */
   acceleration?: FingerAcceleration;
+  /** Numerical rank of the steered drive columns (steer.driveSingularValues above full.rankTolerance), 0 to 3; 0 without steer-and-roll. */
+  driveRank: number;
 }
 
 /** The result of solving a sheet once. */
@@ -111,6 +113,7 @@ export function createResult(scene: Scene): SheetResult {
       steer: createSteerAndRoll(f),
       rankBasis: 'full' as JudgedBasis,
       rankRatio: 0,
+      driveRank: 0,
     })),
     grasp: createGraspResult(Math.max(1, scene.fingers.length)),
     warnings: warningList.items,
@@ -119,8 +122,16 @@ export function createResult(scene: Scene): SheetResult {
   };
 }
 
+/**
+ * What a solve computes: 'report' every output; 'run' what a run records and its warnings need, leaving out the contact's
+ * roller-frame point, latitude and longitude, the joint snapshot, the drive columns' rank, and for fingers judged after steering
+ * the full Jacobian's singular values, rank, condition number and manipulability (steer.conditionBefore then copies a stale
+ * value); those keep their previous values.
+ */
+export type SolveDetail = 'report' | 'run';
+
 /** Solves every finger's contact, full and steer-and-roll rates, the grasp and the warnings at the scene's current state (world frame, SI). */
-export function solveScene(scene: Scene, out: SheetResult = createResult(scene)): SheetResult {
+export function solveScene(scene: Scene, out: SheetResult = createResult(scene), detail: SolveDetail = 'report'): SheetResult {
   const { object, fingers, settings, workspace } = scene;
   updateObjectRotation(object);
   copyInto(object.position, out.object.position);
@@ -133,21 +144,26 @@ export function solveScene(scene: Scene, out: SheetResult = createResult(scene))
   const count = fingers.length;
   // Stage by stage over all fingers rather than finger by finger: each stage's compiled code then
   // stays in the instruction cache for every finger, which measurably speeds up the whole solve.
+  const report = detail === 'report';
   for (let i = 0; i < count; i++) forwardKinematics(fingers[i]);
-  for (let i = 0; i < count; i++) computeContact(object, fingers[i], settings.contactTolerance, out.fingers[i].contact, workspace.contact);
+  for (let i = 0; i < count; i++) computeContact(object, fingers[i], settings.contactTolerance, out.fingers[i].contact, workspace.contact, report);
   for (let i = 0; i < count; i++) {
     const r = out.fingers[i];
-    solveFull(fingers[i], r.contact, object.angularVelocity, settings, r.full, workspace.full);
+    if (report) solveFull(fingers[i], r.contact, object.angularVelocity, settings, r.full, workspace.full);
+    else solveFullRates(fingers[i], r.contact, object.angularVelocity, settings, r.full, workspace.full);
   }
   for (let i = 0; i < count; i++) {
     const r = out.fingers[i];
     solveSteerAndRoll(fingers[i], r.contact, r.full, settings, r.steer, workspace.steer);
+    // A run needs the full Jacobian's conditioning only where the warnings judge rank on it.
+    if (!report && !r.steer.available) conditionFull(fingers[i], r.contact, r.full);
     r.rankBasis = judgedBasis(r.steer);
     r.rankRatio = judgedRankRatio(r.full, r.steer);
+    if (report) r.driveRank = r.steer.available ? numericalRank(r.steer.driveSingularValues, 3, r.full.rankTolerance) : 0;
   }
   for (let i = 0; i < count; i++) {
     const r = out.fingers[i];
-    snapshotJoints(fingers[i], r);
+    if (report) snapshotJoints(fingers[i], r);
     const x = r.contact.objectPoint, n = r.contact.normal;
     points[3 * i] = x[0]; points[3 * i + 1] = x[1]; points[3 * i + 2] = x[2];
     normals[3 * i] = n[0]; normals[3 * i + 1] = n[1]; normals[3 * i + 2] = n[2];

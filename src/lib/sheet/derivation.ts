@@ -148,10 +148,20 @@ function fingerEntries(doc: SheetDocument, result: SheetResult, i: number, f: Fi
     value: list(sv),
     unit: 'm/rad',
   });
+  const rankScale = `\\max(3, ${n})\\,\\varepsilon \\sum_k \\left(\\lVert y \\rVert_1 + \\lVert r_k \\rVert_1\\right)`;
+  entries.push({
+    id: `${id}.full.rank`,
+    label: `${f.name}: numerical rank of the contact Jacobian`,
+    latex: `\\operatorname{rank} J = \\#\\{\\sigma_i > \\tau\\},\\; \\tau = ${rankScale} = ${formatLatexNumber(full.rankTolerance)},\\; \\sigma = ${column(sv)} \\;\\Rightarrow\\; ${full.rank}`,
+    value: full.rank,
+    unit: '1',
+  });
   entries.push({
     id: `${id}.full.conditionNumber`,
     label: `${f.name}: condition number of the contact Jacobian`,
-    latex: `\\kappa = \\sigma_{\\max} / \\sigma_{\\min} = ${formatLatexNumber(sv[0])} / ${formatLatexNumber(sv[2])} = ${formatLatexNumber(full.conditionNumber)}`,
+    latex: full.rank < 3
+      ? `\\kappa = \\infty \\quad (\\operatorname{rank} J = ${full.rank} < 3:\\; \\sigma_{\\min} = ${formatLatexNumber(sv[2])} \\le \\tau = ${formatLatexNumber(full.rankTolerance)})`
+      : `\\kappa = \\sigma_{\\max} / \\sigma_{\\min} = ${formatLatexNumber(sv[0])} / ${formatLatexNumber(sv[2])} = ${formatLatexNumber(full.conditionNumber)}`,
     value: full.conditionNumber,
     unit: '1',
   });
@@ -239,6 +249,13 @@ function fingerEntries(doc: SheetDocument, result: SheetResult, i: number, f: Fi
     value: f.rankRatio,
     unit: '1',
   });
+  entries.push({
+    id: `${id}.driveRank`,
+    label: `${f.name}: numerical rank of the drive columns after steering`,
+    latex: `\\operatorname{rank} J'_{\\text{drive}} = \\#\\{\\sigma'_i > \\tau\\},\\; \\tau = ${formatLatexNumber(full.rankTolerance)},\\; \\sigma' = ${column(dsv)} \\;\\Rightarrow\\; ${f.driveRank}`,
+    value: f.driveRank,
+    unit: '1',
+  });
 }
 
 /** Derivation entries for every reported number of a solved sheet (units as listed per entry). */
@@ -251,7 +268,7 @@ export function deriveSheet(doc: SheetDocument, result: SheetResult): Derivation
   const rows = g.contactMap.rows;
   entries.push({
     id: 'grasp.rank',
-    label: 'Rank of the grasp (contact map of all contacts)',
+    label: 'Rank of the grasp (contact map of all contacts), cut at the singular-ratio setting',
     latex: `\\operatorname{rank} \\begin{pmatrix} I & -[x_i - p]_\\times \\end{pmatrix}_{i} = \\#\\{\\sigma_j > ${formatLatexNumber(doc.solver.singularRatio)}\\,\\sigma_1\\},\\; \\sigma = ${column(g.singularValues, 0, Math.min(6, rows))} \\;\\Rightarrow\\; ${g.rank}`,
     value: g.rank,
     unit: '1',

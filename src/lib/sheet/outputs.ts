@@ -114,6 +114,14 @@ export const OUTPUTS: readonly OutputDefinition[] = [
     csv: { columns: ['condition_number'] }, read: (r, i) => r.fingers[i].full.conditionNumber,
   },
   {
+    id: 'full.rank', label: 'rank of the contact Jacobian', unit: '', display: shown('of 3'), frame: null, scope: 'finger', parts: 'single',
+    compared: false, read: (r, i) => r.fingers[i].full.rank,
+  },
+  {
+    id: 'full.rankTolerance', label: 'rank tolerance', unit: 'm/rad', display: shown('m/rad', same, 2), frame: null, scope: 'finger', parts: 'single',
+    compared: false, read: (r, i) => r.fingers[i].full.rankTolerance,
+  },
+  {
     id: 'full.manipulability', label: 'manipulability', unit: '', display: unitless(3), frame: null, scope: 'finger', parts: 'single', compared: true,
     csv: { columns: ['manipulability'] }, read: (r, i) => r.fingers[i].full.manipulability,
   },
@@ -151,6 +159,14 @@ export const OUTPUTS: readonly OutputDefinition[] = [
   {
     id: 'steer.conditionAfter', label: 'condition after steering', unit: '', display: shown('1', same, 3), frame: null, scope: 'finger',
     parts: 'single', compared: false, read: (r, i) => r.fingers[i].steer.conditionAfter,
+  },
+  {
+    id: 'steer.driveSingularValues', label: 'singular value of the drive columns', unit: 'm/rad', display: shown('m/rad', same, 3), frame: null,
+    scope: 'finger', parts: 'singular-values', compared: false, read: (r, i) => r.fingers[i].steer.driveSingularValues,
+  },
+  {
+    id: 'driveRank', label: 'rank of the drive columns', unit: '', display: shown('of 3'), frame: null, scope: 'finger', parts: 'single',
+    compared: false, read: (r, i) => r.fingers[i].driveRank,
   },
   {
     id: 'jointAngles', label: 'joint angle', tableLabel: 'angle, deg', unit: 'rad', display: shown('deg', degrees), frame: null, scope: 'joint',
@@ -250,6 +266,10 @@ export const OUTPUTS: readonly OutputDefinition[] = [
   {
     id: 'grasp.rank', label: 'grasp map rank', tableLabel: 'rank of the contact map', unit: '', display: shown('of 6'), frame: null, scope: 'grasp',
     parts: 'single', compared: true, read: (r) => r.grasp.rank,
+  },
+  {
+    id: 'grasp.singularValues', label: 'grasp map singular value (1 for translations, m for rotations)', unit: '', display: unitless(3), frame: null, scope: 'grasp',
+    parts: 'singular-values', compared: false, read: (r) => r.grasp.singularValues,
   },
   {
     id: 'grasp.undrivable', label: 'undrivable object directions', tableLabel: 'undrivable directions', unit: '', display: unitless(), frame: null,

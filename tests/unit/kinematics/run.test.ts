@@ -6,7 +6,7 @@ import { HAND_TEMPLATES, createSheetFromTemplate } from '../../../src/lib/sheet/
 import type { RunSettings, SheetDocument } from '../../../src/lib/sheet/types';
 import { ROTATION_METRICS } from '../../../src/lib/kinematics/metrics';
 import { SOLUTION_KINDS, runScene, runSheet, toPlainRunRecord, warningsAt } from '../../../src/lib/kinematics/run';
-import { createScene } from '../../../src/lib/kinematics/scene';
+import { createResult, createScene, solveScene } from '../../../src/lib/kinematics/scene';
 import { SEVERITY_LEVELS, WARNING_CATALOGUE, WARNING_CODES } from '../../../src/lib/kinematics/warnings';
 import { threeFingerSheet } from './three-finger-sheet';
 
@@ -302,5 +302,36 @@ describe('steered run toward a rotation about a known axis', () => {
     const turned = theta0 - theta0 * (1 - s.gain * s.dt) ** last;
     const roll = r.jointAngles[1]![3 * last + 2]! - r.jointAngles[1]![2]!;
     expect(Math.abs(roll)).toBeCloseTo((turned * 0.04 * Math.sin((2 * Math.PI) / 3)) / 0.012, 6);
+  });
+});
+
+describe("solveScene with detail 'run'", () => {
+  // Independent second route: the full 'report' solve of the same state; a run must record exactly what it would.
+  it.each([...shippedExamples, ...templateSheets])('%s: same rates, pivot angles, warnings and grasp rank as the full solve along its run', (_, doc) => {
+    const settings = { ...doc.motion.run, maxTicks: 40, positionTolerance: -1, angleTolerance: -1 };
+    const record = runSheet(doc, { settings });
+    const scene = createScene(doc);
+    const viaRun = createResult(scene), viaReport = createResult(scene);
+    for (let tick = 0; tick < record.tickCount; tick += 7) {
+      scene.object.position.set(record.position.subarray(3 * tick, 3 * tick + 3));
+      scene.object.orientation.set(record.orientation.subarray(4 * tick, 4 * tick + 4));
+      scene.object.linearVelocity.set(record.twist.subarray(6 * tick, 6 * tick + 3));
+      scene.object.angularVelocity.set(record.twist.subarray(6 * tick + 3, 6 * tick + 6));
+      scene.fingers.forEach((f, i) => f.angles.set(record.jointAngles[i].subarray(f.jointCount * tick, f.jointCount * (tick + 1))));
+      solveScene(scene, viaRun, 'run');
+      solveScene(scene, viaReport, 'report');
+      viaReport.fingers.forEach((expected, i) => {
+        const got = viaRun.fingers[i];
+        expect(Array.from(got.full.rates)).toEqual(Array.from(expected.full.rates));
+        expect(Array.from(got.steer.rates)).toEqual(Array.from(expected.steer.rates));
+        expect(got.steer.pivotAngle).toEqual(expected.steer.pivotAngle);
+        expect(got.rankRatio).toEqual(expected.rankRatio);
+      });
+      expect(viaRun.warnings.map((w) => [w.code, w.finger, w.joint, w.value, w.threshold])).toEqual(
+        viaReport.warnings.map((w) => [w.code, w.finger, w.joint, w.value, w.threshold]),
+      );
+      expect(viaRun.worstSeverity).toBe(viaReport.worstSeverity);
+      expect(viaRun.grasp.rank).toBe(viaReport.grasp.rank);
+    }
   });
 });
