@@ -53,19 +53,33 @@ function summarize(doc: SheetDocument, result: SheetResult): SheetSummary {
  */
 const UNBOUNDED_OUTPUTS: ReadonlySet<string> = new Set(['conditionNumber', 'conditionBefore', 'conditionAfter']);
 
+/**
+ * Outputs where NaN means "not defined for this finger's build", not a failed solve: the contact's
+ * latitude, longitude and distance to the roll axis without a roll joint, its distances to the
+ * pivot axis without a pivot joint. JSON writes them as null and the results show "—".
+ */
+const UNDEFINED_BY_BUILD: ReadonlySet<string> = new Set(['latitude', 'longitude', 'rollAxisDistance', 'pivotAxisDistance', 'pivotCenterDistance']);
+
+/** Whether a NaN at this path of the plain result means "not defined" (see UNDEFINED_BY_BUILD; every steering number of a finger steer-and-roll does not apply to). */
+function undefinedByBuild(result: PlainSheetResult, path: readonly (string | number)[], key: string): boolean {
+  if (UNDEFINED_BY_BUILD.has(key)) return true;
+  return path[0] === 'fingers' && typeof path[1] === 'number' && path[2] === 'steer' && !result.fingers[path[1]]?.steer.available;
+}
+
 /** Outputs with one entry per joint of the finger, so a bad entry names its joint. */
 const PER_JOINT_OUTPUTS: ReadonlySet<string> = new Set(['rates', 'jointAngles', 'jointAccelerations']);
 
 /** Path (keys and indices) of the first number in a plain result that must not be reported, or undefined when all are. */
-function firstNonFinite(value: unknown, path: (string | number)[]): { path: (string | number)[]; value: number } | undefined {
+function firstNonFinite(result: PlainSheetResult, value: unknown, path: (string | number)[]): { path: (string | number)[]; value: number } | undefined {
   if (typeof value === 'number') {
     const key = path.findLast((segment) => typeof segment === 'string');
-    const allowed = value === Infinity && key !== undefined && UNBOUNDED_OUTPUTS.has(key);
+    const allowed = key !== undefined
+      && ((value === Infinity && UNBOUNDED_OUTPUTS.has(key)) || (Number.isNaN(value) && undefinedByBuild(result, path, key)));
     return Number.isFinite(value) || allowed ? undefined : { path, value };
   }
   if (value === null || typeof value !== 'object') return undefined;
   for (const [key, item] of Array.isArray(value) ? value.entries() : Object.entries(value)) {
-    const found = firstNonFinite(item, [...path, key]);
+    const found = firstNonFinite(result, item, [...path, key]);
     if (found) return found;
   }
   return undefined;
@@ -94,7 +108,7 @@ export function evaluateSheet(input: unknown, options: EvaluateOptions = {}): Re
     const solved = solveAccelerations(solveSheet(doc), doc.object.acceleration, doc.solver);
     const result = toPlainResult(solved);
     sheetCurvature(doc, solved).forEach((curvature, i) => { result.fingers[i].curvature = curvature; });
-    const bad = firstNonFinite(result, []);
+    const bad = firstNonFinite(result, result, []);
     if (bad) {
       const message = `the result is not a finite number: ${formatIssuePath(bad.path)} is ${bad.value}${describeOwner(doc, bad.path)}; an input is too large or too small for the solve to keep its digits`;
       return fail({ kind: 'invalid', stage: 'solve', message, issues: [{ path: formatIssuePath([]), message }] });

@@ -59,6 +59,39 @@ describe('inputs outside physically meaningful ranges', () => {
   });
 });
 
+describe('outputs that are not defined rather than not finite', () => {
+  function withoutRole(role: string): unknown {
+    const doc = JSON.parse(text) as { hand: { fingers: { joints: { role: string }[] }[] } };
+    doc.hand.fingers[0]!.joints = doc.hand.fingers[0]!.joints.filter((joint) => joint.role !== role);
+    return doc;
+  }
+
+  it('solves a finger without a roll joint, whose contact has no latitude or longitude on the roller', () => {
+    // A roller without a roll axis has no equator or meridian to measure from (common practice:
+    // latitude and longitude need a polar axis), so the two are undefined, not a failed solve.
+    const evaluated = evaluateSheet(withoutRole('roll'));
+    if (!evaluated.ok) throw new Error(evaluated.error.message);
+    const finger = evaluated.value.result.fingers[0]!;
+    expect(JSON.parse(JSON.stringify(finger.contact))).toMatchObject({ latitude: null, longitude: null, rollAxisDistance: null });
+    expect(finger.steer.available).toBe(false);
+    expect(finger.full.rates.every(Number.isFinite)).toBe(true);
+  });
+
+  it.each(['pivot', 'base'])('solves a finger without a %s joint: steer-and-roll does not apply, the full solution does', (role) => {
+    const evaluated = evaluateSheet(withoutRole(role));
+    if (!evaluated.ok) throw new Error(evaluated.error.message);
+    const finger = evaluated.value.result.fingers[0]!;
+    expect(finger.steer.available).toBe(false);
+    expect(finger.full.rates.every(Number.isFinite)).toBe(true);
+  });
+
+  it('still refuses a NaN among the numbers that every finger has', () => {
+    const doc = withoutRole('roll') as { object: { twist: { angular: unknown[] } } };
+    doc.object.twist.angular[0] = 1e308;
+    expect(evaluateSheet(doc).ok).toBe(false);
+  });
+});
+
 describe('non-finite literals in a sheet file', () => {
   it('locates a NaN literal at its own line and column', () => {
     const read = readSheetFile('{\n  "format": "slipless.sheet",\n  "damping": NaN,\n  "title": "a"\n}\n');
