@@ -6,6 +6,7 @@
 import type { SheetDocument, SolverSettings } from '../sheet/types';
 import { computeContact, createContact, createContactWorkspace, createObject, updateObjectRotation, type Contact, type ContactWorkspace, type RigidObject } from './contact';
 import { computeGrasp, createGraspResult, createGraspWorkspace, type GraspResult, type GraspWorkspace } from './grasp';
+import { computeGraspQuality, type GraspQuality } from './grasp-quality';
 import { createFinger, forwardKinematics, type Finger } from './hand';
 import { createFullSolution, createFullSolveWorkspace, solveFull, type FullSolution } from './full-solution';
 import { matrixToRows, type LinalgWorkspace, type Matrix } from './linalg';
@@ -61,6 +62,8 @@ export interface SheetResult {
   object: { position: Float64Array; orientation: Float64Array; linearVelocity: Float64Array; angularVelocity: Float64Array };
   fingers: FingerResult[];
   grasp: GraspResult;
+  /** Grasp quality under friction; computed once by solveSheet, absent from solveScene's results (runs and sweeps). */
+  graspQuality?: GraspQuality;
   /** Raised warnings, in finger order, then the grasp warning. */
   warnings: SheetWarning[];
   worstSeverity: WarningSeverity | 'none';
@@ -161,7 +164,36 @@ export function solveScene(scene: Scene, out: SheetResult = createResult(scene))
 
 /** Compiles and solves a sheet in one call (world frame, SI). */
 export function solveSheet(doc: SheetDocument): SheetResult {
-  return solveScene(createScene(doc));
+  const result = solveScene(createScene(doc));
+  result.graspQuality = graspQualityOf(doc, result);
+  return result;
+}
+
+/** Friction coefficient of a finger that states none (dimensionless): rubber on cardboard, about 0.5 (common practice). */
+export const DEFAULT_FRICTION = 0.5;
+/** Cone edges when the sheet states no grasp-quality settings. */
+export const DEFAULT_CONE_EDGES = 8;
+
+/** Grasp quality of the touching (or penetrating) contacts of a solved sheet (world frame, SI). */
+function graspQualityOf(doc: SheetDocument, result: SheetResult): GraspQuality {
+  const points: number[] = [], normals: number[] = [], friction: number[] = [];
+  result.fingers.forEach((f, i) => {
+    if (f.contact.state === 'separated') return;
+    points.push(...f.contact.objectPoint);
+    normals.push(...f.contact.normal);
+    friction.push(doc.hand.fingers[i].friction ?? DEFAULT_FRICTION);
+  });
+  const settings = doc.graspQuality;
+  return computeGraspQuality({
+    origin: result.object.position,
+    points,
+    normals,
+    friction,
+    contactCount: friction.length,
+    coneEdges: settings?.coneEdges ?? DEFAULT_CONE_EDGES,
+    torsionalFriction: doc.solver.softFinger ? (settings?.torsionalFriction ?? 0) : 0,
+    torqueLength: settings?.torqueLength,
+  });
 }
 
 /** Sets the object pose: origin (m) and orientation quaternion [x, y, z, w] (world frame). */
