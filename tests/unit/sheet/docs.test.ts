@@ -7,7 +7,7 @@ import { createSheetFromTemplate } from '../../../src/lib/sheet/templates';
 
 const docsDir = new URL('../../../content/docs/', import.meta.url);
 const read = (name: string) => readFileSync(new URL(name, docsDir), 'utf8');
-const pages = ['sheet-format.md', 'outputs.md', 'warnings.md'];
+const pages = ['sheet-format.md', 'outputs.md', 'warnings.md', 'grasp-quality.md'];
 
 /** Every property name anywhere in a JSON Schema. */
 function propertyNames(schema: unknown, out = new Set<string>()): Set<string> {
@@ -59,6 +59,7 @@ describe('product docs (content/docs)', () => {
       ...Object.keys(finger).filter((k) => !['contact', 'full', 'steer'].includes(k)),
       ...(['contact', 'full', 'steer'] as const).flatMap((part) => Object.keys(finger[part]).map((k) => `${part}.${k}`)),
       ...Object.keys(plain.grasp).map((k) => `grasp.${k}`),
+      ...Object.keys(plain.graspQuality ?? {}).map((k) => `graspQuality.${k}`),
       'warnings',
       'worstSeverity',
     ];
