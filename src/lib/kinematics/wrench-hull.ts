@@ -26,31 +26,49 @@ export interface HullFacets {
   flatNormal: Float64Array;
 }
 
-interface Facet {
-  vertices: number[];
-  normal: Float64Array;
-  offset: number;
-  alive: boolean;
+/** Facets in flat pools: six vertex indices, unit normal and offset each; a dead facet keeps its slot until compacted. */
+interface FacetPool {
+  count: number;
+  vertices: Int32Array;
+  normals: Float64Array;
+  offsets: Float64Array;
 }
 
-/** Unit vector orthogonal to the five rows given (row-major, 6 columns), by Gauss-Jordan elimination with full pivoting. */
-function orthogonalUnit(rows: Float64Array, out: Float64Array): Float64Array {
+function grow(pool: FacetPool): void {
+  const capacity = 2 * pool.offsets.length;
+  const vertices = new Int32Array(capacity * D), normals = new Float64Array(capacity * D), offsets = new Float64Array(capacity);
+  vertices.set(pool.vertices);
+  normals.set(pool.normals);
+  offsets.set(pool.offsets);
+  pool.vertices = vertices;
+  pool.normals = normals;
+  pool.offsets = offsets;
+}
+
+/** Scratch of the hull: the elimination matrix and its pivot bookkeeping, reused for every facet. */
+const eliminated = new Float64Array((D - 1) * D);
+const pivotColumn = new Int32Array(D - 1);
+const usedColumn = new Uint8Array(D);
+const differences = new Float64Array((D - 1) * D);
+
+/** Unit vector orthogonal to the five rows of `rows` (row-major, 6 columns), by Gauss-Jordan elimination with full pivoting, into out at offset. */
+function orthogonalUnit(rows: Float64Array, out: Float64Array, at: number): void {
   const rowCount = D - 1;
-  const a = Float64Array.from(rows);
-  const pivotColumn = new Int32Array(rowCount);
-  const used = new Uint8Array(D);
+  const a = eliminated;
+  a.set(rows);
+  usedColumn.fill(0);
   for (let r = 0; r < rowCount; r++) {
     let best = -1, bestRow = r, bestCol = 0;
     for (let i = r; i < rowCount; i++) {
       for (let j = 0; j < D; j++) {
-        if (used[j]) continue;
+        if (usedColumn[j]) continue;
         const value = Math.abs(a[i * D + j]);
         if (value > best) { best = value; bestRow = i; bestCol = j; }
       }
     }
     if (bestRow !== r) for (let j = 0; j < D; j++) { const t = a[r * D + j]; a[r * D + j] = a[bestRow * D + j]; a[bestRow * D + j] = t; }
     pivotColumn[r] = bestCol;
-    used[bestCol] = 1;
+    usedColumn[bestCol] = 1;
     const p = a[r * D + bestCol];
     for (let i = 0; i < rowCount; i++) {
       if (i === r) continue;
@@ -59,32 +77,35 @@ function orthogonalUnit(rows: Float64Array, out: Float64Array): Float64Array {
     }
   }
   let free = 0;
-  while (used[free]) free++;
-  out.fill(0);
-  out[free] = 1;
-  for (let r = 0; r < rowCount; r++) out[pivotColumn[r]] = -a[r * D + free] / a[r * D + pivotColumn[r]];
+  while (usedColumn[free]) free++;
+  for (let j = 0; j < D; j++) out[at + j] = 0;
+  out[at + free] = 1;
+  for (let r = 0; r < rowCount; r++) out[at + pivotColumn[r]] = -a[r * D + free] / a[r * D + pivotColumn[r]];
   let norm = 0;
-  for (let j = 0; j < D; j++) norm += out[j] * out[j];
+  for (let j = 0; j < D; j++) norm += out[at + j] * out[at + j];
   norm = Math.sqrt(norm);
-  for (let j = 0; j < D; j++) out[j] /= norm;
-  return out;
+  for (let j = 0; j < D; j++) out[at + j] /= norm;
 }
 
-/** Facet through six points (indices), its normal pointing away from the interior point. */
-function makeFacet(points: Float64Array, vertices: number[], interior: Float64Array, differences: Float64Array): Facet {
+/** Appends the facet through six points (indices, ascending), its normal pointing away from the interior point. */
+function addFacet(pool: FacetPool, points: Float64Array, vertices: ArrayLike<number>, interior: Float64Array): void {
+  if (pool.count === pool.offsets.length) grow(pool);
+  const k = pool.count++;
   const o = vertices[0] * D;
   for (let r = 1; r < D; r++) {
     const v = vertices[r] * D;
     for (let j = 0; j < D; j++) differences[(r - 1) * D + j] = points[v + j] - points[o + j];
   }
-  const normal = orthogonalUnit(differences, new Float64Array(D));
+  for (let r = 0; r < D; r++) pool.vertices[k * D + r] = vertices[r];
+  const normal = pool.normals, at = k * D;
+  orthogonalUnit(differences, normal, at);
   let offset = 0, inside = 0;
-  for (let j = 0; j < D; j++) { offset += normal[j] * points[o + j]; inside += normal[j] * interior[j]; }
+  for (let j = 0; j < D; j++) { offset += normal[at + j] * points[o + j]; inside += normal[at + j] * interior[j]; }
   if (inside > offset) {
-    for (let j = 0; j < D; j++) normal[j] = -normal[j];
+    for (let j = 0; j < D; j++) normal[at + j] = -normal[at + j];
     offset = -offset;
   }
-  return { vertices: vertices.slice().sort((x, y) => x - y), normal, offset, alive: true };
+  pool.offsets[k] = offset;
 }
 
 /** Seven affinely independent points chosen greedily far apart, or the direction normal to the affine hull when the points span fewer dimensions. */
@@ -140,8 +161,12 @@ function flatNormalOf(points: Float64Array, first: number, basis: Float64Array[]
   return level > 0 ? best.map((x) => -x) : best;
 }
 
-/** Hull facets of `count` points in six dimensions (row-major, 6 numbers each); the points are joggled in a copy. */
+/** Most points a hull takes: ridge keys pack five indices of 9 bits each. */
+export const MAX_HULL_POINTS = 511;
+
+/** Hull facets of `count` points (at most MAX_HULL_POINTS) in six dimensions (row-major, 6 numbers each); the points are joggled in a copy. */
 export function hullFacets(input: ArrayLike<number>, count: number): HullFacets {
+  if (count > MAX_HULL_POINTS) throw new Error(`the wrench hull takes at most ${MAX_HULL_POINTS} points, got ${count}`);
   let scale = 0;
   for (let i = 0; i < count * D; i++) scale = Math.max(scale, Math.abs(input[i]));
   const flat = (flatNormal: Float64Array): HullFacets => ({ count: 0, normals: new Float64Array(0), offsets: new Float64Array(0), flatNormal });
@@ -159,42 +184,71 @@ export function hullFacets(input: ArrayLike<number>, count: number): HullFacets 
 
   const interior = new Float64Array(D);
   for (const i of chosen) for (let j = 0; j < D; j++) interior[j] += points[i * D + j] / (D + 1);
-  const differences = new Float64Array((D - 1) * D);
-  let facets: Facet[] = [];
-  for (let skip = 0; skip <= D; skip++) facets.push(makeFacet(points, chosen.filter((_, k) => k !== skip), interior, differences));
+  const pool: FacetPool = { count: 0, vertices: new Int32Array(64 * D), normals: new Float64Array(64 * D), offsets: new Float64Array(64) };
+  const sortedChosen = chosen.slice().sort((x, y) => x - y);
+  for (let skip = 0; skip <= D; skip++) addFacet(pool, points, sortedChosen.filter((_, k) => k !== skip), interior);
 
   const inHull = new Uint8Array(count);
   for (const i of chosen) inHull[i] = 1;
   const visibleTolerance = 1e3 * Number.EPSILON * scale;
+  let visibleFlags = new Uint8Array(64);
+  // A ridge is keyed by its five ascending vertex indices packed into one exact number (9 bits each).
+  const ridgeFacets = new Map<number, number>();
+  const ridge = new Int32Array(D - 1);
+  const created = new Int32Array(D);
   for (let p = 0; p < count; p++) {
     if (inHull[p]) continue;
-    const visible: Facet[] = [];
-    for (const facet of facets) {
-      let distance = -facet.offset;
-      for (let j = 0; j < D; j++) distance += facet.normal[j] * points[p * D + j];
-      if (distance > visibleTolerance) visible.push(facet);
+    inHull[p] = 1;
+    if (visibleFlags.length < pool.count) visibleFlags = new Uint8Array(2 * pool.count);
+    let anyVisible = false;
+    for (let k = 0; k < pool.count; k++) {
+      let distance = -pool.offsets[k];
+      for (let j = 0; j < D; j++) distance += pool.normals[k * D + j] * points[p * D + j];
+      visibleFlags[k] = distance > visibleTolerance ? 1 : 0;
+      if (visibleFlags[k]) anyVisible = true;
     }
-    if (visible.length === 0) continue;
+    if (!anyVisible) continue;
     // A ridge of a visible facet lies on the horizon when no other visible facet shares it.
-    const ridges = new Map<string, number[] | null>();
-    for (const facet of visible) {
-      facet.alive = false;
+    ridgeFacets.clear();
+    for (let k = 0; k < pool.count; k++) {
+      if (!visibleFlags[k]) continue;
       for (let skip = 0; skip < D; skip++) {
-        const ridge = facet.vertices.filter((_, k) => k !== skip);
-        const key = ridge.join(',');
-        ridges.set(key, ridges.has(key) ? null : ridge);
+        let key = 0;
+        for (let r = 0; r < D; r++) if (r !== skip) key = key * 512 + pool.vertices[k * D + r];
+        ridgeFacets.set(key, ridgeFacets.has(key) ? -1 : k * D + skip);
       }
     }
-    facets = facets.filter((f) => f.alive);
-    for (const ridge of ridges.values()) if (ridge) facets.push(makeFacet(points, [...ridge, p], interior, differences));
-    inHull[p] = 1;
+    const before = pool.count;
+    for (const slot of ridgeFacets.values()) {
+      if (slot < 0) continue;
+      const k = Math.floor(slot / D), skip = slot % D;
+      for (let r = 0, m = 0; r < D; r++) if (r !== skip) ridge[m++] = pool.vertices[k * D + r];
+      // Vertices stay ascending so that a ridge met again later gets the same key.
+      let m = 0, placed = false;
+      for (let r = 0; r < D - 1; r++) {
+        if (!placed && p < ridge[r]) { created[m++] = p; placed = true; }
+        created[m++] = ridge[r];
+      }
+      if (!placed) created[m] = p;
+      addFacet(pool, points, created, interior);
+    }
+    // Compact: drop the visible facets, keep the old survivors and the new facets in order.
+    let write = 0;
+    for (let k = 0; k < pool.count; k++) {
+      if (k < before && visibleFlags[k]) continue;
+      if (write !== k) {
+        pool.offsets[write] = pool.offsets[k];
+        for (let j = 0; j < D; j++) { pool.normals[write * D + j] = pool.normals[k * D + j]; pool.vertices[write * D + j] = pool.vertices[k * D + j]; }
+      }
+      write++;
+    }
+    pool.count = write;
   }
 
-  const normals = new Float64Array(facets.length * D);
-  const offsets = new Float64Array(facets.length);
-  facets.forEach((facet, k) => {
-    normals.set(facet.normal, k * D);
-    offsets[k] = facet.offset;
-  });
-  return { count: facets.length, normals, offsets, flatNormal: new Float64Array(D) };
+  return {
+    count: pool.count,
+    normals: pool.normals.slice(0, pool.count * D),
+    offsets: pool.offsets.slice(0, pool.count),
+    flatNormal: new Float64Array(D),
+  };
 }
