@@ -4,6 +4,7 @@
  * finished result, never in the solve loop.
  */
 import type { FingerResult, SheetResult } from '../kinematics';
+import { deriveGraspQuality } from './derivation-grasp-quality';
 import type { SheetDocument } from './types';
 
 /** One derived number. `latex` is KaTeX: symbolic formula = numbers put in = value. */
@@ -245,5 +246,6 @@ export function deriveSheet(doc: SheetDocument, result: SheetResult): Derivation
     value: g.rank,
     unit: '1',
   });
+  deriveGraspQuality(doc, result, entries);
   return entries;
 }
