@@ -53,6 +53,12 @@ export const DEFAULT_SOLVER: SolverSettings = {
 export const MAX_FRICTION = 5;
 export const MIN_CONE_EDGES = 3;
 export const MAX_CONE_EDGES = 32;
+/**
+ * Most friction-cone generators (cone edges, plus two twists per soft finger with torsional
+ * friction) over all fingers: the wrench hull's facets grow steeply with them, and 96 keep one
+ * evaluation within a few tenths of a second.
+ */
+export const MAX_CONE_GENERATORS = 96;
 export const DEFAULT_GRASP_QUALITY: GraspQualitySettings = { coneEdges: DEFAULT_CONE_EDGES, torsionalFriction: 0 };
 
 export const DEFAULT_RUN: Omit<RunSettings, 'noise'> = {
@@ -548,7 +554,20 @@ export const sheetSchema = z
     };
     if (d.variables !== undefined) doc.variables = d.variables;
     if (d.notes !== undefined) doc.notes = d.notes;
-    if (d.graspQuality !== undefined) doc.graspQuality = d.graspQuality;
+    if (d.graspQuality !== undefined) {
+      const perFinger = d.graspQuality.coneEdges + (d.solver.softFinger && d.graspQuality.torsionalFriction > 0 ? 2 : 0);
+      const generators = perFinger * d.hand.fingers.length;
+      if (generators > MAX_CONE_GENERATORS) {
+        ctx.addIssue({
+          code: 'custom',
+          message: `${d.hand.fingers.length} fingers with ${perFinger} friction-cone generators each make ${generators}; at most ${MAX_CONE_GENERATORS} are computed, so use at most ${Math.floor(MAX_CONE_GENERATORS / d.hand.fingers.length) - (perFinger - d.graspQuality.coneEdges)} cone edges`,
+          path: ['graspQuality', 'coneEdges'],
+          input: d.graspQuality.coneEdges,
+        });
+        return z.NEVER;
+      }
+      doc.graspQuality = d.graspQuality;
+    }
     if (d.sweep) {
       if (typeof resolvePointer(doc, d.sweep.path) !== 'number') {
         ctx.addIssue({

@@ -43,6 +43,10 @@ describe('grasp-quality inputs in the sheet document', () => {
     ['a zero torque length', (d: Record<string, any>) => { d.graspQuality = { torqueLength: 0 }; }, 'graspQuality.torqueLength', 'greater than 0'],
     ['a torque length of 20 m', (d: Record<string, any>) => { d.graspQuality = { torqueLength: '20 m' }; }, 'graspQuality.torqueLength', 'at most 10 m'],
     ['a torsional friction as an angle', (d: Record<string, any>) => { d.graspQuality = { torsionalFriction: '3 deg' }; }, 'graspQuality.torsionalFriction', 'length'],
+    ['32 edges on each of 4 fingers (128 generators, past 96)', (d: Record<string, any>) => {
+      d.hand.fingers.push({ ...structuredClone(d.hand.fingers[0]), name: 'fourth' });
+      d.graspQuality = { coneEdges: 32 };
+    }, 'graspQuality.coneEdges', 'use at most 24 cone edges'],
     ['an unknown field', (d: Record<string, any>) => { d.graspQuality = { edges: 8 }; }, 'graspQuality.edges', 'unknown field'],
   ])('refuses %s with a located message', (_, edit, path, message) => {
     const issues = issuesOf(rawSheet(edit));
