@@ -31,8 +31,8 @@
  * steering, residual and the difference from the full rates), and which Jacobian rank loss and
  * slip are judged on (rankBasis 'steered' when steer-and-roll is available, else 'full', with
  * rankRatio);
- * then the grasp (GraspResult: contact map, rank, undrivable object twists), from solveSheet only
- * the grasp quality under friction (GraspQuality: force closure, Ferrari-Canny Q_L1 and Q_Linf,
+ * then the grasp (GraspResult: contact map, rank, undrivable object twists), once per evaluation
+ * from computeSheetGraspQuality(doc, result) the grasp quality under friction (GraspQuality: force closure, Ferrari-Canny Q_L1 and Q_Linf,
  * the weakest external wrench and its words), and the warnings,
  * whose catalogue is WARNING_CATALOGUE. toPlainResult turns a result into JSON-ready arrays.
  *
@@ -67,7 +67,7 @@ export type { JudgedBasis, SheetWarning, WarningCode, WarningInfo, WarningSeveri
 export { computeGraspQuality, describeWrench, FORCE_CLOSURE_TOLERANCE, MAX_MINKOWSKI_POINTS } from './grasp-quality';
 export type { GraspQuality, GraspQualityInput } from './grasp-quality';
 export {
-  createResult, createScene, DEFAULT_CONE_EDGES, DEFAULT_FRICTION, setJointAngles, setObjectPose, setObjectTwist, solveScene, solveSheet, toPlainResult,
+  computeSheetGraspQuality, createResult, createScene, DEFAULT_CONE_EDGES, DEFAULT_FRICTION, setJointAngles, setObjectPose, setObjectTwist, solveScene, solveSheet, toPlainResult,
 } from './scene';
 export type { FingerResult, PlainSheetResult, Scene, SheetResult } from './scene';
 export { runScene, runSheet, SOLUTION_KINDS, toPlainRunRecord, warningsAt } from './run';

@@ -62,7 +62,7 @@ export interface SheetResult {
   object: { position: Float64Array; orientation: Float64Array; linearVelocity: Float64Array; angularVelocity: Float64Array };
   fingers: FingerResult[];
   grasp: GraspResult;
-  /** Grasp quality under friction; computed once by solveSheet, absent from solveScene's results (runs and sweeps). */
+  /** Grasp quality under friction; set once per evaluation from computeSheetGraspQuality, absent from solveScene's results (runs and sweeps). */
   graspQuality?: GraspQuality;
   /** Raised warnings, in finger order, then the grasp warning. */
   warnings: SheetWarning[];
@@ -164,9 +164,7 @@ export function solveScene(scene: Scene, out: SheetResult = createResult(scene))
 
 /** Compiles and solves a sheet in one call (world frame, SI). */
 export function solveSheet(doc: SheetDocument): SheetResult {
-  const result = solveScene(createScene(doc));
-  result.graspQuality = graspQualityOf(doc, result);
-  return result;
+  return solveScene(createScene(doc));
 }
 
 /** Friction coefficient of a finger that states none (dimensionless): rubber on cardboard, about 0.5 (common practice). */
@@ -174,8 +172,8 @@ export const DEFAULT_FRICTION = 0.5;
 /** Cone edges when the sheet states no grasp-quality settings. */
 export const DEFAULT_CONE_EDGES = 8;
 
-/** Grasp quality of the touching (or penetrating) contacts of a solved sheet (world frame, SI). */
-function graspQualityOf(doc: SheetDocument, result: SheetResult): GraspQuality {
+/** Grasp quality under friction of the touching (or penetrating) contacts of a solved sheet, once per evaluation, never per tick (world frame, SI). */
+export function computeSheetGraspQuality(doc: SheetDocument, result: SheetResult): GraspQuality {
   const points: number[] = [], normals: number[] = [], friction: number[] = [];
   result.fingers.forEach((f, i) => {
     if (f.contact.state === 'separated') return;

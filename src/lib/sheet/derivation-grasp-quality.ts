@@ -3,7 +3,7 @@
  * contact's linearised cone, force closure, Q_L1, Q_Linf and the weakest external wrench, each as
  * its formula and then the numbers put in. Built on demand from a finished result.
  */
-import { DEFAULT_FRICTION, FORCE_CLOSURE_TOLERANCE, type SheetResult } from '../kinematics';
+import { computeSheetGraspQuality, DEFAULT_FRICTION, FORCE_CLOSURE_TOLERANCE, type SheetResult } from '../kinematics';
 import { formatLatexNumber, type DerivationEntry } from './derivation';
 import type { SheetDocument } from './types';
 
@@ -11,10 +11,9 @@ function column(v: ArrayLike<number>): string {
   return `\\begin{pmatrix} ${Array.from(v, formatLatexNumber).join(' \\\\ ')} \\end{pmatrix}`;
 }
 
-/** Derivation entries of the grasp quality, when the result has one (units as listed per entry). */
+/** Derivation entries of the grasp quality, computed here when the result does not carry it yet (units as listed per entry). */
 export function deriveGraspQuality(doc: SheetDocument, result: SheetResult, entries: DerivationEntry[]): void {
-  const quality = result.graspQuality;
-  if (!quality) return;
+  const quality = result.graspQuality ?? computeSheetGraspQuality(doc, result);
   const p = result.object.position;
   const used = result.fingers.filter((f) => f.contact.state !== 'separated');
   const distances = used.map((f) => Math.hypot(f.contact.objectPoint[0] - p[0], f.contact.objectPoint[1] - p[1], f.contact.objectPoint[2] - p[2]));

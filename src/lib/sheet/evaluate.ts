@@ -4,7 +4,7 @@
  * compute worker, the sheet service, file import and export, the comparison, the report and the
  * compute command all call it, so a sheet reads and solves the same way everywhere.
  */
-import { solveSheet, toPlainResult, type PlainSheetResult, type SheetResult } from '../kinematics';
+import { computeSheetGraspQuality, solveSheet, toPlainResult, type PlainSheetResult, type SheetResult } from '../kinematics';
 import { fail, succeed, type DomainError, type Result } from '../result';
 import { deriveSheet, type DerivationEntry } from './derivation';
 import { formatIssuePath, parseSheet, type SheetIssue } from './schema';
@@ -92,6 +92,7 @@ export function evaluateSheet(input: unknown, options: EvaluateOptions = {}): Re
   const doc = parsed.doc;
   try {
     const solved = solveSheet(doc);
+    solved.graspQuality = computeSheetGraspQuality(doc, solved);
     const result = toPlainResult(solved);
     const bad = firstNonFinite(result, []);
     if (bad) {

@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { WARNING_CATALOGUE, solveSheet, toPlainResult } from '../../../src/lib/kinematics/index';
+import { WARNING_CATALOGUE, computeSheetGraspQuality, solveSheet, toPlainResult } from '../../../src/lib/kinematics/index';
 import { createSheetJsonSchema } from '../../../src/lib/sheet/json-schema';
 import { parseSheet } from '../../../src/lib/sheet/schema';
 import { createSheetFromTemplate } from '../../../src/lib/sheet/templates';
@@ -52,7 +52,10 @@ describe('product docs (content/docs)', () => {
 
   it('outputs.md explains every per-finger, grasp and object output', () => {
     const text = read('outputs.md');
-    const plain = toPlainResult(solveSheet(createSheetFromTemplate('tri-radial', { kind: 'sphere', radius: 0.03 })));
+    const doc = createSheetFromTemplate('tri-radial', { kind: 'sphere', radius: 0.03 });
+    const solved = solveSheet(doc);
+    solved.graspQuality = computeSheetGraspQuality(doc, solved);
+    const plain = toPlainResult(solved);
     const finger = plain.fingers[0];
     const names = [
       ...Object.keys(plain.object).map((k) => `object.${k}`),

@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { afterEach, describe, expect, it, vi } from 'vitest';
-import { solveSheet, toPlainResult } from '../../../src/lib/kinematics';
+import { computeSheetGraspQuality, solveSheet, toPlainResult } from '../../../src/lib/kinematics';
 import { checkDocument } from '../../../src/lib/server/sheets';
 import { exportResultsCsv, readSheetFile } from '../../../src/lib/server/sheet-files';
 import { deriveSheet } from '../../../src/lib/sheet/derivation';
@@ -40,6 +40,7 @@ describe('evaluateSheet', () => {
     const parsed = parseSheet(sheet());
     if (!parsed.ok) throw new Error('the example must read');
     const solved = solveSheet(parsed.doc);
+    solved.graspQuality = computeSheetGraspQuality(parsed.doc, solved);
     expect(evaluated.value.doc).toEqual(parsed.doc);
     expect(evaluated.value.result).toEqual(toPlainResult(solved));
     expect(evaluated.value.summary).toEqual({
