@@ -173,6 +173,7 @@ export function computeGraspQuality(input: Readonly<GraspQualityInput>): GraspQu
   const scale = union.reduce((m, w) => Math.max(m, Math.hypot(...w)), 0);
   const sum = nearestFacet(union);
   const forceClosure = sum.distance > FORCE_CLOSURE_TOLERANCE * scale;
+  // Adding 0 turns -0 into 0, so a reported wrench never shows a negative zero.
   for (let j = 0; j < D; j++) weakestWrench[j] = -sum.normal[j] + 0;
   const minkowski = minkowskiPoints(perContact);
   const maxQuality = minkowski === null ? null : forceClosure ? Math.max(0, nearestFacet(minkowski).distance) : 0;
