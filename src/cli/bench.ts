@@ -18,6 +18,7 @@ import type { SheetDocument } from '../lib/sheet/types';
 import {
   createLinalgWorkspace, createResult, createScene, dampedLeastSquares, matrixFromRows, matrixToRows, runSheet, singularValues, solveScene, sweepSheet,
 } from '../lib/kinematics/index';
+import { computeGraspQuality, DEFAULT_FRICTION } from '../lib/kinematics/index';
 
 const quick = process.argv.includes('--quick');
 const REPETITIONS = quick ? 3 : 15;
@@ -215,3 +216,19 @@ const lines = [
   'The full solve also computes steer-and-roll rates, warnings and the grasp map, which the mathjs route leaves out.',
 ];
 console.log(lines.join('\n'));
+
+// Grasp quality is computed once per evaluation (not per tick), so it is timed on its own: the
+// Ferrari-Canny hulls of the three contacts with 8 cone edges each, as each evaluation computes them.
+const graspQualityInput = {
+  origin: threeResult.object.position,
+  points: threeResult.fingers.flatMap((f) => Array.from(f.contact.objectPoint)),
+  normals: threeResult.fingers.flatMap((f) => Array.from(f.contact.normal)),
+  friction: three.hand.fingers.map(() => DEFAULT_FRICTION),
+  contactCount: three.hand.fingers.length,
+  coneEdges: 8,
+  torsionalFriction: 0,
+};
+const [graspQuality] = (await measureInRounds([
+  { label: 'grasp quality, three fingers, 8 edges', batch: quick ? 10 : 100, call: () => computeGraspQuality(graspQualityInput) },
+])) as [Measurement];
+console.log(line(graspQuality, against(graspQuality, 1)));

@@ -3,7 +3,8 @@ import { getAt } from '../../lib/sheet/document-path';
 import { createHandFromTemplate, HAND_TEMPLATES } from '../../lib/sheet/templates';
 import type { SheetDocument } from '../../lib/sheet/types';
 import { useSheetEditing } from './editor-context';
-import { Choice, DirectionVector, Quantity, QuantityVector, TextField } from './fields';
+import { Choice, DirectionVector, PlainNumber, Quantity, QuantityVector, TextField } from './fields';
+import { GraspQualityFields } from './GraspQualityFields';
 import { button, selectInput } from './sheet-styles';
 
 const ROLES = ['base', 'pivot', 'roll', 'other'] as const;
@@ -122,8 +123,9 @@ export default function HandSection({ parsed }: { parsed: SheetDocument | null }
             </span>
           </summary>
           <div className="space-y-2 px-3 pb-3">
-            <div className="w-64">
+            <div className="grid w-96 grid-cols-[2fr_1fr] gap-3">
               <TextField path={['hand', 'fingers', i, 'name']} label="finger" />
+              <PlainNumber path={['hand', 'fingers', i, 'friction']} label="friction μ (empty = 0.5)" />
             </div>
             <RollerFields finger={i} />
             {(Array.isArray(finger.joints) ? finger.joints : []).map((_, j) => (
@@ -132,6 +134,7 @@ export default function HandSection({ parsed }: { parsed: SheetDocument | null }
           </div>
         </details>
       ))}
+      <GraspQualityFields />
     </div>
   );
 }

@@ -140,6 +140,10 @@ function ResultsSection({ result, stale }: { result: PlainSheetResult | null; st
             <OutputRow id="grasp.contacts" result={result} />
             <OutputRow id="grasp.rank" result={result} test />
             <OutputRow id="grasp.undrivable" result={result} />
+            <OutputRow id="grasp.forceClosure" result={result} test />
+            <OutputRow id="grasp.sumQuality" result={result} test />
+            <OutputRow id="grasp.maxQuality" result={result} />
+            <OutputRow id="grasp.weakest" result={result} />
           </tbody>
         </table>
         <p className="mt-1 text-xs text-graphite">

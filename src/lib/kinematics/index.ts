@@ -31,7 +31,9 @@
  * steering, residual and the difference from the full rates), and which Jacobian rank loss and
  * slip are judged on (rankBasis 'steered' when steer-and-roll is available, else 'full', with
  * rankRatio);
- * then the grasp (GraspResult: contact map, rank, undrivable object twists) and the warnings,
+ * then the grasp (GraspResult: contact map, rank, undrivable object twists), once per evaluation
+ * from computeSheetGraspQuality(doc, result) the grasp quality under friction (GraspQuality: force closure, Ferrari-Canny Q_L1 and Q_Linf,
+ * the weakest external wrench and its words), and the warnings,
  * whose catalogue is WARNING_CATALOGUE. toPlainResult turns a result into JSON-ready arrays.
  * solveAccelerations(result, doc.object.acceleration, doc.solver) adds each finger's acceleration
  * feed-forward (FingerAcceleration: object point acceleration, J_dot q_dot, joint accelerations)
@@ -69,8 +71,10 @@ export type { SteerAndRoll } from './steer-and-roll';
 export type { GraspResult } from './grasp';
 export { SEVERITY_LEVELS, WARNING_CATALOGUE, WARNING_CODES } from './warnings';
 export type { JudgedBasis, SheetWarning, WarningCode, WarningInfo, WarningSeverity } from './warnings';
+export { computeGraspQuality, describeWrench, FORCE_CLOSURE_TOLERANCE, MAX_MINKOWSKI_POINTS } from './grasp-quality';
+export type { GraspQuality, GraspQualityInput } from './grasp-quality';
 export {
-  createResult, createScene, setJointAngles, setObjectPose, setObjectTwist, solveScene, solveSheet, toPlainResult,
+  computeSheetGraspQuality, createResult, createScene, DEFAULT_CONE_EDGES, DEFAULT_FRICTION, setJointAngles, setObjectPose, setObjectTwist, solveScene, solveSheet, toPlainResult,
 } from './scene';
 export type { FingerResult, PlainSheetResult, Scene, SheetResult } from './scene';
 export { createFingerAcceleration, jacobianRateTimesRates, objectPointAcceleration, solveAccelerations, solveFingerAcceleration } from './acceleration';

@@ -8,6 +8,7 @@ import type { FingerAcceleration } from './acceleration';
 import { computeContact, createContact, createContactWorkspace, createObject, updateObjectRotation, type Contact, type ContactWorkspace, type RigidObject } from './contact';
 import type { ContactCurvature } from './curvature';
 import { computeGrasp, createGraspResult, createGraspWorkspace, type GraspResult, type GraspWorkspace } from './grasp';
+import { computeGraspQuality, type GraspQuality } from './grasp-quality';
 import { createFinger, forwardKinematics, type Finger } from './hand';
 import { conditionFull, createFullSolution, createFullSolveWorkspace, solveFull, solveFullRates, type FullSolution } from './full-solution';
 import { matrixToRows, numericalRank, type LinalgWorkspace, type Matrix } from './linalg';
@@ -67,6 +68,8 @@ export interface SheetResult {
   object: { position: Float64Array; orientation: Float64Array; linearVelocity: Float64Array; angularVelocity: Float64Array };
   fingers: FingerResult[];
   grasp: GraspResult;
+  /** Grasp quality under friction; set once per evaluation from computeSheetGraspQuality, absent from solveScene's results (runs and sweeps). */
+  graspQuality?: GraspQuality;
   /** Raised warnings, in finger order, then the grasp warning. */
   warnings: SheetWarning[];
   worstSeverity: WarningSeverity | 'none';
@@ -182,6 +185,33 @@ export function solveScene(scene: Scene, out: SheetResult = createResult(scene),
 /** Compiles and solves a sheet in one call (world frame, SI). */
 export function solveSheet(doc: SheetDocument): SheetResult {
   return solveScene(createScene(doc));
+}
+
+/** Friction coefficient of a finger that states none (dimensionless): rubber on cardboard, about 0.5 (common practice). */
+export const DEFAULT_FRICTION = 0.5;
+/** Cone edges when the sheet states no grasp-quality settings. */
+export const DEFAULT_CONE_EDGES = 8;
+
+/** Grasp quality under friction of the touching (or penetrating) contacts of a solved sheet, once per evaluation, never per tick (world frame, SI). */
+export function computeSheetGraspQuality(doc: SheetDocument, result: SheetResult): GraspQuality {
+  const points: number[] = [], normals: number[] = [], friction: number[] = [];
+  result.fingers.forEach((f, i) => {
+    if (f.contact.state === 'separated') return;
+    points.push(...f.contact.objectPoint);
+    normals.push(...f.contact.normal);
+    friction.push(doc.hand.fingers[i].friction ?? DEFAULT_FRICTION);
+  });
+  const settings = doc.graspQuality;
+  return computeGraspQuality({
+    origin: result.object.position,
+    points,
+    normals,
+    friction,
+    contactCount: friction.length,
+    coneEdges: settings?.coneEdges ?? DEFAULT_CONE_EDGES,
+    torsionalFriction: doc.solver.softFinger ? (settings?.torsionalFriction ?? 0) : 0,
+    torqueLength: settings?.torqueLength,
+  });
 }
 
 /** Sets the object pose: origin (m) and orientation quaternion [x, y, z, w] (world frame). */

@@ -6,6 +6,7 @@
 import type { FingerResult, SheetResult } from '../kinematics';
 import { accelerationEntries } from './derivation-acceleration';
 import { curvatureEntries } from './derivation-curvature';
+import { deriveGraspQuality } from './derivation-grasp-quality';
 import type { SheetDocument } from './types';
 
 /** One derived number. `latex` is KaTeX: symbolic formula = numbers put in = value. */
@@ -273,5 +274,6 @@ export function deriveSheet(doc: SheetDocument, result: SheetResult): Derivation
     value: g.rank,
     unit: '1',
   });
+  deriveGraspQuality(doc, result, entries);
   return entries;
 }

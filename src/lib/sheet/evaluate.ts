@@ -4,7 +4,7 @@
  * compute worker, the sheet service, file import and export, the comparison, the report and the
  * compute command all call it, so a sheet reads and solves the same way everywhere.
  */
-import { sheetCurvature, solveAccelerations, solveSheet, toPlainResult, type PlainSheetResult, type SheetResult } from '../kinematics';
+import { computeSheetGraspQuality, sheetCurvature, solveAccelerations, solveSheet, toPlainResult, type PlainSheetResult, type SheetResult } from '../kinematics';
 import { fail, succeed, type DomainError, type Result } from '../result';
 import { deriveSheet, type DerivationEntry } from './derivation';
 import { formatIssuePath, parseSheet, type SheetIssue } from './schema';
@@ -106,6 +106,7 @@ export function evaluateSheet(input: unknown, options: EvaluateOptions = {}): Re
   const doc = parsed.doc;
   try {
     const solved = solveAccelerations(solveSheet(doc), doc.object.acceleration, doc.solver);
+    solved.graspQuality = computeSheetGraspQuality(doc, solved);
     const result = toPlainResult(solved);
     sheetCurvature(doc, solved).forEach((curvature, i) => { result.fingers[i].curvature = curvature; });
     const bad = firstNonFinite(result, result, []);

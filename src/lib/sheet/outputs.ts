@@ -275,6 +275,23 @@ export const OUTPUTS: readonly OutputDefinition[] = [
     id: 'grasp.undrivable', label: 'undrivable object directions', tableLabel: 'undrivable directions', unit: '', display: unitless(), frame: null,
     scope: 'grasp', parts: 'single', compared: true, read: (r) => r.grasp.undrivableCount,
   },
+  {
+    id: 'grasp.forceClosure', label: 'force closure (with friction)', tableLabel: 'force closure', unit: '', display: unitless(), frame: null,
+    scope: 'grasp', parts: 'single', compared: true, read: (r) => (r.graspQuality ? (r.graspQuality.forceClosure ? 'yes' : 'no') : '—'),
+  },
+  {
+    id: 'grasp.sumQuality', label: 'grasp quality Q_L1 (Ferrari-Canny, sum of normal forces)', tableLabel: 'quality Q_L1', unit: '', display: unitless(3),
+    frame: null, scope: 'grasp', parts: 'single', compared: true, read: (r) => r.graspQuality?.sumQuality ?? Number.NaN,
+  },
+  {
+    id: 'grasp.maxQuality', label: 'grasp quality Q_Linf (Ferrari-Canny, largest normal force)', tableLabel: 'quality Q_Linf', unit: '',
+    display: unitless(3), frame: null, scope: 'grasp', parts: 'single', compared: true,
+    read: (r) => (r.graspQuality ? (r.graspQuality.maxQuality ?? 'not computed: too many contact wrench combinations') : Number.NaN),
+  },
+  {
+    id: 'grasp.weakest', label: 'weakest external wrench', tableLabel: 'weakest direction', unit: '', display: unitless(), frame: null, scope: 'grasp',
+    parts: 'single', compared: true, read: (r) => r.graspQuality?.weakestWords ?? '—',
+  },
 ];
 
 const BY_ID = new Map(OUTPUTS.map((output) => [output.id, output]));

@@ -2,9 +2,11 @@
  * The sheet document format, version 1: a zod schema whose parsed output is exactly
  * `SheetDocument` (every quantity in SI, every unit quaternion checked, defaults filled in).
  */
+import { DEFAULT_CONE_EDGES, DEFAULT_FRICTION } from '../kinematics';
 import { z } from '../validation/zod';
 import type {
   FingerInput,
+  GraspQualitySettings,
   JointInput,
   ObjectAcceleration,
   ObjectShape,
@@ -47,6 +49,18 @@ export const DEFAULT_SOLVER: SolverSettings = {
   contactTolerance: 2e-4,
   softFinger: false,
 };
+
+/** Largest friction coefficient accepted: past 5 a contact holds by adhesion, not Coulomb friction. */
+export const MAX_FRICTION = 5;
+export const MIN_CONE_EDGES = 3;
+export const MAX_CONE_EDGES = 32;
+/**
+ * Most friction-cone generators (cone edges, plus two twists per soft finger with torsional
+ * friction) over all fingers: the wrench hull's facets grow steeply with them, and 96 keep one
+ * evaluation within a few tenths of a second.
+ */
+export const MAX_CONE_GENERATORS = 96;
+export const DEFAULT_GRASP_QUALITY: GraspQualitySettings = { coneEdges: DEFAULT_CONE_EDGES, torsionalFriction: 0 };
 
 export const DEFAULT_RUN: Omit<RunSettings, 'noise'> = {
   gain: 2,
@@ -423,8 +437,20 @@ const fingerSchema = z
       .max(MAX_JOINTS_PER_FINGER, { error: `a finger has at most ${MAX_JOINTS_PER_FINGER} joints` })
       .check(uniqueNames('joint')),
     roller: rollerSchema,
+    friction: named(
+      z
+        .number({ error: expect('expected a friction coefficient (a number, no unit)') })
+        .gte(0, { error: 'must not be negative' })
+        .lte(MAX_FRICTION, { error: `must be at most ${MAX_FRICTION}` })
+        .optional(),
+      undefined,
+      `Coulomb friction coefficient at this finger's contact, 0 to ${MAX_FRICTION}; ${DEFAULT_FRICTION} when absent`,
+    ),
   })
-  .transform((f): FingerInput => f);
+  .transform((f): FingerInput => {
+    const { friction, ...finger } = f;
+    return friction === undefined ? finger : { ...finger, friction };
+  });
 
 named(fingerSchema, 'Finger', 'Serial chain of revolute joints from the palm to the roller');
 
@@ -455,6 +481,23 @@ const solverSchema = z
   .transform((s): SolverSettings => s);
 
 named(solverSchema, 'SolverSettings', 'Thresholds and options of the contact solve; every field has a default');
+
+const graspQualitySchema = z
+  .strictObject({
+    coneEdges: z
+      .int({ error: expect('expected a whole number of cone edges') })
+      .min(MIN_CONE_EDGES, { error: `at least ${MIN_CONE_EDGES} cone edges` })
+      .max(MAX_CONE_EDGES, { error: `at most ${MAX_CONE_EDGES} cone edges` })
+      .default(DEFAULT_GRASP_QUALITY.coneEdges),
+    torsionalFriction: nonNegativeLength.default(DEFAULT_GRASP_QUALITY.torsionalFriction),
+    torqueLength: positiveLength.optional(),
+  })
+  .transform((g): GraspQualitySettings => {
+    const { torqueLength, ...rest } = g;
+    return torqueLength === undefined ? rest : { ...rest, torqueLength };
+  });
+
+named(graspQualitySchema, 'GraspQualitySettings', 'Friction-cone edges, soft-finger torsional friction and the torque length of the grasp quality; every field has a default');
 
 const noiseSchema = z.strictObject({
   seed: z.int({ error: expect('expected an integer seed') }),
@@ -535,6 +578,7 @@ export const sheetSchema = z
     motion: z.strictObject({ target: poseSchema, run: runSchema.prefault({}) }),
     sweep: sweepSchema.optional(),
     solver: solverSchema.prefault({}),
+    graspQuality: graspQualitySchema.optional(),
   })
   .transform((d, ctx): SheetDocument => {
     const doc: SheetDocument = {
@@ -550,6 +594,20 @@ export const sheetSchema = z
     };
     if (d.variables !== undefined) doc.variables = d.variables;
     if (d.notes !== undefined) doc.notes = d.notes;
+    if (d.graspQuality !== undefined) {
+      const perFinger = d.graspQuality.coneEdges + (d.solver.softFinger && d.graspQuality.torsionalFriction > 0 ? 2 : 0);
+      const generators = perFinger * d.hand.fingers.length;
+      if (generators > MAX_CONE_GENERATORS) {
+        ctx.addIssue({
+          code: 'custom',
+          message: `${d.hand.fingers.length} fingers with ${perFinger} friction-cone generators each make ${generators}; at most ${MAX_CONE_GENERATORS} are computed, so use at most ${Math.floor(MAX_CONE_GENERATORS / d.hand.fingers.length) - (perFinger - d.graspQuality.coneEdges)} cone edges`,
+          path: ['graspQuality', 'coneEdges'],
+          input: d.graspQuality.coneEdges,
+        });
+        return z.NEVER;
+      }
+      doc.graspQuality = d.graspQuality;
+    }
     if (d.sweep) {
       if (typeof resolvePointer(doc, d.sweep.path) !== 'number') {
         ctx.addIssue({

@@ -67,6 +67,18 @@ export interface FingerInput {
   name: string;
   joints: JointInput[];
   roller: RollerInput;
+  /** Coulomb friction coefficient at this finger's contact (dimensionless); absent = DEFAULT_FRICTION. */
+  friction?: number;
+}
+
+/** How the grasp quality under friction is computed; absent = every default. */
+export interface GraspQualitySettings {
+  /** Edges of each linearised friction cone (3 to 32). */
+  coneEdges: number;
+  /** Torsional friction gamma of a soft finger (solver.softFinger), m: the twist about the normal per unit normal force. */
+  torsionalFriction: number;
+  /** Characteristic length L dividing torques, m; absent = the largest contact distance from the object origin. */
+  torqueLength?: number;
 }
 
 export interface SolverSettings {
@@ -117,6 +129,7 @@ export interface SheetDocument {
   motion: { target: Pose; run: RunSettings };
   sweep?: SweepSettings;
   solver: SolverSettings;
+  graspQuality?: GraspQualitySettings;
   /** Source text of the sheet's named quantities ("rollerRadius = 14 mm" per line); already applied to every field. */
   variables?: string;
   /** Notes in Markdown with $math$. */

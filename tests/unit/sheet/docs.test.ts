@@ -1,13 +1,13 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { WARNING_CATALOGUE, solveSheet, toPlainResult } from '../../../src/lib/kinematics/index';
+import { WARNING_CATALOGUE, computeSheetGraspQuality, solveSheet, toPlainResult } from '../../../src/lib/kinematics/index';
 import { createSheetJsonSchema } from '../../../src/lib/sheet/json-schema';
 import { parseSheet } from '../../../src/lib/sheet/schema';
 import { createSheetFromTemplate } from '../../../src/lib/sheet/templates';
 
 const docsDir = new URL('../../../content/docs/', import.meta.url);
 const read = (name: string) => readFileSync(new URL(name, docsDir), 'utf8');
-const pages = ['sheet-format.md', 'outputs.md', 'warnings.md'];
+const pages = ['sheet-format.md', 'outputs.md', 'warnings.md', 'grasp-quality.md'];
 
 /** Every property name anywhere in a JSON Schema. */
 function propertyNames(schema: unknown, out = new Set<string>()): Set<string> {
@@ -52,13 +52,17 @@ describe('product docs (content/docs)', () => {
 
   it('outputs.md explains every per-finger, grasp and object output', () => {
     const text = read('outputs.md');
-    const plain = toPlainResult(solveSheet(createSheetFromTemplate('tri-radial', { kind: 'sphere', radius: 0.03 })));
+    const doc = createSheetFromTemplate('tri-radial', { kind: 'sphere', radius: 0.03 });
+    const solved = solveSheet(doc);
+    solved.graspQuality = computeSheetGraspQuality(doc, solved);
+    const plain = toPlainResult(solved);
     const finger = plain.fingers[0];
     const names = [
       ...Object.keys(plain.object).map((k) => `object.${k}`),
       ...Object.keys(finger).filter((k) => !['contact', 'full', 'steer'].includes(k)),
       ...(['contact', 'full', 'steer'] as const).flatMap((part) => Object.keys(finger[part]).map((k) => `${part}.${k}`)),
       ...Object.keys(plain.grasp).map((k) => `grasp.${k}`),
+      ...Object.keys(plain.graspQuality ?? {}).map((k) => `graspQuality.${k}`),
       'warnings',
       'worstSeverity',
     ];

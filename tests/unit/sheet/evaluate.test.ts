@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { afterEach, describe, expect, it, vi } from 'vitest';
-import { sheetCurvature, solveAccelerations, solveSheet, toPlainResult } from '../../../src/lib/kinematics';
+import { computeSheetGraspQuality, sheetCurvature, solveAccelerations, solveSheet, toPlainResult } from '../../../src/lib/kinematics';
 import { checkDocument } from '../../../src/lib/server/sheets';
 import { exportResultsCsv, readSheetFile } from '../../../src/lib/server/sheet-files';
 import { deriveSheet } from '../../../src/lib/sheet/derivation';
@@ -40,6 +40,7 @@ describe('evaluateSheet', () => {
     const parsed = parseSheet(sheet());
     if (!parsed.ok) throw new Error('the example must read');
     const solved = solveAccelerations(solveSheet(parsed.doc), parsed.doc.object.acceleration, parsed.doc.solver);
+    solved.graspQuality = computeSheetGraspQuality(parsed.doc, solved);
     expect(evaluated.value.doc).toEqual(parsed.doc);
     const plain = toPlainResult(solved);
     sheetCurvature(parsed.doc, solved).forEach((curvature, i) => { plain.fingers[i].curvature = curvature; });
@@ -57,7 +58,9 @@ describe('evaluateSheet', () => {
     if (!evaluated.ok) throw new Error(evaluated.error.message);
     const parsed = parseSheet(sheet());
     if (!parsed.ok) throw new Error('the example must read');
-    expect(evaluated.value.derivation).toEqual(deriveSheet(parsed.doc, solveAccelerations(solveSheet(parsed.doc), parsed.doc.object.acceleration, parsed.doc.solver)));
+    const solved = solveAccelerations(solveSheet(parsed.doc), parsed.doc.object.acceleration, parsed.doc.solver);
+    solved.graspQuality = computeSheetGraspQuality(parsed.doc, solved);
+    expect(evaluated.value.derivation).toEqual(deriveSheet(parsed.doc, solved));
   });
 
   it('answers every located issue of a document that does not read, at the document stage', () => {

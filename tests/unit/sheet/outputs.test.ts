@@ -75,6 +75,13 @@ describe('the surfaces that read the catalogue', () => {
     expect(listOutputs(result).filter((row) => row.group === 'grasp')).toEqual([
       { group: 'grasp', quantity: 'grasp map rank', unit: '', value: result.grasp.rank },
       { group: 'grasp', quantity: 'undrivable object directions', unit: '', value: result.grasp.undrivableCount },
+      { group: 'grasp', quantity: 'force closure (with friction)', unit: '', value: result.graspQuality!.forceClosure ? 'yes' : 'no' },
+      { group: 'grasp', quantity: 'grasp quality Q_L1 (Ferrari-Canny, sum of normal forces)', unit: '', value: result.graspQuality!.sumQuality },
+      {
+        group: 'grasp', quantity: 'grasp quality Q_Linf (Ferrari-Canny, largest normal force)', unit: '',
+        value: result.graspQuality!.maxQuality ?? 'not computed: too many contact wrench combinations',
+      },
+      { group: 'grasp', quantity: 'weakest external wrench', unit: '', value: result.graspQuality!.weakestWords },
     ]);
     expect(compareOutputs(result, result).map((row) => [row.group, row.quantity, row.unit])).toEqual(
       listOutputs(result).map((row) => [row.group, row.quantity, row.unit]),
@@ -89,7 +96,9 @@ describe('the surfaces that read the catalogue', () => {
       'steer: roll rate', 'steer − full, |Δ rates|', 'condition before / after steering', 'full: slip residual',
       'object acceleration a(x)', 'of which centripetal', 'J̇ q̇', 'acceleration residual', 'object', 'roller', 'relative',
     ];
-    expect(labels).toEqual([...result.fingers.flatMap(() => perContact), 'contacts', 'rank of the contact map', 'undrivable directions']);
+    expect(labels).toEqual([...result.fingers.flatMap(() => perContact), 'contacts', 'rank of the contact map', 'undrivable directions',
+      'force closure', 'quality Q_L1', 'quality Q_Linf', 'weakest direction',
+    ]);
     expect(html).toContain('<th class="py-1 text-right font-normal">angle, deg</th><th class="py-1 text-right font-normal">full</th>');
     expect(html).toContain(`data-result="0.contact.gap">${displayValue(findOutput('contact.gap'), first.contact.gap)}</td><td class="py-0.5 text-xs text-graphite">mm</td>`);
     expect(html).toContain(`data-result="0.full.rates.0">${displayValue(findOutput('full.rates'), first.full.rates[0])}</td>`);
