@@ -39,10 +39,12 @@ describe('evaluateSheet', () => {
     if (!evaluated.ok) throw new Error(evaluated.error.message);
     const parsed = parseSheet(sheet());
     if (!parsed.ok) throw new Error('the example must read');
-    const solved = solveAccelerations(solveSheet(parsed.doc), parsed.doc.object.acceleration, parsed.doc.solver);
+    const unaccelerated = solveSheet(parsed.doc);
+    const curvatures = sheetCurvature(parsed.doc, unaccelerated);
+    const solved = solveAccelerations(unaccelerated, parsed.doc.object.acceleration, parsed.doc.solver, curvatures);
     expect(evaluated.value.doc).toEqual(parsed.doc);
     const plain = toPlainResult(solved);
-    sheetCurvature(parsed.doc, solved).forEach((curvature, i) => { plain.fingers[i].curvature = curvature; });
+    curvatures.forEach((curvature, i) => { plain.fingers[i].curvature = curvature; });
     expect(evaluated.value.result).toEqual(plain);
     expect(evaluated.value.summary).toEqual({
       fingers: parsed.doc.hand.fingers.length,
@@ -57,7 +59,8 @@ describe('evaluateSheet', () => {
     if (!evaluated.ok) throw new Error(evaluated.error.message);
     const parsed = parseSheet(sheet());
     if (!parsed.ok) throw new Error('the example must read');
-    expect(evaluated.value.derivation).toEqual(deriveSheet(parsed.doc, solveAccelerations(solveSheet(parsed.doc), parsed.doc.object.acceleration, parsed.doc.solver)));
+    const solved = solveSheet(parsed.doc);
+    expect(evaluated.value.derivation).toEqual(deriveSheet(parsed.doc, solveAccelerations(solved, parsed.doc.object.acceleration, parsed.doc.solver, sheetCurvature(parsed.doc, solved))));
   });
 
   it('answers every located issue of a document that does not read, at the document stage', () => {
