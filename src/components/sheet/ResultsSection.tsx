@@ -106,11 +106,15 @@ function ResultsSection({ result, stale }: { result: PlainSheetResult | null; st
             </table>
             {f.acceleration && (
               <table className="mt-3 w-full text-sm" data-acceleration={i}>
-                <caption className="text-left text-[11px] uppercase tracking-wide text-graphite">acceleration feed-forward (full solution, rolling term neglected)</caption>
+                <caption className="text-left text-[11px] uppercase tracking-wide text-graphite">
+                  acceleration feed-forward (full solution, {f.acceleration.model === 'rolling-contact' ? 'rolling contact' : 'material points: the contact point\'s motion is not defined, rolling term left out'})
+                </caption>
                 <tbody>
+                  <OutputRow id="acceleration.model" result={result} finger={i} test />
                   <OutputRow id="acceleration.objectPoint" result={result} finger={i} test />
                   <OutputRow id="acceleration.centripetal" result={result} finger={i} />
                   <OutputRow id="acceleration.jacobianRate" result={result} finger={i} />
+                  <OutputRow id="acceleration.rollingTerm" result={result} finger={i} />
                   <OutputRow id="acceleration.residual" result={result} finger={i} />
                 </tbody>
               </table>
