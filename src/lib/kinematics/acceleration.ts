@@ -12,8 +12,8 @@
  * edge, no touch) the two material points' accelerations are matched and the model says so.
  */
 import type { ObjectAcceleration, SolverSettings } from '../sheet/types';
-import { createLinalgWorkspace, dampedLeastSquares, type LinalgWorkspace } from './linalg';
 import { applyShapeOperator, type ContactCurvature } from './curvature';
+import { createLinalgWorkspace, dampedLeastSquares, type LinalgWorkspace } from './linalg';
 import type { FingerResult, SheetResult } from './scene';
 import { cross } from './vec3';
 
