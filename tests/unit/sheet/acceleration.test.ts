@@ -123,7 +123,7 @@ describe('the contact model of the feed-forward', () => {
     const output = findOutput('acceleration.model');
     expect(displayValue(output, output.read(line.value.result, 0))).toBe('material-points');
     const html = renderToStaticMarkup(createElement(ResultsSection, { result: line.value.result, stale: false }));
-    expect(html).toContain('material points: the contact point&#x27;s motion is not defined, rolling term left out');
+    expect(html).toContain('material points, rolling term left out: a line contact, the contact point is not determined along it');
   });
 });
 
