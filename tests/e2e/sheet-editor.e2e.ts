@@ -110,6 +110,10 @@ describe('sheet editor', () => {
     // a(x) = a_o + alpha x r + omega x (omega x r): the origin's acceleration adds one to one (Craig, ch. 6).
     expect(x(after) - x(before)).toBeCloseTo(1, 3);
     await saveSection(page, '[data-acceleration="0"]', 'sheet-editor-acceleration');
+    // The table names the contact model the feed-forward used, in its caption and its first row.
+    const model = await cell(page, '0.acceleration.model').innerText();
+    const caption = (await page.locator('[data-acceleration="0"] caption').innerText()).toLowerCase();
+    expect(caption).toContain(model === 'rolling-contact' ? 'rolling contact' : 'material points');
     await linear.locator('input').fill('');
     await changedText(page, key, after);
     await expect(cell(page, key).innerText()).resolves.toBe(before);

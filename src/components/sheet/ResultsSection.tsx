@@ -1,5 +1,5 @@
 import { memo } from 'react';
-import type { PlainSheetResult } from '../../lib/kinematics';
+import type { ContactWander, PlainSheetResult } from '../../lib/kinematics';
 import { displayNumber, displayValue, findOutput, formatShownNumber, type OutputDefinition } from '../../lib/sheet/outputs';
 import { CurvatureTable } from './CurvatureTable';
 import { SafetyCaution } from './SafetyCaution';
@@ -27,6 +27,14 @@ function OutputRow({ id, result, finger = -1, test = false }: { id: string; resu
     />
   );
 }
+
+/** Why the feed-forward falls back to the material points, by the contact's wander status ('defined' only without a curvature). */
+const MATERIAL_POINTS_REASON: Record<ContactWander['status'], string> = {
+  singular: 'a line contact, the contact point is not determined along it',
+  undefined: 'a sharp edge, no curvature there',
+  'not-touching': 'the roller does not touch the object',
+  defined: 'no contact curvature',
+};
 
 const JOINT_COLUMNS = ['jointAngles', 'full.rates', 'steer.rates', 'steer.rateDifference', 'acceleration.jointAccelerations'].map(findOutput);
 
@@ -106,11 +114,15 @@ function ResultsSection({ result, stale }: { result: PlainSheetResult | null; st
             </table>
             {f.acceleration && (
               <table className="mt-3 w-full text-sm" data-acceleration={i}>
-                <caption className="text-left text-[11px] uppercase tracking-wide text-graphite">acceleration feed-forward (full solution, rolling term neglected)</caption>
+                <caption className="text-left text-[11px] uppercase tracking-wide text-graphite">
+                  acceleration feed-forward (full solution, {f.acceleration.model === 'rolling-contact' ? 'rolling contact' : `material points, rolling term left out: ${MATERIAL_POINTS_REASON[f.curvature?.wander.status ?? 'defined']}`})
+                </caption>
                 <tbody>
+                  <OutputRow id="acceleration.model" result={result} finger={i} test />
                   <OutputRow id="acceleration.objectPoint" result={result} finger={i} test />
                   <OutputRow id="acceleration.centripetal" result={result} finger={i} />
                   <OutputRow id="acceleration.jacobianRate" result={result} finger={i} />
+                  <OutputRow id="acceleration.rollingTerm" result={result} finger={i} />
                   <OutputRow id="acceleration.residual" result={result} finger={i} />
                 </tbody>
               </table>

@@ -1,19 +1,33 @@
 /**
- * Acceleration feed-forward at one contact (world frame, SI). The roller's material point at y
- * must accelerate with the object's material point at x: with r = x - p,
- * a_x = a_o + alpha x r + omega x (omega x r) (rigid-body acceleration, Craig 2005, ch. 6), and
- * differentiating J(q) q_dot = v_x gives J q_ddot + J_dot q_dot = a_x (Siciliano et al. 2009,
- * sec. 3.1), solved for q_ddot with the damping of the velocity solve. Neglected: the rolling term
- * (omega_o - omega_f) x u of sustained rolling, where u is the speed of the contact over the
- * surfaces, and for a soft finger n_dot . (omega_f - omega_o).
+ * Acceleration feed-forward at one contact (world frame, SI). The velocity solve makes the roller's
+ * material point at y move with the object's material point at x, J(q) q_dot = v_o(x), at every
+ * instant, for the contact points of that instant. Differentiating it along the contact as it moves
+ * over both surfaces (u_o = c_dot - v_o(x) over the object, u_f = c_dot - v_f(y) over the roller,
+ * from Montana's contact equations in curvature.ts) gives, with r = x - p,
+ * J q_ddot + J_dot q_dot = a_x + omega_o x u_o - omega_f x u_f, a_x = a_o + alpha x r + omega x (omega x r)
+ * (rigid-body acceleration, Craig 2005, ch. 6; J_dot q_dot, Siciliano et al. 2009, sec. 3.1): the
+ * rate of a rigid body's velocity field at a moving point is its acceleration there plus omega times
+ * the point's velocity relative to the body. Without slip u_o = u_f = u and the rolling term is
+ * (omega_o - omega_f) x u. Where the contact point's motion is not defined (a line contact, a sharp
+ * edge, no touch) the two material points' accelerations are matched and the model says so.
  */
 import type { ObjectAcceleration, SolverSettings } from '../sheet/types';
+import { applyShapeOperator, type ContactCurvature } from './curvature';
 import { createLinalgWorkspace, dampedLeastSquares, type LinalgWorkspace } from './linalg';
 import type { FingerResult, SheetResult } from './scene';
 import { cross } from './vec3';
 
+/**
+ * How the roller is made to follow the object: 'rolling-contact' matches the contact as it moves over
+ * both surfaces (exact for sustained rolling); 'material-points' matches the accelerations of the two
+ * points touching at this instant, used where the contact point's motion is not defined.
+ */
+export type AccelerationModel = 'rolling-contact' | 'material-points';
+
 /** Acceleration feed-forward of one finger from its full-solution joint rates (world frame, SI). */
 export interface FingerAcceleration {
+  /** The contact model the joint accelerations follow. */
+  model: AccelerationModel;
   /** Acceleration of the object's material point at x, a_o + alpha x r + omega x (omega x r), m/s^2. */
   objectPoint: Float64Array;
   /** Its centripetal part omega x (omega x r), m/s^2. */
@@ -22,15 +36,19 @@ export interface FingerAcceleration {
   jacobianRate: Float64Array;
   /** Angular acceleration of the last link at no joint acceleration, sum_k omega_k_dot q_dot_k, rad/s^2. */
   linkAngularRate: Float64Array;
+  /** omega_o x u_o - omega_f x u_f: the rolling term, m/s^2; zero for the material-point model. */
+  rollingTerm: Float64Array;
+  /** n_dot . (omega_o - omega_f), rad/s^2: the turn of the normal in the soft-finger row; zero without that row or for the material-point model. */
+  spinRollingTerm: number;
   /** Rows solved: 3, or 4 with the soft-finger row. */
   rows: number;
-  /** Right-hand side a_x - J_dot q_dot (m/s^2), then for a soft finger n . (alpha - sum_k omega_k_dot q_dot_k) (rad/s^2). */
+  /** Right-hand side a_x + rolling term - J_dot q_dot (m/s^2), then for a soft finger n . (alpha - sum_k omega_k_dot q_dot_k) + n_dot . (omega_o - omega_f) (rad/s^2). */
   target: Float64Array;
   /** Joint accelerations q_ddot, rad/s^2, in the joint order of the sheet. */
   jointAccelerations: Float64Array;
   /** J q_ddot + J_dot q_dot: the roller material point's acceleration, m/s^2. */
   achieved: Float64Array;
-  /** Norm of a_x - achieved, m/s^2: the acceleration the joints cannot follow. */
+  /** Norm of a_x + rolling term - achieved, m/s^2: the acceleration the joints cannot follow. */
   residualNorm: number;
 }
 
@@ -91,13 +109,28 @@ export function jacobianRateTimesRates(
   return out;
 }
 
+/** Rolling term omega_o x u_o - omega_f x u_f (world frame, m/s^2) from the object's and last link's angular velocities (rad/s) and the contact point's velocities over the object and over the roller (m/s). */
+export function rollingTerm(
+  objectAngularVelocity: ArrayLike<number>, linkAngularVelocity: ArrayLike<number>, overObject: ArrayLike<number>, overRoller: ArrayLike<number>,
+  out: Float64Array = new Float64Array(3),
+): Float64Array {
+  const o = objectAngularVelocity, f = linkAngularVelocity, uo = overObject, uf = overRoller;
+  out[0] = o[1] * uo[2] - o[2] * uo[1] - (f[1] * uf[2] - f[2] * uf[1]);
+  out[1] = o[2] * uo[0] - o[0] * uo[2] - (f[2] * uf[0] - f[0] * uf[2]);
+  out[2] = o[0] * uo[1] - o[1] * uo[0] - (f[0] * uf[1] - f[1] * uf[0]);
+  return out;
+}
+
 /** New, zeroed acceleration feed-forward for a finger of n joints. */
 export function createFingerAcceleration(jointCount: number): FingerAcceleration {
   return {
+    model: 'material-points',
     objectPoint: new Float64Array(3),
     centripetal: new Float64Array(3),
     jacobianRate: new Float64Array(3),
     linkAngularRate: new Float64Array(3),
+    rollingTerm: new Float64Array(3),
+    spinRollingTerm: 0,
     rows: 3,
     target: new Float64Array(4),
     jointAccelerations: new Float64Array(jointCount),
@@ -106,22 +139,44 @@ export function createFingerAcceleration(jointCount: number): FingerAcceleration
   };
 }
 
-// The Jacobian is the velocity solve's: 3 rows, or 4 with the soft-finger row n . w_k, whose
-// right-hand side becomes n . (alpha - sum_k q_dot_k w_k_dot).
-/** Joint accelerations q_ddot = J^T (J J^T + lambda^2 I)^-1 (a_x - J_dot q_dot) of one solved finger at its full-solution rates, object origin p and angular velocity (world frame, rad/s^2). */
+/** omega_f = sum_k q_dot_k w_k of the last link at the full solution's rates (world frame, rad/s). */
+function linkAngularVelocity(finger: Readonly<FingerResult>): Float64Array {
+  const w = new Float64Array(3), axes = finger.jointAxes, rates = finger.full.rates;
+  for (let k = 0; k < finger.jointAngles.length; k++) for (let c = 0; c < 3; c++) w[c] += rates[k] * axes[3 * k + c];
+  return w;
+}
+
+// The Jacobian is the velocity solve's: 3 rows, or 4 with the soft-finger row n . w_k = n . omega_o,
+// whose derivative n . sum_k w_k q_ddot_k = n . (alpha - sum_k q_dot_k w_k_dot) + n_dot . (omega_o - omega_f)
+// has the turn of the normal n_dot = omega_o x n + L_o u_o as the contact moves over the object.
+/** Joint accelerations q_ddot = J^T (J J^T + lambda^2 I)^-1 (a_x + rolling term - J_dot q_dot) of one solved finger at its full-solution rates, object origin p and angular velocity, with the rolling term where its contact curvature gives the contact point's motion (world frame, rad/s^2). */
 export function solveFingerAcceleration(
   finger: Readonly<FingerResult>, origin: ArrayLike<number>, angularVelocity: ArrayLike<number>, acceleration: Readonly<ObjectAcceleration>,
-  damping: number, out: FingerAcceleration = createFingerAcceleration(finger.jointAngles.length),
+  curvature: Readonly<ContactCurvature> | undefined, damping: number, out: FingerAcceleration = createFingerAcceleration(finger.jointAngles.length),
   ws: LinalgWorkspace = createLinalgWorkspace(4, Math.max(4, finger.jointAngles.length)),
 ): FingerAcceleration {
   const jacobian = finger.full.jacobian, n = jacobian.cols, d = jacobian.data;
   const contact = finger.contact, rates = finger.full.rates, target = out.target;
   objectPointAcceleration(acceleration.linear, acceleration.angular, angularVelocity, origin, contact.objectPoint, out.objectPoint, out.centripetal);
   jacobianRateTimesRates(finger.jointAxes, finger.jointPoints, n, contact.rollerPoint, rates, out.jacobianRate, out.linkAngularRate);
-  for (let c = 0; c < 3; c++) target[c] = out.objectPoint[c] - out.jacobianRate[c];
   const normal = contact.normal, alpha = acceleration.angular, link = out.linkAngularRate;
-  // The soft-finger row keeps the spin about the normal equal: n . alpha_f = n . alpha_o, n_dot neglected.
-  target[3] = jacobian.rows === 4 ? normal[0] * (alpha[0] - link[0]) + normal[1] * (alpha[1] - link[1]) + normal[2] * (alpha[2] - link[2]) : 0;
+  const wander = curvature?.wander;
+  out.rollingTerm.fill(0);
+  out.spinRollingTerm = 0;
+  out.model = 'material-points';
+  if (curvature && wander?.status === 'defined' && wander.objectVelocity && wander.rollerVelocity) {
+    const omegaF = linkAngularVelocity(finger);
+    rollingTerm(angularVelocity, omegaF, wander.objectVelocity, wander.rollerVelocity, out.rollingTerm);
+    if (jacobian.rows === 4) {
+      const turn = cross(angularVelocity, normal), over = applyShapeOperator(curvature.object, wander.objectVelocity);
+      for (let c = 0; c < 3; c++) out.spinRollingTerm += (turn[c] + over[c]) * (angularVelocity[c] - omegaF[c]);
+    }
+    out.model = 'rolling-contact';
+  }
+  for (let c = 0; c < 3; c++) target[c] = out.objectPoint[c] + out.rollingTerm[c] - out.jacobianRate[c];
+  target[3] = jacobian.rows === 4
+    ? normal[0] * (alpha[0] - link[0]) + normal[1] * (alpha[1] - link[1]) + normal[2] * (alpha[2] - link[2]) + out.spinRollingTerm
+    : 0;
   out.rows = jacobian.rows;
   dampedLeastSquares(jacobian, target, damping, out.jointAccelerations, ws);
   let residual = 0;
@@ -129,7 +184,7 @@ export function solveFingerAcceleration(
     let sum = out.jacobianRate[i];
     for (let k = 0; k < n; k++) sum += d[i * n + k] * out.jointAccelerations[k];
     out.achieved[i] = sum;
-    residual += (out.objectPoint[i] - sum) ** 2;
+    residual += (out.objectPoint[i] + out.rollingTerm[i] - sum) ** 2;
   }
   out.residualNorm = Math.sqrt(residual);
   return out;
@@ -137,15 +192,17 @@ export function solveFingerAcceleration(
 
 const ZERO_ACCELERATION: Readonly<ObjectAcceleration> = { linear: [0, 0, 0], angular: [0, 0, 0] };
 
-/** Fills every finger's acceleration feed-forward of a solved sheet, once per evaluation, from the object's acceleration (zero when absent; world frame, SI). */
-export function solveAccelerations(result: SheetResult, acceleration: Readonly<ObjectAcceleration> | undefined, settings: Readonly<SolverSettings>): SheetResult {
+/** Fills every finger's acceleration feed-forward of a solved sheet, once per evaluation, from the object's acceleration (zero when absent) and each contact's curvature from sheetCurvature (world frame, SI). */
+export function solveAccelerations(
+  result: SheetResult, acceleration: Readonly<ObjectAcceleration> | undefined, settings: Readonly<SolverSettings>, curvatures: readonly Readonly<ContactCurvature>[],
+): SheetResult {
   const maxJoints = result.fingers.reduce((m, f) => Math.max(m, f.jointAngles.length), 4);
   const ws = createLinalgWorkspace(4, maxJoints);
-  for (const finger of result.fingers) {
+  result.fingers.forEach((finger, i) => {
     finger.acceleration = solveFingerAcceleration(
-      finger, result.object.position, result.object.angularVelocity, acceleration ?? ZERO_ACCELERATION, settings.damping,
+      finger, result.object.position, result.object.angularVelocity, acceleration ?? ZERO_ACCELERATION, curvatures[i], settings.damping,
       createFingerAcceleration(finger.jointAngles.length), ws,
     );
-  }
+  });
   return result;
 }

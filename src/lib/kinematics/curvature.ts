@@ -269,8 +269,8 @@ export function relativeCurvature(object: SurfaceCurvature, roller: SurfaceCurva
   };
 }
 
-/** Shape operator of a surface applied to the tangent vector v, from its principal curvatures and directions (1/m times the unit of v). */
-function applyShapeOperator(curvature: SurfaceCurvature, v: Vec3Like): number[] {
+/** Shape operator of a surface with defined curvature applied to the tangent vector v, from its principal curvatures and directions (palm frame, 1/m times the unit of v). */
+export function applyShapeOperator(curvature: SurfaceCurvature, v: Vec3Like): number[] {
   const [k1, k2] = curvature.principalCurvatures!;
   const [d1, d2] = curvature.principalDirections!;
   const a = k1 * dot3(d1, v), b = k2 * dot3(d2, v);

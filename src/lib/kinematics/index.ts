@@ -35,9 +35,10 @@
  * from computeSheetGraspQuality(doc, result) the grasp quality under friction (GraspQuality: force closure, Ferrari-Canny Q_L1 and Q_Linf,
  * the weakest external wrench and its words), and the warnings,
  * whose catalogue is WARNING_CATALOGUE. toPlainResult turns a result into JSON-ready arrays.
- * solveAccelerations(result, doc.object.acceleration, doc.solver) adds each finger's acceleration
- * feed-forward (FingerAcceleration: object point acceleration, J_dot q_dot, joint accelerations)
- * once per evaluation; solveScene never computes it.
+ * solveAccelerations(result, doc.object.acceleration, doc.solver, sheetCurvature(doc, result)) adds
+ * each finger's acceleration feed-forward (FingerAcceleration: object point acceleration, J_dot q_dot,
+ * rolling term, joint accelerations, and the contact model used) once per evaluation; solveScene
+ * never computes it.
  *
  * Runs and sweeps:
  *
@@ -77,8 +78,8 @@ export {
   computeSheetGraspQuality, createResult, createScene, DEFAULT_CONE_EDGES, DEFAULT_FRICTION, setJointAngles, setObjectPose, setObjectTwist, solveScene, solveSheet, toPlainResult,
 } from './scene';
 export type { FingerResult, PlainSheetResult, Scene, SheetResult } from './scene';
-export { createFingerAcceleration, jacobianRateTimesRates, objectPointAcceleration, solveAccelerations, solveFingerAcceleration } from './acceleration';
-export type { FingerAcceleration } from './acceleration';
+export { createFingerAcceleration, jacobianRateTimesRates, objectPointAcceleration, rollingTerm, solveAccelerations, solveFingerAcceleration } from './acceleration';
+export type { AccelerationModel, FingerAcceleration } from './acceleration';
 export { runScene, runSheet, SOLUTION_KINDS, toPlainRunRecord, warningsAt } from './run';
 export type { RunOptions, RunRecord, RunStopReason } from './run';
 export { sweepSheet, sweepValues } from './sweep';

@@ -1,14 +1,49 @@
 /**
  * Derivations of the acceleration feed-forward of each finger: the object point's acceleration,
- * J_dot q_dot, the joint accelerations and what is left, as KaTeX with the numbers put in. Only
- * results of a sheet evaluation carry an acceleration; a finger without one gets no entries.
+ * J_dot q_dot, the rolling term (or why the material-point model is used instead), the joint
+ * accelerations and what is left, as KaTeX with the numbers put in. Only results of a sheet
+ * evaluation carry an acceleration; a finger without one gets no entries.
  */
-import type { FingerResult, SheetResult } from '../kinematics';
+import { sheetCurvature, type ContactWander, type FingerResult, type SheetResult } from '../kinematics';
 import { column, formatLatexNumber, matrix, type DerivationEntry } from './derivation';
 import type { SheetDocument } from './types';
 
 function list(v: ArrayLike<number>, count = v.length): number[] {
   return Array.from({ length: count }, (_, i) => v[i]);
+}
+
+/** Why a contact has no contact-point motion, in words, from its wander status. */
+const NO_MOTION: Record<Exclude<ContactWander['status'], 'defined'>, string> = {
+  singular: 'a line contact: the contact point is not determined along the line',
+  undefined: 'a surface has no curvature at the contact (a sharp edge or rim)',
+  'not-touching': 'the roller does not touch the object',
+};
+
+/** The rolling-term entry of finger i: its formula with the numbers put in, or the reason it is left out. */
+function rollingTermEntry(doc: SheetDocument, result: SheetResult, i: number, f: FingerResult, id: string): DerivationEntry {
+  const acc = f.acceleration!;
+  const wander = sheetCurvature(doc, result)[i].wander;
+  const term = acc.rollingTerm;
+  if (acc.model === 'material-points' || wander.status !== 'defined') {
+    const reason = wander.status === 'defined' ? 'no contact curvature was given' : NO_MOTION[wander.status];
+    return {
+      id: `${id}.rollingTerm`,
+      label: `${f.name}: rolling term left out, material-point model (${reason})`,
+      latex: `\\text{material points: } J \\ddot\\theta + \\dot J \\dot\\theta = a(x),\\; \\text{contact-point motion: ${wander.status}} \\;\\Rightarrow\\; \\omega_o \\times u_o - \\omega_f \\times u_f \\text{ left out} = ${column(term)}`,
+      value: list(term),
+      unit: 'm/s^2',
+    };
+  }
+  const n = f.jointAngles.length;
+  const omegaF = [0, 1, 2].map((c) => Array.from({ length: n }, (_, k) => f.full.rates[k] * f.jointAxes[3 * k + c]).reduce((a, b) => a + b, 0));
+  const spin = acc.rows === 4 ? `,\\; \\text{spin row } \\dot n \\cdot (\\omega_o - \\omega_f) = ${formatLatexNumber(acc.spinRollingTerm)},\\; \\dot n = \\omega_o \\times n + L_o u_o` : '';
+  return {
+    id: `${id}.rollingTerm`,
+    label: `${f.name}: rolling term, rolling-contact model (the contact moves over both surfaces)`,
+    latex: `\\omega_o \\times u_o - \\omega_f \\times u_f,\\; \\omega_o = ${column(result.object.angularVelocity)},\\; \\omega_f = \\sum_k \\dot\\theta_k \\omega_k = ${column(omegaF)},\\; u_o = ${column(wander.objectVelocity!)},\\; u_f = ${column(wander.rollerVelocity!)} \\;\\Rightarrow\\; ${column(term)}${spin}`,
+    value: list(term),
+    unit: 'm/s^2',
+  };
 }
 
 /** Appends the acceleration entries of finger i (m/s^2 and rad/s^2, palm frame) to entries. */
@@ -34,20 +69,21 @@ export function accelerationEntries(doc: SheetDocument, result: SheetResult, i: 
     value: list(acc.jacobianRate),
     unit: 'm/s^2',
   });
+  entries.push(rollingTermEntry(doc, result, i, f, id));
   const softRow = acc.rows === 4
-    ? `,\\; \\text{spin row } n \\cdot \\Big(\\alpha - \\sum_k \\dot\\theta_k \\dot\\omega_k\\Big) = ${formatLatexNumber(acc.target[3])}`
+    ? `,\\; \\text{spin row } n \\cdot \\Big(\\alpha - \\sum_k \\dot\\theta_k \\dot\\omega_k\\Big) + \\dot n \\cdot (\\omega_o - \\omega_f) = ${formatLatexNumber(acc.target[3])}`
     : '';
   entries.push({
     id: `${id}.jointAccelerations`,
     label: `${f.name}: joint accelerations, damped least squares`,
-    latex: `\\ddot\\theta = J^T (J J^T + \\lambda^2 I)^{-1} \\big(a(x) - \\dot J \\dot\\theta\\big), \\quad J = ${matrix(full.jacobian.data, acc.rows, n)},\\; a(x) - \\dot J \\dot\\theta = ${column(acc.target)}${softRow},\\; \\lambda = ${formatLatexNumber(doc.solver.damping)} \\;\\Rightarrow\\; \\ddot\\theta = ${column(acc.jointAccelerations, 0, n)}`,
+    latex: `\\ddot\\theta = J^T (J J^T + \\lambda^2 I)^{-1} \\big(a(x) + \\omega_o \\times u_o - \\omega_f \\times u_f - \\dot J \\dot\\theta\\big), \\quad J = ${matrix(full.jacobian.data, acc.rows, n)},\\; a(x) + \\omega_o \\times u_o - \\omega_f \\times u_f - \\dot J \\dot\\theta = ${column(acc.target, 0, 3)}${softRow},\\; \\lambda = ${formatLatexNumber(doc.solver.damping)} \\;\\Rightarrow\\; \\ddot\\theta = ${column(acc.jointAccelerations, 0, n)}`,
     value: list(acc.jointAccelerations),
     unit: 'rad/s^2',
   });
   entries.push({
     id: `${id}.residual`,
     label: `${f.name}: acceleration the joints cannot follow`,
-    latex: `\\lVert a(x) - (J \\ddot\\theta + \\dot J \\dot\\theta) \\rVert = \\left\\lVert ${column(acc.objectPoint)} - ${column(acc.achieved)} \\right\\rVert = ${formatLatexNumber(acc.residualNorm)}`,
+    latex: `\\lVert a(x) + \\omega_o \\times u_o - \\omega_f \\times u_f - (J \\ddot\\theta + \\dot J \\dot\\theta) \\rVert = \\left\\lVert ${column([0, 1, 2].map((c) => acc.objectPoint[c] + acc.rollingTerm[c]))} - ${column(acc.achieved)} \\right\\rVert = ${formatLatexNumber(acc.residualNorm)}`,
     value: acc.residualNorm,
     unit: 'm/s^2',
   });

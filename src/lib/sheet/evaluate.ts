@@ -105,10 +105,13 @@ export function evaluateSheet(input: unknown, options: EvaluateOptions = {}): Re
   }
   const doc = parsed.doc;
   try {
-    const solved = solveAccelerations(solveSheet(doc), doc.object.acceleration, doc.solver);
+    const solved = solveSheet(doc);
+    // The feed-forward's rolling term needs each contact's motion over the surfaces, so the curvature comes first.
+    const curvatures = sheetCurvature(doc, solved);
+    solveAccelerations(solved, doc.object.acceleration, doc.solver, curvatures);
     solved.graspQuality = computeSheetGraspQuality(doc, solved);
     const result = toPlainResult(solved);
-    sheetCurvature(doc, solved).forEach((curvature, i) => { result.fingers[i].curvature = curvature; });
+    curvatures.forEach((curvature, i) => { result.fingers[i].curvature = curvature; });
     const bad = firstNonFinite(result, result, []);
     if (bad) {
       const message = `the result is not a finite number: ${formatIssuePath(bad.path)} is ${bad.value}${describeOwner(doc, bad.path)}; an input is too large or too small for the solve to keep its digits`;

@@ -55,7 +55,7 @@ const degrees = (si: number) => (si * 180) / Math.PI;
  * A vector of the acceleration feed-forward, which only a sheet evaluation computes: results of a
  * sweep or a run have none, and read as NaN (shown "—") rather than as a zero acceleration.
  */
-function accelerationOf(result: PlainSheetResult, finger: number, key: 'objectPoint' | 'centripetal' | 'jacobianRate' | 'jointAccelerations'): readonly number[] {
+function accelerationOf(result: PlainSheetResult, finger: number, key: 'objectPoint' | 'centripetal' | 'jacobianRate' | 'rollingTerm' | 'jointAccelerations'): readonly number[] {
   const f = result.fingers[finger];
   return f.acceleration?.[key] ?? Array.from({ length: key === 'jointAccelerations' ? f.jointNames.length : 3 }, () => Number.NaN);
 }
@@ -191,6 +191,14 @@ export const OUTPUTS: readonly OutputDefinition[] = [
   {
     id: 'acceleration.jacobianRate', label: 'roller point acceleration at zero joint acceleration (J̇ q̇)', tableLabel: 'J̇ q̇', unit: 'm/s^2',
     display: shown('m/s²'), frame: 'palm', scope: 'finger', parts: 'xyz', compared: false, read: (r, i) => accelerationOf(r, i, 'jacobianRate'),
+  },
+  {
+    id: 'acceleration.model', label: 'feed-forward contact model', tableLabel: 'contact model', unit: '', display: unitless(), frame: null,
+    scope: 'finger', parts: 'single', compared: true, read: (r, i) => r.fingers[i].acceleration?.model ?? 'not computed',
+  },
+  {
+    id: 'acceleration.rollingTerm', label: 'rolling term ω_o × u_o − ω_f × u_f', tableLabel: 'rolling term', unit: 'm/s^2', display: shown('m/s²'),
+    frame: 'palm', scope: 'finger', parts: 'xyz', compared: false, read: (r, i) => accelerationOf(r, i, 'rollingTerm'),
   },
   {
     id: 'acceleration.residual', label: 'acceleration residual (full)', tableLabel: 'acceleration residual', unit: 'm/s^2', display: shown('m/s²'),

@@ -1,7 +1,10 @@
 import { readFileSync } from 'node:fs';
 import katex from 'katex';
+import { createElement } from 'react';
+import { renderToStaticMarkup } from 'react-dom/server';
 import { describe, expect, it } from 'vitest';
 import { createFingerAcceleration, sweepSheet } from '../../../src/lib/kinematics';
+import ResultsSection from '../../../src/components/sheet/ResultsSection';
 import { evaluateSheet } from '../../../src/lib/sheet/evaluate';
 import { displayValue, findOutput } from '../../../src/lib/sheet/outputs';
 import { parseSheet } from '../../../src/lib/sheet/schema';
@@ -65,9 +68,11 @@ describe('the feed-forward in an evaluation', () => {
   it('derives the object point, J_dot q_dot, the joint accelerations and the residual of every finger, in KaTeX', () => {
     for (const [i, f] of result.fingers.entries()) {
       const entries = derivation.filter((e) => e.id.startsWith(`finger.${i}.acceleration.`));
-      expect(entries.map((e) => e.id.split('.').pop())).toEqual(['objectPoint', 'jacobianRate', 'jointAccelerations', 'residual']);
-      expect(entries[2].value).toEqual(f.acceleration?.jointAccelerations);
-      expect(entries[2].unit).toBe('rad/s^2');
+      expect(entries.map((e) => e.id.split('.').pop())).toEqual(['objectPoint', 'jacobianRate', 'rollingTerm', 'jointAccelerations', 'residual']);
+      expect(entries[2].label).toContain('rolling-contact model');
+      expect(entries[2].value).toEqual(f.acceleration?.rollingTerm);
+      expect(entries[3].value).toEqual(f.acceleration?.jointAccelerations);
+      expect(entries[3].unit).toBe('rad/s^2');
       for (const e of entries) expect(() => katex.renderToString(e.latex, { throwOnError: true }), e.id).not.toThrow();
     }
   });
@@ -76,6 +81,49 @@ describe('the feed-forward in an evaluation', () => {
     const sweep = sweepSheet(threeFingerSheet(), { path: '/object/twist/angular/2', from: 0, to: 1, steps: 2 });
     const output = findOutput('acceleration.jointAccelerations');
     expect(displayValue(output, output.read(sweep.results[0], 0))).toBe('(—, —, —)');
+  });
+});
+
+/** The three-finger sheet with the object a box and the first finger's cylindrical roller lying flat on its top face, axis along y: a line contact. */
+function lineContactSheet() {
+  const base = threeFingerSheet();
+  const center: [number, number, number] = [0.01, 0, 0.03 + 0.012];
+  const flat = {
+    name: 'flat',
+    joints: [
+      { name: 'base', role: 'base' as const, axis: [1, 0, 0] as [number, number, number], point: [0.01, -0.03, 0.1] as [number, number, number], angle: 0 },
+      { name: 'pivot', role: 'pivot' as const, axis: [0, 0, 1] as [number, number, number], point: center, angle: 0 },
+      { name: 'roll', role: 'roll' as const, axis: [0, 1, 0] as [number, number, number], point: center, angle: 0 },
+    ],
+    roller: { kind: 'cylinder' as const, radius: 0.012, halfWidth: 0.006, center, axis: [0, 1, 0] as [number, number, number] },
+  };
+  return {
+    ...base,
+    object: { ...base.object, shape: { kind: 'box' as const, halfExtents: [0.05, 0.04, 0.03] as [number, number, number], filletRadius: 0.002 } },
+    hand: { ...base.hand, fingers: [flat] },
+  };
+}
+
+describe('the contact model of the feed-forward', () => {
+  it('is the rolling contact for ball rollers on a ball, and the material points, labelled with the reason, for a line contact', () => {
+    // A cylinder lying on a plane conforms along a line: its relative curvature has a zero eigenvalue (Johnson 1985,
+    // "Contact Mechanics", sec. 4.1, from memory), so the contact point's motion along the line is not determined.
+    const rolling = evaluateSheet(threeFingerSheet());
+    if (!rolling.ok) throw new Error(rolling.error.message);
+    expect(rolling.value.result.fingers.map((f) => f.acceleration?.model)).toEqual(['rolling-contact', 'rolling-contact', 'rolling-contact']);
+    const line = evaluateSheet(lineContactSheet(), { derive: true });
+    if (!line.ok) throw new Error(line.error.message);
+    const f = line.value.result.fingers[0];
+    expect(f.curvature?.wander.status).toBe('singular');
+    expect(f.acceleration?.model).toBe('material-points');
+    expect(f.acceleration?.rollingTerm).toEqual([0, 0, 0]);
+    const entry = line.value.derivation.find((e) => e.id === 'finger.0.acceleration.rollingTerm');
+    expect(entry?.label).toBe('flat: rolling term left out, material-point model (a line contact: the contact point is not determined along the line)');
+    expect(() => katex.renderToString(entry!.latex, { throwOnError: true })).not.toThrow();
+    const output = findOutput('acceleration.model');
+    expect(displayValue(output, output.read(line.value.result, 0))).toBe('material-points');
+    const html = renderToStaticMarkup(createElement(ResultsSection, { result: line.value.result, stale: false }));
+    expect(html).toContain('material points, rolling term left out: a line contact, the contact point is not determined along it');
   });
 });
 

@@ -39,11 +39,13 @@ describe('evaluateSheet', () => {
     if (!evaluated.ok) throw new Error(evaluated.error.message);
     const parsed = parseSheet(sheet());
     if (!parsed.ok) throw new Error('the example must read');
-    const solved = solveAccelerations(solveSheet(parsed.doc), parsed.doc.object.acceleration, parsed.doc.solver);
+    const unaccelerated = solveSheet(parsed.doc);
+    const curvatures = sheetCurvature(parsed.doc, unaccelerated);
+    const solved = solveAccelerations(unaccelerated, parsed.doc.object.acceleration, parsed.doc.solver, curvatures);
     solved.graspQuality = computeSheetGraspQuality(parsed.doc, solved);
     expect(evaluated.value.doc).toEqual(parsed.doc);
     const plain = toPlainResult(solved);
-    sheetCurvature(parsed.doc, solved).forEach((curvature, i) => { plain.fingers[i].curvature = curvature; });
+    curvatures.forEach((curvature, i) => { plain.fingers[i].curvature = curvature; });
     expect(evaluated.value.result).toEqual(plain);
     expect(evaluated.value.summary).toEqual({
       fingers: parsed.doc.hand.fingers.length,
@@ -58,7 +60,8 @@ describe('evaluateSheet', () => {
     if (!evaluated.ok) throw new Error(evaluated.error.message);
     const parsed = parseSheet(sheet());
     if (!parsed.ok) throw new Error('the example must read');
-    const solved = solveAccelerations(solveSheet(parsed.doc), parsed.doc.object.acceleration, parsed.doc.solver);
+    const solved = solveSheet(parsed.doc);
+    solveAccelerations(solved, parsed.doc.object.acceleration, parsed.doc.solver, sheetCurvature(parsed.doc, solved));
     solved.graspQuality = computeSheetGraspQuality(parsed.doc, solved);
     expect(evaluated.value.derivation).toEqual(deriveSheet(parsed.doc, solved));
   });

@@ -64,7 +64,8 @@ describe('the surfaces that read the catalogue', () => {
       ...first.jointNames.map((joint) => `joint rate (full) · ${joint}`), 'slip residual (full)', 'singular value · σ1', 'singular value · σ2',
       'singular value · σ3', 'condition number', 'manipulability',
       ...first.steer.baseJoints.map((k) => `base rate (steer-and-roll, minimum norm) · ${first.jointNames[k]}`), 'pivot angle (steer-and-roll)',
-      'roll rate (steer-and-roll)', 'slip residual (steer-and-roll)', ...xyz('object acceleration at the contact'), 'acceleration residual (full)',
+      'roll rate (steer-and-roll)', 'slip residual (steer-and-roll)', ...xyz('object acceleration at the contact'), 'feed-forward contact model',
+      'acceleration residual (full)',
       ...first.jointNames.map((joint) => `joint acceleration (full) · ${joint}`),
       'object principal curvature · κ1', 'object principal curvature · κ2',
       'roller principal curvature · κ1', 'roller principal curvature · κ2', 'relative curvature · κ1', 'relative curvature · κ2',
@@ -94,7 +95,7 @@ describe('the surfaces that read the catalogue', () => {
     const perContact = [
       'contact point x', 'normal n', 'gap', 'normal velocity', 'tangential velocity', 'tangential speed', 'steer: base rate', 'steer: pivot angle',
       'steer: roll rate', 'steer − full, |Δ rates|', 'condition before / after steering', 'full: slip residual',
-      'object acceleration a(x)', 'of which centripetal', 'J̇ q̇', 'acceleration residual', 'object', 'roller', 'relative',
+      'contact model', 'object acceleration a(x)', 'of which centripetal', 'J̇ q̇', 'rolling term', 'acceleration residual', 'object', 'roller', 'relative',
     ];
     expect(labels).toEqual([...result.fingers.flatMap(() => perContact), 'contacts', 'rank of the contact map', 'undrivable directions',
       'force closure', 'quality Q_L1', 'quality Q_Linf', 'weakest direction',
