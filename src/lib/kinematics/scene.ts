@@ -156,7 +156,7 @@ export function solveScene(scene: Scene, out: SheetResult = createResult(scene),
     const r = out.fingers[i];
     solveSteerAndRoll(fingers[i], r.contact, r.full, settings, r.steer, workspace.steer);
     // A run needs the full Jacobian's conditioning only where the warnings judge rank on it.
-    if (!report && !r.steer.available) conditionFull(fingers[i], r.contact, r.full);
+    if (!report && !r.steer.available) conditionFull(r.full);
     r.rankBasis = judgedBasis(r.steer);
     r.rankRatio = judgedRankRatio(r.full, r.steer);
     if (report) r.driveRank = r.steer.available ? numericalRank(r.steer.driveSingularValues, 3, r.full.rankTolerance) : 0;

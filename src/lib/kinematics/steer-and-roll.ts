@@ -53,7 +53,7 @@ export interface SteerAndRoll {
   achieved: Float64Array;
   residual: Float64Array;
   residualNorm: number;
-  /** Condition numbers before and after steering, and the singular values after (m/rad). */
+  /** Condition numbers before and after steering (infinite at or below full.rankTolerance), and the singular values after (m/rad). */
   conditionBefore: number;
   conditionAfter: number;
   singularValuesAfter: Float64Array;
@@ -68,7 +68,8 @@ export interface SteerAndRoll {
   driveSingularValues: Float64Array;
   /**
    * sigma_2 / sigma_1 of the drive columns (1 with a single column; dimensionless, 0 at rank loss): they must
-   * span the normal and the steered roll direction; steering itself supplies the third direction.
+   * span the normal and the steered roll direction; steering itself supplies the third direction. 0 also when that
+   * weakest singular value is at or below full.rankTolerance.
    */
   driveRatio: number;
   /** rates - full solution rates, rad/s, and its norm. */
@@ -198,8 +199,8 @@ export function solveSteerAndRoll(finger: Finger, contact: Contact, full: FullSo
   }
   out.residualNorm = Math.sqrt(residual);
   jacobianSingularValues(ja, out.singularValuesAfter);
-  out.conditionAfter = conditionNumber(out.singularValuesAfter, 3);
-  driveConditioning(finger, contact, settings, out, ws.drive);
+  out.conditionAfter = conditionNumber(out.singularValuesAfter, 3, full.rankTolerance);
+  driveConditioning(finger, contact, settings, full.rankTolerance, out, ws.drive);
   let difference = 0;
   for (let k = 0; k < n; k++) {
     const dk = rates[k] - full.rates[k];
@@ -217,7 +218,7 @@ const STEERED_RANK = 2;
  * A pivot whose axis passes through the contact steers by turning the roll direction and adds
  * nothing to the contact velocity, so its zero column says nothing about what the finger can do.
  */
-function driveConditioning(finger: Finger, contact: Contact, settings: SolverSettings, out: SteerAndRoll, drive: Matrix): void {
+function driveConditioning(finger: Finger, contact: Contact, settings: SolverSettings, rankTolerance: number, out: SteerAndRoll, drive: Matrix): void {
   const n = finger.jointCount, pv = finger.pivotIndex;
   out.pivotDrives = pv < 0 || !(contact.pivotAxisDistance < settings.axisDistance);
   const skip = out.pivotDrives ? -1 : pv;
@@ -243,9 +244,10 @@ function driveConditioning(finger: Finger, contact: Contact, settings: SolverSet
     jacobianSingularValues(drive, s);
   }
   // Steering supplies the third direction by choosing the roll direction, so the drive columns need
-  // only span two: the normal (base) and the steered roll direction.
-  const weakest = s[(m < STEERED_RANK ? m : STEERED_RANK) - 1];
-  out.driveRatio = m > 0 && s[0] > 0 ? weakest / s[0] : 0;
+  // only span two: the normal (base) and the steered roll direction. Below the finger's rank tolerance the
+  // weakest is rounding and the columns have lost rank, as the full Jacobian's singularRatio judges it.
+  const weakest = m > 0 ? s[(m < STEERED_RANK ? m : STEERED_RANK) - 1] : 0;
+  out.driveRatio = weakest > rankTolerance && s[0] > 0 ? weakest / s[0] : 0;
 }
 
 /**
