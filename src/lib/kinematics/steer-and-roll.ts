@@ -132,8 +132,14 @@ export function createSteerAndRoll(finger: Pick<Finger, 'jointCount' | 'roles'>)
   };
 }
 
-/** Steer-and-roll solution for one finger after solveFull, with the conditioning of its drive columns after steering (world frame, SI). */
-export function solveSteerAndRoll(finger: Finger, contact: Contact, full: FullSolution, settings: SolverSettings, out: SteerAndRoll, ws: SteerWorkspace): SteerAndRoll {
+/**
+ * Steer-and-roll solution for one finger after solveFull, with the conditioning of its drive columns after steering (world frame, SI);
+ * without `afterSteering` (runs, after solveFullRates) it leaves the singular values and condition number after steering and the rate
+ * difference from the full solution at their previous values.
+ */
+export function solveSteerAndRoll(
+  finger: Finger, contact: Contact, full: FullSolution, settings: SolverSettings, out: SteerAndRoll, ws: SteerWorkspace, afterSteering = true,
+): SteerAndRoll {
   const n = finger.jointCount;
   const pv = finger.pivotIndex, rl = finger.rollIndex;
   const rates = out.rates;
@@ -198,9 +204,18 @@ export function solveSteerAndRoll(finger: Finger, contact: Contact, full: FullSo
     residual += out.residual[i] * out.residual[i];
   }
   out.residualNorm = Math.sqrt(residual);
-  jacobianSingularValues(ja, out.singularValuesAfter);
-  out.conditionAfter = conditionNumber(out.singularValuesAfter, 3, full.rankTolerance);
   driveConditioning(finger, contact, settings, full.rankTolerance, out, ws.drive);
+  if (!afterSteering) return out;
+  const sa = out.singularValuesAfter;
+  if (out.available && out.pivotChange !== 0) {
+    jacobianSingularValues(ja, sa);
+    out.conditionAfter = conditionNumber(sa, 3, full.rankTolerance);
+  } else {
+    // Unturned, the Jacobian after steering is the full one, whose conditioning solveFull has just computed.
+    const sf = full.singularValues;
+    sa[0] = sf[0]; sa[1] = sf[1]; sa[2] = sf[2];
+    out.conditionAfter = full.conditionNumber;
+  }
   let difference = 0;
   for (let k = 0; k < n; k++) {
     const dk = rates[k] - full.rates[k];
