@@ -185,7 +185,7 @@ export function solveSteerAndRoll(
     out.rollDistance = Number.NaN;
     out.rollRate = 0;
   } else {
-    steer(finger, contact, out, settings.minTangentialSpeed, ws.rollDirection, ws.pivotTurn);
+    steer(finger, contact, out, settings, ws.rollDirection, ws.pivotTurn);
   }
 
   // Jacobian after steering: the full solution's translational rows, with the joints beyond the pivot turned about the pivot line by pivotChange.
@@ -204,7 +204,7 @@ export function solveSteerAndRoll(
     residual += out.residual[i] * out.residual[i];
   }
   out.residualNorm = Math.sqrt(residual);
-  driveConditioning(finger, contact, settings, full.rankTolerance, out, ws.drive);
+  driveConditioning(finger, contact, settings, full, out, ws.drive);
   if (!afterSteering) return out;
   const sa = out.singularValuesAfter;
   if (out.available && out.pivotChange !== 0) {
@@ -233,7 +233,7 @@ const STEERED_RANK = 2;
  * A pivot whose axis passes through the contact steers by turning the roll direction and adds
  * nothing to the contact velocity, so its zero column says nothing about what the finger can do.
  */
-function driveConditioning(finger: Finger, contact: Contact, settings: SolverSettings, rankTolerance: number, out: SteerAndRoll, drive: Matrix): void {
+function driveConditioning(finger: Finger, contact: Contact, settings: SolverSettings, full: FullSolution, out: SteerAndRoll, drive: Matrix): void {
   const n = finger.jointCount, pv = finger.pivotIndex;
   out.pivotDrives = pv < 0 || !(contact.pivotAxisDistance < settings.axisDistance);
   const skip = out.pivotDrives ? -1 : pv;
@@ -262,7 +262,7 @@ function driveConditioning(finger: Finger, contact: Contact, settings: SolverSet
   // only span two: the normal (base) and the steered roll direction. Below the finger's rank tolerance the
   // weakest is rounding and the columns have lost rank, as the full Jacobian's singularRatio judges it.
   const weakest = m > 0 ? s[(m < STEERED_RANK ? m : STEERED_RANK) - 1] : 0;
-  out.driveRatio = weakest > rankTolerance && s[0] > 0 ? weakest / s[0] : 0;
+  out.driveRatio = weakest > full.rankTolerance && s[0] > 0 ? weakest / s[0] : 0;
 }
 
 /**
@@ -282,11 +282,11 @@ function driveConditioning(finger: Finger, contact: Contact, settings: SolverSet
  */
 const ROLL_AXIS_NOISE = 1e-6;
 
-function steer(finger: Finger, contact: Contact, out: SteerAndRoll, minSpeed: number, rollDirection: Float64Array, pivotTurn: Float64Array): void {
+function steer(finger: Finger, contact: Contact, out: SteerAndRoll, settings: SolverSettings, rollDirection: Float64Array, pivotTurn: Float64Array): void {
   const uNorm = out.remainderNorm;
   // Below the minimum tangential speed every pivot angle meets the rolling constraint to within the setting, and
   // the direction of u is rounding or noise (1e-9 m of object pose already turns it anywhere).
-  const steerable = uNorm > 0 && !(uNorm < minSpeed);
+  const steerable = uNorm > 0 && !(uNorm < settings.minTangentialSpeed);
   const axes = finger.axes, points = finger.points;
   const po = 3 * finger.pivotIndex, ro = 3 * finger.rollIndex;
   const kx = axes[po], ky = axes[po + 1], kz = axes[po + 2];
