@@ -108,10 +108,10 @@ export function contactRankTolerance(points: ArrayLike<number>, jointCount: numb
 /** Full damped least-squares solution for one finger after its contact is computed, with the conditioning of its Jacobian (world frame, SI). */
 export function solveFull(finger: Finger, contact: Contact, angularVelocity: ArrayLike<number>, settings: SolverSettings, out: FullSolution, ws: LinalgWorkspace): FullSolution {
   solveFullRates(finger, contact, angularVelocity, settings, out, ws);
-  return conditionFull(finger, contact, out);
+  return conditionFull(out);
 }
 
-/** The Jacobian, rates, achieved velocity and residual of solveFull without the conditioning (world frame, SI). */
+/** The Jacobian, rates, achieved velocity, residual and rank tolerance of solveFull without the conditioning (world frame, SI). */
 export function solveFullRates(finger: Finger, contact: Contact, angularVelocity: ArrayLike<number>, settings: SolverSettings, out: FullSolution, ws: LinalgWorkspace): FullSolution {
   const n = finger.jointCount;
   const j = out.jacobian;
@@ -146,17 +146,18 @@ export function solveFullRates(finger: Finger, contact: Contact, angularVelocity
   residual[3] = rows === 4 ? target[3] - spin : 0;
   out.residualNorm = Math.sqrt(translational);
   out.spinResidual = rows === 4 ? Math.abs(out.residual[3]) : 0;
+  // Here rather than in conditionFull: the drive columns after steering are judged with it also where runs skip conditionFull.
+  out.rankTolerance = contactRankTolerance(finger.points, n, contact.rollerPoint, 3);
   return out;
 }
 
-/** Singular values, rank, rank tolerance, ratio, condition number and manipulability of the translational Jacobian that solveFullRates wrote into out. */
-export function conditionFull(finger: Finger, contact: Contact, out: FullSolution): FullSolution {
+/** Singular values, rank, ratio, condition number and manipulability of the translational Jacobian that solveFullRates wrote into out, judged with its rank tolerance. */
+export function conditionFull(out: FullSolution): FullSolution {
   const j = out.jacobian, rows = j.rows;
   j.rows = 3;
   const s = jacobianSingularValues(j, out.singularValues);
-  const tolerance = contactRankTolerance(finger.points, finger.jointCount, contact.rollerPoint, 3);
+  const tolerance = out.rankTolerance;
   out.manipulability = s[0] * s[1] * s[2];
-  out.rankTolerance = tolerance;
   out.rank = numericalRank(s, 3, tolerance);
   out.conditionNumber = conditionNumber(s, 3, tolerance);
   out.singularRatio = out.rank === 3 ? s[2] / s[0] : 0;

@@ -127,7 +127,8 @@ export function createResult(scene: Scene): SheetResult {
 
 /**
  * What a solve computes: 'report' every output; 'run' what a run records and its warnings need, leaving out the contact's
- * roller-frame point, latitude and longitude, the joint snapshot, the drive columns' rank, and for fingers judged after steering
+ * roller-frame point, latitude and longitude, the joint snapshot, the drive columns' rank, the singular values and condition number
+ * after steering and the steer-and-roll rates' difference from the full rates, and for fingers judged after steering
  * the full Jacobian's singular values, rank, condition number and manipulability (steer.conditionBefore then copies a stale
  * value); those keep their previous values.
  */
@@ -157,9 +158,9 @@ export function solveScene(scene: Scene, out: SheetResult = createResult(scene),
   }
   for (let i = 0; i < count; i++) {
     const r = out.fingers[i];
-    solveSteerAndRoll(fingers[i], r.contact, r.full, settings, r.steer, workspace.steer);
+    solveSteerAndRoll(fingers[i], r.contact, r.full, settings, r.steer, workspace.steer, report);
     // A run needs the full Jacobian's conditioning only where the warnings judge rank on it.
-    if (!report && !r.steer.available) conditionFull(fingers[i], r.contact, r.full);
+    if (!report && !r.steer.available) conditionFull(r.full);
     r.rankBasis = judgedBasis(r.steer);
     r.rankRatio = judgedRankRatio(r.full, r.steer);
     if (report) r.driveRank = r.steer.available ? numericalRank(r.steer.driveSingularValues, 3, r.full.rankTolerance) : 0;

@@ -53,7 +53,7 @@ export interface SteerAndRoll {
   achieved: Float64Array;
   residual: Float64Array;
   residualNorm: number;
-  /** Condition numbers before and after steering, and the singular values after (m/rad). */
+  /** Condition numbers before and after steering (infinite at or below full.rankTolerance), and the singular values after (m/rad). */
   conditionBefore: number;
   conditionAfter: number;
   singularValuesAfter: Float64Array;
@@ -68,7 +68,8 @@ export interface SteerAndRoll {
   driveSingularValues: Float64Array;
   /**
    * sigma_2 / sigma_1 of the drive columns (1 with a single column; dimensionless, 0 at rank loss): they must
-   * span the normal and the steered roll direction; steering itself supplies the third direction.
+   * span the normal and the steered roll direction; steering itself supplies the third direction. 0 also when that
+   * weakest singular value is at or below full.rankTolerance.
    */
   driveRatio: number;
   /** rates - full solution rates, rad/s, and its norm. */
@@ -131,8 +132,14 @@ export function createSteerAndRoll(finger: Pick<Finger, 'jointCount' | 'roles'>)
   };
 }
 
-/** Steer-and-roll solution for one finger after solveFull, with the conditioning of its drive columns after steering (world frame, SI). */
-export function solveSteerAndRoll(finger: Finger, contact: Contact, full: FullSolution, settings: SolverSettings, out: SteerAndRoll, ws: SteerWorkspace): SteerAndRoll {
+/**
+ * Steer-and-roll solution for one finger after solveFull, with the conditioning of its drive columns after steering (world frame, SI);
+ * without `afterSteering` (runs, after solveFullRates) it leaves the singular values and condition number after steering and the rate
+ * difference from the full solution at their previous values.
+ */
+export function solveSteerAndRoll(
+  finger: Finger, contact: Contact, full: FullSolution, settings: SolverSettings, out: SteerAndRoll, ws: SteerWorkspace, afterSteering = true,
+): SteerAndRoll {
   const n = finger.jointCount;
   const pv = finger.pivotIndex, rl = finger.rollIndex;
   const rates = out.rates;
@@ -178,7 +185,7 @@ export function solveSteerAndRoll(finger: Finger, contact: Contact, full: FullSo
     out.rollDistance = Number.NaN;
     out.rollRate = 0;
   } else {
-    steer(finger, contact, out, settings.minTangentialSpeed, ws.rollDirection, ws.pivotTurn);
+    steer(finger, contact, out, settings, ws.rollDirection, ws.pivotTurn);
   }
 
   // Jacobian after steering: the full solution's translational rows, with the joints beyond the pivot turned about the pivot line by pivotChange.
@@ -197,9 +204,18 @@ export function solveSteerAndRoll(finger: Finger, contact: Contact, full: FullSo
     residual += out.residual[i] * out.residual[i];
   }
   out.residualNorm = Math.sqrt(residual);
-  jacobianSingularValues(ja, out.singularValuesAfter);
-  out.conditionAfter = conditionNumber(out.singularValuesAfter, 3);
-  driveConditioning(finger, contact, settings, out, ws.drive);
+  driveConditioning(finger, contact, settings, full, out, ws.drive);
+  if (!afterSteering) return out;
+  const sa = out.singularValuesAfter;
+  if (out.available && out.pivotChange !== 0) {
+    jacobianSingularValues(ja, sa);
+    out.conditionAfter = conditionNumber(sa, 3, full.rankTolerance);
+  } else {
+    // Unturned, the Jacobian after steering is the full one, whose conditioning solveFull has just computed.
+    const sf = full.singularValues;
+    sa[0] = sf[0]; sa[1] = sf[1]; sa[2] = sf[2];
+    out.conditionAfter = full.conditionNumber;
+  }
   let difference = 0;
   for (let k = 0; k < n; k++) {
     const dk = rates[k] - full.rates[k];
@@ -217,7 +233,7 @@ const STEERED_RANK = 2;
  * A pivot whose axis passes through the contact steers by turning the roll direction and adds
  * nothing to the contact velocity, so its zero column says nothing about what the finger can do.
  */
-function driveConditioning(finger: Finger, contact: Contact, settings: SolverSettings, out: SteerAndRoll, drive: Matrix): void {
+function driveConditioning(finger: Finger, contact: Contact, settings: SolverSettings, full: FullSolution, out: SteerAndRoll, drive: Matrix): void {
   const n = finger.jointCount, pv = finger.pivotIndex;
   out.pivotDrives = pv < 0 || !(contact.pivotAxisDistance < settings.axisDistance);
   const skip = out.pivotDrives ? -1 : pv;
@@ -243,9 +259,10 @@ function driveConditioning(finger: Finger, contact: Contact, settings: SolverSet
     jacobianSingularValues(drive, s);
   }
   // Steering supplies the third direction by choosing the roll direction, so the drive columns need
-  // only span two: the normal (base) and the steered roll direction.
-  const weakest = s[(m < STEERED_RANK ? m : STEERED_RANK) - 1];
-  out.driveRatio = m > 0 && s[0] > 0 ? weakest / s[0] : 0;
+  // only span two: the normal (base) and the steered roll direction. Below the finger's rank tolerance the
+  // weakest is rounding and the columns have lost rank, as the full Jacobian's singularRatio judges it.
+  const weakest = m > 0 ? s[(m < STEERED_RANK ? m : STEERED_RANK) - 1] : 0;
+  out.driveRatio = weakest > full.rankTolerance && s[0] > 0 ? weakest / s[0] : 0;
 }
 
 /**
@@ -265,11 +282,11 @@ function driveConditioning(finger: Finger, contact: Contact, settings: SolverSet
  */
 const ROLL_AXIS_NOISE = 1e-6;
 
-function steer(finger: Finger, contact: Contact, out: SteerAndRoll, minSpeed: number, rollDirection: Float64Array, pivotTurn: Float64Array): void {
+function steer(finger: Finger, contact: Contact, out: SteerAndRoll, settings: SolverSettings, rollDirection: Float64Array, pivotTurn: Float64Array): void {
   const uNorm = out.remainderNorm;
   // Below the minimum tangential speed every pivot angle meets the rolling constraint to within the setting, and
   // the direction of u is rounding or noise (1e-9 m of object pose already turns it anywhere).
-  const steerable = uNorm > 0 && !(uNorm < minSpeed);
+  const steerable = uNorm > 0 && !(uNorm < settings.minTangentialSpeed);
   const axes = finger.axes, points = finger.points;
   const po = 3 * finger.pivotIndex, ro = 3 * finger.rollIndex;
   const kx = axes[po], ky = axes[po + 1], kz = axes[po + 2];

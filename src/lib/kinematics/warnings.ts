@@ -207,6 +207,38 @@ export function severityRank(severity: WarningSeverity | 'none'): number {
   return SEVERITY_RANK[severity];
 }
 
+/**
+ * What raising one code writes, looked up once when the module loads: the per-finger checks run every tick of a run,
+ * where three string-keyed lookups per raised warning cost more than the checks themselves.
+ */
+interface RaisedCode {
+  code: WarningCode;
+  severity: WarningSeverity;
+  message: string;
+  bit: number;
+  rank: number;
+}
+
+function raisedCode(code: WarningCode): RaisedCode {
+  const { severity, message } = WARNING_CATALOGUE[code];
+  return { code, severity, message, bit: CODE_BIT[code], rank: SEVERITY_RANK[severity] };
+}
+
+const RAISED = Object.fromEntries(WARNING_CODES.map((code) => [code, raisedCode(code)])) as Record<WarningCode, RaisedCode>;
+const CONTACT_LOST = RAISED.CONTACT_LOST;
+const CONTACT_PENETRATING = RAISED.CONTACT_PENETRATING;
+const CONTACT_NEAR_ROLL_AXIS = RAISED.CONTACT_NEAR_ROLL_AXIS;
+const CONTACT_NEAR_PIVOT_AXIS = RAISED.CONTACT_NEAR_PIVOT_AXIS;
+const PIVOT_MISSES_ROLLER_CENTRE = RAISED.PIVOT_MISSES_ROLLER_CENTRE;
+const TANGENTIAL_SPEED_NEAR_ZERO = RAISED.TANGENTIAL_SPEED_NEAR_ZERO;
+const STEER_CANNOT_ALIGN = RAISED.STEER_CANNOT_ALIGN;
+const JACOBIAN_NEAR_RANK_LOSS = RAISED.JACOBIAN_NEAR_RANK_LOSS;
+const NORMAL_VELOCITY_UNREACHABLE = RAISED.NORMAL_VELOCITY_UNREACHABLE;
+const SLIP_REQUIRED = RAISED.SLIP_REQUIRED;
+const JOINT_LIMIT_EXCEEDED = RAISED.JOINT_LIMIT_EXCEEDED;
+const RATE_LIMIT_EXCEEDED = RAISED.RATE_LIMIT_EXCEEDED;
+const GRASP_RANK_DEFICIENT = RAISED.GRASP_RANK_DEFICIENT;
+
 /** A fixed pool of warning objects reused across solves (allocation-free raising). */
 export interface WarningList {
   /** Active warnings, in the order raised. */
@@ -239,25 +271,27 @@ export function finishWarnings(list: WarningList): SheetWarning[] {
 
 /** Raises a warning with its measured value and the threshold it crossed (units as in the catalogue). */
 export function raiseWarning(list: WarningList, code: WarningCode, finger: number | undefined, joint: number | undefined, value: number, threshold: number): SheetWarning {
-  const info = WARNING_CATALOGUE[code];
+  return raise(list, RAISED[code], finger, joint, value, threshold);
+}
+
+function raise(list: WarningList, raised: RaisedCode, finger: number | undefined, joint: number | undefined, value: number, threshold: number): SheetWarning {
   let w = list.pool[list.count];
   if (w === undefined) {
-    w = { code, severity: info.severity, finger, joint, message: info.message, value, threshold };
+    w = { code: raised.code, severity: raised.severity, finger, joint, message: raised.message, value, threshold };
     list.pool.push(w);
   } else {
-    w.code = code;
-    w.severity = info.severity;
+    w.code = raised.code;
+    w.severity = raised.severity;
     w.finger = finger;
     w.joint = joint;
-    w.message = info.message;
+    w.message = raised.message;
     w.value = value;
     w.threshold = threshold;
   }
   list.items[list.count] = w;
   list.count++;
-  list.mask = (list.mask | CODE_BIT[code]) >>> 0;
-  const rank = SEVERITY_RANK[info.severity];
-  if (rank > list.worstRank) list.worstRank = rank;
+  list.mask = (list.mask | raised.bit) >>> 0;
+  if (raised.rank > list.worstRank) list.worstRank = raised.rank;
   return w;
 }
 
@@ -300,26 +334,21 @@ export function judgedSlip(full: FullSolution, steer: SteerAndRoll): number {
   return steer.available ? steer.residualNorm : full.residualNorm;
 }
 
-const RANK_MESSAGE: Record<JudgedBasis, string> = {
-  steered: `${WARNING_CATALOGUE.JACOBIAN_NEAR_RANK_LOSS.message} Judged after steering, on the base, roll and other drive columns.`,
-  full: `${WARNING_CATALOGUE.JACOBIAN_NEAR_RANK_LOSS.message} Judged on the full Jacobian at the current joint angles.`,
-};
-
-const SLIP_MESSAGE: Record<JudgedBasis, string> = {
-  steered: `${WARNING_CATALOGUE.SLIP_REQUIRED.message} Judged on the steer-and-roll residual after steering.`,
-  full: `${WARNING_CATALOGUE.SLIP_REQUIRED.message} Judged on the full damped least-squares residual.`,
-};
+const RANK_MESSAGE_STEERED = `${WARNING_CATALOGUE.JACOBIAN_NEAR_RANK_LOSS.message} Judged after steering, on the base, roll and other drive columns.`;
+const RANK_MESSAGE_FULL = `${WARNING_CATALOGUE.JACOBIAN_NEAR_RANK_LOSS.message} Judged on the full Jacobian at the current joint angles.`;
+const SLIP_MESSAGE_STEERED = `${WARNING_CATALOGUE.SLIP_REQUIRED.message} Judged on the steer-and-roll residual after steering.`;
+const SLIP_MESSAGE_FULL = `${WARNING_CATALOGUE.SLIP_REQUIRED.message} Judged on the full damped least-squares residual.`;
 
 /** Raises every per-finger warning for finger index i after its contact and solutions are computed. */
 export function checkFinger(list: WarningList, i: number, finger: Finger, contact: Contact, full: FullSolution, steer: SteerAndRoll, settings: SolverSettings): void {
   const tolerance = settings.contactTolerance;
-  if (contact.gap > tolerance) raiseWarning(list, 'CONTACT_LOST', i, undefined, contact.gap, tolerance);
-  else if (contact.gap < -tolerance) raiseWarning(list, 'CONTACT_PENETRATING', i, undefined, contact.gap, -tolerance);
+  if (contact.gap > tolerance) raise(list, CONTACT_LOST, i, undefined, contact.gap, tolerance);
+  else if (contact.gap < -tolerance) raise(list, CONTACT_PENETRATING, i, undefined, contact.gap, -tolerance);
 
   const axisDistance = settings.axisDistance;
-  if (contact.rollAxisDistance < axisDistance) raiseWarning(list, 'CONTACT_NEAR_ROLL_AXIS', i, finger.rollIndex, contact.rollAxisDistance, axisDistance);
-  if (contact.pivotAxisDistance < axisDistance) raiseWarning(list, 'CONTACT_NEAR_PIVOT_AXIS', i, finger.pivotIndex, contact.pivotAxisDistance, axisDistance);
-  if (contact.pivotCenterDistance > axisDistance) raiseWarning(list, 'PIVOT_MISSES_ROLLER_CENTRE', i, finger.pivotIndex, contact.pivotCenterDistance, axisDistance);
+  if (contact.rollAxisDistance < axisDistance) raise(list, CONTACT_NEAR_ROLL_AXIS, i, finger.rollIndex, contact.rollAxisDistance, axisDistance);
+  if (contact.pivotAxisDistance < axisDistance) raise(list, CONTACT_NEAR_PIVOT_AXIS, i, finger.pivotIndex, contact.pivotAxisDistance, axisDistance);
+  if (contact.pivotCenterDistance > axisDistance) raise(list, PIVOT_MISSES_ROLLER_CENTRE, i, finger.pivotIndex, contact.pivotCenterDistance, axisDistance);
 
   const v = contact.objectVelocity;
   const speed = Math.sqrt(v[0] * v[0] + v[1] * v[1] + v[2] * v[2]);
@@ -327,36 +356,35 @@ export function checkFinger(list: WarningList, i: number, finger: Finger, contac
 
   // The steer direction comes from what the roller must supply after the base motion.
   const steerSpeed = steer.available ? steer.remainderNorm : contact.tangentialSpeed;
-  if (steerSpeed < settings.minTangentialSpeed) raiseWarning(list, 'TANGENTIAL_SPEED_NEAR_ZERO', i, undefined, steerSpeed, settings.minTangentialSpeed);
-  else if (steer.available && !steer.aligned && steer.residualNorm > slip) raiseWarning(list, 'STEER_CANNOT_ALIGN', i, finger.pivotIndex, steer.residualNorm, slip);
+  if (steerSpeed < settings.minTangentialSpeed) raise(list, TANGENTIAL_SPEED_NEAR_ZERO, i, undefined, steerSpeed, settings.minTangentialSpeed);
+  else if (steer.available && !steer.aligned && steer.residualNorm > slip) raise(list, STEER_CANNOT_ALIGN, i, finger.pivotIndex, steer.residualNorm, slip);
 
-  const basis = judgedBasis(steer);
   const rankRatio = judgedRankRatio(full, steer);
   if (rankRatio < settings.singularRatio) {
-    raiseWarning(list, 'JACOBIAN_NEAR_RANK_LOSS', i, undefined, rankRatio, settings.singularRatio).message = RANK_MESSAGE[basis];
+    raise(list, JACOBIAN_NEAR_RANK_LOSS, i, undefined, rankRatio, settings.singularRatio).message = steer.available ? RANK_MESSAGE_STEERED : RANK_MESSAGE_FULL;
   }
 
   if (Math.abs(contact.normalSpeed) > settings.minTangentialSpeed && !(Math.abs(steer.normalGain) >= axisDistance)) {
-    raiseWarning(list, 'NORMAL_VELOCITY_UNREACHABLE', i, finger.baseIndex >= 0 ? finger.baseIndex : undefined, Math.abs(steer.normalGain), axisDistance);
+    raise(list, NORMAL_VELOCITY_UNREACHABLE, i, finger.baseIndex >= 0 ? finger.baseIndex : undefined, Math.abs(steer.normalGain), axisDistance);
   }
 
   const residual = judgedSlip(full, steer);
-  if (residual > slip) raiseWarning(list, 'SLIP_REQUIRED', i, undefined, residual, slip).message = SLIP_MESSAGE[basis];
+  if (residual > slip) raise(list, SLIP_REQUIRED, i, undefined, residual, slip).message = steer.available ? SLIP_MESSAGE_STEERED : SLIP_MESSAGE_FULL;
 
   for (let k = 0; k < finger.jointCount; k++) {
     const angle = finger.angles[k];
-    if (angle < finger.lowerLimits[k]) raiseWarning(list, 'JOINT_LIMIT_EXCEEDED', i, k, angle, finger.lowerLimits[k]);
-    else if (angle > finger.upperLimits[k]) raiseWarning(list, 'JOINT_LIMIT_EXCEEDED', i, k, angle, finger.upperLimits[k]);
+    if (angle < finger.lowerLimits[k]) raise(list, JOINT_LIMIT_EXCEEDED, i, k, angle, finger.lowerLimits[k]);
+    else if (angle > finger.upperLimits[k]) raise(list, JOINT_LIMIT_EXCEEDED, i, k, angle, finger.upperLimits[k]);
     else if (k === finger.pivotIndex && steer.available) {
-      if (steer.pivotAngle < finger.lowerLimits[k]) raiseWarning(list, 'JOINT_LIMIT_EXCEEDED', i, k, steer.pivotAngle, finger.lowerLimits[k]);
-      else if (steer.pivotAngle > finger.upperLimits[k]) raiseWarning(list, 'JOINT_LIMIT_EXCEEDED', i, k, steer.pivotAngle, finger.upperLimits[k]);
+      if (steer.pivotAngle < finger.lowerLimits[k]) raise(list, JOINT_LIMIT_EXCEEDED, i, k, steer.pivotAngle, finger.lowerLimits[k]);
+      else if (steer.pivotAngle > finger.upperLimits[k]) raise(list, JOINT_LIMIT_EXCEEDED, i, k, steer.pivotAngle, finger.upperLimits[k]);
     }
     const rate = Math.max(Math.abs(full.rates[k]), Math.abs(steer.rates[k]));
-    if (rate > finger.rateLimits[k]) raiseWarning(list, 'RATE_LIMIT_EXCEEDED', i, k, rate, finger.rateLimits[k]);
+    if (rate > finger.rateLimits[k]) raise(list, RATE_LIMIT_EXCEEDED, i, k, rate, finger.rateLimits[k]);
   }
 }
 
 /** Raises GRASP_RANK_DEFICIENT when the contacts cannot drive every object twist. */
 export function checkGrasp(list: WarningList, grasp: GraspResult): void {
-  if (grasp.rank < 6) raiseWarning(list, 'GRASP_RANK_DEFICIENT', undefined, undefined, grasp.rank, 6);
+  if (grasp.rank < 6) raise(list, GRASP_RANK_DEFICIENT, undefined, undefined, grasp.rank, 6);
 }
