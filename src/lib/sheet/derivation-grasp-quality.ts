@@ -31,7 +31,7 @@ export function deriveGraspQuality(doc: SheetDocument, result: SheetResult, entr
     if (f.contact.state === 'separated') return;
     const mu = doc.hand.fingers[i].friction ?? DEFAULT_FRICTION;
     entries.push({
-      id: `graspQuality.cone.${i}`,
+      id: `finger.${i}.graspQuality.cone`,
       label: `${f.name}: friction cone linearised by ${m} inscribed edges, unit normal push`,
       latex: `f_{k} = -n + \\mu \\left(\\cos\\tfrac{2\\pi k}{${m}}\\, t_1 + \\sin\\tfrac{2\\pi k}{${m}}\\, t_2\\right),\\; n = ${column(f.contact.normal)},\\; \\mu = ${formatLatexNumber(mu)};\\; w_k = \\begin{pmatrix} f_k \\\\ (x - p) \\times f_k / L \\end{pmatrix},\\; \\text{reach between edges } \\cos\\tfrac{\\pi}{${m}} = ${formatLatexNumber(Math.cos(Math.PI / m))}`,
       value: mu,
