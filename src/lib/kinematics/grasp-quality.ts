@@ -16,6 +16,16 @@
  * hull facet; the grasp is force closure when the origin is strictly inside (Q > 0). The facet
  * that sets Q_L1 has outward normal u: the contacts can push least along u, so an external
  * wrench along -u is the one resisted worst.
+ *
+ * Neither hull is built from the sum's points (there are (m + 1)^k of them). Each P_i =
+ * conv({0} U G_i) is a pyramid with apex 0 over the base of G_i, so its faces are the apex, each
+ * face F of the base, the pyramid over each F and the base itself. A facet of W = P_1 + ... + P_k
+ * has a normal u orthogonal to one face per contributing contact (five independent rows in all),
+ * each chosen face lying in the face of its P_i that maximises u, at the distance
+ * h_W(u) = sum_i max(0, max_j u . w_ij). The union's hull is handled alike in the lifted space
+ * (w, 1), where its facets are linear. Every unit u has support h(u) >= Q (the ball of radius Q
+ * lies inside), with equality along the nearest facet, so the smallest support over a candidate
+ * set that holds every facet normal is exactly Q; the containment check only skips candidates.
  */
 import { baseFaces, countCombinations, forEachFaceNormal, type FaceRows } from './wrench-faces';
 import { hullFacets } from './wrench-hull';
@@ -168,23 +178,15 @@ function unionFaceQuality(input: Readonly<GraspQualityInput>, perContact: readon
 }
 
 /** Q_Linf by faces: its value, the facet normal and the number of face combinations it took (or would have taken, when over the cap). */
-interface SumFaceQuality {
+export interface SumFaceQuality {
   distance: number | null;
   normal: number[] | null;
   combinations: number;
 }
 
-/**
- * Q_Linf from the face lattices of P_i = conv({0} U G_i), a pyramid with apex 0 over the base of
- * G_i: its faces are the apex, each face F of the base, the pyramid over each F (rows F's vertex
- * and F's edges) and the base itself. A facet of the sum W = P_1 + ... + P_k has a normal u
- * orthogonal to one face per contributing contact, five independent rows in all, each chosen face
- * lying in the face of its P_i that maximises u; its distance is the support
- * h_W(u) = sum_i max(0, max_j u . w_ij). Every unit u has h_W(u) >= Q_Linf with equality along the
- * nearest facet, so the smallest support over the candidates is Q_Linf; the containment check
- * only skips candidates that cannot be facets.
- */
-function sumFaceQuality(input: Readonly<GraspQualityInput>, perContact: readonly number[][][], scale: number): SumFaceQuality {
+/** Q_Linf and its facet's outward unit normal (6-D, [force, torque / L], world frame) from the contacts' face lattices, or null past MAX_FACE_COMBINATIONS. */
+export function nearestSumFacet(input: Readonly<GraspQualityInput>, perContact: readonly number[][][]): SumFaceQuality {
+  const scale = perContact.flat().reduce((m, w) => Math.max(m, Math.hypot(...w)), 0);
   const references: number[][] = [];
   const faces: FaceRows[][] = perContact.map((generators, i) => {
     const contactFaces: FaceRows[] = [];
@@ -295,7 +297,7 @@ export function computeGraspQuality(input: Readonly<GraspQualityInput>): GraspQu
   // Adding 0 turns -0 into 0, so a reported wrench never shows a negative zero.
   for (let j = 0; j < D; j++) weakestWrench[j] = -sum.normal[j] + 0;
   // Q_L1 <= Q_Linf <= k Q_L1, so without force closure Q_Linf is 0 as well.
-  const sumByFaces = forceClosure ? sumFaceQuality(input, perContact, scale) : null;
+  const sumByFaces = forceClosure ? nearestSumFacet(input, perContact) : null;
   const maxQuality = sumByFaces === null ? 0 : sumByFaces.distance === null ? null : Math.max(0, sumByFaces.distance);
   const words = describeWrench(weakestWrench);
   return {

@@ -9,7 +9,9 @@
  * (Ziegler, "Lectures on Polytopes", 1995, sec. 7.1 for Minkowski sums; the Cayley trick of
  * Huber, Rambau & Santos, 2000, for the hull of a union). Picking faces whose spans are independent
  * and add up to one less than the space dimension gives a finite set of candidate normals that
- * contains every facet normal; the callers evaluate support functions along them.
+ * contains every facet normal; the callers evaluate support functions along them. The rows are
+ * multiplied as exterior products, each face's once, so a combination costs one wedge per
+ * contact, and the normal is the Hodge dual of the product (its cofactors).
  */
 
 /** One face: `rowCount` rows of `size` numbers spanning its direction space (and, for lifted faces, its position). */
@@ -18,7 +20,7 @@ export interface FaceRows {
   rows: Float64Array;
 }
 
-/** Base of one contact's generators: an affinely independent vertex list per face (indices into the generators), each face once. */
+/** Faces of one contact's base as affinely independent vertex lists (indices into its generators: m edges, then the twists +gamma and -gamma). */
 export function baseFaces(coneEdges: number, hasFriction: boolean, hasTorsion: boolean): number[][] {
   const m = coneEdges;
   const faces: number[][] = [];
@@ -141,12 +143,7 @@ function faceWedge(face: FaceRows, size: number): { vector: Float64Array; norm: 
   return { vector, norm };
 }
 
-/**
- * Calls `visit` with a unit vector orthogonal to the rows of every choice of at most one face per
- * contact whose rows are independent and number size - 1 (`chosen[i]` is the face index or -1).
- * The rows are multiplied as exterior products, each face's once, so a combination costs one
- * wedge per contact; the normal is the Hodge dual of the (size - 1)-vector (its cofactors).
- */
+/** Calls `visit` with the unit normal (dimensionless, the rows' frame) of each choice of at most one face per contact whose rows are independent and number size - 1 (`chosen[i]`: face index or -1). */
 export function forEachFaceNormal(
   facesPerContact: readonly (readonly FaceRows[])[], size: number,
   visit: (normal: Float64Array, chosen: Int32Array) => void,
