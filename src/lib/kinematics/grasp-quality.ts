@@ -156,6 +156,7 @@ function unionFaceQuality(input: Readonly<GraspQualityInput>, perContact: readon
   if (countCombinations(faces, LIFTED - 1) > MAX_UNION_FACE_COMBINATIONS) return null;
   const union = Float64Array.from(perContact.flat().flat());
   const count = union.length / D;
+  const tolerance = 1e-9 * perContact.flat().reduce((m, w) => Math.max(m, Math.hypot(...w)), 0);
   let best: { distance: number; normal: number[] } | null = null;
   forEachFaceNormal(faces, LIFTED, (lifted) => {
     let norm = 0;
@@ -163,14 +164,20 @@ function unionFaceQuality(input: Readonly<GraspQualityInput>, perContact: readon
     // A lifted normal along (0, 1) alone would be a hyperplane at infinity: six rows with 1 in the last place rule it out up to rounding.
     if (norm < 1e-18) return;
     norm = Math.sqrt(norm);
+    // The candidate facet u . w = c passes through the chosen faces; a generator beyond it on both sides rules it out.
+    const level = -lifted[D], slack = tolerance * norm;
+    let plus = true, minus = true;
     let most = -Infinity, least = Infinity;
     for (let k = 0; k < count; k++) {
       let dot = 0;
       for (let j = 0; j < D; j++) dot += lifted[j] * union[k * D + j];
+      if (dot > level + slack) plus = false;
+      if (dot < level - slack) minus = false;
+      if (!plus && !minus) return;
       if (dot > most) most = dot;
       if (dot < least) least = dot;
     }
-    const sign = most <= -least ? 1 : -1;
+    const sign = plus && (!minus || most <= -least) ? 1 : -1;
     const distance = (sign > 0 ? most : -least) / norm;
     if (best === null || distance < best.distance) best = { distance, normal: Array.from(lifted.subarray(0, D), (x) => (sign * x) / norm) };
   });
@@ -226,21 +233,28 @@ export function nearestSumFacet(input: Readonly<GraspQualityInput>, perContact: 
     least[i] = low;
   };
   forEachFaceNormal(faces, D, (u, chosen) => {
-    // The chosen faces first: most candidates fail there, before the other contacts are looked at.
+    // The chosen faces first, stopping at the first vertex beyond a chosen face on both sides: most candidates fail there.
     let plus = true, minus = true;
     for (let i = 0; i < flat.length; i++) {
       if (chosen[i] < 0) continue;
-      contactsOf(u, i);
+      const points = flat[i];
       const reference = references[i][chosen[i]];
       let level = 0;
-      if (reference >= 0) for (let j = 0; j < D; j++) level += u[j] * flat[i][reference * D + j];
-      if (level < most[i] - tolerance) plus = false;
-      if (level > least[i] + tolerance) minus = false;
+      if (reference >= 0) for (let j = 0; j < D; j++) level += u[j] * points[reference * D + j];
+      // The apex 0 is a vertex of P_i too.
+      if (0 > level + tolerance) plus = false;
+      if (0 < level - tolerance) minus = false;
+      for (let at = 0; at < points.length && (plus || minus); at += D) {
+        let dot = 0;
+        for (let j = 0; j < D; j++) dot += u[j] * points[at + j];
+        if (dot > level + tolerance) plus = false;
+        if (dot < level - tolerance) minus = false;
+      }
       if (!plus && !minus) return;
     }
+    for (let i = 0; i < flat.length; i++) contactsOf(u, i);
     let support = 0, opposite = 0;
     for (let i = 0; i < flat.length; i++) {
-      if (chosen[i] < 0) contactsOf(u, i);
       support += most[i];
       opposite -= least[i];
     }
