@@ -16,17 +16,27 @@
  * hull facet; the grasp is force closure when the origin is strictly inside (Q > 0). The facet
  * that sets Q_L1 has outward normal u: the contacts can push least along u, so an external
  * wrench along -u is the one resisted worst.
+ *
+ * Neither hull is built from the sum's points (there are (m + 1)^k of them). Each P_i =
+ * conv({0} U G_i) is a pyramid with apex 0 over the base of G_i, so its faces are the apex, each
+ * face F of the base, the pyramid over each F and the base itself. A facet of W = P_1 + ... + P_k
+ * has a normal u orthogonal to one face per contributing contact (five independent rows in all),
+ * each chosen face lying in the face of its P_i that maximises u, at the distance
+ * h_W(u) = sum_i max(0, max_j u . w_ij). The union's hull is handled alike in the lifted space
+ * (w, 1), where its facets are linear. Every unit u has support h(u) >= Q (the ball of radius Q
+ * lies inside), with equality along the nearest facet, so the smallest support over a candidate
+ * set that holds every facet normal is exactly Q; the containment check only skips candidates.
  */
+import { baseFaces, countCombinations, forEachFaceNormal, type FaceRows } from './wrench-faces';
 import { hullFacets } from './wrench-hull';
 
 /** Wrench-space dimension: force (3) and torque over L (3). */
 const D = 6;
+/** Lifted wrench space (w, 1) in which a facet of the union's hull is a linear hyperplane. */
+const LIFTED = D + 1;
 
 /** Relative size below which a hull distance counts as zero: the grasp is then not force closure. */
 export const FORCE_CLOSURE_TOLERANCE = 1e-5;
-
-/** Largest number of points in the Minkowski sum for Q_Linf; past it the hull takes more than about 0.2 s (the count grows as (edges + 1)^contacts). */
-export const MAX_MINKOWSKI_POINTS = 130;
 
 /** Friction and scaling of the quality computation, SI. */
 export interface GraspQualityInput {
@@ -57,8 +67,10 @@ export interface GraspQuality {
   forceClosure: boolean;
   /** Q_L1: ball radius in the hull of all edge wrenches (total normal force 1); 0 without force closure. */
   sumQuality: number;
-  /** Q_Linf: ball radius in the Minkowski sum of the contacts' wrench sets (each normal force at most 1); null when that sum has more than MAX_MINKOWSKI_POINTS points. */
+  /** Q_Linf: ball radius in the Minkowski sum of the contacts' wrench sets (each normal force at most 1); null when it takes more than MAX_FACE_COMBINATIONS face combinations. */
   maxQuality: number | null;
+  /** Face combinations Q_Linf takes (0 without force closure, where Q_Linf is 0). */
+  maxQualityCombinations: number;
   /** External wrench resisted worst, unit, [force (3), torque / L (3)], world frame. */
   weakestWrench: Float64Array;
   /** The same in words, e.g. "a push along −z". */
@@ -113,20 +125,143 @@ export function nearestFacet(points: readonly number[][]): { distance: number; n
   return { distance: hull.offsets[best], normal: Array.from(hull.normals.subarray(best * D, best * D + D)) };
 }
 
-/** Points of the Minkowski sum of conv{0, generators} over the contacts, or null past MAX_MINKOWSKI_POINTS. */
-function minkowskiPoints(perContact: readonly number[][][]): number[][] | null {
-  const total = perContact.reduce((product, generators) => product * (generators.length + 1), 1);
-  if (total > MAX_MINKOWSKI_POINTS) return null;
-  let sums: number[][] = [new Array<number>(D).fill(0)];
-  for (const generators of perContact) {
-    const next: number[][] = [];
-    for (const s of sums) {
-      next.push(s);
-      for (const g of generators) next.push(s.map((x, j) => x + g[j]));
+/** Most face combinations Q_Linf examines (about 50 ms of work on a loaded 2-core machine); past it Q_Linf is not computed. */
+export const MAX_FACE_COMBINATIONS = 100_000;
+
+/** Face combinations past which Q_L1 is faster by the incremental hull of the union than by its faces. */
+const MAX_UNION_FACE_COMBINATIONS = 4_000;
+
+/** Base faces of one contact's generators (vertex indices), from its friction and torsion. */
+function contactBaseFaces(input: Readonly<GraspQualityInput>, contact: number): number[][] {
+  return baseFaces(input.coneEdges, input.friction[contact] > 0, input.torsionalFriction > 0);
+}
+
+/**
+ * Q_L1 from the faces of the union's hull: in the lifted space (w, 1) a facet u . w = c is the
+ * linear hyperplane (u, -c), orthogonal to (v, 1) for one vertex v of each contributing base face
+ * and to that face's edge directions (v' - v, 0) (the Cayley trick), six rows in all. Every unit u
+ * has support max_k u . w_k >= Q_L1, with equality along the nearest facet's normal, so the smallest
+ * support over these candidate normals (and their opposites) is Q_L1 without checking that each
+ * candidate is a facet. Null when the union spans fewer than five dimensions or past the work cap.
+ */
+function unionFaceQuality(input: Readonly<GraspQualityInput>, perContact: readonly number[][][]): { distance: number; normal: number[] } | null {
+  const faces: FaceRows[][] = perContact.map((generators, i) => contactBaseFaces(input, i).map((vertices) => {
+    const rows = new Float64Array(vertices.length * LIFTED);
+    const reference = generators[vertices[0]];
+    for (let j = 0; j < D; j++) rows[j] = reference[j];
+    rows[D] = 1;
+    for (let r = 1; r < vertices.length; r++) for (let j = 0; j < D; j++) rows[r * LIFTED + j] = generators[vertices[r]][j] - reference[j];
+    return { rowCount: vertices.length, rows };
+  }));
+  if (countCombinations(faces, LIFTED - 1) > MAX_UNION_FACE_COMBINATIONS) return null;
+  const union = Float64Array.from(perContact.flat().flat());
+  const count = union.length / D;
+  const tolerance = 1e-9 * perContact.flat().reduce((m, w) => Math.max(m, Math.hypot(...w)), 0);
+  let best: { distance: number; normal: number[] } | null = null;
+  forEachFaceNormal(faces, LIFTED, (lifted) => {
+    let norm = 0;
+    for (let j = 0; j < D; j++) norm += lifted[j] * lifted[j];
+    // A lifted normal along (0, 1) alone would be a hyperplane at infinity: six rows with 1 in the last place rule it out up to rounding.
+    if (norm < 1e-18) return;
+    norm = Math.sqrt(norm);
+    // The candidate facet u . w = c passes through the chosen faces; a generator beyond it on both sides rules it out.
+    const level = -lifted[D], slack = tolerance * norm;
+    let plus = true, minus = true;
+    let most = -Infinity, least = Infinity;
+    for (let k = 0; k < count; k++) {
+      let dot = 0;
+      for (let j = 0; j < D; j++) dot += lifted[j] * union[k * D + j];
+      if (dot > level + slack) plus = false;
+      if (dot < level - slack) minus = false;
+      if (!plus && !minus) return;
+      if (dot > most) most = dot;
+      if (dot < least) least = dot;
     }
-    sums = next;
-  }
-  return sums;
+    const sign = plus && (!minus || most <= -least) ? 1 : -1;
+    const distance = (sign > 0 ? most : -least) / norm;
+    if (best === null || distance < best.distance) best = { distance, normal: Array.from(lifted.subarray(0, D), (x) => (sign * x) / norm) };
+  });
+  return best;
+}
+
+/** Q_Linf by faces: its value, the facet normal and the number of face combinations it took (or would have taken, when over the cap). */
+export interface SumFaceQuality {
+  distance: number | null;
+  normal: number[] | null;
+  combinations: number;
+}
+
+/** Q_Linf and its facet's outward unit normal (6-D, [force, torque / L], world frame) from the contacts' face lattices, or null past MAX_FACE_COMBINATIONS. */
+export function nearestSumFacet(input: Readonly<GraspQualityInput>, perContact: readonly number[][][]): SumFaceQuality {
+  const scale = perContact.flat().reduce((m, w) => Math.max(m, Math.hypot(...w)), 0);
+  const references: number[][] = [];
+  const faces: FaceRows[][] = perContact.map((generators, i) => {
+    const contactFaces: FaceRows[] = [];
+    const contactReferences: number[] = [];
+    for (const vertices of contactBaseFaces(input, i)) {
+      const reference = generators[vertices[0]];
+      const directions = vertices.slice(1).map((v) => generators[v].map((x, j) => x - reference[j]));
+      if (directions.length > 0) {
+        contactFaces.push({ rowCount: directions.length, rows: Float64Array.from(directions.flat()) });
+        contactReferences.push(vertices[0]);
+      }
+      contactFaces.push({ rowCount: directions.length + 1, rows: Float64Array.from([...reference, ...directions.flat()]) });
+      // The pyramid over a face contains the apex 0.
+      contactReferences.push(-1);
+    }
+    references.push(contactReferences);
+    return contactFaces;
+  });
+  const combinations = countCombinations(faces, D - 1);
+  if (combinations > MAX_FACE_COMBINATIONS) return { distance: null, normal: null, combinations };
+  const flat = perContact.map((generators) => Float64Array.from(generators.flat()));
+  const most = new Float64Array(perContact.length), least = new Float64Array(perContact.length);
+  const tolerance = 1e-9 * scale;
+  let bestDistance = Infinity;
+  let bestNormal: number[] | null = null;
+  /** Largest and smallest u . w over contact i's set P_i (0 included), into most[i] and least[i]. */
+  const contactsOf = (u: Float64Array, i: number): void => {
+    const points = flat[i];
+    let high = 0, low = 0;
+    for (let at = 0; at < points.length; at += D) {
+      let dot = 0;
+      for (let j = 0; j < D; j++) dot += u[j] * points[at + j];
+      if (dot > high) high = dot;
+      if (dot < low) low = dot;
+    }
+    most[i] = high;
+    least[i] = low;
+  };
+  forEachFaceNormal(faces, D, (u, chosen) => {
+    // The chosen faces first, stopping at the first vertex beyond a chosen face on both sides: most candidates fail there.
+    let plus = true, minus = true;
+    for (let i = 0; i < flat.length; i++) {
+      if (chosen[i] < 0) continue;
+      const points = flat[i];
+      const reference = references[i][chosen[i]];
+      let level = 0;
+      if (reference >= 0) for (let j = 0; j < D; j++) level += u[j] * points[reference * D + j];
+      // The apex 0 is a vertex of P_i too.
+      if (0 > level + tolerance) plus = false;
+      if (0 < level - tolerance) minus = false;
+      for (let at = 0; at < points.length && (plus || minus); at += D) {
+        let dot = 0;
+        for (let j = 0; j < D; j++) dot += u[j] * points[at + j];
+        if (dot > level + tolerance) plus = false;
+        if (dot < level - tolerance) minus = false;
+      }
+      if (!plus && !minus) return;
+    }
+    for (let i = 0; i < flat.length; i++) contactsOf(u, i);
+    let support = 0, opposite = 0;
+    for (let i = 0; i < flat.length; i++) {
+      support += most[i];
+      opposite -= least[i];
+    }
+    if (plus && support < bestDistance) { bestDistance = support; bestNormal = Array.from(u); }
+    if (minus && opposite < bestDistance) { bestDistance = opposite; bestNormal = Array.from(u, (x) => -x); }
+  });
+  return { distance: bestNormal === null ? null : bestDistance, normal: bestNormal, combinations };
 }
 
 const AXES = ['x', 'y', 'z'];
@@ -168,15 +303,16 @@ export function computeGraspQuality(input: Readonly<GraspQualityInput>): GraspQu
   const weakestWrench = new Float64Array(D);
   if (union.length === 0) {
     weakestWrench[0] = 1;
-    return { contactCount, coneEdges, torqueLength, forceClosure: false, sumQuality: 0, maxQuality: 0, weakestWrench, weakestWords: 'no contact: every push is unresisted' };
+    return { contactCount, coneEdges, torqueLength, forceClosure: false, sumQuality: 0, maxQuality: 0, maxQualityCombinations: 0, weakestWrench, weakestWords: 'no contact: every push is unresisted' };
   }
   const scale = union.reduce((m, w) => Math.max(m, Math.hypot(...w)), 0);
-  const sum = nearestFacet(union);
+  const sum = unionFaceQuality(input, perContact) ?? nearestFacet(union);
   const forceClosure = sum.distance > FORCE_CLOSURE_TOLERANCE * scale;
   // Adding 0 turns -0 into 0, so a reported wrench never shows a negative zero.
   for (let j = 0; j < D; j++) weakestWrench[j] = -sum.normal[j] + 0;
-  const minkowski = minkowskiPoints(perContact);
-  const maxQuality = minkowski === null ? null : forceClosure ? Math.max(0, nearestFacet(minkowski).distance) : 0;
+  // Q_L1 <= Q_Linf <= k Q_L1, so without force closure Q_Linf is 0 as well.
+  const sumByFaces = forceClosure ? nearestSumFacet(input, perContact) : null;
+  const maxQuality = sumByFaces === null ? 0 : sumByFaces.distance === null ? null : Math.max(0, sumByFaces.distance);
   const words = describeWrench(weakestWrench);
   return {
     contactCount,
@@ -185,6 +321,7 @@ export function computeGraspQuality(input: Readonly<GraspQualityInput>): GraspQu
     forceClosure,
     sumQuality: forceClosure ? sum.distance : 0,
     maxQuality,
+    maxQualityCombinations: sumByFaces?.combinations ?? 0,
     weakestWrench,
     weakestWords: forceClosure ? `${words} is resisted worst` : `${words} is not resisted at all`,
   };

@@ -72,7 +72,7 @@ export type { SteerAndRoll } from './steer-and-roll';
 export type { GraspResult } from './grasp';
 export { SEVERITY_LEVELS, WARNING_CATALOGUE, WARNING_CODES } from './warnings';
 export type { JudgedBasis, SheetWarning, WarningCode, WarningInfo, WarningSeverity } from './warnings';
-export { computeGraspQuality, describeWrench, FORCE_CLOSURE_TOLERANCE, MAX_MINKOWSKI_POINTS } from './grasp-quality';
+export { computeGraspQuality, describeWrench, FORCE_CLOSURE_TOLERANCE, MAX_FACE_COMBINATIONS } from './grasp-quality';
 export type { GraspQuality, GraspQualityInput } from './grasp-quality';
 export {
   computeSheetGraspQuality, createResult, createScene, DEFAULT_CONE_EDGES, DEFAULT_FRICTION, setJointAngles, setObjectPose, setObjectTwist, solveScene, solveSheet, toPlainResult,

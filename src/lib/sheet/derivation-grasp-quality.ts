@@ -3,7 +3,7 @@
  * contact's linearised cone, force closure, Q_L1, Q_Linf and the weakest external wrench, each as
  * its formula and then the numbers put in. Built on demand from a finished result.
  */
-import { computeSheetGraspQuality, DEFAULT_FRICTION, FORCE_CLOSURE_TOLERANCE, type SheetResult } from '../kinematics';
+import { computeSheetGraspQuality, DEFAULT_FRICTION, FORCE_CLOSURE_TOLERANCE, MAX_FACE_COMBINATIONS, type SheetResult } from '../kinematics';
 import { formatLatexNumber, type DerivationEntry } from './derivation';
 import type { SheetDocument } from './types';
 
@@ -49,8 +49,16 @@ export function deriveGraspQuality(doc: SheetDocument, result: SheetResult, entr
     entries.push({
       id: 'graspQuality.maxQuality',
       label: 'Grasp quality Q_Linf (Ferrari-Canny): each normal force at most 1',
-      latex: `Q_{L_\\infty} = \\min_{\\text{facets } u \\cdot w \\le c \\text{ of } \\bigoplus_i \\operatorname{conv}\\{0, w_{i1}, \\dots, w_{i${m}}\\}} c = ${formatLatexNumber(quality.maxQuality)}`,
+      latex: `Q_{L_\\infty} = \\min_{\\text{facets } u \\text{ of } \\bigoplus_i \\operatorname{conv}\\{0, w_{i1}, \\dots, w_{i${m}}\\}} \\sum_i \\max\\bigl(0, \\max_k u \\cdot w_{ik}\\bigr) = ${formatLatexNumber(quality.maxQuality)} \\quad (\\text{${quality.maxQualityCombinations} face combinations})`,
       value: quality.maxQuality,
+      unit: '1',
+    });
+  } else {
+    entries.push({
+      id: 'graspQuality.maxQuality',
+      label: `Grasp quality Q_Linf not computed: ${quality.maxQualityCombinations} face combinations, more than ${MAX_FACE_COMBINATIONS}`,
+      latex: `\\text{face combinations} = ${quality.maxQualityCombinations} > ${MAX_FACE_COMBINATIONS}`,
+      value: quality.maxQualityCombinations,
       unit: '1',
     });
   }

@@ -78,6 +78,22 @@ describe('grasp quality through the evaluation pipeline', () => {
     expect(derivation.find((e) => e.id === 'graspQuality.torqueLength')?.latex).toContain('\\max_i');
   });
 
+  it('computes Q_Linf for the default three-finger sheet with 8 cone edges and derives it', () => {
+    const evaluated = evaluateSheet(rawSheet(), { derive: true });
+    expect(evaluated.ok).toBe(true);
+    if (!evaluated.ok) return;
+    const { result, derivation } = evaluated.value;
+    const quality = result.graspQuality!;
+    expect(quality.coneEdges).toBe(8);
+    expect(quality.forceClosure).toBe(true);
+    // Ferrari & Canny 1992: the hull of the union lies in the Minkowski sum, which lies in k times it (k contacts).
+    expect(quality.maxQuality).toBeGreaterThanOrEqual(quality.sumQuality);
+    expect(quality.maxQuality).toBeLessThanOrEqual(quality.contactCount * quality.sumQuality);
+    const entry = derivation.find((e) => e.id === 'graspQuality.maxQuality');
+    expect(entry?.value).toBe(quality.maxQuality);
+    expect(entry?.latex).toContain(`${quality.maxQualityCombinations} face combinations`);
+  });
+
   it('uses the torsional friction only for soft fingers', () => {
     const soft = (softFinger: boolean) => evaluateSheet(rawSheet((d) => {
       d.solver = { softFinger };
