@@ -218,7 +218,7 @@ const lines = [
 console.log(lines.join('\n'));
 
 // Grasp quality is computed once per evaluation (not per tick), so it is timed on its own: the
-// Ferrari-Canny hulls of the three contacts with 8 cone edges each, as each evaluation computes them.
+// Ferrari-Canny qualities (Q_L1 and Q_Linf) of the three contacts with 8 cone edges each, as each evaluation computes them.
 const graspQualityInput = {
   origin: threeResult.object.position,
   points: threeResult.fingers.flatMap((f) => Array.from(f.contact.objectPoint)),
