@@ -2,7 +2,9 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
 import { mkdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { baseUrl, launchBrowser, SCREENSHOT_DIR, signIn } from './browser';
+import { appDatabaseUrl, baseUrl, launchBrowser, SCREENSHOT_DIR, signIn } from './browser';
+import { openDatabase } from '../../src/db';
+import { deleteSheet } from '../../src/lib/server/sheets';
 import { evaluateSheet } from '../../src/lib/sheet/evaluate';
 import { displayValue, findOutput } from '../../src/lib/sheet/outputs';
 
@@ -11,6 +13,7 @@ const SHEET_FILE = new URL('../../content/sheets/line4-bearing-housing-quarter-t
 
 let browser: Browser;
 let page: Page;
+const created: string[] = [];
 
 beforeAll(async () => {
   browser = await launchBrowser();
@@ -20,19 +23,27 @@ beforeAll(async () => {
 
 afterAll(async () => {
   await browser?.close();
+  // Other browser tests list and search the demo team's sheets: leave only the seeded ones.
+  const database = await openDatabase(appDatabaseUrl());
+  try {
+    for (const sheetId of created) await deleteSheet(database, sheetId, { userId: null });
+  } finally {
+    database.close();
+  }
 });
 
 describe('curvature on the sheet page', () => {
   it('shows each contact\'s curvatures and contact-point speed, as the evaluation gives them, and their derivation', async () => {
-    const title = (JSON.parse(readFileSync(SHEET_FILE, 'utf8')) as { title: string }).title;
-    const me = await (await page.request.get(`${baseUrl()}/api/me`)).json();
-    const list = await (await page.request.get(`${baseUrl()}/api/sheets?team=${me.currentTeam}&q=${encodeURIComponent('Bearing housing')}`)).json();
-    const sheetId = list.items.find((s: { title: string }) => s.title === title).id;
-    // Other browser tests save edits to this demo sheet, so compare with the revision the page opens.
-    const stored = await (await page.request.get(`${baseUrl()}/api/sheets/${sheetId}`)).json();
-    const evaluated = evaluateSheet(stored.revision.inputs);
+    // Its own copy of the example: other browser tests save edits to the seeded demo sheets.
+    const document = JSON.parse(readFileSync(SHEET_FILE, 'utf8')) as { title: string };
+    const evaluated = evaluateSheet(document);
     if (!evaluated.ok) throw new Error(evaluated.error.message);
     const { result } = evaluated.value;
+    const me = await (await page.request.get(`${baseUrl()}/api/me`)).json();
+    const answer = await page.request.post(`${baseUrl()}/api/sheets`, { data: { teamId: me.currentTeam, title: `${document.title} (curvature check)`, document } });
+    expect(answer.status()).toBe(201);
+    const { sheetId } = await answer.json();
+    created.push(sheetId);
     await page.goto(`${baseUrl()}/sheets/${sheetId}`, { waitUntil: 'networkidle' });
     const relative = page.locator('[data-result="0.curvature.relative"]').first();
     await relative.waitFor();
