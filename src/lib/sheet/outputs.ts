@@ -328,6 +328,8 @@ export function displayNumber(definition: OutputDefinition, si: number): string 
 export function displayValue(definition: OutputDefinition, value: OutputValue | readonly number[]): string {
   if (typeof value === 'string') return value;
   if (typeof value === 'number') return displayNumber(definition, value);
+  // The usual finger has one base joint: its rate reads as a number, not as a one-entry vector.
+  if (definition.parts === 'base-joints' && value.length === 1) return displayNumber(definition, value[0]!);
   return `(${value.map((x) => displayNumber(definition, x)).join(', ')})`;
 }
 

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import katex from 'katex';
 import { solveSheet, toPlainResult } from '../../../src/lib/kinematics';
 import { deriveSheet } from '../../../src/lib/sheet/derivation';
-import { listOutputs } from '../../../src/lib/sheet/outputs';
+import { displayValue, findOutput, listOutputs } from '../../../src/lib/sheet/outputs';
 import { FINGER_COLUMNS, fingerRows, rateColumns } from '../../../src/lib/sheet/results-csv';
 import { threeFingerSheet } from '../kinematics/three-finger-sheet';
 
@@ -29,6 +29,14 @@ describe('a finger with two base joints on the sheet', () => {
     const values = rows.filter((row) => row.group === 'finger 1').map((row) => row.value as number);
     expect(values).toBeNear(expected, { digits: 13 });
     expect(rows.filter((row) => row.group === 'finger 2')).toHaveLength(1);
+  });
+
+  it('shows two base rates as a vector and a single base rate as a plain number', () => {
+    const baseRates = findOutput('steer.baseRates');
+    expect(displayValue(baseRates, baseRates.read(plain, 0))).toMatch(/^\(.+, .+\)$/);
+    const single = displayValue(baseRates, baseRates.read(plain, 1));
+    expect(single).not.toMatch(/[(),]/);
+    expect(single).toBe(displayValue(baseRates, plain.fingers[1]!.steer.baseRates[0]!));
   });
 
   it('writes a base-rate column per base joint in the CSV, blank where a finger has fewer', () => {
