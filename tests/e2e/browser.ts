@@ -2,6 +2,8 @@ import { mkdirSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { chromium, type Browser, type Page } from 'playwright-core';
 import { inject } from 'vitest';
+import { openDatabase } from '../../src/db';
+import { deleteSheet } from '../../src/lib/server/sheets';
 
 export const CHROMIUM_PATH = '/usr/bin/chromium';
 export const SCREENSHOT_DIR = resolve('test-results/screenshots');
@@ -62,4 +64,14 @@ export async function signIn(page: Page, email: string, password: string): Promi
   await page.getByLabel('Password', { exact: true }).fill(password);
   await page.getByRole('button', { name: 'Sign in', exact: true }).click();
   await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
+}
+
+/** Deletes sheets a test created, straight in the app's database: other browser tests list and search the demo team's sheets, so only the seeded ones may stay. */
+export async function deleteCreatedSheets(sheetIds: readonly string[]): Promise<void> {
+  const database = await openDatabase(appDatabaseUrl());
+  try {
+    for (const sheetId of sheetIds) await deleteSheet(database, sheetId, { userId: null });
+  } finally {
+    database.close();
+  }
 }

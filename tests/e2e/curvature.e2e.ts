@@ -2,9 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
 import { mkdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { appDatabaseUrl, baseUrl, launchBrowser, SCREENSHOT_DIR, signIn } from './browser';
-import { openDatabase } from '../../src/db';
-import { deleteSheet } from '../../src/lib/server/sheets';
+import { baseUrl, deleteCreatedSheets, launchBrowser, SCREENSHOT_DIR, signIn } from './browser';
 import { evaluateSheet } from '../../src/lib/sheet/evaluate';
 import { displayValue, findOutput } from '../../src/lib/sheet/outputs';
 
@@ -23,13 +21,7 @@ beforeAll(async () => {
 
 afterAll(async () => {
   await browser?.close();
-  // Other browser tests list and search the demo team's sheets: leave only the seeded ones.
-  const database = await openDatabase(appDatabaseUrl());
-  try {
-    for (const sheetId of created) await deleteSheet(database, sheetId, { userId: null });
-  } finally {
-    database.close();
-  }
+  await deleteCreatedSheets(created);
 });
 
 describe('curvature on the sheet page', () => {

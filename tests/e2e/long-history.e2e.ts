@@ -2,10 +2,9 @@ import { readFileSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, BrowserContext } from 'playwright-core';
 import { openDatabase } from '../../src/db';
-import { deleteSheet } from '../../src/lib/server/sheets';
 import { largestSheet } from '../helpers/largest-sheet';
 import { addRevisions } from '../helpers/revisions';
-import { appDatabaseUrl, baseUrl, launchBrowser, saveScreenshot, signIn } from './browser';
+import { appDatabaseUrl, baseUrl, deleteCreatedSheets, launchBrowser, saveScreenshot, signIn } from './browser';
 
 const REVISIONS = 5_000;
 
@@ -21,13 +20,7 @@ beforeAll(async () => {
 
 afterAll(async () => {
   await browser?.close();
-  // Other browser tests list and search the demo team's sheets: leave only the seeded ones.
-  const database = await openDatabase(appDatabaseUrl());
-  try {
-    for (const sheetId of created) await deleteSheet(database, sheetId, { userId: null });
-  } finally {
-    database.close();
-  }
+  await deleteCreatedSheets(created);
 });
 
 /** Creates a sheet in the editor's current team through the API and returns its id. */

@@ -6,7 +6,7 @@
  * friction), a bipyramid over the m-gon with the twists as apexes (soft finger), a segment between
  * the twists (soft finger without friction) or one point (frictionless). A facet of a sum or union
  * of such sets has a normal orthogonal to the direction spaces of one face per contributing contact
- * (Ziegler, "Lectures on Polytopes", 1995, sec. 7.1 for Minkowski sums; the Cayley trick of
+ * (Ziegler's polytope textbook, 1995, sec. 7.1 for Minkowski sums; the Cayley trick of
  * Huber, Rambau & Santos, 2000, for the hull of a union). Picking faces whose spans are independent
  * and add up to one less than the space dimension gives a finite set of candidate normals that
  * contains every facet normal; the callers evaluate support functions along them. The rows are

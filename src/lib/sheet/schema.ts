@@ -484,10 +484,12 @@ named(solverSchema, 'SolverSettings', 'Thresholds and options of the contact sol
 
 const graspQualitySchema = z
   .strictObject({
+    // The range comes before the whole-number check so that 1e308 is told the stated limit, not the safe-integer one.
     coneEdges: z
-      .int({ error: expect('expected a whole number of cone edges') })
+      .number({ error: expect('expected a whole number of cone edges') })
       .min(MIN_CONE_EDGES, { error: `at least ${MIN_CONE_EDGES} cone edges` })
       .max(MAX_CONE_EDGES, { error: `at most ${MAX_CONE_EDGES} cone edges` })
+      .int({ error: 'expected a whole number of cone edges' })
       .default(DEFAULT_GRASP_QUALITY.coneEdges),
     torsionalFriction: nonNegativeLength.default(DEFAULT_GRASP_QUALITY.torsionalFriction),
     torqueLength: positiveLength.optional(),

@@ -1,48 +1,8 @@
 import { describe, expect, it } from 'vitest';
-import { solve, type Coefficients } from 'yalps';
 import {
   computeGraspQuality, contactWrenches, MAX_FACE_COMBINATIONS, nearestFacet, nearestSumFacet, type GraspQualityInput,
 } from '../../../src/lib/kinematics/grasp-quality';
-
-/**
- * Independent route: the linear program "largest t with t u in the Minkowski sum" (each contact's
- * edge weights add up to at most 1, solved by yalps). Along the nearest facet's normal it equals that
- * facet's distance (the ball touches the facet there), and along any direction it is at least the
- * inscribed radius (Ferrari & Canny 1992: Q is the radius of the largest origin-centred ball inside).
- */
-function sumRayDistance(perContact: number[][][], u: readonly number[]): number {
-  const constraints: Record<string, { equal: number } | { max: number }> = {};
-  for (let j = 0; j < 6; j++) constraints[`w${j}`] = { equal: 0 };
-  const variables: Record<string, Coefficients> = {};
-  perContact.forEach((generators, i) => {
-    constraints[`budget${i}`] = { max: 1 };
-    generators.forEach((w, k) => {
-      const coefficients: Record<string, number> = { [`budget${i}`]: 1 };
-      for (let j = 0; j < 6; j++) coefficients[`w${j}`] = w[j];
-      variables[`l${i}_${k}`] = coefficients;
-    });
-  });
-  const along: Record<string, number> = { t: 1 };
-  for (let j = 0; j < 6; j++) along[`w${j}`] = -u[j];
-  variables.t = along;
-  const solution = solve({ direction: 'maximize', objective: 't', constraints, variables });
-  expect(solution.status).toBe('optimal');
-  return solution.result;
-}
-
-/** Unit 6-vectors from a fixed linear congruential sequence (any spread of directions will do). */
-function directions(count: number, seed: number): number[][] {
-  let state = seed;
-  const next = () => {
-    state = (state * 1103515245 + 12345) % 2147483648;
-    return state / 2147483648 - 0.5;
-  };
-  return Array.from({ length: count }, () => {
-    const v = Array.from({ length: 6 }, next);
-    const length = Math.hypot(...v);
-    return v.map((x) => x / length);
-  });
-}
+import { directions, rayDistance } from './wrench-routes';
 
 /** Every point of the Minkowski sum of conv{0, generators} over the contacts: the independent hull route, for small sums. */
 function minkowskiOf(perContact: number[][][]): number[][] {
@@ -78,8 +38,8 @@ describe('Q_Linf from the contacts\' face lattices', () => {
     const facet = nearestSumFacet(input, perContact);
     expect(facet.distance).toBe(quality.maxQuality);
     // Ferrari & Canny 1992 with the LP solved by yalps: ray length along the nearest facet's normal equals its distance.
-    expect(sumRayDistance(perContact, facet.normal!)).toBeCloseTo(quality.maxQuality!, 7);
-    for (const direction of directions(40, 777)) expect(sumRayDistance(perContact, direction)).toBeGreaterThanOrEqual(quality.maxQuality! - 1e-7);
+    expect(rayDistance(perContact, facet.normal!, 'max')).toBeCloseTo(quality.maxQuality!, 7);
+    for (const direction of directions(40, 777)) expect(rayDistance(perContact, direction, 'max')).toBeGreaterThanOrEqual(quality.maxQuality! - 1e-7);
   });
 
   it('equals the distance to the nearest facet of the hull of all the sum\'s points, where that hull is small enough to build', () => {

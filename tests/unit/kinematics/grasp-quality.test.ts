@@ -1,48 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { solve, type Coefficients } from 'yalps';
 import { computeGraspQuality, contactWrenches, nearestFacet, type GraspQualityInput } from '../../../src/lib/kinematics/grasp-quality';
-
-/**
- * Independent route: the linear program "largest t with t u in the wrench set" (solved by yalps),
- * the ray distance along u. Along the nearest facet's normal it equals that facet's distance,
- * and along any direction it is at least the inscribed ball's radius Q (Ferrari & Canny 1992:
- * Q is the radius of the largest origin-centred ball inside the set).
- */
-function rayDistance(perContact: number[][][], u: readonly number[], form: 'sum' | 'max'): number {
-  const constraints: Record<string, { equal: number } | { max: number }> = {};
-  for (let j = 0; j < 6; j++) constraints[`w${j}`] = { equal: 0 };
-  const variables: Record<string, Coefficients> = {};
-  perContact.forEach((generators, i) => {
-    if (form === 'max') constraints[`budget${i}`] = { max: 1 };
-    generators.forEach((w, k) => {
-      const coefficients: Record<string, number> = form === 'sum' ? { budget: 1 } : { [`budget${i}`]: 1 };
-      for (let j = 0; j < 6; j++) coefficients[`w${j}`] = w[j];
-      variables[`l${i}_${k}`] = coefficients;
-    });
-  });
-  // The sum form is the hull of the generators themselves: the weights add up to exactly 1.
-  if (form === 'sum') constraints.budget = { equal: 1 };
-  const along: Record<string, number> = { t: 1 };
-  for (let j = 0; j < 6; j++) along[`w${j}`] = -u[j];
-  variables.t = along;
-  const solution = solve({ direction: 'maximize', objective: 't', constraints, variables });
-  expect(solution.status).toBe('optimal');
-  return solution.result;
-}
-
-/** Unit 6-vectors from a fixed linear congruential sequence (any spread of directions will do). */
-function directions(count: number): number[][] {
-  let state = 12345;
-  const next = () => {
-    state = (state * 1103515245 + 12345) % 2147483648;
-    return state / 2147483648 - 0.5;
-  };
-  return Array.from({ length: count }, () => {
-    const v = Array.from({ length: 6 }, next);
-    const length = Math.hypot(...v);
-    return v.map((x) => x / length);
-  });
-}
+import { directions, rayDistance } from './wrench-routes';
 
 const radius = 0.03;
 /** Three contacts on a 30 mm sphere, 120 degrees apart around z and tilted off the equator (outward normals through the centre). */

@@ -38,6 +38,7 @@ describe('grasp-quality inputs in the sheet document', () => {
     ['a friction coefficient past 5', (d: Record<string, any>) => { d.hand.fingers[1].friction = 7; }, 'hand.fingers[1].friction', 'must be at most 5'],
     ['a friction coefficient with a unit', (d: Record<string, any>) => { d.hand.fingers[0].friction = '0.5 mm'; }, 'hand.fingers[0].friction', 'expected a friction coefficient'],
     ['two cone edges', (d: Record<string, any>) => { d.graspQuality = { coneEdges: 2 }; }, 'graspQuality.coneEdges', 'at least 3 cone edges'],
+    ['1e308 cone edges', (d: Record<string, any>) => { d.graspQuality = { coneEdges: 1e308 }; }, 'graspQuality.coneEdges', 'at most 32 cone edges'],
     ['33 cone edges', (d: Record<string, any>) => { d.graspQuality = { coneEdges: 33 }; }, 'graspQuality.coneEdges', 'at most 32 cone edges'],
     ['a fractional number of edges', (d: Record<string, any>) => { d.graspQuality = { coneEdges: 7.5 }; }, 'graspQuality.coneEdges', 'whole number'],
     ['a zero torque length', (d: Record<string, any>) => { d.graspQuality = { torqueLength: 0 }; }, 'graspQuality.torqueLength', 'greater than 0'],
