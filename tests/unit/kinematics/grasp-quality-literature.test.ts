@@ -3,9 +3,10 @@
  *
  * Published verdicts reproduced here:
  * - V.-D. Nguyen, "Constructing force-closure grasps in 3D" (IEEE ICRA 1987; IJRR 1988, "Constructing
- *   force-closure grasps"): two soft-finger contacts are force closure exactly when the segment
- *   joining them points strictly inside both friction cones (from memory, the published abstract
- *   states the converse for "non-marginal equilibrium grasps with at least two soft-finger contacts").
+ *   force-closure grasps"; venues from memory): two soft-finger contacts are force closure exactly
+ *   when the segment joining them points strictly inside both friction cones. The paper's abstract
+ *   states that non-marginal equilibrium grasps with at least two soft-finger contacts are force
+ *   closure; the "only if" half is from memory.
  * - A spatial grasp by frictionless point contacts needs at least seven of them (Lakshminarayana
  *   1978; Markenscoff, Ni & Papadimitriou, "The geometry of grasping", IJRR 1990; from memory): the
  *   origin of six-dimensional wrench space is inside the hull of d + 1 = 7 points at the least.
