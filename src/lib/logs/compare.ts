@@ -24,7 +24,7 @@ import type { LogMapping } from './mapping';
 import { readLog, type LogGap, type LogIssue, type LogSample, type LogSource } from './read-log';
 import {
   addResidual, addToDecimator, breakInterval, createAccumulator, createDecimator, finishAccumulator, finishDecimator,
-  type DecimatedSeries, type ResidualAccumulator, type ResidualStatistics,
+  type DecimatedSeries, type ResidualStatistics,
 } from './statistics';
 
 /** Buckets of the decimated plot series (each keeps its smallest and largest value). */
@@ -177,7 +177,7 @@ export async function compareLog(doc: SheetDocument, mapping: LogMapping, source
   const targetPosition = Float64Array.from(doc.motion.target.position);
   const targetOrientation = quat.fromSheet(doc.motion.target.orientation, new Float64Array(4));
 
-  const compared = joints.flatMap((j, m) => (mapping.joints[m]!.commandedRate ? [m] : []));
+  const compared = mapping.joints.flatMap((entry, m) => (entry.commandedRate ? [m] : []));
   const measuredJoint = fingers.map((f, fi) => Array.from({ length: f.jointCount }, (_, k) => joints.findIndex((j, m) => j.finger === fi && j.index === k && mapping.joints[m]!.measuredRate !== undefined)));
   const slipJudged = measuredJoint.map((entries) => entries.every((m) => m >= 0));
   const jointStats = compared.map(() => createAccumulator(tolerances.rate));

@@ -65,6 +65,32 @@ interface Cell {
   what: string;
 }
 
+/** The cells of a row that the mapping reads, resolved against the header once. */
+interface Cells {
+  time: Cell;
+  position: Cell[];
+  /** Quaternion parts x, y, z, w, or roll, pitch, yaw. */
+  quaternion?: Cell[];
+  rollPitchYaw?: Cell[];
+  angles: (Cell | undefined)[];
+  commanded: (Cell | undefined)[];
+  measured: (Cell | undefined)[];
+  twist?: Cell[];
+}
+
+/**
+ * The decimal number a cell holds, or NaN. Number() alone would also read "" and blanks as 0 and
+ * "0x10", "0b1" and "0o7" as integers; only decimal notation counts as a logged value.
+ */
+function decimal(text: string): number {
+  const value = Number(text);
+  if (!Number.isFinite(value)) return NaN;
+  if (value === 0 && text.trim() === '') return NaN;
+  const second = text.charCodeAt(1) | 0x20;
+  if (text.length > 2 && text.charCodeAt(0) === 48 && (second === 120 || second === 98 || second === 111)) return NaN;
+  return value;
+}
+
 /** Samples handed out live in a ring of this many; a sample stays valid until this many more have been read. */
 export const SAMPLE_RING = 3;
 
@@ -110,12 +136,12 @@ export function readLog(source: LogSource, mapping: LogMapping, options: ReadLog
   const timeFactor = TIME_UNITS[mapping.time.unit];
   const period = mapping.time.period === undefined ? undefined : mapping.time.period * timeFactor;
   let header: string[] = [];
-  let cells: Record<string, Cell> | undefined;
+  let cells: Cells | undefined;
   let line = 0;
   let sampleCount = 0;
   let previousTime = NaN;
   let nominal = period;
-  const values = new Float64Array(64);
+  const values = new Float64Array(4);
 
   const addIssue = (issue: Omit<LogIssue, 'message'>): void => {
     const where = issue.column === undefined ? `line ${issue.line}` : `line ${issue.line}, column ${issue.column}${issue.columnName === undefined ? '' : ` ("${issue.columnName}")`}`;
@@ -127,32 +153,35 @@ export function readLog(source: LogSource, mapping: LogMapping, options: ReadLog
     const positions = new Map<string, number>();
     const repeated = new Set<string>();
     header.forEach((name, i) => (positions.has(name) ? repeated.add(name) : positions.set(name, i)));
-    const found: Record<string, Cell> = {};
-    const want = (key: string, name: string, factor: number, limit: number, what: string, path: string): void => {
+    const want = (name: string, factor: number, limit: number, what: string, path: string): Cell => {
       const index = positions.get(name);
       if (index === undefined) addIssue({ line: 1, expected: `a column "${name}" (${path} in the mapping)`, found: 'no such column in the header' });
       else if (repeated.has(name)) addIssue({ line: 1, column: index + 1, columnName: name, expected: `one column named "${name}" (${path})`, found: 'it more than once' });
-      else found[key] = { index, factor, limit, what };
+      return { index: index ?? -1, factor, limit, what };
     };
-    want('time', mapping.time.column, timeFactor, MAX_LOG_TIME, 'a time', 'time.column');
     const length = LENGTH_UNITS[mapping.pose.position.unit];
-    mapping.pose.position.columns.forEach((name, k) => want(`p${k}`, name, length, MAX_LENGTH, 'a position', `pose.position.columns[${k}]`));
     const orientation = mapping.pose.orientation;
-    if ('quaternion' in orientation) {
-      (['x', 'y', 'z', 'w'] as const).forEach((part, k) => want(`q${k}`, orientation.quaternion[part], 1, 2, 'a quaternion part', `pose.orientation.quaternion.${part}`));
-    } else {
-      const factor = ANGLE_UNITS[orientation.rollPitchYaw.unit];
-      orientation.rollPitchYaw.columns.forEach((name, k) => want(`r${k}`, name, factor, MAX_ANGLE, 'an angle', `pose.orientation.rollPitchYaw.columns[${k}]`));
-    }
-    mapping.joints.forEach((entry, j) => {
-      if (entry.angle) want(`a${j}`, entry.angle.column, ANGLE_UNITS[entry.angle.unit], MAX_ANGLE, 'a joint angle', `joints[${j}].angle.column`);
-      if (entry.commandedRate) want(`c${j}`, entry.commandedRate.column, RATE_UNITS[entry.commandedRate.unit], MAX_ANGULAR_SPEED, 'a joint rate', `joints[${j}].commandedRate.column`);
-      if (entry.measuredRate) want(`m${j}`, entry.measuredRate.column, RATE_UNITS[entry.measuredRate.unit], MAX_ANGULAR_SPEED, 'a joint rate', `joints[${j}].measuredRate.column`);
-    });
+    const found: Cells = {
+      time: want(mapping.time.column, timeFactor, MAX_LOG_TIME, 'a time', 'time.column'),
+      position: mapping.pose.position.columns.map((name, k) => want(name, length, MAX_LENGTH, 'a position', `pose.position.columns[${k}]`)),
+      ...('quaternion' in orientation
+        ? { quaternion: (['x', 'y', 'z', 'w'] as const).map((part) => want(orientation.quaternion[part], 1, 2, 'a quaternion part', `pose.orientation.quaternion.${part}`)) }
+        : {
+            rollPitchYaw: orientation.rollPitchYaw.columns.map((name, k) =>
+              want(name, ANGLE_UNITS[orientation.rollPitchYaw.unit], MAX_ANGLE, 'an angle', `pose.orientation.rollPitchYaw.columns[${k}]`)),
+          }),
+      angles: mapping.joints.map((entry, j) => entry.angle && want(entry.angle.column, ANGLE_UNITS[entry.angle.unit], MAX_ANGLE, 'a joint angle', `joints[${j}].angle.column`)),
+      commanded: mapping.joints.map((entry, j) =>
+        entry.commandedRate && want(entry.commandedRate.column, RATE_UNITS[entry.commandedRate.unit], MAX_ANGULAR_SPEED, 'a joint rate', `joints[${j}].commandedRate.column`)),
+      measured: mapping.joints.map((entry, j) =>
+        entry.measuredRate && want(entry.measuredRate.column, RATE_UNITS[entry.measuredRate.unit], MAX_ANGULAR_SPEED, 'a joint rate', `joints[${j}].measuredRate.column`)),
+    };
     if (mapping.wantedTwist) {
       const { linear, angular } = mapping.wantedTwist;
-      linear.columns.forEach((name, k) => want(`v${k}`, name, SPEED_UNITS[linear.unit], MAX_SPEED, 'a speed', `wantedTwist.linear.columns[${k}]`));
-      angular.columns.forEach((name, k) => want(`w${k}`, name, RATE_UNITS[angular.unit], MAX_ANGULAR_SPEED, 'an angular speed', `wantedTwist.angular.columns[${k}]`));
+      found.twist = [
+        ...linear.columns.map((name, k) => want(name, SPEED_UNITS[linear.unit], MAX_SPEED, 'a speed', `wantedTwist.linear.columns[${k}]`)),
+        ...angular.columns.map((name, k) => want(name, RATE_UNITS[angular.unit], MAX_ANGULAR_SPEED, 'an angular speed', `wantedTwist.angular.columns[${k}]`)),
+      ];
     }
     cells = issues.length === 0 ? found : undefined;
   };
@@ -160,15 +189,14 @@ export function readLog(source: LogSource, mapping: LogMapping, options: ReadLog
   /** Reads one cell into SI, or records why not; returns NaN on failure. */
   const cell = (row: string[], c: Cell): number => {
     const text = row[c.index]!;
-    const trimmed = text.trim();
-    // Number('') is 0 and Number('0x10') is 16: only decimal notation counts as a logged value.
-    const value = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(trimmed) ? Number(trimmed) * c.factor : NaN;
+    const value = decimal(text) * c.factor;
     if (!Number.isFinite(value)) {
+      const trimmed = text.trim();
       addIssue({ line, column: c.index + 1, columnName: header[c.index], expected: `${c.what} (a decimal number)`, found: trimmed === '' ? 'an empty cell' : `"${trimmed.slice(0, 40)}"` });
       return NaN;
     }
     if (Math.abs(value) > c.limit) {
-      addIssue({ line, column: c.index + 1, columnName: header[c.index], expected: `${c.what} of at most ${c.limit} in SI units`, found: trimmed });
+      addIssue({ line, column: c.index + 1, columnName: header[c.index], expected: `${c.what} of at most ${c.limit} in SI units`, found: text.trim() });
       return NaN;
     }
     return value;
@@ -183,34 +211,34 @@ export function readLog(source: LogSource, mapping: LogMapping, options: ReadLog
     const before = issues.length;
     const sample = ring[sampleCount % SAMPLE_RING]!;
     sample.line = line;
-    sample.time = cell(row, c.time!);
-    for (let k = 0; k < 3; k++) sample.position[k] = cell(row, c[`p${k}`]!);
-    if (c.q0) {
-      for (let k = 0; k < 4; k++) values[k] = cell(row, c[`q${k}`]!);
+    sample.time = cell(row, c.time);
+    for (let k = 0; k < 3; k++) sample.position[k] = cell(row, c.position[k]!);
+    if (c.quaternion) {
+      for (let k = 0; k < 4; k++) values[k] = cell(row, c.quaternion[k]!);
       const norm = Math.hypot(values[0]!, values[1]!, values[2]!, values[3]!);
+      const w = c.quaternion[3]!;
       if (issues.length === before && Math.abs(norm - 1) > QUATERNION_LENGTH_TOLERANCE) {
-        addIssue({ line, column: c.q0.index + 1, columnName: header[c.q0.index], expected: `a unit quaternion (length within ${QUATERNION_LENGTH_TOLERANCE} of 1)`, found: `length ${norm.toPrecision(6)}` });
+        addIssue({ line, column: w.index + 1, columnName: header[w.index], expected: `a unit quaternion (length within ${QUATERNION_LENGTH_TOLERANCE} of 1)`, found: `length ${norm.toPrecision(6)}` });
       } else if (issues.length === before) {
         quat.normalize(values.subarray(0, 4), sample.orientation);
       }
-    } else {
-      for (let k = 0; k < 3; k++) values[k] = cell(row, c[`r${k}`]!);
+    } else if (c.rollPitchYaw) {
+      for (let k = 0; k < 3; k++) values[k] = cell(row, c.rollPitchYaw[k]!);
       const rpy = mapping.pose.orientation as Extract<LogMapping['pose']['orientation'], { rollPitchYaw: unknown }>;
       if (issues.length === before) quaternionFromRollPitchYaw(values[0]!, values[1]!, values[2]!, rpy.rollPitchYaw.convention, sample.orientation);
     }
     for (let j = 0; j < jointCount; j++) {
-      const angle = c[`a${j}`], commanded = c[`c${j}`], measured = c[`m${j}`];
+      const angle = c.angles[j], commanded = c.commanded[j], measured = c.measured[j];
       if (angle) sample.angles[j] = cell(row, angle);
       if (commanded) sample.commandedRates[j] = cell(row, commanded);
       if (measured) sample.measuredRates[j] = cell(row, measured);
     }
-    if (sample.wantedTwist) {
-      for (let k = 0; k < 3; k++) sample.wantedTwist[k] = cell(row, c[`v${k}`]!);
-      for (let k = 0; k < 3; k++) sample.wantedTwist[3 + k] = cell(row, c[`w${k}`]!);
+    if (sample.wantedTwist && c.twist) {
+      for (let k = 0; k < 6; k++) sample.wantedTwist[k] = cell(row, c.twist[k]!);
     }
     if (issues.length !== before) return;
     const time = sample.time;
-    const timeCell = c.time!;
+    const timeCell = c.time;
     if (sampleCount > 0) {
       const interval = time - previousTime;
       if (interval < 0) {
@@ -237,19 +265,23 @@ export function readLog(source: LogSource, mapping: LogMapping, options: ReadLog
       header: false,
       dynamicTyping: false,
       skipEmptyLines: false,
-      step: (results, parser) => {
-        line++;
-        const row = results.data;
-        if (row.length === 1 && row[0]!.trim() === '') return;
+      // Whole chunks of rows rather than one callback per row: papaparse then builds one result object per chunk.
+      chunk: (results, parser) => {
         try {
-          if (line === 1) readHeader(row);
-          else if (cells) readRow(row);
+          for (const row of results.data) {
+            line++;
+            if (row.length === 1 && row[0]!.trim() === '') continue;
+            if (line === 1) readHeader(row);
+            else if (cells) readRow(row);
+            if (issues.length >= MAX_LOG_ISSUES || (line === 1 && cells === undefined)) {
+              parser.abort();
+              return;
+            }
+          }
         } catch (error) {
           parser.abort();
           reject(error);
-          return;
         }
-        if (issues.length >= MAX_LOG_ISSUES || (line === 1 && cells === undefined)) parser.abort();
       },
       complete: () => {
         if (line === 0) addIssue({ line: 1, expected: 'a header line naming the columns', found: 'an empty log' });

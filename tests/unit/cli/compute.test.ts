@@ -191,7 +191,7 @@ describe('compute CLI comparing a controller log (--log, --mapping)', () => {
   writeFileSync(sheetFile, JSON.stringify(run.doc));
   writeFileSync(mappingFile, JSON.stringify(runLogMapping(run.doc, TOLERANCES)));
   writeFileSync(cleanLog, logText(run));
-  writeFileSync(faultyLog, gzipSync(logText(run, (row, tick) => { if (tick >= 100 && tick < 150) row[column]! += 0.3; })));
+  writeFileSync(faultyLog, new Uint8Array(gzipSync(logText(run, (row, tick) => { if (tick >= 100 && tick < 150) row[column]! += 0.3; }))));
   writeFileSync(badLog, logText(run).replace(/\n0\.01,/, '\nzero,'));
 
   it('prints the comparison as JSON and exits 0 for a log within tolerance', async () => {
