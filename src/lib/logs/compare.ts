@@ -202,6 +202,7 @@ export async function compareLog(doc: SheetDocument, mapping: LogMapping, source
   const gaps: LogGap[] = [];
   let gapCount = 0;
   let first = NaN, last = NaN, count = 0;
+  const unsolved: LogIssue[] = [];
   options.onColumns?.({ joints: compared.map((m) => joints[m]!.joint), fingers: fingerNames });
 
   /** The sheet's commanded twist at the sample: the logged wanted twist, or gain times the pose error toward the target (world frame). */
@@ -264,7 +265,6 @@ export async function compareLog(doc: SheetDocument, mapping: LogMapping, source
       row.logged[c] = logged;
       row.sheet[c] = sheet;
       row.residual[c] = logged - sheet;
-      addResidual(jointStats[c]!, s.time, Math.abs(logged - sheet));
       plotValues[3 * c] = logged;
       plotValues[3 * c + 1] = sheet;
       plotValues[3 * c + 2] = logged - sheet;
@@ -274,6 +274,8 @@ export async function compareLog(doc: SheetDocument, mapping: LogMapping, source
       const a = previous ?? s, b = next ?? s;
       twistBetween(a.position, a.orientation, a.time, b.position, b.orientation, b.time, twist);
     }
+    let finite = true;
+    for (let c = 0; c < compared.length; c++) if (!Number.isFinite(row.residual[c]!)) finite = false;
     for (let f = 0; f < fingers.length; f++) {
       row.slip[f] = NaN;
       const contact = result.fingers[f]!.contact;
@@ -301,9 +303,16 @@ export async function compareLog(doc: SheetDocument, mapping: LogMapping, source
       sx -= along * n[0]!; sy -= along * n[1]!; sz -= along * n[2]!;
       const slip = Math.sqrt(sx * sx + sy * sy + sz * sz);
       row.slip[f] = slip;
-      addResidual(slipStats[f]!, s.time, slip);
+      if (!Number.isFinite(slip)) finite = false;
     }
     for (let f = 0; f < fingers.length; f++) plotValues[3 * compared.length + f] = row.slip[f]!;
+    if (!finite) {
+      // A state at which the solve loses its digits is reported at its line, never turned into statistics.
+      if (unsolved.length < 50) unsolved.push({ line: s.line, expected: 'a logged state at which the sheet solves to finite rates', found: 'a non-finite rate or slip', message: `line ${s.line}: the sheet does not solve to finite rates at the logged state` });
+      return;
+    }
+    for (let c = 0; c < compared.length; c++) addResidual(jointStats[c]!, s.time, Math.abs(row.residual[c]!));
+    for (let f = 0; f < fingers.length; f++) if (!Number.isNaN(row.slip[f]!)) addResidual(slipStats[f]!, s.time, row.slip[f]!);
     const mask = result.warningList.mask;
     plotValues[labels.length - 1] = result.warningList.worstRank;
     track(s.time, mask);
@@ -346,6 +355,7 @@ export async function compareLog(doc: SheetDocument, mapping: LogMapping, source
   }
   if (current !== null) compare(previous, current, null);
   track(NaN, 0);
+  if (unsolved.length > 0) return fail({ kind: 'invalid', stage: 'log', message: unsolved[0]!.message, issues: unsolved });
 
   const jointResults: JointComparison[] = compared.map((m, c) => ({
     joint: joints[m]!.joint,

@@ -20,6 +20,8 @@ export const MAX_LOG_TIME = 1e10;
 export const QUATERNION_LENGTH_TOLERANCE = 1e-2;
 /** An interval longer than this many nominal sample periods is a gap. */
 export const GAP_FACTOR = 1.5;
+/** Shortest interval between samples, s: no controller logs faster than 1 MHz, and pose derivatives over shorter intervals lose their digits. */
+export const MIN_LOG_INTERVAL = 1e-6;
 /** Errors collected before reading stops. */
 export const MAX_LOG_ISSUES = 50;
 
@@ -247,6 +249,10 @@ export function readLog(source: LogSource, mapping: LogMapping, options: ReadLog
       }
       if (interval === 0) {
         addIssue({ line, column: timeCell.index + 1, columnName: header[timeCell.index], expected: `a time after ${previousTime} s (the line before)`, found: 'the same time again (a repeated timestamp)' });
+        return;
+      }
+      if (interval < MIN_LOG_INTERVAL) {
+        addIssue({ line, column: timeCell.index + 1, columnName: header[timeCell.index], expected: `a time at least ${MIN_LOG_INTERVAL} s after ${previousTime} s (the line before)`, found: `${time} s` });
         return;
       }
       nominal ??= interval;

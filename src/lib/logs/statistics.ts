@@ -43,6 +43,7 @@ export interface ResidualAccumulator {
   omitted: number;
 }
 
+/** An empty accumulator judging magnitudes against `tolerance` (the residual's unit). */
 export function createAccumulator(tolerance: number): ResidualAccumulator {
   return { tolerance, samples: 0, sumSquares: 0, max: 0, maxAt: NaN, within: 0, open: null, openSumSquares: 0, intervals: [], omitted: 0 };
 }
@@ -82,6 +83,7 @@ export function breakInterval(a: ResidualAccumulator): void {
   closeInterval(a);
 }
 
+/** The statistics so far, closing an open interval over tolerance. */
 export function finishAccumulator(a: ResidualAccumulator): ResidualStatistics {
   closeInterval(a);
   const n = a.samples;
@@ -169,6 +171,7 @@ export function addToDecimator(d: Decimator, time: number, values: ArrayLike<num
   if (d.filled >= d.bucketSize) d.filled = 0;
 }
 
+/** The buckets filled so far as plain arrays. */
 export function finishDecimator(d: Decimator): DecimatedSeries {
   const n = d.labels.length;
   const column = (source: Float64Array, s: number) => Array.from({ length: d.count }, (_, b) => source[b * n + s]!);

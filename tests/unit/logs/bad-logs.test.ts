@@ -155,3 +155,14 @@ describe('gaps in the time column', () => {
     expect(result.ok && result.value.gapCount).toBe(39);
   });
 });
+
+describe('intervals too short to differentiate over', () => {
+  it('a row less than MIN_LOG_INTERVAL after the one before is an error at its line', async () => {
+    const { MIN_LOG_INTERVAL } = await import('../../../src/lib/logs/read-log');
+    const lines = logText(run).split('\n');
+    const before = Number(lines[7]!.split(',')[0]);
+    const [issue] = await issuesOf(withLine(9, (f) => { f[0] = String(before + MIN_LOG_INTERVAL / 10); return f; }));
+    expect(issue).toMatchObject({ line: 9, columnName: 't' });
+    expect(issue!.expected).toMatch(/at least 0.000001 s after/);
+  });
+});
