@@ -253,10 +253,10 @@ export async function compareLog(doc: SheetDocument, mapping: LogMapping, source
     for (let f = 0; f < fingers.length; f++) {
       const solved = result.fingers[f]!;
       const rates = sheetRates[f]!;
-      if (solved.steer.available) {
-        rates.set(solved.steer.rates);
-        rates[fingers[f]!.pivotIndex] = solved.steer.pivotChange / interval;
-      } else rates.set(solved.full.rates);
+      // A plain loop: TypedArray.set costs more than the copy for a few joints.
+      const from = solved.steer.available ? solved.steer.rates : solved.full.rates;
+      for (let k = 0; k < rates.length; k++) rates[k] = from[k]!;
+      if (solved.steer.available) rates[fingers[f]!.pivotIndex] = solved.steer.pivotChange / interval;
     }
     for (let c = 0; c < compared.length; c++) {
       const m = compared[c]!;
