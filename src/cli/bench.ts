@@ -11,7 +11,9 @@
  * for damped least squares), with the ratio between the two routes. Beside the wall-clock medians
  * it prints the process's CPU time per call, which other work on the machine inflates less.
  */
-import { availableParallelism, cpus, loadavg } from 'node:os';
+import { closeSync, createReadStream, mkdtempSync, openSync, rmSync, writeSync } from 'node:fs';
+import { availableParallelism, cpus, loadavg, tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { all, create, type MathJsInstance, type Matrix as MathMatrix } from 'mathjs';
 import { createSheetFromTemplate } from '../lib/sheet/templates';
 import type { SheetDocument } from '../lib/sheet/types';
@@ -19,6 +21,9 @@ import {
   createLinalgWorkspace, createResult, createScene, dampedLeastSquares, matrixFromRows, matrixToRows, runSheet, singularValues, solveScene, sweepSheet,
 } from '../lib/kinematics/index';
 import { computeGraspQuality, DEFAULT_FRICTION } from '../lib/kinematics/index';
+import { compareLog } from '../lib/logs/compare';
+import { runLogHeader, runLogMapping, runLogRow } from '../lib/logs/generate';
+import { parseLogMapping } from '../lib/logs/mapping';
 
 const quick = process.argv.includes('--quick');
 const REPETITIONS = quick ? 3 : 15;
@@ -232,3 +237,53 @@ const [graspQuality] = (await measureInRounds([
   { label: 'grasp quality, three fingers, 8 edges', batch: quick ? 10 : 100, call: () => computeGraspQuality(graspQualityInput) },
 ])) as [Measurement];
 console.log(line(graspQuality, against(graspQuality, 1)));
+
+// A controller log of 100,000 samples of the three-finger hand (its own run, 9 joints with angle, commanded and
+// measured rate), written to a file and compared end to end from a file stream: parse, re-solve, statistics.
+const LOG_SAMPLES = 100_000;
+const logRun = runSheet(three, { settings: { ...three.motion.run, maxTicks: LOG_SAMPLES, positionTolerance: -1, angleTolerance: -1, stopOnSingular: false } });
+const logDirectory = mkdtempSync(join(tmpdir(), 'slipless-bench-'));
+const logFile = join(logDirectory, 'log.csv');
+const descriptor = openSync(logFile, 'w');
+writeSync(descriptor, `${runLogHeader(three).join(',')}\n`);
+for (let tick = 0; tick < logRun.tickCount; tick += 1000) {
+  const lines: string[] = [];
+  for (let k = tick; k < Math.min(logRun.tickCount, tick + 1000); k++) lines.push(runLogRow(logRun, k).join(','));
+  writeSync(descriptor, `${lines.join('\n')}\n`);
+}
+closeSync(descriptor);
+const logMapping = parseLogMapping(runLogMapping(three, { rate: '0.05 rad/s', slip: '1 mm/s' }));
+if (!logMapping.ok) throw new Error('the generated log mapping does not read');
+const compareOnce = async () => {
+  const stream = createReadStream(logFile);
+  stream.setEncoding('utf8');
+  const compared = await compareLog(three, logMapping.mapping, stream);
+  if (!compared.ok || compared.value.samples !== logRun.tickCount) throw new Error('the generated log did not compare');
+};
+await compareOnce();
+const logTimes: number[] = [];
+const logCpu: number[] = [];
+for (let r = 0; r < (quick ? 3 : 7); r++) {
+  collectGarbage?.();
+  await new Promise((settled) => setTimeout(settled, SETTLE_MS));
+  const cpuStart = process.cpuUsage();
+  const start = performance.now();
+  await compareOnce();
+  logTimes.push(performance.now() - start);
+  const cpu = process.cpuUsage(cpuStart);
+  logCpu.push((cpu.user + cpu.system) / 1000);
+}
+rmSync(logDirectory, { recursive: true, force: true });
+logTimes.sort((a, b) => a - b);
+logCpu.sort((a, b) => a - b);
+const logCompare: Measurement = {
+  label: 'log comparison, 100,000 samples, 3 fingers',
+  median: logTimes[logTimes.length >> 1]!,
+  min: logTimes[0]!,
+  max: logTimes[logTimes.length - 1]!,
+  cpuMedian: logCpu[logCpu.length >> 1]!,
+};
+// maxRSS is the whole process's peak (every line above included), so it bounds the comparison's own peak from above.
+const peakMegabytes = process.resourceUsage().maxRSS / 1024;
+console.log(line(logCompare, against(logCompare, 1000)));
+console.log(`Peak resident memory of this process: ${peakMegabytes.toFixed(0)} MB (target < 300 MB: ${peakMegabytes < 300 ? 'met' : 'missed'})`);

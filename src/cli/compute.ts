@@ -1,24 +1,33 @@
 /**
  * Solves a sheet document from the command line.
  * Usage: npm run compute -- path/to/sheet.json [--format json|csv] [--run] [--sweep]
+ *        npm run compute -- path/to/sheet.json --log log.csv[.gz] --mapping mapping.json [--format json|csv]
  * JSON (default) prints {title, result, run?, sweep?}; CSV prints one row per finger, then with
  * --run a table with one row per tick and with --sweep one row per value and finger, each table
  * after a blank line and a "# name" line. Exit codes: 0 solved, 1 unreadable or invalid sheet, 2 bad usage.
+ * With --log the controller log is compared with the sheet (streamed; a name ending in .gz is
+ * decompressed): JSON prints the comparison (per joint, per contact, warnings, verdict), CSV the
+ * per-sample table; exit codes 0 within tolerance, 3 outside, 1 bad sheet, mapping or log, 2 bad usage.
  */
-import { readFileSync, realpathSync } from 'node:fs';
+import { createReadStream, readFileSync, realpathSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
+import { createGunzip } from 'node:zlib';
 import { ROTATION_METRICS, runSheet, sweepSheet, toPlainRunRecord, warningsAt, type RunRecord, type SweepRecord } from '../lib/kinematics';
+import { compareLog, describeComparisonError, type ComparedSample } from '../lib/logs/compare';
+import { parseLogMapping, type LogMapping } from '../lib/logs/mapping';
 import { jsonSyntaxIssue } from '../lib/server/sheet-files';
 import { evaluateSheet, type SheetEvaluation } from '../lib/sheet/evaluate';
 import { csvTable, FINGER_COLUMNS, fingerRows, maxJointCount, rateColumns, resultsCsv } from '../lib/sheet/results-csv';
 
-const USAGE = 'usage: npm run compute -- path/to/sheet.json [--format json|csv] [--run] [--sweep]';
+const USAGE = 'usage: npm run compute -- path/to/sheet.json [--format json|csv] [--run] [--sweep] [--log log.csv[.gz] --mapping mapping.json]';
 
 interface Options {
   file: string;
   format: 'json' | 'csv';
   run: boolean;
   sweep: boolean;
+  log?: string;
+  mapping?: string;
 }
 
 class UsageError extends Error {}
@@ -29,9 +38,17 @@ function parseArguments(args: readonly string[]): Options {
   let format: Options['format'] = 'json';
   let run = false;
   let sweep = false;
+  let log: string | undefined;
+  let mapping: string | undefined;
   for (let i = 0; i < args.length; i++) {
     const arg = args[i]!;
     if (arg === '--run') run = true;
+    else if (arg === '--log' || arg === '--mapping') {
+      const value = args[++i];
+      if (value === undefined || value.startsWith('--')) throw new UsageError(`${arg} needs a file name`);
+      if (arg === '--log') log = value;
+      else mapping = value;
+    }
     else if (arg === '--sweep') sweep = true;
     else if (arg === '--format' || arg.startsWith('--format=')) {
       const value = arg === '--format' ? args[++i] : arg.slice('--format='.length);
@@ -43,10 +60,12 @@ function parseArguments(args: readonly string[]): Options {
     else throw new UsageError(`only one sheet file, got ${file} and ${arg}`);
   }
   if (file === undefined) throw new UsageError('no sheet file given');
-  return { file, format, run, sweep };
+  if ((log === undefined) !== (mapping === undefined)) throw new UsageError('--log and --mapping go together');
+  if (log !== undefined && (run || sweep)) throw new UsageError('--log compares a log; it does not combine with --run or --sweep');
+  return { file, format, run, sweep, ...(log !== undefined ? { log, mapping } : {}) };
 }
 
-function evaluateFile(file: string): SheetEvaluation {
+function readJsonFile(file: string): unknown {
   let text: string;
   try {
     text = readFileSync(file, 'utf8');
@@ -61,7 +80,11 @@ function evaluateFile(file: string): SheetEvaluation {
     if (issue?.line === undefined) throw new InputError(`${file}: invalid JSON: ${(error as Error).message}`);
     throw new InputError(`${file}:${issue.line}:${issue.column}: invalid JSON: ${issue.message}`);
   }
-  const evaluated = evaluateSheet(json);
+  return json;
+}
+
+function evaluateFile(file: string): SheetEvaluation {
+  const evaluated = evaluateSheet(readJsonFile(file));
   if (!evaluated.ok) {
     const { issues, stage } = evaluated.error;
     const lines = issues.map((issue) => `${file}: ${issue.path}: ${issue.message}`);
@@ -96,8 +119,72 @@ export interface CommandOutput {
   stderr: (text: string) => void;
 }
 
-/** Runs the compute command on its arguments and returns the exit status (0 solved, 1 bad sheet, 2 bad usage). */
-export function runComputeCommand(args: readonly string[], io: CommandOutput): number {
+function readMappingFile(file: string): LogMapping {
+  const read = parseLogMapping(readJsonFile(file));
+  if (!read.ok) {
+    const lines = read.issues.map((issue) => `${file}: ${issue.path}: ${issue.message}`);
+    throw new InputError(`${lines.join('\n')}\n${file}: invalid log mapping (${read.issues.length} issue${read.issues.length === 1 ? '' : 's'})`);
+  }
+  return read.mapping;
+}
+
+/** Exit status of a comparison outside tolerance. */
+export const OUTSIDE_TOLERANCE = 3;
+
+const csvNumber = (value: number) => (Number.isNaN(value) ? '' : String(value));
+
+/** Compares the log with the sheet and prints the comparison (JSON) or the per-sample table (CSV), streaming the table as it goes. */
+async function compareCommand(options: Options & { log: string; mapping: string }, evaluation: SheetEvaluation, io: CommandOutput): Promise<number> {
+  const mapping = readMappingFile(options.mapping);
+  const stream = createReadStream(options.log);
+  const opened = await new Promise<NodeJS.ErrnoException | null>((resolve) => {
+    stream.once('open', () => resolve(null));
+    stream.once('error', (error) => resolve(error));
+  });
+  if (opened) throw new InputError(`${options.log}: cannot read the file (${opened.code ?? String(opened)})`);
+  const source = options.log.endsWith('.gz') ? stream.pipe(createGunzip()) : stream;
+  // Text decoded by the stream keeps a character split between two chunks whole.
+  source.setEncoding('utf8');
+  const csv = options.format === 'csv';
+  let buffered: string[] = [];
+  const flush = () => {
+    io.stdout(buffered.join(''));
+    buffered = [];
+  };
+  let compared;
+  try {
+    compared = await compareLog(evaluation.doc, mapping, source, {
+      onColumns: csv
+        ? ({ joints, fingers }) => {
+            const header = ['line', 'time_s', ...joints.flatMap((j) => [`${j}.logged_rad_s`, `${j}.sheet_rad_s`, `${j}.residual_rad_s`]), ...fingers.map((f) => `${f}.slip_m_s`), 'warnings'];
+            buffered.push(`${csvTable(header, [])}\n`);
+          }
+        : undefined,
+      onSample: csv
+        ? (sample: ComparedSample) => {
+            const cells = [sample.line, sample.time];
+            for (let c = 0; c < sample.logged.length; c++) cells.push(sample.logged[c]!, sample.sheet[c]!, sample.residual[c]!);
+            buffered.push(`${cells.join(',')},${Array.from(sample.slip, csvNumber).join(',')},${sample.warnings.join(' ')}\n`);
+            if (buffered.length >= 1000) flush();
+          }
+        : undefined,
+    });
+  } catch (error) {
+    throw new InputError(`${options.log}: cannot read the log (${error instanceof Error ? error.message : String(error)})`);
+  }
+  if (!compared.ok) {
+    const file = compared.error.stage === 'mapping' ? options.mapping : options.log;
+    const lines = describeComparisonError(compared.error).map((line) => `${file}: ${line.replace(/^mapping: /, '')}`);
+    throw new InputError(`${lines.join('\n')}\n${file}: ${compared.error.stage === 'mapping' ? 'the mapping does not fit the sheet' : 'bad log'}`);
+  }
+  const comparison = compared.value;
+  if (csv) flush();
+  else io.stdout(`${JSON.stringify({ title: evaluation.doc.title, comparison }, null, 2)}\n`);
+  return comparison.verdict.withinTolerance ? 0 : OUTSIDE_TOLERANCE;
+}
+
+/** Runs the compute command on its arguments and resolves to the exit status (0 solved or within tolerance, 1 bad input, 2 bad usage, 3 outside tolerance). */
+export async function runComputeCommand(args: readonly string[], io: CommandOutput): Promise<number> {
   const report = (text: string) => io.stderr(`${text}\n`);
   let options: Options;
   try {
@@ -115,6 +202,15 @@ export function runComputeCommand(args: readonly string[], io: CommandOutput): n
     if (!(error instanceof InputError)) throw error;
     report(error.message);
     return 1;
+  }
+  if (options.log !== undefined && options.mapping !== undefined) {
+    try {
+      return await compareCommand({ ...options, log: options.log, mapping: options.mapping }, evaluation, io);
+    } catch (error) {
+      if (!(error instanceof InputError)) throw error;
+      report(error.message);
+      return 1;
+    }
   }
   const { doc, result } = evaluation;
   if (options.sweep && doc.sweep === undefined) {
@@ -151,7 +247,7 @@ export function runComputeCommand(args: readonly string[], io: CommandOutput): n
 
 const invokedDirectly = process.argv[1] !== undefined && realpathSync(process.argv[1]) === realpathSync(fileURLToPath(import.meta.url));
 if (invokedDirectly) {
-  process.exitCode = runComputeCommand(process.argv.slice(2), {
+  process.exitCode = await runComputeCommand(process.argv.slice(2), {
     stdout: (text) => process.stdout.write(text),
     stderr: (text) => process.stderr.write(text),
   });

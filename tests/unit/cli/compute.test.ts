@@ -4,7 +4,10 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterAll, describe, expect, it } from 'vitest';
+import { gzipSync } from 'node:zlib';
 import { runComputeCommand } from '../../../src/cli/compute';
+import { runLogMapping } from '../../../src/lib/logs/generate';
+import { generatedRun, logText, TOLERANCES } from '../logs/generated-log';
 
 // Conventions checked (common practice): exit status 0 on success, 1 on bad input, 2 on bad usage (as in
 // GNU grep/diff); CSV rows of equal width with RFC 4180 quoting; error messages located as file:line:column.
@@ -23,11 +26,11 @@ interface Outcome {
 }
 
 /** The command in this process (fast); `spawned` runs the real script through tsx. */
-function compute(...args: string[]): Promise<Outcome> {
+async function compute(...args: string[]): Promise<Outcome> {
   let stdout = '';
   let stderr = '';
-  const code = runComputeCommand(args, { stdout: (text) => (stdout += text), stderr: (text) => (stderr += text) });
-  return Promise.resolve({ code, stdout, stderr });
+  const code = await runComputeCommand(args, { stdout: (text) => (stdout += text), stderr: (text) => (stderr += text) });
+  return { code, stdout, stderr };
 }
 
 function spawned(...args: string[]): Promise<Outcome> {
@@ -173,5 +176,73 @@ describe('compute CLI at the edges of the inputs', () => {
     expect(outcome.code).toBe(1);
     expect(outcome.stdout).toBe('');
     expect(outcome.stderr).toContain(`${file}: object.twist.angular[0]: `);
+  });
+});
+
+describe('compute CLI comparing a controller log (--log, --mapping)', () => {
+  // Exit status 0 within tolerance and 3 outside, as a CI gate reads it (issue #12); 1 for bad input.
+  const run = generatedRun(300);
+  const sheetFile = join(scratch, 'tri-radial.json');
+  const mappingFile = join(scratch, 'mapping.json');
+  const cleanLog = join(scratch, 'clean.csv');
+  const faultyLog = join(scratch, 'faulty.csv.gz');
+  const badLog = join(scratch, 'bad.csv');
+  const column = run.header.indexOf('north-base.commanded');
+  writeFileSync(sheetFile, JSON.stringify(run.doc));
+  writeFileSync(mappingFile, JSON.stringify(runLogMapping(run.doc, TOLERANCES)));
+  writeFileSync(cleanLog, logText(run));
+  writeFileSync(faultyLog, new Uint8Array(gzipSync(logText(run, (row, tick) => { if (tick >= 100 && tick < 150) row[column]! += 0.3; }))));
+  writeFileSync(badLog, logText(run).replace(/\n0\.01,/, '\nzero,'));
+
+  it('prints the comparison as JSON and exits 0 for a log within tolerance', async () => {
+    const outcome = await compute(sheetFile, '--log', cleanLog, '--mapping', mappingFile);
+    expect(outcome.stderr).toBe('');
+    expect(outcome.code).toBe(0);
+    const { comparison } = JSON.parse(outcome.stdout) as { comparison: { joints: { joint: string; rms: number; max: number; maxAt: number; withinFraction: number }[]; contacts: unknown[]; verdict: { withinTolerance: boolean } } };
+    expect(comparison.verdict.withinTolerance).toBe(true);
+    expect(comparison.joints.map((j) => j.joint)).toEqual(run.doc.hand.fingers.flatMap((f) => f.joints.map((j) => j.name)));
+    for (const entry of comparison.joints) expect(Object.keys(entry)).toEqual(expect.arrayContaining(['joint', 'rms', 'max', 'maxAt', 'withinFraction']));
+    expect(comparison.contacts).toHaveLength(run.doc.hand.fingers.length);
+  });
+
+  it('exits 3 with the faulty joint in the verdict for a gzip log outside tolerance', async () => {
+    const outcome = await compute(sheetFile, '--log', faultyLog, '--mapping', mappingFile);
+    expect(outcome.code).toBe(3);
+    const { comparison } = JSON.parse(outcome.stdout) as { comparison: { verdict: { withinTolerance: boolean; reasons: string[] } } };
+    expect(comparison.verdict.withinTolerance).toBe(false);
+    expect(comparison.verdict.reasons[0]).toContain('joint "north-base"');
+  });
+
+  it('prints the per-sample table with --format csv, one row per sample, every row as wide as the header', async () => {
+    const outcome = await compute(sheetFile, '--log', cleanLog, '--mapping', mappingFile, '--format', 'csv');
+    expect(outcome.code).toBe(0);
+    const lines = outcome.stdout.trimEnd().split('\n');
+    expect(lines.length).toBe(run.record.tickCount + 1);
+    const width = csvFields(lines[0]!).length;
+    lines.forEach((line) => expect(csvFields(line).length).toBe(width));
+    expect(lines[0]).toMatch(/^line,time_s,north-base\.logged_rad_s,north-base\.sheet_rad_s,north-base\.residual_rad_s,/);
+  });
+
+  it('exits 1 locating a bad cell in the log, and a mapping naming a joint the sheet lacks', async () => {
+    const bad = await compute(sheetFile, '--log', badLog, '--mapping', mappingFile);
+    expect(bad.code).toBe(1);
+    expect(bad.stderr).toContain(`${badLog}: line 4, column 1 ("t"): expected a time (a decimal number), found "zero"`);
+    const wrongJoint = join(scratch, 'wrong-joint.json');
+    const mapping = runLogMapping(run.doc, TOLERANCES);
+    mapping.joints[0]!.joint = 'wrist';
+    writeFileSync(wrongJoint, JSON.stringify(mapping));
+    const unknown = await compute(sheetFile, '--log', cleanLog, '--mapping', wrongJoint);
+    expect(unknown.code).toBe(1);
+    expect(unknown.stderr).toContain(`${wrongJoint}: joints[0].joint: the sheet has no joint named "wrist"`);
+  });
+
+  it('exits 1 on a missing log and 2 on --log without --mapping', async () => {
+    const [missing, alone] = await Promise.all([
+      compute(sheetFile, '--log', join(scratch, 'nope.csv'), '--mapping', mappingFile),
+      compute(sheetFile, '--log', cleanLog),
+    ]);
+    expect(missing.code).toBe(1);
+    expect(missing.stderr).toContain('cannot read the file (ENOENT)');
+    expect(alone.code).toBe(2);
   });
 });
