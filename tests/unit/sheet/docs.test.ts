@@ -1,4 +1,4 @@
-import { readFileSync } from 'node:fs';
+import { readdirSync, readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { WARNING_CATALOGUE, computeSheetGraspQuality, solveSheet, toPlainResult } from '../../../src/lib/kinematics/index';
 import { createSheetJsonSchema } from '../../../src/lib/sheet/json-schema';
@@ -7,7 +7,7 @@ import { createSheetFromTemplate } from '../../../src/lib/sheet/templates';
 
 const docsDir = new URL('../../../content/docs/', import.meta.url);
 const read = (name: string) => readFileSync(new URL(name, docsDir), 'utf8');
-const pages = ['sheet-format.md', 'outputs.md', 'warnings.md', 'grasp-quality.md'];
+const pages = readdirSync(docsDir).filter((name) => name.endsWith('.md')).sort();
 
 /** Every property name anywhere in a JSON Schema. */
 function propertyNames(schema: unknown, out = new Set<string>()): Set<string> {
@@ -25,6 +25,11 @@ describe('product docs (content/docs)', () => {
   it.each(pages)('%s has YAML front matter with a title and an order', (page) => {
     const match = /^---\ntitle: (.+)\norder: (\d+)\n---\n/.exec(read(page));
     expect(match).not.toBeNull();
+  });
+
+  it('every reference page has its own place in the order', () => {
+    const orders = pages.map((page) => /^---\ntitle: .+\norder: (\d+)\n/.exec(read(page))?.[1]);
+    expect(new Set(orders).size).toBe(pages.length);
   });
 
   it('sheet-format.md names every field of the JSON Schema and links to it', () => {
