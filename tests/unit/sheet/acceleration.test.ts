@@ -68,7 +68,8 @@ describe('the feed-forward in an evaluation', () => {
   it('derives the object point, J_dot q_dot, the joint accelerations and the residual of every finger, in KaTeX', () => {
     for (const [i, f] of result.fingers.entries()) {
       const entries = derivation.filter((e) => e.id.startsWith(`finger.${i}.acceleration.`));
-      expect(entries.map((e) => e.id.split('.').pop())).toEqual(['objectPoint', 'jacobianRate', 'rollingTerm', 'jointAccelerations', 'residual']);
+      const steer = f.acceleration!.steer.status === 'defined' ? ['contactMotion', 'pivotRate', 'baseAccelerations', 'rollAcceleration'] : ['steer'];
+      expect(entries.map((e) => e.id.split('.').pop())).toEqual(['objectPoint', 'jacobianRate', 'rollingTerm', 'jointAccelerations', 'residual', ...steer]);
       expect(entries[2].label).toContain('rolling-contact model');
       expect(entries[2].value).toEqual(f.acceleration?.rollingTerm);
       expect(entries[3].value).toEqual(f.acceleration?.jointAccelerations);
