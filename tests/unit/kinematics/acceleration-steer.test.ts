@@ -63,7 +63,7 @@ function steerRatesAStepLater(doc: SheetDocument, finger: FingerResult, i: numbe
     setObjectTwist(scene, v.map((x, c) => x + a[c] * t), omega.map((x, c) => x + alpha[c] * t));
     setJointAngles(scene, i, q0.map((q, k) => q + qd[k] * t + (qdd[k] * t * t) / 2));
     const s = solveScene(scene).fingers[i].steer;
-    return { baseRates: Array.from(s.baseRates), rollRate: s.rollRate, pivotAngle: s.pivotAngle, pivotChange: s.pivotChange };
+    return { baseRates: Array.from(s.baseRates), rollRate: s.rollRate, pivotAngle: s.pivotAngle, pivotChange: s.pivotChange, remainder: Array.from(s.remainder) };
   };
   const [plus, minus] = [later(h), later(-h)];
   return {
@@ -71,6 +71,7 @@ function steerRatesAStepLater(doc: SheetDocument, finger: FingerResult, i: numbe
     baseAccelerations: plus.baseRates.map((x, j) => (x - minus.baseRates[j]) / (2 * h)),
     rollAcceleration: (plus.rollRate - minus.rollRate) / (2 * h),
     pivotRate: (plus.pivotAngle - minus.pivotAngle) / (2 * h),
+    remainderRate: plus.remainder.map((x, c) => (x - minus.remainder[c]) / (2 * h)),
   };
 }
 
@@ -183,6 +184,47 @@ describe('steer-and-roll feed-forward against the re-solved velocity solution', 
 
   it('has checked steered fingers on the demo sheets', () => {
     expect(checkedDemoFingers).toBeGreaterThanOrEqual(6);
+  });
+});
+
+/** The three-finger test hand with each base axis tilted toward the contact normal, so the links before the pivot turn about it. */
+function tiltedBaseSheet(): SheetDocument {
+  const doc = threeFingerSheet();
+  doc.object.twist = { linear: [0.01, 0.02, 0.01], angular: [0.3, 0.2, 0.5] };
+  doc.object.acceleration = { linear: [0.1, 0.2, -0.1], angular: [1, -2, 0.5] };
+  doc.hand.fingers = doc.hand.fingers.map((f) => {
+    const base = f.joints[0].axis, pivot = f.joints[1].axis;
+    return { ...f, joints: [{ ...f.joints[0], axis: unit(base.map((x, c) => x + 0.5 * pivot[c])) }, ...f.joints.slice(1)] };
+  });
+  return doc;
+}
+
+describe('the pivot rate of the usual build, a pivot along the normal through the ball roller\'s centre', () => {
+  it('is the rate of turn of the remainder about the normal less the turn of the links before the pivot', () => {
+    // The direction angle of a vector u in the plane normal to n turns at (u x u_dot) . n / |u|^2 (plane kinematics, common
+    // practice); the roll direction, square to the pivot, turns about n with the pivot and with the links before it, whose
+    // angular velocity is sum_k q_dot_k w_k (Murray, Li & Sastry 1994, ch. 3). u_dot is measured here by central differences.
+    const doc = steered(tiltedBaseSheet());
+    const fingers = feedForward(doc).fingers;
+    for (const [i, f] of fingers.entries()) {
+      const steer = f.acceleration!.steer, n = f.contact.normal, u = f.steer.remainder;
+      expect(steer.status).toBe('defined');
+      const { remainderRate } = steerRatesAStepLater(doc, f, i, 1e-5);
+      const turn = cross(u, remainderRate).reduce((sum, x, c) => sum + x * n[c], 0) / (u[0] ** 2 + u[1] ** 2 + u[2] ** 2);
+      const beforePivot = [0, 1, 2].map((c) => f.steer.rates[0] * f.jointAxes[c]);
+      const frameTurn = beforePivot.reduce((sum, x, c) => sum + x * n[c], 0);
+      const pivotAlongNormal = [3, 4, 5].reduce((sum, k, c) => sum + f.jointAxes[k] * n[c], 0);
+      expect(Math.abs(frameTurn)).toBeGreaterThan(0.05);
+      expect(steer.pivotRate).toBeNear((turn - frameTurn) / pivotAlongNormal, { abs: 1e-6 * Math.abs(steer.pivotRate) });
+    }
+  });
+
+  it('holds the remainder rate that the base and roll accelerations are built on (central differences, common practice)', () => {
+    const doc = steered(tiltedBaseSheet());
+    for (const [i, f] of feedForward(doc).fingers.entries()) {
+      const rate = f.acceleration!.steer.remainderRate;
+      expect(steerRatesAStepLater(doc, f, i, 1e-5).remainderRate).toBeNear(Array.from(rate), { abs: 1e-6 * norm(rate) });
+    }
   });
 });
 
