@@ -81,7 +81,7 @@ export {
 export type { FingerResult, PlainSheetResult, Scene, SheetResult } from './scene';
 export { createFingerAcceleration, jacobianRateTimesRates, objectPointAcceleration, rollingTerm, solveAccelerations, solveFingerAcceleration } from './acceleration';
 export type { AccelerationModel, FingerAcceleration } from './acceleration';
-export { solveSteerAcceleration, STEERED_TOLERANCE } from './steer-acceleration';
+export { solveSteerAcceleration } from './steer-acceleration';
 export type { SteerAcceleration, SteerAccelerationStatus } from './steer-acceleration';
 export { runScene, runSheet, SOLUTION_KINDS, toPlainRunRecord, warningsAt } from './run';
 export type { RunOptions, RunRecord, RunStopReason } from './run';

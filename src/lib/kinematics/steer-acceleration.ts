@@ -21,10 +21,11 @@ import { cross, dot } from './vec3';
  * solution fell back to the least-slip angle), 'contact-motion' (the contact point's motion over the
  * surfaces is not defined: line contact, sharp edge, not touching), 'not-steered' (the pivot is not at
  * its steered angle and turning it moves the roller surface at the contact, whose contact was not
- * computed), 'pivot-ineffective' (turning the pivot does not turn the roll direction out of the plane).
+ * computed), 'pivot-ineffective' (turning the pivot does not turn the roll direction out of the plane),
+ * 'out-of-range' (a number leaves the floating-point range, which only happens next to a rank loss).
  */
 export type SteerAccelerationStatus =
-  | 'defined' | 'not-available' | 'at-rest' | 'roll-axis' | 'not-aligned' | 'contact-motion' | 'not-steered' | 'pivot-ineffective';
+  | 'defined' | 'not-available' | 'at-rest' | 'roll-axis' | 'not-aligned' | 'contact-motion' | 'not-steered' | 'pivot-ineffective' | 'out-of-range';
 
 /** Feed-forward of one finger's steer-and-roll solution (world frame, SI); every number NaN unless status is 'defined'. */
 export interface SteerAcceleration {
@@ -58,7 +59,7 @@ export interface SteerAcceleration {
 }
 
 /** A pivot change below this is rounding of the steering solve: the finger stands at its steered angle. */
-export const STEERED_TOLERANCE = 1e-9;
+const STEERED_TOLERANCE = 1e-9;
 
 /**
  * d f_dot / d psi_dot below this fraction of |u| |d| (its size when the pivot turns d about the normal)
@@ -251,6 +252,11 @@ export function solveSteerAcceleration(
     out.status = 'contact-motion';
     return out;
   }
+  // A sheet whose other results are finite must still evaluate, so an overflow here is reported, not raised.
+  if (!Number.isFinite(still.alignmentRate) || !Number.isFinite(unit.alignmentRate)) {
+    out.status = 'out-of-range';
+    return out;
+  }
   const gain = unit.alignmentRate - still.alignmentRate;
   const scale = finger.steer.remainderNorm * finger.steer.rollDistance;
   if (!(Math.abs(gain) > PIVOT_EFFECT_FLOOR * scale)) {
@@ -261,6 +267,11 @@ export function solveSteerAcceleration(
   const m = trialMotion(state, pivotRate);
   if (!m) {
     out.status = 'contact-motion';
+    return out;
+  }
+  const numbers = [pivotRate, still.alignmentRate, gain, m.rollAcceleration, ...m.baseAccelerations, ...m.normalGainRates, ...m.remainderRate, ...m.rollDirectionRate];
+  if (!numbers.every(Number.isFinite)) {
+    out.status = 'out-of-range';
     return out;
   }
   out.pivotRate = pivotRate;

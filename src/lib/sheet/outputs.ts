@@ -68,6 +68,7 @@ export const STEER_FEEDFORWARD_REASONS: Record<Exclude<SteerAccelerationStatus, 
   'contact-motion': "the contact point's motion over the surfaces is not defined (line contact, sharp edge or not touching)",
   'not-steered': 'the pivot is not yet at its steered angle and turning it changes the roller surface at the contact, which was not computed there',
   'pivot-ineffective': 'turning the pivot does not turn the roll direction out of the plane of the normal and the remainder',
+  'out-of-range': 'a number leaves the floating-point range next to a rank loss of the drive columns',
 };
 
 /**

@@ -1,7 +1,7 @@
 import { readdirSync, readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import {
-  createScene, setJointAngles, setObjectPose, setObjectTwist, sheetCurvature, solveAccelerations, solveScene, solveSheet,
+  createScene, setJointAngles, setObjectPose, setObjectTwist, sheetCurvature, solveAccelerations, solveScene, solveSheet, solveSteerAcceleration,
   type FingerResult,
 } from '../../../src/lib/kinematics/index';
 import { createRandom, nextUniform, type RandomSource } from '../../../src/lib/kinematics/random';
@@ -242,6 +242,16 @@ describe('steer-and-roll feed-forward where it is not defined', () => {
     if (!parsed.ok) throw new Error(parsed.issues[0]?.message);
     const unsteered = feedForward(parsed.doc).fingers.find((f) => Math.abs(f.steer.pivotChange) > 1e-6 && f.steer.aligned);
     expect(unsteered?.acceleration!.steer.status).toBe('not-steered');
+  });
+
+  it('says "out-of-range" rather than reporting an overflowed number, so the rest of the sheet still evaluates', () => {
+    const doc = threeFingerSheet();
+    const solved = solveSheet(doc);
+    const curvature = sheetCurvature(doc, solved)[0];
+    const steer = solveSteerAcceleration(solved.fingers[0], doc.hand.fingers[0], solved.object.angularVelocity, [1e308, -1e308, 1e308], curvature, doc.solver);
+    expect(steer.status).toBe('out-of-range');
+    const finite = solveSteerAcceleration(solved.fingers[0], doc.hand.fingers[0], solved.object.angularVelocity, [1, -1, 1], curvature, doc.solver);
+    expect(finite.status).toBe('defined');
   });
 
   it('says "not-available" for a finger without a pivot', () => {
