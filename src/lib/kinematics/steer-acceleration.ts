@@ -238,6 +238,9 @@ export function solveSteerAcceleration(
   const pivot = input.joints.findIndex((j) => j.role === 'pivot'), roll = input.joints.findIndex((j) => j.role === 'roll');
   out.pivotJoint = pivot;
   out.rollJoint = roll;
+  // Every early return below leaves the numbers empty, whatever a reused `out` held.
+  out.pivotRate = out.alignmentRate = out.alignmentGain = out.rollAcceleration = Number.NaN;
+  for (const v of [out.contactVelocity, out.overObject, out.normalRate, out.objectVelocityRate, out.normalGainRates, out.baseAccelerations, out.remainderRate, out.rollDirectionRate]) v.fill(Number.NaN);
   out.status = precondition(finger, input, curvature, settings);
   if (out.status !== 'defined') return out;
   const { axes, points } = steeredJoints(finger, pivot);
