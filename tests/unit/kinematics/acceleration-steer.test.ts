@@ -219,6 +219,19 @@ describe('the pivot rate of the usual build, a pivot along the normal through th
     }
   });
 
+  it('is the same before the pivot has turned: a ball centred on the pivot axis keeps its contact at every pivot angle', () => {
+    // Turning a ball about an axis through its centre maps its surface onto itself (common practice), so the feed-forward
+    // given at the steered posture from the unsteered solve must equal the one solved with the pivot already turned.
+    const doc = tiltedBaseSheet();
+    const unsteered = feedForward(doc).fingers, turned = feedForward(steered(doc)).fingers;
+    for (const [i, f] of unsteered.entries()) {
+      expect(Math.abs(f.steer.pivotChange)).toBeGreaterThan(0.1);
+      const a = f.acceleration!.steer, b = turned[i].acceleration!.steer;
+      expect(a.status).toBe('defined');
+      expect([a.pivotRate, a.rollAcceleration, ...a.baseAccelerations]).toBeNear([b.pivotRate, b.rollAcceleration, ...b.baseAccelerations], { abs: 1e-9, rel: 1e-9 });
+    }
+  });
+
   it('holds the remainder rate that the base and roll accelerations are built on (central differences, common practice)', () => {
     const doc = steered(tiltedBaseSheet());
     for (const [i, f] of feedForward(doc).fingers.entries()) {
