@@ -114,6 +114,14 @@ describe('sheet editor', () => {
     const model = await cell(page, '0.acceleration.model').innerText();
     const caption = (await page.locator('[data-acceleration="0"] caption').innerText()).toLowerCase();
     expect(caption).toContain(model === 'rolling-contact' ? 'rolling contact' : 'material points');
+    // Beside it the steer-and-roll feed-forward: its pivot rate and base and roll accelerations, or the reason it is not defined.
+    const steer = await cell(page, '0.acceleration.steer.status').innerText();
+    if (steer === 'defined') {
+      expect(Number.isFinite(Number(await cell(page, '0.acceleration.steer.pivotRate').innerText()))).toBe(true);
+      expect(Number.isFinite(Number(await cell(page, '0.acceleration.steer.rollAcceleration').innerText()))).toBe(true);
+    } else {
+      await expect(cell(page, '0.acceleration.steer.reason').innerText()).resolves.toContain('not defined');
+    }
     await linear.locator('input').fill('');
     await changedText(page, key, after);
     await expect(cell(page, key).innerText()).resolves.toBe(before);

@@ -1,6 +1,6 @@
 import { memo } from 'react';
 import type { ContactWander, PlainSheetResult } from '../../lib/kinematics';
-import { displayNumber, displayValue, findOutput, formatShownNumber, type OutputDefinition } from '../../lib/sheet/outputs';
+import { displayNumber, displayValue, findOutput, formatShownNumber, STEER_FEEDFORWARD_REASONS, type OutputDefinition } from '../../lib/sheet/outputs';
 import { CurvatureTable } from './CurvatureTable';
 import { SafetyCaution } from './SafetyCaution';
 
@@ -36,7 +36,7 @@ const MATERIAL_POINTS_REASON: Record<ContactWander['status'], string> = {
   defined: 'no contact curvature',
 };
 
-const JOINT_COLUMNS = ['jointAngles', 'full.rates', 'steer.rates', 'steer.rateDifference', 'acceleration.jointAccelerations'].map(findOutput);
+const JOINT_COLUMNS = ['jointAngles', 'full.rates', 'steer.rates', 'steer.rateDifference', 'acceleration.jointAccelerations', 'acceleration.steer.jointAccelerations'].map(findOutput);
 
 /** The k-th joint's value of a per-joint output, in its display unit. */
 function jointCell(definition: OutputDefinition, result: PlainSheetResult, finger: number, joint: number): string {
@@ -90,7 +90,7 @@ function ResultsSection({ result, stale }: { result: PlainSheetResult | null; st
               </table>
             </div>
             <table className="mt-3 w-full text-sm">
-              <caption className="text-left text-[11px] uppercase tracking-wide text-graphite">joint rates, rad/s: full solution beside steer-and-roll; joint accelerations of the full solution</caption>
+              <caption className="text-left text-[11px] uppercase tracking-wide text-graphite">joint rates, rad/s: full solution beside steer-and-roll; joint accelerations of the full solution beside steer-and-roll (pivot: its rate below)</caption>
               <thead>
                 <tr className="border-b border-ink text-left text-xs text-graphite">
                   <th className="py-1 font-normal">joint</th>
@@ -115,7 +115,7 @@ function ResultsSection({ result, stale }: { result: PlainSheetResult | null; st
             {f.acceleration && (
               <table className="mt-3 w-full text-sm" data-acceleration={i}>
                 <caption className="text-left text-[11px] uppercase tracking-wide text-graphite">
-                  acceleration feed-forward (full solution, {f.acceleration.model === 'rolling-contact' ? 'rolling contact' : `material points, rolling term left out: ${MATERIAL_POINTS_REASON[f.curvature?.wander.status ?? 'defined']}`})
+                  acceleration feed-forward (full solution, {f.acceleration.model === 'rolling-contact' ? 'rolling contact' : `material points, rolling term left out: ${MATERIAL_POINTS_REASON[f.curvature?.wander.status ?? 'defined']}`}; then steer-and-roll)
                 </caption>
                 <tbody>
                   <OutputRow id="acceleration.model" result={result} finger={i} test />
@@ -124,6 +124,20 @@ function ResultsSection({ result, stale }: { result: PlainSheetResult | null; st
                   <OutputRow id="acceleration.jacobianRate" result={result} finger={i} />
                   <OutputRow id="acceleration.rollingTerm" result={result} finger={i} />
                   <OutputRow id="acceleration.residual" result={result} finger={i} />
+                  <OutputRow id="acceleration.steer.status" result={result} finger={i} test />
+                  {f.acceleration.steer.status === 'defined' ? (
+                    <>
+                      <OutputRow id="acceleration.steer.pivotRate" result={result} finger={i} test />
+                      <OutputRow id="acceleration.steer.baseAccelerations" result={result} finger={i} test />
+                      <OutputRow id="acceleration.steer.rollAcceleration" result={result} finger={i} test />
+                    </>
+                  ) : (
+                    <tr className="border-b border-rule/60">
+                      <td colSpan={3} className="py-0.5 text-xs text-graphite" data-result={`${i}.acceleration.steer.reason`}>
+                        steer-and-roll feed-forward not defined: {STEER_FEEDFORWARD_REASONS[f.acceleration.steer.status]}
+                      </td>
+                    </tr>
+                  )}
                 </tbody>
               </table>
             )}

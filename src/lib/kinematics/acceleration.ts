@@ -11,10 +11,11 @@
  * (omega_o - omega_f) x u. Where the contact point's motion is not defined (a line contact, a sharp
  * edge, no touch) the two material points' accelerations are matched and the model says so.
  */
-import type { ObjectAcceleration, SolverSettings } from '../sheet/types';
+import type { FingerInput, ObjectAcceleration, SolverSettings } from '../sheet/types';
 import { applyShapeOperator, type ContactCurvature } from './curvature';
 import { createLinalgWorkspace, dampedLeastSquares, type LinalgWorkspace } from './linalg';
 import type { FingerResult, SheetResult } from './scene';
+import { createSteerAcceleration, solveSteerAcceleration, type SteerAcceleration } from './steer-acceleration';
 import { cross } from './vec3';
 
 /**
@@ -50,6 +51,8 @@ export interface FingerAcceleration {
   achieved: Float64Array;
   /** Norm of a_x + rolling term - achieved, m/s^2: the acceleration the joints cannot follow. */
   residualNorm: number;
+  /** Feed-forward of the steer-and-roll solution: pivot rate, base and roll accelerations, or why they are not defined. */
+  steer: SteerAcceleration;
 }
 
 /** Acceleration of the object's material point at x: a + alpha x r + omega x (omega x r), r = x - p (world frame, m/s^2); centripetalOut gets omega x (omega x r). */
@@ -121,8 +124,8 @@ export function rollingTerm(
   return out;
 }
 
-/** New, zeroed acceleration feed-forward for a finger of n joints. */
-export function createFingerAcceleration(jointCount: number): FingerAcceleration {
+/** New, zeroed acceleration feed-forward for a finger of n joints and the given base joint count. */
+export function createFingerAcceleration(jointCount: number, baseJointCount = 0): FingerAcceleration {
   return {
     model: 'material-points',
     objectPoint: new Float64Array(3),
@@ -136,6 +139,7 @@ export function createFingerAcceleration(jointCount: number): FingerAcceleration
     jointAccelerations: new Float64Array(jointCount),
     achieved: new Float64Array(3),
     residualNorm: 0,
+    steer: createSteerAcceleration(baseJointCount),
   };
 }
 
@@ -192,17 +196,19 @@ export function solveFingerAcceleration(
 
 const ZERO_ACCELERATION: Readonly<ObjectAcceleration> = { linear: [0, 0, 0], angular: [0, 0, 0] };
 
-/** Fills every finger's acceleration feed-forward of a solved sheet, once per evaluation, from the object's acceleration (zero when absent) and each contact's curvature from sheetCurvature (world frame, SI). */
+/** Fills every finger's acceleration feed-forward of a solved sheet and of its steer-and-roll solution, once per evaluation, from the object's acceleration (zero when absent), each contact's curvature from sheetCurvature and the hand's finger inputs (world frame, SI). */
 export function solveAccelerations(
   result: SheetResult, acceleration: Readonly<ObjectAcceleration> | undefined, settings: Readonly<SolverSettings>, curvatures: readonly Readonly<ContactCurvature>[],
+  fingers: readonly Readonly<Pick<FingerInput, 'joints' | 'roller'>>[],
 ): SheetResult {
   const maxJoints = result.fingers.reduce((m, f) => Math.max(m, f.jointAngles.length), 4);
   const ws = createLinalgWorkspace(4, maxJoints);
   result.fingers.forEach((finger, i) => {
     finger.acceleration = solveFingerAcceleration(
       finger, result.object.position, result.object.angularVelocity, acceleration ?? ZERO_ACCELERATION, curvatures[i], settings.damping,
-      createFingerAcceleration(finger.jointAngles.length), ws,
+      createFingerAcceleration(finger.jointAngles.length, finger.steer.baseJoints.length), ws,
     );
+    solveSteerAcceleration(finger, fingers[i], result.object.angularVelocity, finger.acceleration.objectPoint, curvatures[i], settings, finger.acceleration.steer);
   });
   return result;
 }

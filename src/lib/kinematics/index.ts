@@ -35,10 +35,11 @@
  * from computeSheetGraspQuality(doc, result) the grasp quality under friction (GraspQuality: force closure, Ferrari-Canny Q_L1 and Q_Linf,
  * the weakest external wrench and its words), and the warnings,
  * whose catalogue is WARNING_CATALOGUE. toPlainResult turns a result into JSON-ready arrays.
- * solveAccelerations(result, doc.object.acceleration, doc.solver, sheetCurvature(doc, result)) adds
+ * solveAccelerations(result, doc.object.acceleration, doc.solver, sheetCurvature(doc, result), doc.hand.fingers) adds
  * each finger's acceleration feed-forward (FingerAcceleration: object point acceleration, J_dot q_dot,
- * rolling term, joint accelerations, and the contact model used) once per evaluation; solveScene
- * never computes it.
+ * rolling term, joint accelerations, and the contact model used) and of its steer-and-roll solution
+ * (SteerAcceleration: pivot rate, base and roll accelerations, or why they are not defined) once per
+ * evaluation; solveScene never computes it.
  *
  * Runs and sweeps:
  *
@@ -80,6 +81,8 @@ export {
 export type { FingerResult, PlainSheetResult, Scene, SheetResult } from './scene';
 export { createFingerAcceleration, jacobianRateTimesRates, objectPointAcceleration, rollingTerm, solveAccelerations, solveFingerAcceleration } from './acceleration';
 export type { AccelerationModel, FingerAcceleration } from './acceleration';
+export { solveSteerAcceleration } from './steer-acceleration';
+export type { SteerAcceleration, SteerAccelerationStatus } from './steer-acceleration';
 export { runScene, runSheet, SOLUTION_KINDS, toPlainRunRecord, warningsAt } from './run';
 export type { RunOptions, RunRecord, RunStopReason } from './run';
 export { sweepSheet, sweepValues } from './sweep';

@@ -1,11 +1,13 @@
 /**
  * Derivations of the acceleration feed-forward of each finger: the object point's acceleration,
  * J_dot q_dot, the rolling term (or why the material-point model is used instead), the joint
- * accelerations and what is left, as KaTeX with the numbers put in. Only results of a sheet
+ * accelerations and what is left, then the steer-and-roll feed-forward (pivot rate, base and roll
+ * accelerations) or why it is not defined, as KaTeX with the numbers put in. Only results of a sheet
  * evaluation carry an acceleration; a finger without one gets no entries.
  */
 import { sheetCurvature, type ContactWander, type FingerResult, type SheetResult } from '../kinematics';
 import { column, formatLatexNumber, matrix, type DerivationEntry } from './derivation';
+import { STEER_FEEDFORWARD_REASONS } from './outputs';
 import type { SheetDocument } from './types';
 
 function list(v: ArrayLike<number>, count = v.length): number[] {
@@ -86,5 +88,55 @@ export function accelerationEntries(doc: SheetDocument, result: SheetResult, i: 
     latex: `\\lVert a(x) + \\omega_o \\times u_o - \\omega_f \\times u_f - (J \\ddot\\theta + \\dot J \\dot\\theta) \\rVert = \\left\\lVert ${column([0, 1, 2].map((c) => acc.objectPoint[c] + acc.rollingTerm[c]))} - ${column(acc.achieved)} \\right\\rVert = ${formatLatexNumber(acc.residualNorm)}`,
     value: acc.residualNorm,
     unit: 'm/s^2',
+  });
+  steerEntries(result, f, id, entries);
+}
+
+/** Appends the steer-and-roll feed-forward entries of finger i (rad/s and rad/s^2, palm frame) to entries: each step with its formula, or why it is not defined. */
+function steerEntries(result: SheetResult, f: FingerResult, id: string, entries: DerivationEntry[]): void {
+  const s = f.acceleration!.steer, steer = f.steer;
+  if (s.status !== 'defined') {
+    entries.push({
+      id: `${id}.steer`,
+      label: `${f.name}: steer-and-roll feed-forward not defined (${STEER_FEEDFORWARD_REASONS[s.status]})`,
+      latex: `\\text{steer-and-roll feed-forward: ${s.status}} \\;\\Rightarrow\\; \\dot\\psi,\\ \\dot b,\\ \\dot\\rho \\text{ not defined}`,
+      value: Number.NaN,
+      unit: 'rad/s',
+    });
+    return;
+  }
+  const n = f.jointAngles.length, jn = steer.jacobianAfter.data;
+  const d = [0, 1, 2].map((row) => jn[row * n + s.rollJoint]);
+  const c = f.contact, w = result.object.angularVelocity;
+  entries.push({
+    id: `${id}.steer.contactMotion`,
+    label: `${f.name}: steer-and-roll, motion of the contact at the steer-and-roll rates with the pivot rate (steered posture)`,
+    latex: `u_o = ${column(s.overObject)},\\; \\dot c = v_o(x) + u_o = ${column(c.objectVelocity)} + u_o = ${column(s.contactVelocity)},\\; \\dot n = \\omega_o \\times n + L_o u_o = ${column(s.normalRate)},\\; \\tfrac{d}{dt} v_o(x) = a(x) + \\omega_o \\times u_o,\\; \\omega_o = ${column(w)} \\;\\Rightarrow\\; ${column(s.objectVelocityRate)}`,
+    value: list(s.contactVelocity),
+    unit: 'm/s',
+  });
+  entries.push({
+    id: `${id}.steer.pivotRate`,
+    label: `${f.name}: steer-and-roll pivot rate that keeps the roll direction in the plane of n and the remainder`,
+    latex: `f = (n \\times u) \\cdot d = 0,\\; \\dot f = (\\dot n \\times u + n \\times \\dot u) \\cdot d + (n \\times u) \\cdot \\dot d = \\dot f_0 + \\dot\\psi\\, \\tfrac{\\partial \\dot f}{\\partial \\dot\\psi},\\; u = ${column(steer.remainder)},\\; d = ${column(d)},\\; \\dot f_0 = ${formatLatexNumber(s.alignmentRate)},\\; \\tfrac{\\partial \\dot f}{\\partial \\dot\\psi} = ${formatLatexNumber(s.alignmentGain)} \\;\\Rightarrow\\; \\dot\\psi = -\\dot f_0 \\big/ \\tfrac{\\partial \\dot f}{\\partial \\dot\\psi} = ${formatLatexNumber(s.pivotRate)}`,
+    value: s.pivotRate,
+    unit: 'rad/s',
+  });
+  const count = steer.baseJoints.length;
+  const normalSpeed = c.normal[0] * c.objectVelocity[0] + c.normal[1] * c.objectVelocity[1] + c.normal[2] * c.objectVelocity[2];
+  const normalSpeedRate = [0, 1, 2].reduce((sum, k) => sum + s.normalRate[k] * c.objectVelocity[k] + c.normal[k] * s.objectVelocityRate[k], 0);
+  entries.push({
+    id: `${id}.steer.baseAccelerations`,
+    label: `${f.name}: steer-and-roll base accelerations, the rate of the minimum-norm base rates`,
+    latex: `\\dot b_k = \\frac{\\dot a_k s + a_k \\dot s}{\\lvert a\\rvert^2} - \\frac{2 a_k s\\, (a \\cdot \\dot a)}{\\lvert a\\rvert^4},\\; a = ${column(steer.normalGains, 0, count)},\\; \\dot a_k = \\dot n \\cdot (\\omega_k \\times (y - r_k)) + n \\cdot \\tfrac{d}{dt}(\\omega_k \\times (y - r_k)) = ${column(s.normalGainRates, 0, count)},\\; s = n \\cdot v_o = ${formatLatexNumber(normalSpeed)},\\; \\dot s = \\dot n \\cdot v_o + n \\cdot \\tfrac{d}{dt} v_o = ${formatLatexNumber(normalSpeedRate)} \\;\\Rightarrow\\; \\dot b = ${column(s.baseAccelerations, 0, count)}`,
+    value: list(s.baseAccelerations),
+    unit: 'rad/s^2',
+  });
+  entries.push({
+    id: `${id}.steer.rollAcceleration`,
+    label: `${f.name}: steer-and-roll roll acceleration`,
+    latex: `\\dot\\rho = \\frac{\\dot u \\cdot d + u \\cdot \\dot d - 2 \\rho\\, d \\cdot \\dot d}{\\lvert d\\rvert^2},\\; \\dot u = \\tfrac{d}{dt} v_o - \\sum_k \\big(\\dot b_k\\, \\omega_k \\times (y - r_k) + b_k \\tfrac{d}{dt}(\\omega_k \\times (y - r_k))\\big) = ${column(s.remainderRate)},\\; \\dot d = ${column(s.rollDirectionRate)},\\; \\rho = ${formatLatexNumber(steer.rollRate)} \\;\\Rightarrow\\; \\dot\\rho = ${formatLatexNumber(s.rollAcceleration)}`,
+    value: s.rollAcceleration,
+    unit: 'rad/s^2',
   });
 }

@@ -60,10 +60,16 @@ const UNBOUNDED_OUTPUTS: ReadonlySet<string> = new Set(['conditionNumber', 'cond
  */
 const UNDEFINED_BY_BUILD: ReadonlySet<string> = new Set(['latitude', 'longitude', 'rollAxisDistance', 'pivotAxisDistance', 'pivotCenterDistance']);
 
-/** Whether a NaN at this path of the plain result means "not defined" (see UNDEFINED_BY_BUILD; every steering number of a finger steer-and-roll does not apply to). */
+/**
+ * Whether a NaN at this path of the plain result means "not defined" (see UNDEFINED_BY_BUILD; every steering number of a finger
+ * steer-and-roll does not apply to; every number of a steer-and-roll feed-forward whose status says why it is not defined).
+ */
 function undefinedByBuild(result: PlainSheetResult, path: readonly (string | number)[], key: string): boolean {
   if (UNDEFINED_BY_BUILD.has(key)) return true;
-  return path[0] === 'fingers' && typeof path[1] === 'number' && path[2] === 'steer' && !result.fingers[path[1]]?.steer.available;
+  if (path[0] !== 'fingers' || typeof path[1] !== 'number') return false;
+  const finger = result.fingers[path[1]];
+  if (path[2] === 'acceleration' && path[3] === 'steer') return finger?.acceleration?.steer.status !== 'defined';
+  return path[2] === 'steer' && !finger?.steer.available;
 }
 
 /** Outputs with one entry per joint of the finger, so a bad entry names its joint. */
@@ -108,7 +114,7 @@ export function evaluateSheet(input: unknown, options: EvaluateOptions = {}): Re
     const solved = solveSheet(doc);
     // The feed-forward's rolling term needs each contact's motion over the surfaces, so the curvature comes first.
     const curvatures = sheetCurvature(doc, solved);
-    solveAccelerations(solved, doc.object.acceleration, doc.solver, curvatures);
+    solveAccelerations(solved, doc.object.acceleration, doc.solver, curvatures, doc.hand.fingers);
     solved.graspQuality = computeSheetGraspQuality(doc, solved);
     const result = toPlainResult(solved);
     curvatures.forEach((curvature, i) => { result.fingers[i].curvature = curvature; });

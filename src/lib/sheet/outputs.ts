@@ -4,7 +4,7 @@
  * table, the CSV export, the revision comparison and the report all read it; a leaf module the
  * browser may import.
  */
-import type { PlainSheetResult } from '../kinematics';
+import type { PlainSheetResult, SteerAccelerationStatus } from '../kinematics';
 
 export type OutputValue = number | string;
 
@@ -58,6 +58,31 @@ const degrees = (si: number) => (si * 180) / Math.PI;
 function accelerationOf(result: PlainSheetResult, finger: number, key: 'objectPoint' | 'centripetal' | 'jacobianRate' | 'rollingTerm' | 'jointAccelerations'): readonly number[] {
   const f = result.fingers[finger];
   return f.acceleration?.[key] ?? Array.from({ length: key === 'jointAccelerations' ? f.jointNames.length : 3 }, () => Number.NaN);
+}
+/** Why a finger's steer-and-roll feed-forward is not defined, in words, by its status (shown by the results and the derivation). */
+export const STEER_FEEDFORWARD_REASONS: Record<Exclude<SteerAccelerationStatus, 'defined'>, string> = {
+  'not-available': 'the finger has no base, pivot and roll joint',
+  'at-rest': 'the remainder the roller supplies is below the minimum tangential speed, so its direction, and the steering, are noise',
+  'roll-axis': 'the contact lies on the roll axis at every pivot angle, so there is no roll direction to keep aligned',
+  'not-aligned': 'no pivot angle aligns the roll direction (least-slip fallback), so there is no alignment to keep',
+  'contact-motion': "the contact point's motion over the surfaces is not defined (line contact, sharp edge or not touching)",
+  'not-steered': 'the pivot is not yet at its steered angle and turning it changes the roller surface at the contact, which was not computed there',
+  'pivot-ineffective': 'turning the pivot does not turn the roll direction out of the plane of the normal and the remainder',
+  'out-of-range': 'a number leaves the floating-point range next to a rank loss of the drive columns',
+};
+
+/**
+ * Steer-and-roll accelerations joint by joint: base and roll joints their feed-forward, other joints 0 as their rates,
+ * the pivot NaN ("—": it follows its steered angle at the pivot rate, shown on its own); all NaN where the feed-forward is not defined.
+ */
+function steerJointAccelerations(result: PlainSheetResult, finger: number): readonly number[] {
+  const f = result.fingers[finger], steer = f.acceleration?.steer;
+  if (!steer || steer.status !== 'defined') return f.jointNames.map(() => Number.NaN);
+  const values = f.jointNames.map(() => 0);
+  f.steer.baseJoints.forEach((k, j) => { values[k] = steer.baseAccelerations[j]; });
+  values[steer.rollJoint] = steer.rollAcceleration;
+  values[steer.pivotJoint] = Number.NaN;
+  return values;
 }
 /** Principal curvatures, or NaN twice where the contact has none (a sharp edge, or a result without curvature). */
 const principal = (values: readonly number[] | null | undefined): readonly number[] => values ?? [Number.NaN, Number.NaN];
@@ -207,6 +232,31 @@ export const OUTPUTS: readonly OutputDefinition[] = [
   {
     id: 'acceleration.jointAccelerations', label: 'joint acceleration (full)', tableLabel: 'accel., rad/s²', unit: 'rad/s^2', display: shown('rad/s²'),
     frame: null, scope: 'joint', parts: 'joints', compared: true, read: (r, i) => accelerationOf(r, i, 'jointAccelerations'),
+  },
+  {
+    id: 'acceleration.steer.status', label: 'steer-and-roll feed-forward', tableLabel: 'steer: feed-forward', unit: '', display: unitless(), frame: null,
+    scope: 'finger', parts: 'single', compared: true, csv: { columns: ['steer_feedforward'] },
+    read: (r, i) => r.fingers[i].acceleration?.steer.status ?? 'not computed',
+  },
+  {
+    id: 'acceleration.steer.pivotRate', label: 'pivot rate (steer-and-roll)', tableLabel: 'steer: pivot rate', unit: 'rad/s', display: shown('rad/s'),
+    frame: null, scope: 'finger', parts: 'single', compared: true, csv: { columns: ['steer_pivot_rate_rad_s'] },
+    read: (r, i) => r.fingers[i].acceleration?.steer.pivotRate ?? Number.NaN,
+  },
+  {
+    id: 'acceleration.steer.rollAcceleration', label: 'roll acceleration (steer-and-roll)', tableLabel: 'steer: roll acceleration', unit: 'rad/s^2',
+    display: shown('rad/s²'), frame: null, scope: 'finger', parts: 'single', compared: true, csv: { columns: ['steer_roll_acceleration_rad_s2'] },
+    read: (r, i) => r.fingers[i].acceleration?.steer.rollAcceleration ?? Number.NaN,
+  },
+  {
+    id: 'acceleration.steer.baseAccelerations', label: 'base acceleration (steer-and-roll, minimum norm)', tableLabel: 'steer: base acceleration',
+    unit: 'rad/s^2', display: shown('rad/s²'), frame: null, scope: 'finger', parts: 'base-joints', compared: true,
+    csv: { perJoint: (k) => `steer_base_acceleration${k + 1}_rad_s2` },
+    read: (r, i) => r.fingers[i].acceleration?.steer.baseAccelerations ?? r.fingers[i].steer.baseJoints.map(() => Number.NaN),
+  },
+  {
+    id: 'acceleration.steer.jointAccelerations', label: 'joint acceleration (steer-and-roll)', tableLabel: 'steer accel., rad/s²', unit: 'rad/s^2',
+    display: shown('rad/s²'), frame: null, scope: 'joint', parts: 'joints', compared: false, read: steerJointAccelerations,
   },
   {
     id: 'curvature.object', label: 'object principal curvature', tableLabel: 'object κ1, κ2', unit: '1/m', display: shown('1/m'), frame: null,

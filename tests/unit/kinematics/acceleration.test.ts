@@ -1,4 +1,5 @@
 import { quat as glQuat, vec3 as glVec3 } from 'gl-matrix';
+import { integrateOrientation } from './acceleration-trajectory';
 import { describe, expect, it } from 'vitest';
 import { createFinger, forwardKinematics } from '../../../src/lib/kinematics/hand';
 import { contactJacobian } from '../../../src/lib/kinematics/full-solution';
@@ -10,32 +11,6 @@ import type { FingerInput, ObjectAcceleration, SheetDocument } from '../../../sr
 import { threeFingerSheet } from './three-finger-sheet';
 
 type V3 = [number, number, number];
-
-/**
- * Orientation at time t of a body whose angular velocity (world frame) is omega + alpha s for s in
- * [0, t], from q0 ([x, y, z, w]): the quaternion equation q_dot = 1/2 [omega, 0] q integrated by
- * classical Runge-Kutta (common practice) with gl-matrix's quaternion product, independent of the core's quat.
- */
-function integrateOrientation(q0: readonly number[], omega: V3, alpha: V3, t: number, steps = 400): number[] {
-  const q = [q0[0], q0[1], q0[2], q0[3]];
-  const dt = t / steps;
-  const rate = (s: number, at: number[]) => {
-    const w = [omega[0] + alpha[0] * s, omega[1] + alpha[1] * s, omega[2] + alpha[2] * s, 0];
-    const out = [0, 0, 0, 0];
-    glQuat.multiply(out as unknown as glQuat, w as unknown as glQuat, at as unknown as glQuat);
-    return out.map((x) => x / 2);
-  };
-  for (let i = 0; i < steps; i++) {
-    const s = i * dt;
-    const k1 = rate(s, q);
-    const k2 = rate(s + dt / 2, q.map((x, c) => x + (dt / 2) * k1[c]));
-    const k3 = rate(s + dt / 2, q.map((x, c) => x + (dt / 2) * k2[c]));
-    const k4 = rate(s + dt, q.map((x, c) => x + dt * k3[c]));
-    for (let c = 0; c < 4; c++) q[c] += (dt / 6) * (k1[c] + 2 * k2[c] + 2 * k3[c] + k4[c]);
-  }
-  const norm = Math.hypot(...q);
-  return q.map((x) => x / norm);
-}
 
 /** World position at time t of the body point at local offset rLocal, origin moved by p0 + v t + a t^2 / 2. */
 function bodyPoint(p0: V3, v: V3, a: V3, q0: number[], omega: V3, alpha: V3, rLocal: V3, t: number): number[] {
@@ -180,7 +155,7 @@ describe('joint accelerations of the full solution', () => {
 
   it('reads a missing object acceleration as zero, leaving the centripetal and J_dot q_dot terms', () => {
     const solved = solveSheet(doc);
-    const still = solveAccelerations(solved, undefined, doc.solver, sheetCurvature(doc, solved)).fingers[0].acceleration!;
+    const still = solveAccelerations(solved, undefined, doc.solver, sheetCurvature(doc, solved), doc.hand.fingers).fingers[0].acceleration!;
     const c = f.contact.objectPoint, w = result.object.angularVelocity;
     const r = [c[0], c[1], c[2]];
     expect(still.objectPoint).toBeNear(cross(w, cross(w, r)), { abs: 1e-15, rel: 1e-12 });
@@ -245,7 +220,7 @@ function cylinderReachingSheet(): SheetDocument {
 /** Solves a sheet's velocities and feed-forward as an evaluation does: curvature first, then the accelerations. */
 function feedForward(doc: SheetDocument) {
   const solved = solveSheet(doc);
-  return solveAccelerations(solved, doc.object.acceleration, doc.solver, sheetCurvature(doc, solved));
+  return solveAccelerations(solved, doc.object.acceleration, doc.solver, sheetCurvature(doc, solved), doc.hand.fingers);
 }
 
 /**
@@ -335,7 +310,7 @@ describe('where the contact point\'s motion is not defined', () => {
     const solved = solveSheet(doc);
     const curvatures = sheetCurvature(doc, solved);
     expect(curvatures[0].wander.status).toBe('singular');
-    const acc = solveAccelerations(solved, doc.object.acceleration, doc.solver, curvatures).fingers[0].acceleration!;
+    const acc = solveAccelerations(solved, doc.object.acceleration, doc.solver, curvatures, doc.hand.fingers).fingers[0].acceleration!;
     expect(acc.model).toBe('material-points');
     expect(Array.from(acc.rollingTerm)).toEqual([0, 0, 0]);
     // The material-point model is the differentiated constraint without the rolling term (Siciliano et al. 2009, sec. 3.1).
@@ -344,7 +319,7 @@ describe('where the contact point\'s motion is not defined', () => {
 
   it('matches the material points when no curvature is given for the finger', () => {
     const doc = reachingSheet();
-    const acc = solveAccelerations(solveSheet(doc), doc.object.acceleration, doc.solver, []).fingers[0].acceleration!;
+    const acc = solveAccelerations(solveSheet(doc), doc.object.acceleration, doc.solver, [], doc.hand.fingers).fingers[0].acceleration!;
     expect(acc.model).toBe('material-points');
     expect(acc.spinRollingTerm).toBe(0);
   });

@@ -7,6 +7,7 @@ import { createFingerAcceleration, sweepSheet } from '../../../src/lib/kinematic
 import ResultsSection from '../../../src/components/sheet/ResultsSection';
 import { evaluateSheet } from '../../../src/lib/sheet/evaluate';
 import { displayValue, findOutput } from '../../../src/lib/sheet/outputs';
+import { resultsCsv } from '../../../src/lib/sheet/results-csv';
 import { parseSheet } from '../../../src/lib/sheet/schema';
 import { threeFingerSheet } from '../kinematics/three-finger-sheet';
 
@@ -68,7 +69,8 @@ describe('the feed-forward in an evaluation', () => {
   it('derives the object point, J_dot q_dot, the joint accelerations and the residual of every finger, in KaTeX', () => {
     for (const [i, f] of result.fingers.entries()) {
       const entries = derivation.filter((e) => e.id.startsWith(`finger.${i}.acceleration.`));
-      expect(entries.map((e) => e.id.split('.').pop())).toEqual(['objectPoint', 'jacobianRate', 'rollingTerm', 'jointAccelerations', 'residual']);
+      const steer = f.acceleration!.steer.status === 'defined' ? ['contactMotion', 'pivotRate', 'baseAccelerations', 'rollAcceleration'] : ['steer'];
+      expect(entries.map((e) => e.id.split('.').pop())).toEqual(['objectPoint', 'jacobianRate', 'rollingTerm', 'jointAccelerations', 'residual', ...steer]);
       expect(entries[2].label).toContain('rolling-contact model');
       expect(entries[2].value).toEqual(f.acceleration?.rollingTerm);
       expect(entries[3].value).toEqual(f.acceleration?.jointAccelerations);
@@ -124,6 +126,43 @@ describe('the contact model of the feed-forward', () => {
     expect(displayValue(output, output.read(line.value.result, 0))).toBe('material-points');
     const html = renderToStaticMarkup(createElement(ResultsSection, { result: line.value.result, stale: false }));
     expect(html).toContain('material points, rolling term left out: a line contact, the contact point is not determined along it');
+  });
+});
+
+describe('the steer-and-roll feed-forward in an evaluation', () => {
+  const pegText = readFileSync(new URL('../../../content/sheets/line4-peg-tilt.json', import.meta.url), 'utf8');
+
+  it('reports a finger where it is not defined by its reason: empty numbers in the JSON, CSV and results, the reason in words', () => {
+    // The peg sheet's object point at the first contact is at rest at this instant: no remainder, so no direction to steer by.
+    const evaluated = evaluateSheet(JSON.parse(pegText), { derive: true });
+    if (!evaluated.ok) throw new Error(evaluated.error.message);
+    const { result, derivation, doc } = evaluated.value;
+    const steer = result.fingers[0].acceleration!.steer;
+    expect(steer.status).toBe('at-rest');
+    expect(JSON.parse(JSON.stringify(result)).fingers[0].acceleration.steer.pivotRate).toBeNull();
+    const html = renderToStaticMarkup(createElement(ResultsSection, { result, stale: false }));
+    expect(html).toContain('steer-and-roll feed-forward not defined: the remainder the roller supplies is below the minimum tangential speed');
+    const header = resultsCsv(doc, result).split('\n')[0].split(',');
+    const row = resultsCsv(doc, result).split('\n')[1].split(',');
+    expect(row[header.indexOf('steer_feedforward')]).toBe('at-rest');
+    expect(row[header.indexOf('steer_pivot_rate_rad_s')]).toBe('');
+    expect(derivation.find((e) => e.id === 'finger.0.acceleration.steer')?.label).toContain('not defined');
+  });
+
+  it('shows the pivot rate, base and roll accelerations of a steered finger in the results and the joint table', () => {
+    const sheet = { ...threeFingerSheet(), object: { ...threeFingerSheet().object, acceleration: { linear: [0.2, 0, -0.1], angular: [0, 0, 3] } } };
+    const evaluated = evaluateSheet(sheet);
+    if (!evaluated.ok) throw new Error(evaluated.error.message);
+    const { result } = evaluated.value;
+    const steer = result.fingers[0].acceleration!.steer;
+    expect(steer.status).toBe('defined');
+    const html = renderToStaticMarkup(createElement(ResultsSection, { result, stale: false }));
+    expect(html).toContain(`data-result="0.acceleration.steer.pivotRate">${displayValue(findOutput('acceleration.steer.pivotRate'), steer.pivotRate)}</td>`);
+    expect(html).toContain(`data-result="0.acceleration.steer.rollAcceleration">${displayValue(findOutput('acceleration.steer.rollAcceleration'), steer.rollAcceleration)}</td>`);
+    const joints = findOutput('acceleration.steer.jointAccelerations').read(result, 0) as number[];
+    expect(joints[0]).toBe(steer.baseAccelerations[0]);
+    expect(joints[1]).toBeNaN();
+    expect(joints[2]).toBe(steer.rollAcceleration);
   });
 });
 

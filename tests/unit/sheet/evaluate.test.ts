@@ -41,7 +41,7 @@ describe('evaluateSheet', () => {
     if (!parsed.ok) throw new Error('the example must read');
     const unaccelerated = solveSheet(parsed.doc);
     const curvatures = sheetCurvature(parsed.doc, unaccelerated);
-    const solved = solveAccelerations(unaccelerated, parsed.doc.object.acceleration, parsed.doc.solver, curvatures);
+    const solved = solveAccelerations(unaccelerated, parsed.doc.object.acceleration, parsed.doc.solver, curvatures, parsed.doc.hand.fingers);
     solved.graspQuality = computeSheetGraspQuality(parsed.doc, solved);
     expect(evaluated.value.doc).toEqual(parsed.doc);
     const plain = toPlainResult(solved);
@@ -61,7 +61,7 @@ describe('evaluateSheet', () => {
     const parsed = parseSheet(sheet());
     if (!parsed.ok) throw new Error('the example must read');
     const solved = solveSheet(parsed.doc);
-    solveAccelerations(solved, parsed.doc.object.acceleration, parsed.doc.solver, sheetCurvature(parsed.doc, solved));
+    solveAccelerations(solved, parsed.doc.object.acceleration, parsed.doc.solver, sheetCurvature(parsed.doc, solved), parsed.doc.hand.fingers);
     solved.graspQuality = computeSheetGraspQuality(parsed.doc, solved);
     expect(evaluated.value.derivation).toEqual(deriveSheet(parsed.doc, solved));
   });

@@ -40,18 +40,23 @@ describe('the surfaces that read the catalogue', () => {
     expect(FINGER_COLUMNS).toEqual([
       'finger', 'contact_state', 'gap_m', 'normal_speed_m_s', 'tangential_speed_m_s', 'residual_m_s', 'sigma1_m_rad', 'sigma2_m_rad',
       'sigma3_m_rad', 'condition_number', 'manipulability', 'steer_pivot_angle_rad', 'steer_roll_rate_rad_s',
-      'steer_residual_m_s', 'object_kappa1_1_m', 'object_kappa2_1_m', 'roller_kappa1_1_m', 'roller_kappa2_1_m', 'relative_kappa1_1_m',
+      'steer_residual_m_s', 'steer_feedforward', 'steer_pivot_rate_rad_s', 'steer_roll_acceleration_rad_s2', 'object_kappa1_1_m', 'object_kappa2_1_m', 'roller_kappa1_1_m', 'roller_kappa2_1_m', 'relative_kappa1_1_m',
       'relative_kappa2_1_m', 'wander_status', 'wander_roller_m_s', 'wander_object_m_s', 'warnings',
     ]);
-    expect(rateColumns(3)).toEqual(['rate1_rad_s', 'rate2_rad_s', 'rate3_rad_s', 'steer_base_rate1_rad_s', 'steer_base_rate2_rad_s', 'steer_base_rate3_rad_s']);
+    expect(rateColumns(3)).toEqual([
+      'rate1_rad_s', 'rate2_rad_s', 'rate3_rad_s', 'steer_base_rate1_rad_s', 'steer_base_rate2_rad_s', 'steer_base_rate3_rad_s',
+      'steer_base_acceleration1_rad_s2', 'steer_base_acceleration2_rad_s2', 'steer_base_acceleration3_rad_s2',
+    ]);
     const codes = result.warnings.filter((w) => w.finger === 0).map((w) => w.code).join(' ');
     expect(fingerRows(result, 4, ['x'])[0]).toEqual([
       'x', first.name, first.contact.state, first.contact.gap, first.contact.normalSpeed, first.contact.tangentialSpeed, first.full.residualNorm,
       ...first.full.singularValues, first.full.conditionNumber, first.full.manipulability, first.steer.pivotAngle,
-      first.steer.rollRate, first.steer.residualNorm, ...first.curvature!.object.principalCurvatures!, ...first.curvature!.roller.principalCurvatures!,
+      first.steer.rollRate, first.steer.residualNorm, first.acceleration!.steer.status, first.acceleration!.steer.pivotRate,
+      first.acceleration!.steer.rollAcceleration, ...first.curvature!.object.principalCurvatures!, ...first.curvature!.roller.principalCurvatures!,
       ...first.curvature!.relative.principalCurvatures!, first.curvature!.wander.status, first.curvature!.wander.rollerSpeed,
       first.curvature!.wander.objectSpeed, codes, ...Array.from({ length: 4 }, (_, k) => first.full.rates[k] ?? ''),
       ...Array.from({ length: 4 }, (_, k) => first.steer.baseRates[k] ?? ''),
+      ...Array.from({ length: 4 }, (_, k) => first.acceleration!.steer.baseAccelerations[k] ?? ''),
     ]);
     expect(resultsCsv(doc, result).split('\n')).toHaveLength(result.fingers.length + 1);
   });
@@ -67,6 +72,8 @@ describe('the surfaces that read the catalogue', () => {
       'roll rate (steer-and-roll)', 'slip residual (steer-and-roll)', ...xyz('object acceleration at the contact'), 'feed-forward contact model',
       'acceleration residual (full)',
       ...first.jointNames.map((joint) => `joint acceleration (full) · ${joint}`),
+      'steer-and-roll feed-forward', 'pivot rate (steer-and-roll)', 'roll acceleration (steer-and-roll)',
+      ...first.steer.baseJoints.map((k) => `base acceleration (steer-and-roll, minimum norm) · ${first.jointNames[k]}`),
       'object principal curvature · κ1', 'object principal curvature · κ2',
       'roller principal curvature · κ1', 'roller principal curvature · κ2', 'relative curvature · κ1', 'relative curvature · κ2',
       'contact-point motion', 'contact-point speed over the roller', 'contact-point speed over the object',
@@ -92,12 +99,13 @@ describe('the surfaces that read the catalogue', () => {
   it('labels the editor results table as before, with display units', () => {
     const html = renderToStaticMarkup(createElement(ResultsSection, { result, stale: false }));
     const labels = [...html.matchAll(/<th scope="row"[^>]*>([^<]*)<\/th>/g)].map((m) => m[1]);
-    const perContact = [
+    const perContact = (defined: boolean) => [
       'contact point x', 'normal n', 'gap', 'normal velocity', 'tangential velocity', 'tangential speed', 'steer: base rate', 'steer: pivot angle',
       'steer: roll rate', 'steer − full, |Δ rates|', 'condition before / after steering', 'full: slip residual',
-      'contact model', 'object acceleration a(x)', 'of which centripetal', 'J̇ q̇', 'rolling term', 'acceleration residual', 'object', 'roller', 'relative',
+      'contact model', 'object acceleration a(x)', 'of which centripetal', 'J̇ q̇', 'rolling term', 'acceleration residual', 'steer: feed-forward',
+      ...(defined ? ['steer: pivot rate', 'steer: base acceleration', 'steer: roll acceleration'] : []), 'object', 'roller', 'relative',
     ];
-    expect(labels).toEqual([...result.fingers.flatMap(() => perContact), 'contacts', 'rank of the contact map', 'undrivable directions',
+    expect(labels).toEqual([...result.fingers.flatMap((f) => perContact(f.acceleration!.steer.status === 'defined')), 'contacts', 'rank of the contact map', 'undrivable directions',
       'force closure', 'quality Q_L1', 'quality Q_Linf', 'weakest direction',
     ]);
     expect(html).toContain('<th class="py-1 text-right font-normal">angle, deg</th><th class="py-1 text-right font-normal">full</th>');
