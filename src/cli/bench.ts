@@ -5,7 +5,8 @@
  * bundles the kinematics core for its worker, so the figures are those of the shipped code rather
  * than of a per-file module loader; node runs it with --expose-gc so each timed batch starts on a
  * collected heap.
- * Measures one full solve of a three- and a five-finger hand (hand templates on a 30 mm sphere),
+ * Measures one full solve of a three- and a five-finger hand (hand templates on a 30 mm sphere), the three-finger
+ * one also with its joint angles changed between calls,
  * a 10,000-tick run, a 200-value sweep, and the same three-finger contact solve written the
  * general-purpose way with mathjs matrices (eigs of J J^T for singular values, inv and multiply
  * for damped least squares), with the ratio between the two routes. Beside the wall-clock medians
@@ -171,6 +172,17 @@ for (let i = 0; i < three.hand.fingers.length; i++) {
   });
 }
 
+// The same three-finger solve with every joint angle nudged between calls, as in a run: forward kinematics keeps its
+// results only while the angles stay the same, so this line times the solve with it and the line above without it.
+const movingScene = createScene(three);
+const movingResult = createResult(movingScene);
+let nudge = 1e-9;
+function solveWithMovingJoints(): void {
+  nudge = -nudge;
+  for (const finger of movingScene.fingers) for (let k = 0; k < finger.jointCount; k++) finger.angles[k] += nudge;
+  solveScene(movingScene, movingResult);
+}
+
 const runSettings = { ...three.motion.run, maxTicks: 10_000, positionTolerance: -1, angleTolerance: -1, stopOnSingular: false };
 const sweepSettings = { path: '/object/twist/angular/2', from: 0, to: 0.5, steps: 200 };
 
@@ -184,8 +196,9 @@ const workspace = createLinalgWorkspace(6, 40);
 const rates5 = new Float64Array(5);
 const singular5 = new Float64Array(3);
 const velocity = threeResult.fingers[0]!.contact.objectVelocity;
-const [solveThree, solveFive, run, sweep, linalg, mathjsThree] = (await measureInRounds([
+const [solveThree, solveThreeMoving, solveFive, run, sweep, linalg, mathjsThree] = (await measureInRounds([
   { label: 'full solve, three fingers (tri-radial)', batch: quick ? 2_000 : 20_000, call: () => solveScene(threeScene, threeResult) },
+  { label: 'full solve, three fingers, joints moving', batch: quick ? 2_000 : 20_000, call: solveWithMovingJoints },
   { label: 'full solve, five fingers (penta-fan)', batch: quick ? 2_000 : 20_000, call: () => solveScene(fiveScene, fiveResult) },
   { label: '10,000-tick run, three fingers', batch: quick ? 1 : 3, call: () => runSheet(three, { settings: runSettings }) },
   { label: '200-value sweep, three fingers', batch: quick ? 1 : 3, call: () => sweepSheet(three, sweepSettings) },
@@ -204,7 +217,7 @@ const [solveThree, solveFive, run, sweep, linalg, mathjsThree] = (await measureI
       for (let i = 0; i < three.hand.fingers.length; i++) solveFingerWithMathjs(three, i);
     },
   },
-])) as [Measurement, Measurement, Measurement, Measurement, Measurement, Measurement];
+])) as [Measurement, Measurement, Measurement, Measurement, Measurement, Measurement, Measurement];
 
 const speedup = mathjsThree.median / solveThree.median;
 const lines = [
@@ -212,6 +225,7 @@ const lines = [
     `${availableParallelism()} cores, load average ${loadavg()[0]!.toFixed(1)})`,
   ...(loadavg()[0]! > availableParallelism() / 2 ? ['Other work is running on this machine; the figures are inflated by it.'] : []),
   line(solveThree, against(solveThree, 2e-3)),
+  line(solveThreeMoving),
   line(solveFive),
   line(run, against(run, 30)),
   line(sweep),

@@ -20,6 +20,8 @@ const NEGLIGIBLE = 1e-16;
 export function symmetricEigen3Packed(entries: ArrayLike<number>, values: Float64Array, vectors: Float64Array | null = null): Float64Array {
   let a00 = entries[0], a11 = entries[1], a22 = entries[2], a01 = entries[3], a02 = entries[4], a12 = entries[5];
   let v00 = 1, v01 = 0, v02 = 0, v10 = 0, v11 = 1, v12 = 0, v20 = 0, v21 = 0, v22 = 1;
+  // Without vectors the rotations skip their accumulation, which leaves the eigenvalues as they are.
+  const track = vectors !== null;
   for (let sweep = 0; sweep < JACOBI_SWEEPS; sweep++) {
     // Off-diagonal entries at rounding level of the matrix scale shift the eigenvalues by less than rounding.
     const limit = NEGLIGIBLE * (Math.abs(a00) + Math.abs(a11) + Math.abs(a22) + Math.abs(a01) + Math.abs(a02) + Math.abs(a12));
@@ -33,9 +35,11 @@ export function symmetricEigen3Packed(entries: ArrayLike<number>, values: Float6
       a00 -= t * a01; a11 += t * a01; a01 = 0;
       const x = a02, y = a12;
       a02 = c * x - s * y; a12 = s * x + c * y;
-      let p = v00, q = v01; v00 = c * p - s * q; v01 = s * p + c * q;
-      p = v10; q = v11; v10 = c * p - s * q; v11 = s * p + c * q;
-      p = v20; q = v21; v20 = c * p - s * q; v21 = s * p + c * q;
+      if (track) {
+        let p = v00, q = v01; v00 = c * p - s * q; v01 = s * p + c * q;
+        p = v10; q = v11; v10 = c * p - s * q; v11 = s * p + c * q;
+        p = v20; q = v21; v20 = c * p - s * q; v21 = s * p + c * q;
+      }
     }
     if (Math.abs(a02) > limit) {
       const theta = (a22 - a00) / (2 * a02);
@@ -44,9 +48,11 @@ export function symmetricEigen3Packed(entries: ArrayLike<number>, values: Float6
       a00 -= t * a02; a22 += t * a02; a02 = 0;
       const x = a01, y = a12;
       a01 = c * x - s * y; a12 = s * x + c * y;
-      let p = v00, q = v02; v00 = c * p - s * q; v02 = s * p + c * q;
-      p = v10; q = v12; v10 = c * p - s * q; v12 = s * p + c * q;
-      p = v20; q = v22; v20 = c * p - s * q; v22 = s * p + c * q;
+      if (track) {
+        let p = v00, q = v02; v00 = c * p - s * q; v02 = s * p + c * q;
+        p = v10; q = v12; v10 = c * p - s * q; v12 = s * p + c * q;
+        p = v20; q = v22; v20 = c * p - s * q; v22 = s * p + c * q;
+      }
     }
     if (Math.abs(a12) > limit) {
       const theta = (a22 - a11) / (2 * a12);
@@ -55,9 +61,11 @@ export function symmetricEigen3Packed(entries: ArrayLike<number>, values: Float6
       a11 -= t * a12; a22 += t * a12; a12 = 0;
       const x = a01, y = a02;
       a01 = c * x - s * y; a02 = s * x + c * y;
-      let p = v01, q = v02; v01 = c * p - s * q; v02 = s * p + c * q;
-      p = v11; q = v12; v11 = c * p - s * q; v12 = s * p + c * q;
-      p = v21; q = v22; v21 = c * p - s * q; v22 = s * p + c * q;
+      if (track) {
+        let p = v01, q = v02; v01 = c * p - s * q; v02 = s * p + c * q;
+        p = v11; q = v12; v11 = c * p - s * q; v12 = s * p + c * q;
+        p = v21; q = v22; v21 = c * p - s * q; v22 = s * p + c * q;
+      }
     }
   }
   values[0] = a00; values[1] = a11; values[2] = a22;

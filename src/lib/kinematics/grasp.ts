@@ -128,7 +128,7 @@ export function computeGrasp(
   }
   const entries = ws.entries;
   entries[0] = s00; entries[1] = s11; entries[2] = s22; entries[3] = s01; entries[4] = s02; entries[5] = s12;
-  const e = symmetricEigen3Packed(entries, ws.eigen, ws.vectors);
+  const e = symmetricEigen3Packed(entries, ws.eigen);
   const translational = Math.sqrt(contactCount);
   const r0 = Math.sqrt(e[0] > 0 ? e[0] : 0), r1 = Math.sqrt(e[1] > 0 ? e[1] : 0), r2 = Math.sqrt(e[2] > 0 ? e[2] : 0);
   // Merge sqrt(k) (three times) with the descending rotational values.
@@ -150,8 +150,10 @@ export function computeGrasp(
   out.rank = 6 - nullRotations;
   out.undrivableCount = nullRotations;
   if (nullRotations === 0) return out;
-  // Eigenvectors of S for its smallest eigenvalues are the rotations no contact notices.
+  // Eigenvectors of S for its smallest eigenvalues are the rotations no contact notices; only a rank-deficient grasp needs them,
+  // and the second pass repeats the same rotations, so its eigenvalues are those above.
   const vectors = ws.vectors;
+  symmetricEigen3Packed(entries, ws.eigen, vectors);
   for (let c = 0; c < nullRotations; c++) {
     const col = 3 - nullRotations + c;
     writeUndrivable(out.undrivable, c, vectors[col], vectors[3 + col], vectors[6 + col], mx - origin[0], my - origin[1], mz - origin[2]);

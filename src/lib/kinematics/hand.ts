@@ -49,6 +49,8 @@ export interface Finger {
   rollerRotation: Float64Array;
   /** Translation of the last link from home, m (roller frame origin offset, world frame). */
   chainTranslation: Float64Array;
+  /** Joint angles the current axes, points and roller pose were computed at, rad (NaN before the first forwardKinematics). */
+  kinematicsAngles: Float64Array;
 }
 
 function firstIndexOf(roles: JointRole[], role: JointRole): number {
@@ -86,6 +88,7 @@ export function createFinger(input: FingerInput): Finger {
     rollerAxis: new Float64Array(3),
     rollerRotation: new Float64Array(9),
     chainTranslation: new Float64Array(3),
+    kinematicsAngles: new Float64Array(n).fill(Number.NaN),
   };
   input.joints.forEach((joint, k) => {
     const a = joint.axis;
@@ -137,8 +140,13 @@ export function jointExponential(axis: Vec3Like, point: Vec3Like, angle: number,
   translationOut[2] = pz - (r[6] * px + r[7] * py + r[8] * pz);
 }
 
-/** Runs the product of exponentials at finger.angles, updating the current axes, points, roller centre and axis (world frame). */
+/**
+ * Runs the product of exponentials at finger.angles, updating the current axes, points, roller centre and axis (world frame);
+ * at the angles of the previous call it keeps that call's results, which are those it would compute again (sweeps of the object
+ * and repeated solves of one posture meet this).
+ */
 export function forwardKinematics(finger: Finger): Finger {
+  if (anglesUnchanged(finger.angles, finger.kinematicsAngles, finger.jointCount)) return finger;
   const homeAxes = finger.homeAxes, homePoints = finger.homePoints;
   const axes = finger.axes, points = finger.points, angles = finger.angles;
   // Chain so far g = (R, t), kept in locals: R row-major r0..r8.
@@ -181,6 +189,17 @@ export function forwardKinematics(finger: Finger): Finger {
   axis[0] = r0 * a[0] + r1 * a[1] + r2 * a[2];
   axis[1] = r3 * a[0] + r4 * a[1] + r5 * a[2];
   axis[2] = r6 * a[0] + r7 * a[1] + r8 * a[2];
+  const solved = finger.kinematicsAngles;
+  for (let k = 0; k < finger.jointCount; k++) solved[k] = angles[k];
   return finger;
+}
+
+/** Whether the joint angles (rad) equal those of the last forwardKinematics bit for bit: -0 differs from 0 (its sine keeps the sign), NaN from everything. */
+function anglesUnchanged(angles: Float64Array, solved: Float64Array, jointCount: number): boolean {
+  for (let k = 0; k < jointCount; k++) {
+    const angle = angles[k];
+    if (angle !== solved[k] || (angle === 0 && 1 / angle !== 1 / solved[k])) return false;
+  }
+  return true;
 }
 

@@ -194,14 +194,15 @@ export function solveSteerAndRoll(
   ja.cols = n;
   for (let i = 0; i < 3 * n; i++) after[i] = before[i];
   if (out.available && out.pivotChange !== 0) steeredColumns(finger, y, ws.pivotTurn, ja);
-  const d = ja.data;
+  const d = ja.data, achieved = out.achieved, slip = out.residual;
   let residual = 0;
   for (let i = 0; i < 3; i++) {
     let sum = 0;
-    for (let k = 0; k < n; k++) sum += d[i * n + k] * rates[k];
-    out.achieved[i] = sum;
-    out.residual[i] = v[i] - sum;
-    residual += out.residual[i] * out.residual[i];
+    for (let k = 0, o = i * n; k < n; k++) sum += d[o + k] * rates[k];
+    achieved[i] = sum;
+    const left = v[i] - sum;
+    slip[i] = left;
+    residual += left * left;
   }
   out.residualNorm = Math.sqrt(residual);
   driveConditioning(finger, contact, settings, full, out, ws.drive);
@@ -217,9 +218,10 @@ export function solveSteerAndRoll(
     out.conditionAfter = full.conditionNumber;
   }
   let difference = 0;
+  const fullRates = full.rates, rateDifference = out.rateDifference;
   for (let k = 0; k < n; k++) {
-    const dk = rates[k] - full.rates[k];
-    out.rateDifference[k] = dk;
+    const dk = rates[k] - fullRates[k];
+    rateDifference[k] = dk;
     difference += dk * dk;
   }
   out.rateDifferenceNorm = Math.sqrt(difference);

@@ -50,6 +50,14 @@ describe('symmetricEigen3Packed', () => {
       expect(v.transpose().mmul(v).sub(MlMatrix.eye(3)).norm()).toBeLessThan(1e-14);
     }
   });
+  it('gives the same eigenvalues, bit for bit, with and without vectors on seeded random matrices (the grasp asks for vectors only when rank is lost)', () => {
+    const random = createRandom(47);
+    for (let i = 0; i < 200; i++) {
+      const entries = Array.from({ length: 6 }, () => nextGaussian(random));
+      const withVectors = symmetricEigen3Packed(entries, new Float64Array(3), new Float64Array(9));
+      expect(Array.from(symmetricEigen3Packed(entries, new Float64Array(3)))).toEqual(Array.from(withVectors));
+    }
+  });
 });
 
 describe('largestEigenvalue3', () => {

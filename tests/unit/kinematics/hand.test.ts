@@ -85,6 +85,28 @@ describe('forwardKinematics', () => {
     expect(finger.rollerAxis).toBeNear([...axis], { digits: 12 });
   });
 
+  it('at the angles of its previous call keeps that call\'s results, and at new angles gives what a newly compiled finger gives (an independent second route)', () => {
+    const input: FingerInput = {
+      name: 'spatial',
+      joints: [
+        { name: 'base', role: 'base', axis: [0, 1, 0], point: [0, 0, 0], angle: 0.4 },
+        { name: 'pivot', role: 'pivot', axis: [0, 0, 1], point: [0.06, 0, 0], angle: -0.7 },
+        { name: 'roll', role: 'roll', axis: [1, 0, 0], point: [0.06, 0, 0], angle: 1.3 },
+      ],
+      roller: { kind: 'sphere', radius: 0.012, center: [0.07, 0.01, 0.005] },
+    };
+    const finger = createFinger(input);
+    const computed = (f: ReturnType<typeof createFinger>) =>
+      [f.axes, f.points, f.rollerCenter, f.rollerAxis, f.rollerRotation, f.chainTranslation].map((a) => Array.from(a));
+    // Each posture twice in a row, then back to an earlier one: the repeat must not reuse a stale chain.
+    for (const angles of [[0.4, -0.7, 1.3], [0.4, -0.7, 1.3], [0.4, -0.2, 1.3], [0.4, -0.2, -2], [0.4, -0.7, 1.3], [0, 0, 0]]) {
+      finger.angles.set(angles);
+      forwardKinematics(finger);
+      const fresh = createFinger({ ...input, joints: input.joints.map((joint, k) => ({ ...joint, angle: angles[k] })) });
+      expect(computed(finger)).toEqual(computed(fresh));
+    }
+  });
+
   it('records roles, limits and a sphere roller axis from the roll joint', () => {
     const finger = createFinger({ ...planar, joints: [{ ...planar.joints[0], limits: { min: -1, max: 1 }, rateLimit: 3 }, planar.joints[1]] });
     expect([finger.baseIndex, finger.pivotIndex, finger.rollIndex]).toEqual([0, -1, 1]);
