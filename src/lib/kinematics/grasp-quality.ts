@@ -27,7 +27,7 @@
  * lies inside), with equality along the nearest facet, so the smallest support over a candidate
  * set that holds every facet normal is exactly Q; the containment check only skips candidates.
  */
-import { baseFaces, countCombinations, forEachFaceNormal, type FaceRows } from './wrench-faces';
+import { baseFaces, countCombinations, forEachFaceNormal, type ContactFaces, type FaceRows } from './wrench-faces';
 import { hullFacets } from './wrench-hull';
 
 /** Wrench-space dimension: force (3) and torque over L (3). */
@@ -126,14 +126,30 @@ export function nearestFacet(points: readonly number[][]): { distance: number; n
 }
 
 /** Most face combinations Q_Linf examines (about 50 ms of work on a loaded 2-core machine); past it Q_Linf is not computed. */
-export const MAX_FACE_COMBINATIONS = 100_000;
+export const MAX_FACE_COMBINATIONS = 1_000_000;
 
 /** Face combinations past which Q_L1 is faster by the incremental hull of the union than by its faces. */
-const MAX_UNION_FACE_COMBINATIONS = 4_000;
+const MAX_UNION_FACE_COMBINATIONS = 400_000;
 
 /** Base faces of one contact's generators (vertex indices), from its friction and torsion. */
 function contactBaseFaces(input: Readonly<GraspQualityInput>, contact: number): number[][] {
   return baseFaces(input.coneEdges, input.friction[contact] > 0, input.torsionalFriction > 0);
+}
+
+/** Faces of the cone over one contact's generators (w, 1) in the lifted space: each base face's first vertex and its edge directions as rows. */
+function liftedFaces(input: Readonly<GraspQualityInput>, contact: number, generators: readonly number[][]): FaceRows[] {
+  return contactBaseFaces(input, contact).map((vertices) => {
+    const rows = new Float64Array(vertices.length * LIFTED);
+    const reference = generators[vertices[0]];
+    for (let j = 0; j < D; j++) rows[j] = reference[j];
+    rows[D] = 1;
+    for (let r = 1; r < vertices.length; r++) for (let j = 0; j < D; j++) rows[r * LIFTED + j] = generators[vertices[r]][j] - reference[j];
+    // In the lifted space every generator (w, 1) of the contact lies on the facet's side: (w - reference, 0) . (u, -c) <= 0.
+    const others = generators.filter((_, k) => !vertices.includes(k));
+    const checks = new Float64Array(others.length * LIFTED);
+    others.forEach((w, k) => { for (let j = 0; j < D; j++) checks[k * LIFTED + j] = w[j] - reference[j]; });
+    return { rowCount: vertices.length, rows, checks };
+  });
 }
 
 /**
@@ -145,41 +161,33 @@ function contactBaseFaces(input: Readonly<GraspQualityInput>, contact: number): 
  * candidate is a facet. Null when the union spans fewer than five dimensions or past the work cap.
  */
 function unionFaceQuality(input: Readonly<GraspQualityInput>, perContact: readonly number[][][]): { distance: number; normal: number[] } | null {
-  const faces: FaceRows[][] = perContact.map((generators, i) => contactBaseFaces(input, i).map((vertices) => {
-    const rows = new Float64Array(vertices.length * LIFTED);
-    const reference = generators[vertices[0]];
-    for (let j = 0; j < D; j++) rows[j] = reference[j];
-    rows[D] = 1;
-    for (let r = 1; r < vertices.length; r++) for (let j = 0; j < D; j++) rows[r * LIFTED + j] = generators[vertices[r]][j] - reference[j];
-    return { rowCount: vertices.length, rows };
+  const contacts: ContactFaces[] = perContact.map((generators, i) => ({
+    // The cone over the contact's generators (w, 1) has its apex at the origin.
+    vertices: Float64Array.from([...new Array<number>(LIFTED).fill(0), ...generators.flatMap((w) => [...w, 1])]),
+    faces: liftedFaces(input, i, generators),
   }));
-  if (countCombinations(faces, LIFTED - 1) > MAX_UNION_FACE_COMBINATIONS) return null;
+  if (countCombinations(contacts.map(({ faces }) => faces), LIFTED - 1) > MAX_UNION_FACE_COMBINATIONS) return null;
   const union = Float64Array.from(perContact.flat().flat());
   const count = union.length / D;
   const tolerance = 1e-9 * perContact.flat().reduce((m, w) => Math.max(m, Math.hypot(...w)), 0);
   let best: { distance: number; normal: number[] } | null = null;
-  forEachFaceNormal(faces, LIFTED, (lifted) => {
+  forEachFaceNormal(contacts, LIFTED, tolerance, (lifted) => {
     let norm = 0;
     for (let j = 0; j < D; j++) norm += lifted[j] * lifted[j];
     // A lifted normal along (0, 1) alone would be a hyperplane at infinity: six rows with 1 in the last place rule it out up to rounding.
     if (norm < 1e-18) return;
     norm = Math.sqrt(norm);
-    // The candidate facet u . w = c passes through the chosen faces; a generator beyond it on both sides rules it out.
+    // The candidate facet u . w = c passes through the chosen faces; a generator of any contact beyond it rules it out.
     const level = -lifted[D], slack = tolerance * norm;
-    let plus = true, minus = true;
-    let most = -Infinity, least = Infinity;
+    let most = -Infinity;
     for (let k = 0; k < count; k++) {
       let dot = 0;
       for (let j = 0; j < D; j++) dot += lifted[j] * union[k * D + j];
-      if (dot > level + slack) plus = false;
-      if (dot < level - slack) minus = false;
-      if (!plus && !minus) return;
+      if (dot > level + slack) return;
       if (dot > most) most = dot;
-      if (dot < least) least = dot;
     }
-    const sign = plus && (!minus || most <= -least) ? 1 : -1;
-    const distance = (sign > 0 ? most : -least) / norm;
-    if (best === null || distance < best.distance) best = { distance, normal: Array.from(lifted.subarray(0, D), (x) => (sign * x) / norm) };
+    const distance = most / norm;
+    if (best === null || distance < best.distance) best = { distance, normal: Array.from(lifted.subarray(0, D), (x) => x / norm) };
   });
   return best;
 }
@@ -194,72 +202,41 @@ export interface SumFaceQuality {
 /** Q_Linf and its facet's outward unit normal (6-D, [force, torque / L], world frame) from the contacts' face lattices, or null past MAX_FACE_COMBINATIONS. */
 export function nearestSumFacet(input: Readonly<GraspQualityInput>, perContact: readonly number[][][]): SumFaceQuality {
   const scale = perContact.flat().reduce((m, w) => Math.max(m, Math.hypot(...w)), 0);
-  const references: number[][] = [];
-  const faces: FaceRows[][] = perContact.map((generators, i) => {
+  const contacts: ContactFaces[] = perContact.map((generators, i) => {
     const contactFaces: FaceRows[] = [];
-    const contactReferences: number[] = [];
     for (const vertices of contactBaseFaces(input, i)) {
       const reference = generators[vertices[0]];
       const directions = vertices.slice(1).map((v) => generators[v].map((x, j) => x - reference[j]));
+      const others = generators.filter((_, k) => !vertices.includes(k));
       if (directions.length > 0) {
-        contactFaces.push({ rowCount: directions.length, rows: Float64Array.from(directions.flat()) });
-        contactReferences.push(vertices[0]);
+        // The base face is farthest along u when no other vertex of P_i, the apex 0 included, lies beyond it.
+        const checks = [...others, new Array<number>(D).fill(0)].map((w) => w.map((x, j) => x - reference[j]));
+        contactFaces.push({ rowCount: directions.length, rows: Float64Array.from(directions.flat()), checks: Float64Array.from(checks.flat()) });
       }
-      contactFaces.push({ rowCount: directions.length + 1, rows: Float64Array.from([...reference, ...directions.flat()]) });
-      // The pyramid over a face contains the apex 0.
-      contactReferences.push(-1);
+      // The pyramid over a face contains the apex 0, so it is farthest along u when every other vertex lies at or below 0.
+      contactFaces.push({ rowCount: directions.length + 1, rows: Float64Array.from([...reference, ...directions.flat()]), checks: Float64Array.from(others.flat()) });
     }
-    references.push(contactReferences);
-    return contactFaces;
+    return { vertices: Float64Array.from([...new Array<number>(D).fill(0), ...generators.flat()]), faces: contactFaces };
   });
-  const combinations = countCombinations(faces, D - 1);
+  const combinations = countCombinations(contacts.map(({ faces }) => faces), D - 1);
   if (combinations > MAX_FACE_COMBINATIONS) return { distance: null, normal: null, combinations };
   const flat = perContact.map((generators) => Float64Array.from(generators.flat()));
-  const most = new Float64Array(perContact.length), least = new Float64Array(perContact.length);
-  const tolerance = 1e-9 * scale;
   let bestDistance = Infinity;
   let bestNormal: number[] | null = null;
-  /** Largest and smallest u . w over contact i's set P_i (0 included), into most[i] and least[i]. */
-  const contactsOf = (u: Float64Array, i: number): void => {
-    const points = flat[i];
-    let high = 0, low = 0;
-    for (let at = 0; at < points.length; at += D) {
-      let dot = 0;
-      for (let j = 0; j < D; j++) dot += u[j] * points[at + j];
-      if (dot > high) high = dot;
-      if (dot < low) low = dot;
-    }
-    most[i] = high;
-    least[i] = low;
-  };
-  forEachFaceNormal(faces, D, (u, chosen) => {
-    // The chosen faces first, stopping at the first vertex beyond a chosen face on both sides: most candidates fail there.
-    let plus = true, minus = true;
-    for (let i = 0; i < flat.length; i++) {
-      if (chosen[i] < 0) continue;
+  forEachFaceNormal(contacts, D, 1e-9 * scale, (u) => {
+    let support = 0;
+    for (let i = 0; i < flat.length && support < bestDistance; i++) {
       const points = flat[i];
-      const reference = references[i][chosen[i]];
-      let level = 0;
-      if (reference >= 0) for (let j = 0; j < D; j++) level += u[j] * points[reference * D + j];
-      // The apex 0 is a vertex of P_i too.
-      if (0 > level + tolerance) plus = false;
-      if (0 < level - tolerance) minus = false;
-      for (let at = 0; at < points.length && (plus || minus); at += D) {
+      // max(0, ...): the apex 0 is a vertex of P_i too.
+      let high = 0;
+      for (let at = 0; at < points.length; at += D) {
         let dot = 0;
         for (let j = 0; j < D; j++) dot += u[j] * points[at + j];
-        if (dot > level + tolerance) plus = false;
-        if (dot < level - tolerance) minus = false;
+        if (dot > high) high = dot;
       }
-      if (!plus && !minus) return;
+      support += high;
     }
-    for (let i = 0; i < flat.length; i++) contactsOf(u, i);
-    let support = 0, opposite = 0;
-    for (let i = 0; i < flat.length; i++) {
-      support += most[i];
-      opposite -= least[i];
-    }
-    if (plus && support < bestDistance) { bestDistance = support; bestNormal = Array.from(u); }
-    if (minus && opposite < bestDistance) { bestDistance = opposite; bestNormal = Array.from(u, (x) => -x); }
+    if (support < bestDistance) { bestDistance = support; bestNormal = Array.from(u); }
   });
   return { distance: bestNormal === null ? null : bestDistance, normal: bestNormal, combinations };
 }
