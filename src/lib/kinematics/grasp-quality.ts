@@ -27,7 +27,7 @@
  * lies inside), with equality along the nearest facet, so the smallest support over a candidate
  * set that holds every facet normal is exactly Q; the containment check only skips candidates.
  */
-import { baseFaces, countCombinations, forEachFaceNormal, type ContactFaces, type FaceRows } from './wrench-faces';
+import { baseFaces, countCombinations, forEachFaceNormal, type ContactFaces } from './wrench-faces';
 import { hullFacets } from './wrench-hull';
 
 /** Wrench-space dimension: force (3) and torque over L (3). */
@@ -129,26 +129,54 @@ export function nearestFacet(points: readonly number[][]): { distance: number; n
 export const MAX_FACE_COMBINATIONS = 1_000_000;
 
 /** Face combinations past which Q_L1 is faster by the incremental hull of the union than by its faces. */
-const MAX_UNION_FACE_COMBINATIONS = 400_000;
+const MAX_UNION_FACE_COMBINATIONS = 4_000;
 
 /** Base faces of one contact's generators (vertex indices), from its friction and torsion. */
 function contactBaseFaces(input: Readonly<GraspQualityInput>, contact: number): number[][] {
   return baseFaces(input.coneEdges, input.friction[contact] > 0, input.torsionalFriction > 0);
 }
 
-/** Faces of the cone over one contact's generators (w, 1) in the lifted space: each base face's first vertex and its edge directions as rows. */
-function liftedFaces(input: Readonly<GraspQualityInput>, contact: number, generators: readonly number[][]): FaceRows[] {
-  return contactBaseFaces(input, contact).map((vertices) => {
-    const rows = new Float64Array(vertices.length * LIFTED);
-    const reference = generators[vertices[0]];
-    for (let j = 0; j < D; j++) rows[j] = reference[j];
-    rows[D] = 1;
-    for (let r = 1; r < vertices.length; r++) for (let j = 0; j < D; j++) rows[r * LIFTED + j] = generators[vertices[r]][j] - reference[j];
-    // In the lifted space every generator (w, 1) of the contact lies on the facet's side: (w - reference, 0) . (u, -c) <= 0.
-    const others = generators.filter((_, k) => !vertices.includes(k));
-    const checks = new Float64Array(others.length * LIFTED);
-    others.forEach((w, k) => { for (let j = 0; j < D; j++) checks[k * LIFTED + j] = w[j] - reference[j]; });
-    return { rowCount: vertices.length, rows, checks };
+/**
+ * One contact's set in the enumeration's space: its points (the apex 0 first, then the generators,
+ * `size` numbers each, lifted by a trailing 1 when size is 7) and its faces, each a list of point
+ * indices whose first is the reference: rows p_k - p_ref for the others, checks p_x - p_ref for
+ * every point x outside it (the face is farthest along u when none of them reaches past it).
+ */
+function contactSet(generators: readonly number[][], size: number, faceLists: readonly (readonly number[])[]): ContactFaces {
+  const count = generators.length + 1;
+  const points = new Float64Array(count * size);
+  generators.forEach((w, k) => {
+    for (let j = 0; j < D; j++) points[(k + 1) * size + j] = w[j];
+    if (size === LIFTED) points[(k + 1) * size + D] = 1;
+  });
+  const inFace = new Uint8Array(count);
+  const faces = faceLists.map((list) => {
+    const reference = list[0] * size;
+    const rows = new Float64Array((list.length - 1) * size);
+    for (let r = 1; r < list.length; r++) for (let j = 0; j < size; j++) rows[(r - 1) * size + j] = points[list[r] * size + j] - points[reference + j];
+    inFace.fill(0);
+    for (const index of list) inFace[index] = 1;
+    const checks = new Float64Array((count - list.length) * size);
+    for (let x = 0, at = 0; x < count; x++) {
+      if (inFace[x]) continue;
+      for (let j = 0; j < size; j++) checks[at + j] = points[x * size + j] - points[reference + j];
+      at += size;
+    }
+    return { rowCount: list.length - 1, rows, checks };
+  });
+  return { vertices: points, faces };
+}
+
+/** Point lists (apex 0, generator k at k + 1) of the cone over each base face: the faces of the lifted cone over the generators (w, 1). */
+function coneFaceLists(base: readonly number[][]): number[][] {
+  return base.map((vertices) => [0, ...vertices.map((v) => v + 1)]);
+}
+
+/** Point lists of the faces of P_i = conv({0} U G_i): each base face of two or more vertices, and the pyramid over every base face. */
+function pyramidFaceLists(base: readonly number[][]): number[][] {
+  return base.flatMap((vertices) => {
+    const face = vertices.map((v) => v + 1);
+    return face.length > 1 ? [face, [0, ...face]] : [[0, ...face]];
   });
 }
 
@@ -161,11 +189,7 @@ function liftedFaces(input: Readonly<GraspQualityInput>, contact: number, genera
  * candidate is a facet. Null when the union spans fewer than five dimensions or past the work cap.
  */
 function unionFaceQuality(input: Readonly<GraspQualityInput>, perContact: readonly number[][][]): { distance: number; normal: number[] } | null {
-  const contacts: ContactFaces[] = perContact.map((generators, i) => ({
-    // The cone over the contact's generators (w, 1) has its apex at the origin.
-    vertices: Float64Array.from([...new Array<number>(LIFTED).fill(0), ...generators.flatMap((w) => [...w, 1])]),
-    faces: liftedFaces(input, i, generators),
-  }));
+  const contacts = perContact.map((generators, i) => contactSet(generators, LIFTED, coneFaceLists(contactBaseFaces(input, i))));
   if (countCombinations(contacts.map(({ faces }) => faces), LIFTED - 1) > MAX_UNION_FACE_COMBINATIONS) return null;
   const union = Float64Array.from(perContact.flat().flat());
   const count = union.length / D;
@@ -202,22 +226,7 @@ export interface SumFaceQuality {
 /** Q_Linf and its facet's outward unit normal (6-D, [force, torque / L], world frame) from the contacts' face lattices, or null past MAX_FACE_COMBINATIONS. */
 export function nearestSumFacet(input: Readonly<GraspQualityInput>, perContact: readonly number[][][]): SumFaceQuality {
   const scale = perContact.flat().reduce((m, w) => Math.max(m, Math.hypot(...w)), 0);
-  const contacts: ContactFaces[] = perContact.map((generators, i) => {
-    const contactFaces: FaceRows[] = [];
-    for (const vertices of contactBaseFaces(input, i)) {
-      const reference = generators[vertices[0]];
-      const directions = vertices.slice(1).map((v) => generators[v].map((x, j) => x - reference[j]));
-      const others = generators.filter((_, k) => !vertices.includes(k));
-      if (directions.length > 0) {
-        // The base face is farthest along u when no other vertex of P_i, the apex 0 included, lies beyond it.
-        const checks = [...others, new Array<number>(D).fill(0)].map((w) => w.map((x, j) => x - reference[j]));
-        contactFaces.push({ rowCount: directions.length, rows: Float64Array.from(directions.flat()), checks: Float64Array.from(checks.flat()) });
-      }
-      // The pyramid over a face contains the apex 0, so it is farthest along u when every other vertex lies at or below 0.
-      contactFaces.push({ rowCount: directions.length + 1, rows: Float64Array.from([...reference, ...directions.flat()]), checks: Float64Array.from(others.flat()) });
-    }
-    return { vertices: Float64Array.from([...new Array<number>(D).fill(0), ...generators.flat()]), faces: contactFaces };
-  });
+  const contacts = perContact.map((generators, i) => contactSet(generators, D, pyramidFaceLists(contactBaseFaces(input, i))));
   const combinations = countCombinations(contacts.map(({ faces }) => faces), D - 1);
   if (combinations > MAX_FACE_COMBINATIONS) return { distance: null, normal: null, combinations };
   const flat = perContact.map((generators) => Float64Array.from(generators.flat()));

@@ -85,53 +85,70 @@ function orthonormalRows(face: FaceRows, size: number): Float64Array | null {
 }
 
 /**
- * Orthonormal basis of the null space of the e x s matrix `projected` (row-major) into `out`
- * ((s - e) x s) by modified Gram-Schmidt, completed greedily from the unit vectors; returns the
- * rows' volume (product of the pivots), 0 when they are dependent.
+ * The open subspace after the e rows of `projected` (e x s, row-major, in the coordinates of the s
+ * orthonormal rows of `basis`, each `size` long) are taken out of it: Householder reflections
+ * H_0 ... H_{e-1} bring the rows to triangular form (Golub & Van Loan, "Matrix Computations",
+ * sec. 5.2), and the same reflections applied to `basis` leave its last s - e rows orthonormal and
+ * orthogonal to the rows; those go into `out`. Returns the rows' volume (the product of the
+ * triangle's diagonal), 0 when they are dependent. `work` holds s x size numbers.
  */
-function nullBasis(projected: Float64Array, e: number, s: number, span: Float64Array, out: Float64Array): number {
+function reduceBasis(projected: Float64Array, e: number, s: number, basis: Float64Array, size: number, work: Float64Array, out: Float64Array): number {
+  const m = projected;
   let volume = 1;
-  for (let r = 0; r < e; r++) {
-    for (let j = 0; j < s; j++) span[r * s + j] = projected[r * s + j];
-    for (let q = 0; q < r; q++) {
-      let dot = 0;
-      for (let j = 0; j < s; j++) dot += span[r * s + j] * span[q * s + j];
-      for (let j = 0; j < s; j++) span[r * s + j] -= dot * span[q * s + j];
-    }
+  for (let j = 0; j < s * size; j++) work[j] = basis[j];
+  for (let k = 0; k < e; k++) {
+    // Column k of the transpose is row k of the projection, from entry k on.
     let norm = 0;
-    for (let j = 0; j < s; j++) norm += span[r * s + j] * span[r * s + j];
+    for (let i = k; i < s; i++) norm += m[k * s + i] * m[k * s + i];
     norm = Math.sqrt(norm);
     volume *= norm;
     if (!(volume > DEPENDENT)) return 0;
-    for (let j = 0; j < s; j++) span[r * s + j] /= norm;
-  }
-  for (let found = 0; found < s - e; found++) {
-    // The unit vector with the largest part outside the span so far keeps the completion well conditioned.
-    let bestAxis = 0, bestResidual = -1;
-    for (let axis = 0; axis < s; axis++) {
-      let residual = 1;
-      for (let q = 0; q < e; q++) residual -= span[q * s + axis] * span[q * s + axis];
-      for (let q = 0; q < found; q++) residual -= out[q * s + axis] * out[q * s + axis];
-      if (residual > bestResidual) { bestResidual = residual; bestAxis = axis; }
+    const alpha = m[k * s + k] > 0 ? -norm : norm;
+    // v = x - alpha e_k, kept in row k of the projection; H = I - 2 v v^T / (v . v).
+    m[k * s + k] -= alpha;
+    const vv = 2 * norm * (norm + Math.abs(m[k * s + k] + alpha));
+    for (let r = k + 1; r < e; r++) {
+      let dot = 0;
+      for (let i = k; i < s; i++) dot += m[k * s + i] * m[r * s + i];
+      const factor = (2 * dot) / vv;
+      for (let i = k; i < s; i++) m[r * s + i] -= factor * m[k * s + i];
     }
-    const at = found * s;
-    for (let j = 0; j < s; j++) out[at + j] = 0;
-    out[at + bestAxis] = 1;
-    // Twice, so the completion is orthogonal to working precision.
-    for (let pass = 0; pass < 2; pass++) {
-      for (let q = 0; q < e + found; q++) {
-        const other = q < e ? span : out, from = q < e ? q * s : (q - e) * s;
-        let dot = 0;
-        for (let j = 0; j < s; j++) dot += out[at + j] * other[from + j];
-        for (let j = 0; j < s; j++) out[at + j] -= dot * other[from + j];
-      }
+    for (let j = 0; j < size; j++) {
+      let dot = 0;
+      for (let i = k; i < s; i++) dot += m[k * s + i] * work[i * size + j];
+      const factor = (2 * dot) / vv;
+      for (let i = k; i < s; i++) work[i * size + j] -= factor * m[k * s + i];
     }
-    let norm = 0;
-    for (let j = 0; j < s; j++) norm += out[at + j] * out[at + j];
-    norm = Math.sqrt(norm);
-    for (let j = 0; j < s; j++) out[at + j] /= norm;
   }
+  for (let j = 0; j < (s - e) * size; j++) out[j] = work[e * size + j];
   return volume;
+}
+
+/**
+ * The unit normal of the s - 1 rows of `projected` (s = 3 or 4, row-major) into `out`, as the signed
+ * cofactors (the cross product when s = 3); returns its length, the rows' volume, 0 when dependent.
+ */
+function lastNormal(projected: Float64Array, s: number, out: Float64Array): number {
+  const p = projected;
+  if (s === 3) {
+    out[0] = p[1] * p[5] - p[2] * p[4];
+    out[1] = p[2] * p[3] - p[0] * p[5];
+    out[2] = p[0] * p[4] - p[1] * p[3];
+  } else {
+    // Each component is the 3 x 3 minor without that column, alternating in sign.
+    const minor = (a: number, b: number, c: number): number =>
+      p[a] * (p[4 + b] * p[8 + c] - p[4 + c] * p[8 + b]) - p[b] * (p[4 + a] * p[8 + c] - p[4 + c] * p[8 + a]) + p[c] * (p[4 + a] * p[8 + b] - p[4 + b] * p[8 + a]);
+    out[0] = -minor(1, 2, 3);
+    out[1] = minor(0, 2, 3);
+    out[2] = -minor(0, 1, 3);
+    out[3] = minor(0, 1, 2);
+  }
+  let norm = 0;
+  for (let j = 0; j < s; j++) norm += out[j] * out[j];
+  norm = Math.sqrt(norm);
+  if (!(norm > DEPENDENT)) return 0;
+  for (let j = 0; j < s; j++) out[j] /= norm;
+  return norm;
 }
 
 /** One contact's set: its vertices (the apex 0 among them) and its faces, in the enumeration's space. */
@@ -172,7 +189,7 @@ export function forEachFaceNormal(
   for (let j = 0; j < size; j++) bases[0][j * size + j] = 1;
   const volumes = new Float64Array(contactCount + 1);
   volumes[0] = 1;
-  const projected = new Float64Array(size * size), span = new Float64Array(size * size), complement = new Float64Array(size * size);
+  const projected = new Float64Array(size * size), work = new Float64Array(size * size), complement = new Float64Array(size);
   const used = new Uint8Array(contactCount);
   const picked = new Int32Array(contactCount);
   const normal = new Float64Array(size);
@@ -291,16 +308,19 @@ export function forEachFaceNormal(
           projected[r * open + c] = dot;
         }
       }
-      const volume = nullBasis(projected, rowCount, open, span, complement) * volumes[depth];
-      if (!(volume > DEPENDENT)) continue;
       const remaining = open - rowCount;
-      const into = remaining === 1 ? normal : bases[depth + 1];
-      for (let c = 0; c < remaining; c++) {
+      let volume: number;
+      if (remaining === 1 && open <= 4) {
+        volume = lastNormal(projected, open, complement) * volumes[depth];
+        if (!(volume > DEPENDENT)) continue;
         for (let j = 0; j < size; j++) {
           let sum = 0;
-          for (let q = 0; q < open; q++) sum += complement[c * open + q] * basis[q * size + j];
-          into[c * size + j] = sum;
+          for (let q = 0; q < open; q++) sum += complement[q] * basis[q * size + j];
+          normal[j] = sum;
         }
+      } else {
+        volume = reduceBasis(projected, rowCount, open, basis, size, work, remaining === 1 ? normal : bases[depth + 1]) * volumes[depth];
+        if (!(volume > DEPENDENT)) continue;
       }
       picked[depth] = index;
       if (remaining === 1) {
