@@ -116,6 +116,19 @@ export function contactWrenches(input: Readonly<GraspQualityInput>, torqueLength
   return perContact;
 }
 
+/** Largest length of any generator (dimensionless wrench per unit normal force): the scale of the tolerances. */
+function largestWrench(perContact: readonly number[][][]): number {
+  let largest = 0;
+  for (const generators of perContact) {
+    for (const w of generators) {
+      let square = 0;
+      for (let j = 0; j < D; j++) square += w[j] * w[j];
+      if (square > largest) largest = square;
+    }
+  }
+  return Math.sqrt(largest);
+}
+
 /** Smallest distance from the origin to a facet of conv(points) and that facet's outward unit normal (6-D); non-positive when the origin is not strictly inside. */
 export function nearestFacet(points: readonly number[][]): { distance: number; normal: number[] } {
   const hull = hullFacets(points.flat(), points.length);
@@ -125,8 +138,8 @@ export function nearestFacet(points: readonly number[][]): { distance: number; n
   return { distance: hull.offsets[best], normal: Array.from(hull.normals.subarray(best * D, best * D + D)) };
 }
 
-/** Most face combinations Q_Linf examines (about 50 ms of work on a loaded 2-core machine); past it Q_Linf is not computed. */
-export const MAX_FACE_COMBINATIONS = 1_000_000;
+/** Most face combinations Q_Linf examines (at most about 60 ms of work on a loaded 2-core machine); past it Q_Linf is not computed. */
+export const MAX_FACE_COMBINATIONS = 500_000;
 
 /** Face combinations past which Q_L1 is faster by the incremental hull of the union than by its faces. */
 const MAX_UNION_FACE_COMBINATIONS = 4_000;
@@ -193,7 +206,7 @@ function unionFaceQuality(input: Readonly<GraspQualityInput>, perContact: readon
   if (countCombinations(contacts.map(({ faces }) => faces), LIFTED - 1) > MAX_UNION_FACE_COMBINATIONS) return null;
   const union = Float64Array.from(perContact.flat().flat());
   const count = union.length / D;
-  const tolerance = 1e-9 * perContact.flat().reduce((m, w) => Math.max(m, Math.hypot(...w)), 0);
+  const tolerance = 1e-9 * largestWrench(perContact);
   let best: { distance: number; normal: number[] } | null = null;
   forEachFaceNormal(contacts, LIFTED, tolerance, (lifted) => {
     let norm = 0;
@@ -225,7 +238,7 @@ export interface SumFaceQuality {
 
 /** Q_Linf and its facet's outward unit normal (6-D, [force, torque / L], world frame) from the contacts' face lattices, or null past MAX_FACE_COMBINATIONS. */
 export function nearestSumFacet(input: Readonly<GraspQualityInput>, perContact: readonly number[][][]): SumFaceQuality {
-  const scale = perContact.flat().reduce((m, w) => Math.max(m, Math.hypot(...w)), 0);
+  const scale = largestWrench(perContact);
   const contacts = perContact.map((generators, i) => contactSet(generators, D, pyramidFaceLists(contactBaseFaces(input, i))));
   const combinations = countCombinations(contacts.map(({ faces }) => faces), D - 1);
   if (combinations > MAX_FACE_COMBINATIONS) return { distance: null, normal: null, combinations };
@@ -291,7 +304,7 @@ export function computeGraspQuality(input: Readonly<GraspQualityInput>): GraspQu
     weakestWrench[0] = 1;
     return { contactCount, coneEdges, torqueLength, forceClosure: false, sumQuality: 0, maxQuality: 0, maxQualityCombinations: 0, weakestWrench, weakestWords: 'no contact: every push is unresisted' };
   }
-  const scale = union.reduce((m, w) => Math.max(m, Math.hypot(...w)), 0);
+  const scale = largestWrench(perContact);
   const sum = unionFaceQuality(input, perContact) ?? nearestFacet(union);
   const forceClosure = sum.distance > FORCE_CLOSURE_TOLERANCE * scale;
   // Adding 0 turns -0 into 0, so a reported wrench never shows a negative zero.
