@@ -175,7 +175,7 @@ function contactSet(generators: readonly number[][], size: number, faceLists: re
       for (let j = 0; j < size; j++) checks[at + j] = points[x * size + j] - points[reference + j];
       at += size;
     }
-    return { rowCount: list.length - 1, rows, checks };
+    return { rowCount: list.length - 1, rows, checks, reference: points.slice(reference, reference + size) };
   });
   return { vertices: points, faces };
 }
@@ -204,25 +204,23 @@ function pyramidFaceLists(base: readonly number[][]): number[][] {
 function unionFaceQuality(input: Readonly<GraspQualityInput>, perContact: readonly number[][][]): { distance: number; normal: number[] } | null {
   const contacts = perContact.map((generators, i) => contactSet(generators, LIFTED, coneFaceLists(contactBaseFaces(input, i))));
   if (countCombinations(contacts.map(({ faces }) => faces), LIFTED - 1) > MAX_UNION_FACE_COMBINATIONS) return null;
-  const union = Float64Array.from(perContact.flat().flat());
-  const count = union.length / D;
   const tolerance = 1e-9 * largestWrench(perContact);
   let best: { distance: number; normal: number[] } | null = null;
-  forEachFaceNormal(contacts, LIFTED, tolerance, (lifted) => {
+  forEachFaceNormal(contacts, LIFTED, tolerance, (lifted, farthest) => {
     let norm = 0;
     for (let j = 0; j < D; j++) norm += lifted[j] * lifted[j];
     // A lifted normal along (0, 1) alone would be a hyperplane at infinity: six rows with 1 in the last place rule it out up to rounding.
     if (norm < 1e-18) return;
     norm = Math.sqrt(norm);
-    // The candidate facet u . w = c passes through the chosen faces; a generator of any contact beyond it rules it out.
-    const level = -lifted[D], slack = tolerance * norm;
-    let most = -Infinity;
-    for (let k = 0; k < count; k++) {
-      let dot = 0;
-      for (let j = 0; j < D; j++) dot += lifted[j] * union[k * D + j];
-      if (dot > level + slack) return;
-      if (dot > most) most = dot;
+    // The candidate facet u . w = c passes through the chosen faces; a generator (w, 1) of any contact beyond it rules it out.
+    const slack = tolerance * norm;
+    let most = 0;
+    for (let i = 0; i < farthest.length; i++) {
+      if (farthest[i] > slack) return;
+      if (farthest[i] > most) most = farthest[i];
     }
+    // u . w = (u, -c) . (w, 1) + c, and the apex 0 of every cone counts as reaching 0.
+    most -= lifted[D];
     const distance = most / norm;
     if (best === null || distance < best.distance) best = { distance, normal: Array.from(lifted.subarray(0, D), (x) => x / norm) };
   });
@@ -242,22 +240,12 @@ export function nearestSumFacet(input: Readonly<GraspQualityInput>, perContact: 
   const contacts = perContact.map((generators, i) => contactSet(generators, D, pyramidFaceLists(contactBaseFaces(input, i))));
   const combinations = countCombinations(contacts.map(({ faces }) => faces), D - 1);
   if (combinations > MAX_FACE_COMBINATIONS) return { distance: null, normal: null, combinations };
-  const flat = perContact.map((generators) => Float64Array.from(generators.flat()));
   let bestDistance = Infinity;
   let bestNormal: number[] | null = null;
-  forEachFaceNormal(contacts, D, 1e-9 * scale, (u) => {
+  forEachFaceNormal(contacts, D, 1e-9 * scale, (u, farthest) => {
+    // Each contact reaches at least its apex 0: the support is sum_i max(0, max_k u . w_ik).
     let support = 0;
-    for (let i = 0; i < flat.length && support < bestDistance; i++) {
-      const points = flat[i];
-      // max(0, ...): the apex 0 is a vertex of P_i too.
-      let high = 0;
-      for (let at = 0; at < points.length; at += D) {
-        let dot = 0;
-        for (let j = 0; j < D; j++) dot += u[j] * points[at + j];
-        if (dot > high) high = dot;
-      }
-      support += high;
-    }
+    for (let i = 0; i < farthest.length; i++) support += farthest[i];
     if (support < bestDistance) { bestDistance = support; bestNormal = Array.from(u); }
   });
   return { distance: bestNormal === null ? null : bestDistance, normal: bestNormal, combinations };

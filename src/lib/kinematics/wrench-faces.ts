@@ -20,6 +20,8 @@ export interface FaceRows {
   rows: Float64Array;
   /** Directions q (each `size` numbers) with q . u <= 0 for all of them exactly when the face lies in its contact's face farthest along u. */
   checks: Float64Array;
+  /** A point of the face (`size` numbers): along a normal that passes the checks, the contact reaches exactly as far as this point. */
+  reference: Float64Array;
 }
 
 /** Faces of one contact's base as affinely independent vertex lists (indices into its generators: m edges, then the twists +gamma and -gamma). */
@@ -167,18 +169,20 @@ export interface ContactFaces {
  * it has one, the faces before it leave a plane open: there the normals are the outward normals of
  * the edges of the 2-D hull of a remaining contact's vertices projected into the plane (along such
  * a normal the edge is that contact's farthest face), and the checks of the earlier faces,
- * projected into the plane once, cost two multiplications each.
+ * projected into the plane once, cost two multiplications each. With each normal `visit` gets how
+ * far each contact reaches along it (max u . x over its vertices), known without a search for the
+ * contacts whose face was chosen.
  */
 export function forEachFaceNormal(
   contacts: readonly ContactFaces[], size: number, tolerance: number,
-  visit: (normal: Float64Array) => void,
+  visit: (normal: Float64Array, farthest: Float64Array) => void,
 ): void {
   const target = size - 1;
   const contactCount = contacts.length;
-  const items: { contact: number; rowCount: number; rows: Float64Array; checks: Float64Array }[] = [];
+  const items: { contact: number; rowCount: number; rows: Float64Array; checks: Float64Array; reference: Float64Array }[] = [];
   contacts.forEach(({ faces }, contact) => faces.forEach((face) => {
     const rows = orthonormalRows(face, size);
-    if (rows !== null && face.rowCount <= target) items.push({ contact, rowCount: face.rowCount, rows, checks: face.checks });
+    if (rows !== null && face.rowCount <= target) items.push({ contact, rowCount: face.rowCount, rows, checks: face.checks, reference: face.reference });
   }));
   items.sort((a, b) => b.rowCount - a.rowCount || a.contact - b.contact);
   // A contact may supply the last row in a plane when one of its one-row faces comes at or after the start of the search.
@@ -193,6 +197,38 @@ export function forEachFaceNormal(
   const used = new Uint8Array(contactCount);
   const picked = new Int32Array(contactCount);
   const normal = new Float64Array(size);
+  const farthest = new Float64Array(contactCount);
+  const known = new Uint8Array(contactCount);
+  const planeReferences = new Float64Array(2 * contactCount);
+
+  /** How far each contact not marked known reaches along the normal, by its vertices. */
+  const reachOfOthers = (): void => {
+    for (let contact = 0; contact < contactCount; contact++) {
+      if (known[contact]) continue;
+      const vertices = contacts[contact].vertices;
+      let most = -Infinity;
+      for (let at = 0; at < vertices.length; at += size) {
+        let dot = 0;
+        for (let j = 0; j < size; j++) dot += vertices[at + j] * normal[j];
+        if (dot > most) most = dot;
+      }
+      farthest[contact] = most;
+    }
+  };
+
+  /** Visits the normal with the first `count` picked faces' reaches from their reference points and the other contacts' by search. */
+  const visitPicked = (count: number): void => {
+    for (let k = 0; k < count; k++) {
+      const item = items[picked[k]];
+      let dot = 0;
+      for (let j = 0; j < size; j++) dot += item.reference[j] * normal[j];
+      farthest[item.contact] = dot;
+      known[item.contact] = 1;
+    }
+    reachOfOthers();
+    for (let k = 0; k < count; k++) known[items[picked[k]].contact] = 0;
+    visit(normal, farthest);
+  };
   const checkCount = items.reduce((total, item) => total + item.checks.length / size, 0);
   const planeChecks = new Float64Array(2 * checkCount);
   const mostVertices = contacts.reduce((most, { vertices }) => Math.max(most, vertices.length / size), 0);
@@ -258,6 +294,13 @@ export function forEachFaceNormal(
         planeChecks[planeCount++] = b;
       }
     }
+    for (let k = 0; k < depth; k++) {
+      const reference = items[picked[k]].reference;
+      let a = 0, b = 0;
+      for (let j = 0; j < size; j++) { a += reference[j] * basis[j]; b += reference[j] * basis[size + j]; }
+      planeReferences[2 * k] = a;
+      planeReferences[2 * k + 1] = b;
+    }
     for (let contact = 0; contact < contactCount; contact++) {
       if (used[contact] || lastOneRow[contact] < start) continue;
       const vertices = contacts[contact].vertices;
@@ -282,7 +325,16 @@ export function forEachFaceNormal(
         }
         if (!passes) continue;
         for (let j = 0; j < size; j++) normal[j] = x * basis[j] + y * basis[size + j];
-        visit(normal);
+        for (let k = 0; k < depth; k++) {
+          const other = items[picked[k]].contact;
+          farthest[other] = planeReferences[2 * k] * x + planeReferences[2 * k + 1] * y;
+          known[other] = 1;
+        }
+        farthest[contact] = planePoints[2 * from] * x + planePoints[2 * from + 1] * y;
+        known[contact] = 1;
+        reachOfOthers();
+        known.fill(0);
+        visit(normal, farthest);
       }
     }
   };
@@ -325,10 +377,10 @@ export function forEachFaceNormal(
       picked[depth] = index;
       if (remaining === 1) {
         const signs = signsOf(depth + 1);
-        if (signs & 1) visit(normal);
+        if (signs & 1) visitPicked(depth + 1);
         if (signs & 2) {
           for (let j = 0; j < size; j++) normal[j] = -normal[j];
-          visit(normal);
+          visitPicked(depth + 1);
         }
       } else {
         used[item.contact] = 1;
