@@ -9,9 +9,17 @@
  * (Ziegler's polytope textbook, 1995, sec. 7.1 for Minkowski sums; the Cayley trick of
  * Huber, Rambau & Santos, 2000, for the hull of a union). Picking faces whose spans are independent
  * and add up to one less than the space dimension gives a finite set of candidate normals that
- * contains every facet normal; the callers evaluate support functions along them. The rows are
- * multiplied as exterior products, each face's once, so a combination costs one wedge per
- * contact, and the normal is the Hodge dual of the product (its cofactors).
+ * contains every facet normal; the callers evaluate support functions along them.
+ *
+ * Each choice of faces is taken once, its faces in order of falling row count, so the last face
+ * has the fewest rows. The subspace still open after each face is kept as orthonormal rows, and a
+ * face's rows are taken out of it by Householder reflections (Golub & Van Loan, "Matrix
+ * Computations", sec. 5.2). When the faces so far leave a plane open, the last face is an edge of
+ * one more contact, and along a normal in that plane that edge is the contact's farthest face: so
+ * the candidates there are the outward normals of the edges of the 2-D hull of that contact's
+ * vertices projected into the plane, and the earlier faces' checks, projected into the plane once,
+ * cost two multiplications each. How far a chosen contact reaches along a normal is the reach of
+ * its chosen face's point, so only the other contacts are searched.
  */
 
 /** One face: `rowCount` rows of `size` numbers spanning its direction space (and, for lifted faces, its position), and its check directions. */
@@ -160,19 +168,7 @@ export interface ContactFaces {
   faces: FaceRows[];
 }
 
-/**
- * Calls `visit` with unit normals u (dimensionless, the rows' frame) that include every facet
- * normal of the sum of the contacts' sets: each is orthogonal to the rows of at most one face per
- * contact, size - 1 independent rows in all, and every chosen face passes its checks
- * (q . u <= tolerance for each of its check directions q); u and -u are both tried. Each choice is
- * taken once, its faces in order of falling row count, so the last face has the fewest rows. When
- * it has one, the faces before it leave a plane open: there the normals are the outward normals of
- * the edges of the 2-D hull of a remaining contact's vertices projected into the plane (along such
- * a normal the edge is that contact's farthest face), and the checks of the earlier faces,
- * projected into the plane once, cost two multiplications each. With each normal `visit` gets how
- * far each contact reaches along it (max u . x over its vertices), known without a search for the
- * contacts whose face was chosen.
- */
+/** Calls `visit` with unit normals u (dimensionless, the rows' frame) including every facet normal of the sum of the contacts' sets, each whose chosen faces pass their checks (q . u <= tolerance), and how far each contact reaches along u (max u . x over its vertices). */
 export function forEachFaceNormal(
   contacts: readonly ContactFaces[], size: number, tolerance: number,
   visit: (normal: Float64Array, farthest: Float64Array) => void,
