@@ -237,7 +237,8 @@ const lines = [
 console.log(lines.join('\n'));
 
 // Grasp quality is computed once per evaluation (not per tick), so it is timed on its own: the
-// Ferrari-Canny qualities (Q_L1 and Q_Linf) of the three contacts with 8 cone edges each, as each evaluation computes them.
+// Ferrari-Canny qualities (Q_L1 and Q_Linf) of the three contacts with 8 cone edges each, as each evaluation computes them,
+// for point contacts with friction and for soft fingers (3 mm torsional friction), whose Q_Linf takes far more face combinations.
 const graspQualityInput = {
   origin: threeResult.object.position,
   points: threeResult.fingers.flatMap((f) => Array.from(f.contact.objectPoint)),
@@ -247,10 +248,13 @@ const graspQualityInput = {
   coneEdges: 8,
   torsionalFriction: 0,
 };
-const [graspQuality] = (await measureInRounds([
+const softGraspQualityInput = { ...graspQualityInput, torsionalFriction: 0.003 };
+const [graspQuality, softGraspQuality] = (await measureInRounds([
   { label: 'grasp quality, three fingers, 8 edges', batch: quick ? 10 : 100, call: () => computeGraspQuality(graspQualityInput) },
-])) as [Measurement];
+  { label: 'grasp quality, three soft fingers, 8 edges', batch: quick ? 1 : 5, call: () => computeGraspQuality(softGraspQualityInput) },
+])) as [Measurement, Measurement];
 console.log(line(graspQuality, against(graspQuality, 1)));
+console.log(line(softGraspQuality));
 
 // A controller log of 100,000 samples of the three-finger hand (its own run, 9 joints with angle, commanded and
 // measured rate), written to a file and compared end to end from a file stream: parse, re-solve, statistics.

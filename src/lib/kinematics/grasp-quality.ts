@@ -27,7 +27,7 @@
  * lies inside), with equality along the nearest facet, so the smallest support over a candidate
  * set that holds every facet normal is exactly Q; the containment check only skips candidates.
  */
-import { baseFaces, countCombinations, forEachFaceNormal, type FaceRows } from './wrench-faces';
+import { baseFaces, countCombinations, forEachFaceNormal, type ContactFaces } from './wrench-faces';
 import { hullFacets } from './wrench-hull';
 
 /** Wrench-space dimension: force (3) and torque over L (3). */
@@ -116,6 +116,19 @@ export function contactWrenches(input: Readonly<GraspQualityInput>, torqueLength
   return perContact;
 }
 
+/** Largest length of any generator (dimensionless wrench per unit normal force): the scale of the tolerances. */
+function largestWrench(perContact: readonly number[][][]): number {
+  let largest = 0;
+  for (const generators of perContact) {
+    for (const w of generators) {
+      let square = 0;
+      for (let j = 0; j < D; j++) square += w[j] * w[j];
+      if (square > largest) largest = square;
+    }
+  }
+  return Math.sqrt(largest);
+}
+
 /** Smallest distance from the origin to a facet of conv(points) and that facet's outward unit normal (6-D); non-positive when the origin is not strictly inside. */
 export function nearestFacet(points: readonly number[][]): { distance: number; normal: number[] } {
   const hull = hullFacets(points.flat(), points.length);
@@ -125,8 +138,8 @@ export function nearestFacet(points: readonly number[][]): { distance: number; n
   return { distance: hull.offsets[best], normal: Array.from(hull.normals.subarray(best * D, best * D + D)) };
 }
 
-/** Most face combinations Q_Linf examines (about 50 ms of work on a loaded 2-core machine); past it Q_Linf is not computed. */
-export const MAX_FACE_COMBINATIONS = 100_000;
+/** Most face combinations Q_Linf examines (at most about 60 ms of work on a loaded 2-core machine); past it Q_Linf is not computed. */
+export const MAX_FACE_COMBINATIONS = 500_000;
 
 /** Face combinations past which Q_L1 is faster by the incremental hull of the union than by its faces. */
 const MAX_UNION_FACE_COMBINATIONS = 4_000;
@@ -134,6 +147,50 @@ const MAX_UNION_FACE_COMBINATIONS = 4_000;
 /** Base faces of one contact's generators (vertex indices), from its friction and torsion. */
 function contactBaseFaces(input: Readonly<GraspQualityInput>, contact: number): number[][] {
   return baseFaces(input.coneEdges, input.friction[contact] > 0, input.torsionalFriction > 0);
+}
+
+/**
+ * One contact's set in the enumeration's space: its points (the apex 0 first, then the generators,
+ * `size` numbers each, lifted by a trailing 1 when size is 7) and its faces, each a list of point
+ * indices whose first is the reference: rows p_k - p_ref for the others, checks p_x - p_ref for
+ * every point x outside it (the face is farthest along u when none of them reaches past it).
+ */
+function contactSet(generators: readonly number[][], size: number, faceLists: readonly (readonly number[])[]): ContactFaces {
+  const count = generators.length + 1;
+  const points = new Float64Array(count * size);
+  generators.forEach((w, k) => {
+    for (let j = 0; j < D; j++) points[(k + 1) * size + j] = w[j];
+    if (size === LIFTED) points[(k + 1) * size + D] = 1;
+  });
+  const inFace = new Uint8Array(count);
+  const faces = faceLists.map((list) => {
+    const reference = list[0] * size;
+    const rows = new Float64Array((list.length - 1) * size);
+    for (let r = 1; r < list.length; r++) for (let j = 0; j < size; j++) rows[(r - 1) * size + j] = points[list[r] * size + j] - points[reference + j];
+    inFace.fill(0);
+    for (const index of list) inFace[index] = 1;
+    const checks = new Float64Array((count - list.length) * size);
+    for (let x = 0, at = 0; x < count; x++) {
+      if (inFace[x]) continue;
+      for (let j = 0; j < size; j++) checks[at + j] = points[x * size + j] - points[reference + j];
+      at += size;
+    }
+    return { rowCount: list.length - 1, rows, checks, reference: points.slice(reference, reference + size) };
+  });
+  return { vertices: points, faces };
+}
+
+/** Point lists (apex 0, generator k at k + 1) of the cone over each base face: the faces of the lifted cone over the generators (w, 1). */
+function coneFaceLists(base: readonly number[][]): number[][] {
+  return base.map((vertices) => [0, ...vertices.map((v) => v + 1)]);
+}
+
+/** Point lists of the faces of P_i = conv({0} U G_i): each base face of two or more vertices, and the pyramid over every base face. */
+function pyramidFaceLists(base: readonly number[][]): number[][] {
+  return base.flatMap((vertices) => {
+    const face = vertices.map((v) => v + 1);
+    return face.length > 1 ? [face, [0, ...face]] : [[0, ...face]];
+  });
 }
 
 /**
@@ -145,41 +202,27 @@ function contactBaseFaces(input: Readonly<GraspQualityInput>, contact: number): 
  * candidate is a facet. Null when the union spans fewer than five dimensions or past the work cap.
  */
 function unionFaceQuality(input: Readonly<GraspQualityInput>, perContact: readonly number[][][]): { distance: number; normal: number[] } | null {
-  const faces: FaceRows[][] = perContact.map((generators, i) => contactBaseFaces(input, i).map((vertices) => {
-    const rows = new Float64Array(vertices.length * LIFTED);
-    const reference = generators[vertices[0]];
-    for (let j = 0; j < D; j++) rows[j] = reference[j];
-    rows[D] = 1;
-    for (let r = 1; r < vertices.length; r++) for (let j = 0; j < D; j++) rows[r * LIFTED + j] = generators[vertices[r]][j] - reference[j];
-    return { rowCount: vertices.length, rows };
-  }));
-  if (countCombinations(faces, LIFTED - 1) > MAX_UNION_FACE_COMBINATIONS) return null;
-  const union = Float64Array.from(perContact.flat().flat());
-  const count = union.length / D;
-  const tolerance = 1e-9 * perContact.flat().reduce((m, w) => Math.max(m, Math.hypot(...w)), 0);
+  const contacts = perContact.map((generators, i) => contactSet(generators, LIFTED, coneFaceLists(contactBaseFaces(input, i))));
+  if (countCombinations(contacts.map(({ faces }) => faces), LIFTED - 1) > MAX_UNION_FACE_COMBINATIONS) return null;
+  const tolerance = 1e-9 * largestWrench(perContact);
   let best: { distance: number; normal: number[] } | null = null;
-  forEachFaceNormal(faces, LIFTED, (lifted) => {
+  forEachFaceNormal(contacts, LIFTED, tolerance, (lifted, farthest) => {
     let norm = 0;
     for (let j = 0; j < D; j++) norm += lifted[j] * lifted[j];
     // A lifted normal along (0, 1) alone would be a hyperplane at infinity: six rows with 1 in the last place rule it out up to rounding.
     if (norm < 1e-18) return;
     norm = Math.sqrt(norm);
-    // The candidate facet u . w = c passes through the chosen faces; a generator beyond it on both sides rules it out.
-    const level = -lifted[D], slack = tolerance * norm;
-    let plus = true, minus = true;
-    let most = -Infinity, least = Infinity;
-    for (let k = 0; k < count; k++) {
-      let dot = 0;
-      for (let j = 0; j < D; j++) dot += lifted[j] * union[k * D + j];
-      if (dot > level + slack) plus = false;
-      if (dot < level - slack) minus = false;
-      if (!plus && !minus) return;
-      if (dot > most) most = dot;
-      if (dot < least) least = dot;
+    // The candidate facet u . w = c passes through the chosen faces; a generator (w, 1) of any contact beyond it rules it out.
+    const slack = tolerance * norm;
+    let most = 0;
+    for (let i = 0; i < farthest.length; i++) {
+      if (farthest[i] > slack) return;
+      if (farthest[i] > most) most = farthest[i];
     }
-    const sign = plus && (!minus || most <= -least) ? 1 : -1;
-    const distance = (sign > 0 ? most : -least) / norm;
-    if (best === null || distance < best.distance) best = { distance, normal: Array.from(lifted.subarray(0, D), (x) => (sign * x) / norm) };
+    // u . w = (u, -c) . (w, 1) + c, and the apex 0 of every cone counts as reaching 0.
+    most -= lifted[D];
+    const distance = most / norm;
+    if (best === null || distance < best.distance) best = { distance, normal: Array.from(lifted.subarray(0, D), (x) => x / norm) };
   });
   return best;
 }
@@ -193,73 +236,17 @@ export interface SumFaceQuality {
 
 /** Q_Linf and its facet's outward unit normal (6-D, [force, torque / L], world frame) from the contacts' face lattices, or null past MAX_FACE_COMBINATIONS. */
 export function nearestSumFacet(input: Readonly<GraspQualityInput>, perContact: readonly number[][][]): SumFaceQuality {
-  const scale = perContact.flat().reduce((m, w) => Math.max(m, Math.hypot(...w)), 0);
-  const references: number[][] = [];
-  const faces: FaceRows[][] = perContact.map((generators, i) => {
-    const contactFaces: FaceRows[] = [];
-    const contactReferences: number[] = [];
-    for (const vertices of contactBaseFaces(input, i)) {
-      const reference = generators[vertices[0]];
-      const directions = vertices.slice(1).map((v) => generators[v].map((x, j) => x - reference[j]));
-      if (directions.length > 0) {
-        contactFaces.push({ rowCount: directions.length, rows: Float64Array.from(directions.flat()) });
-        contactReferences.push(vertices[0]);
-      }
-      contactFaces.push({ rowCount: directions.length + 1, rows: Float64Array.from([...reference, ...directions.flat()]) });
-      // The pyramid over a face contains the apex 0.
-      contactReferences.push(-1);
-    }
-    references.push(contactReferences);
-    return contactFaces;
-  });
-  const combinations = countCombinations(faces, D - 1);
+  const scale = largestWrench(perContact);
+  const contacts = perContact.map((generators, i) => contactSet(generators, D, pyramidFaceLists(contactBaseFaces(input, i))));
+  const combinations = countCombinations(contacts.map(({ faces }) => faces), D - 1);
   if (combinations > MAX_FACE_COMBINATIONS) return { distance: null, normal: null, combinations };
-  const flat = perContact.map((generators) => Float64Array.from(generators.flat()));
-  const most = new Float64Array(perContact.length), least = new Float64Array(perContact.length);
-  const tolerance = 1e-9 * scale;
   let bestDistance = Infinity;
   let bestNormal: number[] | null = null;
-  /** Largest and smallest u . w over contact i's set P_i (0 included), into most[i] and least[i]. */
-  const contactsOf = (u: Float64Array, i: number): void => {
-    const points = flat[i];
-    let high = 0, low = 0;
-    for (let at = 0; at < points.length; at += D) {
-      let dot = 0;
-      for (let j = 0; j < D; j++) dot += u[j] * points[at + j];
-      if (dot > high) high = dot;
-      if (dot < low) low = dot;
-    }
-    most[i] = high;
-    least[i] = low;
-  };
-  forEachFaceNormal(faces, D, (u, chosen) => {
-    // The chosen faces first, stopping at the first vertex beyond a chosen face on both sides: most candidates fail there.
-    let plus = true, minus = true;
-    for (let i = 0; i < flat.length; i++) {
-      if (chosen[i] < 0) continue;
-      const points = flat[i];
-      const reference = references[i][chosen[i]];
-      let level = 0;
-      if (reference >= 0) for (let j = 0; j < D; j++) level += u[j] * points[reference * D + j];
-      // The apex 0 is a vertex of P_i too.
-      if (0 > level + tolerance) plus = false;
-      if (0 < level - tolerance) minus = false;
-      for (let at = 0; at < points.length && (plus || minus); at += D) {
-        let dot = 0;
-        for (let j = 0; j < D; j++) dot += u[j] * points[at + j];
-        if (dot > level + tolerance) plus = false;
-        if (dot < level - tolerance) minus = false;
-      }
-      if (!plus && !minus) return;
-    }
-    for (let i = 0; i < flat.length; i++) contactsOf(u, i);
-    let support = 0, opposite = 0;
-    for (let i = 0; i < flat.length; i++) {
-      support += most[i];
-      opposite -= least[i];
-    }
-    if (plus && support < bestDistance) { bestDistance = support; bestNormal = Array.from(u); }
-    if (minus && opposite < bestDistance) { bestDistance = opposite; bestNormal = Array.from(u, (x) => -x); }
+  forEachFaceNormal(contacts, D, 1e-9 * scale, (u, farthest) => {
+    // Each contact reaches at least its apex 0: the support is sum_i max(0, max_k u . w_ik).
+    let support = 0;
+    for (let i = 0; i < farthest.length; i++) support += farthest[i];
+    if (support < bestDistance) { bestDistance = support; bestNormal = Array.from(u); }
   });
   return { distance: bestNormal === null ? null : bestDistance, normal: bestNormal, combinations };
 }
@@ -305,7 +292,7 @@ export function computeGraspQuality(input: Readonly<GraspQualityInput>): GraspQu
     weakestWrench[0] = 1;
     return { contactCount, coneEdges, torqueLength, forceClosure: false, sumQuality: 0, maxQuality: 0, maxQualityCombinations: 0, weakestWrench, weakestWords: 'no contact: every push is unresisted' };
   }
-  const scale = union.reduce((m, w) => Math.max(m, Math.hypot(...w)), 0);
+  const scale = largestWrench(perContact);
   const sum = unionFaceQuality(input, perContact) ?? nearestFacet(union);
   const forceClosure = sum.distance > FORCE_CLOSURE_TOLERANCE * scale;
   // Adding 0 turns -0 into 0, so a reported wrench never shows a negative zero.

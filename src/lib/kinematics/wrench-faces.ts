@@ -9,15 +9,27 @@
  * (Ziegler's polytope textbook, 1995, sec. 7.1 for Minkowski sums; the Cayley trick of
  * Huber, Rambau & Santos, 2000, for the hull of a union). Picking faces whose spans are independent
  * and add up to one less than the space dimension gives a finite set of candidate normals that
- * contains every facet normal; the callers evaluate support functions along them. The rows are
- * multiplied as exterior products, each face's once, so a combination costs one wedge per
- * contact, and the normal is the Hodge dual of the product (its cofactors).
+ * contains every facet normal; the callers evaluate support functions along them.
+ *
+ * Each choice of faces is taken once, its faces in order of falling row count, so the last face
+ * has the fewest rows. The subspace still open after each face is kept as orthonormal rows, and a
+ * face's rows are taken out of it by Householder reflections (Golub & Van Loan, "Matrix
+ * Computations", sec. 5.2). When the faces so far leave a plane open, the last face is an edge of
+ * one more contact, and along a normal in that plane that edge is the contact's farthest face: so
+ * the candidates there are the outward normals of the edges of the 2-D hull of that contact's
+ * vertices projected into the plane, and the earlier faces' checks, projected into the plane once,
+ * cost two multiplications each. How far a chosen contact reaches along a normal is the reach of
+ * its chosen face's point, so only the other contacts are searched.
  */
 
-/** One face: `rowCount` rows of `size` numbers spanning its direction space (and, for lifted faces, its position). */
+/** One face: `rowCount` rows of `size` numbers spanning its direction space (and, for lifted faces, its position), and its check directions. */
 export interface FaceRows {
   rowCount: number;
   rows: Float64Array;
+  /** Directions q (each `size` numbers) with q . u <= 0 for all of them exactly when the face lies in its contact's face farthest along u. */
+  checks: Float64Array;
+  /** A point of the face (`size` numbers): along a normal that passes the checks, the contact reaches exactly as far as this point. */
+  reference: Float64Array;
 }
 
 /** Faces of one contact's base as affinely independent vertex lists (indices into its generators: m edges, then the twists +gamma and -gamma). */
@@ -57,141 +69,321 @@ export function countCombinations(facesPerContact: readonly (readonly FaceRows[]
   return ways[target];
 }
 
-/** Relative size below which a wedge of face rows counts as zero: the rows are then dependent. */
+/** Relative size below which the chosen rows' volume counts as zero: the rows are then dependent. */
 const DEPENDENT = 1e-12;
 
-/** Basis k-vectors of an n-dimensional space: the index sets as bit masks, ascending, and each mask's place in that list. */
-interface Subsets {
-  bySize: number[][];
-  rank: Int32Array;
-}
-
-const subsetCache = new Map<number, Subsets>();
-
-function subsets(size: number): Subsets {
-  let cached = subsetCache.get(size);
-  if (cached) return cached;
-  const bySize: number[][] = Array.from({ length: size + 1 }, () => []);
-  const rank = new Int32Array(1 << size);
-  for (let mask = 0; mask < 1 << size; mask++) {
-    let bits = 0;
-    for (let b = mask; b; b &= b - 1) bits++;
-    rank[mask] = bySize[bits].length;
-    bySize[bits].push(mask);
+/** A face's rows made orthonormal (Gram-Schmidt), so the volume of any choice is the product of its projections' pivots; null when they are dependent. */
+function orthonormalRows(face: FaceRows, size: number): Float64Array | null {
+  const rows = face.rows.slice(0, face.rowCount * size);
+  for (let r = 0; r < face.rowCount; r++) {
+    const row = rows.subarray(r * size, (r + 1) * size);
+    let before = 0;
+    for (let j = 0; j < size; j++) before += row[j] * row[j];
+    before = Math.sqrt(before);
+    for (let q = 0; q < r; q++) {
+      let dot = 0;
+      for (let j = 0; j < size; j++) dot += row[j] * rows[q * size + j];
+      for (let j = 0; j < size; j++) row[j] -= dot * rows[q * size + j];
+    }
+    let norm = 0;
+    for (let j = 0; j < size; j++) norm += row[j] * row[j];
+    norm = Math.sqrt(norm);
+    if (!(norm > DEPENDENT * before)) return null;
+    for (let j = 0; j < size; j++) row[j] /= norm;
   }
-  cached = { bySize, rank };
-  subsetCache.set(size, cached);
-  return cached;
+  return rows;
 }
 
-/** Product table of a k-vector and an l-vector: for each pair of disjoint basis sets, their places and the sign of merging them into ascending order. */
-interface WedgeTable {
-  left: Int32Array;
-  right: Int32Array;
-  into: Int32Array;
-  sign: Float64Array;
-}
-
-const wedgeCache = new Map<string, WedgeTable>();
-
-function wedgeTable(size: number, k: number, l: number): WedgeTable {
-  const key = `${size}:${k}:${l}`;
-  let cached = wedgeCache.get(key);
-  if (cached) return cached;
-  const { bySize, rank } = subsets(size);
-  const left: number[] = [], right: number[] = [], into: number[] = [], sign: number[] = [];
-  for (const a of bySize[k]) {
-    for (const b of bySize[l]) {
-      if (a & b) continue;
-      // Each pair (i in a, j in b) with i > j is one transposition of the merge.
-      let swaps = 0;
-      for (let j = 0; j < size; j++) {
-        if (!(b & (1 << j))) continue;
-        for (let i = j + 1; i < size; i++) if (a & (1 << i)) swaps++;
-      }
-      left.push(rank[a]);
-      right.push(rank[b]);
-      into.push(rank[a | b]);
-      sign.push(swaps % 2 === 0 ? 1 : -1);
+/**
+ * The open subspace after the e rows of `projected` (e x s, row-major, in the coordinates of the s
+ * orthonormal rows of `basis`, each `size` long) are taken out of it: Householder reflections
+ * H_0 ... H_{e-1} bring the rows to triangular form (Golub & Van Loan, "Matrix Computations",
+ * sec. 5.2), and the same reflections applied to `basis` leave its last s - e rows orthonormal and
+ * orthogonal to the rows; those go into `out`. Returns the rows' volume (the product of the
+ * triangle's diagonal), 0 when they are dependent. `work` holds s x size numbers.
+ */
+function reduceBasis(projected: Float64Array, e: number, s: number, basis: Float64Array, size: number, work: Float64Array, out: Float64Array): number {
+  const m = projected;
+  let volume = 1;
+  for (let j = 0; j < s * size; j++) work[j] = basis[j];
+  for (let k = 0; k < e; k++) {
+    // Column k of the transpose is row k of the projection, from entry k on.
+    let norm = 0;
+    for (let i = k; i < s; i++) norm += m[k * s + i] * m[k * s + i];
+    norm = Math.sqrt(norm);
+    volume *= norm;
+    if (!(volume > DEPENDENT)) return 0;
+    const alpha = m[k * s + k] > 0 ? -norm : norm;
+    // v = x - alpha e_k, kept in row k of the projection; H = I - 2 v v^T / (v . v).
+    m[k * s + k] -= alpha;
+    const vv = 2 * norm * (norm + Math.abs(m[k * s + k] + alpha));
+    for (let r = k + 1; r < e; r++) {
+      let dot = 0;
+      for (let i = k; i < s; i++) dot += m[k * s + i] * m[r * s + i];
+      const factor = (2 * dot) / vv;
+      for (let i = k; i < s; i++) m[r * s + i] -= factor * m[k * s + i];
+    }
+    for (let j = 0; j < size; j++) {
+      let dot = 0;
+      for (let i = k; i < s; i++) dot += m[k * s + i] * work[i * size + j];
+      const factor = (2 * dot) / vv;
+      for (let i = k; i < s; i++) work[i * size + j] -= factor * m[k * s + i];
     }
   }
-  cached = { left: Int32Array.from(left), right: Int32Array.from(right), into: Int32Array.from(into), sign: Float64Array.from(sign) };
-  wedgeCache.set(key, cached);
-  return cached;
+  for (let j = 0; j < (s - e) * size; j++) out[j] = work[e * size + j];
+  return volume;
 }
 
-/** out = a ^ b for a k-vector a and an l-vector b (coefficients in basis-set order, `length` of the result); returns the Euclidean norm of the result. */
-function wedgeBy(table: WedgeTable, length: number, a: Float64Array, b: Float64Array, out: Float64Array): number {
-  for (let r = 0; r < length; r++) out[r] = 0;
-  const { left, right, into, sign } = table;
-  for (let t = 0; t < left.length; t++) out[into[t]] += sign[t] * a[left[t]] * b[right[t]];
-  let norm = 0;
-  for (let r = 0; r < length; r++) norm += out[r] * out[r];
-  return Math.sqrt(norm);
-}
-
-/** The wedge of one face's rows, a rowCount-vector, and its norm. */
-function faceWedge(face: FaceRows, size: number): { vector: Float64Array; norm: number } {
-  let vector = new Float64Array(1);
-  vector[0] = 1;
-  let norm = 1;
-  for (let r = 0; r < face.rowCount; r++) {
-    const out = new Float64Array(subsets(size).bySize[r + 1].length);
-    norm = wedgeBy(wedgeTable(size, r, 1), out.length, vector, face.rows.subarray(r * size, (r + 1) * size), out);
-    vector = out;
+/**
+ * The unit normal of the s - 1 rows of `projected` (s = 3 or 4, row-major) into `out`, as the signed
+ * cofactors (the cross product when s = 3); returns its length, the rows' volume, 0 when dependent.
+ */
+function lastNormal(projected: Float64Array, s: number, out: Float64Array): number {
+  const p = projected;
+  if (s === 3) {
+    out[0] = p[1] * p[5] - p[2] * p[4];
+    out[1] = p[2] * p[3] - p[0] * p[5];
+    out[2] = p[0] * p[4] - p[1] * p[3];
+  } else {
+    // Each component is the 3 x 3 minor without that column, alternating in sign.
+    const minor = (a: number, b: number, c: number): number =>
+      p[a] * (p[4 + b] * p[8 + c] - p[4 + c] * p[8 + b]) - p[b] * (p[4 + a] * p[8 + c] - p[4 + c] * p[8 + a]) + p[c] * (p[4 + a] * p[8 + b] - p[4 + b] * p[8 + a]);
+    out[0] = -minor(1, 2, 3);
+    out[1] = minor(0, 2, 3);
+    out[2] = -minor(0, 1, 3);
+    out[3] = minor(0, 1, 2);
   }
-  return { vector, norm };
+  let norm = 0;
+  for (let j = 0; j < s; j++) norm += out[j] * out[j];
+  norm = Math.sqrt(norm);
+  if (!(norm > DEPENDENT)) return 0;
+  for (let j = 0; j < s; j++) out[j] /= norm;
+  return norm;
 }
 
-/** Calls `visit` with the unit normal (dimensionless, the rows' frame) of each choice of at most one face per contact whose rows are independent and number size - 1 (`chosen[i]`: face index or -1). */
+/** One contact's set: its vertices (the apex 0 among them) and its faces, in the enumeration's space. */
+export interface ContactFaces {
+  /** Vertex coordinates, `size` numbers each. */
+  vertices: Float64Array;
+  faces: FaceRows[];
+}
+
+/** Calls `visit` with unit normals u (dimensionless, the rows' frame) including every facet normal of the sum of the contacts' sets, each whose chosen faces pass their checks (q . u <= tolerance), and how far each contact reaches along u (max u . x over its vertices). */
 export function forEachFaceNormal(
-  facesPerContact: readonly (readonly FaceRows[])[], size: number,
-  visit: (normal: Float64Array, chosen: Int32Array) => void,
+  contacts: readonly ContactFaces[], size: number, tolerance: number,
+  visit: (normal: Float64Array, farthest: Float64Array) => void,
 ): void {
   const target = size - 1;
-  const contactCount = facesPerContact.length;
-  const { bySize, rank } = subsets(size);
-  const wedges = facesPerContact.map((faces) => faces.map((face) => faceWedge(face, size)));
-  const widest = Math.max(...bySize.map((list) => list.length));
-  const products = Array.from({ length: contactCount + 1 }, () => new Float64Array(widest));
-  products[0][0] = 1;
-  const bounds = new Float64Array(contactCount + 1);
-  bounds[0] = 1;
-  const chosen = new Int32Array(contactCount).fill(-1);
-  const rowsAfter = new Int32Array(contactCount + 1);
-  for (let i = contactCount - 1; i >= 0; i--) {
-    rowsAfter[i] = rowsAfter[i + 1] + facesPerContact[i].reduce((most, face) => Math.max(most, face.rowCount), 0);
-  }
-  const tables = Array.from({ length: size }, (_, k) => Array.from({ length: size - k }, (_, l) => wedgeTable(size, k, l)));
-  const complementPlace = Int32Array.from({ length: size }, (_, j) => rank[((1 << size) - 1) ^ (1 << j)]);
+  const contactCount = contacts.length;
+  const items: { contact: number; rowCount: number; rows: Float64Array; checks: Float64Array; reference: Float64Array }[] = [];
+  contacts.forEach(({ faces }, contact) => faces.forEach((face) => {
+    const rows = orthonormalRows(face, size);
+    if (rows !== null && face.rowCount <= target) items.push({ contact, rowCount: face.rowCount, rows, checks: face.checks, reference: face.reference });
+  }));
+  items.sort((a, b) => b.rowCount - a.rowCount || a.contact - b.contact);
+  // A contact may supply the last row in a plane when one of its one-row faces comes at or after the start of the search.
+  const lastOneRow = new Int32Array(contactCount).fill(-1);
+  items.forEach((item, index) => { if (item.rowCount === 1) lastOneRow[item.contact] = index; });
+  // The subspace still open at each depth, as orthonormal rows in the full space, and the volume chosen so far.
+  const bases = Array.from({ length: contactCount + 1 }, () => new Float64Array(size * size));
+  for (let j = 0; j < size; j++) bases[0][j * size + j] = 1;
+  const volumes = new Float64Array(contactCount + 1);
+  volumes[0] = 1;
+  const projected = new Float64Array(size * size), work = new Float64Array(size * size), complement = new Float64Array(size);
+  const used = new Uint8Array(contactCount);
+  const picked = new Int32Array(contactCount);
   const normal = new Float64Array(size);
+  const farthest = new Float64Array(contactCount);
+  const known = new Uint8Array(contactCount);
+  const planeReferences = new Float64Array(2 * contactCount);
 
-  const emitNormal = (product: Float64Array, productNorm: number): void => {
-    for (let j = 0; j < size; j++) normal[j] = ((j % 2 === 0 ? 1 : -1) * product[complementPlace[j]]) / productNorm;
-    visit(normal, chosen);
+  /** How far each contact not marked known reaches along the normal, by its vertices. */
+  const reachOfOthers = (): void => {
+    for (let contact = 0; contact < contactCount; contact++) {
+      if (known[contact]) continue;
+      const vertices = contacts[contact].vertices;
+      let most = -Infinity;
+      for (let at = 0; at < vertices.length; at += size) {
+        let dot = 0;
+        for (let j = 0; j < size; j++) dot += vertices[at + j] * normal[j];
+        if (dot > most) most = dot;
+      }
+      farthest[contact] = most;
+    }
   };
 
-  const pick = (contact: number, depth: number, rows: number): void => {
-    if (contact === contactCount || rows + rowsAfter[contact] < target) return;
-    pick(contact + 1, depth, rows);
-    const faces = facesPerContact[contact];
-    const product = products[depth], next = products[depth + 1];
-    for (let f = 0; f < faces.length; f++) {
-      const rowCount = faces[f].rowCount;
-      // The contacts after this one must be able to supply the rows still missing.
-      if (rows + rowCount > target || rows + rowCount + rowsAfter[contact + 1] < target) continue;
-      const { vector, norm } = wedges[contact][f];
-      const productNorm = wedgeBy(tables[rows][rowCount], bySize[rows + rowCount].length, product, vector, next);
-      const bound = bounds[depth] * norm;
-      if (!(productNorm > DEPENDENT * bound)) continue;
-      chosen[contact] = f;
-      if (rows + rowCount === target) {
-        emitNormal(next, productNorm);
-      } else {
-        bounds[depth + 1] = bound;
-        pick(contact + 1, depth + 1, rows + rowCount);
+  /** Visits the normal with the first `count` picked faces' reaches from their reference points and the other contacts' by search. */
+  const visitPicked = (count: number): void => {
+    for (let k = 0; k < count; k++) {
+      const item = items[picked[k]];
+      let dot = 0;
+      for (let j = 0; j < size; j++) dot += item.reference[j] * normal[j];
+      farthest[item.contact] = dot;
+      known[item.contact] = 1;
+    }
+    reachOfOthers();
+    for (let k = 0; k < count; k++) known[items[picked[k]].contact] = 0;
+    visit(normal, farthest);
+  };
+  const checkCount = items.reduce((total, item) => total + item.checks.length / size, 0);
+  const planeChecks = new Float64Array(2 * checkCount);
+  const mostVertices = contacts.reduce((most, { vertices }) => Math.max(most, vertices.length / size), 0);
+  const planePoints = new Float64Array(2 * mostVertices);
+  const order = new Int32Array(mostVertices), hull = new Int32Array(2 * mostVertices + 1);
+
+  /** Bit 1: every check of the first `count` picked faces passes along the normal; bit 2: along its opposite. */
+  const signsOf = (count: number): number => {
+    let plus = true, minus = true;
+    for (let k = count - 1; k >= 0; k--) {
+      const checks = items[picked[k]].checks;
+      for (let at = 0; at < checks.length; at += size) {
+        let dot = 0;
+        for (let j = 0; j < size; j++) dot += checks[at + j] * normal[j];
+        if (dot > tolerance) plus = false;
+        if (dot < -tolerance) minus = false;
+        if (!plus && !minus) return 0;
       }
-      chosen[contact] = -1;
+    }
+    return (plus ? 1 : 0) | (minus ? 2 : 0);
+  };
+
+  /** Indices of the 2-D hull of the first `count` plane points, counter-clockwise, into `hull` (Andrew's monotone chain); returns their number. */
+  const planeHull = (count: number): number => {
+    for (let i = 0; i < count; i++) {
+      let at = i;
+      const x = planePoints[2 * i], y = planePoints[2 * i + 1];
+      while (at > 0) {
+        const before = order[at - 1];
+        const bx = planePoints[2 * before], by = planePoints[2 * before + 1];
+        if (bx < x || (bx === x && by <= y)) break;
+        order[at] = before;
+        at--;
+      }
+      order[at] = i;
+    }
+    let length = 0;
+    const turn = (a: number, b: number, c: number): number =>
+      (planePoints[2 * b] - planePoints[2 * a]) * (planePoints[2 * c + 1] - planePoints[2 * a + 1]) -
+      (planePoints[2 * b + 1] - planePoints[2 * a + 1]) * (planePoints[2 * c] - planePoints[2 * a]);
+    for (let k = 0; k < count; k++) {
+      while (length >= 2 && turn(hull[length - 2], hull[length - 1], order[k]) <= 0) length--;
+      hull[length++] = order[k];
+    }
+    for (let k = count - 2, lower = length + 1; k >= 0; k--) {
+      while (length >= lower && turn(hull[length - 2], hull[length - 1], order[k]) <= 0) length--;
+      hull[length++] = order[k];
+    }
+    // The chain ends where it began.
+    return length - 1;
+  };
+
+  /** The last face, of one row, after the faces picked so far left a plane open. */
+  const pickInPlane = (start: number, depth: number): void => {
+    const basis = bases[depth];
+    let planeCount = 0;
+    for (let k = 0; k < depth; k++) {
+      const checks = items[picked[k]].checks;
+      for (let at = 0; at < checks.length; at += size) {
+        let a = 0, b = 0;
+        for (let j = 0; j < size; j++) { a += checks[at + j] * basis[j]; b += checks[at + j] * basis[size + j]; }
+        planeChecks[planeCount++] = a;
+        planeChecks[planeCount++] = b;
+      }
+    }
+    for (let k = 0; k < depth; k++) {
+      const reference = items[picked[k]].reference;
+      let a = 0, b = 0;
+      for (let j = 0; j < size; j++) { a += reference[j] * basis[j]; b += reference[j] * basis[size + j]; }
+      planeReferences[2 * k] = a;
+      planeReferences[2 * k + 1] = b;
+    }
+    for (let contact = 0; contact < contactCount; contact++) {
+      if (used[contact] || lastOneRow[contact] < start) continue;
+      const vertices = contacts[contact].vertices;
+      const count = vertices.length / size;
+      for (let v = 0; v < count; v++) {
+        let a = 0, b = 0;
+        for (let j = 0; j < size; j++) { a += vertices[v * size + j] * basis[j]; b += vertices[v * size + j] * basis[size + j]; }
+        planePoints[2 * v] = a;
+        planePoints[2 * v + 1] = b;
+      }
+      const corners = planeHull(count);
+      for (let k = 0; k < corners; k++) {
+        const from = hull[k], to = hull[k + 1];
+        const ex = planePoints[2 * to] - planePoints[2 * from], ey = planePoints[2 * to + 1] - planePoints[2 * from + 1];
+        const length = Math.sqrt(ex * ex + ey * ey);
+        if (!(length > 0)) continue;
+        // Outward normal of a counter-clockwise edge.
+        const x = ey / length, y = -ex / length;
+        let passes = true;
+        for (let at = 0; at < planeCount; at += 2) {
+          if (planeChecks[at] * x + planeChecks[at + 1] * y > tolerance) { passes = false; break; }
+        }
+        if (!passes) continue;
+        for (let j = 0; j < size; j++) normal[j] = x * basis[j] + y * basis[size + j];
+        for (let k = 0; k < depth; k++) {
+          const other = items[picked[k]].contact;
+          farthest[other] = planeReferences[2 * k] * x + planeReferences[2 * k + 1] * y;
+          known[other] = 1;
+        }
+        farthest[contact] = planePoints[2 * from] * x + planePoints[2 * from + 1] * y;
+        known[contact] = 1;
+        reachOfOthers();
+        known.fill(0);
+        visit(normal, farthest);
+      }
+    }
+  };
+
+  const pick = (start: number, depth: number, rows: number): void => {
+    const open = size - rows;
+    if (open === 2) {
+      pickInPlane(start, depth);
+      return;
+    }
+    const basis = bases[depth];
+    const unused = contactCount - depth;
+    for (let index = start; index < items.length; index++) {
+      const item = items[index];
+      const rowCount = item.rowCount;
+      // The faces after this one have at most as many rows: the unused contacts must be able to supply the rows still missing.
+      if (rows + unused * rowCount < target) break;
+      if (used[item.contact] || rows + rowCount > target) continue;
+      for (let r = 0; r < rowCount; r++) {
+        for (let c = 0; c < open; c++) {
+          let dot = 0;
+          for (let j = 0; j < size; j++) dot += item.rows[r * size + j] * basis[c * size + j];
+          projected[r * open + c] = dot;
+        }
+      }
+      const remaining = open - rowCount;
+      let volume: number;
+      if (remaining === 1 && open <= 4) {
+        volume = lastNormal(projected, open, complement) * volumes[depth];
+        if (!(volume > DEPENDENT)) continue;
+        for (let j = 0; j < size; j++) {
+          let sum = 0;
+          for (let q = 0; q < open; q++) sum += complement[q] * basis[q * size + j];
+          normal[j] = sum;
+        }
+      } else {
+        volume = reduceBasis(projected, rowCount, open, basis, size, work, remaining === 1 ? normal : bases[depth + 1]) * volumes[depth];
+        if (!(volume > DEPENDENT)) continue;
+      }
+      picked[depth] = index;
+      if (remaining === 1) {
+        const signs = signsOf(depth + 1);
+        if (signs & 1) visitPicked(depth + 1);
+        if (signs & 2) {
+          for (let j = 0; j < size; j++) normal[j] = -normal[j];
+          visitPicked(depth + 1);
+        }
+      } else {
+        used[item.contact] = 1;
+        volumes[depth + 1] = volume;
+        pick(index + 1, depth + 1, rows + rowCount);
+        used[item.contact] = 0;
+      }
     }
   };
   pick(0, 0, 0);

@@ -2,14 +2,7 @@ import { describe, expect, it } from 'vitest';
 import {
   computeGraspQuality, contactWrenches, MAX_FACE_COMBINATIONS, nearestFacet, nearestSumFacet, type GraspQualityInput,
 } from '../../../src/lib/kinematics/grasp-quality';
-import { directions, rayDistance } from './wrench-routes';
-
-/** Every point of the Minkowski sum of conv{0, generators} over the contacts: the independent hull route, for small sums. */
-function minkowskiOf(perContact: number[][][]): number[][] {
-  let sums: number[][] = [[0, 0, 0, 0, 0, 0]];
-  for (const generators of perContact) sums = sums.flatMap((s) => [s, ...generators.map((g) => s.map((x, j) => x + g[j]))]);
-  return sums;
-}
+import { directions, minkowskiOf, rayDistance } from './wrench-routes';
 
 const radius = 0.03;
 /** Contacts on a 30 mm sphere at the given azimuths and elevations (rad), outward normals through the centre. */

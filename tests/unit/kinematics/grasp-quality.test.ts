@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { computeGraspQuality, contactWrenches, nearestFacet, type GraspQualityInput } from '../../../src/lib/kinematics/grasp-quality';
-import { directions, rayDistance } from './wrench-routes';
+import { directions, minkowskiOf, rayDistance } from './wrench-routes';
 
 const radius = 0.03;
 /** Three contacts on a 30 mm sphere, 120 degrees apart around z and tilted off the equator (outward normals through the centre). */
@@ -91,9 +91,3 @@ describe('computeGraspQuality', () => {
     expect(computeGraspQuality(threeOnSphere(0, 8)).forceClosure).toBe(false);
   });
 });
-
-function minkowskiOf(perContact: number[][][]): number[][] {
-  let sums: number[][] = [[0, 0, 0, 0, 0, 0]];
-  for (const generators of perContact) sums = sums.flatMap((s) => [s, ...generators.map((g) => s.map((x, j) => x + g[j]))]);
-  return sums;
-}

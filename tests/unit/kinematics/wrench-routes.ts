@@ -1,6 +1,7 @@
 /**
  * Independent routes for the grasp-quality tests: ray distances through a wrench set by linear
- * programs (yalps) and a fixed spread of unit directions.
+ * programs (yalps), every point of a small Minkowski sum for a hull, and a fixed spread of unit
+ * directions.
  */
 import { expect } from 'vitest';
 import { solve, type Coefficients } from 'yalps';
@@ -45,4 +46,11 @@ export function directions(count: number, seed = 12345): number[][] {
     const length = Math.hypot(...v);
     return v.map((x) => x / length);
   });
+}
+
+/** Every point of the Minkowski sum of conv{0, generators} over the contacts: the independent hull route, for small sums. */
+export function minkowskiOf(perContact: number[][][]): number[][] {
+  let sums: number[][] = [[0, 0, 0, 0, 0, 0]];
+  for (const generators of perContact) sums = sums.flatMap((s) => [s, ...generators.map((g) => s.map((x, j) => x + g[j]))]);
+  return sums;
 }
