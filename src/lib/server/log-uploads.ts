@@ -217,6 +217,9 @@ export async function storeLogUpload(database: Database, storage: LogStorage, re
   const source = Readable.fromWeb(request.body as WebReadableStream<Uint8Array>);
   const inspector = new LogInspector(limit);
   let interrupted = false;
+  // The first failure of the log's stream, kept because the storage may report its own error in its place.
+  let streamFailure: unknown;
+  inspector.on('error', (error) => (streamFailure ??= error));
   source.on('error', (error) => {
     interrupted = true;
     inspector.destroy(error);
@@ -227,7 +230,8 @@ export async function storeLogUpload(database: Database, storage: LogStorage, re
   } catch (error) {
     source.destroy();
     await storage.delete(storageKey);
-    if (error instanceof UploadRefused) return error.failure;
+    const cause = streamFailure ?? error;
+    if (cause instanceof UploadRefused) return cause.failure;
     if (interrupted) return refusedLog('The upload ended before the whole log arrived; nothing was kept.');
     throw error;
   }
