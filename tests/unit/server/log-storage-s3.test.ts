@@ -1,6 +1,7 @@
 import { createHash } from 'node:crypto';
 import { Readable } from 'node:stream';
 import { gzipSync } from 'node:zlib';
+import { buffer } from 'node:stream/consumers';
 import { ListObjectsV2Command, S3Client } from '@aws-sdk/client-s3';
 import S3rver from 's3rver';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -57,14 +58,12 @@ async function objectKeys(): Promise<string[]> {
   return (listed.Contents ?? []).map((object) => object.Key!);
 }
 
-async function readAll(stream: Readable): Promise<Buffer> {
-  const chunks: Buffer[] = [];
-  for await (const chunk of stream) chunks.push(chunk as Buffer);
-  return Buffer.concat(chunks as unknown as Uint8Array[]);
+async function readAll(stream: Readable): Promise<Uint8Array> {
+  return new Uint8Array(await buffer(stream));
 }
 
-function upload(body: ReadableStream<Uint8Array>, limit = MAX_LOG_BYTES) {
-  return getDatabase().then((database) => storeLogUpload(database, storage, { sheet, fileName: 'right-hand.csv', body, declaredLength: null, limit, actor: { userId: uploaderId } }));
+async function upload(body: ReadableStream<Uint8Array>, limit = MAX_LOG_BYTES) {
+  return storeLogUpload(await getDatabase(), storage, { sheet, fileName: 'right-hand.csv', body, declaredLength: null, limit, actor: { userId: uploaderId } });
 }
 
 beforeAll(async () => {
@@ -99,7 +98,7 @@ describe('log storage on S3 (s3rver)', () => {
 
   it('stores a gzip log through the upload service, previews it decompressed, and deletes row and object', async () => {
     const text = 't,px\n0.000,0.10\n0.001,0.11\n';
-    const stored = await upload(streamOf(gzipSync(text)));
+    const stored = await upload(streamOf(new Uint8Array(gzipSync(text))));
     if (!stored.ok) throw new Error(stored.error.message);
     expect(stored.value.contentType).toBe('application/gzip');
     expect(await objectKeys()).toContain(`${sheet.teamId}/${stored.value.id}`);

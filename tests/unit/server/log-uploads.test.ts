@@ -2,7 +2,7 @@ import { createHash } from 'node:crypto';
 import { existsSync, mkdtempSync, readdirSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { gzipSync } from 'node:zlib';
+import { gzipSync as nodeGzipSync } from 'node:zlib';
 import { eq } from 'drizzle-orm';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { uploads } from '../../../src/db/schema';
@@ -18,6 +18,9 @@ import { createTestSheet } from '../../helpers/test-sheets';
 import { identityForUser } from '../../../src/lib/server/identity';
 
 const encoder = new TextEncoder();
+
+/** Node's gzip as plain bytes. */
+const gzipSync = (data: string | Uint8Array) => new Uint8Array(nodeGzipSync(data));
 
 /** A controller log of the invented Fenwick parcel line: time, object position and one roll joint's rates. */
 function fenwickLog(rows: number): string {
@@ -99,7 +102,7 @@ describe('log upload service (disk storage)', () => {
     expect(stored.value.byteSize).toBe(bytes.length);
     expect(stored.value.sha256).toBe(createHash('sha256').update(bytes).digest('hex'));
     const [row] = (await rowsOfSheet(sheet.id)).filter((r) => r.id === stored.value.id);
-    expect(readFileSync(join(folder, row.storageKey)).equals(Buffer.from(bytes))).toBe(true);
+    expect(new Uint8Array(readFileSync(join(folder, row.storageKey)))).toEqual(bytes);
   });
 
   it('tells gzip by its magic number, whatever the name, and previews the decompressed rows', async () => {
