@@ -228,10 +228,11 @@ export async function storeLogUpload(database: Database, storage: LogStorage, re
   try {
     await storage.put(storageKey, inspector);
   } catch (error) {
-    source.destroy();
     await storage.delete(storageKey);
     const cause = streamFailure ?? error;
+    // A refused log's rest is left unread rather than cancelled: cancelling would reset the socket before the refusal is sent.
     if (cause instanceof UploadRefused) return cause.failure;
+    source.destroy();
     if (interrupted) return refusedLog('The upload ended before the whole log arrived; nothing was kept.');
     throw error;
   }
