@@ -1,7 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
 import { DEMO_PASSWORD } from '../../src/lib/server/demo';
-import { baseUrl, launchBrowser, saveScreenshot, signIn } from './browser';
+import { join } from 'node:path';
+import { baseUrl, launchBrowser, SCREENSHOT_DIR, signIn } from './browser';
 
 let browser: Browser;
 
@@ -41,12 +42,13 @@ describe('controller logs on the sheet page', () => {
     const progress = panel.locator('[data-upload-progress] progress');
     await expect.poll(async () => Number(await progress.getAttribute('value')), { timeout: 20_000 }).toBeGreaterThan(0);
     expect(Number(await progress.getAttribute('max'))).toBe(log.length);
-    await saveScreenshot(page, 'log-upload-progress');
+    // The panel alone: the sheet page is long.
+    await panel.screenshot({ path: join(SCREENSHOT_DIR, 'log-upload-progress.png') });
     await expect.poll(() => panel.locator('[data-log]').count(), { timeout: 30_000 }).toBe(1);
     const row = await panel.locator('[data-log]').innerText();
     expect(row).toContain('line4-run-12.csv');
-    expect(row).toContain(`${(log.length / 2 ** 20).toFixed(1)} MiB`);
-    await saveScreenshot(page, 'log-upload-listed');
+    expect(row).toContain(`${+(log.length / 2 ** 20).toFixed(1)} MiB`);
+    await panel.screenshot({ path: join(SCREENSHOT_DIR, 'log-upload-listed.png') });
 
     const viewer = await browser.newPage();
     await signIn(viewer, 'viewer@fenwick.example', DEMO_PASSWORD);

@@ -15,10 +15,10 @@ interface LogsPanelProps {
 const KIB = 1024;
 const MIB = 1024 * KIB;
 
-/** A byte count as people read file sizes: "812 B", "14.2 KiB", "176.9 MiB". */
+/** A byte count as people read file sizes: "812 B", "14.2 KiB", "500 MiB". */
 function formatBytes(bytes: number): string {
   if (bytes < KIB) return `${bytes} B`;
-  return bytes < MIB ? `${(bytes / KIB).toFixed(1)} KiB` : `${(bytes / MIB).toFixed(1)} MiB`;
+  return bytes < MIB ? `${+(bytes / KIB).toFixed(1)} KiB` : `${+(bytes / MIB).toFixed(1)} MiB`;
 }
 
 function Logs({ sheetId, canUpload }: LogsPanelProps) {
@@ -90,7 +90,7 @@ function Logs({ sheetId, canUpload }: LogsPanelProps) {
         <div className="mt-3 space-y-1" data-upload-progress>
           <label className="block text-xs text-graphite">
             Uploading {progress.fileName}: {formatBytes(progress.sent)} of {formatBytes(progress.total)}
-            <progress className="mt-1 block h-2 w-full" max={progress.total || 1} value={progress.sent} />
+            <progress className="mt-1 block h-2 w-full accent-verdigris" max={progress.total || 1} value={progress.sent} />
           </label>
           <button type="button" className={button} onClick={() => running.current?.abort()}>
             Stop upload
