@@ -41,6 +41,12 @@ export default defineConfig({
       SMTP_USER: envField.string({ context: 'server', access: 'secret', optional: true }),
       SMTP_PASSWORD: envField.string({ context: 'server', access: 'secret', optional: true }),
       SMTP_FROM: envField.string({ context: 'server', access: 'secret', optional: true }),
+      LOG_STORAGE_DIR: envField.string({ context: 'server', access: 'secret', optional: true }),
+      S3_ENDPOINT: envField.string({ context: 'server', access: 'secret', optional: true }),
+      S3_BUCKET: envField.string({ context: 'server', access: 'secret', optional: true }),
+      S3_REGION: envField.string({ context: 'server', access: 'secret', optional: true }),
+      S3_ACCESS_KEY_ID: envField.string({ context: 'server', access: 'secret', optional: true }),
+      S3_SECRET_ACCESS_KEY: envField.string({ context: 'server', access: 'secret', optional: true }),
     },
   },
 });

@@ -11,6 +11,9 @@ process.env.DATABASE_URL = `file:${join(mkdtempSync(join(tmpdir(), 'slipless-vit
 // Mail goes to the local mailbox (no SMTP_HOST in tests); its folder is this run's, never the working copy's data/mail.
 process.env.MAILBOX_DIR = mkdtempSync(join(tmpdir(), 'slipless-mailbox-'));
 
+// Controller logs uploaded by tests land in this run's folder, never the working copy's data/uploads.
+process.env.LOG_STORAGE_DIR = mkdtempSync(join(tmpdir(), 'slipless-logs-'));
+
 process.env.AUTH_SECRET ??= 'test-only-secret-not-for-production-use-0123456789';
 
 export default getViteConfig({

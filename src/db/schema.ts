@@ -175,7 +175,8 @@ export const uploads = sqliteTable('uploads', {
   contentType: text('content_type').notNull(),
   byteSize: integer('byte_size').notNull(),
   sha256: text('sha256').notNull(),
-  content: text('content').notNull(),
+  /** Where the log's bytes are, in the configured log storage (disk folder or S3 bucket); logs reach 500 MiB, too big for a row. */
+  storageKey: text('storage_key').notNull().unique(),
   createdAt: createdAt(),
 });
 

@@ -21,6 +21,8 @@ export async function startApp(options: { port: number; databaseUrl: string; env
     env: {
       // Mail goes to a fresh folder unless the caller names one, so a test run never fills the working copy's data/mail.
       MAILBOX_DIR: makeTempDir('slipless-mailbox-'),
+      // Uploaded controller logs likewise, so a test run never fills the working copy's data/uploads.
+      LOG_STORAGE_DIR: makeTempDir('slipless-logs-'),
       ...(options.env ?? process.env),
       PORT: String(options.port),
       HOST: '127.0.0.1',

@@ -46,8 +46,11 @@ export function apiContext(spec: RequestSpec): APIContext {
   const url = new URL(spec.path, ORIGIN);
   const method = spec.method ?? 'GET';
   const headers = new Headers(spec.headers);
-  if (spec.body !== undefined) headers.set('content-type', 'application/json');
-  const request = new Request(url, { method, headers, body: spec.body === undefined ? undefined : JSON.stringify(spec.body) });
+  // Bytes and streams (file uploads) go as they are; anything else as JSON.
+  const raw = spec.body instanceof Uint8Array || spec.body instanceof ReadableStream;
+  if (spec.body !== undefined && !raw) headers.set('content-type', 'application/json');
+  const body = spec.body === undefined ? undefined : raw ? (spec.body as BodyInit) : JSON.stringify(spec.body);
+  const request = new Request(url, { method, headers, body, ...(spec.body instanceof ReadableStream ? { duplex: 'half' } : {}) } as RequestInit);
   const identity = spec.identity ?? null;
   return {
     request,

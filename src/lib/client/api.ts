@@ -46,6 +46,42 @@ export async function requestJson<T>(url: string, { method = 'GET', body }: { me
   return payload as T;
 }
 
+/** A file upload under way: its answer, and a way to stop it. */
+export interface Upload<T> {
+  done: Promise<T>;
+  abort: () => void;
+}
+
+/**
+ * Sends `file` as the raw request body of a POST (streamed by the browser, never read into a
+ * string here) and reports progress as `(sentBytes, totalBytes)`. XMLHttpRequest because fetch
+ * reports no upload progress. Resolves to the JSON answer or rejects with ApiError; an abort
+ * rejects with an ApiError of status 0.
+ */
+export function uploadFile<T>(url: string, file: Blob, onProgress: (sent: number, total: number) => void): Upload<T> {
+  const xhr = new XMLHttpRequest();
+  const done = new Promise<T>((resolve, reject) => {
+    xhr.open('POST', url);
+    xhr.withCredentials = true;
+    xhr.setRequestHeader('accept', 'application/json');
+    xhr.upload.onprogress = (event) => onProgress(event.loaded, event.lengthComputable ? event.total : file.size);
+    xhr.onload = () => {
+      let payload: unknown = null;
+      try {
+        payload = xhr.responseText ? JSON.parse(xhr.responseText) : null;
+      } catch {
+        payload = null;
+      }
+      if (xhr.status >= 200 && xhr.status < 300) resolve(payload as T);
+      else reject(new ApiError(xhr.status, errorOf(xhr.status, payload)));
+    };
+    xhr.onerror = () => reject(new ApiError(0, { message: UNREACHABLE }));
+    xhr.onabort = () => reject(new ApiError(0, { message: 'The upload was stopped; nothing was kept.' }));
+    xhr.send(file);
+  });
+  return { done, abort: () => xhr.abort() };
+}
+
 /**
  * Posts a form to an Auth.js endpoint (credentials callback, e-mail link sign-in) with its CSRF
  * token; answers where to go next and the error code Auth.js reported, if any.

@@ -7,3 +7,4 @@ export * from './wire';
 export * from './reviews';
 export * from './sheets';
 export * from './teams';
+export * from './log-uploads';

@@ -58,6 +58,8 @@ export const AUDIT_ACTIONS = {
   'team.rename': 'Renamed the team',
   'sheet.request_changes': 'Asked for changes to a sheet revision',
   'sheet.comment': 'Commented on a sheet revision',
+  'log.upload': 'Uploaded a controller log',
+  'log.delete': 'Deleted a controller log',
   'demo.seed': 'Seeded the demo data',
 } as const satisfies Record<string, string>;
 export type KnownAuditAction = keyof typeof AUDIT_ACTIONS;

@@ -1,5 +1,5 @@
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
-import { ApiError, fieldErrors, postAuthForm, requestJson, serverErrors, signInWithPassword, UNREACHABLE } from '../../../src/lib/client/api';
+import { ApiError, fieldErrors, postAuthForm, requestJson, serverErrors, signInWithPassword, UNREACHABLE, uploadFile } from '../../../src/lib/client/api';
 import type { LatestRevision, StaleSaveError } from '../../../src/lib/contract';
 
 const fetchMock = vi.fn<typeof fetch>();
@@ -139,5 +139,69 @@ describe('messages for form fields', () => {
     expect(serverErrors(new ApiError(400, { message: 'Bad title.', path: 'title.text' }), ['title'])).toEqual({ title: 'Bad title.' });
     expect(serverErrors(new ApiError(403, { message: 'Owners only.', path: 'teamId' }), ['email'])).toEqual({ form: 'Owners only.' });
     expect(serverErrors(new TypeError('Failed to fetch'), ['email'])).toEqual({ form: UNREACHABLE });
+  });
+});
+
+/** A stand-in for the browser's XMLHttpRequest: records what was sent; the test plays the server's part. */
+class FakeXhr {
+  static last: FakeXhr;
+  method = '';
+  url = '';
+  sent: unknown;
+  withCredentials = false;
+  status = 0;
+  responseText = '';
+  headers: Record<string, string> = {};
+  upload: { onprogress: ((event: { loaded: number; total: number; lengthComputable: boolean }) => void) | null } = { onprogress: null };
+  onload: (() => void) | null = null;
+  onerror: (() => void) | null = null;
+  onabort: (() => void) | null = null;
+  constructor() {
+    FakeXhr.last = this;
+  }
+  open(method: string, url: string) {
+    this.method = method;
+    this.url = url;
+  }
+  setRequestHeader(name: string, value: string) {
+    this.headers[name] = value;
+  }
+  send(body: unknown) {
+    this.sent = body;
+  }
+  abort() {
+    this.onabort?.();
+  }
+  answer(status: number, body: unknown) {
+    this.status = status;
+    this.responseText = JSON.stringify(body);
+    this.onload?.();
+  }
+}
+
+describe('uploadFile', () => {
+  beforeEach(() => vi.stubGlobal('XMLHttpRequest', FakeXhr));
+
+  it('posts the file itself as the body with the session cookie, reports progress and resolves to the answer', async () => {
+    const file = new Blob(['t,px\n0,0.1\n']);
+    const seen: [number, number][] = [];
+    const upload = uploadFile<{ id: string }>('/api/sheets/s1/logs?fileName=run.csv', file, (sent, total) => seen.push([sent, total]));
+    const xhr = FakeXhr.last;
+    expect([xhr.method, xhr.url, xhr.sent, xhr.withCredentials]).toEqual(['POST', '/api/sheets/s1/logs?fileName=run.csv', file, true]);
+    xhr.upload.onprogress?.({ loaded: 5, total: 12, lengthComputable: true });
+    xhr.answer(201, { id: 'log-1' });
+    await expect(upload.done).resolves.toEqual({ id: 'log-1' });
+    expect(seen).toEqual([[5, 12]]);
+  });
+
+  it('rejects with the server error (status, message, field), and with a status-0 error when stopped', async () => {
+    const refused = uploadFile('/api/x', new Blob(['x']), () => {});
+    FakeXhr.last.answer(413, { error: { message: 'The log is larger than the 500 MiB an upload may be.', path: '(body)' } });
+    const error = await refused.done.catch((e: unknown) => e);
+    expect(error).toBeInstanceOf(ApiError);
+    expect([(error as ApiError).status, (error as ApiError).message, (error as ApiError).path]).toEqual([413, 'The log is larger than the 500 MiB an upload may be.', '(body)']);
+    const stopped = uploadFile('/api/x', new Blob(['x']), () => {});
+    stopped.abort();
+    await expect(stopped.done).rejects.toMatchObject({ status: 0 });
   });
 });

@@ -9,6 +9,9 @@ import { getDatabase } from '../../../../src/lib/server/database';
 import { DEMO_PASSWORD, DEMO_TEAM } from '../../../../src/lib/server/demo';
 import { identityForUser } from '../../../../src/lib/server/identity';
 import { hashPassword } from '../../../../src/lib/server/passwords';
+import { getLogStorage } from '../../../../src/lib/server/log-storage';
+import { storeLogUpload } from '../../../../src/lib/server/log-uploads';
+import { MAX_LOG_BYTES } from '../../../../src/lib/validation/log-uploads';
 import { createTestSheet } from '../../../helpers/test-sheets';
 import { addTestMember, callRoute, callThroughMiddleware, demoIdentity, demoTeamId, type Handler } from '../../../helpers/api-context';
 
@@ -88,6 +91,20 @@ async function deleteTableSheets(): Promise<void> {
 async function scratchSheet(fx: Fixture, extra: Omit<Prepared, 'params' | 'cleanup'> = {}): Promise<Prepared> {
   const { sheetId } = await createTestSheet(await getDatabase(), fx.teamId, TABLE_SHEET_TITLE, exampleDocument);
   return { params: { sheetId }, cleanup: deleteTableSheets, ...extra };
+}
+
+/** A small controller log of the scratch sheet, as a CSV body. */
+const TABLE_LOG = new TextEncoder().encode('t,px,py,pz\n0.000,0.10,0.05,0.12\n0.002,0.10,0.05,0.12\n');
+
+/** A scratch sheet with one uploaded log, named by `logId`. */
+async function scratchSheetWithLog(fx: Fixture): Promise<Prepared> {
+  const prepared = await scratchSheet(fx);
+  const database = await getDatabase();
+  const sheetId = prepared.params!.sheetId;
+  const body = new Blob([TABLE_LOG]).stream();
+  const stored = await storeLogUpload(database, getLogStorage(), { sheet: { id: sheetId, teamId: fx.teamId }, fileName: 'table.csv', body, declaredLength: null, limit: MAX_LOG_BYTES, actor: { userId: fx.sessions.reviewer.user.id } });
+  if (!stored.ok) throw new Error(stored.error.message);
+  return { ...prepared, params: { sheetId, logId: stored.value.id } };
 }
 
 async function newTeamMember(fx: Fixture): Promise<Prepared> {
@@ -356,6 +373,39 @@ const ROWS: Row[] = [
     variant: 'results as CSV',
     prepare: (fx) => scratchSheet(fx, { query: '?format=csv' }),
     expect: { ...SIGNED_IN_OK, other: 404 },
+  },
+  {
+    route: 'sheets/[sheetId]/logs/index.ts',
+    method: 'GET',
+    prepare: (fx) => scratchSheet(fx),
+    expect: { ...SIGNED_IN_OK, other: 404 },
+  },
+  {
+    route: 'sheets/[sheetId]/logs/index.ts',
+    method: 'POST',
+    variant: 'a CSV log',
+    prepare: (fx) => scratchSheet(fx, { body: TABLE_LOG, query: '?fileName=table.csv' }),
+    expect: { none: 401, viewer: 403, reviewer: 201, editor: 403, owner: 201, token: 403, revoked: 401, other: 404 },
+  },
+  {
+    route: 'sheets/[sheetId]/logs/index.ts',
+    method: 'POST',
+    variant: 'no file name',
+    prepare: (fx) => scratchSheet(fx, { body: TABLE_LOG }),
+    expect: { none: 401, viewer: 403, reviewer: 400, editor: 403, owner: 400, token: 403, revoked: 401, other: 404 },
+  },
+  {
+    route: 'sheets/[sheetId]/logs/[logId].ts',
+    method: 'GET',
+    variant: 'a log with its preview',
+    prepare: (fx) => scratchSheetWithLog(fx),
+    expect: { ...SIGNED_IN_OK, other: 404 },
+  },
+  {
+    route: 'sheets/[sheetId]/logs/[logId].ts',
+    method: 'DELETE',
+    prepare: (fx) => scratchSheetWithLog(fx),
+    expect: { none: 401, viewer: 403, reviewer: 204, editor: 403, owner: 204, token: 403, revoked: 401, other: 404 },
   },
   {
     route: 'sheets/import.ts',

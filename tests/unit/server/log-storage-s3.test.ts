@@ -1,0 +1,135 @@
+import { createHash } from 'node:crypto';
+import { Readable } from 'node:stream';
+import { gzipSync } from 'node:zlib';
+import { buffer } from 'node:stream/consumers';
+import { ListObjectsV2Command, S3Client } from '@aws-sdk/client-s3';
+import S3rver from 's3rver';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { getDatabase } from '../../../src/lib/server/database';
+import { s3LogStorage, s3SettingsFrom, type LogStorage, type S3Settings } from '../../../src/lib/server/log-storage';
+import { deleteLogUpload, getLogUpload, storeLogUpload } from '../../../src/lib/server/log-uploads';
+import { MAX_LOG_BYTES } from '../../../src/lib/validation/log-uploads';
+import { demoIdentity, demoTeamId } from '../../helpers/api-context';
+import { freePort, makeTempDir } from '../../helpers/temp';
+import { createTestSheet } from '../../helpers/test-sheets';
+
+/*
+ * The S3 path against s3rver, a local fake S3 server from npm, started here on a free loopback
+ * port with its data in a temp folder. Its fixed credentials are S3RVER / S3RVER (s3rver README).
+ */
+
+const BUCKET = 'fenwick-controller-logs';
+const MIB = 1024 * 1024;
+
+let server: S3rver;
+let settings: S3Settings;
+let storage: LogStorage;
+let inspector: S3Client;
+let sheet: { id: string; teamId: string };
+let uploaderId: string;
+
+/** A Fenwick parcel-line log of about `bytes` bytes: time, object position and a roll rate. */
+function fenwickLog(bytes: number): Uint8Array {
+  const lines = ['t,px,py,pz,right_roll_cmd'];
+  let size = lines[0].length + 1;
+  for (let i = 0; size < bytes; i++) {
+    const line = `${(i * 0.001).toFixed(3)},0.${i % 10}1,0.052,0.118,${(0.25 + (i % 100) * 1e-3).toFixed(3)}`;
+    lines.push(line);
+    size += line.length + 1;
+  }
+  return new TextEncoder().encode(`${lines.join('\n')}\n`);
+}
+
+function streamOf(bytes: Uint8Array, failAfter?: number): ReadableStream<Uint8Array> {
+  const chunkSize = 256 * 1024;
+  let offset = 0;
+  return new ReadableStream({
+    pull(controller) {
+      if (failAfter !== undefined && offset >= failAfter) return controller.error(new Error('connection reset by the client'));
+      if (offset >= bytes.length) return controller.close();
+      controller.enqueue(bytes.slice(offset, offset + chunkSize));
+      offset += chunkSize;
+    },
+  });
+}
+
+async function objectKeys(): Promise<string[]> {
+  const listed = await inspector.send(new ListObjectsV2Command({ Bucket: BUCKET }));
+  return (listed.Contents ?? []).map((object) => object.Key!);
+}
+
+async function readAll(stream: Readable): Promise<Uint8Array> {
+  return new Uint8Array(await buffer(stream));
+}
+
+async function upload(body: ReadableStream<Uint8Array>, limit = MAX_LOG_BYTES) {
+  return storeLogUpload(await getDatabase(), storage, { sheet, fileName: 'right-hand.csv', body, declaredLength: null, limit, actor: { userId: uploaderId } });
+}
+
+beforeAll(async () => {
+  const port = await freePort();
+  server = new S3rver({ address: '127.0.0.1', port, silent: true, directory: makeTempDir('slipless-s3rver-'), configureBuckets: [{ name: BUCKET }] });
+  await server.run();
+  settings = s3SettingsFrom({ endpoint: `http://127.0.0.1:${port}`, bucket: BUCKET, region: 'eu-west-1', accessKeyId: 'S3RVER', secretAccessKey: 'S3RVER' })!;
+  storage = s3LogStorage(settings);
+  inspector = new S3Client({ endpoint: settings.endpoint, region: settings.region, forcePathStyle: true, credentials: { accessKeyId: 'S3RVER', secretAccessKey: 'S3RVER' } });
+  const teamId = await demoTeamId();
+  const { sheetId } = await createTestSheet(await getDatabase(), teamId, 'S3 log storage test sheet');
+  sheet = { id: sheetId, teamId };
+  uploaderId = (await demoIdentity('reviewer')).user.id;
+}, 60_000);
+
+afterAll(async () => {
+  inspector?.destroy();
+  await server?.close();
+});
+
+describe('log storage on S3 (s3rver)', () => {
+  it('round-trips a 12 MiB log put in several multipart parts, byte for byte', async () => {
+    // 12 MiB > the SDK's 5 MiB part size, so the upload goes in three parts (AWS S3 docs: parts are 5 MiB to 5 GiB).
+    const bytes = fenwickLog(12 * MIB);
+    await storage.put('demo-team/round-trip', Readable.from([bytes.subarray(0, 5 * MIB), bytes.subarray(5 * MIB)]));
+    const back = await readAll(await storage.get('demo-team/round-trip'));
+    expect(createHash('sha256').update(back).digest('hex')).toBe(createHash('sha256').update(bytes).digest('hex'));
+    await storage.delete('demo-team/round-trip');
+    expect(await objectKeys()).not.toContain('demo-team/round-trip');
+    await expect(storage.get('demo-team/round-trip')).rejects.toThrow();
+  }, 60_000);
+
+  it('stores a gzip log through the upload service, previews it decompressed, and deletes row and object', async () => {
+    const text = 't,px\n0.000,0.10\n0.001,0.11\n';
+    const stored = await upload(streamOf(new Uint8Array(gzipSync(text))));
+    if (!stored.ok) throw new Error(stored.error.message);
+    expect(stored.value.contentType).toBe('application/gzip');
+    expect(await objectKeys()).toContain(`${sheet.teamId}/${stored.value.id}`);
+    const database = await getDatabase();
+    const detail = await getLogUpload(database, storage, sheet.id, stored.value.id);
+    expect(detail.ok && detail.value.preview).toEqual({ header: ['t', 'px'], rows: [['0.000', '0.10'], ['0.001', '0.11']] });
+    expect((await deleteLogUpload(database, storage, sheet.id, stored.value.id, { userId: uploaderId })).ok).toBe(true);
+    expect(await objectKeys()).not.toContain(`${sheet.teamId}/${stored.value.id}`);
+  });
+
+  it('leaves no object when the client breaks off after two parts were sent', async () => {
+    const before = await objectKeys();
+    const refused = await upload(streamOf(fenwickLog(14 * MIB), 11 * MIB));
+    expect(refused.ok).toBe(false);
+    expect(await objectKeys()).toEqual(before);
+  }, 60_000);
+
+  it('leaves no object for an over-size log or a refused file type', async () => {
+    const before = await objectKeys();
+    const tooLarge = await upload(streamOf(fenwickLog(6 * MIB)), 5.5 * MIB);
+    expect(tooLarge.ok || tooLarge.error.kind).toBe('too-large');
+    // PNG signature (ISO/IEC 15948, section 5.2): not a CSV.
+    const png = await upload(streamOf(Uint8Array.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a])));
+    expect(png.ok || png.error.kind).toBe('invalid');
+    expect(await objectKeys()).toEqual(before);
+  }, 60_000);
+});
+
+describe('S3 settings', () => {
+  it('choose the disk without S3_ENDPOINT and name every missing S3 setting with it', () => {
+    expect(s3SettingsFrom({ bucket: BUCKET })).toBeNull();
+    expect(() => s3SettingsFrom({ endpoint: 'http://127.0.0.1:9000', accessKeyId: 'key' })).toThrow(/S3_BUCKET, S3_SECRET_ACCESS_KEY/);
+  });
+});
