@@ -31,7 +31,7 @@ describe('a reviewer on a sheet', () => {
     await expect.poll(() => panel.locator('[data-comment]').count()).toBe(1);
     await panel.getByRole('button', { name: /Approve revision/ }).click();
     await expect.poll(() => panel.locator('[data-review-status]').innerText()).toContain('approved');
-    await expect.poll(() => panel.locator('[data-last-approved]').innerText()).toMatch(/last approved revision \d+/);
+    await expect.poll(() => panel.locator('[data-last-checked]').innerText()).toMatch(/last approved revision \d+/);
     await saveScreenshot(page, 'review-approved');
     // The title block states the latest revision's review state once the page is loaded again.
     await page.reload({ waitUntil: 'networkidle' });

@@ -54,10 +54,11 @@ export const AUDIT_ACTIONS = {
   'sheet.save': 'Saved a sheet revision',
   'sheet.fork': 'Forked a sheet',
   'sheet.delete': 'Deleted a sheet',
-  'sheet.approve': 'Approved a sheet revision',
+  'sheet.check': 'Signed a sheet revision as checked',
   'team.rename': 'Renamed the team',
-  'sheet.request_changes': 'Asked for changes to a sheet revision',
-  'sheet.comment': 'Commented on a sheet revision',
+  'sheet.return': 'Returned a sheet revision for correction',
+  'sheet.comment': 'Remarked on a sheet revision',
+  'sheet.remark_resolve': 'Resolved or reopened a remark',
   'demo.seed': 'Seeded the demo data',
 } as const satisfies Record<string, string>;
 export type KnownAuditAction = keyof typeof AUDIT_ACTIONS;

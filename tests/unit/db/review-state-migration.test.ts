@@ -45,7 +45,7 @@ describe('moving review state from sheets onto revisions', () => {
       ['asked-sheet-1', 'changes-requested'],
       ['in-review-sheet-1', 'draft'],
     ]);
-    expect(await findSheet(database, 'approved-sheet')).toMatchObject({ reviewState: 'approved', lastApprovedRevision: 2 });
-    expect(await findSheet(database, 'asked-sheet')).toMatchObject({ reviewState: 'changes-requested', lastApprovedRevision: null });
+    expect(await findSheet(database, 'approved-sheet')).toMatchObject({ reviewState: 'approved', lastCheckedRevision: 2 });
+    expect(await findSheet(database, 'asked-sheet')).toMatchObject({ reviewState: 'changes-requested', lastCheckedRevision: null });
   });
 });

@@ -47,13 +47,13 @@ describe('reviews', () => {
     const saved = await revisionsRoute.POST(apiContext({ method: 'POST', params: { sheetId }, body: { baseRevision: 1, document: example, message: 'unreviewed edit' }, identity: people.editor }));
     expect(saved.status).toBe(201);
     const list = await (await reviewsRoute.GET(apiContext({ params: { sheetId }, identity: people.viewer }))).json();
-    expect(list).toMatchObject({ status: 'draft', latestRevision: 2, lastApprovedRevision: 1 });
+    expect(list).toMatchObject({ status: 'draft', latestRevision: 2, lastCheckedRevision: 1 });
     const detail = await (await sheetRoute.GET(apiContext({ params: { sheetId }, identity: people.viewer }))).json();
-    expect(detail.sheet).toMatchObject({ reviewState: 'draft', lastApprovedRevision: 1 });
+    expect(detail.sheet).toMatchObject({ reviewState: 'draft', lastCheckedRevision: 1 });
     expect(detail.revision).toMatchObject({ number: 2, reviewState: 'draft' });
     expect(await (await review(sheetId, 2, 'approved')).json()).toMatchObject({ status: 'approved' });
     const approved = await (await sheetRoute.GET(apiContext({ params: { sheetId }, identity: people.viewer }))).json();
-    expect(approved.sheet).toMatchObject({ reviewState: 'approved', lastApprovedRevision: 2 });
+    expect(approved.sheet).toMatchObject({ reviewState: 'approved', lastCheckedRevision: 2 });
   });
 
   it('refuses an editor, an unknown verdict (located) and a missing revision (located)', async () => {
