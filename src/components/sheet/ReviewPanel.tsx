@@ -3,6 +3,7 @@ import { useState, type SubmitEvent } from 'react';
 import QueryRoot from '../QueryRoot';
 import { requestJson } from '../../lib/client/api';
 import { REVIEW_STATE_LABELS, type ReviewThread, type SheetComment, type Verdict, type Wire } from '../../lib/contract';
+import { OUTPUTS } from '../../lib/sheet/outputs';
 import { REMARK_SECTIONS } from '../../lib/validation/reviews';
 import { button, fieldInput, primaryButton } from './sheet-styles';
 
@@ -14,6 +15,8 @@ interface ReviewPanelProps {
 }
 
 const SIGNATURE_TEXT = { checked: 'signed as checked', returned: 'returned for correction' } as const;
+
+const OUTPUT_LABELS = new Map(OUTPUTS.map((output) => [`output.${output.id}`, output.label]));
 
 function when(value: string): string {
   return new Date(value).toISOString().slice(0, 16).replace('T', ' ') + ' UTC';
@@ -110,7 +113,7 @@ function Thread({ sheetId, revision, canComment, canReview }: ReviewPanelProps) 
           <li key={c.id} className={`border-l-4 pl-3 ${c.resolvedAt ? 'border-rule opacity-70' : 'border-ochre'}`} data-comment data-resolved={c.resolvedAt ? 'true' : 'false'}>
             <p className="text-xs text-graphite">
               Remark on revision <span className="num">{c.revision}</span>
-              {c.anchor && <> · on <span className="font-mono" data-remark-anchor>{c.anchor}</span></>}
+              {c.anchor && <> · on <span className="font-mono" data-remark-anchor={c.anchor}>{OUTPUT_LABELS.get(c.anchor) ?? c.anchor}</span></>}
               {c.resolvedAt && <> · resolved by {c.resolvedByName ?? 'someone'}</>}
             </p>
             <Remark remark={c} />
@@ -151,11 +154,20 @@ function Thread({ sheetId, revision, canComment, canReview }: ReviewPanelProps) 
               about
               <select className={fieldInput} value={anchor} onChange={(e) => setAnchor(e.target.value)}>
                 <option value="">the whole revision</option>
-                {REMARK_SECTIONS.map((section) => (
-                  <option key={section} value={section}>
-                    section: {section}
-                  </option>
-                ))}
+                <optgroup label="Section">
+                  {REMARK_SECTIONS.map((section) => (
+                    <option key={section} value={section}>
+                      {section}
+                    </option>
+                  ))}
+                </optgroup>
+                <optgroup label="Output">
+                  {OUTPUTS.map((output) => (
+                    <option key={output.id} value={`output.${output.id}`}>
+                      {output.label}
+                    </option>
+                  ))}
+                </optgroup>
               </select>
             </label>
           )}
