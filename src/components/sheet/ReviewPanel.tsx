@@ -131,9 +131,11 @@ function Thread({ sheetId, revision, canComment, canReview }: ReviewPanelProps) 
                 <button type="button" className="underline decoration-rule" onClick={() => setReplyTo(c)}>
                   Reply
                 </button>
-                <button type="button" className="underline decoration-rule" disabled={resolution.isPending} onClick={() => resolution.mutate({ id: c.id, resolved: !c.resolvedAt })}>
-                  {c.resolvedAt ? 'Reopen' : 'Resolve'}
-                </button>
+                {c.canResolve && (
+                  <button type="button" className="underline decoration-rule" disabled={resolution.isPending} onClick={() => resolution.mutate({ id: c.id, resolved: !c.resolvedAt })}>
+                    {c.resolvedAt ? 'Reopen' : 'Resolve'}
+                  </button>
+                )}
               </div>
             )}
           </li>

@@ -31,6 +31,8 @@ export interface SheetComment {
   /** When the thread was marked resolved, or null while it stands open. */
   resolvedAt: Date | null;
   resolvedByName: string | null;
+  /** Whether the reader may resolve or reopen this thread (a checker, or the revision's author). */
+  canResolve: boolean;
 }
 
 /** One signature on a revision: checked, or returned with remarks. */

@@ -11,8 +11,11 @@ import { findReviewState, type Actor } from './sheets';
 
 const resolvers = alias(users, 'resolvers');
 
-/** Every remark on a sheet, oldest first, with its author's name and where its thread stands. */
-export async function listComments(database: Database, sheetId: string): Promise<SheetComment[]> {
+/**
+ * Every remark on a sheet, oldest first, with its author's name, where its thread stands and
+ * whether `reader` may resolve it (a checker, or the author of the revision it is on).
+ */
+export async function listComments(database: Database, sheetId: string, reader: { userId: string; mayCheck: boolean }): Promise<SheetComment[]> {
   const rows = await database.db
     .select({
       id: comments.id,
@@ -24,13 +27,19 @@ export async function listComments(database: Database, sheetId: string): Promise
       createdAt: comments.createdAt,
       resolvedAt: comments.resolvedAt,
       resolvedByName: resolvers.name,
+      revisionAuthorId: sheetRevisions.authorId,
     })
     .from(comments)
     .leftJoin(users, eq(users.id, comments.authorId))
     .leftJoin(resolvers, eq(resolvers.id, comments.resolvedById))
+    .leftJoin(sheetRevisions, and(eq(sheetRevisions.sheetId, comments.sheetId), eq(sheetRevisions.number, comments.revision)))
     .where(eq(comments.sheetId, sheetId))
     .orderBy(asc(comments.createdAt));
-  return rows.map((row) => ({ ...row, html: renderRemark(row.body) }));
+  return rows.map(({ revisionAuthorId, ...row }) => ({
+    ...row,
+    html: renderRemark(row.body),
+    canResolve: row.parentId === null && (reader.mayCheck || revisionAuthorId === reader.userId),
+  }));
 }
 
 /**

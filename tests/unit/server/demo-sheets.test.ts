@@ -52,11 +52,12 @@ describe('demo sheets seeded into the run database', () => {
 
     const retrofit = byTitle('Retrofit fingers: mounting review');
     expect(await findSheet(database, retrofit.id)).toMatchObject({ reviewState: 'returned', lastCheckedRevision: null });
-    const remarks = await listComments(database, retrofit.id);
+    const remarks = await listComments(database, retrofit.id, { userId: 'a reader who wrote nothing', mayCheck: false });
     const openings = remarks.filter((c) => c.parentId === null);
     expect(openings.map((c) => c.anchor)).toEqual(['hand', 'results']);
     expect(remarks.filter((c) => c.parentId === openings[0].id)).toHaveLength(1);
     expect(openings.every((c) => c.resolvedAt === null)).toBe(true);
     expect(openings[1].html).toContain('class="katex"');
+    expect(remarks.some((c) => c.canResolve)).toBe(false);
   });
 });

@@ -121,7 +121,7 @@ describe('remarks', () => {
     commentsRoute.POST(apiContext({ method: 'POST', params: { sheetId }, body: { revision: 1, ...body }, identity }));
   const resolve = (sheetId: string, id: string, resolved: boolean, identity: Identity) =>
     commentsRoute.PATCH(apiContext({ method: 'PATCH', params: { sheetId }, body: { id, resolved }, identity }));
-  const remarks = async (sheetId: string) => (await (await commentsRoute.GET(apiContext({ params: { sheetId }, identity: people.viewer }))).json()).items;
+  const remarks = async (sheetId: string, identity = people.viewer) => (await (await commentsRoute.GET(apiContext({ params: { sheetId }, identity }))).json()).items;
 
   it('keeps remarks in order with their author, and refuses empty ones', async () => {
     const sheetId = await newSheet();
@@ -169,6 +169,10 @@ describe('remarks', () => {
     const outsider = (await createTeamWithRoles('remark-outsider')).identities.editor;
     expect((await resolve(sheetId, opening.id, true, outsider)).status).toBe(404);
     expect((await resolve(sheetId, opening.id, true, people.viewer)).status).toBe(403);
+    const canResolve = async (identity: Identity) => (await remarks(sheetId, identity)).map((c: { id: string; canResolve: boolean }) => [c.id, c.canResolve]);
+    expect(await canResolve(people.viewer)).toEqual([[opening.id, false], [reply.id, false]]);
+    expect(await canResolve(people.reviewer)).toEqual([[opening.id, true], [reply.id, false]]);
+    expect(await canResolve(people.editor)).toEqual([[opening.id, true], [reply.id, false]]);
     const byReply = await resolve(sheetId, reply.id, true, people.reviewer);
     expect(byReply.status).toBe(400);
     expect((await byReply.json()).error.path).toBe('id');

@@ -1,6 +1,7 @@
 import type { APIRoute } from 'astro';
 import { fail } from '../../../../lib/result';
 import { can } from '../../../../lib/roles';
+import type { Identity } from '../../../../lib/server/access';
 import { respond } from '../../../../lib/server/http';
 import { BODY_LIMITS, parseJsonBody } from '../../../../lib/server/request-body';
 import { addComment, listComments, resolveRemark } from '../../../../lib/server/reviews';
@@ -8,11 +9,17 @@ import { requireSheet } from '../../../../lib/server/sheet-access';
 import { getRevision } from '../../../../lib/server/sheets';
 import { commentBody, remarkResolution } from '../../../../lib/validation/reviews';
 
+/** A checker of the sheet's team may resolve any remark; others only those on revisions they wrote. */
+function mayCheck(identity: Identity, teamId: string): boolean {
+  const role = identity.memberships.find((m) => m.teamId === teamId)?.role;
+  return role !== undefined && can(role, 'sheet.review');
+}
+
 export const GET = (async ({ params, locals }) => {
   const access = await requireSheet(locals.identity, params.sheetId, 'sheet.read');
   if (!access.ok) return respond(access);
-  const { database, sheet } = access.value;
-  return Response.json({ items: await listComments(database, sheet.id) });
+  const { database, sheet, identity } = access.value;
+  return Response.json({ items: await listComments(database, sheet.id, { userId: identity.user.id, mayCheck: mayCheck(identity, sheet.teamId) }) });
 }) satisfies APIRoute;
 
 export const POST = (async ({ params, request, locals, clientAddress }) => {
@@ -34,7 +41,5 @@ export const PATCH = (async ({ params, request, locals, clientAddress }) => {
   const { database, sheet, identity } = access.value;
   const body = await parseJsonBody(request, remarkResolution, BODY_LIMITS.form);
   if (!body.ok) return respond(body);
-  const role = identity.memberships.find((m) => m.teamId === sheet.teamId)?.role;
-  const mayCheck = role !== undefined && can(role, 'sheet.review');
-  return respond(await resolveRemark(database, { sheet, ...body.value, mayCheck, actor: { userId: identity.user.id, address: clientAddress } }), 200);
+  return respond(await resolveRemark(database, { sheet, ...body.value, mayCheck: mayCheck(identity, sheet.teamId), actor: { userId: identity.user.id, address: clientAddress } }), 200);
 }) satisfies APIRoute;
