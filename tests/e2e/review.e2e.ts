@@ -15,7 +15,7 @@ afterAll(async () => {
 });
 
 describe('a checker on a sheet', () => {
-  it('remarks, signs the revision as checked, and the title block shows who checked it and when; the author is mailed; a viewer can only read', async () => {
+  it('remarks, resolves the remark, signs the revision as checked, and the title block shows who checked it and when; the author is mailed; a viewer can only read', async () => {
     const page = await browser.newPage({ viewport: { width: 1400, height: 1000 } });
     await signIn(page, 'reviewer@fenwick.example', DEMO_PASSWORD);
     const me = await (await page.request.get(`${baseUrl()}/api/me`)).json();
@@ -32,6 +32,8 @@ describe('a checker on a sheet', () => {
     await panel.getByRole('button', { name: 'Add remark' }).click();
     await expect.poll(() => panel.locator('[data-comment]').count()).toBe(1);
     await expect.poll(() => panel.locator('[data-comment] [data-remark-body] .katex').count()).toBeGreaterThan(0);
+    await panel.locator('[data-comment]').getByRole('button', { name: 'Resolve' }).click();
+    await expect.poll(() => panel.locator('[data-comment]').getAttribute('data-resolved')).toBe('true');
     await panel.getByRole('button', { name: /Sign revision \d+ as checked/ }).click();
 
     // Signing loads the page again, so the title block reads the signature.
