@@ -133,7 +133,7 @@ export const sheetRevisions = sqliteTable(
     summary: text('summary', { mode: 'json' }).$type<SheetSummary>(),
     message: text('message').notNull().default(''),
     authorId: text('author_id').references(() => users.id, { onDelete: 'set null' }),
-    /** The latest verdict on this revision; a sheet's state is its latest revision's, so an approval never covers later saves. */
+    /** The latest signature on this revision; a sheet's state is its latest revision's, so a check never covers later saves. */
     reviewState: text('review_state', { enum: REVIEW_STATES }).notNull().default('draft'),
     createdAt: createdAt(),
   },
@@ -149,6 +149,10 @@ export const comments = sqliteTable('comments', {
   authorId: text('author_id').references(() => users.id, { onDelete: 'set null' }),
   anchor: text('anchor'),
   body: text('body').notNull(),
+  /** The remark this one answers; replies stay on their thread's revision. */
+  parentId: text('parent_id'),
+  resolvedAt: integer('resolved_at', { mode: 'timestamp_ms' }),
+  resolvedById: text('resolved_by_id').references(() => users.id, { onDelete: 'set null' }),
   createdAt: createdAt(),
 });
 
@@ -159,7 +163,7 @@ export const reviews = sqliteTable('reviews', {
     .references(() => sheets.id, { onDelete: 'cascade' }),
   revision: integer('revision').notNull(),
   reviewerId: text('reviewer_id').references(() => users.id, { onDelete: 'set null' }),
-  verdict: text('verdict', { enum: ['approved', 'changes-requested'] }).notNull(),
+  verdict: text('verdict', { enum: ['checked', 'returned'] }).notNull(),
   body: text('body').notNull().default(''),
   createdAt: createdAt(),
 });

@@ -1,7 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
 import { DEMO_PASSWORD } from '../../src/lib/server/demo';
-import { baseUrl, launchBrowser, saveScreenshot, signIn } from './browser';
+import { waitForMailboxMail } from '../helpers/mail';
+import { baseUrl, launchBrowser, mailboxDir, saveScreenshot, signIn } from './browser';
 
 let browser: Browser;
 
@@ -13,33 +14,43 @@ afterAll(async () => {
   await browser?.close();
 });
 
-describe('a reviewer on a sheet', () => {
-  it('comments, approves the revision and sees the status change; a viewer can only read', async () => {
+describe('a checker on a sheet', () => {
+  it('remarks, resolves the remark, signs the revision as checked, and the title block shows who checked it and when; the author is mailed; a viewer can only read', async () => {
     const page = await browser.newPage({ viewport: { width: 1400, height: 1000 } });
     await signIn(page, 'reviewer@fenwick.example', DEMO_PASSWORD);
     const me = await (await page.request.get(`${baseUrl()}/api/me`)).json();
     const list = await (await page.request.get(`${baseUrl()}/api/sheets?team=${me.currentTeam}&q=${encodeURIComponent('Capsule pin')}`)).json();
-    const sheetId = list.items[0].id as string;
+    const sheet = list.items[0] as { id: string; title: string; latestRevision: number };
 
-    await page.goto(`${baseUrl()}/sheets/${sheetId}`, { waitUntil: 'networkidle' });
+    await page.goto(`${baseUrl()}/sheets/${sheet.id}`, { waitUntil: 'networkidle' });
     const panel = page.locator('[data-review-panel]');
     await panel.scrollIntoViewIfNeeded();
     // The status is fetched by the island, so seeing it means the island is live.
-    await expect.poll(() => panel.locator('[data-review-status]').innerText()).toMatch(/Status: (draft|approved|changes-requested)/);
-    await panel.locator('textarea').fill('Roll rates checked against the hand calculation; within limits.');
-    await panel.getByRole('button', { name: 'Comment' }).click();
+    await expect.poll(() => panel.locator('[data-review-status]').innerText()).toMatch(/Status: (draft|checked|returned for correction)/);
+    await panel.getByLabel('about').selectOption('results');
+    await panel.locator('textarea').fill('Roll rates checked against $\\dot\\theta = v_t / r$; within limits.');
+    await panel.getByRole('button', { name: 'Add remark' }).click();
     await expect.poll(() => panel.locator('[data-comment]').count()).toBe(1);
-    await panel.getByRole('button', { name: /Approve revision/ }).click();
-    await expect.poll(() => panel.locator('[data-review-status]').innerText()).toContain('approved');
-    await expect.poll(() => panel.locator('[data-last-approved]').innerText()).toMatch(/last approved revision \d+/);
-    await saveScreenshot(page, 'review-approved');
-    // The title block states the latest revision's review state once the page is loaded again.
-    await page.reload({ waitUntil: 'networkidle' });
-    await expect(page.locator('[data-title-block] [data-review-state]').innerText()).resolves.toBe('approved');
+    await expect.poll(() => panel.locator('[data-comment] [data-remark-body] .katex').count()).toBeGreaterThan(0);
+    await panel.locator('[data-comment]').getByRole('button', { name: 'Resolve' }).click();
+    await expect.poll(() => panel.locator('[data-comment]').getAttribute('data-resolved')).toBe('true');
+    await panel.getByRole('button', { name: /Sign revision \d+ as checked/ }).click();
+
+    // Signing loads the page again, so the title block reads the signature.
+    await expect.poll(() => page.locator('[data-title-block] [data-checked-by]').innerText(), { timeout: 15_000 }).toBe('Mei Arroyo');
+    const today = new Date().toISOString().slice(0, 10);
+    await expect(page.locator('[data-title-block] [data-checked-on]').innerText()).resolves.toBe(today);
+    await expect(page.locator('[data-title-block] [data-review-state]').innerText()).resolves.toBe('checked');
+    await page.locator('[data-review-panel]').scrollIntoViewIfNeeded();
+    await expect.poll(() => page.locator('[data-review-panel] [data-last-checked]').innerText()).toMatch(/last checked revision \d+/);
+    await saveScreenshot(page, 'revision-checked');
+
+    const mail = await waitForMailboxMail(mailboxDir(), 'editor@fenwick.example', { subject: `Checked: ${sheet.title}, rev. ${sheet.latestRevision}` });
+    expect(mail.text).toContain(`Mei Arroyo signed revision ${sheet.latestRevision} of "${sheet.title}" as checked.`);
 
     const viewer = await browser.newPage();
     await signIn(viewer, 'viewer@fenwick.example', DEMO_PASSWORD);
-    await viewer.goto(`${baseUrl()}/sheets/${sheetId}`, { waitUntil: 'networkidle' });
+    await viewer.goto(`${baseUrl()}/sheets/${sheet.id}`, { waitUntil: 'networkidle' });
     const viewerPanel = viewer.locator('[data-review-panel]');
     await viewerPanel.scrollIntoViewIfNeeded();
     await expect.poll(() => viewerPanel.locator('[data-comment]').count()).toBe(1);

@@ -47,6 +47,9 @@ describe('sheet list, history and comparison', () => {
     const fork = page.locator('tr[data-sheet-title="Peg: tilt with 16 mm rollers"]');
     expect(await fork.getByTestId('forked-from').innerText()).toMatch(/forked from Peg: tilt about the grip line r3/);
     expect(await page.locator('tr[data-sheet-title="Peg: tilt about the grip line"] td').nth(3).innerText()).toBe('r3');
+    // The demo checker signed the peg sheet's revision 3 as checked and returned the retrofit sheet's revision 2.
+    expect(await page.locator('tr[data-sheet-title="Peg: tilt about the grip line"] [data-review-badge]').innerText()).toBe('checked r3');
+    expect(await page.locator('tr[data-sheet-title="Retrofit fingers: mounting review"] [data-review-badge]').innerText()).toBe('returned for correction r2');
     expect(await page.locator('[data-worst]').count()).toBe(titles.length);
     expect(await page.getByTestId('new-sheet').getAttribute('href')).toBe('/sheets/new');
     await saveScreenshot(page, 'sheet-list');

@@ -150,9 +150,10 @@ function Editor({ data }: { data: SheetPageData }) {
           latestRevision={Math.max(latestRevision, base.revision)}
           author={data.revision.authorName}
           checkedBy={data.checkedBy}
+          checkedAt={data.checkedAt}
           date={data.revision.createdAt}
           reviewState={data.sheet.reviewState}
-          lastApprovedRevision={data.sheet.lastApprovedRevision}
+          lastCheckedRevision={data.sheet.lastCheckedRevision}
           forkedFrom={data.forkedFrom}
           forks={data.forks}
           dirty={dirty}

@@ -1,4 +1,4 @@
-import type { ReviewState, SheetLink } from '../../lib/contract';
+import { REVIEW_STATE_LABELS, type ReviewState, type SheetLink } from '../../lib/contract';
 import { SafetyCaution } from './SafetyCaution';
 
 interface TitleBlockProps {
@@ -7,11 +7,13 @@ interface TitleBlockProps {
   revision: number;
   latestRevision: number;
   author: string | null;
+  /** Who signed this revision as checked and when (ISO 8601), while its latest signature is a check. */
   checkedBy: string | null;
+  checkedAt: string | null;
   date: string;
-  /** The latest revision's review state, and the newest revision that stands approved. */
+  /** The latest revision's checking state, and the newest revision that stands checked. */
   reviewState: ReviewState;
-  lastApprovedRevision: number | null;
+  lastCheckedRevision: number | null;
   forkedFrom: SheetLink | null;
   forks: SheetLink[];
   dirty: boolean;
@@ -30,6 +32,7 @@ function Cell({ label, children, wide, span3 }: { label: string; children: React
 export default function TitleBlock(props: TitleBlockProps) {
   const { sheetId, revision, latestRevision } = props;
   const date = new Date(props.date);
+  const checkedAt = props.checkedAt ? new Date(props.checkedAt) : null;
   const links = [
     { href: `/sheets/${sheetId}/history`, label: 'History' },
     { href: `/sheets/${sheetId}/compare?from=${Math.max(1, revision - 1)}&to=${revision}`, label: 'Compare' },
@@ -54,20 +57,27 @@ export default function TitleBlock(props: TitleBlockProps) {
           </span>
         </Cell>
         <Cell label="Author">{props.author ?? '—'}</Cell>
-        <Cell label="Checked by">{props.checkedBy ?? '—'}</Cell>
+        <Cell label="Checked by">
+          <span data-checked-by>{props.checkedBy ?? '—'}</span>
+          {checkedAt && !Number.isNaN(checkedAt.getTime()) && (
+            <time className="num ml-1 text-xs font-normal text-graphite" dateTime={props.checkedAt ?? undefined} data-checked-on>
+              {checkedAt.toISOString().slice(0, 10)}
+            </time>
+          )}
+        </Cell>
         <Cell label="Date">
           <time className="num" dateTime={props.date}>
             {Number.isNaN(date.getTime()) ? '—' : date.toISOString().slice(0, 10)}
           </time>
         </Cell>
         <Cell label="Status">
-          <span data-review-state>{props.reviewState}</span>
-          <span className="ml-1 text-xs font-normal text-graphite" data-last-approved>
-            {props.lastApprovedRevision === null
-              ? '· never approved'
-              : props.lastApprovedRevision === latestRevision
+          <span data-review-state={props.reviewState}>{REVIEW_STATE_LABELS[props.reviewState]}</span>
+          <span className="ml-1 text-xs font-normal text-graphite" data-last-checked>
+            {props.lastCheckedRevision === null
+              ? '· never checked'
+              : props.lastCheckedRevision === latestRevision
                 ? ''
-                : `· last approved rev. ${props.lastApprovedRevision}`}
+                : `· last checked rev. ${props.lastCheckedRevision}`}
           </span>
         </Cell>
         <Cell label="Origin" wide>

@@ -2,7 +2,7 @@ import { keepPreviousData, useQuery } from '@tanstack/react-query';
 import { createColumnHelper, flexRender, getCoreRowModel, useReactTable, type SortingState } from '@tanstack/react-table';
 import { useEffect, useMemo, useState } from 'react';
 import { formatWhen, requestJson } from '../../lib/client/api';
-import type { SheetListPage, SheetRow, Wire } from '../../lib/contract';
+import { REVIEW_STATE_LABELS, type SheetListPage, type SheetRow, type Wire } from '../../lib/contract';
 import { SHEET_SORTS, WARNING_FILTERS } from '../../lib/validation/sheets';
 import { inputClass, labelClass, primaryButton, secondaryButton } from '../form-parts';
 import QueryRoot from '../QueryRoot';
@@ -119,13 +119,15 @@ function useColumns() {
         ),
       }),
       column.accessor('reviewState', {
-        header: 'Review',
+        header: 'Checking',
         enableSorting: false,
         cell: ({ row, getValue }) => (
-          <span className="text-xs whitespace-nowrap" data-review-badge>
-            <span className={`border px-1.5 ${getValue() === 'approved' ? 'border-verdigris' : getValue() === 'changes-requested' ? 'border-ochre' : 'border-rule'}`}>{getValue()}</span>
-            {row.original.lastApprovedRevision !== null && row.original.lastApprovedRevision !== row.original.latestRevision && (
-              <span className="ml-1 text-graphite num">approved r{row.original.lastApprovedRevision}</span>
+          <span className="text-xs whitespace-nowrap" data-review-badge={getValue()}>
+            <span className={`border px-1.5 ${getValue() === 'checked' ? 'border-verdigris' : getValue() === 'returned' ? 'border-ochre' : 'border-rule'}`}>
+              {REVIEW_STATE_LABELS[getValue()]} <span className="num">r{row.original.latestRevision}</span>
+            </span>
+            {row.original.lastCheckedRevision !== null && row.original.lastCheckedRevision !== row.original.latestRevision && (
+              <span className="ml-1 text-graphite num">checked r{row.original.lastCheckedRevision}</span>
             )}
           </span>
         ),

@@ -7,9 +7,9 @@ export interface SheetRow {
   id: string;
   title: string;
   tags: string[];
-  /** The latest revision's review state, and the newest revision that stands approved. */
+  /** The latest revision's checking state, and the newest revision that stands checked. */
   reviewState: ReviewState;
-  lastApprovedRevision: number | null;
+  lastCheckedRevision: number | null;
   latestRevision: number;
   forkedFromSheetId: string | null;
   forkedFromRevision: number | null;
@@ -38,11 +38,13 @@ export interface SheetLink {
 
 /** Everything the sheet page shows in its title block and hands to the editor. */
 export interface SheetPageData {
-  /** `reviewState` is the latest revision's; `lastApprovedRevision` the newest revision that stands approved. */
-  sheet: { id: string; teamId: string; title: string; reviewState: ReviewState; lastApprovedRevision: number | null; latestRevision: number };
+  /** `reviewState` is the latest revision's; `lastCheckedRevision` the newest revision that stands checked. */
+  sheet: { id: string; teamId: string; title: string; reviewState: ReviewState; lastCheckedRevision: number | null; latestRevision: number };
   revision: { number: number; authorName: string | null; createdAt: string; message: string; inputs: unknown };
-  /** Reviewer who approved this revision, if any. */
+  /** Checker who signed this revision as checked, if its latest signature is a check. */
   checkedBy: string | null;
+  /** When that signature was made (ISO 8601), or null. */
+  checkedAt: string | null;
   forkedFrom: SheetLink | null;
   forks: SheetLink[];
   canEdit: boolean;

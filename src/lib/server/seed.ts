@@ -1,8 +1,8 @@
 import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
-import { count } from 'drizzle-orm';
 import type { Database } from '../../db';
-import { auditEvents, memberships, sheetRevisions, sheets, teams } from '../../db/schema';
+import { and, count, eq } from 'drizzle-orm';
+import { auditEvents, comments, memberships, reviews, sheetRevisions, sheets, teams } from '../../db/schema';
 import { DEMO_PASSWORD, DEMO_SHEETS_FOLDER, DEMO_TEAM, DEMO_USERS } from './demo';
 import { hashPassword } from './passwords';
 import { checkDocument } from './sheets';
@@ -83,6 +83,52 @@ const DEMO_FORKED_FILES: Record<string, { from: string; revision: number; messag
     message: 'Retrofit fingers fitted as found on the cell: three mounting faults',
   },
 };
+
+/** A remark the demo checker leaves on a signed revision, with the author's replies and whether the thread is resolved. */
+interface DemoRemark {
+  anchor: string;
+  body: string;
+  replies: string[];
+  resolved: boolean;
+}
+
+/** The demo checker's signatures: one revision checked, one returned for correction with remarks. */
+const DEMO_CHECKING: { file: string; revision: number; verdict: 'checked' | 'returned'; note: string; remarks: DemoRemark[] }[] = [
+  {
+    file: 'line4-peg-tilt.json',
+    revision: 3,
+    verdict: 'checked',
+    note: 'Roll rates recomputed by hand for the tilt; both fingers agree with the sheet.',
+    remarks: [
+      {
+        anchor: 'results',
+        body: 'Left roll rate checked by hand as $\\dot\\theta_r = v_t / r$ (tangential contact speed over roller radius): agrees with the results.',
+        replies: ['Thanks, same figure from the controller trace.'],
+        resolved: true,
+      },
+    ],
+  },
+  {
+    file: 'line4-retrofit-finger-review.json',
+    revision: 2,
+    verdict: 'returned',
+    note: 'Returned: the mounting faults change the contact normals; see the remarks on the hand and the results.',
+    remarks: [
+      {
+        anchor: 'hand',
+        body: 'The north finger\'s pivot point is entered **1.5 mm** off the mounting drawing. Please correct it before the roll rates are read.',
+        replies: ['Measured on the cell, not the drawing; I will add the drawing value as a second case.'],
+        resolved: false,
+      },
+      {
+        anchor: 'results',
+        body: 'The pivot rates run close to their limit through the turn: is $\\omega_{max} = 6$ rad/s the retrofit motor\'s figure?',
+        replies: [],
+        resolved: false,
+      },
+    ],
+  },
+];
 
 const DAY = 24 * 60 * 60 * 1000;
 
@@ -197,6 +243,35 @@ export async function seedDemoData(database: Database, sheetsFolder = DEMO_SHEET
       for (const edit of fork.edits) revisions.push({ document: applyEdit(revisions[revisions.length - 1].document, edit.set), message: edit.message });
       const tags = (copied as DemoSheetFile).tags ?? [];
       await insertSheet(`${fork.from} fork`, fork.title, tags, revisions, { sheetId: source.sheetId, revision: fork.revision });
+    }
+    const checker = created[DEMO_USERS.findIndex((u) => u.role === 'reviewer')];
+    for (const check of DEMO_CHECKING) {
+      const sheet = stored.get(check.file);
+      if (!sheet) continue;
+      const revisionAuthor = DEMO_FORKED_FILES[check.file] ? owner : author;
+      const signedAt = tick();
+      await tx.insert(reviews).values({ sheetId: sheet.sheetId, revision: check.revision, reviewerId: checker.id, verdict: check.verdict, body: check.note, createdAt: signedAt });
+      await tx
+        .update(sheetRevisions)
+        .set({ reviewState: check.verdict })
+        .where(and(eq(sheetRevisions.sheetId, sheet.sheetId), eq(sheetRevisions.number, check.revision)));
+      for (const remark of check.remarks) {
+        const [opening] = await tx
+          .insert(comments)
+          .values({
+            sheetId: sheet.sheetId,
+            revision: check.revision,
+            authorId: checker.id,
+            anchor: remark.anchor,
+            body: remark.body,
+            createdAt: signedAt,
+            ...(remark.resolved ? { resolvedAt: tick(), resolvedById: checker.id } : {}),
+          })
+          .returning({ id: comments.id });
+        for (const reply of remark.replies) {
+          await tx.insert(comments).values({ sheetId: sheet.sheetId, revision: check.revision, authorId: revisionAuthor.id, anchor: remark.anchor, body: reply, parentId: opening.id, createdAt: tick() });
+        }
+      }
     }
     sheetCount = stored.size;
     await tx.insert(auditEvents).values({ teamId: team.id, action: 'demo.seed', detail: { sheets: sheetCount } });

@@ -1,7 +1,7 @@
 import { and, desc, eq } from 'drizzle-orm';
 import type { Database } from '../../db';
 import { reviews, users } from '../../db/schema';
-import type { ReviewState, SheetPageData } from '../contract';
+import type { SheetPageData } from '../contract';
 import { fail, succeed, type Result } from '../result';
 import { can } from '../roles';
 import type { Identity } from './access';
@@ -11,16 +11,16 @@ import { sheetQuery } from '../validation/sheet-exchange';
 
 type SheetRow = NonNullable<Awaited<ReturnType<typeof findSheet>>>;
 
-/** The latest approving reviewer of one revision. */
-async function findApprover(database: Database, sheetId: string, revision: number): Promise<string | null> {
+/** Who signed one revision as checked, and when: only while that revision's latest signature is a check. */
+async function findChecker(database: Database, sheetId: string, revision: number): Promise<{ name: string; at: string } | null> {
   const [row] = await database.db
-    .select({ name: users.name, email: users.email })
+    .select({ verdict: reviews.verdict, createdAt: reviews.createdAt, name: users.name, email: users.email })
     .from(reviews)
     .leftJoin(users, eq(users.id, reviews.reviewerId))
-    .where(and(eq(reviews.sheetId, sheetId), eq(reviews.revision, revision), eq(reviews.verdict, 'approved')))
+    .where(and(eq(reviews.sheetId, sheetId), eq(reviews.revision, revision)))
     .orderBy(desc(reviews.createdAt))
     .limit(1);
-  return row ? (row.name ?? row.email ?? 'reviewer') : null;
+  return row?.verdict === 'checked' ? { name: row.name ?? row.email ?? 'checker', at: new Date(row.createdAt).toISOString() } : null;
 }
 
 /**
@@ -35,8 +35,9 @@ export async function loadSheetPage(database: Database, identity: Identity, shee
   const readable = identity.memberships.filter((m) => can(m.role, 'sheet.read')).map((m) => m.teamId);
   const origin = sheet.forkedFromSheetId ? await findSheet(database, sheet.forkedFromSheetId) : null;
   const forks = await listForks(database, sheet.id, readable);
+  const checker = await findChecker(database, sheet.id, revision.number);
   return succeed({
-      sheet: { id: sheet.id, teamId: sheet.teamId, title: sheet.title, reviewState: sheet.reviewState, lastApprovedRevision: sheet.lastApprovedRevision, latestRevision: sheet.latestRevision },
+      sheet: { id: sheet.id, teamId: sheet.teamId, title: sheet.title, reviewState: sheet.reviewState, lastCheckedRevision: sheet.lastCheckedRevision, latestRevision: sheet.latestRevision },
       revision: {
         number: revision.number,
         authorName: revision.authorName,
@@ -44,7 +45,8 @@ export async function loadSheetPage(database: Database, identity: Identity, shee
         message: revision.message,
         inputs: revision.inputs,
       },
-      checkedBy: await findApprover(database, sheet.id, revision.number),
+      checkedBy: checker?.name ?? null,
+      checkedAt: checker?.at ?? null,
       forkedFrom:
         origin && readable.includes(origin.teamId)
           ? { id: origin.id, title: origin.title, revision: sheet.forkedFromRevision ?? 1 }

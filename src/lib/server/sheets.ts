@@ -196,13 +196,13 @@ export async function deleteSheet(database: Database, sheetId: string, actor: Ac
 
 /** The review state of a sheet's latest revision: review state belongs to revisions, and a sheet shows its latest one's. */
 const latestReviewState = sql<ReviewState>`coalesce((SELECT r.review_state FROM sheet_revisions r WHERE r.sheet_id = "sheets"."id" AND r.number = "sheets"."latest_revision"), 'draft')`;
-/** The newest revision of a sheet that stands approved, or null. Names are written out: Drizzle leaves columns unqualified in a one-table select, which a correlated subquery would misread. */
-const lastApprovedRevision = sql<number | null>`(SELECT max(r.number) FROM sheet_revisions r WHERE r.sheet_id = "sheets"."id" AND r.review_state = 'approved')`;
+/** The newest revision of a sheet that stands checked, or null. Names are written out: Drizzle leaves columns unqualified in a one-table select, which a correlated subquery would misread. */
+const lastCheckedRevision = sql<number | null>`(SELECT max(r.number) FROM sheet_revisions r WHERE r.sheet_id = "sheets"."id" AND r.review_state = 'checked')`;
 
-/** Where a sheet stands in review: its latest revision's state and the last approved revision. */
+/** Where a sheet stands in review: its latest revision's state and the last checked revision. */
 export async function findReviewState(db: DrizzleDb | Transaction, sheetId: string) {
   const [row] = await db
-    .select({ latestRevision: sheets.latestRevision, reviewState: latestReviewState, lastApprovedRevision })
+    .select({ latestRevision: sheets.latestRevision, reviewState: latestReviewState, lastCheckedRevision })
     .from(sheets)
     .where(eq(sheets.id, sheetId));
   return row ?? null;
@@ -211,7 +211,7 @@ export async function findReviewState(db: DrizzleDb | Transaction, sheetId: stri
 /** A live sheet by id with where it stands in review, or null when it does not exist or was deleted. */
 export async function findSheet(database: Database, sheetId: string) {
   const [sheet] = await database.db
-    .select({ ...getTableColumns(sheets), reviewState: latestReviewState, lastApprovedRevision })
+    .select({ ...getTableColumns(sheets), reviewState: latestReviewState, lastCheckedRevision })
     .from(sheets)
     .where(and(eq(sheets.id, sheetId), isNull(sheets.deletedAt)));
   return sheet ?? null;
@@ -335,7 +335,7 @@ export async function listSheets(database: Database, query: ListSheetsQuery): Pr
         title: sheets.title,
         tags: sheets.tags,
         reviewState: latestReviewState,
-        lastApprovedRevision,
+        lastCheckedRevision,
         latestRevision: sheets.latestRevision,
         forkedFromSheetId: sheets.forkedFromSheetId,
         forkedFromRevision: sheets.forkedFromRevision,

@@ -7,7 +7,7 @@ import { roleField } from './team';
 export const ROLE_SUMMARIES: Record<Role, string> = {
   owner: 'everything, including inviting people and setting roles',
   editor: 'create, edit and fork sheets, and comment',
-  reviewer: 'read and comment, approve revisions, upload controller logs',
+  reviewer: 'read and remark, sign revisions as checked or return them, upload controller logs',
   viewer: 'read sheets',
 };
 

@@ -32,7 +32,7 @@ afterAll(() => database.close());
 describe('writes and their audit events commit together', () => {
   it('a review: no verdict and no changed review state without its event, both with it', async () => {
     const sheet = (await findSheet(database, sheetId))!;
-    const input = { sheet, revision: 1, verdict: 'approved' as const, body: 'Checked.', actor: { userId } };
+    const input = { sheet, revision: 1, verdict: 'checked' as const, body: 'Checked.', actor: { userId } };
     await refuseAudit();
     await expect(submitReview(database, input)).rejects.toThrow();
     expect(await database.db.select().from(reviews).where(eq(reviews.sheetId, sheetId))).toEqual([]);
@@ -42,7 +42,7 @@ describe('writes and their audit events commit together', () => {
     await database.client.execute('DROP TRIGGER refuse_audit');
     await submitReview(database, input);
     expect(await database.db.select().from(reviews).where(eq(reviews.sheetId, sheetId))).toHaveLength(1);
-    expect(await events('sheet.approve')).toMatchObject([{ subject: sheetId, actorId: userId, detail: { revision: 1 } }]);
+    expect(await events('sheet.check')).toMatchObject([{ subject: sheetId, actorId: userId, detail: { revision: 1 } }]);
   });
 
   it('a comment: none stored without its event, both with it', async () => {

@@ -2,7 +2,8 @@ import { and, eq, isNull } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
 import { sheets } from '../../../src/db/schema';
 import { getDatabase } from '../../../src/lib/server/database';
-import { listForks, listRevisions } from '../../../src/lib/server/sheets';
+import { listComments, listReviews } from '../../../src/lib/server/reviews';
+import { findSheet, listForks, listRevisions } from '../../../src/lib/server/sheets';
 import { WARNING_CATALOGUE } from '../../../src/lib/kinematics';
 import { demoTeamId } from '../../helpers/api-context';
 
@@ -38,5 +39,25 @@ describe('demo sheets seeded into the run database', () => {
       for (const code of latest.summary?.warningCodes ?? []) codes.add(code);
     }
     expect([...codes].sort()).toEqual(Object.keys(WARNING_CATALOGUE).sort());
+  });
+
+  it('hold a checked revision and one returned for correction with threaded remarks', async () => {
+    const database = await getDatabase();
+    const teamId = await demoTeamId();
+    const all = await database.db.select().from(sheets).where(and(eq(sheets.teamId, teamId), isNull(sheets.deletedAt)));
+    const byTitle = (title: string) => all.find((s) => s.title === title)!;
+    const peg = byTitle('Peg: tilt about the grip line');
+    expect(await findSheet(database, peg.id)).toMatchObject({ reviewState: 'checked', lastCheckedRevision: 3 });
+    expect(await listReviews(database, peg.id)).toEqual([expect.objectContaining({ revision: 3, verdict: 'checked', reviewerName: 'Mei Arroyo' })]);
+
+    const retrofit = byTitle('Retrofit fingers: mounting review');
+    expect(await findSheet(database, retrofit.id)).toMatchObject({ reviewState: 'returned', lastCheckedRevision: null });
+    const remarks = await listComments(database, retrofit.id, { userId: 'a reader who wrote nothing', mayCheck: false });
+    const openings = remarks.filter((c) => c.parentId === null);
+    expect(openings.map((c) => c.anchor)).toEqual(['hand', 'results']);
+    expect(remarks.filter((c) => c.parentId === openings[0].id)).toHaveLength(1);
+    expect(openings.every((c) => c.resolvedAt === null)).toBe(true);
+    expect(openings[1].html).toContain('class="katex"');
+    expect(remarks.some((c) => c.canResolve)).toBe(false);
   });
 });

@@ -2,7 +2,7 @@ import { readdirSync, readFileSync } from 'node:fs';
 import { join, sep } from 'node:path';
 import { eq, like } from 'drizzle-orm';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { invitations, sheets, users } from '../../../../src/db/schema';
+import { comments, invitations, sheets, users } from '../../../../src/db/schema';
 import type { Identity } from '../../../../src/lib/server/access';
 import { createApiToken, revokeApiToken } from '../../../../src/lib/server/api-tokens';
 import { getDatabase } from '../../../../src/lib/server/database';
@@ -349,6 +349,20 @@ const ROWS: Row[] = [
     expect: { none: 401, viewer: 403, reviewer: 201, editor: 201, owner: 201, token: 201, revoked: 401, other: 404 },
   },
   {
+    route: 'sheets/[sheetId]/comments.ts',
+    method: 'PATCH',
+    variant: "resolving a remark on a revision none of the callers wrote: checkers only",
+    prepare: async (fx) => {
+      const prepared = await scratchSheet(fx);
+      const database = await getDatabase();
+      const [remark] = await database.write((db) =>
+        db.insert(comments).values({ sheetId: prepared.params!.sheetId, revision: 1, body: 'Check the left roll rate.' }).returning({ id: comments.id }),
+      );
+      return { ...prepared, body: { id: remark.id, resolved: true } };
+    },
+    expect: { none: 401, viewer: 403, reviewer: 200, editor: 403, owner: 200, token: 403, revoked: 401, other: 404 },
+  },
+  {
     route: 'sheets/[sheetId]/reviews.ts',
     method: 'GET',
     prepare: (fx) => scratchSheet(fx),
@@ -357,7 +371,7 @@ const ROWS: Row[] = [
   {
     route: 'sheets/[sheetId]/reviews.ts',
     method: 'POST',
-    prepare: (fx) => scratchSheet(fx, { body: { revision: 1, verdict: 'approved', body: 'Numbers check out.' } }),
+    prepare: (fx) => scratchSheet(fx, { body: { revision: 1, verdict: 'checked', body: 'Numbers check out.' } }),
     expect: { none: 401, viewer: 403, reviewer: 201, editor: 403, owner: 201, token: 403, revoked: 401, other: 404 },
   },
   {

@@ -1,6 +1,7 @@
 import type { APIRoute } from 'astro';
 import { fail } from '../../../../lib/result';
 import { respond } from '../../../../lib/server/http';
+import { publicOrigin } from '../../../../lib/server/public-origin';
 import { BODY_LIMITS, parseJsonBody } from '../../../../lib/server/request-body';
 import { listReviews, submitReview } from '../../../../lib/server/reviews';
 import { requireSheet } from '../../../../lib/server/sheet-access';
@@ -14,12 +15,12 @@ export const GET = (async ({ params, locals }) => {
   return Response.json({
     status: sheet.reviewState,
     latestRevision: sheet.latestRevision,
-    lastApprovedRevision: sheet.lastApprovedRevision,
+    lastCheckedRevision: sheet.lastCheckedRevision,
     items: await listReviews(database, sheet.id),
   });
 }) satisfies APIRoute;
 
-export const POST = (async ({ params, request, locals, clientAddress }) => {
+export const POST = (async ({ params, request, url, locals, clientAddress }) => {
   const access = await requireSheet(locals.identity, params.sheetId, 'sheet.review');
   if (!access.ok) return respond(access);
   const { database, sheet, identity } = access.value;
@@ -27,6 +28,6 @@ export const POST = (async ({ params, request, locals, clientAddress }) => {
   if (!body.ok) return respond(body);
   const { revision } = body.value;
   if (!(await getRevision(database, sheet.id, revision))) return respond(fail({ kind: 'invalid', message: `Revision ${revision} does not exist.`, path: 'revision' }));
-  const review = await submitReview(database, { sheet, ...body.value, actor: { userId: identity.user.id, address: clientAddress } });
+  const review = await submitReview(database, { sheet, ...body.value, origin: publicOrigin(url), actor: { userId: identity.user.id, address: clientAddress } });
   return Response.json(review, { status: 201 });
 }) satisfies APIRoute;
