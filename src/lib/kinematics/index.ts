@@ -85,6 +85,8 @@ export { solveSteerAcceleration } from './steer-acceleration';
 export type { SteerAcceleration, SteerAccelerationStatus } from './steer-acceleration';
 export { runScene, runSheet, SOLUTION_KINDS, toPlainRunRecord, warningsAt } from './run';
 export type { RunOptions, RunRecord, RunStopReason } from './run';
+export { createRandom, nextGaussian } from './random';
+export type { RandomSource } from './random';
 export { sweepSheet, sweepValues } from './sweep';
 export type { SweepOptions, SweepRecord } from './sweep';
 export { ROTATION_METRICS } from './metrics';

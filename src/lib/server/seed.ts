@@ -1,9 +1,13 @@
+import { createHash, randomUUID } from 'node:crypto';
 import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
+import { Readable } from 'node:stream';
+import { gzipSync } from 'node:zlib';
 import type { Database } from '../../db';
 import { and, count, eq } from 'drizzle-orm';
-import { auditEvents, comments, memberships, reviews, sheetRevisions, sheets, teams } from '../../db/schema';
-import { DEMO_PASSWORD, DEMO_SHEETS_FOLDER, DEMO_TEAM, DEMO_USERS } from './demo';
+import { auditEvents, comments, memberships, reviews, sheetRevisions, sheets, teams, uploads } from '../../db/schema';
+import { DEMO_LOG_MAPPING_SUFFIX, DEMO_LOGS, DEMO_PASSWORD, DEMO_SHEETS_FOLDER, DEMO_TEAM, DEMO_USERS, demoLogText } from './demo';
+import type { LogStorage } from './log-storage';
 import { hashPassword } from './passwords';
 import { checkDocument } from './sheets';
 import { countUsers, createUsers } from './users';
@@ -12,6 +16,7 @@ export interface SeedOutcome {
   seeded: boolean;
   users: number;
   sheets: number;
+  logs: number;
 }
 
 interface DemoSheetFile {
@@ -156,125 +161,185 @@ function readDemoSheets(folder: string): { file: string; document: DemoSheetFile
   const dir = resolve(folder);
   if (!existsSync(dir)) return [];
   return readdirSync(dir)
-    .filter((file) => file.endsWith('.json'))
+    // Demo logs' mappings sit beside the sheets they belong to and are not sheets.
+    .filter((file) => file.endsWith('.json') && !file.endsWith(DEMO_LOG_MAPPING_SUFFIX))
     .sort()
     .map((file) => ({ file, document: JSON.parse(readFileSync(join(dir, file), 'utf8')) as DemoSheetFile }));
 }
 
-/** Seeds the invented demo team, its users in every role and its sheets, only into an empty database. */
-export async function seedDemoData(database: Database, sheetsFolder = DEMO_SHEETS_FOLDER): Promise<SeedOutcome> {
+/** A demo log's bytes as an upload would have sent them (gzip-compressed when the demo says so). */
+interface PreparedDemoLog {
+  sheetFile: string;
+  fileName: string;
+  contentType: 'text/csv' | 'application/gzip';
+  bytes: Buffer;
+  storageKey: string;
+  id: string;
+}
+
+/**
+ * Writes the demo controller logs into the log storage before the seed's transaction, so that
+ * their rows are inserted with everything else or not at all; the caller removes the stored bytes
+ * if the transaction fails.
+ */
+async function storeDemoLogs(storage: LogStorage, teamId: string, documents: Map<string, unknown>): Promise<PreparedDemoLog[]> {
+  const prepared: PreparedDemoLog[] = [];
+  for (const log of DEMO_LOGS) {
+    const document = documents.get(log.sheetFile);
+    if (!document) continue;
+    const checked = checkDocument(document);
+    if (!checked.ok) throw new Error(`Demo sheet ${log.sheetFile} is invalid: ${checked.error.path}: ${checked.error.message}`);
+    const text = Buffer.from(demoLogText(checked.value.doc, log), 'utf8');
+    const bytes = log.gzip ? gzipSync(text) : text;
+    const id = randomUUID();
+    const entry: PreparedDemoLog = { sheetFile: log.sheetFile, fileName: log.fileName, contentType: log.gzip ? 'application/gzip' : 'text/csv', bytes, storageKey: `${teamId}/${id}`, id };
+    prepared.push(entry);
+    await storage.put(entry.storageKey, Readable.from([bytes]));
+  }
+  return prepared;
+}
+
+/**
+ * Seeds the invented demo team, its users in every role, its sheets and (given a log storage) its
+ * controller logs, only into an empty database.
+ */
+export async function seedDemoData(database: Database, sheetsFolder = DEMO_SHEETS_FOLDER, logStorage?: LogStorage): Promise<SeedOutcome> {
   const existingUsers = await countUsers(database);
   const [{ n: existingTeams }] = await database.db.select({ n: count() }).from(teams);
-  if (existingUsers > 0 || existingTeams > 0) return { seeded: false, users: 0, sheets: 0 };
+  if (existingUsers > 0 || existingTeams > 0) return { seeded: false, users: 0, sheets: 0, logs: 0 };
 
   const passwordHash = await hashPassword(DEMO_PASSWORD);
   const demoSheets = readDemoSheets(sheetsFolder);
   let sheetCount = 0;
-  await database.transaction(async (tx) => {
-    const [team] = await tx.insert(teams).values(DEMO_TEAM).returning();
-    const created = await createUsers(
-      tx,
-      DEMO_USERS.map((u) => ({ name: u.name, email: u.email, passwordHash, emailVerified: new Date() })),
-    );
-    await tx.insert(memberships).values(
-      created.map((user, i) => ({ teamId: team.id, userId: user.id, role: DEMO_USERS[i].role })),
-    );
-    const author = created[DEMO_USERS.findIndex((u) => u.role === 'editor')];
-    const owner = created[DEMO_USERS.findIndex((u) => u.role === 'owner')];
-    // Demo history is spread over the past weeks so that lists sort and histories read naturally.
-    let clock = Date.now() - 30 * DAY;
-    const tick = () => new Date((clock += DAY / 3));
-    const stored = new Map<string, { sheetId: string; revisions: unknown[] }>();
-
-    const insertSheet = async (
-      name: string,
-      title: string,
-      tags: string[],
-      revisions: { document: unknown; message: string }[],
-      forkedFrom?: { sheetId: string; revision: number },
-    ) => {
-      const times = revisions.map(() => tick());
-      const [sheet] = await tx
-        .insert(sheets)
-        .values({
-          teamId: team.id,
-          title,
-          tags,
-          latestRevision: revisions.length,
-          createdBy: forkedFrom ? owner.id : author.id,
-          forkedFromSheetId: forkedFrom?.sheetId ?? null,
-          forkedFromRevision: forkedFrom?.revision ?? null,
-          createdAt: times[0],
-          updatedAt: times[times.length - 1],
-        })
-        .returning();
-      await tx.insert(sheetRevisions).values(
-        revisions.map((revision, i) => ({
-          sheetId: sheet.id,
-          number: i + 1,
-          parentRevision: i === 0 ? null : i,
-          ...checkedRevision(`${name} revision ${i + 1}`, revision.document),
-          message: revision.message,
-          authorId: forkedFrom ? owner.id : author.id,
-          createdAt: times[i],
-        })),
+  // The team's id is chosen here because the logs' storage keys carry it and are written before the transaction.
+  const teamId = randomUUID();
+  const demoLogs = logStorage ? await storeDemoLogs(logStorage, teamId, new Map(demoSheets.map(({ file, document }) => [file, document]))) : [];
+  try {
+    await database.transaction(async (tx) => {
+      const [team] = await tx.insert(teams).values({ id: teamId, ...DEMO_TEAM }).returning();
+      const created = await createUsers(
+        tx,
+        DEMO_USERS.map((u) => ({ name: u.name, email: u.email, passwordHash, emailVerified: new Date() })),
       );
-      stored.set(name, { sheetId: sheet.id, revisions: revisions.map((r) => r.document) });
-    };
+      await tx.insert(memberships).values(
+        created.map((user, i) => ({ teamId: team.id, userId: user.id, role: DEMO_USERS[i].role })),
+      );
+      const author = created[DEMO_USERS.findIndex((u) => u.role === 'editor')];
+      const owner = created[DEMO_USERS.findIndex((u) => u.role === 'owner')];
+      // Demo history is spread over the past weeks so that lists sort and histories read naturally.
+      let clock = Date.now() - 30 * DAY;
+      const tick = () => new Date((clock += DAY / 3));
+      const stored = new Map<string, { sheetId: string; revisions: unknown[] }>();
 
-    for (const { file, document } of demoSheets) {
-      const history = DEMO_HISTORY[file];
-      const revisions = history
-        ? [...history.earlier.map((edit) => ({ document: applyEdit(document, edit.set), message: edit.message })), { document, message: history.latest }]
-        : [{ document, message: 'Demo sheet' }];
-      const origin = DEMO_FORKED_FILES[file];
-      const source = origin ? stored.get(origin.from) : undefined;
-      if (origin && source) {
-        revisions.unshift({ document: source.revisions[origin.revision - 1], message: `Forked from revision ${origin.revision}` });
-        revisions[1].message = origin.message;
-      }
-      await insertSheet(file, document.title ?? file.replace(/\.json$/, ''), document.tags ?? [], revisions, source && origin ? { sheetId: source.sheetId, revision: origin.revision } : undefined);
-    }
-    for (const fork of DEMO_FORKS) {
-      const source = stored.get(fork.from);
-      if (!source) continue;
-      const copied = source.revisions[fork.revision - 1];
-      const revisions = [{ document: copied, message: `Forked from revision ${fork.revision}` }];
-      for (const edit of fork.edits) revisions.push({ document: applyEdit(revisions[revisions.length - 1].document, edit.set), message: edit.message });
-      const tags = (copied as DemoSheetFile).tags ?? [];
-      await insertSheet(`${fork.from} fork`, fork.title, tags, revisions, { sheetId: source.sheetId, revision: fork.revision });
-    }
-    const checker = created[DEMO_USERS.findIndex((u) => u.role === 'reviewer')];
-    for (const check of DEMO_CHECKING) {
-      const sheet = stored.get(check.file);
-      if (!sheet) continue;
-      const revisionAuthor = DEMO_FORKED_FILES[check.file] ? owner : author;
-      const signedAt = tick();
-      await tx.insert(reviews).values({ sheetId: sheet.sheetId, revision: check.revision, reviewerId: checker.id, verdict: check.verdict, body: check.note, createdAt: signedAt });
-      await tx
-        .update(sheetRevisions)
-        .set({ reviewState: check.verdict })
-        .where(and(eq(sheetRevisions.sheetId, sheet.sheetId), eq(sheetRevisions.number, check.revision)));
-      for (const remark of check.remarks) {
-        const [opening] = await tx
-          .insert(comments)
+      const insertSheet = async (
+        name: string,
+        title: string,
+        tags: string[],
+        revisions: { document: unknown; message: string }[],
+        forkedFrom?: { sheetId: string; revision: number },
+      ) => {
+        const times = revisions.map(() => tick());
+        const [sheet] = await tx
+          .insert(sheets)
           .values({
-            sheetId: sheet.sheetId,
-            revision: check.revision,
-            authorId: checker.id,
-            anchor: remark.anchor,
-            body: remark.body,
-            createdAt: signedAt,
-            ...(remark.resolved ? { resolvedAt: tick(), resolvedById: checker.id } : {}),
+            teamId: team.id,
+            title,
+            tags,
+            latestRevision: revisions.length,
+            createdBy: forkedFrom ? owner.id : author.id,
+            forkedFromSheetId: forkedFrom?.sheetId ?? null,
+            forkedFromRevision: forkedFrom?.revision ?? null,
+            createdAt: times[0],
+            updatedAt: times[times.length - 1],
           })
-          .returning({ id: comments.id });
-        for (const reply of remark.replies) {
-          await tx.insert(comments).values({ sheetId: sheet.sheetId, revision: check.revision, authorId: revisionAuthor.id, anchor: remark.anchor, body: reply, parentId: opening.id, createdAt: tick() });
+          .returning();
+        await tx.insert(sheetRevisions).values(
+          revisions.map((revision, i) => ({
+            sheetId: sheet.id,
+            number: i + 1,
+            parentRevision: i === 0 ? null : i,
+            ...checkedRevision(`${name} revision ${i + 1}`, revision.document),
+            message: revision.message,
+            authorId: forkedFrom ? owner.id : author.id,
+            createdAt: times[i],
+          })),
+        );
+        stored.set(name, { sheetId: sheet.id, revisions: revisions.map((r) => r.document) });
+      };
+
+      for (const { file, document } of demoSheets) {
+        const history = DEMO_HISTORY[file];
+        const revisions = history
+          ? [...history.earlier.map((edit) => ({ document: applyEdit(document, edit.set), message: edit.message })), { document, message: history.latest }]
+          : [{ document, message: 'Demo sheet' }];
+        const origin = DEMO_FORKED_FILES[file];
+        const source = origin ? stored.get(origin.from) : undefined;
+        if (origin && source) {
+          revisions.unshift({ document: source.revisions[origin.revision - 1], message: `Forked from revision ${origin.revision}` });
+          revisions[1].message = origin.message;
+        }
+        await insertSheet(file, document.title ?? file.replace(/\.json$/, ''), document.tags ?? [], revisions, source && origin ? { sheetId: source.sheetId, revision: origin.revision } : undefined);
+      }
+      for (const fork of DEMO_FORKS) {
+        const source = stored.get(fork.from);
+        if (!source) continue;
+        const copied = source.revisions[fork.revision - 1];
+        const revisions = [{ document: copied, message: `Forked from revision ${fork.revision}` }];
+        for (const edit of fork.edits) revisions.push({ document: applyEdit(revisions[revisions.length - 1].document, edit.set), message: edit.message });
+        const tags = (copied as DemoSheetFile).tags ?? [];
+        await insertSheet(`${fork.from} fork`, fork.title, tags, revisions, { sheetId: source.sheetId, revision: fork.revision });
+      }
+      const checker = created[DEMO_USERS.findIndex((u) => u.role === 'reviewer')];
+      for (const check of DEMO_CHECKING) {
+        const sheet = stored.get(check.file);
+        if (!sheet) continue;
+        const revisionAuthor = DEMO_FORKED_FILES[check.file] ? owner : author;
+        const signedAt = tick();
+        await tx.insert(reviews).values({ sheetId: sheet.sheetId, revision: check.revision, reviewerId: checker.id, verdict: check.verdict, body: check.note, createdAt: signedAt });
+        await tx
+          .update(sheetRevisions)
+          .set({ reviewState: check.verdict })
+          .where(and(eq(sheetRevisions.sheetId, sheet.sheetId), eq(sheetRevisions.number, check.revision)));
+        for (const remark of check.remarks) {
+          const [opening] = await tx
+            .insert(comments)
+            .values({
+              sheetId: sheet.sheetId,
+              revision: check.revision,
+              authorId: checker.id,
+              anchor: remark.anchor,
+              body: remark.body,
+              createdAt: signedAt,
+              ...(remark.resolved ? { resolvedAt: tick(), resolvedById: checker.id } : {}),
+            })
+            .returning({ id: comments.id });
+          for (const reply of remark.replies) {
+            await tx.insert(comments).values({ sheetId: sheet.sheetId, revision: check.revision, authorId: revisionAuthor.id, anchor: remark.anchor, body: reply, parentId: opening.id, createdAt: tick() });
+          }
         }
       }
-    }
-    sheetCount = stored.size;
-    await tx.insert(auditEvents).values({ teamId: team.id, action: 'demo.seed', detail: { sheets: sheetCount } });
-  });
-  return { seeded: true, users: DEMO_USERS.length, sheets: sheetCount };
+      for (const log of demoLogs) {
+        const sheet = stored.get(log.sheetFile);
+        if (!sheet) continue;
+        await tx.insert(uploads).values({
+          id: log.id,
+          teamId: team.id,
+          sheetId: sheet.sheetId,
+          uploaderId: author.id,
+          fileName: log.fileName,
+          contentType: log.contentType,
+          byteSize: log.bytes.byteLength,
+          sha256: createHash('sha256').update(log.bytes).digest('hex'),
+          storageKey: log.storageKey,
+          createdAt: tick(),
+        });
+      }
+      sheetCount = stored.size;
+      await tx.insert(auditEvents).values({ teamId: team.id, action: 'demo.seed', detail: { sheets: sheetCount, logs: demoLogs.length } });
+    });
+  } catch (error) {
+    for (const log of demoLogs) await logStorage!.delete(log.storageKey);
+    throw error;
+  }
+  return { seeded: true, users: DEMO_USERS.length, sheets: sheetCount, logs: demoLogs.length };
 }
