@@ -12,7 +12,7 @@ import { sheetQuery } from '../validation/sheet-exchange';
 type SheetRow = NonNullable<Awaited<ReturnType<typeof findSheet>>>;
 
 /** Who signed one revision as checked, and when: only while that revision's latest signature is a check. */
-async function findChecker(database: Database, sheetId: string, revision: number): Promise<{ name: string; at: string } | null> {
+export async function findChecker(database: Database, sheetId: string, revision: number): Promise<{ name: string; at: string } | null> {
   const [row] = await database.db
     .select({ verdict: reviews.verdict, createdAt: reviews.createdAt, name: users.name, email: users.email })
     .from(reviews)
