@@ -5,6 +5,7 @@ import { pathToFileURL } from 'node:url';
 import { DEFAULT_DATABASE_URL } from '../consts';
 import { prepareDatabase } from '../lib/server/bootstrap';
 import { edgeListener, parseTrustedProxies, type EdgeSettings, type NodeHandler } from '../lib/server/edge';
+import { logStorageFromEnvironment } from '../lib/server/log-storage-backends';
 import { localMailboxNotice, mailboxDir } from '../lib/server/local-mailbox';
 import { configuredPublicOrigin } from '../lib/server/public-origin';
 import { withStaticFiles } from '../lib/server/static-files';
@@ -22,11 +23,11 @@ try {
 const url = process.env.DATABASE_URL?.trim() || DEFAULT_DATABASE_URL;
 
 try {
-  const { database, seed } = await prepareDatabase(url);
+  const { database, seed } = await prepareDatabase(url, logStorageFromEnvironment(process.env));
   database.close();
   console.log(
     seed.seeded
-      ? `Slipless: new database at ${url}, seeded the demo team (${seed.users} users, ${seed.sheets} sheets).`
+      ? `Slipless: new database at ${url}, seeded the demo team (${seed.users} users, ${seed.sheets} sheets, ${seed.logs} controller logs).`
       : `Slipless: database at ${url} is up to date; existing data kept.`,
   );
 } catch (error) {

@@ -2,6 +2,7 @@ import { randomBytes } from 'node:crypto';
 import { eq, sql } from 'drizzle-orm';
 import { migrateDatabase, openDatabase, type Database } from '../../db';
 import { appMeta } from '../../db/schema';
+import type { LogStorage } from './log-storage-backends';
 import { seedDemoData, type SeedOutcome } from './seed';
 
 export class StartupError extends Error {}
@@ -51,14 +52,14 @@ export async function ensureAuthSecret(database: Database, env: NodeJS.ProcessEn
   return storedAuthSecret(database);
 }
 
-/** Opens, migrates, write-probes and (only when empty) seeds the database named by DATABASE_URL. */
-export async function prepareDatabase(url: string): Promise<{ database: Database; seed: SeedOutcome }> {
+/** Opens, migrates, write-probes and (only when empty) seeds the database named by DATABASE_URL; the demo logs go to `logStorage` when given. */
+export async function prepareDatabase(url: string, logStorage?: LogStorage): Promise<{ database: Database; seed: SeedOutcome }> {
   let database: Database | undefined;
   try {
     database = await openDatabase(url);
     await migrateDatabase(database);
     await recordStart(database);
-    const seed = await seedDemoData(database);
+    const seed = await seedDemoData(database, undefined, logStorage);
     await ensureAuthSecret(database);
     return { database, seed };
   } catch (error) {

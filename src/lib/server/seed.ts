@@ -7,7 +7,7 @@ import type { Database } from '../../db';
 import { and, count, eq } from 'drizzle-orm';
 import { auditEvents, comments, memberships, reviews, sheetRevisions, sheets, teams, uploads } from '../../db/schema';
 import { DEMO_LOG_MAPPING_SUFFIX, DEMO_LOGS, DEMO_PASSWORD, DEMO_SHEETS_FOLDER, DEMO_TEAM, DEMO_USERS, demoLogText } from './demo';
-import type { LogStorage } from './log-storage';
+import type { LogStorage } from './log-storage-backends';
 import { hashPassword } from './passwords';
 import { checkDocument } from './sheets';
 import { countUsers, createUsers } from './users';
