@@ -172,7 +172,7 @@ interface PreparedDemoLog {
   sheetFile: string;
   fileName: string;
   contentType: 'text/csv' | 'application/gzip';
-  bytes: Buffer;
+  bytes: Uint8Array;
   storageKey: string;
   id: string;
 }
@@ -189,8 +189,8 @@ async function storeDemoLogs(storage: LogStorage, teamId: string, documents: Map
     if (!document) continue;
     const checked = checkDocument(document);
     if (!checked.ok) throw new Error(`Demo sheet ${log.sheetFile} is invalid: ${checked.error.path}: ${checked.error.message}`);
-    const text = Buffer.from(demoLogText(checked.value.doc, log), 'utf8');
-    const bytes = log.gzip ? gzipSync(text) : text;
+    const text = new TextEncoder().encode(demoLogText(checked.value.doc, log));
+    const bytes = log.gzip ? new Uint8Array(gzipSync(text)) : text;
     const id = randomUUID();
     const entry: PreparedDemoLog = { sheetFile: log.sheetFile, fileName: log.fileName, contentType: log.gzip ? 'application/gzip' : 'text/csv', bytes, storageKey: `${teamId}/${id}`, id };
     prepared.push(entry);

@@ -16,10 +16,16 @@ import { seedDemoData } from '../../../src/lib/server/seed';
 import { checkDocument } from '../../../src/lib/server/sheets';
 import { makeTempDir, tempDatabaseUrl } from '../../helpers/temp';
 
-async function bytesOf(stream: Readable): Promise<Buffer> {
-  const chunks: Buffer[] = [];
-  for await (const chunk of stream) chunks.push(Buffer.from(chunk));
-  return Buffer.concat(chunks);
+async function bytesOf(stream: Readable): Promise<Uint8Array> {
+  const chunks: Uint8Array[] = [];
+  for await (const chunk of stream as AsyncIterable<Uint8Array>) chunks.push(chunk);
+  const bytes = new Uint8Array(chunks.reduce((size, chunk) => size + chunk.byteLength, 0));
+  let offset = 0;
+  for (const chunk of chunks) {
+    bytes.set(chunk, offset);
+    offset += chunk.byteLength;
+  }
+  return bytes;
 }
 
 function sheetOf(file: string) {
@@ -62,7 +68,7 @@ describe('demo controller logs', () => {
       // gzip's magic number 1f 8b (RFC 1952, section 2.3.1) on the compressed log only.
       expect(upload.contentType).toBe(log.gzip ? 'application/gzip' : 'text/csv');
       expect(bytes[0] === 0x1f && bytes[1] === 0x8b).toBe(log.gzip);
-      storedLogs.push({ fileName: log.fileName, text: (log.gzip ? gunzipSync(bytes) : bytes).toString('utf8') });
+      storedLogs.push({ fileName: log.fileName, text: new TextDecoder().decode(log.gzip ? new Uint8Array(gunzipSync(bytes)) : bytes) });
     }
   });
 
