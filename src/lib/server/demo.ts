@@ -41,12 +41,12 @@ export interface DemoLog {
   /** Standard deviation of the noise on logged joint rates, rad/s: an encoder-derived rate at 200 Hz is this noisy. */
   rateNoise: number;
   faults: DemoLogFault[];
-  /** The mapping JSON shipped next to the demo sheets. */
+  /** The mapping JSON shipped in DEMO_LOG_MAPPINGS_FOLDER. */
   mappingFile: string;
 }
 
-/** How a demo log's mapping file in the demo sheets folder is named at its end. */
-export const DEMO_LOG_MAPPING_SUFFIX = '.log-mapping.json';
+/** Where the demo logs' mapping files ship; kept apart from the sheets, which every example-sheet check reads. */
+export const DEMO_LOG_MAPPINGS_FOLDER = 'content/log-mappings';
 
 /** Tolerances the demo team judges its controller logs by. */
 export const DEMO_LOG_TOLERANCES = { rate: '0.05 rad/s', slip: '1 mm/s' } as const;
@@ -108,7 +108,7 @@ export function demoLogText(doc: SheetDocument, log: DemoLog): string {
   return `${lines.join('\n')}\n`;
 }
 
-/** The mapping JSON of a demo log (every joint's angle, commanded and measured rate), as shipped in content/sheets. */
+/** The mapping JSON of a demo log (every joint's angle, commanded and measured rate), as shipped in DEMO_LOG_MAPPINGS_FOLDER. */
 export function demoLogMapping(doc: SheetDocument) {
   return runLogMapping(doc, { ...DEMO_LOG_TOLERANCES });
 }

@@ -6,7 +6,7 @@ import { gzipSync } from 'node:zlib';
 import type { Database } from '../../db';
 import { and, count, eq } from 'drizzle-orm';
 import { auditEvents, comments, memberships, reviews, sheetRevisions, sheets, teams, uploads } from '../../db/schema';
-import { DEMO_LOG_MAPPING_SUFFIX, DEMO_LOGS, DEMO_PASSWORD, DEMO_SHEETS_FOLDER, DEMO_TEAM, DEMO_USERS, demoLogText } from './demo';
+import { DEMO_LOGS, DEMO_PASSWORD, DEMO_SHEETS_FOLDER, DEMO_TEAM, DEMO_USERS, demoLogText } from './demo';
 import type { LogStorage } from './log-storage-backends';
 import { hashPassword } from './passwords';
 import { checkDocument } from './sheets';
@@ -161,8 +161,7 @@ function readDemoSheets(folder: string): { file: string; document: DemoSheetFile
   const dir = resolve(folder);
   if (!existsSync(dir)) return [];
   return readdirSync(dir)
-    // Demo logs' mappings sit beside the sheets they belong to and are not sheets.
-    .filter((file) => file.endsWith('.json') && !file.endsWith(DEMO_LOG_MAPPING_SUFFIX))
+    .filter((file) => file.endsWith('.json'))
     .sort()
     .map((file) => ({ file, document: JSON.parse(readFileSync(join(dir, file), 'utf8')) as DemoSheetFile }));
 }

@@ -10,7 +10,7 @@ import { sheets, uploads } from '../../../src/db/schema';
 import { createResult, createScene, runSheet, setJointAngles, setObjectPose, solveScene } from '../../../src/lib/kinematics/index';
 import { compareLog } from '../../../src/lib/logs/compare';
 import { parseLogMapping } from '../../../src/lib/logs/mapping';
-import { DEMO_LOG_MAPPING_SUFFIX, DEMO_LOGS, DEMO_SHEETS_FOLDER, demoLogMapping } from '../../../src/lib/server/demo';
+import { DEMO_LOG_MAPPINGS_FOLDER, DEMO_LOGS, DEMO_SHEETS_FOLDER, demoLogMapping } from '../../../src/lib/server/demo';
 import { diskLogStorage, type LogStorage } from '../../../src/lib/server/log-storage';
 import { seedDemoData } from '../../../src/lib/server/seed';
 import { checkDocument } from '../../../src/lib/server/sheets';
@@ -35,7 +35,7 @@ function sheetOf(file: string) {
 }
 
 function shippedMapping(file: string) {
-  const read = parseLogMapping(JSON.parse(readFileSync(join(DEMO_SHEETS_FOLDER, file), 'utf8')));
+  const read = parseLogMapping(JSON.parse(readFileSync(join(DEMO_LOG_MAPPINGS_FOLDER, file), 'utf8')));
   if (!read.ok) throw new Error(JSON.stringify(read.issues));
   return read.mapping;
 }
@@ -82,9 +82,8 @@ describe('demo controller logs', () => {
     for (const log of DEMO_LOGS) {
       const doc = sheetOf(log.sheetFile);
       const mapping = shippedMapping(log.mappingFile);
-      expect(log.mappingFile.endsWith(DEMO_LOG_MAPPING_SUFFIX)).toBe(true);
       expect(mapping.joints.map((j) => j.joint)).toEqual(doc.hand.fingers.flatMap((f) => f.joints.map((j) => j.name)));
-      expect(JSON.parse(readFileSync(join(DEMO_SHEETS_FOLDER, log.mappingFile), 'utf8'))).toEqual(demoLogMapping(doc));
+      expect(JSON.parse(readFileSync(join(DEMO_LOG_MAPPINGS_FOLDER, log.mappingFile), 'utf8'))).toEqual(demoLogMapping(doc));
     }
   });
 
