@@ -280,23 +280,9 @@ export function forEachFaceNormal(
   /** The last face, of one row, after the faces picked so far left a plane open. */
   const pickInPlane = (start: number, depth: number): void => {
     const basis = bases[depth];
-    let planeCount = 0;
-    for (let k = 0; k < depth; k++) {
-      const checks = items[picked[k]].checks;
-      for (let at = 0; at < checks.length; at += size) {
-        let a = 0, b = 0;
-        for (let j = 0; j < size; j++) { a += checks[at + j] * basis[j]; b += checks[at + j] * basis[size + j]; }
-        planeChecks[planeCount++] = a;
-        planeChecks[planeCount++] = b;
-      }
-    }
-    for (let k = 0; k < depth; k++) {
-      const reference = items[picked[k]].reference;
-      let a = 0, b = 0;
-      for (let j = 0; j < size; j++) { a += reference[j] * basis[j]; b += reference[j] * basis[size + j]; }
-      planeReferences[2 * k] = a;
-      planeReferences[2 * k + 1] = b;
-    }
+    // Most candidates fail an early check, so checks and reference points are projected into the plane only when first needed.
+    let projectedChecks = 0;
+    let referencesProjected = false;
     for (let contact = 0; contact < contactCount; contact++) {
       if (used[contact] || lastOneRow[contact] < start) continue;
       const vertices = contacts[contact].vertices;
@@ -316,10 +302,30 @@ export function forEachFaceNormal(
         // Outward normal of a counter-clockwise edge.
         const x = ey / length, y = -ex / length;
         let passes = true;
-        for (let at = 0; at < planeCount; at += 2) {
-          if (planeChecks[at] * x + planeChecks[at + 1] * y > tolerance) { passes = false; break; }
+        for (let k = 0, check = 0; k < depth && passes; k++) {
+          const checks = items[picked[k]].checks;
+          for (let at = 0; at < checks.length; at += size, check++) {
+            if (check === projectedChecks) {
+              let a = 0, b = 0;
+              for (let j = 0; j < size; j++) { a += checks[at + j] * basis[j]; b += checks[at + j] * basis[size + j]; }
+              planeChecks[2 * check] = a;
+              planeChecks[2 * check + 1] = b;
+              projectedChecks++;
+            }
+            if (planeChecks[2 * check] * x + planeChecks[2 * check + 1] * y > tolerance) { passes = false; break; }
+          }
         }
         if (!passes) continue;
+        if (!referencesProjected) {
+          for (let k = 0; k < depth; k++) {
+            const reference = items[picked[k]].reference;
+            let a = 0, b = 0;
+            for (let j = 0; j < size; j++) { a += reference[j] * basis[j]; b += reference[j] * basis[size + j]; }
+            planeReferences[2 * k] = a;
+            planeReferences[2 * k + 1] = b;
+          }
+          referencesProjected = true;
+        }
         for (let j = 0; j < size; j++) normal[j] = x * basis[j] + y * basis[size + j];
         for (let k = 0; k < depth; k++) {
           const other = items[picked[k]].contact;
