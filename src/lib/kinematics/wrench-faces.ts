@@ -134,6 +134,11 @@ function reduceBasis(projected: Float64Array, e: number, s: number, basis: Float
   return volume;
 }
 
+/** The 3 x 3 minor of the three rows of 4 in `p` on columns a, b, c. */
+function minor(p: Float64Array, a: number, b: number, c: number): number {
+  return p[a] * (p[4 + b] * p[8 + c] - p[4 + c] * p[8 + b]) - p[b] * (p[4 + a] * p[8 + c] - p[4 + c] * p[8 + a]) + p[c] * (p[4 + a] * p[8 + b] - p[4 + b] * p[8 + a]);
+}
+
 /**
  * The unit normal of the s - 1 rows of `projected` (s = 3 or 4, row-major) into `out`, as the signed
  * cofactors (the cross product when s = 3); returns its length, the rows' volume, 0 when dependent.
@@ -146,12 +151,10 @@ function lastNormal(projected: Float64Array, s: number, out: Float64Array): numb
     out[2] = p[0] * p[4] - p[1] * p[3];
   } else {
     // Each component is the 3 x 3 minor without that column, alternating in sign.
-    const minor = (a: number, b: number, c: number): number =>
-      p[a] * (p[4 + b] * p[8 + c] - p[4 + c] * p[8 + b]) - p[b] * (p[4 + a] * p[8 + c] - p[4 + c] * p[8 + a]) + p[c] * (p[4 + a] * p[8 + b] - p[4 + b] * p[8 + a]);
-    out[0] = -minor(1, 2, 3);
-    out[1] = minor(0, 2, 3);
-    out[2] = -minor(0, 1, 3);
-    out[3] = minor(0, 1, 2);
+    out[0] = -minor(p, 1, 2, 3);
+    out[1] = minor(p, 0, 2, 3);
+    out[2] = -minor(p, 0, 1, 3);
+    out[3] = minor(p, 0, 1, 2);
   }
   let norm = 0;
   for (let j = 0; j < s; j++) norm += out[j] * out[j];
@@ -159,6 +162,11 @@ function lastNormal(projected: Float64Array, s: number, out: Float64Array): numb
   if (!(norm > DEPENDENT)) return 0;
   for (let j = 0; j < s; j++) out[j] /= norm;
   return norm;
+}
+
+/** Twice the signed area of the triangle of points a, b, c (x, y pairs in `points`): positive for a counter-clockwise turn. */
+function turn(points: Float64Array, a: number, b: number, c: number): number {
+  return (points[2 * b] - points[2 * a]) * (points[2 * c + 1] - points[2 * a + 1]) - (points[2 * b + 1] - points[2 * a + 1]) * (points[2 * c] - points[2 * a]);
 }
 
 /** One contact's set: its vertices (the apex 0 among them) and its faces, in the enumeration's space. */
@@ -262,15 +270,12 @@ export function forEachFaceNormal(
       order[at] = i;
     }
     let length = 0;
-    const turn = (a: number, b: number, c: number): number =>
-      (planePoints[2 * b] - planePoints[2 * a]) * (planePoints[2 * c + 1] - planePoints[2 * a + 1]) -
-      (planePoints[2 * b + 1] - planePoints[2 * a + 1]) * (planePoints[2 * c] - planePoints[2 * a]);
     for (let k = 0; k < count; k++) {
-      while (length >= 2 && turn(hull[length - 2], hull[length - 1], order[k]) <= 0) length--;
+      while (length >= 2 && turn(planePoints, hull[length - 2], hull[length - 1], order[k]) <= 0) length--;
       hull[length++] = order[k];
     }
     for (let k = count - 2, lower = length + 1; k >= 0; k--) {
-      while (length >= lower && turn(hull[length - 2], hull[length - 1], order[k]) <= 0) length--;
+      while (length >= lower && turn(planePoints, hull[length - 2], hull[length - 1], order[k]) <= 0) length--;
       hull[length++] = order[k];
     }
     // The chain ends where it began.
@@ -280,23 +285,9 @@ export function forEachFaceNormal(
   /** The last face, of one row, after the faces picked so far left a plane open. */
   const pickInPlane = (start: number, depth: number): void => {
     const basis = bases[depth];
-    let planeCount = 0;
-    for (let k = 0; k < depth; k++) {
-      const checks = items[picked[k]].checks;
-      for (let at = 0; at < checks.length; at += size) {
-        let a = 0, b = 0;
-        for (let j = 0; j < size; j++) { a += checks[at + j] * basis[j]; b += checks[at + j] * basis[size + j]; }
-        planeChecks[planeCount++] = a;
-        planeChecks[planeCount++] = b;
-      }
-    }
-    for (let k = 0; k < depth; k++) {
-      const reference = items[picked[k]].reference;
-      let a = 0, b = 0;
-      for (let j = 0; j < size; j++) { a += reference[j] * basis[j]; b += reference[j] * basis[size + j]; }
-      planeReferences[2 * k] = a;
-      planeReferences[2 * k + 1] = b;
-    }
+    // Most candidates fail an early check, so checks and reference points are projected into the plane only when first needed.
+    let projectedChecks = 0;
+    let referencesProjected = false;
     for (let contact = 0; contact < contactCount; contact++) {
       if (used[contact] || lastOneRow[contact] < start) continue;
       const vertices = contacts[contact].vertices;
@@ -316,10 +307,30 @@ export function forEachFaceNormal(
         // Outward normal of a counter-clockwise edge.
         const x = ey / length, y = -ex / length;
         let passes = true;
-        for (let at = 0; at < planeCount; at += 2) {
-          if (planeChecks[at] * x + planeChecks[at + 1] * y > tolerance) { passes = false; break; }
+        for (let k = 0, check = 0; k < depth && passes; k++) {
+          const checks = items[picked[k]].checks;
+          for (let at = 0; at < checks.length; at += size, check++) {
+            if (check === projectedChecks) {
+              let a = 0, b = 0;
+              for (let j = 0; j < size; j++) { a += checks[at + j] * basis[j]; b += checks[at + j] * basis[size + j]; }
+              planeChecks[2 * check] = a;
+              planeChecks[2 * check + 1] = b;
+              projectedChecks++;
+            }
+            if (planeChecks[2 * check] * x + planeChecks[2 * check + 1] * y > tolerance) { passes = false; break; }
+          }
         }
         if (!passes) continue;
+        if (!referencesProjected) {
+          for (let k = 0; k < depth; k++) {
+            const reference = items[picked[k]].reference;
+            let a = 0, b = 0;
+            for (let j = 0; j < size; j++) { a += reference[j] * basis[j]; b += reference[j] * basis[size + j]; }
+            planeReferences[2 * k] = a;
+            planeReferences[2 * k + 1] = b;
+          }
+          referencesProjected = true;
+        }
         for (let j = 0; j < size; j++) normal[j] = x * basis[j] + y * basis[size + j];
         for (let k = 0; k < depth; k++) {
           const other = items[picked[k]].contact;
