@@ -36,7 +36,7 @@ let outsider: Identity;
 
 async function upload(text: string | Uint8Array, fileName = 'fenwick-line2.csv'): Promise<string> {
   const database = await getDatabase();
-  const bytes = typeof text === 'string' ? new TextEncoder().encode(text) : text;
+  const bytes: Uint8Array<ArrayBuffer> = typeof text === 'string' ? new TextEncoder().encode(text) : new Uint8Array(text);
   const stored = await storeLogUpload(database, getLogStorage(), {
     sheet: { id: sheetId, teamId },
     fileName,
