@@ -2,7 +2,7 @@ import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { useMemo, useRef, useState, type ChangeEvent } from 'react';
 import LineChart from '../charts/LineChart';
 import { FormError, labelClass, primaryButton, secondaryButton } from '../form-parts';
-import { SafetyCaution } from '../SafetyCaution';
+import { SafetyCaution } from './SafetyCaution';
 import { requestJson } from '../../lib/client/api';
 import { useZodForm } from '../../lib/client/use-zod-form';
 import type { LogComparisonList, LogComparisonRecord, LogUploadDetail, Wire } from '../../lib/contract';
