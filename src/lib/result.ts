@@ -20,6 +20,8 @@ export type ErrorKind =
   | 'gone'
   /** The request body is larger than the endpoint accepts. */
   | 'too-large'
+  /** The request is well formed but what it points at cannot be processed (e.g. a controller log with bad rows). */
+  | 'unprocessable'
   /** Too many attempts; try again later. */
   | 'rate-limited';
 

@@ -4,12 +4,17 @@ import QueryRoot from '../QueryRoot';
 import { ApiError, formatWhen, requestJson, uploadFile, type Upload } from '../../lib/client/api';
 import type { LogUploadSummary, Wire } from '../../lib/contract';
 import { MAX_LOG_BYTES } from '../../lib/validation/log-uploads';
+import LogComparisonPanel from './LogComparisonPanel';
 import { button } from './sheet-styles';
 
 interface LogsPanelProps {
   sheetId: string;
   /** The role may upload and delete logs ('log.upload'); the server decides either way. */
   canUpload: boolean;
+  /** The sheet's joint names, in order, for the comparison's mapping form. */
+  jointNames: string[];
+  /** The revision the page shows; comparisons judge the log against it. */
+  revision: number;
 }
 
 const KIB = 1024;
@@ -21,12 +26,13 @@ function formatBytes(bytes: number): string {
   return bytes < MIB ? `${+(bytes / KIB).toFixed(1)} KiB` : `${+(bytes / MIB).toFixed(1)} MiB`;
 }
 
-function Logs({ sheetId, canUpload }: LogsPanelProps) {
+function Logs({ sheetId, canUpload, jointNames, revision }: LogsPanelProps) {
   const queryClient = useQueryClient();
   const input = useRef<HTMLInputElement>(null);
   const running = useRef<Upload<Wire<LogUploadSummary>> | null>(null);
   const [progress, setProgress] = useState<{ fileName: string; sent: number; total: number } | null>(null);
   const [error, setError] = useState<string | null>(null);
+  const [comparing, setComparing] = useState<string | null>(null);
   const logs = useQuery({ queryKey: ['logs', sheetId], queryFn: () => requestJson<{ items: Wire<LogUploadSummary>[] }>(`/api/sheets/${sheetId}/logs`) });
   const remove = useMutation({
     mutationFn: (logId: string) => requestJson(`/api/sheets/${sheetId}/logs/${logId}`, { method: 'DELETE' }),
@@ -76,10 +82,18 @@ function Logs({ sheetId, canUpload }: LogsPanelProps) {
             <span className="text-xs text-graphite">
               {log.uploaderName ?? 'Someone'} · {formatWhen(log.createdAt)}
             </span>
+            <button type="button" className="ml-auto text-xs underline" aria-expanded={comparing === log.id} onClick={() => setComparing(comparing === log.id ? null : log.id)} data-compare-log>
+              {comparing === log.id ? 'Close comparison' : 'Compare with the sheet'}
+            </button>
             {canUpload && (
-              <button type="button" className="ml-auto text-xs underline disabled:opacity-60" disabled={remove.isPending} onClick={() => remove.mutate(log.id)}>
+              <button type="button" className="text-xs underline disabled:opacity-60" disabled={remove.isPending} onClick={() => remove.mutate(log.id)}>
                 Delete
               </button>
+            )}
+            {comparing === log.id && (
+              <div className="basis-full">
+                <LogComparisonPanel sheetId={sheetId} logId={log.id} fileName={log.fileName} jointNames={jointNames} revision={revision} canRun={canUpload} />
+              </div>
             )}
           </li>
         ))}

@@ -8,3 +8,4 @@ export * from './reviews';
 export * from './sheets';
 export * from './teams';
 export * from './log-uploads';
+export * from './log-comparisons';

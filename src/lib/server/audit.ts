@@ -61,6 +61,7 @@ export const AUDIT_ACTIONS = {
   'sheet.remark_resolve': 'Resolved or reopened a remark',
   'log.upload': 'Uploaded a controller log',
   'log.delete': 'Deleted a controller log',
+  'log.compare': 'Compared a controller log with the sheet',
   'demo.seed': 'Seeded the demo data',
 } as const satisfies Record<string, string>;
 export type KnownAuditAction = keyof typeof AUDIT_ACTIONS;

@@ -12,6 +12,7 @@ const STATUS_OF: Record<ErrorKind, number> = {
   stale: 409,
   gone: 410,
   'too-large': 413,
+  unprocessable: 422,
   'rate-limited': 429,
 };
 

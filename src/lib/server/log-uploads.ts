@@ -278,7 +278,8 @@ export async function listLogUploads(database: Database, sheetId: string): Promi
   return rows.map(asSummary);
 }
 
-async function findLogRow(database: Database, sheetId: string, uploadId: string) {
+/** One of a sheet's logs with its team and where its bytes are stored, or null. */
+export async function findLogRow(database: Database, sheetId: string, uploadId: string) {
   const [row] = await database.db
     .select({ summary: summaryColumns, storageKey: uploads.storageKey, teamId: uploads.teamId })
     .from(uploads)

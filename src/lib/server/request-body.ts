@@ -19,6 +19,8 @@ export const BODY_LIMITS = {
   sheet: 1 * MIB,
   /** One sheet file (comments allowed) as a multipart upload or a JSON string, which escapes quotes and newlines. */
   import: 2 * MIB,
+  /** A log mapping with its revision: 96 joints of three columns of 200 characters each fit several times over. */
+  mapping: 256 * KIB,
 } as const;
 
 /** A byte count as people read limits: "64 KiB", "2 MiB". */

@@ -15,6 +15,8 @@ describe('respond', () => {
       stale: 409,
       gone: 410,
       'too-large': 413,
+      // RFC 4918, section 11.2 (now RFC 9110, section 15.5.21): well-formed content that cannot be processed.
+      unprocessable: 422,
       'rate-limited': 429,
     };
     for (const [kind, status] of Object.entries(statuses) as [ErrorKind, number][]) {

@@ -10,6 +10,7 @@ import { DEMO_PASSWORD, DEMO_TEAM } from '../../../../src/lib/server/demo';
 import { identityForUser } from '../../../../src/lib/server/identity';
 import { hashPassword } from '../../../../src/lib/server/passwords';
 import { getLogStorage } from '../../../../src/lib/server/log-storage';
+import { runLogComparison } from '../../../../src/lib/server/log-comparisons';
 import { storeLogUpload } from '../../../../src/lib/server/log-uploads';
 import { MAX_LOG_BYTES } from '../../../../src/lib/validation/log-uploads';
 import { createTestSheet } from '../../../helpers/test-sheets';
@@ -105,6 +106,38 @@ async function scratchSheetWithLog(fx: Fixture): Promise<Prepared> {
   const stored = await storeLogUpload(database, getLogStorage(), { sheet: { id: sheetId, teamId: fx.teamId }, fileName: 'table.csv', body, declaredLength: null, limit: MAX_LOG_BYTES, actor: { userId: fx.sessions.reviewer.user.id } });
   if (!stored.ok) throw new Error(stored.error.message);
   return { ...prepared, params: { sheetId, logId: stored.value.id } };
+}
+
+/** A log of the scratch sheet with the object's pose (position and quaternion), and a mapping of it with no joints. */
+const TABLE_POSE_LOG = new TextEncoder().encode('t,px,py,pz,qw,qx,qy,qz\n0.000,0.10,0.05,0.12,1,0,0,0\n0.002,0.10,0.05,0.12,1,0,0,0\n0.004,0.10,0.05,0.12,1,0,0,0\n');
+const TABLE_MAPPING = {
+  format: 'slipless.log-mapping',
+  version: 1,
+  time: { column: 't', unit: 's' },
+  pose: { position: { columns: ['px', 'py', 'pz'], unit: 'm' }, orientation: { quaternion: { w: 'qw', x: 'qx', y: 'qy', z: 'qz' } } },
+  joints: [],
+  tolerances: { rate: '0.05 rad/s', slip: '1 mm/s' },
+};
+
+/** A scratch sheet with one pose log, ready to be compared (`body` is the comparison request). */
+async function scratchSheetWithPoseLog(fx: Fixture): Promise<Prepared> {
+  const prepared = await scratchSheet(fx);
+  const database = await getDatabase();
+  const sheetId = prepared.params!.sheetId;
+  const body = new Blob([TABLE_POSE_LOG]).stream();
+  const stored = await storeLogUpload(database, getLogStorage(), { sheet: { id: sheetId, teamId: fx.teamId }, fileName: 'pose.csv', body, declaredLength: null, limit: MAX_LOG_BYTES, actor: { userId: fx.sessions.reviewer.user.id } });
+  if (!stored.ok) throw new Error(stored.error.message);
+  return { ...prepared, params: { sheetId, logId: stored.value.id }, body: { mapping: TABLE_MAPPING } };
+}
+
+/** A scratch sheet with one pose log compared once, named by `comparisonId`. */
+async function scratchSheetWithComparison(fx: Fixture): Promise<Prepared> {
+  const prepared = await scratchSheetWithPoseLog(fx);
+  const database = await getDatabase();
+  const { sheetId, logId } = prepared.params!;
+  const run = await runLogComparison(database, getLogStorage(), { sheet: { id: sheetId!, teamId: fx.teamId, latestRevision: 1 }, uploadId: logId!, mapping: TABLE_MAPPING, actor: { userId: fx.sessions.reviewer.user.id } });
+  if (!run.ok) throw new Error(run.error.message);
+  return { ...prepared, body: undefined, params: { sheetId: sheetId!, logId: logId!, comparisonId: run.value.id } };
 }
 
 async function newTeamMember(fx: Fixture): Promise<Prepared> {
@@ -420,6 +453,27 @@ const ROWS: Row[] = [
     method: 'DELETE',
     prepare: (fx) => scratchSheetWithLog(fx),
     expect: { none: 401, viewer: 403, reviewer: 204, editor: 403, owner: 204, token: 403, revoked: 401, other: 404 },
+  },
+  {
+    route: 'sheets/[sheetId]/logs/[logId]/comparisons/index.ts',
+    method: 'GET',
+    variant: 'a log\'s comparisons and saved mapping',
+    prepare: async (fx) => ({ ...(await scratchSheetWithPoseLog(fx)), body: undefined }),
+    expect: { ...SIGNED_IN_OK, other: 404 },
+  },
+  {
+    route: 'sheets/[sheetId]/logs/[logId]/comparisons/index.ts',
+    method: 'POST',
+    variant: 'a pose mapping',
+    prepare: (fx) => scratchSheetWithPoseLog(fx),
+    expect: { none: 401, viewer: 403, reviewer: 201, editor: 403, owner: 201, token: 403, revoked: 401, other: 404 },
+  },
+  {
+    route: 'sheets/[sheetId]/logs/[logId]/comparisons/[comparisonId].ts',
+    method: 'GET',
+    variant: 'statistics as CSV',
+    prepare: async (fx) => ({ ...(await scratchSheetWithComparison(fx)), query: '?format=csv' }),
+    expect: { ...SIGNED_IN_OK, other: 404 },
   },
   {
     route: 'sheets/import.ts',

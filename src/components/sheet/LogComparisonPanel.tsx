@@ -1,0 +1,363 @@
+import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { useMemo, useRef, useState, type ChangeEvent } from 'react';
+import LineChart from '../charts/LineChart';
+import { FormError, labelClass, primaryButton, secondaryButton } from '../form-parts';
+import { SafetyCaution } from './SafetyCaution';
+import { requestJson } from '../../lib/client/api';
+import { useZodForm } from '../../lib/client/use-zod-form';
+import type { LogComparisonList, LogComparisonRecord, LogUploadDetail, Wire } from '../../lib/contract';
+import type { LogComparison } from '../../lib/logs/compare';
+import { ANGLE_UNITS, LENGTH_UNITS, logMappingSchema, RATE_UNITS, TIME_UNITS } from '../../lib/logs/mapping';
+import { guessMapping, type JointDraft, type MappingDraft } from '../../lib/view/log-mapping-draft';
+
+interface LogComparisonPanelProps {
+  sheetId: string;
+  logId: string;
+  fileName: string;
+  /** The sheet's joint names, in order, one mapping row each. */
+  jointNames: string[];
+  /** The revision the page shows, which the comparison judges against. */
+  revision: number;
+  /** The role may run comparisons ('log.upload'); the server decides either way. */
+  canRun: boolean;
+}
+
+const select = 'mt-1 border-2 border-ink bg-paper px-2 py-1 font-mono text-xs';
+const NONE = '';
+
+function ColumnSelect({ label, header, value, onChange }: { label: string; header: readonly string[]; value: string; onChange: (column: string) => void }) {
+  return (
+    <label className="text-xs">
+      <span className="block text-graphite">{label}</span>
+      <select className={select} aria-label={label} value={value} onChange={(e) => onChange(e.target.value)}>
+        <option value={NONE}>—</option>
+        {header.map((name) => (
+          <option key={name} value={name}>
+            {name}
+          </option>
+        ))}
+      </select>
+    </label>
+  );
+}
+
+function UnitSelect<U extends string>({ label, units, value, onChange }: { label: string; units: readonly U[]; value: U; onChange: (unit: U) => void }) {
+  return (
+    <label className="text-xs">
+      <span className="block text-graphite">{label}</span>
+      <select className={select} aria-label={label} value={value} onChange={(e) => onChange(e.target.value as U)}>
+        {units.map((unit) => (
+          <option key={unit} value={unit}>
+            {unit}
+          </option>
+        ))}
+      </select>
+    </label>
+  );
+}
+
+const angleUnits = Object.keys(ANGLE_UNITS) as ('rad' | 'deg')[];
+const rateUnits = Object.keys(RATE_UNITS) as ('rad/s' | 'deg/s' | 'rpm')[];
+const timeUnits = Object.keys(TIME_UNITS) as ('s' | 'ms' | 'us')[];
+const lengthUnits = Object.keys(LENGTH_UNITS) as ('m' | 'mm')[];
+
+/** The draft with one joint's entry replaced; an entry left with no column is dropped, since the schema wants at least one. */
+function withJoint(draft: MappingDraft, joint: string, change: (entry: JointDraft) => JointDraft): MappingDraft {
+  const current = draft.joints.find((j) => j.joint === joint) ?? { joint };
+  const next = change(current);
+  const others = draft.joints.filter((j) => j.joint !== joint);
+  const kept = next.angle || next.commandedRate || next.measuredRate ? [...others, next] : others;
+  return { ...draft, joints: kept };
+}
+
+function JointRow({ joint, header, draft, setDraft }: { joint: string; header: readonly string[]; draft: MappingDraft; setDraft: (d: MappingDraft) => void }) {
+  const entry = draft.joints.find((j) => j.joint === joint) ?? { joint };
+  const column = <K extends 'angle' | 'commandedRate' | 'measuredRate'>(key: K, unit: NonNullable<JointDraft[K]>['unit']) => (name: string) =>
+    setDraft(withJoint(draft, joint, (e) => {
+      const { [key]: _dropped, ...rest } = e;
+      return name ? { ...rest, joint, [key]: { column: name, unit: e[key]?.unit ?? unit } } : { ...rest, joint };
+    }));
+  const unit = <K extends 'angle' | 'commandedRate' | 'measuredRate'>(key: K) => (value: string) =>
+    setDraft(withJoint(draft, joint, (e) => (e[key] ? { ...e, [key]: { ...e[key], unit: value } } : e)));
+  return (
+    <tr className="align-bottom" data-joint-row={joint}>
+      <th scope="row" className="pr-2 text-left font-mono text-xs">{joint}</th>
+      <td><ColumnSelect label={`${joint} angle column`} header={header} value={entry.angle?.column ?? NONE} onChange={column('angle', 'rad')} /></td>
+      <td><UnitSelect label={`${joint} angle unit`} units={angleUnits} value={entry.angle?.unit ?? 'rad'} onChange={unit('angle')} /></td>
+      <td><ColumnSelect label={`${joint} commanded rate column`} header={header} value={entry.commandedRate?.column ?? NONE} onChange={column('commandedRate', 'rad/s')} /></td>
+      <td><UnitSelect label={`${joint} commanded rate unit`} units={rateUnits} value={entry.commandedRate?.unit ?? 'rad/s'} onChange={unit('commandedRate')} /></td>
+      <td><ColumnSelect label={`${joint} measured rate column`} header={header} value={entry.measuredRate?.column ?? NONE} onChange={column('measuredRate', 'rad/s')} /></td>
+      <td><UnitSelect label={`${joint} measured rate unit`} units={rateUnits} value={entry.measuredRate?.unit ?? 'rad/s'} onChange={unit('measuredRate')} /></td>
+    </tr>
+  );
+}
+
+const digits = (value: number | null) => (value === null || !Number.isFinite(value) ? '—' : Number(value.toPrecision(4)).toString());
+
+/** Per series of the decimated plot data: x and y with each bucket's smallest and largest value, so spikes survive decimation. */
+function envelope(series: LogComparison['series'], label: string): { x: number[]; y: number[] } | null {
+  const s = series.labels.indexOf(label);
+  if (s < 0) return null;
+  const x: number[] = [], y: number[] = [];
+  series.from.forEach((from, b) => {
+    x.push(from, series.to[b]!);
+    y.push(series.min[s]![b]!, series.max[s]![b]!);
+  });
+  return { x, y };
+}
+
+function ComparisonResult({ record }: { record: Wire<LogComparisonRecord> }) {
+  const result = record.result as LogComparison | null;
+  if (!result) return <p className="text-sm text-graphite">Status: {record.status}</p>;
+  const within = result.verdict.withinTolerance;
+  return (
+    <div className="mt-4 space-y-4" data-comparison-result>
+      <div className={`border-l-4 px-3 py-2 ${within ? 'border-verdigris' : 'border-sienna'}`} data-verdict={within ? 'pass' : 'fail'}>
+        <p className="font-semibold">{within ? 'Within tolerance' : 'Outside tolerance'} · revision {record.revision} · {result.samples} samples</p>
+        <ul className="mt-1 list-disc pl-5 text-sm">
+          {result.verdict.reasons.map((reason) => (
+            <li key={reason}>{reason}</li>
+          ))}
+        </ul>
+      </div>
+      <table className="w-full text-left text-xs" data-joint-table>
+        <caption className="text-left font-mono text-xs uppercase tracking-[0.2em]">Commanded rate, logged − sheet (rad/s)</caption>
+        <thead>
+          <tr><th>Joint</th><th>RMS</th><th>Max</th><th>Max at (s)</th><th>Within</th></tr>
+        </thead>
+        <tbody>
+          {result.joints.map((j) => (
+            <tr key={j.joint} className={j.withinFraction < 1 ? 'text-sienna' : ''}>
+              <td className="font-mono">{j.joint}</td><td className="num">{digits(j.rms)}</td><td className="num">{digits(j.max)}</td>
+              <td className="num">{digits(j.maxAt)}</td><td className="num">{(j.withinFraction * 100).toFixed(1)} %</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+      <table className="w-full text-left text-xs" data-contact-table>
+        <caption className="text-left font-mono text-xs uppercase tracking-[0.2em]">Slip at each contact (mm/s)</caption>
+        <thead>
+          <tr><th>Finger</th><th>RMS</th><th>Max</th><th>Max at (s)</th><th>Within</th></tr>
+        </thead>
+        <tbody>
+          {result.contacts.map((c) => (
+            <tr key={c.finger}>
+              <td className="font-mono">{c.finger}</td>
+              {c.computed ? (
+                <>
+                  <td className="num">{digits(c.rms * 1000)}</td><td className="num">{digits(c.max * 1000)}</td>
+                  <td className="num">{digits(c.maxAt)}</td><td className="num">{(c.withinFraction * 100).toFixed(1)} %</td>
+                </>
+              ) : (
+                <td colSpan={4} className="text-graphite">{c.reason}</td>
+              )}
+            </tr>
+          ))}
+        </tbody>
+      </table>
+      <ComparisonCharts result={result} />
+    </div>
+  );
+}
+
+function ComparisonCharts({ result }: { result: LogComparison }) {
+  const charts = useMemo(() => {
+    const joints = result.joints.flatMap((j) => {
+      const logged = envelope(result.series, `${j.joint} logged`);
+      const sheet = envelope(result.series, `${j.joint} sheet`);
+      return logged && sheet ? [{ joint: j.joint, x: logged.x, series: [{ label: 'logged', values: logged.y }, { label: 'sheet', values: sheet.y }] }] : [];
+    });
+    const slips = result.contacts.filter((c) => c.computed).flatMap((c) => {
+      const slip = envelope(result.series, `${c.finger} slip`);
+      return slip ? [{ label: c.finger, x: slip.x, values: slip.y.map((v) => v * 1000) }] : [];
+    });
+    return { joints, slips };
+  }, [result]);
+  return (
+    <div className="grid gap-4" data-comparison-charts>
+      {charts.joints.map((chart) => (
+        <LineChart key={chart.joint} title={`${chart.joint}: commanded rate`} x={chart.x} xLabel="s" yLabel="rad/s" series={chart.series} syncKey="log-comparison" />
+      ))}
+      {charts.slips.length > 0 && (
+        <LineChart title="Slip per contact" x={charts.slips[0]!.x} xLabel="s" yLabel="mm/s" series={charts.slips.map(({ label, values }) => ({ label, values }))} syncKey="log-comparison" />
+      )}
+    </div>
+  );
+}
+
+function MappingForm({ sheetId, logId, header, jointNames, revision, initial, canRun }: Omit<LogComparisonPanelProps, 'fileName'> & { header: string[]; initial: MappingDraft }) {
+  const queryClient = useQueryClient();
+  const [draft, setDraft] = useState<MappingDraft>(initial);
+  const [latest, setLatest] = useState<Wire<LogComparisonRecord> | null>(null);
+  const [issues, setIssues] = useState<string[]>([]);
+  const fileInput = useRef<HTMLInputElement>(null);
+  const form = useZodForm({
+    schema: logMappingSchema,
+    fields: ['mapping'],
+    read: () => draft,
+    submit: async () => {
+      setIssues([]);
+      try {
+        const record = await requestJson<Wire<LogComparisonRecord>>(`/api/sheets/${sheetId}/logs/${logId}/comparisons`, { method: 'POST', body: { mapping: draft, revision } });
+        setLatest(record);
+        await queryClient.invalidateQueries({ queryKey: ['log-comparisons', sheetId, logId] });
+      } catch (error) {
+        const listed = (error as { issues?: { message: string }[] }).issues ?? [];
+        setIssues(listed.map((issue) => issue.message));
+        throw error;
+      }
+    },
+  });
+
+  function download() {
+    const url = URL.createObjectURL(new Blob([`${JSON.stringify(draft, null, 2)}\n`], { type: 'application/json' }));
+    const link = document.createElement('a');
+    link.href = url;
+    link.download = 'log-mapping.json';
+    link.click();
+    URL.revokeObjectURL(url);
+  }
+
+  async function load(event: ChangeEvent<HTMLInputElement>) {
+    const file = event.target.files?.[0];
+    event.target.value = '';
+    if (!file) return;
+    try {
+      const raw: unknown = JSON.parse(await file.text());
+      const read = logMappingSchema.safeParse(raw);
+      if (!read.success) {
+        setIssues(read.error.issues.slice(0, 10).map((issue) => `${issue.path.join('.')}: ${issue.message}`));
+        return;
+      }
+      setIssues([]);
+      setDraft(raw as MappingDraft);
+    } catch {
+      setIssues([`${file.name} is not JSON.`]);
+    }
+  }
+
+  const position = draft.pose.position;
+  const quaternion = draft.pose.orientation.quaternion;
+  const setPositionColumn = (k: 0 | 1 | 2) => (name: string) => {
+    const columns = [...position.columns] as [string, string, string];
+    columns[k] = name;
+    setDraft({ ...draft, pose: { ...draft.pose, position: { ...position, columns } } });
+  };
+  const setPart = (p: 'w' | 'x' | 'y' | 'z') => (name: string) => setDraft({ ...draft, pose: { ...draft.pose, orientation: { quaternion: { ...quaternion, [p]: name } } } });
+  const errorText = Object.entries(form.errors).map(([field, message]) => (field === 'form' || field === 'mapping' ? message : `${field}: ${message}`)).join(' ');
+
+  return (
+    <>
+      <form noValidate onSubmit={form.onSubmit} className="mt-3 space-y-3" aria-label="Log mapping" data-mapping-form>
+        <fieldset className="flex flex-wrap gap-3">
+          <legend className={labelClass}>Time</legend>
+          <ColumnSelect label="Time column" header={header} value={draft.time.column} onChange={(column) => setDraft({ ...draft, time: { ...draft.time, column } })} />
+          <UnitSelect label="Time unit" units={timeUnits} value={draft.time.unit} onChange={(unit) => setDraft({ ...draft, time: { ...draft.time, unit } })} />
+        </fieldset>
+        <fieldset className="flex flex-wrap gap-3">
+          <legend className={labelClass}>Object position</legend>
+          {(['x', 'y', 'z'] as const).map((a, k) => (
+            <ColumnSelect key={a} label={`Position ${a} column`} header={header} value={position.columns[k]} onChange={setPositionColumn(k as 0 | 1 | 2)} />
+          ))}
+          <UnitSelect label="Position unit" units={lengthUnits} value={position.unit} onChange={(unit) => setDraft({ ...draft, pose: { ...draft.pose, position: { ...position, unit } } })} />
+        </fieldset>
+        <fieldset className="flex flex-wrap gap-3">
+          <legend className={labelClass}>Object orientation (quaternion)</legend>
+          {(['w', 'x', 'y', 'z'] as const).map((p) => (
+            <ColumnSelect key={p} label={`Quaternion ${p} column`} header={header} value={quaternion[p]} onChange={setPart(p)} />
+          ))}
+        </fieldset>
+        <fieldset>
+          <legend className={labelClass}>Joints of the sheet</legend>
+          <div className="overflow-x-auto">
+            <table className="text-xs">
+              <tbody>
+                {jointNames.map((joint) => (
+                  <JointRow key={joint} joint={joint} header={header} draft={draft} setDraft={setDraft} />
+                ))}
+              </tbody>
+            </table>
+          </div>
+        </fieldset>
+        <fieldset className="flex flex-wrap gap-3">
+          <legend className={labelClass}>Tolerances</legend>
+          <label className="text-xs">
+            <span className="block text-graphite">Joint rate</span>
+            <input className={select} value={draft.tolerances.rate} onChange={(e) => setDraft({ ...draft, tolerances: { ...draft.tolerances, rate: e.target.value } })} data-rate-tolerance />
+          </label>
+          <label className="text-xs">
+            <span className="block text-graphite">Slip speed</span>
+            <input className={select} value={draft.tolerances.slip} onChange={(e) => setDraft({ ...draft, tolerances: { ...draft.tolerances, slip: e.target.value } })} data-slip-tolerance />
+          </label>
+        </fieldset>
+        <FormError message={errorText || undefined} />
+        {issues.length > 0 && (
+          <ul className="list-disc pl-5 text-xs text-sienna" data-comparison-issues>
+            {issues.map((issue) => (
+              <li key={issue}>{issue}</li>
+            ))}
+          </ul>
+        )}
+        <div className="flex flex-wrap gap-2">
+          {canRun && (
+            <button type="submit" className={primaryButton} disabled={form.submitting} data-run-comparison>
+              {form.submitting ? 'Comparing…' : 'Compare'}
+            </button>
+          )}
+          <button type="button" className={secondaryButton} onClick={download}>
+            Download mapping
+          </button>
+          <input ref={fileInput} type="file" accept=".json,application/json" className="sr-only" aria-label="Mapping file" onChange={load} />
+          <button type="button" className={secondaryButton} onClick={() => fileInput.current?.click()}>
+            Load mapping
+          </button>
+        </div>
+        {form.submitting && <p className="text-xs text-graphite" role="status">Streaming the log through the sheet, sample by sample…</p>}
+      </form>
+      {latest && <ComparisonResult record={latest} />}
+    </>
+  );
+}
+
+/** One log's comparison with the sheet: a mapping form from the log's header (prefilled), the verdict, statistics and plots. */
+export default function LogComparisonPanel(props: LogComparisonPanelProps) {
+  const { sheetId, logId, fileName, jointNames } = props;
+  const detail = useQuery({ queryKey: ['log', sheetId, logId], queryFn: () => requestJson<Wire<LogUploadDetail>>(`/api/sheets/${sheetId}/logs/${logId}`) });
+  const comparisons = useQuery({
+    queryKey: ['log-comparisons', sheetId, logId],
+    queryFn: () => requestJson<Wire<LogComparisonList>>(`/api/sheets/${sheetId}/logs/${logId}/comparisons`),
+  });
+  const header = detail.data?.preview.header;
+  const ready = header && comparisons.data;
+  return (
+    <section aria-label={`Compare ${fileName} with the sheet`} className="mt-3 border-t-2 border-ink pt-3" data-log-comparison>
+      <h3 className="font-mono text-xs font-semibold uppercase tracking-[0.2em]">Compare {fileName} with the sheet</h3>
+      <SafetyCaution />
+      {(detail.isError || comparisons.isError) && <p className="text-sm text-sienna">{(detail.error ?? comparisons.error)?.message}</p>}
+      {ready ? (
+        <MappingForm
+          {...props}
+          header={header}
+          initial={(comparisons.data.savedMapping as MappingDraft | null) ?? guessMapping(header, jointNames)}
+        />
+      ) : (
+        !detail.isError && !comparisons.isError && <p className="text-xs text-graphite">Reading the log's columns…</p>
+      )}
+      {comparisons.data && comparisons.data.items.length > 0 && (
+        <details className="mt-3 text-xs">
+          <summary>Earlier comparisons of this log ({comparisons.data.items.length})</summary>
+          <ul>
+            {comparisons.data.items.map((item) => (
+              <li key={item.id}>
+                revision {item.revision} · {item.verdict === 'pass' ? 'within tolerance' : 'outside tolerance'} · {item.createdByName ?? 'Someone'} ·{' '}
+                <a className="underline" href={`/api/sheets/${sheetId}/logs/${logId}/comparisons/${item.id}?format=csv`}>
+                  statistics CSV
+                </a>
+              </li>
+            ))}
+          </ul>
+        </details>
+      )}
+    </section>
+  );
+}

@@ -1,0 +1,197 @@
+import { gzipSync } from 'node:zlib';
+import { and, eq } from 'drizzle-orm';
+import Papa from 'papaparse';
+import { beforeAll, describe, expect, it } from 'vitest';
+import { logComparisons } from '../../../src/db/schema';
+import type { LogComparisonList, LogComparisonRecord } from '../../../src/lib/contract/log-comparisons';
+import type { Identity } from '../../../src/lib/server/access';
+import { getDatabase } from '../../../src/lib/server/database';
+import { identityForUser } from '../../../src/lib/server/identity';
+import { COMPARISON_CSV_COLUMNS } from '../../../src/lib/server/log-comparisons';
+import { getLogStorage } from '../../../src/lib/server/log-storage';
+import { storeLogUpload } from '../../../src/lib/server/log-uploads';
+import { saveRevision } from '../../../src/lib/server/sheets';
+import { runLogMapping } from '../../../src/lib/logs/generate';
+import { MAX_LOG_BYTES } from '../../../src/lib/validation/log-uploads';
+import * as comparisonsRoute from '../../../src/pages/api/sheets/[sheetId]/logs/[logId]/comparisons/index';
+import * as comparisonRoute from '../../../src/pages/api/sheets/[sheetId]/logs/[logId]/comparisons/[comparisonId]';
+import { addTestMember, callRoute, demoIdentity, demoTeamId } from '../../helpers/api-context';
+import { createTestSheet } from '../../helpers/test-sheets';
+import { generatedRun, logText, TOLERANCES } from '../logs/generated-log';
+
+// A short run keeps the suite quick; 120 ticks of 5 ms still cross the fault window below.
+const run = generatedRun(120);
+const { doc, header } = run;
+const mapping = runLogMapping(doc, TOLERANCES);
+const jointNames = doc.hand.fingers.flatMap((f) => f.joints.map((j) => j.name));
+const FAULTY_JOINT = jointNames[4]!;
+/** An offset far past the 0.05 rad/s tolerance, added to one joint's logged commanded rate over ticks 40 to 79. */
+const FAULT_OFFSET = 0.5;
+
+let sheetId: string;
+let teamId: string;
+let reviewer: Identity;
+let viewer: Identity;
+let outsider: Identity;
+
+async function upload(text: string | Uint8Array, fileName = 'fenwick-line2.csv'): Promise<string> {
+  const database = await getDatabase();
+  const bytes: Uint8Array<ArrayBuffer> = typeof text === 'string' ? new TextEncoder().encode(text) : new Uint8Array(text);
+  const stored = await storeLogUpload(database, getLogStorage(), {
+    sheet: { id: sheetId, teamId },
+    fileName,
+    body: new Blob([bytes]).stream(),
+    declaredLength: null,
+    limit: MAX_LOG_BYTES,
+    actor: { userId: reviewer.user.id },
+  });
+  if (!stored.ok) throw new Error(stored.error.message);
+  return stored.value.id;
+}
+
+function post(logId: string, body: unknown, identity: Identity | null = reviewer) {
+  return callRoute(comparisonsRoute.POST, { method: 'POST', path: `/api/sheets/${sheetId}/logs/${logId}/comparisons`, params: { sheetId, logId }, body, identity });
+}
+
+function list(logId: string, identity: Identity | null = reviewer) {
+  return callRoute(comparisonsRoute.GET, { path: `/api/sheets/${sheetId}/logs/${logId}/comparisons`, params: { sheetId, logId }, identity });
+}
+
+async function compared(logId: string, body: unknown = { mapping }): Promise<LogComparisonRecord> {
+  const response = await post(logId, body);
+  if (response.status !== 201) throw new Error(`${response.status} ${await response.text()}`);
+  return response.json();
+}
+
+let cleanLogId: string;
+
+beforeAll(async () => {
+  const database = await getDatabase();
+  teamId = await demoTeamId();
+  ({ sheetId } = await createTestSheet(database, teamId, 'Log comparison test sheet', doc));
+  [reviewer, viewer] = await Promise.all([demoIdentity('reviewer'), demoIdentity('viewer')]);
+  const other = await addTestMember('owner');
+  outsider = (await identityForUser(database, other.userId, Date.now()))!;
+  cleanLogId = await upload(logText(run));
+});
+
+describe('comparing a stored log with the sheet (route and service)', () => {
+  it('passes a log generated from the sheet\'s own run and stores the row tied to the latest revision (second route: the run itself)', async () => {
+    const record = await compared(cleanLogId);
+    expect(record.status).toBe('done');
+    expect(record.verdict).toBe('pass');
+    expect(record.revision).toBe(1);
+    expect(record.result!.samples).toBe(run.record.tickCount);
+    expect(record.result!.joints.map((j) => j.joint)).toEqual(jointNames);
+    const database = await getDatabase();
+    const [row] = await database.db.select().from(logComparisons).where(eq(logComparisons.id, record.id));
+    expect(row).toMatchObject({ sheetId, uploadId: cleanLogId, revision: 1, status: 'done', verdict: 'pass', createdBy: reviewer.user.id });
+  });
+
+  it('fails a log with a commanded-rate fault injected on one joint and names that joint', async () => {
+    const column = header.indexOf(`${FAULTY_JOINT}.commanded`);
+    const faulty = await upload(logText(run, (row, tick) => {
+      if (tick >= 40 && tick < 80) row[column]! += FAULT_OFFSET;
+    }));
+    const record = await compared(faulty);
+    expect(record.verdict).toBe('fail');
+    const joints = record.result!.joints;
+    const bad = joints.filter((j) => j.withinFraction < 1).map((j) => j.joint);
+    expect(bad).toEqual([FAULTY_JOINT]);
+    // The residual is the injected offset itself (logged - sheet, the rest of the row being the run's own numbers).
+    expect(joints.find((j) => j.joint === FAULTY_JOINT)!.max).toBeCloseTo(FAULT_OFFSET, 9);
+    expect(record.result!.verdict.reasons.join(' ')).toContain(FAULTY_JOINT);
+  });
+
+  it('judges against the revision asked for: revision 1 passes, a revision 2 with the gain doubled fails (the law is linear in the gain)', async () => {
+    const database = await getDatabase();
+    const changed = structuredClone(doc);
+    changed.motion.run.gain *= 2;
+    const saved = await saveRevision(database, { sheetId, baseRevision: 1, document: changed, actor: { userId: reviewer.user.id } });
+    expect(saved.ok).toBe(true);
+    const latest = await compared(cleanLogId);
+    const first = await compared(cleanLogId, { mapping, revision: 1 });
+    expect([latest.revision, latest.verdict]).toEqual([2, 'fail']);
+    expect([first.revision, first.verdict]).toEqual([1, 'pass']);
+    const rows = await database.db.select({ revision: logComparisons.revision }).from(logComparisons).where(and(eq(logComparisons.id, latest.id)));
+    expect(rows).toEqual([{ revision: 2 }]);
+    const missing = await post(cleanLogId, { mapping, revision: 99 });
+    expect(missing.status).toBe(404);
+    expect((await missing.json()).error.path).toBe('revision');
+  });
+
+  it('reads a gzip-compressed log (RFC 1952, node:zlib) to the same statistics as the plain one', async () => {
+    const gzipped = await upload(new Uint8Array(gzipSync(logText(run))), 'fenwick-line2.csv.gz');
+    const plain = await compared(cleanLogId, { mapping, revision: 1 });
+    const packed = await compared(gzipped, { mapping, revision: 1 });
+    expect(packed.result!.joints).toEqual(plain.result!.joints);
+    expect(packed.verdict).toBe('pass');
+  });
+
+  it('answers 422 with located issues (line, column) for a log with a cell that is not a number', async () => {
+    const column = header.indexOf(`${jointNames[1]}.angle`);
+    const bad = await upload(logText(run, (row, tick) => {
+      if (tick === 5) row[column] = Number.NaN;
+    }));
+    const response = await post(bad, { mapping });
+    expect(response.status).toBe(422);
+    const { error } = await response.json();
+    // Line 7: the header is line 1 and tick 5 the sixth data row; columns counted from 1 as in a spreadsheet.
+    expect(error.issues).toContainEqual(expect.objectContaining({ line: 7, column: column + 1 }));
+    const database = await getDatabase();
+    expect(await database.db.select().from(logComparisons).where(eq(logComparisons.uploadId, bad))).toEqual([]);
+  });
+
+  it('refuses a mapping field by field, naming mapping.<path>: a unit the schema lacks and a joint the sheet lacks', async () => {
+    const badUnit = structuredClone(mapping) as { time: { unit: string } };
+    badUnit.time.unit = 'fortnight';
+    const unit = await post(cleanLogId, { mapping: badUnit });
+    expect(unit.status).toBe(400);
+    expect((await unit.json()).error.path).toBe('mapping.time.unit');
+    const badJoint = structuredClone(mapping);
+    badJoint.joints[2]!.joint = 'no-such-joint';
+    const joint = await post(cleanLogId, { mapping: badJoint });
+    expect(joint.status).toBe(400);
+    const { error } = await joint.json();
+    expect(error.path).toBe('mapping.joints[2].joint');
+    expect(error.message).toContain('no-such-joint');
+  });
+
+  it('lets every member read and only log uploaders run; other teams see 404', async () => {
+    expect((await post(cleanLogId, { mapping }, viewer)).status).toBe(403);
+    expect((await post(cleanLogId, { mapping }, outsider)).status).toBe(404);
+    expect((await post(cleanLogId, { mapping }, null)).status).toBe(401);
+    expect((await list(cleanLogId, viewer)).status).toBe(200);
+    expect((await list(cleanLogId, outsider)).status).toBe(404);
+  });
+
+  it('offers the mapping last used by the team for a log with the same header, and none for another header', async () => {
+    const sameHeader = await upload(logText(run));
+    const offered: LogComparisonList = await (await list(sameHeader)).json();
+    expect(offered.items).toEqual([]);
+    expect(offered.savedMapping).toEqual(mapping);
+    const otherHeader = await upload('time_s,x,y,z\n0,0.1,0.05,0.12\n0.002,0.1,0.05,0.12\n');
+    expect(((await (await list(otherHeader)).json()) as LogComparisonList).savedMapping).toBeNull();
+  });
+
+  it('exports per-joint and per-contact statistics as CSV that reads back (RFC 4180, papaparse) to the stored numbers', async () => {
+    const record = await compared(cleanLogId, { mapping, revision: 1 });
+    const response = await callRoute(comparisonRoute.GET, {
+      path: `/api/sheets/${sheetId}/logs/${cleanLogId}/comparisons/${record.id}?format=csv`,
+      params: { sheetId, logId: cleanLogId, comparisonId: record.id },
+      identity: viewer,
+    });
+    expect(response.status).toBe(200);
+    expect(response.headers.get('content-type')).toContain('text/csv');
+    const table = Papa.parse<Record<string, string>>(await response.text(), { header: true, skipEmptyLines: true });
+    expect(table.meta.fields).toEqual([...COMPARISON_CSV_COLUMNS]);
+    const result = record.result!;
+    expect(table.data).toHaveLength(result.joints.length + result.contacts.length);
+    result.joints.forEach((joint, i) => {
+      expect(table.data[i]).toMatchObject({ kind: 'joint', name: joint.joint, unit: 'rad/s' });
+      expect(Number(table.data[i]!.rms)).toBe(joint.rms);
+      expect(Number(table.data[i]!.within_fraction)).toBe(joint.withinFraction);
+    });
+    expect(table.data.slice(result.joints.length).every((row) => row.kind === 'contact' && row.unit === 'm/s')).toBe(true);
+  });
+});
