@@ -267,7 +267,7 @@ function MappingForm({ sheetId, logId, header, jointNames, revision, initial, ca
             <ColumnSelect key={p} label={`Quaternion ${p} column`} header={header} value={quaternion[p]} onChange={setPart(p)} />
           ))}
         </fieldset>
-        <fieldset>
+        <fieldset className="min-w-0">
           <legend className={labelClass}>Joints of the sheet</legend>
           <div className="overflow-x-auto">
             <table className="text-xs">

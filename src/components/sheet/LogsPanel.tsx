@@ -91,7 +91,7 @@ function Logs({ sheetId, canUpload, jointNames, revision }: LogsPanelProps) {
               </button>
             )}
             {comparing === log.id && (
-              <div className="basis-full">
+              <div className="min-w-0 basis-full">
                 <LogComparisonPanel sheetId={sheetId} logId={log.id} fileName={log.fileName} jointNames={jointNames} revision={revision} canRun={canUpload} />
               </div>
             )}
