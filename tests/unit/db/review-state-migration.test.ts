@@ -57,7 +57,7 @@ describe('the words of checking', () => {
     await migrateDatabase(database, migrationsUpTo('0007'));
     const run = (text: string) => database.write((db) => db.run(sql.raw(text)));
     await run("INSERT INTO teams (id, slug, name) VALUES ('t', 't', 'Team')");
-    await run("INSERT INTO sheets (id, team_id, title, latest_revision) VALUES ('s', 't', 'Gripper roll', 3)");
+    await run("INSERT INTO sheets (id, team_id, title, latest_revision) VALUES ('s', 't', 'Parcel pinch', 3)");
     for (const [n, state] of [[1, 'approved'], [2, 'changes-requested'], [3, 'draft']] as const) {
       await run(`INSERT INTO sheet_revisions (id, sheet_id, number, inputs, review_state) VALUES ('r${n}', 's', ${n}, '{}', '${state}')`);
     }

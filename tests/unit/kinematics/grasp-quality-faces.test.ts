@@ -2,22 +2,8 @@ import { describe, expect, it } from 'vitest';
 import {
   computeGraspQuality, contactWrenches, MAX_FACE_COMBINATIONS, nearestFacet, nearestSumFacet, type GraspQualityInput,
 } from '../../../src/lib/kinematics/grasp-quality';
-import { directions, minkowskiOf, rayDistance } from './wrench-routes';
+import { directions, minkowskiOf, onSphere, rayDistance } from './wrench-routes';
 
-const radius = 0.03;
-/** Contacts on a 30 mm sphere at the given azimuths and elevations (rad), outward normals through the centre. */
-function onSphere(placements: number[][], friction: number, coneEdges: number, torsionalFriction = 0): GraspQualityInput {
-  const points: number[] = [], normals: number[] = [];
-  for (const [azimuth, elevation] of placements) {
-    const n = [Math.cos(elevation) * Math.cos(azimuth), Math.cos(elevation) * Math.sin(azimuth), Math.sin(elevation)];
-    normals.push(...n);
-    points.push(...n.map((c) => radius * c));
-  }
-  return {
-    origin: [0.002, -0.001, 0.001], points, normals, friction: placements.map(() => friction),
-    contactCount: placements.length, coneEdges, torsionalFriction,
-  };
-}
 
 const tilted = [[0, 0.2], [2.1, -0.1], [4.2, 0.3]];
 

@@ -5,6 +5,7 @@
  */
 import { expect } from 'vitest';
 import { solve, type Coefficients } from 'yalps';
+import type { GraspQualityInput } from '../../../src/lib/kinematics/grasp-quality';
 
 /**
  * Independent route: the linear program "largest t with t u in the wrench set" (solved by yalps),
@@ -53,4 +54,19 @@ export function minkowskiOf(perContact: number[][][]): number[][] {
   let sums: number[][] = [[0, 0, 0, 0, 0, 0]];
   for (const generators of perContact) sums = sums.flatMap((s) => [s, ...generators.map((g) => s.map((x, j) => x + g[j]))]);
   return sums;
+}
+
+const radius = 0.03;
+/** Contacts on a 30 mm sphere at the given azimuths and elevations (rad), outward normals through the centre. */
+export function onSphere(placements: number[][], friction: number, coneEdges: number, torsionalFriction = 0): GraspQualityInput {
+  const points: number[] = [], normals: number[] = [];
+  for (const [azimuth, elevation] of placements) {
+    const n = [Math.cos(elevation) * Math.cos(azimuth), Math.cos(elevation) * Math.sin(azimuth), Math.sin(elevation)];
+    normals.push(...n);
+    points.push(...n.map((c) => radius * c));
+  }
+  return {
+    origin: [0.002, -0.001, 0.001], points, normals, friction: placements.map(() => friction),
+    contactCount: placements.length, coneEdges, torsionalFriction,
+  };
 }

@@ -10,6 +10,7 @@ import { s3LogStorage, s3SettingsFrom, type LogStorage, type S3Settings } from '
 import { deleteLogUpload, getLogUpload, storeLogUpload } from '../../../src/lib/server/log-uploads';
 import { MAX_LOG_BYTES } from '../../../src/lib/validation/log-uploads';
 import { demoIdentity, demoTeamId } from '../../helpers/api-context';
+import { chunkedStream } from '../../helpers/streams';
 import { freePort, makeTempDir } from '../../helpers/temp';
 import { createTestSheet } from '../../helpers/test-sheets';
 
@@ -20,6 +21,8 @@ import { createTestSheet } from '../../helpers/test-sheets';
 
 const BUCKET = 'fenwick-controller-logs';
 const MIB = 1024 * 1024;
+/** Bodies arrive in 256 KiB pieces, so a multipart upload sees many reads per 5 MiB part. */
+const S3_CHUNKS = { chunkSize: 256 * 1024 };
 
 let server: S3rver;
 let settings: S3Settings;
@@ -38,19 +41,6 @@ function fenwickLog(bytes: number): Uint8Array {
     size += line.length + 1;
   }
   return new TextEncoder().encode(`${lines.join('\n')}\n`);
-}
-
-function streamOf(bytes: Uint8Array, failAfter?: number): ReadableStream<Uint8Array> {
-  const chunkSize = 256 * 1024;
-  let offset = 0;
-  return new ReadableStream({
-    pull(controller) {
-      if (failAfter !== undefined && offset >= failAfter) return controller.error(new Error('connection reset by the client'));
-      if (offset >= bytes.length) return controller.close();
-      controller.enqueue(bytes.slice(offset, offset + chunkSize));
-      offset += chunkSize;
-    },
-  });
 }
 
 async function objectKeys(): Promise<string[]> {
@@ -98,7 +88,7 @@ describe('log storage on S3 (s3rver)', () => {
 
   it('stores a gzip log through the upload service, previews it decompressed, and deletes row and object', async () => {
     const text = 't,px\n0.000,0.10\n0.001,0.11\n';
-    const stored = await upload(streamOf(new Uint8Array(gzipSync(text))));
+    const stored = await upload(chunkedStream(new Uint8Array(gzipSync(text)), S3_CHUNKS));
     if (!stored.ok) throw new Error(stored.error.message);
     expect(stored.value.contentType).toBe('application/gzip');
     expect(await objectKeys()).toContain(`${sheet.teamId}/${stored.value.id}`);
@@ -111,17 +101,17 @@ describe('log storage on S3 (s3rver)', () => {
 
   it('leaves no object when the client breaks off after two parts were sent', async () => {
     const before = await objectKeys();
-    const refused = await upload(streamOf(fenwickLog(14 * MIB), 11 * MIB));
+    const refused = await upload(chunkedStream(fenwickLog(14 * MIB), { ...S3_CHUNKS, failAfter: 11 * MIB }));
     expect(refused.ok).toBe(false);
     expect(await objectKeys()).toEqual(before);
   }, 60_000);
 
   it('leaves no object for an over-size log or a refused file type', async () => {
     const before = await objectKeys();
-    const tooLarge = await upload(streamOf(fenwickLog(6 * MIB)), 5.5 * MIB);
+    const tooLarge = await upload(chunkedStream(fenwickLog(6 * MIB), S3_CHUNKS), 5.5 * MIB);
     expect(tooLarge.ok || tooLarge.error.kind).toBe('too-large');
     // PNG signature (ISO/IEC 15948, section 5.2): not a CSV.
-    const png = await upload(streamOf(Uint8Array.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a])));
+    const png = await upload(chunkedStream(Uint8Array.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]), S3_CHUNKS));
     expect(png.ok || png.error.kind).toBe('invalid');
     expect(await objectKeys()).toEqual(before);
   }, 60_000);

@@ -16,6 +16,7 @@ import * as logRoute from '../../../src/pages/api/sheets/[sheetId]/logs/[logId]'
 import { addTestMember, callRoute, demoIdentity, demoTeamId } from '../../helpers/api-context';
 import { createTestSheet } from '../../helpers/test-sheets';
 import { identityForUser } from '../../../src/lib/server/identity';
+import { chunkedStream } from '../../helpers/streams';
 
 const encoder = new TextEncoder();
 
@@ -29,18 +30,6 @@ function fenwickLog(rows: number): string {
   return `${lines.join('\n')}\n`;
 }
 
-/** A request body that arrives in `chunkSize` pieces, then ends or (with `failAfter`) breaks off like a dropped connection. */
-function streamOf(bytes: Uint8Array, { chunkSize = 16 * 1024, failAfter }: { chunkSize?: number; failAfter?: number } = {}): ReadableStream<Uint8Array> {
-  let offset = 0;
-  return new ReadableStream({
-    pull(controller) {
-      if (failAfter !== undefined && offset >= failAfter) return controller.error(new Error('connection reset by the client'));
-      if (offset >= bytes.length) return controller.close();
-      controller.enqueue(bytes.slice(offset, offset + chunkSize));
-      offset += chunkSize;
-    },
-  });
-}
 
 /** Every file under `folder`, relative, including half-written `.part` files. */
 function filesUnder(folder: string): string[] {
@@ -72,7 +61,7 @@ describe('log upload service (disk storage)', () => {
     return storeLogUpload(database, storage, {
       sheet,
       fileName,
-      body: body instanceof Uint8Array ? streamOf(body) : body,
+      body: body instanceof Uint8Array ? chunkedStream(body) : body,
       declaredLength,
       limit,
       actor: { userId: reviewer.user.id },
@@ -97,7 +86,7 @@ describe('log upload service (disk storage)', () => {
   it('hashes and stores a log of many chunks exactly as sent (second route: one-shot SHA-256 of the whole file)', async () => {
     const bytes = encoder.encode(fenwickLog(40_000));
     expect(bytes.length).toBeGreaterThan(1024 * 1024);
-    const stored = await upload(streamOf(bytes, { chunkSize: 7_919 }));
+    const stored = await upload(chunkedStream(bytes, { chunkSize: 7_919 }));
     if (!stored.ok) throw new Error(stored.error.message);
     expect(stored.value.byteSize).toBe(bytes.length);
     expect(stored.value.sha256).toBe(createHash('sha256').update(bytes).digest('hex'));
@@ -147,7 +136,7 @@ describe('log upload service (disk storage)', () => {
   it('refuses a log past the limit while it streams (no Content-Length), keeping no row and no file', async () => {
     const before = (await rowsOfSheet(sheet.id)).length;
     const filesBefore = filesUnder(folder).length;
-    const refused = await upload(streamOf(encoder.encode(fenwickLog(2_000)), { chunkSize: 1024 }), { limit: 8 * 1024 });
+    const refused = await upload(chunkedStream(encoder.encode(fenwickLog(2_000)), { chunkSize: 1024 }), { limit: 8 * 1024 });
     expect(refused.ok).toBe(false);
     if (refused.ok) return;
     expect(refused.error.kind).toBe('too-large');
@@ -177,7 +166,7 @@ describe('log upload service (disk storage)', () => {
     const before = (await rowsOfSheet(sheet.id)).length;
     const filesBefore = filesUnder(folder).length;
     const bytes = encoder.encode(fenwickLog(20_000));
-    const refused = await upload(streamOf(bytes, { failAfter: 200 * 1024 }));
+    const refused = await upload(chunkedStream(bytes, { failAfter: 200 * 1024 }));
     expect(refused.ok).toBe(false);
     if (refused.ok) return;
     expect(refused.error).toMatchObject({ kind: 'invalid', path: '(body)' });
