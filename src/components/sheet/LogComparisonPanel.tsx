@@ -1,6 +1,6 @@
-import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import { useMemo, useRef, useState, type ChangeEvent } from 'react';
-import LineChart from '../charts/LineChart';
+import { useQuery, useQueryClient } from '@tanstack/react-query';
+import { useRef, useState, type ChangeEvent } from 'react';
+import ComparisonResultView from './ComparisonResultView';
 import { FormError, labelClass, primaryButton, secondaryButton } from '../form-parts';
 import { SafetyCaution } from './SafetyCaution';
 import { requestJson } from '../../lib/client/api';
@@ -89,99 +89,6 @@ function JointRow({ joint, header, draft, setDraft }: { joint: string; header: r
       <td><ColumnSelect label={`${joint} measured rate column`} header={header} value={entry.measuredRate?.column ?? NONE} onChange={column('measuredRate', 'rad/s')} /></td>
       <td><UnitSelect label={`${joint} measured rate unit`} units={rateUnits} value={entry.measuredRate?.unit ?? 'rad/s'} onChange={unit('measuredRate')} /></td>
     </tr>
-  );
-}
-
-const digits = (value: number | null) => (value === null || !Number.isFinite(value) ? '—' : Number(value.toPrecision(4)).toString());
-
-/** Per series of the decimated plot data: x and y with each bucket's smallest and largest value, so spikes survive decimation. */
-function envelope(series: LogComparison['series'], label: string): { x: number[]; y: number[] } | null {
-  const s = series.labels.indexOf(label);
-  if (s < 0) return null;
-  const x: number[] = [], y: number[] = [];
-  series.from.forEach((from, b) => {
-    x.push(from, series.to[b]!);
-    y.push(series.min[s]![b]!, series.max[s]![b]!);
-  });
-  return { x, y };
-}
-
-function ComparisonResult({ record }: { record: Wire<LogComparisonRecord> }) {
-  const result = record.result as LogComparison | null;
-  if (!result) return <p className="text-sm text-graphite">Status: {record.status}</p>;
-  const within = result.verdict.withinTolerance;
-  return (
-    <div className="mt-4 space-y-4" data-comparison-result>
-      <div className={`border-l-4 px-3 py-2 ${within ? 'border-verdigris' : 'border-sienna'}`} data-verdict={within ? 'pass' : 'fail'}>
-        <p className="font-semibold">{within ? 'Within tolerance' : 'Outside tolerance'} · revision {record.revision} · {result.samples} samples</p>
-        <ul className="mt-1 list-disc pl-5 text-sm">
-          {result.verdict.reasons.map((reason) => (
-            <li key={reason}>{reason}</li>
-          ))}
-        </ul>
-      </div>
-      <table className="w-full text-left text-xs" data-joint-table>
-        <caption className="text-left font-mono text-xs uppercase tracking-[0.2em]">Commanded rate, logged − sheet (rad/s)</caption>
-        <thead>
-          <tr><th>Joint</th><th>RMS</th><th>Max</th><th>Max at (s)</th><th>Within</th></tr>
-        </thead>
-        <tbody>
-          {result.joints.map((j) => (
-            <tr key={j.joint} className={j.withinFraction < 1 ? 'text-sienna' : ''}>
-              <td className="font-mono">{j.joint}</td><td className="num">{digits(j.rms)}</td><td className="num">{digits(j.max)}</td>
-              <td className="num">{digits(j.maxAt)}</td><td className="num">{(j.withinFraction * 100).toFixed(1)} %</td>
-            </tr>
-          ))}
-        </tbody>
-      </table>
-      <table className="w-full text-left text-xs" data-contact-table>
-        <caption className="text-left font-mono text-xs uppercase tracking-[0.2em]">Slip at each contact (mm/s)</caption>
-        <thead>
-          <tr><th>Finger</th><th>RMS</th><th>Max</th><th>Max at (s)</th><th>Within</th></tr>
-        </thead>
-        <tbody>
-          {result.contacts.map((c) => (
-            <tr key={c.finger}>
-              <td className="font-mono">{c.finger}</td>
-              {c.computed ? (
-                <>
-                  <td className="num">{digits(c.rms * 1000)}</td><td className="num">{digits(c.max * 1000)}</td>
-                  <td className="num">{digits(c.maxAt)}</td><td className="num">{(c.withinFraction * 100).toFixed(1)} %</td>
-                </>
-              ) : (
-                <td colSpan={4} className="text-graphite">{c.reason}</td>
-              )}
-            </tr>
-          ))}
-        </tbody>
-      </table>
-      <ComparisonCharts result={result} />
-    </div>
-  );
-}
-
-function ComparisonCharts({ result }: { result: LogComparison }) {
-  const charts = useMemo(() => {
-    const joints = result.joints.flatMap((j) => {
-      const logged = envelope(result.series, `${j.joint} logged`);
-      const sheet = envelope(result.series, `${j.joint} sheet`);
-      return logged && sheet ? [{ joint: j.joint, x: logged.x, series: [{ label: 'logged', values: logged.y }, { label: 'sheet', values: sheet.y }] }] : [];
-    });
-    const slips = result.contacts.filter((c) => c.computed).flatMap((c) => {
-      const slip = envelope(result.series, `${c.finger} slip`);
-      return slip ? [{ label: c.finger, x: slip.x, values: slip.y.map((v) => v * 1000) }] : [];
-    });
-    return { joints, slips };
-  }, [result]);
-  return (
-    <div className="grid gap-4" data-comparison-charts>
-      {charts.joints.map((chart) => (
-        <LineChart key={chart.joint} title={`${chart.joint}: commanded rate`} x={chart.x} xLabel="s" yLabel="rad/s" series={chart.series} syncKey="log-comparison" />
-      ))}
-      {charts.slips.length > 0 && (
-        <LineChart title="Slip per contact" x={charts.slips[0]!.x} xLabel="s" yLabel="mm/s" series={charts.slips.map(({ label, values }) => ({ label, values }))} syncKey="log-comparison" />
-      )}
-    </div>
   );
 }
 
@@ -314,7 +221,7 @@ function MappingForm({ sheetId, logId, header, jointNames, revision, initial, ca
         </div>
         {form.submitting && <p className="text-xs text-graphite" role="status">Streaming the log through the sheet, sample by sample…</p>}
       </form>
-      {latest && <ComparisonResult record={latest} />}
+      {latest && (latest.result ? <ComparisonResultView result={latest.result as LogComparison} revision={latest.revision} /> : <p className="text-sm text-graphite">Status: {latest.status}</p>)}
     </>
   );
 }
