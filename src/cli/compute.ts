@@ -9,15 +9,15 @@
  * decompressed): JSON prints the comparison (per joint, per contact, warnings, verdict), CSV the
  * per-sample table; exit codes 0 within tolerance, 3 outside, 1 bad sheet, mapping or log, 2 bad usage.
  */
-import { createReadStream, readFileSync, realpathSync } from 'node:fs';
+import { createReadStream, realpathSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { createGunzip } from 'node:zlib';
 import { ROTATION_METRICS, runSheet, sweepSheet, toPlainRunRecord, warningsAt, type RunRecord, type SweepRecord } from '../lib/kinematics';
 import { compareLog, describeComparisonError, type ComparedSample } from '../lib/logs/compare';
-import { parseLogMapping, type LogMapping } from '../lib/logs/mapping';
-import { jsonSyntaxIssue } from '../lib/server/sheet-files';
+import { comparisonReportJson, verdictExitCode } from '../lib/logs/report';
 import { evaluateSheet, type SheetEvaluation } from '../lib/sheet/evaluate';
 import { csvTable, FINGER_COLUMNS, fingerRows, maxJointCount, rateColumns, resultsCsv } from '../lib/sheet/results-csv';
+import { InputError, readJsonFile, readMappingFile } from './input-files';
 
 const USAGE = 'usage: npm run compute -- path/to/sheet.json [--format json|csv] [--run] [--sweep] [--log log.csv[.gz] --mapping mapping.json]';
 
@@ -31,7 +31,6 @@ interface Options {
 }
 
 class UsageError extends Error {}
-class InputError extends Error {}
 
 function parseArguments(args: readonly string[]): Options {
   let file: string | undefined;
@@ -63,24 +62,6 @@ function parseArguments(args: readonly string[]): Options {
   if ((log === undefined) !== (mapping === undefined)) throw new UsageError('--log and --mapping go together');
   if (log !== undefined && (run || sweep)) throw new UsageError('--log compares a log; it does not combine with --run or --sweep');
   return { file, format, run, sweep, ...(log !== undefined ? { log, mapping } : {}) };
-}
-
-function readJsonFile(file: string): unknown {
-  let text: string;
-  try {
-    text = readFileSync(file, 'utf8');
-  } catch (error) {
-    throw new InputError(`${file}: cannot read the file (${(error as NodeJS.ErrnoException).code ?? String(error)})`);
-  }
-  let json: unknown;
-  try {
-    json = JSON.parse(text);
-  } catch (error) {
-    const issue = jsonSyntaxIssue(text);
-    if (issue?.line === undefined) throw new InputError(`${file}: invalid JSON: ${(error as Error).message}`);
-    throw new InputError(`${file}:${issue.line}:${issue.column}: invalid JSON: ${issue.message}`);
-  }
-  return json;
 }
 
 function evaluateFile(file: string): SheetEvaluation {
@@ -119,23 +100,11 @@ export interface CommandOutput {
   stderr: (text: string) => void;
 }
 
-function readMappingFile(file: string): LogMapping {
-  const read = parseLogMapping(readJsonFile(file));
-  if (!read.ok) {
-    const lines = read.issues.map((issue) => `${file}: ${issue.path}: ${issue.message}`);
-    throw new InputError(`${lines.join('\n')}\n${file}: invalid log mapping (${read.issues.length} issue${read.issues.length === 1 ? '' : 's'})`);
-  }
-  return read.mapping;
-}
-
-/** Exit status of a comparison outside tolerance. */
-export const OUTSIDE_TOLERANCE = 3;
-
 const csvNumber = (value: number) => (Number.isNaN(value) ? '' : String(value));
 
 /** Compares the log with the sheet and prints the comparison (JSON) or the per-sample table (CSV), streaming the table as it goes. */
 async function compareCommand(options: Options & { log: string; mapping: string }, evaluation: SheetEvaluation, io: CommandOutput): Promise<number> {
-  const mapping = readMappingFile(options.mapping);
+  const { mapping } = readMappingFile(options.mapping);
   const stream = createReadStream(options.log);
   const opened = await new Promise<NodeJS.ErrnoException | null>((resolve) => {
     stream.once('open', () => resolve(null));
@@ -179,8 +148,8 @@ async function compareCommand(options: Options & { log: string; mapping: string 
   }
   const comparison = compared.value;
   if (csv) flush();
-  else io.stdout(`${JSON.stringify({ title: evaluation.doc.title, comparison }, null, 2)}\n`);
-  return comparison.verdict.withinTolerance ? 0 : OUTSIDE_TOLERANCE;
+  else io.stdout(comparisonReportJson(evaluation.doc.title, comparison));
+  return verdictExitCode(comparison);
 }
 
 /** Runs the compute command on its arguments and resolves to the exit status (0 solved or within tolerance, 1 bad input, 2 bad usage, 3 outside tolerance). */
