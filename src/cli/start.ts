@@ -6,6 +6,7 @@ import { DEFAULT_DATABASE_URL } from '../consts';
 import { prepareDatabase } from '../lib/server/bootstrap';
 import { edgeListener, parseTrustedProxies, type EdgeSettings, type NodeHandler } from '../lib/server/edge';
 import { logStorageFromEnvironment } from '../lib/server/log-storage-backends';
+import { startLogSweeper } from '../lib/server/log-sweeper';
 import { localMailboxNotice, mailboxDir } from '../lib/server/local-mailbox';
 import { configuredPublicOrigin } from '../lib/server/public-origin';
 import { withStaticFiles } from '../lib/server/static-files';
@@ -23,8 +24,11 @@ try {
 const url = process.env.DATABASE_URL?.trim() || DEFAULT_DATABASE_URL;
 
 try {
-  const { database, seed } = await prepareDatabase(url, logStorageFromEnvironment(process.env));
-  database.close();
+  const logStorage = logStorageFromEnvironment(process.env);
+  const { database, seed } = await prepareDatabase(url, logStorage);
+  // Kept open for the sweeper: a crash between storing a log and recording it (or between
+  // forgetting it and removing its bytes) leaves bytes no row refers to, removed once now and then hourly.
+  startLogSweeper(database, logStorage);
   console.log(
     seed.seeded
       ? `Slipless: new database at ${url}, seeded the demo team (${seed.users} users, ${seed.sheets} sheets, ${seed.logs} controller logs).`

@@ -1,10 +1,10 @@
 /** The log storage backends, free of astro:env so that the start command (run outside Astro) can seed demo logs through them. */
 import { createWriteStream } from 'node:fs';
-import { mkdir, open, rename, rm } from 'node:fs/promises';
-import { dirname, isAbsolute, relative, resolve } from 'node:path';
+import { mkdir, open, opendir, rename, rm, stat } from 'node:fs/promises';
+import { dirname, isAbsolute, join, relative, resolve } from 'node:path';
 import { Readable } from 'node:stream';
 import { pipeline } from 'node:stream/promises';
-import { DeleteObjectCommand, GetObjectCommand, S3Client } from '@aws-sdk/client-s3';
+import { DeleteObjectCommand, GetObjectCommand, paginateListObjectsV2, S3Client } from '@aws-sdk/client-s3';
 import { Upload } from '@aws-sdk/lib-storage';
 import { DEFAULT_LOG_STORAGE_DIR } from '../../consts';
 
@@ -17,8 +17,19 @@ export interface LogStorage {
   put(key: string, body: Readable): Promise<void>;
   /** The stored bytes under `key`; rejects when there are none. */
   get(key: string): Promise<Readable>;
-  /** Removes `key`; removing what is not there is not an error. */
+  /** Removes `key` (and whatever of it a crash left half-written); removing what is not there is not an error. */
   delete(key: string): Promise<void>;
+  /**
+   * Every key in the storage with when it was last written, a page at a time (never the whole
+   * listing in memory), including logs still arriving or left half-written by a crash; for the
+   * sweeper that removes stored logs no upload row refers to.
+   */
+  list(): AsyncIterable<StoredLogKey>;
+}
+
+export interface StoredLogKey {
+  key: string;
+  modifiedAt: Date;
 }
 
 /** Keys are the server's own `team/upload` ids; anything that could climb out of the folder is refused. */
@@ -27,6 +38,33 @@ const SAFE_KEY = /^[\w-]+(\/[\w-]+)*$/;
 function checkedKey(key: string): string {
   if (!SAFE_KEY.test(key)) throw new Error(`Refusing the log storage key ${JSON.stringify(key)}.`);
   return key;
+}
+
+const PARTIAL = '.part';
+
+/** The files under `folder` (recursively) as keys relative to `root`, a `.part` file under the key it is being written for. */
+async function* filesUnder(root: string, folder: string): AsyncGenerator<StoredLogKey> {
+  let entries;
+  try {
+    entries = await opendir(folder);
+  } catch (error) {
+    if ((error as NodeJS.ErrnoException).code === 'ENOENT') return;
+    throw error;
+  }
+  for await (const entry of entries) {
+    const path = join(folder, entry.name);
+    if (entry.isDirectory()) {
+      yield* filesUnder(root, path);
+      continue;
+    }
+    if (!entry.isFile()) continue;
+    const key = relative(root, path).split(/[\\/]/).join('/');
+    const named = key.endsWith(PARTIAL) ? key.slice(0, -PARTIAL.length) : key;
+    if (!SAFE_KEY.test(named)) continue;
+    // A file removed since the folder was read is simply no longer listed.
+    const info = await stat(path).catch(() => null);
+    if (info) yield { key: named, modifiedAt: info.mtime };
+  }
 }
 
 /** Log storage in a folder on the server's disk; a file being written carries `.part` until it is complete. */
@@ -43,7 +81,7 @@ export function diskLogStorage(folder: string): LogStorage {
       const file = pathOf(key);
       await mkdir(dirname(file), { recursive: true, mode: 0o700 });
       // Written under another name first, so a reader never opens half a log and a crash leaves only a recognisable `.part`.
-      const partial = `${file}.part`;
+      const partial = `${file}${PARTIAL}`;
       try {
         await pipeline(body, createWriteStream(partial, { mode: 0o600 }));
         await rename(partial, file);
@@ -57,7 +95,12 @@ export function diskLogStorage(folder: string): LogStorage {
       return handle.createReadStream();
     },
     async delete(key) {
-      await rm(pathOf(key), { force: true });
+      const file = pathOf(key);
+      await rm(file, { force: true });
+      await rm(`${file}${PARTIAL}`, { force: true });
+    },
+    list() {
+      return filesUnder(root, root);
     },
   };
 }
@@ -94,6 +137,15 @@ export function s3LogStorage(settings: S3Settings): LogStorage {
     },
     async delete(key) {
       await client.send(new DeleteObjectCommand({ Bucket, Key: checkedKey(key) }));
+    },
+    // Parts of an interrupted multipart upload are no object and never listed here; the SDK aborts
+    // them on failure, and a bucket lifecycle rule (AbortIncompleteMultipartUpload) catches a crash.
+    async *list() {
+      for await (const page of paginateListObjectsV2({ client }, { Bucket })) {
+        for (const object of page.Contents ?? []) {
+          if (object.Key && SAFE_KEY.test(object.Key) && object.LastModified) yield { key: object.Key, modifiedAt: object.LastModified };
+        }
+      }
     },
   };
 }

@@ -3,7 +3,7 @@ import { DEFAULT_LOG_STORAGE_DIR } from '../../consts';
 import { diskLogStorage, s3LogStorage, s3SettingsFrom, type LogStorage } from './log-storage-backends';
 
 export { diskLogStorage, s3LogStorage, s3SettingsFrom } from './log-storage-backends';
-export type { LogStorage, S3Settings } from './log-storage-backends';
+export type { LogStorage, S3Settings, StoredLogKey } from './log-storage-backends';
 
 let configured: LogStorage | undefined;
 

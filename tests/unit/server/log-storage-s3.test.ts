@@ -1,4 +1,4 @@
-import { createHash } from 'node:crypto';
+import { createHash, randomUUID } from 'node:crypto';
 import { Readable } from 'node:stream';
 import { gzipSync } from 'node:zlib';
 import { buffer } from 'node:stream/consumers';
@@ -7,6 +7,7 @@ import S3rver from 's3rver';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { getDatabase } from '../../../src/lib/server/database';
 import { s3LogStorage, s3SettingsFrom, type LogStorage, type S3Settings } from '../../../src/lib/server/log-storage';
+import { ORPHAN_GRACE_MS, sweepOrphanedLogs } from '../../../src/lib/server/log-sweeper';
 import { deleteLogUpload, getLogUpload, storeLogUpload } from '../../../src/lib/server/log-uploads';
 import { MAX_LOG_BYTES } from '../../../src/lib/validation/log-uploads';
 import { demoIdentity, demoTeamId } from '../../helpers/api-context';
@@ -115,6 +116,47 @@ describe('log storage on S3 (s3rver)', () => {
     expect(png.ok || png.error.kind).toBe('invalid');
     expect(await objectKeys()).toEqual(before);
   }, 60_000);
+});
+
+describe('orphan sweep on S3 (s3rver)', () => {
+  const MINUTE_MS = 60_000;
+
+  async function listed(): Promise<Map<string, Date>> {
+    const found = new Map<string, Date>();
+    for await (const { key, modifiedAt } of storage.list()) found.set(key, modifiedAt);
+    return found;
+  }
+
+  it('lists every object in the bucket with the time S3 gives it', async () => {
+    const keys = Array.from({ length: 3 }, () => `${sheet.teamId}/${randomUUID()}`);
+    for (const key of keys) await storage.put(key, Readable.from([fenwickLog(1024)]));
+    const found = await listed();
+    for (const key of keys) {
+      expect(found.has(key)).toBe(true);
+      expect(Math.abs(found.get(key)!.getTime() - Date.now())).toBeLessThan(5 * MINUTE_MS);
+    }
+    expect([...found.keys()].sort()).toEqual((await objectKeys()).sort());
+    for (const key of keys) await storage.delete(key);
+  });
+
+  it('deletes an object no upload row refers to only once it is older than the grace period, and keeps a referenced log', async () => {
+    const stored = await upload(chunkedStream(fenwickLog(4096), S3_CHUNKS));
+    if (!stored.ok) throw new Error(stored.error.message);
+    const kept = `${sheet.teamId}/${stored.value.id}`;
+    const orphan = `${sheet.teamId}/${randomUUID()}`;
+    await storage.put(orphan, Readable.from([fenwickLog(4096)]));
+    const database = await getDatabase();
+    // S3 sets LastModified itself, so the sweep's clock is moved instead of the objects' times.
+    const fresh = await sweepOrphanedLogs(database, storage, { now: Date.now() + ORPHAN_GRACE_MS - 10 * MINUTE_MS });
+    expect(fresh.deleted).toEqual([]);
+    expect(await objectKeys()).toEqual(expect.arrayContaining([kept, orphan]));
+    const later = await sweepOrphanedLogs(database, storage, { now: Date.now() + ORPHAN_GRACE_MS + 10 * MINUTE_MS });
+    expect(later.deleted).toEqual([orphan]);
+    const left = await objectKeys();
+    expect(left).toContain(kept);
+    expect(left).not.toContain(orphan);
+    expect((await deleteLogUpload(database, storage, sheet.id, stored.value.id, { userId: uploaderId })).ok).toBe(true);
+  });
 });
 
 describe('S3 settings', () => {
