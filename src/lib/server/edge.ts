@@ -1,5 +1,5 @@
 import type { IncomingMessage, RequestListener, ServerResponse } from 'node:http';
-import { BlockList, isIP } from 'node:net';
+import { BlockList, isIP, type Socket } from 'node:net';
 import type { TLSSocket } from 'node:tls';
 import { securityHeaders } from './request-guard';
 
@@ -66,15 +66,78 @@ export function clientAddress(peer: string, forwardedFor: string | string[] | un
   return address;
 }
 
+const MIB = 1024 * 1024;
+
+/**
+ * How much of a refused request's unread body is read and discarded before its connection is
+ * closed: at most this many bytes, for at most `totalMs`, and no longer than `idleMs` without data.
+ * The same idea as a web server's "lingering close" (nginx: lingering_close, lingering_time 30 s,
+ * lingering_timeout 5 s).
+ */
+export const LINGER = { bytes: 64 * MIB, totalMs: 30_000, idleMs: 5_000 } as const;
+
+/**
+ * Closes a connection whose request body was not read to its end (an early 401, 403 or 413 sent
+ * with `connection: close`) without losing the answer. Node closes such a socket as soon as the
+ * answer is written; with the client's unsent body still arriving, the kernel then resets the
+ * connection, and a client that sends its whole body before reading (many do) gets EPIPE or a
+ * reset instead of the answer. Here the answer is written and the sending side shut, then what the
+ * client still sends is read and discarded, within LINGER, before the socket is destroyed.
+ */
+function lingeringClose(req: IncomingMessage, socket: Socket, limits: typeof LINGER): void {
+  if (socket.writable) socket.end();
+  let drained = 0;
+  const started = Date.now();
+  let idle: NodeJS.Timeout | undefined;
+  const close = () => {
+    clearTimeout(idle);
+    clearTimeout(total);
+    socket.destroy();
+  };
+  const total = setTimeout(close, limits.totalMs);
+  const waitIdle = () => {
+    clearTimeout(idle);
+    idle = setTimeout(close, Math.min(limits.idleMs, Math.max(0, limits.totalMs - (Date.now() - started))));
+  };
+  // The app stopped reading mid-body; whatever still listens for it is detached so the rest flows here and is dropped.
+  req.removeAllListeners('data');
+  req.removeAllListeners('readable');
+  req.on('data', (chunk: Buffer) => {
+    drained += chunk.byteLength;
+    if (drained > limits.bytes) close();
+    else waitIdle();
+  });
+  req.once('end', close);
+  req.once('error', close);
+  socket.once('close', () => {
+    clearTimeout(idle);
+    clearTimeout(total);
+  });
+  waitIdle();
+  req.resume();
+}
+
+/** Makes the server's close after a `connection: close` answer linger while the request's body is still arriving. */
+function lingerOnClose(req: IncomingMessage, limits: typeof LINGER): void {
+  const socket = req.socket;
+  // node:http ends a connection after an answer marked `connection: close` through destroySoon(), which destroys the socket once the answer is flushed.
+  socket.destroySoon = function destroySoon(this: Socket) {
+    if (req.complete || this.destroyed) return Object.getPrototypeOf(this).destroySoon.call(this);
+    lingeringClose(req, this, limits);
+  };
+}
+
 /**
  * The node:http listener in front of Astro. It decides which forwarding headers to believe
  * before Astro reads them (Astro takes X-Forwarded-For as clientAddress and X-Forwarded-Proto as
  * the URL's scheme from anyone): the client address goes on as the only X-Forwarded-For value,
  * the scheme only from a trusted proxy, and the host never (PUBLIC_ORIGIN names it). It also puts
- * the security headers on every response, including static files that never reach the middleware.
+ * the security headers on every response, including static files that never reach the middleware,
+ * and lets a refused request's body drain (within LINGER) before its connection closes.
  */
-export function edgeListener(handler: NodeHandler, { trustedProxies, publicOrigin }: EdgeSettings): RequestListener {
+export function edgeListener(handler: NodeHandler, { trustedProxies, publicOrigin }: EdgeSettings, linger: typeof LINGER = LINGER): RequestListener {
   return (req, res) => {
+    lingerOnClose(req, linger);
     const peer = req.socket.remoteAddress ?? '';
     const viaProxy = isTrusted(trustedProxies, plainAddress(peer));
     const scheme = viaProxy ? firstValue(req.headers['x-forwarded-proto']) : undefined;
