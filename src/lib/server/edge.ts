@@ -74,7 +74,13 @@ const MIB = 1024 * 1024;
  * The same idea as a web server's "lingering close" (nginx: lingering_close, lingering_time 30 s,
  * lingering_timeout 5 s).
  */
-export const LINGER = { bytes: 64 * MIB, totalMs: 30_000, idleMs: 5_000 } as const;
+export const LINGER: LingerLimits = { bytes: 64 * MIB, totalMs: 30_000, idleMs: 5_000 };
+
+export interface LingerLimits {
+  readonly bytes: number;
+  readonly totalMs: number;
+  readonly idleMs: number;
+}
 
 /**
  * Closes a connection whose request body was not read to its end (an early 401, 403 or 413 sent
@@ -84,7 +90,7 @@ export const LINGER = { bytes: 64 * MIB, totalMs: 30_000, idleMs: 5_000 } as con
  * reset instead of the answer. Here the answer is written and the sending side shut, then what the
  * client still sends is read and discarded, within LINGER, before the socket is destroyed.
  */
-function lingeringClose(req: IncomingMessage, socket: Socket, limits: typeof LINGER): void {
+function lingeringClose(req: IncomingMessage, socket: Socket, limits: LingerLimits): void {
   if (socket.writable) socket.end();
   let drained = 0;
   const started = Date.now();
@@ -118,7 +124,7 @@ function lingeringClose(req: IncomingMessage, socket: Socket, limits: typeof LIN
 }
 
 /** Makes the server's close after a `connection: close` answer linger while the request's body is still arriving. */
-function lingerOnClose(req: IncomingMessage, limits: typeof LINGER): void {
+function lingerOnClose(req: IncomingMessage, limits: LingerLimits): void {
   const socket = req.socket;
   // node:http ends a connection after an answer marked `connection: close` through destroySoon(), which destroys the socket once the answer is flushed.
   socket.destroySoon = function destroySoon(this: Socket) {
@@ -135,7 +141,7 @@ function lingerOnClose(req: IncomingMessage, limits: typeof LINGER): void {
  * the security headers on every response, including static files that never reach the middleware,
  * and lets a refused request's body drain (within LINGER) before its connection closes.
  */
-export function edgeListener(handler: NodeHandler, { trustedProxies, publicOrigin }: EdgeSettings, linger: typeof LINGER = LINGER): RequestListener {
+export function edgeListener(handler: NodeHandler, { trustedProxies, publicOrigin }: EdgeSettings, linger: LingerLimits = LINGER): RequestListener {
   return (req, res) => {
     lingerOnClose(req, linger);
     const peer = req.socket.remoteAddress ?? '';
