@@ -1,7 +1,6 @@
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { gzipSync } from 'node:zlib';
 import { eq } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { runCheckLogCommand } from '../../../src/cli/check-log';
@@ -22,25 +21,14 @@ import { demoIdentity, demoTeamId } from '../../helpers/api-context';
 import { freePort } from '../../helpers/temp';
 import { startRouteServer } from '../../helpers/route-server';
 import { createTestSheet } from '../../helpers/test-sheets';
-import { generatedRun, logText, TOLERANCES } from '../logs/generated-log';
+import { generatedRun, TOLERANCES, writeLogFiles } from '../logs/generated-log';
 
 // Exit statuses as a CI gate reads them (issue #12, and common practice for a check command, as in
 // GNU diff): 0 within tolerance, 3 outside, 1 bad input, 2 a failure to reach or be let into the server.
 
 const scratch = mkdtempSync(join(tmpdir(), 'check-log-cli-'));
 const run = generatedRun(300);
-const sheetFile = join(scratch, 'tri-radial.json');
-const mappingFile = join(scratch, 'mapping.json');
-const cleanLog = join(scratch, 'clean.csv');
-const faultyLog = join(scratch, 'faulty.csv.gz');
-const badLog = join(scratch, 'bad.csv');
-const commanded = run.header.indexOf('north-base.commanded');
-writeFileSync(sheetFile, JSON.stringify(run.doc));
-writeFileSync(mappingFile, JSON.stringify(runLogMapping(run.doc, TOLERANCES)));
-writeFileSync(cleanLog, logText(run));
-// A commanded-rate fault of 0.3 rad/s on one joint for 50 ticks, far past the 0.05 rad/s tolerance.
-writeFileSync(faultyLog, new Uint8Array(gzipSync(logText(run, (row, tick) => { if (tick >= 100 && tick < 150) row[commanded]! += 0.3; }))));
-writeFileSync(badLog, logText(run).replace(/\n0\.01,/, '\nzero,'));
+const { sheetFile, mappingFile, cleanLog, faultyLog, badLog } = writeLogFiles(scratch, run);
 
 let server: Awaited<ReturnType<typeof startRouteServer>>;
 let sheetId: string;

@@ -4,10 +4,9 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterAll, describe, expect, it } from 'vitest';
-import { gzipSync } from 'node:zlib';
 import { runComputeCommand } from '../../../src/cli/compute';
 import { runLogMapping } from '../../../src/lib/logs/generate';
-import { generatedRun, logText, TOLERANCES } from '../logs/generated-log';
+import { generatedRun, TOLERANCES, writeLogFiles } from '../logs/generated-log';
 
 // Conventions checked (common practice): exit status 0 on success, 1 on bad input, 2 on bad usage (as in
 // GNU grep/diff); CSV rows of equal width with RFC 4180 quoting; error messages located as file:line:column.
@@ -182,17 +181,7 @@ describe('compute CLI at the edges of the inputs', () => {
 describe('compute CLI comparing a controller log (--log, --mapping)', () => {
   // Exit status 0 within tolerance and 3 outside, as a CI gate reads it (issue #12); 1 for bad input.
   const run = generatedRun(300);
-  const sheetFile = join(scratch, 'tri-radial.json');
-  const mappingFile = join(scratch, 'mapping.json');
-  const cleanLog = join(scratch, 'clean.csv');
-  const faultyLog = join(scratch, 'faulty.csv.gz');
-  const badLog = join(scratch, 'bad.csv');
-  const column = run.header.indexOf('north-base.commanded');
-  writeFileSync(sheetFile, JSON.stringify(run.doc));
-  writeFileSync(mappingFile, JSON.stringify(runLogMapping(run.doc, TOLERANCES)));
-  writeFileSync(cleanLog, logText(run));
-  writeFileSync(faultyLog, new Uint8Array(gzipSync(logText(run, (row, tick) => { if (tick >= 100 && tick < 150) row[column]! += 0.3; }))));
-  writeFileSync(badLog, logText(run).replace(/\n0\.01,/, '\nzero,'));
+  const { sheetFile, mappingFile, cleanLog, faultyLog, badLog } = writeLogFiles(scratch, run);
 
   it('prints the comparison as JSON and exits 0 for a log within tolerance', async () => {
     const outcome = await compute(sheetFile, '--log', cleanLog, '--mapping', mappingFile);

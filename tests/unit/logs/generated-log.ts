@@ -1,4 +1,7 @@
 /** Logs written from a sheet's own run (the core's runSheet), with faults added to chosen rows, for the comparison tests. */
+import { writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { gzipSync } from 'node:zlib';
 import { runSheet, type RunRecord } from '../../../src/lib/kinematics/index';
 import { runLogHeader, runLogMapping, runLogRow } from '../../../src/lib/logs/generate';
 import { parseLogMapping, type LogMapping } from '../../../src/lib/logs/mapping';
@@ -25,4 +28,34 @@ export function logText(run: ReturnType<typeof generatedRun>, change?: (row: num
     lines.push(row.join(','));
   }
   return `${lines.join('\n')}\n`;
+}
+
+/** Where writeLogFiles put the files the command-line tests read. */
+export interface LogFiles {
+  sheetFile: string;
+  mappingFile: string;
+  /** The run's own log: within tolerance. */
+  cleanLog: string;
+  /** gzip; a commanded-rate fault of 0.3 rad/s on "north-base" for ticks 100 to 149, six times the 0.05 rad/s tolerance. */
+  faultyLog: string;
+  /** A time cell reading "zero" on line 4. */
+  badLog: string;
+}
+
+/** Writes the run's sheet, its mapping and three logs of it into `folder`, for tests of the commands that compare logs. */
+export function writeLogFiles(folder: string, run: ReturnType<typeof generatedRun>): LogFiles {
+  const files: LogFiles = {
+    sheetFile: join(folder, 'tri-radial.json'),
+    mappingFile: join(folder, 'mapping.json'),
+    cleanLog: join(folder, 'clean.csv'),
+    faultyLog: join(folder, 'faulty.csv.gz'),
+    badLog: join(folder, 'bad.csv'),
+  };
+  const commanded = run.header.indexOf('north-base.commanded');
+  writeFileSync(files.sheetFile, JSON.stringify(run.doc));
+  writeFileSync(files.mappingFile, JSON.stringify(runLogMapping(run.doc, TOLERANCES)));
+  writeFileSync(files.cleanLog, logText(run));
+  writeFileSync(files.faultyLog, new Uint8Array(gzipSync(logText(run, (row, tick) => { if (tick >= 100 && tick < 150) row[commanded]! += 0.3; }))));
+  writeFileSync(files.badLog, logText(run).replace(/\n0\.01,/, '\nzero,'));
+  return files;
 }
