@@ -12,8 +12,11 @@
  */
 import { createReadStream, realpathSync } from 'node:fs';
 import { stat } from 'node:fs/promises';
+import { request as httpRequest, type IncomingHttpHeaders } from 'node:http';
+import { request as httpsRequest } from 'node:https';
 import { basename } from 'node:path';
 import { Readable } from 'node:stream';
+import { pipeline } from 'node:stream/promises';
 import { fileURLToPath } from 'node:url';
 import type { ErrorBody, LogComparisonRecord, LogUploadSummary, SheetPageData, Wire } from '../lib/contract';
 import type { LogComparison } from '../lib/logs/compare';
@@ -40,10 +43,9 @@ interface Options {
   format: 'json' | 'csv';
 }
 
-/** Where the command writes, what it reads the token from, and how it reaches the server (tests pass their own). */
+/** Where the command writes and what it reads the token from. */
 export interface CheckLogIo extends CommandOutput {
   env: { SLIPLESS_TOKEN?: string };
-  fetch?: typeof fetch;
 }
 
 /** A failure that ends the command with `code` after printing `message`. */
@@ -102,12 +104,48 @@ function parseArguments(args: readonly string[]): Options {
   return { url, sheet: values['--sheet']!, log: values['--log']!, mapping: values['--mapping']!, format, ...(revision !== undefined ? { revision } : {}) };
 }
 
-/** Talks to the API with the token, one request at a time; every answer outside 2xx becomes a CheckFailure. */
+/** An answer read whole: the API's answers are small (JSON, a statistics table). */
+interface Answer {
+  status: number;
+  headers: IncomingHttpHeaders;
+  text: string;
+}
+
+/**
+ * One HTTP request with node:http(s); a stream body is piped with backpressure, so a log is read
+ * only as fast as the server takes it (Node's fetch keeps a streamed request body in memory to its
+ * end, about the log's size). An answer that comes before the body is all sent (a refusal) ends
+ * the upload. Redirects are not followed: they would carry the token elsewhere.
+ */
+function send(url: URL, method: string, headers: Record<string, string>, body?: string | Readable): Promise<Answer> {
+  return new Promise((resolve, reject) => {
+    const request = (url.protocol === 'https:' ? httpsRequest : httpRequest)(url, { method, headers }, (response) => {
+      let text = '';
+      // Decoded by the stream, so a character split between two chunks stays whole.
+      response.setEncoding('utf8');
+      response.on('data', (chunk: string) => (text += chunk));
+      response.on('error', reject);
+      response.on('end', () => {
+        resolve({ status: response.statusCode ?? 0, headers: response.headers, text });
+        // Whatever of the log is unsent is not wanted any more.
+        if (body instanceof Readable && !body.readableEnded) request.destroy();
+      });
+    });
+    request.on('error', reject);
+    if (body instanceof Readable) {
+      // After an answer the upload may break off (the server closes once it refused); only a failure before it counts.
+      pipeline(body, request).catch((error: unknown) => {
+        if (!request.writableFinished) reject(error);
+      });
+    } else request.end(body);
+  });
+}
+
+/** Talks to the API with the token, one request at a time; every answer but the expected one becomes a CheckFailure. */
 class ApiClient {
   constructor(
     private readonly origin: URL,
     private readonly token: string,
-    private readonly fetchImpl: typeof fetch,
     /** The mapping file, named beside the server's issues about the mapping's fields. */
     private readonly mappingFile: string,
   ) {}
@@ -117,30 +155,29 @@ class ApiClient {
     return new URL(path.replace(/^\//, ''), this.origin.href.endsWith('/') ? this.origin : `${this.origin.href}/`);
   }
 
-  /** The response to `init` at `path`, which must have `expected` status; `subject` names what went wrong in messages. */
-  async request(path: string, init: RequestInit & { duplex?: 'half' }, expected: number, subject: { label: string; file?: string }): Promise<Response> {
+  /** The answer to `method` at `path`, which must have `expected` status; `subject` names what went wrong in messages. */
+  async request(
+    path: string,
+    { method, headers = {}, body }: { method: string; headers?: Record<string, string>; body?: string | Readable },
+    expected: number,
+    subject: { label: string; file?: string },
+  ): Promise<Answer> {
     const url = this.url(path);
-    let response: Response;
+    let answer: Answer;
     try {
-      response = await this.fetchImpl(url, {
-        ...init,
-        // A redirect would re-send the token (and a streamed log cannot be re-sent): give the final origin instead.
-        redirect: 'manual',
-        headers: { ...(init.headers as Record<string, string> | undefined), authorization: `Bearer ${this.token}`, accept: 'application/json' },
-      });
+      answer = await send(url, method, { ...headers, authorization: `Bearer ${this.token}`, accept: 'application/json' }, body);
     } catch (error) {
-      const cause = error instanceof Error && error.cause instanceof Error ? error.cause.message : error instanceof Error ? error.message : String(error);
-      throw new CheckFailure(TRANSPORT, `cannot reach ${url.origin} (${cause})`);
+      throw new CheckFailure(TRANSPORT, `cannot reach ${url.origin} (${error instanceof Error ? error.message : String(error)})`);
     }
-    if (response.status === expected) return response;
-    throw await refusal(response, url, subject, this.mappingFile);
+    if (answer.status === expected) return answer;
+    throw refusal(answer, url, subject, this.mappingFile);
   }
 }
 
 /** The server's error body, or null for an answer that is not one (a proxy's page). */
-async function errorBody(response: Response): Promise<Wire<ErrorBody>['error'] | null> {
+function errorBody(answer: Answer): Wire<ErrorBody>['error'] | null {
   try {
-    const body = (await response.json()) as Partial<Wire<ErrorBody>>;
+    const body = JSON.parse(answer.text) as Partial<Wire<ErrorBody>>;
     return body.error && typeof body.error.message === 'string' ? body.error : null;
   } catch {
     return null;
@@ -155,12 +192,12 @@ function issueLines(error: Wire<ErrorBody>['error'], subject: { label: string; f
 }
 
 /** The failure for an unexpected answer: bad input for 4xx about the request, transport for the rest. */
-async function refusal(response: Response, url: URL, subject: { label: string; file?: string }, mappingFile: string): Promise<CheckFailure> {
-  const { status } = response;
+function refusal(answer: Answer, url: URL, subject: { label: string; file?: string }, mappingFile: string): CheckFailure {
+  const { status } = answer;
   if (status >= 300 && status < 400) {
-    return new CheckFailure(TRANSPORT, `${url.origin} answered ${status} redirecting to ${response.headers.get('location') ?? 'elsewhere'}: give that origin as --url`);
+    return new CheckFailure(TRANSPORT, `${url.origin} answered ${status} redirecting to ${answer.headers.location ?? 'elsewhere'}: give that origin as --url`);
   }
-  const error = await errorBody(response);
+  const error = errorBody(answer);
   const said = error?.message ?? `HTTP ${status}`;
   if (status === 401) return new CheckFailure(TRANSPORT, `the server refused the token in SLIPLESS_TOKEN (${said})`);
   if (status === 403) return new CheckFailure(TRANSPORT, `the token may not do this (${said}): ${subject.label} needs a token with the ${UPLOADING_ROLES} role`);
@@ -172,7 +209,7 @@ async function refusal(response: Response, url: URL, subject: { label: string; f
 }
 
 /** The log as a stream for the request body, and its size for Content-Length (so an over-size log is refused before it is sent). */
-async function openLog(file: string): Promise<{ body: ReadableStream<Uint8Array>; size: number }> {
+async function openLog(file: string): Promise<{ body: Readable; size: number }> {
   let size: number;
   try {
     const info = await stat(file);
@@ -186,16 +223,16 @@ async function openLog(file: string): Promise<{ body: ReadableStream<Uint8Array>
     stream.once('open', () => resolve());
     stream.once('error', (error: NodeJS.ErrnoException) => reject(new CheckFailure(BAD_INPUT, `${file}: cannot read the file (${error.code ?? String(error)})`)));
   });
-  return { body: Readable.toWeb(stream) as ReadableStream<Uint8Array>, size };
+  return { body: stream, size };
 }
 
 async function check(options: Options, token: string, io: CheckLogIo): Promise<number> {
   const { raw: mapping } = readMappingFile(options.mapping);
-  const api = new ApiClient(options.url, token, io.fetch ?? fetch, options.mapping);
+  const api = new ApiClient(options.url, token, options.mapping);
   const sheetPath = `api/sheets/${encodeURIComponent(options.sheet)}`;
   // Asked first so a wrong token, sheet or revision fails before a large log is sent.
   const sheetResponse = await api.request(`${sheetPath}${options.revision ? `?revision=${options.revision}` : ''}`, { method: 'GET' }, 200, { label: `sheet ${options.sheet}` });
-  const { revision } = (await sheetResponse.json()) as Pick<Wire<SheetPageData>, 'revision'>;
+  const { revision } = JSON.parse(sheetResponse.text) as Pick<Wire<SheetPageData>, 'revision'>;
   const inputs = revision.inputs as { title?: unknown };
   // The document's own title at that revision, as `compute` prints the title of the document it read.
   const title = typeof inputs.title === 'string' ? inputs.title : '';
@@ -203,11 +240,11 @@ async function check(options: Options, token: string, io: CheckLogIo): Promise<n
   const log = await openLog(options.log);
   const uploaded = await api.request(
     `${sheetPath}/logs?fileName=${encodeURIComponent(basename(options.log))}`,
-    { method: 'POST', body: log.body, duplex: 'half', headers: { 'content-type': 'application/octet-stream', 'content-length': String(log.size) } },
+    { method: 'POST', body: log.body, headers: { 'content-type': 'application/octet-stream', 'content-length': String(log.size) } },
     201,
     { label: 'uploading the log', file: options.log },
   );
-  const upload = (await uploaded.json()) as Wire<LogUploadSummary>;
+  const upload = JSON.parse(uploaded.text) as Wire<LogUploadSummary>;
 
   const logPath = `${sheetPath}/logs/${encodeURIComponent(upload.id)}`;
   const compared = await api.request(
@@ -216,12 +253,12 @@ async function check(options: Options, token: string, io: CheckLogIo): Promise<n
     201,
     { label: 'comparing the log', file: options.log },
   );
-  const record = (await compared.json()) as Wire<LogComparisonRecord>;
+  const record = JSON.parse(compared.text) as Wire<LogComparisonRecord>;
   if (!record.result) throw new CheckFailure(TRANSPORT, `the server stored comparison ${record.id} without a result`);
   const comparison = record.result as LogComparison;
   if (options.format === 'csv') {
     const table = await api.request(`${logPath}/comparisons/${encodeURIComponent(record.id)}?format=csv`, { method: 'GET' }, 200, { label: 'the comparison table' });
-    io.stdout(await table.text());
+    io.stdout(table.text);
   } else io.stdout(comparisonReportJson(title, comparison));
   io.stderr(`check-log: revision ${record.revision} of sheet ${options.sheet}: ${comparison.verdict.withinTolerance ? 'within tolerance' : 'outside tolerance'}${comparison.verdict.reasons.length ? `\n  ${comparison.verdict.reasons.join('\n  ')}` : ''}\n`);
   return verdictExitCode(comparison);

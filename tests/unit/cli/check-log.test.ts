@@ -1,4 +1,4 @@
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { eq } from 'drizzle-orm';
@@ -155,11 +155,16 @@ describe('check-log CLI through the API with a token', () => {
     expect(await uploadCount()).toBe(before);
   });
 
-  it('exits 2 when a viewer token is refused the upload, and nothing is stored', async () => {
+  it('exits 2 when a viewer token is refused the upload, answered before the log is sent, and nothing is stored', async () => {
     const before = await uploadCount();
-    const outcome = await checkLog(against(cleanLog), tokens.viewer);
-    expect(outcome.code).toBe(2);
-    expect(outcome.stderr).toMatch(/needs a token with the owner or reviewer role/);
+    // 32 MiB: the refusal comes before the server reads any of it, and the command stops sending then.
+    const large = join(scratch, 'large.csv');
+    writeFileSync(large, readFileSync(cleanLog, 'utf8').repeat(Math.ceil((32 * 1024 * 1024) / statSync(cleanLog).size)));
+    for (const log of [cleanLog, large]) {
+      const outcome = await checkLog(against(log), tokens.viewer);
+      expect(outcome.code).toBe(2);
+      expect(outcome.stderr).toMatch(/needs a token with the owner or reviewer role/);
+    }
     expect(await uploadCount()).toBe(before);
   });
 
