@@ -174,6 +174,15 @@ class ApiClient {
   }
 }
 
+/** A successful answer's JSON; a page that is not JSON (a proxy's, say) is a transport failure. */
+function answerJson<T>(answer: Answer, subject: string): T {
+  try {
+    return JSON.parse(answer.text) as T;
+  } catch {
+    throw new CheckFailure(TRANSPORT, `the answer for ${subject} is not JSON (is --url the Slipless app itself?): ${answer.text.slice(0, 80)}`);
+  }
+}
+
 /** The server's error body, or null for an answer that is not one (a proxy's page). */
 function errorBody(answer: Answer): Wire<ErrorBody>['error'] | null {
   try {
@@ -232,7 +241,7 @@ async function check(options: Options, token: string, io: CheckLogIo): Promise<n
   const sheetPath = `api/sheets/${encodeURIComponent(options.sheet)}`;
   // Asked first so a wrong token, sheet or revision fails before a large log is sent.
   const sheetResponse = await api.request(`${sheetPath}${options.revision ? `?revision=${options.revision}` : ''}`, { method: 'GET' }, 200, { label: `sheet ${options.sheet}` });
-  const { revision } = JSON.parse(sheetResponse.text) as Pick<Wire<SheetPageData>, 'revision'>;
+  const { revision } = answerJson<Pick<Wire<SheetPageData>, 'revision'>>(sheetResponse, `sheet ${options.sheet}`);
   const inputs = revision.inputs as { title?: unknown };
   // The document's own title at that revision, as `compute` prints the title of the document it read.
   const title = typeof inputs.title === 'string' ? inputs.title : '';
@@ -244,7 +253,7 @@ async function check(options: Options, token: string, io: CheckLogIo): Promise<n
     201,
     { label: 'uploading the log', file: options.log },
   );
-  const upload = JSON.parse(uploaded.text) as Wire<LogUploadSummary>;
+  const upload = answerJson<Wire<LogUploadSummary>>(uploaded, 'uploading the log');
 
   const logPath = `${sheetPath}/logs/${encodeURIComponent(upload.id)}`;
   const compared = await api.request(
@@ -253,7 +262,7 @@ async function check(options: Options, token: string, io: CheckLogIo): Promise<n
     201,
     { label: 'comparing the log', file: options.log },
   );
-  const record = JSON.parse(compared.text) as Wire<LogComparisonRecord>;
+  const record = answerJson<Wire<LogComparisonRecord>>(compared, 'comparing the log');
   if (!record.result) throw new CheckFailure(TRANSPORT, `the server stored comparison ${record.id} without a result`);
   const comparison = record.result as LogComparison;
   if (options.format === 'csv') {

@@ -1,4 +1,6 @@
 import { mkdtempSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { createServer } from 'node:http';
+import type { AddressInfo } from 'node:net';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { eq } from 'drizzle-orm';
@@ -168,11 +170,18 @@ describe('check-log CLI through the API with a token', () => {
     expect(await uploadCount()).toBe(before);
   });
 
-  it('exits 2 when the server cannot be reached, and 1 for a token given as a flag', async () => {
+  it('exits 2 when the server cannot be reached or is not the app, and 1 for a token given as a flag', async () => {
     const closedPort = await freePort();
     const unreachable = await checkLog(['--url', `http://127.0.0.1:${closedPort}`, '--sheet', sheetId, '--log', cleanLog, '--mapping', mappingFile]);
     expect(unreachable.code).toBe(2);
     expect(unreachable.stderr).toContain(`cannot reach http://127.0.0.1:${closedPort}`);
+    // Something other than the app at --url (a proxy's or a portal's page) answering 200 with HTML.
+    const portal = createServer((_, res) => res.writeHead(200, { 'content-type': 'text/html' }).end('<html>Sign in to the network</html>'));
+    await new Promise<void>((listening) => portal.listen(0, '127.0.0.1', listening));
+    const notTheApp = await checkLog(['--url', `http://127.0.0.1:${(portal.address() as AddressInfo).port}`, '--sheet', sheetId, '--log', cleanLog, '--mapping', mappingFile]);
+    await new Promise((closed) => portal.close(closed));
+    expect(notTheApp.code).toBe(2);
+    expect(notTheApp.stderr).toMatch(/is not JSON/);
     const flag = await checkLog([...against(cleanLog), '--token', 'slp_secret']);
     expect(flag.code).toBe(1);
     expect(flag.stderr).toMatch(/read from SLIPLESS_TOKEN only/);
