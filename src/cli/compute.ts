@@ -17,7 +17,7 @@ import { compareLog, describeComparisonError, type ComparedSample } from '../lib
 import { parseLogMapping, type LogMapping } from '../lib/logs/mapping';
 import { jsonSyntaxIssue } from '../lib/server/sheet-files';
 import { evaluateSheet, type SheetEvaluation } from '../lib/sheet/evaluate';
-import { csvTable, FINGER_COLUMNS, fingerRows, maxJointCount, rateColumns, resultsCsv } from '../lib/sheet/results-csv';
+import { comparedSampleHeader, comparedSampleLine, csvTable, FINGER_COLUMNS, fingerRows, maxJointCount, rateColumns, resultsCsv } from '../lib/sheet/results-csv';
 
 const USAGE = 'usage: npm run compute -- path/to/sheet.json [--format json|csv] [--run] [--sweep] [--log log.csv[.gz] --mapping mapping.json]';
 
@@ -131,8 +131,6 @@ function readMappingFile(file: string): LogMapping {
 /** Exit status of a comparison outside tolerance. */
 export const OUTSIDE_TOLERANCE = 3;
 
-const csvNumber = (value: number) => (Number.isNaN(value) ? '' : String(value));
-
 /** Compares the log with the sheet and prints the comparison (JSON) or the per-sample table (CSV), streaming the table as it goes. */
 async function compareCommand(options: Options & { log: string; mapping: string }, evaluation: SheetEvaluation, io: CommandOutput): Promise<number> {
   const mapping = readMappingFile(options.mapping);
@@ -154,17 +152,10 @@ async function compareCommand(options: Options & { log: string; mapping: string 
   let compared;
   try {
     compared = await compareLog(evaluation.doc, mapping, source, {
-      onColumns: csv
-        ? ({ joints, fingers }) => {
-            const header = ['line', 'time_s', ...joints.flatMap((j) => [`${j}.logged_rad_s`, `${j}.sheet_rad_s`, `${j}.residual_rad_s`]), ...fingers.map((f) => `${f}.slip_m_s`), 'warnings'];
-            buffered.push(`${csvTable(header, [])}\n`);
-          }
-        : undefined,
+      onColumns: csv ? (columns) => buffered.push(comparedSampleHeader(columns)) : undefined,
       onSample: csv
         ? (sample: ComparedSample) => {
-            const cells = [sample.line, sample.time];
-            for (let c = 0; c < sample.logged.length; c++) cells.push(sample.logged[c]!, sample.sheet[c]!, sample.residual[c]!);
-            buffered.push(`${cells.join(',')},${Array.from(sample.slip, csvNumber).join(',')},${sample.warnings.join(' ')}\n`);
+            buffered.push(comparedSampleLine(sample));
             if (buffered.length >= 1000) flush();
           }
         : undefined,
