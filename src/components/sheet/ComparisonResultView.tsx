@@ -3,10 +3,9 @@ import LineChart, { type LineSeries } from '../charts/LineChart';
 import { button } from './sheet-styles';
 import type { LogComparison } from '../../lib/logs/compare';
 import { jointPlots, seriesBounds, slipPlot, warningBands, type ComparisonPlot } from '../../lib/view/comparison-plots';
+import { formatValue } from '../../lib/view/comparison-side-by-side';
 import { PALETTE, SEVERITY_COLOURS } from '../../lib/view/palette';
 import { showsAll, type XRange } from '../../lib/view/zoom';
-
-const digits = (value: number | null) => (value === null || !Number.isFinite(value) ? '—' : Number(value.toPrecision(4)).toString());
 
 /** One comparison's verdict, per-joint and per-contact statistics and charts; `revision` is the sheet revision it judged against. */
 export default function ComparisonResultView({ result, revision }: { result: LogComparison; revision: number }) {
@@ -29,8 +28,8 @@ export default function ComparisonResultView({ result, revision }: { result: Log
         <tbody>
           {result.joints.map((j) => (
             <tr key={j.joint} className={j.withinFraction < 1 ? 'text-sienna' : ''}>
-              <td className="font-mono">{j.joint}</td><td className="num">{digits(j.rms)}</td><td className="num">{digits(j.max)}</td>
-              <td className="num">{digits(j.maxAt)}</td><td className="num">{(j.withinFraction * 100).toFixed(1)} %</td>
+              <td className="font-mono">{j.joint}</td><td className="num">{formatValue(j.rms)}</td><td className="num">{formatValue(j.max)}</td>
+              <td className="num">{formatValue(j.maxAt)}</td><td className="num">{(j.withinFraction * 100).toFixed(1)} %</td>
             </tr>
           ))}
         </tbody>
@@ -46,8 +45,8 @@ export default function ComparisonResultView({ result, revision }: { result: Log
               <td className="font-mono">{c.finger}</td>
               {c.computed ? (
                 <>
-                  <td className="num">{digits(c.rms * 1000)}</td><td className="num">{digits(c.max * 1000)}</td>
-                  <td className="num">{digits(c.maxAt)}</td><td className="num">{(c.withinFraction * 100).toFixed(1)} %</td>
+                  <td className="num">{formatValue(c.rms * 1000)}</td><td className="num">{formatValue(c.max * 1000)}</td>
+                  <td className="num">{formatValue(c.maxAt)}</td><td className="num">{(c.withinFraction * 100).toFixed(1)} %</td>
                 </>
               ) : (
                 <td colSpan={4} className="text-graphite">{c.reason}</td>
