@@ -6,7 +6,7 @@
  */
 import { PassThrough, Readable } from 'node:stream';
 import { createGunzip } from 'node:zlib';
-import { and, desc, eq } from 'drizzle-orm';
+import { and, desc, eq, sql } from 'drizzle-orm';
 import Papa from 'papaparse';
 import type { Database } from '../../db';
 import { logComparisons, uploads, users } from '../../db/schema';
@@ -162,6 +162,41 @@ export async function listSheetComparisons(database: Database, sheet: { id: stri
     .where(eq(logComparisons.sheetId, sheet.id))
     .orderBy(desc(logComparisons.createdAt), desc(logComparisons.id));
   return { latestRevision: sheet.latestRevision, items };
+}
+
+/** A log's latest comparison with a revision, for the report: the result without its plot series. */
+export interface RevisionLogComparison {
+  id: string;
+  uploadId: string;
+  fileName: string;
+  createdByName: string | null;
+  createdAt: Date;
+  result: Omit<LogComparison, 'series'>;
+}
+
+/** Per log of the sheet, its newest comparison with `revision` (logs never compared with it are left out), in file-name order. */
+export async function latestComparisonsOfRevision(database: Database, sheetId: string, revision: number): Promise<RevisionLogComparison[]> {
+  const rows = await database.db
+    .select({
+      id: logComparisons.id,
+      uploadId: logComparisons.uploadId,
+      fileName: uploads.fileName,
+      createdByName: users.name,
+      createdAt: logComparisons.createdAt,
+      // The plot series are most of a stored result; the report's tables do not need them.
+      result: sql<string | null>`json_remove(${logComparisons.result}, '$.series')`,
+    })
+    .from(logComparisons)
+    .innerJoin(uploads, eq(uploads.id, logComparisons.uploadId))
+    .leftJoin(users, eq(users.id, logComparisons.createdBy))
+    .where(and(eq(logComparisons.sheetId, sheetId), eq(logComparisons.revision, revision), eq(logComparisons.status, 'done')))
+    .orderBy(desc(logComparisons.createdAt), desc(logComparisons.id));
+  const latest = new Map<string, RevisionLogComparison>();
+  for (const { result, ...row } of rows) {
+    if (result === null || latest.has(row.uploadId)) continue;
+    latest.set(row.uploadId, { ...row, result: JSON.parse(result) as Omit<LogComparison, 'series'> });
+  }
+  return [...latest.values()].sort((a, b) => a.fileName.localeCompare(b.fileName) || a.uploadId.localeCompare(b.uploadId));
 }
 
 /** One comparison of one of a sheet's logs; not-found (naming `comparisonId`) otherwise. */

@@ -7,7 +7,7 @@ import type { LogComparisonList, LogComparisonRecord, SheetComparisonList } from
 import type { Identity } from '../../../src/lib/server/access';
 import { getDatabase } from '../../../src/lib/server/database';
 import { identityForUser } from '../../../src/lib/server/identity';
-import { COMPARISON_CSV_COLUMNS } from '../../../src/lib/server/log-comparisons';
+import { COMPARISON_CSV_COLUMNS, latestComparisonsOfRevision } from '../../../src/lib/server/log-comparisons';
 import { getLogStorage } from '../../../src/lib/server/log-storage';
 import { storeLogUpload } from '../../../src/lib/server/log-uploads';
 import { saveRevision } from '../../../src/lib/server/sheets';
@@ -263,5 +263,25 @@ describe('comparing a stored log with the sheet (route and service)', () => {
     expect(times).toEqual([...times].sort((a, b) => b - a));
     expect(listed.items.every((item) => !('result' in item))).toBe(true);
     expect((await callRoute(sheetComparisonsRoute.GET, { path: `/api/sheets/${sheetId}/comparisons`, params: { sheetId }, identity: outsider })).status).toBe(404);
+  });
+
+  it('gives the report each log\'s newest comparison with a revision, without plot series, and leaves out logs never compared with it', async () => {
+    const database = await getDatabase();
+    const older = await compared(cleanLogId, { mapping, revision: 1 });
+    const newer = await compared(cleanLogId, { mapping, revision: 1 });
+    const uncompared = await upload(logText(run), 'zz-never-compared.csv');
+    const rows = await latestComparisonsOfRevision(database, sheetId, 1);
+    const forClean = rows.filter((row) => row.uploadId === cleanLogId);
+    expect(forClean).toHaveLength(1);
+    expect(forClean[0]!.id).toBe(newer.id);
+    expect(forClean[0]!.id).not.toBe(older.id);
+    expect(forClean[0]!.result.joints).toEqual(newer.result!.joints);
+    expect(forClean[0]!.result.verdict).toEqual(newer.result!.verdict);
+    expect('series' in forClean[0]!.result).toBe(false);
+    expect(rows.some((row) => row.uploadId === uncompared)).toBe(false);
+    expect(new Set(rows.map((row) => row.uploadId)).size).toBe(rows.length);
+    // Revision 2 has its own latest comparisons: the one judged against it earlier in this file fails.
+    const second = await latestComparisonsOfRevision(database, sheetId, 2);
+    expect(second.find((row) => row.uploadId === cleanLogId)!.result.verdict.withinTolerance).toBe(false);
   });
 });
