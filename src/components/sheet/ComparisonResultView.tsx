@@ -1,5 +1,6 @@
 import { useId, useMemo, useState } from 'react';
 import LineChart, { type LineSeries } from '../charts/LineChart';
+import { SeverityKey } from '../charts/WarningStrip';
 import { button } from './sheet-styles';
 import type { LogComparison } from '../../lib/logs/compare';
 import { jointPlots, seriesBounds, slipPlot, warningBands, type ComparisonPlot } from '../../lib/view/comparison-plots';
@@ -98,11 +99,7 @@ function ComparisonCharts({ result }: { result: LogComparison }) {
         {charts.bands.length > 0 && (
           <span className="flex items-center gap-3" data-warning-bands={charts.bands.length}>
             Shaded: worst warning raised
-            {(['note', 'caution', 'singular'] as const).map((level) => (
-              <span key={level} className="flex items-center gap-1">
-                <span className="inline-block h-2.5 w-2.5 opacity-40" style={{ background: SEVERITY_COLOURS[level] }} /> {level}
-              </span>
-            ))}
+            <SeverityKey faded />
           </span>
         )}
       </div>
