@@ -23,9 +23,9 @@ afterAll(async () => {
 const FILE_NAME = 'fenwick-line4-replay.csv';
 const TITLE = 'Bearing housing replay check (log comparison browser test)';
 
-/** Opens the log's comparison panel on the sheet page and waits for its mapping form. */
-async function openComparison(page: Page, sheetId: string): Promise<{ panel: Locator; row: Locator; comparison: Locator }> {
-  await page.goto(`${baseUrl()}/sheets/${sheetId}`, { waitUntil: 'networkidle' });
+/** Opens the log's comparison panel (on the sheet page loaded afresh unless `reload` is false) and waits for its mapping form. */
+async function openComparison(page: Page, sheetId: string, reload = true): Promise<{ panel: Locator; row: Locator; comparison: Locator }> {
+  if (reload) await page.goto(`${baseUrl()}/sheets/${sheetId}`, { waitUntil: 'networkidle' });
   const panel = page.locator('[data-logs-panel]');
   await panel.scrollIntoViewIfNeeded();
   const row = panel.locator('[data-log]', { hasText: FILE_NAME });
@@ -51,7 +51,7 @@ function timeWheelZoom(comparison: Locator, deltaY: number): Promise<number> {
 const median = (values: number[]) => [...values].sort((a, b) => a - b)[Math.floor(values.length / 2)]!;
 
 describe('comparing a controller log with the sheet', () => {
-  it('the reviewer compares a log, reads the plots, zooms, re-runs on the author\'s new revision, sees both side by side, signs the revision, and the report lists the log', async () => {
+  it('the reviewer compares a log, reads the plots, zooms, re-runs on the author\'s new revision, sees both side by side, signs the revision, and the report lists the log', { timeout: 240_000 }, async () => {
     const author = await browser.newPage();
     await signIn(author, 'editor@fenwick.example', DEMO_PASSWORD);
     const me = await (await author.request.get(`${baseUrl()}/api/me`)).json();
@@ -74,7 +74,8 @@ describe('comparing a controller log with the sheet', () => {
     const logsPanel = page.locator('[data-logs-panel]');
     await logsPanel.scrollIntoViewIfNeeded();
     await logsPanel.locator('[data-log-input]').setInputFiles({ name: FILE_NAME, mimeType: 'text/csv', buffer: log });
-    let { panel, row, comparison } = await openComparison(page, sheetId);
+    // The upload is still streaming: open the panel without leaving the page.
+    let { panel, row, comparison } = await openComparison(page, sheetId, false);
     // Prefilled from the column names the generator writes.
     expect(await comparison.getByLabel('Time column').inputValue()).toBe('t');
     expect(await comparison.getByLabel('Quaternion w column').inputValue()).toBe('qw');

@@ -70,7 +70,7 @@ export default function ComparisonSideBySide({ left, right }: { left: SideOfComp
           </tr>
         </tbody>
       </table>
-      <p className="text-xs text-graphite">Highlighted: the right differs as shown, green where better (smaller residual or slip, more within tolerance), red where worse.</p>
+      <p className="text-xs text-graphite">Highlighted: the right differs as shown by more than a thousandth of the tolerance, green where better (smaller residual or slip, more within tolerance), red where worse.</p>
       <PairTable caption="Commanded rate residual, logged − sheet" unit="rad/s" nameHeader="Joint" rows={view.joints} />
       <PairTable caption="Slip at each contact" unit="mm/s" nameHeader="Finger" rows={view.contacts} />
     </section>

@@ -1,9 +1,10 @@
 /**
  * Two comparisons of the same log side by side (typically of two revisions): per joint the RMS,
  * largest residual and share within tolerance, per contact the same of the slip, and the verdicts;
- * each pair says whether it differs as shown (four significant digits, what the reader sees) and
- * whether the right-hand one is better or worse (a smaller residual or slip, a larger share
- * within tolerance is better).
+ * each pair says whether it differs as shown (four significant digits, what the reader sees) by
+ * more than a thousandth of the tolerance (below that it is rounding in the re-solve, not a
+ * change of behaviour) and whether the right-hand one is better or worse (a smaller residual or
+ * slip, a larger share within tolerance is better).
  */
 import type { LogComparison } from '../logs/compare';
 
@@ -43,24 +44,28 @@ export interface SideBySide {
 
 type Statistics = { rms: number | null; max: number | null; within: number | null };
 
-/** How the right value stands against the left; `higherIsBetter` for shares within tolerance. */
-function pair(left: number | null, right: number | null, higherIsBetter: boolean): MetricPair {
+/** Differences below this share of the tolerance are taken as rounding. */
+export const NOISE_SHARE = 1e-3;
+
+/** How the right value stands against the left; `higherIsBetter` for shares within tolerance; differences up to `noise` count as none. */
+function pair(left: number | null, right: number | null, higherIsBetter: boolean, noise = 0): MetricPair {
   let change: Change;
   if (left === null && right === null) change = 'same';
   else if (right === null) change = 'only-left';
   else if (left === null) change = 'only-right';
-  else if (formatValue(left) === formatValue(right)) change = 'same';
+  else if (formatValue(left) === formatValue(right) || Math.abs(right - left) <= noise) change = 'same';
   else change = (right > left) === higherIsBetter ? 'better' : 'worse';
   return { left, right, change };
 }
 
-/** Pairs entries by name: the left's order, then names only the right has. */
-function pairByName(left: Map<string, Statistics>, right: Map<string, Statistics>): StatisticsPair[] {
+/** Pairs entries by name: the left's order, then names only the right has; `tolerance` in the statistics' unit. */
+function pairByName(left: Map<string, Statistics>, right: Map<string, Statistics>, tolerance: number): StatisticsPair[] {
+  const noise = tolerance * NOISE_SHARE;
   const names = [...left.keys(), ...[...right.keys()].filter((name) => !left.has(name))];
   const none: Statistics = { rms: null, max: null, within: null };
   return names.map((name) => {
     const a = left.get(name) ?? none, b = right.get(name) ?? none;
-    return { name, rms: pair(a.rms, b.rms, false), max: pair(a.max, b.max, false), within: pair(a.within, b.within, true) };
+    return { name, rms: pair(a.rms, b.rms, false, noise), max: pair(a.max, b.max, false, noise), within: pair(a.within, b.within, true) };
   });
 }
 
@@ -78,8 +83,8 @@ export function sideBySide(left: SideOfComparison, right: SideOfComparison): Sid
     left: { revision: left.revision, withinTolerance: a },
     right: { revision: right.revision, withinTolerance: b },
     verdict: a === b ? 'same' : b ? 'better' : 'worse',
-    joints: pairByName(jointStatistics(left.result), jointStatistics(right.result)),
-    contacts: pairByName(contactStatistics(left.result), contactStatistics(right.result)),
+    joints: pairByName(jointStatistics(left.result), jointStatistics(right.result), Math.min(left.result.tolerances.rate, right.result.tolerances.rate)),
+    contacts: pairByName(contactStatistics(left.result), contactStatistics(right.result), 1000 * Math.min(left.result.tolerances.slip, right.result.tolerances.slip)),
   };
 }
 

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { compareLog, type LogComparison } from '../../../src/lib/logs/compare';
-import { anyDifference, formatValue, sideBySide } from '../../../src/lib/view/comparison-side-by-side';
+import { anyDifference, formatValue, NOISE_SHARE, sideBySide } from '../../../src/lib/view/comparison-side-by-side';
 import { generatedRun, logText } from '../logs/generated-log';
 
 const run = generatedRun(200);
@@ -69,5 +69,14 @@ describe('sideBySide', () => {
     const back = sideBySide({ revision: 2, result: fewer }, { revision: 1, result: clean });
     expect(back.joints.at(-1)!.name).toBe(clean.joints[0]!.joint);
     expect(back.joints.at(-1)!.max.change).toBe('only-right');
+  });
+
+  it('takes a difference within a thousandth of the tolerance as rounding, not a change (residuals of 1e-17 rad/s against a 0.05 rad/s tolerance)', () => {
+    const tolerance = clean.tolerances.rate;
+    const nudged = (by: number): LogComparison => ({ ...clean, joints: clean.joints.map((j, i) => (i === 0 ? { ...j, rms: j.rms + by, max: j.max + by } : j)) });
+    const small = sideBySide({ revision: 1, result: clean }, { revision: 2, result: nudged(tolerance * NOISE_SHARE * 0.5) });
+    expect([small.joints[0]!.rms.change, small.joints[0]!.max.change]).toEqual(['same', 'same']);
+    const large = sideBySide({ revision: 1, result: clean }, { revision: 2, result: nudged(tolerance * NOISE_SHARE * 2) });
+    expect([large.joints[0]!.rms.change, large.joints[0]!.max.change]).toEqual(['worse', 'worse']);
   });
 });
