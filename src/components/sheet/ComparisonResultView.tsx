@@ -63,9 +63,15 @@ export default function ComparisonResultView({ result, revision }: { result: Log
 
 const TOLERANCE_STYLE = { stroke: PALETTE.graphite, dash: [5, 4], width: 1 };
 
-/** The chart's series: data lines in the palette's turn, tolerance lines thin and dashed. */
+/** The chart's series: data lines in the palette's turn (wide under a reference line), the reference thin on top, tolerance lines thin and dashed. */
 function chartSeries(plot: ComparisonPlot): LineSeries[] {
-  return plot.lines.map((line) => (line.role === 'tolerance' ? { label: line.label, values: line.values, ...TOLERANCE_STYLE } : { label: line.label, values: line.values }));
+  const underReference = plot.lines.some((line) => line.role === 'reference');
+  return plot.lines.map((line) => {
+    const drawn = { label: line.label, values: line.values };
+    if (line.role === 'tolerance') return { ...drawn, ...TOLERANCE_STYLE };
+    if (line.role === 'reference') return { ...drawn, width: 1.25 };
+    return underReference ? { ...drawn, width: 3 } : drawn;
+  });
 }
 
 /**

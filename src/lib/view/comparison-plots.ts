@@ -12,8 +12,8 @@ import type { XRange } from './zoom';
 export interface PlotLine {
   label: string;
   values: number[];
-  /** 'tolerance' lines are drawn thin and dashed in the chart. */
-  role: 'data' | 'tolerance';
+  /** 'reference' (the sheet's values) is drawn thin over the wider data it is compared with, so both show where they agree; 'tolerance' lines thin and dashed. */
+  role: 'data' | 'reference' | 'tolerance';
 }
 
 export interface ComparisonPlot {
@@ -69,7 +69,7 @@ export function jointPlots(result: LogComparison): JointPlots[] {
       joint: j.joint,
       rates: {
         key: `${j.joint}:rates`, title: `${j.joint}: commanded rate, logged and sheet`, yLabel: 'rad/s', x: logged.x,
-        lines: [{ label: 'logged', values: logged.y, role: 'data' }, { label: 'sheet', values: sheet.y, role: 'data' }],
+        lines: [{ label: 'logged', values: logged.y, role: 'data' }, { label: 'sheet', values: sheet.y, role: 'reference' }],
       },
       residual: {
         key: `${j.joint}:residual`, title: `${j.joint}: residual, logged − sheet`, yLabel: 'rad/s', x: residual.x,

@@ -54,7 +54,7 @@ describe('jointPlots', () => {
     const plots = jointPlots(result);
     expect(plots.map((p) => p.joint)).toEqual(result.joints.map((j) => j.joint));
     const plot = plots.find((p) => p.joint === JOINT)!;
-    expect(plot.rates.lines.map((l) => l.label)).toEqual(['logged', 'sheet']);
+    expect(plot.rates.lines.map((l) => [l.label, l.role])).toEqual([['logged', 'data'], ['sheet', 'reference']]);
     const [residual, upper, lower] = plot.residual.lines;
     expect(residual!.role).toBe('data');
     expect(upper!.values.every((v) => v === result.tolerances.rate)).toBe(true);
