@@ -122,7 +122,20 @@ describe('comparing a controller log with the sheet', () => {
     await page.mouse.move(box.x + box.width * 0.5, box.y + box.height / 2, { steps: 5 });
     await page.mouse.up();
     await expect.poll(() => figures.evaluateAll((all) => all.every((f) => f.getAttribute('data-zoomed') === 'true'))).toBe(true);
+    // A shift-drag to the left pans later in time by the dragged share of the span, the span kept.
+    const shownRange = async () => (await charts.getAttribute('data-x-range'))!.split(' ').map(Number) as [number, number];
+    const [selectedMin, selectedMax] = await shownRange();
+    await page.keyboard.down('Shift');
+    await page.mouse.move(box.x + box.width * 0.6, box.y + box.height / 2);
+    await page.mouse.down();
+    await page.mouse.move(box.x + box.width * 0.4, box.y + box.height / 2, { steps: 4 });
+    await page.mouse.up();
+    await page.keyboard.up('Shift');
+    const [pannedMin, pannedMax] = await shownRange();
+    expect(pannedMax - pannedMin).toBeCloseTo(selectedMax - selectedMin, 6);
+    expect(pannedMin).toBeGreaterThan(selectedMin);
     await reset.click();
+    expect(await charts.getAttribute('data-x-range')).toBe('all');
 
     // The per-sample table: a header with units, one row per compared sample.
     const seriesHref = await comparison.locator('[data-series-csv]').first().getAttribute('href');

@@ -96,7 +96,7 @@ function ComparisonCharts({ result }: { result: LogComparison }) {
     />
   );
   return (
-    <div className="space-y-3" data-comparison-charts>
+    <div className="space-y-3" data-comparison-charts data-x-range={xRange ? `${xRange.min} ${xRange.max}` : 'all'}>
       <div className="flex flex-wrap items-center gap-x-4 gap-y-1 text-xs text-graphite">
         <span>Wheel zooms, drag selects a stretch, Shift-drag pans; every plot follows.</span>
         <button type="button" className={button} disabled={!zoomed} onClick={() => setXRange(null)} data-reset-zoom>
