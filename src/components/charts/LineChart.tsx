@@ -160,6 +160,9 @@ export default function LineChart({ title, x, xLabel, yLabel, series, height = 2
   const askRef = useRef(onXRangeChange);
   askRef.current = onXRangeChange;
   const zoomable = onXRangeChange !== undefined;
+  // A zoom step redraws only the charts on screen; one scrolled out of view catches up when it comes back.
+  const onScreenRef = useRef(true);
+  const behindRef = useRef(false);
   const hasGaps = series.some((s) => plottable(s.values, logY) !== s.values);
 
   useEffect(() => {
@@ -201,8 +204,18 @@ export default function LineChart({ title, x, xLabel, yLabel, series, height = 2
       if (width !== chart.width) chart.setSize({ width, height });
     });
     observer.observe(container);
+    const visibility = bounds
+      ? new IntersectionObserver(([entry]) => {
+          onScreenRef.current = entry?.isIntersecting ?? true;
+          if (!onScreenRef.current || !behindRef.current) return;
+          behindRef.current = false;
+          chart.setScale('x', rangeRef.current ?? bounds);
+        })
+      : null;
+    visibility?.observe(container);
     return () => {
       observer.disconnect();
+      visibility?.disconnect();
       if (wheel) chart.over.removeEventListener('wheel', wheel);
       chartRef.current = null;
       chart.destroy();
@@ -213,6 +226,10 @@ export default function LineChart({ title, x, xLabel, yLabel, series, height = 2
     const chart = chartRef.current;
     const bounds = boundsOf(x);
     if (!chart || !zoomable || !bounds) return;
+    if (!onScreenRef.current) {
+      behindRef.current = true;
+      return;
+    }
     chart.setScale('x', xRange ?? bounds);
   }, [x, xRange, zoomable]);
 
