@@ -16,7 +16,7 @@ import { ROTATION_METRICS, runSheet, sweepSheet, toPlainRunRecord, warningsAt, t
 import { compareLog, describeComparisonError, type ComparedSample } from '../lib/logs/compare';
 import { comparisonReportJson, verdictExitCode } from '../lib/logs/report';
 import { evaluateSheet, type SheetEvaluation } from '../lib/sheet/evaluate';
-import { csvTable, FINGER_COLUMNS, fingerRows, maxJointCount, rateColumns, resultsCsv } from '../lib/sheet/results-csv';
+import { comparedSampleHeader, comparedSampleLine, csvTable, FINGER_COLUMNS, fingerRows, maxJointCount, rateColumns, resultsCsv } from '../lib/sheet/results-csv';
 import { InputError, readJsonFile, readMappingFile } from './input-files';
 
 const USAGE = 'usage: npm run compute -- path/to/sheet.json [--format json|csv] [--run] [--sweep] [--log log.csv[.gz] --mapping mapping.json]';
@@ -100,8 +100,6 @@ export interface CommandOutput {
   stderr: (text: string) => void;
 }
 
-const csvNumber = (value: number) => (Number.isNaN(value) ? '' : String(value));
-
 /** Compares the log with the sheet and prints the comparison (JSON) or the per-sample table (CSV), streaming the table as it goes. */
 async function compareCommand(options: Options & { log: string; mapping: string }, evaluation: SheetEvaluation, io: CommandOutput): Promise<number> {
   const { mapping } = readMappingFile(options.mapping);
@@ -123,17 +121,10 @@ async function compareCommand(options: Options & { log: string; mapping: string 
   let compared;
   try {
     compared = await compareLog(evaluation.doc, mapping, source, {
-      onColumns: csv
-        ? ({ joints, fingers }) => {
-            const header = ['line', 'time_s', ...joints.flatMap((j) => [`${j}.logged_rad_s`, `${j}.sheet_rad_s`, `${j}.residual_rad_s`]), ...fingers.map((f) => `${f}.slip_m_s`), 'warnings'];
-            buffered.push(`${csvTable(header, [])}\n`);
-          }
-        : undefined,
+      onColumns: csv ? (columns) => buffered.push(comparedSampleHeader(columns)) : undefined,
       onSample: csv
         ? (sample: ComparedSample) => {
-            const cells = [sample.line, sample.time];
-            for (let c = 0; c < sample.logged.length; c++) cells.push(sample.logged[c]!, sample.sheet[c]!, sample.residual[c]!);
-            buffered.push(`${cells.join(',')},${Array.from(sample.slip, csvNumber).join(',')},${sample.warnings.join(' ')}\n`);
+            buffered.push(comparedSampleLine(sample));
             if (buffered.length >= 1000) flush();
           }
         : undefined,

@@ -3,17 +3,25 @@ import uPlot from 'uplot';
 import 'uplot/dist/uPlot.min.css';
 import { formatTick, indexRangesToX, plottable, seriesStyle } from '../../lib/view/chart-data';
 import { PALETTE, SERIES_COLOURS } from '../../lib/view/palette';
+import { dragShift, panBy, rangeBetween, wheelFactor, zoomAt, type XRange } from '../../lib/view/zoom';
 
 export interface LineSeries {
   label: string;
   values: ArrayLike<number>;
   stroke?: string;
+  dash?: number[];
+  width?: number;
 }
 
 export interface ShadedStretch {
   /** Index range [start, end) into x. */
   start: number;
   end: number;
+  colour: string;
+}
+
+/** A background stretch given in x units, such as a warning band over time. */
+export interface ShadedBand extends XRange {
   colour: string;
 }
 
@@ -27,8 +35,18 @@ export interface LineChartProps {
   logY?: boolean;
   /** Background stretches, such as where warnings were raised. */
   shaded?: ShadedStretch[];
+  /** Background stretches in x units, drawn like `shaded`. */
+  bands?: ShadedBand[];
   /** Charts with the same key share the cursor. */
   syncKey?: string;
+  /** The visible x range (null: all); only with onXRangeChange. */
+  xRange?: XRange | null;
+  /**
+   * Makes the x axis zoomable by the caller, which holds the range (so charts can share it): the
+   * wheel zooms about the pointer, a drag selects a range, a shift-drag pans, a double click shows
+   * all. The chart asks for each new range here and shows whatever xRange it is given.
+   */
+  onXRangeChange?: (range: XRange | null) => void;
 }
 
 const AXIS_FONT = '11px "JetBrains Mono", monospace';
@@ -56,21 +74,24 @@ const logRange: uPlot.Range.Function = (_u, min, max) => {
 };
 
 /** Paints the shaded stretches behind the lines, across the plotting area. */
-function shadingPlugin(stretches: ShadedStretch[], x: ArrayLike<number>): uPlot.Plugin {
-  const ranges = indexRangesToX(x, stretches);
+function shadingPlugin(stretches: ShadedStretch[], bands: ShadedBand[], x: ArrayLike<number>): uPlot.Plugin {
+  const ranges = [
+    ...indexRangesToX(x, stretches).map((range, i) => ({ from: range.from, to: range.to, colour: stretches[i]!.colour })),
+    ...bands.map((band) => ({ from: band.min, to: band.max, colour: band.colour })),
+  ];
   return {
     hooks: {
       drawClear: (u) => {
         const { ctx, bbox } = u;
         ctx.save();
         ctx.globalAlpha = 0.16;
-        ranges.forEach((range, i) => {
+        ranges.forEach((range) => {
           const a = u.valToPos(range.from, 'x', true);
           const b = u.valToPos(range.to, 'x', true);
           const left = Math.max(bbox.left, Math.min(a, b));
           const right = Math.min(bbox.left + bbox.width, Math.max(a, b));
           if (right <= left) return;
-          ctx.fillStyle = stretches[i]!.colour;
+          ctx.fillStyle = range.colour;
           ctx.fillRect(left, bbox.top, Math.max(1, right - left), bbox.height);
         });
         ctx.restore();
@@ -79,14 +100,76 @@ function shadingPlugin(stretches: ShadedStretch[], x: ArrayLike<number>): uPlot.
   };
 }
 
+// Shared empty defaults: a fresh [] per render would change the effect's inputs and rebuild the chart on every render.
+const NO_STRETCHES: ShadedStretch[] = [];
+const NO_BANDS: ShadedBand[] = [];
+
+/** The first and last x (the data's full range), or null when there are fewer than two distinct values. */
+function boundsOf(x: ArrayLike<number>): XRange | null {
+  const min = x[0], max = x[x.length - 1];
+  return min !== undefined && max !== undefined && max > min ? { min, max } : null;
+}
+
+/** Wheel, drag and shift-drag on the plot, each answered with the range it asks for (see LineChartProps.onXRangeChange). */
+function zoomHandlers(bounds: XRange, current: () => XRange | null, ask: (range: XRange | null) => void) {
+  const shown = () => current() ?? bounds;
+  const startPan = (u: uPlot, down: MouseEvent) => {
+    const start = shown();
+    const width = u.over.clientWidth;
+    const move = (e: MouseEvent) => ask(panBy(start, dragShift(start, e.clientX - down.clientX, width), bounds));
+    const up = () => {
+      document.removeEventListener('mousemove', move);
+      document.removeEventListener('mouseup', up);
+    };
+    document.addEventListener('mousemove', move);
+    document.addEventListener('mouseup', up);
+  };
+  const bind: uPlot.Cursor.Bind = {
+    mousedown: (u, _target, handler) => (e) => {
+      if (!e.shiftKey) return handler(e);
+      e.preventDefault();
+      startPan(u, e);
+      return null;
+    },
+    dblclick: () => () => {
+      ask(null);
+      return null;
+    },
+  };
+  const onSelect = (u: uPlot) => {
+    const { left, width } = u.select;
+    if (width <= 0) return;
+    u.setSelect({ left: 0, top: 0, width: 0, height: 0 }, false);
+    const range = rangeBetween(u.posToVal(left, 'x'), u.posToVal(left + width, 'x'), bounds);
+    if (range) ask(range);
+  };
+  const onWheel = (u: uPlot) => (e: WheelEvent) => {
+    e.preventDefault();
+    ask(zoomAt(shown(), u.posToVal(e.offsetX, 'x'), wheelFactor(e.deltaY, e.deltaMode), bounds));
+  };
+  return { bind, onSelect, onWheel };
+}
+
 /** A uPlot line chart in our palette that fills its container's width and redraws when the data change. */
-export default function LineChart({ title, x, xLabel, yLabel, series, height = 220, logY = false, shaded = [], syncKey }: LineChartProps) {
+export default function LineChart({ title, x, xLabel, yLabel, series, height = 220, logY = false, shaded = NO_STRETCHES, bands = NO_BANDS, syncKey, xRange = null, onXRangeChange }: LineChartProps) {
   const containerRef = useRef<HTMLDivElement>(null);
+  const chartRef = useRef<uPlot | null>(null);
+  // Handlers read the latest range and callback without rebuilding the chart on every zoom step.
+  const rangeRef = useRef(xRange);
+  rangeRef.current = xRange;
+  const askRef = useRef(onXRangeChange);
+  askRef.current = onXRangeChange;
+  const zoomable = onXRangeChange !== undefined;
+  // A zoom step redraws only the charts on screen; one scrolled out of view catches up when it comes back.
+  const onScreenRef = useRef(true);
+  const behindRef = useRef(false);
   const hasGaps = series.some((s) => plottable(s.values, logY) !== s.values);
 
   useEffect(() => {
     const container = containerRef.current;
     if (!container) return;
+    const bounds = zoomable ? boundsOf(x) : null;
+    const zoom = bounds ? zoomHandlers(bounds, () => rangeRef.current, (range) => askRef.current?.(range)) : null;
     const options: uPlot.Options = {
       width: Math.max(240, container.clientWidth),
       height,
@@ -96,31 +179,62 @@ export default function LineChart({ title, x, xLabel, yLabel, series, height = 2
         { label: xLabel },
         ...series.map((s, i) => {
           const style = seriesStyle(i, SERIES_COLOURS);
-          return { label: s.label, stroke: s.stroke ?? style.stroke, dash: style.dash, width: 1.5, points: { show: false } };
+          return { label: s.label, stroke: s.stroke ?? style.stroke, dash: s.dash ?? style.dash, width: s.width ?? 1.5, points: { show: false } };
         }),
       ],
       legend: { show: true, live: true },
-      cursor: syncKey ? { sync: { key: syncKey } } : {},
-      plugins: shaded.length > 0 ? [shadingPlugin(shaded, x)] : [],
+      cursor: {
+        ...(syncKey ? { sync: { key: syncKey } } : {}),
+        ...(zoom ? { drag: { x: true, y: false, setScale: false }, bind: zoom.bind } : {}),
+      },
+      hooks: zoom ? { setSelect: [zoom.onSelect] } : {},
+      plugins: shaded.length > 0 || bands.length > 0 ? [shadingPlugin(shaded, bands, x)] : [],
     };
     const data = [x, ...series.map((s) => plottable(s.values, logY))] as uPlot.AlignedData;
     const chart = new uPlot(options, data, container);
     // uPlot's stylesheet is not in a cascade layer, so it outranks utility classes; an inline font wins.
     chart.root.style.fontFamily = '"IBM Plex Sans", sans-serif';
     chart.root.style.fontSize = '12px';
+    chartRef.current = chart;
+    const wheel = zoom?.onWheel(chart);
+    if (wheel) chart.over.addEventListener('wheel', wheel, { passive: false });
+    if (bounds && rangeRef.current) chart.setScale('x', rangeRef.current);
     const observer = new ResizeObserver(() => {
       const width = Math.max(240, container.clientWidth);
       if (width !== chart.width) chart.setSize({ width, height });
     });
     observer.observe(container);
+    const visibility = bounds
+      ? new IntersectionObserver(([entry]) => {
+          onScreenRef.current = entry?.isIntersecting ?? true;
+          if (!onScreenRef.current || !behindRef.current) return;
+          behindRef.current = false;
+          chart.setScale('x', rangeRef.current ?? bounds);
+        })
+      : null;
+    visibility?.observe(container);
     return () => {
       observer.disconnect();
+      visibility?.disconnect();
+      if (wheel) chart.over.removeEventListener('wheel', wheel);
+      chartRef.current = null;
       chart.destroy();
     };
-  }, [title, x, xLabel, yLabel, series, height, logY, shaded, syncKey]);
+  }, [title, x, xLabel, yLabel, series, height, logY, shaded, bands, syncKey, zoomable]);
+
+  useEffect(() => {
+    const chart = chartRef.current;
+    const bounds = boundsOf(x);
+    if (!chart || !zoomable || !bounds) return;
+    if (!onScreenRef.current) {
+      behindRef.current = true;
+      return;
+    }
+    chart.setScale('x', xRange ?? bounds);
+  }, [x, xRange, zoomable]);
 
   return (
-    <figure className="min-w-0" data-testid="line-chart">
+    <figure className="min-w-0" data-testid="line-chart" data-zoomed={zoomable && xRange !== null ? 'true' : undefined}>
       <figcaption className="text-sm font-semibold">{title}</figcaption>
       <div ref={containerRef} className="w-full" role="img" aria-label={`${title}: ${series.map((s) => s.label).join(', ')} over ${xLabel}`} />
       {hasGaps && (

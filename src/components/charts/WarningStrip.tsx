@@ -17,6 +17,19 @@ function stretchesOf(indices: number[]): { start: number; end: number }[] {
   return stretches;
 }
 
+/** A swatch per warning severity; `faded` matches the light shading drawn behind plot lines. */
+export function SeverityKey({ faded = false }: { faded?: boolean }) {
+  return (
+    <>
+      {(['note', 'caution', 'singular'] as const).map((level) => (
+        <span key={level} className="flex items-center gap-1">
+          <span className={`inline-block h-2.5 w-2.5 ${faded ? 'opacity-40' : ''}`} style={{ background: SEVERITY_COLOURS[level] }} /> {level}
+        </span>
+      ))}
+    </>
+  );
+}
+
 /**
  * Where warnings were raised along a run (ticks) or a sweep (steps): the worst severity per index
  * on the first row, then one row per warning code, coloured by severity.
@@ -58,11 +71,7 @@ export default function WarningStrip({ count, worst, warnings, axisLabel }: {
         ))}
       </div>
       <div className="mt-1 flex gap-4 text-xs text-graphite">
-        {(['note', 'caution', 'singular'] as const).map((level) => (
-          <span key={level} className="flex items-center gap-1">
-            <span className="inline-block h-2.5 w-2.5" style={{ background: SEVERITY_COLOURS[level] }} /> {level}
-          </span>
-        ))}
+        <SeverityKey />
       </div>
     </figure>
   );

@@ -1,20 +1,12 @@
-import { useMemo } from 'react';
-import LineChart from '../charts/LineChart';
+import { useId, useMemo, useState } from 'react';
+import LineChart, { type LineSeries } from '../charts/LineChart';
+import { SeverityKey } from '../charts/WarningStrip';
+import { button } from './sheet-styles';
 import type { LogComparison } from '../../lib/logs/compare';
-
-const digits = (value: number | null) => (value === null || !Number.isFinite(value) ? '—' : Number(value.toPrecision(4)).toString());
-
-/** Per series of the decimated plot data: x and y with each bucket's smallest and largest value, so spikes survive decimation. */
-function envelope(series: LogComparison['series'], label: string): { x: number[]; y: number[] } | null {
-  const s = series.labels.indexOf(label);
-  if (s < 0) return null;
-  const x: number[] = [], y: number[] = [];
-  series.from.forEach((from, b) => {
-    x.push(from, series.to[b]!);
-    y.push(series.min[s]![b]!, series.max[s]![b]!);
-  });
-  return { x, y };
-}
+import { jointPlots, seriesBounds, slipPlot, warningBands, type ComparisonPlot } from '../../lib/view/comparison-plots';
+import { formatValue } from '../../lib/view/comparison-side-by-side';
+import { PALETTE, SEVERITY_COLOURS } from '../../lib/view/palette';
+import { showsAll, type XRange } from '../../lib/view/zoom';
 
 /** One comparison's verdict, per-joint and per-contact statistics and charts; `revision` is the sheet revision it judged against. */
 export default function ComparisonResultView({ result, revision }: { result: LogComparison; revision: number }) {
@@ -37,8 +29,8 @@ export default function ComparisonResultView({ result, revision }: { result: Log
         <tbody>
           {result.joints.map((j) => (
             <tr key={j.joint} className={j.withinFraction < 1 ? 'text-sienna' : ''}>
-              <td className="font-mono">{j.joint}</td><td className="num">{digits(j.rms)}</td><td className="num">{digits(j.max)}</td>
-              <td className="num">{digits(j.maxAt)}</td><td className="num">{(j.withinFraction * 100).toFixed(1)} %</td>
+              <td className="font-mono">{j.joint}</td><td className="num">{formatValue(j.rms)}</td><td className="num">{formatValue(j.max)}</td>
+              <td className="num">{formatValue(j.maxAt)}</td><td className="num">{(j.withinFraction * 100).toFixed(1)} %</td>
             </tr>
           ))}
         </tbody>
@@ -54,8 +46,8 @@ export default function ComparisonResultView({ result, revision }: { result: Log
               <td className="font-mono">{c.finger}</td>
               {c.computed ? (
                 <>
-                  <td className="num">{digits(c.rms * 1000)}</td><td className="num">{digits(c.max * 1000)}</td>
-                  <td className="num">{digits(c.maxAt)}</td><td className="num">{(c.withinFraction * 100).toFixed(1)} %</td>
+                  <td className="num">{formatValue(c.rms * 1000)}</td><td className="num">{formatValue(c.max * 1000)}</td>
+                  <td className="num">{formatValue(c.maxAt)}</td><td className="num">{(c.withinFraction * 100).toFixed(1)} %</td>
                 </>
               ) : (
                 <td colSpan={4} className="text-graphite">{c.reason}</td>
@@ -69,28 +61,61 @@ export default function ComparisonResultView({ result, revision }: { result: Log
   );
 }
 
+const TOLERANCE_STYLE = { stroke: PALETTE.graphite, dash: [5, 4], width: 1 };
+
+/** The chart's series: data lines in the palette's turn (wide under a reference line), the reference thin on top, tolerance lines thin and dashed. */
+function chartSeries(plot: ComparisonPlot): LineSeries[] {
+  const underReference = plot.lines.some((line) => line.role === 'reference');
+  return plot.lines.map((line) => {
+    const drawn = { label: line.label, values: line.values };
+    if (line.role === 'tolerance') return { ...drawn, ...TOLERANCE_STYLE };
+    if (line.role === 'reference') return { ...drawn, width: 1.25 };
+    return underReference ? { ...drawn, width: 3 } : drawn;
+  });
+}
+
+/**
+ * Per joint the logged and sheet commanded rates beside the residual with its tolerance, then the
+ * slip per contact; warning bands shaded by severity behind every plot. Zooming or panning any
+ * plot moves all of them, so one moment can be read across joints and contacts.
+ */
 function ComparisonCharts({ result }: { result: LogComparison }) {
+  const syncKey = useId();
+  const [xRange, setXRange] = useState<XRange | null>(null);
   const charts = useMemo(() => {
-    const joints = result.joints.flatMap((j) => {
-      const logged = envelope(result.series, `${j.joint} logged`);
-      const sheet = envelope(result.series, `${j.joint} sheet`);
-      return logged && sheet ? [{ joint: j.joint, x: logged.x, series: [{ label: 'logged', values: logged.y }, { label: 'sheet', values: sheet.y }] }] : [];
-    });
-    const slips = result.contacts.filter((c) => c.computed).flatMap((c) => {
-      const slip = envelope(result.series, `${c.finger} slip`);
-      return slip ? [{ label: c.finger, x: slip.x, values: slip.y.map((v) => v * 1000) }] : [];
-    });
-    return { joints, slips };
+    const bands = warningBands(result.series).map((band) => ({ ...band, colour: SEVERITY_COLOURS[band.severity] }));
+    const joints = jointPlots(result).map((j) => ({ joint: j.joint, rates: { plot: j.rates, series: chartSeries(j.rates) }, residual: { plot: j.residual, series: chartSeries(j.residual) } }));
+    const slip = slipPlot(result);
+    return { bands, joints, slip: slip && { plot: slip, series: chartSeries(slip) }, bounds: seriesBounds(result.series) };
   }, [result]);
+  const zoomed = !showsAll(xRange, charts.bounds ?? { min: 0, max: 0 });
+  const chart = ({ plot, series }: { plot: ComparisonPlot; series: LineSeries[] }) => (
+    <LineChart
+      key={plot.key} title={plot.title} x={plot.x} xLabel="s" yLabel={plot.yLabel} series={series} height={180}
+      bands={charts.bands} syncKey={syncKey} xRange={xRange} onXRangeChange={setXRange}
+    />
+  );
   return (
-    <div className="grid gap-4" data-comparison-charts>
-      {charts.joints.map((chart) => (
-        <LineChart key={chart.joint} title={`${chart.joint}: commanded rate`} x={chart.x} xLabel="s" yLabel="rad/s" series={chart.series} syncKey="log-comparison" />
+    <div className="space-y-3" data-comparison-charts data-x-range={xRange ? `${xRange.min} ${xRange.max}` : 'all'}>
+      <div className="flex flex-wrap items-center gap-x-4 gap-y-1 text-xs text-graphite">
+        <span>Wheel zooms, drag selects a stretch, Shift-drag pans; every plot follows.</span>
+        <button type="button" className={button} disabled={!zoomed} onClick={() => setXRange(null)} data-reset-zoom>
+          Reset zoom
+        </button>
+        {charts.bands.length > 0 && (
+          <span className="flex items-center gap-3" data-warning-bands={charts.bands.length}>
+            Shaded: worst warning raised
+            <SeverityKey faded />
+          </span>
+        )}
+      </div>
+      {charts.joints.map((j) => (
+        <div key={j.joint} className="grid gap-3 md:grid-cols-2" data-joint-plots={j.joint}>
+          {chart(j.rates)}
+          {chart(j.residual)}
+        </div>
       ))}
-      {charts.slips.length > 0 && (
-        <LineChart title="Slip per contact" x={charts.slips[0]!.x} xLabel="s" yLabel="mm/s" series={charts.slips.map(({ label, values }) => ({ label, values }))} syncKey="log-comparison" />
-      )}
+      {charts.slip && <div data-slip-plot>{chart(charts.slip)}</div>}
     </div>
   );
 }
-

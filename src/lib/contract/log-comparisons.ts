@@ -25,3 +25,21 @@ export interface LogComparisonList {
   /** The mapping as it was sent (tolerances as typed), or null when the team never compared a log with this header. */
   savedMapping: unknown;
 }
+
+/** One comparison in a sheet's list: which log, which revision, the verdict and when; without the result. */
+export interface SheetComparisonSummary {
+  id: string;
+  uploadId: string;
+  fileName: string;
+  revision: number;
+  status: ComparisonStatus;
+  verdict: 'pass' | 'fail' | null;
+  createdByName: string | null;
+  createdAt: Date;
+}
+
+/** GET /api/sheets/:id/comparisons: the sheet's comparisons of all its logs, newest first, and the sheet's latest revision (to re-run older ones on). */
+export interface SheetComparisonList {
+  latestRevision: number;
+  items: SheetComparisonSummary[];
+}

@@ -4,16 +4,17 @@
  * and the outcome is stored tied to the revision it was judged against. The mapping is kept with
  * the log's header, so the team is offered it again for a log with the same columns.
  */
-import type { Readable } from 'node:stream';
+import { PassThrough, Readable } from 'node:stream';
 import { createGunzip } from 'node:zlib';
-import { and, desc, eq } from 'drizzle-orm';
+import { and, desc, eq, sql } from 'drizzle-orm';
 import Papa from 'papaparse';
 import type { Database } from '../../db';
 import { logComparisons, uploads, users } from '../../db/schema';
-import type { LogComparisonList, LogComparisonRecord } from '../contract/log-comparisons';
+import type { LogComparisonList, LogComparisonRecord, SheetComparisonList } from '../contract/log-comparisons';
 import { compareLog, type LogComparison } from '../logs/compare';
 import { parseLogMapping } from '../logs/mapping';
 import { fail, succeed, type Result } from '../result';
+import { comparedSampleHeader, comparedSampleLine } from '../sheet/results-csv';
 import { parseSheet } from '../sheet/schema';
 import { notFound } from './access';
 import { insertAudit } from './audit';
@@ -142,6 +143,62 @@ export async function listLogComparisons(database: Database, sheetId: string, up
   return rows.map(asRecord);
 }
 
+/** A sheet's comparisons of all its logs, newest first, without their results (the list a sheet shows), with the sheet's latest revision. */
+export async function listSheetComparisons(database: Database, sheet: { id: string; latestRevision: number }): Promise<SheetComparisonList> {
+  const items = await database.db
+    .select({
+      id: logComparisons.id,
+      uploadId: logComparisons.uploadId,
+      fileName: uploads.fileName,
+      revision: logComparisons.revision,
+      status: logComparisons.status,
+      verdict: logComparisons.verdict,
+      createdByName: users.name,
+      createdAt: logComparisons.createdAt,
+    })
+    .from(logComparisons)
+    .innerJoin(uploads, eq(uploads.id, logComparisons.uploadId))
+    .leftJoin(users, eq(users.id, logComparisons.createdBy))
+    .where(eq(logComparisons.sheetId, sheet.id))
+    .orderBy(desc(logComparisons.createdAt), desc(logComparisons.id));
+  return { latestRevision: sheet.latestRevision, items };
+}
+
+/** A log's latest comparison with a revision, for the report: the result without its plot series. */
+export interface RevisionLogComparison {
+  id: string;
+  uploadId: string;
+  fileName: string;
+  createdByName: string | null;
+  createdAt: Date;
+  result: Omit<LogComparison, 'series'>;
+}
+
+/** Per log of the sheet, its newest comparison with `revision` (logs never compared with it are left out), in file-name order. */
+export async function latestComparisonsOfRevision(database: Database, sheetId: string, revision: number): Promise<RevisionLogComparison[]> {
+  const rows = await database.db
+    .select({
+      id: logComparisons.id,
+      uploadId: logComparisons.uploadId,
+      fileName: uploads.fileName,
+      createdByName: users.name,
+      createdAt: logComparisons.createdAt,
+      // The plot series are most of a stored result; the report's tables do not need them.
+      result: sql<string | null>`json_remove(${logComparisons.result}, '$.series')`,
+    })
+    .from(logComparisons)
+    .innerJoin(uploads, eq(uploads.id, logComparisons.uploadId))
+    .leftJoin(users, eq(users.id, logComparisons.createdBy))
+    .where(and(eq(logComparisons.sheetId, sheetId), eq(logComparisons.revision, revision), eq(logComparisons.status, 'done')))
+    .orderBy(desc(logComparisons.createdAt), desc(logComparisons.id));
+  const latest = new Map<string, RevisionLogComparison>();
+  for (const { result, ...row } of rows) {
+    if (result === null || latest.has(row.uploadId)) continue;
+    latest.set(row.uploadId, { ...row, result: JSON.parse(result) as Omit<LogComparison, 'series'> });
+  }
+  return [...latest.values()].sort((a, b) => a.fileName.localeCompare(b.fileName) || a.uploadId.localeCompare(b.uploadId));
+}
+
 /** One comparison of one of a sheet's logs; not-found (naming `comparisonId`) otherwise. */
 export async function getLogComparison(database: Database, sheetId: string, uploadId: string, comparisonId: string): Promise<Result<LogComparisonRecord>> {
   const [row] = await database.db
@@ -187,4 +244,43 @@ export function comparisonStatisticsCsv(comparison: LogComparison): string {
     ...comparison.contacts.map((c) => ['contact', c.finger, c.finger, c.samples, c.rms, c.max, c.maxAt, c.withinFraction, 'm/s', c.computed ? '' : (c.reason ?? 'not computed')]),
   ];
   return `${Papa.unparse({ fields: [...COMPARISON_CSV_COLUMNS], data: rows.map((row) => row.map((cell) => (typeof cell === 'number' && !Number.isFinite(cell) ? '' : cell))) }, { newline: '\n', escapeFormulae: true })}\n`;
+}
+
+/**
+ * The per-sample table of a stored comparison as a CSV byte stream (header: comparedSampleHeader).
+ * The stored result keeps only decimated series, so the log is read again and compared with the
+ * revision and mapping the comparison was run with: the rows are the samples its statistics
+ * summarise. Reading pauses while the download is behind, so memory stays bounded however long
+ * the log; a cancelled download stops the reading. Not-found (naming `comparisonId` or `logId`)
+ * as getLogComparison; a comparison that cannot be re-read is unprocessable.
+ */
+export async function comparisonSeriesCsv(database: Database, storage: LogStorage, sheetId: string, uploadId: string, comparisonId: string): Promise<Result<{ fileName: string; body: ReadableStream<Uint8Array> }>> {
+  const found = await getLogComparison(database, sheetId, uploadId, comparisonId);
+  if (!found.ok) return found;
+  const record = found.value;
+  const log = await findLogRow(database, sheetId, uploadId);
+  if (!log) return notFound('This sheet has no such log.', 'logId');
+  const revision = await getRevision(database, sheetId, record.revision);
+  const parsed = revision ? parseSheet(revision.inputs) : null;
+  const read = parseLogMapping(record.mapping);
+  if (!parsed?.ok || !read.ok) return fail({ kind: 'unprocessable', message: `The comparison's revision ${record.revision} or mapping no longer reads.`, path: 'comparisonId' });
+  const source = await logText(storage, log.storageKey, log.summary.contentType);
+  const output = new PassThrough();
+  const write = (text: string) => {
+    if (!output.write(text)) source.pause();
+  };
+  output.on('drain', () => source.resume());
+  output.on('close', () => source.destroy());
+  compareLog(parsed.doc, read.mapping, source, {
+    onColumns: (columns) => write(comparedSampleHeader(columns)),
+    onSample: (sample) => write(comparedSampleLine(sample)),
+  }).then(
+    // The same log, revision and mapping compared once already; a failure now (storage gone) can only cut the download short.
+    (compared) => (compared.ok ? output.end() : output.destroy(new Error(compared.error.message))),
+    (error: unknown) => output.destroy(error instanceof Error ? error : new Error(String(error))),
+  );
+  return succeed({
+    fileName: `comparison-r${record.revision}-${record.id.slice(0, 8)}-series.csv`,
+    body: Readable.toWeb(output) as ReadableStream<Uint8Array>,
+  });
 }

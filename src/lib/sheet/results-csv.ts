@@ -4,6 +4,7 @@
  * command and the export endpoint so both write the same table.
  */
 import type { PlainSheetResult } from '../kinematics';
+import type { ComparedSample } from '../logs/compare';
 import { OUTPUTS } from './outputs';
 import type { SheetDocument } from './types';
 
@@ -30,6 +31,29 @@ function csvCell(value: unknown): string {
 /** A header and rows as CSV text, quoted where needed, without a trailing newline. */
 export function csvTable(header: readonly string[], rows: readonly (readonly unknown[])[]): string {
   return [header, ...rows].map((row) => row.map(csvCell).join(',')).join('\n');
+}
+
+/**
+ * The header line of a comparison's per-sample table (with its newline): the log line, time, per
+ * compared joint the logged and sheet commanded rates and their residual, per finger the slip
+ * speed, and the warnings raised; each column's unit in its name.
+ */
+export function comparedSampleHeader(columns: { joints: readonly string[]; fingers: readonly string[] }): string {
+  const header = [
+    'line', 'time_s',
+    ...columns.joints.flatMap((j) => [`${j}.logged_rad_s`, `${j}.sheet_rad_s`, `${j}.residual_rad_s`]),
+    ...columns.fingers.map((f) => `${f}.slip_m_s`),
+    'warnings',
+  ];
+  return `${csvTable(header, [])}\n`;
+}
+
+/** One compared sample as a line of that table (with its newline); a slip not judged is an empty cell. */
+export function comparedSampleLine(sample: ComparedSample): string {
+  let line = `${sample.line},${numberText(sample.time)}`;
+  for (let c = 0; c < sample.logged.length; c++) line += `,${numberText(sample.logged[c]!)},${numberText(sample.sheet[c]!)},${numberText(sample.residual[c]!)}`;
+  for (let f = 0; f < sample.slip.length; f++) line += `,${numberText(sample.slip[f]!)}`;
+  return `${line},${sample.warnings.join(' ')}\n`;
 }
 
 const FINGER_CSV = OUTPUTS.flatMap((output) => (output.csv && 'columns' in output.csv ? [{ output, columns: output.csv.columns }] : []));

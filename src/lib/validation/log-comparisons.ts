@@ -12,7 +12,7 @@ export const runComparisonBody = z.object({
   revision: z.number().int('Give the revision as a whole number.').min(1).max(MAX_COMPARED_REVISION).optional(),
 });
 
-/** GET /api/sheets/{id}/logs/{logId}/comparisons/{comparisonId}: JSON, or `format=csv` for the statistics table. */
+/** GET /api/sheets/{id}/logs/{logId}/comparisons/{comparisonId}: JSON, `format=csv` for the statistics table, `format=series` for the per-sample table. */
 export const comparisonQuery = z.object({
-  format: z.enum(['json', 'csv']).default('json'),
+  format: z.enum(['json', 'csv', 'series']).default('json'),
 });

@@ -3,11 +3,11 @@ import { and, eq } from 'drizzle-orm';
 import Papa from 'papaparse';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { logComparisons } from '../../../src/db/schema';
-import type { LogComparisonList, LogComparisonRecord } from '../../../src/lib/contract/log-comparisons';
+import type { LogComparisonList, LogComparisonRecord, SheetComparisonList } from '../../../src/lib/contract/log-comparisons';
 import type { Identity } from '../../../src/lib/server/access';
 import { getDatabase } from '../../../src/lib/server/database';
 import { identityForUser } from '../../../src/lib/server/identity';
-import { COMPARISON_CSV_COLUMNS } from '../../../src/lib/server/log-comparisons';
+import { COMPARISON_CSV_COLUMNS, latestComparisonsOfRevision } from '../../../src/lib/server/log-comparisons';
 import { getLogStorage } from '../../../src/lib/server/log-storage';
 import { storeLogUpload } from '../../../src/lib/server/log-uploads';
 import { saveRevision } from '../../../src/lib/server/sheets';
@@ -15,6 +15,7 @@ import { runLogMapping } from '../../../src/lib/logs/generate';
 import { MAX_LOG_BYTES } from '../../../src/lib/validation/log-uploads';
 import * as comparisonsRoute from '../../../src/pages/api/sheets/[sheetId]/logs/[logId]/comparisons/index';
 import * as comparisonRoute from '../../../src/pages/api/sheets/[sheetId]/logs/[logId]/comparisons/[comparisonId]';
+import * as sheetComparisonsRoute from '../../../src/pages/api/sheets/[sheetId]/comparisons';
 import { addTestMember, callRoute, demoIdentity, demoTeamId } from '../../helpers/api-context';
 import { createTestSheet } from '../../helpers/test-sheets';
 import { generatedRun, logText, TOLERANCES } from '../logs/generated-log';
@@ -193,5 +194,94 @@ describe('comparing a stored log with the sheet (route and service)', () => {
       expect(Number(table.data[i]!.within_fraction)).toBe(joint.withinFraction);
     });
     expect(table.data.slice(result.joints.length).every((row) => row.kind === 'contact' && row.unit === 'm/s')).toBe(true);
+  });
+
+  it('exports the per-sample table (?format=series) whose rows, read back with papaparse, give the stored statistics: residual = logged − sheet, RMS and max per joint', async () => {
+    const column = header.indexOf(`${FAULTY_JOINT}.commanded`);
+    const faulty = await upload(new Uint8Array(gzipSync(logText(run, (row, tick) => {
+      if (tick >= 40 && tick < 80) row[column]! += FAULT_OFFSET;
+    }))), 'fenwick-line2-fault.csv.gz');
+    const record = await compared(faulty, { mapping, revision: 1 });
+    const response = await callRoute(comparisonRoute.GET, {
+      path: `/api/sheets/${sheetId}/logs/${faulty}/comparisons/${record.id}?format=series`,
+      params: { sheetId, logId: faulty, comparisonId: record.id },
+      identity: viewer,
+    });
+    expect(response.status).toBe(200);
+    expect(response.headers.get('content-disposition')).toContain('-series.csv');
+    const table = Papa.parse<Record<string, string>>(await response.text(), { header: true, skipEmptyLines: true });
+    const result = record.result!;
+    expect(table.data).toHaveLength(result.samples);
+    const fingers = doc.hand.fingers.map((f) => f.name);
+    expect(table.meta.fields).toEqual([
+      'line', 'time_s', ...jointNames.flatMap((j) => [`${j}.logged_rad_s`, `${j}.sheet_rad_s`, `${j}.residual_rad_s`]), ...fingers.map((f) => `${f}.slip_m_s`), 'warnings',
+    ]);
+    // The log's first data row is line 2 (line 1 the header), one row per tick at the run's step.
+    expect(table.data[0]!.line).toBe('2');
+    expect(Number(table.data[41]!.time_s)).toBeCloseTo(41 * doc.motion.run.dt, 12);
+    for (const joint of result.joints) {
+      const residuals = table.data.map((row) => Number(row[`${joint.joint}.residual_rad_s`]));
+      table.data.forEach((row, i) => expect(residuals[i]).toBe(Number(row[`${joint.joint}.logged_rad_s`]) - Number(row[`${joint.joint}.sheet_rad_s`])));
+      // RMS = sqrt(mean of squares), the definition the statistics use.
+      const rms = Math.sqrt(residuals.reduce((sum, r) => sum + r * r, 0) / residuals.length);
+      expect(rms).toBeCloseTo(joint.rms, 12);
+      expect(Math.max(...residuals.map(Math.abs))).toBe(joint.max);
+    }
+    expect(Number(table.data[60]![`${FAULTY_JOINT}.residual_rad_s`])).toBeCloseTo(FAULT_OFFSET, 9);
+  });
+
+  it('refuses an export format it does not know, naming the field, and 404s a comparison of another log', async () => {
+    const record = await compared(cleanLogId, { mapping, revision: 1 });
+    const bad = await callRoute(comparisonRoute.GET, {
+      path: `/api/sheets/${sheetId}/logs/${cleanLogId}/comparisons/${record.id}?format=xlsx`,
+      params: { sheetId, logId: cleanLogId, comparisonId: record.id },
+      identity: viewer,
+    });
+    expect(bad.status).toBe(400);
+    expect((await bad.json()).error.path).toBe('format');
+    const otherLog = await upload(logText(run));
+    const missing = await callRoute(comparisonRoute.GET, {
+      path: `/api/sheets/${sheetId}/logs/${otherLog}/comparisons/${record.id}?format=series`,
+      params: { sheetId, logId: otherLog, comparisonId: record.id },
+      identity: viewer,
+    });
+    expect(missing.status).toBe(404);
+    expect((await missing.json()).error.path).toBe('comparisonId');
+  });
+
+  it('lists the sheet\'s comparisons of all its logs, newest first, with revision, log file, verdict and date, and the latest revision', async () => {
+    const before = Date.now();
+    const record = await compared(cleanLogId, { mapping, revision: 1 });
+    const response = await callRoute(sheetComparisonsRoute.GET, { path: `/api/sheets/${sheetId}/comparisons`, params: { sheetId }, identity: viewer });
+    expect(response.status).toBe(200);
+    const listed: SheetComparisonList = await response.json();
+    expect(listed.latestRevision).toBe(2);
+    expect(listed.items[0]).toMatchObject({ id: record.id, uploadId: cleanLogId, fileName: 'fenwick-line2.csv', revision: 1, verdict: 'pass', status: 'done' });
+    expect(Date.parse(listed.items[0]!.createdAt as unknown as string)).toBeGreaterThanOrEqual(before - 1000);
+    expect(listed.items.map((item) => item.revision)).toContain(2);
+    const times = listed.items.map((item) => Date.parse(item.createdAt as unknown as string));
+    expect(times).toEqual([...times].sort((a, b) => b - a));
+    expect(listed.items.every((item) => !('result' in item))).toBe(true);
+    expect((await callRoute(sheetComparisonsRoute.GET, { path: `/api/sheets/${sheetId}/comparisons`, params: { sheetId }, identity: outsider })).status).toBe(404);
+  });
+
+  it('gives the report each log\'s newest comparison with a revision, without plot series, and leaves out logs never compared with it', async () => {
+    const database = await getDatabase();
+    const older = await compared(cleanLogId, { mapping, revision: 1 });
+    const newer = await compared(cleanLogId, { mapping, revision: 1 });
+    const uncompared = await upload(logText(run), 'zz-never-compared.csv');
+    const rows = await latestComparisonsOfRevision(database, sheetId, 1);
+    const forClean = rows.filter((row) => row.uploadId === cleanLogId);
+    expect(forClean).toHaveLength(1);
+    expect(forClean[0]!.id).toBe(newer.id);
+    expect(forClean[0]!.id).not.toBe(older.id);
+    expect(forClean[0]!.result.joints).toEqual(newer.result!.joints);
+    expect(forClean[0]!.result.verdict).toEqual(newer.result!.verdict);
+    expect('series' in forClean[0]!.result).toBe(false);
+    expect(rows.some((row) => row.uploadId === uncompared)).toBe(false);
+    expect(new Set(rows.map((row) => row.uploadId)).size).toBe(rows.length);
+    // Revision 2 has its own latest comparisons: the one judged against it earlier in this file fails.
+    const second = await latestComparisonsOfRevision(database, sheetId, 2);
+    expect(second.find((row) => row.uploadId === cleanLogId)!.result.verdict.withinTolerance).toBe(false);
   });
 });

@@ -476,6 +476,20 @@ const ROWS: Row[] = [
     expect: { ...SIGNED_IN_OK, other: 404 },
   },
   {
+    route: 'sheets/[sheetId]/logs/[logId]/comparisons/[comparisonId].ts',
+    method: 'GET',
+    variant: 'per-sample series as CSV',
+    prepare: async (fx) => ({ ...(await scratchSheetWithComparison(fx)), query: '?format=series' }),
+    expect: { ...SIGNED_IN_OK, other: 404 },
+  },
+  {
+    route: 'sheets/[sheetId]/comparisons.ts',
+    method: 'GET',
+    variant: 'the sheet\'s comparisons of all its logs',
+    prepare: (fx) => scratchSheetWithComparison(fx),
+    expect: { ...SIGNED_IN_OK, other: 404 },
+  },
+  {
     route: 'sheets/import.ts',
     method: 'POST',
     variant: 'a valid sheet file',
