@@ -24,7 +24,7 @@ export const FILE_CHUNK_BYTES = 128 * 1024;
  */
 export async function openLogText(file: Blob, onBytes?: (bytesRead: number) => void): Promise<ReadableStream<string>> {
   let offset = 0;
-  let bytes = new ReadableStream<Uint8Array>(
+  let bytes: ReadableStream<BufferSource> = new ReadableStream<Uint8Array<ArrayBuffer>>(
     {
       async pull(controller) {
         if (offset >= file.size) {
@@ -39,7 +39,7 @@ export async function openLogText(file: Blob, onBytes?: (bytesRead: number) => v
     },
     { highWaterMark: 0 },
   );
-  if (await isGzip(file)) bytes = bytes.pipeThrough(new DecompressionStream('gzip') as unknown as TransformStream<Uint8Array, Uint8Array>);
+  if (await isGzip(file)) bytes = bytes.pipeThrough(new DecompressionStream('gzip'));
   return bytes.pipeThrough(new TextDecoderStream());
 }
 

@@ -79,7 +79,7 @@ describe('performLogCompare', () => {
   });
 
   it('reads a gzip file (told by its magic bytes, whatever its name) to the same comparison', async () => {
-    const gzipped = new File([gzipSync(text)], 'controller.csv', { type: 'text/csv' });
+    const gzipped = new File([new Uint8Array(gzipSync(text))], 'controller.csv', { type: 'text/csv' });
     const [plain, compressed] = [await perform(new Blob([text])), await perform(gzipped)];
     const a = plain.at(-1)!, b = compressed.at(-1)!;
     expect(b.kind).toBe('done');
@@ -91,7 +91,7 @@ describe('performLogCompare', () => {
   });
 
   it('fails a damaged gzip file in words, never with a thrown error', async () => {
-    const whole = gzipSync(text);
+    const whole = new Uint8Array(gzipSync(text));
     const replies = await perform(new Blob([whole.subarray(0, whole.length >> 1)]));
     expect(replies.at(-1)).toEqual({ kind: 'failed', message: expect.stringMatching(/could not be read to its end/), issues: [] });
   });
