@@ -13,8 +13,14 @@ export default function JobProgress({ state, unit, onCancel }: { state: JobState
   if (state.status === 'cancelled') {
     return (
       <p className="border-l-4 border-ochre pl-3 text-sm" role="status" data-testid="job-cancelled">
-        Cancelled after <span className="num">{state.done.toLocaleString('en')}</span> of{' '}
-        <span className="num">{state.total.toLocaleString('en')}</span> {unit}.
+        {state.total > 0 ? (
+          <>
+            Cancelled after <span className="num">{state.done.toLocaleString('en')}</span> of{' '}
+            <span className="num">{state.total.toLocaleString('en')}</span> {unit}.
+          </>
+        ) : (
+          'Cancelled before the first progress report.'
+        )}
       </p>
     );
   }
