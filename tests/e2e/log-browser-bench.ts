@@ -141,9 +141,10 @@ try {
   await sampler;
 
   const verdict = await check.locator('[data-verdict]').getAttribute('data-verdict');
-  const detail = (await check.locator('[data-local-check-detail]').textContent()) ?? '';
-  const messages = Number(/\((\d+) progress messages\)/.exec(detail)?.[1]);
-  const workerSeconds = Number(/ in ([\d.]+) s /.exec(detail)?.[1]);
+  const detailLine = check.locator('[data-local-check-detail]');
+  const detail = (await detailLine.textContent()) ?? '';
+  const messages = Number(await detailLine.getAttribute('data-progress-messages'));
+  const workerSeconds = Number(/ in ([\d.]+) s$/.exec(detail)?.[1]);
   console.log(`verdict: ${verdict}; worker's own account: ${detail}`);
   console.log(`wall time, Compare to verdict: ${(wallMs / 1000).toFixed(1)} s`);
   console.log(`samples/s (wall): ${Math.round(record.tickCount / (wallMs / 1000)).toLocaleString('en')}`);

@@ -97,10 +97,10 @@ export default function LocalLogCheck({ sheetId, jointNames, revision }: LocalLo
           </div>
           {state.status === 'done' && (
             <>
-              <p className="num mt-2 text-xs text-graphite" data-local-check-detail>
+              <p className="num mt-2 text-xs text-graphite" data-local-check-detail data-progress-messages={state.result.progressMessages}>
                 {state.detail}
               </p>
-              <ComparisonResultView result={state.result} revision={revision} />
+              <ComparisonResultView result={state.result.comparison} revision={revision} />
             </>
           )}
         </>

@@ -53,8 +53,14 @@ function logReadingDetail(reply: { bytesRead: number; totalBytes: number; sample
   return `${formatBytes(reply.bytesRead)} of ${formatBytes(reply.totalBytes)} · ${reply.samples.toLocaleString('en')} samples · ${rate.toLocaleString('en')} samples/s`;
 }
 
+/** A comparison run in the browser, with the number of progress messages the worker posted on the way. */
+export interface LocalComparison {
+  comparison: LogComparison;
+  progressMessages: number;
+}
+
 /** Comparisons of a local log file with a sheet, in file bytes; the worker hears a cancel between chunks. */
-export const LOG_COMPARE_JOBS: WorkerKind<LogCompareRequest, LogComparison> = {
+export const LOG_COMPARE_JOBS: WorkerKind<LogCompareRequest, LocalComparison> = {
   create: () => new Worker(new URL('../../workers/log-compare.worker.ts', import.meta.url), { type: 'module' }),
   post: (worker, request) => worker.postMessage(request),
   read: (message) => {
@@ -63,7 +69,11 @@ export const LOG_COMPARE_JOBS: WorkerKind<LogCompareRequest, LogComparison> = {
       case 'progress':
         return { kind: 'progress', done: reply.bytesRead, total: reply.totalBytes, detail: logReadingDetail(reply) };
       case 'done':
-        return { kind: 'done', result: reply.result, detail: `${logReadingDetail(reply)} in ${(reply.elapsedMs / 1000).toFixed(1)} s (${reply.progressMessages} progress messages)` };
+        return {
+          kind: 'done',
+          result: { comparison: reply.result, progressMessages: reply.progressMessages },
+          detail: `${logReadingDetail(reply)} in ${(reply.elapsedMs / 1000).toFixed(1)} s`,
+        };
       case 'failed':
         return { kind: 'failed', message: reply.message, issues: reply.issues };
       case 'cancelled':
