@@ -43,6 +43,9 @@ export type LogCompareReply =
 /** Shortest time between two progress messages, ms: ten a second keep a bar moving without flooding the page. */
 export const PROGRESS_INTERVAL_MS = 100;
 
+/** Samples compared between two readings of the clock for progress (a power of two). */
+export const SAMPLES_PER_CLOCK_READING = 1024;
+
 export interface PerformOptions {
   signal?: AbortSignal;
   now?: () => number;
@@ -75,17 +78,24 @@ export async function performLogCompare(message: unknown, post: (reply: LogCompa
   const totalBytes = message.file.size;
   let bytesRead = 0, samples = 0, progressMessages = 0, lastPost = started;
   const progress = (): LogCompareProgress => ({ bytesRead, totalBytes, samples, elapsedMs: now() - started });
-  const onBytes = (read: number) => {
-    bytesRead = read;
+  const maybePost = () => {
     const at = now();
     if (at - lastPost < PROGRESS_INTERVAL_MS) return;
     lastPost = at;
     progressMessages++;
     post({ kind: 'progress', ...progress() });
   };
+  const onBytes = (read: number) => {
+    bytesRead = read;
+    maybePost();
+  };
+  // A slice of a gzip file can hold megabytes of text, so the samples move the progress on too.
+  const onSample = () => {
+    if ((++samples & (SAMPLES_PER_CLOCK_READING - 1)) === 0) maybePost();
+  };
   const streamed = streamLogText(await openLogText(message.file, onBytes), options.signal);
   try {
-    const compared = await compareLog(sheet.doc, mapping.mapping, streamed.source, { onSample: () => void samples++ });
+    const compared = await compareLog(sheet.doc, mapping.mapping, streamed.source, { onSample });
     if (compared.ok) post({ kind: 'done', result: compared.value, progressMessages, ...progress() });
     else post({ kind: 'failed', message: compared.error.message, issues: describeComparisonError(compared.error) });
   } catch (error) {

@@ -2,8 +2,8 @@ import { gzipSync } from 'node:zlib';
 import { describe, expect, it } from 'vitest';
 import { compareLog } from '../../../src/lib/logs/compare';
 import { runLogMapping } from '../../../src/lib/logs/generate';
-import { readLogHeader } from '../../../src/lib/logs/log-file';
-import { performLogCompare, PROGRESS_INTERVAL_MS, type LogCompareReply } from '../../../src/workers/log-compare-protocol';
+import { FILE_CHUNK_BYTES, readLogHeader } from '../../../src/lib/logs/log-file';
+import { performLogCompare, PROGRESS_INTERVAL_MS, SAMPLES_PER_CLOCK_READING, type LogCompareReply } from '../../../src/workers/log-compare-protocol';
 import { generatedRun, logText, TOLERANCES } from '../logs/generated-log';
 
 // A log long enough to arrive in many chunks (about 2.5 MB of text).
@@ -88,6 +88,14 @@ describe('performLogCompare', () => {
     // Progress counts the file's own (compressed) bytes.
     expect(b.bytesRead).toBe(gzipped.size);
     expect(await readLogHeader(gzipped)).toEqual(run.header);
+  });
+
+  it('moves the progress on with the samples where one slice of a gzip file holds much text', async () => {
+    const gzipped = new Blob([new Uint8Array(gzipSync(text))]);
+    const slices = Math.ceil(gzipped.size / FILE_CHUNK_BYTES);
+    const progress = progressOf(await perform(gzipped, { step: PROGRESS_INTERVAL_MS }));
+    expect(progress.length).toBeGreaterThan(slices);
+    expect(progress.filter((p) => p.samples > 0).length).toBeGreaterThanOrEqual(run.record.tickCount / SAMPLES_PER_CLOCK_READING - 1);
   });
 
   it('fails a damaged gzip file in words, never with a thrown error', async () => {
