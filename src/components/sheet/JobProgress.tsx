@@ -1,7 +1,7 @@
 import { dangerButton } from '../form-parts';
 import type { JobState } from './useWorkerJob';
 
-/** Progress bar with a cancel button while a worker job runs, and the outcome when it was cancelled or failed. */
+/** Progress bar with a cancel button (and the job's own words on its progress) while a worker job runs, and the outcome when it was cancelled or failed. */
 export default function JobProgress({ state, unit, onCancel }: { state: JobState<unknown>; unit: string; onCancel: () => void }) {
   if (state.status === 'failed') {
     return (
@@ -13,31 +13,40 @@ export default function JobProgress({ state, unit, onCancel }: { state: JobState
   if (state.status === 'cancelled') {
     return (
       <p className="border-l-4 border-ochre pl-3 text-sm" role="status" data-testid="job-cancelled">
-        Cancelled after <span className="num">{state.done.toLocaleString('en')}</span> of{' '}
-        <span className="num">{state.total.toLocaleString('en')}</span> {unit}.
+        {state.total > 0 ? (
+          <>
+            Cancelled after <span className="num">{state.done.toLocaleString('en')}</span> of{' '}
+            <span className="num">{state.total.toLocaleString('en')}</span> {unit}.
+          </>
+        ) : (
+          'Cancelled before the first progress report.'
+        )}
       </p>
     );
   }
   if (state.status !== 'running') return null;
   const fraction = state.total > 0 ? state.done / state.total : 0;
   return (
-    <div className="flex items-center gap-3" data-testid="job-progress">
-      <div
-        className="h-3 flex-1 border-2 border-ink bg-paper-deep"
-        role="progressbar"
-        aria-label={`Progress in ${unit}`}
-        aria-valuemin={0}
-        aria-valuemax={state.total}
-        aria-valuenow={state.done}
-      >
-        <div className="h-full bg-verdigris transition-[width] duration-100" style={{ width: `${(100 * fraction).toFixed(1)}%` }} />
+    <div data-testid="job-progress">
+      <div className="flex items-center gap-3">
+        <div
+          className="h-3 flex-1 border-2 border-ink bg-paper-deep"
+          role="progressbar"
+          aria-label={`Progress in ${unit}`}
+          aria-valuemin={0}
+          aria-valuemax={state.total}
+          aria-valuenow={state.done}
+        >
+          <div className="h-full bg-verdigris transition-[width] duration-100" style={{ width: `${(100 * fraction).toFixed(1)}%` }} />
+        </div>
+        <span className="num w-44 text-right text-xs text-graphite">
+          {state.done.toLocaleString('en')} / {state.total > 0 ? state.total.toLocaleString('en') : '…'} {unit}
+        </span>
+        <button type="button" onClick={onCancel} className={dangerButton}>
+          Cancel
+        </button>
       </div>
-      <span className="num w-44 text-right text-xs text-graphite">
-        {state.done.toLocaleString('en')} / {state.total > 0 ? state.total.toLocaleString('en') : '…'} {unit}
-      </span>
-      <button type="button" onClick={onCancel} className={dangerButton}>
-        Cancel
-      </button>
+      {state.detail && <p className="num mt-1 text-xs text-graphite" data-job-detail>{state.detail}</p>}
     </div>
   );
 }

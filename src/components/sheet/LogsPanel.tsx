@@ -4,6 +4,8 @@ import QueryRoot from '../QueryRoot';
 import { ApiError, formatWhen, requestJson, uploadFile, type Upload } from '../../lib/client/api';
 import type { LogUploadSummary, Wire } from '../../lib/contract';
 import { MAX_LOG_BYTES } from '../../lib/validation/log-uploads';
+import { formatBytes } from '../../lib/view/bytes';
+import LocalLogCheck from './LocalLogCheck';
 import LogComparisonPanel from './LogComparisonPanel';
 import { button } from './sheet-styles';
 
@@ -15,15 +17,6 @@ interface LogsPanelProps {
   jointNames: string[];
   /** The revision the page shows; comparisons judge the log against it. */
   revision: number;
-}
-
-const KIB = 1024;
-const MIB = 1024 * KIB;
-
-/** A byte count as people read file sizes: "812 B", "14.2 KiB", "500 MiB". */
-function formatBytes(bytes: number): string {
-  if (bytes < KIB) return `${bytes} B`;
-  return bytes < MIB ? `${+(bytes / KIB).toFixed(1)} KiB` : `${+(bytes / MIB).toFixed(1)} MiB`;
 }
 
 function Logs({ sheetId, canUpload, jointNames, revision }: LogsPanelProps) {
@@ -124,11 +117,12 @@ function Logs({ sheetId, canUpload, jointNames, revision }: LogsPanelProps) {
           </button>
         </div>
       )}
+      <LocalLogCheck sheetId={sheetId} jointNames={jointNames} revision={revision} />
     </section>
   );
 }
 
-/** The sheet's controller logs: upload with a progress bar, list with size and date, delete. */
+/** The sheet's controller logs: upload with a progress bar, list with size and date, delete; and a check of a local log in this browser. */
 export default function LogsPanel(props: LogsPanelProps) {
   return (
     <QueryRoot>

@@ -6,7 +6,7 @@ import type { SheetDocument } from '../../lib/sheet/types';
 import { SEVERITY_COLOURS } from '../../lib/view/palette';
 import { describeStopReason, severityRuns, type JointSeries, type RunSeries } from '../../lib/view/series';
 import JobProgress from './JobProgress';
-import { useWorkerJob } from './useWorkerJob';
+import { RUN_JOBS, useWorkerJob } from './useWorkerJob';
 
 const DEGREES = 180 / Math.PI;
 const SEVERITY_NAMES = ['none', 'note', 'caution', 'singular'] as const;
@@ -71,7 +71,7 @@ function RunResults({ series, stale }: { series: RunSeries; stale: boolean }) {
 
 /** Runs the sheet's closed loop toward motion.target in a worker and plots what happened tick by tick. */
 export default function RunPanel({ document }: { document: SheetDocument }) {
-  const { state, start, cancel } = useWorkerJob('run-done');
+  const { state, start, cancel } = useWorkerJob(RUN_JOBS);
   const ranWith = useRef<SheetDocument | null>(null);
   const run = document.motion.run;
 

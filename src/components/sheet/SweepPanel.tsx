@@ -7,7 +7,7 @@ import { SEVERITY_COLOURS } from '../../lib/view/palette';
 import { severityRuns, type SweepSeries } from '../../lib/view/series';
 import { DEFAULT_SWEEP_STEPS, sweepInputs, sweepSettingsFrom, type DisplayUnit, type SweepInput } from '../../lib/view/sweep-inputs';
 import JobProgress from './JobProgress';
-import { useWorkerJob } from './useWorkerJob';
+import { SWEEP_JOBS, useWorkerJob } from './useWorkerJob';
 
 const SEVERITY_NAMES = ['none', 'note', 'caution', 'singular'] as const;
 const MAX_STEPS = 1000;
@@ -64,7 +64,7 @@ export default function SweepPanel({ document }: { document: SheetDocument }) {
   const [steps, setSteps] = useState(String(document.sweep?.steps ?? DEFAULT_SWEEP_STEPS));
   const [error, setError] = useState<string | null>(null);
   const [sweptInput, setSweptInput] = useState<SweepInput | null>(null);
-  const { state, start, cancel } = useWorkerJob('sweep-done');
+  const { state, start, cancel } = useWorkerJob(SWEEP_JOBS);
 
   function choose(nextPath: string) {
     const next = inputs.find((i) => i.path === nextPath)!;

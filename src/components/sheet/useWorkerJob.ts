@@ -1,71 +1,170 @@
 import { useCallback, useEffect, useRef, useState } from 'react';
+import type { LogComparison } from '../../lib/logs/compare';
+import { formatBytes } from '../../lib/view/bytes';
 import type { RunSeries, SweepSeries } from '../../lib/view/series';
+import type { LogCompareReply, LogCompareRequest } from '../../workers/log-compare-protocol';
 import type { WorkerJob, WorkerReply } from '../../workers/run-protocol';
 
 export type JobState<T> =
   | { status: 'idle' }
-  | { status: 'running'; done: number; total: number }
-  | { status: 'done'; result: T }
-  | { status: 'failed'; message: string }
+  | { status: 'running'; done: number; total: number; detail?: string }
+  | { status: 'done'; result: T; detail?: string }
+  | { status: 'failed'; message: string; issues?: string[] }
   | { status: 'cancelled'; done: number; total: number };
 
-interface SeriesOf {
-  'run-done': RunSeries;
-  'sweep-done': SweepSeries;
+/** What one reply of a worker means for its job; null for a reply that changes nothing. */
+export type JobEvent<T> =
+  | { kind: 'progress'; done: number; total: number; detail?: string }
+  | { kind: 'done'; result: T; detail?: string }
+  | { kind: 'failed'; message: string; issues?: string[] }
+  | { kind: 'cancelled' }
+  | null;
+
+/** One kind of worker job: how to start its worker, read its replies and, if it can hear one, ask it to stop. */
+export interface WorkerKind<J, T> {
+  create: () => Worker;
+  read: (reply: unknown) => JobEvent<T>;
+  /** Posted to cancel. Without one, cancel terminates the worker: a loop that never yields cannot hear a message. */
+  cancelMessage?: unknown;
+  post: (worker: Worker, job: J) => void;
 }
+
+function runKind<K extends 'run-done' | 'sweep-done'>(doneKind: K): WorkerKind<WorkerJob, K extends 'run-done' ? RunSeries : SweepSeries> {
+  return {
+    create: () => new Worker(new URL('../../workers/run.worker.ts', import.meta.url), { type: 'module' }),
+    post: (worker, job) => worker.postMessage(job),
+    read: (message) => {
+      const reply = message as WorkerReply;
+      if (reply.kind === 'progress') return { kind: 'progress', done: reply.done, total: reply.total };
+      if (reply.kind === 'failed') return { kind: 'failed', message: reply.message };
+      return reply.kind === doneKind ? { kind: 'done', result: reply.series as K extends 'run-done' ? RunSeries : SweepSeries } : null;
+    },
+  };
+}
+
+/** Runs toward the sheet's target, in ticks. */
+export const RUN_JOBS = runKind('run-done');
+/** Sweeps of one input, in values. */
+export const SWEEP_JOBS = runKind('sweep-done');
+
+/** "1.2 MiB of 45 MiB · 12,345 samples · 45,000 samples/s": what a progress or result message of the log worker says in words. */
+function logReadingDetail(reply: { bytesRead: number; totalBytes: number; samples: number; elapsedMs: number }): string {
+  const rate = reply.elapsedMs > 0 ? Math.round((1000 * reply.samples) / reply.elapsedMs) : 0;
+  return `${formatBytes(reply.bytesRead)} of ${formatBytes(reply.totalBytes)} · ${reply.samples.toLocaleString('en')} samples · ${rate.toLocaleString('en')} samples/s`;
+}
+
+/** A comparison run in the browser, with the number of progress messages the worker posted on the way. */
+export interface LocalComparison {
+  comparison: LogComparison;
+  progressMessages: number;
+}
+
+/** Comparisons of a local log file with a sheet, in file bytes; the worker hears a cancel between chunks. */
+export const LOG_COMPARE_JOBS: WorkerKind<LogCompareRequest, LocalComparison> = {
+  create: () => new Worker(new URL('../../workers/log-compare.worker.ts', import.meta.url), { type: 'module' }),
+  post: (worker, request) => worker.postMessage(request),
+  read: (message) => {
+    const reply = message as LogCompareReply;
+    switch (reply.kind) {
+      case 'progress':
+        return { kind: 'progress', done: reply.bytesRead, total: reply.totalBytes, detail: logReadingDetail(reply) };
+      case 'done':
+        return {
+          kind: 'done',
+          result: { comparison: reply.result, progressMessages: reply.progressMessages },
+          detail: `${logReadingDetail(reply)} in ${(reply.elapsedMs / 1000).toFixed(1)} s`,
+        };
+      case 'failed':
+        return { kind: 'failed', message: reply.message, issues: reply.issues };
+      case 'cancelled':
+        return { kind: 'cancelled' };
+      default:
+        return null;
+    }
+  },
+  cancelMessage: { type: 'cancel' },
+};
 
 /**
  * Runs one worker job at a time. The worker stays alive between jobs, so later runs use code the
- * engine has already optimised; cancel terminates it at once (the core loop never yields, so a
- * message could not stop it) and the next job starts a fresh one. Unmounting terminates it too.
+ * engine has already optimised. Cancel posts the kind's cancel message, or terminates the worker
+ * when the kind has none; a job started while a cancelled one still winds down gets a fresh
+ * worker, so no late reply of the old job is read as the new one's. Unmounting terminates it too.
+ * `start` resolves with the job's final state.
  */
-export function useWorkerJob<K extends keyof SeriesOf>(doneKind: K) {
-  const [state, setState] = useState<JobState<SeriesOf[K]>>({ status: 'idle' });
+export function useWorkerJob<J, T>(kind: WorkerKind<J, T>) {
+  const [state, setState] = useState<JobState<T>>({ status: 'idle' });
   const workerRef = useRef<Worker | null>(null);
   const runningRef = useRef(false);
+  const windingDownRef = useRef(false);
   const progressRef = useRef({ done: 0, total: 0 });
+  const settleRef = useRef<((state: JobState<T>) => void) | null>(null);
+
+  const finish = useCallback((final: JobState<T>) => {
+    runningRef.current = false;
+    setState(final);
+    settleRef.current?.(final);
+    settleRef.current = null;
+  }, []);
 
   const terminate = useCallback(() => {
     workerRef.current?.terminate();
     workerRef.current = null;
     runningRef.current = false;
+    windingDownRef.current = false;
   }, []);
 
+  const cancel = useCallback(() => {
+    if (!runningRef.current) return;
+    if (kind.cancelMessage === undefined) terminate();
+    else {
+      workerRef.current?.postMessage(kind.cancelMessage);
+      windingDownRef.current = true;
+    }
+    finish({ status: 'cancelled', ...progressRef.current });
+  }, [finish, kind, terminate]);
+
   const start = useCallback(
-    (job: WorkerJob) => {
-      if (runningRef.current) terminate();
-      const worker = workerRef.current ?? new Worker(new URL('../../workers/run.worker.ts', import.meta.url), { type: 'module' });
+    (job: J): Promise<JobState<T>> => {
+      if (runningRef.current) cancel();
+      if (windingDownRef.current) terminate();
+      const worker = workerRef.current ?? kind.create();
       workerRef.current = worker;
       runningRef.current = true;
       progressRef.current = { done: 0, total: 0 };
       setState({ status: 'running', done: 0, total: 0 });
-      worker.onmessage = (event: MessageEvent<WorkerReply>) => {
-        const reply = event.data;
-        if (reply.kind === 'progress') {
-          progressRef.current = { done: reply.done, total: reply.total };
-          setState({ status: 'running', done: reply.done, total: reply.total });
+      worker.onmessage = (event: MessageEvent<unknown>) => {
+        const reading = kind.read(event.data);
+        if (reading === null) return;
+        if (windingDownRef.current) {
+          // The cancelled job's last word: the worker is free again.
+          if (reading.kind !== 'progress') windingDownRef.current = false;
           return;
         }
-        runningRef.current = false;
-        if (reply.kind === 'failed') setState({ status: 'failed', message: reply.message });
-        else if (reply.kind === doneKind) setState({ status: 'done', result: reply.series as SeriesOf[K] });
+        if (reading.kind === 'progress') {
+          progressRef.current = { done: reading.done, total: reading.total };
+          setState({ status: 'running', done: reading.done, total: reading.total, ...(reading.detail ? { detail: reading.detail } : {}) });
+        } else if (reading.kind === 'failed') finish({ status: 'failed', message: reading.message, ...(reading.issues ? { issues: reading.issues } : {}) });
+        else if (reading.kind === 'cancelled') finish({ status: 'cancelled', ...progressRef.current });
+        else finish({ status: 'done', result: reading.result, ...(reading.detail ? { detail: reading.detail } : {}) });
       };
       worker.onerror = (event) => {
         terminate();
-        setState({ status: 'failed', message: event.message || 'The worker stopped with an error.' });
+        finish({ status: 'failed', message: event.message || 'The worker stopped with an error.' });
       };
-      worker.postMessage(job);
+      const settled = new Promise<JobState<T>>((resolve) => {
+        settleRef.current = resolve;
+      });
+      kind.post(worker, job);
+      return settled;
     },
-    [doneKind, terminate],
+    [cancel, finish, kind, terminate],
   );
 
-  const cancel = useCallback(() => {
-    if (!runningRef.current) return;
+  useEffect(() => () => {
     terminate();
-    setState({ status: 'cancelled', ...progressRef.current });
+    settleRef.current?.({ status: 'idle' });
   }, [terminate]);
-
-  useEffect(() => terminate, [terminate]);
 
   return { state, start, cancel };
 }

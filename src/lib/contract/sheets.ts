@@ -52,6 +52,13 @@ export interface SheetPageData {
   forkTargets: { teamId: string; name: string }[];
 }
 
+/** GET /api/sheets/:id?revision=N: the sheet, that revision with its document as stored, and the forks the caller may read. */
+export interface SheetRevisionDetail {
+  sheet: { id: string; teamId: string; title: string; latestRevision: number };
+  revision: { number: number; message: string; authorName: string | null; createdAt: Date; inputs: StoredDocument };
+  forks: { id: string; teamId: string; title: string; forkedFromRevision: number | null; latestRevision: number }[];
+}
+
 /** One revision in GET /api/sheets/:id/revisions (without its inputs). */
 export interface RevisionListItem {
   number: number;

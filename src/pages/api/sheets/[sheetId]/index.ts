@@ -1,4 +1,5 @@
 import type { APIRoute } from 'astro';
+import type { SheetRevisionDetail } from '../../../../lib/contract';
 import { notFound } from '../../../../lib/server/access';
 import { noContent, respond, validateQuery } from '../../../../lib/server/http';
 import { requireSheet } from '../../../../lib/server/sheet-access';
@@ -15,7 +16,7 @@ export const GET = (async ({ params, url, locals }) => {
   const revision = await getRevision(database, sheet.id, wanted);
   if (!revision) return respond(notFound(`Revision ${wanted} does not exist.`, 'revision'));
   const forks = await listForks(database, sheet.id, identity.memberships.map((m) => m.teamId));
-  return Response.json({ sheet, revision, forks });
+  return Response.json({ sheet, revision, forks } satisfies SheetRevisionDetail);
 }) satisfies APIRoute;
 
 export const DELETE = (async ({ params, locals, clientAddress }) => {
