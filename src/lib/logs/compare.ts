@@ -110,6 +110,8 @@ export interface CompareOptions {
   /** Called once the header is read and the table's columns are known. */
   onColumns?: (columns: { joints: string[]; fingers: string[] }) => void;
   plotBuckets?: number;
+  /** Reads the log: readLog (one thread, any source) unless a caller in Node passes readLogThreaded. */
+  read?: typeof readLog;
 }
 
 /** Where each mapped joint sits in the sheet, or the issues naming joints the sheet does not have. */
@@ -367,7 +369,7 @@ export async function compareLog(doc: SheetDocument, mapping: LogMapping, source
 
   let previous: LogSample | null = null;
   let current: LogSample | null = null;
-  const outcome = await readLog(source, mapping, {
+  const outcome = await (options.read ?? readLog)(source, mapping, {
     onGap: (gap) => {
       if (gaps.length < MAX_LISTED_GAPS) gaps.push(gap);
       gapCount++;

@@ -65,6 +65,8 @@ interface Cell {
   factor: number;
   limit: number;
   what: string;
+  /** Place of the cell's value in an extracted record (after the line), set once the header is read. */
+  slot: number;
 }
 
 /** The cells of a row that the mapping reads, resolved against the header once. */
@@ -196,14 +198,14 @@ export function quaternionFromRollPitchYaw(roll: number, pitch: number, yaw: num
  * reader below and a reader that parses on another thread drive this one, so they find the same samples and issues.
  */
 export interface RecordReader {
-  /** Reads line 1; the mapped columns, or null when the records are not to be read (a bad or blank header). */
+  /** Reads line 1; the mapped columns, or null (and stopped) for a bad or blank header. */
   header(row: string[]): LogColumns | null;
   /** Reads one extracted record (values at `base`: line, then the columns' SI values) or its text when flagged. */
   record(values: Float64Array, base: number, raw: string[] | null): void;
   /** Reading should stop: the header was bad or too many issues were found. */
   readonly stopped: boolean;
-  /** The outcome after `lines` lines (header and blank lines included). */
-  finish(lines: number): ReadLogOutcome;
+  /** The outcome once the log has ended or reading stopped. */
+  finish(): ReadLogOutcome;
 }
 
 /** A record reader for the mapping, passing good samples and gaps to `options`. */
@@ -215,8 +217,6 @@ export function createRecordReader(mapping: LogMapping, options: ReadLogOptions)
   const period = mapping.time.period === undefined ? undefined : mapping.time.period * timeFactor;
   let header: string[] = [];
   let cells: Cells | undefined;
-  /** Each mapped cell's slot among the extracted values (1 + its position in the columns). */
-  const slots = new Map<Cell, number>();
   let sampleCount = 0;
   let previousTime = NaN;
   let nominal = period;
@@ -239,7 +239,7 @@ export function createRecordReader(mapping: LogMapping, options: ReadLogOptions)
       const index = positions.get(name);
       if (index === undefined) addIssue({ line: 1, expected: `a column "${name}" (${path} in the mapping)`, found: 'no such column in the header' });
       else if (repeated.has(name)) addIssue({ line: 1, column: index + 1, columnName: name, expected: `one column named "${name}" (${path})`, found: 'it more than once' });
-      return { index: index ?? -1, factor, limit, what };
+      return { index: index ?? -1, factor, limit, what, slot: 0 };
     };
     const length = LENGTH_UNITS[mapping.pose.position.unit];
     const orientation = mapping.pose.orientation;
@@ -274,7 +274,7 @@ export function createRecordReader(mapping: LogMapping, options: ReadLogOptions)
       found.time, ...found.position, ...(found.quaternion ?? found.rollPitchYaw ?? []),
       ...found.angles, ...found.commanded, ...found.measured, ...(found.twist ?? []),
     ].filter((c): c is Cell => c !== undefined);
-    list.forEach((c, k) => slots.set(c, k + 1));
+    list.forEach((c, k) => (c.slot = k + 1));
     return { indices: list.map((c) => c.index), factors: list.map((c) => c.factor), limits: list.map((c) => c.limit), headerLength: header.length };
   };
 
@@ -294,6 +294,10 @@ export function createRecordReader(mapping: LogMapping, options: ReadLogOptions)
     return value;
   };
 
+  /** A cell's SI value: extracted, or read again from the text of a flagged record. Made once, not per record: it runs for every cell. */
+  const valueOf = (extracted: Float64Array, base: number, raw: string[] | null, line: number, at: Cell): number =>
+    raw === null ? extracted[base + at.slot]! : cell(line, raw, at);
+
   const record = (extracted: Float64Array, base: number, raw: string[] | null): void => {
     const line = extracted[base]!;
     if (raw !== null && raw.length !== header.length) {
@@ -301,14 +305,13 @@ export function createRecordReader(mapping: LogMapping, options: ReadLogOptions)
       return;
     }
     const c = cells!;
-    const value = (at: Cell): number => (raw === null ? extracted[base + slots.get(at)!]! : cell(line, raw, at));
     const before = issues.length;
     const sample = ring[sampleCount % SAMPLE_RING]!;
     sample.line = line;
-    sample.time = value(c.time);
-    for (let k = 0; k < 3; k++) sample.position[k] = value(c.position[k]!);
+    sample.time = valueOf(extracted, base, raw, line, c.time);
+    for (let k = 0; k < 3; k++) sample.position[k] = valueOf(extracted, base, raw, line, c.position[k]!);
     if (c.quaternion) {
-      for (let k = 0; k < 4; k++) values[k] = value(c.quaternion[k]!);
+      for (let k = 0; k < 4; k++) values[k] = valueOf(extracted, base, raw, line, c.quaternion[k]!);
       const norm = Math.hypot(values[0]!, values[1]!, values[2]!, values[3]!);
       const w = c.quaternion[3]!;
       if (issues.length === before && Math.abs(norm - 1) > QUATERNION_LENGTH_TOLERANCE) {
@@ -317,18 +320,18 @@ export function createRecordReader(mapping: LogMapping, options: ReadLogOptions)
         quat.normalize(values.subarray(0, 4), sample.orientation);
       }
     } else if (c.rollPitchYaw) {
-      for (let k = 0; k < 3; k++) values[k] = value(c.rollPitchYaw[k]!);
+      for (let k = 0; k < 3; k++) values[k] = valueOf(extracted, base, raw, line, c.rollPitchYaw[k]!);
       const rpy = mapping.pose.orientation as Extract<LogMapping['pose']['orientation'], { rollPitchYaw: unknown }>;
       if (issues.length === before) quaternionFromRollPitchYaw(values[0]!, values[1]!, values[2]!, rpy.rollPitchYaw.convention, sample.orientation);
     }
     for (let j = 0; j < jointCount; j++) {
       const angle = c.angles[j], commanded = c.commanded[j], measured = c.measured[j];
-      if (angle) sample.angles[j] = value(angle);
-      if (commanded) sample.commandedRates[j] = value(commanded);
-      if (measured) sample.measuredRates[j] = value(measured);
+      if (angle) sample.angles[j] = valueOf(extracted, base, raw, line, angle);
+      if (commanded) sample.commandedRates[j] = valueOf(extracted, base, raw, line, commanded);
+      if (measured) sample.measuredRates[j] = valueOf(extracted, base, raw, line, measured);
     }
     if (sample.wantedTwist && c.twist) {
-      for (let k = 0; k < 6; k++) sample.wantedTwist[k] = value(c.twist[k]!);
+      for (let k = 0; k < 6; k++) sample.wantedTwist[k] = valueOf(extracted, base, raw, line, c.twist[k]!);
     }
     if (issues.length !== before) return;
     const time = sample.time;
@@ -361,16 +364,21 @@ export function createRecordReader(mapping: LogMapping, options: ReadLogOptions)
   return {
     header: (row) => {
       headerSeen = true;
-      // A blank first line is no header: the records after it are counted but not read.
-      return row.length === 1 && row[0]!.trim() === '' ? null : readHeader(row);
+      if (row.length === 1 && row[0]!.trim() === '') {
+        addIssue({ line: 1, expected: 'a header line naming the columns', found: 'an empty line' });
+        stopped = true;
+        return null;
+      }
+      return readHeader(row);
     },
     record,
     get stopped() {
       return stopped;
     },
-    finish: (lines) => {
-      if (lines === 0 || !headerSeen) addIssue({ line: 1, expected: 'a header line naming the columns', found: 'an empty log' });
-      else if (sampleCount === 0 && issues.length === 0) addIssue({ line: lines + 1, expected: 'at least one sample after the header', found: 'the end of the log' });
+    finish: () => {
+      if (!headerSeen) addIssue({ line: 1, expected: 'a header line naming the columns', found: 'an empty log' });
+      // Without samples or issues no record followed the header but blank lines.
+      else if (sampleCount === 0 && issues.length === 0) addIssue({ line: 2, expected: 'at least one sample after the header', found: 'the end of the log' });
       return { issues: issues.slice(0, MAX_LOG_ISSUES), sampleCount, header };
     },
   };
@@ -382,13 +390,18 @@ export function recordBuffer(columns: LogColumns, rows: number, previous?: Float
   return previous !== undefined && previous.length >= size ? previous : new Float64Array(Math.max(size, 2 * (previous?.length ?? 0)));
 }
 
-/** Hands `count` extracted records (`stride` numbers apart) to the reader in order, with the text of the flagged ones (`rawOf(record)`), until it stops. */
-export function readRecords(reader: RecordReader, records: Float64Array, stride: number, count: number, flagged: ArrayLike<number>, rawOf: (record: number) => string[]): void {
+/**
+ * Hands `count` extracted records (`stride` numbers apart) to the reader in order until it stops, with the text of
+ * each flagged one: `rawOf(record, k)` for the k-th flagged record.
+ */
+export function readRecords(
+  reader: RecordReader, records: Float64Array, stride: number, count: number, flagged: ArrayLike<number>, rawOf: (record: number, k: number) => string[],
+): void {
   let next = 0;
   for (let i = 0; i < count && !reader.stopped; i++) {
     const isFlagged = next < flagged.length && flagged[next] === i;
+    reader.record(records, i * stride, isFlagged ? rawOf(i, next) : null);
     if (isFlagged) next++;
-    reader.record(records, i * stride, isFlagged ? rawOf(i) : null);
   }
 }
 
@@ -418,10 +431,7 @@ export function readLog(source: LogSource, mapping: LogMapping, options: ReadLog
               return;
             }
           }
-          if (columns === null) {
-            line += rows.length;
-            return;
-          }
+          if (columns === null) return;
           buffer = recordBuffer(columns, rows.length, buffer);
           flagged.length = 0;
           const first = line;
@@ -436,7 +446,7 @@ export function readLog(source: LogSource, mapping: LogMapping, options: ReadLog
           reject(error);
         }
       },
-      complete: () => resolve(reader.finish(line)),
+      complete: () => resolve(reader.finish()),
       error: (error: Error) => reject(error),
     });
   });

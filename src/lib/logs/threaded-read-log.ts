@@ -1,0 +1,211 @@
+/**
+ * Reading a log on two threads in Node (server and command line): a worker thread parses the CSV
+ * with papaparse and extracts the mapped numbers (extractRecords, the same function the in-thread
+ * reader runs), and hands batches of records over as transferred typed arrays; this thread runs
+ * the record checks (createRecordReader) and whatever the caller does with each sample, so parsing
+ * and re-solving overlap on two cores. The samples, gaps and issues are those of readLog: the same
+ * code judges the same numbers in the same order. The browser reads on one thread (readLog).
+ *
+ * The worker's code is evaluated from text (it needs no file of its own, whatever bundles this
+ * module) and loads papaparse from this package's dependencies.
+ */
+import { EventEmitter } from 'node:events';
+import { createRequire } from 'node:module';
+import { Worker } from 'node:worker_threads';
+import type { LogMapping } from './mapping';
+import {
+  createRecordReader, extractRecords, readLog, readRecords, type LogColumns, type LogSource, type ReadLogOptions, type ReadLogOutcome,
+} from './read-log';
+
+/** Characters per text chunk sent to the parsing thread (a string log is cut into chunks of this size). */
+export const THREAD_CHUNK = 64 * 1024;
+/** Chunks sent ahead of the records compared: keeps both threads busy while memory stays bounded. */
+export const THREAD_WINDOW = 8;
+
+type ToWorker = { type: 'bytes'; bytes: Uint8Array } | { type: 'end' } | { type: 'columns'; columns: LogColumns };
+type FromWorker =
+  | { type: 'header'; row: string[] }
+  | { type: 'records'; records: Float64Array; count: number; flagged: number[]; raws: string[][] }
+  | { type: 'taken' }
+  | { type: 'done' }
+  | { type: 'error'; message: string };
+
+/**
+ * The parsing thread: chunks of UTF-8 bytes in (transferred, not copied, and acknowledged once parsed), the header
+ * out, then batches of extracted records.
+ */
+const WORKER_SOURCE = `
+const { parentPort, workerData } = require('node:worker_threads');
+const { EventEmitter } = require('node:events');
+const Papa = require(workerData.papaparse);
+const extractRecords = (${extractRecords.toString()});
+const decoder = new TextDecoder('utf-8');
+// papaparse reads any object that looks like a Node readable stream; text messages become its data events.
+const input = new EventEmitter();
+input.readable = true;
+input.read = () => null;
+input.pause = () => {};
+input.resume = () => {};
+let columns = null;
+let headerSent = false;
+let completed = false;
+let line = 0;
+let pending = [];
+const flagged = [];
+const send = (rows) => {
+  const stride = columns.indices.length + 1;
+  const records = new Float64Array(Math.max(1, rows.length * stride));
+  flagged.length = 0;
+  const first = line;
+  const extracted = extractRecords(rows, first, columns, records, flagged);
+  line = extracted.line;
+  const raws = flagged.map((record) => rows[records[record * stride] - first - 1]);
+  parentPort.postMessage({ type: 'records', records, count: extracted.count, flagged: flagged.slice(), raws }, [records.buffer]);
+};
+const finishIfDone = () => {
+  if (completed && (columns !== null || !headerSent)) parentPort.postMessage({ type: 'done' });
+};
+Papa.parse(input, {
+  header: false,
+  dynamicTyping: false,
+  skipEmptyLines: false,
+  chunk: (results) => {
+    let rows = results.data;
+    if (!headerSent && rows.length > 0) {
+      headerSent = true;
+      line = 1;
+      parentPort.postMessage({ type: 'header', row: rows[0] });
+      rows = rows.slice(1);
+    }
+    if (columns === null) pending.push(rows);
+    else send(rows);
+  },
+  complete: () => {
+    completed = true;
+    finishIfDone();
+  },
+  error: (error) => parentPort.postMessage({ type: 'error', message: String((error && error.message) || error) }),
+});
+parentPort.on('message', (message) => {
+  if (message.type === 'bytes') {
+    const text = decoder.decode(message.bytes, { stream: true });
+    if (text.length > 0) input.emit('data', text);
+    parentPort.postMessage({ type: 'taken' });
+  } else if (message.type === 'end') {
+    const rest = decoder.decode();
+    if (rest.length > 0) input.emit('data', rest);
+    input.emit('end');
+  } else if (message.type === 'columns') {
+    columns = message.columns;
+    for (const rows of pending) send(rows);
+    pending = [];
+    finishIfDone();
+  }
+});
+`;
+
+const papaparsePath = (): string => createRequire(import.meta.url).resolve('papaparse');
+
+function isNodeReadable(source: LogSource): source is NodeJS.ReadableStream {
+  return typeof source === 'object' && source !== null && typeof (source as NodeJS.ReadableStream).on === 'function' && typeof (source as NodeJS.ReadableStream).read === 'function';
+}
+
+const encoder = new TextEncoder();
+
+/**
+ * The log in chunks of UTF-8 bytes that can be transferred: a string cut into THREAD_CHUNK pieces and encoded, or a
+ * Node stream's chunks (text encoded, bytes copied out of a buffer that may be shared with other data).
+ */
+async function* byteChunks(source: string | NodeJS.ReadableStream): AsyncGenerator<Uint8Array> {
+  if (typeof source === 'string') {
+    let at = 0;
+    while (at < source.length) {
+      // Cut before a low surrogate, so a character outside the basic plane stays whole.
+      let end = Math.min(source.length, at + THREAD_CHUNK);
+      if (end < source.length && (source.charCodeAt(end) & 0xfc00) === 0xdc00) end--;
+      yield encoder.encode(source.slice(at, end));
+      at = end;
+    }
+    return;
+  }
+  for await (const chunk of source as AsyncIterable<string | Uint8Array>) {
+    const bytes = typeof chunk === 'string' ? encoder.encode(chunk) : Uint8Array.from(chunk);
+    if (bytes.length > 0) yield bytes;
+  }
+}
+
+/**
+ * readLog on two threads for a string or a Node readable stream (anything else, or a machine where no worker
+ * thread starts, is read on this thread by readLog); the same outcome, samples and gaps as readLog.
+ */
+export async function readLogThreaded(source: LogSource, mapping: LogMapping, options: ReadLogOptions): Promise<ReadLogOutcome> {
+  if (typeof source !== 'string' && !isNodeReadable(source)) return readLog(source, mapping, options);
+  let worker: Worker;
+  try {
+    worker = new Worker(WORKER_SOURCE, { eval: true, workerData: { papaparse: papaparsePath() } });
+  } catch {
+    return readLog(source, mapping, options);
+  }
+  const reader = createRecordReader(mapping, options);
+  const events = new EventEmitter();
+  let outstanding = 0;
+  let settled = false;
+  let columns: LogColumns | null = null;
+
+  const outcome = new Promise<ReadLogOutcome>((resolve, reject) => {
+    const settle = (result: ReadLogOutcome | Error): void => {
+      if (settled) return;
+      settled = true;
+      void worker.terminate();
+      events.emit('wake');
+      if (result instanceof Error) reject(result);
+      else resolve(result);
+    };
+    const post = (message: ToWorker): void => worker.postMessage(message);
+    worker.on('message', (message: FromWorker) => {
+      if (settled) return;
+      try {
+        switch (message.type) {
+          case 'header':
+            columns = reader.header(message.row);
+            if (columns === null) settle(reader.finish());
+            else post({ type: 'columns', columns });
+            break;
+          case 'records': {
+            if (columns === null) break;
+            const stride = columns.indices.length + 1;
+            readRecords(reader, message.records, stride, message.count, message.flagged, (_, k) => message.raws[k]!);
+            if (reader.stopped) settle(reader.finish());
+            break;
+          }
+          case 'taken':
+            outstanding--;
+            events.emit('wake');
+            break;
+          case 'done':
+            settle(reader.finish());
+            break;
+          case 'error':
+            settle(new Error(message.message));
+            break;
+        }
+      } catch (error) {
+        settle(error instanceof Error ? error : new Error(String(error)));
+      }
+    });
+    worker.on('error', (error) => settle(error));
+    worker.on('exit', () => settle(new Error('the log-reading thread stopped before the end of the log')));
+
+    const feed = async (): Promise<void> => {
+      for await (const bytes of byteChunks(source)) {
+        while (outstanding >= THREAD_WINDOW && !settled) await new Promise((wake) => events.once('wake', wake));
+        if (settled) return;
+        outstanding++;
+        worker.postMessage({ type: 'bytes', bytes } satisfies ToWorker, [bytes.buffer as ArrayBuffer]);
+      }
+      if (!settled) post({ type: 'end' });
+    };
+    feed().catch((error: unknown) => settle(error instanceof Error ? error : new Error(String(error))));
+  });
+  return outcome;
+}
