@@ -22,7 +22,12 @@ export const THREAD_CHUNK = 64 * 1024;
 /** Chunks sent ahead of the records compared: keeps both threads busy while memory stays bounded. */
 export const THREAD_WINDOW = 8;
 
-type ToWorker = { type: 'bytes'; bytes: Uint8Array } | { type: 'end' } | { type: 'columns'; columns: LogColumns };
+type ToWorker =
+  | { type: 'start' }
+  | { type: 'bytes'; bytes: Uint8Array }
+  | { type: 'end' }
+  | { type: 'columns'; columns: LogColumns }
+  | { type: 'recycle'; records: Float64Array };
 type FromWorker =
   | { type: 'header'; row: string[] }
   | { type: 'records'; records: Float64Array; count: number; flagged: number[]; raws: string[][] }
@@ -31,78 +36,117 @@ type FromWorker =
   | { type: 'error'; message: string };
 
 /**
- * The parsing thread: chunks of UTF-8 bytes in (transferred, not copied, and acknowledged once parsed), the header
- * out, then batches of extracted records.
+ * The parsing thread, one log at a time: 'start', then chunks of UTF-8 bytes in (transferred, not copied, and
+ * acknowledged once parsed), the header out, then batches of extracted records, whose buffers come back to be
+ * filled again so that neither thread keeps allocating.
  */
 const WORKER_SOURCE = `
 const { parentPort, workerData } = require('node:worker_threads');
 const { EventEmitter } = require('node:events');
 const Papa = require(workerData.papaparse);
 const extractRecords = (${extractRecords.toString()});
-const decoder = new TextDecoder('utf-8');
-// papaparse reads any object that looks like a Node readable stream; text messages become its data events.
-const input = new EventEmitter();
-input.readable = true;
-input.read = () => null;
-input.pause = () => {};
-input.resume = () => {};
-let columns = null;
-let headerSent = false;
-let completed = false;
-let line = 0;
-let pending = [];
-const flagged = [];
-const send = (rows) => {
-  const stride = columns.indices.length + 1;
-  const records = new Float64Array(Math.max(1, rows.length * stride));
-  flagged.length = 0;
-  const first = line;
-  const extracted = extractRecords(rows, first, columns, records, flagged);
-  line = extracted.line;
-  const raws = flagged.map((record) => rows[records[record * stride] - first - 1]);
-  parentPort.postMessage({ type: 'records', records, count: extracted.count, flagged: flagged.slice(), raws }, [records.buffer]);
+const spare = [];
+let log = null;
+const start = () => {
+  // papaparse reads any object that looks like a Node readable stream; byte messages become its data events.
+  const input = new EventEmitter();
+  input.readable = true;
+  input.read = () => null;
+  input.pause = () => {};
+  input.resume = () => {};
+  const state = { input, decoder: new TextDecoder('utf-8'), columns: null, headerSent: false, completed: false, line: 0, pending: [], flagged: [] };
+  const send = (rows) => {
+    const stride = state.columns.indices.length + 1;
+    const size = Math.max(1, rows.length * stride);
+    const found = spare.findIndex((buffer) => buffer.length >= size);
+    const records = found >= 0 ? spare.splice(found, 1)[0] : new Float64Array(size);
+    const flagged = state.flagged;
+    flagged.length = 0;
+    const first = state.line;
+    const extracted = extractRecords(rows, first, state.columns, records, flagged);
+    state.line = extracted.line;
+    const raws = flagged.map((record) => rows[records[record * stride] - first - 1]);
+    parentPort.postMessage({ type: 'records', records, count: extracted.count, flagged: flagged.slice(), raws }, [records.buffer]);
+  };
+  state.send = send;
+  state.finishIfDone = () => {
+    if (state.completed && (state.columns !== null || !state.headerSent)) parentPort.postMessage({ type: 'done' });
+  };
+  Papa.parse(input, {
+    header: false,
+    dynamicTyping: false,
+    skipEmptyLines: false,
+    chunk: (results) => {
+      if (log !== state) return;
+      let rows = results.data;
+      if (!state.headerSent && rows.length > 0) {
+        state.headerSent = true;
+        state.line = 1;
+        parentPort.postMessage({ type: 'header', row: rows[0] });
+        rows = rows.slice(1);
+      }
+      if (state.columns === null) state.pending.push(rows);
+      else send(rows);
+    },
+    complete: () => {
+      state.completed = true;
+      if (log === state) state.finishIfDone();
+    },
+    error: (error) => parentPort.postMessage({ type: 'error', message: String((error && error.message) || error) }),
+  });
+  return state;
 };
-const finishIfDone = () => {
-  if (completed && (columns !== null || !headerSent)) parentPort.postMessage({ type: 'done' });
-};
-Papa.parse(input, {
-  header: false,
-  dynamicTyping: false,
-  skipEmptyLines: false,
-  chunk: (results) => {
-    let rows = results.data;
-    if (!headerSent && rows.length > 0) {
-      headerSent = true;
-      line = 1;
-      parentPort.postMessage({ type: 'header', row: rows[0] });
-      rows = rows.slice(1);
-    }
-    if (columns === null) pending.push(rows);
-    else send(rows);
-  },
-  complete: () => {
-    completed = true;
-    finishIfDone();
-  },
-  error: (error) => parentPort.postMessage({ type: 'error', message: String((error && error.message) || error) }),
-});
 parentPort.on('message', (message) => {
-  if (message.type === 'bytes') {
-    const text = decoder.decode(message.bytes, { stream: true });
-    if (text.length > 0) input.emit('data', text);
+  if (message.type === 'start') {
+    log = start();
+  } else if (message.type === 'recycle') {
+    if (spare.length < 16) spare.push(message.records);
+  } else if (message.type === 'bytes') {
+    const text = log.decoder.decode(message.bytes, { stream: true });
+    if (text.length > 0) log.input.emit('data', text);
     parentPort.postMessage({ type: 'taken' });
   } else if (message.type === 'end') {
-    const rest = decoder.decode();
-    if (rest.length > 0) input.emit('data', rest);
-    input.emit('end');
+    const rest = log.decoder.decode();
+    if (rest.length > 0) log.input.emit('data', rest);
+    log.input.emit('end');
   } else if (message.type === 'columns') {
-    columns = message.columns;
-    for (const rows of pending) send(rows);
-    pending = [];
-    finishIfDone();
+    log.columns = message.columns;
+    for (const rows of log.pending) log.send(rows);
+    log.pending = [];
+    log.finishIfDone();
   }
 });
 `;
+
+/** Idle parsing threads kept for the next log (starting one costs more CPU time than parsing a small log); they do not keep the process alive. */
+const idle: Worker[] = [];
+const MAX_IDLE = 2;
+
+function takeWorker(): Worker {
+  const kept = idle.pop();
+  if (kept) {
+    kept.ref();
+    return kept;
+  }
+  const worker = new Worker(WORKER_SOURCE, { eval: true, workerData: { papaparse: papaparsePath() } });
+  worker.once('exit', () => {
+    const at = idle.indexOf(worker);
+    if (at >= 0) idle.splice(at, 1);
+  });
+  return worker;
+}
+
+/** Keeps a thread that finished its log cleanly for the next one; ends one that stopped halfway. */
+function releaseWorker(worker: Worker, clean: boolean): void {
+  worker.removeAllListeners('message');
+  worker.removeAllListeners('error');
+  if (clean && idle.length < MAX_IDLE) {
+    worker.unref();
+    idle.push(worker);
+  } else {
+    void worker.terminate();
+  }
+}
 
 const papaparsePath = (): string => createRequire(import.meta.url).resolve('papaparse');
 
@@ -142,7 +186,7 @@ export async function readLogThreaded(source: LogSource, mapping: LogMapping, op
   if (typeof source !== 'string' && !isNodeReadable(source)) return readLog(source, mapping, options);
   let worker: Worker;
   try {
-    worker = new Worker(WORKER_SOURCE, { eval: true, workerData: { papaparse: papaparsePath() } });
+    worker = takeWorker();
   } catch {
     return readLog(source, mapping, options);
   }
@@ -153,10 +197,13 @@ export async function readLogThreaded(source: LogSource, mapping: LogMapping, op
   let columns: LogColumns | null = null;
 
   const outcome = new Promise<ReadLogOutcome>((resolve, reject) => {
-    const settle = (result: ReadLogOutcome | Error): void => {
+    const onExit = (): void => settle(new Error('the log-reading thread stopped before the end of the log'));
+    /** Ends this read; `clean` when the thread has parsed the whole log and may take the next one. */
+    const settle = (result: ReadLogOutcome | Error, clean = false): void => {
       if (settled) return;
       settled = true;
-      void worker.terminate();
+      worker.off('exit', onExit);
+      releaseWorker(worker, clean);
       events.emit('wake');
       if (result instanceof Error) reject(result);
       else resolve(result);
@@ -176,6 +223,7 @@ export async function readLogThreaded(source: LogSource, mapping: LogMapping, op
             const stride = columns.indices.length + 1;
             readRecords(reader, message.records, stride, message.count, message.flagged, (_, k) => message.raws[k]!);
             if (reader.stopped) settle(reader.finish());
+            else worker.postMessage({ type: 'recycle', records: message.records } satisfies ToWorker, [message.records.buffer as ArrayBuffer]);
             break;
           }
           case 'taken':
@@ -183,7 +231,7 @@ export async function readLogThreaded(source: LogSource, mapping: LogMapping, op
             events.emit('wake');
             break;
           case 'done':
-            settle(reader.finish());
+            settle(reader.finish(), true);
             break;
           case 'error':
             settle(new Error(message.message));
@@ -194,7 +242,8 @@ export async function readLogThreaded(source: LogSource, mapping: LogMapping, op
       }
     });
     worker.on('error', (error) => settle(error));
-    worker.on('exit', () => settle(new Error('the log-reading thread stopped before the end of the log')));
+    worker.on('exit', onExit);
+    post({ type: 'start' });
 
     const feed = async (): Promise<void> => {
       for await (const bytes of byteChunks(source)) {
