@@ -17,17 +17,20 @@ import {
   createRecordReader, extractRecords, readLog, readRecords, type LogColumns, type LogSource, type ReadLogOptions, type ReadLogOutcome,
 } from './read-log';
 
-/** Characters per text chunk sent to the parsing thread (a string log is cut into chunks of this size). */
-export const THREAD_CHUNK = 64 * 1024;
+/**
+ * Characters (or bytes) per chunk sent to the parsing thread: a stream's chunks are joined up to this size and a
+ * string is cut to it. Each message between threads costs a wake-up of the other, so chunks are large.
+ */
+export const THREAD_CHUNK = 512 * 1024;
 /** Chunks sent ahead of the records compared: keeps both threads busy while memory stays bounded. */
-export const THREAD_WINDOW = 8;
+export const THREAD_WINDOW = 4;
 
 type ToWorker =
   | { type: 'start' }
-  | { type: 'bytes'; bytes: Uint8Array }
+  | { type: 'text'; text: string; spare: Float64Array[] }
+  | { type: 'bytes'; bytes: Uint8Array; spare: Float64Array[] }
   | { type: 'end' }
-  | { type: 'columns'; columns: LogColumns }
-  | { type: 'recycle'; records: Float64Array };
+  | { type: 'columns'; columns: LogColumns };
 type FromWorker =
   | { type: 'header'; row: string[] }
   | { type: 'records'; records: Float64Array; count: number; flagged: number[]; raws: string[][] }
@@ -36,8 +39,8 @@ type FromWorker =
   | { type: 'error'; message: string };
 
 /**
- * The parsing thread, one log at a time: 'start', then chunks of UTF-8 bytes in (transferred, not copied, and
- * acknowledged once parsed), the header out, then batches of extracted records, whose buffers come back to be
+ * The parsing thread, one log at a time: 'start', then chunks of text or of UTF-8 bytes in (acknowledged once
+ * parsed), the header out, then batches of extracted records, whose buffers come back to be
  * filled again so that neither thread keeps allocating.
  */
 const WORKER_SOURCE = `
@@ -99,10 +102,9 @@ const start = () => {
 parentPort.on('message', (message) => {
   if (message.type === 'start') {
     log = start();
-  } else if (message.type === 'recycle') {
-    if (spare.length < 16) spare.push(message.records);
-  } else if (message.type === 'bytes') {
-    const text = log.decoder.decode(message.bytes, { stream: true });
+  } else if (message.type === 'text' || message.type === 'bytes') {
+    for (const records of message.spare) if (spare.length < 16) spare.push(records);
+    const text = message.type === 'text' ? message.text : log.decoder.decode(message.bytes, { stream: true });
     if (text.length > 0) log.input.emit('data', text);
     parentPort.postMessage({ type: 'taken' });
   } else if (message.type === 'end') {
@@ -154,28 +156,41 @@ function isNodeReadable(source: LogSource): source is NodeJS.ReadableStream {
   return typeof source === 'object' && source !== null && typeof (source as NodeJS.ReadableStream).on === 'function' && typeof (source as NodeJS.ReadableStream).read === 'function';
 }
 
-const encoder = new TextEncoder();
-
 /**
- * The log in chunks of UTF-8 bytes that can be transferred: a string cut into THREAD_CHUNK pieces and encoded, or a
- * Node stream's chunks (text encoded, bytes copied out of a buffer that may be shared with other data).
+ * The log in chunks of about THREAD_CHUNK to send: text as text (posting a string copies it, which costs less than
+ * encoding it to transfer), bytes as bytes.
  */
-async function* byteChunks(source: string | NodeJS.ReadableStream): AsyncGenerator<Uint8Array> {
+async function* chunksOf(source: string | NodeJS.ReadableStream): AsyncGenerator<string | Uint8Array> {
   if (typeof source === 'string') {
-    let at = 0;
-    while (at < source.length) {
-      // Cut before a low surrogate, so a character outside the basic plane stays whole.
-      let end = Math.min(source.length, at + THREAD_CHUNK);
-      if (end < source.length && (source.charCodeAt(end) & 0xfc00) === 0xdc00) end--;
-      yield encoder.encode(source.slice(at, end));
-      at = end;
-    }
+    for (let at = 0; at < source.length; at += THREAD_CHUNK) yield source.slice(at, at + THREAD_CHUNK);
     return;
   }
+  let texts: string[] = [], bytes: Uint8Array[] = [], size = 0;
+  const joined = (): string | Uint8Array => {
+    // Bytes are copied into a buffer of their own: a stream's buffers may share memory that must not be transferred.
+    let chunk: string | Uint8Array;
+    if (texts.length > 0) chunk = texts.join('');
+    else {
+      chunk = new Uint8Array(size);
+      let at = 0;
+      for (const part of bytes) {
+        chunk.set(part, at);
+        at += part.length;
+      }
+    }
+    texts = [];
+    bytes = [];
+    size = 0;
+    return chunk;
+  };
   for await (const chunk of source as AsyncIterable<string | Uint8Array>) {
-    const bytes = typeof chunk === 'string' ? encoder.encode(chunk) : Uint8Array.from(chunk);
-    if (bytes.length > 0) yield bytes;
+    if (typeof chunk === 'string' ? bytes.length > 0 : texts.length > 0) yield joined();
+    if (typeof chunk === 'string') texts.push(chunk);
+    else bytes.push(chunk);
+    size += chunk.length;
+    if (size >= THREAD_CHUNK) yield joined();
   }
+  if (size > 0) yield joined();
 }
 
 /**
@@ -195,6 +210,7 @@ export async function readLogThreaded(source: LogSource, mapping: LogMapping, op
   let outstanding = 0;
   let settled = false;
   let columns: LogColumns | null = null;
+  const spare: Float64Array[] = [];
 
   const outcome = new Promise<ReadLogOutcome>((resolve, reject) => {
     const onExit = (): void => settle(new Error('the log-reading thread stopped before the end of the log'));
@@ -223,7 +239,7 @@ export async function readLogThreaded(source: LogSource, mapping: LogMapping, op
             const stride = columns.indices.length + 1;
             readRecords(reader, message.records, stride, message.count, message.flagged, (_, k) => message.raws[k]!);
             if (reader.stopped) settle(reader.finish());
-            else worker.postMessage({ type: 'recycle', records: message.records } satisfies ToWorker, [message.records.buffer as ArrayBuffer]);
+            else spare.push(message.records);
             break;
           }
           case 'taken':
@@ -246,11 +262,15 @@ export async function readLogThreaded(source: LogSource, mapping: LogMapping, op
     post({ type: 'start' });
 
     const feed = async (): Promise<void> => {
-      for await (const bytes of byteChunks(source)) {
+      for await (const chunk of chunksOf(source)) {
         while (outstanding >= THREAD_WINDOW && !settled) await new Promise((wake) => events.once('wake', wake));
         if (settled) return;
         outstanding++;
-        worker.postMessage({ type: 'bytes', bytes } satisfies ToWorker, [bytes.buffer as ArrayBuffer]);
+        // Record buffers already read go back with the next chunk rather than in messages of their own.
+        const returned = spare.splice(0);
+        const transfer = returned.map((records) => records.buffer as ArrayBuffer);
+        if (typeof chunk === 'string') worker.postMessage({ type: 'text', text: chunk, spare: returned } satisfies ToWorker, transfer);
+        else worker.postMessage({ type: 'bytes', bytes: chunk, spare: returned } satisfies ToWorker, [chunk.buffer as ArrayBuffer, ...transfer]);
       }
       if (!settled) post({ type: 'end' });
     };
