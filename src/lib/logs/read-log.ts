@@ -385,7 +385,7 @@ export function createRecordReader(mapping: LogMapping, options: ReadLogOptions)
 }
 
 /** Extracted records of one parsed chunk, reused from chunk to chunk. */
-export function recordBuffer(columns: LogColumns, rows: number, previous?: Float64Array): Float64Array {
+function recordBuffer(columns: LogColumns, rows: number, previous?: Float64Array): Float64Array {
   const size = rows * (columns.indices.length + 1);
   return previous !== undefined && previous.length >= size ? previous : new Float64Array(Math.max(size, 2 * (previous?.length ?? 0)));
 }
