@@ -14,7 +14,6 @@ import { fileURLToPath } from 'node:url';
 import { createGunzip } from 'node:zlib';
 import { ROTATION_METRICS, runSheet, sweepSheet, toPlainRunRecord, warningsAt, type RunRecord, type SweepRecord } from '../lib/kinematics';
 import { compareLog, describeComparisonError, type ComparedSample } from '../lib/logs/compare';
-import { readLogThreaded } from '../lib/logs/threaded-read-log';
 import { parseLogMapping, type LogMapping } from '../lib/logs/mapping';
 import { jsonSyntaxIssue } from '../lib/server/sheet-files';
 import { evaluateSheet, type SheetEvaluation } from '../lib/sheet/evaluate';
@@ -155,7 +154,6 @@ async function compareCommand(options: Options & { log: string; mapping: string 
   let compared;
   try {
     compared = await compareLog(evaluation.doc, mapping, source, {
-      read: readLogThreaded,
       onColumns: csv
         ? ({ joints, fingers }) => {
             const header = ['line', 'time_s', ...joints.flatMap((j) => [`${j}.logged_rad_s`, `${j}.sheet_rad_s`, `${j}.residual_rad_s`]), ...fingers.map((f) => `${f}.slip_m_s`), 'warnings'];

@@ -1,10 +1,12 @@
 /**
- * Reading a log on two threads in Node (server and command line): a worker thread parses the CSV
+ * Reading a log on two threads in Node, for a caller that passes it to compareLog: a worker thread parses the CSV
  * with papaparse and extracts the mapped numbers (extractRecords, the same function the in-thread
  * reader runs), and hands batches of records over as transferred typed arrays; this thread runs
  * the record checks (createRecordReader) and whatever the caller does with each sample, so parsing
  * and re-solving overlap on two cores. The samples, gaps and issues are those of readLog: the same
- * code judges the same numbers in the same order. The browser reads on one thread (readLog).
+ * code judges the same numbers in the same order. On an idle two-core machine this overlaps the two halves of the
+ * work; where other work already takes the cores, the second thread only adds hand-offs, so the server and the
+ * command line read on one thread (readLog) and `npm run bench` times both.
  *
  * The worker's code is evaluated from text (it needs no file of its own, whatever bundles this
  * module) and loads papaparse from this package's dependencies.

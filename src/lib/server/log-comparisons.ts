@@ -12,7 +12,6 @@ import type { Database } from '../../db';
 import { logComparisons, uploads, users } from '../../db/schema';
 import type { LogComparisonList, LogComparisonRecord } from '../contract/log-comparisons';
 import { compareLog, type LogComparison } from '../logs/compare';
-import { readLogThreaded } from '../logs/threaded-read-log';
 import { parseLogMapping } from '../logs/mapping';
 import { fail, succeed, type Result } from '../result';
 import { parseSheet } from '../sheet/schema';
@@ -93,7 +92,7 @@ export async function runLogComparison(database: Database, storage: LogStorage, 
   const { header } = await readLogPreview(storage, log.storageKey, log.summary.contentType);
   let compared: Awaited<ReturnType<typeof compareLog>>;
   try {
-    compared = await compareLog(parsed.doc, read.mapping, await logText(storage, log.storageKey, log.summary.contentType), { read: readLogThreaded });
+    compared = await compareLog(parsed.doc, read.mapping, await logText(storage, log.storageKey, log.summary.contentType));
   } catch {
     return fail({ kind: 'unprocessable', message: 'The stored log could not be read to its end (a damaged gzip file?).', path: 'logId' });
   }
