@@ -69,6 +69,7 @@ export { createLinalgWorkspace, createMatrix, dampedLeastSquares, matrixFromRows
 export type { LinalgWorkspace, Matrix } from './linalg';
 export type { Contact, ContactState } from './contact';
 export type { FullSolution } from './full-solution';
+export { steeredColumns } from './steer-and-roll';
 export type { SteerAndRoll } from './steer-and-roll';
 export type { GraspResult } from './grasp';
 export { SEVERITY_LEVELS, WARNING_CATALOGUE, WARNING_CODES } from './warnings';

@@ -442,7 +442,7 @@ function rollDirectionSquared(D: Float64Array, c: number, s: number): number {
  * Rewrites the Jacobian columns of joints after the pivot as if the pivot had turned by the angle whose cosine and sine
  * are pivotTurn (m/rad); they come in an array because numbers passed to a call that is not inlined are boxed.
  */
-function steeredColumns(finger: Finger, y: ArrayLike<number>, pivotTurn: Float64Array, j: Matrix): void {
+export function steeredColumns(finger: Finger, y: ArrayLike<number>, pivotTurn: Float64Array, j: Matrix): void {
   const axes = finger.axes, points = finger.points, n = finger.jointCount, d = j.data;
   const c = pivotTurn[0], s = pivotTurn[1];
   const po = 3 * finger.pivotIndex;

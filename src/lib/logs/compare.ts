@@ -10,12 +10,15 @@
  * 2. the slip the logged motion implies: the object twist by finite differences of the logged
  *    poses (see differentiate.ts) gives the object's material velocity at each contact, the logged
  *    measured joint rates give the roller's through the contact Jacobian at the logged angles
- *    (rolling without slipping makes the two equal), and the slip speed is the tangential part of
- *    their difference (the normal part opens or presses the contact and is not slip).
+ *    (rolling without slipping makes the two equal; under steer-and-roll the pivot's logged turn
+ *    steers the joints after it instead of rolling), and the slip speed is the tangential part of
+ *    their difference less the slip the sheet's own solution leaves there (the normal part opens
+ *    or presses the contact and is not slip).
  * The sample is handled once its successor is read, because the central difference needs it.
  */
 import {
-  createResult, createScene, quat, solveScene, WARNING_CATALOGUE, WARNING_CODES, type Scene, type SheetResult, type WarningCode,
+  createMatrix, createResult, createScene, quat, solveScene, steeredColumns, WARNING_CATALOGUE, WARNING_CODES, type Matrix, type Scene, type SheetResult,
+  type WarningCode,
 } from '../kinematics';
 import { fail, succeed, type DomainError, type Result } from '../result';
 import type { SheetDocument } from '../sheet/types';
@@ -31,6 +34,9 @@ import {
 export const PLOT_BUCKETS = 2000;
 /** Gaps listed in a comparison; more are counted. */
 export const MAX_LISTED_GAPS = 100;
+
+/** Warnings by which the sheet's own solution leaves slip at a contact: the comparison judges only slip beyond it. */
+const SHEET_SLIP_WARNINGS: ReadonlySet<WarningCode> = new Set(['SLIP_REQUIRED', 'STEER_CANNOT_ALIGN']);
 
 /** Where a mapped joint sits in the sheet. */
 export interface MappedJoint {
@@ -104,6 +110,8 @@ export interface CompareOptions {
   /** Called once the header is read and the table's columns are known. */
   onColumns?: (columns: { joints: string[]; fingers: string[] }) => void;
   plotBuckets?: number;
+  /** Reads the log: readLog (one thread, any source) unless a caller in Node passes readLogThreaded. */
+  read?: typeof readLog;
 }
 
 /** Where each mapped joint sits in the sheet, or the issues naming joints the sheet does not have. */
@@ -124,7 +132,7 @@ export function resolveMappedJoints(doc: SheetDocument, mapping: LogMapping): Re
 const number = (value: number, digits = 4) => Number(value.toPrecision(digits)).toString();
 
 /** The verdict in words: within tolerance when every compared joint and every judged contact stays within its tolerance. */
-function verdictOf(joints: JointComparison[], contacts: ContactSlip[], tolerances: LogComparison['tolerances']): LogComparison['verdict'] {
+function verdictOf(joints: JointComparison[], contacts: ContactSlip[], warnings: WarningActivity[], tolerances: LogComparison['tolerances']): LogComparison['verdict'] {
   const reasons: string[] = [];
   let within = true;
   for (const j of joints) {
@@ -153,6 +161,10 @@ function verdictOf(joints: JointComparison[], contacts: ContactSlip[], tolerance
     if (slipCount > 0) reasons.push(`the slip at every judged contact (${slipCount}) stays under ${number(tolerances.slip * 1000)} mm/s`);
   }
   for (const c of contacts) if (!c.computed) reasons.push(`contact of finger "${c.finger}" not judged: ${c.reason}`);
+  for (const w of warnings) {
+    if (!SHEET_SLIP_WARNINGS.has(w.code)) continue;
+    reasons.push(`the sheet itself requires slip (${w.code}) at ${w.samples} sample(s); slip is judged beyond what the sheet's own solution leaves`);
+  }
   return { withinTolerance: within, reasons };
 }
 
@@ -197,6 +209,17 @@ export async function compareLog(doc: SheetDocument, mapping: LogMapping, source
     slip: new Float64Array(fingers.length), warnings: [],
   };
   const sheetRates = fingers.map((f) => new Float64Array(f.jointCount));
+  const turned = fingers.map((f) => createMatrix(3, f.jointCount));
+  const pivotTurn = new Float64Array(2);
+  /** The finger's translational contact Jacobian with the joints after its pivot turned by `change` (rad) about the pivot line. */
+  const turnedJacobian = (f: number, full: Matrix, change: number, rollerPoint: Float64Array): Matrix => {
+    const out = turned[f]!, n = out.cols, cols = full.cols;
+    for (let i = 0; i < 3; i++) for (let k = 0; k < n; k++) out.data[i * n + k] = full.data[i * cols + k]!;
+    pivotTurn[0] = Math.cos(change);
+    pivotTurn[1] = Math.sin(change);
+    steeredColumns(fingers[f]!, rollerPoint, pivotTurn, out);
+    return out;
+  };
   const twist = new Float64Array(6);
   const conjugated = new Float64Array(4), relative = new Float64Array(4), axis = new Float64Array(3);
   const gaps: LogGap[] = [];
@@ -285,20 +308,36 @@ export async function compareLog(doc: SheetDocument, mapping: LogMapping, source
         continue;
       }
       const x = contact.objectPoint, n = contact.normal;
-      const jacobian = result.fingers[f]!.full.jacobian;
+      const solved = result.fingers[f]!;
+      const entries = measuredJoint[f]!;
+      const steered = solved.steer.available;
+      const pivot = steered ? fingers[f]!.pivotIndex : -1;
+      let jacobian = solved.full.jacobian;
+      if (steered) {
+        // Under steer-and-roll the pivot turns the roll direction between samples and the roller rolls in the turned
+        // direction (as the sheet's runs move it): the pivot's turn over the interval is steering, not rolling.
+        const change = s.measuredRates[entries[pivot]!]! * interval;
+        if (change !== 0) {
+          jacobian = turnedJacobian(f, solved.full.jacobian, change, contact.rollerPoint);
+        }
+      }
       const cols = jacobian.cols, data = jacobian.data;
       const rx = x[0]! - s.position[0]!, ry = x[1]! - s.position[1]!, rz = x[2]! - s.position[2]!;
       // Object material velocity at x: v + w x (x - p).
       let sx = twist[0]! + twist[4]! * rz - twist[5]! * ry;
       let sy = twist[1]! + twist[5]! * rx - twist[3]! * rz;
       let sz = twist[2]! + twist[3]! * ry - twist[4]! * rx;
-      const entries = measuredJoint[f]!;
       for (let k = 0; k < entries.length; k++) {
+        if (k === pivot) continue;
         const rate = s.measuredRates[entries[k]!]!;
         sx -= data[k]! * rate;
         sy -= data[cols + k]! * rate;
         sz -= data[2 * cols + k]! * rate;
       }
+      // Less the slip the sheet's own solution leaves at this state (non-zero only where the sheet warns that
+      // slip is required): a log that does what the sheet says passes, and the sheet's warning tells of the slip.
+      const left = steered ? solved.steer.residual : solved.full.residual;
+      sx -= left[0]!; sy -= left[1]!; sz -= left[2]!;
       const along = sx * n[0]! + sy * n[1]! + sz * n[2]!;
       sx -= along * n[0]!; sy -= along * n[1]!; sz -= along * n[2]!;
       const slip = Math.sqrt(sx * sx + sy * sy + sz * sz);
@@ -330,7 +369,7 @@ export async function compareLog(doc: SheetDocument, mapping: LogMapping, source
 
   let previous: LogSample | null = null;
   let current: LogSample | null = null;
-  const outcome = await readLog(source, mapping, {
+  const outcome = await (options.read ?? readLog)(source, mapping, {
     onGap: (gap) => {
       if (gaps.length < MAX_LISTED_GAPS) gaps.push(gap);
       gapCount++;
@@ -386,7 +425,7 @@ export async function compareLog(doc: SheetDocument, mapping: LogMapping, source
     warnings,
     gaps,
     gapCount,
-    verdict: verdictOf(jointResults, contacts, tolerances),
+    verdict: verdictOf(jointResults, contacts, warnings, tolerances),
     series: finishDecimator(decimator),
   });
 }

@@ -1,7 +1,8 @@
 /**
  * A controller log written from a sheet's own run, as a controller that did exactly what the
- * sheet says would have logged it: time, true object pose, and per joint the angle at the start
- * of the tick and the rate it followed, as both the commanded and the measured rate. Used for
+ * sheet says would have logged it: time, the object pose it measured and commanded from (the
+ * true pose when the run has no sensor noise), and per joint the angle at the start of the tick
+ * and the rate it followed, as both the commanded and the measured rate. Used for
  * demo logs, the comparison's tests and the benchmark; faults are added to the rows by the caller.
  */
 import type { RunRecord } from '../kinematics';
@@ -17,12 +18,12 @@ export function runLogHeader(doc: SheetDocument): string[] {
   ];
 }
 
-/** Row `tick` of the generated log (s, m, quaternion scalar first, rad, rad/s), in runLogHeader's order. */
+/** Row `tick` of the generated log (s, m, quaternion scalar first, rad, rad/s), in runLogHeader's order; the pose is the measured one. */
 export function runLogRow(record: RunRecord, tick: number): number[] {
   const row = [record.time[tick]!];
-  for (let k = 0; k < 3; k++) row.push(record.position[3 * tick + k]!);
+  for (let k = 0; k < 3; k++) row.push(record.measuredPosition[3 * tick + k]!);
   const q = 4 * tick;
-  row.push(record.orientation[q + 3]!, record.orientation[q]!, record.orientation[q + 1]!, record.orientation[q + 2]!);
+  row.push(record.measuredOrientation[q + 3]!, record.measuredOrientation[q]!, record.measuredOrientation[q + 1]!, record.measuredOrientation[q + 2]!);
   record.jointCounts.forEach((n, f) => {
     for (let k = 0; k < n; k++) {
       const rate = record.jointRates[f]![n * tick + k]!;

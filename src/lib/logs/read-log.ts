@@ -65,6 +65,8 @@ interface Cell {
   factor: number;
   limit: number;
   what: string;
+  /** Place of the cell's value in an extracted record (after the line), set once the header is read. */
+  slot: number;
 }
 
 /** The cells of a row that the mapping reads, resolved against the header once. */
@@ -91,6 +93,66 @@ function decimal(text: string): number {
   const second = text.charCodeAt(1) | 0x20;
   if (text.length > 2 && text.charCodeAt(0) === 48 && (second === 120 || second === 98 || second === 111)) return NaN;
   return value;
+}
+
+/** The mapped columns of a log in reading order: header index, SI factor and limit of each. */
+export interface LogColumns {
+  indices: number[];
+  factors: number[];
+  limits: number[];
+  /** Fields of the header: a record with another count is an error. */
+  headerLength: number;
+}
+
+/** Records extracted from parsed rows: per record its line and its mapped cells in SI units, `stride` numbers apart. */
+export interface ExtractedRecords {
+  count: number;
+  /** Records (by index among this batch) that need their text read again because a field count, cell or limit is off. */
+  flagged: number[];
+  /** Lines counted so far, blank records included. */
+  line: number;
+}
+
+/**
+ * Numbers of the mapped cells of parsed CSV rows, into `out` (per record: line, then one SI value per mapped column):
+ * the one conversion of text to numbers, run where the rows are parsed. Blank records are counted as lines and
+ * skipped. A record whose field count is off, or with a cell that is not a decimal number or beyond its limit, is
+ * flagged so that its text is read again for the located error. Self-contained (it refers to nothing outside its
+ * body) so that a parsing thread can run the same source text.
+ */
+export function extractRecords(
+  rows: string[][],
+  line: number,
+  columns: { indices: ArrayLike<number>; factors: ArrayLike<number>; limits: ArrayLike<number>; headerLength: number },
+  out: Float64Array,
+  flagged: number[],
+): ExtractedRecords {
+  const indices = columns.indices, factors = columns.factors, limits = columns.limits, width = indices.length, stride = width + 1;
+  let count = 0;
+  for (let r = 0; r < rows.length; r++) {
+    const row = rows[r];
+    line++;
+    if (row.length === 1 && row[0].trim() === '') continue;
+    const base = count * stride;
+    out[base] = line;
+    let good = row.length === columns.headerLength;
+    for (let k = 0; k < width && good; k++) {
+      const text = row[indices[k]];
+      // decimal(): finite, not blank, not 0x / 0b / 0o notation.
+      let value = Number(text);
+      if (!(value - value === 0) || (value === 0 && text.trim() === '')) good = false;
+      else if (text.length > 2 && text.charCodeAt(0) === 48) {
+        const second = text.charCodeAt(1) | 0x20;
+        if (second === 120 || second === 98 || second === 111) good = false;
+      }
+      value *= factors[k];
+      if (!(value - value === 0) || Math.abs(value) > limits[k]) good = false;
+      out[base + 1 + k] = value;
+    }
+    if (!good) flagged.push(count);
+    count++;
+  }
+  return { count, flagged, line };
 }
 
 /** Samples handed out live in a ring of this many; a sample stays valid until this many more have been read. */
@@ -130,8 +192,24 @@ export function quaternionFromRollPitchYaw(roll: number, pitch: number, yaw: num
   return convention === 'zyx' ? quat.multiply(quat.multiply(qz, qy), qx, out) : quat.multiply(quat.multiply(qx, qy), qz, out);
 }
 
-/** Reads the log row by row, passing each good sample on; resolves when the source ends or too many errors were found. */
-export function readLog(source: LogSource, mapping: LogMapping, options: ReadLogOptions): Promise<ReadLogOutcome> {
+/**
+ * The checks and conversions of a log after its numbers are extracted, record by record in order: the header,
+ * then each record (its SI values, or its text when extraction flagged it), then the end. Both the in-thread
+ * reader below and a reader that parses on another thread drive this one, so they find the same samples and issues.
+ */
+export interface RecordReader {
+  /** Reads line 1; the mapped columns, or null (and stopped) for a bad or blank header. */
+  header(row: string[]): LogColumns | null;
+  /** Reads one extracted record (values at `base`: line, then the columns' SI values) or its text when flagged. */
+  record(values: Float64Array, base: number, raw: string[] | null): void;
+  /** Reading should stop: the header was bad or too many issues were found. */
+  readonly stopped: boolean;
+  /** The outcome once the log has ended or reading stopped. */
+  finish(): ReadLogOutcome;
+}
+
+/** A record reader for the mapping, passing good samples and gaps to `options`. */
+export function createRecordReader(mapping: LogMapping, options: ReadLogOptions): RecordReader {
   const issues: LogIssue[] = [];
   const jointCount = mapping.joints.length;
   const ring = Array.from({ length: SAMPLE_RING }, () => createSample(jointCount, mapping.wantedTwist !== undefined));
@@ -139,18 +217,20 @@ export function readLog(source: LogSource, mapping: LogMapping, options: ReadLog
   const period = mapping.time.period === undefined ? undefined : mapping.time.period * timeFactor;
   let header: string[] = [];
   let cells: Cells | undefined;
-  let line = 0;
   let sampleCount = 0;
   let previousTime = NaN;
   let nominal = period;
+  let stopped = false;
+  let headerSeen = false;
   const values = new Float64Array(4);
 
   const addIssue = (issue: Omit<LogIssue, 'message'>): void => {
     const where = issue.column === undefined ? `line ${issue.line}` : `line ${issue.line}, column ${issue.column}${issue.columnName === undefined ? '' : ` ("${issue.columnName}")`}`;
     issues.push({ ...issue, message: `${where}: expected ${issue.expected}, found ${issue.found}` });
+    if (issues.length >= MAX_LOG_ISSUES) stopped = true;
   };
 
-  const readHeader = (row: string[]): void => {
+  const readHeader = (row: string[]): LogColumns | null => {
     header = row.map((name) => name.trim());
     const positions = new Map<string, number>();
     const repeated = new Set<string>();
@@ -159,7 +239,7 @@ export function readLog(source: LogSource, mapping: LogMapping, options: ReadLog
       const index = positions.get(name);
       if (index === undefined) addIssue({ line: 1, expected: `a column "${name}" (${path} in the mapping)`, found: 'no such column in the header' });
       else if (repeated.has(name)) addIssue({ line: 1, column: index + 1, columnName: name, expected: `one column named "${name}" (${path})`, found: 'it more than once' });
-      return { index: index ?? -1, factor, limit, what };
+      return { index: index ?? -1, factor, limit, what, slot: 0 };
     };
     const length = LENGTH_UNITS[mapping.pose.position.unit];
     const orientation = mapping.pose.orientation;
@@ -185,11 +265,21 @@ export function readLog(source: LogSource, mapping: LogMapping, options: ReadLog
         ...angular.columns.map((name, k) => want(name, RATE_UNITS[angular.unit], MAX_ANGULAR_SPEED, 'an angular speed', `wantedTwist.angular.columns[${k}]`)),
       ];
     }
-    cells = issues.length === 0 ? found : undefined;
+    if (issues.length > 0) {
+      stopped = true;
+      return null;
+    }
+    cells = found;
+    const list = [
+      found.time, ...found.position, ...(found.quaternion ?? found.rollPitchYaw ?? []),
+      ...found.angles, ...found.commanded, ...found.measured, ...(found.twist ?? []),
+    ].filter((c): c is Cell => c !== undefined);
+    list.forEach((c, k) => (c.slot = k + 1));
+    return { indices: list.map((c) => c.index), factors: list.map((c) => c.factor), limits: list.map((c) => c.limit), headerLength: header.length };
   };
 
-  /** Reads one cell into SI, or records why not; returns NaN on failure. */
-  const cell = (row: string[], c: Cell): number => {
+  /** Reads one cell of a flagged record's text into SI, or records why not; returns NaN on failure. */
+  const cell = (line: number, row: string[], c: Cell): number => {
     const text = row[c.index]!;
     const value = decimal(text) * c.factor;
     if (!Number.isFinite(value)) {
@@ -204,19 +294,24 @@ export function readLog(source: LogSource, mapping: LogMapping, options: ReadLog
     return value;
   };
 
-  const readRow = (row: string[]): void => {
-    if (row.length !== header.length) {
-      addIssue({ line, expected: `${header.length} fields as in the header`, found: `${row.length}` });
+  /** A cell's SI value: extracted, or read again from the text of a flagged record. Made once, not per record: it runs for every cell. */
+  const valueOf = (extracted: Float64Array, base: number, raw: string[] | null, line: number, at: Cell): number =>
+    raw === null ? extracted[base + at.slot]! : cell(line, raw, at);
+
+  const record = (extracted: Float64Array, base: number, raw: string[] | null): void => {
+    const line = extracted[base]!;
+    if (raw !== null && raw.length !== header.length) {
+      addIssue({ line, expected: `${header.length} fields as in the header`, found: `${raw.length}` });
       return;
     }
     const c = cells!;
     const before = issues.length;
     const sample = ring[sampleCount % SAMPLE_RING]!;
     sample.line = line;
-    sample.time = cell(row, c.time);
-    for (let k = 0; k < 3; k++) sample.position[k] = cell(row, c.position[k]!);
+    sample.time = valueOf(extracted, base, raw, line, c.time);
+    for (let k = 0; k < 3; k++) sample.position[k] = valueOf(extracted, base, raw, line, c.position[k]!);
     if (c.quaternion) {
-      for (let k = 0; k < 4; k++) values[k] = cell(row, c.quaternion[k]!);
+      for (let k = 0; k < 4; k++) values[k] = valueOf(extracted, base, raw, line, c.quaternion[k]!);
       const norm = Math.hypot(values[0]!, values[1]!, values[2]!, values[3]!);
       const w = c.quaternion[3]!;
       if (issues.length === before && Math.abs(norm - 1) > QUATERNION_LENGTH_TOLERANCE) {
@@ -225,18 +320,18 @@ export function readLog(source: LogSource, mapping: LogMapping, options: ReadLog
         quat.normalize(values.subarray(0, 4), sample.orientation);
       }
     } else if (c.rollPitchYaw) {
-      for (let k = 0; k < 3; k++) values[k] = cell(row, c.rollPitchYaw[k]!);
+      for (let k = 0; k < 3; k++) values[k] = valueOf(extracted, base, raw, line, c.rollPitchYaw[k]!);
       const rpy = mapping.pose.orientation as Extract<LogMapping['pose']['orientation'], { rollPitchYaw: unknown }>;
       if (issues.length === before) quaternionFromRollPitchYaw(values[0]!, values[1]!, values[2]!, rpy.rollPitchYaw.convention, sample.orientation);
     }
     for (let j = 0; j < jointCount; j++) {
       const angle = c.angles[j], commanded = c.commanded[j], measured = c.measured[j];
-      if (angle) sample.angles[j] = cell(row, angle);
-      if (commanded) sample.commandedRates[j] = cell(row, commanded);
-      if (measured) sample.measuredRates[j] = cell(row, measured);
+      if (angle) sample.angles[j] = valueOf(extracted, base, raw, line, angle);
+      if (commanded) sample.commandedRates[j] = valueOf(extracted, base, raw, line, commanded);
+      if (measured) sample.measuredRates[j] = valueOf(extracted, base, raw, line, measured);
     }
     if (sample.wantedTwist && c.twist) {
-      for (let k = 0; k < 6; k++) sample.wantedTwist[k] = cell(row, c.twist[k]!);
+      for (let k = 0; k < 6; k++) sample.wantedTwist[k] = valueOf(extracted, base, raw, line, c.twist[k]!);
     }
     if (issues.length !== before) return;
     const time = sample.time;
@@ -266,6 +361,58 @@ export function readLog(source: LogSource, mapping: LogMapping, options: ReadLog
     options.onSample(sample);
   };
 
+  return {
+    header: (row) => {
+      headerSeen = true;
+      if (row.length === 1 && row[0]!.trim() === '') {
+        addIssue({ line: 1, expected: 'a header line naming the columns', found: 'an empty line' });
+        stopped = true;
+        return null;
+      }
+      return readHeader(row);
+    },
+    record,
+    get stopped() {
+      return stopped;
+    },
+    finish: () => {
+      if (!headerSeen) addIssue({ line: 1, expected: 'a header line naming the columns', found: 'an empty log' });
+      // Without samples or issues no record followed the header but blank lines.
+      else if (sampleCount === 0 && issues.length === 0) addIssue({ line: 2, expected: 'at least one sample after the header', found: 'the end of the log' });
+      return { issues: issues.slice(0, MAX_LOG_ISSUES), sampleCount, header };
+    },
+  };
+}
+
+/** Extracted records of one parsed chunk, reused from chunk to chunk. */
+function recordBuffer(columns: LogColumns, rows: number, previous?: Float64Array): Float64Array {
+  const size = rows * (columns.indices.length + 1);
+  return previous !== undefined && previous.length >= size ? previous : new Float64Array(Math.max(size, 2 * (previous?.length ?? 0)));
+}
+
+/**
+ * Hands `count` extracted records (`stride` numbers apart) to the reader in order until it stops, with the text of
+ * each flagged one: `rawOf(record, k)` for the k-th flagged record.
+ */
+export function readRecords(
+  reader: RecordReader, records: Float64Array, stride: number, count: number, flagged: ArrayLike<number>, rawOf: (record: number, k: number) => string[],
+): void {
+  let next = 0;
+  for (let i = 0; i < count && !reader.stopped; i++) {
+    const isFlagged = next < flagged.length && flagged[next] === i;
+    reader.record(records, i * stride, isFlagged ? rawOf(i, next) : null);
+    if (isFlagged) next++;
+  }
+}
+
+/** Reads the log row by row, passing each good sample on; resolves when the source ends or too many errors were found. */
+export function readLog(source: LogSource, mapping: LogMapping, options: ReadLogOptions): Promise<ReadLogOutcome> {
+  const reader = createRecordReader(mapping, options);
+  let columns: LogColumns | null = null;
+  let line = 0;
+  let buffer: Float64Array | undefined;
+  const flagged: number[] = [];
+
   return new Promise((resolve, reject) => {
     Papa.parse<string[]>(source as Papa.LocalFile, {
       header: false,
@@ -274,26 +421,32 @@ export function readLog(source: LogSource, mapping: LogMapping, options: ReadLog
       // Whole chunks of rows rather than one callback per row: papaparse then builds one result object per chunk.
       chunk: (results, parser) => {
         try {
-          for (const row of results.data) {
-            line++;
-            if (row.length === 1 && row[0]!.trim() === '') continue;
-            if (line === 1) readHeader(row);
-            else if (cells) readRow(row);
-            if (issues.length >= MAX_LOG_ISSUES || (line === 1 && cells === undefined)) {
+          let rows = results.data;
+          if (line === 0 && rows.length > 0) {
+            line = 1;
+            columns = reader.header(rows[0]!);
+            rows = rows.slice(1);
+            if (reader.stopped) {
               parser.abort();
               return;
             }
           }
+          if (columns === null) return;
+          buffer = recordBuffer(columns, rows.length, buffer);
+          flagged.length = 0;
+          const first = line;
+          const extracted = extractRecords(rows, first, columns, buffer, flagged);
+          line = extracted.line;
+          const stride = columns.indices.length + 1, records = buffer;
+          // A record's line less the line before the chunk is its place among the chunk's rows (blank rows included).
+          readRecords(reader, records, stride, extracted.count, flagged, (record) => rows[records[record * stride]! - first - 1]!);
+          if (reader.stopped) parser.abort();
         } catch (error) {
           parser.abort();
           reject(error);
         }
       },
-      complete: () => {
-        if (line === 0) addIssue({ line: 1, expected: 'a header line naming the columns', found: 'an empty log' });
-        else if (sampleCount === 0 && issues.length === 0) addIssue({ line: line + 1, expected: 'at least one sample after the header', found: 'the end of the log' });
-        resolve({ issues: issues.slice(0, MAX_LOG_ISSUES), sampleCount, header });
-      },
+      complete: () => resolve(reader.finish()),
       error: (error: Error) => reject(error),
     });
   });

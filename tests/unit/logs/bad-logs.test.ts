@@ -102,9 +102,10 @@ describe('bad logs are located', () => {
     expect(MAX_LOG_ISSUES).toBeGreaterThanOrEqual(30);
   });
 
-  it('an empty log and a log with only a header', async () => {
+  it('an empty log, a log with only a header, and a blank line where the header belongs', async () => {
     expect((await issuesOf(''))[0]!.expected).toMatch(/header/);
-    expect((await issuesOf(`${header.join(',')}\n`))[0]!.expected).toMatch(/at least one sample/);
+    expect(await issuesOf(`${header.join(',')}\n`)).toMatchObject([{ line: 2, expected: 'at least one sample after the header' }]);
+    expect(await issuesOf(`\n${logText(run)}`)).toMatchObject([{ line: 1, expected: 'a header line naming the columns', found: 'an empty line' }]);
   });
 
   it('a mapping naming a joint the sheet does not have is an error naming the joint', async () => {
