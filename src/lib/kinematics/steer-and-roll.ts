@@ -85,15 +85,12 @@ export interface SteerWorkspace {
   pivotTurn: Float64Array;
   /** Drive columns of the steered Jacobian (3 x up to maxJoints). */
   drive: Matrix;
-  /** Translational columns w_k x (y - r_k) of the base joints, 3 numbers each (m/rad). */
-  baseColumns: Float64Array;
 }
 
 /** New scratch for solveSteerAndRoll on fingers of up to maxJoints joints. */
 export function createSteerWorkspace(maxJoints: number): SteerWorkspace {
   return {
     rollDirection: new Float64Array(9), pivotTurn: new Float64Array(2), drive: createMatrix(3, Math.max(1, maxJoints)),
-    baseColumns: new Float64Array(3 * Math.max(1, maxJoints)),
   };
 }
 
@@ -146,20 +143,17 @@ export function solveSteerAndRoll(
   for (let k = 0; k < n; k++) rates[k] = 0;
   out.conditionBefore = full.conditionNumber;
   out.available = out.baseJoints.length > 0 && pv >= 0 && rl >= 0;
-  const axes = finger.axes, points = finger.points;
   const y = contact.rollerPoint, nrm = contact.normal, v = contact.objectVelocity;
   const u = out.remainder;
 
   // Base joints: the minimum-norm rates for the one equation sum_k a_k rate_k = n . v_o (pseudo-inverse of the row a).
-  const baseJoints = out.baseJoints, gains = out.normalGains, baseRates = out.baseRates, columns = ws.baseColumns;
+  // Their translational columns w_k x (y - r_k) are those of the full Jacobian, read rather than computed again.
+  const baseJoints = out.baseJoints, gains = out.normalGains, baseRates = out.baseRates, before = full.jacobian.data;
   const baseCount = baseJoints.length;
   let gainSquared = 0;
   for (let j = 0; j < baseCount; j++) {
-    const o = 3 * baseJoints[j], c = 3 * j;
-    const ex = y[0] - points[o], ey = y[1] - points[o + 1], ez = y[2] - points[o + 2];
-    const jx = axes[o + 1] * ez - axes[o + 2] * ey, jy = axes[o + 2] * ex - axes[o] * ez, jz = axes[o] * ey - axes[o + 1] * ex;
-    columns[c] = jx; columns[c + 1] = jy; columns[c + 2] = jz;
-    const gain = nrm[0] * jx + nrm[1] * jy + nrm[2] * jz;
+    const k = baseJoints[j];
+    const gain = nrm[0] * before[k] + nrm[1] * before[n + k] + nrm[2] * before[2 * n + k];
     gains[j] = gain;
     gainSquared += gain * gain;
   }
@@ -168,12 +162,12 @@ export function solveSteerAndRoll(
   out.normalGain = Math.sqrt(gainSquared);
   u[0] = v[0]; u[1] = v[1]; u[2] = v[2];
   for (let j = 0; j < baseCount; j++) {
-    const rate = gains[j] * perGain, c = 3 * j;
+    const k = baseJoints[j], rate = gains[j] * perGain;
     baseRates[j] = rate;
-    rates[baseJoints[j]] = rate;
-    u[0] -= rate * columns[c];
-    u[1] -= rate * columns[c + 1];
-    u[2] -= rate * columns[c + 2];
+    rates[k] = rate;
+    u[0] -= rate * before[k];
+    u[1] -= rate * before[n + k];
+    u[2] -= rate * before[2 * n + k];
   }
   out.remainderNorm = Math.sqrt(u[0] * u[0] + u[1] * u[1] + u[2] * u[2]);
 
@@ -189,7 +183,7 @@ export function solveSteerAndRoll(
   }
 
   // Jacobian after steering: the full solution's translational rows, with the joints beyond the pivot turned about the pivot line by pivotChange.
-  const ja = out.jacobianAfter, before = full.jacobian.data, after = ja.data;
+  const ja = out.jacobianAfter, after = ja.data;
   ja.rows = 3;
   ja.cols = n;
   for (let i = 0; i < 3 * n; i++) after[i] = before[i];
