@@ -149,33 +149,12 @@ function contactBaseFaces(input: Readonly<GraspQualityInput>, contact: number): 
   return baseFaces(input.coneEdges, input.friction[contact] > 0, input.torsionalFriction > 0);
 }
 
-/**
- * One contact's set in the enumeration's space: its points (the apex 0 first, then the generators,
- * `size` numbers each, lifted by a trailing 1 when size is 7) and its faces, each a list of point
- * indices whose first is the reference: rows p_k - p_ref for the others, checks p_x - p_ref for
- * every point x outside it (the face is farthest along u when none of them reaches past it).
- */
-function contactSet(generators: readonly number[][], size: number, faceLists: readonly (readonly number[])[]): ContactFaces {
-  const count = generators.length + 1;
-  const points = new Float64Array(count * size);
+/** One contact's set in the enumeration's space: its points (the apex 0 first, then the generators, `size` numbers each, lifted by a trailing 1 when size is 7) and its faces as point lists. */
+function contactSet(generators: readonly number[][], size: number, faces: readonly (readonly number[])[]): ContactFaces {
+  const points = new Float64Array((generators.length + 1) * size);
   generators.forEach((w, k) => {
     for (let j = 0; j < D; j++) points[(k + 1) * size + j] = w[j];
     if (size === LIFTED) points[(k + 1) * size + D] = 1;
-  });
-  const inFace = new Uint8Array(count);
-  const faces = faceLists.map((list) => {
-    const reference = list[0] * size;
-    const rows = new Float64Array((list.length - 1) * size);
-    for (let r = 1; r < list.length; r++) for (let j = 0; j < size; j++) rows[(r - 1) * size + j] = points[list[r] * size + j] - points[reference + j];
-    inFace.fill(0);
-    for (const index of list) inFace[index] = 1;
-    const checks = new Float64Array((count - list.length) * size);
-    for (let x = 0, at = 0; x < count; x++) {
-      if (inFace[x]) continue;
-      for (let j = 0; j < size; j++) checks[at + j] = points[x * size + j] - points[reference + j];
-      at += size;
-    }
-    return { rowCount: list.length - 1, rows, checks, reference: points.slice(reference, reference + size) };
   });
   return { vertices: points, faces };
 }
@@ -203,7 +182,7 @@ function pyramidFaceLists(base: readonly number[][]): number[][] {
  */
 function unionFaceQuality(input: Readonly<GraspQualityInput>, perContact: readonly number[][][]): { distance: number; normal: number[] } | null {
   const contacts = perContact.map((generators, i) => contactSet(generators, LIFTED, coneFaceLists(contactBaseFaces(input, i))));
-  if (countCombinations(contacts.map(({ faces }) => faces), LIFTED - 1) > MAX_UNION_FACE_COMBINATIONS) return null;
+  if (countCombinations(contacts, LIFTED - 1) > MAX_UNION_FACE_COMBINATIONS) return null;
   const tolerance = 1e-9 * largestWrench(perContact);
   let best: { distance: number; normal: number[] } | null = null;
   forEachFaceNormal(contacts, LIFTED, tolerance, (lifted, farthest) => {
@@ -238,7 +217,7 @@ export interface SumFaceQuality {
 export function nearestSumFacet(input: Readonly<GraspQualityInput>, perContact: readonly number[][][]): SumFaceQuality {
   const scale = largestWrench(perContact);
   const contacts = perContact.map((generators, i) => contactSet(generators, D, pyramidFaceLists(contactBaseFaces(input, i))));
-  const combinations = countCombinations(contacts.map(({ faces }) => faces), D - 1);
+  const combinations = countCombinations(contacts, D - 1);
   if (combinations > MAX_FACE_COMBINATIONS) return { distance: null, normal: null, combinations };
   let bestDistance = Infinity;
   let bestNormal: number[] | null = null;
