@@ -190,7 +190,7 @@ class FaceSearch {
   readonly target: number;
   readonly contactCount: number;
   readonly tolerance: number;
-  readonly visit: (normal: Float64Array, farthest: Float64Array) => void;
+  readonly visitor: FaceNormalVisitor;
   /** Every contact's points, one after another (`size` numbers each), from vertexStart[c] to vertexStart[c + 1]. */
   readonly vertices: Float64Array;
   readonly vertexStart: Int32Array;
@@ -223,14 +223,14 @@ class FaceSearch {
   readonly order: Int32Array;
   readonly hull: Int32Array;
 
-  constructor(contacts: readonly ContactFaces[], size: number, tolerance: number, visit: (normal: Float64Array, farthest: Float64Array) => void) {
+  constructor(contacts: readonly ContactFaces[], size: number, tolerance: number, visitor: FaceNormalVisitor) {
     const target = size - 1;
     const contactCount = contacts.length;
     this.size = size;
     this.target = target;
     this.contactCount = contactCount;
     this.tolerance = tolerance;
-    this.visit = visit;
+    this.visitor = visitor;
     this.vertexStart = new Int32Array(contactCount + 1);
     let vertexTotal = 0, mostVertices = 0, faceTotal = 0, rowTotal = 0, checkTotal = 0;
     contacts.forEach(({ vertices, faces }, contact) => {
@@ -341,7 +341,7 @@ class FaceSearch {
     }
     this.reachOfOthers();
     for (let k = 0; k < count; k++) known[itemContact[picked[k]]] = 0;
-    this.visit(normal, farthest);
+    this.visitor.visit(normal, farthest);
   }
 
   /** Bit 1: every check of the first `count` picked faces passes along the normal; bit 2: along its opposite. */
@@ -453,7 +453,7 @@ class FaceSearch {
         known[contact] = 1;
         this.reachOfOthers();
         known.fill(0);
-        this.visit(normal, farthest);
+        this.visitor.visit(normal, farthest);
       }
     }
   }
@@ -517,10 +517,12 @@ class FaceSearch {
   }
 }
 
-/** Calls `visit` with unit normals u (dimensionless, the rows' frame) including every facet normal of the sum of the contacts' sets, each whose chosen faces pass their checks (q . u <= tolerance), and how far each contact reaches along u (max u . x over its vertices). */
-export function forEachFaceNormal(
-  contacts: readonly ContactFaces[], size: number, tolerance: number,
-  visit: (normal: Float64Array, farthest: Float64Array) => void,
-): void {
-  new FaceSearch(contacts, size, tolerance, visit).pick(0, 0, 0);
+/** Receives each candidate normal u and how far each contact reaches along it; both arrays are reused for the next candidate. */
+export interface FaceNormalVisitor {
+  visit(normal: Float64Array, farthest: Float64Array): void;
+}
+
+/** Calls `visitor.visit` with unit normals u (dimensionless, the rows' frame) including every facet normal of the sum of the contacts' sets, each whose chosen faces pass their checks (q . u <= tolerance), and how far each contact reaches along u (max u . x over its vertices). */
+export function forEachFaceNormal(contacts: readonly ContactFaces[], size: number, tolerance: number, visitor: FaceNormalVisitor): void {
+  new FaceSearch(contacts, size, tolerance, visitor).pick(0, 0, 0);
 }
