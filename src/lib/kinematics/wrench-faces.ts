@@ -133,11 +133,12 @@ function reduceBasis(
       const factor = (2 * dot) / vv;
       for (let i = k; i < s; i++) m[r * s + i] -= factor * m[k * s + i];
     }
+    // Row k of the reflected basis lies along the rows taken out and is never read again, so only the rows after it are updated.
     for (let j = 0; j < size; j++) {
       let dot = 0;
       for (let i = k; i < s; i++) dot += m[k * s + i] * work[i * size + j];
       const factor = (2 * dot) / vv;
-      for (let i = k; i < s; i++) work[i * size + j] -= factor * m[k * s + i];
+      for (let i = k + 1; i < s; i++) work[i * size + j] -= factor * m[k * s + i];
     }
   }
   for (let j = 0; j < (s - e) * size; j++) out[outAt + j] = work[e * size + j];
@@ -452,7 +453,8 @@ class FaceSearch {
         farthest[contact] = planePoints[2 * from] * x + planePoints[2 * from + 1] * y;
         known[contact] = 1;
         this.reachOfOthers();
-        known.fill(0);
+        for (let k = 0; k < depth; k++) known[itemContact[picked[k]]] = 0;
+        known[contact] = 0;
         this.visitor.visit(normal, farthest);
       }
     }
