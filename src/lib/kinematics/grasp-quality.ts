@@ -27,7 +27,7 @@
  * lies inside), with equality along the nearest facet, so the smallest support over a candidate
  * set that holds every facet normal is exactly Q; the containment check only skips candidates.
  */
-import { baseFaces, countCombinations, forEachFaceNormal, type ContactFaces } from './wrench-faces';
+import { baseFaces, countCombinations, forEachFaceNormal, type ContactFaces, type FaceNormalVisitor } from './wrench-faces';
 import { hullFacets } from './wrench-hull';
 
 /** Wrench-space dimension: force (3) and torque over L (3). */
@@ -149,33 +149,12 @@ function contactBaseFaces(input: Readonly<GraspQualityInput>, contact: number): 
   return baseFaces(input.coneEdges, input.friction[contact] > 0, input.torsionalFriction > 0);
 }
 
-/**
- * One contact's set in the enumeration's space: its points (the apex 0 first, then the generators,
- * `size` numbers each, lifted by a trailing 1 when size is 7) and its faces, each a list of point
- * indices whose first is the reference: rows p_k - p_ref for the others, checks p_x - p_ref for
- * every point x outside it (the face is farthest along u when none of them reaches past it).
- */
-function contactSet(generators: readonly number[][], size: number, faceLists: readonly (readonly number[])[]): ContactFaces {
-  const count = generators.length + 1;
-  const points = new Float64Array(count * size);
+/** One contact's set in the enumeration's space: its points (the apex 0 first, then the generators, `size` numbers each, lifted by a trailing 1 when size is 7) and its faces as point lists. */
+function contactSet(generators: readonly number[][], size: number, faces: readonly (readonly number[])[]): ContactFaces {
+  const points = new Float64Array((generators.length + 1) * size);
   generators.forEach((w, k) => {
     for (let j = 0; j < D; j++) points[(k + 1) * size + j] = w[j];
     if (size === LIFTED) points[(k + 1) * size + D] = 1;
-  });
-  const inFace = new Uint8Array(count);
-  const faces = faceLists.map((list) => {
-    const reference = list[0] * size;
-    const rows = new Float64Array((list.length - 1) * size);
-    for (let r = 1; r < list.length; r++) for (let j = 0; j < size; j++) rows[(r - 1) * size + j] = points[list[r] * size + j] - points[reference + j];
-    inFace.fill(0);
-    for (const index of list) inFace[index] = 1;
-    const checks = new Float64Array((count - list.length) * size);
-    for (let x = 0, at = 0; x < count; x++) {
-      if (inFace[x]) continue;
-      for (let j = 0; j < size; j++) checks[at + j] = points[x * size + j] - points[reference + j];
-      at += size;
-    }
-    return { rowCount: list.length - 1, rows, checks, reference: points.slice(reference, reference + size) };
   });
   return { vertices: points, faces };
 }
@@ -203,17 +182,31 @@ function pyramidFaceLists(base: readonly number[][]): number[][] {
  */
 function unionFaceQuality(input: Readonly<GraspQualityInput>, perContact: readonly number[][][]): { distance: number; normal: number[] } | null {
   const contacts = perContact.map((generators, i) => contactSet(generators, LIFTED, coneFaceLists(contactBaseFaces(input, i))));
-  if (countCombinations(contacts.map(({ faces }) => faces), LIFTED - 1) > MAX_UNION_FACE_COMBINATIONS) return null;
-  const tolerance = 1e-9 * largestWrench(perContact);
-  let best: { distance: number; normal: number[] } | null = null;
-  forEachFaceNormal(contacts, LIFTED, tolerance, (lifted, farthest) => {
+  if (countCombinations(contacts, LIFTED - 1) > MAX_UNION_FACE_COMBINATIONS) return null;
+  const nearest = new NearestUnionFacet(1e-9 * largestWrench(perContact));
+  forEachFaceNormal(contacts, LIFTED, nearest.tolerance, nearest);
+  return nearest.found ? { distance: nearest.distance, normal: Array.from(nearest.normal) } : null;
+}
+
+/** Keeps the nearest candidate facet of the union's hull from lifted normals (a class, so the search calls one known method and no number is boxed). */
+class NearestUnionFacet implements FaceNormalVisitor {
+  readonly tolerance: number;
+  found = false;
+  distance = Infinity;
+  readonly normal = new Float64Array(D);
+
+  constructor(tolerance: number) {
+    this.tolerance = tolerance;
+  }
+
+  visit(lifted: Float64Array, farthest: Float64Array): void {
     let norm = 0;
     for (let j = 0; j < D; j++) norm += lifted[j] * lifted[j];
     // A lifted normal along (0, 1) alone would be a hyperplane at infinity: six rows with 1 in the last place rule it out up to rounding.
     if (norm < 1e-18) return;
     norm = Math.sqrt(norm);
     // The candidate facet u . w = c passes through the chosen faces; a generator (w, 1) of any contact beyond it rules it out.
-    const slack = tolerance * norm;
+    const slack = this.tolerance * norm;
     let most = 0;
     for (let i = 0; i < farthest.length; i++) {
       if (farthest[i] > slack) return;
@@ -222,9 +215,29 @@ function unionFaceQuality(input: Readonly<GraspQualityInput>, perContact: readon
     // u . w = (u, -c) . (w, 1) + c, and the apex 0 of every cone counts as reaching 0.
     most -= lifted[D];
     const distance = most / norm;
-    if (best === null || distance < best.distance) best = { distance, normal: Array.from(lifted.subarray(0, D), (x) => x / norm) };
-  });
-  return best;
+    if (!this.found || distance < this.distance) {
+      this.found = true;
+      this.distance = distance;
+      for (let j = 0; j < D; j++) this.normal[j] = lifted[j] / norm;
+    }
+  }
+}
+
+/** Keeps the candidate normal of least support of the Minkowski sum: each contact reaches at least its apex 0, so the support is sum_i max(0, max_k u . w_ik). */
+class LeastSumSupport implements FaceNormalVisitor {
+  found = false;
+  distance = Infinity;
+  readonly normal = new Float64Array(D);
+
+  visit(u: Float64Array, farthest: Float64Array): void {
+    let support = 0;
+    for (let i = 0; i < farthest.length; i++) support += farthest[i];
+    if (support < this.distance) {
+      this.found = true;
+      this.distance = support;
+      this.normal.set(u);
+    }
+  }
 }
 
 /** Q_Linf by faces: its value, the facet normal and the number of face combinations it took (or would have taken, when over the cap). */
@@ -238,17 +251,11 @@ export interface SumFaceQuality {
 export function nearestSumFacet(input: Readonly<GraspQualityInput>, perContact: readonly number[][][]): SumFaceQuality {
   const scale = largestWrench(perContact);
   const contacts = perContact.map((generators, i) => contactSet(generators, D, pyramidFaceLists(contactBaseFaces(input, i))));
-  const combinations = countCombinations(contacts.map(({ faces }) => faces), D - 1);
+  const combinations = countCombinations(contacts, D - 1);
   if (combinations > MAX_FACE_COMBINATIONS) return { distance: null, normal: null, combinations };
-  let bestDistance = Infinity;
-  let bestNormal: number[] | null = null;
-  forEachFaceNormal(contacts, D, 1e-9 * scale, (u, farthest) => {
-    // Each contact reaches at least its apex 0: the support is sum_i max(0, max_k u . w_ik).
-    let support = 0;
-    for (let i = 0; i < farthest.length; i++) support += farthest[i];
-    if (support < bestDistance) { bestDistance = support; bestNormal = Array.from(u); }
-  });
-  return { distance: bestNormal === null ? null : bestDistance, normal: bestNormal, combinations };
+  const least = new LeastSumSupport();
+  forEachFaceNormal(contacts, D, 1e-9 * scale, least);
+  return least.found ? { distance: least.distance, normal: Array.from(least.normal), combinations } : { distance: null, normal: null, combinations };
 }
 
 const AXES = ['x', 'y', 'z'];
