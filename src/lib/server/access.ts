@@ -33,7 +33,7 @@ export function requirePermission(identity: Identity | null, teamId: string, per
   if (!identity) return signInFirst();
   const membership = identity.memberships.find((m) => m.teamId === teamId);
   if (!membership) return notFound();
-  if (!can(membership.role, permission)) return fail({ kind: 'forbidden', message: `Your role (${membership.role}) does not allow this.` });
+  if (!can(membership.role, permission)) return fail({ kind: 'forbidden', message: `Your role (${membership.role}) does not allow ${permission}.` });
   return { ok: true, value: { identity, membership } };
 }
 

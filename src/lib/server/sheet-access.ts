@@ -16,7 +16,8 @@ export async function requireSheet(identity: Identity | null, sheetId: string | 
   if (!identity) return signInFirst();
   const database = await getDatabase();
   const sheet = await findSheet(database, sheetId ?? '');
-  if (!sheet) return notFound();
+  // One answer for a missing sheet and another team's, so other teams' sheets do not reveal that they exist.
+  if (!sheet || !identity.memberships.some((m) => m.teamId === sheet.teamId)) return notFound('No sheet with this id in your team.', 'sheetId');
   const access = requirePermission(identity, sheet.teamId, permission);
   return access.ok ? { ok: true, value: { database, sheet, ...access.value } } : access;
 }

@@ -201,3 +201,20 @@ describe('messages that say what is wrong', () => {
     expect(plain.status).toBe(200);
   });
 });
+
+describe('answers for sheets a caller cannot reach', () => {
+  it('names sheetId in the same 404 for a missing sheet and for another team\'s sheet, and names the permission in a 403', async () => {
+    const { sheetId } = await (await create(people.editor)).json();
+    const missing = await sheetRoute.GET(apiContext({ params: { sheetId: '00000000-0000-4000-8000-000000000000' }, identity: people.viewer }));
+    const elsewhere = await sheetRoute.GET(apiContext({ params: { sheetId }, identity: outsider }));
+    expect([missing.status, elsewhere.status]).toEqual([404, 404]);
+    const missingError = (await missing.json()).error;
+    expect(missingError.path).toBe('sheetId');
+    expect((await elsewhere.json()).error).toEqual(missingError);
+    const refused = await revisionsRoute.POST(
+      apiContext({ method: 'POST', params: { sheetId }, body: { baseRevision: 1, document: example }, identity: people.viewer }),
+    );
+    expect(refused.status).toBe(403);
+    expect((await refused.json()).error.message).toMatch(/viewer\) does not allow sheet\.\w+/);
+  });
+});
