@@ -104,7 +104,7 @@ function parseArguments(args: readonly string[]): Options {
   return { url, sheet: values['--sheet']!, log: values['--log']!, mapping: values['--mapping']!, format, ...(revision !== undefined ? { revision } : {}) };
 }
 
-/** An answer read whole: the API's answers are small (JSON, a statistics table). */
+/** An answer read whole (the API's JSON answers are small), or streamed to a sink when one is given for the expected status. */
 interface Answer {
   status: number;
   headers: IncomingHttpHeaders;
@@ -117,13 +117,15 @@ interface Answer {
  * end, about the log's size). An answer that comes before the body is all sent (a refusal) ends
  * the upload. Redirects are not followed: they would carry the token elsewhere.
  */
-function send(url: URL, method: string, headers: Record<string, string>, body?: string | Readable): Promise<Answer> {
+function send(url: URL, method: string, headers: Record<string, string>, body?: string | Readable, sink?: { status: number; write: (chunk: string) => void }): Promise<Answer> {
   return new Promise((resolve, reject) => {
     const request = (url.protocol === 'https:' ? httpsRequest : httpRequest)(url, { method, headers }, (response) => {
       let text = '';
+      // A per-sample table can be as long as the log, so it goes straight out rather than into memory.
+      const streamed = sink !== undefined && response.statusCode === sink.status;
       // Decoded by the stream, so a character split between two chunks stays whole.
       response.setEncoding('utf8');
-      response.on('data', (chunk: string) => (text += chunk));
+      response.on('data', (chunk: string) => (streamed ? sink.write(chunk) : (text += chunk)));
       response.on('error', reject);
       response.on('end', () => {
         resolve({ status: response.statusCode ?? 0, headers: response.headers, text });
@@ -158,14 +160,14 @@ class ApiClient {
   /** The answer to `method` at `path`, which must have `expected` status; `subject` names what went wrong in messages. */
   async request(
     path: string,
-    { method, headers = {}, body }: { method: string; headers?: Record<string, string>; body?: string | Readable },
+    { method, headers = {}, body, sink }: { method: string; headers?: Record<string, string>; body?: string | Readable; sink?: (chunk: string) => void },
     expected: number,
     subject: { label: string; file?: string },
   ): Promise<Answer> {
     const url = this.url(path);
     let answer: Answer;
     try {
-      answer = await send(url, method, { ...headers, authorization: `Bearer ${this.token}`, accept: 'application/json' }, body);
+      answer = await send(url, method, { ...headers, authorization: `Bearer ${this.token}`, accept: 'application/json' }, body, sink ? { status: expected, write: sink } : undefined);
     } catch (error) {
       throw new CheckFailure(TRANSPORT, `cannot reach ${url.origin} (${error instanceof Error ? error.message : String(error)})`);
     }
@@ -266,8 +268,8 @@ async function check(options: Options, token: string, io: CheckLogIo): Promise<n
   if (!record.result) throw new CheckFailure(TRANSPORT, `the server stored comparison ${record.id} without a result`);
   const comparison = record.result as LogComparison;
   if (options.format === 'csv') {
-    const table = await api.request(`${logPath}/comparisons/${encodeURIComponent(record.id)}?format=csv`, { method: 'GET' }, 200, { label: 'the comparison table' });
-    io.stdout(table.text);
+    // The per-sample table, as `compute --log --format csv` prints it: the server re-reads the stored log against this comparison.
+    await api.request(`${logPath}/comparisons/${encodeURIComponent(record.id)}?format=series`, { method: 'GET', sink: io.stdout }, 200, { label: 'the per-sample table' });
   } else io.stdout(comparisonReportJson(title, comparison));
   io.stderr(`check-log: revision ${record.revision} of sheet ${options.sheet}: ${comparison.verdict.withinTolerance ? 'within tolerance' : 'outside tolerance'}${comparison.verdict.reasons.length ? `\n  ${comparison.verdict.reasons.join('\n  ')}` : ''}\n`);
   return verdictExitCode(comparison);

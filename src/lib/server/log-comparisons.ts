@@ -68,7 +68,11 @@ const noSuchComparison = () => notFound('This log has no such comparison.', 'com
 async function logText(storage: LogStorage, storageKey: string, contentType: string): Promise<Readable> {
   const stored = await storage.get(storageKey);
   const text = contentType === 'application/gzip' ? stored.pipe(createGunzip()) : stored;
-  if (text !== stored) stored.on('error', (error) => text.destroy(error));
+  if (text !== stored) {
+    stored.on('error', (error) => text.destroy(error));
+    // A reader that stops early (a bad line) destroys the text; the file under it must close too, not wait for the collector.
+    text.on('close', () => stored.destroy());
+  }
   text.setEncoding('utf8');
   return text;
 }
@@ -92,10 +96,13 @@ export async function runLogComparison(database: Database, storage: LogStorage, 
   if (!parsed.ok) return fail({ kind: 'unprocessable', message: `Revision ${revisionNumber} of the sheet does not read as a sheet document.`, path: 'revision' });
   const { header } = await readLogPreview(storage, log.storageKey, log.summary.contentType);
   let compared: Awaited<ReturnType<typeof compareLog>>;
+  const text = await logText(storage, log.storageKey, log.summary.contentType);
   try {
-    compared = await compareLog(parsed.doc, read.mapping, await logText(storage, log.storageKey, log.summary.contentType));
+    compared = await compareLog(parsed.doc, read.mapping, text);
   } catch {
     return fail({ kind: 'unprocessable', message: 'The stored log could not be read to its end (a damaged gzip file?).', path: 'logId' });
+  } finally {
+    text.destroy();
   }
   if (!compared.ok) {
     const { stage, issues, message } = compared.error;
@@ -278,7 +285,7 @@ export async function comparisonSeriesCsv(database: Database, storage: LogStorag
     // The same log, revision and mapping compared once already; a failure now (storage gone) can only cut the download short.
     (compared) => (compared.ok ? output.end() : output.destroy(new Error(compared.error.message))),
     (error: unknown) => output.destroy(error instanceof Error ? error : new Error(String(error))),
-  );
+  ).finally(() => source.destroy());
   return succeed({
     fileName: `comparison-r${record.revision}-${record.id.slice(0, 8)}-series.csv`,
     body: Readable.toWeb(output) as ReadableStream<Uint8Array>,

@@ -113,13 +113,22 @@ describe('check-log CLI through the API with a token', () => {
     expect(outcome.stderr).toContain('outside tolerance');
   });
 
-  it('prints the statistics table with --format csv, one row per compared joint and contact', async () => {
-    const outcome = await checkLog(against(cleanLog, '--format', 'csv'));
-    expect(outcome.code).toBe(0);
-    const lines = outcome.stdout.trimEnd().split('\n');
-    expect(lines[0]).toBe(COMPARISON_CSV_COLUMNS.join(','));
-    const joints = run.doc.hand.fingers.flatMap((f) => f.joints).length;
-    expect(lines.length).toBe(1 + joints + run.doc.hand.fingers.length);
+  it('prints with --format csv the per-sample table compute --log --format csv prints for the same log', async () => {
+    const [remote, local] = await Promise.all([
+      checkLog(against(cleanLog, '--format', 'csv')),
+      (async () => {
+        let stdout = '';
+        const code = await runComputeCommand([sheetFile, '--log', cleanLog, '--mapping', mappingFile, '--format', 'csv'], { stdout: (text) => (stdout += text), stderr: () => {} });
+        return { code, stdout };
+      })(),
+    ]);
+    expect(remote.code).toBe(0);
+    expect(local.code).toBe(0);
+    const lines = remote.stdout.trimEnd().split('\n');
+    // One row per logged sample after the header, not the statistics table (COMPARISON_CSV_COLUMNS).
+    expect(lines[0]).not.toBe(COMPARISON_CSV_COLUMNS.join(','));
+    expect(lines.length).toBe(1 + run.record.tickCount);
+    expect(remote.stdout).toBe(local.stdout);
   });
 
   it('exits 1 for a bad log with the server\'s error located by line and column, and for a missing file or a bad revision', async () => {

@@ -1,7 +1,8 @@
 import { gzipSync } from 'node:zlib';
 import { and, eq } from 'drizzle-orm';
 import Papa from 'papaparse';
-import { beforeAll, describe, expect, it } from 'vitest';
+import type { Readable } from 'node:stream';
+import { beforeAll, describe, expect, it, vi } from 'vitest';
 import { logComparisons } from '../../../src/db/schema';
 import type { LogComparisonList, LogComparisonRecord, SheetComparisonList } from '../../../src/lib/contract/log-comparisons';
 import type { Identity } from '../../../src/lib/server/access';
@@ -141,6 +142,37 @@ describe('comparing a stored log with the sheet (route and service)', () => {
     expect(error.issues).toContainEqual(expect.objectContaining({ line: 7, column: column + 1 }));
     const database = await getDatabase();
     expect(await database.db.select().from(logComparisons).where(eq(logComparisons.uploadId, bad))).toEqual([]);
+  });
+
+  it('closes the stored file when the comparison stops early (a bad line, a mapping naming a joint the sheet lacks), rather than leaving it to the garbage collector', async () => {
+    const column = header.indexOf(`${jointNames[0]}.angle`);
+    // Longer than one read of the file (64 KiB), so the engine stops with most of the file unread.
+    const long = generatedRun(600);
+    const text = logText(long, (row, tick) => {
+      if (tick === 3) row[column] = Number.NaN;
+    });
+    expect(text.length).toBeGreaterThan(4 * 65536);
+    const badLine = await upload(text);
+    const unknownJoint = structuredClone(mapping);
+    unknownJoint.joints[0]!.joint = 'no-such-joint';
+    const storage = getLogStorage();
+    const read = storage.get.bind(storage);
+    const opened: Readable[] = [];
+    const spy = vi.spyOn(storage, 'get').mockImplementation(async (key) => {
+      const stream = await read(key);
+      opened.push(stream);
+      return stream;
+    });
+    try {
+      expect((await post(badLine, { mapping })).status).toBe(422);
+      expect((await post(cleanLogId, { mapping: unknownJoint })).status).toBe(400);
+    } finally {
+      spy.mockRestore();
+    }
+    expect(opened.length).toBeGreaterThanOrEqual(4);
+    // Each stream opened for the comparisons (the previews' and the engine's) is closed within a second of the answer.
+    const closedWithin = (stream: Readable) => (stream.closed ? Promise.resolve(true) : Promise.race([new Promise<boolean>((settle) => stream.once('close', () => settle(true))), new Promise<boolean>((settle) => setTimeout(() => settle(false), 1000))]));
+    expect(await Promise.all(opened.map(closedWithin))).toEqual(opened.map(() => true));
   });
 
   it('refuses a mapping field by field, naming mapping.<path>: a unit the schema lacks and a joint the sheet lacks', async () => {
