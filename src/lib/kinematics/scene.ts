@@ -151,7 +151,7 @@ export function solveScene(scene: Scene, out: SheetResult = createResult(scene),
   // stays in the instruction cache for every finger, which measurably speeds up the whole solve.
   const report = detail === 'report';
   for (let i = 0; i < count; i++) forwardKinematics(fingers[i]);
-  for (let i = 0; i < count; i++) computeContact(object, fingers[i], settings.contactTolerance, out.fingers[i].contact, workspace.contact, report);
+  for (let i = 0; i < count; i++) computeContact(object, fingers[i], settings, out.fingers[i].contact, workspace.contact, report);
   // The usual finger (base, pivot, roll; point contact) takes one kernel for both solutions; any other the two stages.
   for (let i = 0; i < count; i++) {
     const r = out.fingers[i];
@@ -181,7 +181,7 @@ export function solveScene(scene: Scene, out: SheetResult = createResult(scene),
     const r = out.fingers[i];
     checkFinger(list, i, fingers[i], r.contact, r.full, r.steer, settings);
   }
-  computeGrasp(object.position, points, normals, count, settings.softFinger, settings.singularRatio, out.grasp, workspace.grasp);
+  computeGrasp(object.position, points, normals, count, settings, out.grasp, workspace.grasp);
   checkGrasp(list, out.grasp);
   out.warnings = finishWarnings(list);
   out.worstSeverity = SEVERITY_LEVELS[list.worstRank];
