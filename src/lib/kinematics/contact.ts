@@ -3,7 +3,7 @@
  * otherwise): closest object point x, outward normal n, gap, roller contact point y = c - rho n,
  * and the object's material velocity at x, v_o(x) = v + w x (x - p).
  */
-import type { SheetDocument } from '../sheet/types';
+import type { SheetDocument, SolverSettings } from '../sheet/types';
 import { createGjkResult, createGjkWorkspace, gjkDistance, type GjkResult, type GjkWorkspace, type PosedShape } from './gjk';
 import type { Finger } from './hand';
 import { fromSheet, toMatrix3 } from './quat';
@@ -152,13 +152,14 @@ export function distanceToAxis(axis: ArrayLike<number>, point: ArrayLike<number>
 }
 
 /**
- * Contact of the finger's roller with the object after forwardKinematics (world frame, SI); tolerance is the touching band on the gap, m.
+ * Contact of the finger's roller with the object after forwardKinematics (world frame, SI); settings.contactTolerance is the touching band on
+ * the gap, m, read from the settings object because a number passed to a call that is not inlined is boxed on the heap.
  * Without rollerCoordinates the roller-frame point, latitude and longitude keep their previous values (runs do not record them).
  */
 export function computeContact(
   object: RigidObject,
   finger: Finger,
-  tolerance: number,
+  settings: Pick<SolverSettings, 'contactTolerance'>,
   out: Contact = createContact(),
   ws: ContactWorkspace = createContactWorkspace(),
   rollerCoordinates = true,
@@ -192,6 +193,7 @@ export function computeContact(
     y[1] = c[1] - rho * n[1];
     y[2] = c[2] - rho * n[2];
   }
+  const tolerance = settings.contactTolerance;
   out.state = out.gap > tolerance ? 'separated' : out.gap < -tolerance ? 'penetrating' : 'touching';
   if (rollerCoordinates) rollerFrameCoordinates(finger, out);
 

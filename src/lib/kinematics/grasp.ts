@@ -11,6 +11,7 @@
  * of the 3 x 3 matrix S. Rank and null space do not depend on the reference point; a null
  * rotation w of S gives the undrivable twist (v, w) = (-w x (m - p), w) about p.
  */
+import type { SolverSettings } from '../sheet/types';
 import { symmetricEigen3Packed } from './eigen3';
 import { createMatrix, type Matrix } from './linalg';
 
@@ -58,8 +59,9 @@ export function createGraspWorkspace(): GraspWorkspace {
 
 /**
  * Grasp of contacts at points x_i (3 per contact) with normals n_i about the object origin p
- * (world frame, m); a singular value counts toward the rank when sigma > rankRatio sigma_max
- * (the solver's singular-ratio setting, dimensionless).
+ * (world frame, m), with the spin rows of settings.softFinger; a singular value counts toward the rank when
+ * sigma > rankRatio sigma_max with rankRatio = settings.singularRatio (dimensionless), read from the settings object
+ * because a number passed to a call that is not inlined is boxed on the heap.
  *
  * The cut is a judgement, not the numerical rank max(rows, cols) eps sigma_max of the finger
  * Jacobians: a twist whose singular value is below it needs contact speeds 1 / rankRatio times those
@@ -72,11 +74,11 @@ export function computeGrasp(
   points: ArrayLike<number>,
   normals: ArrayLike<number>,
   contactCount: number,
-  softFinger: boolean,
-  rankRatio: number,
+  settings: Pick<SolverSettings, 'softFinger' | 'singularRatio'>,
   out: GraspResult,
   ws: GraspWorkspace = createGraspWorkspace(),
 ): GraspResult {
+  const softFinger = settings.softFinger, rankRatio = settings.singularRatio;
   const a = out.contactMap;
   const d = a.data;
   let row = 0;

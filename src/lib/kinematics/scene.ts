@@ -13,6 +13,7 @@ import { createFinger, forwardKinematics, type Finger } from './hand';
 import { conditionFull, createFullSolution, createFullSolveWorkspace, solveFull, solveFullRates, type FullSolution } from './full-solution';
 import { matrixToRows, numericalRank, type LinalgWorkspace, type Matrix } from './linalg';
 import { createSteerAndRoll, createSteerWorkspace, solveSteerAndRoll, type SteerAndRoll, type SteerWorkspace } from './steer-and-roll';
+import { isSteeredFinger, solveSteeredFinger } from './steered-finger';
 import {
   checkFinger, checkGrasp, clearWarnings, createWarningList, finishWarnings, judgedBasis, judgedRankRatio, SEVERITY_LEVELS,
   type JudgedBasis, type SheetWarning, type WarningList, type WarningSeverity,
@@ -150,17 +151,21 @@ export function solveScene(scene: Scene, out: SheetResult = createResult(scene),
   // stays in the instruction cache for every finger, which measurably speeds up the whole solve.
   const report = detail === 'report';
   for (let i = 0; i < count; i++) forwardKinematics(fingers[i]);
-  for (let i = 0; i < count; i++) computeContact(object, fingers[i], settings.contactTolerance, out.fingers[i].contact, workspace.contact, report);
+  for (let i = 0; i < count; i++) computeContact(object, fingers[i], settings, out.fingers[i].contact, workspace.contact, report);
+  // The usual finger (base, pivot, roll; point contact) takes one kernel for both solutions; any other the two stages.
   for (let i = 0; i < count; i++) {
     const r = out.fingers[i];
-    if (report) solveFull(fingers[i], r.contact, object.angularVelocity, settings, r.full, workspace.full);
+    if (isSteeredFinger(fingers[i], r.steer, settings)) solveSteeredFinger(fingers[i], r.contact, settings, r.full, r.steer, workspace.full, workspace.steer, report);
+    else if (report) solveFull(fingers[i], r.contact, object.angularVelocity, settings, r.full, workspace.full);
     else solveFullRates(fingers[i], r.contact, object.angularVelocity, settings, r.full, workspace.full);
   }
   for (let i = 0; i < count; i++) {
     const r = out.fingers[i];
-    solveSteerAndRoll(fingers[i], r.contact, r.full, settings, r.steer, workspace.steer, report);
-    // A run needs the full Jacobian's conditioning only where the warnings judge rank on it.
-    if (!report && !r.steer.available) conditionFull(r.full);
+    if (!isSteeredFinger(fingers[i], r.steer, settings)) {
+      solveSteerAndRoll(fingers[i], r.contact, r.full, settings, r.steer, workspace.steer, report);
+      // A run needs the full Jacobian's conditioning only where the warnings judge rank on it.
+      if (!report && !r.steer.available) conditionFull(r.full);
+    }
     r.rankBasis = judgedBasis(r.steer);
     r.rankRatio = judgedRankRatio(r.full, r.steer);
     if (report) r.driveRank = r.steer.available ? numericalRank(r.steer.driveSingularValues, 3, r.full.rankTolerance) : 0;
@@ -176,7 +181,7 @@ export function solveScene(scene: Scene, out: SheetResult = createResult(scene),
     const r = out.fingers[i];
     checkFinger(list, i, fingers[i], r.contact, r.full, r.steer, settings);
   }
-  computeGrasp(object.position, points, normals, count, settings.softFinger, settings.singularRatio, out.grasp, workspace.grasp);
+  computeGrasp(object.position, points, normals, count, settings, out.grasp, workspace.grasp);
   checkGrasp(list, out.grasp);
   out.warnings = finishWarnings(list);
   out.worstSeverity = SEVERITY_LEVELS[list.worstRank];

@@ -179,7 +179,7 @@ export function solveSteerAndRoll(
     out.rollDistance = Number.NaN;
     out.rollRate = 0;
   } else {
-    steer(finger, contact, out, settings, ws.rollDirection, ws.pivotTurn);
+    steerPivot(finger, contact, out, settings, ws.rollDirection, ws.pivotTurn);
   }
 
   // Jacobian after steering: the full solution's translational rows, with the joints beyond the pivot turned about the pivot line by pivotChange.
@@ -262,6 +262,14 @@ function driveConditioning(finger: Finger, contact: Contact, settings: SolverSet
 }
 
 /**
+ * Roll directions below this fraction of the lever arms at every pivot angle are rounding: the contact lies on
+ * the roll axis whatever the pivot does (perturbations of 1e-9 m stay below it for lever arms above 1 mm).
+ */
+const ROLL_AXIS_NOISE = 1e-6;
+
+/**
+ * Steers the pivot for the remainder and remainderNorm already in out (rad, m, rad/s): pivot change and angle, alignment,
+ * misalignment, roll distance and roll rate (also into out.rates).
  * Rodrigues about the pivot (unit k through q): R(delta) x = A + B cos delta + C sin delta with
  * A = (k . x) k, B = x - A, C = k x x. With e = y - q and g = w_roll x (r_roll - q), the roll
  * direction d(delta) = R w_roll x e - R g is linear in (1, cos, sin), so aligning it with the
@@ -272,13 +280,7 @@ function driveConditioning(finger: Finger, contact: Contact, settings: SolverSet
  * the minimum tangential speed (e.g. the object point at the contact at rest), the current angle with roll rate 0,
  * so that rounding does not pick the angle or the roll direction.
  */
-/**
- * Roll directions below this fraction of the lever arms at every pivot angle are rounding: the contact lies on
- * the roll axis whatever the pivot does (perturbations of 1e-9 m stay below it for lever arms above 1 mm).
- */
-const ROLL_AXIS_NOISE = 1e-6;
-
-function steer(finger: Finger, contact: Contact, out: SteerAndRoll, settings: SolverSettings, rollDirection: Float64Array, pivotTurn: Float64Array): void {
+export function steerPivot(finger: Finger, contact: Contact, out: SteerAndRoll, settings: SolverSettings, rollDirection: Float64Array, pivotTurn: Float64Array): void {
   const uNorm = out.remainderNorm;
   // Below the minimum tangential speed every pivot angle meets the rolling constraint to within the setting, and
   // the direction of u is rounding or noise (1e-9 m of object pose already turns it anywhere).

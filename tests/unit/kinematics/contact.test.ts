@@ -60,7 +60,7 @@ describe('computeContact', () => {
   it('sphere roller on a ball: n along the centre line, gap = |c - p| - R - rho, y = c - rho n, x = p + R n', () => {
     const p: [number, number, number] = [0.01, -0.02, 0.03];
     const c: [number, number, number] = [0.01 + 0.03, -0.02 + 0.04, 0.03];
-    const contact = computeContact(object({ kind: 'sphere', radius: 0.04 }, p), createFinger(sphereFinger(c, 0.008)), 1e-4);
+    const contact = computeContact(object({ kind: 'sphere', radius: 0.04 }, p), createFinger(sphereFinger(c, 0.008)), { contactTolerance: 1e-4 });
     expect(contact.gap).toBeCloseTo(0.05 - 0.04 - 0.008, 14);
     expect(contact.normal).toBeNear([0.6, 0.8, 0], { digits: 12 });
     expect(contact.objectPoint).toBeNear([p[0] + 0.04 * 0.6, p[1] + 0.04 * 0.8, p[2]], { digits: 12 });
@@ -76,7 +76,7 @@ describe('computeContact', () => {
     // Roller centre 0.01 + 0.005 out from the +x face along the rotated x axis.
     const ex = rotate(q, [1, 0, 0]);
     const c: [number, number, number] = [p[0] + 0.045 * ex[0], p[1] + 0.045 * ex[1], 0.01];
-    const contact = computeContact(o, createFinger(sphereFinger(c, 0.01)), 1e-4);
+    const contact = computeContact(o, createFinger(sphereFinger(c, 0.01)), { contactTolerance: 1e-4 });
     expect(contact.gap).toBeCloseTo(0.005, 12);
     expect(contact.normal).toBeNear(ex, { digits: 12 });
     expect(contact.normalLocal).toBeNear([1, 0, 0], { digits: 12 });
@@ -84,14 +84,14 @@ describe('computeContact', () => {
   });
 
   it('penetrating sphere roller: negative gap and state', () => {
-    const contact = computeContact(object({ kind: 'sphere', radius: 0.04 }), createFinger(sphereFinger([0.045, 0, 0], 0.01)), 1e-4);
+    const contact = computeContact(object({ kind: 'sphere', radius: 0.04 }), createFinger(sphereFinger([0.045, 0, 0], 0.01)), { contactTolerance: 1e-4 });
     expect(contact.gap).toBeCloseTo(-0.005, 14);
     expect(contact.state).toBe('penetrating');
   });
 
   it('object velocity at the contact split into normal and tangential parts', () => {
     const o = object({ kind: 'sphere', radius: 0.04 }, [0, 0, 0], undefined, [0.01, 0, 0.02], [0, 0, 0.5]);
-    const contact = computeContact(o, createFinger(sphereFinger([0.05, 0, 0], 0.01)), 1e-4);
+    const contact = computeContact(o, createFinger(sphereFinger([0.05, 0, 0], 0.01)), { contactTolerance: 1e-4 });
     expect(contact.objectVelocity).toBeNear([0.01, 0.5 * 0.04, 0.02], { digits: 12 });
     expect(contact.normalSpeed).toBeCloseTo(0.01, 14);
     expect(contact.tangentialVelocity).toBeNear([0, 0.02, 0.02], { digits: 12 });
@@ -102,7 +102,7 @@ describe('computeContact', () => {
     const finger = createFinger(sphereFinger([0.05, 0, 0], 0.01));
     finger.angles[2] = Math.PI / 2;
     forwardKinematics(finger);
-    const contact = computeContact(object({ kind: 'sphere', radius: 0.04 }), finger, 1e-4);
+    const contact = computeContact(object({ kind: 'sphere', radius: 0.04 }), finger, { contactTolerance: 1e-4 });
     // A quarter turn of the roll joint (about z) carries the world direction -x back to -y in the roller frame.
     expect(contact.rollerPointLocal).toBeNear([0, 0.01, 0], { digits: 12 });
     expect(contact.latitude).toBeCloseTo(0, 14);
@@ -111,13 +111,13 @@ describe('computeContact', () => {
     const m = finger.rollerMeridian, q = finger.rollerQuarterMeridian;
     expect(contact.longitude).toBeCloseTo(Math.atan2(u[0] * q[0] + u[1] * q[1] + u[2] * q[2], u[0] * m[0] + u[1] * m[1] + u[2] * m[2]), 14);
     // A contact on the roll axis sits at a pole: latitude -pi/2 (roller below the ball, axis up).
-    const polar = computeContact(object({ kind: 'sphere', radius: 0.04 }), createFinger(sphereFinger([0, 0, 0.05], 0.01)), 1e-4);
+    const polar = computeContact(object({ kind: 'sphere', radius: 0.04 }), createFinger(sphereFinger([0, 0, 0.05], 0.01)), { contactTolerance: 1e-4 });
     expect(polar.latitude).toBeCloseTo(-Math.PI / 2, 7);
     expect(polar.rollAxisDistance).toBeCloseTo(0, 14);
   });
 
   it('cylinder roller lying on a box face: gap = height of the axis - face - radius (line contact, middle chosen)', () => {
-    const contact = computeContact(object({ kind: 'box', halfExtents: [0.1, 0.1, 0.02], filletRadius: 0 }), createFinger(cylinderFinger([0.01, 0.02, 0.035], [1, 0, 0], 0.01, 0.005)), 1e-4);
+    const contact = computeContact(object({ kind: 'box', halfExtents: [0.1, 0.1, 0.02], filletRadius: 0 }), createFinger(cylinderFinger([0.01, 0.02, 0.035], [1, 0, 0], 0.01, 0.005)), { contactTolerance: 1e-4 });
     expect(contact.gap).toBeCloseTo(0.035 - 0.02 - 0.01, 14);
     expect(contact.normal).toBeNear([0, 0, 1], { digits: 12 });
     expect(contact.rollerPoint).toBeNear([0.01, 0.02, 0.025], { digits: 12 });
@@ -130,7 +130,7 @@ describe('computeContact', () => {
     const along = c[0] * axis[0] + c[1] * axis[1];
     const foot = [c[0] - along * axis[0], c[1] - along * axis[1], c[2]];
     const d = Math.hypot(foot[0], foot[1], foot[2]);
-    const contact = computeContact(object({ kind: 'sphere', radius: 0.02 }), createFinger(cylinderFinger(c, axis, 0.002, 0.06)), 1e-4);
+    const contact = computeContact(object({ kind: 'sphere', radius: 0.02 }), createFinger(cylinderFinger(c, axis, 0.002, 0.06)), { contactTolerance: 1e-4 });
     expect(contact.gap).toBeCloseTo(d - 0.02 - 0.002, 13);
     expect(contact.gap).toBeGreaterThan(0);
     expect(contact.normal).toBeNear(foot.map((v) => v / d), { digits: 12 });
@@ -138,7 +138,7 @@ describe('computeContact', () => {
   });
 
   it('cylinder roller overlapping a ball on its curved face reports the penetration exactly', () => {
-    const contact = computeContact(object({ kind: 'sphere', radius: 0.02 }), createFinger(cylinderFinger([0, 0, 0.025], [1, 0, 0], 0.01, 0.01)), 1e-4);
+    const contact = computeContact(object({ kind: 'sphere', radius: 0.02 }), createFinger(cylinderFinger([0, 0, 0.025], [1, 0, 0], 0.01, 0.01)), { contactTolerance: 1e-4 });
     expect(contact.gap).toBeCloseTo(-0.005, 14);
     expect(contact.state).toBe('penetrating');
   });
@@ -146,7 +146,7 @@ describe('computeContact', () => {
   it('cylinder roller tipped onto its rim against a box face: the rim point is lowest (elementary geometry)', () => {
     const tilt = 0.4;
     const axis: [number, number, number] = [Math.cos(tilt), 0, Math.sin(tilt)];
-    const contact = computeContact(object({ kind: 'box', halfExtents: [0.1, 0.1, 0.02], filletRadius: 0 }), createFinger(cylinderFinger([0, 0, 0.05], axis, 0.01, 0.01)), 1e-4);
+    const contact = computeContact(object({ kind: 'box', halfExtents: [0.1, 0.1, 0.02], filletRadius: 0 }), createFinger(cylinderFinger([0, 0, 0.05], axis, 0.01, 0.01)), { contactTolerance: 1e-4 });
     const lowest = 0.05 - (0.01 * Math.cos(tilt) + 0.01 * Math.sin(tilt));
     expect(contact.gap).toBeCloseTo(lowest - 0.02, 9);
     expect(contact.normal).toBeNear([0, 0, 1], { digits: 9 });

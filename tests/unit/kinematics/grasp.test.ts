@@ -15,7 +15,7 @@ function contactMap(points: number[][], origin: number[], normals: number[][] = 
 }
 
 function solve(points: number[][], origin: number[], normals: number[][] = points.map(() => [0, 0, 1]), soft = false) {
-  return computeGrasp(origin, points.flat(), normals.flat(), points.length, soft, 1e-6, createGraspResult(points.length));
+  return computeGrasp(origin, points.flat(), normals.flat(), points.length, { softFinger: soft, singularRatio: 1e-6 }, createGraspResult(points.length));
 }
 
 function referenceRank(a: MlMatrix): number {
@@ -96,7 +96,7 @@ describe('computeGrasp', () => {
   });
 
   it('no contacts: rank 0, every twist free', () => {
-    const g = computeGrasp(origin, [], [], 0, false, 1e-6, createGraspResult(1));
+    const g = computeGrasp(origin, [], [], 0, { softFinger: false, singularRatio: 1e-6 }, createGraspResult(1));
     expect(g.rank).toBe(0);
     expect(g.undrivableCount).toBe(6);
   });

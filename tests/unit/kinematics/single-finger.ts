@@ -16,7 +16,7 @@ export function ball(radius: number, linear: [number, number, number], angular: 
 /** Contact, full and steer-and-roll solutions of one finger against an object. */
 export function solveFinger(input: FingerInput, o: ReturnType<typeof ball>, s: SolverSettings = settings) {
   const finger = createFinger(input);
-  const contact = computeContact(o, finger, s.contactTolerance);
+  const contact = computeContact(o, finger, s);
   const full = solveFull(finger, contact, o.angularVelocity, s, createFullSolution(finger.jointCount), createFullSolveWorkspace(finger.jointCount));
   const steer = solveSteerAndRoll(finger, contact, full, s, createSteerAndRoll(finger), createSteerWorkspace(finger.jointCount));
   return { finger, contact, full, steer };

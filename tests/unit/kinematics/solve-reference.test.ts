@@ -27,7 +27,8 @@ import { SingularValueDecomposition } from 'ml-matrix';
 import { describe, expect, it } from 'vitest';
 import { solveSheet, type FingerResult } from '../../../src/lib/kinematics/index';
 import { HAND_TEMPLATES, createSheetFromTemplate } from '../../../src/lib/sheet/templates';
-import type { FingerInput, ObjectShape, SheetDocument } from '../../../src/lib/sheet/types';
+import type { FingerInput, SheetDocument } from '../../../src/lib/sheet/types';
+import { component, shapeArbitrary, vector } from './seeded-sheets';
 
 const v3 = (x = 0, y = 0, z = 0) => [x, y, z] as unknown as vec3;
 const m3 = () => [1, 0, 0, 0, 1, 0, 0, 0, 1] as unknown as mat3;
@@ -78,16 +79,7 @@ function referenceDampedRates(rows: number[][], b: number[], damping: number): n
 
 const maxAbs = (values: ArrayLike<number>) => Array.from(values).reduce((m, x) => Math.max(m, Math.abs(x)), 0);
 
-const mm = (lo: number, hi: number) => fc.double({ min: lo / 1000, max: hi / 1000, noNaN: true, noDefaultInfinity: true });
-const shapeArbitrary: fc.Arbitrary<ObjectShape> = fc.oneof(
-  mm(15, 35).map((radius): ObjectShape => ({ kind: 'sphere', radius })),
-  fc.tuple(mm(15, 30), mm(15, 30), mm(15, 30), mm(0, 4)).map(([a, b, c, f]): ObjectShape => ({ kind: 'box', halfExtents: [a, b, c], filletRadius: f })),
-  fc.tuple(mm(10, 25), mm(10, 35)).map(([radius, halfLength]): ObjectShape => ({ kind: 'cylinder', radius, halfLength })),
-  fc.tuple(mm(18, 35), mm(18, 35), mm(18, 35)).map(([a, b, c]): ObjectShape => ({ kind: 'ellipsoid', semiAxes: [a, b, c] })),
-);
 const ballTemplates = HAND_TEMPLATES.filter((t) => t.fingers.every((f) => f.roller.kind === 'sphere')).map((t) => t.id);
-const component = (limit: number) => fc.double({ min: -limit, max: limit, noNaN: true });
-const vector = (limit: number) => fc.tuple(component(limit), component(limit), component(limit));
 
 /** Ball-roller hands on any shape, with random twists, joint angles within 0.3 rad of the template's and point or soft contacts. */
 const sheetArbitrary = fc
