@@ -64,3 +64,13 @@ export const SOLUTION_NAMES: Record<CommandedSolution, string> = {
   'steer-and-roll': 'steer-and-roll',
   full: 'full solution',
 };
+
+/**
+ * Which rates a chart, table or export follows, in words: the sheet's choice, and the fingers that take the full
+ * solution under a choice of steer-and-roll, e.g. 'steer-and-roll (finger "thumb": full solution, no pivot and roll)'.
+ */
+export function describeCommanded(chosen: CommandedSolution, fingers: readonly { finger: string; solution: CommandedSolution }[]): string {
+  const others = fingers.filter((f) => f.solution !== chosen).map((f) => `"${f.finger}"`);
+  if (others.length === 0) return SOLUTION_NAMES[chosen];
+  return `${SOLUTION_NAMES[chosen]} (${others.length === 1 ? 'finger' : 'fingers'} ${others.join(', ')}: full solution, no base, pivot and roll joints)`;
+}
