@@ -107,6 +107,30 @@ const shown = (unit: string, fromSI = same, digits = 4): OutputDisplay => ({ uni
  */
 export const OUTPUTS: readonly OutputDefinition[] = [
   {
+    id: 'contact.state', label: 'contact state', unit: '', display: unitless(), frame: null, scope: 'finger', parts: 'single', compared: true,
+    csv: { columns: ['contact_state'] }, read: (r, i) => r.fingers[i].contact.state,
+  },
+  {
+    id: 'contact.gap', label: 'gap', unit: 'm', display: shown('mm', milli), frame: null, scope: 'finger', parts: 'single', compared: true,
+    csv: { columns: ['gap_m'] }, read: (r, i) => r.fingers[i].contact.gap,
+  },
+  {
+    id: 'contact.objectPoint', label: 'contact point', tableLabel: 'contact point x', unit: 'm', display: shown('mm', milli), frame: 'palm', scope: 'finger',
+    parts: 'xyz', compared: true, read: (r, i) => r.fingers[i].contact.objectPoint,
+  },
+  {
+    id: 'contact.normal', label: 'contact normal', tableLabel: 'normal n', unit: '', display: shown('1', same, 3), frame: 'palm', scope: 'finger',
+    parts: 'xyz', compared: true, read: (r, i) => r.fingers[i].contact.normal,
+  },
+  {
+    id: 'contact.normalSpeed', label: 'normal speed', tableLabel: 'normal velocity', unit: 'm/s', display: shown('mm/s', milli), frame: null,
+    scope: 'finger', parts: 'single', compared: true, csv: { columns: ['normal_speed_m_s'] }, read: (r, i) => r.fingers[i].contact.normalSpeed,
+  },
+  {
+    id: 'contact.tangentialSpeed', label: 'tangential speed', unit: 'm/s', display: shown('mm/s', milli), frame: null, scope: 'finger', parts: 'single',
+    compared: true, csv: { columns: ['tangential_speed_m_s'] }, read: (r, i) => r.fingers[i].contact.tangentialSpeed,
+  },
+  {
     id: 'commanded.solution', label: 'commanded solution', tableLabel: 'commanded rates follow', unit: '', display: unitless(), frame: null,
     scope: 'finger', parts: 'single', compared: true, csv: { columns: ['commanded_solution'] },
     read: (r, i) => r.commanded?.fingers[i]?.solution ?? 'not computed',
@@ -130,30 +154,6 @@ export const OUTPUTS: readonly OutputDefinition[] = [
     id: 'commanded.pivot.rate', label: 'steered pivot: rate of that change over one time step', tableLabel: 'pivot rate over the time step', unit: 'rad/s',
     display: shown('rad/s'), frame: null, scope: 'finger', parts: 'single', compared: true, csv: { columns: ['pivot_rate_rad_s'] },
     read: (r, i) => r.commanded?.fingers[i]?.pivot?.rate ?? Number.NaN,
-  },
-  {
-    id: 'contact.state', label: 'contact state', unit: '', display: unitless(), frame: null, scope: 'finger', parts: 'single', compared: true,
-    csv: { columns: ['contact_state'] }, read: (r, i) => r.fingers[i].contact.state,
-  },
-  {
-    id: 'contact.gap', label: 'gap', unit: 'm', display: shown('mm', milli), frame: null, scope: 'finger', parts: 'single', compared: true,
-    csv: { columns: ['gap_m'] }, read: (r, i) => r.fingers[i].contact.gap,
-  },
-  {
-    id: 'contact.objectPoint', label: 'contact point', tableLabel: 'contact point x', unit: 'm', display: shown('mm', milli), frame: 'palm', scope: 'finger',
-    parts: 'xyz', compared: true, read: (r, i) => r.fingers[i].contact.objectPoint,
-  },
-  {
-    id: 'contact.normal', label: 'contact normal', tableLabel: 'normal n', unit: '', display: shown('1', same, 3), frame: 'palm', scope: 'finger',
-    parts: 'xyz', compared: true, read: (r, i) => r.fingers[i].contact.normal,
-  },
-  {
-    id: 'contact.normalSpeed', label: 'normal speed', tableLabel: 'normal velocity', unit: 'm/s', display: shown('mm/s', milli), frame: null,
-    scope: 'finger', parts: 'single', compared: true, csv: { columns: ['normal_speed_m_s'] }, read: (r, i) => r.fingers[i].contact.normalSpeed,
-  },
-  {
-    id: 'contact.tangentialSpeed', label: 'tangential speed', unit: 'm/s', display: shown('mm/s', milli), frame: null, scope: 'finger', parts: 'single',
-    compared: true, csv: { columns: ['tangential_speed_m_s'] }, read: (r, i) => r.fingers[i].contact.tangentialSpeed,
   },
   {
     id: 'full.rates', label: 'joint rate (full)', tableLabel: 'full', unit: 'rad/s', display: shown('rad/s'), frame: null, scope: 'joint', parts: 'joints',
