@@ -1,6 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
-import { baseUrl, deleteCreatedSheets, launchBrowser, saveScreenshot, signIn } from './browser';
+import { mkdirSync } from 'node:fs';
+import { join } from 'node:path';
+import { baseUrl, deleteCreatedSheets, launchBrowser, saveScreenshot, SCREENSHOT_DIR, signIn } from './browser';
 
 const EDITOR = { email: 'editor@fenwick.example', password: 'slipless-demo' };
 const DEMO_SHEET = 'Bearing housing: index a quarter turn';
@@ -74,8 +76,9 @@ describe('the commanded solution', () => {
     expect(Number(await cell('0.commanded.rates.1').innerText())).toBe(rate);
     expect(await runAndRead()).toContain('steer-and-roll');
     expect(await sweepAndRead()).toContain('steer-and-roll');
-    await page.getByTestId('commanded-solution').scrollIntoViewIfNeeded();
     await saveScreenshot(page, 'commanded-steer-and-roll');
+    mkdirSync(SCREENSHOT_DIR, { recursive: true });
+    await page.locator('#results').screenshot({ path: join(SCREENSHOT_DIR, 'commanded-steer-and-roll-results.png') });
   });
 
   it('states the frame of every vector on the page', async () => {
@@ -89,6 +92,7 @@ describe('the commanded solution', () => {
     }
     await page.getByTestId('twist-frame').selectOption('object');
     await page.locator('legend', { hasText: 'twist: angular velocity (object frame)' }).waitFor();
+    await page.locator('#motion').screenshot({ path: join(SCREENSHOT_DIR, 'commanded-motion-object-frame.png') });
     await page.getByTestId('twist-frame').selectOption('palm');
   });
 
@@ -111,7 +115,7 @@ describe('the commanded solution', () => {
     expect(rows.map((row) => row[solution])).toEqual(rows.map(() => 'full'));
     expect(header).toEqual(expect.arrayContaining(['commanded_rate1_rad_s', 'full_rate1_rad_s', 'pivot_rate_rad_s']));
     expect(rows[0]![header!.indexOf('commanded_rate2_rad_s')]).toBe(rows[0]![header!.indexOf('full_rate2_rad_s')]);
-    await page.getByTestId('run-panel').scrollIntoViewIfNeeded();
     await saveScreenshot(page, 'commanded-full');
+    await page.getByTestId('sweep-panel').screenshot({ path: join(SCREENSHOT_DIR, 'commanded-full-sweep.png') });
   });
 });
