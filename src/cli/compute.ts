@@ -17,6 +17,10 @@ import { compareLog, describeComparisonError, type ComparedSample } from '../lib
 import { comparisonReportJson, verdictExitCode } from '../lib/logs/report';
 import { evaluateSheet, type SheetEvaluation } from '../lib/sheet/evaluate';
 import { comparedSampleHeader, comparedSampleLine, csvTable, FINGER_COLUMNS, fingerRows, maxJointCount, rateColumns, resultsCsv } from '../lib/sheet/results-csv';
+import { commandedRates } from '../lib/sheet/commanded';
+import { exportedResult, namedQuaternion } from '../lib/sheet/results-json';
+import { commandedSolutionOf } from '../lib/sheet/schema';
+import type { SheetDocument } from '../lib/sheet/types';
 import { InputError, readJsonFile, readMappingFile } from './input-files';
 
 const USAGE = 'usage: npm run compute -- path/to/sheet.json [--format json|csv] [--run] [--sweep] [--log log.csv[.gz] --mapping mapping.json]';
@@ -77,21 +81,27 @@ function evaluateFile(file: string): SheetEvaluation {
 
 function runTable(record: RunRecord): string {
   const metrics = ROTATION_METRICS.map((m) => `${m.key}${m.unit === 'rad' ? '_rad' : ''}`);
-  const header = ['tick', 'time_s', 'x_m', 'y_m', 'z_m', 'qx', 'qy', 'qz', 'qw', 'position_error_m', ...metrics, 'warnings'];
+  const header = ['tick', 'time_s', 'x_m', 'y_m', 'z_m', 'qw', 'qx', 'qy', 'qz', 'position_error_m', ...metrics, 'warnings'];
   const rows: unknown[][] = [];
   const m = ROTATION_METRICS.length;
   for (let k = 0; k < record.tickCount; k++) {
+    const q = namedQuaternion(record.orientation, 4 * k);
     rows.push([
-      k, record.time[k], ...record.position.subarray(3 * k, 3 * k + 3), ...record.orientation.subarray(4 * k, 4 * k + 4),
+      k, record.time[k], ...record.position.subarray(3 * k, 3 * k + 3), q.w, q.x, q.y, q.z,
       record.positionError[k], ...record.orientationError.subarray(m * k, m * k + m), warningsAt(record, k).join(' '),
     ]);
   }
   return csvTable(header, rows);
 }
 
-function sweepTable(record: SweepRecord, maxJoints: number): string {
-  const rows = record.results.flatMap((result, i) => fingerRows(result, maxJoints, [record.values[i]]));
+function sweepTable(doc: SheetDocument, record: SweepRecord, maxJoints: number): string {
+  const rows = record.results.flatMap((result, i) => fingerRows({ ...result, commanded: commandedRates(doc, result) }, maxJoints, [record.values[i]]));
   return csvTable(['value', ...FINGER_COLUMNS, ...rateColumns(maxJoints)], rows);
+}
+
+/** A run's [x, y, z, w] orientation column (4 per tick) as one scalar-first quaternion per tick. */
+function wxyzColumn(column: Float64Array) {
+  return Array.from({ length: column.length / 4 }, (_, k) => namedQuaternion(column, 4 * k));
 }
 
 /** Where the command writes; the process streams when run from the shell. */
@@ -190,17 +200,20 @@ export async function runComputeCommand(args: readonly string[], io: CommandOutp
   if (options.format === 'json') {
     const output = {
       title: doc.title,
-      result,
-      ...(run ? { run: toPlainRunRecord(run) } : {}),
-      ...(sweep ? { sweep: { path: sweep.path, values: Array.from(sweep.values), results: sweep.results, worstSeverity: sweep.worstSeverity } } : {}),
+      commanded: commandedSolutionOf(doc),
+      result: exportedResult(doc, result),
+      ...(run ? { run: { ...toPlainRunRecord(run), orientation: wxyzColumn(run.orientation), measuredOrientation: wxyzColumn(run.measuredOrientation) } } : {}),
+      ...(sweep
+        ? { sweep: { path: sweep.path, values: Array.from(sweep.values), results: sweep.results.map((r) => exportedResult(doc, r)), worstSeverity: sweep.worstSeverity } }
+        : {}),
     };
     // JSON has no Infinity or NaN; they are written as strings so nothing is silently lost.
     io.stdout(`${JSON.stringify(output, (_, v: unknown) => (typeof v === 'number' && !Number.isFinite(v) ? String(v) : v), 2)}\n`);
     return 0;
   }
   const tables = [resultsCsv(doc, result)];
-  if (run) tables.push(`# run (${run.stopReason} after ${run.tickCount} ticks)\n${runTable(run)}`);
-  if (sweep) tables.push(`# sweep ${sweep.path}\n${sweepTable(sweep, maxJoints)}`);
+  if (run) tables.push(`# run (${run.stopReason} after ${run.tickCount} ticks; commanded solution ${commandedSolutionOf(doc)}; palm frame, quaternion w x y z)\n${runTable(run)}`);
+  if (sweep) tables.push(`# sweep ${sweep.path} (commanded solution ${commandedSolutionOf(doc)})\n${sweepTable(doc, sweep, maxJoints)}`);
   io.stdout(`${tables.join('\n\n')}\n`);
   return 0;
 }

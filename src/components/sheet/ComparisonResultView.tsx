@@ -3,6 +3,8 @@ import LineChart, { type LineSeries } from '../charts/LineChart';
 import { SeverityKey } from '../charts/WarningStrip';
 import { button } from './sheet-styles';
 import type { LogComparison } from '../../lib/logs/compare';
+import { SOLUTION_NAMES } from '../../lib/sheet/commanded';
+import { DEFAULT_COMMANDED } from '../../lib/sheet/schema';
 import { jointPlots, seriesBounds, slipPlot, warningBands, type ComparisonPlot } from '../../lib/view/comparison-plots';
 import { formatValue } from '../../lib/view/comparison-side-by-side';
 import { PALETTE, SEVERITY_COLOURS } from '../../lib/view/palette';
@@ -98,6 +100,10 @@ function ComparisonCharts({ result }: { result: LogComparison }) {
   return (
     <div className="space-y-3" data-comparison-charts data-x-range={xRange ? `${xRange.min} ${xRange.max}` : 'all'}>
       <div className="flex flex-wrap items-center gap-x-4 gap-y-1 text-xs text-graphite">
+        <span data-comparison-solution>
+          Sheet rates: what the sheet would command under {SOLUTION_NAMES[result.solution ?? DEFAULT_COMMANDED]}
+          {result.solution === undefined && ' (compared before the sheet named its commanded solution)'}.
+        </span>
         <span>Wheel zooms, drag selects a stretch, Shift-drag pans; every plot follows.</span>
         <button type="button" className={button} disabled={!zoomed} onClick={() => setXRange(null)} data-reset-zoom>
           Reset zoom

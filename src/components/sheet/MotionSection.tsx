@@ -1,9 +1,12 @@
+import { useId } from 'react';
 import { getAt, pathText, setAt, type DocumentPath } from '../../lib/sheet/document-path';
+import { COMMANDED_SOLUTIONS, DEFAULT_COMMANDED } from '../../lib/sheet/schema';
 import type { QuantityKind } from '../../lib/sheet/units';
 import { useSheetEditing } from './editor-context';
 import { OrientationFields } from './ObjectSection';
 import { PlainNumber, Quantity, QuantityVector, Toggle } from './fields';
 import QuantityField from './QuantityField';
+import { selectInput } from './sheet-styles';
 
 const ACCELERATION: DocumentPath = ['object', 'acceleration'];
 
@@ -49,18 +52,83 @@ function AccelerationVector({ part, label, kind }: { part: 'linear' | 'angular';
   );
 }
 
+const TWIST: DocumentPath = ['object', 'twist'];
+
+/** The point the entered twist is about: blank components are 0, and all blank removes it (the object origin). */
+function TwistPoint({ frame }: { frame: string }) {
+  const { document, update, issues, variables, readOnly } = useSheetEditing();
+  const path = [...TWIST, 'about'];
+  const vector = getAt(document, path);
+  const components: unknown[] = Array.isArray(vector) ? vector : [];
+  const change = (index: number, value: number | string | undefined) => {
+    const next = [0, 1, 2].map((k) => (k === index ? value : components[k]));
+    update(path, next.every((x) => x === undefined) ? undefined : next.map((x) => x ?? 0));
+  };
+  const whole = issues.get(pathText(path));
+  return (
+    <fieldset className="min-w-0" data-testid="twist-about">
+      <legend className="text-[11px] font-semibold text-ink">twist about the point ({frame} frame{frame === 'object' ? ', from the object centre' : ''}; blank = object origin)</legend>
+      <div className="grid grid-cols-3 gap-2">
+        {(['x', 'y', 'z'] as const).map((axis, index) => (
+          <QuantityField
+            key={axis}
+            label={axis}
+            kind="length"
+            path={pathText([...path, index])}
+            value={components[index]}
+            variables={variables}
+            issue={issues.get(pathText([...path, index]))}
+            disabled={readOnly}
+            optional={{ placeholder: '0' }}
+            onChange={(value) => change(index, value)}
+          />
+        ))}
+      </div>
+      {whole && <span className="block text-[11px] text-sienna" role="alert">{whole}</span>}
+    </fieldset>
+  );
+}
+
+/** A choice written only when it differs from the default, so a sheet that never chose stays as it was written. */
+function DefaultedChoice({ path, label, options, fallback, test }: { path: DocumentPath; label: string; options: readonly string[]; fallback: string; test: string }) {
+  const { document, update, readOnly } = useSheetEditing();
+  const id = useId();
+  const value = getAt(document, path);
+  return (
+    <div>
+      <label htmlFor={id} className="block text-[11px] uppercase tracking-wide text-graphite">{label}</label>
+      <select
+        id={id}
+        className={selectInput}
+        disabled={readOnly}
+        data-testid={test}
+        value={typeof value === 'string' ? value : fallback}
+        onChange={(event) => update(path, event.target.value === fallback && value === undefined ? undefined : event.target.value)}
+      >
+        {options.map((option) => <option key={option}>{option}</option>)}
+      </select>
+    </div>
+  );
+}
+
 /** Motion: the object's twist and acceleration, the target pose of a run and the run settings. */
 export default function MotionSection() {
   const run = ['motion', 'run'];
+  const { document } = useSheetEditing();
+  const frame = getAt(document, [...TWIST, 'frame']) === 'object' ? 'object' : 'palm';
+  const about = getAt(document, [...TWIST, 'about']) !== undefined;
   return (
     <div className="space-y-4">
       <div className="grid gap-3 md:grid-cols-2">
-        <QuantityVector path={['object', 'twist', 'linear']} label="twist: origin velocity" kind="speed" />
-        <QuantityVector path={['object', 'twist', 'angular']} label="twist: angular velocity" kind="angularSpeed" />
-        <AccelerationVector part="linear" label="acceleration: origin (feed-forward; blank = 0)" kind="acceleration" />
-        <AccelerationVector part="angular" label="acceleration: angular (blank = 0)" kind="angularAcceleration" />
+        <DefaultedChoice path={['commanded']} label="commanded joint rates" options={COMMANDED_SOLUTIONS} fallback={DEFAULT_COMMANDED} test="commanded-choice" />
+        <DefaultedChoice path={[...TWIST, 'frame']} label="twist written in the frame" options={['palm', 'object']} fallback="palm" test="twist-frame" />
+        <QuantityVector path={[...TWIST, 'linear']} label={`twist: ${about ? 'velocity of the point below' : 'origin velocity'} (${frame} frame)`} kind="speed" />
+        <QuantityVector path={[...TWIST, 'angular']} label={`twist: angular velocity (${frame} frame)`} kind="angularSpeed" />
+        <TwistPoint frame={frame} />
+        <AccelerationVector part="linear" label="acceleration: origin (palm frame, feed-forward; blank = 0)" kind="acceleration" />
+        <AccelerationVector part="angular" label="acceleration: angular (palm frame; blank = 0)" kind="angularAcceleration" />
       </div>
-      <QuantityVector path={['motion', 'target', 'position']} label="target position" kind="length" />
+      <QuantityVector path={['motion', 'target', 'position']} label="target position (palm frame)" kind="length" />
       <OrientationFields path={['motion', 'target', 'orientation']} />
       <fieldset>
         <legend className="text-[11px] font-semibold text-ink">run settings (blank = default)</legend>

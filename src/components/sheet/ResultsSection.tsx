@@ -1,6 +1,7 @@
 import { memo } from 'react';
 import type { ContactWander, PlainSheetResult } from '../../lib/kinematics';
-import { displayNumber, displayValue, findOutput, formatShownNumber, STEER_FEEDFORWARD_REASONS, type OutputDefinition } from '../../lib/sheet/outputs';
+import { describeCommanded } from '../../lib/sheet/commanded';
+import { displayNumber, displayValue, findOutput, formatShownNumber, labelWithFrame, STEER_FEEDFORWARD_REASONS, type OutputDefinition } from '../../lib/sheet/outputs';
 import { CurvatureTable } from './CurvatureTable';
 import { SafetyCaution } from './SafetyCaution';
 
@@ -20,7 +21,7 @@ function OutputRow({ id, result, finger = -1, test = false }: { id: string; resu
   const testId = definition.scope === 'grasp' ? id : `${finger}.${id}`;
   return (
     <Row
-      label={definition.tableLabel ?? definition.label}
+      label={labelWithFrame(definition, true)}
       value={displayValue(definition, definition.read(result, finger))}
       unit={definition.display.unit}
       test={test ? testId : undefined}
@@ -36,7 +37,7 @@ const MATERIAL_POINTS_REASON: Record<ContactWander['status'], string> = {
   defined: 'no contact curvature',
 };
 
-const JOINT_COLUMNS = ['jointAngles', 'full.rates', 'steer.rates', 'steer.rateDifference', 'acceleration.jointAccelerations', 'acceleration.steer.jointAccelerations'].map(findOutput);
+const JOINT_COLUMNS = ['jointAngles', 'commanded.rates', 'full.rates', 'steer.rates', 'steer.rateDifference', 'acceleration.jointAccelerations', 'acceleration.steer.jointAccelerations'].map(findOutput);
 
 /** The k-th joint's value of a per-joint output, in its display unit. */
 function jointCell(definition: OutputDefinition, result: PlainSheetResult, finger: number, joint: number): string {
@@ -56,8 +57,16 @@ function ResultsSection({ result, stale }: { result: PlainSheetResult | null; st
   if (!result) return <p className="text-sm text-graphite">No results until the sheet reads without errors.</p>;
   return (
     <div className={`space-y-5 transition-opacity ${stale ? 'opacity-60' : ''}`} aria-busy={stale}>
+      {result.commanded && (
+        <p className="border-l-4 border-ink pl-3 text-sm" data-testid="commanded-solution" data-solution={result.commanded.solution}>
+          Commanded to the controller: <strong>{describeCommanded(result.commanded.solution, result.commanded.fingers)}</strong>; a steered pivot
+          turns to its target angle within one time step of <span className="num">{formatShownNumber(result.commanded.timeStep * 1000)} ms</span>.
+          Every vector is in the palm frame; the object twist is the object origin&apos;s velocity and the angular velocity.
+        </p>
+      )}
       {result.fingers.map((f, i) => {
         const c = f.contact;
+        const commanded = result.commanded?.fingers[i];
         return (
           <div key={i} className="border border-rule bg-paper p-3" data-contact={i}>
             <h3 className="mb-2 text-sm font-semibold">
@@ -76,6 +85,14 @@ function ResultsSection({ result, stale }: { result: PlainSheetResult | null; st
               </table>
               <table className="w-full text-sm">
                 <tbody>
+                  <OutputRow id="commanded.solution" result={result} finger={i} test />
+                  {commanded?.pivot && (
+                    <>
+                      <OutputRow id="commanded.pivot.targetAngle" result={result} finger={i} test />
+                      <OutputRow id="commanded.pivot.change" result={result} finger={i} test />
+                      <OutputRow id="commanded.pivot.rate" result={result} finger={i} test />
+                    </>
+                  )}
                   <OutputRow id="steer.baseRates" result={result} finger={i} test />
                   <OutputRow id="steer.pivotAngle" result={result} finger={i} test />
                   <OutputRow id="steer.rollRate" result={result} finger={i} test />
@@ -90,7 +107,7 @@ function ResultsSection({ result, stale }: { result: PlainSheetResult | null; st
               </table>
             </div>
             <table className="mt-3 w-full text-sm">
-              <caption className="text-left text-[11px] uppercase tracking-wide text-graphite">joint rates, rad/s: full solution beside steer-and-roll; joint accelerations of the full solution beside steer-and-roll (pivot: its rate below)</caption>
+              <caption className="text-left text-[11px] uppercase tracking-wide text-graphite">joint rates, rad/s: commanded ({commanded?.solution ?? 'not computed'}), then the full solution beside steer-and-roll; joint accelerations of the full solution beside steer-and-roll (pivot: its rate below)</caption>
               <thead>
                 <tr className="border-b border-ink text-left text-xs text-graphite">
                   <th className="py-1 font-normal">joint</th>
@@ -104,7 +121,7 @@ function ResultsSection({ result, stale }: { result: PlainSheetResult | null; st
                   <tr key={name} className="border-b border-rule/60">
                     <td className="py-0.5">{name}</td>
                     {JOINT_COLUMNS.map((column) => (
-                      <td key={column.id} className="num text-right" data-result={column.id === 'full.rates' ? `${i}.full.rates.${k}` : undefined}>
+                      <td key={column.id} className="num text-right" data-result={column.id === 'full.rates' || column.id === 'commanded.rates' ? `${i}.${column.id}.${k}` : undefined}>
                         {jointCell(column, result, i, k)}
                       </td>
                     ))}
@@ -141,12 +158,23 @@ function ResultsSection({ result, stale }: { result: PlainSheetResult | null; st
                 </tbody>
               </table>
             )}
-            <p className="mt-1 text-xs text-graphite">
+            <p className="mt-1 text-xs text-graphite" data-conditioning={i}>
               full solution: σ = <span className="num">{f.full.singularValues.map((s) => displayNumber(singularValues, s)).join(', ')}</span> {singularValues.display.unit}, rank{' '}
               <span className="num" data-result={`${i}.full.rank`}>{displayValue(fullRank, fullRank.read(result, i))}</span> {fullRank.display.unit} (σ counted above{' '}
-              <span className="num">{displayValue(rankTolerance, rankTolerance.read(result, i))}</span> {rankTolerance.display.unit}), condition{' '}
-              <span className="num">{displayValue(conditionNumber, conditionNumber.read(result, i))}</span>, manipulability{' '}
-              <span className="num">{displayValue(manipulability, manipulability.read(result, i))}</span>
+              <span className="num">{displayValue(rankTolerance, rankTolerance.read(result, i))}</span> {rankTolerance.display.unit}),{' '}
+              {f.full.rank < 3 ? (
+                // Fewer independent joint directions than contact directions: a finger built so reads as such, not as an infinite condition number.
+                <span data-result={`${i}.full.rankDeficient`}>
+                  rank-deficient{f.jointNames.length < 3 || f.steer.available ? ' by design' : ''} ({f.jointNames.length} joints{f.steer.available ? ', the pivot steers rather than drives' : ''}), so no condition number or manipulability
+                </span>
+              ) : (
+                <>
+                  condition <span className="num">{displayValue(conditionNumber, conditionNumber.read(result, i))}</span>, manipulability{' '}
+                  <span className="num">{displayValue(manipulability, manipulability.read(result, i))}</span>
+                </>
+              )}
+              ; the rank-loss warning judges σmin/σmax of the {f.rankBasis === 'steered' ? 'drive columns after steering' : 'full contact Jacobian'}:{' '}
+              <span className="num" data-result={`${i}.rankRatio`}>{formatShownNumber(f.rankRatio, 3)}</span>
             </p>
             {f.steer.available && (
               <p className="text-xs text-graphite">

@@ -48,6 +48,7 @@ function RunResults({ series, stale }: { series: RunSeries; stale: boolean }) {
     <div className="space-y-4" data-testid="run-results">
       <div className="border-l-4 border-verdigris pl-3 text-sm" role="status">
         <p data-testid="run-stop-reason">{describeStopReason(series.stopReason)}</p>
+        <p className="text-xs" data-testid="run-solution">Joint rates followed: {series.followed}</p>
         <p className="text-xs text-graphite">
           <span className="num" data-testid="run-tick-count">{series.tickCount.toLocaleString('en')}</span> ticks of{' '}
           <span className="num">{series.settings.dt * 1000} ms</span> computed in{' '}
@@ -60,7 +61,7 @@ function RunResults({ series, stale }: { series: RunSeries; stale: boolean }) {
       <WarningStrip count={series.tickCount} worst={series.worstSeverity} warnings={series.warnings} axisLabel="ticks" />
       <div className="grid gap-4 @3xl:grid-cols-2">
         <LineChart title="Joint angles" yLabel="deg" series={charts.angles} {...common} />
-        <LineChart title="Joint rates" yLabel="rad/s" series={charts.rates} {...common} />
+        <LineChart title={`Joint rates followed: ${series.followed}`} yLabel="rad/s" series={charts.rates} {...common} />
         <LineChart title="Orientation error (angles)" yLabel="deg" series={charts.orientationAngles} {...common} />
         <LineChart title="Orientation error (dimensionless metrics)" yLabel="1" series={charts.orientationRatios} {...common} />
         <LineChart title="Position error" yLabel="mm" series={charts.position} {...common} />

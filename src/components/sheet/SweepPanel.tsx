@@ -44,9 +44,10 @@ function SweepResults({ series, input }: { series: SweepSeries; input: SweepInpu
         <span className="num">{series.values.length}</span> values of <span className="num">{series.path}</span> solved in{' '}
         <span className="num">{series.elapsedMs.toFixed(0)} ms</span>. Shading marks the worst warning at each value.
       </p>
+      <p className="text-xs" data-testid="sweep-solution">Joint rates plotted: {series.followed}</p>
       <WarningStrip count={series.values.length} worst={series.worstSeverity} warnings={series.warnings} axisLabel="the swept values" />
       <div className="grid gap-4 @3xl:grid-cols-2">
-        <LineChart title="Joint rates (full solution)" yLabel="rad/s" series={charts.rates} {...common} />
+        <LineChart title={`Commanded joint rates: ${series.followed}`} yLabel="rad/s" series={charts.rates} {...common} />
         <LineChart title="Condition number of the contact Jacobian" yLabel="σmax/σmin" logY series={charts.condition} {...common} />
         <LineChart title="Residual slip speed" yLabel="mm/s" series={charts.residual} {...common} />
         <LineChart title="Contact gap" yLabel="mm" series={charts.gap} {...common} />

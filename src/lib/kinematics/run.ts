@@ -3,9 +3,10 @@
  * measures the pose (optionally with seeded Gaussian noise), commands the twist gain * pose error
  * (rotation part by the log map), solves the fingers' joint rates for that twist, and the truth
  * advances: joint angles by rate * dt, the object pose by the exponential map of the commanded
- * twist. A finger with base, pivot and roll joints follows its steer-and-roll solution (the pivot
- * jumps to the steered angle, base and roll integrate their rates), because its full solution
- * cannot steer; any other finger follows the full damped least-squares rates. Everything recorded lives in typed-array columns, one entry (or one row) per tick.
+ * twist. Under the sheet's commanded solution "steer-and-roll" (the default) a finger with base,
+ * pivot and roll joints follows its steer-and-roll solution (the pivot jumps to the steered angle,
+ * base and roll integrate their rates); under "full", and for any other finger, it follows the full
+ * damped least-squares rates. Everything recorded lives in typed-array columns, one entry (or one row) per tick.
  */
 import type { RunSettings, SheetDocument } from '../sheet/types';
 import { ROTATION_METRICS, rotationDistances } from './metrics';
@@ -69,6 +70,8 @@ export interface RunOptions {
   /** Called after every progressEvery ticks (default 500) with the ticks done and the tick limit. */
   onProgress?: (ticksDone: number, maxTicks: number) => void;
   progressEvery?: number;
+  /** Solution to follow instead of the document's commanded one. */
+  solution?: 'steer-and-roll' | 'full';
 }
 
 interface Columns {
@@ -171,6 +174,8 @@ export function runScene(scene: Scene, settings: RunSettings, options: RunOption
   const distances = new Float64Array(METRIC_COUNT);
   const progressEvery = Math.max(1, options.progressEvery ?? 500);
   const geodesicIndex = ROTATION_METRICS.findIndex((m) => m.key === 'phi6');
+  // A document without the choice commands steer-and-roll, as runs did before it existed.
+  const steerChosen = (options.solution ?? scene.document.commanded ?? 'steer-and-roll') === 'steer-and-roll';
 
   let stopReason: RunStopReason = 'tick-limit';
   let tick = 0;
@@ -201,7 +206,7 @@ export function runScene(scene: Scene, settings: RunSettings, options: RunOption
       const n = jointCounts[i]!;
       const angles = fingers[i]!.angles;
       const solved = result.fingers[i]!;
-      const steered = solved.steer.available;
+      const steered = steerChosen && solved.steer.available;
       const rates = steered ? solved.steer.rates : solved.full.rates;
       const angleColumn = columns.jointAngles[i]!;
       const rateColumn = columns.jointRates[i]!;

@@ -3,6 +3,7 @@
  * finger's joint angles, which run loops overwrite between solves, and scratch space so that
  * solveScene(scene, out) allocates nothing.
  */
+import type { CommandedRates } from '../sheet/commanded';
 import type { SheetDocument, SolverSettings } from '../sheet/types';
 import type { FingerAcceleration } from './acceleration';
 import { computeContact, createContact, createContactWorkspace, createObject, updateObjectRotation, type Contact, type ContactWorkspace, type RigidObject } from './contact';
@@ -254,9 +255,9 @@ type Plain<T> = T extends Float64Array
 
 /**
  * SheetResult with typed arrays as plain arrays and matrices as rows (JSON-ready). The evaluation
- * pipeline adds each finger's contact curvature (sheetCurvature); runs and sweeps leave it out.
+ * pipeline adds each finger's contact curvature (sheetCurvature) and the commanded rates (sheet/commanded.ts); runs and sweeps leave them out.
  */
-export type PlainSheetResult = Omit<Plain<SheetResult>, 'fingers'> & { fingers: (Plain<FingerResult> & { curvature?: ContactCurvature })[] };
+export type PlainSheetResult = Omit<Plain<SheetResult>, 'fingers'> & { fingers: (Plain<FingerResult> & { curvature?: ContactCurvature })[]; commanded?: CommandedRates };
 
 /** JSON-ready copy of a result: Float64Arrays become arrays, matrices become arrays of rows, non-finite numbers stay as they are. */
 export function toPlainResult(result: SheetResult): PlainSheetResult {

@@ -4,9 +4,10 @@
  * angles) and:
  * 1. the rates the sheet would command there, by the run's law: the twist gain * pose error toward
  *    motion.target (the logged wanted twist when mapped), solved as the sheet's runs solve it
- *    (steer-and-roll for fingers with base, pivot and roll joints, whose pivot rate is the pivot
- *    change over the interval to the next sample; the full damped least-squares rates otherwise),
- *    are compared with the logged commanded rates;
+ *    (under the commanded solution "steer-and-roll", steer-and-roll for fingers with base, pivot
+ *    and roll joints, whose pivot rate is the pivot change over the interval to the next sample;
+ *    the full damped least-squares rates under "full" and for other fingers), are compared with
+ *    the logged commanded rates;
  * 2. the slip the logged motion implies: the object twist by finite differences of the logged
  *    poses (see differentiate.ts) gives the object's material velocity at each contact, the logged
  *    measured joint rates give the roller's through the contact Jacobian at the logged angles
@@ -21,7 +22,7 @@ import {
   type WarningCode,
 } from '../kinematics';
 import { fail, succeed, type DomainError, type Result } from '../result';
-import type { SheetDocument } from '../sheet/types';
+import type { CommandedSolution, SheetDocument } from '../sheet/types';
 import { twistBetween } from './differentiate';
 import type { LogMapping } from './mapping';
 import { readLog, type LogGap, type LogIssue, type LogSample, type LogSource } from './read-log';
@@ -70,6 +71,8 @@ export interface WarningActivity {
 }
 
 export interface LogComparison {
+  /** The sheet's commanded solution the sheet's rates follow; absent from comparisons stored before the choice existed, which followed steer-and-roll. */
+  solution?: CommandedSolution;
   samples: number;
   /** Time of the first and last sample, s. */
   from: number;
@@ -220,6 +223,8 @@ export async function compareLog(doc: SheetDocument, mapping: LogMapping, source
     steeredColumns(fingers[f]!, rollerPoint, pivotTurn, out);
     return out;
   };
+  const solution: CommandedSolution = doc.commanded ?? 'steer-and-roll';
+  const steerChosen = solution === 'steer-and-roll';
   const twist = new Float64Array(6);
   const conjugated = new Float64Array(4), relative = new Float64Array(4), axis = new Float64Array(3);
   const gaps: LogGap[] = [];
@@ -277,9 +282,10 @@ export async function compareLog(doc: SheetDocument, mapping: LogMapping, source
       const solved = result.fingers[f]!;
       const rates = sheetRates[f]!;
       // A plain loop: TypedArray.set costs more than the copy for a few joints.
-      const from = solved.steer.available ? solved.steer.rates : solved.full.rates;
+      const steered = steerChosen && solved.steer.available;
+      const from = steered ? solved.steer.rates : solved.full.rates;
       for (let k = 0; k < rates.length; k++) rates[k] = from[k]!;
-      if (solved.steer.available) rates[fingers[f]!.pivotIndex] = solved.steer.pivotChange / interval;
+      if (steered) rates[fingers[f]!.pivotIndex] = solved.steer.pivotChange / interval;
     }
     for (let c = 0; c < compared.length; c++) {
       const m = compared[c]!;
@@ -310,7 +316,7 @@ export async function compareLog(doc: SheetDocument, mapping: LogMapping, source
       const x = contact.objectPoint, n = contact.normal;
       const solved = result.fingers[f]!;
       const entries = measuredJoint[f]!;
-      const steered = solved.steer.available;
+      const steered = steerChosen && solved.steer.available;
       const pivot = steered ? fingers[f]!.pivotIndex : -1;
       let jacobian = solved.full.jacobian;
       if (steered) {
@@ -416,6 +422,7 @@ export async function compareLog(doc: SheetDocument, mapping: LogMapping, source
     return t.samples === 0 ? [] : [{ code, severity: WARNING_CATALOGUE[code].severity, samples: t.samples, intervals: t.intervals, intervalsOmitted: t.omitted }];
   });
   return succeed({
+    solution,
     samples: count,
     from: first,
     to: last,

@@ -15,7 +15,7 @@ import { compareLog, type LogComparison } from '../logs/compare';
 import { parseLogMapping } from '../logs/mapping';
 import { fail, succeed, type Result } from '../result';
 import { comparedSampleHeader, comparedSampleLine } from '../sheet/results-csv';
-import { parseSheet } from '../sheet/schema';
+import { DEFAULT_COMMANDED, parseSheet } from '../sheet/schema';
 import { notFound } from './access';
 import { insertAudit } from './audit';
 import type { LogStorage } from './log-storage';
@@ -247,7 +247,8 @@ export const COMPARISON_CSV_COLUMNS = ['kind', 'name', 'finger', 'samples', 'rms
 /** The per-joint (rate residual, rad/s) and per-contact (slip speed, m/s) statistics of a comparison as CSV text. */
 export function comparisonStatisticsCsv(comparison: LogComparison): string {
   const rows: (string | number | null)[][] = [
-    ...comparison.joints.map((j) => ['joint', j.joint, j.finger, j.samples, j.rms, j.max, j.maxAt, j.withinFraction, 'rad/s', '']),
+    // Which solution the sheet's rates followed; a comparison stored before the choice followed steer-and-roll.
+    ...comparison.joints.map((j) => ['joint', j.joint, j.finger, j.samples, j.rms, j.max, j.maxAt, j.withinFraction, 'rad/s', `sheet rates: ${comparison.solution ?? DEFAULT_COMMANDED}`]),
     ...comparison.contacts.map((c) => ['contact', c.finger, c.finger, c.samples, c.rms, c.max, c.maxAt, c.withinFraction, 'm/s', c.computed ? '' : (c.reason ?? 'not computed')]),
   ];
   return `${Papa.unparse({ fields: [...COMPARISON_CSV_COLUMNS], data: rows.map((row) => row.map((cell) => (typeof cell === 'number' && !Number.isFinite(cell) ? '' : cell))) }, { newline: '\n', escapeFormulae: true })}\n`;

@@ -5,6 +5,7 @@
  */
 import type { FingerResult, SheetResult } from '../kinematics';
 import { accelerationEntries } from './derivation-acceleration';
+import { commandedEntries, twistEntries } from './derivation-commanded';
 import { curvatureEntries } from './derivation-curvature';
 import { deriveGraspQuality } from './derivation-grasp-quality';
 import type { SheetDocument } from './types';
@@ -262,7 +263,9 @@ function fingerEntries(doc: SheetDocument, result: SheetResult, i: number, f: Fi
 /** Derivation entries for every reported number of a solved sheet (units as listed per entry). */
 export function deriveSheet(doc: SheetDocument, result: SheetResult): DerivationEntry[] {
   const entries: DerivationEntry[] = [];
+  twistEntries(doc, entries);
   result.fingers.forEach((f, i) => fingerEntries(doc, result, i, f, entries));
+  commandedEntries(doc, result, entries);
   result.fingers.forEach((f, i) => accelerationEntries(doc, result, i, f, entries));
   entries.push(...curvatureEntries(doc, result));
   const g = result.grasp;

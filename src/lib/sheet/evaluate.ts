@@ -6,6 +6,7 @@
  */
 import { computeSheetGraspQuality, sheetCurvature, solveAccelerations, solveSheet, toPlainResult, type PlainSheetResult, type SheetResult } from '../kinematics';
 import { fail, succeed, type DomainError, type Result } from '../result';
+import { commandedRates } from './commanded';
 import { deriveSheet, type DerivationEntry } from './derivation';
 import { formatIssuePath, parseSheet, type SheetIssue } from './schema';
 import type { SheetSummary } from './summary';
@@ -118,6 +119,7 @@ export function evaluateSheet(input: unknown, options: EvaluateOptions = {}): Re
     solved.graspQuality = computeSheetGraspQuality(doc, solved);
     const result = toPlainResult(solved);
     curvatures.forEach((curvature, i) => { result.fingers[i].curvature = curvature; });
+    result.commanded = commandedRates(doc, result);
     const bad = firstNonFinite(result, result, []);
     if (bad) {
       const message = `the result is not a finite number: ${formatIssuePath(bad.path)} is ${bad.value}${describeOwner(doc, bad.path)}; an input is too large or too small for the solve to keep its digits`;

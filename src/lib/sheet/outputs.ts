@@ -14,6 +14,15 @@ export type OutputScope = 'finger' | 'joint' | 'grasp';
 /** The frame a vector output is expressed in: the palm (world) frame, as every vector the core reports; null for scalars. */
 export type OutputFrame = 'palm' | null;
 
+/** How labels name a frame. */
+export const FRAME_NAMES: Record<Exclude<OutputFrame, null>, string> = { palm: 'palm frame' };
+
+/** An output's label with its frame when it is a vector, e.g. "contact point (palm frame)"; `table` picks the results table's label. */
+export function labelWithFrame(definition: OutputDefinition, table = false): string {
+  const label = (table ? definition.tableLabel : undefined) ?? definition.label;
+  return definition.frame ? `${label} (${FRAME_NAMES[definition.frame]})` : label;
+}
+
 /** How a multi-valued output is split into named parts when listed value by value. */
 export type OutputParts = 'single' | 'xyz' | 'joints' | 'base-joints' | 'singular-values' | 'principal';
 
@@ -122,8 +131,33 @@ export const OUTPUTS: readonly OutputDefinition[] = [
     compared: true, csv: { columns: ['tangential_speed_m_s'] }, read: (r, i) => r.fingers[i].contact.tangentialSpeed,
   },
   {
+    id: 'commanded.solution', label: 'commanded solution', tableLabel: 'commanded rates follow', unit: '', display: unitless(), frame: null,
+    scope: 'finger', parts: 'single', compared: true, csv: { columns: ['commanded_solution'] },
+    read: (r, i) => r.commanded?.fingers[i]?.solution ?? 'not computed',
+  },
+  {
+    id: 'commanded.rates', label: 'commanded joint rate', tableLabel: 'commanded', unit: 'rad/s', display: shown('rad/s'), frame: null,
+    scope: 'joint', parts: 'joints', compared: true, csv: { perJoint: (k) => `commanded_rate${k + 1}_rad_s` },
+    read: (r, i) => r.commanded?.fingers[i]?.joints.map((joint) => joint.rate) ?? r.fingers[i].jointNames.map(() => Number.NaN),
+  },
+  {
+    id: 'commanded.pivot.targetAngle', label: 'steered pivot: target angle', tableLabel: 'pivot target angle', unit: 'rad', display: shown('deg', degrees),
+    frame: null, scope: 'finger', parts: 'single', compared: true, csv: { columns: ['pivot_target_angle_rad'] },
+    read: (r, i) => r.commanded?.fingers[i]?.pivot?.targetAngle ?? Number.NaN,
+  },
+  {
+    id: 'commanded.pivot.change', label: 'steered pivot: change from the current angle', tableLabel: 'pivot change', unit: 'rad',
+    display: shown('deg', degrees), frame: null, scope: 'finger', parts: 'single', compared: true, csv: { columns: ['pivot_change_rad'] },
+    read: (r, i) => r.commanded?.fingers[i]?.pivot?.change ?? Number.NaN,
+  },
+  {
+    id: 'commanded.pivot.rate', label: 'steered pivot: rate of that change over one time step', tableLabel: 'pivot rate over the time step', unit: 'rad/s',
+    display: shown('rad/s'), frame: null, scope: 'finger', parts: 'single', compared: true, csv: { columns: ['pivot_rate_rad_s'] },
+    read: (r, i) => r.commanded?.fingers[i]?.pivot?.rate ?? Number.NaN,
+  },
+  {
     id: 'full.rates', label: 'joint rate (full)', tableLabel: 'full', unit: 'rad/s', display: shown('rad/s'), frame: null, scope: 'joint', parts: 'joints',
-    compared: true, csv: { perJoint: (k) => `rate${k + 1}_rad_s` }, read: (r, i) => r.fingers[i].full.rates,
+    compared: true, csv: { perJoint: (k) => `full_rate${k + 1}_rad_s` }, read: (r, i) => r.fingers[i].full.rates,
   },
   {
     id: 'full.residual', label: 'slip residual (full)', tableLabel: 'full: slip residual', unit: 'm/s', display: shown('mm/s', milli), frame: null,
@@ -413,7 +447,8 @@ export interface OutputValueRow {
 function valueRows(definition: OutputDefinition, result: PlainSheetResult, finger: number, group: string): OutputValueRow[] {
   const value = definition.read(result, finger);
   const parts: [string, OutputValue][] = typeof value === 'object' ? value.map((v, k) => [partName(definition, result, finger, k), v]) : [['', value]];
-  return parts.map(([part, v]) => ({ group, quantity: part ? `${definition.label} · ${part}` : definition.label, unit: definition.unit, value: v }));
+  const label = labelWithFrame(definition);
+  return parts.map(([part, v]) => ({ group, quantity: part ? `${label} · ${part}` : label, unit: definition.unit, value: v }));
 }
 
 /** The compared outputs of one finger, part by part (e.g. "contact point · x"), in catalogue order. */

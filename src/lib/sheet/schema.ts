@@ -5,6 +5,7 @@
 import { DEFAULT_CONE_EDGES, DEFAULT_FRICTION } from '../kinematics';
 import { z } from '../validation/zod';
 import type {
+  CommandedSolution,
   FingerInput,
   GraspQualitySettings,
   JointInput,
@@ -30,6 +31,7 @@ import {
   type QuantityKind,
   type VariableScope,
 } from './units';
+import { twistAboutOrigin } from './twist-entry';
 
 export const SHEET_FORMAT = 'slipless.sheet';
 export const SHEET_VERSION = 1;
@@ -40,6 +42,15 @@ export const MAX_FINGERS = 8;
 export const MAX_JOINTS_PER_FINGER = 12;
 const MIN_AXIS_NORM = 1e-12;
 const MISSING = 'required field is missing';
+
+/** Which solution's joint rates are commanded; absent from a document means the first, what runs followed before the choice existed. */
+export const COMMANDED_SOLUTIONS = ['steer-and-roll', 'full'] as const satisfies readonly CommandedSolution[];
+export const DEFAULT_COMMANDED: CommandedSolution = 'steer-and-roll';
+
+/** The commanded solution of a parsed document, the default when it names none. */
+export function commandedSolutionOf(doc: Pick<SheetDocument, 'commanded'>): CommandedSolution {
+  return doc.commanded ?? DEFAULT_COMMANDED;
+}
 
 export const DEFAULT_SOLVER: SolverSettings = {
   damping: 1e-4,
@@ -299,14 +310,32 @@ const poseSchema = z
 
 named(poseSchema, 'Pose', 'Position and orientation (quaternion or axis-angle; identity when absent)');
 
+const entryFrameSchema = named(
+  z.enum(['palm', 'object'], { error: expect('expected a frame: "palm" or "object"') }),
+  'EntryFrame',
+  'Frame the twist and its point are written in: "palm" (the world frame) or "object" (the object frame, turning with the object)',
+);
+
+const twistPointSchema = named(
+  vec3(length, 'a point (lengths)'),
+  'TwistPoint',
+  'Point [x, y, z] whose velocity "linear" gives: in the palm frame, or in the object frame relative to the object origin (the object centre is [0, 0, 0])',
+);
+
 const twistSchema = z
   .strictObject({
     linear: vec3(speed, 'a velocity (speeds)'),
     angular: vec3(angularSpeed, 'an angular velocity (angular speeds)'),
+    frame: entryFrameSchema.optional(),
+    about: twistPointSchema.optional(),
   })
-  .transform((t): Twist => ({ linear: t.linear, angular: t.angular }));
+  .transform((t) => ({ linear: t.linear, angular: t.angular, frame: t.frame, about: t.about }));
 
-named(twistSchema, 'Twist', 'Velocity of the object origin (m/s) and angular velocity (rad/s), palm frame');
+named(
+  twistSchema,
+  'Twist',
+  'Velocity of a point of the object (m/s) and angular velocity (rad/s): by default of the object origin in the palm frame; "about" names another point and "frame": "object" writes all three in the object frame. The sheet converts to the origin velocity in the palm frame.',
+);
 
 const objectAccelerationSchema = z
   .strictObject({
@@ -356,7 +385,12 @@ named(objectShapeSchema, 'ObjectShape', 'Convex object shape in its own frame (c
 const objectSchema = z
   .strictObject({ shape: objectShapeSchema, pose: poseSchema, twist: twistSchema, acceleration: objectAccelerationSchema.optional() })
   .transform((o): SheetDocument['object'] => {
-    const object: SheetDocument['object'] = { shape: o.shape, pose: o.pose, twist: o.twist };
+    const { frame = 'palm', about, linear, angular } = o.twist;
+    // A twist about the object origin in the palm frame is the solve's own form and is kept as written.
+    const twist: Twist = frame === 'palm' && about === undefined
+      ? { linear, angular }
+      : twistAboutOrigin({ frame, about: about ?? [0, 0, 0], linear, angular }, o.pose);
+    const object: SheetDocument['object'] = { shape: o.shape, pose: o.pose, twist };
     if (o.acceleration) object.acceleration = o.acceleration;
     return object;
   });
@@ -581,6 +615,11 @@ export const sheetSchema = z
     sweep: sweepSchema.optional(),
     solver: solverSchema.prefault({}),
     graspQuality: graspQualitySchema.optional(),
+    commanded: named(
+      z.enum(COMMANDED_SOLUTIONS, { error: expect('expected the commanded solution: "steer-and-roll" or "full"') }).optional(),
+      'CommandedSolution',
+      'Which joint rates go to the controller, and which runs, sweeps, exports and log comparisons follow: "steer-and-roll" (fingers with a base, a pivot and a roll joint steer their pivot and roll; any other finger takes the full solution) or "full" (the damped least-squares rates for every finger); "steer-and-roll" when absent',
+    ),
   })
   .transform((d, ctx): SheetDocument => {
     const doc: SheetDocument = {
@@ -596,6 +635,7 @@ export const sheetSchema = z
     };
     if (d.variables !== undefined) doc.variables = d.variables;
     if (d.notes !== undefined) doc.notes = d.notes;
+    if (d.commanded !== undefined) doc.commanded = d.commanded;
     if (d.graspQuality !== undefined) {
       const perFinger = d.graspQuality.coneEdges + (d.solver.softFinger && d.graspQuality.torsionalFriction > 0 ? 2 : 0);
       const generators = perFinger * d.hand.fingers.length;

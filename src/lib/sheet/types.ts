@@ -31,7 +31,26 @@ export interface Twist {
   linear: Vec3Tuple;
   /** Angular velocity, rad/s, world frame. */
   angular: Vec3Tuple;
+  /** The twist as written, when it was given in the object frame or about another point than the object origin; linear and angular above are converted from it. */
+  entered?: TwistEntry;
 }
+
+/** The frame a twist or a point is written in: the palm (world) frame or the object's own frame. */
+export type EntryFrame = 'palm' | 'object';
+
+/** A twist as written: the velocity of point `about` (m/s) and the angular velocity (rad/s), all three in `frame`; `about` in the object frame is relative to the object origin. */
+export interface TwistEntry {
+  frame: EntryFrame;
+  about: Vec3Tuple;
+  linear: Vec3Tuple;
+  angular: Vec3Tuple;
+}
+
+/**
+ * The joint rates a sheet sends to the controller: 'steer-and-roll' for every finger with a base, a pivot and a roll
+ * joint (the full solution for any other finger), or 'full' (the damped least-squares rates) for every finger.
+ */
+export type CommandedSolution = 'steer-and-roll' | 'full';
 
 /** The object's acceleration for the feed-forward, palm frame; absent means zero. */
 export interface ObjectAcceleration {
@@ -130,6 +149,8 @@ export interface SheetDocument {
   sweep?: SweepSettings;
   solver: SolverSettings;
   graspQuality?: GraspQualitySettings;
+  /** Which solution's joint rates are commanded; absent = 'steer-and-roll', what runs followed before the choice existed. */
+  commanded?: CommandedSolution;
   /** Source text of the sheet's named quantities ("rollerRadius = 14 mm" per line); already applied to every field. */
   variables?: string;
   /** Notes in Markdown with $math$. */

@@ -6,7 +6,9 @@ import {
   ROTATION_METRICS, SEVERITY_LEVELS, WARNING_CATALOGUE, WARNING_CODES,
   type RunRecord, type RunStopReason, type SweepRecord, type WarningCode, type WarningSeverity,
 } from '../kinematics';
-import type { RunSettings, SheetDocument } from '../sheet/types';
+import { commandedRates, describeCommanded, followedSolution } from '../sheet/commanded';
+import { commandedSolutionOf } from '../sheet/schema';
+import type { CommandedSolution, RunSettings, SheetDocument } from '../sheet/types';
 
 export interface JointSeries {
   finger: string;
@@ -28,6 +30,9 @@ export interface RunSeries {
   settings: RunSettings;
   /** Wall time of the run inside the worker, ms. */
   elapsedMs: number;
+  /** The sheet's commanded solution and, in words, the rates the fingers followed. */
+  commanded: CommandedSolution;
+  followed: string;
   ticks: Float64Array;
   jointAngles: JointSeries[];
   jointRates: JointSeries[];
@@ -50,6 +55,9 @@ export interface SweepFingerSeries {
 export interface SweepSeries {
   path: string;
   elapsedMs: number;
+  /** The sheet's commanded solution and, in words, the rates the joint-rate lines plot. */
+  commanded: CommandedSolution;
+  followed: string;
   values: Float64Array;
   fingers: SweepFingerSeries[];
   worstSeverity: Uint8Array;
@@ -91,11 +99,19 @@ export function runSeries(doc: SheetDocument, record: RunRecord, elapsedMs: numb
     for (let i = 0; i < n; i++) if ((record.warningMask[i]! & (1 << bit)) !== 0) indices.push(i);
     if (indices.length > 0) warnings.push({ code, severity: WARNING_CATALOGUE[code].severity, title: WARNING_CATALOGUE[code].title, indices });
   });
+  const commanded = commandedSolutionOf(doc);
+  const followed = record.fingerNames.map((finger, f) => ({
+    finger,
+    // SOLUTION_KINDS order: 0 full, 1 steer-and-roll; a run of no ticks followed nothing, and reads as the choice.
+    solution: n === 0 ? commanded : record.solution[f] === 1 ? ('steer-and-roll' as const) : ('full' as const),
+  }));
   return {
     tickCount: n,
     stopReason: record.stopReason,
     settings: record.settings,
     elapsedMs,
+    commanded,
+    followed: describeCommanded(commanded, followed),
     ticks,
     jointAngles: jointColumns(doc, record.jointAngles, n),
     jointRates: jointColumns(doc, record.jointRates, n),
@@ -116,11 +132,12 @@ const SEVERITY_INDEX = new Map(SEVERITY_LEVELS.map((level, i) => [level, i]));
 /** Plot columns of a sweep: per finger its joint rates, condition number, residual and gap over the swept value, and where each warning appeared. */
 export function sweepSeries(doc: SheetDocument, record: SweepRecord, elapsedMs: number): SweepSeries {
   const steps = record.results.length;
+  const commanded = record.results.map((result) => commandedRates(doc, result));
   const fingers = doc.hand.fingers.map((finger, f): SweepFingerSeries => {
     const rates = finger.joints.map((joint, k) => ({
       finger: finger.name,
       joint: joint.name,
-      values: Float64Array.from(record.results, (result) => result.fingers[f]!.full.rates[k]!),
+      values: Float64Array.from(commanded, (rates) => rates.fingers[f]!.joints[k]!.rate),
     }));
     return {
       finger: finger.name,
@@ -146,7 +163,15 @@ export function sweepSeries(doc: SheetDocument, record: SweepRecord, elapsedMs: 
   }));
   const worstSeverity = new Uint8Array(steps);
   record.worstSeverity.forEach((level, i) => (worstSeverity[i] = SEVERITY_INDEX.get(level)!));
-  return { path: record.path, elapsedMs, values: record.values.slice(), fingers, worstSeverity, warnings };
+  const chosen = commandedSolutionOf(doc);
+  // Whether a finger can steer depends on its joint roles, which a sweep of a number never changes.
+  const followed = doc.hand.fingers.map((finger, f) => ({
+    finger: finger.name,
+    solution: followedSolution(chosen, record.results[0]?.fingers[f]!.steer.available ?? false),
+  }));
+  return {
+    path: record.path, elapsedMs, commanded: chosen, followed: describeCommanded(chosen, followed), values: record.values.slice(), fingers, worstSeverity, warnings,
+  };
 }
 
 /** Stretches of equal, non-zero severity: [start, end) index ranges with their SEVERITY_LEVELS index. */

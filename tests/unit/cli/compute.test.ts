@@ -100,13 +100,28 @@ describe('compute CLI', () => {
     const file = join('content', 'sheets', withSweep!);
     const [json, csv] = await Promise.all([compute(file, '--run', '--sweep'), compute(file, '--format=csv', '--run', '--sweep')]);
     expect(json.code).toBe(0);
-    const output = JSON.parse(json.stdout) as { run: { tickCount: number; time: number[] }; sweep: { values: number[]; results: unknown[] } };
+    const output = JSON.parse(json.stdout) as {
+      commanded: string;
+      result: { object: { orientation: object }; commanded: { solution: string; fingers: { joints: { name: string; rate: number }[] }[] }; conventions: { quaternion: string } };
+      run: { tickCount: number; time: number[]; orientation: object[] };
+      sweep: { values: number[]; results: { commanded: { solution: string } }[] };
+    };
     expect(output.run.time.length).toBe(output.run.tickCount);
     expect(output.sweep.results.length).toBe(output.sweep.values.length);
+    // The JSON names the commanded solution, gives every joint its commanded rate, and writes quaternions w first with named parts.
+    const source = JSON.parse(readFileSync(file, 'utf8')) as { commanded?: string; hand: { fingers: { joints: { name: string }[] }[] } };
+    expect(output.commanded).toBe(source.commanded ?? 'steer-and-roll');
+    expect(output.result.commanded.solution).toBe(output.commanded);
+    expect(output.result.commanded.fingers.map((f) => f.joints.map((j) => j.name))).toEqual(source.hand.fingers.map((f) => f.joints.map((j) => j.name)));
+    expect(output.result.commanded.fingers.every((f) => f.joints.every((j) => Number.isFinite(j.rate)))).toBe(true);
+    expect(Object.keys(output.result.object.orientation)).toEqual(['w', 'x', 'y', 'z']);
+    expect(Object.keys(output.run.orientation[0]!)).toEqual(['w', 'x', 'y', 'z']);
+    expect(output.result.conventions.quaternion).toBe('w, x, y, z (scalar first)');
+    expect(output.sweep.results.every((r) => r.commanded.solution === output.commanded)).toBe(true);
     expect(csv.code).toBe(0);
     const sections = csv.stdout.trimEnd().split('\n\n');
     expect(sections.length).toBe(3);
-    expect(sections[1]).toMatch(/^# run \(/);
+    expect(sections[1]).toMatch(/^# run \(.*commanded solution (steer-and-roll|full).*\)\ntick,time_s,x_m,y_m,z_m,qw,qx,qy,qz,/);
     expect(sections[2]).toMatch(/^# sweep \//);
     expect(sections[2]!.split('\n').length).toBe(2 + output.sweep.values.length * (csv.stdout.split('\n\n')[0]!.split('\n').length - 1));
   });

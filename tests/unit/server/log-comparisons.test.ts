@@ -221,7 +221,7 @@ describe('comparing a stored log with the sheet (route and service)', () => {
     const result = record.result!;
     expect(table.data).toHaveLength(result.joints.length + result.contacts.length);
     result.joints.forEach((joint, i) => {
-      expect(table.data[i]).toMatchObject({ kind: 'joint', name: joint.joint, unit: 'rad/s' });
+      expect(table.data[i]).toMatchObject({ kind: 'joint', name: joint.joint, unit: 'rad/s', note: `sheet rates: ${result.solution}` });
       expect(Number(table.data[i]!.rms)).toBe(joint.rms);
       expect(Number(table.data[i]!.within_fraction)).toBe(joint.withinFraction);
     });

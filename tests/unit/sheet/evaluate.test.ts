@@ -3,6 +3,7 @@ import { afterEach, describe, expect, it, vi } from 'vitest';
 import { computeSheetGraspQuality, sheetCurvature, solveAccelerations, solveSheet, toPlainResult } from '../../../src/lib/kinematics';
 import { checkDocument } from '../../../src/lib/server/sheets';
 import { exportResultsCsv, readSheetFile } from '../../../src/lib/server/sheet-files';
+import { commandedRates } from '../../../src/lib/sheet/commanded';
 import { deriveSheet } from '../../../src/lib/sheet/derivation';
 import { evaluateSheet } from '../../../src/lib/sheet/evaluate';
 import { parseSheet } from '../../../src/lib/sheet/schema';
@@ -46,6 +47,7 @@ describe('evaluateSheet', () => {
     expect(evaluated.value.doc).toEqual(parsed.doc);
     const plain = toPlainResult(solved);
     curvatures.forEach((curvature, i) => { plain.fingers[i].curvature = curvature; });
+    plain.commanded = commandedRates(parsed.doc, plain);
     expect(evaluated.value.result).toEqual(plain);
     expect(evaluated.value.summary).toEqual({
       fingers: parsed.doc.hand.fingers.length,

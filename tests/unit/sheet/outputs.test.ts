@@ -38,23 +38,27 @@ describe('the output catalogue', () => {
 describe('the surfaces that read the catalogue', () => {
   it('writes the CSV columns: the finger, its outputs in SI, its warnings, then one rate column per joint and one base-rate column per base joint', () => {
     expect(FINGER_COLUMNS).toEqual([
-      'finger', 'contact_state', 'gap_m', 'normal_speed_m_s', 'tangential_speed_m_s', 'residual_m_s', 'sigma1_m_rad', 'sigma2_m_rad',
+      'finger', 'contact_state', 'gap_m', 'normal_speed_m_s', 'tangential_speed_m_s', 'commanded_solution', 'pivot_target_angle_rad', 'pivot_change_rad',
+      'pivot_rate_rad_s', 'residual_m_s', 'sigma1_m_rad', 'sigma2_m_rad',
       'sigma3_m_rad', 'condition_number', 'manipulability', 'steer_pivot_angle_rad', 'steer_roll_rate_rad_s',
       'steer_residual_m_s', 'steer_feedforward', 'steer_pivot_rate_rad_s', 'steer_roll_acceleration_rad_s2', 'object_kappa1_1_m', 'object_kappa2_1_m', 'roller_kappa1_1_m', 'roller_kappa2_1_m', 'relative_kappa1_1_m',
       'relative_kappa2_1_m', 'wander_status', 'wander_roller_m_s', 'wander_object_m_s', 'warnings',
     ]);
     expect(rateColumns(3)).toEqual([
-      'rate1_rad_s', 'rate2_rad_s', 'rate3_rad_s', 'steer_base_rate1_rad_s', 'steer_base_rate2_rad_s', 'steer_base_rate3_rad_s',
+      'commanded_rate1_rad_s', 'commanded_rate2_rad_s', 'commanded_rate3_rad_s', 'full_rate1_rad_s', 'full_rate2_rad_s', 'full_rate3_rad_s', 'steer_base_rate1_rad_s', 'steer_base_rate2_rad_s', 'steer_base_rate3_rad_s',
       'steer_base_acceleration1_rad_s2', 'steer_base_acceleration2_rad_s2', 'steer_base_acceleration3_rad_s2',
     ]);
     const codes = result.warnings.filter((w) => w.finger === 0).map((w) => w.code).join(' ');
+    const commanded = result.commanded!.fingers[0]!;
     expect(fingerRows(result, 4, ['x'])[0]).toEqual([
-      'x', first.name, first.contact.state, first.contact.gap, first.contact.normalSpeed, first.contact.tangentialSpeed, first.full.residualNorm,
+      'x', first.name, first.contact.state, first.contact.gap, first.contact.normalSpeed, first.contact.tangentialSpeed,
+      commanded.solution, commanded.pivot!.targetAngle, commanded.pivot!.change, commanded.pivot!.rate, first.full.residualNorm,
       ...first.full.singularValues, first.full.conditionNumber, first.full.manipulability, first.steer.pivotAngle,
       first.steer.rollRate, first.steer.residualNorm, first.acceleration!.steer.status, first.acceleration!.steer.pivotRate,
       first.acceleration!.steer.rollAcceleration, ...first.curvature!.object.principalCurvatures!, ...first.curvature!.roller.principalCurvatures!,
       ...first.curvature!.relative.principalCurvatures!, first.curvature!.wander.status, first.curvature!.wander.rollerSpeed,
-      first.curvature!.wander.objectSpeed, codes, ...Array.from({ length: 4 }, (_, k) => first.full.rates[k] ?? ''),
+      first.curvature!.wander.objectSpeed, codes, ...Array.from({ length: 4 }, (_, k) => commanded.joints[k]?.rate ?? ''),
+      ...Array.from({ length: 4 }, (_, k) => first.full.rates[k] ?? ''),
       ...Array.from({ length: 4 }, (_, k) => first.steer.baseRates[k] ?? ''),
       ...Array.from({ length: 4 }, (_, k) => first.acceleration!.steer.baseAccelerations[k] ?? ''),
     ]);
@@ -65,11 +69,13 @@ describe('the surfaces that read the catalogue', () => {
     const rows = listOutputs(result).filter((row) => row.group === first.name);
     const xyz = (name: string) => ['x', 'y', 'z'].map((c) => `${name} · ${c}`);
     expect(rows.map((row) => row.quantity)).toEqual([
-      'contact state', 'gap', ...xyz('contact point'), ...xyz('contact normal'), 'normal speed', 'tangential speed',
+      'contact state', 'gap', ...xyz('contact point (palm frame)'), ...xyz('contact normal (palm frame)'), 'normal speed', 'tangential speed',
+      'commanded solution', ...first.jointNames.map((joint) => `commanded joint rate · ${joint}`), 'steered pivot: target angle',
+      'steered pivot: change from the current angle', 'steered pivot: rate of that change over one time step',
       ...first.jointNames.map((joint) => `joint rate (full) · ${joint}`), 'slip residual (full)', 'singular value · σ1', 'singular value · σ2',
       'singular value · σ3', 'condition number', 'manipulability',
       ...first.steer.baseJoints.map((k) => `base rate (steer-and-roll, minimum norm) · ${first.jointNames[k]}`), 'pivot angle (steer-and-roll)',
-      'roll rate (steer-and-roll)', 'slip residual (steer-and-roll)', ...xyz('object acceleration at the contact'), 'feed-forward contact model',
+      'roll rate (steer-and-roll)', 'slip residual (steer-and-roll)', ...xyz('object acceleration at the contact (palm frame)'), 'feed-forward contact model',
       'acceleration residual (full)',
       ...first.jointNames.map((joint) => `joint acceleration (full) · ${joint}`),
       'steer-and-roll feed-forward', 'pivot rate (steer-and-roll)', 'roll acceleration (steer-and-roll)',
@@ -99,16 +105,20 @@ describe('the surfaces that read the catalogue', () => {
   it('labels the editor results table as before, with display units', () => {
     const html = renderToStaticMarkup(createElement(ResultsSection, { result, stale: false }));
     const labels = [...html.matchAll(/<th scope="row"[^>]*>([^<]*)<\/th>/g)].map((m) => m[1]);
-    const perContact = (defined: boolean) => [
-      'contact point x', 'normal n', 'gap', 'normal velocity', 'tangential velocity', 'tangential speed', 'steer: base rate', 'steer: pivot angle',
+    const perContact = (defined: boolean, steered: boolean) => [
+      'contact point x (palm frame)', 'normal n (palm frame)', 'gap', 'normal velocity', 'tangential velocity (palm frame)', 'tangential speed',
+      'commanded rates follow', ...(steered ? ['pivot target angle', 'pivot change', 'pivot rate over the time step'] : []), 'steer: base rate', 'steer: pivot angle',
       'steer: roll rate', 'steer − full, |Δ rates|', 'condition before / after steering', 'full: slip residual',
-      'contact model', 'object acceleration a(x)', 'of which centripetal', 'J̇ q̇', 'rolling term', 'acceleration residual', 'steer: feed-forward',
+      'contact model', 'object acceleration a(x) (palm frame)', 'of which centripetal (palm frame)', 'J̇ q̇ (palm frame)', 'rolling term (palm frame)',
+      'acceleration residual', 'steer: feed-forward',
       ...(defined ? ['steer: pivot rate', 'steer: base acceleration', 'steer: roll acceleration'] : []), 'object', 'roller', 'relative',
     ];
-    expect(labels).toEqual([...result.fingers.flatMap((f) => perContact(f.acceleration!.steer.status === 'defined')), 'contacts', 'rank of the contact map', 'undrivable directions',
+    expect(labels).toEqual([...result.fingers.flatMap((f, i) => perContact(f.acceleration!.steer.status === 'defined', result.commanded!.fingers[i]!.pivot !== undefined)), 'contacts', 'rank of the contact map', 'undrivable directions',
       'force closure', 'quality Q_L1', 'quality Q_Linf', 'weakest direction',
     ]);
-    expect(html).toContain('<th class="py-1 text-right font-normal">angle, deg</th><th class="py-1 text-right font-normal">full</th>');
+    expect(html).toContain('<th class="py-1 text-right font-normal">angle, deg</th><th class="py-1 text-right font-normal">commanded</th><th class="py-1 text-right font-normal">full</th>');
+    expect(html).toContain(`data-result="0.commanded.rates.1">${displayValue(findOutput('commanded.rates'), result.commanded!.fingers[0]!.joints[1]!.rate)}</td>`);
+    expect(html).toContain('data-testid="commanded-solution" data-solution="steer-and-roll"');
     expect(html).toContain(`data-result="0.contact.gap">${displayValue(findOutput('contact.gap'), first.contact.gap)}</td><td class="py-0.5 text-xs text-graphite">mm</td>`);
     expect(html).toContain(`data-result="0.full.rates.0">${displayValue(findOutput('full.rates'), first.full.rates[0])}</td>`);
     expect(html).toContain('data-result="grasp.rank">');

@@ -36,6 +36,7 @@ describe('runSeries', () => {
     expect(series.tickCount).toBe(record.tickCount);
     expect(series.elapsedMs).toBe(12.5);
     expect(Array.from(series.ticks.slice(0, 3))).toEqual([0, 1, 2]);
+    expect([series.commanded, series.followed]).toEqual(['steer-and-roll', 'steer-and-roll']);
     expect(series.jointAngles).toHaveLength(9);
     expect(series.jointAngles[4]!.joint).toBe(doc.hand.fingers[1]!.joints[1]!.name);
     for (let t = 0; t < record.tickCount; t++) {
@@ -70,7 +71,12 @@ describe('sweepSeries', () => {
     const record = sweepSheet(doc, { path: '/solver/singularRatio', from: 1e-9, to: 0.999999, steps: 3 });
     const series = sweepSeries(doc, record, 3);
     expect(series.fingers).toHaveLength(3);
-    expect(series.fingers[1]!.rates[2]!.values[2]).toBe(record.results[2]!.fingers[1]!.full.rates[2]);
+    // The rate lines plot the commanded solution (steer-and-roll by default) and say so.
+    expect(series.fingers[1]!.rates[2]!.values[2]).toBe(record.results[2]!.fingers[1]!.steer.rates[2]);
+    expect(series.followed).toBe('steer-and-roll');
+    const full = sweepSeries({ ...doc, commanded: 'full' }, record, 3);
+    expect(full.fingers[1]!.rates[2]!.values[2]).toBe(record.results[2]!.fingers[1]!.full.rates[2]);
+    expect(full.followed).toBe('full solution');
     expect(series.fingers[0]!.gap[1]).toBe(record.results[1]!.fingers[0]!.contact.gap);
     expect(series.fingers[2]!.conditionNumber[0]).toBe(record.results[0]!.fingers[2]!.full.conditionNumber);
     const rankLoss = series.warnings.find((w) => w.code === 'JACOBIAN_NEAR_RANK_LOSS')!;

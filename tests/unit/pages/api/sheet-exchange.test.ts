@@ -129,7 +129,9 @@ describe('GET /api/sheets/{id}/export', () => {
     const header = lines[0].split(',');
     expect(header.slice(0, 3)).toEqual(['finger', 'contact_state', 'gap_m']);
     expect(header).toContain('steer_roll_rate_rad_s');
-    expect(header.filter((h) => /^rate\d+_rad_s$/.test(h)).length).toBe(3);
+    expect(header.filter((h) => /^full_rate\d+_rad_s$/.test(h)).length).toBe(3);
+    expect(header.filter((h) => /^commanded_rate\d+_rad_s$/.test(h)).length).toBe(3);
+    expect(header).toContain('commanded_solution');
     expect(lines.slice(1).map((l) => l.split(',')[0])).toEqual(['left', 'right']);
     expect(lines.every((l) => l.split(',').length === header.length)).toBe(true);
   });
