@@ -95,8 +95,10 @@ class Reader {
   private readonly meta = XMLParser.getMetaDataSymbol() as symbol;
   constructor(private readonly text: string) {}
 
-  locate(element: Element | undefined, path: string): UrdfLocation {
-    const start = (element?.[this.meta] as { startIndex?: number } | undefined)?.startIndex;
+  /** The element's place in the text; an element without attributes carries none, so the enclosing one (near) stands in. */
+  locate(element: Element | undefined, path: string, near?: Element): UrdfLocation {
+    const own = (element?.[this.meta] as { startIndex?: number } | undefined)?.startIndex;
+    const start = own ?? (near?.[this.meta] as { startIndex?: number } | undefined)?.startIndex;
     return start === undefined ? { path } : { path, ...lineAndColumn(this.text, start) };
   }
 
@@ -105,10 +107,10 @@ class Reader {
   }
 
   /** A required attribute's text, or an issue. */
-  attribute(element: Element, name: string, path: string): string | undefined {
+  attribute(element: Element, name: string, path: string, near?: Element): string | undefined {
     const value = element[name];
     if (typeof value === 'string' && value.trim() !== '') return value.trim();
-    this.fail(this.locate(element, path), `attribute "${name}" is missing`);
+    this.fail(this.locate(element, path, near), `attribute "${name}" is missing`);
     return undefined;
   }
 
@@ -210,8 +212,8 @@ function readJoint(reader: Reader, joint: Element, index: number): UrdfJoint | u
   const childElement = child(joint, 'child');
   if (!parentElement) reader.fail(at, 'element <parent link="..."/> is missing');
   if (!childElement) reader.fail(at, 'element <child link="..."/> is missing');
-  const parent = parentElement ? reader.attribute(parentElement, 'link', `${path}/parent`) : undefined;
-  const childLink = childElement ? reader.attribute(childElement, 'link', `${path}/child`) : undefined;
+  const parent = parentElement ? reader.attribute(parentElement, 'link', `${path}/parent`, joint) : undefined;
+  const childLink = childElement ? reader.attribute(childElement, 'link', `${path}/child`, joint) : undefined;
   const origin = reader.origin(joint, path);
   const axisElement = child(joint, 'axis');
   const axisValues = axisElement ? reader.numbers(axisElement, 'xyz', 3, `${path}/axis`, [1, 0, 0]) : [1, 0, 0];
@@ -317,14 +319,14 @@ export function parseUrdf(text: string): ParseUrdfResult {
 }
 
 /**
- * The link a hand's fingers most likely branch from: walking down from the first root, the first link with
- * more than one child joint (a mounting chain of fixed joints above the palm is passed over); the root when none branches.
+ * The link a hand's fingers most likely hang from: walking down from the first root through single fixed joints
+ * (a mount above the palm), the first link with several child joints or a moving one.
  */
 export function suggestedPalm(robot: Readonly<UrdfRobot>): string {
   let link = robot.roots[0] ?? robot.links[0]?.name ?? '';
   for (;;) {
     const below = robot.joints.filter((joint) => joint.parent === link);
-    if (below.length !== 1) return link;
+    if (below.length !== 1 || below[0].type !== 'fixed') return link;
     link = below[0].child;
   }
 }
