@@ -7,7 +7,7 @@
  * what a sheet's joints hold. Revolute and continuous joints map to sheet joints, fixed joints only
  * move the frames; any other joint type in a chosen chain is refused with its location.
  */
-import { XMLParser, XMLValidator } from 'fast-xml-parser';
+import { XMLParser } from 'fast-xml-parser';
 import { quat, vec3 } from '../kinematics';
 import { MAX_FINGERS, MAX_JOINTS_PER_FINGER, MAX_LENGTH } from './schema';
 import type { FingerInput, JointInput, JointRole, RollerInput, Vec3Tuple } from './types';
@@ -281,8 +281,6 @@ function checkTree(reader: Reader, links: UrdfLink[], joints: UrdfJoint[]): stri
 /** Reads a URDF document into links and joints, or lists every problem with its line, column and element path. */
 export function parseUrdf(text: string): ParseUrdfResult {
   if (text.length > MAX_URDF_TEXT) return { ok: false, issues: [{ path: '(file)', message: `the file has ${text.length} characters; at most ${MAX_URDF_TEXT} are read` }] };
-  const valid = XMLValidator.validate(text);
-  if (valid !== true) return { ok: false, issues: [{ path: '(file)', line: valid.err.line, column: valid.err.col, message: `not well-formed XML: ${valid.err.msg}` }] };
   const reader = new Reader(text);
   let document: Element;
   try {
@@ -292,9 +290,20 @@ export function parseUrdf(text: string): ParseUrdfResult {
       parseAttributeValue: false,
       captureMetaData: true,
       isArray: (name, _path, _leaf, isAttribute) => !isAttribute && ELEMENT_LISTS.has(name),
-    }).parse(text) as Element;
+      // Validating first: the parser alone reads some broken files without complaint.
+    }).parse(text, true) as Element;
   } catch (error) {
-    return { ok: false, issues: [{ path: '(file)', message: `not readable as XML: ${error instanceof Error ? error.message : String(error)}` }] };
+    const message = error instanceof Error ? error.message : String(error);
+    // The validator's message ends in ":line:column".
+    const located = /^([\s\S]*):(\d+):(\d+)$/.exec(message);
+    return {
+      ok: false,
+      issues: [
+        located
+          ? { path: '(file)', line: Number(located[2]), column: Number(located[3]), message: `not well-formed XML: ${located[1]}` }
+          : { path: '(file)', message: `not readable as XML: ${message}` },
+      ],
+    };
   }
   const robot = child(document, 'robot');
   if (!robot) return { ok: false, issues: [{ path: '(file)', message: 'the root element must be <robot>' }] };
