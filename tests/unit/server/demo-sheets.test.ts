@@ -2,6 +2,7 @@ import { and, eq, inArray, isNull } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
 import { comments, memberships, reviews, sheetRevisions, sheets, teams, uploads, users } from '../../../src/db/schema';
 import { getDatabase } from '../../../src/lib/server/database';
+import { DEMO_USERS } from '../../../src/lib/server/demo';
 import { listComments, listReviews } from '../../../src/lib/server/reviews';
 import { findSheet, listForks, listRevisions, listSheets } from '../../../src/lib/server/sheets';
 import { evaluateSheet } from '../../../src/lib/sheet/evaluate';
@@ -83,7 +84,7 @@ describe('demo data as a first look shows it', () => {
     const seeded = await seededSheets();
     expect(seeded.length).toBeGreaterThanOrEqual(8);
     const firstSheet = Math.min(...seeded.map((sheet) => sheet.createdAt.getTime()));
-    const demoPeople = people.filter((person) => person.email.endsWith('.example'));
+    const demoPeople = people.filter((person) => DEMO_USERS.some((demo) => demo.email === person.email));
     for (const moment of [team.createdAt, ...demoPeople.map((p) => p.createdAt)]) expect(moment.getTime()).toBeLessThan(firstSheet);
     for (const sheet of seeded) {
       const revisions = await database.db.select().from(sheetRevisions).where(eq(sheetRevisions.sheetId, sheet.id)).orderBy(sheetRevisions.number);
