@@ -1,14 +1,21 @@
-import { readFileSync } from 'node:fs';
+import { mkdirSync, readFileSync } from 'node:fs';
+import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
 import { createSheetFromTemplate } from '../../src/lib/sheet/templates';
-import { baseUrl, deleteCreatedSheets, launchBrowser, saveScreenshot, signIn } from './browser';
+import { baseUrl, deleteCreatedSheets, launchBrowser, saveScreenshot, SCREENSHOT_DIR, signIn } from './browser';
 
 const URDF = 'content/urdf/tri-roller-hand.urdf';
 
 let browser: Browser;
 let page: Page;
 let sheetId = '';
+
+/** The dialog alone (a full-page picture shows the page behind the modal instead). */
+async function saveDialog(name: string): Promise<void> {
+  mkdirSync(SCREENSHOT_DIR, { recursive: true });
+  await page.getByTestId('urdf-dialog').screenshot({ path: join(SCREENSHOT_DIR, `${name}.png`) });
+}
 
 beforeAll(async () => {
   browser = await launchBrowser();
@@ -65,7 +72,7 @@ describe('importing the hand from a URDF file', () => {
     await expect.poll(() => preview.getAttribute('data-state'), { timeout: 20_000 }).toBe('solved');
     expect(await dialog.getByTestId('urdf-preview-summary').innerText()).toMatch(/3 fingers/);
     await preview.getByTestId('scene-view').waitFor();
-    await saveScreenshot(page, 'urdf-import-preview');
+    await saveDialog('urdf-import-preview');
 
     await dialog.getByTestId('urdf-accept').click();
     await dialog.waitFor({ state: 'hidden' });
@@ -97,6 +104,6 @@ describe('importing the hand from a URDF file', () => {
     const misspelt = readFileSync(URDF, 'utf8').replace('<child link="north-proximal"/>', '<child link="north-proximl"/>');
     await dialog.getByTestId('urdf-file').setInputFiles({ name: 'misspelt.urdf', mimeType: 'application/xml', buffer: Buffer.from(misspelt) });
     await expect.poll(() => errors.innerText()).toMatch(/line 36, column 3 · robot\/joint "north-base"\/child: child link "north-proximl" is not a link of this robot/);
-    await saveScreenshot(page, 'urdf-import-error');
+    await saveDialog('urdf-import-error');
   });
 });
