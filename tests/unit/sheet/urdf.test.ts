@@ -270,3 +270,22 @@ describe('bad files get located errors', () => {
     expect(handFromUrdf(robot, 'palm', [{ tip: 'b-tip', name: 'b', roles: ['roll'] }])).toMatchObject({ ok: false, issue: { message: '1 roles given for 2 revolute joints' } });
   });
 });
+
+describe('content/docs/urdf-import.md', () => {
+  it('shows the north finger of the example as the import reads it', () => {
+    const text = readFileSync(new URL('../../../content/docs/urdf-import.md', import.meta.url), 'utf8');
+    const robot = robotOf(EXAMPLE);
+    const built = handFromUrdf(robot, 'palm', [{ tip: 'north-roller', name: 'north', roles: suggestedRoles(3) }]);
+    if (!built.ok) throw new Error(built.issue.message);
+    for (const joint of built.hand.fingers[0].joints) {
+      const row = text.split('\n').find((line) => line.startsWith(`| ${joint.name} `));
+      expect(row, joint.name).toBeDefined();
+      const cells = row!.split('|').map((cell) => cell.trim());
+      expect(cells[2]).toBe(joint.role);
+      expect(cells[3].split(',').map(Number)).toBeNear(joint.axis, { abs: 1e-12 });
+      expect(cells[4].split(',').map((v) => Number(v) / 1000)).toBeNear(joint.point, { abs: 1e-12 });
+      expect(cells[5]).toBe(joint.limits ? `${joint.limits.min} … ${joint.limits.max}` : 'none');
+      expect(Number(cells[6])).toBe(joint.rateLimit);
+    }
+  });
+});
