@@ -45,7 +45,10 @@ describe('sheet list, history and comparison', () => {
     const titles = await waitForRows((t) => t.length >= 8);
     for (const title of DEMO_TITLES) expect(titles).toContain(title);
     const fork = page.locator('tr[data-sheet-title="Peg: tilt with 16 mm rollers"]');
-    expect(await fork.getByTestId('forked-from').innerText()).toMatch(/forked from Peg: tilt about the grip line r3/);
+    // A derived sheet carries a drawing-office revision delta holding the origin's revision, and a title-block line naming it.
+    expect(await fork.getByTestId('forked-from').innerText()).toMatch(/derived from sheet Peg: tilt about the grip line, rev\. 3/);
+    expect(await fork.locator('[data-revision-delta]').textContent()).toBe('3');
+    expect(await page.getByText(/forked from/i).count()).toBe(0);
     expect(await page.locator('tr[data-sheet-title="Peg: tilt about the grip line"] td').nth(3).innerText()).toBe('r3');
     // The demo checker signed the peg sheet's revision 3 as checked and returned the retrofit sheet's revision 2.
     expect(await page.locator('tr[data-sheet-title="Peg: tilt about the grip line"] [data-review-badge]').innerText()).toBe('checked r3');
@@ -93,9 +96,21 @@ describe('sheet list, history and comparison', () => {
     await saveScreenshot(page, 'sheet-history');
   });
 
-  it('compares r1 with r3 and highlights the changed inputs and outputs', async () => {
-    await page.locator('tr[data-revision="1"] input[name="from"]').check();
-    await page.locator('tr[data-revision="3"] input[name="to"]').check();
+  it('picks r1 with a click and r3 from the keyboard, then compares them and highlights the changed inputs and outputs', async () => {
+    // The two latest revisions are picked when the page opens.
+    expect(await page.getByTestId('compare-pair').innerText()).toMatch(/Compare from rev\. 2 to rev\. 3/);
+    expect(await page.locator('input[type="radio"]').count()).toBe(0);
+    await page.locator('tr[data-revision="1"] [data-pick]').click();
+    expect(await page.getByTestId('compare-pair').innerText()).toMatch(/Compare from rev\. 1 to rev\. 3\s+the next click sets the “to” end/);
+    await page.locator('tr[data-revision="2"] [data-pick]').click({ modifiers: ['Shift'] });
+    expect(await page.getByTestId('compare-pair').innerText()).toMatch(/Compare from rev\. 1 to rev\. 2/);
+    await page.locator('tr[data-revision="3"] [data-pick]').focus();
+    await page.keyboard.press('Enter');
+    expect(await page.getByTestId('compare-pair').innerText()).toMatch(/Compare from rev\. 1 to rev\. 3/);
+    expect(await page.locator('tr[data-revision="1"]').getAttribute('data-end')).toBe('from');
+    expect(await page.locator('tr[data-revision="3"] [data-pick]').getAttribute('aria-pressed')).toBe('true');
+    expect(await page.locator('tr[data-revision="2"] [data-pick]').getAttribute('aria-pressed')).toBe('false');
+    await saveScreenshot(page, 'sheet-history-picked');
     await page.getByTestId('compare-submit').click();
     await page.waitForURL(/\/compare\?/);
     const chosen = new URL(page.url()).searchParams;

@@ -5,6 +5,7 @@ import type { SheetDocument } from '../../lib/sheet/types';
 import { useSheetEditing } from './editor-context';
 import { Choice, DirectionVector, PlainNumber, Quantity, QuantityVector, TextField } from './fields';
 import { GraspQualityFields } from './GraspQualityFields';
+import UrdfImportDialog from './UrdfImportDialog';
 import { button, selectInput } from './sheet-styles';
 
 const ROLES = ['base', 'pivot', 'roll', 'other'] as const;
@@ -111,6 +112,7 @@ export default function HandSection({ parsed }: { parsed: SheetDocument | null }
             >
               Replace hand
             </button>
+            <UrdfImportDialog />
           </div>
         )}
       </div>

@@ -7,7 +7,7 @@ import { importBody } from '../../lib/validation/sheet-exchange';
 import { FormError, inputClass, labelClass, primaryButton, secondaryButton } from '../form-parts';
 
 /** The lines around a located issue, with a caret under the column, as an editor would show them. */
-function Excerpt({ text, line, column }: { text: string; line: number; column?: number }) {
+export function Excerpt({ text, line, column }: { text: string; line: number; column?: number }) {
   const lines = text.split('\n');
   const first = Math.max(1, line - 1);
   const last = Math.min(lines.length, line + 1);

@@ -59,6 +59,21 @@ function filtersToSearch(filters: Filters): string {
 
 const column = createColumnHelper<Wire<SheetRow>>();
 
+/**
+ * The revision delta of a drawing's revision block: a triangle holding the revision number, here the revision
+ * of the origin a derived sheet was copied from.
+ */
+function RevisionDelta({ revision }: { revision: number | null }) {
+  return (
+    <svg aria-hidden="true" viewBox="0 0 16 14" className="h-3.5 w-4 shrink-0 self-center" data-revision-delta>
+      <path d="M8 1 L15 13 L1 13 Z" className="fill-none stroke-current" strokeWidth="1.2" strokeLinejoin="round" />
+      <text x="8" y="11.6" textAnchor="middle" className="fill-current num" fontSize={revision !== null && revision > 9 ? 5 : 7}>
+        {revision ?? ''}
+      </text>
+    </svg>
+  );
+}
+
 function useColumns() {
   return useMemo(
     () => [
@@ -73,22 +88,19 @@ function useColumns() {
                 {sheet.title}
               </a>
               {sheet.forkedFromSheetId && (
-                <div className="mt-0.5 text-xs text-graphite" data-testid="forked-from">
-                  <svg aria-hidden="true" viewBox="0 0 12 12" className="inline-block w-3 h-3 mr-1 -mt-0.5 stroke-current fill-none" strokeWidth="1.4">
-                    <circle cx="3" cy="2.5" r="1.5" />
-                    <circle cx="9" cy="2.5" r="1.5" />
-                    <circle cx="6" cy="10" r="1.5" />
-                    <path d="M3 4v1.5c0 1.5 3 1.5 3 3M9 4v1.5c0 1.5-3 1.5-3 3" />
-                  </svg>
-                  forked from{' '}
-                  {sheet.forkedFromTitle ? (
-                    <a href={`/sheets/${sheet.forkedFromSheetId}/history`} className="underline decoration-rule hover:text-verdigris-deep">
-                      {sheet.forkedFromTitle}
-                    </a>
-                  ) : (
-                    'a sheet of another team'
-                  )}{' '}
-                  <span className="num">r{sheet.forkedFromRevision}</span>
+                <div className="mt-0.5 flex items-baseline gap-1 text-xs text-graphite" data-testid="forked-from">
+                  <RevisionDelta revision={sheet.forkedFromRevision} />
+                  <span>
+                    derived from sheet{' '}
+                    {sheet.forkedFromTitle ? (
+                      <a href={`/sheets/${sheet.forkedFromSheetId}/history`} className="underline decoration-rule hover:text-verdigris-deep">
+                        {sheet.forkedFromTitle}
+                      </a>
+                    ) : (
+                      'of another team'
+                    )}
+                    , rev. <span className="num">{sheet.forkedFromRevision}</span>
+                  </span>
                 </div>
               )}
             </div>

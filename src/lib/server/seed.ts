@@ -53,7 +53,22 @@ const DEMO_HISTORY: Record<string, { earlier: DemoEdit[]; latest: string }> = {
     ],
     latest: 'Base joints rated 2.5 rad/s after the motor change',
   },
+  'line4-capsule-pin-flip.json': {
+    earlier: [
+      {
+        message: 'First pass with the 30 rpm roll motors of the other stations',
+        set: { '/variables': 'flipRate = 2 rad/s\nbaseLimit = 2.5 rad/s\npivotLimit = 6 rad/s\nrollLimit = 30 rpm' },
+      },
+    ],
+    latest: 'Roll motors on this station are the older 15 rpm type: fan-2 and fan-3 are over their limit',
+  },
 };
+
+/**
+ * The sheet the demo list opens on (latest change first): written after every other demo sheet and fork, so
+ * a first look meets non-zero rates, a warning worth reading, variables and notes.
+ */
+export const DEMO_OPENING_SHEET = 'line4-capsule-pin-flip.json';
 
 /** Forks of demo sheets: a copy of the origin's revision, then the edits as later revisions. */
 const DEMO_FORKS: { from: string; revision: number; title: string; edits: DemoEdit[] }[] = [
@@ -215,19 +230,21 @@ export async function seedDemoData(database: Database, sheetsFolder = DEMO_SHEET
   const demoLogs = logStorage ? await storeDemoLogs(logStorage, teamId, new Map(demoSheets.map(({ file, document }) => [file, document]))) : [];
   try {
     await database.transaction(async (tx) => {
-      const [team] = await tx.insert(teams).values({ id: teamId, ...DEMO_TEAM }).returning();
+      // Demo history is spread over the past weeks so that lists sort and histories read naturally; the team
+      // and its people exist from its first moment, before any of their sheets.
+      let clock = Date.now() - 30 * DAY;
+      const tick = () => new Date((clock += DAY / 3));
+      const founded = new Date(clock);
+      const [team] = await tx.insert(teams).values({ id: teamId, ...DEMO_TEAM, createdAt: founded }).returning();
       const created = await createUsers(
         tx,
-        DEMO_USERS.map((u) => ({ name: u.name, email: u.email, passwordHash, emailVerified: new Date() })),
+        DEMO_USERS.map((u) => ({ name: u.name, email: u.email, passwordHash, emailVerified: founded, createdAt: founded })),
       );
       await tx.insert(memberships).values(
-        created.map((user, i) => ({ teamId: team.id, userId: user.id, role: DEMO_USERS[i].role })),
+        created.map((user, i) => ({ teamId: team.id, userId: user.id, role: DEMO_USERS[i].role, createdAt: founded })),
       );
       const author = created[DEMO_USERS.findIndex((u) => u.role === 'editor')];
       const owner = created[DEMO_USERS.findIndex((u) => u.role === 'owner')];
-      // Demo history is spread over the past weeks so that lists sort and histories read naturally.
-      let clock = Date.now() - 30 * DAY;
-      const tick = () => new Date((clock += DAY / 3));
       const stored = new Map<string, { sheetId: string; revisions: unknown[] }>();
 
       const insertSheet = async (
@@ -266,7 +283,7 @@ export async function seedDemoData(database: Database, sheetsFolder = DEMO_SHEET
         stored.set(name, { sheetId: sheet.id, revisions: revisions.map((r) => r.document) });
       };
 
-      for (const { file, document } of demoSheets) {
+      const insertShipped = async ({ file, document }: { file: string; document: DemoSheetFile }) => {
         const history = DEMO_HISTORY[file];
         const revisions = history
           ? [...history.earlier.map((edit) => ({ document: applyEdit(document, edit.set), message: edit.message })), { document, message: history.latest }]
@@ -278,7 +295,8 @@ export async function seedDemoData(database: Database, sheetsFolder = DEMO_SHEET
           revisions[1].message = origin.message;
         }
         await insertSheet(file, document.title ?? file.replace(/\.json$/, ''), document.tags ?? [], revisions, source && origin ? { sheetId: source.sheetId, revision: origin.revision } : undefined);
-      }
+      };
+      for (const shipped of demoSheets) if (shipped.file !== DEMO_OPENING_SHEET) await insertShipped(shipped);
       for (const fork of DEMO_FORKS) {
         const source = stored.get(fork.from);
         if (!source) continue;
@@ -288,6 +306,8 @@ export async function seedDemoData(database: Database, sheetsFolder = DEMO_SHEET
         const tags = (copied as DemoSheetFile).tags ?? [];
         await insertSheet(`${fork.from} fork`, fork.title, tags, revisions, { sheetId: source.sheetId, revision: fork.revision });
       }
+      const opening = demoSheets.find((shipped) => shipped.file === DEMO_OPENING_SHEET);
+      if (opening) await insertShipped(opening);
       const checker = created[DEMO_USERS.findIndex((u) => u.role === 'reviewer')];
       for (const check of DEMO_CHECKING) {
         const sheet = stored.get(check.file);
@@ -302,19 +322,13 @@ export async function seedDemoData(database: Database, sheetsFolder = DEMO_SHEET
         for (const remark of check.remarks) {
           const [opening] = await tx
             .insert(comments)
-            .values({
-              sheetId: sheet.sheetId,
-              revision: check.revision,
-              authorId: checker.id,
-              anchor: remark.anchor,
-              body: remark.body,
-              createdAt: signedAt,
-              ...(remark.resolved ? { resolvedAt: tick(), resolvedById: checker.id } : {}),
-            })
+            .values({ sheetId: sheet.sheetId, revision: check.revision, authorId: checker.id, anchor: remark.anchor, body: remark.body, createdAt: signedAt })
             .returning({ id: comments.id });
           for (const reply of remark.replies) {
             await tx.insert(comments).values({ sheetId: sheet.sheetId, revision: check.revision, authorId: revisionAuthor.id, anchor: remark.anchor, body: reply, parentId: opening.id, createdAt: tick() });
           }
+          // A thread is resolved after its last reply.
+          if (remark.resolved) await tx.update(comments).set({ resolvedAt: tick(), resolvedById: checker.id }).where(eq(comments.id, opening.id));
         }
       }
       for (const log of demoLogs) {
