@@ -20,6 +20,7 @@ import type {
   Twist,
   Vec3Tuple,
 } from './types';
+import { ANGLE_UNITS, ANGULAR_SPEED_UNITS, DEFAULT_DISPLAY_UNITS, LENGTH_UNITS, type DisplayUnits } from './display-units';
 import {
   createExpressionBudget,
   MAX_EXPRESSION_LENGTH,
@@ -544,6 +545,19 @@ const sweepSchema = z
 
 named(sweepSchema, 'Sweep', 'Vary one numeric input (JSON pointer into the SI document) over a range');
 
+const unitChoice = <T extends readonly [string, ...string[]]>(units: T) =>
+  z.enum(units, { error: expect(`expected one of ${units.map((u) => `"${u}"`).join(', ')}`) });
+
+const displaySchema = z
+  .strictObject({
+    length: unitChoice(LENGTH_UNITS).default(DEFAULT_DISPLAY_UNITS.length),
+    angle: unitChoice(ANGLE_UNITS).default(DEFAULT_DISPLAY_UNITS.angle),
+    angularSpeed: unitChoice(ANGULAR_SPEED_UNITS).default(DEFAULT_DISPLAY_UNITS.angularSpeed),
+  })
+  .transform((d): DisplayUnits => d);
+
+named(displaySchema, 'DisplayUnits', 'Units the sheet shows its numbers in (results, derivation, comparison, report); inputs and exports stay SI. Defaults: mm, deg, rad/s');
+
 /** Value at a JSON pointer (RFC 6901) inside a parsed document, or undefined when it does not resolve. */
 export function resolvePointer(root: unknown, pointer: string): unknown {
   if (pointer === '') return root;
@@ -581,6 +595,7 @@ export const sheetSchema = z
     sweep: sweepSchema.optional(),
     solver: solverSchema.prefault({}),
     graspQuality: graspQualitySchema.optional(),
+    display: displaySchema.optional(),
   })
   .transform((d, ctx): SheetDocument => {
     const doc: SheetDocument = {
@@ -596,6 +611,7 @@ export const sheetSchema = z
     };
     if (d.variables !== undefined) doc.variables = d.variables;
     if (d.notes !== undefined) doc.notes = d.notes;
+    if (d.display !== undefined) doc.display = d.display;
     if (d.graspQuality !== undefined) {
       const perFinger = d.graspQuality.coneEdges + (d.solver.softFinger && d.graspQuality.torsionalFriction > 0 ? 2 : 0);
       const generators = perFinger * d.hand.fingers.length;
