@@ -13,7 +13,7 @@ const ACCELERATION: DocumentPath = ['object', 'acceleration'];
  * without an acceleration stays as it was written.
  */
 function AccelerationVector({ part, label, kind }: { part: 'linear' | 'angular'; label: string; kind: Exclude<QuantityKind, 'any'> }) {
-  const { document, update, issues, variables, readOnly } = useSheetEditing();
+  const { document, update, issues, variables, units, readOnly } = useSheetEditing();
   const path = [...ACCELERATION, part];
   const vector = getAt(document, path);
   const components: unknown[] = Array.isArray(vector) ? vector : [];
@@ -37,6 +37,7 @@ function AccelerationVector({ part, label, kind }: { part: 'linear' | 'angular';
             path={pathText([...path, index])}
             value={components[index]}
             variables={variables}
+            units={units}
             issue={issues.get(pathText([...path, index]))}
             disabled={readOnly}
             optional={{ placeholder: '0' }}

@@ -167,7 +167,8 @@ interface QuantityRange {
 function quantity(kind: QuantityKind, id: string, range: QuantityRange = {}) {
   const text = kind === 'any' ? 'a quantity: a number in SI units or a string with a unit' : quantityText(kind);
   const read = z
-    .union([z.number(), z.string().trim().min(1).max(MAX_EXPRESSION_LENGTH)], { error: expect(`expected ${text}`) })
+    // An empty text is a field added but not yet filled ("Add rate limit"): required, like a missing one.
+    .union([z.number(), z.string().trim().min(1, { error: MISSING }).max(MAX_EXPRESSION_LENGTH)], { error: expect(`expected ${text}`) })
     .transform((value, ctx) => {
       const result = parseQuantity(value, kind, activeVariables, activeBudget);
       if (!result.ok) {
