@@ -4,6 +4,7 @@ import { useSheetEditing } from './editor-context';
 import { OrientationFields } from './ObjectSection';
 import { PlainNumber, Quantity, QuantityVector, Toggle } from './fields';
 import QuantityField from './QuantityField';
+import SolverSettingsFields from './SolverSettingsFields';
 
 const ACCELERATION: DocumentPath = ['object', 'acceleration'];
 
@@ -76,6 +77,7 @@ export default function MotionSection() {
           <Toggle path={[...run, 'stopOnSingular']} label="stop on a singular warning" fallback />
         </div>
       </fieldset>
+      <SolverSettingsFields />
     </div>
   );
 }
