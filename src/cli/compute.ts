@@ -17,6 +17,7 @@ import { compareLog, describeComparisonError, type ComparedSample } from '../lib
 import { comparisonReportJson, verdictExitCode } from '../lib/logs/report';
 import { evaluateSheet, type SheetEvaluation } from '../lib/sheet/evaluate';
 import { comparedSampleHeader, comparedSampleLine, csvTable, FINGER_COLUMNS, fingerRows, maxJointCount, rateColumns, resultsCsv } from '../lib/sheet/results-csv';
+import { SAFETY_CAUTION, SAFETY_CAUTION_TEXT } from '../lib/safety';
 import { InputError, readJsonFile, readMappingFile } from './input-files';
 
 const USAGE = 'usage: npm run compute -- path/to/sheet.json [--format json|csv] [--run] [--sweep] [--log log.csv[.gz] --mapping mapping.json]';
@@ -187,9 +188,12 @@ export async function runComputeCommand(args: readonly string[], io: CommandOutp
     return 1;
   }
   const maxJoints = maxJointCount(doc);
+  // The output carries joint rates toward a controller: the caution goes to standard error, where a pipe does not swallow it.
+  report(SAFETY_CAUTION);
   if (options.format === 'json') {
     const output = {
       title: doc.title,
+      safety: SAFETY_CAUTION_TEXT,
       result,
       ...(run ? { run: toPlainRunRecord(run) } : {}),
       ...(sweep ? { sweep: { path: sweep.path, values: Array.from(sweep.values), results: sweep.results, worstSeverity: sweep.worstSeverity } } : {}),
