@@ -108,7 +108,7 @@ describe('the surfaces that read the catalogue', () => {
     expect(labels).toEqual([...result.fingers.flatMap((f) => perContact(f.acceleration!.steer.status === 'defined')), 'contacts', 'rank of the contact map', 'undrivable directions',
       'force closure', 'quality Q_L1', 'quality Q_Linf', 'weakest direction',
     ]);
-    expect(html).toContain('<th class="py-1 text-right font-normal">angle, deg</th><th class="py-1 text-right font-normal">full</th>');
+    expect(html).toContain('<th class="py-1 text-right font-normal">angle</th><th class="py-1 text-right font-normal">full</th>');
     expect(html).toContain(`data-result="0.contact.gap">${displayValue(findOutput('contact.gap'), first.contact.gap)}</td><td class="py-0.5 text-xs text-graphite">mm</td>`);
     expect(html).toContain(`data-result="0.full.rates.0">${displayValue(findOutput('full.rates'), first.full.rates[0])}</td>`);
     expect(html).toContain('data-result="grasp.rank">');
