@@ -20,9 +20,9 @@ let page: Page;
 let sheetId = '';
 const created: string[] = [];
 // Its own copy of the example with a small rate limit on every roll joint, so each finger raises a rate-limit warning.
-const document = JSON.parse(readFileSync(SHEET_FILE, 'utf8')) as Doc;
-for (const finger of document.hand.fingers) finger.joints[2].rateLimit = '0.001 rad/s';
-const evaluated = evaluateSheet(document);
+const sheet = JSON.parse(readFileSync(SHEET_FILE, 'utf8')) as Doc;
+for (const finger of sheet.hand.fingers) finger.joints[2].rateLimit = '0.001 rad/s';
+const evaluated = evaluateSheet(sheet);
 if (!evaluated.ok) throw new Error(evaluated.error.message);
 const { result } = evaluated.value;
 
@@ -38,7 +38,7 @@ beforeAll(async () => {
   page = await (await browser.newContext({ viewport: { width: 1280, height: 1000 }, acceptDownloads: true })).newPage();
   await signIn(page, EDITOR.email, EDITOR.password);
   const me = await (await page.request.get(`${baseUrl()}/api/me`)).json();
-  const answer = await page.request.post(`${baseUrl()}/api/sheets`, { data: { teamId: me.currentTeam, title: `${document.title} (units check)`, document } });
+  const answer = await page.request.post(`${baseUrl()}/api/sheets`, { data: { teamId: me.currentTeam, title: `${sheet.title} (units check)`, document: sheet } });
   expect(answer.status()).toBe(201);
   sheetId = (await answer.json()).sheetId;
   created.push(sheetId);
