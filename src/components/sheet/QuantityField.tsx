@@ -74,17 +74,14 @@ export default function QuantityField({ label, value, kind, onChange, variables,
         spellCheck={false}
         placeholder={optional?.placeholder}
         aria-invalid={message ? true : undefined}
-        aria-describedby={message ? `${id}-error` : `${id}-value`}
+        aria-describedby={[read?.ok && `${id}-value`, message && `${id}-error`].filter(Boolean).join(' ') || undefined}
         onChange={(event) => {
           setText(event.target.value);
           onChange(optional && event.target.value.trim() === '' ? undefined : storedValue(event.target.value));
         }}
       />
-      {message ? (
-        <span id={`${id}-error`} role="alert" className="mt-0.5 block text-[11px] leading-tight text-sienna break-words">
-          {message}
-        </span>
-      ) : read?.ok ? (
+      {read?.ok && (
+        // The reading stays beside a limit the sheet reader refuses (85 m for a roller), so the person sees how the value was read.
         <span id={`${id}-value`} className="mt-0.5 flex min-w-0 flex-wrap items-baseline gap-x-1 text-[11px] leading-tight text-graphite" data-reading={bare ? 'bare' : 'unit'}>
           {bare && <span className="font-semibold text-ink">reads as</span>}
           <span className={`num ${bare ? 'font-semibold text-ink' : ''}`} data-si>
@@ -95,13 +92,18 @@ export default function QuantityField({ label, value, kind, onChange, variables,
               = {formatted(toShown(read.value, si, units))} {shown}
             </span>
           )}
-          {note && (
-            <span role="note" className="mt-0.5 basis-full border-l-2 border-ochre pl-1 text-ink break-words" data-input-note>
-              {note}
-            </span>
-          )}
         </span>
-      ) : null}
+      )}
+      {message && (
+        <span id={`${id}-error`} role="alert" className="mt-0.5 block text-[11px] leading-tight text-sienna break-words">
+          {message}
+        </span>
+      )}
+      {note && (
+        <span role="note" className="mt-0.5 block border-l-2 border-ochre pl-1 text-[11px] leading-tight text-ink break-words" data-input-note>
+          {note}
+        </span>
+      )}
     </div>
   );
 }
