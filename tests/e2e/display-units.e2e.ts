@@ -100,6 +100,7 @@ describe('display units, warnings with their numbers, the safety label', () => {
       const right = await field(page, row[k + 1]).boundingBox();
       expect(left && right && left.x + left.width <= right.x + 0.5, `${row[k]} hint stays in its column`).toBe(true);
     }
+    await page.locator('[data-finger="0"] .bg-paper-deep\\/40').first().screenshot({ path: join(SCREENSHOT_DIR, 'display-units-roller-row.png') });
     // Every Tab moves to the next field: no unit picker between them.
     await field(page, RADIUS).locator('input').focus();
     const stops: string[] = [];
