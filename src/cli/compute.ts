@@ -21,6 +21,7 @@ import { commandedRates } from '../lib/sheet/commanded';
 import { exportedResult, namedQuaternion } from '../lib/sheet/results-json';
 import { commandedSolutionOf } from '../lib/sheet/schema';
 import type { SheetDocument } from '../lib/sheet/types';
+import { SAFETY_CAUTION, SAFETY_CAUTION_TEXT } from '../lib/safety';
 import { InputError, readJsonFile, readMappingFile } from './input-files';
 
 const USAGE = 'usage: npm run compute -- path/to/sheet.json [--format json|csv] [--run] [--sweep] [--log log.csv[.gz] --mapping mapping.json]';
@@ -197,9 +198,12 @@ export async function runComputeCommand(args: readonly string[], io: CommandOutp
     return 1;
   }
   const maxJoints = maxJointCount(doc);
+  // The output carries joint rates toward a controller: the caution goes to standard error, where a pipe does not swallow it.
+  report(SAFETY_CAUTION);
   if (options.format === 'json') {
     const output = {
       title: doc.title,
+      safety: SAFETY_CAUTION_TEXT,
       commanded: commandedSolutionOf(doc),
       result: exportedResult(doc, result),
       ...(run ? { run: { ...toPlainRunRecord(run), orientation: wxyzColumn(run.orientation), measuredOrientation: wxyzColumn(run.measuredOrientation) } } : {}),

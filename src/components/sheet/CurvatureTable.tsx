@@ -1,5 +1,6 @@
 import type { PlainSheetResult } from '../../lib/kinematics';
-import { displayNumber, displayValue, findOutput, type OutputDefinition } from '../../lib/sheet/outputs';
+import { DEFAULT_DISPLAY_UNITS, type DisplayUnits } from '../../lib/sheet/display-units';
+import { displayNumber, displayUnit, displayValue, findOutput, type OutputDefinition } from '../../lib/sheet/outputs';
 
 const SURFACES = [
   { name: 'object', region: findOutput('curvature.object.region'), values: findOutput('curvature.object'), direction: findOutput('curvature.object.direction') },
@@ -19,14 +20,14 @@ const NO_MOTION: Record<string, string> = {
   'not computed': 'Not computed for this result.',
 };
 
-function shown(definition: OutputDefinition, result: PlainSheetResult, finger: number): string {
-  return displayValue(definition, definition.read(result, finger));
+function shown(definition: OutputDefinition, result: PlainSheetResult, finger: number, units: DisplayUnits = DEFAULT_DISPLAY_UNITS): string {
+  return displayValue(definition, definition.read(result, finger), units);
 }
 
 /** One contact's surface curvatures (object, roller, relative) and how fast the contact point moves over roller and object. */
-export function CurvatureTable({ result, finger }: { result: PlainSheetResult; finger: number }) {
+export function CurvatureTable({ result, finger, units = DEFAULT_DISPLAY_UNITS }: { result: PlainSheetResult; finger: number; units?: DisplayUnits }) {
   const status = String(findOutput('curvature.wander.status').read(result, finger));
-  const speed = (definition: OutputDefinition) => displayNumber(definition, Number(definition.read(result, finger)));
+  const speed = (definition: OutputDefinition) => displayNumber(definition, Number(definition.read(result, finger)), units);
   return (
     <div className="mt-3" data-curvature={finger}>
       <table className="w-full text-sm">
@@ -59,9 +60,9 @@ export function CurvatureTable({ result, finger }: { result: PlainSheetResult; f
       <p className="mt-1 text-xs text-graphite" data-result={`${finger}.curvature.wander`}>
         {status === 'defined' ? (
           <>
-            The contact point moves over the roller at <span className="num">{speed(rollerSpeed)}</span> {rollerSpeed.display.unit}, velocity{' '}
-            <span className="num">{shown(rollerVelocity, result, finger)}</span>, and over the object at <span className="num">{speed(objectSpeed)}</span>{' '}
-            {objectSpeed.display.unit}, velocity <span className="num">{shown(objectVelocity, result, finger)}</span>, with the full solution&apos;s joint rates.
+            The contact point moves over the roller at <span className="num">{speed(rollerSpeed)}</span> {displayUnit(rollerSpeed, units)}, velocity{' '}
+            <span className="num">{shown(rollerVelocity, result, finger, units)}</span>, and over the object at <span className="num">{speed(objectSpeed)}</span>{' '}
+            {displayUnit(objectSpeed, units)}, velocity <span className="num">{shown(objectVelocity, result, finger, units)}</span>, with the full solution&apos;s joint rates.
           </>
         ) : (
           (NO_MOTION[status] ?? status)

@@ -1,6 +1,8 @@
 import katex from 'katex';
 import { memo, useMemo, useState } from 'react';
 import type { DerivationEntry } from '../../lib/sheet/derivation';
+import { DEFAULT_DISPLAY_UNITS, type DisplayUnits } from '../../lib/sheet/display-units';
+import { formatShownQuantity } from '../../lib/sheet/outputs';
 import { selectInput } from './sheet-styles';
 
 function renderLatex(latex: string): string {
@@ -8,7 +10,7 @@ function renderLatex(latex: string): string {
 }
 
 /** Pick a contact (or the grasp) and an output; see each step with the numbers put in. */
-function DerivationSection({ entries, fingerNames }: { entries: DerivationEntry[]; fingerNames: string[] }) {
+function DerivationSection({ entries, fingerNames, units = DEFAULT_DISPLAY_UNITS }: { entries: DerivationEntry[]; fingerNames: string[]; units?: DisplayUnits }) {
   const [scope, setScope] = useState('finger.0');
   const [output, setOutput] = useState('all');
   const inScope = useMemo(() => entries.filter((e) => e.id.startsWith(`${scope}.`)), [entries, scope]);
@@ -41,7 +43,10 @@ function DerivationSection({ entries, fingerNames }: { entries: DerivationEntry[
       <ol className="space-y-2">
         {rendered.map((e) => (
           <li key={e.id} className="border-l-2 border-verdigris pl-3" data-derivation={e.id}>
-            <p className="text-xs font-semibold text-graphite">{e.label} <span className="font-normal">[{e.unit}]</span></p>
+            <p className="text-xs font-semibold text-graphite">
+              {e.label}: <span className="num text-ink" data-derivation-value>{formatShownQuantity(e.value, e.unit, units)}</span>{' '}
+              <span className="font-normal">(formula in SI, {e.unit})</span>
+            </p>
             <div className="overflow-x-auto" dangerouslySetInnerHTML={{ __html: e.html }} />
           </li>
         ))}

@@ -33,18 +33,33 @@ function JointFields({ finger, joint }: { finger: number; joint: number }) {
             <Quantity path={[...base, 'limits', 'max']} label="limit max" kind="angle" />
           </>
         ) : (
-          <button type="button" className={`${button} col-span-2 text-xs`} disabled={readOnly} onClick={() => update([...base, 'limits'], { min: '-90 deg', max: '90 deg' })}>
+          // Empty fields, required until filled: a made-up limit would drive the limit checks unnoticed.
+          <button type="button" className={`${button} col-span-2 text-xs`} disabled={readOnly} onClick={() => update([...base, 'limits'], { min: '', max: '' })}>
             Add joint limits
           </button>
         )}
         {rateLimit !== undefined ? (
           <Quantity path={[...base, 'rateLimit']} label="rate limit" kind="angularSpeed" />
         ) : (
-          <button type="button" className={`${button} text-xs`} disabled={readOnly} onClick={() => update([...base, 'rateLimit'], '5 rad/s')}>
+          <button type="button" className={`${button} text-xs`} disabled={readOnly} onClick={() => update([...base, 'rateLimit'], '')}>
             Add rate limit
           </button>
         )}
       </div>
+      {!readOnly && (limits || rateLimit !== undefined) ? (
+        <div className="mt-1 flex gap-3 text-[11px]">
+          {limits ? (
+            <button type="button" className="underline text-graphite" onClick={() => update([...base, 'limits'], undefined)}>
+              remove joint limits
+            </button>
+          ) : null}
+          {rateLimit !== undefined ? (
+            <button type="button" className="underline text-graphite" onClick={() => update([...base, 'rateLimit'], undefined)}>
+              remove rate limit
+            </button>
+          ) : null}
+        </div>
+      ) : null}
     </div>
   );
 }
@@ -69,8 +84,8 @@ function RollerFields({ finger }: { finger: number }) {
             )
           }
         />
-        <Quantity path={[...base, 'radius']} label="roller radius" kind="length" />
-        {roller.kind === 'cylinder' && <Quantity path={[...base, 'halfWidth']} label="half width" kind="length" />}
+        <Quantity path={[...base, 'radius']} label="roller radius" kind="length" plausible="roller" />
+        {roller.kind === 'cylinder' && <Quantity path={[...base, 'halfWidth']} label="half width" kind="length" plausible="roller" />}
       </div>
       <div className="grid gap-3 md:grid-cols-2">
         <QuantityVector path={[...base, 'center']} label="roller centre at home" kind="length" />

@@ -7,6 +7,7 @@ import { OrientationFields } from './ObjectSection';
 import { PlainNumber, Quantity, QuantityVector, Toggle } from './fields';
 import QuantityField from './QuantityField';
 import { selectInput } from './sheet-styles';
+import SolverSettingsFields from './SolverSettingsFields';
 
 const ACCELERATION: DocumentPath = ['object', 'acceleration'];
 
@@ -16,7 +17,7 @@ const ACCELERATION: DocumentPath = ['object', 'acceleration'];
  * without an acceleration stays as it was written.
  */
 function AccelerationVector({ part, label, kind }: { part: 'linear' | 'angular'; label: string; kind: Exclude<QuantityKind, 'any'> }) {
-  const { document, update, issues, variables, readOnly } = useSheetEditing();
+  const { document, update, issues, variables, units, readOnly } = useSheetEditing();
   const path = [...ACCELERATION, part];
   const vector = getAt(document, path);
   const components: unknown[] = Array.isArray(vector) ? vector : [];
@@ -40,6 +41,7 @@ function AccelerationVector({ part, label, kind }: { part: 'linear' | 'angular';
             path={pathText([...path, index])}
             value={components[index]}
             variables={variables}
+            units={units}
             issue={issues.get(pathText([...path, index]))}
             disabled={readOnly}
             optional={{ placeholder: '0' }}
@@ -143,6 +145,7 @@ export default function MotionSection() {
           <Toggle path={[...run, 'stopOnSingular']} label="stop on a singular warning" fallback />
         </div>
       </fieldset>
+      <SolverSettingsFields />
     </div>
   );
 }

@@ -65,18 +65,18 @@ export default function ObjectSection() {
       <div className="grid grid-cols-[10rem_1fr] items-end gap-4">
         <Choice path={['object', 'shape', 'kind']} label="shape" options={SHAPES} onChoose={(kind) => update(['object', 'shape'], defaultShape(kind))} />
         <div className="grid grid-cols-3 gap-3">
-          {shape.kind === 'sphere' && <Quantity path={at('radius')} label="radius" kind="length" />}
+          {shape.kind === 'sphere' && <Quantity path={at('radius')} label="radius" kind="length" plausible="object" />}
           {(shape.kind === 'cylinder' || shape.kind === 'capsule') && (
             <>
-              <Quantity path={at('radius')} label="radius" kind="length" />
-              <Quantity path={at('halfLength')} label="half length" kind="length" />
+              <Quantity path={at('radius')} label="radius" kind="length" plausible="object" />
+              <Quantity path={at('halfLength')} label="half length" kind="length" plausible="object" />
             </>
           )}
           {shape.kind === 'box' && <Quantity path={at('filletRadius')} label="fillet radius" kind="length" />}
         </div>
       </div>
-      {shape.kind === 'box' && <QuantityVector path={at('halfExtents')} label="half extents" kind="length" />}
-      {shape.kind === 'ellipsoid' && <QuantityVector path={at('semiAxes')} label="semi-axes" kind="length" />}
+      {shape.kind === 'box' && <QuantityVector path={at('halfExtents')} label="half extents" kind="length" plausible="object" />}
+      {shape.kind === 'ellipsoid' && <QuantityVector path={at('semiAxes')} label="semi-axes" kind="length" plausible="object" />}
       <QuantityVector path={['object', 'pose', 'position']} label="position of the object origin (palm frame)" kind="length" />
       <OrientationFields path={['object', 'pose', 'orientation']} />
     </div>

@@ -27,11 +27,18 @@ export default function PadSection({
       </div>
       <aside aria-label={`Margin notes: ${title}`} className="mt-3 space-y-2 lg:mt-8" data-margin={id}>
         {warnings.map((w, index) => (
-          <p key={`${w.code}-${index}`} className={`border-l-4 bg-paper-deep/60 px-2 py-1 text-xs ${SEVERITY_CLASS[w.severity]}`} data-warning={w.code}>
+          <div key={`${w.code}-${index}`} className={`border-l-4 bg-paper-deep/60 px-2 py-1 text-xs ${SEVERITY_CLASS[w.severity]}`} data-warning={w.code} role="note">
             <span className="block font-semibold uppercase tracking-wide text-[10px]">{w.severity}</span>
             <span className="block font-semibold text-ink">{w.title}</span>
-            <span className="block text-graphite">{w.text}</span>
-          </p>
+            <span className="block text-ink" data-warning-where>{w.where}</span>
+            <dl className="my-0.5 grid grid-cols-[auto_1fr] gap-x-2 text-ink">
+              <dt className="text-graphite" title={w.valueMeaning}>value</dt>
+              <dd className="num" data-warning-value>{w.value}</dd>
+              <dt className="text-graphite" title={w.thresholdMeaning}>threshold</dt>
+              <dd className="num" data-warning-threshold>{w.threshold}</dd>
+            </dl>
+            <span className="block text-graphite">{w.message}</span>
+          </div>
         ))}
       </aside>
     </section>

@@ -1,20 +1,10 @@
 import { useEffect, useId, useMemo, useState } from 'react';
-import { fromSI, parseQuantity, QUANTITY_KINDS, type QuantityKind, type VariableScope } from '../../lib/sheet/units';
+import { DEFAULT_DISPLAY_UNITS, shownUnit, toShown, type DisplayUnits } from '../../lib/sheet/display-units';
+import { lengthNote, type PlausibleLengthKind } from '../../lib/sheet/plausibility';
+import { parseQuantity, QUANTITY_KINDS, type QuantityKind, type VariableScope } from '../../lib/sheet/units';
 import { fieldInput } from './sheet-styles';
 
 type Kind = Exclude<QuantityKind, 'any'>;
-
-/** Units offered for showing a value, first = default. */
-export const DISPLAY_UNITS: Record<Kind, string[]> = {
-  length: ['mm', 'm', 'in'],
-  angle: ['deg', 'rad'],
-  time: ['ms', 's'],
-  speed: ['mm/s', 'm/s'],
-  angularSpeed: ['rad/s', 'rpm', 'deg/s'],
-  acceleration: ['m/s^2', 'mm/s^2'],
-  angularAcceleration: ['rad/s^2', 'deg/s^2'],
-  rate: ['Hz', '1/s'],
-};
 
 const PLAIN_NUMBER = /^\s*[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?\s*$/;
 
@@ -23,7 +13,7 @@ export function storedValue(text: string): number | string {
   return PLAIN_NUMBER.test(text) ? Number(text) : text;
 }
 
-const shown = (value: number) => {
+const formatted = (value: number) => {
   const rounded = Number(value.toPrecision(6));
   return String(Object.is(rounded, -0) ? 0 : rounded);
 };
@@ -42,18 +32,22 @@ export interface QuantityFieldProps {
   disabled?: boolean;
   /** Path of the field in the document, for tests and for locating issues. */
   path: string;
+  /** The sheet's display units: the reading is shown in them beside SI. */
+  units?: DisplayUnits;
+  /** For a length: which plausible range its value is judged against (content/docs/units.md); "hand" by default. */
+  plausible?: PlausibleLengthKind;
 }
 
 /**
  * A quantity input: takes a number in SI, a value with a unit or an expression over the sheet's
- * variables; shows the SI value and the value in the unit the person picked, and flags a wrong
- * dimension as it is typed.
+ * variables; shows how it reads (prominently for a bare number, which is SI) in SI and in the
+ * sheet's display unit, notes an implausible length, and flags a wrong dimension as it is typed.
+ * No picker of its own: the sheet's one display-unit choice keeps a hand's tab stops to its fields.
  */
-export default function QuantityField({ label, value, kind, onChange, variables, issue, disabled, path, optional }: QuantityFieldProps) {
+export default function QuantityField({ label, value, kind, onChange, variables, issue, disabled, path, optional, units = DEFAULT_DISPLAY_UNITS, plausible = 'hand' }: QuantityFieldProps) {
   const id = useId();
   const written = value === undefined || value === null ? '' : String(value);
   const [text, setText] = useState(written);
-  const [unit, setUnit] = useState(DISPLAY_UNITS[kind][0]);
   useEffect(() => {
     // Follow the document when it changes from outside (template applied, conflict re-applied).
     setText((current) => (String(storedValue(current)) === written ? current : written));
@@ -63,6 +57,9 @@ export default function QuantityField({ label, value, kind, onChange, variables,
   const blank = text.trim() === '';
   const message = blank ? (optional ? issue : 'required') : read && !read.ok ? read.message : issue;
   const si = QUANTITY_KINDS[kind].si === 's^-1' ? '1/s' : QUANTITY_KINDS[kind].si;
+  const shown = shownUnit(si, units);
+  const bare = typeof storedValue(text) === 'number';
+  const note = read?.ok && kind === 'length' ? lengthNote(read.value, plausible, bare, units) : null;
 
   return (
     <div className="min-w-0" data-quantity={path}>
@@ -77,37 +74,36 @@ export default function QuantityField({ label, value, kind, onChange, variables,
         spellCheck={false}
         placeholder={optional?.placeholder}
         aria-invalid={message ? true : undefined}
-        aria-describedby={message ? `${id}-error` : `${id}-value`}
+        aria-describedby={[read?.ok && `${id}-value`, message && `${id}-error`].filter(Boolean).join(' ') || undefined}
         onChange={(event) => {
           setText(event.target.value);
           onChange(optional && event.target.value.trim() === '' ? undefined : storedValue(event.target.value));
         }}
       />
-      {message ? (
-        <span id={`${id}-error`} role="alert" className="mt-0.5 block text-[11px] leading-tight text-sienna">
+      {read?.ok && (
+        // The reading stays beside a limit the sheet reader refuses (85 m for a roller), so the person sees how the value was read.
+        <span id={`${id}-value`} className="mt-0.5 flex min-w-0 flex-wrap items-baseline gap-x-1 text-[11px] leading-tight text-graphite" data-reading={bare ? 'bare' : 'unit'}>
+          {bare && <span className="font-semibold text-ink">reads as</span>}
+          <span className={`num ${bare ? 'font-semibold text-ink' : ''}`} data-si>
+            {formatted(read.value)} {si}
+          </span>
+          {shown !== si && (
+            <span className="num" data-shown>
+              = {formatted(toShown(read.value, si, units))} {shown}
+            </span>
+          )}
+        </span>
+      )}
+      {message && (
+        <span id={`${id}-error`} role="alert" className="mt-0.5 block text-[11px] leading-tight text-sienna break-words">
           {message}
         </span>
-      ) : read?.ok ? (
-        <span id={`${id}-value`} className="mt-0.5 flex items-baseline gap-1 text-[11px] text-graphite">
-          <span className="num" data-si>
-            {shown(read.value)} {si}
-          </span>
-          <span aria-hidden>·</span>
-          <span className="num" data-shown>
-            {shown(fromSI(read.value, kind, unit))}
-          </span>
-          <select
-            aria-label={`unit to show ${label} in`}
-            className="bg-transparent text-[11px] text-graphite focus:outline-none"
-            value={unit}
-            onChange={(event) => setUnit(event.target.value)}
-          >
-            {DISPLAY_UNITS[kind].map((u) => (
-              <option key={u}>{u}</option>
-            ))}
-          </select>
+      )}
+      {note && (
+        <span role="note" className="mt-0.5 block border-l-2 border-ochre pl-1 text-[11px] leading-tight text-ink break-words" data-input-note>
+          {note}
         </span>
-      ) : null}
+      )}
     </div>
   );
 }

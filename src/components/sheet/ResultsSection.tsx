@@ -1,7 +1,8 @@
 import { memo } from 'react';
 import type { ContactWander, PlainSheetResult } from '../../lib/kinematics';
 import { describeCommanded } from '../../lib/sheet/commanded';
-import { displayNumber, displayValue, findOutput, formatShownNumber, labelWithFrame, STEER_FEEDFORWARD_REASONS, type OutputDefinition } from '../../lib/sheet/outputs';
+import { DEFAULT_DISPLAY_UNITS, type DisplayUnits } from '../../lib/sheet/display-units';
+import { displayNumber, displayUnit, displayValue, findOutput, formatShownNumber, labelWithFrame, STEER_FEEDFORWARD_REASONS, type OutputDefinition } from '../../lib/sheet/outputs';
 import { CurvatureTable } from './CurvatureTable';
 import { SafetyCaution } from './SafetyCaution';
 
@@ -16,14 +17,14 @@ function Row({ label, value, unit, test }: { label: string; value: string; unit:
 }
 
 /** A catalogue output of finger `finger` (or of the grasp) as one row, in its display unit; `test` marks the cell for browser tests. */
-function OutputRow({ id, result, finger = -1, test = false }: { id: string; result: PlainSheetResult; finger?: number; test?: boolean }) {
+function OutputRow({ id, result, finger = -1, test = false, units }: { id: string; result: PlainSheetResult; finger?: number; test?: boolean; units: DisplayUnits }) {
   const definition = findOutput(id);
   const testId = definition.scope === 'grasp' ? id : `${finger}.${id}`;
   return (
     <Row
       label={labelWithFrame(definition, true)}
-      value={displayValue(definition, definition.read(result, finger))}
-      unit={definition.display.unit}
+      value={displayValue(definition, definition.read(result, finger), units)}
+      unit={displayUnit(definition, units)}
       test={test ? testId : undefined}
     />
   );
@@ -40,9 +41,9 @@ const MATERIAL_POINTS_REASON: Record<ContactWander['status'], string> = {
 const JOINT_COLUMNS = ['jointAngles', 'commanded.rates', 'full.rates', 'steer.rates', 'steer.rateDifference', 'acceleration.jointAccelerations', 'acceleration.steer.jointAccelerations'].map(findOutput);
 
 /** The k-th joint's value of a per-joint output, in its display unit. */
-function jointCell(definition: OutputDefinition, result: PlainSheetResult, finger: number, joint: number): string {
+function jointCell(definition: OutputDefinition, result: PlainSheetResult, finger: number, joint: number, units: DisplayUnits): string {
   const values = definition.read(result, finger);
-  return typeof values === 'object' ? displayNumber(definition, values[joint]) : '';
+  return typeof values === 'object' ? displayNumber(definition, values[joint], units) : '';
 }
 
 const [conditionBefore, conditionAfter, singularValues, conditionNumber, manipulability] = [
@@ -53,7 +54,7 @@ const [fullRank, rankTolerance, driveSingularValues, driveRank, graspSingularVal
 ].map(findOutput);
 
 /** One table per contact and one for the grasp, labels, units and readers from the output catalogue; the full solution beside steer-and-roll. */
-function ResultsSection({ result, stale }: { result: PlainSheetResult | null; stale: boolean }) {
+function ResultsSection({ result, stale, units = DEFAULT_DISPLAY_UNITS }: { result: PlainSheetResult | null; stale: boolean; units?: DisplayUnits }) {
   if (!result) return <p className="text-sm text-graphite">No results until the sheet reads without errors.</p>;
   return (
     <div className={`space-y-5 transition-opacity ${stale ? 'opacity-60' : ''}`} aria-busy={stale}>
@@ -75,39 +76,39 @@ function ResultsSection({ result, stale }: { result: PlainSheetResult | null; st
             <div className="grid gap-x-6 md:grid-cols-2">
               <table className="w-full text-sm">
                 <tbody>
-                  <OutputRow id="contact.objectPoint" result={result} finger={i} test />
-                  <OutputRow id="contact.normal" result={result} finger={i} />
-                  <OutputRow id="contact.gap" result={result} finger={i} test />
-                  <OutputRow id="contact.normalSpeed" result={result} finger={i} />
-                  <OutputRow id="contact.tangentialVelocity" result={result} finger={i} />
-                  <OutputRow id="contact.tangentialSpeed" result={result} finger={i} />
+                  <OutputRow id="contact.objectPoint" result={result} finger={i} units={units} test />
+                  <OutputRow id="contact.normal" result={result} finger={i} units={units} />
+                  <OutputRow id="contact.gap" result={result} finger={i} units={units} test />
+                  <OutputRow id="contact.normalSpeed" result={result} finger={i} units={units} />
+                  <OutputRow id="contact.tangentialVelocity" result={result} finger={i} units={units} />
+                  <OutputRow id="contact.tangentialSpeed" result={result} finger={i} units={units} />
                 </tbody>
               </table>
               <table className="w-full text-sm">
                 <tbody>
-                  <OutputRow id="commanded.solution" result={result} finger={i} test />
+                  <OutputRow id="commanded.solution" result={result} finger={i} units={units} test />
                   {commanded?.pivot && (
                     <>
-                      <OutputRow id="commanded.pivot.targetAngle" result={result} finger={i} test />
-                      <OutputRow id="commanded.pivot.change" result={result} finger={i} test />
-                      <OutputRow id="commanded.pivot.rate" result={result} finger={i} test />
+                      <OutputRow id="commanded.pivot.targetAngle" result={result} finger={i} units={units} test />
+                      <OutputRow id="commanded.pivot.change" result={result} finger={i} units={units} test />
+                      <OutputRow id="commanded.pivot.rate" result={result} finger={i} units={units} test />
                     </>
                   )}
-                  <OutputRow id="steer.baseRates" result={result} finger={i} test />
-                  <OutputRow id="steer.pivotAngle" result={result} finger={i} test />
-                  <OutputRow id="steer.rollRate" result={result} finger={i} test />
-                  <OutputRow id="steer.rateDifferenceNorm" result={result} finger={i} />
+                  <OutputRow id="steer.baseRates" result={result} finger={i} units={units} test />
+                  <OutputRow id="steer.pivotAngle" result={result} finger={i} units={units} test />
+                  <OutputRow id="steer.rollRate" result={result} finger={i} units={units} test />
+                  <OutputRow id="steer.rateDifferenceNorm" result={result} finger={i} units={units} />
                   <Row
                     label="condition before / after steering"
                     value={`${displayValue(conditionBefore, conditionBefore.read(result, i))} / ${displayValue(conditionAfter, conditionAfter.read(result, i))}`}
                     unit={conditionAfter.display.unit}
                   />
-                  <OutputRow id="full.residual" result={result} finger={i} />
+                  <OutputRow id="full.residual" result={result} finger={i} units={units} />
                 </tbody>
               </table>
             </div>
             <table className="mt-3 w-full text-sm">
-              <caption className="text-left text-[11px] uppercase tracking-wide text-graphite">joint rates, rad/s: commanded ({commanded?.solution ?? 'not computed'}), then the full solution beside steer-and-roll; joint accelerations of the full solution beside steer-and-roll (pivot: its rate below)</caption>
+              <caption className="text-left text-[11px] uppercase tracking-wide text-graphite">joint rates, {units.angularSpeed}, and angles, {units.angle}: commanded ({commanded?.solution ?? 'not computed'}), then the full solution beside steer-and-roll; joint accelerations of the full solution beside steer-and-roll (pivot: its rate below)</caption>
               <thead>
                 <tr className="border-b border-ink text-left text-xs text-graphite">
                   <th className="py-1 font-normal">joint</th>
@@ -122,7 +123,7 @@ function ResultsSection({ result, stale }: { result: PlainSheetResult | null; st
                     <td className="py-0.5">{name}</td>
                     {JOINT_COLUMNS.map((column) => (
                       <td key={column.id} className="num text-right" data-result={column.id === 'full.rates' || column.id === 'commanded.rates' ? `${i}.${column.id}.${k}` : undefined}>
-                        {jointCell(column, result, i, k)}
+                        {jointCell(column, result, i, k, units)}
                       </td>
                     ))}
                   </tr>
@@ -135,18 +136,18 @@ function ResultsSection({ result, stale }: { result: PlainSheetResult | null; st
                   acceleration feed-forward (full solution, {f.acceleration.model === 'rolling-contact' ? 'rolling contact' : `material points, rolling term left out: ${MATERIAL_POINTS_REASON[f.curvature?.wander.status ?? 'defined']}`}; then steer-and-roll)
                 </caption>
                 <tbody>
-                  <OutputRow id="acceleration.model" result={result} finger={i} test />
-                  <OutputRow id="acceleration.objectPoint" result={result} finger={i} test />
-                  <OutputRow id="acceleration.centripetal" result={result} finger={i} />
-                  <OutputRow id="acceleration.jacobianRate" result={result} finger={i} />
-                  <OutputRow id="acceleration.rollingTerm" result={result} finger={i} />
-                  <OutputRow id="acceleration.residual" result={result} finger={i} />
-                  <OutputRow id="acceleration.steer.status" result={result} finger={i} test />
+                  <OutputRow id="acceleration.model" result={result} finger={i} units={units} test />
+                  <OutputRow id="acceleration.objectPoint" result={result} finger={i} units={units} test />
+                  <OutputRow id="acceleration.centripetal" result={result} finger={i} units={units} />
+                  <OutputRow id="acceleration.jacobianRate" result={result} finger={i} units={units} />
+                  <OutputRow id="acceleration.rollingTerm" result={result} finger={i} units={units} />
+                  <OutputRow id="acceleration.residual" result={result} finger={i} units={units} />
+                  <OutputRow id="acceleration.steer.status" result={result} finger={i} units={units} test />
                   {f.acceleration.steer.status === 'defined' ? (
                     <>
-                      <OutputRow id="acceleration.steer.pivotRate" result={result} finger={i} test />
-                      <OutputRow id="acceleration.steer.baseAccelerations" result={result} finger={i} test />
-                      <OutputRow id="acceleration.steer.rollAcceleration" result={result} finger={i} test />
+                      <OutputRow id="acceleration.steer.pivotRate" result={result} finger={i} units={units} test />
+                      <OutputRow id="acceleration.steer.baseAccelerations" result={result} finger={i} units={units} test />
+                      <OutputRow id="acceleration.steer.rollAcceleration" result={result} finger={i} units={units} test />
                     </>
                   ) : (
                     <tr className="border-b border-rule/60">
@@ -183,7 +184,7 @@ function ResultsSection({ result, stale }: { result: PlainSheetResult | null; st
                 {driveRank.display.unit}
               </p>
             )}
-            <CurvatureTable result={result} finger={i} />
+            <CurvatureTable result={result} finger={i} units={units} />
           </div>
         );
       })}
@@ -191,13 +192,13 @@ function ResultsSection({ result, stale }: { result: PlainSheetResult | null; st
         <h3 className="mb-2 text-sm font-semibold">Grasp</h3>
         <table className="text-sm">
           <tbody>
-            <OutputRow id="grasp.contacts" result={result} />
-            <OutputRow id="grasp.rank" result={result} test />
-            <OutputRow id="grasp.undrivable" result={result} />
-            <OutputRow id="grasp.forceClosure" result={result} test />
-            <OutputRow id="grasp.sumQuality" result={result} test />
-            <OutputRow id="grasp.maxQuality" result={result} />
-            <OutputRow id="grasp.weakest" result={result} />
+            <OutputRow units={units} id="grasp.contacts" result={result} />
+            <OutputRow units={units} id="grasp.rank" result={result} test />
+            <OutputRow units={units} id="grasp.undrivable" result={result} />
+            <OutputRow units={units} id="grasp.forceClosure" result={result} test />
+            <OutputRow units={units} id="grasp.sumQuality" result={result} test />
+            <OutputRow units={units} id="grasp.maxQuality" result={result} />
+            <OutputRow units={units} id="grasp.weakest" result={result} />
           </tbody>
         </table>
         <p className="mt-1 text-xs text-graphite">

@@ -6,6 +6,7 @@ import type { SheetDocument } from '../../lib/sheet/types';
 import { SEVERITY_COLOURS } from '../../lib/view/palette';
 import { describeStopReason, severityRuns, type JointSeries, type RunSeries } from '../../lib/view/series';
 import JobProgress from './JobProgress';
+import { SafetyCaution } from './SafetyCaution';
 import { RUN_JOBS, useWorkerJob } from './useWorkerJob';
 
 const DEGREES = 180 / Math.PI;
@@ -59,6 +60,7 @@ function RunResults({ series, stale }: { series: RunSeries; stale: boolean }) {
         </p>
       </div>
       <WarningStrip count={series.tickCount} worst={series.worstSeverity} warnings={series.warnings} axisLabel="ticks" />
+      <SafetyCaution />
       <div className="grid gap-4 @3xl:grid-cols-2">
         <LineChart title="Joint angles" yLabel="deg" series={charts.angles} {...common} />
         <LineChart title={`Joint rates followed: ${series.followed}`} yLabel="rad/s" series={charts.rates} {...common} />

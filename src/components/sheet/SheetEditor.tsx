@@ -1,9 +1,12 @@
 import { lazy, memo, Suspense, useCallback, useDeferredValue, useEffect, useMemo, useState } from 'react';
-import { WARNING_CATALOGUE, type WarningCode } from '../../lib/kinematics';
+import type { WarningCode } from '../../lib/kinematics';
 import type { SheetPageData } from '../../lib/contract';
 import { setAt, type DocumentPath } from '../../lib/sheet/document-path';
+import { displayUnitsOf } from '../../lib/sheet/display-units';
 import { parseVariables } from '../../lib/sheet/units';
+import { describeWarning } from '../../lib/sheet/warning-notes';
 import DerivationSection from './DerivationSection';
+import DisplayUnitsFields from './DisplayUnitsFields';
 import { SheetEditingContext, type MarginWarning, type SheetEditing } from './editor-context';
 import { TextField } from './fields';
 import HandSection from './HandSection';
@@ -121,21 +124,19 @@ function Editor({ data }: { data: SheetPageData }) {
   const variablesText = typeof document.variables === 'string' ? document.variables : '';
   const variables = useMemo(() => parseVariables(variablesText), [variablesText]);
   const issues = useMemo(() => new Map((reply && !reply.ok ? reply.issues : []).map((i) => [i.path, i.message])), [reply]);
+  const displayChoice = document.display;
+  const units = useMemo(() => displayUnitsOf({ display: displayChoice }), [displayChoice]);
   const editing: SheetEditing = useMemo(
-    () => ({ document, update, issues, variables: variables.values, readOnly }),
-    [document, update, issues, variables, readOnly],
+    () => ({ document, update, issues, variables: variables.values, units, readOnly }),
+    [document, update, issues, variables, units, readOnly],
   );
 
   const result = lastGood?.result ?? null;
   const margin = useMemo(() => {
     const bySection: Record<string, MarginWarning[]> = { object: [], hand: [], motion: [], results: [] };
-    for (const w of result?.warnings ?? []) {
-      const info = WARNING_CATALOGUE[w.code];
-      const finger = w.finger === undefined ? '' : `${result?.fingers[w.finger]?.name ?? w.finger}: `;
-      bySection[SECTION_OF[w.code]].push({ code: w.code, severity: w.severity, title: info.title, text: `${finger}${w.message}` });
-    }
+    for (const w of result?.warnings ?? []) bySection[SECTION_OF[w.code]].push(describeWarning(w, result?.fingers ?? [], units));
     return bySection;
-  }, [result]);
+  }, [result, units]);
 
   const unlocated = reply && !reply.ok ? reply.issues.filter((i) => i.path === '(document)' || i.path === 'variables') : [];
   const fingerNames = useMemo(() => result?.fingers.map((f) => f.name) ?? [], [result]);
@@ -181,6 +182,9 @@ function Editor({ data }: { data: SheetPageData }) {
                 <TextField path={['title']} label="title" />
                 <TextField path={['description']} label="description" />
               </div>
+              <div className="mt-3">
+                <DisplayUnitsFields />
+              </div>
             </PadSection>
             <PadSection id="object" number={1} title="Object" warnings={margin.object}>
               <ObjectSection />
@@ -216,7 +220,7 @@ function Editor({ data }: { data: SheetPageData }) {
                   {reply.issues.length} problem{reply.issues.length === 1 ? '' : 's'} in the inputs (marked at the fields); the results below are from the last sheet that read cleanly.
                 </p>
               )}
-              <ResultsSection result={result} stale={pending || (reply !== null && !reply.ok)} />
+              <ResultsSection result={result} units={units} stale={pending || (reply !== null && !reply.ok)} />
               {lastGood && (
                 <p className="mt-2 text-xs text-graphite">
                   Solved in a background worker in <span className="num" data-compute-ms>{lastGood.elapsedMs.toFixed(1)}</span> ms.
@@ -224,7 +228,7 @@ function Editor({ data }: { data: SheetPageData }) {
               )}
             </PadSection>
             <PadSection id="derivation" number={6} title="Derivation">
-              {deferred ? <DerivationSection entries={deferred.derivation} fingerNames={fingerNames} /> : <p className="text-sm text-graphite">Waiting for results.</p>}
+              {deferred ? <DerivationSection entries={deferred.derivation} fingerNames={fingerNames} units={units} /> : <p className="text-sm text-graphite">Waiting for results.</p>}
             </PadSection>
             <PadSection id="notes" number={7} title="Notes">
               <NotesSection />

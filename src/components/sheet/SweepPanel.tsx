@@ -7,6 +7,7 @@ import { SEVERITY_COLOURS } from '../../lib/view/palette';
 import { severityRuns, type SweepSeries } from '../../lib/view/series';
 import { DEFAULT_SWEEP_STEPS, sweepInputs, sweepSettingsFrom, type DisplayUnit, type SweepInput } from '../../lib/view/sweep-inputs';
 import JobProgress from './JobProgress';
+import { SafetyCaution } from './SafetyCaution';
 import { SWEEP_JOBS, useWorkerJob } from './useWorkerJob';
 
 const SEVERITY_NAMES = ['none', 'note', 'caution', 'singular'] as const;
@@ -46,6 +47,7 @@ function SweepResults({ series, input }: { series: SweepSeries; input: SweepInpu
       </p>
       <p className="text-xs" data-testid="sweep-solution">Joint rates plotted: {series.followed}</p>
       <WarningStrip count={series.values.length} worst={series.worstSeverity} warnings={series.warnings} axisLabel="the swept values" />
+      <SafetyCaution />
       <div className="grid gap-4 @3xl:grid-cols-2">
         <LineChart title={`Commanded joint rates: ${series.followed}`} yLabel="rad/s" series={charts.rates} {...common} />
         <LineChart title="Condition number of the contact Jacobian" yLabel="σmax/σmin" logY series={charts.condition} {...common} />

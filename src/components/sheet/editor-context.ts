@@ -1,14 +1,11 @@
 import { createContext, useContext } from 'react';
-import type { WarningCode, WarningSeverity } from '../../lib/kinematics';
+import type { DisplayUnits } from '../../lib/sheet/display-units';
 import type { DocumentPath } from '../../lib/sheet/document-path';
 import type { VariableScope } from '../../lib/sheet/units';
+import type { WarningNote } from '../../lib/sheet/warning-notes';
 
-export interface MarginWarning {
-  code: WarningCode;
-  severity: WarningSeverity;
-  title: string;
-  text: string;
-}
+/** A warning beside the section whose inputs cause it, with its numbers. */
+export type MarginWarning = WarningNote;
 
 /** What every section of the editor needs: the document as written, a way to change it, and where it is wrong. */
 export interface SheetEditing {
@@ -17,6 +14,8 @@ export interface SheetEditing {
   /** Issues of the sheet reader by path text ("hand.fingers[0].roller.radius"). */
   issues: ReadonlyMap<string, string>;
   variables: VariableScope;
+  /** The sheet's display units, which field hints read values back in. */
+  units: DisplayUnits;
   readOnly: boolean;
 }
 

@@ -2,6 +2,7 @@ import { useId } from 'react';
 import { getAt, pathText, type DocumentPath } from '../../lib/sheet/document-path';
 import type { QuantityKind } from '../../lib/sheet/units';
 import { useSheetEditing } from './editor-context';
+import type { PlausibleLengthKind } from '../../lib/sheet/plausibility';
 import QuantityField, { storedValue } from './QuantityField';
 import { fieldInput, selectInput } from './sheet-styles';
 
@@ -13,8 +14,8 @@ function issueAt(issues: ReadonlyMap<string, string>, path: DocumentPath): strin
 }
 
 /** A quantity of the document at path. */
-export function Quantity({ path, label, kind, placeholder }: { path: DocumentPath; label: string; kind: Kind; placeholder?: string }) {
-  const { document, update, issues, variables, readOnly } = useSheetEditing();
+export function Quantity({ path, label, kind, placeholder, plausible }: { path: DocumentPath; label: string; kind: Kind; placeholder?: string; plausible?: PlausibleLengthKind }) {
+  const { document, update, issues, variables, units, readOnly } = useSheetEditing();
   return (
     <QuantityField
       label={label}
@@ -22,6 +23,8 @@ export function Quantity({ path, label, kind, placeholder }: { path: DocumentPat
       path={pathText(path)}
       value={getAt(document, path)}
       variables={variables}
+      units={units}
+      plausible={plausible}
       issue={issueAt(issues, path)}
       disabled={readOnly}
       optional={placeholder === undefined ? undefined : { placeholder }}
@@ -31,7 +34,7 @@ export function Quantity({ path, label, kind, placeholder }: { path: DocumentPat
 }
 
 /** Three quantities [x, y, z] at path. */
-export function QuantityVector({ path, label, kind }: { path: DocumentPath; label: string; kind: Kind }) {
+export function QuantityVector({ path, label, kind, plausible }: { path: DocumentPath; label: string; kind: Kind; plausible?: PlausibleLengthKind }) {
   const { issues } = useSheetEditing();
   const whole = issueAt(issues, path);
   return (
@@ -39,7 +42,7 @@ export function QuantityVector({ path, label, kind }: { path: DocumentPath; labe
       <legend className="text-[11px] font-semibold text-ink">{label}</legend>
       <div className="grid grid-cols-3 gap-2">
         {(['x', 'y', 'z'] as const).map((axis, index) => (
-          <Quantity key={axis} path={[...path, index]} label={axis} kind={kind} />
+          <Quantity key={axis} path={[...path, index]} label={axis} kind={kind} plausible={plausible} />
         ))}
       </div>
       {whole && <span className="block text-[11px] text-sienna" role="alert">{whole}</span>}

@@ -148,7 +148,7 @@ function useColumns() {
         id: 'warnings',
         header: 'Warnings',
         enableSorting: false,
-        cell: ({ row }) => <WarningBadge worst={row.original.summary?.worst} codes={row.original.summary?.warningCodes} />,
+        cell: ({ row }) => <WarningBadge worst={row.original.summary?.worst} count={row.original.summary?.warningCount} codes={row.original.summary?.warningCodes} />,
       }),
       column.accessor('updatedAt', {
         id: 'updated',

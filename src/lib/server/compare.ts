@@ -5,10 +5,12 @@
 import type { Database } from '../../db';
 import type { Sheet } from '../../db/schema';
 import type { PlainSheetResult } from '../kinematics';
+import { DEFAULT_DISPLAY_UNITS, displayUnitsOf, type DisplayUnits } from '../sheet/display-units';
 import { diffDocuments, isRecord, pathText, type DocumentChangeKind } from '../sheet/document-path';
 import { evaluateSheet } from '../sheet/evaluate';
 import { fingerOutputs, graspOutputs, type OutputValue, type OutputValueRow } from '../sheet/outputs';
 import { formatIssuePath, type SheetIssue } from '../sheet/schema';
+import { describeWarning } from '../sheet/warning-notes';
 import { getRevision } from './sheets';
 
 export type InputChangeKind = DocumentChangeKind;
@@ -123,29 +125,34 @@ export function compareOutputs(from: PlainSheetResult, to: PlainSheetResult): Ou
   return rows;
 }
 
-/** A warning as compared: its code, severity, where it was raised and what it says. */
+/** A warning as compared: its code, severity, where it was raised, what it says, and its value and threshold in the display units. */
 export interface ComparedWarning {
   code: string;
   severity: string;
   finger: string | null;
   joint: string | null;
   message: string;
+  /** 'finger "index", joint "index-pivot"', or "grasp". */
+  where: string;
+  /** The judged value with its unit, e.g. "0.4 mm". */
+  value: string;
+  /** The threshold it crossed, with its unit. */
+  threshold: string;
 }
 
-function describeWarnings(result: PlainSheetResult): Map<string, ComparedWarning> {
+function describeWarnings(result: PlainSheetResult, units: DisplayUnits): Map<string, ComparedWarning> {
   const out = new Map<string, ComparedWarning>();
   for (const w of result.warnings) {
-    const finger = w.finger === undefined ? null : (result.fingers[w.finger]?.name ?? null);
-    const joint = w.finger === undefined || w.joint === undefined ? null : (result.fingers[w.finger]?.jointNames[w.joint] ?? null);
-    out.set(`${w.code}|${finger ?? ''}|${joint ?? ''}`, { code: w.code, severity: w.severity, finger, joint, message: w.message });
+    const { finger, joint, where, value, threshold } = describeWarning(w, result.fingers, units);
+    out.set(`${w.code}|${finger ?? ''}|${joint ?? ''}`, { code: w.code, severity: w.severity, finger, joint, message: w.message, where, value, threshold });
   }
   return out;
 }
 
-/** Warnings raised only in `to` (added), only in `from` (removed), and in both (kept, as worded in `to`). */
-export function compareWarnings(from: PlainSheetResult, to: PlainSheetResult) {
-  const before = describeWarnings(from);
-  const after = describeWarnings(to);
+/** Warnings raised only in `to` (added), only in `from` (removed), and in both (kept, as worded in `to`); numbers in `units`. */
+export function compareWarnings(from: PlainSheetResult, to: PlainSheetResult, units: DisplayUnits = DEFAULT_DISPLAY_UNITS) {
+  const before = describeWarnings(from, units);
+  const after = describeWarnings(to, units);
   return {
     added: [...after].filter(([key]) => !before.has(key)).map(([, w]) => w),
     removed: [...before].filter(([key]) => !after.has(key)).map(([, w]) => w),
@@ -171,6 +178,8 @@ export interface Comparison {
   fields: InputField[];
   outputs: OutputDifference[] | null;
   warnings: ReturnType<typeof compareWarnings> | null;
+  /** The display units of B, in which the page shows both sides (the numbers here stay SI). */
+  display: DisplayUnits;
   thresholds: { equalAbsolute: number; equalRelative: number; majorRelative: number };
 }
 
@@ -210,7 +219,8 @@ export async function compareRevisions(
     inputChanges: diffInputs(a.inputs, b.inputs),
     fields: sideBySide(a.inputs, b.inputs),
     outputs: both ? compareOutputs(both.from, both.to) : null,
-    warnings: both ? compareWarnings(both.from, both.to) : null,
+    warnings: both ? compareWarnings(both.from, both.to, displayUnitsOf(b.inputs)) : null,
+    display: displayUnitsOf(b.inputs),
     thresholds: { equalAbsolute: EQUAL_ABSOLUTE, equalRelative: EQUAL_RELATIVE, majorRelative: MAJOR_RELATIVE },
   };
 }

@@ -4,6 +4,7 @@
  * syntax, the field path, and its line, for the document).
  */
 import { findNodeAtLocation, parse, parseTree, printParseErrorCode, type Node, type ParseError } from 'jsonc-parser';
+import { SAFETY_CSV_COMMENT } from '../safety';
 import { evaluateSheet } from '../sheet/evaluate';
 import { resultsCsv } from '../sheet/results-csv';
 import { SHEET_FORMAT, SHEET_VERSION, type SheetIssue } from '../sheet/schema';
@@ -125,11 +126,14 @@ export function exportDocument(inputs: StoredDocument): StoredDocument {
   return { format: SHEET_FORMAT, version: SHEET_VERSION, ...inputs };
 }
 
-/** The per-finger results of a stored document as CSV, or the document's issues when it no longer reads. */
+/**
+ * The per-finger results of a stored document as CSV, after the safety caution as a comment line (the file carries
+ * joint rates toward a controller), or the document's issues when it no longer reads.
+ */
 export function exportResultsCsv(inputs: unknown): { ok: true; csv: string } | { ok: false; issues: SheetIssue[] } {
   const evaluated = evaluateSheet(inputs);
   if (!evaluated.ok) return { ok: false, issues: evaluated.error.issues };
-  return { ok: true, csv: `${resultsCsv(evaluated.value.doc, evaluated.value.result)}\n` };
+  return { ok: true, csv: `${SAFETY_CSV_COMMENT}\n${resultsCsv(evaluated.value.doc, evaluated.value.result)}\n` };
 }
 
 /** A plain file name for a revision's download, e.g. "peg-tilt-about-the-grip-line-r3.json". */

@@ -39,12 +39,13 @@ export interface EvaluateOptions {
   derive?: boolean;
 }
 
-/** The stored summary of a solved sheet: finger count, worst warning severity and the sorted distinct warning codes. */
+/** The stored summary of a solved sheet: finger count, worst warning severity, the sorted distinct warning codes and how many were raised. */
 function summarize(doc: SheetDocument, result: SheetResult): SheetSummary {
   return {
     fingers: doc.hand.fingers.length,
     worst: result.worstSeverity,
     warningCodes: [...new Set(result.warnings.map((w) => w.code))].sort(),
+    warningCount: result.warnings.length,
   };
 }
 

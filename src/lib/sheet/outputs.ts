@@ -5,6 +5,7 @@
  * browser may import.
  */
 import type { PlainSheetResult, SteerAccelerationStatus } from '../kinematics';
+import { DEFAULT_DISPLAY_UNITS, shownUnit, toShown, type DisplayUnits } from './display-units';
 
 export type OutputValue = number | string;
 
@@ -26,11 +27,13 @@ export function labelWithFrame(definition: OutputDefinition, table = false): str
 /** How a multi-valued output is split into named parts when listed value by value. */
 export type OutputParts = 'single' | 'xyz' | 'joints' | 'base-joints' | 'singular-values' | 'principal';
 
-/** How the editor shows a value: its unit, significant digits and the conversion from SI. */
+/**
+ * How the editor shows a value: its unit under the default display units and its significant digits. Lengths, speeds,
+ * angles and angular speeds follow the sheet's display units instead (see display-units.ts), converted by mathjs.
+ */
 export interface OutputDisplay {
   unit: string;
   digits: number;
-  fromSI: (si: number) => number;
 }
 
 /** Where the CSV export writes an output: one named column per part, or one numbered column per joint (or per base joint). */
@@ -56,9 +59,6 @@ export interface OutputDefinition {
   read: (result: PlainSheetResult, finger: number) => OutputValue | readonly number[];
 }
 
-const same = (si: number) => si;
-const milli = (si: number) => si * 1000;
-const degrees = (si: number) => (si * 180) / Math.PI;
 
 /**
  * A vector of the acceleration feed-forward, which only a sheet evaluation computes: results of a
@@ -98,8 +98,8 @@ const principal = (values: readonly number[] | null | undefined): readonly numbe
 /** A palm-frame vector, or NaN three times where it does not exist. */
 const vector = (values: readonly number[] | null | undefined): readonly number[] => values ?? [Number.NaN, Number.NaN, Number.NaN];
 
-const unitless = (digits = 4): OutputDisplay => ({ unit: '', digits, fromSI: same });
-const shown = (unit: string, fromSI = same, digits = 4): OutputDisplay => ({ unit, digits, fromSI });
+const unitless = (digits = 4): OutputDisplay => ({ unit: '', digits });
+const shown = (unit: string, digits = 4): OutputDisplay => ({ unit, digits });
 
 /**
  * Every output, per finger in the order a reader checks them (the order of the report, the
@@ -111,23 +111,23 @@ export const OUTPUTS: readonly OutputDefinition[] = [
     csv: { columns: ['contact_state'] }, read: (r, i) => r.fingers[i].contact.state,
   },
   {
-    id: 'contact.gap', label: 'gap', unit: 'm', display: shown('mm', milli), frame: null, scope: 'finger', parts: 'single', compared: true,
+    id: 'contact.gap', label: 'gap', unit: 'm', display: shown('mm'), frame: null, scope: 'finger', parts: 'single', compared: true,
     csv: { columns: ['gap_m'] }, read: (r, i) => r.fingers[i].contact.gap,
   },
   {
-    id: 'contact.objectPoint', label: 'contact point', tableLabel: 'contact point x', unit: 'm', display: shown('mm', milli), frame: 'palm', scope: 'finger',
+    id: 'contact.objectPoint', label: 'contact point', tableLabel: 'contact point x', unit: 'm', display: shown('mm'), frame: 'palm', scope: 'finger',
     parts: 'xyz', compared: true, read: (r, i) => r.fingers[i].contact.objectPoint,
   },
   {
-    id: 'contact.normal', label: 'contact normal', tableLabel: 'normal n', unit: '', display: shown('1', same, 3), frame: 'palm', scope: 'finger',
+    id: 'contact.normal', label: 'contact normal', tableLabel: 'normal n', unit: '', display: shown('1', 3), frame: 'palm', scope: 'finger',
     parts: 'xyz', compared: true, read: (r, i) => r.fingers[i].contact.normal,
   },
   {
-    id: 'contact.normalSpeed', label: 'normal speed', tableLabel: 'normal velocity', unit: 'm/s', display: shown('mm/s', milli), frame: null,
+    id: 'contact.normalSpeed', label: 'normal speed', tableLabel: 'normal velocity', unit: 'm/s', display: shown('mm/s'), frame: null,
     scope: 'finger', parts: 'single', compared: true, csv: { columns: ['normal_speed_m_s'] }, read: (r, i) => r.fingers[i].contact.normalSpeed,
   },
   {
-    id: 'contact.tangentialSpeed', label: 'tangential speed', unit: 'm/s', display: shown('mm/s', milli), frame: null, scope: 'finger', parts: 'single',
+    id: 'contact.tangentialSpeed', label: 'tangential speed', unit: 'm/s', display: shown('mm/s'), frame: null, scope: 'finger', parts: 'single',
     compared: true, csv: { columns: ['tangential_speed_m_s'] }, read: (r, i) => r.fingers[i].contact.tangentialSpeed,
   },
   {
@@ -160,11 +160,11 @@ export const OUTPUTS: readonly OutputDefinition[] = [
     compared: true, csv: { perJoint: (k) => `full_rate${k + 1}_rad_s` }, read: (r, i) => r.fingers[i].full.rates,
   },
   {
-    id: 'full.residual', label: 'slip residual (full)', tableLabel: 'full: slip residual', unit: 'm/s', display: shown('mm/s', milli), frame: null,
+    id: 'full.residual', label: 'slip residual (full)', tableLabel: 'full: slip residual', unit: 'm/s', display: shown('mm/s'), frame: null,
     scope: 'finger', parts: 'single', compared: true, csv: { columns: ['residual_m_s'] }, read: (r, i) => r.fingers[i].full.residualNorm,
   },
   {
-    id: 'full.singularValues', label: 'singular value', unit: 'm/rad', display: shown('m/rad', same, 3), frame: null, scope: 'finger',
+    id: 'full.singularValues', label: 'singular value', unit: 'm/rad', display: shown('m/rad', 3), frame: null, scope: 'finger',
     parts: 'singular-values', compared: true, csv: { columns: ['sigma1_m_rad', 'sigma2_m_rad', 'sigma3_m_rad'] },
     read: (r, i) => r.fingers[i].full.singularValues,
   },
@@ -177,7 +177,7 @@ export const OUTPUTS: readonly OutputDefinition[] = [
     compared: false, read: (r, i) => r.fingers[i].full.rank,
   },
   {
-    id: 'full.rankTolerance', label: 'rank tolerance', unit: 'm/rad', display: shown('m/rad', same, 2), frame: null, scope: 'finger', parts: 'single',
+    id: 'full.rankTolerance', label: 'rank tolerance', unit: 'm/rad', display: shown('m/rad', 2), frame: null, scope: 'finger', parts: 'single',
     compared: false, read: (r, i) => r.fingers[i].full.rankTolerance,
   },
   {
@@ -191,7 +191,7 @@ export const OUTPUTS: readonly OutputDefinition[] = [
     read: (r, i) => r.fingers[i].steer.baseRates,
   },
   {
-    id: 'steer.pivotAngle', label: 'pivot angle (steer-and-roll)', tableLabel: 'steer: pivot angle', unit: 'rad', display: shown('deg', degrees),
+    id: 'steer.pivotAngle', label: 'pivot angle (steer-and-roll)', tableLabel: 'steer: pivot angle', unit: 'rad', display: shown('deg'),
     frame: null, scope: 'finger', parts: 'single', compared: true, csv: { columns: ['steer_pivot_angle_rad'] },
     read: (r, i) => r.fingers[i].steer.pivotAngle,
   },
@@ -200,11 +200,11 @@ export const OUTPUTS: readonly OutputDefinition[] = [
     scope: 'finger', parts: 'single', compared: true, csv: { columns: ['steer_roll_rate_rad_s'] }, read: (r, i) => r.fingers[i].steer.rollRate,
   },
   {
-    id: 'steer.residual', label: 'slip residual (steer-and-roll)', unit: 'm/s', display: shown('mm/s', milli), frame: null, scope: 'finger',
+    id: 'steer.residual', label: 'slip residual (steer-and-roll)', unit: 'm/s', display: shown('mm/s'), frame: null, scope: 'finger',
     parts: 'single', compared: true, csv: { columns: ['steer_residual_m_s'] }, read: (r, i) => r.fingers[i].steer.residualNorm,
   },
   {
-    id: 'contact.tangentialVelocity', label: 'tangential velocity', unit: 'm/s', display: shown('mm/s', milli), frame: 'palm', scope: 'finger',
+    id: 'contact.tangentialVelocity', label: 'tangential velocity', unit: 'm/s', display: shown('mm/s'), frame: 'palm', scope: 'finger',
     parts: 'xyz', compared: false, read: (r, i) => r.fingers[i].contact.tangentialVelocity,
   },
   {
@@ -212,15 +212,15 @@ export const OUTPUTS: readonly OutputDefinition[] = [
     parts: 'single', compared: false, read: (r, i) => r.fingers[i].steer.rateDifferenceNorm,
   },
   {
-    id: 'steer.conditionBefore', label: 'condition before steering', unit: '', display: shown('1', same, 3), frame: null, scope: 'finger',
+    id: 'steer.conditionBefore', label: 'condition before steering', unit: '', display: shown('1', 3), frame: null, scope: 'finger',
     parts: 'single', compared: false, read: (r, i) => r.fingers[i].steer.conditionBefore,
   },
   {
-    id: 'steer.conditionAfter', label: 'condition after steering', unit: '', display: shown('1', same, 3), frame: null, scope: 'finger',
+    id: 'steer.conditionAfter', label: 'condition after steering', unit: '', display: shown('1', 3), frame: null, scope: 'finger',
     parts: 'single', compared: false, read: (r, i) => r.fingers[i].steer.conditionAfter,
   },
   {
-    id: 'steer.driveSingularValues', label: 'singular value of the drive columns', unit: 'm/rad', display: shown('m/rad', same, 3), frame: null,
+    id: 'steer.driveSingularValues', label: 'singular value of the drive columns', unit: 'm/rad', display: shown('m/rad', 3), frame: null,
     scope: 'finger', parts: 'singular-values', compared: false, read: (r, i) => r.fingers[i].steer.driveSingularValues,
   },
   {
@@ -228,7 +228,7 @@ export const OUTPUTS: readonly OutputDefinition[] = [
     compared: false, read: (r, i) => r.fingers[i].driveRank,
   },
   {
-    id: 'jointAngles', label: 'joint angle', tableLabel: 'angle, deg', unit: 'rad', display: shown('deg', degrees), frame: null, scope: 'joint',
+    id: 'jointAngles', label: 'joint angle', tableLabel: 'angle', unit: 'rad', display: shown('deg'), frame: null, scope: 'joint',
     parts: 'joints', compared: false, read: (r, i) => r.fingers[i].jointAngles,
   },
   {
@@ -313,12 +313,12 @@ export const OUTPUTS: readonly OutputDefinition[] = [
   },
   {
     id: 'curvature.wander.rollerSpeed', label: 'contact-point speed over the roller', tableLabel: 'speed over the roller', unit: 'm/s',
-    display: shown('mm/s', milli), frame: null, scope: 'finger', parts: 'single', compared: true, csv: { columns: ['wander_roller_m_s'] },
+    display: shown('mm/s'), frame: null, scope: 'finger', parts: 'single', compared: true, csv: { columns: ['wander_roller_m_s'] },
     read: (r, i) => r.fingers[i].curvature?.wander.rollerSpeed ?? Number.NaN,
   },
   {
     id: 'curvature.wander.objectSpeed', label: 'contact-point speed over the object', tableLabel: 'speed over the object', unit: 'm/s',
-    display: shown('mm/s', milli), frame: null, scope: 'finger', parts: 'single', compared: true, csv: { columns: ['wander_object_m_s'] },
+    display: shown('mm/s'), frame: null, scope: 'finger', parts: 'single', compared: true, csv: { columns: ['wander_object_m_s'] },
     read: (r, i) => r.fingers[i].curvature?.wander.objectSpeed ?? Number.NaN,
   },
   {
@@ -330,25 +330,25 @@ export const OUTPUTS: readonly OutputDefinition[] = [
     scope: 'finger', parts: 'single', compared: false, read: (r, i) => r.fingers[i].curvature?.roller.region ?? 'not computed',
   },
   {
-    id: 'curvature.object.direction', label: 'object direction of κ1', tableLabel: 'object κ1 direction', unit: '', display: shown('1', same, 3),
+    id: 'curvature.object.direction', label: 'object direction of κ1', tableLabel: 'object κ1 direction', unit: '', display: shown('1', 3),
     frame: 'palm', scope: 'finger', parts: 'xyz', compared: false, read: (r, i) => vector(r.fingers[i].curvature?.object.principalDirections?.[0]),
   },
   {
-    id: 'curvature.roller.direction', label: 'roller direction of κ1', tableLabel: 'roller κ1 direction', unit: '', display: shown('1', same, 3),
+    id: 'curvature.roller.direction', label: 'roller direction of κ1', tableLabel: 'roller κ1 direction', unit: '', display: shown('1', 3),
     frame: 'palm', scope: 'finger', parts: 'xyz', compared: false, read: (r, i) => vector(r.fingers[i].curvature?.roller.principalDirections?.[0]),
   },
   {
-    id: 'curvature.relative.direction', label: 'relative direction of κ1', tableLabel: 'relative κ1 direction', unit: '', display: shown('1', same, 3),
+    id: 'curvature.relative.direction', label: 'relative direction of κ1', tableLabel: 'relative κ1 direction', unit: '', display: shown('1', 3),
     frame: 'palm', scope: 'finger', parts: 'xyz', compared: false, read: (r, i) => vector(r.fingers[i].curvature?.relative.principalDirections?.[0]),
   },
   {
     id: 'curvature.wander.rollerVelocity', label: 'contact-point velocity over the roller', tableLabel: 'velocity over the roller', unit: 'm/s',
-    display: shown('mm/s', milli), frame: 'palm', scope: 'finger', parts: 'xyz', compared: false,
+    display: shown('mm/s'), frame: 'palm', scope: 'finger', parts: 'xyz', compared: false,
     read: (r, i) => vector(r.fingers[i].curvature?.wander.rollerVelocity),
   },
   {
     id: 'curvature.wander.objectVelocity', label: 'contact-point velocity over the object', tableLabel: 'velocity over the object', unit: 'm/s',
-    display: shown('mm/s', milli), frame: 'palm', scope: 'finger', parts: 'xyz', compared: false,
+    display: shown('mm/s'), frame: 'palm', scope: 'finger', parts: 'xyz', compared: false,
     read: (r, i) => vector(r.fingers[i].curvature?.wander.objectVelocity),
   },
   {
@@ -403,18 +403,23 @@ export function formatShownNumber(x: number, digits = 4): string {
   return String(Object.is(rounded, -0) ? 0 : rounded);
 }
 
+/** The unit an output is shown in under the sheet's display units. */
+export function displayUnit(definition: OutputDefinition, units: DisplayUnits = DEFAULT_DISPLAY_UNITS): string {
+  return shownUnit(definition.unit, units, definition.display.unit);
+}
+
 /** One SI number of an output in its display unit, as text. */
-export function displayNumber(definition: OutputDefinition, si: number): string {
-  return formatShownNumber(definition.display.fromSI(si), definition.display.digits);
+export function displayNumber(definition: OutputDefinition, si: number, units: DisplayUnits = DEFAULT_DISPLAY_UNITS): string {
+  return formatShownNumber(toShown(si, definition.unit, units), definition.display.digits);
 }
 
 /** An output's value in its display unit, as text: vectors in parentheses, text as it is. */
-export function displayValue(definition: OutputDefinition, value: OutputValue | readonly number[]): string {
+export function displayValue(definition: OutputDefinition, value: OutputValue | readonly number[], units: DisplayUnits = DEFAULT_DISPLAY_UNITS): string {
   if (typeof value === 'string') return value;
-  if (typeof value === 'number') return displayNumber(definition, value);
+  if (typeof value === 'number') return displayNumber(definition, value, units);
   // The usual finger has one base joint: its rate reads as a number, not as a one-entry vector.
-  if (definition.parts === 'base-joints' && value.length === 1) return displayNumber(definition, value[0]!);
-  return `(${value.map((x) => displayNumber(definition, x)).join(', ')})`;
+  if (definition.parts === 'base-joints' && value.length === 1) return displayNumber(definition, value[0]!, units);
+  return `(${value.map((x) => displayNumber(definition, x, units)).join(', ')})`;
 }
 
 const XYZ = ['x', 'y', 'z'];
@@ -465,4 +470,14 @@ export function graspOutputs(result: PlainSheetResult): OutputValueRow[] {
 /** The main outputs of a result, finger by finger and then the grasp, in the order a reader checks them. */
 export function listOutputs(result: PlainSheetResult): OutputValueRow[] {
   return [...result.fingers.flatMap((_, i) => fingerOutputs(result, i)), ...graspOutputs(result)];
+}
+
+/**
+ * A number or vector in SI (`siUnit`) as text in the sheet's display units with its unit, e.g. "(12, 0, 3.5) mm"; a ratio ("1" or "")
+ * is shown bare. The derivation's values read through it, its formulas stay in SI.
+ */
+export function formatShownQuantity(value: number | readonly number[], siUnit: string, units: DisplayUnits = DEFAULT_DISPLAY_UNITS, digits = 4): string {
+  const number = (x: number) => formatShownNumber(toShown(x, siUnit, units), digits);
+  const text = typeof value === 'number' ? number(value) : `(${value.map(number).join(', ')})`;
+  return siUnit === '1' || siUnit === '' ? text : `${text} ${shownUnit(siUnit, units)}`;
 }

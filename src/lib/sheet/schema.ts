@@ -21,6 +21,7 @@ import type {
   Twist,
   Vec3Tuple,
 } from './types';
+import { ANGLE_UNITS, ANGULAR_SPEED_UNITS, DEFAULT_DISPLAY_UNITS, LENGTH_UNITS, type DisplayUnits } from './display-units';
 import {
   createExpressionBudget,
   MAX_EXPRESSION_LENGTH,
@@ -177,7 +178,8 @@ interface QuantityRange {
 function quantity(kind: QuantityKind, id: string, range: QuantityRange = {}) {
   const text = kind === 'any' ? 'a quantity: a number in SI units or a string with a unit' : quantityText(kind);
   const read = z
-    .union([z.number(), z.string().trim().min(1).max(MAX_EXPRESSION_LENGTH)], { error: expect(`expected ${text}`) })
+    // An empty text is a field added but not yet filled ("Add rate limit"): required, like a missing one.
+    .union([z.number(), z.string().trim().min(1, { error: MISSING }).max(MAX_EXPRESSION_LENGTH)], { error: expect(`expected ${text}`) })
     .transform((value, ctx) => {
       const result = parseQuantity(value, kind, activeVariables, activeBudget);
       if (!result.ok) {
@@ -578,6 +580,19 @@ const sweepSchema = z
 
 named(sweepSchema, 'Sweep', 'Vary one numeric input (JSON pointer into the SI document) over a range');
 
+const unitChoice = <T extends readonly [string, ...string[]]>(units: T) =>
+  z.enum(units, { error: expect(`expected one of ${units.map((u) => `"${u}"`).join(', ')}`) });
+
+const displaySchema = z
+  .strictObject({
+    length: unitChoice(LENGTH_UNITS).default(DEFAULT_DISPLAY_UNITS.length),
+    angle: unitChoice(ANGLE_UNITS).default(DEFAULT_DISPLAY_UNITS.angle),
+    angularSpeed: unitChoice(ANGULAR_SPEED_UNITS).default(DEFAULT_DISPLAY_UNITS.angularSpeed),
+  })
+  .transform((d): DisplayUnits => d);
+
+named(displaySchema, 'DisplayUnits', 'Units the sheet shows its numbers in (results, derivation, comparison, report); inputs and exports stay SI. Defaults: mm, deg, rad/s');
+
 /** Value at a JSON pointer (RFC 6901) inside a parsed document, or undefined when it does not resolve. */
 export function resolvePointer(root: unknown, pointer: string): unknown {
   if (pointer === '') return root;
@@ -620,6 +635,7 @@ export const sheetSchema = z
       'CommandedSolution',
       'Which joint rates go to the controller, and which runs, sweeps, exports and log comparisons follow: "steer-and-roll" (fingers with a base, a pivot and a roll joint steer their pivot and roll; any other finger takes the full solution) or "full" (the damped least-squares rates for every finger); "steer-and-roll" when absent',
     ),
+    display: displaySchema.optional(),
   })
   .transform((d, ctx): SheetDocument => {
     const doc: SheetDocument = {
@@ -636,6 +652,7 @@ export const sheetSchema = z
     if (d.variables !== undefined) doc.variables = d.variables;
     if (d.notes !== undefined) doc.notes = d.notes;
     if (d.commanded !== undefined) doc.commanded = d.commanded;
+    if (d.display !== undefined) doc.display = d.display;
     if (d.graspQuality !== undefined) {
       const perFinger = d.graspQuality.coneEdges + (d.solver.softFinger && d.graspQuality.torsionalFriction > 0 ? 2 : 0);
       const generators = perFinger * d.hand.fingers.length;

@@ -1,3 +1,4 @@
+import type { DisplayUnits } from './display-units';
 /**
  * The parsed sheet document (format version 1) as the kinematics core consumes it.
  * Every quantity is in SI units (m, rad, s) and every vector is in the palm (world) frame
@@ -155,4 +156,6 @@ export interface SheetDocument {
   variables?: string;
   /** Notes in Markdown with $math$. */
   notes?: string;
+  /** The units the sheet's numbers are shown in (results, derivation, comparison, report); absent means the defaults. */
+  display?: DisplayUnits;
 }

@@ -28,8 +28,8 @@ const math = create(
   { predictable: true },
 );
 // min and max are left out on purpose: "min" must stay the unit minute.
-// Motor data sheets give speeds in revolutions per minute; 1 rpm = 2 pi rad / 60 s.
-math.createUnit('rpm', `${(2 * Math.PI) / 60} rad/s`);
+// Motor data sheets give speeds in revolutions per minute: one cycle (a full turn, 2 pi rad) per minute.
+math.createUnit('rpm', '1 cycle/min');
 
 const parseText = math.parse;
 const { Unit: UnitType } = math;
@@ -478,4 +478,21 @@ export function formatQuantity(
 ): string {
   const shown = Number(fromSI(valueSI, kind, displayUnit).toPrecision(significantDigits));
   return `${Object.is(shown, -0) ? 0 : shown} ${displayUnit}`;
+}
+
+const factors = new Map<string, number>();
+
+/**
+ * How many `to` make one `from`, by mathjs (e.g. 1000 from "m" to "mm", 60 / (2 pi) from "rad/s" to "rpm"); cached per pair,
+ * since the results redraw hundreds of numbers per keystroke. Only for units without an offset (no temperatures), so a factor is the whole conversion.
+ */
+export function unitFactor(from: string, to: string): number {
+  if (from === to) return 1;
+  const key = `${from}\u0000${to}`;
+  let factor = factors.get(key);
+  if (factor === undefined) {
+    factor = math.unit(1, from).toNumber(to);
+    factors.set(key, factor);
+  }
+  return factor;
 }

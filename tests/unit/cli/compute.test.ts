@@ -1,4 +1,5 @@
 import { execFile } from 'node:child_process';
+import { SAFETY_CAUTION, SAFETY_CAUTION_TEXT } from '../../../src/lib/safety';
 import { mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -72,9 +73,11 @@ describe('compute CLI', () => {
     const outcomes = await Promise.all(sheets.map((name) => compute(join('content', 'sheets', name))));
     outcomes.forEach((outcome, i) => {
       const source = JSON.parse(readFileSync(join(sheetsDir, sheets[i]!), 'utf8')) as { title: string; hand: { fingers: unknown[] } };
-      expect(outcome.stderr, sheets[i]).toBe('');
+      // Only the safety caution on standard error: the output carries joint rates (wording from src/lib/safety.ts).
+      expect(outcome.stderr, sheets[i]).toBe(`${SAFETY_CAUTION}\n`);
       expect(outcome.code, sheets[i]).toBe(0);
-      const output = JSON.parse(outcome.stdout) as { title: string; result: { fingers: { full: { rates: number[] } }[]; warnings: unknown[] } };
+      const output = JSON.parse(outcome.stdout) as { title: string; safety: string; result: { fingers: { full: { rates: number[] } }[]; warnings: unknown[] } };
+      expect(output.safety).toBe(SAFETY_CAUTION_TEXT);
       expect(output.title).toBe(source.title);
       expect(output.result.fingers.length).toBe(source.hand.fingers.length);
       expect(Array.isArray(output.result.warnings)).toBe(true);

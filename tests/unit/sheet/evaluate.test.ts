@@ -53,6 +53,7 @@ describe('evaluateSheet', () => {
       fingers: parsed.doc.hand.fingers.length,
       worst: solved.worstSeverity,
       warningCodes: [...new Set(solved.warnings.map((w) => w.code))].sort(),
+      warningCount: solved.warnings.length,
     });
     expect('derivation' in evaluated.value).toBe(false);
   });

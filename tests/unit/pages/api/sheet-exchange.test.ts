@@ -1,4 +1,5 @@
 import { readFileSync } from 'node:fs';
+import { SAFETY_CAUTION_TEXT } from '../../../../src/lib/safety';
 import { beforeAll, describe, expect, it } from 'vitest';
 import type { Role } from '../../../../src/lib/roles';
 import { solveSheet } from '../../../../src/lib/kinematics';
@@ -118,13 +119,15 @@ describe('GET /api/sheets/{id}/export', () => {
     expect(detail.sheet.title).toBe(example.title);
   });
 
-  it('exports the results as CSV: a header with units and one row per finger', async () => {
+  it('exports the results as CSV: the safety caution as a comment line, a header with units and one row per finger', async () => {
     const sheetId = await createSheet(people.editor);
     const response = await exportRoute.GET(apiContext({ url: url(`/api/sheets/${sheetId}/export?format=csv`), params: { sheetId }, identity: people.reviewer }));
     expect(response.status).toBe(200);
     expect(response.headers.get('content-type')).toMatch(/^text\/csv/);
     expect(response.headers.get('content-disposition')).toMatch(/filename="peg-tilt-exchange-r1\.csv"/);
-    const lines = (await response.text()).trimEnd().split('\n');
+    const [comment, ...lines] = (await response.text()).trimEnd().split('\n');
+    // A "#" comment line, which CSV readers such as pandas (comment='#') and papaparse (comments: '#') skip (common practice).
+    expect(comment).toBe(`# Safety: ${SAFETY_CAUTION_TEXT}`);
     expect(lines.length).toBe(1 + example.hand.fingers.length);
     const header = lines[0].split(',');
     expect(header.slice(0, 3)).toEqual(['finger', 'contact_state', 'gap_m']);

@@ -1,0 +1,73 @@
+/**
+ * A raised warning as a person reads it: what, where (finger and joint by name), the judged value
+ * and the threshold it crossed, both in the sheet's display units. The editor's margin notes, the
+ * report and the comparison all read it; a leaf module the browser may import.
+ */
+import { WARNING_CATALOGUE, type WarningCode, type WarningSeverity } from '../kinematics';
+import { DEFAULT_DISPLAY_UNITS, shownUnit, toShown, type DisplayUnits } from './display-units';
+import { formatShownNumber } from './outputs';
+
+/** What a note needs of a raised warning: finger and joint are indices into the hand. */
+export interface RaisedWarning {
+  code: WarningCode;
+  severity: WarningSeverity;
+  finger: number | undefined;
+  joint: number | undefined;
+  message: string;
+  value: number;
+  threshold: number;
+}
+
+/** The names a note puts in place of indices. */
+export interface NamedFinger {
+  name: string;
+  jointNames: readonly string[];
+}
+
+export interface WarningNote {
+  code: WarningCode;
+  severity: WarningSeverity;
+  title: string;
+  message: string;
+  /** Finger name, or null for a warning of the whole grasp. */
+  finger: string | null;
+  /** Joint name, or null when the warning concerns the finger (or the grasp) as a whole. */
+  joint: string | null;
+  /** Where, in words: 'finger "index", joint "index-pivot"', or "grasp". */
+  where: string;
+  /** The judged value with its unit, e.g. "0.4 mm". */
+  value: string;
+  /** The threshold with its unit, e.g. "1 mm". */
+  threshold: string;
+  /** What value and threshold are, from the catalogue. */
+  valueMeaning: string;
+  thresholdMeaning: string;
+}
+
+/** A catalogue quantity in the display units, as text with its unit ("1" is a ratio or count, shown bare). */
+function quantityText(valueSI: number, siUnit: string, units: DisplayUnits): string {
+  const number = formatShownNumber(toShown(valueSI, siUnit, units), 4);
+  return siUnit === '1' ? number : `${number} ${shownUnit(siUnit, units)}`;
+}
+
+/** A raised warning with its finger and joint named and its numbers in the display units. */
+export function describeWarning(warning: RaisedWarning, fingers: readonly NamedFinger[], units: DisplayUnits = DEFAULT_DISPLAY_UNITS): WarningNote {
+  const info = WARNING_CATALOGUE[warning.code];
+  const owner = warning.finger === undefined ? undefined : fingers[warning.finger];
+  const finger = warning.finger === undefined ? null : (owner?.name ?? `finger ${warning.finger + 1}`);
+  const joint = warning.finger === undefined || warning.joint === undefined ? null : (owner?.jointNames[warning.joint] ?? `joint ${warning.joint + 1}`);
+  const where = finger === null ? 'grasp' : joint === null ? `finger "${finger}"` : `finger "${finger}", joint "${joint}"`;
+  return {
+    code: warning.code,
+    severity: warning.severity,
+    title: info.title,
+    message: warning.message,
+    finger,
+    joint,
+    where,
+    value: quantityText(warning.value, info.unit, units),
+    threshold: quantityText(warning.threshold, info.unit, units),
+    valueMeaning: info.valueMeaning,
+    thresholdMeaning: info.thresholdMeaning,
+  };
+}
