@@ -13,6 +13,7 @@ import ObjectSection from './ObjectSection';
 import PadSection from './PadSection';
 import QueryRoot from '../QueryRoot';
 import ResultsSection from './ResultsSection';
+import ResultsSummary from './ResultsSummary';
 import SavePanel from './SavePanel';
 import SceneView from './SceneView';
 import TitleBlock from './TitleBlock';
@@ -254,7 +255,11 @@ function Editor({ data }: { data: SheetPageData }) {
               </div>
             )}
           </div>
-          <aside className="space-y-4 xl:sticky xl:top-4 xl:self-start" aria-label="Views, runs and sweeps">
+          <aside className="space-y-4" aria-label="Summary, views, runs and sweeps">
+            {/* The aside spans the pad's height, so the summary stays pinned while everything below it scrolls past. */}
+            <div className="sticky top-0 z-20 bg-paper pt-2">
+              <ResultsSummary result={result} document={lastGood?.document ?? null} stale={pending || (reply !== null && !reply.ok)} />
+            </div>
             <SideViews solved={deferred} />
           </aside>
         </div>
