@@ -7,6 +7,8 @@ import { SEVERITY_COLOURS } from '../../lib/view/palette';
 import { describeStopReason, severityRuns, type JointSeries, type RunSeries } from '../../lib/view/series';
 import JobProgress from './JobProgress';
 import { RUN_JOBS, useWorkerJob } from './useWorkerJob';
+import { SHORTCUTS, withShortcut } from '../../lib/view/shortcuts';
+import { useShortcut } from './useShortcut';
 
 const DEGREES = 180 / Math.PI;
 const SEVERITY_NAMES = ['none', 'note', 'caution', 'singular'] as const;
@@ -74,6 +76,8 @@ export default function RunPanel({ document }: { document: SheetDocument }) {
   const { state, start, cancel } = useWorkerJob(RUN_JOBS);
   const ranWith = useRef<SheetDocument | null>(null);
   const run = document.motion.run;
+  const runButton = useRef<HTMLButtonElement>(null);
+  useShortcut('run', () => runButton.current?.click());
 
   function startRun() {
     ranWith.current = document;
@@ -93,7 +97,15 @@ export default function RunPanel({ document }: { document: SheetDocument }) {
             {run.noise && ' · with sensor noise'}
           </p>
         </div>
-        <button type="button" className={`${primaryButton} ml-auto`} onClick={startRun} disabled={state.status === 'running'}>
+        <button
+          ref={runButton}
+          type="button"
+          className={`${primaryButton} ml-auto`}
+          onClick={startRun}
+          disabled={state.status === 'running'}
+          aria-keyshortcuts={SHORTCUTS.run.keys}
+          title={withShortcut('Run toward the target pose', 'run')}
+        >
           {state.status === 'done' ? 'Run again' : 'Run'}
         </button>
       </div>

@@ -1,10 +1,12 @@
 import { useMutation } from '@tanstack/react-query';
-import { useState } from 'react';
+import { useRef, useState } from 'react';
 import { ApiError, requestJson } from '../../lib/client/api';
 import type { CreatedSheet, LatestRevision, SavedRevision, StaleSaveError, Wire } from '../../lib/contract';
 import type { StoredDocument } from '../../lib/sheet/summary';
 import { describeValue, diffDocuments, pathText, rebaseDocument, type DocumentChange } from '../../lib/sheet/document-path';
+import { SHORTCUTS, withShortcut } from '../../lib/view/shortcuts';
 import { button, fieldInput, primaryButton } from './sheet-styles';
+import { useShortcut } from './useShortcut';
 
 /** The stale save's 409: someone saved after our base; the error carries their revision, so the conflict panel needs no second request. */
 function staleSave(error: unknown): StaleSaveError | null {
@@ -46,6 +48,9 @@ export default function SavePanel(props: SavePanelProps) {
   const conflict = theirs?.number ?? null;
   const [notice, setNotice] = useState<string | null>(null);
   const [forkTeam, setForkTeam] = useState(props.forkTargets[0]?.teamId ?? '');
+  const saveButton = useRef<HTMLButtonElement>(null);
+  // A click keeps the button's own rules: nothing happens while it is disabled (no changes, saving).
+  useShortcut('save', () => saveButton.current?.click());
 
   const save = useMutation({
     mutationFn: (input: { base: number; doc: StoredDocument }) =>
@@ -118,7 +123,14 @@ export default function SavePanel(props: SavePanelProps) {
           revision message
           <input className={`${fieldInput} font-sans`} value={message} maxLength={500} placeholder="What changed and why" onChange={(event) => setMessage(event.target.value)} />
         </label>
-        <button type="submit" className={primaryButton} disabled={save.isPending || !props.dirty} title={props.readsCleanly ? undefined : 'The sheet has errors; saving keeps them out of the stored revision only if fixed'}>
+        <button
+          ref={saveButton}
+          type="submit"
+          className={primaryButton}
+          disabled={save.isPending || !props.dirty}
+          aria-keyshortcuts={SHORTCUTS.save.keys}
+          title={withShortcut(props.readsCleanly ? 'Save revision' : 'The sheet has errors; saving keeps them out of the stored revision only if fixed', 'save')}
+        >
           {save.isPending ? 'Saving…' : 'Save revision'}
         </button>
         <button type="button" className={button} disabled={fork.isPending} onClick={() => fork.mutate()}>
