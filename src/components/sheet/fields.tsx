@@ -30,6 +30,24 @@ export function Quantity({ path, label, kind, placeholder }: { path: DocumentPat
   );
 }
 
+/**
+ * The x, y, z (or w, x, y, z) heads over a vector's inputs. Each input is labelled in full
+ * ("roller centre at home x") for assistive technology, with the label hidden: the vector's legend
+ * and these heads already say it on screen.
+ */
+export function ComponentHeads({ parts }: { parts: readonly string[] }) {
+  return (
+    <div className={`grid ${parts.length === 4 ? 'grid-cols-4' : 'grid-cols-3'} gap-2 text-[11px] uppercase tracking-wide text-graphite`} aria-hidden>
+      {parts.map((part) => (
+        <span key={part}>{part}</span>
+      ))}
+    </div>
+  );
+}
+
+/** Hides the full labels of a vector's inputs on screen (see ComponentHeads). */
+export const HIDDEN_LABELS = '[&_label]:sr-only';
+
 /** Three quantities [x, y, z] at path. */
 export function QuantityVector({ path, label, kind }: { path: DocumentPath; label: string; kind: Kind }) {
   const { issues } = useSheetEditing();
@@ -37,9 +55,10 @@ export function QuantityVector({ path, label, kind }: { path: DocumentPath; labe
   return (
     <fieldset className="min-w-0">
       <legend className="text-[11px] font-semibold text-ink">{label}</legend>
-      <div className="grid grid-cols-3 gap-2">
+      <ComponentHeads parts={['x', 'y', 'z']} />
+      <div className={`grid grid-cols-3 gap-2 ${HIDDEN_LABELS}`}>
         {(['x', 'y', 'z'] as const).map((axis, index) => (
-          <Quantity key={axis} path={[...path, index]} label={axis} kind={kind} />
+          <Quantity key={axis} path={[...path, index]} label={`${label} ${axis}`} kind={kind} />
         ))}
       </div>
       {whole && <span className="block text-[11px] text-sienna" role="alert">{whole}</span>}
@@ -77,9 +96,10 @@ export function DirectionVector({ path, label }: { path: DocumentPath; label: st
   return (
     <fieldset className="min-w-0">
       <legend className="text-[11px] font-semibold text-ink">{label}</legend>
-      <div className="grid grid-cols-3 gap-2">
+      <ComponentHeads parts={['x', 'y', 'z']} />
+      <div className={`grid grid-cols-3 gap-2 ${HIDDEN_LABELS}`}>
         {(['x', 'y', 'z'] as const).map((axis, index) => (
-          <PlainNumber key={axis} path={[...path, index]} label={axis} />
+          <PlainNumber key={axis} path={[...path, index]} label={`${label} ${axis}`} />
         ))}
       </div>
       {whole && <span className="block text-[11px] text-sienna" role="alert">{whole}</span>}
