@@ -46,7 +46,7 @@ describe('sheet list, history and comparison', () => {
     for (const title of DEMO_TITLES) expect(titles).toContain(title);
     const fork = page.locator('tr[data-sheet-title="Peg: tilt with 16 mm rollers"]');
     expect(await fork.getByTestId('forked-from').innerText()).toMatch(/forked from Peg: tilt about the grip line r3/);
-    expect(await page.locator('tr[data-sheet-title="Peg: tilt about the grip line"] td').nth(3).innerText()).toBe('r3');
+    expect(await page.locator('tr[data-sheet-title="Peg: tilt about the grip line"] td').nth(3).innerText()).toBe('rev 3');
     // The demo checker signed the peg sheet's revision 3 as checked and returned the retrofit sheet's revision 2.
     expect(await page.locator('tr[data-sheet-title="Peg: tilt about the grip line"] [data-review-badge]').innerText()).toBe('checked r3');
     expect(await page.locator('tr[data-sheet-title="Retrofit fingers: mounting review"] [data-review-badge]').innerText()).toBe('returned for correction r2');
@@ -86,7 +86,7 @@ describe('sheet list, history and comparison', () => {
   });
 
   it('opens the history of the peg sheet with its three revisions and its fork', async () => {
-    await page.locator('tr[data-sheet-title="Peg: tilt about the grip line"]').getByRole('link', { name: 'r3' }).click();
+    await page.locator('tr[data-sheet-title="Peg: tilt about the grip line"]').getByRole('link', { name: 'rev 3' }).click();
     await page.waitForURL(/\/sheets\/[^/]+\/history$/);
     expect(await page.locator('tr[data-revision]').count()).toBe(3);
     expect(await page.getByTestId('fork-list').innerText()).toMatch(/Peg: tilt with 16 mm rollers/);

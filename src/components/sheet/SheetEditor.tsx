@@ -1,5 +1,6 @@
 import { lazy, memo, Suspense, useCallback, useDeferredValue, useEffect, useMemo, useState } from 'react';
 import { WARNING_CATALOGUE, type WarningCode } from '../../lib/kinematics';
+import { formatWhen } from '../../lib/client/api';
 import type { SheetPageData } from '../../lib/contract';
 import { setAt, type DocumentPath } from '../../lib/sheet/document-path';
 import { parseVariables } from '../../lib/sheet/units';
@@ -161,7 +162,7 @@ function Editor({ data }: { data: SheetPageData }) {
         />
         {restored && (
           <p className="mt-3 border-l-4 border-note pl-3 text-sm" role="status">
-            Restored your unsaved changes from {new Date(restored).toLocaleString()}.{' '}
+            Restored your unsaved changes from {formatWhen(restored)}.{' '}
             <button
               type="button"
               className="underline"
