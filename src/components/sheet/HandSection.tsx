@@ -60,8 +60,14 @@ function JointRow({ finger, joint }: { finger: number; joint: number }) {
             <Quantity path={[...base, 'limits', 'max']} label={`${name} upper limit`} kind="angle" />
           </div>
         ) : (
-          <button type="button" className={`${button} w-full text-xs`} disabled={readOnly} onClick={() => update([...base, 'limits'], { min: '-90 deg', max: '90 deg' })}>
-            Add joint limits
+          <button
+            type="button"
+            className={`${button} w-full text-xs`}
+            disabled={readOnly}
+            aria-label={`Add joint limits to ${name}`}
+            onClick={() => update([...base, 'limits'], { min: '-90 deg', max: '90 deg' })}
+          >
+            Add
           </button>
         )}
       </td>
@@ -69,8 +75,8 @@ function JointRow({ finger, joint }: { finger: number; joint: number }) {
         {rateLimit !== undefined ? (
           <Quantity path={[...base, 'rateLimit']} label={`${name} rate limit`} kind="angularSpeed" />
         ) : (
-          <button type="button" className={`${button} w-full text-xs`} disabled={readOnly} onClick={() => update([...base, 'rateLimit'], '5 rad/s')}>
-            Add rate limit
+          <button type="button" className={`${button} w-full text-xs`} disabled={readOnly} aria-label={`Add rate limit to ${name}`} onClick={() => update([...base, 'rateLimit'], '5 rad/s')}>
+            Add
           </button>
         )}
       </td>
@@ -93,13 +99,13 @@ function JointHead() {
   return (
     <thead>
       <tr className="border-b border-ink text-left align-bottom text-[11px] uppercase tracking-wide text-graphite">
-        <th className="w-[8rem] py-1 pr-2 font-normal">joint</th>
-        <th className="w-[5.5rem] py-1 pr-2 font-normal">role</th>
-        <th className="w-[11rem] py-1 pr-2 font-normal">{vector('axis at home (unit)')}</th>
-        <th className="w-[14rem] py-1 pr-2 font-normal">{vector('point on the axis')}</th>
-        <th className="w-[5.5rem] py-1 pr-2 font-normal">angle</th>
-        <th className="w-[10rem] py-1 pr-2 font-normal">limits: lower, upper</th>
-        <th className="w-[6rem] py-1 font-normal">rate limit</th>
+        <th className="w-[6.5rem] py-1 pr-2 font-normal">joint</th>
+        <th className="w-[4.75rem] py-1 pr-2 font-normal">role</th>
+        <th className="w-[8.5rem] py-1 pr-2 font-normal">{vector('axis at home (unit)')}</th>
+        <th className="w-[11rem] py-1 pr-2 font-normal">{vector('point on the axis')}</th>
+        <th className="w-[4.5rem] py-1 pr-2 font-normal">angle</th>
+        <th className="w-[8.5rem] py-1 pr-2 font-normal">limits: lower, upper</th>
+        <th className="w-[4.5rem] py-1 font-normal">rate limit</th>
       </tr>
     </thead>
   );
@@ -111,7 +117,7 @@ function JointHead() {
  * has the focus.
  */
 const COMPACT_CELLS =
-  '[&_label]:sr-only [&_input]:px-1 [&_input]:text-xs [&_select]:px-1 [&_select]:text-xs [&_td:not(:focus-within)_span:has(>[data-si])]:hidden';
+  '[&_label]:sr-only [&_input]:px-1 [&_input]:text-xs [&_button]:px-1 [&_select]:px-1 [&_select]:text-xs [&_td:not(:focus-within)_span:has(>[data-si])]:hidden';
 
 function RollerFields({ finger }: { finger: number }) {
   const { document, update } = useSheetEditing();
@@ -212,7 +218,7 @@ export default function HandSection({ parsed }: { parsed: SheetDocument | null }
             </div>
             <RollerFields finger={i} />
             <div className="overflow-x-auto">
-              <table className={`w-full min-w-[60rem] table-fixed text-sm ${COMPACT_CELLS}`} data-hand-table={i} aria-label={`Joints of finger ${i + 1}: ${String(finger.name ?? '')}`}>
+              <table className={`w-full min-w-[48rem] table-fixed text-sm ${COMPACT_CELLS}`} data-hand-table={i} aria-label={`Joints of finger ${i + 1}: ${String(finger.name ?? '')}`}>
                 <JointHead />
                 <tbody>
                   {(Array.isArray(finger.joints) ? finger.joints : []).map((_, j) => (
