@@ -45,11 +45,11 @@ describe('sheet list, history and comparison', () => {
     const titles = await waitForRows((t) => t.length >= 8);
     for (const title of DEMO_TITLES) expect(titles).toContain(title);
     const fork = page.locator('tr[data-sheet-title="Peg: tilt with 16 mm rollers"]');
-    expect(await fork.getByTestId('forked-from').innerText()).toMatch(/forked from Peg: tilt about the grip line r3/);
+    expect(await fork.getByTestId('forked-from').innerText()).toMatch(/forked from Peg: tilt about the grip line rev 3/);
     expect(await page.locator('tr[data-sheet-title="Peg: tilt about the grip line"] td').nth(3).innerText()).toBe('rev 3');
     // The demo checker signed the peg sheet's revision 3 as checked and returned the retrofit sheet's revision 2.
-    expect(await page.locator('tr[data-sheet-title="Peg: tilt about the grip line"] [data-review-badge]').innerText()).toBe('checked r3');
-    expect(await page.locator('tr[data-sheet-title="Retrofit fingers: mounting review"] [data-review-badge]').innerText()).toBe('returned for correction r2');
+    expect(await page.locator('tr[data-sheet-title="Peg: tilt about the grip line"] [data-review-badge]').innerText()).toBe('checked rev 3');
+    expect(await page.locator('tr[data-sheet-title="Retrofit fingers: mounting review"] [data-review-badge]').innerText()).toBe('returned for correction rev 2');
     expect(await page.locator('[data-worst]').count()).toBe(titles.length);
     expect(await page.getByTestId('new-sheet').getAttribute('href')).toBe('/sheets/new');
     await saveScreenshot(page, 'sheet-list');
@@ -93,7 +93,7 @@ describe('sheet list, history and comparison', () => {
     await saveScreenshot(page, 'sheet-history');
   });
 
-  it('compares r1 with r3 and highlights the changed inputs and outputs', async () => {
+  it('compares rev 1 with rev 3 and highlights the changed inputs and outputs', async () => {
     await page.locator('tr[data-revision="1"] input[name="from"]').check();
     await page.locator('tr[data-revision="3"] input[name="to"]').check();
     await page.getByTestId('compare-submit').click();
@@ -115,7 +115,7 @@ describe('sheet list, history and comparison', () => {
 
   it('compares across the fork: the bigger roller radius is marked and the outputs recomputed', async () => {
     await page.goBack();
-    await page.getByRole('link', { name: /Compare r3 here with the fork's r2/ }).click();
+    await page.getByRole('link', { name: /Compare rev 3 here with the fork's rev 2/ }).click();
     await page.waitForURL(/toSheet=/);
     const radius = page.locator('[data-testid="input-diff"] tr[data-path="hand.fingers[0].roller.radius"]');
     expect(await radius.getAttribute('data-kind')).toBe('changed');
