@@ -59,6 +59,12 @@ function ResultsSummary({ result, document, stale }: { result: PlainSheetResult 
                     <tr key={k} className="border-b border-rule/50">
                       <th scope="row" className="py-px pr-2 text-left font-normal">
                         {joint.name} <span className="text-[10px] text-graphite">{joint.role}</span>
+                        {joint.role === 'pivot' && finger.pivotAngle !== null && (
+                          <span className="text-[10px] text-graphite" data-summary-pivot={i}>
+                            {' '}
+                            steered to <span className="num text-ink">{displayNumber(pivotOutput, finger.pivotAngle)}</span> {pivotOutput.display.unit}
+                          </span>
+                        )}
                       </th>
                       <td className="num py-px text-right" data-summary-rate={`${i}.${k}`}>
                         {displayNumber(rateOutput, joint.rate)}
@@ -68,11 +74,6 @@ function ResultsSummary({ result, document, stale }: { result: PlainSheetResult 
                   ))}
                 </tbody>
               </table>
-              {finger.pivotAngle !== null && (
-                <p className="text-[11px] text-graphite">
-                  pivot steered to <span className="num text-ink">{displayNumber(pivotOutput, finger.pivotAngle)}</span> {pivotOutput.display.unit}
-                </p>
-              )}
             </div>
           ))}
           <div className="flex items-baseline justify-between gap-2 text-xs">
