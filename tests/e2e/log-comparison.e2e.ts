@@ -154,7 +154,7 @@ describe('comparing a controller log with the sheet', () => {
     const list = comparison.locator('[data-comparison-list]');
     await expect.poll(() => list.locator('[data-comparison-item]').count()).toBe(1);
     const rerun = list.locator('[data-rerun]');
-    expect(await rerun.innerText()).toBe('Re-run on revision 2');
+    expect(await rerun.innerText()).toBe('Re-run on rev 2');
     await rerun.click();
     await expect.poll(() => list.locator('[data-comparison-item][data-revision="2"]').count(), { timeout: 60_000 }).toBe(1);
     await expect.poll(() => comparison.locator('[data-verdict]').getAttribute('data-verdict'), { timeout: 30_000 }).toBe('fail');
@@ -171,9 +171,9 @@ describe('comparing a controller log with the sheet', () => {
     // The reviewer signs revision 2 as checked; its author is mailed.
     const review = page.locator('[data-review-panel]');
     await review.scrollIntoViewIfNeeded();
-    await review.getByRole('button', { name: 'Sign revision 2 as checked' }).click();
+    await review.getByRole('button', { name: 'Sign rev 2 as checked' }).click();
     await expect.poll(() => page.locator('[data-title-block] [data-checked-by]').innerText(), { timeout: 15_000 }).toBe('Mei Arroyo');
-    const mail = await waitForMailboxMail(mailboxDir(), 'editor@fenwick.example', { subject: `Checked: ${TITLE}, rev. 2` });
+    const mail = await waitForMailboxMail(mailboxDir(), 'editor@fenwick.example', { subject: `Checked: ${TITLE}, rev 2` });
     expect(mail.text).toContain(`signed revision 2 of "${TITLE}" as checked.`);
 
     // The report of revision 2 lists the log's latest comparison with it, beside the safety caution.

@@ -34,7 +34,7 @@ describe('a checker on a sheet', () => {
     await expect.poll(() => panel.locator('[data-comment] [data-remark-body] .katex').count()).toBeGreaterThan(0);
     await panel.locator('[data-comment]').getByRole('button', { name: 'Resolve' }).click();
     await expect.poll(() => panel.locator('[data-comment]').getAttribute('data-resolved')).toBe('true');
-    await panel.getByRole('button', { name: /Sign revision \d+ as checked/ }).click();
+    await panel.getByRole('button', { name: /Sign rev \d+ as checked/ }).click();
 
     // Signing loads the page again, so the title block reads the signature.
     await expect.poll(() => page.locator('[data-title-block] [data-checked-by]').innerText(), { timeout: 15_000 }).toBe('Mei Arroyo');
@@ -45,7 +45,7 @@ describe('a checker on a sheet', () => {
     await expect.poll(() => page.locator('[data-review-panel] [data-last-checked]').innerText()).toMatch(/last checked revision \d+/);
     await saveScreenshot(page, 'revision-checked');
 
-    const mail = await waitForMailboxMail(mailboxDir(), 'editor@fenwick.example', { subject: `Checked: ${sheet.title}, rev. ${sheet.latestRevision}` });
+    const mail = await waitForMailboxMail(mailboxDir(), 'editor@fenwick.example', { subject: `Checked: ${sheet.title}, rev ${sheet.latestRevision}` });
     expect(mail.text).toContain(`Mei Arroyo signed revision ${sheet.latestRevision} of "${sheet.title}" as checked.`);
 
     const viewer = await browser.newPage();

@@ -174,7 +174,7 @@ describe('3D view, its SVG fallback, runs and sweeps on the sheet page', () => {
     for (let i = 0; i < 5; i++) times.push(await runOnce(page));
     const panel = page.getByTestId('run-panel');
     expect(await panel.getByTestId('run-tick-count').innerText()).toBe('2,000');
-    expect(await panel.getByTestId('run-stop-reason').innerText()).toMatch(/tick limit/);
+    expect(await panel.getByTestId('run-stop-reason').innerText()).toMatch(/most time steps/);
     expect(await panel.locator('.uplot').count()).toBe(5);
     for (const title of ['Joint angles', 'Joint rates', 'Orientation error (angles)', 'Orientation error (dimensionless metrics)', 'Position error']) {
       expect(await panel.locator('figcaption', { hasText: title }).count()).toBe(1);
@@ -209,7 +209,7 @@ describe('3D view, its SVG fallback, runs and sweeps on the sheet page', () => {
     await panel.getByRole('button', { name: 'Cancel' }).click();
     const cancelled = panel.getByTestId('job-cancelled');
     await cancelled.waitFor();
-    expect(await cancelled.innerText()).toMatch(/Cancelled after [\d,]+ of 1,000,000 ticks/);
+    expect(await cancelled.innerText()).toMatch(/Cancelled after [\d,]+ of 1,000,000 time steps/);
     expect(await panel.getByTestId('run-results').count()).toBe(0);
     expect(await panel.getByRole('progressbar').count()).toBe(0);
     await panel.getByRole('button', { name: 'Run', exact: true }).isEnabled();

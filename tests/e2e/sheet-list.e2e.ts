@@ -46,13 +46,13 @@ describe('sheet list, history and comparison', () => {
     for (const title of DEMO_TITLES) expect(titles).toContain(title);
     const fork = page.locator('tr[data-sheet-title="Peg: tilt with 16 mm rollers"]');
     // A derived sheet carries a drawing-office revision delta holding the origin's revision, and a title-block line naming it.
-    expect(await fork.getByTestId('forked-from').innerText()).toMatch(/derived from sheet Peg: tilt about the grip line, rev\. 3/);
+    expect(await fork.getByTestId('forked-from').innerText()).toMatch(/derived from sheet Peg: tilt about the grip line, rev 3/);
     expect(await fork.locator('[data-revision-delta]').textContent()).toBe('3');
     expect(await page.getByText(/forked from/i).count()).toBe(0);
-    expect(await page.locator('tr[data-sheet-title="Peg: tilt about the grip line"] td').nth(3).innerText()).toBe('r3');
+    expect(await page.locator('tr[data-sheet-title="Peg: tilt about the grip line"] td').nth(3).innerText()).toBe('rev 3');
     // The demo checker signed the peg sheet's revision 3 as checked and returned the retrofit sheet's revision 2.
-    expect(await page.locator('tr[data-sheet-title="Peg: tilt about the grip line"] [data-review-badge]').innerText()).toBe('checked r3');
-    expect(await page.locator('tr[data-sheet-title="Retrofit fingers: mounting review"] [data-review-badge]').innerText()).toBe('returned for correction r2');
+    expect(await page.locator('tr[data-sheet-title="Peg: tilt about the grip line"] [data-review-badge]').innerText()).toBe('checked rev 3');
+    expect(await page.locator('tr[data-sheet-title="Retrofit fingers: mounting review"] [data-review-badge]').innerText()).toBe('returned for correction rev 2');
     expect(await page.locator('[data-worst]').count()).toBe(titles.length);
     expect(await page.getByTestId('new-sheet').getAttribute('href')).toBe('/sheets/new');
     await saveScreenshot(page, 'sheet-list');
@@ -89,7 +89,7 @@ describe('sheet list, history and comparison', () => {
   });
 
   it('opens the history of the peg sheet with its three revisions and its fork', async () => {
-    await page.locator('tr[data-sheet-title="Peg: tilt about the grip line"]').getByRole('link', { name: 'r3' }).click();
+    await page.locator('tr[data-sheet-title="Peg: tilt about the grip line"]').getByRole('link', { name: 'rev 3' }).click();
     await page.waitForURL(/\/sheets\/[^/]+\/history$/);
     expect(await page.locator('tr[data-revision]').count()).toBe(3);
     expect(await page.getByTestId('fork-list').innerText()).toMatch(/Peg: tilt with 16 mm rollers/);
@@ -98,15 +98,15 @@ describe('sheet list, history and comparison', () => {
 
   it('picks r1 with a click and r3 from the keyboard, then compares them and highlights the changed inputs and outputs', async () => {
     // The two latest revisions are picked when the page opens.
-    expect(await page.getByTestId('compare-pair').innerText()).toMatch(/Compare from rev\. 2 to rev\. 3/);
+    expect(await page.getByTestId('compare-pair').innerText()).toMatch(/Compare from rev 2 to rev 3/);
     expect(await page.locator('input[type="radio"]').count()).toBe(0);
     await page.locator('tr[data-revision="1"] [data-pick]').click();
-    expect(await page.getByTestId('compare-pair').innerText()).toMatch(/Compare from rev\. 1 to rev\. 3\s+the next click sets the “to” end/);
+    expect(await page.getByTestId('compare-pair').innerText()).toMatch(/Compare from rev 1 to rev 3\s+the next click sets the “to” end/);
     await page.locator('tr[data-revision="2"] [data-pick]').click({ modifiers: ['Shift'] });
-    expect(await page.getByTestId('compare-pair').innerText()).toMatch(/Compare from rev\. 1 to rev\. 2/);
+    expect(await page.getByTestId('compare-pair').innerText()).toMatch(/Compare from rev 1 to rev 2/);
     await page.locator('tr[data-revision="3"] [data-pick]').focus();
     await page.keyboard.press('Enter');
-    expect(await page.getByTestId('compare-pair').innerText()).toMatch(/Compare from rev\. 1 to rev\. 3/);
+    expect(await page.getByTestId('compare-pair').innerText()).toMatch(/Compare from rev 1 to rev 3/);
     expect(await page.locator('tr[data-revision="1"]').getAttribute('data-end')).toBe('from');
     expect(await page.locator('tr[data-revision="3"] [data-pick]').getAttribute('aria-pressed')).toBe('true');
     expect(await page.locator('tr[data-revision="2"] [data-pick]').getAttribute('aria-pressed')).toBe('false');
@@ -130,7 +130,7 @@ describe('sheet list, history and comparison', () => {
 
   it('compares across the fork: the bigger roller radius is marked and the outputs recomputed', async () => {
     await page.goBack();
-    await page.getByRole('link', { name: /Compare r3 here with the fork's r2/ }).click();
+    await page.getByRole('link', { name: /Compare rev 3 here with the fork's rev 2/ }).click();
     await page.waitForURL(/toSheet=/);
     const radius = page.locator('[data-testid="input-diff"] tr[data-path="hand.fingers[0].roller.radius"]');
     expect(await radius.getAttribute('data-kind')).toBe('changed');

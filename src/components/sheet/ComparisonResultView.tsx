@@ -9,6 +9,7 @@ import { jointPlots, seriesBounds, slipPlot, warningBands, type ComparisonPlot }
 import { formatValue } from '../../lib/view/comparison-side-by-side';
 import { PALETTE, SEVERITY_COLOURS } from '../../lib/view/palette';
 import { showsAll, type XRange } from '../../lib/view/zoom';
+import { revisionLabel } from '../../lib/view/revision';
 
 /** One comparison's verdict, per-joint and per-contact statistics and charts; `revision` is the sheet revision it judged against. */
 export default function ComparisonResultView({ result, revision }: { result: LogComparison; revision: number }) {
@@ -16,7 +17,7 @@ export default function ComparisonResultView({ result, revision }: { result: Log
   return (
     <div className="mt-4 space-y-4" data-comparison-result>
       <div className={`border-l-4 px-3 py-2 ${within ? 'border-verdigris' : 'border-sienna'}`} data-verdict={within ? 'pass' : 'fail'}>
-        <p className="font-semibold">{within ? 'Within tolerance' : 'Outside tolerance'} · revision {revision} · {result.samples} samples</p>
+        <p className="font-semibold">{within ? 'Within tolerance' : 'Outside tolerance'} · {revisionLabel(revision)} · {result.samples} samples</p>
         <ul className="mt-1 list-disc pl-5 text-sm">
           {result.verdict.reasons.map((reason) => (
             <li key={reason}>{reason}</li>

@@ -9,7 +9,7 @@ export function GraspQualityFields() {
       <div className="grid gap-3 md:grid-cols-3">
         <PlainNumber path={[...base, 'coneEdges']} label="cone edges (3 to 32, empty = 8)" integer />
         <Quantity path={[...base, 'torsionalFriction']} label="torsional friction (soft finger)" kind="length" placeholder="0 mm" />
-        <Quantity path={[...base, 'torqueLength']} label="torque length L" kind="length" placeholder="largest contact distance" />
+        <Quantity path={[...base, 'torqueLength']} label="torque length" kind="length" placeholder="largest contact distance" />
       </div>
     </fieldset>
   );

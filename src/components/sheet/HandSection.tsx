@@ -1,8 +1,9 @@
 import { useState } from 'react';
-import { getAt } from '../../lib/sheet/document-path';
+import { getAt, pathText, type DocumentPath } from '../../lib/sheet/document-path';
 import { createHandFromTemplate, HAND_TEMPLATES } from '../../lib/sheet/templates';
 import type { SheetDocument } from '../../lib/sheet/types';
 import { useSheetEditing } from './editor-context';
+import ConfirmDialog from './ConfirmDialog';
 import { Choice, DirectionVector, PlainNumber, Quantity, QuantityVector, TextField } from './fields';
 import { GraspQualityFields } from './GraspQualityFields';
 import UrdfImportDialog from './UrdfImportDialog';
@@ -10,59 +11,123 @@ import { button, selectInput } from './sheet-styles';
 
 const ROLES = ['base', 'pivot', 'roll', 'other'] as const;
 
-function JointFields({ finger, joint }: { finger: number; joint: number }) {
+const AXES = ['x', 'y', 'z'] as const;
+
+/** The issue the sheet reader found with a whole vector (not with one of its parts). */
+function VectorIssue({ path }: { path: DocumentPath }) {
+  const { issues } = useSheetEditing();
+  const issue = issues.get(pathText(path));
+  return issue ? <span className="block text-[11px] leading-tight text-sienna" role="alert">{issue}</span> : null;
+}
+
+/** One joint as a row of the finger's table; every input keeps its full name for assistive technology and tests. */
+function JointRow({ finger, joint }: { finger: number; joint: number }) {
   const { document, update, readOnly } = useSheetEditing();
   const base = ['hand', 'fingers', finger, 'joints', joint];
+  const name = String(getAt(document, [...base, 'name']) ?? '') || `joint ${joint + 1}`;
   const limits = getAt(document, [...base, 'limits']);
   const rateLimit = getAt(document, [...base, 'rateLimit']);
   return (
-    <div className="border-t border-dashed border-rule py-3" data-joint={`${finger}.${joint}`}>
-      <div className="grid grid-cols-[1fr_7rem_1fr] items-end gap-3">
-        <TextField path={[...base, 'name']} label="joint" />
-        <Choice path={[...base, 'role']} label="role" options={ROLES} />
-        <Quantity path={[...base, 'angle']} label="angle" kind="angle" placeholder="0 deg" />
-      </div>
-      <div className="mt-2 grid gap-3 md:grid-cols-2">
-        <DirectionVector path={[...base, 'axis']} label="axis at home" />
-        <QuantityVector path={[...base, 'point']} label="point on the axis" kind="length" />
-      </div>
-      <div className="mt-2 grid grid-cols-3 items-end gap-3">
+    <tr className="border-b border-rule/60 align-top" data-joint={`${finger}.${joint}`}>
+      <td className="py-1 pr-2">
+        <TextField path={[...base, 'name']} label={`joint ${joint + 1} name`} />
+      </td>
+      <td className="py-1 pr-2">
+        <Choice path={[...base, 'role']} label={`${name} role`} options={ROLES} />
+      </td>
+      <td className="py-1 pr-2">
+        <div className="grid grid-cols-3 gap-1">
+          {AXES.map((axis, index) => (
+            <PlainNumber key={axis} path={[...base, 'axis', index]} label={`${name} axis at home ${axis}`} />
+          ))}
+        </div>
+        <VectorIssue path={[...base, 'axis']} />
+      </td>
+      <td className="py-1 pr-2">
+        <div className="grid grid-cols-3 gap-1">
+          {AXES.map((axis, index) => (
+            <Quantity key={axis} path={[...base, 'point', index]} label={`${name} point on the axis ${axis}`} kind="length" />
+          ))}
+        </div>
+        <VectorIssue path={[...base, 'point']} />
+      </td>
+      <td className="py-1 pr-2">
+        <Quantity path={[...base, 'angle']} label={`${name} angle`} kind="angle" placeholder="0 deg" />
+      </td>
+      <td className="py-1 pr-2">
         {limits ? (
           <>
-            <Quantity path={[...base, 'limits', 'min']} label="limit min" kind="angle" />
-            <Quantity path={[...base, 'limits', 'max']} label="limit max" kind="angle" />
+            <div className="grid grid-cols-2 gap-1">
+              <Quantity path={[...base, 'limits', 'min']} label={`${name} lower limit`} kind="angle" />
+              <Quantity path={[...base, 'limits', 'max']} label={`${name} upper limit`} kind="angle" />
+            </div>
+            {!readOnly && (
+              <button type="button" className="text-[11px] underline text-graphite" aria-label={`Remove the joint limits of ${name}`} onClick={() => update([...base, 'limits'], undefined)}>
+                remove
+              </button>
+            )}
           </>
         ) : (
           // Empty fields, required until filled: a made-up limit would drive the limit checks unnoticed.
-          <button type="button" className={`${button} col-span-2 text-xs`} disabled={readOnly} onClick={() => update([...base, 'limits'], { min: '', max: '' })}>
-            Add joint limits
+          <button type="button" className={`${button} w-full text-xs`} disabled={readOnly} aria-label={`Add joint limits to ${name}`} onClick={() => update([...base, 'limits'], { min: '', max: '' })}>
+            Add
           </button>
         )}
+      </td>
+      <td className="py-1">
         {rateLimit !== undefined ? (
-          <Quantity path={[...base, 'rateLimit']} label="rate limit" kind="angularSpeed" />
+          <>
+            <Quantity path={[...base, 'rateLimit']} label={`${name} rate limit`} kind="angularSpeed" />
+            {!readOnly && (
+              <button type="button" className="text-[11px] underline text-graphite" aria-label={`Remove the rate limit of ${name}`} onClick={() => update([...base, 'rateLimit'], undefined)}>
+                remove
+              </button>
+            )}
+          </>
         ) : (
-          <button type="button" className={`${button} text-xs`} disabled={readOnly} onClick={() => update([...base, 'rateLimit'], '')}>
-            Add rate limit
+          <button type="button" className={`${button} w-full text-xs`} disabled={readOnly} aria-label={`Add rate limit to ${name}`} onClick={() => update([...base, 'rateLimit'], '')}>
+            Add
           </button>
         )}
-      </div>
-      {!readOnly && (limits || rateLimit !== undefined) ? (
-        <div className="mt-1 flex gap-3 text-[11px]">
-          {limits ? (
-            <button type="button" className="underline text-graphite" onClick={() => update([...base, 'limits'], undefined)}>
-              remove joint limits
-            </button>
-          ) : null}
-          {rateLimit !== undefined ? (
-            <button type="button" className="underline text-graphite" onClick={() => update([...base, 'rateLimit'], undefined)}>
-              remove rate limit
-            </button>
-          ) : null}
-        </div>
-      ) : null}
-    </div>
+      </td>
+    </tr>
   );
 }
+
+/** Column heads of the joint table; a vector's head names its x, y and z columns. */
+function JointHead() {
+  const vector = (title: string) => (
+    <>
+      {title}
+      <span className="grid grid-cols-3 gap-1 font-normal normal-case" aria-hidden>
+        {AXES.map((axis) => (
+          <span key={axis}>{axis}</span>
+        ))}
+      </span>
+    </>
+  );
+  return (
+    <thead>
+      <tr className="border-b border-ink text-left align-bottom text-[11px] uppercase tracking-wide text-graphite">
+        <th className="w-[6.5rem] py-1 pr-2 font-normal">joint</th>
+        <th className="w-[4.75rem] py-1 pr-2 font-normal">role</th>
+        <th className="w-[8.5rem] py-1 pr-2 font-normal">{vector('axis at home (unit)')}</th>
+        <th className="w-[11rem] py-1 pr-2 font-normal">{vector('point on the axis')}</th>
+        <th className="w-[4.5rem] py-1 pr-2 font-normal">angle</th>
+        <th className="w-[8.5rem] py-1 pr-2 font-normal">limits: lower, upper</th>
+        <th className="w-[4.5rem] py-1 font-normal">rate limit</th>
+      </tr>
+    </thead>
+  );
+}
+
+/**
+ * Cells show the input alone: the column head says what it is (each input keeps its full label for
+ * screen readers), and a quantity's reading in SI and in a chosen unit appears under the cell that
+ * has the focus.
+ */
+const COMPACT_CELLS =
+  '[&_label]:sr-only [&_input]:px-1 [&_input]:text-xs [&_button]:px-1 [&_select]:px-1 [&_select]:text-xs [&_td:not(:focus-within)_span:has(>[data-si])]:hidden';
 
 function RollerFields({ finger }: { finger: number }) {
   const { document, update } = useSheetEditing();
@@ -95,16 +160,18 @@ function RollerFields({ finger }: { finger: number }) {
   );
 }
 
-/** Hand: from a template, or edited finger by finger and joint by joint. */
+/** Hand: from a template, or edited finger by finger in a compact table of its joints. */
 export default function HandSection({ parsed }: { parsed: SheetDocument | null }) {
   const { document, update, readOnly } = useSheetEditing();
   const [template, setTemplate] = useState(HAND_TEMPLATES[0].id);
+  const [confirming, setConfirming] = useState(false);
   const fingers = (getAt(document, ['hand', 'fingers']) ?? []) as Record<string, unknown>[];
+  const chosen = HAND_TEMPLATES.find((t) => t.id === template) ?? HAND_TEMPLATES[0];
   return (
     <div className="space-y-3">
       <div className="flex flex-wrap items-end gap-3">
         <div className="w-64">
-          <TextField path={['hand', 'name']} label="hand" />
+          <TextField path={['hand', 'name']} label="hand name" />
         </div>
         {!readOnly && (
           <div className="flex items-end gap-2">
@@ -122,11 +189,27 @@ export default function HandSection({ parsed }: { parsed: SheetDocument | null }
               type="button"
               className={button}
               disabled={!parsed}
-              title={parsed ? 'Replace every finger with the template, placed against the object' : 'Fix the object first'}
-              onClick={() => parsed && update(['hand'], createHandFromTemplate(template, parsed.object.shape, parsed.object.pose.position))}
+              title={parsed ? 'Replace every finger with the template, placed against the object (asks first)' : 'Fix the object first'}
+              onClick={() => setConfirming(true)}
             >
-              Replace hand
+              Replace hand…
             </button>
+            <ConfirmDialog
+              open={confirming}
+              title="Replace the whole hand?"
+              confirmLabel="Replace hand"
+              onCancel={() => setConfirming(false)}
+              onConfirm={() => {
+                setConfirming(false);
+                if (parsed) update(['hand'], createHandFromTemplate(template, parsed.object.shape, parsed.object.pose.position));
+              }}
+            >
+              <p>
+                All {fingers.length} fingers of this hand, with their joints, rollers and limits, give way to the template {chosen.name} ({chosen.fingers.length} fingers),
+                placed against the object.
+              </p>
+              <p className="mt-2">The new hand stays an unsaved change until you save a revision; the last saved revision keeps the current one.</p>
+            </ConfirmDialog>
             <UrdfImportDialog />
           </div>
         )}
@@ -140,14 +223,21 @@ export default function HandSection({ parsed }: { parsed: SheetDocument | null }
             </span>
           </summary>
           <div className="space-y-2 px-3 pb-3">
-            <div className="grid w-96 grid-cols-[2fr_1fr] gap-3">
-              <TextField path={['hand', 'fingers', i, 'name']} label="finger" />
-              <PlainNumber path={['hand', 'fingers', i, 'friction']} label="friction μ (empty = 0.5)" />
+            <div className="grid w-[28rem] grid-cols-[3fr_2fr] gap-3">
+              <TextField path={['hand', 'fingers', i, 'name']} label="finger name" />
+              <PlainNumber path={['hand', 'fingers', i, 'friction']} label="friction coefficient (empty = 0.5)" />
             </div>
             <RollerFields finger={i} />
-            {(Array.isArray(finger.joints) ? finger.joints : []).map((_, j) => (
-              <JointFields key={j} finger={i} joint={j} />
-            ))}
+            <div className="overflow-x-auto">
+              <table className={`w-full min-w-[48rem] table-fixed text-sm ${COMPACT_CELLS}`} data-hand-table={i} aria-label={`Joints of finger ${i + 1}: ${String(finger.name ?? '')}`}>
+                <JointHead />
+                <tbody>
+                  {(Array.isArray(finger.joints) ? finger.joints : []).map((_, j) => (
+                    <JointRow key={j} finger={i} joint={j} />
+                  ))}
+                </tbody>
+              </table>
+            </div>
           </div>
         </details>
       ))}

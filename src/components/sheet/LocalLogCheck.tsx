@@ -11,6 +11,7 @@ import type { SheetRevisionDetail, Wire } from '../../lib/contract';
 import { readLogHeader } from '../../lib/logs/log-file';
 import { formatBytes } from '../../lib/view/bytes';
 import { guessMapping, type MappingDraft } from '../../lib/view/log-mapping-draft';
+import { revisionLabel } from '../../lib/view/revision';
 
 interface LocalLogCheckProps {
   sheetId: string;
@@ -61,7 +62,7 @@ export default function LocalLogCheck({ sheetId, jointNames, revision }: LocalLo
     <section aria-label="Check a local log in this browser" className="mt-4 border-t-2 border-ink pt-3" data-local-log-check>
       <h3 className="font-mono text-xs font-semibold uppercase tracking-[0.2em]">Check a local log in this browser</h3>
       <p className="mt-1 text-xs text-graphite">
-        The file is read and compared here, in this browser, against revision {revision}: nothing is uploaded or stored. CSV or gzip-compressed CSV, any size.
+        The file is read and compared here, in this browser, against {revisionLabel(revision)}: nothing is uploaded or stored. CSV or gzip-compressed CSV, any size.
       </p>
       <div className="mt-2 flex flex-wrap items-baseline gap-3">
         <input ref={input} type="file" accept=".csv,.gz,text/csv,application/gzip" className="sr-only" aria-label="Local log file" onChange={pick} data-local-log-input />

@@ -9,6 +9,7 @@ import { formatWhen, requestJson } from '../../lib/client/api';
 import type { LogComparisonList, LogComparisonRecord, LogUploadDetail, SheetComparisonList, Wire } from '../../lib/contract';
 import type { LogComparison } from '../../lib/logs/compare';
 import { guessMapping, type MappingDraft } from '../../lib/view/log-mapping-draft';
+import { revisionLabel } from '../../lib/view/revision';
 
 interface LogComparisonPanelProps {
   sheetId: string;
@@ -25,7 +26,7 @@ interface LogComparisonPanelProps {
 type StoredComparison = Wire<LogComparisonRecord>;
 
 const verdictText = (verdict: StoredComparison['verdict']) => (verdict === 'pass' ? 'within tolerance' : verdict === 'fail' ? 'outside tolerance' : 'no verdict');
-const describe = (item: StoredComparison) => `revision ${item.revision} · ${formatWhen(item.createdAt)}`;
+const describe = (item: StoredComparison) => `${revisionLabel(item.revision)} · ${formatWhen(item.createdAt)}`;
 
 /**
  * The log's comparisons, newest first: each can be shown, downloaded (statistics or per-sample
@@ -88,7 +89,7 @@ function ComparisonList({ sheetId, logId, items, latestRevision, canRun, shown, 
                   )}
                   {canRun && latestRevision !== null && item.revision < latestRevision && (
                     <button type="button" className={button} disabled={rerunning !== null} onClick={() => rerun(item, latestRevision)} data-rerun>
-                      {rerunning === item.id ? 'Re-running…' : `Re-run on revision ${latestRevision}`}
+                      {rerunning === item.id ? 'Re-running…' : `Re-run on ${revisionLabel(latestRevision)}`}
                     </button>
                   )}
                 </td>

@@ -4,7 +4,7 @@ import { COMMANDED_SOLUTIONS, DEFAULT_COMMANDED } from '../../lib/sheet/schema';
 import type { QuantityKind } from '../../lib/sheet/units';
 import { useSheetEditing } from './editor-context';
 import { OrientationFields } from './ObjectSection';
-import { PlainNumber, Quantity, QuantityVector, Toggle } from './fields';
+import { ComponentHeads, HIDDEN_LABELS, PlainNumber, Quantity, QuantityVector, Toggle } from './fields';
 import QuantityField from './QuantityField';
 import { selectInput } from './sheet-styles';
 import SolverSettingsFields from './SolverSettingsFields';
@@ -32,11 +32,12 @@ function AccelerationVector({ part, label, kind }: { part: 'linear' | 'angular';
   return (
     <fieldset className="min-w-0">
       <legend className="text-[11px] font-semibold text-ink">{label}</legend>
-      <div className="grid grid-cols-3 gap-2">
+      <ComponentHeads parts={['x', 'y', 'z']} />
+      <div className={`grid grid-cols-3 gap-2 ${HIDDEN_LABELS}`}>
         {(['x', 'y', 'z'] as const).map((axis, index) => (
           <QuantityField
             key={axis}
-            label={axis}
+            label={`${label} ${axis}`}
             kind={kind}
             path={pathText([...path, index])}
             value={components[index]}
@@ -136,10 +137,10 @@ export default function MotionSection() {
         <legend className="text-[11px] font-semibold text-ink">run settings (blank = default)</legend>
         <div className="grid grid-cols-2 gap-3 md:grid-cols-5">
           <Quantity path={[...run, 'gain']} label="gain" kind="rate" placeholder="2 /s" />
-          <Quantity path={[...run, 'dt']} label="tick" kind="time" placeholder="5 ms" />
-          <PlainNumber path={[...run, 'maxTicks']} label="max ticks" integer />
-          <Quantity path={[...run, 'positionTolerance']} label="position tol." kind="length" placeholder="0.1 mm" />
-          <Quantity path={[...run, 'angleTolerance']} label="angle tol." kind="angle" placeholder="0.001 rad" />
+          <Quantity path={[...run, 'dt']} label="time step" kind="time" placeholder="5 ms" />
+          <PlainNumber path={[...run, 'maxTicks']} label="most time steps" integer />
+          <Quantity path={[...run, 'positionTolerance']} label="position tolerance" kind="length" placeholder="0.1 mm" />
+          <Quantity path={[...run, 'angleTolerance']} label="angle tolerance" kind="angle" placeholder="0.001 rad" />
         </div>
         <div className="mt-2">
           <Toggle path={[...run, 'stopOnSingular']} label="stop on a singular warning" fallback />

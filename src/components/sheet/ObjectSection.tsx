@@ -1,6 +1,6 @@
 import { getAt } from '../../lib/sheet/document-path';
 import { useSheetEditing } from './editor-context';
-import { Choice, DirectionVector, PlainNumber, Quantity, QuantityVector } from './fields';
+import { Choice, ComponentHeads, DirectionVector, HIDDEN_LABELS, PlainNumber, Quantity, QuantityVector } from './fields';
 import { selectInput } from './sheet-styles';
 
 const SHAPES = ['sphere', 'box', 'cylinder', 'capsule', 'ellipsoid'] as const;
@@ -41,14 +41,17 @@ export function OrientationFields({ path }: { path: (string | number)[] }) {
       </label>
       {form === 'axis-angle' ? (
         <div className="grid grid-cols-[3fr_1fr] gap-3">
-          <DirectionVector path={[...path, 'axis']} label="axis" />
-          <Quantity path={[...path, 'angle']} label="angle" kind="angle" />
+          <DirectionVector path={[...path, 'axis']} label="rotation axis" />
+          <Quantity path={[...path, 'angle']} label="rotation angle" kind="angle" />
         </div>
       ) : (
-        <div className="grid grid-cols-4 gap-2">
-          {(['w', 'x', 'y', 'z'] as const).map((c) => (
-            <PlainNumber key={c} path={[...path, c]} label={c} />
-          ))}
+        <div>
+          <ComponentHeads parts={['w', 'x', 'y', 'z']} />
+          <div className={`grid grid-cols-4 gap-2 ${HIDDEN_LABELS}`}>
+            {(['w', 'x', 'y', 'z'] as const).map((c) => (
+              <PlainNumber key={c} path={[...path, c]} label={`orientation quaternion ${c}`} />
+            ))}
+          </div>
         </div>
       )}
     </div>

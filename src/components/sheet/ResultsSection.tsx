@@ -53,7 +53,7 @@ const [fullRank, rankTolerance, driveSingularValues, driveRank, graspSingularVal
   'full.rank', 'full.rankTolerance', 'steer.driveSingularValues', 'driveRank', 'grasp.singularValues',
 ].map(findOutput);
 
-/** One table per contact and one for the grasp, labels, units and readers from the output catalogue; the full solution beside steer-and-roll. */
+/** One table per finger (its contact and its rates) and one for the grasp, labels, units and readers from the output catalogue; the full solution beside steer-and-roll. */
 function ResultsSection({ result, stale, units = DEFAULT_DISPLAY_UNITS }: { result: PlainSheetResult | null; stale: boolean; units?: DisplayUnits }) {
   if (!result) return <p className="text-sm text-graphite">No results until the sheet reads without errors.</p>;
   return (
@@ -71,7 +71,7 @@ function ResultsSection({ result, stale, units = DEFAULT_DISPLAY_UNITS }: { resu
         return (
           <div key={i} className="border border-rule bg-paper p-3" data-contact={i}>
             <h3 className="mb-2 text-sm font-semibold">
-              Contact {i + 1}: {f.name} <span className="ml-2 text-xs font-normal text-graphite">{c.state}</span>
+              Finger {i + 1}: {f.name} <span className="ml-2 text-xs font-normal text-graphite">contact {c.state}</span>
             </h3>
             <div className="grid gap-x-6 md:grid-cols-2">
               <table className="w-full text-sm">

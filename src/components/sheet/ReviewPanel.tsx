@@ -6,6 +6,7 @@ import { REVIEW_STATE_LABELS, type ReviewThread, type SheetComment, type Verdict
 import { OUTPUTS } from '../../lib/sheet/outputs';
 import { REMARK_SECTIONS } from '../../lib/validation/reviews';
 import { button, fieldInput, primaryButton } from './sheet-styles';
+import { revisionLabel } from '../../lib/view/revision';
 
 interface ReviewPanelProps {
   sheetId: string;
@@ -174,7 +175,7 @@ function Thread({ sheetId, revision, canComment, canReview }: ReviewPanelProps) 
             </label>
           )}
           <label className="block text-[11px] uppercase tracking-wide text-graphite">
-            {canReview ? 'remark or signature note' : 'remark'} on revision {revision} (Markdown, $math$)
+            {canReview ? 'remark or signature note' : 'remark'} on {revisionLabel(revision)} (Markdown, $math$)
             <textarea className={`${fieldInput} h-20 font-sans`} value={text} maxLength={4000} onChange={(e) => setText(e.target.value)} />
           </label>
           {error && (
@@ -191,7 +192,7 @@ function Thread({ sheetId, revision, canComment, canReview }: ReviewPanelProps) 
             {canReview && (
               <>
                 <button type="button" className={primaryButton} disabled={signature.isPending} onClick={() => signature.mutate('checked')}>
-                  Sign revision {revision} as checked
+                  Sign {revisionLabel(revision)} as checked
                 </button>
                 <button type="button" className={button} disabled={signature.isPending} onClick={() => signature.mutate('returned')}>
                   Return for correction

@@ -2,12 +2,15 @@ import { useMemo, useRef } from 'react';
 import LineChart, { type LineSeries, type ShadedStretch } from '../charts/LineChart';
 import WarningStrip from '../charts/WarningStrip';
 import { primaryButton } from '../form-parts';
+import { formatShownNumber } from '../../lib/sheet/outputs';
 import type { SheetDocument } from '../../lib/sheet/types';
 import { SEVERITY_COLOURS } from '../../lib/view/palette';
 import { describeStopReason, severityRuns, type JointSeries, type RunSeries } from '../../lib/view/series';
 import JobProgress from './JobProgress';
 import { SafetyCaution } from './SafetyCaution';
 import { RUN_JOBS, useWorkerJob } from './useWorkerJob';
+import { SHORTCUTS, withShortcut } from '../../lib/view/shortcuts';
+import { useShortcut } from './useShortcut';
 
 const DEGREES = 180 / Math.PI;
 const SEVERITY_NAMES = ['none', 'note', 'caution', 'singular'] as const;
@@ -43,23 +46,22 @@ function runCharts(series: RunSeries) {
 
 function RunResults({ series, stale }: { series: RunSeries; stale: boolean }) {
   const charts = useMemo(() => runCharts(series), [series]);
-  const x = series.ticks;
-  const common = { x, xLabel: 'tick', shaded: charts.shaded, syncKey: 'sheet-run' };
+  const common = { x: series.time, xLabel: 'time (s)', shaded: charts.shaded, syncKey: 'sheet-run' };
   return (
     <div className="space-y-4" data-testid="run-results">
       <div className="border-l-4 border-verdigris pl-3 text-sm" role="status">
         <p data-testid="run-stop-reason">{describeStopReason(series.stopReason)}</p>
         <p className="text-xs" data-testid="run-solution">Joint rates followed: {series.followed}</p>
         <p className="text-xs text-graphite">
-          <span className="num" data-testid="run-tick-count">{series.tickCount.toLocaleString('en')}</span> ticks of{' '}
-          <span className="num">{series.settings.dt * 1000} ms</span> computed in{' '}
+          <span className="num" data-testid="run-tick-count">{series.tickCount.toLocaleString('en')}</span> time steps of{' '}
+          <span className="num">{series.settings.dt * 1000} ms</span> (<span className="num">{formatShownNumber(series.tickCount * series.settings.dt)} s</span>) computed in{' '}
           <span className="num" data-testid="run-elapsed" data-ms={series.elapsedMs.toFixed(2)}>
             {series.elapsedMs.toFixed(0)} ms
           </span>
           {stale && <span className="ml-2 text-ochre">The sheet has changed since this run; run again to update.</span>}
         </p>
       </div>
-      <WarningStrip count={series.tickCount} worst={series.worstSeverity} warnings={series.warnings} axisLabel="ticks" />
+      <WarningStrip count={series.tickCount} worst={series.worstSeverity} warnings={series.warnings} axisLabel="time steps" />
       <SafetyCaution />
       <div className="grid gap-4 @3xl:grid-cols-2">
         <LineChart title="Joint angles" yLabel="deg" series={charts.angles} {...common} />
@@ -72,11 +74,13 @@ function RunResults({ series, stale }: { series: RunSeries; stale: boolean }) {
   );
 }
 
-/** Runs the sheet's closed loop toward motion.target in a worker and plots what happened tick by tick. */
+/** Runs the sheet's closed loop toward motion.target in a worker and plots what happened over time, step by step. */
 export default function RunPanel({ document }: { document: SheetDocument }) {
   const { state, start, cancel } = useWorkerJob(RUN_JOBS);
   const ranWith = useRef<SheetDocument | null>(null);
   const run = document.motion.run;
+  const runButton = useRef<HTMLButtonElement>(null);
+  useShortcut('run', () => runButton.current?.click());
 
   function startRun() {
     ranWith.current = document;
@@ -89,18 +93,26 @@ export default function RunPanel({ document }: { document: SheetDocument }) {
         <div className="text-sm">
           <h3 className="font-semibold">Run toward the target pose</h3>
           <p className="text-xs text-graphite">
-            gain <span className="num">{run.gain} 1/s</span> · tick <span className="num">{run.dt * 1000} ms</span> · at most{' '}
-            <span className="num">{run.maxTicks.toLocaleString('en')}</span> ticks · tolerances{' '}
+            gain <span className="num">{run.gain} 1/s</span> · time step <span className="num">{run.dt * 1000} ms</span> · at most{' '}
+            <span className="num">{run.maxTicks.toLocaleString('en')}</span> steps (<span className="num">{formatShownNumber(run.maxTicks * run.dt)} s</span>) · tolerances{' '}
             <span className="num">{run.positionTolerance * 1000} mm</span>, <span className="num">{(run.angleTolerance * DEGREES).toPrecision(3)}°</span>
             {run.stopOnSingular && ' · stops on singular warnings'}
             {run.noise && ' · with sensor noise'}
           </p>
         </div>
-        <button type="button" className={`${primaryButton} ml-auto`} onClick={startRun} disabled={state.status === 'running'}>
+        <button
+          ref={runButton}
+          type="button"
+          className={`${primaryButton} ml-auto`}
+          onClick={startRun}
+          disabled={state.status === 'running'}
+          aria-keyshortcuts={SHORTCUTS.run.keys}
+          title={withShortcut('Run toward the target pose', 'run')}
+        >
           {state.status === 'done' ? 'Run again' : 'Run'}
         </button>
       </div>
-      <JobProgress state={state} unit="ticks" onCancel={cancel} />
+      <JobProgress state={state} unit="time steps" onCancel={cancel} />
       {state.status === 'done' && <RunResults series={state.result} stale={ranWith.current !== document} />}
     </section>
   );

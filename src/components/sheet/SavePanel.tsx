@@ -1,10 +1,13 @@
 import { useMutation } from '@tanstack/react-query';
-import { useState } from 'react';
+import { useRef, useState } from 'react';
 import { ApiError, requestJson } from '../../lib/client/api';
 import type { CreatedSheet, LatestRevision, SavedRevision, StaleSaveError, Wire } from '../../lib/contract';
 import type { StoredDocument } from '../../lib/sheet/summary';
 import { describeValue, diffDocuments, pathText, rebaseDocument, type DocumentChange } from '../../lib/sheet/document-path';
+import { SHORTCUTS, withShortcut } from '../../lib/view/shortcuts';
 import { button, fieldInput, primaryButton } from './sheet-styles';
+import { useShortcut } from './useShortcut';
+import { revisionLabel } from '../../lib/view/revision';
 
 /** The stale save's 409: someone saved after our base; the error carries their revision, so the conflict panel needs no second request. */
 function staleSave(error: unknown): StaleSaveError | null {
@@ -46,6 +49,9 @@ export default function SavePanel(props: SavePanelProps) {
   const conflict = theirs?.number ?? null;
   const [notice, setNotice] = useState<string | null>(null);
   const [forkTeam, setForkTeam] = useState(props.forkTargets[0]?.teamId ?? '');
+  const saveButton = useRef<HTMLButtonElement>(null);
+  // A click keeps the button's own rules: nothing happens while it is disabled (no changes, saving).
+  useShortcut('save', () => saveButton.current?.click());
 
   const save = useMutation({
     mutationFn: (input: { base: number; doc: StoredDocument }) =>
@@ -60,7 +66,7 @@ export default function SavePanel(props: SavePanelProps) {
     onSuccess: (reply, input) => {
       setTheirs(null);
       setMessage('');
-      setNotice(`Saved as revision ${reply.revision}.`);
+      setNotice(`Saved as ${revisionLabel(reply.revision)}.`);
       props.onSaved(reply.revision, input.doc);
     },
     onError: (error) => {
@@ -75,7 +81,7 @@ export default function SavePanel(props: SavePanelProps) {
       if (props.dirty) {
         await requestJson(`/api/sheets/${created.sheetId}/revisions`, {
           method: 'POST',
-          body: { baseRevision: 1, document, message: message.trim() || `My changes on top of revision ${baseRevision}` },
+          body: { baseRevision: 1, document, message: message.trim() || `My changes on top of ${revisionLabel(baseRevision)}` },
         });
       }
       return created.sheetId;
@@ -94,7 +100,7 @@ export default function SavePanel(props: SavePanelProps) {
     const rebased = rebaseDocument(baseDocument, document, theirs.inputs);
     props.onReplaceDocument(theirs.inputs, conflict, rebased.document);
     if (rebased.overlapping.length > 0) {
-      setNotice(`Re-applied on top of revision ${conflict}; ${rebased.overlapping.length} field(s) were changed on both sides and now hold your value. Check them, then save.`);
+      setNotice(`Re-applied on top of ${revisionLabel(conflict)}; ${rebased.overlapping.length} field(s) were changed on both sides and now hold your value. Check them, then save.`);
       setTheirs(null);
       return;
     }
@@ -118,7 +124,14 @@ export default function SavePanel(props: SavePanelProps) {
           revision message
           <input className={`${fieldInput} font-sans`} value={message} maxLength={500} placeholder="What changed and why" onChange={(event) => setMessage(event.target.value)} />
         </label>
-        <button type="submit" className={primaryButton} disabled={save.isPending || !props.dirty} title={props.readsCleanly ? undefined : 'The sheet has errors; saving keeps them out of the stored revision only if fixed'}>
+        <button
+          ref={saveButton}
+          type="submit"
+          className={primaryButton}
+          disabled={save.isPending || !props.dirty}
+          aria-keyshortcuts={SHORTCUTS.save.keys}
+          title={withShortcut(props.readsCleanly ? 'Save revision' : 'The sheet has errors; saving keeps them out of the stored revision only if fixed', 'save')}
+        >
           {save.isPending ? 'Saving…' : 'Save revision'}
         </button>
         <button type="button" className={button} disabled={fork.isPending} onClick={() => fork.mutate()}>
@@ -158,13 +171,13 @@ export default function SavePanel(props: SavePanelProps) {
       {fork.error && <p role="alert" className="text-sm text-sienna">{fork.error.message}</p>}
       {conflict !== null && (
         <section aria-label="Save conflict" className="border-2 border-ochre bg-paper p-4" data-conflict>
-          <h3 className="font-semibold">Someone saved revision {conflict} after revision {baseRevision}, which you started from.</h3>
+          <h3 className="font-semibold">Someone saved {revisionLabel(conflict)} after {revisionLabel(baseRevision)}, which you started from.</h3>
           <p className="text-sm text-graphite">Nothing was overwritten and your changes are still here. Compare the two, then choose.</p>
           {theirs && (
             <div className="mt-3 grid gap-4 md:grid-cols-2">
               <div>
                 <h4 className="text-xs font-semibold uppercase tracking-wide">
-                  Their revision {conflict}: {theirs.message || 'no message'} ({theirs.authorName ?? 'someone'})
+                  Their {revisionLabel(conflict)}: {theirs.message || 'no message'} ({theirs.authorName ?? 'someone'})
                 </h4>
                 <ChangeList changes={theirChanges} testId="theirs" />
               </div>
@@ -176,7 +189,7 @@ export default function SavePanel(props: SavePanelProps) {
           )}
           <div className="mt-3 flex flex-wrap gap-3">
             <button type="button" className={primaryButton} disabled={!theirs || save.isPending} onClick={reapply}>
-              Re-apply mine on top of revision {conflict} and save
+              Re-apply mine on top of {revisionLabel(conflict)} and save
             </button>
             <button type="button" className={button} disabled={fork.isPending} onClick={() => fork.mutate()}>
               Save mine as a fork

@@ -1,5 +1,6 @@
 import { lazy, memo, Suspense, useCallback, useDeferredValue, useEffect, useMemo, useState } from 'react';
 import type { WarningCode } from '../../lib/kinematics';
+import { formatWhen } from '../../lib/client/api';
 import type { SheetPageData } from '../../lib/contract';
 import { setAt, type DocumentPath } from '../../lib/sheet/document-path';
 import { displayUnitsOf } from '../../lib/sheet/display-units';
@@ -16,6 +17,7 @@ import ObjectSection from './ObjectSection';
 import PadSection from './PadSection';
 import QueryRoot from '../QueryRoot';
 import ResultsSection from './ResultsSection';
+import ResultsSummary from './ResultsSummary';
 import SavePanel from './SavePanel';
 import SceneView from './SceneView';
 import TitleBlock from './TitleBlock';
@@ -161,7 +163,7 @@ function Editor({ data }: { data: SheetPageData }) {
         />
         {restored && (
           <p className="mt-3 border-l-4 border-note pl-3 text-sm" role="status">
-            Restored your unsaved changes from {new Date(restored).toLocaleString()}.{' '}
+            Restored your unsaved changes from {formatWhen(restored)}.{' '}
             <button
               type="button"
               className="underline"
@@ -258,7 +260,11 @@ function Editor({ data }: { data: SheetPageData }) {
               </div>
             )}
           </div>
-          <aside className="space-y-4 xl:sticky xl:top-4 xl:self-start" aria-label="Views, runs and sweeps">
+          <aside className="space-y-4" aria-label="Summary, views, runs and sweeps">
+            {/* The aside spans the pad's height, so the summary stays pinned while everything below it scrolls past. */}
+            <div className="sticky top-0 z-20 bg-paper pt-2">
+              <ResultsSummary result={result} document={lastGood?.document ?? null} stale={pending || (reply !== null && !reply.ok)} />
+            </div>
             <SideViews solved={deferred} />
           </aside>
         </div>

@@ -1,4 +1,4 @@
-import { useMemo, useState } from 'react';
+import { useMemo, useRef, useState } from 'react';
 import LineChart, { type LineSeries, type ShadedStretch } from '../charts/LineChart';
 import WarningStrip from '../charts/WarningStrip';
 import { inputClass, labelClass, primaryButton } from '../form-parts';
@@ -9,6 +9,8 @@ import { DEFAULT_SWEEP_STEPS, sweepInputs, sweepSettingsFrom, type DisplayUnit, 
 import JobProgress from './JobProgress';
 import { SafetyCaution } from './SafetyCaution';
 import { SWEEP_JOBS, useWorkerJob } from './useWorkerJob';
+import { SHORTCUTS, withShortcut } from '../../lib/view/shortcuts';
+import { useShortcut } from './useShortcut';
 
 const SEVERITY_NAMES = ['none', 'note', 'caution', 'singular'] as const;
 const MAX_STEPS = 1000;
@@ -68,6 +70,8 @@ export default function SweepPanel({ document }: { document: SheetDocument }) {
   const [error, setError] = useState<string | null>(null);
   const [sweptInput, setSweptInput] = useState<SweepInput | null>(null);
   const { state, start, cancel } = useWorkerJob(SWEEP_JOBS);
+  const sweepButton = useRef<HTMLButtonElement>(null);
+  useShortcut('sweep', () => sweepButton.current?.click());
 
   function choose(nextPath: string) {
     const next = inputs.find((i) => i.path === nextPath)!;
@@ -122,7 +126,13 @@ export default function SweepPanel({ document }: { document: SheetDocument }) {
           Steps
           <input className={inputClass} name="sweepSteps" inputMode="numeric" value={steps} onChange={(e) => setSteps(e.target.value)} />
         </label>
-        <button className={`${primaryButton} col-span-3 @2xl:col-span-1`} disabled={state.status === 'running'}>
+        <button
+          ref={sweepButton}
+          className={`${primaryButton} col-span-3 @2xl:col-span-1`}
+          disabled={state.status === 'running'}
+          aria-keyshortcuts={SHORTCUTS.sweep.keys}
+          title={withShortcut('Sweep the input over the range', 'sweep')}
+        >
           Sweep
         </button>
       </form>

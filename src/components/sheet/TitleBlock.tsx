@@ -1,5 +1,6 @@
 import { REVIEW_STATE_LABELS, type ReviewState, type SheetLink } from '../../lib/contract';
 import { SafetyCaution } from './SafetyCaution';
+import { revisionLabel } from '../../lib/view/revision';
 
 interface TitleBlockProps {
   sheetId: string;
@@ -77,13 +78,13 @@ export default function TitleBlock(props: TitleBlockProps) {
               ? '· never checked'
               : props.lastCheckedRevision === latestRevision
                 ? ''
-                : `· last checked rev. ${props.lastCheckedRevision}`}
+                : `· last checked ${revisionLabel(props.lastCheckedRevision)}`}
           </span>
         </Cell>
         <Cell label="Origin" wide>
           {props.forkedFrom ? (
             <a className="underline decoration-rule hover:text-verdigris-deep" href={`/sheets/${props.forkedFrom.id}?revision=${props.forkedFrom.revision}`} data-forked-from>
-              Forked from {props.forkedFrom.title}, rev. <span className="num">{props.forkedFrom.revision}</span>
+              Forked from {props.forkedFrom.title}, <span className="num">{revisionLabel(props.forkedFrom.revision)}</span>
             </a>
           ) : (
             <span className="font-normal text-graphite">original</span>
@@ -96,7 +97,7 @@ export default function TitleBlock(props: TitleBlockProps) {
             <span className="flex flex-wrap gap-x-3 font-normal">
               {props.forks.map((f) => (
                 <a key={f.id} className="underline decoration-rule hover:text-verdigris-deep" href={`/sheets/${f.id}`}>
-                  {f.title} <span className="num text-xs">(from rev. {f.revision})</span>
+                  {f.title} <span className="num text-xs">(from {revisionLabel(f.revision)})</span>
                 </a>
               ))}
             </span>

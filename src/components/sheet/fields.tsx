@@ -33,6 +33,24 @@ export function Quantity({ path, label, kind, placeholder, plausible }: { path: 
   );
 }
 
+/**
+ * The x, y, z (or w, x, y, z) heads over a vector's inputs. Each input is labelled in full
+ * ("roller centre at home x") for assistive technology, with the label hidden: the vector's legend
+ * and these heads already say it on screen.
+ */
+export function ComponentHeads({ parts }: { parts: readonly string[] }) {
+  return (
+    <div className={`grid ${parts.length === 4 ? 'grid-cols-4' : 'grid-cols-3'} gap-2 text-[11px] uppercase tracking-wide text-graphite`} aria-hidden>
+      {parts.map((part) => (
+        <span key={part}>{part}</span>
+      ))}
+    </div>
+  );
+}
+
+/** Hides the full labels of a vector's inputs on screen (see ComponentHeads). */
+export const HIDDEN_LABELS = '[&_label]:sr-only';
+
 /** Three quantities [x, y, z] at path. */
 export function QuantityVector({ path, label, kind, plausible }: { path: DocumentPath; label: string; kind: Kind; plausible?: PlausibleLengthKind }) {
   const { issues } = useSheetEditing();
@@ -40,9 +58,10 @@ export function QuantityVector({ path, label, kind, plausible }: { path: Documen
   return (
     <fieldset className="min-w-0">
       <legend className="text-[11px] font-semibold text-ink">{label}</legend>
-      <div className="grid grid-cols-3 gap-2">
+      <ComponentHeads parts={['x', 'y', 'z']} />
+      <div className={`grid grid-cols-3 gap-2 ${HIDDEN_LABELS}`}>
         {(['x', 'y', 'z'] as const).map((axis, index) => (
-          <Quantity key={axis} path={[...path, index]} label={axis} kind={kind} plausible={plausible} />
+          <Quantity key={axis} path={[...path, index]} label={`${label} ${axis}`} kind={kind} plausible={plausible} />
         ))}
       </div>
       {whole && <span className="block text-[11px] text-sienna" role="alert">{whole}</span>}
@@ -80,9 +99,10 @@ export function DirectionVector({ path, label }: { path: DocumentPath; label: st
   return (
     <fieldset className="min-w-0">
       <legend className="text-[11px] font-semibold text-ink">{label}</legend>
-      <div className="grid grid-cols-3 gap-2">
+      <ComponentHeads parts={['x', 'y', 'z']} />
+      <div className={`grid grid-cols-3 gap-2 ${HIDDEN_LABELS}`}>
         {(['x', 'y', 'z'] as const).map((axis, index) => (
-          <PlainNumber key={axis} path={[...path, index]} label={axis} />
+          <PlainNumber key={axis} path={[...path, index]} label={`${label} ${axis}`} />
         ))}
       </div>
       {whole && <span className="block text-[11px] text-sienna" role="alert">{whole}</span>}

@@ -8,6 +8,7 @@ import { inputClass, labelClass, primaryButton, secondaryButton } from '../form-
 import QueryRoot from '../QueryRoot';
 import ImportDialog from './ImportDialog';
 import WarningBadge from './WarningBadge';
+import { revisionLabel } from '../../lib/view/revision';
 
 type Sort = (typeof SHEET_SORTS)[number];
 type WarningFilter = (typeof WARNING_FILTERS)[number];
@@ -99,7 +100,7 @@ function useColumns() {
                     ) : (
                       'of another team'
                     )}
-                    , rev. <span className="num">{sheet.forkedFromRevision}</span>
+                    , <span className="num">{revisionLabel(sheet.forkedFromRevision)}</span>
                   </span>
                 </div>
               )}
@@ -126,7 +127,7 @@ function useColumns() {
         enableSorting: false,
         cell: ({ row, getValue }) => (
           <a href={`/sheets/${row.original.id}/history`} className="num hover:text-verdigris-deep underline decoration-rule" title="Revision history">
-            r{getValue()}
+            {revisionLabel(getValue())}
           </a>
         ),
       }),
@@ -136,10 +137,10 @@ function useColumns() {
         cell: ({ row, getValue }) => (
           <span className="text-xs whitespace-nowrap" data-review-badge={getValue()}>
             <span className={`border px-1.5 ${getValue() === 'checked' ? 'border-verdigris' : getValue() === 'returned' ? 'border-ochre' : 'border-rule'}`}>
-              {REVIEW_STATE_LABELS[getValue()]} <span className="num">r{row.original.latestRevision}</span>
+              {REVIEW_STATE_LABELS[getValue()]} <span className="num">{revisionLabel(row.original.latestRevision)}</span>
             </span>
             {row.original.lastCheckedRevision !== null && row.original.lastCheckedRevision !== row.original.latestRevision && (
-              <span className="ml-1 text-graphite num">checked r{row.original.lastCheckedRevision}</span>
+              <span className="ml-1 text-graphite num">checked {revisionLabel(row.original.lastCheckedRevision)}</span>
             )}
           </span>
         ),

@@ -1,4 +1,5 @@
 import type { ErrorBody, ErrorIssue } from '../contract';
+import { formatDateTime } from '../view/when';
 
 /** The message shown when a request never reached the server (offline, refused, aborted). */
 export const UNREACHABLE = 'The server could not be reached. Check the connection and try again.';
@@ -122,9 +123,7 @@ export function serverErrors(error: unknown, fields: readonly string[]): Record<
   return { form: UNREACHABLE };
 }
 
-const dateTime = new Intl.DateTimeFormat('en-GB', { dateStyle: 'medium', timeStyle: 'short' });
-
-/** A date from the API (ISO string) as "3 Dec 2026, 14:05" in the viewer's time zone; "never" for null. */
+/** A date from the API (ISO string) as "3 Dec 2026, 14:05 CET" in the viewer's time zone, zone named; "never" for null. */
 export function formatWhen(value: string | null | undefined): string {
-  return value ? dateTime.format(new Date(value)) : 'never';
+  return value ? formatDateTime(value) : 'never';
 }

@@ -8,6 +8,7 @@ import type { PlainSheetResult } from '../kinematics';
 import { DEFAULT_DISPLAY_UNITS, displayUnitsOf, type DisplayUnits } from '../sheet/display-units';
 import { diffDocuments, isRecord, pathText, type DocumentChangeKind } from '../sheet/document-path';
 import { evaluateSheet } from '../sheet/evaluate';
+import { describePath } from '../sheet/path-words';
 import { fingerOutputs, graspOutputs, type OutputValue, type OutputValueRow } from '../sheet/outputs';
 import { formatIssuePath, type SheetIssue } from '../sheet/schema';
 import { describeWarning } from '../sheet/warning-notes';
@@ -33,6 +34,8 @@ export function diffInputs(before: unknown, after: unknown): InputChange[] {
 /** A field of the input shown side by side: a path and its value, where arrays of plain values count as one field. */
 export interface InputField {
   path: string;
+  /** The path in words ("finger 1 (north) / roller radius"), names from the newer side. */
+  label: string;
   before?: Json;
   after?: Json;
   kind: InputChangeKind | 'same';
@@ -57,10 +60,11 @@ export function sideBySide(before: unknown, after: unknown): InputField[] {
   collectLeaves(after, [], right);
   const paths = [...left.keys(), ...[...right.keys()].filter((path) => !left.has(path))];
   return paths.map((path) => {
-    if (!right.has(path)) return { path, before: left.get(path), kind: 'removed' };
-    if (!left.has(path)) return { path, after: right.get(path), kind: 'added' };
+    const label = describePath(path, right.has(path) ? after : before);
+    if (!right.has(path)) return { path, label, before: left.get(path), kind: 'removed' };
+    if (!left.has(path)) return { path, label, after: right.get(path), kind: 'added' };
     const a = left.get(path), b = right.get(path);
-    return { path, before: a, after: b, kind: JSON.stringify(a) === JSON.stringify(b) ? 'same' : 'changed' };
+    return { path, label, before: a, after: b, kind: JSON.stringify(a) === JSON.stringify(b) ? 'same' : 'changed' };
   });
 }
 

@@ -8,6 +8,7 @@ import { insertAudit } from './audit';
 import { renderRemark } from './remark-html';
 import { sendMail } from './email';
 import { findReviewState, type Actor } from './sheets';
+import { revisionLabel } from '../view/revision';
 
 const resolvers = alias(users, 'resolvers');
 
@@ -129,7 +130,7 @@ export function signatureMail(input: { sheetTitle: string; revision: number; ver
       ? `${checkerName} signed revision ${revision} of "${sheetTitle}" as checked.`
       : `${checkerName} returned revision ${revision} of "${sheetTitle}" for correction.`;
   return {
-    subject: verdict === 'checked' ? `Checked: ${sheetTitle}, rev. ${revision}` : `Returned for correction: ${sheetTitle}, rev. ${revision}`,
+    subject: verdict === 'checked' ? `Checked: ${sheetTitle}, ${revisionLabel(revision)}` : `Returned for correction: ${sheetTitle}, ${revisionLabel(revision)}`,
     text: [headline, ...(note ? ['', `${checkerName} wrote:`, '', note] : []), ...(link ? ['', `Open the sheet: ${link}`] : [])].join('\n'),
   };
 }

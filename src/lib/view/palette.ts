@@ -14,6 +14,10 @@ export const PALETTE = {
   note: '#3f6aa6',
   ochre: '#b7801a',
   sienna: '#b04a26',
+  plum: '#7d3c98',
+  olive: '#6a7d1e',
+  rose: '#b0306f',
+  slate: '#8a8f99',
 } as const;
 
 /** What each element of the 3D view and its 2D fallback is drawn in. */
@@ -29,16 +33,11 @@ export const SCENE_COLOURS = {
   palm: PALETTE.grid,
 } as const;
 
-/** Line colours for plots, taken in turn. */
-export const SERIES_COLOURS: readonly string[] = [
-  PALETTE.verdigris,
-  PALETTE.sienna,
-  PALETTE.note,
-  PALETTE.ochre,
-  PALETTE.ink,
-  PALETTE.verdigrisDeep,
-  PALETTE.graphite,
-];
+/**
+ * Line colours for plots, taken in turn. None is a warning-severity colour or near one, so a line
+ * is never read as a warning band (tests/unit/view/palette.test.ts holds the distance).
+ */
+export const SERIES_COLOURS: readonly string[] = [PALETTE.verdigris, PALETTE.plum, PALETTE.ink, PALETTE.olive, PALETTE.rose, PALETTE.slate];
 
 /** Colours of SEVERITY_LEVELS (index 0, none, is not drawn). */
 export const SEVERITY_COLOURS: Record<'note' | 'caution' | 'singular', string> = {

@@ -34,6 +34,8 @@ export interface RunSeries {
   commanded: CommandedSolution;
   followed: string;
   ticks: Float64Array;
+  /** Time of each tick from the start of the run, s (the record's own clock: tick × time step). */
+  time: Float64Array;
   jointAngles: JointSeries[];
   jointRates: JointSeries[];
   positionError: Float64Array;
@@ -73,7 +75,7 @@ export function column(table: ArrayLike<number>, width: number, k: number, rows:
 
 const STOP_REASON_TEXT: Record<RunStopReason, string> = {
   converged: 'Converged: the object reached the target pose within the position and angle tolerances.',
-  'tick-limit': 'Stopped at the tick limit before reaching the target pose.',
+  'tick-limit': 'Stopped at the run\'s most time steps before reaching the target pose.',
   singular: 'Stopped early: a singular warning was raised and the run is set to stop on singular.',
 };
 
@@ -113,6 +115,7 @@ export function runSeries(doc: SheetDocument, record: RunRecord, elapsedMs: numb
     commanded,
     followed: describeCommanded(commanded, followed),
     ticks,
+    time: record.time.slice(0, n),
     jointAngles: jointColumns(doc, record.jointAngles, n),
     jointRates: jointColumns(doc, record.jointRates, n),
     positionError: record.positionError.slice(),

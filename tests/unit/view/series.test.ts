@@ -37,6 +37,9 @@ describe('runSeries', () => {
     expect(series.elapsedMs).toBe(12.5);
     expect(Array.from(series.ticks.slice(0, 3))).toEqual([0, 1, 2]);
     expect([series.commanded, series.followed]).toEqual(['steer-and-roll', 'steer-and-roll']);
+    // Time axis in seconds: tick k of a fixed-step run is k time steps from the start (common practice for fixed-step integration).
+    expect(series.time).toHaveLength(record.tickCount);
+    expect(series.time[record.tickCount - 1]).toBeCloseTo((record.tickCount - 1) * doc.motion.run.dt, 12);
     expect(series.jointAngles).toHaveLength(9);
     expect(series.jointAngles[4]!.joint).toBe(doc.hand.fingers[1]!.joints[1]!.name);
     for (let t = 0; t < record.tickCount; t++) {
@@ -89,7 +92,7 @@ describe('sweepSeries', () => {
 describe('describeStopReason', () => {
   it('puts each stop reason in words', () => {
     expect(describeStopReason('converged')).toMatch(/reached the target/);
-    expect(describeStopReason('tick-limit')).toMatch(/tick limit/);
+    expect(describeStopReason('tick-limit')).toMatch(/most time steps/);
     expect(describeStopReason('singular')).toMatch(/singular/);
   });
 });

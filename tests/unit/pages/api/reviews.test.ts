@@ -89,11 +89,11 @@ describe('checking a revision', () => {
     const sheetId = await newSheet();
     const author = people.editor.user.email!;
     await review(sheetId, 1, 'checked');
-    const checked = await waitForMailboxMail(outbox.mailboxDir, author, { subject: 'Checked: Review me, rev. 1' });
+    const checked = await waitForMailboxMail(outbox.mailboxDir, author, { subject: 'Checked: Review me, rev 1' });
     expect(checked.text).toContain(`${people.reviewer.user.name} signed revision 1 of "Review me" as checked.`);
     expect(checked.text).toContain(`/sheets/${sheetId}?revision=1`);
     await review(sheetId, 1, 'returned');
-    const returned = await waitForMailboxMail(outbox.mailboxDir, author, { subject: 'Returned for correction: Review me, rev. 1' });
+    const returned = await waitForMailboxMail(outbox.mailboxDir, author, { subject: 'Returned for correction: Review me, rev 1' });
     expect(returned.text).toContain('Roll rate of the left finger is off by a factor of two.');
   });
 

@@ -1,0 +1,44 @@
+import { describe, expect, it } from 'vitest';
+import { evaluateSheet } from '../../../src/lib/sheet/evaluate';
+import { createSheetFromTemplate } from '../../../src/lib/sheet/templates';
+import type { SheetDocument } from '../../../src/lib/sheet/types';
+import { summariseResults } from '../../../src/lib/view/results-summary';
+
+function solved(doc: SheetDocument) {
+  const evaluated = evaluateSheet(doc);
+  if (!evaluated.ok) throw new Error(evaluated.error.message);
+  return evaluated.value.result;
+}
+
+describe('summariseResults', () => {
+  const doc = createSheetFromTemplate('tri-radial', { kind: 'sphere', radius: 0.03 });
+  const result = solved(doc);
+  const summary = summariseResults(result, doc);
+
+  it('shows the steer-and-roll rates joint by joint where the finger steers, the rule the run loop commands by', () => {
+    summary.fingers.forEach((finger, f) => {
+      const solvedFinger = result.fingers[f]!;
+      expect(finger.solution).toBe('steer-and-roll');
+      expect(finger.joints.map((j) => j.rate)).toBeNear(Array.from(solvedFinger.steer.rates), { abs: 0 });
+      expect(finger.pivotAngle).toBe(solvedFinger.steer.pivotAngle);
+      expect(finger.joints.map((j) => [j.name, j.role])).toEqual(doc.hand.fingers[f]!.joints.map((j) => [j.name, j.role]));
+    });
+  });
+
+  it('falls back to the full solution for a finger without a pivot, as runs do', () => {
+    const plain = structuredClone(doc);
+    plain.hand.fingers[0]!.joints = plain.hand.fingers[0]!.joints.map((joint) => (joint.role === 'pivot' ? { ...joint, role: 'other' } : joint));
+    const other = summariseResults(solved(plain), plain);
+    expect(other.fingers[0]!.solution).toBe('full');
+    expect(other.fingers[0]!.pivotAngle).toBeNull();
+    expect(other.fingers[0]!.joints.map((j) => j.rate)).toBeNear(Array.from(solved(plain).fingers[0]!.full.rates), { abs: 1e-15 });
+  });
+
+  it('names the worst warning of each finger with the number raised', () => {
+    summary.fingers.forEach((finger, f) => {
+      const raised = result.warnings.filter((w) => w.finger === f);
+      expect(finger.worst?.count ?? 0).toBe(raised.length);
+      if (raised.length > 0) expect(raised.map((w) => w.severity)).toContain(finger.worst!.severity);
+    });
+  });
+});
