@@ -1,4 +1,5 @@
 import { join } from 'node:path';
+import { SAFETY_CSV_COMMENT } from '../../src/lib/safety';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Locator, Page } from 'playwright-core';
 import { runSheet } from '../../src/lib/kinematics/index';
@@ -140,7 +141,8 @@ describe('comparing a controller log with the sheet', () => {
     // The per-sample table: a header with units, one row per compared sample.
     const seriesHref = await comparison.locator('[data-series-csv]').first().getAttribute('href');
     const series = await (await page.request.get(`${baseUrl()}${seriesHref}`)).text();
-    const lines = series.trimEnd().split('\n');
+    const [safety, ...lines] = series.trimEnd().split('\n');
+    expect(safety).toBe(SAFETY_CSV_COMMENT);
     expect(lines[0]).toMatch(/^line,time_s,.+\.logged_rad_s,.+\.sheet_rad_s,.+\.residual_rad_s,.*\.slip_m_s,warnings$/);
     expect(lines).toHaveLength(record.tickCount + 1);
 

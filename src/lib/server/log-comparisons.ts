@@ -14,6 +14,7 @@ import type { LogComparisonList, LogComparisonRecord, SheetComparisonList } from
 import { compareLog, type LogComparison } from '../logs/compare';
 import { parseLogMapping } from '../logs/mapping';
 import { fail, succeed, type Result } from '../result';
+import { SAFETY_CSV_COMMENT } from '../safety';
 import { comparedSampleHeader, comparedSampleLine } from '../sheet/results-csv';
 import { DEFAULT_COMMANDED, parseSheet } from '../sheet/schema';
 import { notFound } from './access';
@@ -244,14 +245,14 @@ export async function listComparisonsOfLog(database: Database, storage: LogStora
 /** Column names of the statistics export, one row per compared joint, then one per contact. */
 export const COMPARISON_CSV_COLUMNS = ['kind', 'name', 'finger', 'samples', 'rms', 'max', 'max_at_s', 'within_fraction', 'unit', 'note'] as const;
 
-/** The per-joint (rate residual, rad/s) and per-contact (slip speed, m/s) statistics of a comparison as CSV text. */
+/** The per-joint (rate residual, rad/s) and per-contact (slip speed, m/s) statistics of a comparison as CSV text, after the safety caution as a comment line. */
 export function comparisonStatisticsCsv(comparison: LogComparison): string {
   const rows: (string | number | null)[][] = [
     // Which solution the sheet's rates followed; a comparison stored before the choice followed steer-and-roll.
     ...comparison.joints.map((j) => ['joint', j.joint, j.finger, j.samples, j.rms, j.max, j.maxAt, j.withinFraction, 'rad/s', `sheet rates: ${comparison.solution ?? DEFAULT_COMMANDED}`]),
     ...comparison.contacts.map((c) => ['contact', c.finger, c.finger, c.samples, c.rms, c.max, c.maxAt, c.withinFraction, 'm/s', c.computed ? '' : (c.reason ?? 'not computed')]),
   ];
-  return `${Papa.unparse({ fields: [...COMPARISON_CSV_COLUMNS], data: rows.map((row) => row.map((cell) => (typeof cell === 'number' && !Number.isFinite(cell) ? '' : cell))) }, { newline: '\n', escapeFormulae: true })}\n`;
+  return `${SAFETY_CSV_COMMENT}\n${Papa.unparse({ fields: [...COMPARISON_CSV_COLUMNS], data: rows.map((row) => row.map((cell) => (typeof cell === 'number' && !Number.isFinite(cell) ? '' : cell))) }, { newline: '\n', escapeFormulae: true })}\n`;
 }
 
 /**
@@ -280,7 +281,8 @@ export async function comparisonSeriesCsv(database: Database, storage: LogStorag
   output.on('drain', () => source.resume());
   output.on('close', () => source.destroy());
   compareLog(parsed.doc, read.mapping, source, {
-    onColumns: (columns) => write(comparedSampleHeader(columns)),
+    // The file carries commanded joint rates: the safety caution comes first, as a comment line.
+    onColumns: (columns) => write(`${SAFETY_CSV_COMMENT}\n${comparedSampleHeader(columns)}`),
     onSample: (sample) => write(comparedSampleLine(sample)),
   }).then(
     // The same log, revision and mapping compared once already; a failure now (storage gone) can only cut the download short.

@@ -4,8 +4,8 @@
  * raise an input note (never an error) beside the field; content/docs/units.md states them.
  * A leaf module the browser may import.
  */
-import { DEFAULT_DISPLAY_UNITS, shownUnit, toShown, type DisplayUnits } from './display-units';
-import { formatShownNumber } from './outputs';
+import { DEFAULT_DISPLAY_UNITS, type DisplayUnits } from './display-units';
+import { formatShownNumber, formatShownQuantity } from './outputs';
 
 export interface PlausibleRange {
   /** What the field is, in a note's words. */
@@ -38,8 +38,7 @@ export function lengthNote(valueSI: number, kind: PlausibleLengthKind, bareNumbe
   const tooLarge = magnitude > range.max;
   const tooSmall = magnitude > 0 && magnitude < range.min;
   if (!tooLarge && !tooSmall) return null;
-  const unit = shownUnit('m', units);
-  const shown = (x: number) => `${formatShownNumber(toShown(x, 'm', units), 4)} ${unit}`;
+  const shown = (x: number) => formatShownQuantity(x, 'm', units);
   const expected = range.min > 0 ? `${shown(range.min)} to ${shown(range.max)}` : `at most ${shown(range.max)}`;
   const reading = bareNumber ? ` A bare number is read as metres: did you mean ${formatShownNumber(valueSI, 6)} mm?` : '';
   return `${shown(valueSI)} is implausible for ${range.what} (expected ${expected}).${tooLarge ? reading : ''}`;

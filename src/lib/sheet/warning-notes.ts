@@ -4,8 +4,8 @@
  * report and the comparison all read it; a leaf module the browser may import.
  */
 import { WARNING_CATALOGUE, type WarningCode, type WarningSeverity } from '../kinematics';
-import { DEFAULT_DISPLAY_UNITS, shownUnit, toShown, type DisplayUnits } from './display-units';
-import { formatShownNumber } from './outputs';
+import { DEFAULT_DISPLAY_UNITS, type DisplayUnits } from './display-units';
+import { formatShownQuantity } from './outputs';
 
 /** What a note needs of a raised warning: finger and joint are indices into the hand. */
 export interface RaisedWarning {
@@ -44,12 +44,6 @@ export interface WarningNote {
   thresholdMeaning: string;
 }
 
-/** A catalogue quantity in the display units, as text with its unit ("1" is a ratio or count, shown bare). */
-function quantityText(valueSI: number, siUnit: string, units: DisplayUnits): string {
-  const number = formatShownNumber(toShown(valueSI, siUnit, units), 4);
-  return siUnit === '1' ? number : `${number} ${shownUnit(siUnit, units)}`;
-}
-
 /** A raised warning with its finger and joint named and its numbers in the display units. */
 export function describeWarning(warning: RaisedWarning, fingers: readonly NamedFinger[], units: DisplayUnits = DEFAULT_DISPLAY_UNITS): WarningNote {
   const info = WARNING_CATALOGUE[warning.code];
@@ -65,8 +59,8 @@ export function describeWarning(warning: RaisedWarning, fingers: readonly NamedF
     finger,
     joint,
     where,
-    value: quantityText(warning.value, info.unit, units),
-    threshold: quantityText(warning.threshold, info.unit, units),
+    value: formatShownQuantity(warning.value, info.unit, units),
+    threshold: formatShownQuantity(warning.threshold, info.unit, units),
     valueMeaning: info.valueMeaning,
     thresholdMeaning: info.thresholdMeaning,
   };

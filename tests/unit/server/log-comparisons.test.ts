@@ -1,4 +1,5 @@
 import { gzipSync } from 'node:zlib';
+import { SAFETY_CSV_COMMENT } from '../../../src/lib/safety';
 import { and, eq } from 'drizzle-orm';
 import Papa from 'papaparse';
 import type { Readable } from 'node:stream';
@@ -216,7 +217,10 @@ describe('comparing a stored log with the sheet (route and service)', () => {
     });
     expect(response.status).toBe(200);
     expect(response.headers.get('content-type')).toContain('text/csv');
-    const table = Papa.parse<Record<string, string>>(await response.text(), { header: true, skipEmptyLines: true });
+    const text = await response.text();
+    // The safety caution first, as a "#" comment line that papaparse skips with comments: '#' (its documented option).
+    expect(text.split('\n')[0]).toBe(SAFETY_CSV_COMMENT);
+    const table = Papa.parse<Record<string, string>>(text, { header: true, skipEmptyLines: true, comments: '#' });
     expect(table.meta.fields).toEqual([...COMPARISON_CSV_COLUMNS]);
     const result = record.result!;
     expect(table.data).toHaveLength(result.joints.length + result.contacts.length);
@@ -241,7 +245,9 @@ describe('comparing a stored log with the sheet (route and service)', () => {
     });
     expect(response.status).toBe(200);
     expect(response.headers.get('content-disposition')).toContain('-series.csv');
-    const table = Papa.parse<Record<string, string>>(await response.text(), { header: true, skipEmptyLines: true });
+    const text = await response.text();
+    expect(text.split('\n')[0]).toBe(SAFETY_CSV_COMMENT);
+    const table = Papa.parse<Record<string, string>>(text, { header: true, skipEmptyLines: true, comments: '#' });
     const result = record.result!;
     expect(table.data).toHaveLength(result.samples);
     const fingers = doc.hand.fingers.map((f) => f.name);
