@@ -141,13 +141,13 @@ export const OUTPUTS: readonly OutputDefinition[] = [
     read: (r, i) => r.commanded?.fingers[i]?.joints.map((joint) => joint.rate) ?? r.fingers[i].jointNames.map(() => Number.NaN),
   },
   {
-    id: 'commanded.pivot.targetAngle', label: 'steered pivot: target angle', tableLabel: 'pivot target angle', unit: 'rad', display: shown('deg', degrees),
+    id: 'commanded.pivot.targetAngle', label: 'steered pivot: target angle', tableLabel: 'pivot target angle', unit: 'rad', display: shown('deg'),
     frame: null, scope: 'finger', parts: 'single', compared: true, csv: { columns: ['pivot_target_angle_rad'] },
     read: (r, i) => r.commanded?.fingers[i]?.pivot?.targetAngle ?? Number.NaN,
   },
   {
     id: 'commanded.pivot.change', label: 'steered pivot: change from the current angle', tableLabel: 'pivot change', unit: 'rad',
-    display: shown('deg', degrees), frame: null, scope: 'finger', parts: 'single', compared: true, csv: { columns: ['pivot_change_rad'] },
+    display: shown('deg'), frame: null, scope: 'finger', parts: 'single', compared: true, csv: { columns: ['pivot_change_rad'] },
     read: (r, i) => r.commanded?.fingers[i]?.pivot?.change ?? Number.NaN,
   },
   {
