@@ -1,36 +1,27 @@
-import { useId } from 'react';
 import { getAt, pathText, setAt, type DocumentPath } from '../../lib/sheet/document-path';
 import { COMMANDED_SOLUTIONS, DEFAULT_COMMANDED } from '../../lib/sheet/schema';
 import type { QuantityKind } from '../../lib/sheet/units';
 import { useSheetEditing } from './editor-context';
 import { OrientationFields } from './ObjectSection';
-import { ComponentHeads, HIDDEN_LABELS, PlainNumber, Quantity, QuantityVector, Toggle } from './fields';
+import { Choice, ComponentHeads, HIDDEN_LABELS, PlainNumber, Quantity, QuantityVector, Toggle } from './fields';
 import QuantityField from './QuantityField';
-import { selectInput } from './sheet-styles';
 import SolverSettingsFields from './SolverSettingsFields';
 
 const ACCELERATION: DocumentPath = ['object', 'acceleration'];
 
 /**
- * One part of the object's optional acceleration: blank components are stored as 0, and a part
- * left all blank or zero is removed (and the acceleration once both parts are gone), so a sheet
- * without an acceleration stays as it was written.
+ * Three optional quantities [x, y, z] at `path`, each blank one shown as 0; `store` gets the components
+ * (blank ones undefined) and writes them back as the field's meaning asks.
  */
-function AccelerationVector({ part, label, kind }: { part: 'linear' | 'angular'; label: string; kind: Exclude<QuantityKind, 'any'> }) {
-  const { document, update, issues, variables, units, readOnly } = useSheetEditing();
-  const path = [...ACCELERATION, part];
+function OptionalVector({ path, label, kind, store, test }: {
+  path: DocumentPath; label: string; kind: Exclude<QuantityKind, 'any'>; store: (next: unknown[]) => void; test?: string;
+}) {
+  const { document, issues, variables, units, readOnly } = useSheetEditing();
   const vector = getAt(document, path);
   const components: unknown[] = Array.isArray(vector) ? vector : [];
-  const change = (index: number, value: number | string | undefined) => {
-    const next = [0, 1, 2].map((k) => (k === index ? value : components[k]));
-    // A zero vector means the same as none, so clearing or zeroing every component removes the part.
-    const blank = next.every((x) => x === undefined || x === 0);
-    const rest = setAt(getAt(document, ACCELERATION) ?? {}, [part], blank ? undefined : next.map((x) => x ?? 0));
-    update(ACCELERATION, Object.keys(rest as object).length === 0 ? undefined : rest);
-  };
   const whole = issues.get(pathText(path));
   return (
-    <fieldset className="min-w-0">
+    <fieldset className="min-w-0" data-testid={test}>
       <legend className="text-[11px] font-semibold text-ink">{label}</legend>
       <ComponentHeads parts={['x', 'y', 'z']} />
       <div className={`grid grid-cols-3 gap-2 ${HIDDEN_LABELS}`}>
@@ -46,71 +37,45 @@ function AccelerationVector({ part, label, kind }: { part: 'linear' | 'angular';
             issue={issues.get(pathText([...path, index]))}
             disabled={readOnly}
             optional={{ placeholder: '0' }}
-            onChange={(value) => change(index, value)}
+            onChange={(value) => store([0, 1, 2].map((k) => (k === index ? value : components[k])))}
           />
         ))}
       </div>
       {whole && <span className="block text-[11px] text-sienna" role="alert">{whole}</span>}
     </fieldset>
   );
+}
+
+/**
+ * One part of the object's optional acceleration: blank components are stored as 0, and a part
+ * left all blank or zero is removed (and the acceleration once both parts are gone), so a sheet
+ * without an acceleration stays as it was written.
+ */
+function AccelerationVector({ part, label, kind }: { part: 'linear' | 'angular'; label: string; kind: Exclude<QuantityKind, 'any'> }) {
+  const { document, update } = useSheetEditing();
+  const store = (next: unknown[]) => {
+    // A zero vector means the same as none, so clearing or zeroing every component removes the part.
+    const blank = next.every((x) => x === undefined || x === 0);
+    const rest = setAt(getAt(document, ACCELERATION) ?? {}, [part], blank ? undefined : next.map((x) => x ?? 0));
+    update(ACCELERATION, Object.keys(rest as object).length === 0 ? undefined : rest);
+  };
+  return <OptionalVector path={[...ACCELERATION, part]} label={label} kind={kind} store={store} />;
 }
 
 const TWIST: DocumentPath = ['object', 'twist'];
 
 /** The point the entered twist is about: blank components are 0, and all blank removes it (the object origin). */
 function TwistPoint({ frame }: { frame: string }) {
-  const { document, update, issues, variables, readOnly } = useSheetEditing();
+  const { update } = useSheetEditing();
   const path = [...TWIST, 'about'];
-  const vector = getAt(document, path);
-  const components: unknown[] = Array.isArray(vector) ? vector : [];
-  const change = (index: number, value: number | string | undefined) => {
-    const next = [0, 1, 2].map((k) => (k === index ? value : components[k]));
-    update(path, next.every((x) => x === undefined) ? undefined : next.map((x) => x ?? 0));
-  };
-  const whole = issues.get(pathText(path));
   return (
-    <fieldset className="min-w-0" data-testid="twist-about">
-      <legend className="text-[11px] font-semibold text-ink">twist about the point ({frame} frame{frame === 'object' ? ', from the object centre' : ''}; blank = object origin)</legend>
-      <div className="grid grid-cols-3 gap-2">
-        {(['x', 'y', 'z'] as const).map((axis, index) => (
-          <QuantityField
-            key={axis}
-            label={axis}
-            kind="length"
-            path={pathText([...path, index])}
-            value={components[index]}
-            variables={variables}
-            issue={issues.get(pathText([...path, index]))}
-            disabled={readOnly}
-            optional={{ placeholder: '0' }}
-            onChange={(value) => change(index, value)}
-          />
-        ))}
-      </div>
-      {whole && <span className="block text-[11px] text-sienna" role="alert">{whole}</span>}
-    </fieldset>
-  );
-}
-
-/** A choice written only when it differs from the default, so a sheet that never chose stays as it was written. */
-function DefaultedChoice({ path, label, options, fallback, test }: { path: DocumentPath; label: string; options: readonly string[]; fallback: string; test: string }) {
-  const { document, update, readOnly } = useSheetEditing();
-  const id = useId();
-  const value = getAt(document, path);
-  return (
-    <div>
-      <label htmlFor={id} className="block text-[11px] uppercase tracking-wide text-graphite">{label}</label>
-      <select
-        id={id}
-        className={selectInput}
-        disabled={readOnly}
-        data-testid={test}
-        value={typeof value === 'string' ? value : fallback}
-        onChange={(event) => update(path, event.target.value === fallback && value === undefined ? undefined : event.target.value)}
-      >
-        {options.map((option) => <option key={option}>{option}</option>)}
-      </select>
-    </div>
+    <OptionalVector
+      path={path}
+      label={`twist about the point (${frame} frame${frame === 'object' ? ', from the object centre' : ''}; blank = object origin)`}
+      kind="length"
+      test="twist-about"
+      store={(next) => update(path, next.every((x) => x === undefined) ? undefined : next.map((x) => x ?? 0))}
+    />
   );
 }
 
@@ -123,8 +88,8 @@ export default function MotionSection() {
   return (
     <div className="space-y-4">
       <div className="grid gap-3 md:grid-cols-2">
-        <DefaultedChoice path={['commanded']} label="commanded joint rates" options={COMMANDED_SOLUTIONS} fallback={DEFAULT_COMMANDED} test="commanded-choice" />
-        <DefaultedChoice path={[...TWIST, 'frame']} label="twist written in the frame" options={['palm', 'object']} fallback="palm" test="twist-frame" />
+        <Choice path={['commanded']} label="commanded joint rates" options={COMMANDED_SOLUTIONS} fallback={DEFAULT_COMMANDED} test="commanded-choice" />
+        <Choice path={[...TWIST, 'frame']} label="twist written in the frame" options={['palm', 'object']} fallback="palm" test="twist-frame" />
         <QuantityVector path={[...TWIST, 'linear']} label={`twist: ${about ? 'velocity of the point below' : 'origin velocity'} (${frame} frame)`} kind="speed" />
         <QuantityVector path={[...TWIST, 'angular']} label={`twist: angular velocity (${frame} frame)`} kind="angularSpeed" />
         <TwistPoint frame={frame} />

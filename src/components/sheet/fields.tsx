@@ -131,10 +131,17 @@ export function TextField({ path, label }: { path: DocumentPath; label: string }
   );
 }
 
-/** A choice among fixed values at path. */
-export function Choice({ path, label, options, onChoose }: { path: DocumentPath; label: string; options: readonly string[]; onChoose?: (value: string) => void }) {
+/**
+ * A choice among fixed values at path. With `fallback`, an absent field shows the default it reads as, and choosing
+ * that default leaves it absent, so a sheet that never chose stays as it was written.
+ */
+export function Choice({ path, label, options, onChoose, fallback, test }: {
+  path: DocumentPath; label: string; options: readonly string[]; onChoose?: (value: string) => void; fallback?: string; test?: string;
+}) {
   const { document, update, readOnly } = useSheetEditing();
   const id = useId();
+  const current = getAt(document, path);
+  const store = (value: string) => update(path, value === fallback && current === undefined ? undefined : value);
   return (
     <div>
       <label htmlFor={id} className="block text-[11px] uppercase tracking-wide text-graphite">{label}</label>
@@ -142,8 +149,9 @@ export function Choice({ path, label, options, onChoose }: { path: DocumentPath;
         id={id}
         className={selectInput}
         disabled={readOnly}
-        value={String(getAt(document, path) ?? '')}
-        onChange={(event) => (onChoose ? onChoose(event.target.value) : update(path, event.target.value))}
+        data-testid={test}
+        value={String(current ?? fallback ?? '')}
+        onChange={(event) => (onChoose ? onChoose(event.target.value) : store(event.target.value))}
       >
         {options.map((option) => (
           <option key={option}>{option}</option>

@@ -70,8 +70,6 @@ export interface RunOptions {
   /** Called after every progressEvery ticks (default 500) with the ticks done and the tick limit. */
   onProgress?: (ticksDone: number, maxTicks: number) => void;
   progressEvery?: number;
-  /** Solution to follow instead of the document's commanded one. */
-  solution?: 'steer-and-roll' | 'full';
 }
 
 interface Columns {
@@ -175,7 +173,7 @@ export function runScene(scene: Scene, settings: RunSettings, options: RunOption
   const progressEvery = Math.max(1, options.progressEvery ?? 500);
   const geodesicIndex = ROTATION_METRICS.findIndex((m) => m.key === 'phi6');
   // A document without the choice commands steer-and-roll, as runs did before it existed.
-  const steerChosen = (options.solution ?? scene.document.commanded ?? 'steer-and-roll') === 'steer-and-roll';
+  const steerChosen = scene.document.commanded !== 'full';
 
   let stopReason: RunStopReason = 'tick-limit';
   let tick = 0;

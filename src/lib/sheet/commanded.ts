@@ -35,7 +35,7 @@ export interface CommandedRates {
 }
 
 /** Which solution each finger follows under the sheet's choice. */
-export function followedSolution(chosen: CommandedSolution, steerAvailable: boolean): CommandedSolution {
+function followedSolution(chosen: CommandedSolution, steerAvailable: boolean): CommandedSolution {
   return chosen === 'steer-and-roll' && steerAvailable ? 'steer-and-roll' : 'full';
 }
 

@@ -3,10 +3,10 @@
  * can hand them over without copying and the charts can use them as they are.
  */
 import {
-  ROTATION_METRICS, SEVERITY_LEVELS, WARNING_CATALOGUE, WARNING_CODES,
+  ROTATION_METRICS, SEVERITY_LEVELS, SOLUTION_KINDS, WARNING_CATALOGUE, WARNING_CODES,
   type RunRecord, type RunStopReason, type SweepRecord, type WarningCode, type WarningSeverity,
 } from '../kinematics';
-import { commandedRates, describeCommanded, followedSolution } from '../sheet/commanded';
+import { commandedRates, describeCommanded } from '../sheet/commanded';
 import { commandedSolutionOf } from '../sheet/schema';
 import type { CommandedSolution, RunSettings, SheetDocument } from '../sheet/types';
 
@@ -102,11 +102,8 @@ export function runSeries(doc: SheetDocument, record: RunRecord, elapsedMs: numb
     if (indices.length > 0) warnings.push({ code, severity: WARNING_CATALOGUE[code].severity, title: WARNING_CATALOGUE[code].title, indices });
   });
   const commanded = commandedSolutionOf(doc);
-  const followed = record.fingerNames.map((finger, f) => ({
-    finger,
-    // SOLUTION_KINDS order: 0 full, 1 steer-and-roll; a run of no ticks followed nothing, and reads as the choice.
-    solution: n === 0 ? commanded : record.solution[f] === 1 ? ('steer-and-roll' as const) : ('full' as const),
-  }));
+  // What each finger followed at the first tick (its joint roles decide, and they do not change); a run of no ticks reads as the choice.
+  const followed = record.fingerNames.map((finger, f) => ({ finger, solution: n === 0 ? commanded : SOLUTION_KINDS[record.solution[f]!]! }));
   return {
     tickCount: n,
     stopReason: record.stopReason,
@@ -167,13 +164,10 @@ export function sweepSeries(doc: SheetDocument, record: SweepRecord, elapsedMs: 
   const worstSeverity = new Uint8Array(steps);
   record.worstSeverity.forEach((level, i) => (worstSeverity[i] = SEVERITY_INDEX.get(level)!));
   const chosen = commandedSolutionOf(doc);
-  // Whether a finger can steer depends on its joint roles, which a sweep of a number never changes.
-  const followed = doc.hand.fingers.map((finger, f) => ({
-    finger: finger.name,
-    solution: followedSolution(chosen, record.results[0]?.fingers[f]!.steer.available ?? false),
-  }));
+  // Whether a finger can steer depends on its joint roles, which a sweep of a number never changes: the first value tells.
   return {
-    path: record.path, elapsedMs, commanded: chosen, followed: describeCommanded(chosen, followed), values: record.values.slice(), fingers, worstSeverity, warnings,
+    path: record.path, elapsedMs, commanded: chosen, followed: describeCommanded(chosen, commanded[0]?.fingers ?? []), values: record.values.slice(), fingers,
+    worstSeverity, warnings,
   };
 }
 
