@@ -3,7 +3,7 @@ import type { Browser, Page } from 'playwright-core';
 import { baseUrl, launchBrowser, saveScreenshot, signIn } from './browser';
 
 // The viewer's demo password is changed and then restored, so files that run later still sign in with it.
-const EMAIL = 'viewer@fenwick.example';
+const EMAIL = 'viewer@tarnwhistle.example';
 const DEMO_PASSWORD = 'slipless-demo';
 const NEW_PASSWORD = 'copper pulley lantern';
 

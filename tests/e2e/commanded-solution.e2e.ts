@@ -4,7 +4,7 @@ import { mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { baseUrl, deleteCreatedSheets, launchBrowser, saveScreenshot, SCREENSHOT_DIR, signIn } from './browser';
 
-const EDITOR = { email: 'editor@fenwick.example', password: 'slipless-demo' };
+const EDITOR = { email: 'editor@tarnwhistle.example', password: 'slipless-demo' };
 const DEMO_SHEET = 'Bearing housing: index a quarter turn';
 
 let browser: Browser;

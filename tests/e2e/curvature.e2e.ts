@@ -6,7 +6,7 @@ import { baseUrl, deleteCreatedSheets, launchBrowser, SCREENSHOT_DIR, signIn } f
 import { evaluateSheet } from '../../src/lib/sheet/evaluate';
 import { displayValue, findOutput } from '../../src/lib/sheet/outputs';
 
-const EDITOR = { email: 'editor@fenwick.example', password: 'slipless-demo' };
+const EDITOR = { email: 'editor@tarnwhistle.example', password: 'slipless-demo' };
 const SHEET_FILE = new URL('../../content/sheets/line4-bearing-housing-quarter-turn.json', import.meta.url);
 
 let browser: Browser;

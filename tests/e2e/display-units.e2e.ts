@@ -8,7 +8,7 @@ import type { DisplayUnits } from '../../src/lib/sheet/display-units';
 import { evaluateSheet } from '../../src/lib/sheet/evaluate';
 import { displayValue, findOutput } from '../../src/lib/sheet/outputs';
 
-const EDITOR = { email: 'editor@fenwick.example', password: 'slipless-demo' };
+const EDITOR = { email: 'editor@tarnwhistle.example', password: 'slipless-demo' };
 const SHEET_FILE = new URL('../../content/sheets/line4-bearing-housing-quarter-turn.json', import.meta.url);
 const CHOSEN: DisplayUnits = { length: 'm', angle: 'deg', angularSpeed: 'rpm' };
 const RADIUS = 'hand.fingers[0].roller.radius';

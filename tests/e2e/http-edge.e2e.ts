@@ -14,7 +14,7 @@ import { cookieHeader, keepCookies, signInOverHttp } from './http-session';
  */
 
 const PUBLIC = 'https://slipless.example.org';
-const OWNER = 'owner@fenwick.example';
+const OWNER = 'owner@tarnwhistle.example';
 const PASSWORD = 'slipless-demo';
 const exampleDocument = readFileSync(join(process.cwd(), 'content', 'sheets', 'line4-peg-tilt.json'), 'utf8');
 
@@ -45,7 +45,7 @@ function signIn(baseUrl: string, origin: string, email = OWNER, headers: Record<
 }
 
 async function demoTeamId(app: App): Promise<string> {
-  const [team] = await query<{ id: string }>(app, "select id from teams where slug = 'fenwick-line4'");
+  const [team] = await query<{ id: string }>(app, "select id from teams where slug = 'tarnwhistle-cell4'");
   if (!team) throw new Error('no demo team');
   return team.id;
 }
@@ -270,7 +270,7 @@ describe('the built server behind a configured proxy with a public origin', () =
     const reset = await fetch(`${app.baseUrl}/api/account/password-reset`, {
       method: 'POST',
       headers: { origin: PUBLIC, 'content-type': 'application/json' },
-      body: JSON.stringify({ email: 'viewer@fenwick.example' }),
+      body: JSON.stringify({ email: 'viewer@tarnwhistle.example' }),
     });
     expect(reset.status).toBe(202);
     const { jar } = await signIn(app.baseUrl, PUBLIC);
@@ -287,10 +287,10 @@ describe('the built server behind a configured proxy with a public origin', () =
       method: 'POST',
       redirect: 'manual',
       headers: { origin: PUBLIC, cookie: cookieHeader(csrfJar), 'content-type': 'application/x-www-form-urlencoded' },
-      body: new URLSearchParams({ email: 'reviewer@fenwick.example', csrfToken: ((await csrf.json()) as { csrfToken: string }).csrfToken }),
+      body: new URLSearchParams({ email: 'reviewer@tarnwhistle.example', csrfToken: ((await csrf.json()) as { csrfToken: string }).csrfToken }),
     });
     expect(emailLink.status).toBe(302);
-    const recipients = "('viewer@fenwick.example', 'edge-invitee@slipless.example', 'reviewer@fenwick.example')";
+    const recipients = "('viewer@tarnwhistle.example', 'edge-invitee@slipless.example', 'reviewer@tarnwhistle.example')";
     let mails: { to: string; text: string }[] = [];
     for (let tries = 0; tries < 50 && mails.length < 3; tries++) {
       mails = await query(app, `select "to", text from mail_outbox where "to" in ${recipients}`);

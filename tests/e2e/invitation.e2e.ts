@@ -3,8 +3,8 @@ import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { linkIn, waitForMailboxMail } from '../helpers/mail';
 import { baseUrl, launchBrowser, mailboxDir, saveScreenshot } from './browser';
 
-const OWNER = { email: 'owner@fenwick.example', password: 'slipless-demo' };
-const INVITEE = { email: 'reviewer2@fenwick.example', name: 'Ines Haverkamp', password: 'roller pivot checks' };
+const OWNER = { email: 'owner@tarnwhistle.example', password: 'slipless-demo' };
+const INVITEE = { email: 'reviewer2@tarnwhistle.example', name: 'Ines Haverkamp', password: 'roller pivot checks' };
 
 let browser: Browser;
 let ownerContext: BrowserContext;
@@ -40,7 +40,7 @@ describe('inviting a reviewer by e-mail', () => {
     expect(await ownerPage.getByTestId('current-team').innerText()).toMatch(/owner/i);
   });
 
-  it('invites reviewer2@fenwick.example as reviewer from the team members page', async () => {
+  it('invites reviewer2@tarnwhistle.example as reviewer from the team members page', async () => {
     await ownerPage.goto(`${baseUrl()}/team/members`, { waitUntil: 'networkidle' });
     const form = ownerPage.getByRole('form', { name: 'Invite someone by e-mail' });
     await form.getByLabel('E-mail').fill(INVITEE.email);
@@ -60,7 +60,7 @@ describe('inviting a reviewer by e-mail', () => {
   it('opens the link, shows team and role, checks fields, accepts and lands signed in', async () => {
     await reviewerPage.goto(invitationLink, { waitUntil: 'networkidle' });
     const details = await reviewerPage.getByTestId('invitation-details').innerText();
-    expect(details).toContain('Fenwick Assembly Lab');
+    expect(details).toContain('Tarnwhistle Grip Works');
     expect(details).toMatch(/reviewer/i);
 
     await reviewerPage.getByLabel('Password').fill('short');

@@ -25,7 +25,7 @@ const DEMO_SHEET_TITLE = 'Bearing housing: index a quarter turn';
 describe('checking a local log in the browser', () => {
   it('the reviewer picks a gzip log generated from the sheet\'s run, sees progress, cancels, runs again to the verdict, and nothing is sent to the server', async () => {
     const page = await browser.newPage({ viewport: { width: 1400, height: 1000 } });
-    await signIn(page, 'reviewer@fenwick.example', DEMO_PASSWORD);
+    await signIn(page, 'reviewer@tarnwhistle.example', DEMO_PASSWORD);
     const me = await (await page.request.get(`${baseUrl()}/api/me`)).json();
     const list = await (await page.request.get(`${baseUrl()}/api/sheets?team=${me.currentTeam}`)).json();
     // A demo sheet whose own run stays in rolling contact from its first sample, so its log passes.

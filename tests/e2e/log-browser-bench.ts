@@ -55,7 +55,7 @@ const app = await startApp({ port: await freePort(), databaseUrl: tempDatabaseUr
 const folder = makeTempDir('slipless-log-bench-');
 const browser = await launchBrowser();
 try {
-  const { jar } = await signInOverHttp(app.baseUrl, app.baseUrl, 'reviewer@fenwick.example', DEMO_PASSWORD);
+  const { jar } = await signInOverHttp(app.baseUrl, app.baseUrl, 'reviewer@tarnwhistle.example', DEMO_PASSWORD);
   const get = async (path: string) => (await fetch(`${app.baseUrl}${path}`, { headers: { cookie: cookieHeader(jar) } })).json();
   const me = await get('/api/me');
   const list = await get(`/api/sheets?team=${me.currentTeam}`);

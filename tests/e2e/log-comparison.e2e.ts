@@ -21,7 +21,7 @@ afterAll(async () => {
   await deleteCreatedSheets(created);
 });
 
-const FILE_NAME = 'fenwick-line4-replay.csv';
+const FILE_NAME = 'tarnwhistle-cell4-replay.csv';
 const TITLE = 'Bearing housing replay check (log comparison browser test)';
 
 /** Opens the log's comparison panel (on the sheet page loaded afresh unless `reload` is false) and waits for its mapping form. */
@@ -54,7 +54,7 @@ const median = (values: number[]) => [...values].sort((a, b) => a - b)[Math.floo
 describe('comparing a controller log with the sheet', () => {
   it('the reviewer compares a log, reads the plots, zooms, re-runs on the author\'s new revision, sees both side by side, signs the revision, and the report lists the log', { timeout: 240_000 }, async () => {
     const author = await browser.newPage();
-    await signIn(author, 'editor@fenwick.example', DEMO_PASSWORD);
+    await signIn(author, 'editor@tarnwhistle.example', DEMO_PASSWORD);
     const me = await (await author.request.get(`${baseUrl()}/api/me`)).json();
     const found = await (await author.request.get(`${baseUrl()}/api/sheets?team=${me.currentTeam}&q=${encodeURIComponent('Bearing housing')}`)).json();
     const demo = await (await author.request.get(`${baseUrl()}/api/sheets/${found.items[0].id}`)).json();
@@ -71,7 +71,7 @@ describe('comparing a controller log with the sheet', () => {
     const log = Buffer.from(runLogCsv(doc, record));
 
     const page = await browser.newPage({ viewport: { width: 1400, height: 1000 } });
-    await signIn(page, 'reviewer@fenwick.example', DEMO_PASSWORD);
+    await signIn(page, 'reviewer@tarnwhistle.example', DEMO_PASSWORD);
     await page.goto(`${baseUrl()}/sheets/${sheetId}`, { waitUntil: 'networkidle' });
     const logsPanel = page.locator('[data-logs-panel]');
     await logsPanel.scrollIntoViewIfNeeded();
@@ -175,7 +175,7 @@ describe('comparing a controller log with the sheet', () => {
     await review.scrollIntoViewIfNeeded();
     await review.getByRole('button', { name: 'Sign rev 2 as checked' }).click();
     await expect.poll(() => page.locator('[data-title-block] [data-checked-by]').innerText(), { timeout: 15_000 }).toBe('Mei Arroyo');
-    const mail = await waitForMailboxMail(mailboxDir(), 'editor@fenwick.example', { subject: `Checked: ${TITLE}, rev 2` });
+    const mail = await waitForMailboxMail(mailboxDir(), 'editor@tarnwhistle.example', { subject: `Checked: ${TITLE}, rev 2` });
     expect(mail.text).toContain(`signed revision 2 of "${TITLE}" as checked.`);
 
     // The report of revision 2 lists the log's latest comparison with it, beside the safety caution.

@@ -14,8 +14,8 @@ afterAll(async () => {
   await browser?.close();
 });
 
-/** A Fenwick parcel-line controller log of `rows` samples, about 60 bytes a row. */
-function fenwickLog(rows: number): Buffer {
+/** A Tarnwhistle parcel-line controller log of `rows` samples, about 60 bytes a row. */
+function tarnwhistleLog(rows: number): Buffer {
   const lines = ['t,px,py,pz,left_roll_cmd,left_roll_meas'];
   for (let i = 0; i < rows; i++) lines.push(`${(i * 0.001).toFixed(3)},0.1234,0.0567,0.1189,0.5123,${(0.51 + (i % 7) * 1e-3).toFixed(4)}`);
   return Buffer.from(`${lines.join('\n')}\n`);
@@ -24,7 +24,7 @@ function fenwickLog(rows: number): Buffer {
 describe('controller logs on the sheet page', () => {
   it('a reviewer uploads a log with a progress bar and sees it listed with its size; a viewer sees the list without the upload button', async () => {
     const page = await browser.newPage({ viewport: { width: 1400, height: 1000 } });
-    await signIn(page, 'reviewer@fenwick.example', DEMO_PASSWORD);
+    await signIn(page, 'reviewer@tarnwhistle.example', DEMO_PASSWORD);
     const me = await (await page.request.get(`${baseUrl()}/api/me`)).json();
     const list = await (await page.request.get(`${baseUrl()}/api/sheets?team=${me.currentTeam}`)).json();
     const sheetId = list.items[0].id as string;
@@ -37,7 +37,7 @@ describe('controller logs on the sheet page', () => {
     const cdp = await page.context().newCDPSession(page);
     await cdp.send('Network.enable');
     await cdp.send('Network.emulateNetworkConditions', { offline: false, latency: 0, downloadThroughput: -1, uploadThroughput: 2_000_000 });
-    const log = fenwickLog(100_000);
+    const log = tarnwhistleLog(100_000);
     await panel.locator('[data-log-input]').setInputFiles({ name: 'line4-run-12.csv', mimeType: 'text/csv', buffer: log });
     const progress = panel.locator('[data-upload-progress] progress');
     await expect.poll(async () => Number(await progress.getAttribute('value')), { timeout: 20_000 }).toBeGreaterThan(0);
@@ -51,7 +51,7 @@ describe('controller logs on the sheet page', () => {
     await panel.screenshot({ path: join(SCREENSHOT_DIR, 'log-upload-listed.png') });
 
     const viewer = await browser.newPage();
-    await signIn(viewer, 'viewer@fenwick.example', DEMO_PASSWORD);
+    await signIn(viewer, 'viewer@tarnwhistle.example', DEMO_PASSWORD);
     await viewer.goto(`${baseUrl()}/sheets/${sheetId}`, { waitUntil: 'networkidle' });
     const viewerPanel = viewer.locator('[data-logs-panel]');
     await expect.poll(() => viewerPanel.locator('[data-log]').count()).toBe(1);

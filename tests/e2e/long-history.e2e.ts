@@ -15,7 +15,7 @@ const created: string[] = [];
 beforeAll(async () => {
   browser = await launchBrowser();
   editor = await browser.newContext({ viewport: { width: 1280, height: 900 } });
-  await signIn(await editor.newPage(), 'editor@fenwick.example', 'slipless-demo');
+  await signIn(await editor.newPage(), 'editor@tarnwhistle.example', 'slipless-demo');
 });
 
 afterAll(async () => {

@@ -3,8 +3,8 @@ import type { Browser, BrowserContext } from 'playwright-core';
 import { linkIn, waitForMailboxMail } from '../helpers/mail';
 import { baseUrl, launchBrowser, mailboxDir, saveScreenshot, signIn } from './browser';
 
-const OWNER = { email: 'owner@fenwick.example', password: 'slipless-demo' };
-const PERSON = { email: 'former-tester@fenwick.example', name: 'Former Tester', password: 'a former tester password' };
+const OWNER = { email: 'owner@tarnwhistle.example', password: 'slipless-demo' };
+const PERSON = { email: 'former-tester@tarnwhistle.example', name: 'Former Tester', password: 'a former tester password' };
 
 /** A body-less DELETE says where it comes from, as a browser's fetch would. */
 const sameOrigin = () => ({ origin: baseUrl() });

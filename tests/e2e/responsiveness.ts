@@ -43,10 +43,10 @@ const poller = fork(process.argv[1], ['--poll', app.baseUrl], { execArgv: proces
 poller.on('message', (message) => healthWaits.push(message as { at: number; ms: number }));
 while (healthWaits.length === 0) await new Promise((r) => setTimeout(r, 50));
 try {
-  const { jar } = await signInOverHttp(app.baseUrl, app.baseUrl, 'editor@fenwick.example', 'slipless-demo');
+  const { jar } = await signInOverHttp(app.baseUrl, app.baseUrl, 'editor@tarnwhistle.example', 'slipless-demo');
   const headers = { origin: app.baseUrl, cookie: cookieHeader(jar), 'content-type': 'application/json' };
   const client = createClient({ url: databaseUrl });
-  const [team] = (await client.execute("select id from teams where slug = 'fenwick-line4'")).rows as unknown as { id: string }[];
+  const [team] = (await client.execute("select id from teams where slug = 'tarnwhistle-cell4'")).rows as unknown as { id: string }[];
   client.close();
 
   const example = JSON.parse(readFileSync('content/sheets/line4-peg-tilt.json', 'utf8'));

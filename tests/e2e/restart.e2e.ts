@@ -25,7 +25,7 @@ describe('restart', () => {
     app = await startApp({ port, databaseUrl, env });
     const page = await browser.newPage();
     await page.goto(`${app.baseUrl}/sign-in`, { waitUntil: 'networkidle' });
-    await page.getByLabel('E-mail', { exact: true }).fill('editor@fenwick.example');
+    await page.getByLabel('E-mail', { exact: true }).fill('editor@tarnwhistle.example');
     await page.getByLabel('Password', { exact: true }).fill('slipless-demo');
     await page.getByRole('button', { name: 'Sign in', exact: true }).click();
     await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
@@ -36,7 +36,7 @@ describe('restart', () => {
     app = await startApp({ port, databaseUrl, env });
     const after = await page.request.get(`${app.baseUrl}/api/me`);
     expect(after.status()).toBe(200);
-    expect(await after.json()).toMatchObject({ via: 'session', user: { email: 'editor@fenwick.example' } });
+    expect(await after.json()).toMatchObject({ via: 'session', user: { email: 'editor@tarnwhistle.example' } });
     await page.goto(`${app.baseUrl}/account`);
     expect(new URL(page.url()).pathname).toBe('/account');
   });

@@ -17,7 +17,7 @@ afterAll(async () => {
 describe('a checker on a sheet', () => {
   it('remarks, resolves the remark, signs the revision as checked, and the title block shows who checked it and when; the author is mailed; a viewer can only read', async () => {
     const page = await browser.newPage({ viewport: { width: 1400, height: 1000 } });
-    await signIn(page, 'reviewer@fenwick.example', DEMO_PASSWORD);
+    await signIn(page, 'reviewer@tarnwhistle.example', DEMO_PASSWORD);
     const me = await (await page.request.get(`${baseUrl()}/api/me`)).json();
     const list = await (await page.request.get(`${baseUrl()}/api/sheets?team=${me.currentTeam}&q=${encodeURIComponent('Capsule pin')}`)).json();
     const sheet = list.items[0] as { id: string; title: string; latestRevision: number };
@@ -45,11 +45,11 @@ describe('a checker on a sheet', () => {
     await expect.poll(() => page.locator('[data-review-panel] [data-last-checked]').innerText()).toMatch(/last checked revision \d+/);
     await saveScreenshot(page, 'revision-checked');
 
-    const mail = await waitForMailboxMail(mailboxDir(), 'editor@fenwick.example', { subject: `Checked: ${sheet.title}, rev ${sheet.latestRevision}` });
+    const mail = await waitForMailboxMail(mailboxDir(), 'editor@tarnwhistle.example', { subject: `Checked: ${sheet.title}, rev ${sheet.latestRevision}` });
     expect(mail.text).toContain(`Mei Arroyo signed revision ${sheet.latestRevision} of "${sheet.title}" as checked.`);
 
     const viewer = await browser.newPage();
-    await signIn(viewer, 'viewer@fenwick.example', DEMO_PASSWORD);
+    await signIn(viewer, 'viewer@tarnwhistle.example', DEMO_PASSWORD);
     await viewer.goto(`${baseUrl()}/sheets/${sheet.id}`, { waitUntil: 'networkidle' });
     const viewerPanel = viewer.locator('[data-review-panel]');
     await viewerPanel.scrollIntoViewIfNeeded();

@@ -4,7 +4,7 @@ import { createSheetFromTemplate } from '../../src/lib/sheet/templates';
 import type { SheetDocument } from '../../src/lib/sheet/types';
 import { baseUrl, launchBrowser, saveScreenshot, signIn } from './browser';
 
-const EDITOR = { email: 'editor@fenwick.example', password: 'slipless-demo' };
+const EDITOR = { email: 'editor@tarnwhistle.example', password: 'slipless-demo' };
 const TIMED_TICKS = 2000;
 const PROGRESS_TICKS = 20_000;
 const LONG_TICKS = 1_000_000;

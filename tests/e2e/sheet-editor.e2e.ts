@@ -5,7 +5,7 @@ import { gzipSync } from 'node:zlib';
 import { join } from 'node:path';
 import { baseUrl, launchBrowser, saveScreenshot, SCREENSHOT_DIR, signIn } from './browser';
 
-const EDITOR = { email: 'editor@fenwick.example', password: 'slipless-demo' };
+const EDITOR = { email: 'editor@tarnwhistle.example', password: 'slipless-demo' };
 const THREE_FINGER_SHEET = 'Bearing housing: index a quarter turn';
 const RADIUS = 'hand.fingers[0].roller.radius';
 
@@ -251,7 +251,7 @@ describe('sheet editor', () => {
   it('is read-only for a viewer', async () => {
     const viewerContext = await browser.newContext({ viewport: { width: 1400, height: 900 } });
     const viewer = await viewerContext.newPage();
-    await signIn(viewer, 'viewer@fenwick.example', EDITOR.password);
+    await signIn(viewer, 'viewer@tarnwhistle.example', EDITOR.password);
     await viewer.goto(`${baseUrl()}/sheets/${sheetId}`, { waitUntil: 'networkidle' });
     await cell(viewer, '0.contact.gap').waitFor();
     expect(await field(viewer, RADIUS).locator('input').isDisabled()).toBe(true);

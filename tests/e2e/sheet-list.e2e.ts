@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
 import { baseUrl, launchBrowser, saveScreenshot, signIn } from './browser';
 
-const EDITOR = { email: 'editor@fenwick.example', password: 'slipless-demo' };
+const EDITOR = { email: 'editor@tarnwhistle.example', password: 'slipless-demo' };
 const DEMO_TITLES = [
   'Bearing housing: index a quarter turn',
   'Peg: tilt about the grip line',

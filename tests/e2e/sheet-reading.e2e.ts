@@ -6,7 +6,7 @@ import { createSheetFromTemplate } from '../../src/lib/sheet/templates';
 import type { SheetDocument } from '../../src/lib/sheet/types';
 import { baseUrl, deleteCreatedSheets, launchBrowser, saveScreenshot, signIn } from './browser';
 
-const EDITOR = { email: 'editor@fenwick.example', password: 'slipless-demo' };
+const EDITOR = { email: 'editor@tarnwhistle.example', password: 'slipless-demo' };
 const VIEWPORT = { width: 1600, height: 1000 };
 
 let browser: Browser;

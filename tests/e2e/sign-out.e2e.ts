@@ -16,7 +16,7 @@ describe('signing out in the browser', () => {
   it('ends the session on the server: the session cookie copied before sign-out no longer signs anyone in', async () => {
     const context = await browser.newContext();
     const page = await context.newPage();
-    await signIn(page, 'editor@fenwick.example', 'slipless-demo');
+    await signIn(page, 'editor@tarnwhistle.example', 'slipless-demo');
     const copied = (await context.cookies()).filter((cookie) => cookie.name.endsWith('authjs.session-token'));
     expect(copied).toHaveLength(1);
 

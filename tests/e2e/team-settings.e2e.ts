@@ -16,7 +16,7 @@ afterAll(async () => {
 describe('team settings', () => {
   it('the owner renames the team, with the error shown next to a bad name; delete stays locked until the slug is typed', async () => {
     const page = await browser.newPage({ viewport: { width: 1280, height: 1000 } });
-    await signIn(page, 'owner@fenwick.example', DEMO_PASSWORD);
+    await signIn(page, 'owner@tarnwhistle.example', DEMO_PASSWORD);
     await page.goto(`${baseUrl()}/team/members`, { waitUntil: 'networkidle' });
     const settings = page.getByRole('region', { name: 'Team settings' });
     await settings.scrollIntoViewIfNeeded();
@@ -26,9 +26,9 @@ describe('team settings', () => {
     await settings.getByRole('button', { name: 'Rename' }).click();
     await expect.poll(() => settings.getByRole('alert').innerText()).toContain('at least 2 characters');
     await saveScreenshot(page, 'team-settings-error');
-    await name.fill('Fenwick Line 4 (renamed)');
+    await name.fill('Tarnwhistle Cell 4 (renamed)');
     await Promise.all([page.waitForEvent('load'), settings.getByRole('button', { name: 'Rename' }).click()]);
-    await expect.poll(() => page.locator('h1').innerText()).toBe('Fenwick Line 4 (renamed)');
+    await expect.poll(() => page.locator('h1').innerText()).toBe('Tarnwhistle Cell 4 (renamed)');
     await saveScreenshot(page, 'team-settings-renamed');
     const me = await (await page.request.get(`${baseUrl()}/api/me`)).json();
     const restore = await page.request.patch(`${baseUrl()}/api/teams/${me.currentTeam}`, { data: { name: DEMO_TEAM.name }, headers: { origin: baseUrl() } });

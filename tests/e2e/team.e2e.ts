@@ -9,7 +9,7 @@ beforeAll(async () => {
   browser = await launchBrowser();
   page = await browser.newPage({ viewport: { width: 1280, height: 900 } });
   await page.goto(`${baseUrl()}/sign-in`);
-  await page.getByLabel('E-mail', { exact: true }).fill('owner@fenwick.example');
+  await page.getByLabel('E-mail', { exact: true }).fill('owner@tarnwhistle.example');
   await page.getByLabel('Password', { exact: true }).fill('slipless-demo');
   await page.getByRole('button', { name: 'Sign in' }).click();
   await page.waitForURL(`${baseUrl()}/`);
@@ -28,9 +28,9 @@ describe('team and token pages', () => {
     await page.getByRole('link', { name: 'Team' }).click();
     await page.waitForURL(`${baseUrl()}/team/members`);
     const members = page.getByTestId('member-list');
-    await expect(members.getByText('owner@fenwick.example').waitFor()).resolves.toBeUndefined();
+    await expect(members.getByText('owner@tarnwhistle.example').waitFor()).resolves.toBeUndefined();
     expect(await members.locator('tbody tr').count()).toBeGreaterThanOrEqual(4);
-    expect(await page.getByLabel('Role of viewer@fenwick.example').inputValue()).toBe('viewer');
+    expect(await page.getByLabel('Role of viewer@tarnwhistle.example').inputValue()).toBe('viewer');
     expect(await page.getByRole('link', { name: 'Audit trail' }).getAttribute('href')).toBe('/team/audit');
     await page.getByRole('button', { name: 'Send invitation' }).click();
     await expect(page.locator('#invite-email-error').innerText()).resolves.toMatch(/e-mail address/);
@@ -54,7 +54,7 @@ describe('team and token pages', () => {
 
     const me = await callMe(token);
     expect(me.status).toBe(200);
-    expect(await me.json()).toMatchObject({ via: 'token', user: { email: 'owner@fenwick.example' }, teams: [{ role: 'reviewer' }] });
+    expect(await me.json()).toMatchObject({ via: 'token', user: { email: 'owner@tarnwhistle.example' }, teams: [{ role: 'reviewer' }] });
 
     await page.getByRole('button', { name: 'I have stored it' }).click();
     await page.reload();
@@ -80,7 +80,7 @@ describe('team and token pages', () => {
 
     await page.goto(`${baseUrl()}/account`);
     await expect(page.getByTestId('account-name').innerText()).resolves.toBe('Priya Okafor');
-    await expect(page.getByTestId('account-teams').innerText()).resolves.toMatch(/Fenwick Assembly Lab[\s\S]*owner/i);
+    await expect(page.getByTestId('account-teams').innerText()).resolves.toMatch(/Tarnwhistle Grip Works[\s\S]*owner/i);
     await page.getByRole('button', { name: 'Change password' }).click();
     await expect(page.locator('#current-password-error').innerText()).resolves.toMatch(/current password/);
     await page.getByLabel('Current password').fill('not-my-password');
@@ -106,7 +106,7 @@ describe('team and token pages', () => {
     await page.goto(`${baseUrl()}/team/members`);
     const row = page.getByTestId('team-token-list').locator('tr', { hasText: 'e2e team overview' });
     await row.waitFor();
-    await expect(row.innerText()).resolves.toMatch(/owner@fenwick\.example/);
+    await expect(row.innerText()).resolves.toMatch(/owner@tarnwhistle\.example/);
     await saveScreenshot(page, 'team-tokens');
     await row.getByRole('button', { name: 'Revoke' }).click();
     await row.waitFor({ state: 'detached' });
@@ -117,13 +117,13 @@ describe('team and token pages', () => {
     const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
     const viewer = await context.newPage();
     await viewer.goto(`${baseUrl()}/sign-in`);
-    await viewer.getByLabel('E-mail', { exact: true }).fill('viewer@fenwick.example');
+    await viewer.getByLabel('E-mail', { exact: true }).fill('viewer@tarnwhistle.example');
     await viewer.getByLabel('Password', { exact: true }).fill('slipless-demo');
     await viewer.getByRole('button', { name: 'Sign in' }).click();
     await viewer.waitForURL(`${baseUrl()}/`);
 
     await viewer.goto(`${baseUrl()}/team/members`);
-    await viewer.getByTestId('member-list').getByText('owner@fenwick.example').waitFor();
+    await viewer.getByTestId('member-list').getByText('owner@tarnwhistle.example').waitFor();
     expect(await viewer.locator('select').count()).toBe(0);
     expect(await viewer.getByRole('link', { name: 'Audit trail' }).count()).toBe(0);
     expect(await viewer.getByRole('heading', { name: 'Invite someone' }).count()).toBe(0);

@@ -20,7 +20,7 @@ async function saveDialog(name: string): Promise<void> {
 beforeAll(async () => {
   browser = await launchBrowser();
   page = await browser.newPage({ viewport: { width: 1500, height: 1000 } });
-  await signIn(page, 'editor@fenwick.example', 'slipless-demo');
+  await signIn(page, 'editor@tarnwhistle.example', 'slipless-demo');
   const { currentTeam } = await (await page.request.get(`${baseUrl()}/api/me`)).json();
   // A 50 mm ball 90 mm above the palm: the example hand's rollers sit on its equator.
   const sheet = createSheetFromTemplate('duo-opposed', { kind: 'sphere', radius: 0.025 });

@@ -4,15 +4,15 @@ import type { Role } from '../roles';
 import type { SheetDocument } from '../sheet/types';
 
 /** The invented demo team seeded into an empty database. Demo only: never use these sign-ins elsewhere. */
-export const DEMO_TEAM = { slug: 'fenwick-line4', name: 'Fenwick Assembly Lab · Line 4 cell' } as const;
+export const DEMO_TEAM = { slug: 'tarnwhistle-cell4', name: 'Tarnwhistle Grip Works · Cell 4' } as const;
 
 export const DEMO_PASSWORD = 'slipless-demo';
 
 export const DEMO_USERS: readonly { name: string; email: string; role: Role }[] = [
-  { name: 'Priya Okafor', email: 'owner@fenwick.example', role: 'owner' },
-  { name: 'Tomas Lindqvist', email: 'editor@fenwick.example', role: 'editor' },
-  { name: 'Mei Arroyo', email: 'reviewer@fenwick.example', role: 'reviewer' },
-  { name: 'Jonah Bakker', email: 'viewer@fenwick.example', role: 'viewer' },
+  { name: 'Priya Okafor', email: 'owner@tarnwhistle.example', role: 'owner' },
+  { name: 'Tomas Lindqvist', email: 'editor@tarnwhistle.example', role: 'editor' },
+  { name: 'Mei Arroyo', email: 'reviewer@tarnwhistle.example', role: 'reviewer' },
+  { name: 'Jonah Bakker', email: 'viewer@tarnwhistle.example', role: 'viewer' },
 ];
 
 export const DEMO_SHEETS_FOLDER = 'content/sheets';
@@ -56,7 +56,7 @@ export const DEMO_LOGS: readonly DemoLog[] = [
     sheetFile: 'line4-peg-tilt.json',
     fileName: 'cell4-peg-tilt-run-0412.csv',
     gzip: false,
-    description: 'Peg tilt on the Line 4 cell: the controller followed the sheet; rate noise only (0.004 rad/s RMS).',
+    description: 'Peg tilt in cell 4: the controller followed the sheet; rate noise only (0.004 rad/s RMS).',
     ticks: 400,
     noiseSeed: 412,
     rateNoise: 0.004,

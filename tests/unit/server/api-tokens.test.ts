@@ -95,7 +95,7 @@ describe('createApiToken', () => {
     const events = await database.db.select().from(auditEvents).where(eq(auditEvents.subject, `token:${summary.id}`));
     expect(events.map((e) => e.action).sort()).toEqual(['token.create', 'token.revoke']);
     expect(events.every((e) => e.teamId === teamId && e.actorId === editor.user.id)).toBe(true);
-    expect(events.find((e) => e.action === 'token.revoke')).toMatchObject({ address: '10.0.0.7', detail: { name: 'audited', holder: 'editor@fenwick.example' } });
+    expect(events.find((e) => e.action === 'token.revoke')).toMatchObject({ address: '10.0.0.7', detail: { name: 'audited', holder: 'editor@tarnwhistle.example' } });
   });
 });
 
@@ -145,7 +145,7 @@ describe('using and revoking a token', () => {
     const listed = await listTeamApiTokens(database, teamId);
     const revokedAt = listed.map((t) => t.revokedAt);
     expect(revokedAt.findIndex((r) => r !== null)).toBeGreaterThan(revokedAt.lastIndexOf(null));
-    expect(listed.find((t) => t.id === summary.id)).toMatchObject({ holderEmail: 'editor@fenwick.example', role: 'viewer' });
+    expect(listed.find((t) => t.id === summary.id)).toMatchObject({ holderEmail: 'editor@tarnwhistle.example', role: 'viewer' });
     expect(JSON.stringify(listed)).not.toContain(token);
   });
 

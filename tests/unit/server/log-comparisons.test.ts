@@ -37,7 +37,7 @@ let reviewer: Identity;
 let viewer: Identity;
 let outsider: Identity;
 
-async function upload(text: string | Uint8Array, fileName = 'fenwick-line2.csv'): Promise<string> {
+async function upload(text: string | Uint8Array, fileName = 'tarnwhistle-line2.csv'): Promise<string> {
   const database = await getDatabase();
   const bytes: Uint8Array<ArrayBuffer> = typeof text === 'string' ? new TextEncoder().encode(text) : new Uint8Array(text);
   const stored = await storeLogUpload(database, getLogStorage(), {
@@ -124,7 +124,7 @@ describe('comparing a stored log with the sheet (route and service)', () => {
   });
 
   it('reads a gzip-compressed log (RFC 1952, node:zlib) to the same statistics as the plain one', async () => {
-    const gzipped = await upload(new Uint8Array(gzipSync(logText(run))), 'fenwick-line2.csv.gz');
+    const gzipped = await upload(new Uint8Array(gzipSync(logText(run))), 'tarnwhistle-line2.csv.gz');
     const plain = await compared(cleanLogId, { mapping, revision: 1 });
     const packed = await compared(gzipped, { mapping, revision: 1 });
     expect(packed.result!.joints).toEqual(plain.result!.joints);
@@ -236,7 +236,7 @@ describe('comparing a stored log with the sheet (route and service)', () => {
     const column = header.indexOf(`${FAULTY_JOINT}.commanded`);
     const faulty = await upload(new Uint8Array(gzipSync(logText(run, (row, tick) => {
       if (tick >= 40 && tick < 80) row[column]! += FAULT_OFFSET;
-    }))), 'fenwick-line2-fault.csv.gz');
+    }))), 'tarnwhistle-line2-fault.csv.gz');
     const record = await compared(faulty, { mapping, revision: 1 });
     const response = await callRoute(comparisonRoute.GET, {
       path: `/api/sheets/${sheetId}/logs/${faulty}/comparisons/${record.id}?format=series`,
@@ -294,7 +294,7 @@ describe('comparing a stored log with the sheet (route and service)', () => {
     expect(response.status).toBe(200);
     const listed: SheetComparisonList = await response.json();
     expect(listed.latestRevision).toBe(2);
-    expect(listed.items[0]).toMatchObject({ id: record.id, uploadId: cleanLogId, fileName: 'fenwick-line2.csv', revision: 1, verdict: 'pass', status: 'done' });
+    expect(listed.items[0]).toMatchObject({ id: record.id, uploadId: cleanLogId, fileName: 'tarnwhistle-line2.csv', revision: 1, verdict: 'pass', status: 'done' });
     expect(Date.parse(listed.items[0]!.createdAt as unknown as string)).toBeGreaterThanOrEqual(before - 1000);
     expect(listed.items.map((item) => item.revision)).toContain(2);
     const times = listed.items.map((item) => Date.parse(item.createdAt as unknown as string));

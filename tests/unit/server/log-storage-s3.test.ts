@@ -20,7 +20,7 @@ import { createTestSheet } from '../../helpers/test-sheets';
  * port with its data in a temp folder. Its fixed credentials are S3RVER / S3RVER (s3rver README).
  */
 
-const BUCKET = 'fenwick-controller-logs';
+const BUCKET = 'tarnwhistle-controller-logs';
 const MIB = 1024 * 1024;
 /** Bodies arrive in 256 KiB pieces, so a multipart upload sees many reads per 5 MiB part. */
 const S3_CHUNKS = { chunkSize: 256 * 1024 };
@@ -32,8 +32,8 @@ let inspector: S3Client;
 let sheet: { id: string; teamId: string };
 let uploaderId: string;
 
-/** A Fenwick parcel-line log of about `bytes` bytes: time, object position and a roll rate. */
-function fenwickLog(bytes: number): Uint8Array {
+/** A Tarnwhistle parcel-line log of about `bytes` bytes: time, object position and a roll rate. */
+function tarnwhistleLog(bytes: number): Uint8Array {
   const lines = ['t,px,py,pz,right_roll_cmd'];
   let size = lines[0].length + 1;
   for (let i = 0; size < bytes; i++) {
@@ -78,7 +78,7 @@ afterAll(async () => {
 describe('log storage on S3 (s3rver)', () => {
   it('round-trips a 12 MiB log put in several multipart parts, byte for byte', async () => {
     // 12 MiB > the SDK's 5 MiB part size, so the upload goes in three parts (AWS S3 docs: parts are 5 MiB to 5 GiB).
-    const bytes = fenwickLog(12 * MIB);
+    const bytes = tarnwhistleLog(12 * MIB);
     await storage.put('demo-team/round-trip', Readable.from([bytes.subarray(0, 5 * MIB), bytes.subarray(5 * MIB)]));
     const back = await readAll(await storage.get('demo-team/round-trip'));
     expect(createHash('sha256').update(back).digest('hex')).toBe(createHash('sha256').update(bytes).digest('hex'));
@@ -102,14 +102,14 @@ describe('log storage on S3 (s3rver)', () => {
 
   it('leaves no object when the client breaks off after two parts were sent', async () => {
     const before = await objectKeys();
-    const refused = await upload(chunkedStream(fenwickLog(14 * MIB), { ...S3_CHUNKS, failAfter: 11 * MIB }));
+    const refused = await upload(chunkedStream(tarnwhistleLog(14 * MIB), { ...S3_CHUNKS, failAfter: 11 * MIB }));
     expect(refused.ok).toBe(false);
     expect(await objectKeys()).toEqual(before);
   }, 60_000);
 
   it('leaves no object for an over-size log or a refused file type', async () => {
     const before = await objectKeys();
-    const tooLarge = await upload(chunkedStream(fenwickLog(6 * MIB), S3_CHUNKS), 5.5 * MIB);
+    const tooLarge = await upload(chunkedStream(tarnwhistleLog(6 * MIB), S3_CHUNKS), 5.5 * MIB);
     expect(tooLarge.ok || tooLarge.error.kind).toBe('too-large');
     // PNG signature (ISO/IEC 15948, section 5.2): not a CSV.
     const png = await upload(chunkedStream(Uint8Array.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]), S3_CHUNKS));
@@ -129,7 +129,7 @@ describe('orphan sweep on S3 (s3rver)', () => {
 
   it('lists every object in the bucket with the time S3 gives it', async () => {
     const keys = Array.from({ length: 3 }, () => `${sheet.teamId}/${randomUUID()}`);
-    for (const key of keys) await storage.put(key, Readable.from([fenwickLog(1024)]));
+    for (const key of keys) await storage.put(key, Readable.from([tarnwhistleLog(1024)]));
     const found = await listed();
     for (const key of keys) {
       expect(found.has(key)).toBe(true);
@@ -140,11 +140,11 @@ describe('orphan sweep on S3 (s3rver)', () => {
   });
 
   it('deletes an object no upload row refers to only once it is older than the grace period, and keeps a referenced log', async () => {
-    const stored = await upload(chunkedStream(fenwickLog(4096), S3_CHUNKS));
+    const stored = await upload(chunkedStream(tarnwhistleLog(4096), S3_CHUNKS));
     if (!stored.ok) throw new Error(stored.error.message);
     const kept = `${sheet.teamId}/${stored.value.id}`;
     const orphan = `${sheet.teamId}/${randomUUID()}`;
-    await storage.put(orphan, Readable.from([fenwickLog(4096)]));
+    await storage.put(orphan, Readable.from([tarnwhistleLog(4096)]));
     const database = await getDatabase();
     // S3 sets LastModified itself, so the sweep's clock is moved instead of the objects' times.
     const fresh = await sweepOrphanedLogs(database, storage, { now: Date.now() + ORPHAN_GRACE_MS - 10 * MINUTE_MS });

@@ -23,8 +23,8 @@ const encoder = new TextEncoder();
 /** Node's gzip as plain bytes. */
 const gzipSync = (data: string | Uint8Array) => new Uint8Array(nodeGzipSync(data));
 
-/** A controller log of the invented Fenwick parcel line: time, object position and one roll joint's rates. */
-function fenwickLog(rows: number): string {
+/** A controller log of the invented Tarnwhistle parcel line: time, object position and one roll joint's rates. */
+function tarnwhistleLog(rows: number): string {
   const lines = ['t,px,py,pz,left_roll_cmd'];
   for (let i = 0; i < rows; i++) lines.push(`${(i * 0.002).toFixed(3)},0.${i % 10},0.05,0.12,${(0.5 + i * 1e-4).toFixed(4)}`);
   return `${lines.join('\n')}\n`;
@@ -84,7 +84,7 @@ describe('log upload service (disk storage)', () => {
   });
 
   it('hashes and stores a log of many chunks exactly as sent (second route: one-shot SHA-256 of the whole file)', async () => {
-    const bytes = encoder.encode(fenwickLog(40_000));
+    const bytes = encoder.encode(tarnwhistleLog(40_000));
     expect(bytes.length).toBeGreaterThan(1024 * 1024);
     const stored = await upload(chunkedStream(bytes, { chunkSize: 7_919 }));
     if (!stored.ok) throw new Error(stored.error.message);
@@ -95,7 +95,7 @@ describe('log upload service (disk storage)', () => {
   });
 
   it('tells gzip by its magic number, whatever the name, and previews the decompressed rows', async () => {
-    const text = fenwickLog(50);
+    const text = tarnwhistleLog(50);
     // RFC 1952: a gzip member starts 1f 8b; Node's zlib is the independent compressor here.
     const stored = await upload(gzipSync(text), { fileName: 'run-7.csv' });
     if (!stored.ok) throw new Error(stored.error.message);
@@ -108,7 +108,7 @@ describe('log upload service (disk storage)', () => {
   });
 
   it('stores a plain CSV named .gz as CSV text', async () => {
-    const stored = await upload(encoder.encode(fenwickLog(3)), { fileName: 'run.csv.gz' });
+    const stored = await upload(encoder.encode(tarnwhistleLog(3)), { fileName: 'run.csv.gz' });
     expect(stored.ok && stored.value.contentType).toBe('text/csv');
   });
 
@@ -136,7 +136,7 @@ describe('log upload service (disk storage)', () => {
   it('refuses a log past the limit while it streams (no Content-Length), keeping no row and no file', async () => {
     const before = (await rowsOfSheet(sheet.id)).length;
     const filesBefore = filesUnder(folder).length;
-    const refused = await upload(chunkedStream(encoder.encode(fenwickLog(2_000)), { chunkSize: 1024 }), { limit: 8 * 1024 });
+    const refused = await upload(chunkedStream(encoder.encode(tarnwhistleLog(2_000)), { chunkSize: 1024 }), { limit: 8 * 1024 });
     expect(refused.ok).toBe(false);
     if (refused.ok) return;
     expect(refused.error.kind).toBe('too-large');
@@ -165,7 +165,7 @@ describe('log upload service (disk storage)', () => {
   it('keeps no row and no file (not even a .part) when the client breaks off mid-upload', async () => {
     const before = (await rowsOfSheet(sheet.id)).length;
     const filesBefore = filesUnder(folder).length;
-    const bytes = encoder.encode(fenwickLog(20_000));
+    const bytes = encoder.encode(tarnwhistleLog(20_000));
     const refused = await upload(chunkedStream(bytes, { failAfter: 200 * 1024 }));
     expect(refused.ok).toBe(false);
     if (refused.ok) return;
@@ -176,7 +176,7 @@ describe('log upload service (disk storage)', () => {
 
   it('deletes a log: its row and its file, after which it is not found by its id', async () => {
     const database = await getDatabase();
-    const stored = await upload(encoder.encode(fenwickLog(5)));
+    const stored = await upload(encoder.encode(tarnwhistleLog(5)));
     if (!stored.ok) throw new Error(stored.error.message);
     const filesBefore = filesUnder(folder).length;
     expect((await deleteLogUpload(database, storage, sheet.id, stored.value.id, { userId: reviewer.user.id })).ok).toBe(true);
@@ -195,7 +195,7 @@ describe('log routes', () => {
 
   it('uploads for a reviewer (201), lists for a viewer, previews, and deletes for the reviewer (204)', async () => {
     const viewer = await demoIdentity('viewer');
-    const created = await post(reviewer, encoder.encode(fenwickLog(30)));
+    const created = await post(reviewer, encoder.encode(tarnwhistleLog(30)));
     expect(created.status).toBe(201);
     const { id } = (await created.json()) as { id: string };
     const list = await callRoute(logsRoute.GET, { path: `/api/sheets/${sheet.id}/logs`, params: { sheetId: sheet.id }, identity: viewer });
@@ -213,10 +213,10 @@ describe('log routes', () => {
     const filesBefore = filesUnder(logFolder).length;
     const rowsBefore = (await rowsOfSheet(sheet.id)).length;
     const viewer = await demoIdentity('viewer');
-    expect((await post(viewer, encoder.encode(fenwickLog(3)))).status).toBe(403);
+    expect((await post(viewer, encoder.encode(tarnwhistleLog(3)))).status).toBe(403);
     const outsider = await addTestMember('owner');
     const other = (await identityForUser(await getDatabase(), outsider.userId, Date.now()))!;
-    expect((await post(other, encoder.encode(fenwickLog(3)))).status).toBe(404);
+    expect((await post(other, encoder.encode(tarnwhistleLog(3)))).status).toBe(404);
     const otherList = await callRoute(logsRoute.GET, { path: `/api/sheets/${sheet.id}/logs`, params: { sheetId: sheet.id }, identity: other });
     expect(otherList.status).toBe(404);
     expect(filesUnder(logFolder).length).toBe(filesBefore);
@@ -224,10 +224,10 @@ describe('log routes', () => {
   });
 
   it('names the field of each refusal: the file name in the query, the body for what it holds', async () => {
-    const noName = await post(reviewer, encoder.encode(fenwickLog(3)), '');
+    const noName = await post(reviewer, encoder.encode(tarnwhistleLog(3)), '');
     expect(noName.status).toBe(400);
     expect(((await noName.json()) as { error: { path: string } }).error.path).toBe('fileName');
-    const folderName = await post(reviewer, encoder.encode(fenwickLog(3)), '?fileName=..%2Fsecrets.csv');
+    const folderName = await post(reviewer, encoder.encode(tarnwhistleLog(3)), '?fileName=..%2Fsecrets.csv');
     expect(((await folderName.json()) as { error: { path: string } }).error.path).toBe('fileName');
     const binary = await post(reviewer, Uint8Array.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]));
     expect(binary.status).toBe(400);
@@ -240,10 +240,10 @@ describe('log routes', () => {
   it('refuses a declared size one byte past 500 MiB (the route uses MAX_LOG_BYTES), before reading the body', async () => {
     // 500 MiB = 500 × 2^20 bytes (IEC 80000-13 binary prefix).
     expect(MAX_LOG_BYTES).toBe(500 * 2 ** 20);
-    const refused = await post(reviewer, encoder.encode(fenwickLog(3)), '?fileName=big.csv', { 'content-length': String(MAX_LOG_BYTES + 1) });
+    const refused = await post(reviewer, encoder.encode(tarnwhistleLog(3)), '?fileName=big.csv', { 'content-length': String(MAX_LOG_BYTES + 1) });
     expect(refused.status).toBe(413);
     expect(((await refused.json()) as { error: { message: string } }).error.message).toContain('500 MiB');
-    const atLimit = await post(reviewer, encoder.encode(fenwickLog(3)), '?fileName=at-limit.csv', { 'content-length': String(MAX_LOG_BYTES) });
+    const atLimit = await post(reviewer, encoder.encode(tarnwhistleLog(3)), '?fileName=at-limit.csv', { 'content-length': String(MAX_LOG_BYTES) });
     expect(atLimit.status).toBe(201);
   });
 });

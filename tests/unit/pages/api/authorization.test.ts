@@ -270,7 +270,7 @@ const ROWS: Row[] = [
     route: 'teams/[teamId]/invitations.ts',
     method: 'POST',
     variant: 'someone already in the team (refused before any mail)',
-    prepare: (fx) => ({ params: { teamId: fx.teamId }, body: { email: 'viewer@fenwick.example', role: 'editor' } }),
+    prepare: (fx) => ({ params: { teamId: fx.teamId }, body: { email: 'viewer@tarnwhistle.example', role: 'editor' } }),
     expect: OWNER_ONLY(409),
   },
   {

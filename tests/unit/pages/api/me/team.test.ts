@@ -9,8 +9,8 @@ describe('PUT /api/me/team', () => {
     const teamId = await demoTeamId();
     const response = await callRoute(PUT, { method: 'PUT', path: '/api/me/team', identity: await demoIdentity('viewer'), body: { teamId }, cookies });
     expect(response.status).toBe(200);
-    expect(await response.json()).toMatchObject({ team: { teamId, slug: 'fenwick-line4', role: 'viewer' } });
-    expect(cookies.values.get(TEAM_COOKIE)).toBe('fenwick-line4');
+    expect(await response.json()).toMatchObject({ team: { teamId, slug: 'tarnwhistle-cell4', role: 'viewer' } });
+    expect(cookies.values.get(TEAM_COOKIE)).toBe('tarnwhistle-cell4');
     expect(cookies.options.get(TEAM_COOKIE)).toMatchObject({ httpOnly: true, sameSite: 'lax', secure: false, path: '/' });
   });
 
