@@ -1,6 +1,7 @@
 import { memo, useMemo } from 'react';
 import type { PlainSheetResult } from '../../lib/kinematics';
-import { displayNumber, findOutput } from '../../lib/sheet/outputs';
+import { displayUnitsOf } from '../../lib/sheet/display-units';
+import { displayNumber, displayUnit, findOutput } from '../../lib/sheet/outputs';
 import type { SheetDocument } from '../../lib/sheet/types';
 import { summariseResults, type SummaryWarning } from '../../lib/view/results-summary';
 import { SafetyCaution } from './SafetyCaution';
@@ -31,6 +32,7 @@ function Worst({ worst, test }: { worst: SummaryWarning | null; test: string }) 
  */
 function ResultsSummary({ result, document, stale }: { result: PlainSheetResult | null; document: SheetDocument | null; stale: boolean }) {
   const summary = useMemo(() => (result && document ? summariseResults(result, document) : null), [result, document]);
+  const units = displayUnitsOf(document ?? {});
   return (
     <section aria-labelledby="results-summary-title" className="border-2 border-ink bg-paper p-3 shadow-[0_2px_0_rgba(0,0,0,0.08)]" data-results-summary>
       <div className="flex items-baseline justify-between gap-2">
@@ -62,14 +64,14 @@ function ResultsSummary({ result, document, stale }: { result: PlainSheetResult 
                         {joint.role === 'pivot' && finger.pivotAngle !== null && (
                           <span className="text-[10px] text-graphite" data-summary-pivot={i}>
                             {' '}
-                            steered to <span className="num text-ink">{displayNumber(pivotOutput, finger.pivotAngle)}</span> {pivotOutput.display.unit}
+                            steered to <span className="num text-ink">{displayNumber(pivotOutput, finger.pivotAngle, units)}</span> {displayUnit(pivotOutput, units)}
                           </span>
                         )}
                       </th>
                       <td className="num py-px text-right" data-summary-rate={`${i}.${k}`}>
-                        {displayNumber(rateOutput, joint.rate)}
+                        {displayNumber(rateOutput, joint.rate, units)}
                       </td>
-                      <td className="w-12 py-px pl-1 text-[10px] text-graphite">{rateOutput.display.unit}</td>
+                      <td className="w-12 py-px pl-1 text-[10px] text-graphite">{displayUnit(rateOutput, units)}</td>
                     </tr>
                   ))}
                 </tbody>

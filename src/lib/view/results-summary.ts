@@ -3,7 +3,8 @@
  * would be sent and the worst warning that finger raised.
  */
 import { SEVERITY_LEVELS, WARNING_CATALOGUE, type PlainSheetResult, type WarningSeverity } from '../kinematics';
-import type { JointRole, SheetDocument } from '../sheet/types';
+import { commandedRates } from '../sheet/commanded';
+import type { CommandedSolution, JointRole, SheetDocument } from '../sheet/types';
 
 export interface SummaryJoint {
   name: string;
@@ -21,10 +22,10 @@ export interface SummaryWarning {
 
 export interface SummaryFinger {
   name: string;
-  /** The solution whose rates are commanded: steer-and-roll where the finger has it, as runs use. */
-  solution: 'steer-and-roll' | 'full';
+  /** The solution whose rates are commanded: the sheet's choice where the finger can follow it (sheet/commanded.ts). */
+  solution: CommandedSolution;
   joints: SummaryJoint[];
-  /** Steered pivot angle, rad, under steer-and-roll (its rate is not what turns it); null otherwise. */
+  /** Steered pivot's target angle, rad, under steer-and-roll (its rate is the change over the run's time step); null otherwise. */
   pivotAngle: number | null;
   worst: SummaryWarning | null;
 }
@@ -38,16 +39,16 @@ function worstOf(result: PlainSheetResult, belongs: (finger: number | undefined)
 }
 
 /** Per finger the commanded rates and worst warning, and the grasp's own worst warning. */
-export function summariseResults(result: PlainSheetResult, document: Pick<SheetDocument, 'hand'>): { fingers: SummaryFinger[]; grasp: SummaryWarning | null } {
-  const fingers = result.fingers.map((f, i): SummaryFinger => {
-    const steered = f.steer.available;
-    const rates = steered ? f.steer.rates : f.full.rates;
+export function summariseResults(result: PlainSheetResult, document: Pick<SheetDocument, 'commanded' | 'hand' | 'motion'>): { fingers: SummaryFinger[]; grasp: SummaryWarning | null } {
+  // The same rates the results table's "commanded" column and the exports carry.
+  const commanded = result.commanded ?? commandedRates(document, result);
+  const fingers = commanded.fingers.map((f, i): SummaryFinger => {
     const roles = document.hand.fingers[i]?.joints.map((j) => j.role) ?? [];
     return {
-      name: f.name,
-      solution: steered ? 'steer-and-roll' : 'full',
-      joints: f.jointNames.map((name, k) => ({ name, role: roles[k] ?? 'other', rate: rates[k] ?? Number.NaN })),
-      pivotAngle: steered && roles.includes('pivot') ? f.steer.pivotAngle : null,
+      name: f.finger,
+      solution: f.solution,
+      joints: f.joints.map((joint, k) => ({ name: joint.name, role: roles[k] ?? 'other', rate: joint.rate })),
+      pivotAngle: f.pivot ? f.pivot.targetAngle : null,
       worst: worstOf(result, (finger) => finger === i),
     };
   });

@@ -15,13 +15,26 @@ describe('summariseResults', () => {
   const result = solved(doc);
   const summary = summariseResults(result, doc);
 
-  it('shows the steer-and-roll rates joint by joint where the finger steers, the rule the run loop commands by', () => {
+  it('shows the commanded rates joint by joint: steer-and-roll where the finger steers, the pivot at its change over the run\'s time step', () => {
     summary.fingers.forEach((finger, f) => {
       const solvedFinger = result.fingers[f]!;
+      const roles = doc.hand.fingers[f]!.joints.map((j) => j.role);
       expect(finger.solution).toBe('steer-and-roll');
-      expect(finger.joints.map((j) => j.rate)).toBeNear(Array.from(solvedFinger.steer.rates), { abs: 0 });
+      // A steered pivot turns to its target within one time step (issue #13: "the rate that change needs at the run's time step").
+      const expected = Array.from(solvedFinger.steer.rates).map((rate, k) => (roles[k] === 'pivot' ? solvedFinger.steer.pivotChange / doc.motion.run.dt : rate));
+      expect(finger.joints.map((j) => j.rate)).toBeNear(expected, { abs: 0 });
       expect(finger.pivotAngle).toBe(solvedFinger.steer.pivotAngle);
       expect(finger.joints.map((j) => [j.name, j.role])).toEqual(doc.hand.fingers[f]!.joints.map((j) => [j.name, j.role]));
+    });
+  });
+
+  it('follows a sheet that commands the full solution', () => {
+    const full = { ...structuredClone(doc), commanded: 'full' as const };
+    const other = summariseResults(solved(full), full);
+    other.fingers.forEach((finger, f) => {
+      expect(finger.solution).toBe('full');
+      expect(finger.pivotAngle).toBeNull();
+      expect(finger.joints.map((j) => j.rate)).toBeNear(Array.from(result.fingers[f]!.full.rates), { abs: 1e-15 });
     });
   });
 
