@@ -268,9 +268,9 @@ function sumFaceCombinations(input: Readonly<GraspQualityInput>): number {
 function forceCones(input: Readonly<GraspQualityInput>, torqueLength: number, perContact: readonly number[][][]): ForceCone[] {
   const { origin, points, normals } = input;
   return perContact.map((generators, i) => ({
-    edges: generators.map((w) => w.slice(0, 3)),
-    normal: [normals[3 * i], normals[3 * i + 1], normals[3 * i + 2]],
-    lever: [0, 1, 2].map((t) => (points[3 * i + t] - origin[t]) / torqueLength),
+    edges: generators.map((w) => Float64Array.of(w[0], w[1], w[2])),
+    normal: Float64Array.of(normals[3 * i], normals[3 * i + 1], normals[3 * i + 2]),
+    lever: Float64Array.from([0, 1, 2], (t) => (points[3 * i + t] - origin[t]) / torqueLength),
   }));
 }
 

@@ -52,10 +52,13 @@ const NEAR_MINIMUM = 1e-6;
 /** A contact's point lies on the facet when it is within this much of the largest wrench below the contact's farthest along u. */
 const TOUCHING = 1e-8;
 
+/** Every vector here is a Float64Array, so the helpers below see one kind of array and stay optimised. */
+type Vector = Float64Array;
+
 /** A facet's distance from the origin (dimensionless) and its outward unit normal, [force, torque / L], world frame. */
 export interface NearestFacet {
   distance: number;
-  normal: number[];
+  normal: Vector;
 }
 
 /** Q_L1 (hull of the union) and Q_Linf (Minkowski sum) of three contacts. */
@@ -66,28 +69,33 @@ export interface ThreeContactQualities {
 
 /** One contact in the quality's units: its cone edges (forces, unit normal push), unit outward normal and lever (x_i - p) / L. */
 export interface ForceCone {
-  edges: readonly (readonly number[])[];
-  normal: readonly number[];
-  lever: readonly number[];
+  edges: readonly Vector[];
+  normal: Vector;
+  lever: Vector;
 }
 
-function dot(a: ArrayLike<number>, b: ArrayLike<number>): number {
+function dot(a: Vector, b: Vector): number {
   let sum = 0;
   for (let j = 0; j < a.length; j++) sum += a[j] * b[j];
   return sum;
 }
 
-function cross(a: ArrayLike<number>, b: ArrayLike<number>): number[] {
-  return [a[1] * b[2] - a[2] * b[1], a[2] * b[0] - a[0] * b[2], a[0] * b[1] - a[1] * b[0]];
+function cross(a: Vector, b: Vector): Vector {
+  return Float64Array.of(a[1] * b[2] - a[2] * b[1], a[2] * b[0] - a[0] * b[2], a[0] * b[1] - a[1] * b[0]);
 }
 
-function unit(v: readonly number[]): number[] {
-  const length = Math.sqrt(dot(v, v));
-  return v.map((x) => x / length);
+function scaled(v: Vector, factor: number): Vector {
+  const out = new Float64Array(v.length);
+  for (let j = 0; j < v.length; j++) out[j] = v[j] * factor;
+  return out;
+}
+
+function unit(v: Vector): Vector {
+  return scaled(v, 1 / Math.sqrt(dot(v, v)));
 }
 
 /** Takes the orthonormal rows of `basis` out of v in place, twice, so the second pass recovers the digits the first cancels (Golub & Van Loan, sec. 5.2.8). */
-function reject(v: number[], basis: readonly (readonly number[])[]): void {
+function reject(v: Vector, basis: readonly Vector[]): void {
   for (let pass = 0; pass < 2; pass++) {
     for (const b of basis) {
       const d = dot(v, b);
@@ -97,42 +105,47 @@ function reject(v: number[], basis: readonly (readonly number[])[]): void {
 }
 
 /** Orthonormal rows spanning `rows` by Gram-Schmidt; null when a row keeps less than INDEPENDENT of its length. */
-function orthonormalize(rows: readonly (readonly number[])[]): number[][] | null {
-  const basis: number[][] = [];
+function orthonormalize(rows: readonly Vector[]): Vector[] | null {
+  const basis: Vector[] = [];
   for (const row of rows) {
     const v = row.slice();
     const before = Math.sqrt(dot(v, v));
     reject(v, basis);
     const after = Math.sqrt(dot(v, v));
     if (!(after > INDEPENDENT * before)) return null;
-    basis.push(v.map((x) => x / after));
+    basis.push(scaled(v, 1 / after));
   }
   return basis;
 }
 
-/** `count` orthonormal vectors completing the orthonormal rows of `basis` (length n each), from the unit vectors that stick out most. */
-function complement(basis: readonly (readonly number[])[], count: number): number[][] {
+/** `count` orthonormal vectors completing the orthonormal rows of `basis`, each from the unit vector that sticks out most. */
+function complement(basis: readonly Vector[], count: number): Vector[] {
   const n = basis[0].length;
-  const found: number[][] = [];
+  const found: Vector[] = [];
   while (found.length < count) {
-    let best: number[] = [], bestNorm = -1;
+    let best = new Float64Array(n), bestNorm = -1;
     for (let k = 0; k < n; k++) {
-      const e = new Array<number>(n).fill(0);
+      const e = new Float64Array(n);
       e[k] = 1;
       reject(e, basis);
       reject(e, found);
       const norm = Math.sqrt(dot(e, e));
       if (norm > bestNorm) { bestNorm = norm; best = e; }
     }
-    found.push(best.map((x) => x / bestNorm));
+    found.push(scaled(best, 1 / bestNorm));
   }
   return found;
 }
 
-/** Inverse of a symmetric positive definite matrix by Gauss-Jordan elimination (callers have checked it is far from singular). */
-function invert(matrix: readonly (readonly number[])[]): number[][] {
+/** Inverse of a symmetric positive definite matrix (rows) by Gauss-Jordan elimination; callers have checked it is far from singular. */
+function invert(matrix: readonly Vector[]): Vector[] {
   const n = matrix.length;
-  const a = matrix.map((row, i) => [...row, ...Array.from({ length: n }, (_, j) => (i === j ? 1 : 0))]);
+  const a = matrix.map((row, i) => {
+    const extended = new Float64Array(2 * n);
+    extended.set(row);
+    extended[n + i] = 1;
+    return extended;
+  });
   for (let col = 0; col < n; col++) {
     let pivot = col;
     for (let r = col + 1; r < n; r++) if (Math.abs(a[r][col]) > Math.abs(a[pivot][col])) pivot = r;
@@ -140,8 +153,8 @@ function invert(matrix: readonly (readonly number[])[]): number[][] {
     const p = a[col][col];
     for (let j = 0; j < 2 * n; j++) a[col][j] /= p;
     for (let r = 0; r < n; r++) {
-      if (r === col || a[r][col] === 0) continue;
       const factor = a[r][col];
+      if (r === col || factor === 0) continue;
       for (let j = 0; j < 2 * n; j++) a[r][j] -= factor * a[col][j];
     }
   }
@@ -149,12 +162,14 @@ function invert(matrix: readonly (readonly number[])[]): number[][] {
 }
 
 /** Matrix (rows) times vector. */
-function apply(matrix: readonly (readonly number[])[], v: ArrayLike<number>): number[] {
-  return matrix.map((row) => dot(row, v));
+function apply(matrix: readonly Vector[], v: Vector): Vector {
+  const out = new Float64Array(matrix.length);
+  for (let r = 0; r < matrix.length; r++) out[r] = dot(matrix[r], v);
+  return out;
 }
 
 /** Largest u . g over the points (the apex 0 included when `withApex`). */
-function reach(points: readonly (readonly number[])[], u: ArrayLike<number>, withApex: boolean): number {
+function reach(points: readonly Vector[], u: Vector, withApex: boolean): number {
   let most = withApex ? 0 : -Infinity;
   for (const g of points) {
     const level = dot(u, g);
@@ -164,14 +179,14 @@ function reach(points: readonly (readonly number[])[], u: ArrayLike<number>, wit
 }
 
 /** Support of the Minkowski sum of the contacts' pyramids along unit u: sum over the contacts of max(0, max_j u . g_ij). */
-function sumSupport(perContact: readonly (readonly (readonly number[])[])[], u: readonly number[]): number {
+function sumSupport(perContact: readonly (readonly Vector[])[], u: Vector): number {
   let support = 0;
   for (const generators of perContact) support += reach(generators, u, true);
   return support;
 }
 
 /** Support of the hull of the union along unit u: max over all generators of u . g. */
-function unionSupport(perContact: readonly (readonly (readonly number[])[])[], u: readonly number[]): number {
+function unionSupport(perContact: readonly (readonly Vector[])[], u: Vector): number {
   let support = -Infinity;
   for (const generators of perContact) support = Math.max(support, reach(generators, u, false));
   return support;
@@ -181,7 +196,7 @@ function unionSupport(perContact: readonly (readonly (readonly number[])[])[], u
 class Candidates {
   least = Infinity;
   readonly supports: number[] = [];
-  readonly directions: number[][] = [];
+  readonly directions: Vector[] = [];
   /** Where callers build a direction (its first D numbers) before offering it, so rejected ones allocate nothing. */
   readonly scratch = new Float64Array(LIFTED);
 
@@ -189,21 +204,19 @@ class Candidates {
   offer(support: number, length: number): void {
     if (!(length > 0) || support > this.least + NEAR_MINIMUM * Math.abs(this.least)) return;
     if (support < this.least) this.least = support;
-    const u = new Array<number>(D);
-    for (let j = 0; j < D; j++) u[j] = this.scratch[j] / length;
     this.supports.push(support);
-    this.directions.push(u);
+    this.directions.push(scaled(this.scratch.subarray(0, D), 1 / length));
   }
 
-  /** Offers unit u with its support computed in full by `support`. */
-  offerExact(u: readonly number[], support: (u: readonly number[]) => number): void {
+  /** Offers the direction u (D numbers) with its support computed in full by `support`. */
+  offerExact(u: Vector, support: (u: Vector) => number): void {
     const length = Math.sqrt(dot(u, u));
     if (!(length > 0)) return;
-    for (let j = 0; j < D; j++) this.scratch[j] = u[j];
-    this.offer(support(u.map((x) => x / length)), length);
+    this.scratch.set(u);
+    this.offer(support(scaled(u, 1 / length)), length);
   }
 
-  near(): number[][] {
+  near(): Vector[] {
     return this.directions.filter((_, k) => this.supports[k] <= this.least + NEAR_MINIMUM * Math.abs(this.least));
   }
 }
@@ -214,18 +227,25 @@ class Candidates {
  * `withApex`), five of them made orthonormal with pivoting (the largest left each time), taken
  * out of u. Null when they span fewer than five dimensions: u is then near no facet.
  */
-function exactNormal(u: readonly number[], groups: readonly (readonly (readonly number[])[])[], withApex: boolean, scale: number): number[] | null {
-  const rows: number[][] = [];
+function exactNormal(u: Vector, groups: readonly (readonly Vector[])[], withApex: boolean, scale: number): Vector | null {
+  const apex = new Float64Array(D);
+  const rows: Vector[] = [];
   for (const generators of groups) {
-    const points = withApex ? [new Array<number>(D).fill(0), ...generators] : generators;
-    const levels = points.map((g) => dot(u, g));
-    let top = 0;
-    for (let k = 1; k < points.length; k++) if (levels[k] > levels[top]) top = k;
-    for (let k = 0; k < points.length; k++) {
-      if (k !== top && levels[k] >= levels[top] - TOUCHING * scale) rows.push(points[k].map((x, j) => x - points[top][j]));
+    let top = withApex ? apex : generators[0], most = dot(u, top);
+    for (const g of generators) {
+      const level = dot(u, g);
+      if (level > most) { most = level; top = g; }
     }
+    const touching = (g: Vector) => {
+      if (g === top || dot(u, g) < most - TOUCHING * scale) return;
+      const row = new Float64Array(D);
+      for (let j = 0; j < D; j++) row[j] = g[j] - top[j];
+      rows.push(row);
+    };
+    if (withApex) touching(apex);
+    generators.forEach(touching);
   }
-  const basis: number[][] = [];
+  const basis: Vector[] = [];
   while (basis.length < D - 1) {
     let best = -1, bestNorm = 1e-6 * TOUCHING * scale;
     rows.forEach((row, k) => {
@@ -235,8 +255,9 @@ function exactNormal(u: readonly number[], groups: readonly (readonly (readonly 
     if (best < 0) return null;
     const [chosen] = rows.splice(best, 1);
     reject(chosen, basis);
-    basis.push(unit(chosen));
-    for (const row of rows) reject(row, basis.slice(-1));
+    const b = unit(chosen);
+    basis.push(b);
+    for (const row of rows) reject(row, [b]);
   }
   const normal = u.slice();
   reject(normal, basis);
@@ -244,7 +265,7 @@ function exactNormal(u: readonly number[], groups: readonly (readonly (readonly 
 }
 
 /** The smallest exact support over the candidates near the smallest approximate one. */
-function settle(candidates: Candidates, groups: readonly (readonly (readonly number[])[])[], withApex: boolean, scale: number, support: (u: readonly number[]) => number): NearestFacet | null {
+function settle(candidates: Candidates, groups: readonly (readonly Vector[])[], withApex: boolean, scale: number, support: (u: Vector) => number): NearestFacet | null {
   let best: NearestFacet | null = null;
   for (const approximate of candidates.near()) {
     const normal = exactNormal(approximate, groups, withApex, scale) ?? approximate;
@@ -255,33 +276,55 @@ function settle(candidates: Candidates, groups: readonly (readonly (readonly num
 }
 
 /** Outward unit normals of the sides of a friction cone (side j through edges j and j + 1): the rays of its polar cone. */
-function sideNormals(edges: readonly (readonly number[])[]): number[][] {
+function sideNormals(edges: readonly Vector[]): Vector[] {
   const m = edges.length;
   return edges.map((edge, j) => {
     const n = unit(cross(edge, edges[(j + 1) % m]));
-    return dot(n, edges[(j + 2) % m]) > 0 ? n.map((x) => -x) : n;
+    return dot(n, edges[(j + 2) % m]) > 0 ? scaled(n, -1) : n;
   });
 }
 
-/** The sign (+1 or -1) shared by the weights of a positive dependency (each within a slack of it), 0 when their signs differ, NaN when all are near zero (the vectors are dependent). */
-function signOf(w0: number, w1: number, w2: number, w3: number): number {
-  const largest = Math.max(Math.abs(w0), Math.abs(w1), Math.abs(w2), Math.abs(w3));
-  if (!(largest > DEPENDENT)) return NaN;
-  const slack = SIGN_SLACK * largest;
-  if (w0 >= -slack && w1 >= -slack && w2 >= -slack && w3 >= -slack) return 1;
-  if (w0 <= slack && w1 <= slack && w2 <= slack && w3 <= slack) return -1;
-  return 0;
+/** What Dependency.sign answers when every weight is near zero: the vectors are dependent and may hide a facet. */
+const DEPENDENT_RAYS = 2;
+
+/**
+ * A combination of up to four rays (contact and ray index each) with the weights of their linear
+ * dependency, in typed arrays so the hot loops pass only small integers between calls (a number
+ * crossing a call that is not inlined is boxed on the heap).
+ */
+class Dependency {
+  readonly weights = new Float64Array(4);
+  readonly contacts = new Int32Array(4);
+  readonly rays = new Int32Array(4);
+
+  /** +1 or -1 when the weights share that sign (each within a slack of it), 0 when their signs differ, DEPENDENT_RAYS when all are near zero. */
+  sign(): number {
+    const w = this.weights;
+    const largest = Math.max(Math.abs(w[0]), Math.abs(w[1]), Math.abs(w[2]), Math.abs(w[3]));
+    if (!(largest > DEPENDENT)) return DEPENDENT_RAYS;
+    const slack = SIGN_SLACK * largest;
+    if (w[0] >= -slack && w[1] >= -slack && w[2] >= -slack && w[3] >= -slack) return 1;
+    if (w[0] <= slack && w[1] <= slack && w[2] <= slack && w[3] <= slack) return -1;
+    return 0;
+  }
+
+  set(k: number, contact: number, ray: number): void {
+    this.contacts[k] = contact;
+    this.rays[k] = ray;
+  }
 }
 
 /** Rows of the map from a direction's coordinates to the contacts' 3-vectors (3 per contact): y_i = u_f - rho_i x u_t (+ c n_i when lifted). */
-function contactRows(contacts: readonly ForceCone[], lifted: boolean): number[][] {
-  const rows: number[][] = [];
+function contactRows(contacts: readonly ForceCone[], lifted: boolean): Vector[] {
+  const rows: Vector[] = [];
   for (const { lever: r, normal } of contacts) {
     // -rho x u_t as rows acting on u_t: the negated cross-product matrix of rho.
     const twist = [[0, r[2], -r[1]], [-r[2], 0, r[0]], [r[1], -r[0], 0]];
     for (let t = 0; t < 3; t++) {
-      const row = [t === 0 ? 1 : 0, t === 1 ? 1 : 0, t === 2 ? 1 : 0, ...twist[t]];
-      if (lifted) row.push(normal[t]);
+      const row = new Float64Array(lifted ? LIFTED : D);
+      row[t] = 1;
+      row.set(twist[t], 3);
+      if (lifted) row[D] = normal[t];
       rows.push(row);
     }
   }
@@ -292,17 +335,27 @@ function contactRows(contacts: readonly ForceCone[], lifted: boolean): number[][
  * The conditions on the contacts' 3-vectors (rows of 9 spanning what the map's image misses) and
  * the way back: for a contact's 3-vector y, G^-1 M_i^T y with G = M^T M (least squares), so a
  * positive combination of rays that meets the conditions maps back to the direction giving it.
+ * Null when the map loses a dimension (contacts on one line).
  */
-function structure(rows: readonly (readonly number[])[]): { conditions: number[][]; back: (contact: number, y: readonly number[]) => number[] } | null {
+function structure(rows: readonly Vector[]): { conditions: Vector[]; back: (contact: number, y: Vector) => Vector } | null {
   const size = rows[0].length;
-  const columns = Array.from({ length: size }, (_, k) => rows.map((row) => row[k]));
+  const columns: Vector[] = [];
+  for (let k = 0; k < size; k++) {
+    const column = new Float64Array(rows.length);
+    for (let r = 0; r < rows.length; r++) column[r] = rows[r][k];
+    columns.push(column);
+  }
   const image = orthonormalize(columns);
   if (image === null) return null;
   const conditions = complement(image, rows.length - size);
-  const gram = columns.map((a) => columns.map((b) => dot(a, b)));
+  const gram = columns.map((a) => {
+    const row = new Float64Array(size);
+    for (let k = 0; k < size; k++) row[k] = dot(a, columns[k]);
+    return row;
+  });
   const inverse = invert(gram);
-  const back = (contact: number, y: readonly number[]) => {
-    const v = new Array<number>(size).fill(0);
+  const back = (contact: number, y: Vector) => {
+    const v = new Float64Array(size);
     for (let t = 0; t < 3; t++) for (let k = 0; k < size; k++) v[k] += rows[3 * contact + t][k] * y[t];
     return apply(inverse, v);
   };
@@ -310,14 +363,34 @@ function structure(rows: readonly (readonly number[])[]): { conditions: number[]
 }
 
 /** The image of a contact's 3-vector y under the conditions (one number per condition). */
-function imageOf(conditions: readonly (readonly number[])[], contact: number, y: readonly number[]): number[] {
-  return conditions.map((row) => row[3 * contact] * y[0] + row[3 * contact + 1] * y[1] + row[3 * contact + 2] * y[2]);
+function imageOf(conditions: readonly Vector[], contact: number, y: Vector): Vector {
+  const out = new Float64Array(conditions.length);
+  for (let r = 0; r < conditions.length; r++) {
+    const row = conditions[r];
+    out[r] = row[3 * contact] * y[0] + row[3 * contact + 1] * y[1] + row[3 * contact + 2] * y[2];
+  }
+  return out;
 }
 
-/** Flat copies (`size` numbers per vector) of a contact's vectors, for the tables of the inner loops. */
-function flat(vectors: readonly (readonly number[])[], size: number): Float64Array {
+/** The 3-vector of contact c that every condition maps to zero: the largest cross product of two conditions' parts for c. */
+function kernelOf(conditions: readonly Vector[], c: number): Vector {
+  const parts = conditions.map((row) => Float64Array.of(row[3 * c], row[3 * c + 1], row[3 * c + 2]));
+  let kernel: Vector = new Float64Array(3), most = -1;
+  for (let i = 0; i < parts.length; i++) {
+    for (let j = i + 1; j < parts.length; j++) {
+      const candidate = cross(parts[i], parts[j]);
+      const size = dot(candidate, candidate);
+      if (size > most) { most = size; kernel = candidate; }
+    }
+  }
+  return kernel;
+}
+
+/** The vectors one after another in one array. */
+function flat(vectors: readonly Vector[]): Float64Array {
+  const size = vectors[0].length;
   const out = new Float64Array(vectors.length * size);
-  vectors.forEach((v, k) => out.set(v.slice(0, size), k * size));
+  vectors.forEach((v, k) => out.set(v, k * size));
   return out;
 }
 
@@ -343,27 +416,27 @@ function determinants(xs: Float64Array, ys: Float64Array): Float64Array {
   return out;
 }
 
-/** Adds weight times way (a `size`-vector at `at` in `ways`) into `out`. */
-function addWay(out: Float64Array, weight: number, ways: Float64Array, at: number, size: number): void {
-  for (let j = 0; j < size; j++) out[j] += weight * ways[at * size + j];
+/** Adds weight times the way back of (contact, ray) from `ways` (`size` numbers per ray) into `out`. */
+function addWay(out: Float64Array, weight: number, ways: Float64Array, ray: number, size: number): void {
+  for (let j = 0; j < size; j++) out[j] += weight * ways[ray * size + j];
 }
 
 /** Q_L1: positive dependencies in the plane of the two lifted conditions among the rays of the contacts' polar cones; undefined when rays are dependent. */
-function unionQuality(contacts: readonly ForceCone[], perContact: readonly number[][][], scale: number): NearestFacet | null | undefined {
+function unionQuality(contacts: readonly ForceCone[], perContact: readonly (readonly Vector[])[], scale: number): NearestFacet | null | undefined {
   const lifted = structure(contactRows(contacts, true));
   if (lifted === null) return null;
   const { conditions, back } = lifted;
   const m = contacts[0].edges.length;
   const rays = contacts.map(({ edges }) => sideNormals(edges));
-  const q = rays.map((contactRays, i) => flat(contactRays.map((r) => imageOf(conditions, i, r)), 2));
-  const ways = rays.map((contactRays, i) => flat(contactRays.map((r) => back(i, r)), LIFTED));
+  const q = rays.map((contactRays, i) => flat(contactRays.map((r) => imageOf(conditions, i, r))));
+  const ways = rays.map((contactRays, i) => flat(contactRays.map((r) => back(i, r))));
   const candidates = new Candidates();
-  /** n = (u_f, u_t, c) from three rays' weights; the plane u . w = c supports the union, so its distance is c / |u|. */
-  const offer = (sign: number, w0: number, c0: number, r0: number, w1: number, c1: number, r1: number, w2: number, c2: number, r2: number) => {
+  const dependency = new Dependency();
+  const weights = dependency.weights;
+  /** n = (u_f, u_t, c) from the rays' weights; the plane u . w = c supports the union, so its distance is c / |u|. */
+  const offer = (sign: number) => {
     const n = candidates.scratch.fill(0);
-    addWay(n, sign * w0, ways[c0], r0, LIFTED);
-    addWay(n, sign * w1, ways[c1], r1, LIFTED);
-    addWay(n, sign * w2, ways[c2], r2, LIFTED);
+    for (let k = 0; k < 3; k++) addWay(n, sign * weights[k], ways[dependency.contacts[k]], dependency.rays[k], LIFTED);
     let square = 0;
     for (let j = 0; j < D; j++) square += n[j] * n[j];
     const length = Math.sqrt(square);
@@ -374,10 +447,16 @@ function unionQuality(contacts: readonly ForceCone[], perContact: readonly numbe
   for (let j = 0; j < m; j++) {
     for (let k = 0; k < m; k++) {
       for (let l = 0; l < m; l++) {
-        const w0 = d12[k * m + l], w1 = d20[l * m + j], w2 = d01[j * m + k];
-        const sign = signOf(w0, w1, w2, 0);
-        if (Number.isNaN(sign)) return undefined;
-        if (sign !== 0) offer(sign, w0, 0, j, w1, 1, k, w2, 2, l);
+        weights[0] = d12[k * m + l];
+        weights[1] = d20[l * m + j];
+        weights[2] = d01[j * m + k];
+        const sign = dependency.sign();
+        if (sign === DEPENDENT_RAYS) return undefined;
+        if (sign === 0) continue;
+        dependency.set(0, 0, j);
+        dependency.set(1, 1, k);
+        dependency.set(2, 2, l);
+        offer(sign);
       }
     }
   }
@@ -390,33 +469,39 @@ function unionQuality(contacts: readonly ForceCone[], perContact: readonly numbe
         for (let l = 0; l < m; l++) {
           const before = (l + m - 1) % m;
           // x = q_bk, y = q_c,before, z = q_cl.
-          const w0 = cc[before * m + l], w1 = -bc[k * m + l], w2 = bc[k * m + before];
-          const sign = signOf(w0, w1, w2, 0);
-          if (Number.isNaN(sign)) return undefined;
-          if (sign !== 0) offer(sign, w0, b, k, w1, c, before, w2, c, l);
+          weights[0] = cc[before * m + l];
+          weights[1] = -bc[k * m + l];
+          weights[2] = bc[k * m + before];
+          const sign = dependency.sign();
+          if (sign === DEPENDENT_RAYS) return undefined;
+          if (sign === 0) continue;
+          dependency.set(0, b, k);
+          dependency.set(1, c, before);
+          dependency.set(2, c, l);
+          offer(sign);
         }
       }
     }
   }
   // One contact alone: its 3-vector spans the kernel of its two conditions (both signs, supports computed in full).
   for (let c = 0; c < 3; c++) {
-    const kernel = cross(conditions[0].slice(3 * c, 3 * c + 3), conditions[1].slice(3 * c, 3 * c + 3));
+    const kernel = kernelOf(conditions, c);
     for (const sign of [1, -1]) {
-      candidates.offerExact(back(c, kernel.map((x) => sign * x)).slice(0, D), (u) => unionSupport(perContact, u));
+      candidates.offerExact(back(c, scaled(kernel, sign)).subarray(0, D), (u) => unionSupport(perContact, u));
     }
   }
   return settle(candidates, [perContact.flat()], false, scale, (u) => unionSupport(perContact, u));
 }
 
 /** Q_Linf: positive dependencies in the 3-D space of the rigid-body conditions among the rays and walls of the pyramids' fans; undefined when rays are dependent. */
-function sumQuality(contacts: readonly ForceCone[], perContact: readonly number[][][], scale: number): NearestFacet | null | undefined {
+function sumQuality(contacts: readonly ForceCone[], perContact: readonly (readonly Vector[])[], scale: number): NearestFacet | null | undefined {
   const plain = structure(contactRows(contacts, false));
   if (plain === null) return null;
   const { conditions, back } = plain;
   const m = contacts[0].edges.length;
   const rayCount = m + 1, wallCount = 2 * m;
   // Rays: the triangles' outward normals (support 0), then the base's, -n (support 1).
-  const rays = contacts.map(({ edges, normal }) => [...sideNormals(edges), normal.map((x) => -x)]);
+  const rays = contacts.map(({ edges, normal }) => [...sideNormals(edges), scaled(normal, -1)]);
   // Walls: base edge j between triangle j and the base; apex edge j between triangles j - 1 and j.
   const wallFrom = new Int32Array(wallCount), wallTo = new Int32Array(wallCount);
   for (let j = 0; j < m; j++) {
@@ -426,43 +511,61 @@ function sumQuality(contacts: readonly ForceCone[], perContact: readonly number[
     wallTo[m + j] = j;
   }
   const qs = rays.map((contactRays, i) => contactRays.map((r) => imageOf(conditions, i, r)));
-  const q = qs.map((images) => flat(images, 3));
-  const ways = rays.map((contactRays, i) => flat(contactRays.map((r) => back(i, r)), D));
-  const etas = qs.map((images) => flat(Array.from(wallFrom, (p, w) => cross(images[p], images[wallTo[w]])), 3));
+  const q = qs.map((images) => flat(images));
+  const ways = rays.map((contactRays, i) => flat(contactRays.map((r) => back(i, r))));
+  const etas = qs.map((images) => flat(Array.from(wallFrom, (p, w) => cross(images[p], images[wallTo[w]]))));
   const candidates = new Candidates();
-  /** u from four rays' weights; each contact reaches its rays' supports, so h(u) = (weight on base rays) / |u|. */
-  const offer = (sign: number, w0: number, c0: number, r0: number, w1: number, c1: number, r1: number, w2: number, c2: number, r2: number, w3: number, c3: number, r3: number) => {
+  const dependency = new Dependency();
+  const weights = dependency.weights;
+  /** u from the four rays' weights; each contact reaches its rays' supports, so h(u) = (weight on base rays) / |u|. */
+  const offer = (sign: number) => {
     const u = candidates.scratch.fill(0);
-    addWay(u, sign * w0, ways[c0], r0, D);
-    addWay(u, sign * w1, ways[c1], r1, D);
-    addWay(u, sign * w2, ways[c2], r2, D);
-    addWay(u, sign * w3, ways[c3], r3, D);
-    const reached = sign * ((r0 === m ? w0 : 0) + (r1 === m ? w1 : 0) + (r2 === m ? w2 : 0) + (r3 === m ? w3 : 0));
+    let reached = 0;
+    for (let k = 0; k < 4; k++) {
+      addWay(u, sign * weights[k], ways[dependency.contacts[k]], dependency.rays[k], D);
+      if (dependency.rays[k] === m) reached += sign * weights[k];
+    }
     let square = 0;
     for (let j = 0; j < D; j++) square += u[j] * u[j];
     const length = Math.sqrt(square);
     candidates.offer(reached / length, length);
   };
   const others = (c: number) => [c === 0 ? 1 : 0, c === 2 ? 1 : 2];
+  // q_i . eta_w for every ray of contact i and wall of contact c, one table per ordered pair, shared by both loops.
+  const rayWall = q.map((rays) => etas.map((walls) => dots(rays, walls, 3)));
   // A ray of a, a ray of b, a wall (p, r) of c: det(B, C, E) A - det(A, C, E) B + det(A, B, E) C - det(A, B, C) E = 0.
   const ab = new Float64Array(rayCount);
   for (let c = 0; c < 3; c++) {
     const [a, b] = others(c);
-    const aEta = dots(q[a], etas[c], 3), bEta = dots(q[b], etas[c], 3);
-    const qc = q[c];
+    const aEta = rayWall[a][c], bEta = rayWall[b][c];
+    const x = q[a], y = q[b], z = q[c];
     for (let k = 0; k < rayCount; k++) {
       for (let l = 0; l < rayCount; l++) {
-        const x = q[a], y = q[b];
-        const cx = x[3 * k + 1] * y[3 * l + 2] - x[3 * k + 2] * y[3 * l + 1];
-        const cy = x[3 * k + 2] * y[3 * l] - x[3 * k] * y[3 * l + 2];
-        const cz = x[3 * k] * y[3 * l + 1] - x[3 * k + 1] * y[3 * l];
-        for (let r = 0; r < rayCount; r++) ab[r] = cx * qc[3 * r] + cy * qc[3 * r + 1] + cz * qc[3 * r + 2];
+        let crossed = false;
         for (let w = 0; w < wallCount; w++) {
+          const w0 = bEta[l * wallCount + w], w1 = -aEta[k * wallCount + w];
+          // Every weight is at most 1 (unit rays and conditions), so two of opposite signs past these bounds fail the sign test whatever the others are.
+          if (w0 * w1 < 0 && Math.min(Math.abs(w0), Math.abs(w1)) > SIGN_SLACK && Math.max(Math.abs(w0), Math.abs(w1)) > DEPENDENT) continue;
+          if (!crossed) {
+            const cx = x[3 * k + 1] * y[3 * l + 2] - x[3 * k + 2] * y[3 * l + 1];
+            const cy = x[3 * k + 2] * y[3 * l] - x[3 * k] * y[3 * l + 2];
+            const cz = x[3 * k] * y[3 * l + 1] - x[3 * k + 1] * y[3 * l];
+            for (let r = 0; r < rayCount; r++) ab[r] = cx * z[3 * r] + cy * z[3 * r + 1] + cz * z[3 * r + 2];
+            crossed = true;
+          }
           const p = wallFrom[w], r = wallTo[w];
-          const w0 = bEta[l * wallCount + w], w1 = -aEta[k * wallCount + w], w2 = ab[r], w3 = -ab[p];
-          const sign = signOf(w0, w1, w2, w3);
-          if (Number.isNaN(sign)) return undefined;
-          if (sign !== 0) offer(sign, w0, a, k, w1, b, l, w2, c, p, w3, c, r);
+          weights[0] = w0;
+          weights[1] = w1;
+          weights[2] = ab[r];
+          weights[3] = -ab[p];
+          const sign = dependency.sign();
+          if (sign === DEPENDENT_RAYS) return undefined;
+          if (sign === 0) continue;
+          dependency.set(0, a, k);
+          dependency.set(1, b, l);
+          dependency.set(2, c, p);
+          dependency.set(3, c, r);
+          offer(sign);
         }
       }
     }
@@ -470,28 +573,31 @@ function sumQuality(contacts: readonly ForceCone[], perContact: readonly number[
   // A wall (p1, r1) of b and a wall (p2, r2) of c; a's velocity 0.
   for (let a = 0; a < 3; a++) {
     const [b, c] = others(a);
-    const bEta = dots(q[b], etas[c], 3), etaC = dots(etas[b], q[c], 3);
+    const bEta = rayWall[b][c], cEta = rayWall[c][b];
     for (let w1 = 0; w1 < wallCount; w1++) {
       const p1 = wallFrom[w1], r1 = wallTo[w1];
       for (let w2 = 0; w2 < wallCount; w2++) {
         const p2 = wallFrom[w2], r2 = wallTo[w2];
-        const v0 = bEta[r1 * wallCount + w2], v1 = -bEta[p1 * wallCount + w2], v2 = etaC[w1 * rayCount + r2], v3 = -etaC[w1 * rayCount + p2];
-        const sign = signOf(v0, v1, v2, v3);
-        if (Number.isNaN(sign)) return undefined;
-        if (sign !== 0) offer(sign, v0, b, p1, v1, b, r1, v2, c, p2, v3, c, r2);
+        weights[0] = bEta[r1 * wallCount + w2];
+        weights[1] = -bEta[p1 * wallCount + w2];
+        weights[2] = cEta[r2 * wallCount + w1];
+        weights[3] = -cEta[p2 * wallCount + w1];
+        const sign = dependency.sign();
+        if (sign === DEPENDENT_RAYS) return undefined;
+        if (sign === 0) continue;
+        dependency.set(0, b, p1);
+        dependency.set(1, b, r1);
+        dependency.set(2, c, p2);
+        dependency.set(3, c, r2);
+        offer(sign);
       }
     }
   }
   // Two contacts at rest: the third's velocity spans the kernel of its conditions (both signs, supports computed in full).
   for (let c = 0; c < 3; c++) {
-    const rows = conditions.map((row) => row.slice(3 * c, 3 * c + 3));
-    let kernel = cross(rows[0], rows[1]);
-    for (const [i, j] of [[0, 2], [1, 2]]) {
-      const other = cross(rows[i], rows[j]);
-      if (dot(other, other) > dot(kernel, kernel)) kernel = other;
-    }
+    const kernel = kernelOf(conditions, c);
     for (const sign of [1, -1]) {
-      candidates.offerExact(back(c, kernel.map((x) => sign * x)), (u) => sumSupport(perContact, u));
+      candidates.offerExact(back(c, scaled(kernel, sign)), (u) => sumSupport(perContact, u));
     }
   }
   return settle(candidates, perContact, true, scale, (u) => sumSupport(perContact, u));
@@ -503,8 +609,9 @@ function sumQuality(contacts: readonly ForceCone[], perContact: readonly number[
  * length), or null when this route does not apply: nearly dependent contact spaces or rays, or
  * a grasp whose Q_L1 is not above `closureTolerance` times the scale (not force closure).
  */
-export function threeContactQualities(contacts: readonly ForceCone[], perContact: readonly number[][][], scale: number, closureTolerance: number): ThreeContactQualities | null {
+export function threeContactQualities(contacts: readonly ForceCone[], wrenches: readonly (readonly (readonly number[])[])[], scale: number, closureTolerance: number): ThreeContactQualities | null {
   if (contacts.length !== 3) return null;
+  const perContact = wrenches.map((generators) => generators.map((w) => Float64Array.of(w[0], w[1], w[2], w[3], w[4], w[5])));
   const sum = unionQuality(contacts, perContact, scale);
   if (!sum || !(sum.distance > closureTolerance * scale)) return null;
   const max = sumQuality(contacts, perContact, scale);
