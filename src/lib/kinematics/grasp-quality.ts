@@ -181,7 +181,7 @@ function pyramidFaceLists(base: readonly number[][]): number[][] {
  * support over these candidate normals (and their opposites) is Q_L1 without checking that each
  * candidate is a facet. Null when the union spans fewer than five dimensions or past the work cap.
  */
-function unionFaceQuality(input: Readonly<GraspQualityInput>, perContact: readonly number[][][]): { distance: number; normal: number[] } | null {
+export function unionFaceQuality(input: Readonly<GraspQualityInput>, perContact: readonly number[][][]): { distance: number; normal: number[] } | null {
   const contacts = perContact.map((generators, i) => contactSet(generators, LIFTED, coneFaceLists(contactBaseFaces(input, i))));
   if (countCombinations(contacts, LIFTED - 1) > MAX_UNION_FACE_COMBINATIONS) return null;
   const nearest = new NearestUnionFacet(1e-9 * largestWrench(perContact));
@@ -259,13 +259,23 @@ export function nearestSumFacet(input: Readonly<GraspQualityInput>, perContact: 
   return least.found ? { distance: least.distance, normal: Array.from(least.normal), combinations } : { distance: null, normal: null, combinations };
 }
 
+/** Face combinations by contact models (cone edges, then per contact whether it has friction, and whether fingers are soft): they depend on nothing else. */
+const faceCombinationCounts = new Map<string, number>();
+
 /** Face combinations of Q_Linf's face search for these contacts (the count reported beside Q_Linf, whichever route computed it). */
 function sumFaceCombinations(input: Readonly<GraspQualityInput>): number {
-  return countCombinations(Array.from({ length: input.contactCount }, (_, i) => ({ faces: pyramidFaceLists(contactBaseFaces(input, i)) })), D - 1);
+  const models = Array.from({ length: input.contactCount }, (_, i) => (input.friction[i] > 0 ? 'f' : '0')).join('');
+  const key = `${input.coneEdges}:${models}:${input.torsionalFriction > 0}`;
+  let count = faceCombinationCounts.get(key);
+  if (count === undefined) {
+    count = countCombinations(Array.from({ length: input.contactCount }, (_, i) => ({ faces: pyramidFaceLists(contactBaseFaces(input, i)) })), D - 1);
+    faceCombinationCounts.set(key, count);
+  }
+  return count;
 }
 
 /** Each contact's cone edges (forces, unit normal push), outward normal and lever (x_i - p) / L, for the route of three point contacts. */
-function forceCones(input: Readonly<GraspQualityInput>, torqueLength: number, perContact: readonly number[][][]): ForceCone[] {
+export function forceCones(input: Readonly<GraspQualityInput>, torqueLength: number, perContact: readonly number[][][]): ForceCone[] {
   const { origin, points, normals } = input;
   return perContact.map((generators, i) => ({
     edges: generators.map((w) => Float64Array.of(w[0], w[1], w[2])),
@@ -275,7 +285,7 @@ function forceCones(input: Readonly<GraspQualityInput>, torqueLength: number, pe
 }
 
 /** Three point contacts, each with friction: the contact model the force-cone route covers. */
-function threePointContacts(input: Readonly<GraspQualityInput>): boolean {
+export function threePointContacts(input: Readonly<GraspQualityInput>): boolean {
   if (input.contactCount !== 3 || input.torsionalFriction > 0) return false;
   for (let i = 0; i < 3; i++) if (!(input.friction[i] > 0)) return false;
   return true;
