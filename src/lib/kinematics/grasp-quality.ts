@@ -26,6 +26,10 @@
  * (w, 1), where its facets are linear. Every unit u has support h(u) >= Q (the ball of radius Q
  * lies inside), with equality along the nearest facet, so the smallest support over a candidate
  * set that holds every facet normal is exactly Q; the containment check only skips candidates.
+ *
+ * Three point contacts with friction first try the force-cone route (three-contact-quality.ts),
+ * which finds the same facets from the contacts' 3-D force cones; it answers null for layouts it
+ * cannot separate safely and for grasps without force closure, and the face search then decides.
  */
 import { baseFaces, countCombinations, forEachFaceNormal, type ContactFaces, type FaceNormalVisitor } from './wrench-faces';
 import { threeContactQualities, type ForceCone } from './three-contact-quality';

@@ -11,7 +11,7 @@
  * the faces each contact offers add up to a facet (Ziegler, "Lectures on Polytopes", 1995, sec.
  * 7.1: the normal fan of a Minkowski sum is the common refinement of the summands' fans), so it
  * is a positive combination of rays of the contacts' 3-D fans that meets the conditions: a
- * positive dependency among the rays' images q = N_i rho under the conditions, found by signs of
+ * positive dependency among the rays' images q under the conditions (a 3- or 2-vector each), found by signs of
  * small determinants (Cramer's rule).
  *
  * - Q_Linf: contact i's set is the pyramid K_i = conv{0, f_i1, ..., f_im}. Its fan has m + 1 rays
