@@ -26,8 +26,13 @@
  * (w, 1), where its facets are linear. Every unit u has support h(u) >= Q (the ball of radius Q
  * lies inside), with equality along the nearest facet, so the smallest support over a candidate
  * set that holds every facet normal is exactly Q; the containment check only skips candidates.
+ *
+ * Three point contacts with friction first try the force-cone route (three-contact-quality.ts),
+ * which finds the same facets from the contacts' 3-D force cones; it answers null for layouts it
+ * cannot separate safely and for grasps without force closure, and the face search then decides.
  */
 import { baseFaces, countCombinations, forEachFaceNormal, type ContactFaces, type FaceNormalVisitor } from './wrench-faces';
+import { threeContactQualities, type ForceCone } from './three-contact-quality';
 import { hullFacets } from './wrench-hull';
 
 /** Wrench-space dimension: force (3) and torque over L (3). */
@@ -180,7 +185,7 @@ function pyramidFaceLists(base: readonly number[][]): number[][] {
  * support over these candidate normals (and their opposites) is Q_L1 without checking that each
  * candidate is a facet. Null when the union spans fewer than five dimensions or past the work cap.
  */
-function unionFaceQuality(input: Readonly<GraspQualityInput>, perContact: readonly number[][][]): { distance: number; normal: number[] } | null {
+export function unionFaceQuality(input: Readonly<GraspQualityInput>, perContact: readonly number[][][]): { distance: number; normal: number[] } | null {
   const contacts = perContact.map((generators, i) => contactSet(generators, LIFTED, coneFaceLists(contactBaseFaces(input, i))));
   if (countCombinations(contacts, LIFTED - 1) > MAX_UNION_FACE_COMBINATIONS) return null;
   const nearest = new NearestUnionFacet(1e-9 * largestWrench(perContact));
@@ -258,6 +263,38 @@ export function nearestSumFacet(input: Readonly<GraspQualityInput>, perContact: 
   return least.found ? { distance: least.distance, normal: Array.from(least.normal), combinations } : { distance: null, normal: null, combinations };
 }
 
+/** Face combinations by contact models (cone edges, then per contact whether it has friction, and whether fingers are soft): they depend on nothing else. */
+const faceCombinationCounts = new Map<string, number>();
+
+/** Face combinations of Q_Linf's face search for these contacts (the count reported beside Q_Linf, whichever route computed it). */
+function sumFaceCombinations(input: Readonly<GraspQualityInput>): number {
+  const models = Array.from({ length: input.contactCount }, (_, i) => (input.friction[i] > 0 ? 'f' : '0')).join('');
+  const key = `${input.coneEdges}:${models}:${input.torsionalFriction > 0}`;
+  let count = faceCombinationCounts.get(key);
+  if (count === undefined) {
+    count = countCombinations(Array.from({ length: input.contactCount }, (_, i) => ({ faces: pyramidFaceLists(contactBaseFaces(input, i)) })), D - 1);
+    faceCombinationCounts.set(key, count);
+  }
+  return count;
+}
+
+/** Each contact's cone edges (forces, unit normal push), outward normal and lever (x_i - p) / L, for the route of three point contacts. */
+export function forceCones(input: Readonly<GraspQualityInput>, torqueLength: number, perContact: readonly number[][][]): ForceCone[] {
+  const { origin, points, normals } = input;
+  return perContact.map((generators, i) => ({
+    edges: generators.map((w) => Float64Array.of(w[0], w[1], w[2])),
+    normal: Float64Array.of(normals[3 * i], normals[3 * i + 1], normals[3 * i + 2]),
+    lever: Float64Array.from([0, 1, 2], (t) => (points[3 * i + t] - origin[t]) / torqueLength),
+  }));
+}
+
+/** Three point contacts, each with friction: the contact model the force-cone route covers. */
+export function threePointContacts(input: Readonly<GraspQualityInput>): boolean {
+  if (input.contactCount !== 3 || input.torsionalFriction > 0) return false;
+  for (let i = 0; i < 3; i++) if (!(input.friction[i] > 0)) return false;
+  return true;
+}
+
 const AXES = ['x', 'y', 'z'];
 const MINUS = '\u2212';
 
@@ -300,12 +337,14 @@ export function computeGraspQuality(input: Readonly<GraspQualityInput>): GraspQu
     return { contactCount, coneEdges, torqueLength, forceClosure: false, sumQuality: 0, maxQuality: 0, maxQualityCombinations: 0, weakestWrench, weakestWords: 'no contact: every push is unresisted' };
   }
   const scale = largestWrench(perContact);
-  const sum = unionFaceQuality(input, perContact) ?? nearestFacet(union);
+  // Three point contacts with friction take the force-cone route when it applies (force closure, contacts far from dependent).
+  const three = threePointContacts(input) ? threeContactQualities(forceCones(input, torqueLength, perContact), perContact, scale, FORCE_CLOSURE_TOLERANCE) : null;
+  const sum = three?.sum ?? unionFaceQuality(input, perContact) ?? nearestFacet(union);
   const forceClosure = sum.distance > FORCE_CLOSURE_TOLERANCE * scale;
   // Adding 0 turns -0 into 0, so a reported wrench never shows a negative zero.
   for (let j = 0; j < D; j++) weakestWrench[j] = -sum.normal[j] + 0;
   // Q_L1 <= Q_Linf <= k Q_L1, so without force closure Q_Linf is 0 as well.
-  const sumByFaces = forceClosure ? nearestSumFacet(input, perContact) : null;
+  const sumByFaces = three ? { distance: three.max.distance, combinations: sumFaceCombinations(input) } : forceClosure ? nearestSumFacet(input, perContact) : null;
   const maxQuality = sumByFaces === null ? 0 : sumByFaces.distance === null ? null : Math.max(0, sumByFaces.distance);
   const words = describeWrench(weakestWrench);
   return {

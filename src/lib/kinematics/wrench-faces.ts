@@ -58,7 +58,7 @@ export function baseFaces(coneEdges: number, hasFriction: boolean, hasTorsion: b
 }
 
 /** Number of ways to pick at most one face per contact with row counts adding up to `target` (spans not yet checked for independence). */
-export function countCombinations(contacts: readonly ContactFaces[], target: number): number {
+export function countCombinations(contacts: readonly Pick<ContactFaces, 'faces'>[], target: number): number {
   let ways = new Float64Array(target + 1);
   ways[0] = 1;
   for (const { faces } of contacts) {

@@ -136,7 +136,7 @@ function initialSimplex(points: Float64Array, count: number, tolerance: number):
       const distance = reduce(residual);
       if (distance > bestDistance) { bestDistance = distance; best = i; }
     }
-    if (best < 0) return { chosen, flatNormal: flatNormalOf(points, first, basis, reduce) };
+    if (best < 0) return { chosen, flatNormal: flatNormalOf(points, first, reduce) };
     const next = new Float64Array(D);
     for (let j = 0; j < D; j++) next[j] = points[best * D + j] - points[first * D + j];
     const norm = reduce(next);
@@ -148,7 +148,7 @@ function initialSimplex(points: Float64Array, count: number, tolerance: number):
 }
 
 /** A unit direction orthogonal to the affine hull's directions (the coordinate axis with the longest residual), signed so the points lie at or behind the origin along it. */
-function flatNormalOf(points: Float64Array, first: number, basis: Float64Array[], reduce: (v: Float64Array) => number): Float64Array {
+function flatNormalOf(points: Float64Array, first: number, reduce: (v: Float64Array) => number): Float64Array {
   let best = new Float64Array(D), bestNorm = 0;
   for (let axis = 0; axis < D; axis++) {
     const candidate = new Float64Array(D);

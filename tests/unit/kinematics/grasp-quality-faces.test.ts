@@ -15,7 +15,8 @@ describe('Q_Linf from the contacts\' face lattices', () => {
     expect(quality.maxQuality).not.toBeNull();
     const perContact = contactWrenches(input, quality.torqueLength);
     const facet = nearestSumFacet(input, perContact);
-    expect(facet.distance).toBe(quality.maxQuality);
+    // Three point contacts take the force-cone route; the face search reaches the same facet by another computation.
+    expect(facet.distance).toBeNear(quality.maxQuality!, { rel: 1e-12 });
     // Ferrari & Canny 1992 with the LP solved by yalps: ray length along the nearest facet's normal equals its distance.
     expect(rayDistance(perContact, facet.normal!, 'max')).toBeCloseTo(quality.maxQuality!, 7);
     for (const direction of directions(40, 777)) expect(rayDistance(perContact, direction, 'max')).toBeGreaterThanOrEqual(quality.maxQuality! - 1e-7);
