@@ -9,7 +9,7 @@ import { runCheckLogCommand } from '../../../src/cli/check-log';
 import { runComputeCommand } from '../../../src/cli/compute';
 import { uploads } from '../../../src/db/schema';
 import { runLogMapping } from '../../../src/lib/logs/generate';
-import { SAFETY_CAUTION } from '../../../src/lib/safety';
+import { SAFETY_CAUTION, SAFETY_CSV_COMMENT } from '../../../src/lib/safety';
 import { createApiToken } from '../../../src/lib/server/api-tokens';
 import { getDatabase } from '../../../src/lib/server/database';
 import { COMPARISON_CSV_COLUMNS } from '../../../src/lib/server/log-comparisons';
@@ -124,11 +124,13 @@ describe('check-log CLI through the API with a token', () => {
     ]);
     expect(remote.code).toBe(0);
     expect(local.code).toBe(0);
-    const lines = remote.stdout.trimEnd().split('\n');
+    // The server's file opens with the safety caution as a comment line (compute prints it on stderr), then the same table.
+    const [caution, ...lines] = remote.stdout.trimEnd().split('\n');
+    expect(caution).toBe(SAFETY_CSV_COMMENT);
     // One row per logged sample after the header, not the statistics table (COMPARISON_CSV_COLUMNS).
     expect(lines[0]).not.toBe(COMPARISON_CSV_COLUMNS.join(','));
     expect(lines.length).toBe(1 + run.record.tickCount);
-    expect(remote.stdout).toBe(local.stdout);
+    expect(`${lines.join('\n')}\n`).toBe(local.stdout);
   });
 
   it('exits 1 for a bad log with the server\'s error located by line and column, and for a missing file or a bad revision', async () => {
