@@ -104,7 +104,7 @@ describe('display units, warnings with their numbers, the safety label', () => {
     // Every Tab moves to the next field: no unit picker between them.
     await field(page, RADIUS).locator('input').focus();
     const stops: string[] = [];
-    for (let k = 0; k < 8; k++) {
+    for (let k = 0; k < 16; k++) {
       await page.keyboard.press('Tab');
       stops.push(await page.evaluate(() => {
         const active = document.activeElement as HTMLElement | null;
@@ -112,7 +112,7 @@ describe('display units, warnings with their numbers, the safety label', () => {
       }));
     }
     expect(stops.slice(0, 3)).toEqual(row);
-    // After the roller come the first joint's name, role and angle, then its axis: one stop per field.
+    // After the roller comes the first joint's row (name, role, axis, point, angle): one stop per field.
     expect(stops.filter((s) => s.startsWith('select:')).length).toBeLessThanOrEqual(1);
     expect(stops).toContain('hand.fingers[0].joints[0].angle');
     await page.locator('[data-display-unit="length"]').selectOption('m');

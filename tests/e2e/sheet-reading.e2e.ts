@@ -55,8 +55,12 @@ describe('reading a three-finger sheet', () => {
     const summary = page.locator('[data-results-summary]');
     expect(await summary.locator('[data-summary-finger]').count()).toBe(3);
     for (const [i, finger] of result.fingers.entries()) {
-      // Runs command steer-and-roll where the finger has it, the full solution otherwise (the run loop's rule).
-      const rates = finger.steer.available ? finger.steer.rates : finger.full.rates;
+      // The sheet commands steer-and-roll (its default) where the finger has it, the full solution otherwise; a steered
+      // pivot is commanded its change over one time step of the run (issue #13).
+      const roles = doc.hand.fingers[i]!.joints.map((joint) => joint.role);
+      const rates = finger.steer.available
+        ? Array.from(finger.steer.rates, (rate, k) => (roles[k] === 'pivot' ? finger.steer.pivotChange / doc.motion.run.dt : rate))
+        : Array.from(finger.full.rates);
       const block = summary.locator(`[data-summary-finger="${i}"]`);
       expect(await block.locator('h3').innerText()).toContain(finger.steer.available ? 'steer-and-roll' : 'full');
       for (let k = 0; k < finger.jointNames.length; k++) {
@@ -135,7 +139,7 @@ describe('reading a three-finger sheet', () => {
     const run = page.getByTestId('run-panel');
     await run.getByTestId('run-results').waitFor({ timeout: 60_000 });
     expect(await editor.innerText()).toBe(written);
-    expect(await run.getByRole('img', { name: /^Joint rates: .* over time \(s\)$/ }).count()).toBe(1);
+    expect(await run.getByRole('img', { name: /^Joint rates followed: .* over time \(s\)$/ }).count()).toBe(1);
 
     // Sweep with the focus on the page body.
     await page.locator('body').focus();
