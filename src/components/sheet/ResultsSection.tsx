@@ -107,29 +107,32 @@ function ResultsSection({ result, stale, units = DEFAULT_DISPLAY_UNITS }: { resu
                 </tbody>
               </table>
             </div>
-            <table className="mt-3 w-full text-sm">
-              <caption className="text-left text-[11px] uppercase tracking-wide text-graphite">joint rates, {units.angularSpeed}, and angles, {units.angle}: commanded ({commanded?.solution ?? 'not computed'}), then the full solution beside steer-and-roll; joint accelerations of the full solution beside steer-and-roll (pivot: its rate below)</caption>
-              <thead>
-                <tr className="border-b border-ink text-left text-xs text-graphite">
-                  <th className="py-1 font-normal">joint</th>
-                  {JOINT_COLUMNS.map((column) => (
-                    <th key={column.id} className="py-1 text-right font-normal">{column.tableLabel}</th>
-                  ))}
-                </tr>
-              </thead>
-              <tbody>
-                {f.jointNames.map((name, k) => (
-                  <tr key={name} className="border-b border-rule/60">
-                    <td className="py-0.5">{name}</td>
+            {/* Seven number columns in the pad's width: each keeps a gap to its neighbour and the table scrolls rather than run numbers together. */}
+            <div className="mt-3 overflow-x-auto">
+              <table className="w-full text-sm [&_td+td]:pl-3 [&_th+th]:pl-3">
+                <caption className="text-left text-[11px] uppercase tracking-wide text-graphite">joint rates, {units.angularSpeed}, and angles, {units.angle}: commanded ({commanded?.solution ?? 'not computed'}), then the full solution beside steer-and-roll; joint accelerations of the full solution beside steer-and-roll (pivot: its rate below)</caption>
+                <thead>
+                  <tr className="border-b border-ink text-left text-xs text-graphite">
+                    <th className="py-1 font-normal">joint</th>
                     {JOINT_COLUMNS.map((column) => (
-                      <td key={column.id} className="num text-right" data-result={column.id === 'full.rates' || column.id === 'commanded.rates' ? `${i}.${column.id}.${k}` : undefined}>
-                        {jointCell(column, result, i, k, units)}
-                      </td>
+                      <th key={column.id} className="py-1 text-right font-normal">{column.tableLabel}</th>
                     ))}
                   </tr>
-                ))}
-              </tbody>
-            </table>
+                </thead>
+                <tbody>
+                  {f.jointNames.map((name, k) => (
+                    <tr key={name} className="border-b border-rule/60">
+                      <td className="py-0.5">{name}</td>
+                      {JOINT_COLUMNS.map((column) => (
+                        <td key={column.id} className="num text-right" data-result={column.id === 'full.rates' || column.id === 'commanded.rates' ? `${i}.${column.id}.${k}` : undefined}>
+                          {jointCell(column, result, i, k, units)}
+                        </td>
+                      ))}
+                    </tr>
+                  ))}
+                </tbody>
+              </table>
+            </div>
             {f.acceleration && (
               <table className="mt-3 w-full text-sm" data-acceleration={i}>
                 <caption className="text-left text-[11px] uppercase tracking-wide text-graphite">

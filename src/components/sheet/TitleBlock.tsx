@@ -84,7 +84,7 @@ export default function TitleBlock(props: TitleBlockProps) {
         <Cell label="Origin" wide>
           {props.forkedFrom ? (
             <a className="underline decoration-rule hover:text-verdigris-deep" href={`/sheets/${props.forkedFrom.id}?revision=${props.forkedFrom.revision}`} data-forked-from>
-              Forked from {props.forkedFrom.title}, <span className="num">{revisionLabel(props.forkedFrom.revision)}</span>
+              Derived from {props.forkedFrom.title}, <span className="num">{revisionLabel(props.forkedFrom.revision)}</span>
             </a>
           ) : (
             <span className="font-normal text-graphite">original</span>

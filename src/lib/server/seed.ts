@@ -291,7 +291,7 @@ export async function seedDemoData(database: Database, sheetsFolder = DEMO_SHEET
         const origin = DEMO_FORKED_FILES[file];
         const source = origin ? stored.get(origin.from) : undefined;
         if (origin && source) {
-          revisions.unshift({ document: source.revisions[origin.revision - 1], message: `Forked from revision ${origin.revision}` });
+          revisions.unshift({ document: source.revisions[origin.revision - 1], message: `Derived from rev ${origin.revision}` });
           revisions[1].message = origin.message;
         }
         await insertSheet(file, document.title ?? file.replace(/\.json$/, ''), document.tags ?? [], revisions, source && origin ? { sheetId: source.sheetId, revision: origin.revision } : undefined);
@@ -301,7 +301,7 @@ export async function seedDemoData(database: Database, sheetsFolder = DEMO_SHEET
         const source = stored.get(fork.from);
         if (!source) continue;
         const copied = source.revisions[fork.revision - 1];
-        const revisions = [{ document: copied, message: `Forked from revision ${fork.revision}` }];
+        const revisions = [{ document: copied, message: `Derived from rev ${fork.revision}` }];
         for (const edit of fork.edits) revisions.push({ document: applyEdit(revisions[revisions.length - 1].document, edit.set), message: edit.message });
         const tags = (copied as DemoSheetFile).tags ?? [];
         await insertSheet(`${fork.from} fork`, fork.title, tags, revisions, { sheetId: source.sheetId, revision: fork.revision });

@@ -273,7 +273,7 @@ export async function forkSheet(
         checked: checked.value,
         naming: { title: input.title ?? `${source.title} (fork)`, tags: source.tags },
         authorId: actor.userId,
-        message: `Forked from revision ${input.revision}`,
+        message: `Derived from rev ${input.revision}`,
         forkedFrom: { sheetId: source.id, revision: input.revision },
       });
       await insertAudit(tx, [

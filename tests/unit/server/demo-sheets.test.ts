@@ -23,7 +23,7 @@ describe('demo sheets seeded into the run database', () => {
     const forks = await listForks(database, peg.id, [teamId]);
     expect(forks).toEqual([expect.objectContaining({ title: 'Peg: tilt with 16 mm rollers', forkedFromRevision: 3, latestRevision: 2 })]);
     const { items: fork } = await listRevisions(database, forks[0].id, { page: 1, pageSize: 50 });
-    expect(fork.at(-1)?.message).toBe('Forked from revision 3');
+    expect(fork.at(-1)?.message).toBe('Derived from rev 3');
 
     const retrofit = byTitle('Retrofit fingers: mounting review');
     expect(retrofit).toMatchObject({ forkedFromSheetId: byTitle('Bearing housing: index a quarter turn').id, forkedFromRevision: 1, latestRevision: 2 });
