@@ -106,4 +106,18 @@ describe('importing the hand from a URDF file', () => {
     await expect.poll(() => errors.innerText()).toMatch(/line 36, column 3 · robot\/joint "north-base"\/child: child link "north-proximl" is not a link of this robot/);
     await saveDialog('urdf-import-error');
   });
+
+  it('keeps Accept off while the preview lists what the sheet would refuse: a joint limit beyond the sheet\'s ±1000 rad', async () => {
+    const dialog = page.getByTestId('urdf-dialog');
+    const wide = readFileSync(URDF, 'utf8').replace('lower="-0.6109"', 'lower="-5000"');
+    await dialog.getByTestId('urdf-file').setInputFiles({ name: 'wide-limits.urdf', mimeType: 'application/xml', buffer: Buffer.from(wide) });
+    const preview = dialog.getByTestId('urdf-preview');
+    await expect.poll(() => preview.getAttribute('data-state'), { timeout: 20_000 }).toBe('refused');
+    expect(await preview.getByRole('alert').innerText()).toMatch(/limits\.min/);
+    expect(await dialog.getByTestId('urdf-accept').isDisabled()).toBe(true);
+
+    await dialog.getByTestId('urdf-file').setInputFiles(URDF);
+    await expect.poll(() => preview.getAttribute('data-state'), { timeout: 20_000 }).toBe('solved');
+    expect(await dialog.getByTestId('urdf-accept').isDisabled()).toBe(false);
+  });
 });

@@ -1,4 +1,4 @@
-import { useId, useMemo, useRef, useState } from 'react';
+import { useEffect, useId, useMemo, useRef, useState } from 'react';
 import { parseQuantity } from '../../lib/sheet/units';
 import type { JointRole } from '../../lib/sheet/types';
 import {
@@ -48,13 +48,16 @@ function IssueList({ issues, text }: { issues: UrdfIssue[]; text: string }) {
 const mm = (v: number) => (v * 1000).toFixed(2);
 
 /** The sheet with the imported hand, solved in its own worker against the sheet's object, drawn in the sheet's 3D view. */
-function Preview({ document }: { document: Record<string, unknown> }) {
+function Preview({ document, onRefused }: { document: Record<string, unknown>; onRefused: (refused: boolean) => void }) {
   const { reply, lastGood, pending } = useCompute(document);
   const current = reply?.ok ? lastGood : null;
+  const refused = !pending && reply !== null && !reply.ok;
+  useEffect(() => onRefused(refused), [refused, onRefused]);
   return (
     <div className="space-y-2" data-testid="urdf-preview" data-state={pending ? 'pending' : reply?.ok ? 'solved' : 'refused'}>
       {reply && !reply.ok && (
         <ul role="alert" className="border-l-4 border-sienna pl-3 text-sm text-sienna">
+          <li className="font-semibold">The sheet would refuse this hand; correct the file or the roles before accepting:</li>
           {reply.issues.slice(0, 8).map((issue) => (
             <li key={issue.path + issue.message}>
               <span className="num text-xs">{issue.path}</span>: {issue.message}
@@ -214,6 +217,7 @@ export default function UrdfImportDialog() {
   const [drafts, setDrafts] = useState<Record<string, ChainDraft>>({});
   // The preview's worker runs only while the dialog is open.
   const [open, setOpen] = useState(false);
+  const [previewRefused, setPreviewRefused] = useState(false);
 
   async function read(file: File) {
     const text = await file.text();
@@ -326,7 +330,7 @@ export default function UrdfImportDialog() {
                 {Object.keys(drafts).length === 0 && <li className="text-sm text-graphite">No joint hangs below {palm}; choose another palm link.</li>}
               </ul>
               {built && !built.ok && <IssueList issues={[built.issue]} text={loaded.text} />}
-              {open && candidate && <Preview document={candidate} />}
+              {open && candidate && <Preview document={candidate} onRefused={setPreviewRefused} />}
             </>
           )}
           <footer className="flex justify-end gap-3 border-t-2 border-ink pt-3">
@@ -336,7 +340,8 @@ export default function UrdfImportDialog() {
             <button
               type="button"
               className={primaryButton}
-              disabled={!built?.ok}
+              disabled={!built?.ok || previewRefused}
+              title={previewRefused ? 'The preview lists what the sheet would refuse in this hand' : undefined}
               data-testid="urdf-accept"
               onClick={() => {
                 if (!built?.ok) return;
