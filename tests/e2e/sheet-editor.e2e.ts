@@ -13,7 +13,6 @@ let browser: Browser;
 let context: BrowserContext;
 let page: Page;
 let sheetId = '';
-let forkId = '';
 
 const field = (p: Page, path: string) => p.locator(`[data-quantity="${path}"]`);
 const cell = (p: Page, key: string) => p.locator(`[data-result="${key}"]`).first();
@@ -230,7 +229,6 @@ describe('sheet editor', () => {
   it('forks, changes the fork and compares it with its origin', async () => {
     await page.getByRole('button', { name: 'Fork', exact: true }).click();
     await page.waitForURL((url) => url.pathname.startsWith('/sheets/') && !url.pathname.includes(sheetId));
-    forkId = new URL(page.url()).pathname.split('/')[2];
     await page.locator('[data-forked-from]').waitFor();
     await cell(page, '0.contact.gap').waitFor();
     const before = await cell(page, '0.contact.gap').innerText();
