@@ -125,6 +125,11 @@ describe('display units, warnings with their numbers, the safety label', () => {
     const caution = panel.locator('[data-testid="run-results"] [data-safety-caution]');
     await caution.waitFor({ timeout: 30_000 });
     await expect(caution.locator('[data-safety-label]').innerText()).resolves.toMatch(/^safety$/i);
+    // The charts follow the choice made above (rpm, m; angles left in degrees); uPlot draws axis labels on its canvas, so the figure names its y unit.
+    const chart = (title: string | RegExp) => panel.locator('[data-testid="line-chart"]').filter({ has: page.locator('figcaption', { hasText: title }) });
+    await expect(chart(/^Joint rates followed/).getAttribute('data-y-label')).resolves.toBe('rpm');
+    await expect(chart('Position error').getAttribute('data-y-label')).resolves.toBe('m');
+    await expect(chart('Joint angles').getAttribute('data-y-label')).resolves.toBe('deg');
     await panel.screenshot({ path: join(SCREENSHOT_DIR, 'display-units-run-safety.png') });
   });
 

@@ -2,8 +2,10 @@ import { useMemo, useRef } from 'react';
 import LineChart, { type LineSeries, type ShadedStretch } from '../charts/LineChart';
 import WarningStrip from '../charts/WarningStrip';
 import { primaryButton } from '../form-parts';
-import { formatShownNumber } from '../../lib/sheet/outputs';
+import type { DisplayUnits } from '../../lib/sheet/display-units';
+import { formatShownNumber, formatShownQuantity } from '../../lib/sheet/outputs';
 import type { SheetDocument } from '../../lib/sheet/types';
+import { shownColumn } from '../../lib/view/chart-data';
 import { SEVERITY_COLOURS } from '../../lib/view/palette';
 import { describeStopReason, severityRuns, type JointSeries, type RunSeries } from '../../lib/view/series';
 import JobProgress from './JobProgress';
@@ -12,40 +14,36 @@ import { RUN_JOBS, useWorkerJob } from './useWorkerJob';
 import { SHORTCUTS, withShortcut } from '../../lib/view/shortcuts';
 import { useShortcut } from './useShortcut';
 
-const DEGREES = 180 / Math.PI;
 const SEVERITY_NAMES = ['none', 'note', 'caution', 'singular'] as const;
 
-function scaled(values: Float64Array, factor: number): Float64Array {
-  return values.map((v) => v * factor);
+function jointLines(columns: JointSeries[], siUnit: string, units: DisplayUnits): LineSeries[] {
+  return columns.map((c) => ({ label: c.joint, values: shownColumn(c.values, siUnit, units).values }));
 }
 
-function jointLines(columns: JointSeries[], factor: number): LineSeries[] {
-  return columns.map((c) => ({ label: c.joint, values: factor === 1 ? c.values : scaled(c.values, factor) }));
-}
-
-/** Chart inputs of a finished run, built once per run. */
-function runCharts(series: RunSeries) {
+/** Chart inputs of a finished run in the sheet's display units, built once per run and choice. */
+function runCharts(series: RunSeries, units: DisplayUnits) {
   const shaded: ShadedStretch[] = severityRuns(series.worstSeverity).map((r) => ({
     start: r.start,
     end: r.end,
     colour: SEVERITY_COLOURS[SEVERITY_NAMES[r.level] as 'note'],
   }));
   const metric = (key: string) => series.orientationError.find((m) => m.key === key)!;
+  const angle = (key: string) => shownColumn(metric(key).values, metric(key).unit, units).values;
   return {
     shaded,
-    angles: jointLines(series.jointAngles, DEGREES),
-    rates: jointLines(series.jointRates, 1),
+    angles: jointLines(series.jointAngles, 'rad', units),
+    rates: jointLines(series.jointRates, 'rad/s', units),
     orientationAngles: [
-      { label: `${metric('phi6').name} Φ6`, values: scaled(metric('phi6').values, DEGREES) },
-      { label: `${metric('phi3').name} Φ3`, values: scaled(metric('phi3').values, DEGREES) },
+      { label: `${metric('phi6').name} Φ6`, values: angle('phi6') },
+      { label: `${metric('phi3').name} Φ3`, values: angle('phi3') },
     ],
     orientationRatios: ['phi2', 'phi4', 'phi5'].map((key, i) => ({ label: `${metric(key).name} Φ${[2, 4, 5][i]}`, values: metric(key).values })),
-    position: [{ label: 'Position error', values: scaled(series.positionError, 1000) }],
+    position: [{ label: 'Position error', values: shownColumn(series.positionError, 'm', units).values }],
   };
 }
 
-function RunResults({ series, stale }: { series: RunSeries; stale: boolean }) {
-  const charts = useMemo(() => runCharts(series), [series]);
+function RunResults({ series, stale, units }: { series: RunSeries; stale: boolean; units: DisplayUnits }) {
+  const charts = useMemo(() => runCharts(series, units), [series, units]);
   const common = { x: series.time, xLabel: 'time (s)', shaded: charts.shaded, syncKey: 'sheet-run' };
   return (
     <div className="space-y-4" data-testid="run-results">
@@ -64,18 +62,18 @@ function RunResults({ series, stale }: { series: RunSeries; stale: boolean }) {
       <WarningStrip count={series.tickCount} worst={series.worstSeverity} warnings={series.warnings} axisLabel="time steps" />
       <SafetyCaution />
       <div className="grid gap-4 @3xl:grid-cols-2">
-        <LineChart title="Joint angles" yLabel="deg" series={charts.angles} {...common} />
-        <LineChart title={`Joint rates followed: ${series.followed}`} yLabel="rad/s" series={charts.rates} {...common} />
-        <LineChart title="Orientation error (angles)" yLabel="deg" series={charts.orientationAngles} {...common} />
+        <LineChart title="Joint angles" yLabel={units.angle} series={charts.angles} {...common} />
+        <LineChart title={`Joint rates followed: ${series.followed}`} yLabel={units.angularSpeed} series={charts.rates} {...common} />
+        <LineChart title="Orientation error (angles)" yLabel={units.angle} series={charts.orientationAngles} {...common} />
         <LineChart title="Orientation error (dimensionless metrics)" yLabel="1" series={charts.orientationRatios} {...common} />
-        <LineChart title="Position error" yLabel="mm" series={charts.position} {...common} />
+        <LineChart title="Position error" yLabel={units.length} series={charts.position} {...common} />
       </div>
     </div>
   );
 }
 
 /** Runs the sheet's closed loop toward motion.target in a worker and plots what happened over time, step by step. */
-export default function RunPanel({ document }: { document: SheetDocument }) {
+export default function RunPanel({ document, units }: { document: SheetDocument; units: DisplayUnits }) {
   const { state, start, cancel } = useWorkerJob(RUN_JOBS);
   const ranWith = useRef<SheetDocument | null>(null);
   const run = document.motion.run;
@@ -95,7 +93,7 @@ export default function RunPanel({ document }: { document: SheetDocument }) {
           <p className="text-xs text-graphite">
             gain <span className="num">{run.gain} 1/s</span> · time step <span className="num">{run.dt * 1000} ms</span> · at most{' '}
             <span className="num">{run.maxTicks.toLocaleString('en')}</span> steps (<span className="num">{formatShownNumber(run.maxTicks * run.dt)} s</span>) · tolerances{' '}
-            <span className="num">{run.positionTolerance * 1000} mm</span>, <span className="num">{(run.angleTolerance * DEGREES).toPrecision(3)}°</span>
+            <span className="num">{formatShownQuantity(run.positionTolerance, 'm', units)}</span>, <span className="num">{formatShownQuantity(run.angleTolerance, 'rad', units, 3)}</span>
             {run.stopOnSingular && ' · stops on singular warnings'}
             {run.noise && ' · with sensor noise'}
           </p>
@@ -113,7 +111,7 @@ export default function RunPanel({ document }: { document: SheetDocument }) {
         </button>
       </div>
       <JobProgress state={state} unit="time steps" onCancel={cancel} />
-      {state.status === 'done' && <RunResults series={state.result} stale={ranWith.current !== document} />}
+      {state.status === 'done' && <RunResults series={state.result} stale={ranWith.current !== document} units={units} />}
     </section>
   );
 }

@@ -3,7 +3,7 @@ import type { WarningCode } from '../../lib/kinematics';
 import { formatWhen } from '../../lib/client/api';
 import type { SheetPageData } from '../../lib/contract';
 import { setAt, type DocumentPath } from '../../lib/sheet/document-path';
-import { displayUnitsOf } from '../../lib/sheet/display-units';
+import { displayUnitsOf, type DisplayUnits } from '../../lib/sheet/display-units';
 import { parseVariables } from '../../lib/sheet/units';
 import { describeWarning } from '../../lib/sheet/warning-notes';
 import DerivationSection from './DerivationSection';
@@ -29,15 +29,15 @@ const SweepPanel = lazy(() => import('./SweepPanel'));
 
 type Solved = NonNullable<ReturnType<typeof useCompute>['lastGood']>;
 
-/** The 3D view and the run and sweep panels, redrawn after the results table (they follow a deferred copy). */
-const SideViews = memo(function SideViews({ solved }: { solved: Solved | null }) {
+/** The 3D view and the run and sweep panels, redrawn after the results table (they follow a deferred copy); their charts show the sheet's display units. */
+const SideViews = memo(function SideViews({ solved, units }: { solved: Solved | null; units: DisplayUnits }) {
   if (!solved) return <div className="h-80 border-2 border-ink bg-paper-deep" />;
   return (
     <>
       <SceneView document={solved.document} result={solved.result} />
       <Suspense fallback={<p className="text-sm text-graphite">Loading runs and sweeps…</p>}>
-        <RunPanel document={solved.document} />
-        <SweepPanel document={solved.document} />
+        <RunPanel document={solved.document} units={units} />
+        <SweepPanel document={solved.document} units={units} />
       </Suspense>
     </>
   );
@@ -265,7 +265,7 @@ function Editor({ data }: { data: SheetPageData }) {
             <div className="sticky top-0 z-20 bg-paper pt-2">
               <ResultsSummary result={result} document={lastGood?.document ?? null} stale={pending || (reply !== null && !reply.ok)} />
             </div>
-            <SideViews solved={deferred} />
+            <SideViews solved={deferred} units={units} />
           </aside>
         </div>
       </div>

@@ -2,7 +2,9 @@ import { useMemo, useRef, useState } from 'react';
 import LineChart, { type LineSeries, type ShadedStretch } from '../charts/LineChart';
 import WarningStrip from '../charts/WarningStrip';
 import { inputClass, labelClass, primaryButton } from '../form-parts';
+import type { DisplayUnits } from '../../lib/sheet/display-units';
 import type { SheetDocument } from '../../lib/sheet/types';
+import { shownColumn } from '../../lib/view/chart-data';
 import { SEVERITY_COLOURS } from '../../lib/view/palette';
 import { severityRuns, type SweepSeries } from '../../lib/view/series';
 import { DEFAULT_SWEEP_STEPS, sweepInputs, sweepSettingsFrom, type DisplayUnit, type SweepInput } from '../../lib/view/sweep-inputs';
@@ -18,27 +20,28 @@ const MAX_STEPS = 1000;
 /** A value for an input box: enough digits to round-trip what a person would type. */
 const shown = (value: number) => String(Number(value.toPrecision(6)));
 
-function sweepCharts(series: SweepSeries, unit: DisplayUnit) {
+/** Chart inputs of a finished sweep: x in the swept input's unit, the outputs in the sheet's display units. */
+function sweepCharts(series: SweepSeries, unit: DisplayUnit, units: DisplayUnits) {
   const x = series.values.map((v) => v * unit.factor);
   const shaded: ShadedStretch[] = severityRuns(series.worstSeverity).map((r) => ({
     start: r.start,
     end: r.end,
     colour: SEVERITY_COLOURS[SEVERITY_NAMES[r.level] as 'note'],
   }));
-  const perFinger = (pick: (f: SweepSeries['fingers'][number]) => Float64Array, factor = 1): LineSeries[] =>
-    series.fingers.map((f) => ({ label: f.finger, values: factor === 1 ? pick(f) : pick(f).map((v) => v * factor) }));
+  const perFinger = (pick: (f: SweepSeries['fingers'][number]) => Float64Array, siUnit = '1'): LineSeries[] =>
+    series.fingers.map((f) => ({ label: f.finger, values: shownColumn(pick(f), siUnit, units).values }));
   return {
     x,
     shaded,
-    rates: series.fingers.flatMap((f) => f.rates.map((r) => ({ label: r.joint, values: r.values }))),
+    rates: series.fingers.flatMap((f) => f.rates.map((r) => ({ label: r.joint, values: shownColumn(r.values, 'rad/s', units).values }))),
     condition: perFinger((f) => f.conditionNumber),
-    residual: perFinger((f) => f.residual, 1000),
-    gap: perFinger((f) => f.gap, 1000),
+    residual: perFinger((f) => f.residual, 'm/s'),
+    gap: perFinger((f) => f.gap, 'm'),
   };
 }
 
-function SweepResults({ series, input }: { series: SweepSeries; input: SweepInput }) {
-  const charts = useMemo(() => sweepCharts(series, input.unit), [series, input.unit]);
+function SweepResults({ series, input, units }: { series: SweepSeries; input: SweepInput; units: DisplayUnits }) {
+  const charts = useMemo(() => sweepCharts(series, input.unit, units), [series, input.unit, units]);
   const xLabel = `${input.label} (${input.unit.symbol})`;
   const common = { x: charts.x, xLabel, shaded: charts.shaded, syncKey: 'sheet-sweep' };
   return (
@@ -51,17 +54,17 @@ function SweepResults({ series, input }: { series: SweepSeries; input: SweepInpu
       <WarningStrip count={series.values.length} worst={series.worstSeverity} warnings={series.warnings} axisLabel="the swept values" />
       <SafetyCaution />
       <div className="grid gap-4 @3xl:grid-cols-2">
-        <LineChart title={`Commanded joint rates: ${series.followed}`} yLabel="rad/s" series={charts.rates} {...common} />
+        <LineChart title={`Commanded joint rates: ${series.followed}`} yLabel={units.angularSpeed} series={charts.rates} {...common} />
         <LineChart title="Condition number of the contact Jacobian" yLabel="σmax/σmin" logY series={charts.condition} {...common} />
-        <LineChart title="Residual slip speed" yLabel="mm/s" series={charts.residual} {...common} />
-        <LineChart title="Contact gap" yLabel="mm" series={charts.gap} {...common} />
+        <LineChart title="Residual slip speed" yLabel={`${units.length}/s`} series={charts.residual} {...common} />
+        <LineChart title="Contact gap" yLabel={units.length} series={charts.gap} {...common} />
       </div>
     </div>
   );
 }
 
 /** Sweeps one numeric input of the sheet over a range in a worker and plots the outputs over it. */
-export default function SweepPanel({ document }: { document: SheetDocument }) {
+export default function SweepPanel({ document, units }: { document: SheetDocument; units: DisplayUnits }) {
   const inputs = useMemo(() => sweepInputs(document), [document]);
   const [path, setPath] = useState(() => inputs[0]?.path ?? '');
   const input = inputs.find((i) => i.path === path) ?? inputs[0]!;
@@ -142,7 +145,7 @@ export default function SweepPanel({ document }: { document: SheetDocument }) {
         </p>
       )}
       <JobProgress state={state} unit="values" onCancel={cancel} />
-      {state.status === 'done' && sweptInput && <SweepResults series={state.result} input={sweptInput} />}
+      {state.status === 'done' && sweptInput && <SweepResults series={state.result} input={sweptInput} units={units} />}
     </section>
   );
 }

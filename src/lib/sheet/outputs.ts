@@ -395,11 +395,17 @@ export function findOutput(id: string): OutputDefinition {
   return found;
 }
 
-/** A number as the editor shows it: significant digits, "—" for NaN, ∞ symbols, and no negative zero. */
+/**
+ * A number as the editor shows it: significant digits, "—" for NaN, ∞ symbols, and no negative zero.
+ * Magnitudes from 1e6 up or below 1e-4 read in exponent form (-8.226e6, 1.432e-6), so a narrow column never fills with digits.
+ */
 export function formatShownNumber(x: number, digits = 4): string {
   if (Number.isNaN(x)) return '—';
   if (!Number.isFinite(x)) return x > 0 ? '∞' : '−∞';
+  // Judged after rounding, so 999999.7 (shown as 1e6) takes the same form as 1e6 itself.
   const rounded = Number(x.toPrecision(digits));
+  const magnitude = Math.abs(rounded);
+  if (magnitude >= 1e6 || (magnitude > 0 && magnitude < 1e-4)) return rounded.toExponential(digits - 1).replace(/\.?0+e/, 'e').replace('e+', 'e');
   return String(Object.is(rounded, -0) ? 0 : rounded);
 }
 

@@ -1,4 +1,18 @@
 /** Preparing columns for uPlot, which reads null as a gap but cannot place NaN, infinities or, on a log axis, values <= 0. */
+import { shownUnit, type DisplayUnits } from '../sheet/display-units';
+import { unitFactor } from '../sheet/units';
+
+/**
+ * An SI column in the unit the sheet's display choice shows it in, with that unit for the axis
+ * label; the same column when the unit stays. Only charts read it: the series and exports stay SI.
+ */
+export function shownColumn(values: Float64Array, siUnit: string, units: DisplayUnits): { values: Float64Array; unit: string } {
+  const unit = shownUnit(siUnit, units);
+  if (unit === siUnit) return { values, unit };
+  // The units a sheet shows are proportional to SI, so one factor (a mathjs conversion) serves the whole column.
+  const factor = unitFactor(siUnit, unit);
+  return { values: values.map((v) => v * factor), unit };
+}
 
 /** The column as uPlot can draw it: unchanged when every value is plottable, else a copy with null in the gaps. */
 export function plottable(values: ArrayLike<number>, logScale = false): ArrayLike<number> | (number | null)[] {

@@ -1,11 +1,12 @@
 import { readFileSync } from 'node:fs';
 import { createElement } from 'react';
 import { renderToStaticMarkup } from 'react-dom/server';
+import { format as referenceFormat } from 'mathjs';
 import { describe, expect, it } from 'vitest';
 import ResultsSection from '../../../src/components/sheet/ResultsSection';
 import { compareOutputs } from '../../../src/lib/server/compare';
 import { evaluateSheet } from '../../../src/lib/sheet/evaluate';
-import { displayValue, findOutput, listOutputs, OUTPUTS } from '../../../src/lib/sheet/outputs';
+import { displayValue, findOutput, formatShownNumber, listOutputs, OUTPUTS } from '../../../src/lib/sheet/outputs';
 import { FINGER_COLUMNS, fingerRows, rateColumns, resultsCsv } from '../../../src/lib/sheet/results-csv';
 
 const evaluated = evaluateSheet(JSON.parse(readFileSync(new URL('../../../content/sheets/line4-bearing-housing-quarter-turn.json', import.meta.url), 'utf8')));
@@ -29,9 +30,26 @@ describe('the output catalogue', () => {
   it('converts to display units: m to mm, rad to degrees, unitless as they are', () => {
     expect(displayValue(findOutput('contact.gap'), 0.0012346)).toBe('1.235');
     expect(displayValue(findOutput('steer.pivotAngle'), Math.PI / 2)).toBe('90');
-    expect(displayValue(findOutput('contact.normal'), [0, -0.00001, 1])).toBe('(0, -0.00001, 1)');
+    expect(displayValue(findOutput('contact.normal'), [0, -0.00001, 1])).toBe('(0, -1e-5, 1)');
     expect(displayValue(findOutput('contact.state'), 'touching')).toBe('touching');
     expect(displayValue(findOutput('full.rates'), [Number.NaN, Infinity, -Infinity])).toBe('(—, ∞, −∞)');
+  });
+});
+
+describe('formatShownNumber', () => {
+  it('writes exponent form from 1e6 up and below 1e-4, plain digits between, with the significant digits asked for', () => {
+    expect(formatShownNumber(-8226000)).toBe('-8.226e6');
+    expect(formatShownNumber(0.000001432)).toBe('1.432e-6');
+    expect(formatShownNumber(123456)).toBe('123500');
+    expect(formatShownNumber(0.0001)).toBe('0.0001');
+    expect(formatShownNumber(-0)).toBe('0');
+    // Reference: mathjs format with the same bounds (auto notation: exponential when the exponent is below lowerExp or from upperExp up),
+    // written without the exponent's plus sign.
+    for (const x of [-8226000, 0.000001432, 999999.7, 1e6, 2.5e21, -3e-7, 0.000099999, 0.00015, 99999.97, -12345.6, 1.23456, 0]) {
+      for (const digits of [3, 4, 6]) {
+        expect(formatShownNumber(x, digits), `${x} to ${digits} digits`).toBe(referenceFormat(x, { precision: digits, lowerExp: -4, upperExp: 6 }).replace('e+', 'e'));
+      }
+    }
   });
 });
 

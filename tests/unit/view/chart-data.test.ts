@@ -1,5 +1,36 @@
+import { unit as referenceUnit } from 'mathjs';
 import { describe, expect, it } from 'vitest';
-import { formatTick, indexRangesToX, plottable, seriesStyle } from '../../../src/lib/view/chart-data';
+import { DEFAULT_DISPLAY_UNITS, type DisplayUnits } from '../../../src/lib/sheet/display-units';
+import { formatTick, indexRangesToX, plottable, seriesStyle, shownColumn } from '../../../src/lib/view/chart-data';
+
+describe('shownColumn', () => {
+  const SI: DisplayUnits = { length: 'm', angle: 'rad', angularSpeed: 'rad/s' };
+  const OTHERS: DisplayUnits = { length: 'm', angle: 'rad', angularSpeed: 'rpm' };
+  const column = new Float64Array([0.0125, -0.5, 0, 3]);
+
+  it('converts lengths, speeds and angles as the mathjs package converts them, and names the unit for the axis', () => {
+    // Reference: a separate, default mathjs instance, value by value.
+    for (const [siUnit, unit] of [['m', 'mm'], ['m/s', 'mm/s'], ['rad', 'deg']] as const) {
+      const shown = shownColumn(column, siUnit, DEFAULT_DISPLAY_UNITS);
+      expect(shown.unit).toBe(unit);
+      expect(Array.from(shown.values)).toBeNear(Array.from(column, (v) => referenceUnit(v, siUnit).toNumber(unit)), { rel: 1e-14 });
+    }
+  });
+
+  it('converts joint rates to rpm: one revolution (2π rad) per minute (ISO 80000-3)', () => {
+    const shown = shownColumn(new Float64Array([2 * Math.PI, -Math.PI, 0]), 'rad/s', OTHERS);
+    expect(shown.unit).toBe('rpm');
+    expect(Array.from(shown.values)).toBeNear([60, -30, 0], { rel: 1e-14 });
+  });
+
+  it('hands back the same column, not a copy, when the unit stays, and the SI input untouched when it does not', () => {
+    expect(shownColumn(column, 'm', SI)).toEqual({ values: column, unit: 'm' });
+    expect(shownColumn(column, 'm', SI).values).toBe(column);
+    expect(shownColumn(column, '1', DEFAULT_DISPLAY_UNITS).values).toBe(column);
+    shownColumn(column, 'm', DEFAULT_DISPLAY_UNITS);
+    expect(Array.from(column)).toEqual([0.0125, -0.5, 0, 3]);
+  });
+});
 
 describe('plottable', () => {
   it('passes a clean column through untouched', () => {
