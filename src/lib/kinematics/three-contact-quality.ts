@@ -8,7 +8,7 @@
  * velocity of the point rho_i under the twist (u_f, u_t): so a contact's support is its 3-D force
  * set's support at y_i, and the nine numbers of y_a, y_b, y_c obey the three rigid-body conditions
  * (rho_a - rho_b) . (y_a - y_b) = 0 (and b, c; c, a). A facet normal u is a direction at which
- * the faces each contact offers add up to a facet (Ziegler, "Lectures on Polytopes", 1995, sec.
+ * the faces each contact offers add up to a facet (G. M. Ziegler, 1995, Graduate Texts in Mathematics 152, sec.
  * 7.1: the normal fan of a Minkowski sum is the common refinement of the summands' fans), so it
  * is a positive combination of rays of the contacts' 3-D fans that meets the conditions: a
  * positive dependency among the rays' images q under the conditions (a 3- or 2-vector each), found by signs of

@@ -3,20 +3,9 @@
  * and the threshold it crossed, both in the sheet's display units. The editor's margin notes, the
  * report and the comparison all read it; a leaf module the browser may import.
  */
-import { WARNING_CATALOGUE, type WarningCode, type WarningSeverity } from '../kinematics';
+import { WARNING_CATALOGUE, type SheetWarning, type WarningCode, type WarningSeverity } from '../kinematics';
 import { DEFAULT_DISPLAY_UNITS, type DisplayUnits } from './display-units';
 import { formatShownQuantity } from './outputs';
-
-/** What a note needs of a raised warning: finger and joint are indices into the hand. */
-export interface RaisedWarning {
-  code: WarningCode;
-  severity: WarningSeverity;
-  finger: number | undefined;
-  joint: number | undefined;
-  message: string;
-  value: number;
-  threshold: number;
-}
 
 /** The names a note puts in place of indices. */
 export interface NamedFinger {
@@ -45,7 +34,7 @@ export interface WarningNote {
 }
 
 /** A raised warning with its finger and joint named and its numbers in the display units. */
-export function describeWarning(warning: RaisedWarning, fingers: readonly NamedFinger[], units: DisplayUnits = DEFAULT_DISPLAY_UNITS): WarningNote {
+export function describeWarning(warning: SheetWarning, fingers: readonly NamedFinger[], units: DisplayUnits = DEFAULT_DISPLAY_UNITS): WarningNote {
   const info = WARNING_CATALOGUE[warning.code];
   const owner = warning.finger === undefined ? undefined : fingers[warning.finger];
   const finger = warning.finger === undefined ? null : (owner?.name ?? `finger ${warning.finger + 1}`);

@@ -28,7 +28,7 @@ function reach(contact: ContactFaces, u: readonly number[]): number {
 
 describe('forEachFaceNormal', () => {
   // A parallelepiped is the Minkowski sum of three segments (a zonotope); its facets are spanned by two of
-  // the segments, so their normals are the unit cross products of each pair (Ziegler, "Lectures on Polytopes",
+  // the segments, so their normals are the unit cross products of each pair (G. M. Ziegler, Graduate Texts in Mathematics 152,
   // 1995, sec. 7.3 on zonotopes), and a sum's support is the sum of its summands' supports (common practice).
   const ends = [[0.02, 0, 0.001], [0.004, 0.03, -0.002], [-0.003, 0.005, 0.025]];
   const contacts = ends.map(segment);
