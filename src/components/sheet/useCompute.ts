@@ -21,6 +21,8 @@ export function useCompute(document: unknown) {
     created.onmessage = (event: MessageEvent<ComputeReply>) => {
       const message = event.data;
       if (message.type !== 'computed' || message.id !== latest.current) return;
+      // The worker's own time for this recompute, for the page benchmark (performance timeline, no UI).
+      performance.mark('slipless:worker-compute', { detail: message.elapsedMs });
       setReply(message);
       if (message.ok) setLastGood(message);
       setPending(false);
