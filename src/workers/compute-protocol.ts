@@ -14,6 +14,8 @@ export interface ComputeRequest {
   /** Increases with every request; replies carry it so that the page keeps only the newest. */
   id: number;
   document: unknown;
+  /** Whether to derive the outputs step by step (the page asks only once the derivation is on screen); true when absent. */
+  derive?: boolean;
 }
 
 export type ComputeReply =
@@ -23,7 +25,8 @@ export type ComputeReply =
       ok: true;
       document: SheetDocument;
       result: PlainSheetResult;
-      derivation: DerivationEntry[];
+      /** Absent when the request did not ask for it. */
+      derivation?: DerivationEntry[];
       elapsedMs: number;
     }
   | { type: 'computed'; id: number; ok: false; issues: SheetIssue[]; elapsedMs: number }
@@ -31,14 +34,19 @@ export type ComputeReply =
 
 function isComputeRequest(message: unknown): message is ComputeRequest {
   if (message === null || typeof message !== 'object') return false;
-  const { type, id } = message as Record<string, unknown>;
-  return type === 'compute' && typeof id === 'number' && Number.isInteger(id);
+  const { type, id, derive } = message as Record<string, unknown>;
+  return type === 'compute' && typeof id === 'number' && Number.isInteger(id) && (derive === undefined || typeof derive === 'boolean');
 }
 
-/** Answers one message: reads, solves and derives the sheet, or reports where it is wrong. */
+/** Answers one message: reads, solves and (unless asked not to) derives the sheet, or reports where it is wrong. */
 export function computeSheet(message: unknown, now: () => number = () => performance.now()): ComputeReply {
   if (!isComputeRequest(message)) return { type: 'refused', message: 'expected {type: "compute", id: integer, document}' };
   const started = now();
+  if (message.derive === false) {
+    const plain = evaluateSheet(message.document);
+    if (!plain.ok) return { type: 'computed', id: message.id, ok: false, issues: plain.error.issues, elapsedMs: now() - started };
+    return { type: 'computed', id: message.id, ok: true, document: plain.value.doc, result: plain.value.result, elapsedMs: now() - started };
+  }
   const evaluated = evaluateSheet(message.document, { derive: true });
   if (!evaluated.ok) return { type: 'computed', id: message.id, ok: false, issues: evaluated.error.issues, elapsedMs: now() - started };
   const { doc, result, derivation } = evaluated.value;

@@ -163,7 +163,7 @@ try {
         // A body still streaming when the context closes is not needed: it was fetched after network idle.
         done: response
           .body()
-          .then((body) => ({ at: performance.now(), raw: body.length, gz: gzipSync(body, { level: 6 }).length }))
+          .then((body) => ({ at: performance.now(), raw: body.length, gz: gzipSync(new Uint8Array(body), { level: 6 }).length }))
           .catch(() => ({ at: Number.POSITIVE_INFINITY, raw: 0, gz: 0 })),
       });
     });

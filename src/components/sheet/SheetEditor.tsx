@@ -6,13 +6,11 @@ import { setAt, type DocumentPath } from '../../lib/sheet/document-path';
 import { displayUnitsOf, type DisplayUnits } from '../../lib/sheet/display-units';
 import { parseVariables } from '../../lib/sheet/units';
 import { describeWarning } from '../../lib/sheet/warning-notes';
-import DerivationSection from './DerivationSection';
 import DisplayUnitsFields from './DisplayUnitsFields';
 import { SheetEditingContext, type MarginWarning, type SheetEditing } from './editor-context';
 import { TextField } from './fields';
 import HandSection from './HandSection';
 import MotionSection from './MotionSection';
-import NotesSection from './NotesSection';
 import ObjectSection from './ObjectSection';
 import PadSection from './PadSection';
 import QueryRoot from '../QueryRoot';
@@ -22,9 +20,13 @@ import SavePanel from './SavePanel';
 import SceneView from './SceneView';
 import TitleBlock from './TitleBlock';
 import { useCompute } from './useCompute';
-import VariablesEditor from './VariablesEditor';
+import WhenSeen from './WhenSeen';
 
 const RunPanel = lazy(() => import('./RunPanel'));
+// KaTeX (derivation, notes), CodeMirror (variables) and Markdown (notes) load when their section nears the screen.
+const DerivationSection = lazy(() => import('./DerivationSection'));
+const NotesSection = lazy(() => import('./NotesSection'));
+const VariablesEditor = lazy(() => import('./VariablesEditor'));
 const SweepPanel = lazy(() => import('./SweepPanel'));
 
 type Solved = NonNullable<ReturnType<typeof useCompute>['lastGood']>;
@@ -115,7 +117,10 @@ function Editor({ data }: { data: SheetPageData }) {
     setDocument((current) => setAt(current, path, value));
   }, []);
 
-  const { reply, lastGood, pending } = useCompute(document);
+  // The worker derives step by step only once the derivation section has been on screen.
+  const [deriving, setDeriving] = useState(false);
+  const startDeriving = useCallback(() => setDeriving(true), []);
+  const { reply, lastGood, pending } = useCompute(document, deriving);
   const deferred = useDeferredValue(lastGood);
   useEffect(() => {
     if (!reply || performance.getEntriesByName('slipless:edit', 'mark').length === 0) return;
@@ -198,12 +203,15 @@ function Editor({ data }: { data: SheetPageData }) {
               <MotionSection />
             </PadSection>
             <PadSection id="variables" number={4} title="Variables">
-              <VariablesEditor
-                text={variablesText}
-                reading={variables}
-                readOnly={readOnly}
-                onChange={(text) => update(['variables'], text === '' ? undefined : text)}
-              />
+              {/* Also loaded once the first results show, so the editor is ready by the time anyone scrolls to it. */}
+              <WhenSeen early={lastGood !== null} fallback={<pre className="min-h-[7rem] border border-rule p-2 font-mono text-sm whitespace-pre-wrap">{variablesText}</pre>}>
+                <VariablesEditor
+                  text={variablesText}
+                  reading={variables}
+                  readOnly={readOnly}
+                  onChange={(text) => update(['variables'], text === '' ? undefined : text)}
+                />
+              </WhenSeen>
               <p className="mt-1 text-xs text-graphite">
                 One <code className="font-mono">name = value</code> per line, e.g. <code className="font-mono">rollerRadius = 14 mm</code>; any field may use the
                 names: <code className="font-mono">rollerRadius + 2 mm</code>.
@@ -230,10 +238,18 @@ function Editor({ data }: { data: SheetPageData }) {
               )}
             </PadSection>
             <PadSection id="derivation" number={6} title="Derivation">
-              {deferred ? <DerivationSection entries={deferred.derivation} fingerNames={fingerNames} units={units} /> : <p className="text-sm text-graphite">Waiting for results.</p>}
+              <WhenSeen onShow={startDeriving} fallback={<p className="text-sm text-graphite">Waiting for results.</p>}>
+                {deferred?.derivation ? (
+                  <DerivationSection entries={deferred.derivation} fingerNames={fingerNames} units={units} />
+                ) : (
+                  <p className="text-sm text-graphite">Waiting for results.</p>
+                )}
+              </WhenSeen>
             </PadSection>
             <PadSection id="notes" number={7} title="Notes">
-              <NotesSection />
+              <WhenSeen fallback={<p className="text-sm text-graphite">Loading the notes…</p>}>
+                <NotesSection />
+              </WhenSeen>
             </PadSection>
             {!readOnly && (
               <div className="sticky bottom-0 z-10 -mx-5 border-t-2 border-ink bg-paper px-5 py-3">

@@ -1,25 +1,35 @@
 import { useEffect, useRef, useState } from 'react';
 import type { ComputeReply, ComputeRequest } from '../../workers/compute-protocol';
 
-export const COMPUTE_DEBOUNCE_MS = 150;
-
 type Computed = Extract<ComputeReply, { type: 'computed' }>;
 
 /**
- * Recomputes the sheet in a Web Worker a short while after the last change; only the reply to
- * the newest request is kept, so a slow solve never overwrites a newer one.
+ * Recomputes the sheet in a Web Worker on every change, without a debounce: a request goes out at
+ * once when the worker is idle; while it is busy only the newest document waits (older ones are
+ * dropped), so fast typing never queues up solves. Only the reply to the newest request is kept.
+ * `derive` asks for the step-by-step derivation too (the page asks once it is on screen).
  */
-export function useCompute(document: unknown) {
+export function useCompute(document: unknown, derive = true) {
   const worker = useRef<Worker | null>(null);
   const latest = useRef(0);
+  const busy = useRef(false);
+  const waiting = useRef<ComputeRequest | null>(null);
   const [reply, setReply] = useState<Computed | null>(null);
   const [lastGood, setLastGood] = useState<Extract<Computed, { ok: true }> | null>(null);
   const [pending, setPending] = useState(true);
 
   useEffect(() => {
     const created = new Worker(new URL('../../workers/compute.worker.ts', import.meta.url), { type: 'module' });
+    busy.current = false;
     created.onmessage = (event: MessageEvent<ComputeReply>) => {
       const message = event.data;
+      busy.current = false;
+      const next = waiting.current;
+      if (next) {
+        waiting.current = null;
+        busy.current = true;
+        created.postMessage(next);
+      }
       if (message.type !== 'computed' || message.id !== latest.current) return;
       // The worker's own time for this recompute, for the page benchmark (performance timeline, no UI).
       performance.mark('slipless:worker-compute', { detail: message.elapsedMs });
@@ -28,18 +38,23 @@ export function useCompute(document: unknown) {
       setPending(false);
     };
     worker.current = created;
+    if (waiting.current) {
+      busy.current = true;
+      created.postMessage(waiting.current);
+      waiting.current = null;
+    }
     return () => created.terminate();
   }, []);
 
   useEffect(() => {
     setPending(true);
-    const id = ++latest.current;
-    const timer = window.setTimeout(() => {
-      const request: ComputeRequest = { type: 'compute', id, document };
-      worker.current?.postMessage(request);
-    }, COMPUTE_DEBOUNCE_MS);
-    return () => window.clearTimeout(timer);
-  }, [document]);
+    const request: ComputeRequest = { type: 'compute', id: ++latest.current, document, derive };
+    if (busy.current || !worker.current) waiting.current = request;
+    else {
+      busy.current = true;
+      worker.current.postMessage(request);
+    }
+  }, [document, derive]);
 
   return { reply, lastGood, pending };
 }

@@ -12,10 +12,20 @@ describe('computeSheet (the compute worker protocol)', () => {
     expect(reply.result.fingers).toHaveLength(3);
     expect(Array.isArray(reply.result.fingers[0].full.rates)).toBe(true);
     expect(reply.document.hand.fingers[0].roller.radius).toBeCloseTo(0.012, 15);
-    expect(reply.derivation.some((e) => e.id === 'finger.0.contact.gap')).toBe(true);
+    expect(reply.derivation?.some((e) => e.id === 'finger.0.contact.gap')).toBe(true);
     expect(reply.elapsedMs).toBeGreaterThanOrEqual(0);
     // Everything must survive structured cloning into the page.
     expect(structuredClone(reply)).toEqual(reply);
+  });
+
+  it('leaves the derivation out when the page does not ask for it, with the same results', () => {
+    const derived = computeSheet({ type: 'compute', id: 4, document: sheet() });
+    const plain = computeSheet({ type: 'compute', id: 5, document: sheet(), derive: false });
+    if (derived.type !== 'computed' || !derived.ok || plain.type !== 'computed' || !plain.ok) throw new Error('expected results');
+    expect(plain.derivation).toBeUndefined();
+    expect(derived.derivation?.length).toBeGreaterThan(0);
+    expect(plain.result).toEqual(derived.result);
+    expect(computeSheet({ type: 'compute', id: 6, document: sheet(), derive: 'yes' })).toMatchObject({ type: 'refused' });
   });
 
   it('recomputes with variables: a larger roller radius closes the gap by the difference', () => {
