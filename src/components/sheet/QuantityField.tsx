@@ -1,4 +1,4 @@
-import { useEffect, useId, useMemo, useState } from 'react';
+import { memo, useCallback, useEffect, useId, useLayoutEffect, useMemo, useRef, useState } from 'react';
 import { DEFAULT_DISPLAY_UNITS, shownUnit, toShown, type DisplayUnits } from '../../lib/sheet/display-units';
 import { lengthNote, type PlausibleLengthKind } from '../../lib/sheet/plausibility';
 import { parseQuantity, QUANTITY_KINDS, type QuantityKind, type VariableScope } from '../../lib/sheet/units';
@@ -44,7 +44,7 @@ export interface QuantityFieldProps {
  * sheet's display unit, notes an implausible length, and flags a wrong dimension as it is typed.
  * No picker of its own: the sheet's one display-unit choice keeps a hand's tab stops to its fields.
  */
-export default function QuantityField({ label, value, kind, onChange, variables, issue, disabled, path, optional, units = DEFAULT_DISPLAY_UNITS, plausible = 'hand' }: QuantityFieldProps) {
+function QuantityFieldView({ label, value, kind, onChange, variables, issue, disabled, path, optional, units = DEFAULT_DISPLAY_UNITS, plausible = 'hand' }: QuantityFieldProps) {
   const id = useId();
   const written = value === undefined || value === null ? '' : String(value);
   const [text, setText] = useState(written);
@@ -106,4 +106,28 @@ export default function QuantityField({ label, value, kind, onChange, variables,
       )}
     </div>
   );
+}
+
+/** Same field, same look: every prop but onChange (a fresh closure on each render of the caller), the optional placeholder by value. */
+function sameField(a: QuantityFieldProps, b: QuantityFieldProps): boolean {
+  return (
+    a.label === b.label && a.value === b.value && a.kind === b.kind && a.variables === b.variables && a.issue === b.issue && a.disabled === b.disabled &&
+    a.path === b.path && a.units === b.units && a.plausible === b.plausible && a.optional?.placeholder === b.optional?.placeholder
+  );
+}
+
+const MemoField = memo(QuantityFieldView, sameField);
+
+/**
+ * The field re-renders only when what it shows changes, so a keystroke in one field leaves the
+ * sheet's other fields alone; a change still goes through the caller's newest onChange (which may
+ * close over the other components of a vector).
+ */
+export default function QuantityField(props: QuantityFieldProps) {
+  const latest = useRef(props.onChange);
+  useLayoutEffect(() => {
+    latest.current = props.onChange;
+  });
+  const onChange = useCallback((value: number | string | undefined) => latest.current(value), []);
+  return <MemoField {...props} onChange={onChange} />;
 }

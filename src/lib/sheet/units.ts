@@ -240,7 +240,15 @@ function bracketDepth(text: string): number {
   return deepest;
 }
 
-type Compiled = { code: Evaluate; symbols: readonly string[]; nodes: number } | { error: string; column?: number };
+type Compiled =
+  | {
+      code: Evaluate;
+      symbols: readonly string[];
+      nodes: number;
+      /** The value when no symbol is a variable: it then depends on the text alone, and an edit elsewhere in the sheet reads it again unchanged. */
+      constant?: Evaluated;
+    }
+  | { error: string; column?: number };
 
 const compiled = new Map<string, Compiled>();
 const COMPILED_CACHE_SIZE = 4000;
@@ -301,6 +309,13 @@ function evaluateExpression(text: string, scope: VariableScope | undefined, budg
   }
   const variables = scope ?? new Map<string, VariableValue>();
   const usesVariables = entry.symbols.some((name) => variables.has(name));
+  if (usesVariables) return evaluateCompiled(entry, variables, true);
+  entry.constant ??= evaluateCompiled(entry, variables, false);
+  return entry.constant;
+}
+
+/** Runs a compiled expression over the variables to a Unit or a finite number. */
+function evaluateCompiled(entry: Extract<Compiled, { code: Evaluate }>, variables: VariableScope, usesVariables: boolean): Evaluated {
   let value: VariableValue;
   try {
     value = entry.code(variables);
