@@ -74,7 +74,7 @@ function RunResults({ series, stale, units }: { series: RunSeries; stale: boolea
 
 /** Runs the sheet's closed loop toward motion.target in a worker and plots what happened over time, step by step. */
 export default function RunPanel({ document, units }: { document: SheetDocument; units: DisplayUnits }) {
-  const { state, start, cancel } = useWorkerJob(RUN_JOBS);
+  const { state, start, cancel } = useWorkerJob(RUN_JOBS, { warm: true });
   const ranWith = useRef<SheetDocument | null>(null);
   const run = document.motion.run;
   const runButton = useRef<HTMLButtonElement>(null);

@@ -92,15 +92,19 @@ export const LOG_COMPARE_JOBS: WorkerKind<LogCompareRequest, LocalComparison> = 
  * worker, so no late reply of the old job is read as the new one's. Unmounting terminates it too.
  * `start` resolves with the job's final state.
  */
-export function useWorkerJob<J, T>(kind: WorkerKind<J, T>) {
+export function useWorkerJob<J, T>(kind: WorkerKind<J, T>, options: { warm?: boolean } = {}) {
   const [state, setState] = useState<JobState<T>>({ status: 'idle' });
   const workerRef = useRef<Worker | null>(null);
   const runningRef = useRef(false);
   const windingDownRef = useRef(false);
   const progressRef = useRef({ done: 0, total: 0 });
   const settleRef = useRef<((state: JobState<T>) => void) | null>(null);
+  // Progress shows at most once a frame: a worker may post hundreds of messages in a few milliseconds, and each render would delay the result.
+  const frameRef = useRef(0);
 
   const finish = useCallback((final: JobState<T>) => {
+    cancelAnimationFrame(frameRef.current);
+    frameRef.current = 0;
     runningRef.current = false;
     setState(final);
     settleRef.current?.(final);
@@ -143,7 +147,12 @@ export function useWorkerJob<J, T>(kind: WorkerKind<J, T>) {
         }
         if (reading.kind === 'progress') {
           progressRef.current = { done: reading.done, total: reading.total };
-          setState({ status: 'running', done: reading.done, total: reading.total, ...(reading.detail ? { detail: reading.detail } : {}) });
+          const shown: JobState<T> = { status: 'running', done: reading.done, total: reading.total, ...(reading.detail ? { detail: reading.detail } : {}) };
+          cancelAnimationFrame(frameRef.current);
+          frameRef.current = requestAnimationFrame(() => {
+            frameRef.current = 0;
+            if (runningRef.current) setState(shown);
+          });
         } else if (reading.kind === 'failed') finish({ status: 'failed', message: reading.message, ...(reading.issues ? { issues: reading.issues } : {}) });
         else if (reading.kind === 'cancelled') finish({ status: 'cancelled', ...progressRef.current });
         else finish({ status: 'done', result: reading.result, ...(reading.detail ? { detail: reading.detail } : {}) });
@@ -161,7 +170,14 @@ export function useWorkerJob<J, T>(kind: WorkerKind<J, T>) {
     [cancel, finish, kind, terminate],
   );
 
+  // A warm worker has loaded and compiled its script before the first job, so a click only posts the job.
+  const warm = options.warm ?? false;
+  useEffect(() => {
+    if (warm && !workerRef.current) workerRef.current = kind.create();
+  }, [warm, kind]);
+
   useEffect(() => () => {
+    cancelAnimationFrame(frameRef.current);
     terminate();
     settleRef.current?.({ status: 'idle' });
   }, [terminate]);
