@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { formatQuantity, fromSI, parseQuantity, toSI } from '../../../src/lib/sheet/units';
+import { formatQuantity, fromSI, parseQuantity, parseVariables, toSI } from '../../../src/lib/sheet/units';
 
 // Exact conversion factors from NIST Special Publication 811 (2008), Appendix B.8/B.9 and the
 // SI Brochure (9th ed., 2019), Table 8: 1 in = 0.0254 m exactly, 1 ft = 0.3048 m exactly,
@@ -57,6 +57,25 @@ describe('parseQuantity', () => {
     expect(parseQuantity('5 mm', 'any')).toEqual({ ok: true, value: 0.005 });
     const angle = parseQuantity('90 deg', 'any');
     expect(angle.ok && angle.value).toBeCloseTo(Math.PI / 2, 15);
+  });
+});
+
+describe('parseQuantity read again (the cache of expressions without variables)', () => {
+  // 1 mm = 1e-3 m (SI Brochure, 9th ed., Table 7); the sums are plain arithmetic.
+  it('gives the same value each time an unchanged text is read', () => {
+    expect(parseQuantity('3 mm + 4 mm', 'length')).toEqual({ ok: true, value: 0.007 });
+    expect(parseQuantity('3 mm + 4 mm', 'length')).toEqual({ ok: true, value: 0.007 });
+    expect(parseQuantity('3 mm + 4 mm', 'angle').ok).toBe(false);
+  });
+
+  it('follows the variables: a text read before its variable existed, or with another value, reads the current one', () => {
+    const text = 'cacheProbe + 1 mm';
+    expect(parseQuantity(text, 'length')).toMatchObject({ ok: false });
+    const small = parseVariables('cacheProbe = 1 mm');
+    const large = parseVariables('cacheProbe = 2 mm');
+    expect(parseQuantity(text, 'length', small.values)).toMatchObject({ ok: true, value: expect.closeTo(0.002, 12) });
+    expect(parseQuantity(text, 'length', large.values)).toMatchObject({ ok: true, value: expect.closeTo(0.003, 12) });
+    expect(parseQuantity(text, 'length')).toMatchObject({ ok: false });
   });
 });
 
