@@ -48,6 +48,8 @@ describe('curvature on the sheet page', () => {
     mkdirSync(SCREENSHOT_DIR, { recursive: true });
     await page.locator('[data-contact="0"]').screenshot({ path: join(SCREENSHOT_DIR, 'curvature-results.png') });
     const derivation = page.locator('[data-derivation="finger.0.curvature.relative"]');
+    // The derivation (and KaTeX) load once its section nears the screen.
+    await page.locator('#derivation').scrollIntoViewIfNeeded();
     await derivation.waitFor({ timeout: 20_000 });
     await expect(derivation.locator('.katex').count()).resolves.toBeGreaterThan(0);
     await page.locator('[data-derivation^="finger.0.curvature."]').last().screenshot({ path: join(SCREENSHOT_DIR, 'curvature-derivation-last.png') });

@@ -62,6 +62,8 @@ describe('display units, warnings with their numbers, the safety label', () => {
     await waitForText(page, '[data-result="0.full.rates.2"]', displayValue(rates, result.fingers[0].full.rates[2], CHOSEN));
     await waitForText(page, '[data-result="0.contact.gap"]', displayValue(gap, result.fingers[0].contact.gap, CHOSEN));
     const derivationValue = page.locator('[data-derivation="finger.0.contact.gap"] [data-derivation-value]');
+    // The derivation (and KaTeX) load once its section nears the screen.
+    await page.locator('#derivation').scrollIntoViewIfNeeded();
     await derivationValue.waitFor({ timeout: 20_000 });
     await expect(derivationValue.innerText()).resolves.toMatch(/ m$/);
     await page.locator('#results').scrollIntoViewIfNeeded();
