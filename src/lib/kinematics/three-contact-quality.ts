@@ -200,6 +200,13 @@ class Candidates {
   /** Where callers build a direction (its first D numbers) before offering it, so rejected ones allocate nothing. */
   readonly scratch = new Float64Array(LIFTED);
 
+  /** Forgets every candidate, for the next search. */
+  clear(): void {
+    this.least = Infinity;
+    this.supports.length = 0;
+    this.directions.length = 0;
+  }
+
   /** Offers the direction in `scratch`, of length `length`, with its approximate support along the unit direction. */
   offer(support: number, length: number): void {
     if (!(length > 0) || support > this.least + NEAR_MINIMUM * Math.abs(this.least)) return;
@@ -313,6 +320,14 @@ class Dependency {
     this.rays[k] = ray;
   }
 }
+
+/**
+ * The one dependency and candidate list the searches reuse (each search clears the list first).
+ * V8 discards optimised code that has seen class instances once a collection frees them, so
+ * instances made per call would send every evaluation after a collection back to unoptimised code.
+ */
+const dependency = new Dependency();
+const candidates = new Candidates();
 
 /** Rows of the map from a direction's coordinates to the contacts' 3-vectors (3 per contact): y_i = u_f - rho_i x u_t (+ c n_i when lifted). */
 function contactRows(contacts: readonly ForceCone[], lifted: boolean): Vector[] {
@@ -430,9 +445,10 @@ function unionQuality(contacts: readonly ForceCone[], perContact: readonly (read
   const rays = contacts.map(({ edges }) => sideNormals(edges));
   const q = rays.map((contactRays, i) => flat(contactRays.map((r) => imageOf(conditions, i, r))));
   const ways = rays.map((contactRays, i) => flat(contactRays.map((r) => back(i, r))));
-  const candidates = new Candidates();
-  const dependency = new Dependency();
+  candidates.clear();
   const weights = dependency.weights;
+  // Three rays here: the fourth weight, left over from an earlier search, must not count in the sign test.
+  weights[3] = 0;
   /** n = (u_f, u_t, c) from the rays' weights; the plane u . w = c supports the union, so its distance is c / |u|. */
   const offer = (sign: number) => {
     const n = candidates.scratch.fill(0);
@@ -514,8 +530,7 @@ function sumQuality(contacts: readonly ForceCone[], perContact: readonly (readon
   const q = qs.map((images) => flat(images));
   const ways = rays.map((contactRays, i) => flat(contactRays.map((r) => back(i, r))));
   const etas = qs.map((images) => flat(Array.from(wallFrom, (p, w) => cross(images[p], images[wallTo[w]]))));
-  const candidates = new Candidates();
-  const dependency = new Dependency();
+  candidates.clear();
   const weights = dependency.weights;
   /** u from the four rays' weights; each contact reaches its rays' supports, so h(u) = (weight on base rays) / |u|. */
   const offer = (sign: number) => {
