@@ -192,6 +192,11 @@ function unionSupport(perContact: readonly (readonly Vector[])[], u: Vector): nu
   return support;
 }
 
+/** Support along unit u of the Minkowski sum of the contacts' pyramids when `sum`, else of the union's hull. */
+function support(perContact: readonly (readonly Vector[])[], u: Vector, sum: boolean): number {
+  return sum ? sumSupport(perContact, u) : unionSupport(perContact, u);
+}
+
 /** Candidate unit directions with their approximate supports, kept while they may come near the smallest. */
 class Candidates {
   least = Infinity;
@@ -199,6 +204,13 @@ class Candidates {
   readonly directions: Vector[] = [];
   /** Where callers build a direction (its first D numbers) before offering it, so rejected ones allocate nothing. */
   readonly scratch = new Float64Array(LIFTED);
+
+  /** Forgets every candidate, for the next search. */
+  clear(): void {
+    this.least = Infinity;
+    this.supports.length = 0;
+    this.directions.length = 0;
+  }
 
   /** Offers the direction in `scratch`, of length `length`, with its approximate support along the unit direction. */
   offer(support: number, length: number): void {
@@ -208,12 +220,12 @@ class Candidates {
     this.directions.push(scaled(this.scratch.subarray(0, D), 1 / length));
   }
 
-  /** Offers the direction u (D numbers) with its support computed in full by `support`. */
-  offerExact(u: Vector, support: (u: Vector) => number): void {
+  /** Offers the direction u (D numbers) with its support computed in full: of the Minkowski sum when `sum`, else of the union. */
+  offerExact(u: Vector, perContact: readonly (readonly Vector[])[], sum: boolean): void {
     const length = Math.sqrt(dot(u, u));
     if (!(length > 0)) return;
     this.scratch.set(u);
-    this.offer(support(scaled(u, 1 / length)), length);
+    this.offer(support(perContact, scaled(u, 1 / length), sum), length);
   }
 
   near(): Vector[] {
@@ -236,14 +248,14 @@ function exactNormal(u: Vector, groups: readonly (readonly Vector[])[], withApex
       const level = dot(u, g);
       if (level > most) { most = level; top = g; }
     }
-    const touching = (g: Vector) => {
-      if (g === top || dot(u, g) < most - TOUCHING * scale) return;
+    const level = most - TOUCHING * scale;
+    for (let k = withApex ? -1 : 0; k < generators.length; k++) {
+      const g = k < 0 ? apex : generators[k];
+      if (g === top || dot(u, g) < level) continue;
       const row = new Float64Array(D);
       for (let j = 0; j < D; j++) row[j] = g[j] - top[j];
       rows.push(row);
-    };
-    if (withApex) touching(apex);
-    generators.forEach(touching);
+    }
   }
   const basis: Vector[] = [];
   while (basis.length < D - 1) {
@@ -264,12 +276,12 @@ function exactNormal(u: Vector, groups: readonly (readonly Vector[])[], withApex
   return unit(normal);
 }
 
-/** The smallest exact support over the candidates near the smallest approximate one. */
-function settle(candidates: Candidates, groups: readonly (readonly Vector[])[], withApex: boolean, scale: number, support: (u: Vector) => number): NearestFacet | null {
+/** The smallest exact support (of the Minkowski sum of the groups' pyramids with apex 0 when `withApex`, else of their union's hull) over the candidates near the smallest approximate one. */
+function settle(groups: readonly (readonly Vector[])[], withApex: boolean, scale: number): NearestFacet | null {
   let best: NearestFacet | null = null;
   for (const approximate of candidates.near()) {
     const normal = exactNormal(approximate, groups, withApex, scale) ?? approximate;
-    const distance = support(normal);
+    const distance = support(groups, normal, withApex);
     if (best === null || distance < best.distance) best = { distance, normal };
   }
   return best;
@@ -314,6 +326,14 @@ class Dependency {
   }
 }
 
+/**
+ * The one dependency and candidate list the searches reuse (each search clears the list first).
+ * V8 discards optimised code that has seen class instances once a collection frees them, so
+ * instances made per call would send every evaluation after a collection back to unoptimised code.
+ */
+const dependency = new Dependency();
+const candidates = new Candidates();
+
 /** Rows of the map from a direction's coordinates to the contacts' 3-vectors (3 per contact): y_i = u_f - rho_i x u_t (+ c n_i when lifted). */
 function contactRows(contacts: readonly ForceCone[], lifted: boolean): Vector[] {
   const rows: Vector[] = [];
@@ -331,13 +351,20 @@ function contactRows(contacts: readonly ForceCone[], lifted: boolean): Vector[] 
   return rows;
 }
 
+/** The conditions on the contacts' 3-vectors and what maps a contact's 3-vector back to a direction: the map's rows and G^-1. */
+interface Structure {
+  conditions: Vector[];
+  rows: readonly Vector[];
+  inverse: Vector[];
+}
+
 /**
  * The conditions on the contacts' 3-vectors (rows of 9 spanning what the map's image misses) and
  * the way back: for a contact's 3-vector y, G^-1 M_i^T y with G = M^T M (least squares), so a
  * positive combination of rays that meets the conditions maps back to the direction giving it.
  * Null when the map loses a dimension (contacts on one line).
  */
-function structure(rows: readonly Vector[]): { conditions: Vector[]; back: (contact: number, y: Vector) => Vector } | null {
+function structure(rows: readonly Vector[]): Structure | null {
   const size = rows[0].length;
   const columns: Vector[] = [];
   for (let k = 0; k < size; k++) {
@@ -353,13 +380,15 @@ function structure(rows: readonly Vector[]): { conditions: Vector[]; back: (cont
     for (let k = 0; k < size; k++) row[k] = dot(a, columns[k]);
     return row;
   });
-  const inverse = invert(gram);
-  const back = (contact: number, y: Vector) => {
-    const v = new Float64Array(size);
-    for (let t = 0; t < 3; t++) for (let k = 0; k < size; k++) v[k] += rows[3 * contact + t][k] * y[t];
-    return apply(inverse, v);
-  };
-  return { conditions, back };
+  return { conditions, rows, inverse: invert(gram) };
+}
+
+/** The direction whose contact `contact` gets the 3-vector y: G^-1 M_i^T y (see structure). */
+function back({ rows, inverse }: Structure, contact: number, y: Vector): Vector {
+  const size = inverse.length;
+  const v = new Float64Array(size);
+  for (let t = 0; t < 3; t++) for (let k = 0; k < size; k++) v[k] += rows[3 * contact + t][k] * y[t];
+  return apply(inverse, v);
 }
 
 /** The image of a contact's 3-vector y under the conditions (one number per condition). */
@@ -421,27 +450,48 @@ function addWay(out: Float64Array, weight: number, ways: Float64Array, ray: numb
   for (let j = 0; j < size; j++) out[j] += weight * ways[ray * size + j];
 }
 
+/**
+ * Offers the union's facet from the dependency's three rays (weights times `sign`): n = (u_f, u_t, c) from their ways back
+ * (`ways` per contact, LIFTED numbers per ray); the plane u . w = c supports the union, so its distance is c / |u|. The offers
+ * are module functions rather than closures of each search: V8 keeps a closure's optimised code only while a closure of it
+ * lives, so closures made per call would run unoptimised after every collection.
+ */
+function offerUnionFacet(ways: readonly Float64Array[], sign: number): void {
+  const n = candidates.scratch.fill(0), weights = dependency.weights;
+  for (let k = 0; k < 3; k++) addWay(n, sign * weights[k], ways[dependency.contacts[k]], dependency.rays[k], LIFTED);
+  let square = 0;
+  for (let j = 0; j < D; j++) square += n[j] * n[j];
+  const length = Math.sqrt(square);
+  candidates.offer(n[D] / length, length);
+}
+
+/** Offers the Minkowski sum's facet from the dependency's four rays (weights times `sign`; `ways` D numbers per ray): each contact reaches its rays' supports, so h(u) = (weight on the base rays, index `baseRay`) / |u|. */
+function offerSumFacet(ways: readonly Float64Array[], baseRay: number, sign: number): void {
+  const u = candidates.scratch.fill(0), weights = dependency.weights;
+  let reached = 0;
+  for (let k = 0; k < 4; k++) {
+    addWay(u, sign * weights[k], ways[dependency.contacts[k]], dependency.rays[k], D);
+    if (dependency.rays[k] === baseRay) reached += sign * weights[k];
+  }
+  let square = 0;
+  for (let j = 0; j < D; j++) square += u[j] * u[j];
+  const length = Math.sqrt(square);
+  candidates.offer(reached / length, length);
+}
+
 /** Q_L1: positive dependencies in the plane of the two lifted conditions among the rays of the contacts' polar cones; undefined when rays are dependent. */
 function unionQuality(contacts: readonly ForceCone[], perContact: readonly (readonly Vector[])[], scale: number): NearestFacet | null | undefined {
   const lifted = structure(contactRows(contacts, true));
   if (lifted === null) return null;
-  const { conditions, back } = lifted;
+  const { conditions } = lifted;
   const m = contacts[0].edges.length;
   const rays = contacts.map(({ edges }) => sideNormals(edges));
   const q = rays.map((contactRays, i) => flat(contactRays.map((r) => imageOf(conditions, i, r))));
-  const ways = rays.map((contactRays, i) => flat(contactRays.map((r) => back(i, r))));
-  const candidates = new Candidates();
-  const dependency = new Dependency();
+  const ways = rays.map((contactRays, i) => flat(contactRays.map((r) => back(lifted, i, r))));
+  candidates.clear();
   const weights = dependency.weights;
-  /** n = (u_f, u_t, c) from the rays' weights; the plane u . w = c supports the union, so its distance is c / |u|. */
-  const offer = (sign: number) => {
-    const n = candidates.scratch.fill(0);
-    for (let k = 0; k < 3; k++) addWay(n, sign * weights[k], ways[dependency.contacts[k]], dependency.rays[k], LIFTED);
-    let square = 0;
-    for (let j = 0; j < D; j++) square += n[j] * n[j];
-    const length = Math.sqrt(square);
-    candidates.offer(n[D] / length, length);
-  };
+  // Three rays here: the fourth weight, left over from an earlier search, must not count in the sign test.
+  weights[3] = 0;
   // A ray of each contact: det(y, z) x + det(z, x) y + det(x, y) z = 0 for 2-vectors.
   const d01 = determinants(q[0], q[1]), d12 = determinants(q[1], q[2]), d20 = determinants(q[2], q[0]);
   for (let j = 0; j < m; j++) {
@@ -456,7 +506,7 @@ function unionQuality(contacts: readonly ForceCone[], perContact: readonly (read
         dependency.set(0, 0, j);
         dependency.set(1, 1, k);
         dependency.set(2, 2, l);
-        offer(sign);
+        offerUnionFacet(ways, sign);
       }
     }
   }
@@ -478,7 +528,7 @@ function unionQuality(contacts: readonly ForceCone[], perContact: readonly (read
           dependency.set(0, b, k);
           dependency.set(1, c, before);
           dependency.set(2, c, l);
-          offer(sign);
+          offerUnionFacet(ways, sign);
         }
       }
     }
@@ -487,17 +537,17 @@ function unionQuality(contacts: readonly ForceCone[], perContact: readonly (read
   for (let c = 0; c < 3; c++) {
     const kernel = kernelOf(conditions, c);
     for (const sign of [1, -1]) {
-      candidates.offerExact(back(c, scaled(kernel, sign)).subarray(0, D), (u) => unionSupport(perContact, u));
+      candidates.offerExact(back(lifted, c, scaled(kernel, sign)).subarray(0, D), perContact, false);
     }
   }
-  return settle(candidates, [perContact.flat()], false, scale, (u) => unionSupport(perContact, u));
+  return settle([perContact.flat()], false, scale);
 }
 
 /** Q_Linf: positive dependencies in the 3-D space of the rigid-body conditions among the rays and walls of the pyramids' fans; undefined when rays are dependent. */
 function sumQuality(contacts: readonly ForceCone[], perContact: readonly (readonly Vector[])[], scale: number): NearestFacet | null | undefined {
   const plain = structure(contactRows(contacts, false));
   if (plain === null) return null;
-  const { conditions, back } = plain;
+  const { conditions } = plain;
   const m = contacts[0].edges.length;
   const rayCount = m + 1, wallCount = 2 * m;
   // Rays: the triangles' outward normals (support 0), then the base's, -n (support 1).
@@ -512,24 +562,10 @@ function sumQuality(contacts: readonly ForceCone[], perContact: readonly (readon
   }
   const qs = rays.map((contactRays, i) => contactRays.map((r) => imageOf(conditions, i, r)));
   const q = qs.map((images) => flat(images));
-  const ways = rays.map((contactRays, i) => flat(contactRays.map((r) => back(i, r))));
+  const ways = rays.map((contactRays, i) => flat(contactRays.map((r) => back(plain, i, r))));
   const etas = qs.map((images) => flat(Array.from(wallFrom, (p, w) => cross(images[p], images[wallTo[w]]))));
-  const candidates = new Candidates();
-  const dependency = new Dependency();
+  candidates.clear();
   const weights = dependency.weights;
-  /** u from the four rays' weights; each contact reaches its rays' supports, so h(u) = (weight on base rays) / |u|. */
-  const offer = (sign: number) => {
-    const u = candidates.scratch.fill(0);
-    let reached = 0;
-    for (let k = 0; k < 4; k++) {
-      addWay(u, sign * weights[k], ways[dependency.contacts[k]], dependency.rays[k], D);
-      if (dependency.rays[k] === m) reached += sign * weights[k];
-    }
-    let square = 0;
-    for (let j = 0; j < D; j++) square += u[j] * u[j];
-    const length = Math.sqrt(square);
-    candidates.offer(reached / length, length);
-  };
   const others = (c: number) => [c === 0 ? 1 : 0, c === 2 ? 1 : 2];
   // q_i . eta_w for every ray of contact i and wall of contact c, one table per ordered pair, shared by both loops.
   const rayWall = q.map((rays) => etas.map((walls) => dots(rays, walls, 3)));
@@ -565,7 +601,7 @@ function sumQuality(contacts: readonly ForceCone[], perContact: readonly (readon
           dependency.set(1, b, l);
           dependency.set(2, c, p);
           dependency.set(3, c, r);
-          offer(sign);
+          offerSumFacet(ways, m, sign);
         }
       }
     }
@@ -589,7 +625,7 @@ function sumQuality(contacts: readonly ForceCone[], perContact: readonly (readon
         dependency.set(1, b, r1);
         dependency.set(2, c, p2);
         dependency.set(3, c, r2);
-        offer(sign);
+        offerSumFacet(ways, m, sign);
       }
     }
   }
@@ -597,10 +633,10 @@ function sumQuality(contacts: readonly ForceCone[], perContact: readonly (readon
   for (let c = 0; c < 3; c++) {
     const kernel = kernelOf(conditions, c);
     for (const sign of [1, -1]) {
-      candidates.offerExact(back(c, scaled(kernel, sign)), (u) => sumSupport(perContact, u));
+      candidates.offerExact(back(plain, c, scaled(kernel, sign)), perContact, true);
     }
   }
-  return settle(candidates, perContact, true, scale, (u) => sumSupport(perContact, u));
+  return settle(perContact, true, scale);
 }
 
 /**

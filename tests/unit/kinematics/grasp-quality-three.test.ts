@@ -115,6 +115,54 @@ describe('three point contacts: the force-cone route against the face search', (
     expect(routeTaken).toBeGreaterThan(0.8 * closures);
   });
 
+  it('agrees with the face search on symmetric layouts: three places of a 2-, 3-, 4- and 6-fold ring at one height, cones of 3 to 12 edges', () => {
+    const layouts: GraspQualityInput[] = [];
+    for (const fold of [2, 3, 4, 6]) {
+      // Places 0, 1 and 2 of the ring (2-fold: two opposite contacts and one on the mirror line between them).
+      const azimuths = fold === 2 ? [0, Math.PI, Math.PI / 2] : [0, 1, 2].map((k) => (2 * Math.PI * k) / fold);
+      for (const elevation of [-0.4, -0.26, 0, 0.3]) {
+        for (const coneEdges of [3, 4, 6, 8, 12]) {
+          for (const mu of [0.3, 0.5, 1]) {
+            const points = azimuths.map((a) => [0.03 * Math.cos(elevation) * Math.cos(a), 0.03 * Math.cos(elevation) * Math.sin(a), 0.03 * Math.sin(elevation)]);
+            layouts.push(layout(points, points, [mu, mu, mu], coneEdges));
+          }
+        }
+      }
+    }
+    let closures = 0;
+    for (const input of layouts) {
+      const quality = computeGraspQuality(input);
+      const perContact = contactWrenches(input, quality.torqueLength);
+      const scale = Math.max(...perContact.flat().map((w) => Math.hypot(...w)));
+      // The face search (Ziegler 1995, sec. 7.1; Huber, Rambau & Santos 2000) decides closure and both qualities independently of the route taken.
+      const union = unionFaceQuality(input, perContact);
+      const faceClosure = union !== null && union.distance > FORCE_CLOSURE_TOLERANCE * scale;
+      expect(quality.forceClosure).toBe(faceClosure);
+      if (!faceClosure) continue;
+      closures++;
+      expect(relative(quality.sumQuality, union!.distance)).toBeLessThanOrEqual(1e-12);
+      expect(relative(quality.maxQuality!, nearestSumFacet(input, perContact).distance!)).toBeLessThanOrEqual(1e-12);
+    }
+    // Most of these grasps hold: contacts spread round the ring with friction 0.3 to 1 (Ferrari & Canny 1992).
+    expect(closures).toBeGreaterThan(layouts.length / 2);
+  });
+
+  it('gives each layout the same qualities whatever was computed before it (the searches reuse their scratch)', () => {
+    const random = createRandom(0x5eed);
+    const inputs = [
+      ...Array.from({ length: 12 }, () => onSphere(random, 0.03, 0.4 * nextUniform(random))),
+      ...Array.from({ length: 7 }, (_, kind) => degenerate(random, kind)),
+    ];
+    const first = inputs.map((input) => computeGraspQuality(input));
+    // The same layouts again in reverse order, each after a different predecessor: equal to the bit.
+    for (let k = inputs.length - 1; k >= 0; k--) {
+      const again = computeGraspQuality(inputs[k]);
+      expect(again.sumQuality).toBe(first[k].sumQuality);
+      expect(again.maxQuality).toBe(first[k].maxQuality);
+      expect(Array.from(again.weakestWrench)).toEqual(Array.from(first[k].weakestWrench));
+    }
+  });
+
   it('hands contacts on one line to the face search, which finds no force closure', () => {
     // On one line the map from twists to contact velocities loses the twist about the line (Murray, Li & Sastry 1994, ch. 5, from memory: force closure needs wrenches spanning every direction).
     const collinear = degenerate(createRandom(1), 3);
