@@ -14,11 +14,11 @@ import { makeTempDir, tempDatabaseUrl } from '../../helpers/temp';
 import { createTestSheet } from '../../helpers/test-sheets';
 
 /** Every table's rows in rowid order, read straight through a client of its own: what "the same database" means here. */
-async function dumpDatabase(url: string): Promise<Record<string, unknown[]>> {
+async function dumpDatabase(url: string): Promise<Record<string, Record<string, unknown>[]>> {
   const client = createClient({ url, intMode: 'bigint' });
   try {
     const tables = await client.execute("SELECT name FROM sqlite_master WHERE type = 'table' AND name NOT LIKE 'sqlite_%' ORDER BY name");
-    const dump: Record<string, unknown[]> = {};
+    const dump: Record<string, Record<string, unknown>[]> = {};
     for (const { name } of tables.rows) {
       dump[String(name)] = (await client.execute(`SELECT * FROM "${String(name)}" ORDER BY rowid`)).rows.map((row) => ({ ...row }));
     }
@@ -33,7 +33,7 @@ async function dumpStorage(storage: LogStorage): Promise<Record<string, string>>
   const out: Record<string, string> = {};
   for await (const { key } of storage.list()) {
     const hash = createHash('sha256');
-    for await (const chunk of await storage.get(key)) hash.update(chunk as Buffer);
+    for await (const chunk of await storage.get(key)) hash.update(new Uint8Array(chunk as Buffer));
     out[key] = hash.digest('hex');
   }
   return out;
