@@ -31,8 +31,13 @@ try {
     const session = await editorSession(app.baseUrl);
     let running = true;
     const writer = async (sheetId: string) => {
-      const latest = (await (await fetch(`${app!.baseUrl}/api/sheets/${sheetId}`, { headers: session.headers })).json()) as { sheet: { latestRevision: number } };
-      let base = latest.sheet.latestRevision;
+      let base: number;
+      try {
+        const latest = (await (await fetch(`${app!.baseUrl}/api/sheets/${sheetId}`, { headers: session.headers })).json()) as { sheet: { latestRevision: number } };
+        base = latest.sheet.latestRevision;
+      } catch {
+        return; // killed before this writer began
+      }
       for (let i = 0; running; i++) {
         const message = `round ${round} save ${i}`;
         try {
@@ -53,7 +58,8 @@ try {
       }
     };
     const writers = sheetIds.map(writer);
-    await new Promise((r) => setTimeout(r, 1_000 + Math.random() * 2_000));
+    // A few seconds of saves, cut at a random moment.
+    await new Promise((r) => setTimeout(r, 3_000 + Math.random() * 3_000));
     app.signal('SIGKILL');
     running = false;
     await Promise.all(writers);
