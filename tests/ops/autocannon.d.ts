@@ -8,9 +8,10 @@ declare module 'autocannon' {
       path?: string;
       headers?: Record<string, string>;
       body?: string;
+      setupRequest?: (request: Request) => Request;
     }
     interface Client extends EventEmitter {
-      setRequest(request: Request): void;
+      setRequests(requests: Request[]): void;
     }
     interface Options extends Request {
       url: string;

@@ -75,16 +75,17 @@ try {
       setupClient(client: autocannon.Client) {
         const sheetId = sheetIds[nextSheet++ % sheetIds.length];
         let base = 1;
-        const request = () => ({
-          method: 'POST' as const,
-          path: `/api/sheets/${sheetId}/revisions`,
-          headers: session.headers,
-          body: JSON.stringify({ baseRevision: base, document: session.document, message: `load save on ${base}` }),
-        });
-        client.setRequest(request());
+        // A request whose body is built anew before each send (autocannon's setupRequest), from this connection's own last revision.
+        client.setRequests([
+          {
+            method: 'POST',
+            path: `/api/sheets/${sheetId}/revisions`,
+            headers: session.headers,
+            setupRequest: (request) => ({ ...request, body: JSON.stringify({ baseRevision: base, document: session.document, message: `load save on ${base}` }) }),
+          },
+        ]);
         client.on('response', (status: number) => {
           if (status === 201) base++;
-          client.setRequest(request());
         });
       },
     }),
