@@ -47,6 +47,7 @@ export default defineConfig({
       S3_REGION: envField.string({ context: 'server', access: 'secret', optional: true }),
       S3_ACCESS_KEY_ID: envField.string({ context: 'server', access: 'secret', optional: true }),
       S3_SECRET_ACCESS_KEY: envField.string({ context: 'server', access: 'secret', optional: true }),
+      METRICS_TOKEN: envField.string({ context: 'server', access: 'secret', optional: true }),
     },
   },
 });

@@ -3,10 +3,19 @@ import { mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { getViteConfig } from 'astro/config';
+import { startSqld } from './tests/helpers/sqld';
 
 // Astro inlines server env values when the config loads, so the per-run test database is named
 // here; tests/helpers/test-database.ts migrates and seeds it before any test file runs.
-process.env.DATABASE_URL = `file:${join(mkdtempSync(join(tmpdir(), 'slipless-vitest-')), 'app.db')}`;
+// TEST_DATABASE=sqld (npm run test:sqld) puts the same tests on a fresh libSQL server instead of
+// a file, so the data and API paths are proven on both engines the app supports.
+if (process.env.TEST_DATABASE === 'sqld') {
+  const server = await startSqld();
+  process.on('exit', () => server.kill());
+  process.env.DATABASE_URL = server.url;
+} else {
+  process.env.DATABASE_URL = `file:${join(mkdtempSync(join(tmpdir(), 'slipless-vitest-')), 'app.db')}`;
+}
 
 // Mail goes to the local mailbox (no SMTP_HOST in tests); its folder is this run's, never the working copy's data/mail.
 process.env.MAILBOX_DIR = mkdtempSync(join(tmpdir(), 'slipless-mailbox-'));

@@ -6,5 +6,7 @@ declare namespace App {
     identity: import('./lib/server/access').Identity | null;
     /** The team the user is working in (chosen by cookie, else their first). */
     team: import('./lib/server/access').TeamMembership | null;
+    /** The route pattern (`/api/sheets/[sheetId]`) for request logs and metrics. */
+    route?: string;
   }
 }

@@ -54,6 +54,8 @@ async function resolveIdentity(context: APIContext, next: MiddlewareNext, origin
 }
 
 export const onRequest = defineMiddleware(async (context, next) => {
+  // The route pattern names the request in the edge's log line and metrics (src/lib/server/observability.ts).
+  context.locals.route = context.routePattern;
   const origin = publicOrigin(context.url);
   const response = await resolveIdentity(context, next, origin);
   return withSecurityHeaders(response, { https: origin.startsWith('https:'), signedIn: context.locals.identity !== null });

@@ -8,6 +8,8 @@ import { edgeListener, parseTrustedProxies, type EdgeSettings, type NodeHandler 
 import { logStorageFromEnvironment } from '../lib/server/log-storage-backends';
 import { startLogSweeper } from '../lib/server/log-sweeper';
 import { localMailboxNotice, mailboxDir } from '../lib/server/local-mailbox';
+import { appMetrics, createLogger, localsOf, observeRequests } from '../lib/server/observability';
+import { shutDown } from '../lib/server/shutdown';
 import { configuredPublicOrigin } from '../lib/server/public-origin';
 import { withStaticFiles } from '../lib/server/static-files';
 
@@ -22,13 +24,19 @@ try {
 }
 
 const url = process.env.DATABASE_URL?.trim() || DEFAULT_DATABASE_URL;
+let closeStartDatabase = () => {};
 
 try {
   const logStorage = logStorageFromEnvironment(process.env);
   const { database, seed } = await prepareDatabase(url, logStorage);
   // Kept open for the sweeper: a crash between storing a log and recording it (or between
   // forgetting it and removing its bytes) leaves bytes no row refers to, removed once now and then hourly.
-  startLogSweeper(database, logStorage);
+  const sweeper = startLogSweeper(database, logStorage);
+  appMetrics().writeQueues.add(database.pendingWrites);
+  closeStartDatabase = () => {
+    sweeper.stop();
+    database.close();
+  };
   console.log(
     seed.seeded
       ? `Slipless: new database at ${url}, seeded the demo team (${seed.users} users, ${seed.sheets} sheets, ${seed.logs} controller logs).`
@@ -51,10 +59,26 @@ if (!existsSync(entry)) {
 }
 // The adapter's middleware mode starts no server of its own (its standalone server would believe
 // forwarding headers from any client); this process serves the build behind the edge listener.
-const { handler } = (await import(pathToFileURL(entry).href)) as { handler: NodeHandler };
+const { handler } = (await import(pathToFileURL(entry).href)) as { handler: (...args: Parameters<NodeHandler> | [...Parameters<NodeHandler>, undefined, object]) => unknown };
 const host = process.env.HOST?.trim() || 'localhost';
 const port = Number(process.env.PORT?.trim() || 4321);
-const server = createServer(edgeListener(withStaticFiles(handler, resolve('dist/client')), edge));
+const logger = createLogger();
+const metrics = appMetrics();
+// The adapter hands this locals object to the app, whose middleware notes the route and identity for the request's log line.
+const app: NodeHandler = (req, res) => handler(req, res, undefined, localsOf(req));
+const observed = observeRequests(withStaticFiles(app, resolve('dist/client')), { logger, metrics, metricsToken: process.env.METRICS_TOKEN?.trim() || null });
+const server = createServer(edgeListener(observed, edge));
+let stopping = false;
+for (const signal of ['SIGTERM', 'SIGINT'] as const) {
+  process.once(signal, () => {
+    if (stopping) return;
+    stopping = true;
+    logger.info({ signal }, 'shutdown: no new connections; finishing requests and writes in progress');
+    const pendingWrites = () => [...metrics.writeQueues].reduce((sum, depth) => sum + depth(), 0);
+    // The app's own connection closes with the process; the start command's is closed here once writes are done.
+    void shutDown({ server, pendingWrites, close: closeStartDatabase, logger }).then(() => process.exit(0));
+  });
+}
 server.on('error', (error) => {
   console.error(`Slipless could not listen on ${host}:${port}: ${error.message}`);
   process.exit(1);

@@ -20,6 +20,8 @@ export interface Database {
   write<T>(work: (db: DrizzleDb) => Promise<T>): Promise<T>;
   /** Runs a transaction through the same queue as `write`. */
   transaction<T>(work: (tx: Transaction) => Promise<T>): Promise<T>;
+  /** Writes and transactions queued or running now (for the write-queue metric and shutdown). */
+  pendingWrites(): number;
   close(): void;
 }
 
@@ -73,10 +75,12 @@ export async function openDatabase(url: string, { busyTimeoutMs = DATABASE_BUSY_
   }
   const db = drizzle(client, { schema });
   let queue: Promise<unknown> = Promise.resolve();
+  let pending = 0;
 
   // A busy error can leave the libSQL connection acknowledging writes it never commits,
   // so the connection is replaced and the caller told that nothing was saved.
   async function runQueued<T>(work: () => Promise<T>): Promise<T> {
+    pending++;
     const run = queue.then(async () => {
       try {
         return await work();
@@ -85,7 +89,7 @@ export async function openDatabase(url: string, { busyTimeoutMs = DATABASE_BUSY_
         throw error;
       }
     });
-    queue = run.catch(() => undefined);
+    queue = run.catch(() => undefined).finally(() => pending--);
     return run;
   }
 
@@ -96,6 +100,7 @@ export async function openDatabase(url: string, { busyTimeoutMs = DATABASE_BUSY_
     client,
     write: (work) => runQueued(() => work(db)),
     transaction: (work) => runQueued(() => db.transaction(work)),
+    pendingWrites: () => pending,
     close: () => client.close(),
   };
 }

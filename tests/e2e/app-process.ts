@@ -7,17 +7,24 @@ export interface AppProcess {
   baseUrl: string;
   /** Stops the app and waits until its process has exited. */
   stop(): Promise<void>;
+  /** Everything the app printed so far (stdout and stderr). */
+  output(): string;
+  /** Sends `signal` without waiting; `exited` tells how the process ended. */
+  signal(signal: NodeJS.Signals): void;
+  exited: Promise<{ code: number | null; signal: NodeJS.Signals | null }>;
 }
 
 /**
  * Starts the built app the way `npm start` serves it (src/cli/start.ts: migrate, seed, serve) on
  * 127.0.0.1:port with the given database and environment, and waits until /api/health answers.
  */
-export async function startApp(options: { port: number; databaseUrl: string; env?: NodeJS.ProcessEnv }): Promise<AppProcess> {
+export async function startApp(options: { port: number; databaseUrl: string; env?: NodeJS.ProcessEnv; singleProcess?: boolean }): Promise<AppProcess> {
   if (!existsSync('dist/server/entry.mjs')) throw new Error('Build first: npm run build (npm run test:e2e does it).');
   const baseUrl = `http://127.0.0.1:${options.port}`;
   let output = '';
-  const child = spawn('node_modules/.bin/tsx', ['src/cli/start.ts'], {
+  // The tsx command runs the app in a child process of its own; a SIGKILL (the crash script's) must reach the app itself, so node loads tsx as a hook instead.
+  const [command, args] = options.singleProcess ? [process.execPath, ['--import', 'tsx', 'src/cli/start.ts']] : ['node_modules/.bin/tsx', ['src/cli/start.ts']];
+  const child = spawn(command, args, {
     env: {
       // Mail goes to a fresh folder unless the caller names one, so a test run never fills the working copy's data/mail.
       MAILBOX_DIR: makeTempDir('slipless-mailbox-'),
@@ -32,7 +39,7 @@ export async function startApp(options: { port: number; databaseUrl: string; env
   });
   child.stdout?.on('data', (chunk) => (output += chunk));
   child.stderr?.on('data', (chunk) => (output += chunk));
-  const exited = new Promise<void>((resolve) => child.once('exit', () => resolve()));
+  const exited = new Promise<{ code: number | null; signal: NodeJS.Signals | null }>((resolve) => child.once('exit', (code, signal) => resolve({ code, signal })));
   const deadline = Date.now() + 60_000;
   for (;;) {
     try {
@@ -49,8 +56,11 @@ export async function startApp(options: { port: number; databaseUrl: string; env
   return {
     baseUrl,
     async stop() {
-      if (child.exitCode === null) child.kill('SIGTERM');
+      if (child.exitCode === null && child.signalCode === null) child.kill('SIGTERM');
       await exited;
     },
+    output: () => output,
+    signal: (signal) => child.kill(signal),
+    exited,
   };
 }

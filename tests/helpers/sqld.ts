@@ -9,17 +9,24 @@ export const SQLD_AVAILABLE = process.platform === 'linux' && process.arch === '
 
 export interface SqldServer {
   url: string;
+  /** The folder sqld keeps its data in. */
+  dbPath: string;
   stop(): Promise<void>;
+  /** Ends the server at once (for a process 'exit' handler, where nothing can be awaited). */
+  kill(): void;
 }
 
 /** Starts sqld on a free loopback port with a fresh data folder and waits until it answers. */
 export async function startSqld(): Promise<SqldServer> {
   const port = await freePort();
+  const dbPath = join(makeTempDir('slipless-sqld-'), 'data.sqld');
   const child: ChildProcess = spawn(
     SQLD_BINARY,
-    ['--db-path', join(makeTempDir('slipless-sqld-'), 'data.sqld'), '--http-listen-addr', `127.0.0.1:${port}`, '--no-welcome'],
+    ['--db-path', dbPath, '--http-listen-addr', `127.0.0.1:${port}`, '--no-welcome'],
     { stdio: 'ignore' },
   );
+  // The test process ends when its work does; the server is ended by stop() or kill(), never waited for.
+  child.unref();
   const url = `http://127.0.0.1:${port}`;
   const deadline = Date.now() + 20_000;
   for (;;) {
@@ -33,8 +40,13 @@ export async function startSqld(): Promise<SqldServer> {
   }
   return {
     url,
+    dbPath,
+    kill: () => {
+      if (child.exitCode === null) child.kill('SIGKILL');
+    },
     stop: () =>
       new Promise((done) => {
+        if (child.exitCode !== null) return done();
         child.once('exit', () => done());
         child.kill('SIGTERM');
       }),

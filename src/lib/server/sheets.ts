@@ -5,6 +5,7 @@ import type { CreatedSheet, LatestRevision, RevisionPage, SheetListPage } from '
 import { fail, succeed, type DomainError, type Result } from '../result';
 import { sheetRevisions, sheets, users, type ReviewState } from '../../db/schema';
 import { evaluateSheet } from '../sheet/evaluate';
+import { appMetrics } from './observability';
 import type { SheetSummary, StoredDocument } from '../sheet/summary';
 import type { SheetDocument } from '../sheet/types';
 import type { ListRevisionsQuery, ListSheetsQuery } from '../validation/sheets';
@@ -27,7 +28,9 @@ const isStoredDocument = (value: unknown): value is StoredDocument => value !== 
 
 /** The raw document validated with its summary: every stored revision passes through here, and is stored exactly as sent. */
 export function checkDocument(raw: unknown): Result<Checked> {
+  const stopTimer = appMetrics().solveSeconds.startTimer();
   const evaluated = evaluateSheet(raw);
+  stopTimer();
   if (!evaluated.ok) return fail(documentIssues(evaluated.error.issues));
   // A document that validates is an object; the guard only tells the compiler.
   if (!isStoredDocument(raw)) return fail({ kind: 'invalid', message: 'A sheet document is one JSON object.', path: 'document' });
