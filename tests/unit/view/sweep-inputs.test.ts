@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import type { DisplayUnits } from '../../../src/lib/sheet/display-units';
 import { createSheetFromTemplate } from '../../../src/lib/sheet/templates';
 import { numberAt, siUnitAt, sweepInputs, sweepSettingsFrom } from '../../../src/lib/view/sweep-inputs';
 
@@ -43,8 +44,8 @@ describe('sweepInputs', () => {
 
 describe('sweep inputs in the sheet\'s display units', () => {
   const doc = createSheetFromTemplate('duo-opposed', { kind: 'sphere', radius: 0.03 });
-  const si = { length: 'm', angle: 'rad', angularSpeed: 'rpm' } as const;
-  const find = (path: string, units = si) => sweepInputs(doc, units).find((i) => i.path === path)!;
+  const si: DisplayUnits = { length: 'm', angle: 'rad', angularSpeed: 'rpm' };
+  const find = (path: string, units: DisplayUnits = si) => sweepInputs(doc, units).find((i) => i.path === path)!;
 
   it('shows lengths, angles and angular speeds in the chosen units (1 rpm = 2π/60 rad/s, 1 deg = π/180 rad; common practice)', () => {
     expect(find('/hand/fingers/0/roller/radius').unit).toEqual({ symbol: 'm', factor: 1 });
