@@ -17,7 +17,7 @@ import { compareLog, describeComparisonError, type ComparedSample } from '../lib
 import { comparisonReportJson, verdictExitCode } from '../lib/logs/report';
 import { evaluateSheet, type SheetEvaluation } from '../lib/sheet/evaluate';
 import { comparedSampleHeader, comparedSampleLine, csvTable, FINGER_COLUMNS, fingerRows, maxJointCount, rateColumns, resultsCsv } from '../lib/sheet/results-csv';
-import { commandedRates } from '../lib/sheet/commanded';
+import { sweptCommandedRates } from '../lib/sheet/commanded';
 import { exportedResult, namedQuaternion } from '../lib/sheet/results-json';
 import { commandedSolutionOf } from '../lib/sheet/schema';
 import type { SheetDocument } from '../lib/sheet/types';
@@ -96,7 +96,7 @@ function runTable(record: RunRecord): string {
 }
 
 function sweepTable(doc: SheetDocument, record: SweepRecord, maxJoints: number): string {
-  const rows = record.results.flatMap((result, i) => fingerRows({ ...result, commanded: commandedRates(doc, result) }, maxJoints, [record.values[i]]));
+  const rows = record.results.flatMap((result, i) => fingerRows({ ...result, commanded: sweptCommandedRates(doc, result, record.path, record.values[i]!) }, maxJoints, [record.values[i]]));
   return csvTable(['value', ...FINGER_COLUMNS, ...rateColumns(maxJoints)], rows);
 }
 
