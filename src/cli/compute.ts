@@ -208,7 +208,7 @@ export async function runComputeCommand(args: readonly string[], io: CommandOutp
       result: exportedResult(doc, result),
       ...(run ? { run: { ...toPlainRunRecord(run), orientation: wxyzColumn(run.orientation), measuredOrientation: wxyzColumn(run.measuredOrientation) } } : {}),
       ...(sweep
-        ? { sweep: { path: sweep.path, values: Array.from(sweep.values), results: sweep.results.map((r) => exportedResult(doc, r)), worstSeverity: sweep.worstSeverity } }
+        ? { sweep: { path: sweep.path, values: Array.from(sweep.values), results: sweep.results.map((r, i) => exportedResult(doc, { ...r, commanded: sweptCommandedRates(doc, r, sweep.path, sweep.values[i]!) })), worstSeverity: sweep.worstSeverity } }
         : {}),
     };
     // JSON has no Infinity or NaN; they are written as strings so nothing is silently lost.
