@@ -21,7 +21,7 @@ import { sweptCommandedRates } from '../lib/sheet/commanded';
 import { exportedResult, namedQuaternion } from '../lib/sheet/results-json';
 import { commandedSolutionOf } from '../lib/sheet/schema';
 import type { SheetDocument } from '../lib/sheet/types';
-import { SAFETY_CAUTION, SAFETY_CAUTION_TEXT } from '../lib/safety';
+import { SAFETY_CAUTION, SAFETY_CAUTION_TEXT, SAFETY_CSV_COMMENT } from '../lib/safety';
 import { InputError, readJsonFile, readMappingFile } from './input-files';
 
 const USAGE = 'usage: npm run compute -- path/to/sheet.json [--format json|csv] [--run] [--sweep] [--log log.csv[.gz] --mapping mapping.json]';
@@ -132,7 +132,8 @@ async function compareCommand(options: Options & { log: string; mapping: string 
   let compared;
   try {
     compared = await compareLog(evaluation.doc, mapping, source, {
-      onColumns: csv ? (columns) => buffered.push(comparedSampleHeader(columns)) : undefined,
+      // The table carries joint rates toward a controller: the caution travels inside the file too, as the server's export does.
+      onColumns: csv ? (columns) => buffered.push(`${SAFETY_CSV_COMMENT}\n${comparedSampleHeader(columns)}`) : undefined,
       onSample: csv
         ? (sample: ComparedSample) => {
             buffered.push(comparedSampleLine(sample));
@@ -215,7 +216,8 @@ export async function runComputeCommand(args: readonly string[], io: CommandOutp
     io.stdout(`${JSON.stringify(output, (_, v: unknown) => (typeof v === 'number' && !Number.isFinite(v) ? String(v) : v), 2)}\n`);
     return 0;
   }
-  const tables = [resultsCsv(doc, result)];
+  // The caution also travels inside the file, as a comment line, so it stays with the table once the pipe is saved.
+  const tables = [`${SAFETY_CSV_COMMENT}\n${resultsCsv(doc, result)}`];
   if (run) tables.push(`# run (${run.stopReason} after ${run.tickCount} ticks; commanded solution ${commandedSolutionOf(doc)}; palm frame, quaternion w x y z)\n${runTable(run)}`);
   if (sweep) tables.push(`# sweep ${sweep.path} (commanded solution ${commandedSolutionOf(doc)})\n${sweepTable(doc, sweep, maxJoints)}`);
   io.stdout(`${tables.join('\n\n')}\n`);
