@@ -6,6 +6,7 @@
  * contact takes the contact point the solve finds, so it is converted only once the contacts are known.
  */
 import { quat, solveSheet, vec3 } from '../kinematics';
+import { formatInputValue } from './number-format';
 import type { Pose, SheetDocument, Twist, TwistEntry, Vec3Tuple } from './types';
 
 const tuple = (v: ArrayLike<number>): Vec3Tuple => [v[0]!, v[1]!, v[2]!];
@@ -49,4 +50,22 @@ export function twistAboutContact(doc: Readonly<SheetDocument>, entry: Readonly<
   }
   const about = tuple(entry.frame === 'object' ? contact.objectPointLocal : contact.objectPoint);
   return { ok: true, twist: twistAboutOrigin({ ...entry, about }, doc.object.pose) };
+}
+
+/**
+ * Labels of a twist's two vectors as its document writes them: the point the velocity is of and the frame of both,
+ * e.g. 'velocity of the contact of finger "north" (object frame)'.
+ */
+export function twistEntryLabels(written: unknown): { linear: string; angular: string } {
+  const twist = written !== null && typeof written === 'object' ? (written as { frame?: unknown; about?: unknown }) : {};
+  const inObject = twist.frame === 'object';
+  const frame = inObject ? 'object frame' : 'palm frame';
+  const about = twist.about;
+  const contact = about !== null && typeof about === 'object' && !Array.isArray(about) ? (about as { contact?: unknown }).contact : undefined;
+  const point = about === undefined
+    ? 'the object origin'
+    : typeof contact === 'string'
+      ? `the contact of finger "${contact}"`
+      : `the point ${formatInputValue(about)}${inObject ? ' from the object origin' : ''}`;
+  return { linear: `velocity of ${point} (${frame})`, angular: `angular velocity (${frame})` };
 }

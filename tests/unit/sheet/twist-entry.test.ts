@@ -2,7 +2,7 @@ import { matrix, multiply } from 'mathjs';
 import { describe, expect, it } from 'vitest';
 import { evaluateSheet } from '../../../src/lib/sheet/evaluate';
 import { parseSheet } from '../../../src/lib/sheet/schema';
-import { twistAboutOrigin } from '../../../src/lib/sheet/twist-entry';
+import { twistAboutOrigin, twistEntryLabels } from '../../../src/lib/sheet/twist-entry';
 import type { Pose, Vec3Tuple } from '../../../src/lib/sheet/types';
 import { threeFingerSheet } from '../kinematics/three-finger-sheet';
 
@@ -167,5 +167,13 @@ describe('the twist written about a finger\'s contact', () => {
     written.object.twist.about = { finger: 'finger 1' };
     const parsed = parseSheet(written);
     expect(parsed.ok ? [] : parsed.issues.map((issue) => issue.path)).toContain('object.twist.about');
+  });
+});
+
+describe('twistEntryLabels', () => {
+  it('names the point and the frame of a twist as written', () => {
+    expect(twistEntryLabels({ linear: [0, 0, 0], angular: [0, 0, 1] })).toEqual({ linear: 'velocity of the object origin (palm frame)', angular: 'angular velocity (palm frame)' });
+    expect(twistEntryLabels({ linear: [0, 0, 0], angular: [0, 0, 1], frame: 'object', about: { contact: 'north' } }).linear).toBe('velocity of the contact of finger "north" (object frame)');
+    expect(twistEntryLabels({ linear: [0, 0, 0], angular: [0, 0, 1], frame: 'object', about: ['5 mm', 0, 0] }).linear).toBe('velocity of the point ["5 mm", 0, 0] from the object origin (object frame)');
   });
 });
