@@ -175,4 +175,13 @@ describe('display units, warnings with their numbers, the safety label', () => {
     // The export stays SI, each column named with its unit.
     expect(header.split(',')).toContain('gap_m');
   });
+
+  it('opens the compare page without a query on the last two revisions, with the units change among the differences', async () => {
+    const response = await page.goto(`${baseUrl()}/sheets/${sheetId}/compare`, { waitUntil: 'networkidle' });
+    expect(response?.status()).toBe(200);
+    const text = await page.locator('main').innerText();
+    expect(text).not.toContain('Choose two revisions');
+    expect(text).toContain('rpm');
+    await saveScreenshot(page, 'display-units-compare-default');
+  });
 });
