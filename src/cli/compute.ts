@@ -17,11 +17,11 @@ import { compareLog, describeComparisonError, type ComparedSample } from '../lib
 import { comparisonReportJson, verdictExitCode } from '../lib/logs/report';
 import { evaluateSheet, type SheetEvaluation } from '../lib/sheet/evaluate';
 import { comparedSampleHeader, comparedSampleLine, csvTable, FINGER_COLUMNS, fingerRows, maxJointCount, rateColumns, resultsCsv } from '../lib/sheet/results-csv';
-import { commandedRates } from '../lib/sheet/commanded';
+import { sweptCommandedRates } from '../lib/sheet/commanded';
 import { exportedResult, namedQuaternion } from '../lib/sheet/results-json';
 import { commandedSolutionOf } from '../lib/sheet/schema';
 import type { SheetDocument } from '../lib/sheet/types';
-import { SAFETY_CAUTION, SAFETY_CAUTION_TEXT } from '../lib/safety';
+import { SAFETY_CAUTION, SAFETY_CAUTION_TEXT, SAFETY_CSV_COMMENT } from '../lib/safety';
 import { InputError, readJsonFile, readMappingFile } from './input-files';
 
 const USAGE = 'usage: npm run compute -- path/to/sheet.json [--format json|csv] [--run] [--sweep] [--log log.csv[.gz] --mapping mapping.json]';
@@ -96,7 +96,7 @@ function runTable(record: RunRecord): string {
 }
 
 function sweepTable(doc: SheetDocument, record: SweepRecord, maxJoints: number): string {
-  const rows = record.results.flatMap((result, i) => fingerRows({ ...result, commanded: commandedRates(doc, result) }, maxJoints, [record.values[i]]));
+  const rows = record.results.flatMap((result, i) => fingerRows({ ...result, commanded: sweptCommandedRates(doc, result, record.path, record.values[i]!) }, maxJoints, [record.values[i]]));
   return csvTable(['value', ...FINGER_COLUMNS, ...rateColumns(maxJoints)], rows);
 }
 
@@ -132,7 +132,8 @@ async function compareCommand(options: Options & { log: string; mapping: string 
   let compared;
   try {
     compared = await compareLog(evaluation.doc, mapping, source, {
-      onColumns: csv ? (columns) => buffered.push(comparedSampleHeader(columns)) : undefined,
+      // The table carries joint rates toward a controller: the caution travels inside the file too, as the server's export does.
+      onColumns: csv ? (columns) => buffered.push(`${SAFETY_CSV_COMMENT}\n${comparedSampleHeader(columns)}`) : undefined,
       onSample: csv
         ? (sample: ComparedSample) => {
             buffered.push(comparedSampleLine(sample));
@@ -208,14 +209,15 @@ export async function runComputeCommand(args: readonly string[], io: CommandOutp
       result: exportedResult(doc, result),
       ...(run ? { run: { ...toPlainRunRecord(run), orientation: wxyzColumn(run.orientation), measuredOrientation: wxyzColumn(run.measuredOrientation) } } : {}),
       ...(sweep
-        ? { sweep: { path: sweep.path, values: Array.from(sweep.values), results: sweep.results.map((r) => exportedResult(doc, r)), worstSeverity: sweep.worstSeverity } }
+        ? { sweep: { path: sweep.path, values: Array.from(sweep.values), results: sweep.results.map((r, i) => exportedResult(doc, { ...r, commanded: sweptCommandedRates(doc, r, sweep.path, sweep.values[i]!) })), worstSeverity: sweep.worstSeverity } }
         : {}),
     };
     // JSON has no Infinity or NaN; they are written as strings so nothing is silently lost.
     io.stdout(`${JSON.stringify(output, (_, v: unknown) => (typeof v === 'number' && !Number.isFinite(v) ? String(v) : v), 2)}\n`);
     return 0;
   }
-  const tables = [resultsCsv(doc, result)];
+  // The caution also travels inside the file, as a comment line, so it stays with the table once the pipe is saved.
+  const tables = [`${SAFETY_CSV_COMMENT}\n${resultsCsv(doc, result)}`];
   if (run) tables.push(`# run (${run.stopReason} after ${run.tickCount} ticks; commanded solution ${commandedSolutionOf(doc)}; palm frame, quaternion w x y z)\n${runTable(run)}`);
   if (sweep) tables.push(`# sweep ${sweep.path} (commanded solution ${commandedSolutionOf(doc)})\n${sweepTable(doc, sweep, maxJoints)}`);
   io.stdout(`${tables.join('\n\n')}\n`);

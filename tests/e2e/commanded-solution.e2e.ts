@@ -93,6 +93,16 @@ describe('the commanded solution', () => {
     await page.getByTestId('twist-frame').selectOption('object');
     await page.locator('legend', { hasText: 'twist: angular velocity (object frame)' }).waitFor();
     await page.locator('#motion').screenshot({ path: join(SCREENSHOT_DIR, 'commanded-motion-object-frame.png') });
+    // Written about a finger's contact: the sheet finds the contact, then converts, and the derivation shows it.
+    await page.getByTestId('twist-reference').selectOption('the contact of north');
+    await page.locator('legend', { hasText: 'twist: velocity of the contact point (object frame)' }).waitFor();
+    const scope = page.getByTestId('derivation-scope');
+    await scope.locator('option[value="object"]').waitFor({ state: 'attached', timeout: 20_000 });
+    await scope.selectOption('object');
+    await page.locator('[data-derivation="object.twist"]', { hasText: 'the contact of finger "north"' }).waitFor({ timeout: 20_000 });
+    await page.locator('[data-derivation="object.twist"]').screenshot({ path: join(SCREENSHOT_DIR, 'commanded-derivation-about-contact.png') });
+    await page.locator('#motion').screenshot({ path: join(SCREENSHOT_DIR, 'commanded-motion-about-contact.png') });
+    await page.getByTestId('twist-reference').selectOption('the object origin');
     await page.getByTestId('twist-frame').selectOption('palm');
   });
 

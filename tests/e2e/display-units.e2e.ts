@@ -135,6 +135,26 @@ describe('display units, warnings with their numbers, the safety label', () => {
     await panel.screenshot({ path: join(SCREENSHOT_DIR, 'display-units-run-safety.png') });
   });
 
+  it('sweeps in the chosen units: the From/To fields and the x axis read rpm and m, while the sweep itself stays SI', async () => {
+    const panel = page.getByTestId('sweep-panel');
+    await panel.scrollIntoViewIfNeeded();
+    await panel.locator('select[name="sweepPath"]').selectOption('/object/twist/angular/2');
+    // The default range is the value ± 0.5 rad/s, shown in rpm: 1 rpm = 2π/60 rad/s (ISO 80000-3).
+    const omega = evaluated.value.doc.object.twist.angular[2];
+    const rpm = (radPerSecond: number) => String(Number(((radPerSecond * 60) / (2 * Math.PI)).toPrecision(6)));
+    await expect(panel.getByLabel('From (rpm)').inputValue()).resolves.toBe(rpm(omega - 0.5));
+    await expect(panel.getByLabel('To (rpm)').inputValue()).resolves.toBe(rpm(omega + 0.5));
+    await panel.getByLabel('Steps').fill('5');
+    await panel.getByRole('button', { name: 'Sweep' }).click();
+    await panel.getByTestId('sweep-results').waitFor({ timeout: 30_000 });
+    const chart = panel.locator('[data-testid="line-chart"]').first();
+    await expect(chart.getAttribute('data-x-label')).resolves.toBe('Object angular velocity z (rpm)');
+    await panel.screenshot({ path: join(SCREENSHOT_DIR, 'display-units-sweep-rpm.png') });
+    await panel.locator('select[name="sweepPath"]').selectOption('/hand/fingers/0/roller/radius');
+    const radius = evaluated.value.doc.hand.fingers[0].roller.radius;
+    await expect(panel.getByLabel('From (m)').inputValue()).resolves.toBe(String(Number((0.75 * radius).toPrecision(6))));
+  });
+
   it('saves the choice; the report follows it and its CSV download opens with the safety line', async () => {
     await page.getByLabel('revision message').fill('Show lengths in m and joint rates in rpm');
     await page.getByRole('button', { name: 'Save revision' }).click();
@@ -156,5 +176,14 @@ describe('display units, warnings with their numbers, the safety label', () => {
     expect(first).toBe(`# ${SAFETY_CAUTION}`);
     // The export stays SI, each column named with its unit.
     expect(header.split(',')).toContain('gap_m');
+  });
+
+  it('opens the compare page without a query on the last two revisions, with the units change among the differences', async () => {
+    const response = await page.goto(`${baseUrl()}/sheets/${sheetId}/compare`, { waitUntil: 'networkidle' });
+    expect(response?.status()).toBe(200);
+    const text = await page.locator('main').innerText();
+    expect(text).not.toContain('Choose two revisions');
+    expect(text).toContain('rpm');
+    await saveScreenshot(page, 'display-units-compare-default');
   });
 });

@@ -143,7 +143,7 @@ describe('comparing a controller log with the sheet', () => {
     const series = await (await page.request.get(`${baseUrl()}${seriesHref}`)).text();
     const [safety, ...lines] = series.trimEnd().split('\n');
     expect(safety).toBe(SAFETY_CSV_COMMENT);
-    expect(lines[0]).toMatch(/^line,time_s,.+\.logged_rad_s,.+\.sheet_rad_s,.+\.residual_rad_s,.*\.slip_m_s,warnings$/);
+    expect(lines[0]).toMatch(/^line,time_s,.+\.logged_rad_s,.+\.sheet_(steer_and_roll|full)_rad_s,.+\.residual_rad_s,.*\.slip_m_s,warnings$/);
     expect(lines).toHaveLength(record.tickCount + 1);
 
     // The author saves revision 2 with the gain doubled; the sheet's law then commands twice the rates.

@@ -234,7 +234,7 @@ export default function LineChart({ title, x, xLabel, yLabel, series, height = 2
   }, [x, xRange, zoomable]);
 
   return (
-    <figure className="min-w-0" data-testid="line-chart" data-y-label={yLabel} data-zoomed={zoomable && xRange !== null ? 'true' : undefined}>
+    <figure className="min-w-0" data-testid="line-chart" data-x-label={xLabel} data-y-label={yLabel} data-zoomed={zoomable && xRange !== null ? 'true' : undefined}>
       <figcaption className="text-sm font-semibold">{title}</figcaption>
       <div ref={containerRef} className="w-full" role="img" aria-label={`${title}: ${series.map((s) => s.label).join(', ')} over ${xLabel}`} />
       {hasGaps && (

@@ -11,8 +11,12 @@ function renderLatex(latex: string): string {
 
 /** Pick a contact (or the grasp) and an output; see each step with the numbers put in. */
 function DerivationSection({ entries, fingerNames, units = DEFAULT_DISPLAY_UNITS }: { entries: DerivationEntry[]; fingerNames: string[]; units?: DisplayUnits }) {
-  const [scope, setScope] = useState('finger.0');
+  const [chosen, setScope] = useState('finger.0');
   const [output, setOutput] = useState('all');
+  // The object's own steps (a twist written about a point or a contact, converted) belong to no contact; once the twist
+  // is written about the origin again they are gone, and the first contact is shown.
+  const objectSteps = entries.some((e) => e.id.startsWith('object.'));
+  const scope = chosen === 'object' && !objectSteps ? 'finger.0' : chosen;
   const inScope = useMemo(() => entries.filter((e) => e.id.startsWith(`${scope}.`)), [entries, scope]);
   const rendered = useMemo(
     () => (output === 'all' ? inScope : inScope.filter((e) => e.id === output)).map((e) => ({ ...e, html: renderLatex(e.latex) })),
@@ -23,11 +27,12 @@ function DerivationSection({ entries, fingerNames, units = DEFAULT_DISPLAY_UNITS
       <div className="flex flex-wrap gap-3 text-[11px] uppercase tracking-wide text-graphite">
         <label>
           contact
-          <select className={`${selectInput} block`} value={scope} onChange={(event) => { setScope(event.target.value); setOutput('all'); }}>
+          <select className={`${selectInput} block`} value={scope} data-testid="derivation-scope" onChange={(event) => { setScope(event.target.value); setOutput('all'); }}>
             {fingerNames.map((name, i) => (
               <option key={i} value={`finger.${i}`}>{`${i + 1}: ${name}`}</option>
             ))}
             <option value="grasp">grasp</option>
+            {objectSteps && <option value="object">object twist</option>}
           </select>
         </label>
         <label>

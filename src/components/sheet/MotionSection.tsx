@@ -1,7 +1,9 @@
+import { useId } from 'react';
 import { getAt, pathText, setAt, type DocumentPath } from '../../lib/sheet/document-path';
 import { COMMANDED_SOLUTIONS, DEFAULT_COMMANDED } from '../../lib/sheet/schema';
 import type { QuantityKind } from '../../lib/sheet/units';
 import { useSheetEditing } from './editor-context';
+import { selectInput } from './sheet-styles';
 import { OrientationFields } from './ObjectSection';
 import { Choice, ComponentHeads, HIDDEN_LABELS, PlainNumber, Quantity, QuantityVector, Toggle } from './fields';
 import QuantityField from './QuantityField';
@@ -79,20 +81,57 @@ function TwistPoint({ frame }: { frame: string }) {
   );
 }
 
+const ORIGIN = 'the object origin';
+const POINT = 'a point';
+const contactOption = (finger: string) => `the contact of ${finger}`;
+
+/** What the entered twist is about: the object origin, a point typed in, or a finger's contact, which the sheet finds before converting. */
+function TwistReference() {
+  const { document, issues, update, readOnly } = useSheetEditing();
+  const id = useId();
+  const path = [...TWIST, 'about'];
+  const issue = issues.get(pathText([...path, 'contact'])) ?? (Array.isArray(getAt(document, path)) ? undefined : issues.get(pathText(path)));
+  const about = getAt(document, path);
+  const fingers = getAt(document, ['hand', 'fingers']);
+  const names = (Array.isArray(fingers) ? fingers : []).map((f: unknown) => (f !== null && typeof f === 'object' ? (f as { name?: unknown }).name : undefined))
+    .filter((n): n is string => typeof n === 'string' && n !== '');
+  const contact = about !== null && typeof about === 'object' && !Array.isArray(about) ? (about as { contact?: unknown }).contact : undefined;
+  const current = about === undefined ? ORIGIN : typeof contact === 'string' ? contactOption(contact) : POINT;
+  const options = [ORIGIN, POINT, ...names.map(contactOption)];
+  if (!options.includes(current)) options.push(current);
+  const choose = (value: string) => {
+    if (value === ORIGIN) update(path, undefined);
+    else if (value === POINT) update(path, [0, 0, 0]);
+    else update(path, { contact: names.find((n) => contactOption(n) === value) ?? contact });
+  };
+  return (
+    <div>
+      <label htmlFor={id} className="block text-[11px] uppercase tracking-wide text-graphite">twist written about</label>
+      <select id={id} className={selectInput} disabled={readOnly} data-testid="twist-reference" value={current} onChange={(event) => choose(event.target.value)}>
+        {options.map((option) => <option key={option}>{option}</option>)}
+      </select>
+      {issue && <span className="block text-[11px] text-sienna" role="alert">{issue}</span>}
+    </div>
+  );
+}
+
 /** Motion: the object's twist and acceleration, the target pose of a run and the run settings. */
 export default function MotionSection() {
   const run = ['motion', 'run'];
   const { document } = useSheetEditing();
   const frame = getAt(document, [...TWIST, 'frame']) === 'object' ? 'object' : 'palm';
-  const about = getAt(document, [...TWIST, 'about']) !== undefined;
+  const written = getAt(document, [...TWIST, 'about']);
+  const about = written !== undefined;
+  const point = Array.isArray(written);
   return (
     <div className="space-y-4">
       <div className="grid gap-3 md:grid-cols-2">
         <Choice path={['commanded']} label="commanded joint rates" options={COMMANDED_SOLUTIONS} fallback={DEFAULT_COMMANDED} test="commanded-choice" />
         <Choice path={[...TWIST, 'frame']} label="twist written in the frame" options={['palm', 'object']} fallback="palm" test="twist-frame" />
-        <QuantityVector path={[...TWIST, 'linear']} label={`twist: ${about ? 'velocity of the point below' : 'origin velocity'} (${frame} frame)`} kind="speed" />
+        <QuantityVector path={[...TWIST, 'linear']} label={`twist: ${point ? 'velocity of the point below' : about ? 'velocity of the contact point' : 'origin velocity'} (${frame} frame)`} kind="speed" />
         <QuantityVector path={[...TWIST, 'angular']} label={`twist: angular velocity (${frame} frame)`} kind="angularSpeed" />
-        <TwistPoint frame={frame} />
+        <TwistReference />
+        {point && <TwistPoint frame={frame} />}
         <AccelerationVector part="linear" label="acceleration: origin (palm frame, feed-forward; blank = 0)" kind="acceleration" />
         <AccelerationVector part="angular" label="acceleration: angular (palm frame; blank = 0)" kind="angularAcceleration" />
       </div>

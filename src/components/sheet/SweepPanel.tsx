@@ -20,7 +20,10 @@ const MAX_STEPS = 1000;
 /** A value for an input box: enough digits to round-trip what a person would type. */
 const shown = (value: number) => String(Number(value.toPrecision(6)));
 
-/** Chart inputs of a finished sweep: x in the swept input's unit, the outputs in the sheet's display units. */
+/** " (unit)" after a label, nothing for a number without unit. */
+const inUnit = (unit: DisplayUnit) => (unit.symbol === '' ? '' : ` (${unit.symbol})`);
+
+/** Chart inputs of a finished sweep: x in the swept input's display unit, the outputs in the sheet's display units. */
 function sweepCharts(series: SweepSeries, unit: DisplayUnit, units: DisplayUnits) {
   const x = series.values.map((v) => v * unit.factor);
   const shaded: ShadedStretch[] = severityRuns(series.worstSeverity).map((r) => ({
@@ -42,7 +45,7 @@ function sweepCharts(series: SweepSeries, unit: DisplayUnit, units: DisplayUnits
 
 function SweepResults({ series, input, units }: { series: SweepSeries; input: SweepInput; units: DisplayUnits }) {
   const charts = useMemo(() => sweepCharts(series, input.unit, units), [series, input.unit, units]);
-  const xLabel = `${input.label} (${input.unit.symbol})`;
+  const xLabel = `${input.label}${inUnit(input.unit)}`;
   const common = { x: charts.x, xLabel, shaded: charts.shaded, syncKey: 'sheet-sweep' };
   return (
     <div className="space-y-4" data-testid="sweep-results">
@@ -65,10 +68,13 @@ function SweepResults({ series, input, units }: { series: SweepSeries; input: Sw
 
 /** Sweeps one numeric input of the sheet over a range in a worker and plots the outputs over it. */
 export default function SweepPanel({ document, units }: { document: SheetDocument; units: DisplayUnits }) {
-  const inputs = useMemo(() => sweepInputs(document), [document]);
+  const inputs = useMemo(() => sweepInputs(document, units), [document, units]);
   const [path, setPath] = useState(() => inputs[0]?.path ?? '');
   const input = inputs.find((i) => i.path === path) ?? inputs[0]!;
-  const [range, setRange] = useState(() => ({ from: shown(input.from * input.unit.factor), to: shown(input.to * input.unit.factor) }));
+  const [typed, setRange] = useState(() => ({ from: shown(input.from * input.unit.factor), to: shown(input.to * input.unit.factor), factor: input.unit.factor }));
+  // The typed range follows a change of the sheet's display units: a number is carried over to the new unit.
+  const carried = (text: string) => (text.trim() !== '' && Number.isFinite(Number(text)) ? shown((Number(text) / typed.factor) * input.unit.factor) : text);
+  const range = typed.factor === input.unit.factor ? typed : { from: carried(typed.from), to: carried(typed.to), factor: input.unit.factor };
   const [steps, setSteps] = useState(String(document.sweep?.steps ?? DEFAULT_SWEEP_STEPS));
   const [error, setError] = useState<string | null>(null);
   const [sweptInput, setSweptInput] = useState<SweepInput | null>(null);
@@ -79,7 +85,7 @@ export default function SweepPanel({ document, units }: { document: SheetDocumen
   function choose(nextPath: string) {
     const next = inputs.find((i) => i.path === nextPath)!;
     setPath(nextPath);
-    setRange({ from: shown(next.from * next.unit.factor), to: shown(next.to * next.unit.factor) });
+    setRange({ from: shown(next.from * next.unit.factor), to: shown(next.to * next.unit.factor), factor: next.unit.factor });
   }
 
   function submit() {
@@ -112,17 +118,17 @@ export default function SweepPanel({ document, units }: { document: SheetDocumen
           <select className={inputClass} value={input.path} onChange={(e) => choose(e.target.value)} name="sweepPath">
             {inputs.map((i) => (
               <option key={i.path} value={i.path}>
-                {i.label} — now {shown(i.value * i.unit.factor)} {i.unit.symbol}
+                {i.label} — now {shown(i.value * i.unit.factor)}{i.unit.symbol === '' ? '' : ` ${i.unit.symbol}`}
               </option>
             ))}
           </select>
         </label>
         <label className={labelClass}>
-          From ({input.unit.symbol})
+          From{inUnit(input.unit)}
           <input className={inputClass} name="sweepFrom" inputMode="decimal" value={range.from} onChange={(e) => setRange({ ...range, from: e.target.value })} />
         </label>
         <label className={labelClass}>
-          To ({input.unit.symbol})
+          To{inUnit(input.unit)}
           <input className={inputClass} name="sweepTo" inputMode="decimal" value={range.to} onChange={(e) => setRange({ ...range, to: e.target.value })} />
         </label>
         <label className={labelClass}>
@@ -145,7 +151,9 @@ export default function SweepPanel({ document, units }: { document: SheetDocumen
         </p>
       )}
       <JobProgress state={state} unit="values" onCancel={cancel} />
-      {state.status === 'done' && sweptInput && <SweepResults series={state.result} input={sweptInput} units={units} />}
+      {state.status === 'done' && sweptInput && (
+        <SweepResults series={state.result} input={inputs.find((i) => i.path === sweptInput.path) ?? sweptInput} units={units} />
+      )}
     </section>
   );
 }

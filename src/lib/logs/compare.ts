@@ -110,8 +110,8 @@ export interface LogComparisonError extends DomainError {
 export interface CompareOptions {
   /** Called with each compared sample in time order (the object is reused for the next sample). */
   onSample?: (sample: ComparedSample) => void;
-  /** Called once the header is read and the table's columns are known. */
-  onColumns?: (columns: { joints: string[]; fingers: string[] }) => void;
+  /** Called once the header is read and the table's columns are known: the compared joints, the solution each one's sheet rate follows, the fingers. */
+  onColumns?: (columns: { joints: string[]; solutions: CommandedSolution[]; fingers: string[] }) => void;
   plotBuckets?: number;
   /** Reads the log: readLog (one thread, any source) unless a caller in Node passes readLogThreaded. */
   read?: typeof readLog;
@@ -231,7 +231,9 @@ export async function compareLog(doc: SheetDocument, mapping: LogMapping, source
   let gapCount = 0;
   let first = NaN, last = NaN, count = 0;
   const unsolved: LogIssue[] = [];
-  options.onColumns?.({ joints: compared.map((m) => joints[m]!.joint), fingers: fingerNames });
+  // Steer-and-roll applies to a finger by its joint roles alone (a base, a pivot and a roll joint), which no sample changes.
+  const followed = fingers.map((f): CommandedSolution => (steerChosen && f.roles.includes('base') && f.pivotIndex >= 0 && f.rollIndex >= 0 ? 'steer-and-roll' : 'full'));
+  options.onColumns?.({ joints: compared.map((m) => joints[m]!.joint), solutions: compared.map((m) => followed[joints[m]!.finger]!), fingers: fingerNames });
 
   /** The sheet's commanded twist at the sample: the logged wanted twist, or gain times the pose error toward the target (world frame). */
   const commandTwist = (s: LogSample): void => {

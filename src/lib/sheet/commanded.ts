@@ -59,6 +59,20 @@ export function commandedRates(doc: Pick<SheetDocument, 'commanded' | 'hand' | '
   return { solution: chosen, timeStep, fingers };
 }
 
+/** JSON pointer of the run's time step: the solve does not read it, but a steered pivot's commanded rate does. */
+export const TIME_STEP_PATH = '/motion/run/dt';
+
+/**
+ * The commanded rates at one value of a sweep of `path` (rad/s): a swept time step is the step each steered pivot's
+ * change is spread over; any other swept input leaves the sheet's time step.
+ */
+export function sweptCommandedRates(
+  doc: Pick<SheetDocument, 'commanded' | 'hand' | 'motion'>, result: PlainSheetResult, path: string, value: number,
+): CommandedRates {
+  if (path !== TIME_STEP_PATH) return commandedRates(doc, result);
+  return commandedRates({ ...doc, motion: { ...doc.motion, run: { ...doc.motion.run, dt: value } } }, result);
+}
+
 /** Words for a solution, as labels and exports say which one they follow. */
 export const SOLUTION_NAMES: Record<CommandedSolution, string> = {
   'steer-and-roll': 'steer-and-roll',

@@ -26,7 +26,7 @@ export function twistEntries(doc: SheetDocument, entries: DerivationEntry[]): vo
     : `q = ${column(palm.about)},\\; v_q = ${column(palm.linear)},\\; \\omega = ${column(palm.angular)};\\;`;
   entries.push({
     id: 'object.twist',
-    label: `Object twist written about a point${entry.frame === 'object' ? ' in the object frame' : ''}, converted to the object origin in the palm frame`,
+    label: `Object twist written about ${entry.contact === undefined ? 'a point' : `the contact of finger "${entry.contact}" (the point q the solve found there)`}${entry.frame === 'object' ? ' in the object frame' : ''}, converted to the object origin in the palm frame`,
     latex: `${turned} v = v_q + \\omega \\times (p - q) = ${column(palm.linear)} + ${column(angular)} \\times \\left(${column(pose.position)} - ${column(palm.about)}\\right) = ${column(linear)}`,
     value: [...linear, ...angular],
     unit: 'm/s, rad/s',

@@ -3,6 +3,7 @@
  * addressed by paths of keys and indices such as ['hand', 'fingers', 0, 'roller', 'radius'].
  * The editor never mutates a document: every change returns a copy sharing untouched branches.
  */
+import { scalarFirst } from './number-format';
 import { formatIssuePath } from './schema';
 
 export type DocumentPath = readonly (string | number)[];
@@ -117,9 +118,9 @@ export function rebaseDocument<T>(base: T, mine: T, theirs: T): Rebased<T> {
   return { document, overlapping };
 }
 
-/** A value in a short, readable form for change lists. */
+/** A value in a short, readable form for change lists (quaternions w, x, y, z). */
 export function describeValue(value: unknown): string {
   if (value === undefined) return '(none)';
-  const text = typeof value === 'string' ? value : JSON.stringify(value);
+  const text = typeof value === 'string' ? value : JSON.stringify(value, scalarFirst);
   return text.length > 80 ? `${text.slice(0, 77)}...` : text;
 }

@@ -21,9 +21,23 @@ export function formatRelative(relative: number | null): string {
   return `${percent > 0 ? '+' : '−'}${formatNumber(Math.abs(percent), 3)} %`;
 }
 
-/** An input value as written in the document: unit strings as they are, vectors and objects as compact JSON. */
+const QUATERNION_PARTS = ['w', 'x', 'y', 'z'] as const;
+
+/**
+ * A JSON.stringify replacer that writes every quaternion {w, x, y, z} scalar first, whatever order its author typed the
+ * keys in, so every page reads quaternions in one order.
+ */
+export function scalarFirst(_key: string, value: unknown): unknown {
+  if (value === null || typeof value !== 'object' || Array.isArray(value)) return value;
+  const keys = Object.keys(value);
+  if (keys.length !== 4 || !QUATERNION_PARTS.every((part) => keys.includes(part))) return value;
+  const q = value as Record<string, unknown>;
+  return Object.fromEntries(QUATERNION_PARTS.map((part) => [part, q[part]]));
+}
+
+/** An input value as written in the document: unit strings as they are, vectors and objects as compact JSON, quaternions w, x, y, z. */
 export function formatInputValue(value: unknown): string {
   if (value === undefined) return '';
   if (typeof value === 'string') return value;
-  return JSON.stringify(value).replace(/,/g, ', ').replace(/":/g, '": ');
+  return JSON.stringify(value, scalarFirst).replace(/,/g, ', ').replace(/":/g, '": ');
 }

@@ -6,7 +6,7 @@
 import type { PlainSheetResult } from '../kinematics';
 import type { ComparedSample } from '../logs/compare';
 import { OUTPUTS } from './outputs';
-import type { SheetDocument } from './types';
+import type { CommandedSolution, SheetDocument } from './types';
 
 /** A number as CSV text; NaN marks a value the contact does not have (a line contact's speed), written as an empty cell. */
 function numberText(value: number): string {
@@ -33,15 +33,19 @@ export function csvTable(header: readonly string[], rows: readonly (readonly unk
   return [header, ...rows].map((row) => row.map(csvCell).join(',')).join('\n');
 }
 
+/** How a column name says which solution a sheet rate comes from. */
+const SOLUTION_COLUMN: Record<CommandedSolution, string> = { 'steer-and-roll': 'steer_and_roll', full: 'full' };
+
 /**
  * The header line of a comparison's per-sample table (with its newline): the log line, time, per
- * compared joint the logged and sheet commanded rates and their residual, per finger the slip
+ * compared joint the logged and sheet commanded rates (named by the solution the joint's finger
+ * follows, e.g. "north-base.sheet_steer_and_roll_rad_s") and their residual, per finger the slip
  * speed, and the warnings raised; each column's unit in its name.
  */
-export function comparedSampleHeader(columns: { joints: readonly string[]; fingers: readonly string[] }): string {
+export function comparedSampleHeader(columns: { joints: readonly string[]; solutions: readonly CommandedSolution[]; fingers: readonly string[] }): string {
   const header = [
     'line', 'time_s',
-    ...columns.joints.flatMap((j) => [`${j}.logged_rad_s`, `${j}.sheet_rad_s`, `${j}.residual_rad_s`]),
+    ...columns.joints.flatMap((j, c) => [`${j}.logged_rad_s`, `${j}.sheet_${SOLUTION_COLUMN[columns.solutions[c]!]}_rad_s`, `${j}.residual_rad_s`]),
     ...columns.fingers.map((f) => `${f}.slip_m_s`),
     'warnings',
   ];

@@ -32,7 +32,7 @@ import {
   type QuantityKind,
   type VariableScope,
 } from './units';
-import { twistAboutOrigin } from './twist-entry';
+import { twistAboutContact, twistAboutOrigin } from './twist-entry';
 
 export const SHEET_FORMAT = 'slipless.sheet';
 export const SHEET_VERSION = 1;
@@ -324,19 +324,27 @@ const twistPointSchema = named(
   'Point [x, y, z] whose velocity "linear" gives: in the palm frame, or in the object frame relative to the object origin (the object centre is [0, 0, 0])',
 );
 
+const twistContactSchema = named(
+  z.strictObject({ contact: name }),
+  'TwistContact',
+  'The contact point of the finger of this name, as the solve finds it at the sheet\'s pose and joint angles',
+);
+
 const twistSchema = z
   .strictObject({
     linear: vec3(speed, 'a velocity (speeds)'),
     angular: vec3(angularSpeed, 'an angular velocity (angular speeds)'),
     frame: entryFrameSchema.optional(),
-    about: twistPointSchema.optional(),
+    about: z
+      .union([twistPointSchema, twistContactSchema], { error: expect('expected a point [x, y, z] (lengths) or a finger\'s contact { "contact": "finger name" }') })
+      .optional(),
   })
   .transform((t) => ({ linear: t.linear, angular: t.angular, frame: t.frame, about: t.about }));
 
 named(
   twistSchema,
   'Twist',
-  'Velocity of a point of the object (m/s) and angular velocity (rad/s): by default of the object origin in the palm frame; "about" names another point and "frame": "object" writes all three in the object frame. The sheet converts to the origin velocity in the palm frame.',
+  'Velocity of a point of the object (m/s) and angular velocity (rad/s): by default of the object origin in the palm frame; "about" names another point, or a finger\'s contact as { "contact": "finger name" }, and "frame": "object" writes all three in the object frame. The sheet converts to the origin velocity in the palm frame.',
 );
 
 const objectAccelerationSchema = z
@@ -388,10 +396,13 @@ const objectSchema = z
   .strictObject({ shape: objectShapeSchema, pose: poseSchema, twist: twistSchema, acceleration: objectAccelerationSchema.optional() })
   .transform((o): SheetDocument['object'] => {
     const { frame = 'palm', about, linear, angular } = o.twist;
-    // A twist about the object origin in the palm frame is the solve's own form and is kept as written.
+    // A twist about the object origin in the palm frame is the solve's own form and is kept as written. One about a
+    // finger's contact waits, as written, for the contacts: parseSheet converts it once the hand is read.
     const twist: Twist = frame === 'palm' && about === undefined
       ? { linear, angular }
-      : twistAboutOrigin({ frame, about: about ?? [0, 0, 0], linear, angular }, o.pose);
+      : about !== undefined && !Array.isArray(about)
+        ? { linear, angular, entered: { frame, about: [0, 0, 0], contact: about.contact, linear, angular } }
+        : twistAboutOrigin({ frame, about: about ?? [0, 0, 0], linear, angular }, o.pose);
     const object: SheetDocument['object'] = { shape: o.shape, pose: o.pose, twist };
     if (o.acceleration) object.acceleration = o.acceleration;
     return object;
@@ -778,6 +789,21 @@ function sweepEndIssues(doc: SheetDocument, sweep: SweepSettings): SheetIssue[] 
   return issues;
 }
 
+/** Converts a twist written about a finger's contact now that the hand is read (in place); the located issue when it cannot be. */
+function convertContactTwist(doc: SheetDocument): SheetIssue | undefined {
+  const entry = doc.object.twist.entered;
+  if (entry?.contact === undefined) return undefined;
+  const path = formatIssuePath(['object', 'twist', 'about', 'contact']);
+  try {
+    const converted = twistAboutContact(doc, { ...entry, contact: entry.contact });
+    if (!converted.ok) return { path, message: converted.message };
+    doc.object.twist = converted.twist;
+    return undefined;
+  } catch (error) {
+    return { path, message: `the contact of finger "${entry.contact}" could not be found: ${error instanceof Error ? error.message : String(error)}` };
+  }
+}
+
 /**
  * Reads an untrusted sheet document (JSON value) into a SheetDocument in SI units, or lists
  * located issues. Quantity fields may be expressions over the document's `variables`.
@@ -797,6 +823,8 @@ export function parseSheet(input: unknown): ParseSheetResult {
     activeBudget = undefined;
   }
   if (result.success && variables.issues.length === 0) {
+    const contactIssue = convertContactTwist(result.data);
+    if (contactIssue) return { ok: false, issues: [contactIssue] };
     const sweepIssues = result.data.sweep ? sweepEndIssues(result.data, result.data.sweep) : [];
     return sweepIssues.length === 0 ? { ok: true, doc: result.data } : { ok: false, issues: sweepIssues };
   }

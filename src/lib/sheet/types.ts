@@ -39,10 +39,15 @@ export interface Twist {
 /** The frame a twist or a point is written in: the palm (world) frame or the object's own frame. */
 export type EntryFrame = 'palm' | 'object';
 
-/** A twist as written: the velocity of point `about` (m/s) and the angular velocity (rad/s), all three in `frame`; `about` in the object frame is relative to the object origin. */
+/**
+ * A twist as written: the velocity of point `about` (m/s) and the angular velocity (rad/s), all three in `frame`; `about` in the object frame
+ * is relative to the object origin. With `contact`, the sheet named a finger's contact as the point and `about` is where that contact was found.
+ */
 export interface TwistEntry {
   frame: EntryFrame;
   about: Vec3Tuple;
+  /** Name of the finger whose contact point the twist was written about. */
+  contact?: string;
   linear: Vec3Tuple;
   angular: Vec3Tuple;
 }

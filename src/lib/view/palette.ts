@@ -18,18 +18,24 @@ export const PALETTE = {
   olive: '#6a7d1e',
   rose: '#b0306f',
   slate: '#8a8f99',
+  violet: '#5e35b1',
+  magenta: '#e6007e',
+  leaf: '#2f9e44',
 } as const;
 
-/** What each element of the 3D view and its 2D fallback is drawn in. */
+/**
+ * What each element of the 3D view and its 2D fallback is drawn in. The arrows have colours of their own, none a
+ * warning-severity colour or near one, so an arrow is never read as a warning (tests/unit/view/palette.test.ts).
+ */
 export const SCENE_COLOURS = {
   object: PALETTE.rule,
   objectEdge: PALETTE.graphite,
   roller: PALETTE.verdigris,
   chain: PALETTE.graphite,
   contact: PALETTE.ink,
-  normal: PALETTE.note,
-  velocity: PALETTE.sienna,
-  roll: PALETTE.ochre,
+  normal: PALETTE.violet,
+  velocity: PALETTE.magenta,
+  roll: PALETTE.leaf,
   palm: PALETTE.grid,
 } as const;
 

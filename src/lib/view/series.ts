@@ -6,7 +6,7 @@ import {
   ROTATION_METRICS, SEVERITY_LEVELS, SOLUTION_KINDS, WARNING_CATALOGUE, WARNING_CODES,
   type RunRecord, type RunStopReason, type SweepRecord, type WarningCode, type WarningSeverity,
 } from '../kinematics';
-import { commandedRates, describeCommanded } from '../sheet/commanded';
+import { describeCommanded, sweptCommandedRates } from '../sheet/commanded';
 import { commandedSolutionOf } from '../sheet/schema';
 import type { CommandedSolution, RunSettings, SheetDocument } from '../sheet/types';
 
@@ -132,7 +132,7 @@ const SEVERITY_INDEX = new Map(SEVERITY_LEVELS.map((level, i) => [level, i]));
 /** Plot columns of a sweep: per finger its joint rates, condition number, residual and gap over the swept value, and where each warning appeared. */
 export function sweepSeries(doc: SheetDocument, record: SweepRecord, elapsedMs: number): SweepSeries {
   const steps = record.results.length;
-  const commanded = record.results.map((result) => commandedRates(doc, result));
+  const commanded = record.results.map((result, i) => sweptCommandedRates(doc, result, record.path, record.values[i]!));
   const fingers = doc.hand.fingers.map((finger, f): SweepFingerSeries => {
     const rates = finger.joints.map((joint, k) => ({
       finger: finger.name,

@@ -1,21 +1,16 @@
 /**
  * The numeric inputs of a sheet worth sweeping, as JSON pointers into the SI document, each with
- * the unit it is shown in and a default range around its current value.
+ * the unit it is shown in (the sheet's display units) and a default range around its current value.
  */
+import { DEFAULT_DISPLAY_UNITS, shownUnit, toShown, type DisplayUnits } from '../sheet/display-units';
 import type { SheetDocument, SweepSettings } from '../sheet/types';
 
 export interface DisplayUnit {
+  /** Unit the value is shown in ("" for a number without unit). */
   symbol: string;
   /** Shown value = SI value * factor. */
   factor: number;
 }
-
-export const UNITS = {
-  mm: { symbol: 'mm', factor: 1000 },
-  deg: { symbol: 'deg', factor: 180 / Math.PI },
-  mmPerSecond: { symbol: 'mm/s', factor: 1000 },
-  degPerSecond: { symbol: 'deg/s', factor: 180 / Math.PI },
-} satisfies Record<string, DisplayUnit>;
 
 export interface SweepInput {
   path: string;
@@ -47,12 +42,32 @@ function rangeAround(value: number, signedSpan: number | null): [number, number]
   return value > 0 ? [0.75 * value, 1.25 * value] : [0, 1];
 }
 
-/** The unit and default span of a pointer, judged by its last tokens. */
-function unitFor(path: string): { unit: DisplayUnit; span: number | null } {
-  if (path.endsWith('/angle')) return { unit: UNITS.deg, span: Math.PI / 6 };
-  if (path.includes('/twist/linear/')) return { unit: UNITS.mmPerSecond, span: 0.02 };
-  if (path.includes('/twist/angular/')) return { unit: UNITS.degPerSecond, span: 0.5 };
-  return { unit: UNITS.mm, span: null };
+/** Last tokens of pointers whose number has no unit, and those of other SI units than a length (the default). */
+const UNITLESS = /\/(axis\/\d|orientation\/[wxyz]|friction|singularRatio|coneEdges|maxTicks|seed|steps)$/;
+const SI_UNITS: [RegExp, string][] = [
+  [/\/twist\/linear\/\d$|\/minTangentialSpeed$/, 'm/s'],
+  [/\/twist\/angular\/\d$|\/rateLimit$/, 'rad/s'],
+  [/\/acceleration\/linear\/\d$/, 'm/s^2'],
+  [/\/acceleration\/angular\/\d$/, 'rad/s^2'],
+  [/\/(angle|min|max|angleTolerance)$/, 'rad'],
+  [/\/dt$/, 's'],
+  [/\/gain$/, '1/s'],
+];
+
+/** The SI unit of the number at a pointer, judged by its last tokens: "1" without unit, "m" for every length. */
+export function siUnitAt(path: string): string {
+  if (UNITLESS.test(path)) return '1';
+  return SI_UNITS.find(([pattern]) => pattern.test(path))?.[1] ?? 'm';
+}
+
+/** The unit a pointer's number is shown in under the sheet's display units, and its default span (SI; null for a size). */
+function unitFor(path: string, units: DisplayUnits): { unit: DisplayUnit; span: number | null } {
+  const si = siUnitAt(path);
+  const unit = { symbol: si === '1' ? '' : shownUnit(si, units), factor: toShown(1, si, units) };
+  if (path.endsWith('/angle')) return { unit, span: Math.PI / 6 };
+  if (path.includes('/twist/linear/')) return { unit, span: 0.02 };
+  if (path.includes('/twist/angular/')) return { unit, span: 0.5 };
+  return { unit, span: null };
 }
 
 function objectSizePaths(doc: SheetDocument): [string, string][] {
@@ -74,8 +89,8 @@ function objectSizePaths(doc: SheetDocument): [string, string][] {
   }
 }
 
-/** The useful sweep inputs of this sheet: its own sweep first (if any), roller radii, object size, joint angles, damping, twist. */
-export function sweepInputs(doc: SheetDocument): SweepInput[] {
+/** The useful sweep inputs of this sheet, shown in its display units: its own sweep first (if any), roller radii, object size, joint angles, damping, twist. */
+export function sweepInputs(doc: SheetDocument, units: Readonly<DisplayUnits> = DEFAULT_DISPLAY_UNITS): SweepInput[] {
   const entries: [string, string][] = [
     ...doc.hand.fingers.map((finger, f): [string, string] => [`/hand/fingers/${f}/roller/radius`, `Roller radius, ${finger.name}`]),
     ...objectSizePaths(doc),
@@ -88,7 +103,7 @@ export function sweepInputs(doc: SheetDocument): SweepInput[] {
   ];
   const inputs: SweepInput[] = entries.map(([path, label]) => {
     const value = numberAt(doc, path);
-    const { unit, span } = unitFor(path);
+    const { unit, span } = unitFor(path, units);
     const [from, to] = rangeAround(value, span);
     return { path, label, unit, value, from, to };
   });
@@ -98,7 +113,7 @@ export function sweepInputs(doc: SheetDocument): SweepInput[] {
   const sheetSweep: SweepInput = {
     path: own.path,
     label: `The sheet's sweep: ${known?.label ?? own.path}`,
-    unit: known?.unit ?? unitFor(own.path).unit,
+    unit: known?.unit ?? unitFor(own.path, units).unit,
     value: numberAt(doc, own.path),
     from: own.from,
     to: own.to,
@@ -106,7 +121,7 @@ export function sweepInputs(doc: SheetDocument): SweepInput[] {
   return [sheetSweep, ...inputs.filter((input) => input !== known)];
 }
 
-/** Sweep settings from values typed in the display unit. */
+/** Sweep settings from values typed in the display unit; stored values stay SI. */
 export function sweepSettingsFrom(input: SweepInput, fromShown: number, toShown: number, steps: number): SweepSettings {
   return { path: input.path, from: fromShown / input.unit.factor, to: toShown / input.unit.factor, steps };
 }

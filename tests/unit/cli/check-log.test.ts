@@ -124,13 +124,13 @@ describe('check-log CLI through the API with a token', () => {
     ]);
     expect(remote.code).toBe(0);
     expect(local.code).toBe(0);
-    // The server's file opens with the safety caution as a comment line (compute prints it on stderr), then the same table.
+    // Both files open with the safety caution as a comment line, then the same table.
     const [caution, ...lines] = remote.stdout.trimEnd().split('\n');
     expect(caution).toBe(SAFETY_CSV_COMMENT);
     // One row per logged sample after the header, not the statistics table (COMPARISON_CSV_COLUMNS).
     expect(lines[0]).not.toBe(COMPARISON_CSV_COLUMNS.join(','));
     expect(lines.length).toBe(1 + run.record.tickCount);
-    expect(`${lines.join('\n')}\n`).toBe(local.stdout);
+    expect(remote.stdout.trimEnd()).toBe(local.stdout.trimEnd());
   });
 
   it('exits 1 for a bad log with the server\'s error located by line and column, and for a missing file or a bad revision', async () => {

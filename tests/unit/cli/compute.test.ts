@@ -1,5 +1,5 @@
 import { execFile } from 'node:child_process';
-import { SAFETY_CAUTION, SAFETY_CAUTION_TEXT } from '../../../src/lib/safety';
+import { SAFETY_CAUTION, SAFETY_CAUTION_TEXT, SAFETY_CSV_COMMENT } from '../../../src/lib/safety';
 import { mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -89,7 +89,9 @@ describe('compute CLI', () => {
     outcomes.forEach((outcome, i) => {
       const source = JSON.parse(readFileSync(join(sheetsDir, sheets[i]!), 'utf8')) as { hand: { fingers: { name: string }[] } };
       expect(outcome.code, sheets[i]).toBe(0);
-      const lines = outcome.stdout.trimEnd().split('\n');
+      const [safety, ...lines] = outcome.stdout.trimEnd().split('\n');
+      // The safety caution travels inside the CSV as its first, comment line, as the server's CSV exports write it.
+      expect(safety).toBe(SAFETY_CSV_COMMENT);
       expect(lines.length).toBe(source.hand.fingers.length + 1);
       const width = csvFields(lines[0]!).length;
       lines.forEach((line) => expect(csvFields(line).length).toBe(width));
@@ -126,7 +128,8 @@ describe('compute CLI', () => {
     expect(sections.length).toBe(3);
     expect(sections[1]).toMatch(/^# run \(.*commanded solution (steer-and-roll|full).*\)\ntick,time_s,x_m,y_m,z_m,qw,qx,qy,qz,/);
     expect(sections[2]).toMatch(/^# sweep \//);
-    expect(sections[2]!.split('\n').length).toBe(2 + output.sweep.values.length * (csv.stdout.split('\n\n')[0]!.split('\n').length - 1));
+    // The first section is the caution line, the header and one row per finger.
+    expect(sections[2]!.split('\n').length).toBe(2 + output.sweep.values.length * (csv.stdout.split('\n\n')[0]!.split('\n').length - 2));
   });
 
   it('exits 1 with file:line:column on invalid JSON', async () => {
@@ -154,7 +157,8 @@ describe('compute CLI', () => {
     writeFileSync(broken, '{ "format": ');
     const [good, bad] = [await spawned(join('content', 'sheets', sheets[0]!), '--format', 'csv'), await spawned(broken)];
     expect(good.code).toBe(0);
-    expect(good.stdout.split('\n')[0]).toMatch(/^finger,contact_state,gap_m,/);
+    expect(good.stdout.split('\n')[0]).toBe(SAFETY_CSV_COMMENT);
+    expect(good.stdout.split('\n')[1]).toMatch(/^finger,contact_state,gap_m,/);
     expect(bad.code).toBe(1);
     expect(bad.stderr).toContain(`${broken}:1:13: invalid JSON`);
   });
@@ -223,11 +227,12 @@ describe('compute CLI comparing a controller log (--log, --mapping)', () => {
   it('prints the per-sample table with --format csv, one row per sample, every row as wide as the header', async () => {
     const outcome = await compute(sheetFile, '--log', cleanLog, '--mapping', mappingFile, '--format', 'csv');
     expect(outcome.code).toBe(0);
-    const lines = outcome.stdout.trimEnd().split('\n');
+    const [safety, ...lines] = outcome.stdout.trimEnd().split('\n');
+    expect(safety).toBe(SAFETY_CSV_COMMENT);
     expect(lines.length).toBe(run.record.tickCount + 1);
     const width = csvFields(lines[0]!).length;
     lines.forEach((line) => expect(csvFields(line).length).toBe(width));
-    expect(lines[0]).toMatch(/^line,time_s,north-base\.logged_rad_s,north-base\.sheet_rad_s,north-base\.residual_rad_s,/);
+    expect(lines[0]).toMatch(/^line,time_s,north-base\.logged_rad_s,north-base\.sheet_steer_and_roll_rad_s,north-base\.residual_rad_s,/);
   });
 
   it('exits 1 locating a bad cell in the log, and a mapping naming a joint the sheet lacks', async () => {

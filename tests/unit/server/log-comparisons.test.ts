@@ -28,6 +28,11 @@ const { doc, header } = run;
 const mapping = runLogMapping(doc, TOLERANCES);
 const jointNames = doc.hand.fingers.flatMap((f) => f.joints.map((j) => j.name));
 const FAULTY_JOINT = jointNames[4]!;
+/** Whether a finger follows steer-and-roll: the sheet's choice, and a base, a pivot and a roll joint (the commanded-solution rule). */
+const followsSteer = (finger: (typeof doc.hand.fingers)[number]) =>
+  (doc.commanded ?? 'steer-and-roll') === 'steer-and-roll' && (['base', 'pivot', 'roll'] as const).every((role) => finger.joints.some((j) => j.role === role));
+/** Each joint's sheet-rate column, named by the solution its finger follows. */
+const sheetColumn = new Map(doc.hand.fingers.flatMap((f) => f.joints.map((j) => [j.name, `${j.name}.sheet_${followsSteer(f) ? 'steer_and_roll' : 'full'}_rad_s`] as const)));
 /** An offset far past the 0.05 rad/s tolerance, added to one joint's logged commanded rate over ticks 40 to 79. */
 const FAULT_OFFSET = 0.5;
 
@@ -252,14 +257,14 @@ describe('comparing a stored log with the sheet (route and service)', () => {
     expect(table.data).toHaveLength(result.samples);
     const fingers = doc.hand.fingers.map((f) => f.name);
     expect(table.meta.fields).toEqual([
-      'line', 'time_s', ...jointNames.flatMap((j) => [`${j}.logged_rad_s`, `${j}.sheet_rad_s`, `${j}.residual_rad_s`]), ...fingers.map((f) => `${f}.slip_m_s`), 'warnings',
+      'line', 'time_s', ...jointNames.flatMap((j) => [`${j}.logged_rad_s`, sheetColumn.get(j)!, `${j}.residual_rad_s`]), ...fingers.map((f) => `${f}.slip_m_s`), 'warnings',
     ]);
     // The log's first data row is line 2 (line 1 the header), one row per tick at the run's step.
     expect(table.data[0]!.line).toBe('2');
     expect(Number(table.data[41]!.time_s)).toBeCloseTo(41 * doc.motion.run.dt, 12);
     for (const joint of result.joints) {
       const residuals = table.data.map((row) => Number(row[`${joint.joint}.residual_rad_s`]));
-      table.data.forEach((row, i) => expect(residuals[i]).toBe(Number(row[`${joint.joint}.logged_rad_s`]) - Number(row[`${joint.joint}.sheet_rad_s`])));
+      table.data.forEach((row, i) => expect(residuals[i]).toBe(Number(row[`${joint.joint}.logged_rad_s`]) - Number(row[sheetColumn.get(joint.joint)!])));
       // RMS = sqrt(mean of squares), the definition the statistics use.
       const rms = Math.sqrt(residuals.reduce((sum, r) => sum + r * r, 0) / residuals.length);
       expect(rms).toBeCloseTo(joint.rms, 12);

@@ -1,7 +1,8 @@
 import { matrix, multiply } from 'mathjs';
 import { describe, expect, it } from 'vitest';
+import { evaluateSheet } from '../../../src/lib/sheet/evaluate';
 import { parseSheet } from '../../../src/lib/sheet/schema';
-import { twistAboutOrigin } from '../../../src/lib/sheet/twist-entry';
+import { twistAboutOrigin, twistEntryLabels } from '../../../src/lib/sheet/twist-entry';
 import type { Pose, Vec3Tuple } from '../../../src/lib/sheet/types';
 import { threeFingerSheet } from '../kinematics/three-finger-sheet';
 
@@ -88,5 +89,91 @@ describe('the twist as a sheet writes it', () => {
     written.object.twist.frame = 'tool';
     const parsed = parseSheet(written);
     expect(parsed.ok ? [] : parsed.issues.map((issue) => issue.path)).toContain('object.twist.frame');
+  });
+});
+
+describe('the twist written about a finger\'s contact', () => {
+  const offset: Vec3Tuple = [0.0001, -0.00005, 0.00008];
+  const turned: Pose = { position: offset, orientation: { w: h, x: 0, y: 0, z: h } };
+
+  function writtenAboutContact(finger: string, frame: 'palm' | 'object') {
+    const written = JSON.parse(JSON.stringify(threeFingerSheet()));
+    written.object.pose = turned;
+    written.object.twist = { linear: ['2 mm/s', 0, '-1 mm/s'], angular: [0.3, 0, '0.5 rad/s'], frame, about: { contact: finger } };
+    return written;
+  }
+
+  /** Contact point on a ball: the surface point toward the roller centre, x = p + r (c − p)/|c − p| (sphere geometry, common practice). */
+  function ballContact(center: Vec3Tuple): Vec3Tuple {
+    const d = [0, 1, 2].map((k) => center[k]! - offset[k]!);
+    const n = Math.hypot(d[0]!, d[1]!, d[2]!);
+    return [0, 1, 2].map((k) => offset[k]! + (0.04 * d[k]!) / n) as Vec3Tuple;
+  }
+
+  it('converts a palm-frame twist about the contact of the named finger as the adjoint does (Modern Robotics eq. 3.83)', () => {
+    const parsed = parseSheet(writtenAboutContact('finger 2', 'palm'));
+    expect(parsed.ok).toBe(true);
+    if (!parsed.ok) return;
+    const x = ballContact(parsed.doc.hand.fingers[1]!.roller.center);
+    const expected = adjointTwist([[1, 0, 0], [0, 1, 0], [0, 0, 1]], [x[0] - offset[0], x[1] - offset[1], x[2] - offset[2]], [0.3, 0, 0.5], [0.002, 0, -0.001]);
+    expect(parsed.doc.object.twist.linear).toBeNear(expected.v, { abs: 1e-12 });
+    expect(parsed.doc.object.twist.angular).toBeNear(expected.omega, { abs: 1e-15 });
+    expect(parsed.doc.object.twist.entered?.contact).toBe('finger 2');
+    expect(parsed.doc.object.twist.entered?.about).toBeNear(x, { abs: 1e-12 });
+  });
+
+  it('converts an object-frame twist about a contact with the object\'s rotation (Modern Robotics eq. 3.83)', () => {
+    const parsed = parseSheet(writtenAboutContact('finger 3', 'object'));
+    expect(parsed.ok).toBe(true);
+    if (!parsed.ok) return;
+    const x = ballContact(parsed.doc.hand.fingers[2]!.roller.center);
+    const R = rotationMatrix(turned.orientation);
+    const expected = adjointTwist(R, [x[0] - offset[0], x[1] - offset[1], x[2] - offset[2]], [0.3, 0, 0.5], [0.002, 0, -0.001]);
+    expect(parsed.doc.object.twist.linear).toBeNear(expected.v, { abs: 1e-12 });
+    expect(parsed.doc.object.twist.angular).toBeNear(expected.omega, { abs: 1e-15 });
+    // The point is kept in the frame it was written in: R^T (x − p).
+    const local = multiply(matrix(R).toArray() as number[][], parsed.doc.object.twist.entered!.about).valueOf() as number[];
+    expect(local).toBeNear([x[0] - offset[0], x[1] - offset[1], x[2] - offset[2]], { abs: 1e-12 });
+  });
+
+  it('shows the conversion with the finger named in the derivation', () => {
+    const evaluation = evaluateSheet(writtenAboutContact('finger 2', 'palm'), { derive: true });
+    expect(evaluation.ok).toBe(true);
+    if (!evaluation.ok) return;
+    const entry = evaluation.value.derivation.find((e) => e.id === 'object.twist');
+    expect(entry?.label).toContain('the contact of finger "finger 2"');
+    expect(entry?.value).toEqual([...evaluation.value.doc.object.twist.linear, ...evaluation.value.doc.object.twist.angular]);
+  });
+
+  it('names the field when no finger has that name', () => {
+    const parsed = parseSheet(writtenAboutContact('thumb', 'palm'));
+    expect(parsed.ok).toBe(false);
+    if (parsed.ok) return;
+    expect(parsed.issues).toEqual([{ path: 'object.twist.about.contact', message: expect.stringContaining('no finger is named "thumb"') }]);
+  });
+
+  it('names the field when the named finger does not touch the object', () => {
+    const written = writtenAboutContact('finger 1', 'palm');
+    // 10 mm further out than a touching roller: the gap is far past the 0.2 mm contact tolerance.
+    written.hand.fingers[0].roller.center = [0.062, 0, 0];
+    const parsed = parseSheet(written);
+    expect(parsed.ok).toBe(false);
+    if (parsed.ok) return;
+    expect(parsed.issues).toEqual([{ path: 'object.twist.about.contact', message: expect.stringContaining('finger "finger 1" has no contact') }]);
+  });
+
+  it('names the point of a contact written wrongly', () => {
+    const written = writtenAboutContact('finger 1', 'palm');
+    written.object.twist.about = { finger: 'finger 1' };
+    const parsed = parseSheet(written);
+    expect(parsed.ok ? [] : parsed.issues.map((issue) => issue.path)).toContain('object.twist.about');
+  });
+});
+
+describe('twistEntryLabels', () => {
+  it('names the point and the frame of a twist as written', () => {
+    expect(twistEntryLabels({ linear: [0, 0, 0], angular: [0, 0, 1] })).toEqual({ linear: 'velocity of the object origin (palm frame)', angular: 'angular velocity (palm frame)' });
+    expect(twistEntryLabels({ linear: [0, 0, 0], angular: [0, 0, 1], frame: 'object', about: { contact: 'north' } }).linear).toBe('velocity of the contact of finger "north" (object frame)');
+    expect(twistEntryLabels({ linear: [0, 0, 0], angular: [0, 0, 1], frame: 'object', about: ['5 mm', 0, 0] }).linear).toBe('velocity of the point ["5 mm", 0, 0] from the object origin (object frame)');
   });
 });

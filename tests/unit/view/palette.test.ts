@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { PALETTE, SERIES_COLOURS, SEVERITY_COLOURS } from '../../../src/lib/view/palette';
+import { PALETTE, SCENE_COLOURS, SERIES_COLOURS, SEVERITY_COLOURS } from '../../../src/lib/view/palette';
 
 /** sRGB component (0..1) to linear light: the sRGB transfer function of IEC 61966-2-1. */
 const linear = (c: number) => (c <= 0.04045 ? c / 12.92 : ((c + 0.055) / 1.055) ** 2.4);
@@ -49,6 +49,26 @@ describe('SERIES_COLOURS', () => {
     for (let i = 0; i < SERIES_COLOURS.length; i++) {
       expect(deltaE(SERIES_COLOURS[i]!, PALETTE.paper)).toBeGreaterThanOrEqual(AT_A_GLANCE);
       for (let j = i + 1; j < SERIES_COLOURS.length; j++) expect(deltaE(SERIES_COLOURS[i]!, SERIES_COLOURS[j]!)).toBeGreaterThanOrEqual(AT_A_GLANCE);
+    }
+  });
+});
+
+describe('SCENE_COLOURS arrows', () => {
+  const arrows = { normal: SCENE_COLOURS.normal, velocity: SCENE_COLOURS.velocity, roll: SCENE_COLOURS.roll };
+
+  it('never reuses a warning-severity colour', () => {
+    for (const severity of Object.values(SEVERITY_COLOURS)) expect(Object.values(arrows)).not.toContain(severity);
+  });
+
+  it.each(Object.entries(SEVERITY_COLOURS))('keeps every arrow at least ΔE*ab 30 from the %s shade', (_severity, shade) => {
+    for (const arrow of Object.values(arrows)) expect(deltaE(arrow, shade)).toBeGreaterThanOrEqual(AT_A_GLANCE);
+  });
+
+  it('keeps the arrows apart from each other, from the paper behind them, and from the roller and contact they start on', () => {
+    const list = Object.values(arrows);
+    for (let i = 0; i < list.length; i++) {
+      for (const ground of [PALETTE.paper, SCENE_COLOURS.roller, SCENE_COLOURS.contact, SCENE_COLOURS.object]) expect(deltaE(list[i]!, ground)).toBeGreaterThanOrEqual(AT_A_GLANCE);
+      for (let j = i + 1; j < list.length; j++) expect(deltaE(list[i]!, list[j]!)).toBeGreaterThanOrEqual(AT_A_GLANCE);
     }
   });
 });

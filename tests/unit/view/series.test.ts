@@ -89,6 +89,23 @@ describe('sweepSeries', () => {
   });
 });
 
+describe('sweepSeries of the time step', () => {
+  it('spreads each steered pivot\'s change over the swept time step, not the sheet\'s (rate = change / Δt, first-order difference; common practice)', () => {
+    const doc = sheet();
+    // A lift and a tilt that the rollers' rolling directions do not meet as they stand, so the pivots steer.
+    doc.object.twist = { linear: [0, 0.004, 0.01], angular: [0.3, 0, 0.1] };
+    const record = sweepSheet(doc, { path: '/motion/run/dt', from: 0.002, to: 0.02, steps: 4 });
+    const series = sweepSeries(doc, record, 1);
+    const pivot = doc.hand.fingers[0]!.joints.findIndex((joint) => joint.role === 'pivot');
+    const change = record.results[0]!.fingers[0]!.steer.pivotChange;
+    expect(Math.abs(change)).toBeGreaterThan(0);
+    record.values.forEach((dt, i) => {
+      expect(series.fingers[0]!.rates[pivot]!.values[i]).toBeCloseTo(change / dt, 12);
+    });
+    expect(record.values[0]).not.toBe(doc.motion.run.dt);
+  });
+});
+
 describe('describeStopReason', () => {
   it('puts each stop reason in words', () => {
     expect(describeStopReason('converged')).toMatch(/reached the target/);
