@@ -187,38 +187,54 @@ function runCase(working: SheetDocument, c: MatrixCase, metricIndex: number, opt
   return { run: { ...c, outcome: record.stopReason, ticks: record.tickCount, time: record.tickCount * settings.dt, finalError, finalPositionError, ...hit }, record };
 }
 
-/** Runs the document's matrix (or the one given); the document is not modified. */
-export function runMatrix(doc: SheetDocument, settings: MatrixSettings | undefined = doc.matrix, options: MatrixOptions = {}): MatrixResult {
+/** A matrix taken one run at a time, so a caller can yield between runs (the server) or stop (a time limit). */
+export interface MatrixStepper {
+  cases: MatrixCase[];
+  /** Runs case i (in order); false when it was stopped by shouldStop inside the run. */
+  step: (i: number) => boolean;
+  /** The result of the runs done so far. */
+  finish: () => MatrixResult;
+}
+
+/** Prepares the document's matrix (or the one given) to run case by case; the document is not modified. */
+export function matrixStepper(doc: SheetDocument, settings: MatrixSettings | undefined = doc.matrix, options: MatrixOptions = {}): MatrixStepper {
   if (settings === undefined) throw new RangeError('the sheet has no matrix');
   const working = structuredClone(doc);
   const cases = matrixCases(doc, settings);
   const metricIndex = ROTATION_METRICS.findIndex((m) => m.key === settings.metric);
   const runs: MatrixRun[] = [];
-  let complete = true;
-  for (const c of cases) {
-    if (options.shouldStop?.()) {
-      complete = false;
-      break;
-    }
-    let outcome;
-    try {
-      outcome = runCase(working, c, metricIndex, options);
-    } catch (error) {
-      if (!(error instanceof MatrixStopped)) throw error;
-      complete = false;
-      break;
-    }
-    runs.push(outcome.run);
-    if (outcome.record) options.onRun?.(outcome.run, outcome.record);
-    options.onProgress?.(runs.length, cases.length);
-  }
   return {
-    metric: settings.metric,
-    metricUnit: ROTATION_METRICS[metricIndex]!.unit,
-    threshold: metricThreshold(settings.metric, doc.motion.run.angleTolerance),
-    complete,
-    totalRuns: cases.length,
-    runs,
-    groups: groupStatistics(runs),
+    cases,
+    step: (i) => {
+      let outcome;
+      try {
+        outcome = runCase(working, cases[i]!, metricIndex, options);
+      } catch (error) {
+        if (error instanceof MatrixStopped) return false;
+        throw error;
+      }
+      runs.push(outcome.run);
+      if (outcome.record) options.onRun?.(outcome.run, outcome.record);
+      options.onProgress?.(runs.length, cases.length);
+      return true;
+    },
+    finish: () => ({
+      metric: settings.metric,
+      metricUnit: ROTATION_METRICS[metricIndex]!.unit,
+      threshold: metricThreshold(settings.metric, doc.motion.run.angleTolerance),
+      complete: runs.length === cases.length,
+      totalRuns: cases.length,
+      runs: [...runs],
+      groups: groupStatistics(runs),
+    }),
   };
+}
+
+/** Runs the document's matrix (or the one given) to its end or until shouldStop; the document is not modified. */
+export function runMatrix(doc: SheetDocument, settings: MatrixSettings | undefined = doc.matrix, options: MatrixOptions = {}): MatrixResult {
+  const stepper = matrixStepper(doc, settings, options);
+  for (let i = 0; i < stepper.cases.length; i++) {
+    if (options.shouldStop?.() || !stepper.step(i)) break;
+  }
+  return stepper.finish();
 }
