@@ -22,6 +22,8 @@ beforeAll(async () => {
   const demo = await (await page.request.get(`${baseUrl()}/api/sheets/${demoId}`)).json();
   const document = structuredClone(demo.revision.inputs);
   document.title = 'Matrix check (copy of the bearing housing)';
+  // Runs go on past a singular tick, so a long generated matrix takes long enough to be cancelled.
+  document.motion.run.stopOnSingular = false;
   document.matrix = {
     targets: [
       { orientation: { axis: [0, 0, 1], angle: '30 deg' }, group: 'vertical axis' },
@@ -65,11 +67,10 @@ describe('the matrix panel', () => {
     const bar = panel.getByRole('progressbar');
     await bar.waitFor();
     await page.waitForFunction(() => Number(document.querySelector('[data-testid="matrix-panel"] [role="progressbar"]')?.getAttribute('aria-valuenow') ?? 0) >= 2, null, { timeout: 60_000 });
-    expect(await bar.getAttribute('aria-valuemax')).toBe('303');
-    await saveScreenshot(page, 'matrix-progress');
     await panel.getByRole('button', { name: 'Cancel' }).click();
     await panel.getByTestId('job-cancelled').waitFor();
     expect(await panel.getByTestId('job-cancelled').innerText()).toMatch(/Cancelled after \d+ of 303 runs/);
+    await saveScreenshot(page, 'matrix-cancelled');
   }, 120_000);
 
   it('computes the saved revision on the server and shows the stored groups', async () => {
