@@ -1,5 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
+import { copyDemoSheet } from './demo-copy';
 import { baseUrl, deleteCreatedSheets, launchBrowser, saveScreenshot, signIn } from './browser';
 
 const EDITOR = { email: 'editor@tarnwhistle.example', password: 'slipless-demo' };
@@ -16,26 +17,17 @@ beforeAll(async () => {
   const context = await browser.newContext({ viewport: { width: 1600, height: 1000 } });
   page = await context.newPage();
   await signIn(page, EDITOR.email, EDITOR.password);
-  const me = await (await page.request.get(`${baseUrl()}/api/me`)).json();
-  const list = await (await page.request.get(`${baseUrl()}/api/sheets?team=${me.currentTeam}&q=${encodeURIComponent('Bearing housing')}`)).json();
-  const demoId = list.items.find((s: { title: string }) => s.title === DEMO_SHEET).id;
-  const demo = await (await page.request.get(`${baseUrl()}/api/sheets/${demoId}`)).json();
-  const document = structuredClone(demo.revision.inputs);
-  document.title = 'Matrix check (copy of the bearing housing)';
-  // Runs go on past a singular tick, so a long generated matrix takes long enough to be cancelled.
-  document.motion.run.stopOnSingular = false;
-  document.matrix = {
-    targets: [
-      { orientation: { axis: [0, 0, 1], angle: '30 deg' }, group: 'vertical axis' },
-      { orientation: { axis: [0, 0, 1], angle: '-30 deg' }, group: 'vertical axis' },
-      { orientation: { axis: [1, 0, 0], angle: '20 deg' }, group: 'horizontal axis' },
-    ],
-  };
-  const response = await page.request.post(`${baseUrl()}/api/sheets`, {
-    data: { teamId: me.currentTeam, title: document.title, tags: ['browser-test'], document, message: 'Copied for the matrix browser test' },
+  sheetId = await copyDemoSheet(page, DEMO_SHEET, 'Matrix check (copy of the bearing housing)', (document) => {
+    // Runs go on past a singular tick, so a long generated matrix takes long enough to be cancelled.
+    document.motion.run.stopOnSingular = false;
+    document.matrix = {
+      targets: [
+        { orientation: { axis: [0, 0, 1], angle: '30 deg' }, group: 'vertical axis' },
+        { orientation: { axis: [0, 0, 1], angle: '-30 deg' }, group: 'vertical axis' },
+        { orientation: { axis: [1, 0, 0], angle: '20 deg' }, group: 'horizontal axis' },
+      ],
+    };
   });
-  expect(response.status()).toBe(201);
-  sheetId = (await response.json()).sheetId;
   created.push(sheetId);
 }, 60_000);
 
