@@ -1,6 +1,7 @@
 /**
  * Solves a sheet document from the command line.
  * Usage: npm run compute -- path/to/sheet.json [--format json|csv] [--run] [--sweep]
+ *        npm run compute -- path/to/sheet.json --matrix [--dataset out.jsonl|out.csv] [--format json|csv]
  *        npm run compute -- path/to/sheet.json --log log.csv[.gz] --mapping mapping.json [--format json|csv]
  * JSON (default) prints {title, result, run?, sweep?}; CSV prints one row per finger, then with
  * --run a table with one row per tick and with --sweep one row per value and finger, each table
@@ -8,6 +9,8 @@
  * With --log the controller log is compared with the sheet (streamed; a name ending in .gz is
  * decompressed): JSON prints the comparison (per joint, per contact, warnings, verdict), CSV the
  * per-sample table; exit codes 0 within tolerance, 3 outside, 1 bad sheet, mapping or log, 2 bad usage.
+ * With --matrix the sheet's test matrix runs and its result alone is printed (JSON, or CSV: runs, then
+ * groups); --dataset (implies --matrix) also writes every tick of every run as a state-action data set.
  */
 import { createReadStream, realpathSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
@@ -23,8 +26,9 @@ import { commandedSolutionOf } from '../lib/sheet/schema';
 import type { SheetDocument } from '../lib/sheet/types';
 import { SAFETY_CAUTION, SAFETY_CAUTION_TEXT, SAFETY_CSV_COMMENT } from '../lib/safety';
 import { InputError, readJsonFile, readMappingFile } from './input-files';
+import { computeMatrix, DATASET_EXTENSIONS, matrixOutput } from './matrix-output';
 
-const USAGE = 'usage: npm run compute -- path/to/sheet.json [--format json|csv] [--run] [--sweep] [--log log.csv[.gz] --mapping mapping.json]';
+const USAGE = 'usage: npm run compute -- path/to/sheet.json [--format json|csv] [--run] [--sweep] [--matrix [--dataset out.jsonl|out.csv]] [--log log.csv[.gz] --mapping mapping.json]';
 
 interface Options {
   file: string;
@@ -33,6 +37,8 @@ interface Options {
   sweep: boolean;
   log?: string;
   mapping?: string;
+  matrix: boolean;
+  dataset?: string;
 }
 
 class UsageError extends Error {}
@@ -44,9 +50,18 @@ function parseArguments(args: readonly string[]): Options {
   let sweep = false;
   let log: string | undefined;
   let mapping: string | undefined;
+  let matrix = false;
+  let dataset: string | undefined;
   for (let i = 0; i < args.length; i++) {
     const arg = args[i]!;
     if (arg === '--run') run = true;
+    else if (arg === '--matrix') matrix = true;
+    else if (arg === '--dataset') {
+      dataset = args[++i];
+      if (dataset === undefined || dataset.startsWith('--')) throw new UsageError('--dataset needs a file name');
+      if (!DATASET_EXTENSIONS.some((ext) => dataset!.endsWith(ext))) throw new UsageError(`--dataset writes ${DATASET_EXTENSIONS.join(' or ')} files, got ${dataset}`);
+      matrix = true;
+    }
     else if (arg === '--log' || arg === '--mapping') {
       const value = args[++i];
       if (value === undefined || value.startsWith('--')) throw new UsageError(`${arg} needs a file name`);
@@ -65,8 +80,9 @@ function parseArguments(args: readonly string[]): Options {
   }
   if (file === undefined) throw new UsageError('no sheet file given');
   if ((log === undefined) !== (mapping === undefined)) throw new UsageError('--log and --mapping go together');
-  if (log !== undefined && (run || sweep)) throw new UsageError('--log compares a log; it does not combine with --run or --sweep');
-  return { file, format, run, sweep, ...(log !== undefined ? { log, mapping } : {}) };
+  if (log !== undefined && (run || sweep || matrix)) throw new UsageError('--log compares a log; it does not combine with --run, --sweep or --matrix');
+  if (matrix && (run || sweep)) throw new UsageError('--matrix prints the matrix alone; it does not combine with --run or --sweep');
+  return { file, format, run, sweep, matrix, ...(dataset !== undefined ? { dataset } : {}), ...(log !== undefined ? { log, mapping } : {}) };
 }
 
 function evaluateFile(file: string): SheetEvaluation {
@@ -185,6 +201,21 @@ export async function runComputeCommand(args: readonly string[], io: CommandOutp
     }
   }
   const { doc, result } = evaluation;
+  if (options.matrix) {
+    if (doc.matrix === undefined) {
+      report(`${options.file}: matrix: --matrix needs a "matrix" section in the sheet`);
+      return 1;
+    }
+    report(SAFETY_CAUTION);
+    try {
+      io.stdout(matrixOutput(doc.title, computeMatrix(doc, options.dataset), options.format, SAFETY_CAUTION_TEXT));
+    } catch (error) {
+      if (!(error instanceof InputError)) throw error;
+      report(error.message);
+      return 1;
+    }
+    return 0;
+  }
   if (options.sweep && doc.sweep === undefined) {
     report(`${options.file}: sweep: --sweep needs a "sweep" section in the sheet`);
     return 1;

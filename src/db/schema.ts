@@ -2,6 +2,7 @@ import { sql } from 'drizzle-orm';
 import { index, integer, primaryKey, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
 import { REVIEW_STATES, type ReviewState } from '../lib/contract/reviews';
 import { ROLES } from '../lib/roles';
+import type { MatrixResult } from '../lib/sheet/matrix';
 import type { SheetSummary, StoredDocument } from '../lib/sheet/summary';
 
 const id = () =>
@@ -200,6 +201,23 @@ export const logComparisons = sqliteTable('log_comparisons', {
   createdBy: text('created_by').references(() => users.id, { onDelete: 'set null' }),
   createdAt: createdAt(),
 });
+
+/** The test-matrix result of one sheet revision, computed on the server; computing again replaces it. */
+export const matrixResults = sqliteTable(
+  'matrix_results',
+  {
+    id: id(),
+    revisionId: text('revision_id')
+      .notNull()
+      .references(() => sheetRevisions.id, { onDelete: 'cascade' }),
+    result: text('result', { mode: 'json' }).$type<MatrixResult>().notNull(),
+    /** Wall time of the computation on the server, ms. */
+    elapsedMs: integer('elapsed_ms').notNull(),
+    createdBy: text('created_by').references(() => users.id, { onDelete: 'set null' }),
+    createdAt: createdAt(),
+  },
+  (r) => [uniqueIndex('matrix_results_revision_idx').on(r.revisionId)],
+);
 
 export const invitations = sqliteTable('invitations', {
   id: id(),

@@ -4,17 +4,20 @@
  * or failure. performJob is the whole worker apart from the message plumbing, so it runs in tests.
  */
 import { runSheet, sweepSheet } from '../lib/kinematics';
-import type { RunSettings, SheetDocument, SweepSettings } from '../lib/sheet/types';
+import { runMatrix, type MatrixResult } from '../lib/sheet/matrix';
+import type { MatrixSettings, RunSettings, SheetDocument, SweepSettings } from '../lib/sheet/types';
 import { runSeries, sweepSeries, transferablesOf, type RunSeries, type SweepSeries } from '../lib/view/series';
 
 export type WorkerJob =
   | { kind: 'run'; document: SheetDocument; settings?: RunSettings }
-  | { kind: 'sweep'; document: SheetDocument; settings: SweepSettings };
+  | { kind: 'sweep'; document: SheetDocument; settings: SweepSettings }
+  | { kind: 'matrix'; document: SheetDocument; settings: MatrixSettings };
 
 export type WorkerReply =
   | { kind: 'progress'; done: number; total: number }
   | { kind: 'run-done'; series: RunSeries }
   | { kind: 'sweep-done'; series: SweepSeries }
+  | { kind: 'matrix-done'; result: MatrixResult; elapsedMs: number }
   | { kind: 'failed'; message: string };
 
 export type PostReply = (reply: WorkerReply, transfer: ArrayBuffer[]) => void;
@@ -27,13 +30,13 @@ function isJob(value: unknown): value is WorkerJob {
   const job = value as Record<string, unknown>;
   const hasDocument = job.document !== null && typeof job.document === 'object';
   if (job.kind === 'run') return hasDocument;
-  return job.kind === 'sweep' && hasDocument && job.settings !== null && typeof job.settings === 'object';
+  return (job.kind === 'sweep' || job.kind === 'matrix') && hasDocument && job.settings !== null && typeof job.settings === 'object';
 }
 
 /** Carries out one job, posting progress and then the result (its typed arrays transferred) or the failure. */
 export function performJob(job: unknown, post: PostReply, now: () => number = () => performance.now()): void {
   if (!isJob(job)) {
-    post({ kind: 'failed', message: 'The worker received a message that is not a run or sweep job.' }, []);
+    post({ kind: 'failed', message: 'The worker received a message that is not a run, sweep or matrix job.' }, []);
     return;
   }
   const onProgress = (done: number, total: number) => post({ kind: 'progress', done, total }, []);
@@ -45,6 +48,9 @@ export function performJob(job: unknown, post: PostReply, now: () => number = ()
       const record = runSheet(job.document, { settings, onProgress, progressEvery });
       const series = runSeries(job.document, record, now() - started);
       post({ kind: 'run-done', series }, transferablesOf(series));
+    } else if (job.kind === 'matrix') {
+      const result = runMatrix(job.document, job.settings, { onProgress });
+      post({ kind: 'matrix-done', result, elapsedMs: now() - started }, []);
     } else {
       const record = sweepSheet(job.document, job.settings, { onProgress });
       const series = sweepSeries(job.document, record, now() - started);

@@ -2,6 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
 import { mkdirSync } from 'node:fs';
 import { join } from 'node:path';
+import { copyDemoSheet } from './demo-copy';
 import { baseUrl, deleteCreatedSheets, launchBrowser, saveScreenshot, SCREENSHOT_DIR, signIn } from './browser';
 
 const EDITOR = { email: 'editor@tarnwhistle.example', password: 'slipless-demo' };
@@ -23,18 +24,9 @@ beforeAll(async () => {
   const context = await browser.newContext({ viewport: { width: 1600, height: 1000 } });
   page = await context.newPage();
   await signIn(page, EDITOR.email, EDITOR.password);
-  const me = await (await page.request.get(`${baseUrl()}/api/me`)).json();
-  const list = await (await page.request.get(`${baseUrl()}/api/sheets?team=${me.currentTeam}&q=${encodeURIComponent('Bearing housing')}`)).json();
-  const demoId = list.items.find((s: { title: string }) => s.title === DEMO_SHEET).id;
-  const demo = await (await page.request.get(`${baseUrl()}/api/sheets/${demoId}`)).json();
-  const document = structuredClone(demo.revision.inputs);
-  document.title = 'Commanded solution check (copy of the bearing housing)';
-  document.hand.fingers[0].joints[1].angle = '10 deg';
-  const response = await page.request.post(`${baseUrl()}/api/sheets`, {
-    data: { teamId: me.currentTeam, title: document.title, tags: ['browser-test'], document, message: 'Copied for the commanded-solution browser test' },
+  sheetId = await copyDemoSheet(page, DEMO_SHEET, 'Commanded solution check (copy of the bearing housing)', (document) => {
+    document.hand.fingers[0].joints[1].angle = '10 deg';
   });
-  expect(response.status()).toBe(201);
-  sheetId = (await response.json()).sheetId;
   created.push(sheetId);
 }, 60_000);
 

@@ -1,7 +1,7 @@
 import { lazy, memo, Suspense, useCallback, useDeferredValue, useEffect, useMemo, useState } from 'react';
 import type { WarningCode } from '../../lib/kinematics';
 import { formatWhen } from '../../lib/client/api';
-import type { SheetPageData } from '../../lib/contract';
+import type { SheetLink, SheetPageData } from '../../lib/contract';
 import { setAt, type DocumentPath } from '../../lib/sheet/document-path';
 import { displayUnitsOf, type DisplayUnits } from '../../lib/sheet/display-units';
 import { parseVariables } from '../../lib/sheet/units';
@@ -28,11 +28,19 @@ const DerivationSection = lazy(() => import('./DerivationSection'));
 const NotesSection = lazy(() => import('./NotesSection'));
 const VariablesEditor = lazy(() => import('./VariablesEditor'));
 const SweepPanel = lazy(() => import('./SweepPanel'));
+const MatrixPanel = lazy(() => import('./MatrixPanel'));
 
 type Solved = NonNullable<ReturnType<typeof useCompute>['lastGood']>;
 
 /** The 3D view and the run and sweep panels, redrawn after the results table (they follow a deferred copy); their charts show the sheet's display units. */
-const SideViews = memo(function SideViews({ solved, units }: { solved: Solved | null; units: DisplayUnits }) {
+/** What the matrix panel needs of the page: the saved revision being edited, whether the caller may write, and the related sheets. */
+interface MatrixContext {
+  sheet: { id: string; title: string; revision: number; latestRevision: number };
+  canEdit: boolean;
+  related: SheetLink[];
+}
+
+const SideViews = memo(function SideViews({ solved, units, matrix }: { solved: Solved | null; units: DisplayUnits; matrix: MatrixContext }) {
   if (!solved) return <div className="h-80 border-2 border-ink bg-paper-deep" />;
   return (
     <>
@@ -40,6 +48,7 @@ const SideViews = memo(function SideViews({ solved, units }: { solved: Solved | 
       <Suspense fallback={<p className="text-sm text-graphite">Loading runs and sweeps…</p>}>
         <RunPanel document={solved.document} units={units} />
         <SweepPanel document={solved.document} units={units} />
+        <MatrixPanel document={solved.document} {...matrix} />
       </Suspense>
     </>
   );
@@ -133,6 +142,14 @@ function Editor({ data }: { data: SheetPageData }) {
   const issues = useMemo(() => new Map((reply && !reply.ok ? reply.issues : []).map((i) => [i.path, i.message])), [reply]);
   const displayChoice = document.display;
   const units = useMemo(() => displayUnitsOf({ display: displayChoice }), [displayChoice]);
+  const matrixContext: MatrixContext = useMemo(
+    () => ({
+      sheet: { id: sheetId, title: data.sheet.title, revision: base.revision, latestRevision },
+      canEdit: data.canEdit,
+      related: [...(data.forkedFrom ? [data.forkedFrom] : []), ...data.forks],
+    }),
+    [sheetId, data.sheet.title, base.revision, latestRevision, data.canEdit, data.forkedFrom, data.forks],
+  );
   const editing: SheetEditing = useMemo(
     () => ({ document, update, issues, variables: variables.values, units, readOnly }),
     [document, update, issues, variables, units, readOnly],
@@ -281,7 +298,7 @@ function Editor({ data }: { data: SheetPageData }) {
             <div className="sticky top-0 z-20 bg-paper pt-2">
               <ResultsSummary result={result} document={lastGood?.document ?? null} stale={pending || (reply !== null && !reply.ok)} />
             </div>
-            <SideViews solved={deferred} units={units} />
+            <SideViews solved={deferred} units={units} matrix={matrixContext} />
           </aside>
         </div>
       </div>

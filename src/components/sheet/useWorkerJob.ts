@@ -1,5 +1,6 @@
 import { useCallback, useEffect, useRef, useState } from 'react';
 import type { LogComparison } from '../../lib/logs/compare';
+import type { MatrixResult } from '../../lib/sheet/matrix';
 import { formatBytes } from '../../lib/view/bytes';
 import type { RunSeries, SweepSeries } from '../../lib/view/series';
 import type { LogCompareReply, LogCompareRequest } from '../../workers/log-compare-protocol';
@@ -46,6 +47,24 @@ function runKind<K extends 'run-done' | 'sweep-done'>(doneKind: K): WorkerKind<W
 export const RUN_JOBS = runKind('run-done');
 /** Sweeps of one input, in values. */
 export const SWEEP_JOBS = runKind('sweep-done');
+
+/** A matrix computed in the browser, with the worker's wall time. */
+export interface LocalMatrix {
+  result: MatrixResult;
+  elapsedMs: number;
+}
+
+/** Test matrices, in runs; cancel terminates the worker (a run never yields). */
+export const MATRIX_JOBS: WorkerKind<WorkerJob, LocalMatrix> = {
+  create: RUN_JOBS.create,
+  post: RUN_JOBS.post,
+  read: (message) => {
+    const reply = message as WorkerReply;
+    if (reply.kind === 'progress') return { kind: 'progress', done: reply.done, total: reply.total };
+    if (reply.kind === 'failed') return { kind: 'failed', message: reply.message };
+    return reply.kind === 'matrix-done' ? { kind: 'done', result: { result: reply.result, elapsedMs: reply.elapsedMs } } : null;
+  },
+};
 
 /** "1.2 MiB of 45 MiB · 12,345 samples · 45,000 samples/s": what a progress or result message of the log worker says in words. */
 function logReadingDetail(reply: { bytesRead: number; totalBytes: number; samples: number; elapsedMs: number }): string {

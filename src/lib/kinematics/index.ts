@@ -48,6 +48,7 @@
  *     warningsAt(record, tick);                  // warning codes raised at that tick
  *     toPlainRunRecord(record);                  // JSON-ready copy
  *     sweepSheet(doc, { path, from, to, steps }); // SweepRecord: one plain result per value of one input
+ *     spreadAxisRotations(n, angle), randomRotations(n, seed)  // target sets of a test matrix, [x, y, z, w] each
  *
  * Once per evaluation (never per tick): sheetCurvature(doc, result) gives each contact's principal
  * curvatures of object and roller, their relative curvature and how fast the contact point moves
@@ -90,7 +91,8 @@ export { createRandom, nextGaussian } from './random';
 export type { RandomSource } from './random';
 export { sweepSheet, sweepValues } from './sweep';
 export type { SweepOptions, SweepRecord } from './sweep';
-export { ROTATION_METRICS } from './metrics';
+export { ROTATION_METRICS, rotationDistances } from './metrics';
+export { fibonacciAxes, randomRotations, spreadAxisRotations } from './target-sets';
 export type { RotationMetric } from './metrics';
 export { sheetCurvature, SINGULAR_CURVATURE_RATIO } from './curvature';
 export type { ContactCurvature, ContactWander, RelativeCurvature, SurfaceCurvature, SurfaceRegion } from './curvature';

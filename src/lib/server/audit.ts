@@ -62,6 +62,7 @@ export const AUDIT_ACTIONS = {
   'log.upload': 'Uploaded a controller log',
   'log.delete': 'Deleted a controller log',
   'log.compare': 'Compared a controller log with the sheet',
+  'sheet.matrix': 'Ran the test matrix of a sheet revision',
   'demo.seed': 'Seeded the demo data',
 } as const satisfies Record<string, string>;
 export type KnownAuditAction = keyof typeof AUDIT_ACTIONS;

@@ -9,6 +9,8 @@ import type {
   FingerInput,
   GraspQualitySettings,
   JointInput,
+  MatrixGenerator,
+  MatrixSettings,
   ObjectAcceleration,
   ObjectShape,
   Pose,
@@ -274,6 +276,29 @@ const axisAngleSchema = z
   });
 named(axisAngleSchema, 'AxisAngle', 'Rotation by angle about axis (right-hand rule)');
 
+/** q scaled to unit length, or undefined after an issue at "orientation" when it is zero, too large, or off unit length without normalize. */
+function unitOrientation(q: QuaternionInput, normalize: boolean, ctx: { addIssue: (issue: z.core.$ZodRawIssue) => void }, advice: string): QuaternionInput | undefined {
+  const norm = Math.hypot(q.w, q.x, q.y, q.z);
+  if (!(norm > MIN_AXIS_NORM)) {
+    ctx.addIssue({ code: 'custom', message: 'orientation quaternion must not be zero', path: ['orientation'], input: q });
+    return undefined;
+  }
+  if (!Number.isFinite(norm)) {
+    ctx.addIssue({ code: 'custom', message: 'orientation quaternion components are too large to scale to unit length', path: ['orientation'], input: q });
+    return undefined;
+  }
+  if (Math.abs(norm - 1) > QUATERNION_NORM_TOLERANCE && !normalize) {
+    ctx.addIssue({
+      code: 'custom',
+      message: `orientation quaternion is not a unit quaternion (|q| = ${norm.toPrecision(8)}, allowed 1 ± ${QUATERNION_NORM_TOLERANCE}); ${advice}`,
+      path: ['orientation'],
+      input: q,
+    });
+    return undefined;
+  }
+  return { w: q.w / norm, x: q.x / norm, y: q.y / norm, z: q.z / norm };
+}
+
 const poseSchema = z
   .strictObject({
     position: lengthVector,
@@ -285,29 +310,8 @@ const poseSchema = z
     ),
   })
   .transform((pose, ctx): Pose => {
-    const q = pose.orientation ?? IDENTITY;
-    const norm = Math.hypot(q.w, q.x, q.y, q.z);
-    if (!(norm > MIN_AXIS_NORM)) {
-      ctx.addIssue({ code: 'custom', message: 'orientation quaternion must not be zero', path: ['orientation'], input: q });
-      return z.NEVER;
-    }
-    if (!Number.isFinite(norm)) {
-      ctx.addIssue({ code: 'custom', message: 'orientation quaternion components are too large to scale to unit length', path: ['orientation'], input: q });
-      return z.NEVER;
-    }
-    if (Math.abs(norm - 1) > QUATERNION_NORM_TOLERANCE && pose.normalize !== true) {
-      ctx.addIssue({
-        code: 'custom',
-        message: `orientation quaternion is not a unit quaternion (|q| = ${norm.toPrecision(8)}, allowed 1 ± ${QUATERNION_NORM_TOLERANCE}); fix it or set "normalize": true on this pose`,
-        path: ['orientation'],
-        input: q,
-      });
-      return z.NEVER;
-    }
-    return {
-      position: pose.position,
-      orientation: { w: q.w / norm, x: q.x / norm, y: q.y / norm, z: q.z / norm },
-    };
+    const orientation = unitOrientation(pose.orientation ?? IDENTITY, pose.normalize === true, ctx, 'fix it or set "normalize": true on this pose');
+    return orientation === undefined ? z.NEVER : { position: pose.position, orientation };
   });
 
 named(poseSchema, 'Pose', 'Position and orientation (quaternion or axis-angle; identity when absent)');
@@ -591,6 +595,68 @@ const sweepSchema = z
 
 named(sweepSchema, 'Sweep', 'Vary one numeric input (JSON pointer into the SI document) over a range');
 
+/** Most targets of a matrix (listed and generated) and most start poses: targets times starts runs, each up to the run's tick limit. */
+export const MAX_MATRIX_TARGETS = 500;
+export const MAX_MATRIX_STARTS = 20;
+export const ROTATION_METRIC_KEYS = ['phi2', 'phi3', 'phi4', 'phi5', 'phi6'] as const;
+
+const groupLabel = z.string({ error: expect('expected a group label (text)') }).trim().min(1, { error: 'must not be empty' }).max(60);
+const matrixOrientation = z.union([quaternionSchema, axisAngleSchema]);
+
+const matrixTargetSchema = z
+  .strictObject({ orientation: matrixOrientation, group: named(groupLabel.optional(), undefined, 'Group whose mean and standard deviation this target counts toward') })
+  .transform((t, ctx) => {
+    const orientation = unitOrientation(t.orientation, false, ctx, 'fix it');
+    if (orientation === undefined) return z.NEVER;
+    return t.group === undefined ? { orientation } : { orientation, group: t.group };
+  });
+named(matrixTargetSchema, 'MatrixTarget', 'Rotation (quaternion or axis-angle, palm frame) applied to the start orientation, with an optional group label');
+
+const matrixStartSchema = z
+  .strictObject({ orientation: matrixOrientation, label: groupLabel.optional() })
+  .transform((s, ctx) => {
+    const orientation = unitOrientation(s.orientation, false, ctx, 'fix it');
+    if (orientation === undefined) return z.NEVER;
+    return s.label === undefined ? { orientation } : { orientation, label: s.label };
+  });
+named(matrixStartSchema, 'MatrixStart', 'Object orientation to start from (quaternion or axis-angle, palm frame); position and joint angles are the sheet\'s');
+
+const generatorCount = z
+  .int({ error: expect('expected a whole number of targets') })
+  .min(1, { error: 'at least one target' })
+  .max(MAX_MATRIX_TARGETS, { error: `at most ${MAX_MATRIX_TARGETS} targets` });
+
+const matrixGeneratorSchema = z
+  .discriminatedUnion(
+    'kind',
+    [
+      z.strictObject({ kind: z.literal('spread-axes'), count: generatorCount, angle, group: groupLabel.optional() }),
+      z.strictObject({ kind: z.literal('random'), count: generatorCount, seed: z.int({ error: expect('expected an integer seed') }), group: groupLabel.optional() }),
+    ],
+    { error: expect('expected a generator with kind "spread-axes" (count, angle) or "random" (count, seed)') },
+  )
+  .transform((g): MatrixGenerator => g);
+named(matrixGeneratorSchema, 'MatrixGenerator', 'Targets by rule: "spread-axes" turns by angle about count axes spread evenly over the sphere (Fibonacci lattice); "random" draws count uniform rotations from seed');
+
+const matrixSchema = z
+  .strictObject({
+    targets: z.array(matrixTargetSchema).max(MAX_MATRIX_TARGETS, { error: `at most ${MAX_MATRIX_TARGETS} targets` }).default([]),
+    starts: z.array(matrixStartSchema).max(MAX_MATRIX_STARTS, { error: `at most ${MAX_MATRIX_STARTS} start poses` }).default([]),
+    generators: z.array(matrixGeneratorSchema).max(20, { error: 'at most 20 generators' }).default([]),
+    metric: named(
+      z.enum(ROTATION_METRIC_KEYS, { error: expect('expected a metric: "phi2", "phi3", "phi4", "phi5" or "phi6"') }).default('phi6'),
+      undefined,
+      'Orientation error reported, by Huynh (2009): phi2 quaternion difference, phi3 inner-product angle, phi4 inner-product distance, phi5 matrix deviation, phi6 geodesic angle (default)',
+    ),
+  })
+  .transform((m, ctx): MatrixSettings => {
+    const total = m.targets.length + m.generators.reduce((sum, g) => sum + g.count, 0);
+    if (total === 0) ctx.addIssue({ code: 'custom', message: 'a matrix needs at least one target (listed or generated)', path: ['targets'], input: m.targets });
+    else if (total > MAX_MATRIX_TARGETS) ctx.addIssue({ code: 'custom', message: `${total} targets listed and generated; at most ${MAX_MATRIX_TARGETS}`, path: ['generators'], input: m.generators });
+    return m;
+  });
+named(matrixSchema, 'Matrix', 'Test matrix: every target from every start pose, run to convergence or failure with the run settings');
+
 const unitChoice = <T extends readonly [string, ...string[]]>(units: T) =>
   z.enum(units, { error: expect(`expected one of ${units.map((u) => `"${u}"`).join(', ')}`) });
 
@@ -639,6 +705,7 @@ export const sheetSchema = z
     hand: handSchema,
     motion: z.strictObject({ target: poseSchema, run: runSchema.prefault({}) }),
     sweep: sweepSchema.optional(),
+    matrix: matrixSchema.optional(),
     solver: solverSchema.prefault({}),
     graspQuality: graspQualitySchema.optional(),
     commanded: named(
@@ -664,6 +731,7 @@ export const sheetSchema = z
     if (d.notes !== undefined) doc.notes = d.notes;
     if (d.commanded !== undefined) doc.commanded = d.commanded;
     if (d.display !== undefined) doc.display = d.display;
+    if (d.matrix !== undefined) doc.matrix = d.matrix;
     if (d.graspQuality !== undefined) {
       const perFinger = d.graspQuality.coneEdges + (d.solver.softFinger && d.graspQuality.torsionalFriction > 0 ? 2 : 0);
       const generators = perFinger * d.hand.fingers.length;

@@ -143,6 +143,34 @@ export interface SweepSettings {
   steps: number;
 }
 
+/** A rotation metric of Huynh (2009), as ROTATION_METRICS names them. */
+export type RotationMetricKey = 'phi2' | 'phi3' | 'phi4' | 'phi5' | 'phi6';
+
+/** One target of a test matrix: a rotation applied to the start orientation (palm frame), with the group its statistics go to. */
+export interface MatrixTarget {
+  orientation: QuaternionInput;
+  group?: string;
+}
+
+/** One start pose of a test matrix: the object orientation to start from (palm frame); the position and joint angles are the sheet's. */
+export interface MatrixStart {
+  orientation: QuaternionInput;
+  label?: string;
+}
+
+/** Targets made by rule: count axes spread evenly over the sphere, each turned by angle (rad), or count uniformly random rotations from a seed. */
+export type MatrixGenerator =
+  | { kind: 'spread-axes'; count: number; angle: number; group?: string }
+  | { kind: 'random'; count: number; seed: number; group?: string };
+
+/** A test matrix: every target run from every start pose (none = the sheet's object pose) toward convergence, errors reported by metric. */
+export interface MatrixSettings {
+  targets: MatrixTarget[];
+  starts: MatrixStart[];
+  generators: MatrixGenerator[];
+  metric: RotationMetricKey;
+}
+
 export interface SheetDocument {
   format: 'slipless.sheet';
   version: 1;
@@ -153,6 +181,8 @@ export interface SheetDocument {
   hand: { name: string; fingers: FingerInput[] };
   motion: { target: Pose; run: RunSettings };
   sweep?: SweepSettings;
+  /** Target orientations, start poses and generators of a test matrix; absent = no matrix. */
+  matrix?: MatrixSettings;
   solver: SolverSettings;
   graspQuality?: GraspQualitySettings;
   /** Which solution's joint rates are commanded; absent = 'steer-and-roll', what runs followed before the choice existed. */

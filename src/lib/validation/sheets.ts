@@ -50,3 +50,8 @@ export const listRevisionsQuery = z.object({
   pageSize: z.coerce.number().int().min(1).max(100).default(REVISION_PAGE_SIZE),
 });
 export type ListRevisionsQuery = z.infer<typeof listRevisionsQuery>;
+
+/** A revision number in a route path (`/revisions/3/...`). */
+export const revisionParam = z.object({
+  revision: z.coerce.number({ error: 'expected a revision number' }).int({ error: 'expected a whole revision number' }).min(1, { error: 'revision numbers start at 1' }).max(1_000_000_000),
+});

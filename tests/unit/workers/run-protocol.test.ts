@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { runSheet } from '../../../src/lib/kinematics';
+import { runMatrix } from '../../../src/lib/sheet/matrix';
 import { createSheetFromTemplate } from '../../../src/lib/sheet/templates';
 import { performJob, type WorkerReply } from '../../../src/workers/run-protocol';
 
@@ -18,6 +19,18 @@ function perform(job: unknown) {
 }
 
 describe('performJob', () => {
+  it('runs a matrix job, reporting progress once per run and then the result of runMatrix for the same settings', () => {
+    const doc = sheet(50);
+    const settings = { targets: [{ orientation: { w: Math.cos(0.1), x: Math.sin(0.1), y: 0, z: 0 } }], starts: [], generators: [{ kind: 'random' as const, count: 2, seed: 4 }], metric: 'phi3' as const };
+    const replies = perform({ kind: 'matrix', document: doc, settings });
+    expect(replies.filter((r) => r.reply.kind === 'progress').map((r) => r.reply)).toEqual([1, 2, 3].map((done) => ({ kind: 'progress', done, total: 3 })));
+    const last = replies.at(-1)!.reply;
+    expect(last.kind).toBe('matrix-done');
+    if (last.kind !== 'matrix-done') return;
+    expect(last.result).toEqual(runMatrix(doc, settings));
+    expect(last.elapsedMs).toBe(7);
+  });
+
   it('runs the sheet to its tick limit, reporting progress about 200 times and then one result', () => {
     const doc = sheet(1000);
     const replies = perform({ kind: 'run', document: doc });
@@ -59,7 +72,7 @@ describe('performJob', () => {
     const bad = perform({ kind: 'sweep', document: sheet(10), settings: { path: '/object/nowhere', from: 0, to: 1, steps: 2 } });
     expect(bad).toEqual([{ reply: { kind: 'failed', message: expect.stringMatching(/does not exist/) }, transfer: [] }]);
     for (const junk of [null, 'run', { kind: 'run' }, { kind: 'sweep', document: {} }, { kind: 'explode', document: {} }]) {
-      expect(perform(junk)).toEqual([{ reply: { kind: 'failed', message: expect.stringMatching(/not a run or sweep job/) }, transfer: [] }]);
+      expect(perform(junk)).toEqual([{ reply: { kind: 'failed', message: expect.stringMatching(/not a run, sweep or matrix job/) }, transfer: [] }]);
     }
   });
 });

@@ -11,6 +11,7 @@ import { identityForUser } from '../../../../src/lib/server/identity';
 import { hashPassword } from '../../../../src/lib/server/passwords';
 import { getLogStorage } from '../../../../src/lib/server/log-storage';
 import { runLogComparison } from '../../../../src/lib/server/log-comparisons';
+import { computeMatrixResult } from '../../../../src/lib/server/matrix-results';
 import { storeLogUpload } from '../../../../src/lib/server/log-uploads';
 import { MAX_LOG_BYTES } from '../../../../src/lib/validation/log-uploads';
 import { createTestSheet } from '../../../helpers/test-sheets';
@@ -92,6 +93,20 @@ async function deleteTableSheets(): Promise<void> {
 async function scratchSheet(fx: Fixture, extra: Omit<Prepared, 'params' | 'cleanup'> = {}): Promise<Prepared> {
   const { sheetId } = await createTestSheet(await getDatabase(), fx.teamId, TABLE_SHEET_TITLE, exampleDocument);
   return { params: { sheetId }, cleanup: deleteTableSheets, ...extra };
+}
+
+/** The example with a one-target test matrix, so a matrix computes within the table's time. */
+const matrixDocument = { ...(exampleDocument as Record<string, unknown>), matrix: { targets: [{ orientation: { axis: [1, 0, 0], angle: '5 deg' } }] } };
+
+/** A scratch sheet whose revision 1 has a matrix, named by `revision`; with `computed`, its result is already stored. */
+async function scratchMatrixSheet(fx: Fixture, computed: boolean): Promise<Prepared> {
+  const database = await getDatabase();
+  const { sheetId } = await createTestSheet(database, fx.teamId, TABLE_SHEET_TITLE, matrixDocument);
+  if (computed) {
+    const stored = await computeMatrixResult(database, { id: sheetId, teamId: fx.teamId }, 1, { userId: fx.sessions.editor.user.id });
+    if (!stored.ok) throw new Error(stored.error.message);
+  }
+  return { params: { sheetId, revision: '1' }, cleanup: deleteTableSheets };
 }
 
 /** A small controller log of the scratch sheet, as a CSV body. */
@@ -362,6 +377,26 @@ const ROWS: Row[] = [
     variant: 'save on the latest revision',
     prepare: (fx) => scratchSheet(fx, { body: { baseRevision: 1, document: exampleDocument, message: 'table' } }),
     expect: SHEET_WRITERS(201),
+  },
+  {
+    route: 'sheets/[sheetId]/revisions/[revision]/matrix.ts',
+    method: 'GET',
+    prepare: (fx) => scratchMatrixSheet(fx, true),
+    expect: { ...SIGNED_IN_OK, other: 404 },
+  },
+  {
+    route: 'sheets/[sheetId]/revisions/[revision]/matrix.ts',
+    method: 'POST',
+    variant: 'run the matrix of revision 1',
+    prepare: (fx) => scratchMatrixSheet(fx, false),
+    expect: SHEET_WRITERS(201),
+  },
+  {
+    route: 'sheets/[sheetId]/revisions/[revision]/matrix.ts',
+    method: 'POST',
+    variant: 'a revision without a matrix',
+    prepare: (fx) => scratchSheet(fx).then((prepared) => ({ ...prepared, params: { ...prepared.params, revision: '1' } })),
+    expect: SHEET_WRITERS(400),
   },
   {
     route: 'sheets/[sheetId]/fork.ts',
