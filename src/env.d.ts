@@ -6,5 +6,7 @@ declare namespace App {
     identity: import('./lib/server/access').Identity | null;
     /** The team the user is working in (chosen by cookie, else their first). */
     team: import('./lib/server/access').TeamMembership | null;
+    /** The quoted numbers of the worked example being rendered, by marker key (src/lib/examples/quotes.ts); set by its page. */
+    exampleQuotes?: ReadonlyMap<string, import('./lib/examples/quotes').Quote>;
   }
 }
