@@ -23,11 +23,13 @@ import { withVariables } from './variables';
  *   (`/object/shape/radius`, with `si` naming its SI unit), `run.ticks`, `run.time`,
  *   `run.positionError`, `run.orientationError` (part: a metric key, default phi6), `warning.value`
  *   or `warning.threshold` (part: the warning code), or `log.maxResidual`, `log.rmsResidual`,
- *   `log.withinShare` (per cent; part: the joint name) and `log.samples` for the example's controller log;
+ *   `log.withinShare` (per cent; part: the joint name), `log.samples`, `log.rateTolerance` and
+ *   `log.slipTolerance` for the example's controller log;
  * - `sheet`: which of the example's sheets (its file name without .json; the first when absent);
  * - `finger`: the finger's name, for finger and joint outputs and warnings;
  * - `part`: a joint name, x, y or z, or a 0-based index, for outputs with several values;
  * - `set`: variable values for this number, `name = value; name = value`;
+ * - `si`: the SI unit of a pointer's number, or of an output the catalogue lists without a unit;
  * - `unit`: the unit to print (converted by mathjs); the output's display unit when absent;
  * - `digits`: significant digits (3 when absent); `bare`: print the number without its unit.
  */
@@ -168,6 +170,8 @@ export class QuoteBook {
   private logQuote(spec: QuoteSpec): Quote {
     if (!this.comparison) throw new Error(`quote ${quoteKey(spec)}: the example has no controller log (or prepareLog was not awaited)`);
     if (spec.of === 'log.samples') return format(this.comparison.samples, '', spec);
+    if (spec.of === 'log.rateTolerance') return format(this.comparison.tolerances.rate, 'rad/s', spec);
+    if (spec.of === 'log.slipTolerance') return format(this.comparison.tolerances.slip, 'm/s', spec, 'mm/s');
     const joint = this.comparison.joints.find((j) => j.joint === spec.part);
     if (!joint) throw new Error(`quote ${quoteKey(spec)}: the log compares no joint "${spec.part}"`);
     if (spec.of === 'log.maxResidual') return format(joint.max, 'rad/s', spec);
@@ -220,7 +224,9 @@ export class QuoteBook {
       return format(value, spec.si ?? '', spec);
     }
     const read = readOutput(result, spec);
-    return typeof read.value === 'string' ? { value: read.value, text: read.value } : format(read.value, read.unit, spec, read.shownUnit);
+    if (typeof read.value === 'string') return { value: read.value, text: read.value };
+    // An output without a unit of its own (a grasp map singular value is 1 or m by direction) takes the marker's `si`.
+    return read.unit === '' && spec.si ? format(read.value, spec.si, spec) : format(read.value, read.unit, spec, read.shownUnit);
   }
 }
 
