@@ -91,8 +91,12 @@ export function readSetting(set: string | undefined): Record<string, string> {
   return values;
 }
 
-function format(valueSI: number, siUnit: string, spec: QuoteSpec, fallbackUnit = siUnit): Quote {
+/** Below this magnitude (SI) a number is the solver's rounding, not a value: the prose says 0 rather than 3e-16. */
+const ROUNDING_FLOOR = 1e-12;
+
+function format(computedSI: number, siUnit: string, spec: QuoteSpec, fallbackUnit = siUnit): Quote {
   const unit = spec.unit ?? fallbackUnit;
+  const valueSI = Math.abs(computedSI) < ROUNDING_FLOOR ? 0 : computedSI;
   const value = siUnit === unit || siUnit === '' || siUnit === '1' ? valueSI : valueSI * unitFactor(siUnit, unit);
   if (!Number.isFinite(value)) throw new Error(`quote ${quoteKey(spec)} is not a finite number (${value})`);
   const number = formatShownNumber(value, spec.digits === undefined ? 3 : Number(spec.digits));
