@@ -49,14 +49,14 @@ describe('worked examples, signed out', () => {
     expect(response?.status()).toBe(200);
     expect(await page.locator('.katex').count()).toBeGreaterThan(5);
     // Rolling without slipping: |roll rate| = ω R / ρ = 0.75 rad/s × 20 mm / 12 mm = 1.25 rad/s (the sheet's inputs, worked by hand).
-    expect(await page.locator('[data-quote="steer.rollRate"]').first().textContent()).toBe('−1.25 rad/s');
+    expect(await page.locator('[data-quote="steer.rollRate"]').first().textContent()).toBe('-1.25 rad/s');
     expect(await page.getByTestId('open-as-sheet-sign-in').getAttribute('href')).toBe(`/sign-in?callbackUrl=${encodeURIComponent(EXAMPLE)}`);
     await page.getByTestId('example-calculator').scrollIntoViewIfNeeded();
-    expect(await outputAfterCompute(page, 2)).toBe('−1.25 rad/s');
+    expect(await outputAfterCompute(page, 2)).toBe('-1.25 rad/s');
     await saveScreenshot(page, 'example-one-contact');
     // How heavy the page is: every script it loaded (islands, React, the compute worker), gzipped as the build wrote them.
     const unique = [...new Set(scripts)].filter((path) => path.startsWith('/_astro/'));
-    const gzipped = unique.reduce((sum, path) => sum + gzipSync(readFileSync(`dist/client${path}`)).length, 0);
+    const gzipped = unique.reduce((sum, path) => sum + gzipSync(readFileSync(`dist/client${path}`, 'utf8')).length, 0);
     console.info(`example page: ${unique.length} scripts, ${(gzipped / 1024).toFixed(1)} KiB gzipped`);
     expect(unique.length).toBeGreaterThan(0);
   });
@@ -64,10 +64,10 @@ describe('worked examples, signed out', () => {
   it('recomputes when an input in the text changes', async () => {
     // ω R / ρ with the spin doubled: 1.5 rad/s × 20 mm / 12 mm = 2.5 rad/s.
     await page.getByTestId('calculator-input-spinRate').fill('1.5 rad/s');
-    await expect.poll(() => outputAfterCompute(page, 2)).toBe('−2.5 rad/s');
+    await expect.poll(() => outputAfterCompute(page, 2)).toBe('-2.5 rad/s');
     // And a roller of 16 mm: 1.5 × 20 / 16 = 1.875 rad/s.
     await page.getByTestId('calculator-input-rollerRadius').fill('16 mm');
-    await expect.poll(() => outputAfterCompute(page, 2)).toBe('−1.875 rad/s');
+    await expect.poll(() => outputAfterCompute(page, 2)).toBe('-1.875 rad/s');
     await page.getByTestId('calculator-input-rollerRadius').fill('16 parsecs');
     await expect.poll(async () => page.getByTestId('calculator-issues').isVisible()).toBe(true);
   });

@@ -101,7 +101,7 @@ function format(computedSI: number, siUnit: string, spec: QuoteSpec, fallbackUni
   if (!Number.isFinite(value)) throw new Error(`quote ${quoteKey(spec)} is not a finite number (${value})`);
   const number = formatShownNumber(value, spec.digits === undefined ? 3 : Number(spec.digits));
   const shown = unit === '' || unit === '1' || spec.bare !== undefined ? number : `${number} ${unit}`;
-  return { value, text: shown.replace(/^-/, '−') };
+  return { value, text: shown };
 }
 
 function pointerValue(root: unknown, pointer: string): unknown {
