@@ -1,11 +1,6 @@
 import { useMemo, useState } from 'react';
-import type { PlainSheetResult } from '../../lib/kinematics';
-import { readOutput, type OutputAddress } from '../../lib/examples/read-output';
 import { readVariableEntries, withVariables } from '../../lib/examples/variables';
-import { formatShownNumber } from '../../lib/sheet/outputs';
-import { describeWarning } from '../../lib/sheet/warning-notes';
-import { unitFactor } from '../../lib/sheet/units';
-import { buildSceneModel } from '../../lib/view/scene-model';
+import type { CalculatorOutput, ExampleReply } from '../../workers/example-protocol';
 import SceneFallback from '../sheet/SceneFallback';
 import { SafetyCaution } from '../sheet/SafetyCaution';
 import { fieldInput, SEVERITY_CLASS, smallLabel } from '../sheet/sheet-styles';
@@ -17,30 +12,14 @@ export interface CalculatorInput {
   label: string;
 }
 
-export interface CalculatorOutput extends OutputAddress {
-  label: string;
-  /** The unit to show (mathjs conversion from SI); the editor's display unit when absent. */
-  unit?: string;
-}
-
-/** One output of the latest result as text in its unit, or "—" when it cannot be read. */
-function outputText(result: PlainSheetResult, output: CalculatorOutput): string {
-  try {
-    const read = readOutput(result, output);
-    if (typeof read.value === 'string') return read.value;
-    const unit = output.unit ?? read.shownUnit;
-    const plain = read.unit === '' || read.unit === '1' || unit === read.unit;
-    const number = formatShownNumber(plain ? read.value : read.value * unitFactor(read.unit, unit), 4);
-    return unit === '' || unit === '1' ? number : `${number} ${unit}`;
-  } catch {
-    return '—';
-  }
+function createExampleWorker(): Worker {
+  return new Worker(new URL('../../workers/example.worker.ts', import.meta.url), { type: 'module' });
 }
 
 /**
  * A live calculator in a worked example: a few of the sheet's variables as text fields; every
- * change re-solves the sheet in the compute worker (the editor's own pipeline) and the chosen
- * results, the warnings and a small drawing follow.
+ * change re-solves the sheet in a worker (evaluate.ts, the editor's own pipeline, through
+ * example-protocol.ts) and the chosen results, the warnings and a small drawing follow.
  */
 export default function ExampleCalculator({
   document,
@@ -56,11 +35,10 @@ export default function ExampleCalculator({
   const written = useMemo(() => readVariableEntries(document), [document]);
   const [values, setValues] = useState<Record<string, string>>(() => Object.fromEntries(inputs.map((i) => [i.name, written.get(i.name) ?? ''])));
   const changed = useMemo(() => withVariables(document, values), [document, values]);
-  const { reply, lastGood, pending } = useCompute(changed);
+  const extra = useMemo(() => ({ outputs }), [outputs]);
+  const { reply, lastGood, pending } = useCompute<Extract<ExampleReply, { type: 'computed' }>>(changed, { create: createExampleWorker, extra });
   const good = reply?.ok ? reply : lastGood;
-  const model = useMemo(() => (good ? buildSceneModel(good.document, good.result) : null), [good]);
-  const fingers = good?.result.fingers ?? [];
-  const warnings = good ? good.result.warnings.map((w) => describeWarning(w, fingers)) : [];
+  const warnings = good?.warnings ?? [];
 
   return (
     <figure className="not-prose my-6 border-2 border-ink bg-paper p-4 shadow-[4px_4px_0_0_var(--color-ink)]" data-testid="example-calculator" data-pending={pending}>
@@ -100,7 +78,7 @@ export default function ExampleCalculator({
                     {output.label}
                   </th>
                   <td className="num py-1 text-right" data-testid={`calculator-output-${i}`}>
-                    {good ? outputText(good.result, output) : '…'}
+                    {good ? good.outputs[i] : '…'}
                   </td>
                 </tr>
               ))}
@@ -116,7 +94,7 @@ export default function ExampleCalculator({
           </ul>
           <SafetyCaution />
         </div>
-        {model && <SceneFallback model={model} />}
+        {good && <SceneFallback model={good.scene} />}
       </div>
     </figure>
   );
