@@ -8,5 +8,7 @@ declare namespace App {
     team: import('./lib/server/access').TeamMembership | null;
     /** The route pattern (`/api/sheets/[sheetId]`) for request logs and metrics. */
     route?: string;
+    /** The quoted numbers of the worked example being rendered, by marker key (src/lib/examples/quotes.ts); set by its page. */
+    exampleQuotes?: ReadonlyMap<string, import('./lib/examples/quotes').Quote>;
   }
 }

@@ -129,7 +129,7 @@ function Editor({ data }: { data: SheetPageData }) {
   // The worker derives step by step only once the derivation section has been on screen.
   const [deriving, setDeriving] = useState(false);
   const startDeriving = useCallback(() => setDeriving(true), []);
-  const { reply, lastGood, pending } = useCompute(document, deriving);
+  const { reply, lastGood, pending } = useCompute(document, { derive: deriving });
   const deferred = useDeferredValue(lastGood);
   useEffect(() => {
     if (!reply || performance.getEntriesByName('slipless:edit', 'mark').length === 0) return;

@@ -3,25 +3,50 @@ import type { ComputeReply, ComputeRequest } from '../../workers/compute-protoco
 
 type Computed = Extract<ComputeReply, { type: 'computed' }>;
 
+/** The sheet editor's worker: evaluation with the derivation. */
+function createComputeWorker(): Worker {
+  return new Worker(new URL('../../workers/compute.worker.ts', import.meta.url), { type: 'module' });
+}
+
+type ComputedLike = { type: 'computed'; id: number; ok: boolean; elapsedMs?: number };
+
+interface ComputeOptions {
+  /** Another worker answering the same request (with `extra` fields) by `{type: 'computed', id, ok}`. */
+  create?: () => Worker;
+  extra?: Readonly<Record<string, unknown>>;
+  /** Ask for the step-by-step derivation too (the sheet page asks once it is on screen). */
+  derive?: boolean;
+}
+
+interface ComputeState<Reply extends ComputedLike> {
+  reply: Reply | null;
+  lastGood: Extract<Reply, { ok: true }> | null;
+  pending: boolean;
+}
+
 /**
  * Recomputes the sheet in a Web Worker on every change, without a debounce: a request goes out at
  * once when the worker is idle; while it is busy only the newest document waits (older ones are
  * dropped), so fast typing never queues up solves. Only the reply to the newest request is kept.
- * `derive` asks for the step-by-step derivation too (the page asks once it is on screen).
  */
-export function useCompute(document: unknown, derive = true) {
+export function useCompute<Reply extends ComputedLike>(document: unknown, options: ComputeOptions): ComputeState<Reply>;
+export function useCompute(document: unknown, options?: ComputeOptions): ComputeState<Computed>;
+export function useCompute(
+  document: unknown,
+  { create = createComputeWorker, extra, derive = true }: ComputeOptions = {},
+): { reply: ComputedLike | null; lastGood: ComputedLike | null; pending: boolean } {
   const worker = useRef<Worker | null>(null);
   const latest = useRef(0);
   const busy = useRef(false);
   const waiting = useRef<ComputeRequest | null>(null);
-  const [reply, setReply] = useState<Computed | null>(null);
-  const [lastGood, setLastGood] = useState<Extract<Computed, { ok: true }> | null>(null);
+  const [reply, setReply] = useState<ComputedLike | null>(null);
+  const [lastGood, setLastGood] = useState<ComputedLike | null>(null);
   const [pending, setPending] = useState(true);
 
   useEffect(() => {
-    const created = new Worker(new URL('../../workers/compute.worker.ts', import.meta.url), { type: 'module' });
+    const created = create();
     busy.current = false;
-    created.onmessage = (event: MessageEvent<ComputeReply>) => {
+    created.onmessage = (event: MessageEvent<ComputedLike | { type: 'refused' }>) => {
       const message = event.data;
       busy.current = false;
       const next = waiting.current;
@@ -44,17 +69,17 @@ export function useCompute(document: unknown, derive = true) {
       waiting.current = null;
     }
     return () => created.terminate();
-  }, []);
+  }, [create]);
 
   useEffect(() => {
     setPending(true);
-    const request: ComputeRequest = { type: 'compute', id: ++latest.current, document, derive };
+    const request: ComputeRequest = { type: 'compute', id: ++latest.current, document, derive, ...extra };
     if (busy.current || !worker.current) waiting.current = request;
     else {
       busy.current = true;
       worker.current.postMessage(request);
     }
-  }, [document, derive]);
+  }, [document, derive, extra]);
 
   return { reply, lastGood, pending };
 }

@@ -29,9 +29,10 @@ export function needsSignIn(routePattern: string): boolean {
 }
 
 /**
- * Pages anyone may open: the home page, signing in and out, and the pages behind links mailed to
- * people who have no session yet. Every page is in exactly one of the two lists (a unit test reads
- * src/pages), so a new page cannot end up public by being forgotten.
+ * Pages anyone may open: the home page, signing in and out, the pages behind links mailed to
+ * people who have no session yet, and the worked examples (read like product documentation).
+ * Every page is in exactly one of the two lists (a unit test reads src/pages), so a new page
+ * cannot end up public by being forgotten.
  */
 export const PUBLIC_PAGES: ReadonlySet<string> = new Set([
   '/',
@@ -41,6 +42,8 @@ export const PUBLIC_PAGES: ReadonlySet<string> = new Set([
   '/invite/[token]',
   '/reset-password',
   '/reset-password/[token]',
+  '/examples',
+  '/examples/[slug]',
 ]);
 
 /** Where a signed-out visitor of `url` signs in; afterwards the sign-in page sends them back to the same path and query. */
