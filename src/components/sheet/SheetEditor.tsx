@@ -19,7 +19,7 @@ import ResultsSummary from './ResultsSummary';
 import SavePanel from './SavePanel';
 import SceneView from './SceneView';
 import TitleBlock from './TitleBlock';
-import { useCompute } from './useCompute';
+import { useCompute, type ComputedSheet } from './useCompute';
 import WhenSeen from './WhenSeen';
 
 const RunPanel = lazy(() => import('./RunPanel'));
@@ -30,7 +30,7 @@ const VariablesEditor = lazy(() => import('./VariablesEditor'));
 const SweepPanel = lazy(() => import('./SweepPanel'));
 const MatrixPanel = lazy(() => import('./MatrixPanel'));
 
-type Solved = NonNullable<ReturnType<typeof useCompute>['lastGood']>;
+type Solved = ComputedSheet;
 
 /** The 3D view and the run and sweep panels, redrawn after the results table (they follow a deferred copy); their charts show the sheet's display units. */
 /** What the matrix panel needs of the page: the saved revision being edited, whether the caller may write, and the related sheets. */

@@ -2,6 +2,8 @@ import { useEffect, useRef, useState } from 'react';
 import type { ComputeReply, ComputeRequest } from '../../workers/compute-protocol';
 
 type Computed = Extract<ComputeReply, { type: 'computed' }>;
+/** A successful evaluation of the sheet editor's worker. */
+export type ComputedSheet = Extract<Computed, { ok: true }>;
 
 /** The sheet editor's worker: evaluation with the derivation. */
 function createComputeWorker(): Worker {
@@ -29,8 +31,8 @@ interface ComputeState<Reply extends ComputedLike> {
  * once when the worker is idle; while it is busy only the newest document waits (older ones are
  * dropped), so fast typing never queues up solves. Only the reply to the newest request is kept.
  */
-export function useCompute<Reply extends ComputedLike>(document: unknown, options: ComputeOptions): ComputeState<Reply>;
 export function useCompute(document: unknown, options?: ComputeOptions): ComputeState<Computed>;
+export function useCompute<Reply extends ComputedLike>(document: unknown, options: ComputeOptions): ComputeState<Reply>;
 export function useCompute(
   document: unknown,
   { create = createComputeWorker, extra, derive = true }: ComputeOptions = {},
