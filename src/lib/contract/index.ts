@@ -9,3 +9,4 @@ export * from './sheets';
 export * from './teams';
 export * from './log-uploads';
 export * from './log-comparisons';
+export * from './search';
