@@ -17,8 +17,9 @@ export default defineConfig({
   markdown: {
     remarkPlugins: [remarkMath],
     // Heading ids first (Astro's own slugs, which `render()` also reports as headings) so every
-    // reference heading carries a link to its own anchor that a reader can copy.
-    rehypePlugins: [rehypeKatex, rehypeHeadingIds, [rehypeAutolinkHeadings, { behavior: 'append', properties: { className: ['heading-anchor'], ariaHidden: 'true', tabIndex: -1 }, content: { type: 'text', value: '#' } }]],
+    // reference heading carries a link to its own anchor that a reader can copy. The link holds no
+    // text (its mark is drawn by CSS), so the headings Astro collects afterwards read as written.
+    rehypePlugins: [rehypeKatex, rehypeHeadingIds, [rehypeAutolinkHeadings, { behavior: 'append', properties: { className: ['heading-anchor'], ariaLabel: 'Link to this section' }, content: [] }]],
   },
   security: {
     // src/middleware.ts is the one origin check: Astro's own also refused scripts that carry a

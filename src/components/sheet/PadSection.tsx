@@ -1,4 +1,5 @@
 import type { ReactNode } from 'react';
+import { warningHelpHref } from '../../lib/docs/reference';
 import type { MarginWarning } from './editor-context';
 import { SEVERITY_CLASS, sectionHeading } from './sheet-styles';
 
@@ -38,6 +39,9 @@ export default function PadSection({
               <dd className="num" data-warning-threshold>{w.threshold}</dd>
             </dl>
             <span className="block text-graphite">{w.message}</span>
+            <a className="mt-0.5 inline-block text-verdigris-deep underline" href={warningHelpHref(w.code)} data-warning-help>
+              What this means
+            </a>
           </div>
         ))}
       </aside>

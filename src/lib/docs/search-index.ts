@@ -27,11 +27,14 @@ interface MarkdownNode {
   children?: MarkdownNode[];
 }
 
+const PHRASING = new Set(['paragraph', 'heading', 'emphasis', 'strong', 'delete', 'link', 'linkReference']);
+
 function textOf(node: MarkdownNode): string {
   // Raw HTML and MDX components are markup, not words a reader would look for.
   if (node.type === 'html') return '';
   if (node.value !== undefined) return node.value;
-  return (node.children ?? []).map(textOf).join(node.type === 'paragraph' || node.type === 'listItem' ? ' ' : '');
+  // Words of one line run together as written; separate blocks (list items, quotes) get a space.
+  return (node.children ?? []).map(textOf).join(PHRASING.has(node.type) ? '' : ' ');
 }
 
 /** A page's headings and running text as plain words: MDX import and export lines dropped, Markdown syntax gone. */
