@@ -1,6 +1,7 @@
 /**
  * Builds the search index over the reference pages and worked examples from their Markdown or MDX
- * sources; runs when the site is built (src/pages/docs/search-index.json.ts), never in the browser.
+ * sources, as collected into the build; runs on the server once per process
+ * (src/pages/docs/search-index.json.ts), never in the browser.
  */
 import MiniSearch from 'minisearch';
 import remarkParse from 'remark-parse';

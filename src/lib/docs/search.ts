@@ -6,7 +6,7 @@
 import MiniSearch, { type AsPlainObject, type Options, type SearchOptions } from 'minisearch';
 import type { SearchEntry } from '../contract/search';
 
-/** Where the build writes the index; the search box fetches it on first use. */
+/** Where the server answers with the index; the search box fetches it on first use. */
 export const SEARCH_INDEX_PATH = '/docs/search-index.json';
 
 /** One page as indexed: the stored fields plus the text that is searched but not shipped back. */
