@@ -40,10 +40,9 @@ describe('the search over the reference pages', () => {
   });
 
   // A word that appears in one page's running text only (grep content/docs): the page is the hit.
-  it('finds the log page by a word from its body only (gzip)', () => {
+  it('finds the log page by a word from its body only (gzip), first before fuzzy near-misses', () => {
     const hits = searchPages(index, 'gzip');
-    expect(hits.map((hit) => hit.href)).toEqual(['/docs/log-mapping']);
-    expect(hits[0].kind).toBe('reference');
+    expect(hits[0]).toMatchObject({ href: '/docs/log-mapping', kind: 'reference' });
   });
 
   it('ranks the page named by the query first (a title match outranks body text)', () => {
