@@ -1,7 +1,8 @@
-import { readdirSync } from 'node:fs';
+import { mkdirSync, readdirSync } from 'node:fs';
+import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
-import { baseUrl, launchBrowser, saveScreenshot, signIn } from './browser';
+import { baseUrl, launchBrowser, saveScreenshot, SCREENSHOT_DIR, signIn } from './browser';
 
 const EDITOR = { email: 'editor@tarnwhistle.example', password: 'slipless-demo' };
 // A seeded demo sheet that raises warnings beside its sections (content/docs/warnings.md names it as an example).
@@ -90,12 +91,16 @@ describe('warning notes on a sheet', () => {
     const code = await note.getAttribute('data-warning');
     const help = note.getByRole('link', { name: 'What this means' });
     expect(await help.getAttribute('href')).toBe(`/docs/warnings#${code!.toLowerCase()}`);
-    await help.click();
-    await page.waitForURL((url) => url.pathname === '/docs/warnings');
-    const section = page.locator(`h2#${code!.toLowerCase()}`);
+    // It opens in a new tab beside the sheet.
+    const [reference] = await Promise.all([page.context().waitForEvent('page'), help.click()]);
+    await reference.waitForLoadState('networkidle');
+    expect(new URL(reference.url()).pathname).toBe('/docs/warnings');
+    const section = reference.locator(`h2#${code!.toLowerCase()}`);
     expect(await section.innerText()).toContain(code!);
     expect(await section.evaluate((heading) => heading.getBoundingClientRect().top)).toBeLessThan(200);
-    await saveScreenshot(page, 'docs-warning-anchor');
+    mkdirSync(SCREENSHOT_DIR, { recursive: true });
+    await reference.screenshot({ path: join(SCREENSHOT_DIR, 'docs-warning-anchor.png') });
+    await reference.close();
     await page.close();
   });
 });

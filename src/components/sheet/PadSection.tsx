@@ -39,7 +39,8 @@ export default function PadSection({
               <dd className="num" data-warning-threshold>{w.threshold}</dd>
             </dl>
             <span className="block text-graphite">{w.message}</span>
-            <a className="mt-0.5 inline-block text-verdigris-deep underline" href={warningHelpHref(w.code)} data-warning-help>
+            {/* A new tab, so the sheet stays open beside the explanation of its warning. */}
+            <a className="mt-0.5 inline-block text-verdigris-deep underline" href={warningHelpHref(w.code)} target="_blank" rel="noopener" data-warning-help>
               What this means
             </a>
           </div>
