@@ -9,11 +9,11 @@ const KIND_LABEL: Record<SearchEntry['kind'], string> = { reference: 'Reference'
 type IndexState = { status: 'idle' | 'loading' } | { status: 'ready'; index: MiniSearch<SearchDocument> } | { status: 'failed'; message: string };
 
 /**
- * The search box over the reference pages and worked examples. The index is fetched on first focus,
+ * The header's search box over the reference pages and worked examples. The index is fetched on first focus,
  * so a page that is only read never downloads it. Arrow keys move through the hits, Enter opens
  * one, Escape clears the box.
  */
-export default function DocsSearch({ compact = false }: { compact?: boolean }) {
+export default function DocsSearch() {
   const [state, setState] = useState<IndexState>({ status: 'idle' });
   const [query, setQuery] = useState('');
   const [active, setActive] = useState(0);
@@ -50,8 +50,8 @@ export default function DocsSearch({ compact = false }: { compact?: boolean }) {
   };
 
   return (
-    <div className={`relative ${compact ? 'w-56' : 'w-full max-w-xl'}`} data-docs-search>
-      <label className={compact ? 'sr-only' : 'mb-1 block text-sm font-semibold'} htmlFor={`${listId}-input`}>
+    <div className="relative w-56" data-docs-search>
+      <label className="sr-only" htmlFor={`${listId}-input`}>
         Search the reference and examples
       </label>
       <input
@@ -63,7 +63,7 @@ export default function DocsSearch({ compact = false }: { compact?: boolean }) {
         aria-autocomplete="list"
         aria-activedescendant={open && hits[chosen] ? `${listId}-${chosen}` : undefined}
         autoComplete="off"
-        placeholder={compact ? 'Search docs and examples' : 'e.g. steering, damping, curvature'}
+        placeholder="Search docs and examples"
         className="w-full border-2 border-ink bg-paper px-2 py-1 text-sm focus:outline-none focus:ring-2 focus:ring-verdigris"
         value={query}
         onFocus={load}
