@@ -54,9 +54,6 @@ async function resolveIdentity(context: APIContext, next: MiddlewareNext, origin
 }
 
 export const onRequest = defineMiddleware(async (context, next) => {
-  // A prerendered file (the reference search index) is written by the build for everyone: there
-  // is no caller, session or database to consult, and the file server adds no cookies.
-  if (context.isPrerendered) return next();
   const origin = publicOrigin(context.url);
   const response = await resolveIdentity(context, next, origin);
   return withSecurityHeaders(response, { https: origin.startsWith('https:'), signedIn: context.locals.identity !== null });
