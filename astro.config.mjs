@@ -7,12 +7,20 @@ import auth from 'auth-astro';
 import tailwindcss from '@tailwindcss/vite';
 import remarkMath from 'remark-math';
 import rehypeKatex from 'rehype-katex';
+import { rehypeHeadingIds } from '@astrojs/markdown-remark';
+import rehypeAutolinkHeadings from 'rehype-autolink-headings';
 
 export default defineConfig({
   output: 'server',
   adapter: node({ mode: 'middleware' }),
   integrations: [react(), mdx(), auth({ configFile: './src/auth.config.ts', injectEndpoints: false })],
-  markdown: { remarkPlugins: [remarkMath], rehypePlugins: [rehypeKatex] },
+  markdown: {
+    remarkPlugins: [remarkMath],
+    // Heading ids first (Astro's own slugs, which `render()` also reports as headings) so every
+    // reference heading carries a link to its own anchor that a reader can copy. The link holds no
+    // text (its mark is drawn by CSS), so the headings Astro collects afterwards read as written.
+    rehypePlugins: [rehypeKatex, rehypeHeadingIds, [rehypeAutolinkHeadings, { behavior: 'append', properties: { className: ['heading-anchor'], ariaLabel: 'Link to this section' }, content: [] }]],
+  },
   security: {
     // src/middleware.ts is the one origin check: Astro's own also refused scripts that carry a
     // bearer token (bodiless DELETEs, multipart uploads) and ran before any header was added.

@@ -1,4 +1,5 @@
 import type { ReactNode } from 'react';
+import { warningHelpHref } from '../../lib/docs/reference';
 import type { MarginWarning } from './editor-context';
 import { SEVERITY_CLASS, sectionHeading } from './sheet-styles';
 
@@ -38,6 +39,10 @@ export default function PadSection({
               <dd className="num" data-warning-threshold>{w.threshold}</dd>
             </dl>
             <span className="block text-graphite">{w.message}</span>
+            {/* A new tab, so the sheet stays open beside the explanation of its warning. */}
+            <a className="mt-0.5 inline-block text-verdigris-deep underline" href={warningHelpHref(w.code)} target="_blank" rel="noopener" data-warning-help>
+              What this means
+            </a>
           </div>
         ))}
       </aside>

@@ -10,3 +10,4 @@ export * from './teams';
 export * from './log-uploads';
 export * from './log-comparisons';
 export * from './matrix';
+export * from './search';

@@ -44,6 +44,9 @@ export const PUBLIC_PAGES: ReadonlySet<string> = new Set([
   '/reset-password/[token]',
   '/examples',
   '/examples/[slug]',
+  // The reference reads like product documentation: anyone may read it before signing up.
+  '/docs',
+  '/docs/[slug]',
 ]);
 
 /** Where a signed-out visitor of `url` signs in; afterwards the sign-in page sends them back to the same path and query. */

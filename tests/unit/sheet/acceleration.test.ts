@@ -170,7 +170,7 @@ describe('the reference page content/docs/acceleration.md', () => {
   const text = readFileSync(new URL('../../../content/docs/acceleration.md', import.meta.url), 'utf8');
 
   it('has front matter and explains every field of a finger acceleration', () => {
-    expect(text).toMatch(/^---\ntitle: .+\norder: \d+\n---\n/);
+    expect(text).toMatch(/^---\ntitle: .+\nsummary: .+\norder: \d+\n---\n/);
     const missing = Object.keys(createFingerAcceleration(3)).filter((key) => !text.includes(`\`acceleration.${key}\``));
     expect(missing).toEqual([]);
   });

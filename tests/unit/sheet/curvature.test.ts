@@ -107,7 +107,7 @@ describe('content/docs/curvature.md', () => {
   const text = readFileSync(new URL('../../../content/docs/curvature.md', import.meta.url), 'utf8');
 
   it('has YAML front matter with a title and an order', () => {
-    expect(/^---\ntitle: (.+)\norder: (\d+)\n---\n/.test(text)).toBe(true);
+    expect(/^---\ntitle: (.+)\nsummary: (.+)\norder: (\d+)\n---\n/.test(text)).toBe(true);
   });
 
   it('names every field of a contact curvature, the singular ratio and the CSV columns', () => {

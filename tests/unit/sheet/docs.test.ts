@@ -22,13 +22,13 @@ function propertyNames(schema: unknown, out = new Set<string>()): Set<string> {
 }
 
 describe('product docs (content/docs)', () => {
-  it.each(pages)('%s has YAML front matter with a title and an order', (page) => {
-    const match = /^---\ntitle: (.+)\norder: (\d+)\n---\n/.exec(read(page));
+  it.each(pages)('%s has YAML front matter with a title, a summary and an order', (page) => {
+    const match = /^---\ntitle: (.+)\nsummary: (.+)\norder: (\d+)\n---\n/.exec(read(page));
     expect(match).not.toBeNull();
   });
 
   it('every reference page has its own place in the order', () => {
-    const orders = pages.map((page) => /^---\ntitle: .+\norder: (\d+)\n/.exec(read(page))?.[1]);
+    const orders = pages.map((page) => /^---\ntitle: .+\nsummary: .+\norder: (\d+)\n/.exec(read(page))?.[1]);
     expect(new Set(orders).size).toBe(pages.length);
   });
 
