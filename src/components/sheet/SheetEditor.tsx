@@ -3,6 +3,7 @@ import type { WarningCode } from '../../lib/kinematics';
 import { formatWhen } from '../../lib/client/api';
 import type { SheetPageData } from '../../lib/contract';
 import { setAt, type DocumentPath } from '../../lib/sheet/document-path';
+import type { ExportSource } from '../../lib/sheet/run-export';
 import { displayUnitsOf, type DisplayUnits } from '../../lib/sheet/display-units';
 import { parseVariables } from '../../lib/sheet/units';
 import { describeWarning } from '../../lib/sheet/warning-notes';
@@ -30,14 +31,14 @@ const SweepPanel = lazy(() => import('./SweepPanel'));
 type Solved = NonNullable<ReturnType<typeof useCompute>['lastGood']>;
 
 /** The 3D view and the run and sweep panels, redrawn after the results table (they follow a deferred copy); their charts show the sheet's display units. */
-const SideViews = memo(function SideViews({ solved, units }: { solved: Solved | null; units: DisplayUnits }) {
+const SideViews = memo(function SideViews({ solved, units, source }: { solved: Solved | null; units: DisplayUnits; source: ExportSource }) {
   if (!solved) return <div className="h-80 border-2 border-ink bg-paper-deep" />;
   return (
     <>
       <SceneView document={solved.document} result={solved.result} />
       <Suspense fallback={<p className="text-sm text-graphite">Loading runs and sweeps…</p>}>
-        <RunPanel document={solved.document} units={units} />
-        <SweepPanel document={solved.document} units={units} />
+        <RunPanel document={solved.document} units={units} source={source} />
+        <SweepPanel document={solved.document} units={units} source={source} />
       </Suspense>
     </>
   );
@@ -117,6 +118,12 @@ function Editor({ data }: { data: SheetPageData }) {
 
   const { reply, lastGood, pending } = useCompute(document);
   const deferred = useDeferredValue(lastGood);
+  // Run and sweep exports name the sheet, the revision the edits started from, and whether there are unsaved edits.
+  const exportTitle = deferred?.document.title ?? data.sheet.title;
+  const exportSource: ExportSource = useMemo(
+    () => ({ sheetId, title: exportTitle, revision: base.revision, unsaved: dirty }),
+    [sheetId, exportTitle, base.revision, dirty],
+  );
   useEffect(() => {
     if (!reply || performance.getEntriesByName('slipless:edit', 'mark').length === 0) return;
     performance.measure('slipless:edit-to-result', 'slipless:edit');
@@ -265,7 +272,7 @@ function Editor({ data }: { data: SheetPageData }) {
             <div className="sticky top-0 z-20 bg-paper pt-2">
               <ResultsSummary result={result} document={lastGood?.document ?? null} stale={pending || (reply !== null && !reply.ok)} />
             </div>
-            <SideViews solved={deferred} units={units} />
+            <SideViews solved={deferred} units={units} source={exportSource} />
           </aside>
         </div>
       </div>

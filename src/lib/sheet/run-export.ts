@@ -40,6 +40,8 @@ export interface ExportSource {
   sheetId: string | null;
   title: string;
   revision: number | null;
+  /** The sheet page ran the document as edited, before saving it as a new revision. */
+  unsaved?: boolean;
 }
 
 /** The JSON export: what the file is, where it came from, its units and caution, then columns and rows (null for a value that is not a finite number). */
@@ -47,7 +49,7 @@ export interface ExportJson {
   format: 'slipless.export';
   version: 1;
   kind: 'run' | 'sweep';
-  sheet: { id: string | null; title: string; revision: number | null };
+  sheet: { id: string | null; title: string; revision: number | null; unsavedChanges: boolean };
   description: string;
   solution: CommandedSolution;
   followed: string;
@@ -194,7 +196,10 @@ function row<M>(table: ExportTable, i: number, missing: M): (number | string | M
 const oneLine = (text: string) => text.replace(/[\r\n]+/g, ' ');
 
 function sheetLine(source: ExportSource): string {
-  const stored = source.sheetId === null ? 'not a stored sheet (read from a file)' : `id ${source.sheetId}, rev ${source.revision ?? '?'}`;
+  const stored =
+    source.sheetId === null
+      ? 'not a stored sheet (read from a file)'
+      : `id ${source.sheetId}, rev ${source.revision ?? '?'}${source.unsaved ? ' with unsaved changes' : ''}`;
   return `sheet: "${oneLine(source.title)}", ${stored}`;
 }
 
@@ -216,7 +221,7 @@ export function exportJsonValue(table: ExportTable, source: ExportSource): Expor
     format: 'slipless.export',
     version: 1,
     kind: table.kind,
-    sheet: { id: source.sheetId, title: source.title, revision: source.revision },
+    sheet: { id: source.sheetId, title: source.title, revision: source.revision, unsavedChanges: source.unsaved === true },
     description: table.description,
     solution: table.solution,
     followed: table.followed,
