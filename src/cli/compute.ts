@@ -1,11 +1,13 @@
 /**
  * Solves a sheet document from the command line.
- * Usage: npm run compute -- path/to/sheet.json [--format json|csv] [--run] [--sweep]
+ * Usage: npm run compute -- path/to/sheet.json [--format json|csv] [--run | --sweep]
  *        npm run compute -- path/to/sheet.json --matrix [--dataset out.jsonl|out.csv] [--format json|csv]
  *        npm run compute -- path/to/sheet.json --log log.csv[.gz] --mapping mapping.json [--format json|csv]
- * JSON (default) prints {title, result, run?, sweep?}; CSV prints one row per finger, then with
- * --run a table with one row per tick and with --sweep one row per value and finger, each table
- * after a blank line and a "# name" line. Exit codes: 0 solved, 1 unreadable or invalid sheet, 2 bad usage.
+ * JSON (default) prints {title, result}; CSV prints one row per finger. With --run (or --sweep) it
+ * prints instead the run (or sweep) export, the same file the sheet page's Export CSV / Export JSON
+ * buttons download: one row per time step (or swept value) with the object pose, every joint's angle
+ * and commanded rate, each finger's solution and slip residual, and the warnings.
+ * Exit codes: 0 solved, 1 unreadable or invalid sheet, 2 bad usage.
  * With --log the controller log is compared with the sheet (streamed; a name ending in .gz is
  * decompressed): JSON prints the comparison (per joint, per contact, warnings, verdict), CSV the
  * per-sample table; exit codes 0 within tolerance, 3 outside, 1 bad sheet, mapping or log, 2 bad usage.
@@ -15,20 +17,19 @@
 import { createReadStream, realpathSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { createGunzip } from 'node:zlib';
-import { ROTATION_METRICS, runSheet, sweepSheet, toPlainRunRecord, warningsAt, type RunRecord, type SweepRecord } from '../lib/kinematics';
+import { runSheet, sweepSheet, type SweepRecord } from '../lib/kinematics';
 import { compareLog, describeComparisonError, type ComparedSample } from '../lib/logs/compare';
 import { comparisonReportJson, verdictExitCode } from '../lib/logs/report';
 import { evaluateSheet, type SheetEvaluation } from '../lib/sheet/evaluate';
-import { comparedSampleHeader, comparedSampleLine, csvTable, FINGER_COLUMNS, fingerRows, maxJointCount, rateColumns, resultsCsv } from '../lib/sheet/results-csv';
-import { sweptCommandedRates } from '../lib/sheet/commanded';
-import { exportedResult, namedQuaternion } from '../lib/sheet/results-json';
+import { comparedSampleHeader, comparedSampleLine, resultsCsv } from '../lib/sheet/results-csv';
+import { exportedResult } from '../lib/sheet/results-json';
+import { exportCsv, exportJson, runExportTable, sweepExportTable, type ExportTable } from '../lib/sheet/run-export';
 import { commandedSolutionOf } from '../lib/sheet/schema';
-import type { SheetDocument } from '../lib/sheet/types';
 import { SAFETY_CAUTION, SAFETY_CAUTION_TEXT, SAFETY_CSV_COMMENT } from '../lib/safety';
 import { InputError, readJsonFile, readMappingFile } from './input-files';
 import { computeMatrix, DATASET_EXTENSIONS, matrixOutput } from './matrix-output';
 
-const USAGE = 'usage: npm run compute -- path/to/sheet.json [--format json|csv] [--run] [--sweep] [--matrix [--dataset out.jsonl|out.csv]] [--log log.csv[.gz] --mapping mapping.json]';
+const USAGE = 'usage: npm run compute -- path/to/sheet.json [--format json|csv] [--run | --sweep] [--matrix [--dataset out.jsonl|out.csv]] [--log log.csv[.gz] --mapping mapping.json]';
 
 interface Options {
   file: string;
@@ -82,6 +83,7 @@ function parseArguments(args: readonly string[]): Options {
   if ((log === undefined) !== (mapping === undefined)) throw new UsageError('--log and --mapping go together');
   if (log !== undefined && (run || sweep || matrix)) throw new UsageError('--log compares a log; it does not combine with --run, --sweep or --matrix');
   if (matrix && (run || sweep)) throw new UsageError('--matrix prints the matrix alone; it does not combine with --run or --sweep');
+  if (run && sweep) throw new UsageError('--run and --sweep each write one export file; give one of them');
   return { file, format, run, sweep, matrix, ...(dataset !== undefined ? { dataset } : {}), ...(log !== undefined ? { log, mapping } : {}) };
 }
 
@@ -94,31 +96,6 @@ function evaluateFile(file: string): SheetEvaluation {
     throw new InputError(`${lines.join('\n')}\n${file}: ${verdict}`);
   }
   return evaluated.value;
-}
-
-function runTable(record: RunRecord): string {
-  const metrics = ROTATION_METRICS.map((m) => `${m.key}${m.unit === 'rad' ? '_rad' : ''}`);
-  const header = ['tick', 'time_s', 'x_m', 'y_m', 'z_m', 'qw', 'qx', 'qy', 'qz', 'position_error_m', ...metrics, 'warnings'];
-  const rows: unknown[][] = [];
-  const m = ROTATION_METRICS.length;
-  for (let k = 0; k < record.tickCount; k++) {
-    const q = namedQuaternion(record.orientation, 4 * k);
-    rows.push([
-      k, record.time[k], ...record.position.subarray(3 * k, 3 * k + 3), q.w, q.x, q.y, q.z,
-      record.positionError[k], ...record.orientationError.subarray(m * k, m * k + m), warningsAt(record, k).join(' '),
-    ]);
-  }
-  return csvTable(header, rows);
-}
-
-function sweepTable(doc: SheetDocument, record: SweepRecord, maxJoints: number): string {
-  const rows = record.results.flatMap((result, i) => fingerRows({ ...result, commanded: sweptCommandedRates(doc, result, record.path, record.values[i]!) }, maxJoints, [record.values[i]]));
-  return csvTable(['value', ...FINGER_COLUMNS, ...rateColumns(maxJoints)], rows);
-}
-
-/** A run's [x, y, z, w] orientation column (4 per tick) as one scalar-first quaternion per tick. */
-function wxyzColumn(column: Float64Array) {
-  return Array.from({ length: column.length / 4 }, (_, k) => namedQuaternion(column, 4 * k));
 }
 
 /** Where the command writes; the process streams when run from the shell. */
@@ -220,7 +197,6 @@ export async function runComputeCommand(args: readonly string[], io: CommandOutp
     report(`${options.file}: sweep: --sweep needs a "sweep" section in the sheet`);
     return 1;
   }
-  const run = options.run ? runSheet(doc) : undefined;
   let sweep: SweepRecord | undefined;
   try {
     sweep = options.sweep ? sweepSheet(doc) : undefined;
@@ -229,29 +205,23 @@ export async function runComputeCommand(args: readonly string[], io: CommandOutp
     report(`${options.file}: sweep.path: ${error.message}`);
     return 1;
   }
-  const maxJoints = maxJointCount(doc);
+  const table: ExportTable | undefined = options.run ? runExportTable(doc, runSheet(doc)) : sweep ? sweepExportTable(doc, sweep) : undefined;
   // The output carries joint rates toward a controller: the caution goes to standard error, where a pipe does not swallow it.
   report(SAFETY_CAUTION);
+  if (table) {
+    // A sheet read from a file has no id or revision; otherwise the very file the sheet page downloads.
+    const source = { sheetId: null, title: doc.title, revision: null };
+    io.stdout(options.format === 'json' ? exportJson(table, source) : exportCsv(table, source));
+    return 0;
+  }
   if (options.format === 'json') {
-    const output = {
-      title: doc.title,
-      safety: SAFETY_CAUTION_TEXT,
-      commanded: commandedSolutionOf(doc),
-      result: exportedResult(doc, result),
-      ...(run ? { run: { ...toPlainRunRecord(run), orientation: wxyzColumn(run.orientation), measuredOrientation: wxyzColumn(run.measuredOrientation) } } : {}),
-      ...(sweep
-        ? { sweep: { path: sweep.path, values: Array.from(sweep.values), results: sweep.results.map((r, i) => exportedResult(doc, { ...r, commanded: sweptCommandedRates(doc, r, sweep.path, sweep.values[i]!) })), worstSeverity: sweep.worstSeverity } }
-        : {}),
-    };
+    const output = { title: doc.title, safety: SAFETY_CAUTION_TEXT, commanded: commandedSolutionOf(doc), result: exportedResult(doc, result) };
     // JSON has no Infinity or NaN; they are written as strings so nothing is silently lost.
     io.stdout(`${JSON.stringify(output, (_, v: unknown) => (typeof v === 'number' && !Number.isFinite(v) ? String(v) : v), 2)}\n`);
     return 0;
   }
   // The caution also travels inside the file, as a comment line, so it stays with the table once the pipe is saved.
-  const tables = [`${SAFETY_CSV_COMMENT}\n${resultsCsv(doc, result)}`];
-  if (run) tables.push(`# run (${run.stopReason} after ${run.tickCount} ticks; commanded solution ${commandedSolutionOf(doc)}; palm frame, quaternion w x y z)\n${runTable(run)}`);
-  if (sweep) tables.push(`# sweep ${sweep.path} (commanded solution ${commandedSolutionOf(doc)})\n${sweepTable(doc, sweep, maxJoints)}`);
-  io.stdout(`${tables.join('\n\n')}\n`);
+  io.stdout(`${SAFETY_CSV_COMMENT}\n${resultsCsv(doc, result)}\n`);
   return 0;
 }
 

@@ -18,7 +18,7 @@ import { execFileSync } from 'node:child_process';
 import { existsSync, readdirSync, readFileSync, statSync } from 'node:fs';
 import { join } from 'node:path';
 import { gzipSync } from 'node:zlib';
-import type { Browser, BrowserContext, Page } from 'playwright-core';
+import type { Browser, BrowserContext } from 'playwright-core';
 import { openDatabase } from '../../src/db';
 import { DEMO_PASSWORD } from '../../src/lib/server/demo';
 import { createSheet } from '../../src/lib/server/sheets';

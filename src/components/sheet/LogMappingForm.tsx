@@ -1,5 +1,6 @@
 import { useRef, useState, type ChangeEvent } from 'react';
 import { FormError, labelClass, primaryButton, secondaryButton } from '../form-parts';
+import { downloadText } from '../../lib/client/download';
 import { useZodForm } from '../../lib/client/use-zod-form';
 import { ANGLE_UNITS, LENGTH_UNITS, logMappingSchema, RATE_UNITS, TIME_UNITS } from '../../lib/logs/mapping';
 import type { JointDraft, MappingDraft } from '../../lib/view/log-mapping-draft';
@@ -110,12 +111,7 @@ export default function LogMappingForm({ header, jointNames, initial, canRun, on
   });
 
   function download() {
-    const url = URL.createObjectURL(new Blob([`${JSON.stringify(draft, null, 2)}\n`], { type: 'application/json' }));
-    const link = document.createElement('a');
-    link.href = url;
-    link.download = 'log-mapping.json';
-    link.click();
-    URL.revokeObjectURL(url);
+    downloadText(`${JSON.stringify(draft, null, 2)}\n`, 'log-mapping.json', 'application/json');
   }
 
   async function load(event: ChangeEvent<HTMLInputElement>) {

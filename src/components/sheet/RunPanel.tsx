@@ -4,10 +4,12 @@ import WarningStrip from '../charts/WarningStrip';
 import { primaryButton } from '../form-parts';
 import type { DisplayUnits } from '../../lib/sheet/display-units';
 import { formatShownNumber, formatShownQuantity } from '../../lib/sheet/outputs';
+import type { ExportSource } from '../../lib/sheet/run-export';
 import type { SheetDocument } from '../../lib/sheet/types';
 import { shownColumn } from '../../lib/view/chart-data';
 import { SEVERITY_COLOURS } from '../../lib/view/palette';
 import { describeStopReason, severityRuns, type JointSeries, type RunSeries } from '../../lib/view/series';
+import ExportButtons from './ExportButtons';
 import JobProgress from './JobProgress';
 import { SafetyCaution } from './SafetyCaution';
 import { RUN_JOBS, useWorkerJob } from './useWorkerJob';
@@ -42,7 +44,7 @@ function runCharts(series: RunSeries, units: DisplayUnits) {
   };
 }
 
-function RunResults({ series, stale, units }: { series: RunSeries; stale: boolean; units: DisplayUnits }) {
+function RunResults({ series, stale, units, source }: { series: RunSeries; stale: boolean; units: DisplayUnits; source: ExportSource }) {
   const charts = useMemo(() => runCharts(series, units), [series, units]);
   const common = { x: series.time, xLabel: 'time (s)', shaded: charts.shaded, syncKey: 'sheet-run' };
   return (
@@ -61,6 +63,7 @@ function RunResults({ series, stale, units }: { series: RunSeries; stale: boolea
       </div>
       <WarningStrip count={series.tickCount} worst={series.worstSeverity} warnings={series.warnings} axisLabel="time steps" />
       <SafetyCaution />
+      <ExportButtons table={series.table} source={source} />
       <div className="grid gap-4 @3xl:grid-cols-2">
         <LineChart title="Joint angles" yLabel={units.angle} series={charts.angles} {...common} />
         <LineChart title={`Joint rates followed: ${series.followed}`} yLabel={units.angularSpeed} series={charts.rates} {...common} />
@@ -73,7 +76,7 @@ function RunResults({ series, stale, units }: { series: RunSeries; stale: boolea
 }
 
 /** Runs the sheet's closed loop toward motion.target in a worker and plots what happened over time, step by step. */
-export default function RunPanel({ document, units }: { document: SheetDocument; units: DisplayUnits }) {
+export default function RunPanel({ document, units, source }: { document: SheetDocument; units: DisplayUnits; source: ExportSource }) {
   const { state, start, cancel } = useWorkerJob(RUN_JOBS, { warm: true });
   const ranWith = useRef<SheetDocument | null>(null);
   const run = document.motion.run;
@@ -111,7 +114,7 @@ export default function RunPanel({ document, units }: { document: SheetDocument;
         </button>
       </div>
       <JobProgress state={state} unit="time steps" onCancel={cancel} />
-      {state.status === 'done' && <RunResults series={state.result} stale={ranWith.current !== document} units={units} />}
+      {state.status === 'done' && <RunResults series={state.result} stale={ranWith.current !== document} units={units} source={source} />}
     </section>
   );
 }

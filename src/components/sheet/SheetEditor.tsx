@@ -3,6 +3,7 @@ import type { WarningCode } from '../../lib/kinematics';
 import { formatWhen } from '../../lib/client/api';
 import type { SheetLink, SheetPageData } from '../../lib/contract';
 import { setAt, type DocumentPath } from '../../lib/sheet/document-path';
+import type { ExportSource } from '../../lib/sheet/run-export';
 import { displayUnitsOf, type DisplayUnits } from '../../lib/sheet/display-units';
 import { parseVariables } from '../../lib/sheet/units';
 import { describeWarning } from '../../lib/sheet/warning-notes';
@@ -40,14 +41,14 @@ interface MatrixContext {
   related: SheetLink[];
 }
 
-const SideViews = memo(function SideViews({ solved, units, matrix }: { solved: Solved | null; units: DisplayUnits; matrix: MatrixContext }) {
+const SideViews = memo(function SideViews({ solved, units, matrix, source }: { solved: Solved | null; units: DisplayUnits; matrix: MatrixContext; source: ExportSource }) {
   if (!solved) return <div className="h-80 border-2 border-ink bg-paper-deep" />;
   return (
     <>
       <SceneView document={solved.document} result={solved.result} />
       <Suspense fallback={<p className="text-sm text-graphite">Loading runs and sweeps…</p>}>
-        <RunPanel document={solved.document} units={units} />
-        <SweepPanel document={solved.document} units={units} />
+        <RunPanel document={solved.document} units={units} source={source} />
+        <SweepPanel document={solved.document} units={units} source={source} />
         <MatrixPanel document={solved.document} {...matrix} />
       </Suspense>
     </>
@@ -131,6 +132,12 @@ function Editor({ data }: { data: SheetPageData }) {
   const startDeriving = useCallback(() => setDeriving(true), []);
   const { reply, lastGood, pending } = useCompute(document, { derive: deriving });
   const deferred = useDeferredValue(lastGood);
+  // Run and sweep exports name the sheet, the revision the edits started from, and whether there are unsaved edits.
+  const exportTitle = deferred?.document.title ?? data.sheet.title;
+  const exportSource: ExportSource = useMemo(
+    () => ({ sheetId, title: exportTitle, revision: base.revision, unsaved: dirty }),
+    [sheetId, exportTitle, base.revision, dirty],
+  );
   useEffect(() => {
     if (!reply || performance.getEntriesByName('slipless:edit', 'mark').length === 0) return;
     performance.measure('slipless:edit-to-result', 'slipless:edit');
@@ -298,7 +305,7 @@ function Editor({ data }: { data: SheetPageData }) {
             <div className="sticky top-0 z-20 bg-paper pt-2">
               <ResultsSummary result={result} document={lastGood?.document ?? null} stale={pending || (reply !== null && !reply.ok)} />
             </div>
-            <SideViews solved={deferred} units={units} matrix={matrixContext} />
+            <SideViews solved={deferred} units={units} matrix={matrixContext} source={exportSource} />
           </aside>
         </div>
       </div>

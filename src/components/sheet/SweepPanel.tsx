@@ -3,11 +3,13 @@ import LineChart, { type LineSeries, type ShadedStretch } from '../charts/LineCh
 import WarningStrip from '../charts/WarningStrip';
 import { inputClass, labelClass, primaryButton } from '../form-parts';
 import type { DisplayUnits } from '../../lib/sheet/display-units';
+import type { ExportSource } from '../../lib/sheet/run-export';
 import type { SheetDocument } from '../../lib/sheet/types';
 import { shownColumn } from '../../lib/view/chart-data';
 import { SEVERITY_COLOURS } from '../../lib/view/palette';
 import { severityRuns, type SweepSeries } from '../../lib/view/series';
 import { DEFAULT_SWEEP_STEPS, sweepInputs, sweepSettingsFrom, type DisplayUnit, type SweepInput } from '../../lib/view/sweep-inputs';
+import ExportButtons from './ExportButtons';
 import JobProgress from './JobProgress';
 import { SafetyCaution } from './SafetyCaution';
 import { SWEEP_JOBS, useWorkerJob } from './useWorkerJob';
@@ -43,7 +45,7 @@ function sweepCharts(series: SweepSeries, unit: DisplayUnit, units: DisplayUnits
   };
 }
 
-function SweepResults({ series, input, units }: { series: SweepSeries; input: SweepInput; units: DisplayUnits }) {
+function SweepResults({ series, input, units, source }: { series: SweepSeries; input: SweepInput; units: DisplayUnits; source: ExportSource }) {
   const charts = useMemo(() => sweepCharts(series, input.unit, units), [series, input.unit, units]);
   const xLabel = `${input.label}${inUnit(input.unit)}`;
   const common = { x: charts.x, xLabel, shaded: charts.shaded, syncKey: 'sheet-sweep' };
@@ -56,6 +58,7 @@ function SweepResults({ series, input, units }: { series: SweepSeries; input: Sw
       <p className="text-xs" data-testid="sweep-solution">Joint rates plotted: {series.followed}</p>
       <WarningStrip count={series.values.length} worst={series.worstSeverity} warnings={series.warnings} axisLabel="the swept values" />
       <SafetyCaution />
+      <ExportButtons table={series.table} source={source} />
       <div className="grid gap-4 @3xl:grid-cols-2">
         <LineChart title={`Commanded joint rates: ${series.followed}`} yLabel={units.angularSpeed} series={charts.rates} {...common} />
         <LineChart title="Condition number of the contact Jacobian" yLabel="σmax/σmin" logY series={charts.condition} {...common} />
@@ -67,7 +70,7 @@ function SweepResults({ series, input, units }: { series: SweepSeries; input: Sw
 }
 
 /** Sweeps one numeric input of the sheet over a range in a worker and plots the outputs over it. */
-export default function SweepPanel({ document, units }: { document: SheetDocument; units: DisplayUnits }) {
+export default function SweepPanel({ document, units, source }: { document: SheetDocument; units: DisplayUnits; source: ExportSource }) {
   const inputs = useMemo(() => sweepInputs(document, units), [document, units]);
   const [path, setPath] = useState(() => inputs[0]?.path ?? '');
   const input = inputs.find((i) => i.path === path) ?? inputs[0]!;
@@ -152,7 +155,7 @@ export default function SweepPanel({ document, units }: { document: SheetDocumen
       )}
       <JobProgress state={state} unit="values" onCancel={cancel} />
       {state.status === 'done' && sweptInput && (
-        <SweepResults series={state.result} input={inputs.find((i) => i.path === sweptInput.path) ?? sweptInput} units={units} />
+        <SweepResults series={state.result} input={inputs.find((i) => i.path === sweptInput.path) ?? sweptInput} units={units} source={source} />
       )}
     </section>
   );

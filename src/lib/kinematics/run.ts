@@ -54,6 +54,8 @@ export interface RunRecord {
   jointRates: Float64Array[];
   /** Index into SOLUTION_KINDS of the solution each finger followed, fingerCount per tick. */
   solution: Uint8Array;
+  /** Per finger the translational slip speed the followed solution leaves at its contact (its residual norm), m/s, fingerCount per tick. */
+  slipResidual: Float64Array;
   /** |target - position| of the truth, m. */
   positionError: Float64Array;
   /** Orientation error of the truth by Huynh's Phi2..Phi6, ROTATION_METRICS order, 5 per tick. */
@@ -83,6 +85,7 @@ interface Columns {
   jointAngles: Float64Array[];
   jointRates: Float64Array[];
   solution: Uint8Array;
+  slipResidual: Float64Array;
   positionError: Float64Array;
   orientationError: Float64Array;
   warningMask: Uint32Array;
@@ -104,6 +107,7 @@ function createColumns(capacity: number, jointCounts: readonly number[], noisy: 
     jointAngles: jointCounts.map((n) => new Float64Array(n * capacity)),
     jointRates: jointCounts.map((n) => new Float64Array(n * capacity)),
     solution: new Uint8Array(jointCounts.length * capacity),
+    slipResidual: new Float64Array(jointCounts.length * capacity),
     positionError: new Float64Array(capacity),
     orientationError: new Float64Array(METRIC_COUNT * capacity),
     warningMask: new Uint32Array(capacity),
@@ -130,6 +134,7 @@ function growColumns(c: Columns, limit: number): void {
   c.jointAngles = c.jointAngles.map((column) => grown(column, (column.length / c.capacity) * capacity));
   c.jointRates = c.jointRates.map((column) => grown(column, (column.length / c.capacity) * capacity));
   c.solution = grown(c.solution, (c.solution.length / c.capacity) * capacity);
+  c.slipResidual = grown(c.slipResidual, (c.slipResidual.length / c.capacity) * capacity);
   c.positionError = grown(c.positionError, capacity);
   c.orientationError = grown(c.orientationError, METRIC_COUNT * capacity);
   c.warningMask = grown(c.warningMask, capacity);
@@ -223,6 +228,7 @@ export function runScene(scene: Scene, settings: RunSettings, options: RunOption
         }
       }
       columns.solution[fingers.length * tick + i] = steered ? STEER_AND_ROLL : FULL;
+      columns.slipResidual[fingers.length * tick + i] = steered ? solved.steer.residualNorm : solved.full.residualNorm;
     }
     const dx = targetPosition[0]! - position[0]!, dy = targetPosition[1]! - position[1]!, dz = targetPosition[2]! - position[2]!;
     const positionError = Math.sqrt(dx * dx + dy * dy + dz * dz);
@@ -271,6 +277,7 @@ export function runScene(scene: Scene, settings: RunSettings, options: RunOption
     jointAngles: columns.jointAngles.map((c, i) => c.subarray(0, jointCounts[i]! * tick)),
     jointRates: columns.jointRates.map((c, i) => c.subarray(0, jointCounts[i]! * tick)),
     solution: columns.solution.subarray(0, fingers.length * tick),
+    slipResidual: columns.slipResidual.subarray(0, fingers.length * tick),
     positionError: columns.positionError.subarray(0, tick),
     orientationError: columns.orientationError.subarray(0, METRIC_COUNT * tick),
     warningMask: columns.warningMask.subarray(0, tick),
@@ -330,6 +337,7 @@ export function toPlainRunRecord(record: RunRecord) {
     jointAngles: record.jointAngles.map((c) => Array.from(c)),
     jointRates: record.jointRates.map((c) => Array.from(c)),
     solution: Array.from(record.solution),
+    slipResidual: Array.from(record.slipResidual),
     positionError: Array.from(record.positionError),
     orientationError: Array.from(record.orientationError),
     warningMask: Array.from(record.warningMask),

@@ -136,14 +136,5 @@ export function exportResultsCsv(inputs: unknown): { ok: true; csv: string } | {
   return { ok: true, csv: `${SAFETY_CSV_COMMENT}\n${resultsCsv(evaluated.value.doc, evaluated.value.result)}\n` };
 }
 
-/** A plain file name for a revision's download, e.g. "peg-tilt-about-the-grip-line-r3.json". */
-export function exportFileName(title: string, revision: number, extension: 'json' | 'csv'): string {
-  const slug = title
-    .normalize('NFKD')
-    .replace(/[\u0300-\u036f]/g, '')
-    .toLowerCase()
-    .replace(/[^a-z0-9]+/g, '-')
-    .replace(/^-+|-+$/g, '')
-    .slice(0, 80);
-  return `${slug || 'sheet'}-r${revision}.${extension}`;
-}
+/** The download's file name; the browser names run and sweep exports the same way. */
+export { exportFileName } from '../sheet/run-export';

@@ -7,6 +7,7 @@ import {
   type RunRecord, type RunStopReason, type SweepRecord, type WarningCode, type WarningSeverity,
 } from '../kinematics';
 import { describeCommanded, sweptCommandedRates } from '../sheet/commanded';
+import { runExportTable, sweepExportTable, type ExportTable } from '../sheet/run-export';
 import { commandedSolutionOf } from '../sheet/schema';
 import type { CommandedSolution, RunSettings, SheetDocument } from '../sheet/types';
 
@@ -44,6 +45,8 @@ export interface RunSeries {
   /** Index into SEVERITY_LEVELS per tick. */
   worstSeverity: Uint8Array;
   warnings: WarningOccurrence[];
+  /** The run as its CSV and JSON exports write it, built beside the plots so the page downloads without solving again. */
+  table: ExportTable;
 }
 
 export interface SweepFingerSeries {
@@ -64,6 +67,8 @@ export interface SweepSeries {
   fingers: SweepFingerSeries[];
   worstSeverity: Uint8Array;
   warnings: WarningOccurrence[];
+  /** The sweep as its CSV and JSON exports write it. */
+  table: ExportTable;
 }
 
 /** Column k of a row-major table with `width` entries per row and `rows` rows. */
@@ -124,6 +129,7 @@ export function runSeries(doc: SheetDocument, record: RunRecord, elapsedMs: numb
     })),
     worstSeverity: record.worstSeverity.slice(),
     warnings,
+    table: runExportTable(doc, record),
   };
 }
 
@@ -167,7 +173,7 @@ export function sweepSeries(doc: SheetDocument, record: SweepRecord, elapsedMs: 
   // Whether a finger can steer depends on its joint roles, which a sweep of a number never changes: the first value tells.
   return {
     path: record.path, elapsedMs, commanded: chosen, followed: describeCommanded(chosen, commanded[0]?.fingers ?? []), values: record.values.slice(), fingers,
-    worstSeverity, warnings,
+    worstSeverity, warnings, table: sweepExportTable(doc, record),
   };
 }
 

@@ -6,6 +6,9 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterAll, describe, expect, it } from 'vitest';
 import { runComputeCommand } from '../../../src/cli/compute';
+import { runSheet, sweepSheet } from '../../../src/lib/kinematics';
+import { evaluateSheet } from '../../../src/lib/sheet/evaluate';
+import { exportCsv, exportJson, runExportTable, sweepExportTable } from '../../../src/lib/sheet/run-export';
 import { runLogMapping } from '../../../src/lib/logs/generate';
 import { generatedRun, TOLERANCES, writeLogFiles } from '../logs/generated-log';
 
@@ -99,37 +102,38 @@ describe('compute CLI', () => {
     });
   });
 
-  it('adds a run and a sweep with --run --sweep (JSON and CSV)', async () => {
+  it('prints the run and the sweep exports the builder writes, byte for byte (JSON and CSV)', async () => {
     const withSweep = sheets.find((name) => 'sweep' in (JSON.parse(readFileSync(join(sheetsDir, name), 'utf8')) as object));
     expect(withSweep).toBeDefined();
     const file = join('content', 'sheets', withSweep!);
-    const [json, csv] = await Promise.all([compute(file, '--run', '--sweep'), compute(file, '--format=csv', '--run', '--sweep')]);
-    expect(json.code).toBe(0);
-    const output = JSON.parse(json.stdout) as {
-      commanded: string;
-      result: { object: { orientation: object }; commanded: { solution: string; fingers: { joints: { name: string; rate: number }[] }[] }; conventions: { quaternion: string } };
-      run: { tickCount: number; time: number[]; orientation: object[] };
-      sweep: { values: number[]; results: { commanded: { solution: string } }[] };
-    };
-    expect(output.run.time.length).toBe(output.run.tickCount);
-    expect(output.sweep.results.length).toBe(output.sweep.values.length);
-    // The JSON names the commanded solution, gives every joint its commanded rate, and writes quaternions w first with named parts.
-    const source = JSON.parse(readFileSync(file, 'utf8')) as { commanded?: string; hand: { fingers: { joints: { name: string }[] }[] } };
-    expect(output.commanded).toBe(source.commanded ?? 'steer-and-roll');
-    expect(output.result.commanded.solution).toBe(output.commanded);
-    expect(output.result.commanded.fingers.map((f) => f.joints.map((j) => j.name))).toEqual(source.hand.fingers.map((f) => f.joints.map((j) => j.name)));
-    expect(output.result.commanded.fingers.every((f) => f.joints.every((j) => Number.isFinite(j.rate)))).toBe(true);
-    expect(Object.keys(output.result.object.orientation)).toEqual(['w', 'x', 'y', 'z']);
-    expect(Object.keys(output.run.orientation[0]!)).toEqual(['w', 'x', 'y', 'z']);
-    expect(output.result.conventions.quaternion).toBe('w, x, y, z (scalar first)');
-    expect(output.sweep.results.every((r) => r.commanded.solution === output.commanded)).toBe(true);
-    expect(csv.code).toBe(0);
-    const sections = csv.stdout.trimEnd().split('\n\n');
-    expect(sections.length).toBe(3);
-    expect(sections[1]).toMatch(/^# run \(.*commanded solution (steer-and-roll|full).*\)\ntick,time_s,x_m,y_m,z_m,qw,qx,qy,qz,/);
-    expect(sections[2]).toMatch(/^# sweep \//);
-    // The first section is the caution line, the header and one row per finger.
-    expect(sections[2]!.split('\n').length).toBe(2 + output.sweep.values.length * (csv.stdout.split('\n\n')[0]!.split('\n').length - 2));
+    const evaluated = evaluateSheet(JSON.parse(readFileSync(file, 'utf8')));
+    if (!evaluated.ok) throw new Error('the demo sheet does not read');
+    const doc = evaluated.value.doc;
+    const source = { sheetId: null, title: doc.title, revision: null };
+    const runTable = runExportTable(doc, runSheet(doc));
+    const sweepTable = sweepExportTable(doc, sweepSheet(doc));
+    const [runJson, runCsv, sweepJson, sweepCsv] = await Promise.all([
+      compute(file, '--run'), compute(file, '--format=csv', '--run'), compute(file, '--sweep'), compute(file, '--format', 'csv', '--sweep'),
+    ]);
+    for (const outcome of [runJson, runCsv, sweepJson, sweepCsv]) {
+      expect(outcome.code).toBe(0);
+      expect(outcome.stderr).toBe(`${SAFETY_CAUTION}\n`);
+    }
+    expect(runJson.stdout).toBe(exportJson(runTable, source));
+    expect(runCsv.stdout).toBe(exportCsv(runTable, source));
+    expect(sweepJson.stdout).toBe(exportJson(sweepTable, source));
+    expect(sweepCsv.stdout).toBe(exportCsv(sweepTable, source));
+    // Rows of equal width (RFC 4180) under the comment lines, one per time step.
+    const lines = runCsv.stdout.trimEnd().split('\n').filter((line) => !line.startsWith('#'));
+    expect(lines.length).toBe(1 + runTable.rowCount);
+    lines.forEach((line) => expect(csvFields(line).length).toBe(runTable.columns.length));
+  });
+
+  it('refuses --run with --sweep (bad usage, exit 2): each writes one export file', async () => {
+    const outcome = await compute(join('content', 'sheets', sheets[0]!), '--run', '--sweep');
+    expect(outcome.code).toBe(2);
+    expect(outcome.stdout).toBe('');
+    expect(outcome.stderr).toContain('--run and --sweep');
   });
 
   it('exits 1 with file:line:column on invalid JSON', async () => {

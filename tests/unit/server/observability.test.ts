@@ -120,7 +120,7 @@ describe('shutDown', () => {
   it('finishes a request in progress and the queued writes, refuses new connections, then closes', async () => {
     let pending = 0;
     const events: string[] = [];
-    const slow: NodeHandler = (req, res) => {
+    const slow: NodeHandler = (_req, res) => {
       pending++;
       setTimeout(() => {
         res.end('done');
