@@ -225,7 +225,7 @@ describe('3D view, its SVG fallback, runs and sweeps on the sheet page', () => {
     await panel.getByRole('button', { name: 'Sweep' }).click();
     await panel.getByTestId('sweep-results').waitFor();
     await page.waitForFunction(() => document.querySelectorAll('[data-testid="sweep-panel"] .uplot canvas').length >= 4);
-    for (const title of ['Commanded joint rates: steer-and-roll', 'Condition number of the contact Jacobian', 'Residual slip speed', 'Contact gap']) {
+    for (const title of ['Commanded joint rates: steer-and-roll', 'Rank-loss ratio the warning judges', 'Slip speed left: steer-and-roll', 'Contact gap']) {
       expect(await panel.locator('figcaption', { hasText: title }).count()).toBe(1);
     }
     expect(await panel.locator('.u-legend').nth(3).innerText()).toMatch(/north[\s\S]*southwest[\s\S]*southeast/);

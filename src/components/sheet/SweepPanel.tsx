@@ -39,7 +39,7 @@ function sweepCharts(series: SweepSeries, unit: DisplayUnit, units: DisplayUnits
     x,
     shaded,
     rates: series.fingers.flatMap((f) => f.rates.map((r) => ({ label: r.joint, values: shownColumn(r.values, 'rad/s', units).values }))),
-    condition: perFinger((f) => f.conditionNumber),
+    rankRatio: perFinger((f) => f.rankRatio),
     residual: perFinger((f) => f.residual, 'm/s'),
     gap: perFinger((f) => f.gap, 'm'),
   };
@@ -61,8 +61,8 @@ function SweepResults({ series, input, units, source }: { series: SweepSeries; i
       <ExportButtons table={series.table} source={source} />
       <div className="grid gap-4 @3xl:grid-cols-2">
         <LineChart title={`Commanded joint rates: ${series.followed}`} yLabel={units.angularSpeed} series={charts.rates} {...common} />
-        <LineChart title="Condition number of the contact Jacobian" yLabel="σmax/σmin" logY series={charts.condition} {...common} />
-        <LineChart title="Residual slip speed" yLabel={`${units.length}/s`} series={charts.residual} {...common} />
+        <LineChart title="Rank-loss ratio the warning judges (drive columns after steering)" yLabel="σmin/σmax" logY series={charts.rankRatio} {...common} />
+        <LineChart title={`Slip speed left: ${series.followed}`} yLabel={`${units.length}/s`} series={charts.residual} {...common} />
         <LineChart title="Contact gap" yLabel={units.length} series={charts.gap} {...common} />
       </div>
     </div>

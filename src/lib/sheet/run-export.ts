@@ -143,7 +143,7 @@ export function runExportTable(doc: SheetDocument, record: RunRecord): ExportTab
 }
 
 /** The slip speed left by the solution a finger follows (m/s): after steering under steer-and-roll, else the full solution's residual. */
-function followedSlip(result: PlainSheetResult, finger: number, solution: CommandedSolution): number {
+export function followedSlip(result: PlainSheetResult, finger: number, solution: CommandedSolution): number {
   const solved = result.fingers[finger]!;
   return solution === 'steer-and-roll' ? solved.steer.residualNorm : solved.full.residualNorm;
 }

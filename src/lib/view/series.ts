@@ -7,7 +7,7 @@ import {
   type RunRecord, type RunStopReason, type SweepRecord, type WarningCode, type WarningSeverity,
 } from '../kinematics';
 import { describeCommanded, sweptCommandedRates } from '../sheet/commanded';
-import { runExportTable, sweepExportTable, type ExportTable } from '../sheet/run-export';
+import { followedSlip, runExportTable, sweepExportTable, type ExportTable } from '../sheet/run-export';
 import { commandedSolutionOf } from '../sheet/schema';
 import type { CommandedSolution, RunSettings, SheetDocument } from '../sheet/types';
 
@@ -52,7 +52,9 @@ export interface RunSeries {
 export interface SweepFingerSeries {
   finger: string;
   rates: JointSeries[];
-  conditionNumber: Float64Array;
+  /** σmin/σmax of the columns the rank-loss warning judges (drive columns after steering, else the full Jacobian). */
+  rankRatio: Float64Array;
+  /** Slip speed (m/s) left by the solution the finger follows at each value. */
   residual: Float64Array;
   gap: Float64Array;
 }
@@ -135,7 +137,7 @@ export function runSeries(doc: SheetDocument, record: RunRecord, elapsedMs: numb
 
 const SEVERITY_INDEX = new Map(SEVERITY_LEVELS.map((level, i) => [level, i]));
 
-/** Plot columns of a sweep: per finger its joint rates, condition number, residual and gap over the swept value, and where each warning appeared. */
+/** Plot columns of a sweep: per finger its joint rates, the rank-loss ratio its warning judges, the slip left and the gap over the swept value, and where each warning appeared. */
 export function sweepSeries(doc: SheetDocument, record: SweepRecord, elapsedMs: number): SweepSeries {
   const steps = record.results.length;
   const commanded = record.results.map((result, i) => sweptCommandedRates(doc, result, record.path, record.values[i]!));
@@ -148,8 +150,8 @@ export function sweepSeries(doc: SheetDocument, record: SweepRecord, elapsedMs: 
     return {
       finger: finger.name,
       rates,
-      conditionNumber: Float64Array.from(record.results, (result) => result.fingers[f]!.full.conditionNumber),
-      residual: Float64Array.from(record.results, (result) => result.fingers[f]!.full.residualNorm),
+      rankRatio: Float64Array.from(record.results, (result) => result.fingers[f]!.rankRatio),
+      residual: Float64Array.from(record.results, (result, i) => followedSlip(result, f, commanded[i]!.fingers[f]!.solution)),
       gap: Float64Array.from(record.results, (result) => result.fingers[f]!.contact.gap),
     };
   });

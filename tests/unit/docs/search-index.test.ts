@@ -34,8 +34,9 @@ describe('searchableText', () => {
 describe('the search over the reference pages', () => {
   const index = served(reference);
 
-  it('indexes all nine reference pages, each under /docs', () => {
-    expect(reference).toHaveLength(9);
+  it('indexes every reference page in content/docs, each under /docs', () => {
+    expect(reference).toHaveLength(readdirSync(docsDir).filter((name) => name.endsWith('.md')).length);
+    expect(reference.length).toBeGreaterThanOrEqual(9);
     expect(reference.map((page) => searchDocument(page).href).every((href) => /^\/docs\/[a-z-]+$/.test(href))).toBe(true);
   });
 

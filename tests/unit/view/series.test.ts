@@ -81,7 +81,10 @@ describe('sweepSeries', () => {
     expect(full.fingers[1]!.rates[2]!.values[2]).toBe(record.results[2]!.fingers[1]!.full.rates[2]);
     expect(full.followed).toBe('full solution');
     expect(series.fingers[0]!.gap[1]).toBe(record.results[1]!.fingers[0]!.contact.gap);
-    expect(series.fingers[2]!.conditionNumber[0]).toBe(record.results[0]!.fingers[2]!.full.conditionNumber);
+    // The ratio plotted is the one the rank-loss warning judges, and the slip is the followed solution's.
+    expect(series.fingers[2]!.rankRatio[0]).toBe(record.results[0]!.fingers[2]!.rankRatio);
+    expect(series.fingers[1]!.residual[2]).toBe(record.results[2]!.fingers[1]!.steer.residualNorm);
+    expect(full.fingers[1]!.residual[2]).toBe(record.results[2]!.fingers[1]!.full.residualNorm);
     const rankLoss = series.warnings.find((w) => w.code === 'JACOBIAN_NEAR_RANK_LOSS')!;
     expect(rankLoss.indices).toContain(2);
     expect(rankLoss.severity).toBe('singular');
