@@ -88,6 +88,8 @@ describe('the commanded solution', () => {
     // Written about a finger's contact: the sheet finds the contact, then converts, and the derivation shows it.
     await page.getByTestId('twist-reference').selectOption('the contact of north');
     await page.locator('legend', { hasText: 'twist: velocity of the contact point (object frame)' }).waitFor();
+    // The derivation loads once its section nears the screen.
+    await page.locator('#derivation').scrollIntoViewIfNeeded();
     const scope = page.getByTestId('derivation-scope');
     await scope.locator('option[value="object"]').waitFor({ state: 'attached', timeout: 20_000 });
     await scope.selectOption('object');
