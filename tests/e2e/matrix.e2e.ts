@@ -9,6 +9,7 @@ const DEMO_SHEET = 'Bearing housing: index a quarter turn';
 let browser: Browser;
 let page: Page;
 let sheetId = '';
+let bareSheetId = '';
 const created: string[] = [];
 
 /** A copy of the three-finger demo sheet with a three-target matrix in two groups; a copy, because other browser tests read the demo sheets. */
@@ -29,6 +30,10 @@ beforeAll(async () => {
     };
   });
   created.push(sheetId);
+  bareSheetId = await copyDemoSheet(page, DEMO_SHEET, 'Matrix editing check (copy of the bearing housing)', (document) => {
+    delete document.matrix;
+  });
+  created.push(bareSheetId);
 }, 60_000);
 
 afterAll(async () => {
@@ -75,4 +80,52 @@ describe('the matrix panel', () => {
     expect(stored.result.runs.length).toBe(3);
     await saveScreenshot(page, 'matrix-stored');
   }, 120_000);
+});
+
+describe('the matrix inputs of the editor', () => {
+  it('adds a matrix to a sheet without one, two targets in degrees, and runs them as two rows', async () => {
+    await page.goto(`${baseUrl()}/sheets/${bareSheetId}`, { waitUntil: 'networkidle' });
+    const fields = page.getByTestId('matrix-fields');
+    await fields.getByRole('button', { name: 'Add a test matrix' }).click();
+    // An empty matrix is refused at its targets table until something is in it.
+    await fields.getByText('a matrix needs at least one target').waitFor();
+    await fields.getByRole('button', { name: 'Add target' }).click();
+    await fields.getByRole('button', { name: 'Add target' }).click();
+    expect(await fields.getByTestId('matrix-target-row').count()).toBe(2);
+    await fields.getByLabel('target 1 angle').fill('30 deg');
+    await fields.getByLabel('target 2 axis x').fill('1');
+    await fields.getByLabel('target 2 axis z').fill('0');
+    await fields.getByLabel('target 2 angle').fill('20 deg');
+    await fields.getByLabel('target 2 group').fill('horizontal axis');
+    const panel = page.getByTestId('matrix-panel');
+    await panel.getByText("The sheet's matrix: 2 listed targets").waitFor({ timeout: 30_000 });
+    // The panel opened on a sheet without a matrix and offered generated targets; none for this run.
+    await panel.getByLabel('Spread axes (count)').fill('0');
+    await panel.getByLabel('Random rotations (count)').fill('0');
+    await panel.getByRole('button', { name: 'Run matrix' }).click();
+    await panel.getByTestId('matrix-results').waitFor({ timeout: 60_000 });
+    expect(await panel.getByTestId('matrix-runs').locator('tbody tr').count()).toBe(2);
+    const groups = await panel.getByTestId('matrix-runs').locator('tbody tr td:nth-child(2)').allInnerTexts();
+    // A target without a group counts toward "targets" (the sheet format's default group).
+    expect(groups).toEqual(['targets', 'horizontal axis']);
+    // 30 deg about z is the quaternion (cos 15 deg, 0, 0, sin 15 deg) = (0.966, 0, 0, 0.259) (axis-angle to quaternion, common practice).
+    const target = await panel.getByTestId('matrix-runs').locator('tbody tr').first().locator('td:nth-child(4)').innerText();
+    expect(target).toBe([Math.cos(Math.PI / 12), 0, 0, Math.sin(Math.PI / 12)].map((v) => v.toFixed(3)).join(', '));
+    await saveScreenshot(page, 'matrix-edited');
+  }, 120_000);
+
+  it('keeps the panel generators in the sheet as a generator row', async () => {
+    const panel = page.getByTestId('matrix-panel');
+    const fields = page.getByTestId('matrix-fields');
+    expect(await fields.getByTestId('matrix-generator-row').count()).toBe(0);
+    await panel.getByLabel('Spread axes (count)').fill('4');
+    await panel.getByLabel('Turn about each (deg)').fill('45');
+    await panel.getByRole('button', { name: 'Keep in the sheet' }).click();
+    await fields.getByTestId('matrix-generator-row').first().waitFor();
+    expect(await fields.getByTestId('matrix-generator-row').count()).toBe(1);
+    expect(await fields.getByLabel('turn about each axis').inputValue()).toBe('45 deg');
+    expect(await fields.getByLabel('count').inputValue()).toBe('4');
+    await panel.getByText('4 generated').waitFor({ timeout: 30_000 });
+    expect(await panel.getByLabel('Spread axes (count)').inputValue()).toBe('0');
+  }, 60_000);
 });

@@ -1,5 +1,6 @@
 import { useEffect, useState } from 'react';
 import { ApiError, requestJson } from '../../lib/client/api';
+import type { WrittenGenerator } from '../../lib/sheet/matrix-edit';
 import type { MatrixResultRecord, SheetLink, Wire } from '../../lib/contract';
 import type { MatrixGroup, MatrixResult, Spread } from '../../lib/sheet/matrix';
 import type { MatrixGenerator, MatrixSettings, SheetDocument } from '../../lib/sheet/types';
@@ -145,12 +146,15 @@ export default function MatrixPanel({
   sheet,
   canEdit,
   related,
+  keep,
 }: {
   document: SheetDocument;
   sheet: { id: string; title: string; revision: number; latestRevision: number };
   canEdit: boolean;
   /** The sheet this one was forked from and its forks, at their revisions. */
   related: SheetLink[];
+  /** Appends generators to the sheet's matrix as unsaved edits; absent when the sheet is read only. */
+  keep?: (generators: WrittenGenerator[]) => void;
 }) {
   const hasMatrix = document.matrix !== undefined;
   const [spread, setSpread] = useState({ count: hasMatrix ? '0' : '8', angle: '60' });
@@ -200,6 +204,17 @@ export default function MatrixPanel({
     start({ kind: 'matrix', document, settings });
   }
 
+  /** Moves the generators set here into the sheet (the spread angle written in degrees, as typed) and clears them here, so the next run does not count them twice. */
+  function keepInSheet() {
+    const extra = generators();
+    if (typeof extra === 'string') return setError(extra);
+    if (extra.length === 0) return setError('Set a count above to keep generated targets in the sheet.');
+    setError(null);
+    keep?.(extra.map((g): WrittenGenerator => (g.kind === 'spread-axes' ? { ...g, angle: `${Number(spread.angle)} deg` } : g)));
+    setSpread({ ...spread, count: '0' });
+    setRandom({ ...random, count: '0' });
+  }
+
   async function computeOnServer() {
     setServerState({ busy: true, message: null });
     try {
@@ -228,8 +243,8 @@ export default function MatrixPanel({
       <h3 className="text-sm font-semibold">Test matrix</h3>
       <p className="text-xs text-graphite">
         {hasMatrix
-          ? `The sheet's matrix: ${document.matrix!.targets.length} listed targets, ${document.matrix!.generators.reduce((n, g) => n + g.count, 0)} generated, from ${Math.max(1, document.matrix!.starts.length)} start pose(s). Targets generated here are added for this run only.`
-          : 'This sheet has no matrix section; targets generated here run in this browser only. A "matrix" section in the sheet keeps them with the revision.'}
+          ? `The sheet's matrix: ${document.matrix!.targets.length} listed targets, ${document.matrix!.generators.reduce((n, g) => n + g.count, 0)} generated, from ${Math.max(1, document.matrix!.starts.length)} start pose(s). Targets generated here are added for this run only, unless kept in the sheet.`
+          : 'This sheet has no test matrix; targets generated here run in this browser only, unless kept in the sheet (saved with the next revision).'}
       </p>
       <form
         onSubmit={(event) => {
@@ -258,6 +273,11 @@ export default function MatrixPanel({
           Run matrix
         </button>
       </form>
+      {keep && (
+        <button type="button" className={secondaryButton} onClick={keepInSheet} title="Adds the generators set above to the sheet's test matrix (saved with the next revision)">
+          Keep in the sheet
+        </button>
+      )}
       {error && (
         <p className="border-l-4 border-sienna pl-3 text-sm text-sienna" role="alert">
           {error}

@@ -6,6 +6,7 @@ import { useSheetEditing } from './editor-context';
 import { selectInput } from './sheet-styles';
 import { OrientationFields } from './ObjectSection';
 import { Choice, ComponentHeads, HIDDEN_LABELS, PlainNumber, Quantity, QuantityVector, Toggle } from './fields';
+import MatrixFields from './MatrixFields';
 import QuantityField from './QuantityField';
 import SolverSettingsFields from './SolverSettingsFields';
 
@@ -151,6 +152,10 @@ export default function MotionSection() {
         </div>
       </fieldset>
       <SolverSettingsFields />
+      <section aria-label="Test matrix inputs" className="border-t-2 border-rule pt-3" id="matrix">
+        <h3 className="mb-2 text-[11px] font-semibold uppercase tracking-wide text-ink">test matrix</h3>
+        <MatrixFields />
+      </section>
     </div>
   );
 }

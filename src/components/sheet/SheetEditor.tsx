@@ -4,6 +4,7 @@ import { formatWhen } from '../../lib/client/api';
 import type { SheetLink, SheetPageData } from '../../lib/contract';
 import { setAt, type DocumentPath } from '../../lib/sheet/document-path';
 import type { ExportSource } from '../../lib/sheet/run-export';
+import { keepGenerators, type WrittenGenerator } from '../../lib/sheet/matrix-edit';
 import { displayUnitsOf, type DisplayUnits } from '../../lib/sheet/display-units';
 import { parseVariables } from '../../lib/sheet/units';
 import { describeWarning } from '../../lib/sheet/warning-notes';
@@ -39,6 +40,8 @@ interface MatrixContext {
   sheet: { id: string; title: string; revision: number; latestRevision: number };
   canEdit: boolean;
   related: SheetLink[];
+  /** Appends generators to the sheet's matrix as unsaved edits; absent when the sheet is read only. */
+  keep?: (generators: WrittenGenerator[]) => void;
 }
 
 const SideViews = memo(function SideViews({ solved, units, matrix, source }: { solved: Solved | null; units: DisplayUnits; matrix: MatrixContext; source: ExportSource }) {
@@ -154,8 +157,9 @@ function Editor({ data }: { data: SheetPageData }) {
       sheet: { id: sheetId, title: data.sheet.title, revision: base.revision, latestRevision },
       canEdit: data.canEdit,
       related: [...(data.forkedFrom ? [data.forkedFrom] : []), ...data.forks],
+      keep: readOnly ? undefined : (generators: WrittenGenerator[]) => setDocument((current) => keepGenerators(current, generators)),
     }),
-    [sheetId, data.sheet.title, base.revision, latestRevision, data.canEdit, data.forkedFrom, data.forks],
+    [sheetId, data.sheet.title, base.revision, latestRevision, data.canEdit, data.forkedFrom, data.forks, readOnly],
   );
   const editing: SheetEditing = useMemo(
     () => ({ document, update, issues, variables: variables.values, units, readOnly }),
