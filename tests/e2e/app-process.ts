@@ -1,5 +1,6 @@
-import { spawn } from 'node:child_process';
-import { existsSync } from 'node:fs';
+import { execFileSync, spawn } from 'node:child_process';
+import { existsSync, readdirSync, statSync } from 'node:fs';
+import { join } from 'node:path';
 import { makeTempDir } from '../helpers/temp';
 
 /** A running copy of the built app. */
@@ -63,4 +64,24 @@ export async function startApp(options: { port: number; databaseUrl: string; env
     signal: (signal) => child.kill(signal),
     exited,
   };
+}
+
+/** Newest modification time under a folder, ms. */
+function newest(folder: string): number {
+  let latest = 0;
+  for (const entry of readdirSync(folder, { withFileTypes: true })) {
+    const path = join(folder, entry.name);
+    latest = Math.max(latest, entry.isDirectory() ? newest(path) : statSync(path).mtimeMs);
+  }
+  return latest;
+}
+
+/** For the measurement scripts run outside `npm test`: builds the app when the build is missing or older than src, and makes sure Chromium is there. */
+export function ensureBuiltAppAndBrowser(): void {
+  const entry = 'dist/server/entry.mjs';
+  if (!existsSync(entry) || statSync(entry).mtimeMs < newest('src')) {
+    console.log('Building the app (the build is missing or older than src)...');
+    execFileSync('npm', ['run', 'build'], { stdio: 'inherit' });
+  }
+  execFileSync('node_modules/.bin/tsx', ['tests/e2e/ensure-chromium.ts'], { stdio: 'inherit' });
 }

@@ -9,8 +9,7 @@
  *
  *   npm run bench:log-browser [-- samples=1000000] [-- gzip]
  */
-import { execFileSync } from 'node:child_process';
-import { closeSync, createReadStream, createWriteStream, existsSync, openSync, readdirSync, rmSync, statSync, writeSync } from 'node:fs';
+import { closeSync, createReadStream, createWriteStream, openSync, rmSync, statSync, writeSync } from 'node:fs';
 import { join } from 'node:path';
 import { pipeline } from 'node:stream/promises';
 import { createGzip } from 'node:zlib';
@@ -20,7 +19,7 @@ import { runLogHeader, runLogRow } from '../../src/lib/logs/generate';
 import { DEMO_PASSWORD } from '../../src/lib/server/demo';
 import { parseSheet } from '../../src/lib/sheet/schema';
 import { freePort, makeTempDir, tempDatabaseUrl } from '../helpers/temp';
-import { startApp } from './app-process';
+import { ensureBuiltAppAndBrowser, startApp } from './app-process';
 import { launchBrowser } from './browser';
 import { cookieHeader, signInOverHttp } from './http-session';
 
@@ -34,22 +33,7 @@ const samples = Number(option('samples')?.split('=')[1] ?? 1_000_000);
 const gzip = option('gzip') !== undefined;
 const MIB = 1024 * 1024;
 
-/** Newest modification time under a folder, ms. */
-function newest(folder: string): number {
-  let latest = 0;
-  for (const entry of readdirSync(folder, { withFileTypes: true })) {
-    const path = join(folder, entry.name);
-    latest = Math.max(latest, entry.isDirectory() ? newest(path) : statSync(path).mtimeMs);
-  }
-  return latest;
-}
-
-const entry = 'dist/server/entry.mjs';
-if (!existsSync(entry) || statSync(entry).mtimeMs < newest('src')) {
-  console.log('Building the app (the build is missing or older than src)...');
-  execFileSync('npm', ['run', 'build'], { stdio: 'inherit' });
-}
-execFileSync('node_modules/.bin/tsx', ['tests/e2e/ensure-chromium.ts'], { stdio: 'inherit' });
+ensureBuiltAppAndBrowser();
 
 const app = await startApp({ port: await freePort(), databaseUrl: tempDatabaseUrl(), env: { ...process.env, AUTH_SECRET: 'log-browser-bench-secret-0123456789abcdef' } });
 const folder = makeTempDir('slipless-log-bench-');

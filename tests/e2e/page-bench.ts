@@ -14,16 +14,14 @@
  *
  *   npm run bench:page [-- repeat=5]
  */
-import { execFileSync } from 'node:child_process';
-import { existsSync, readdirSync, readFileSync, statSync } from 'node:fs';
-import { join } from 'node:path';
+import { readFileSync } from 'node:fs';
 import { gzipSync } from 'node:zlib';
 import type { Browser, BrowserContext } from 'playwright-core';
 import { openDatabase } from '../../src/db';
 import { DEMO_PASSWORD } from '../../src/lib/server/demo';
 import { createSheet } from '../../src/lib/server/sheets';
 import { freePort, tempDatabaseUrl } from '../helpers/temp';
-import { startApp } from './app-process';
+import { ensureBuiltAppAndBrowser, startApp } from './app-process';
 import { launchBrowser } from './browser';
 import { cookieHeader, signInOverHttp } from './http-session';
 
@@ -36,16 +34,6 @@ const EDITED_FIELD = 'hand.fingers[2].roller.radius';
 const EDIT_VALUES = ['13.5 mm', '13 mm', '12.5 mm', '12 mm'];
 const RESULT_CELL = '[data-result="2.contact.gap"]';
 const KB = 1000;
-
-/** Newest modification time under a folder, ms. */
-function newest(folder: string): number {
-  let latest = 0;
-  for (const entry of readdirSync(folder, { withFileTypes: true })) {
-    const path = join(folder, entry.name);
-    latest = Math.max(latest, entry.isDirectory() ? newest(path) : statSync(path).mtimeMs);
-  }
-  return latest;
-}
 
 const median = (values: readonly number[]) => {
   const sorted = [...values].sort((a, b) => a - b);
@@ -96,11 +84,7 @@ function installProbes() {
 type Probe = { lastInput: number; lastClick: number; until(selector: string, count: number, changedFrom?: string): Promise<number> };
 declare const __slipless: Probe;
 
-if (!existsSync('dist/server/entry.mjs') || statSync('dist/server/entry.mjs').mtimeMs < newest('src')) {
-  console.log('Building the app (the build is missing or older than src)...');
-  execFileSync('npm', ['run', 'build'], { stdio: 'inherit' });
-}
-execFileSync('node_modules/.bin/tsx', ['tests/e2e/ensure-chromium.ts'], { stdio: 'inherit' });
+ensureBuiltAppAndBrowser();
 
 const databaseUrl = tempDatabaseUrl();
 const app = await startApp({ port: await freePort(), databaseUrl, env: { ...process.env, AUTH_SECRET: 'page-bench-secret-0123456789abcdef0123' } });
