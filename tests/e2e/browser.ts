@@ -1,6 +1,6 @@
 import { mkdirSync } from 'node:fs';
 import { join, resolve } from 'node:path';
-import { chromium, type Browser, type Page } from 'playwright-core';
+import { chromium, type Browser, type Locator, type Page } from 'playwright-core';
 import { inject } from 'vitest';
 import { openDatabase } from '../../src/db';
 import { deleteSheet } from '../../src/lib/server/sheets';
@@ -24,6 +24,15 @@ export async function launchBrowser(): Promise<Browser> {
       '--enable-unsafe-swiftshader',
     ],
   });
+}
+
+/**
+ * Waits until the island holding `inside` has hydrated (Astro removes the island's `ssr` attribute
+ * then). A `client:visible` island hydrates only after it scrolls into view; a click before that
+ * reaches the bare server-rendered form instead of the component.
+ */
+export async function waitForHydration(inside: Locator): Promise<void> {
+  await inside.locator('xpath=ancestor-or-self::astro-island[1]').and(inside.page().locator('astro-island:not([ssr])')).waitFor({ timeout: 30_000 });
 }
 
 /** The base URL of the server that tests/e2e/server.ts started for this run. */

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
 import { DEMO_PASSWORD, DEMO_TEAM } from '../../src/lib/server/demo';
-import { baseUrl, launchBrowser, saveScreenshot, signIn } from './browser';
+import { baseUrl, launchBrowser, saveScreenshot, signIn, waitForHydration } from './browser';
 
 let browser: Browser;
 
@@ -20,6 +20,7 @@ describe('team settings', () => {
     await page.goto(`${baseUrl()}/team/members`, { waitUntil: 'networkidle' });
     const settings = page.getByRole('region', { name: 'Team settings' });
     await settings.scrollIntoViewIfNeeded();
+    await waitForHydration(settings);
     const name = settings.getByLabel('Team name');
     await expect.poll(() => settings.getByRole('button', { name: 'Delete this team' }).isDisabled()).toBe(true);
     await name.fill('x');
