@@ -9,7 +9,7 @@ import type { FingerAcceleration } from './acceleration';
 import { computeContact, createContact, createContactWorkspace, createObject, updateObjectRotation, type Contact, type ContactWorkspace, type RigidObject } from './contact';
 import type { ContactCurvature } from './curvature';
 import { computeGrasp, createGraspResult, createGraspWorkspace, type GraspResult, type GraspWorkspace } from './grasp';
-import { computeGraspQuality, type GraspQuality } from './grasp-quality';
+import { computeGraspQuality, type GraspQuality, type GraspQualityInput } from './grasp-quality';
 import { createFinger, forwardKinematics, type Finger } from './hand';
 import { conditionFull, createFullSolution, createFullSolveWorkspace, solveFull, solveFullRates, type FullSolution } from './full-solution';
 import { matrixToRows, numericalRank, type LinalgWorkspace, type Matrix } from './linalg';
@@ -199,8 +199,8 @@ export const DEFAULT_FRICTION = 0.5;
 /** Cone edges when the sheet states no grasp-quality settings. */
 export const DEFAULT_CONE_EDGES = 8;
 
-/** Grasp quality under friction of the touching (or penetrating) contacts of a solved sheet, once per evaluation, never per tick (world frame, SI). */
-export function computeSheetGraspQuality(doc: SheetDocument, result: SheetResult): GraspQuality {
+/** What the grasp quality of a solved sheet is computed from: its touching (or penetrating) contacts, their friction and the settings (world frame, SI). */
+export function sheetGraspQualityInput(doc: SheetDocument, result: SheetResult): GraspQualityInput {
   const points: number[] = [], normals: number[] = [], friction: number[] = [];
   result.fingers.forEach((f, i) => {
     if (f.contact.state === 'separated') return;
@@ -209,7 +209,7 @@ export function computeSheetGraspQuality(doc: SheetDocument, result: SheetResult
     friction.push(doc.hand.fingers[i].friction ?? DEFAULT_FRICTION);
   });
   const settings = doc.graspQuality;
-  return computeGraspQuality({
+  return {
     origin: result.object.position,
     points,
     normals,
@@ -218,7 +218,12 @@ export function computeSheetGraspQuality(doc: SheetDocument, result: SheetResult
     coneEdges: settings?.coneEdges ?? DEFAULT_CONE_EDGES,
     torsionalFriction: doc.solver.softFinger ? (settings?.torsionalFriction ?? 0) : 0,
     torqueLength: settings?.torqueLength,
-  });
+  };
+}
+
+/** Grasp quality under friction of the touching (or penetrating) contacts of a solved sheet, once per evaluation, never per tick (world frame, SI). */
+export function computeSheetGraspQuality(doc: SheetDocument, result: SheetResult): GraspQuality {
+  return computeGraspQuality(sheetGraspQualityInput(doc, result));
 }
 
 /** Sets the object pose: origin (m) and orientation quaternion [x, y, z, w] (world frame). */

@@ -4,10 +4,11 @@
  * compute worker, the sheet service, file import and export, the comparison, the report and the
  * compute command all call it, so a sheet reads and solves the same way everywhere.
  */
-import { computeSheetGraspQuality, sheetCurvature, solveAccelerations, solveSheet, toPlainResult, type PlainSheetResult, type SheetResult } from '../kinematics';
+import { sheetCurvature, solveAccelerations, solveSheet, toPlainResult, type PlainSheetResult, type SheetResult } from '../kinematics';
 import { fail, succeed, type DomainError, type Result } from '../result';
 import { commandedRates } from './commanded';
 import { deriveSheet, type DerivationEntry } from './derivation';
+import { sheetGraspQuality } from './grasp-quality-cache';
 import { formatIssuePath, parseSheet, type SheetIssue } from './schema';
 import type { SheetSummary } from './summary';
 import type { SheetDocument } from './types';
@@ -117,7 +118,7 @@ export function evaluateSheet(input: unknown, options: EvaluateOptions = {}): Re
     // The feed-forward's rolling term needs each contact's motion over the surfaces, so the curvature comes first.
     const curvatures = sheetCurvature(doc, solved);
     solveAccelerations(solved, doc.object.acceleration, doc.solver, curvatures, doc.hand.fingers);
-    solved.graspQuality = computeSheetGraspQuality(doc, solved);
+    solved.graspQuality = sheetGraspQuality(doc, solved);
     const result = toPlainResult(solved);
     curvatures.forEach((curvature, i) => { result.fingers[i].curvature = curvature; });
     result.commanded = commandedRates(doc, result);
