@@ -78,17 +78,32 @@ function undefinedByBuild(result: PlainSheetResult, path: readonly (string | num
 /** Outputs with one entry per joint of the finger, so a bad entry names its joint. */
 const PER_JOINT_OUTPUTS: ReadonlySet<string> = new Set(['rates', 'jointAngles', 'jointAccelerations']);
 
-/** Path (keys and indices) of the first number in a plain result that must not be reported, or undefined when all are. */
-function firstNonFinite(result: PlainSheetResult, value: unknown, path: (string | number)[]): { path: (string | number)[]; value: number } | undefined {
+/**
+ * Path (keys and indices) of the first number in a plain result that must not be reported, or undefined when all are.
+ * Walks the result depth first in key order on one path stack (a copy is made only for the number found): it visits
+ * every number of every evaluation, so it allocates nothing per node.
+ */
+function firstNonFinite(result: PlainSheetResult, value: unknown, path: (string | number)[], key: string | undefined): { path: (string | number)[]; value: number } | undefined {
   if (typeof value === 'number') {
-    const key = path.findLast((segment) => typeof segment === 'string');
+    if (Number.isFinite(value)) return undefined;
     const allowed = key !== undefined
       && ((value === Infinity && UNBOUNDED_OUTPUTS.has(key)) || (Number.isNaN(value) && undefinedByBuild(result, path, key)));
-    return Number.isFinite(value) || allowed ? undefined : { path, value };
+    return allowed ? undefined : { path: [...path], value };
   }
   if (value === null || typeof value !== 'object') return undefined;
-  for (const [key, item] of Array.isArray(value) ? value.entries() : Object.entries(value)) {
-    const found = firstNonFinite(result, item, [...path, key]);
+  if (Array.isArray(value)) {
+    for (let i = 0; i < value.length; i++) {
+      path.push(i);
+      const found = firstNonFinite(result, value[i], path, key);
+      path.pop();
+      if (found) return found;
+    }
+    return undefined;
+  }
+  for (const name of Object.keys(value)) {
+    path.push(name);
+    const found = firstNonFinite(result, (value as Record<string, unknown>)[name], path, name);
+    path.pop();
     if (found) return found;
   }
   return undefined;
@@ -122,7 +137,7 @@ export function evaluateSheet(input: unknown, options: EvaluateOptions = {}): Re
     const result = toPlainResult(solved);
     curvatures.forEach((curvature, i) => { result.fingers[i].curvature = curvature; });
     result.commanded = commandedRates(doc, result);
-    const bad = firstNonFinite(result, result, []);
+    const bad = firstNonFinite(result, result, [], undefined);
     if (bad) {
       const message = `the result is not a finite number: ${formatIssuePath(bad.path)} is ${bad.value}${describeOwner(doc, bad.path)}; an input is too large or too small for the solve to keep its digits`;
       return fail({ kind: 'invalid', stage: 'solve', message, issues: [{ path: formatIssuePath([]), message }] });

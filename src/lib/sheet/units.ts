@@ -348,6 +348,25 @@ function readUnit(
   return { ok: true, unit: evaluated.value, usesVariables: evaluated.usesVariables };
 }
 
+/** A read quantity checked against its kind and converted to the kind's SI unit. */
+function convertUnit(unit: Unit, kind: QuantityKind, input: string, usesVariables: boolean): QuantityResult {
+  if (kind === 'any') return { ok: true, value: unit.toSI().toNumber() };
+  const reference = referenceUnits.get(kind);
+  if (!reference || !unit.equalBase(reference)) {
+    const written = input.trim();
+    const got = usesVariables ? `${written} = ${unit.toSI().toString()}` : written;
+    return { ok: false, message: `expected ${nounOf(kind)}, got ${got}` };
+  }
+  return { ok: true, value: unit.toNumber(QUANTITY_KINDS[kind].si) };
+}
+
+/**
+ * The conversions of each constant quantity (one that uses no variable) by kind. Its unit is the one object the expression cache
+ * keeps for its text, so this lives exactly as long as that entry; the conversion (mathjs reads the target unit's text each time)
+ * was most of reading a sheet whose texts had all been read before.
+ */
+const constantConversions = new WeakMap<Unit, Partial<Record<QuantityKind, QuantityResult>>>();
+
 /**
  * Converts a sheet quantity (SI number, unit string or expression over `variables`) to its SI
  * value (m, rad, s, m/s, rad/s, m/s^2, rad/s^2 or 1/s by kind). `budget`, when given, pays for the expression's operations.
@@ -359,14 +378,13 @@ export function parseQuantity(input: QuantityInput, kind: QuantityKind, variable
   }
   const read = readUnit(input, kind, variables, budget);
   if (!read.ok) return read;
-  if (kind === 'any') return { ok: true, value: read.unit.toSI().toNumber() };
-  const reference = referenceUnits.get(kind);
-  if (!reference || !read.unit.equalBase(reference)) {
-    const written = input.trim();
-    const got = read.usesVariables ? `${written} = ${read.unit.toSI().toString()}` : written;
-    return { ok: false, message: `expected ${nounOf(kind)}, got ${got}` };
+  if (read.usesVariables) return convertUnit(read.unit, kind, input, true);
+  let conversions = constantConversions.get(read.unit);
+  if (conversions === undefined) {
+    conversions = {};
+    constantConversions.set(read.unit, conversions);
   }
-  return { ok: true, value: read.unit.toNumber(QUANTITY_KINDS[kind].si) };
+  return (conversions[kind] ??= convertUnit(read.unit, kind, input, false));
 }
 
 /** The kind of quantity a value has (length, angle, ...), or null for a plain number or another dimension. */
