@@ -269,16 +269,25 @@ export function toPlainResult(result: SheetResult): PlainSheetResult {
   return toPlain(result) as PlainSheetResult;
 }
 
+/** Runs once per evaluation over every number of the result: plain loops, since Array.from and Object.entries allocate per element. */
 function toPlain(value: unknown): unknown {
-  if (value instanceof Float64Array) return Array.from(value);
-  if (Array.isArray(value)) return value.map(toPlain);
+  if (value instanceof Float64Array) {
+    const out = new Array<number>(value.length);
+    for (let i = 0; i < value.length; i++) out[i] = value[i];
+    return out;
+  }
+  if (Array.isArray(value)) {
+    const out = new Array<unknown>(value.length);
+    for (let i = 0; i < value.length; i++) out[i] = toPlain(value[i]);
+    return out;
+  }
   if (value !== null && typeof value === 'object') {
     const record = value as Record<string, unknown>;
     if (record.data instanceof Float64Array && typeof record.rows === 'number' && typeof record.cols === 'number') return matrixToRows(record as unknown as Matrix);
     const out: Record<string, unknown> = {};
-    for (const [key, item] of Object.entries(record)) {
+    for (const key of Object.keys(record)) {
       if (key === 'warningList') continue;
-      out[key] = toPlain(item);
+      out[key] = toPlain(record[key]);
     }
     return out;
   }
