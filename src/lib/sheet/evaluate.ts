@@ -8,7 +8,7 @@ import { sheetCurvature, solveAccelerations, solveSheet, toPlainResult, type Pla
 import { fail, succeed, type DomainError, type Result } from '../result';
 import { commandedRates } from './commanded';
 import { deriveSheet, type DerivationEntry } from './derivation';
-import { sheetGraspQuality } from './grasp-quality-cache';
+import { knownSheetGraspQuality, sheetGraspQuality } from './grasp-quality-cache';
 import { formatIssuePath, parseSheet, type SheetIssue } from './schema';
 import type { SheetSummary } from './summary';
 import type { SheetDocument } from './types';
@@ -18,6 +18,11 @@ export interface SheetEvaluation {
   doc: SheetDocument;
   result: PlainSheetResult;
   summary: SheetSummary;
+  /**
+   * Present only when asked for with `graspQualityLater` and these contacts were not seen before: `result` then has no
+   * grasp quality, and this computes it and gives the complete result (or the error when one of its numbers is not finite).
+   */
+  graspQualityLater?: () => Result<PlainSheetResult, EvaluationError>;
 }
 
 /** An evaluation with the derivation of every reported number. */
@@ -38,6 +43,11 @@ export interface EvaluationError extends DomainError {
 export interface EvaluateOptions {
   /** Also build the derivation (KaTeX formulas with the numbers put in); off by default, it is large. */
   derive?: boolean;
+  /**
+   * Leave a grasp quality that is not cached for later (see SheetEvaluation.graspQualityLater), so that the rest shows at
+   * once: it is the one costly part (milliseconds), and any move of a contact asks for it anew. Ignored with derive.
+   */
+  graspQualityLater?: boolean;
 }
 
 /** The stored summary of a solved sheet: finger count, worst warning severity, the sorted distinct warning codes and how many were raised. */
@@ -119,6 +129,20 @@ function describeOwner(doc: SheetDocument, path: readonly (string | number)[]): 
   return joint ? ` (finger "${finger.name}", joint "${joint.name}")` : ` (finger "${finger.name}")`;
 }
 
+/** The error for a number of the result that must not be reported. */
+function notFiniteError(doc: SheetDocument, bad: { path: (string | number)[]; value: number }): EvaluationError {
+  const message = `the result is not a finite number: ${formatIssuePath(bad.path)} is ${bad.value}${describeOwner(doc, bad.path)}; an input is too large or too small for the solve to keep its digits`;
+  return { kind: 'invalid', stage: 'solve', message, issues: [{ path: formatIssuePath([]), message }] };
+}
+
+/** The result completed with its grasp quality (as evaluateSheet without graspQualityLater gives it), or the error when one of its numbers is not finite. */
+function withGraspQuality(doc: SheetDocument, solved: SheetResult, result: PlainSheetResult): Result<PlainSheetResult, EvaluationError> {
+  const quality = sheetGraspQuality(doc, solved);
+  const complete: PlainSheetResult = { ...result, graspQuality: { ...quality, weakestWrench: Array.from(quality.weakestWrench) } as unknown as PlainSheetResult['graspQuality'] };
+  const bad = firstNonFinite(complete, complete.graspQuality, ['graspQuality'], 'graspQuality');
+  return bad ? fail(notFiniteError(doc, bad)) : succeed(complete);
+}
+
 /** Reads, solves and summarises a sheet document as written, and derives it when asked; never throws for a bad document. */
 export function evaluateSheet(input: unknown, options: EvaluateOptions & { derive: true }): Result<DerivedSheetEvaluation, EvaluationError>;
 export function evaluateSheet(input: unknown, options?: EvaluateOptions): Result<SheetEvaluation, EvaluationError>;
@@ -133,16 +157,15 @@ export function evaluateSheet(input: unknown, options: EvaluateOptions = {}): Re
     // The feed-forward's rolling term needs each contact's motion over the surfaces, so the curvature comes first.
     const curvatures = sheetCurvature(doc, solved);
     solveAccelerations(solved, doc.object.acceleration, doc.solver, curvatures, doc.hand.fingers);
-    solved.graspQuality = sheetGraspQuality(doc, solved);
+    const quality = options.graspQualityLater && !options.derive ? knownSheetGraspQuality(doc, solved) : sheetGraspQuality(doc, solved);
+    if (quality) solved.graspQuality = quality;
     const result = toPlainResult(solved);
     curvatures.forEach((curvature, i) => { result.fingers[i].curvature = curvature; });
     result.commanded = commandedRates(doc, result);
     const bad = firstNonFinite(result, result, [], undefined);
-    if (bad) {
-      const message = `the result is not a finite number: ${formatIssuePath(bad.path)} is ${bad.value}${describeOwner(doc, bad.path)}; an input is too large or too small for the solve to keep its digits`;
-      return fail({ kind: 'invalid', stage: 'solve', message, issues: [{ path: formatIssuePath([]), message }] });
-    }
+    if (bad) return fail(notFiniteError(doc, bad));
     const evaluation: SheetEvaluation = { doc, result, summary: summarize(doc, solved) };
+    if (!quality) evaluation.graspQualityLater = () => withGraspQuality(doc, solved, result);
     return succeed(options.derive ? { ...evaluation, derivation: deriveSheet(doc, solved) } : evaluation);
   } catch (error) {
     const message = `the sheet could not be solved: ${error instanceof Error ? error.message : String(error)}`;

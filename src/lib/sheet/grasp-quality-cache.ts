@@ -27,6 +27,12 @@ function keyOf(input: Readonly<GraspQualityInput>): string {
 /** A copy, so that no caller can change what the next one gets. */
 const copyOf = (quality: GraspQuality): GraspQuality => ({ ...quality, weakestWrench: new Float64Array(quality.weakestWrench) });
 
+/** The grasp quality of the solved sheet's contacts when these exact contacts were seen, else undefined (nothing is computed). */
+export function knownSheetGraspQuality(doc: SheetDocument, result: SheetResult): GraspQuality | undefined {
+  const quality = qualities.get(keyOf(sheetGraspQualityInput(doc, result)));
+  return quality === undefined ? undefined : copyOf(quality);
+}
+
 /** Grasp quality of the solved sheet's contacts (as computeSheetGraspQuality), from the cache when these exact contacts were seen. */
 export function sheetGraspQuality(doc: SheetDocument, result: SheetResult): GraspQuality {
   const input = sheetGraspQualityInput(doc, result);
