@@ -9,7 +9,8 @@
  *   the same every call, and again with every quantity text new every call, to the same values (no cached reading of a text helps);
  * - the same pipeline stage by stage (parse, solve, curvature, acceleration, grasp quality, plain result, commanded rates);
  * - the worker's recompute (computeSheet, no derivation, as the page asks while the derivation is closed)
- *   after a one-field edit: a roller radius, the object's angular speed, a base joint's angle (the contacts move).
+ *   after a one-field edit: a roller radius, the object's angular speed, a base joint's angle (the contacts move);
+ * - the worker's first reply after the same edits (computeSheetInSteps: a grasp quality not cached follows in a second reply).
  */
 import { readFileSync } from 'node:fs';
 import { loadavg } from 'node:os';
@@ -18,7 +19,7 @@ import { commandedRates } from '../lib/sheet/commanded';
 import { evaluateSheet } from '../lib/sheet/evaluate';
 import { sheetGraspQuality } from '../lib/sheet/grasp-quality-cache';
 import { parseSheet } from '../lib/sheet/schema';
-import { computeSheet } from '../workers/compute-protocol';
+import { computeSheet, computeSheetInSteps } from '../workers/compute-protocol';
 
 const quick = process.argv.includes('--quick');
 const sheetArgument = process.argv.indexOf('--sheet');
@@ -96,6 +97,14 @@ const lines: Line[] = [
     call: (message) => {
       const reply = computeSheet(message);
       if (reply.type !== 'computed' || !reply.ok) throw new Error('the edited sheet did not compute');
+    },
+  })),
+  ...EDITS.map((edit): Line => ({
+    label: `worker first reply after an edit: ${edit.label}`,
+    prepare: (n) => Array.from({ length: n }, () => { const doc = fresh(); edit.apply(doc, editCounter++); return { type: 'compute', id: editCounter, document: doc, derive: false }; }),
+    call: (message) => {
+      const { first } = computeSheetInSteps(message);
+      if (first.type !== 'computed' || !first.ok) throw new Error('the edited sheet did not compute');
     },
   })),
 ];
