@@ -27,6 +27,8 @@ export type ComputeReply =
       result: PlainSheetResult;
       /** Absent when the request did not ask for it. */
       derivation?: DerivationEntry[];
+      /** True when `result` has no grasp quality yet: a second reply with the same id brings the complete result. */
+      graspQualityPending?: true;
       elapsedMs: number;
     }
   | { type: 'computed'; id: number; ok: false; issues: SheetIssue[]; elapsedMs: number }
@@ -51,4 +53,38 @@ export function computeSheet(message: unknown, now: () => number = () => perform
   if (!evaluated.ok) return { type: 'computed', id: message.id, ok: false, issues: evaluated.error.issues, elapsedMs: now() - started };
   const { doc, result, derivation } = evaluated.value;
   return { type: 'computed', id: message.id, ok: true, document: doc, result, derivation, elapsedMs: now() - started };
+}
+
+/** The replies to one message: `first` at once and, when the contacts were not seen before, `later` the complete one. */
+export interface ComputeSteps {
+  first: ComputeReply;
+  /** Computes the grasp quality and gives the reply computeSheet would have given (with the same id). */
+  later?: () => ComputeReply;
+}
+
+/**
+ * Answers one message as computeSheet does, but without the derivation a grasp quality not cached yet comes in a second
+ * reply: the page shows every other result at once (the grasp quality is the one costly part, and any move of a contact
+ * asks for it anew). With the derivation the reply is complete at once, since the derivation shows the grasp quality.
+ */
+export function computeSheetInSteps(message: unknown, now: () => number = () => performance.now()): ComputeSteps {
+  if (!isComputeRequest(message) || message.derive !== false) return { first: computeSheet(message, now) };
+  const started = now();
+  const evaluated = evaluateSheet(message.document, { graspQualityLater: true });
+  const elapsedMs = now() - started;
+  if (!evaluated.ok) return { first: { type: 'computed', id: message.id, ok: false, issues: evaluated.error.issues, elapsedMs } };
+  const { id } = message;
+  const { doc, result, graspQualityLater } = evaluated.value;
+  if (!graspQualityLater) return { first: { type: 'computed', id, ok: true, document: doc, result, elapsedMs } };
+  return {
+    first: { type: 'computed', id, ok: true, document: doc, result, graspQualityPending: true, elapsedMs },
+    later: () => {
+      const laterStarted = now();
+      const complete = graspQualityLater();
+      const total = elapsedMs + now() - laterStarted;
+      return complete.ok
+        ? { type: 'computed', id, ok: true, document: doc, result: complete.value, elapsedMs: total }
+        : { type: 'computed', id, ok: false, issues: complete.error.issues, elapsedMs: total };
+    },
+  };
 }

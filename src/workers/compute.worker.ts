@@ -1,8 +1,14 @@
 /// <reference lib="webworker" />
 /** Solves sheets off the page's thread so that typing never waits for the computation. */
-import { computeSheet } from './compute-protocol';
+import { computeSheetInSteps } from './compute-protocol';
 
 const scope = self as unknown as DedicatedWorkerGlobalScope;
+let pendingGraspQuality: ReturnType<typeof setTimeout> | undefined;
 scope.onmessage = (event: MessageEvent<unknown>) => {
-  scope.postMessage(computeSheet(event.data));
+  // A newer document makes the older one's grasp quality moot: the page keeps only the newest reply.
+  clearTimeout(pendingGraspQuality);
+  const { first, later } = computeSheetInSteps(event.data);
+  scope.postMessage(first);
+  // After a turn of the event loop, so that a document the page sent meanwhile is read first.
+  if (later) pendingGraspQuality = setTimeout(() => scope.postMessage(later()), 0);
 };

@@ -167,11 +167,11 @@ function SheetList({ teamId, teamName, canWrite, authors, initialSearch }: Sheet
   const [search, setSearch] = useState(filters.q);
   const update = (change: Partial<Filters>) => setFilters((current) => ({ ...current, page: 1, ...change }));
 
-  // Typing searches after a short pause rather than on every key.
-  useEffect(() => {
-    const timer = setTimeout(() => setFilters((current) => (current.q === search.trim() ? current : { ...current, q: search.trim(), page: 1 })), 250);
-    return () => clearTimeout(timer);
-  }, [search]);
+  // Every key searches at once (the list answers well within a keystroke's pause); the query below keeps only the newest answer.
+  const typeSearch = (text: string) => {
+    setSearch(text);
+    setFilters((current) => (current.q === text.trim() ? current : { ...current, q: text.trim(), page: 1 }));
+  };
 
   useEffect(() => {
     window.history.replaceState(null, '', `${window.location.pathname}${filtersToSearch(filters)}`);
@@ -179,11 +179,12 @@ function SheetList({ teamId, teamName, canWrite, authors, initialSearch }: Sheet
 
   const query = useQuery({
     queryKey: ['sheets', teamId, filters],
-    queryFn: () => {
+    // A query left behind by a newer filter is aborted (react-query aborts the signal once no one reads the query), so no stale answer shows or holds the connection.
+    queryFn: ({ signal }) => {
       const params = new URLSearchParams({ team: teamId, warnings: filters.warnings, sort: filters.sort, page: String(filters.page), pageSize: String(filters.pageSize) });
       if (filters.q) params.set('q', filters.q);
       if (filters.author) params.set('author', filters.author);
-      return requestJson<Wire<SheetListPage>>(`/api/sheets?${params}`);
+      return requestJson<Wire<SheetListPage>>(`/api/sheets?${params}`, { signal });
     },
     placeholderData: keepPreviousData,
   });
@@ -238,7 +239,7 @@ function SheetList({ teamId, teamName, canWrite, authors, initialSearch }: Sheet
             type="search"
             name="q"
             value={search}
-            onChange={(e) => setSearch(e.target.value)}
+            onChange={(e) => typeSearch(e.target.value)}
             placeholder="peg, cylinder, review…"
             className={inputClass}
             data-testid="sheet-search"

@@ -34,9 +34,10 @@ function errorOf(status: number, payload: unknown): ErrorBody['error'] {
 }
 
 /** Calls a JSON API route from the browser; resolves to the body (undefined for 204) or throws ApiError. */
-export async function requestJson<T>(url: string, { method = 'GET', body }: { method?: string; body?: unknown } = {}): Promise<T> {
+export async function requestJson<T>(url: string, { method = 'GET', body, signal }: { method?: string; body?: unknown; signal?: AbortSignal } = {}): Promise<T> {
   const response = await fetch(url, {
     method,
+    signal,
     headers: body === undefined ? { accept: 'application/json' } : { accept: 'application/json', 'content-type': 'application/json' },
     body: body === undefined ? undefined : JSON.stringify(body),
     credentials: 'same-origin',

@@ -9,7 +9,7 @@ import type { FingerAcceleration } from './acceleration';
 import { computeContact, createContact, createContactWorkspace, createObject, updateObjectRotation, type Contact, type ContactWorkspace, type RigidObject } from './contact';
 import type { ContactCurvature } from './curvature';
 import { computeGrasp, createGraspResult, createGraspWorkspace, type GraspResult, type GraspWorkspace } from './grasp';
-import { computeGraspQuality, type GraspQuality } from './grasp-quality';
+import { computeGraspQuality, type GraspQuality, type GraspQualityInput } from './grasp-quality';
 import { createFinger, forwardKinematics, type Finger } from './hand';
 import { conditionFull, createFullSolution, createFullSolveWorkspace, solveFull, solveFullRates, type FullSolution } from './full-solution';
 import { matrixToRows, numericalRank, type LinalgWorkspace, type Matrix } from './linalg';
@@ -199,8 +199,8 @@ export const DEFAULT_FRICTION = 0.5;
 /** Cone edges when the sheet states no grasp-quality settings. */
 export const DEFAULT_CONE_EDGES = 8;
 
-/** Grasp quality under friction of the touching (or penetrating) contacts of a solved sheet, once per evaluation, never per tick (world frame, SI). */
-export function computeSheetGraspQuality(doc: SheetDocument, result: SheetResult): GraspQuality {
+/** What the grasp quality of a solved sheet is computed from: its touching (or penetrating) contacts, their friction and the settings (world frame, SI). */
+export function sheetGraspQualityInput(doc: SheetDocument, result: SheetResult): GraspQualityInput {
   const points: number[] = [], normals: number[] = [], friction: number[] = [];
   result.fingers.forEach((f, i) => {
     if (f.contact.state === 'separated') return;
@@ -209,7 +209,7 @@ export function computeSheetGraspQuality(doc: SheetDocument, result: SheetResult
     friction.push(doc.hand.fingers[i].friction ?? DEFAULT_FRICTION);
   });
   const settings = doc.graspQuality;
-  return computeGraspQuality({
+  return {
     origin: result.object.position,
     points,
     normals,
@@ -218,7 +218,12 @@ export function computeSheetGraspQuality(doc: SheetDocument, result: SheetResult
     coneEdges: settings?.coneEdges ?? DEFAULT_CONE_EDGES,
     torsionalFriction: doc.solver.softFinger ? (settings?.torsionalFriction ?? 0) : 0,
     torqueLength: settings?.torqueLength,
-  });
+  };
+}
+
+/** Grasp quality under friction of the touching (or penetrating) contacts of a solved sheet, once per evaluation, never per tick (world frame, SI). */
+export function computeSheetGraspQuality(doc: SheetDocument, result: SheetResult): GraspQuality {
+  return computeGraspQuality(sheetGraspQualityInput(doc, result));
 }
 
 /** Sets the object pose: origin (m) and orientation quaternion [x, y, z, w] (world frame). */
@@ -264,16 +269,25 @@ export function toPlainResult(result: SheetResult): PlainSheetResult {
   return toPlain(result) as PlainSheetResult;
 }
 
+/** Runs once per evaluation over every number of the result: plain loops, since Array.from and Object.entries allocate per element. */
 function toPlain(value: unknown): unknown {
-  if (value instanceof Float64Array) return Array.from(value);
-  if (Array.isArray(value)) return value.map(toPlain);
+  if (value instanceof Float64Array) {
+    const out = new Array<number>(value.length);
+    for (let i = 0; i < value.length; i++) out[i] = value[i];
+    return out;
+  }
+  if (Array.isArray(value)) {
+    const out = new Array<unknown>(value.length);
+    for (let i = 0; i < value.length; i++) out[i] = toPlain(value[i]);
+    return out;
+  }
   if (value !== null && typeof value === 'object') {
     const record = value as Record<string, unknown>;
     if (record.data instanceof Float64Array && typeof record.rows === 'number' && typeof record.cols === 'number') return matrixToRows(record as unknown as Matrix);
     const out: Record<string, unknown> = {};
-    for (const [key, item] of Object.entries(record)) {
+    for (const key of Object.keys(record)) {
       if (key === 'warningList') continue;
-      out[key] = toPlain(item);
+      out[key] = toPlain(record[key]);
     }
     return out;
   }

@@ -4,10 +4,11 @@
  * compute worker, the sheet service, file import and export, the comparison, the report and the
  * compute command all call it, so a sheet reads and solves the same way everywhere.
  */
-import { computeSheetGraspQuality, sheetCurvature, solveAccelerations, solveSheet, toPlainResult, type PlainSheetResult, type SheetResult } from '../kinematics';
+import { sheetCurvature, solveAccelerations, solveSheet, toPlainResult, type PlainSheetResult, type SheetResult } from '../kinematics';
 import { fail, succeed, type DomainError, type Result } from '../result';
 import { commandedRates } from './commanded';
 import { deriveSheet, type DerivationEntry } from './derivation';
+import { knownSheetGraspQuality, sheetGraspQuality } from './grasp-quality-cache';
 import { formatIssuePath, parseSheet, type SheetIssue } from './schema';
 import type { SheetSummary } from './summary';
 import type { SheetDocument } from './types';
@@ -17,6 +18,11 @@ export interface SheetEvaluation {
   doc: SheetDocument;
   result: PlainSheetResult;
   summary: SheetSummary;
+  /**
+   * Present only when asked for with `graspQualityLater` and these contacts were not seen before: `result` then has no
+   * grasp quality, and this computes it and gives the complete result (or the error when one of its numbers is not finite).
+   */
+  graspQualityLater?: () => Result<PlainSheetResult, EvaluationError>;
 }
 
 /** An evaluation with the derivation of every reported number. */
@@ -37,6 +43,11 @@ export interface EvaluationError extends DomainError {
 export interface EvaluateOptions {
   /** Also build the derivation (KaTeX formulas with the numbers put in); off by default, it is large. */
   derive?: boolean;
+  /**
+   * Leave a grasp quality that is not cached for later (see SheetEvaluation.graspQualityLater), so that the rest shows at
+   * once: it is the one costly part (milliseconds), and any move of a contact asks for it anew. Ignored with derive.
+   */
+  graspQualityLater?: boolean;
 }
 
 /** The stored summary of a solved sheet: finger count, worst warning severity, the sorted distinct warning codes and how many were raised. */
@@ -77,17 +88,32 @@ function undefinedByBuild(result: PlainSheetResult, path: readonly (string | num
 /** Outputs with one entry per joint of the finger, so a bad entry names its joint. */
 const PER_JOINT_OUTPUTS: ReadonlySet<string> = new Set(['rates', 'jointAngles', 'jointAccelerations']);
 
-/** Path (keys and indices) of the first number in a plain result that must not be reported, or undefined when all are. */
-function firstNonFinite(result: PlainSheetResult, value: unknown, path: (string | number)[]): { path: (string | number)[]; value: number } | undefined {
+/**
+ * Path (keys and indices) of the first number in a plain result that must not be reported, or undefined when all are.
+ * Walks the result depth first in key order on one path stack (a copy is made only for the number found): it visits
+ * every number of every evaluation, so it allocates nothing per node.
+ */
+function firstNonFinite(result: PlainSheetResult, value: unknown, path: (string | number)[], key: string | undefined): { path: (string | number)[]; value: number } | undefined {
   if (typeof value === 'number') {
-    const key = path.findLast((segment) => typeof segment === 'string');
+    if (Number.isFinite(value)) return undefined;
     const allowed = key !== undefined
       && ((value === Infinity && UNBOUNDED_OUTPUTS.has(key)) || (Number.isNaN(value) && undefinedByBuild(result, path, key)));
-    return Number.isFinite(value) || allowed ? undefined : { path, value };
+    return allowed ? undefined : { path: [...path], value };
   }
   if (value === null || typeof value !== 'object') return undefined;
-  for (const [key, item] of Array.isArray(value) ? value.entries() : Object.entries(value)) {
-    const found = firstNonFinite(result, item, [...path, key]);
+  if (Array.isArray(value)) {
+    for (let i = 0; i < value.length; i++) {
+      path.push(i);
+      const found = firstNonFinite(result, value[i], path, key);
+      path.pop();
+      if (found) return found;
+    }
+    return undefined;
+  }
+  for (const name of Object.keys(value)) {
+    path.push(name);
+    const found = firstNonFinite(result, (value as Record<string, unknown>)[name], path, name);
+    path.pop();
     if (found) return found;
   }
   return undefined;
@@ -101,6 +127,20 @@ function describeOwner(doc: SheetDocument, path: readonly (string | number)[]): 
   const perJoint = path.findIndex((segment) => typeof segment === 'string' && PER_JOINT_OUTPUTS.has(segment));
   const joint = perJoint >= 0 && typeof path[perJoint + 1] === 'number' ? finger.joints[path[perJoint + 1] as number] : undefined;
   return joint ? ` (finger "${finger.name}", joint "${joint.name}")` : ` (finger "${finger.name}")`;
+}
+
+/** The error for a number of the result that must not be reported. */
+function notFiniteError(doc: SheetDocument, bad: { path: (string | number)[]; value: number }): EvaluationError {
+  const message = `the result is not a finite number: ${formatIssuePath(bad.path)} is ${bad.value}${describeOwner(doc, bad.path)}; an input is too large or too small for the solve to keep its digits`;
+  return { kind: 'invalid', stage: 'solve', message, issues: [{ path: formatIssuePath([]), message }] };
+}
+
+/** The result completed with its grasp quality (as evaluateSheet without graspQualityLater gives it), or the error when one of its numbers is not finite. */
+function withGraspQuality(doc: SheetDocument, solved: SheetResult, result: PlainSheetResult): Result<PlainSheetResult, EvaluationError> {
+  const quality = sheetGraspQuality(doc, solved);
+  const complete: PlainSheetResult = { ...result, graspQuality: { ...quality, weakestWrench: Array.from(quality.weakestWrench) } as unknown as PlainSheetResult['graspQuality'] };
+  const bad = firstNonFinite(complete, complete.graspQuality, ['graspQuality'], 'graspQuality');
+  return bad ? fail(notFiniteError(doc, bad)) : succeed(complete);
 }
 
 /** Reads, solves and summarises a sheet document as written, and derives it when asked; never throws for a bad document. */
@@ -117,16 +157,15 @@ export function evaluateSheet(input: unknown, options: EvaluateOptions = {}): Re
     // The feed-forward's rolling term needs each contact's motion over the surfaces, so the curvature comes first.
     const curvatures = sheetCurvature(doc, solved);
     solveAccelerations(solved, doc.object.acceleration, doc.solver, curvatures, doc.hand.fingers);
-    solved.graspQuality = computeSheetGraspQuality(doc, solved);
+    const quality = options.graspQualityLater && !options.derive ? knownSheetGraspQuality(doc, solved) : sheetGraspQuality(doc, solved);
+    if (quality) solved.graspQuality = quality;
     const result = toPlainResult(solved);
     curvatures.forEach((curvature, i) => { result.fingers[i].curvature = curvature; });
     result.commanded = commandedRates(doc, result);
-    const bad = firstNonFinite(result, result, []);
-    if (bad) {
-      const message = `the result is not a finite number: ${formatIssuePath(bad.path)} is ${bad.value}${describeOwner(doc, bad.path)}; an input is too large or too small for the solve to keep its digits`;
-      return fail({ kind: 'invalid', stage: 'solve', message, issues: [{ path: formatIssuePath([]), message }] });
-    }
+    const bad = firstNonFinite(result, result, [], undefined);
+    if (bad) return fail(notFiniteError(doc, bad));
     const evaluation: SheetEvaluation = { doc, result, summary: summarize(doc, solved) };
+    if (!quality) evaluation.graspQualityLater = () => withGraspQuality(doc, solved, result);
     return succeed(options.derive ? { ...evaluation, derivation: deriveSheet(doc, solved) } : evaluation);
   } catch (error) {
     const message = `the sheet could not be solved: ${error instanceof Error ? error.message : String(error)}`;

@@ -29,7 +29,7 @@ import {
   MAX_EXPRESSION_LENGTH,
   QUANTITY_KINDS,
   parseQuantity,
-  parseVariables,
+  readSheetVariables,
   type ExpressionBudget,
   type QuantityKind,
   type VariableScope,
@@ -820,7 +820,7 @@ function flattenIssues(issues: readonly z.core.$ZodIssue[], prefix: readonly Pro
 function readDocumentVariables(input: unknown, budget: ExpressionBudget): { scope: VariableScope | undefined; issues: SheetIssue[] } {
   const text = input !== null && typeof input === 'object' ? (input as { variables?: unknown }).variables : undefined;
   if (typeof text !== 'string' || text.length > MAX_VARIABLES_TEXT) return { scope: undefined, issues: [] };
-  const parsed = parseVariables(text, budget);
+  const parsed = readSheetVariables(text, budget);
   return {
     scope: parsed.values,
     issues: parsed.issues.map((issue) => ({

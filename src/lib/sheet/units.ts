@@ -11,6 +11,7 @@ import {
   subtractDependencies, tanDependencies, tauDependencies, unaryMinusDependencies, unaryPlusDependencies, unitDependencies,
   type MathNode, type Unit,
 } from 'mathjs';
+import { BoundedCache } from './bounded-cache';
 
 /**
  * A private mathjs instance so that the extra units below never leak into other users of mathjs;
@@ -240,6 +241,8 @@ function bracketDepth(text: string): number {
   return deepest;
 }
 
+const COMPILED_CACHE_SIZE = 4000;
+
 type Compiled =
   | {
       code: Evaluate;
@@ -247,11 +250,15 @@ type Compiled =
       nodes: number;
       /** The value when no symbol is a variable: it then depends on the text alone, and an edit elsewhere in the sheet reads it again unchanged. */
       constant?: Evaluated;
+      /** The value over each sealed variables scope (see readSheetVariables) it uses: those never change. */
+      overSealed?: WeakMap<VariableScope, Evaluated>;
     }
   | { error: string; column?: number };
 
-const compiled = new Map<string, Compiled>();
-const COMPILED_CACHE_SIZE = 4000;
+const compiled = new BoundedCache<string, Compiled>(COMPILED_CACHE_SIZE);
+
+/** Variables scopes that never change again: the values of a sheet's variables text read by readSheetVariables. */
+const sealedScopes = new WeakSet<VariableScope>();
 
 function compileText(text: string): Compiled {
   if (text.length > MAX_EXPRESSION_LENGTH) return { error: `the expression is too long: at most ${MAX_EXPRESSION_LENGTH} characters` };
@@ -280,7 +287,6 @@ function compileExpression(text: string): Compiled {
   let entry = compiled.get(text);
   if (entry) return entry;
   entry = compileText(text);
-  if (compiled.size >= COMPILED_CACHE_SIZE) compiled.clear();
   compiled.set(text, entry);
   return entry;
 }
@@ -309,7 +315,16 @@ function evaluateExpression(text: string, scope: VariableScope | undefined, budg
   }
   const variables = scope ?? new Map<string, VariableValue>();
   const usesVariables = entry.symbols.some((name) => variables.has(name));
-  if (usesVariables) return evaluateCompiled(entry, variables, true);
+  if (usesVariables) {
+    if (!sealedScopes.has(variables)) return evaluateCompiled(entry, variables, true);
+    entry.overSealed ??= new WeakMap();
+    let evaluated = entry.overSealed.get(variables);
+    if (evaluated === undefined) {
+      evaluated = evaluateCompiled(entry, variables, true);
+      entry.overSealed.set(variables, evaluated);
+    }
+    return evaluated;
+  }
   entry.constant ??= evaluateCompiled(entry, variables, false);
   return entry.constant;
 }
@@ -335,7 +350,7 @@ function readUnit(
   kind: QuantityKind,
   scope?: VariableScope,
   budget?: ExpressionBudget,
-): { ok: true; unit: Unit; usesVariables: boolean } | { ok: false; message: string } {
+): { ok: true; unit: Unit; usesVariables: boolean; evaluated: Evaluated } | { ok: false; message: string } {
   const evaluated = evaluateExpression(text, scope, budget);
   if (!evaluated.ok) return { ok: false, message: `expected ${nounOf(kind)}, could not read "${text}" (${evaluated.message})` };
   if (typeof evaluated.value === 'number') {
@@ -345,8 +360,27 @@ function readUnit(
       message: `expected ${nounOf(kind)}, got "${text}" without a unit; write a plain number for SI or a string such as "${example}"`,
     };
   }
-  return { ok: true, unit: evaluated.value, usesVariables: evaluated.usesVariables };
+  return { ok: true, unit: evaluated.value, usesVariables: evaluated.usesVariables, evaluated };
 }
+
+/** A read quantity checked against its kind and converted to the kind's SI unit. */
+function convertUnit(unit: Unit, kind: QuantityKind, input: string, usesVariables: boolean): QuantityResult {
+  if (kind === 'any') return { ok: true, value: unit.toSI().toNumber() };
+  const reference = referenceUnits.get(kind);
+  if (!reference || !unit.equalBase(reference)) {
+    const written = input.trim();
+    const got = usesVariables ? `${written} = ${unit.toSI().toString()}` : written;
+    return { ok: false, message: `expected ${nounOf(kind)}, got ${got}` };
+  }
+  return { ok: true, value: unit.toNumber(QUANTITY_KINDS[kind].si) };
+}
+
+/**
+ * The conversions of an evaluation by kind. An evaluation is one object per text (and per sealed variables scope, see
+ * readSheetVariables) that the expression cache keeps, so this lives exactly as long as that entry; the conversion (mathjs
+ * reads the target unit's text each time) was most of reading a sheet whose texts had all been read before.
+ */
+const conversions = new WeakMap<Evaluated, Partial<Record<QuantityKind, QuantityResult>>>();
 
 /**
  * Converts a sheet quantity (SI number, unit string or expression over `variables`) to its SI
@@ -359,14 +393,14 @@ export function parseQuantity(input: QuantityInput, kind: QuantityKind, variable
   }
   const read = readUnit(input, kind, variables, budget);
   if (!read.ok) return read;
-  if (kind === 'any') return { ok: true, value: read.unit.toSI().toNumber() };
-  const reference = referenceUnits.get(kind);
-  if (!reference || !read.unit.equalBase(reference)) {
-    const written = input.trim();
-    const got = read.usesVariables ? `${written} = ${read.unit.toSI().toString()}` : written;
-    return { ok: false, message: `expected ${nounOf(kind)}, got ${got}` };
+  // An evaluation over variables that may still change is made anew each time: nothing to keep.
+  if (read.usesVariables && !(variables && sealedScopes.has(variables))) return convertUnit(read.unit, kind, input, true);
+  let known = conversions.get(read.evaluated);
+  if (known === undefined) {
+    known = {};
+    conversions.set(read.evaluated, known);
   }
-  return { ok: true, value: read.unit.toNumber(QUANTITY_KINDS[kind].si) };
+  return (known[kind] ??= convertUnit(read.unit, kind, input, read.usesVariables));
 }
 
 /** The kind of quantity a value has (length, angle, ...), or null for a plain number or another dimension. */
@@ -463,6 +497,28 @@ export function parseVariables(text: string, budget?: ExpressionBudget): ParsedV
     lines.set(name, line);
   });
   return { values, lines, issues };
+}
+
+/** Distinct variables texts remembered (each at most MAX_VARIABLES_TEXT characters with its values). */
+const SHEET_VARIABLES_CACHE_SIZE = 64;
+const sheetVariables = new BoundedCache<string, { parsed: ParsedVariables; spent: number }>(SHEET_VARIABLES_CACHE_SIZE);
+
+/**
+ * A sheet's variables text read as parseVariables does on a sheet's new budget, once per distinct text: a sheet is read
+ * again on every keystroke and every save, and its variables rarely change. The result is shared, so callers only read
+ * it; its values are sealed, so quantities over them are evaluated once too. A budget already drawn on reads as usual.
+ */
+export function readSheetVariables(text: string, budget: ExpressionBudget): ParsedVariables {
+  if (budget.remaining !== MAX_SHEET_OPERATIONS) return parseVariables(text, budget);
+  const known = sheetVariables.get(text);
+  if (known !== undefined) {
+    budget.remaining -= known.spent;
+    return known.parsed;
+  }
+  const parsed = parseVariables(text, budget);
+  sealedScopes.add(parsed.values);
+  sheetVariables.set(text, { parsed, spent: MAX_SHEET_OPERATIONS - budget.remaining });
+  return parsed;
 }
 
 /** SI value of a sheet quantity (units by kind); throws a RangeError with the parse message when it is not one. */

@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { computeSheet } from '../../../src/workers/compute-protocol';
+import { computeSheet, computeSheetInSteps } from '../../../src/workers/compute-protocol';
 
 const sheet = () => JSON.parse(readFileSync(new URL('../../../content/sheets/line4-bearing-housing-quarter-turn.json', import.meta.url), 'utf8'));
 
@@ -59,5 +59,48 @@ describe('computeSheet (the compute worker protocol)', () => {
     expect(computeSheet({ type: 'run', id: 1 })).toMatchObject({ type: 'refused' });
     expect(computeSheet(null)).toMatchObject({ type: 'refused' });
     expect(computeSheet({ type: 'compute', id: 1.5, document: {} })).toMatchObject({ type: 'refused' });
+  });
+});
+
+describe('computeSheetInSteps (the grasp quality of new contacts in a second reply)', () => {
+  // The reference is computeSheet's one complete reply: the steps must end in the same results.
+  const moved = (angle: string) => {
+    const doc = sheet();
+    doc.hand.fingers[0].joints[0].angle = angle;
+    return doc;
+  };
+  const withoutTime = (reply: unknown) => ({ ...(reply as Record<string, unknown>), elapsedMs: 0 });
+
+  it('answers new contacts first without the grasp quality, then with it, as computeSheet answers', () => {
+    const steps = computeSheetInSteps({ type: 'compute', id: 11, document: moved('0.0125 deg'), derive: false });
+    if (steps.first.type !== 'computed' || !steps.first.ok || !steps.later) throw new Error('expected results and a second reply');
+    expect(steps.first.result.graspQuality).toBeUndefined();
+    expect(steps.first.graspQualityPending).toBe(true);
+    const complete = steps.later();
+    expect(structuredClone(complete)).toEqual(complete);
+    const reference = computeSheet({ type: 'compute', id: 11, document: moved('0.0125 deg'), derive: false });
+    expect(withoutTime(complete)).toEqual(withoutTime(reference));
+    const { graspQuality, ...rest } = (complete as { result: Record<string, unknown> }).result;
+    expect(graspQuality).toMatchObject({ contactCount: 3 });
+    expect(rest).toEqual(steps.first.result);
+  });
+
+  it('answers at once, complete, for contacts seen before and whenever the derivation is asked for', () => {
+    computeSheet({ type: 'compute', id: 12, document: moved('0.015 deg'), derive: false });
+    const seen = computeSheetInSteps({ type: 'compute', id: 13, document: moved('0.015 deg'), derive: false });
+    expect(seen.later).toBeUndefined();
+    expect(seen.first).toMatchObject({ ok: true, result: { graspQuality: { contactCount: 3 } } });
+    const derived = computeSheetInSteps({ type: 'compute', id: 14, document: moved('0.0175 deg') });
+    expect(derived.later).toBeUndefined();
+    expect(derived.first).toMatchObject({ ok: true, result: { graspQuality: { contactCount: 3 } } });
+  });
+
+  it('reports a document that does not read in its one reply', () => {
+    const doc = sheet();
+    doc.hand.fingers[1].roller.radius = '30 deg';
+    const steps = computeSheetInSteps({ type: 'compute', id: 15, document: doc, derive: false }, () => 0);
+    expect(steps.later).toBeUndefined();
+    expect(steps.first).toEqual({ type: 'computed', id: 15, ok: false, elapsedMs: 0, issues: [{ path: 'hand.fingers[1].roller.radius', message: 'expected a length, got 30 deg' }] });
+    expect(computeSheetInSteps(null).first).toMatchObject({ type: 'refused' });
   });
 });
