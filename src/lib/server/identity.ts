@@ -3,6 +3,7 @@ import type { Database, DrizzleDb } from '../../db';
 import { apiTokens, endedSessions, memberships, teams, users } from '../../db/schema';
 import { roleWithin } from '../roles';
 import type { Identity, TeamMembership } from './access';
+import { preparedPerConnection } from './prepared';
 import { API_TOKEN_PREFIX, hashSecretToken } from './tokens';
 
 const TOKEN_TOUCH_INTERVAL_MS = 60_000;
@@ -22,8 +23,8 @@ export async function getMemberships(database: Database, userId: string): Promis
  * user has none), in one statement: it runs on every signed-in request, so it is built once per
  * connection and its SQL reused.
  */
-function prepareIdentityQuery(db: DrizzleDb) {
-  return db
+const identityQuery = preparedPerConnection((db: DrizzleDb) =>
+  db
     .select({
       id: users.id,
       email: users.email,
@@ -40,10 +41,8 @@ function prepareIdentityQuery(db: DrizzleDb) {
     .leftJoin(teams, eq(teams.id, memberships.teamId))
     .where(eq(users.id, sql.placeholder('userId')))
     .orderBy(teams.name, teams.slug)
-    .prepare();
-}
-
-const identityQueries = new WeakMap<DrizzleDb, ReturnType<typeof prepareIdentityQuery>>();
+    .prepare(),
+);
 
 /**
  * The identity of a user signed in at signedInAt (ms since the epoch) in session `sessionId`, or
@@ -51,10 +50,8 @@ const identityQueries = new WeakMap<DrizzleDb, ReturnType<typeof prepareIdentity
  * password last changed or was reset.
  */
 export async function identityForUser(database: Database, userId: string, signedInAt: number, sessionId?: string): Promise<Identity | null> {
-  let query = identityQueries.get(database.db);
-  if (!query) identityQueries.set(database.db, (query = prepareIdentityQuery(database.db)));
   // Without a session id nothing can have ended it: `= NULL` matches no row.
-  const rows = await query.all({ userId, sessionId: sessionId ?? null });
+  const rows = await identityQuery(database.db).all({ userId, sessionId: sessionId ?? null });
   const user = rows[0];
   if (!user?.email || user.ended) return null;
   if (user.sessionsValidFrom && signedInAt < user.sessionsValidFrom.getTime()) return null;
