@@ -12,10 +12,10 @@ describe('the identity behind a session', () => {
     const database = await getDatabase();
     const member = await addTestMember('viewer');
     const [other] = await database.write((db) => db.insert(teams).values({ slug: `aardvark-${member.userId.slice(0, 8)}`, name: 'Aardvark works' }).returning({ id: teams.id }));
-    await database.write((db) => db.insert(memberships).values({ teamId: other.id, userId: member.userId, role: 'checker' }));
+    await database.write((db) => db.insert(memberships).values({ teamId: other.id, userId: member.userId, role: 'reviewer' }));
     const identity = await identityForUser(database, member.userId, Date.now(), 'a-live-session');
     expect(identity?.memberships.map((m) => [m.name, m.role])).toEqual([
-      ['Aardvark works', 'checker'],
+      ['Aardvark works', 'reviewer'],
       [expect.stringMatching(/^Test team /), 'viewer'],
     ]);
     expect(identity?.memberships).toEqual(await getMemberships(database, member.userId));
