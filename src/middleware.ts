@@ -1,6 +1,5 @@
 import { defineMiddleware } from 'astro:middleware';
 import type { APIContext, MiddlewareNext } from 'astro';
-import { getSession } from 'auth-astro/server';
 import { TEAM_COOKIE } from './consts';
 import { fail } from './lib/result';
 import type { Identity } from './lib/server/access';
@@ -10,19 +9,15 @@ import { bearerToken, identityForToken, identityForUser } from './lib/server/ide
 import { needsSignIn, signInLocation } from './lib/server/page-access';
 import { publicOrigin, publicUrl } from './lib/server/public-origin';
 import { isSameOriginWrite, withSecurityHeaders } from './lib/server/request-guard';
+import { readSessionCookie } from './lib/server/session-cookie';
 
 let staleSessionReported = false;
 
-/**
- * Resolves the session cookie to an identity; a cookie signed with an old secret counts as signed out.
- * Auth.js names its cookies after the scheme, so it is asked on the public URL.
- */
+/** Resolves the session cookie to an identity; a cookie signed with an old secret counts as signed out. */
 async function sessionIdentity(request: Request): Promise<Identity | null> {
   try {
-    const session = await getSession(new Request(publicUrl(request.url), { headers: request.headers }));
-    const userId = (session?.user as { id?: string } | undefined)?.id;
-    // A session without an id began before sign-out was recorded on the server and could outlive a sign-out, so it counts as signed out.
-    return userId && session?.sessionId ? await identityForUser(await getDatabase(), userId, session.signedInAt ?? 0, session.sessionId) : null;
+    const claims = await readSessionCookie(request, publicUrl(request.url));
+    return claims ? await identityForUser(await getDatabase(), claims.userId, claims.signedInAt, claims.sessionId) : null;
   } catch (error) {
     if (!staleSessionReported) {
       staleSessionReported = true;

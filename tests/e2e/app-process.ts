@@ -13,19 +13,23 @@ export interface AppProcess {
   /** Sends `signal` without waiting; `exited` tells how the process ended. */
   signal(signal: NodeJS.Signals): void;
   exited: Promise<{ code: number | null; signal: NodeJS.Signals | null }>;
+  /** The process id of the app's node process when started with `singleProcess` (the tsx launcher's otherwise). */
+  pid: number | undefined;
 }
 
 /**
  * Starts the built app the way `npm start` serves it (src/cli/start.ts: migrate, seed, serve) on
  * 127.0.0.1:port with the given database and environment, and waits until /api/health answers.
  */
-export async function startApp(options: { port: number; databaseUrl: string; env?: NodeJS.ProcessEnv; singleProcess?: boolean }): Promise<AppProcess> {
-  if (!existsSync('dist/server/entry.mjs')) throw new Error('Build first: npm run build (npm run test:e2e does it).');
+export async function startApp(options: { port: number; databaseUrl: string; env?: NodeJS.ProcessEnv; singleProcess?: boolean; cwd?: string; nodeArgs?: string[] }): Promise<AppProcess> {
+  // `cwd` names another checkout with its own build (a before/after comparison); its relative paths resolve there.
+  if (!existsSync(join(options.cwd ?? '.', 'dist/server/entry.mjs'))) throw new Error('Build first: npm run build (npm run test:e2e does it).');
   const baseUrl = `http://127.0.0.1:${options.port}`;
   let output = '';
   // The tsx command runs the app in a child process of its own; a SIGKILL (the crash script's) must reach the app itself, so node loads tsx as a hook instead.
-  const [command, args] = options.singleProcess ? [process.execPath, ['--import', 'tsx', 'src/cli/start.ts']] : ['node_modules/.bin/tsx', ['src/cli/start.ts']];
+  const [command, args] = options.singleProcess ? [process.execPath, [...(options.nodeArgs ?? []), '--import', 'tsx', 'src/cli/start.ts']] : ['node_modules/.bin/tsx', ['src/cli/start.ts']];
   const child = spawn(command, args, {
+    cwd: options.cwd,
     env: {
       // Mail goes to a fresh folder unless the caller names one, so a test run never fills the working copy's data/mail.
       MAILBOX_DIR: makeTempDir('slipless-mailbox-'),
@@ -63,6 +67,7 @@ export async function startApp(options: { port: number; databaseUrl: string; env
     output: () => output,
     signal: (signal) => child.kill(signal),
     exited,
+    pid: child.pid,
   };
 }
 

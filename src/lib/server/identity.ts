@@ -1,8 +1,9 @@
 import { and, eq, isNull, lt, sql } from 'drizzle-orm';
-import type { Database } from '../../db';
+import type { Database, DrizzleDb } from '../../db';
 import { apiTokens, endedSessions, memberships, teams, users } from '../../db/schema';
 import { roleWithin } from '../roles';
 import type { Identity, TeamMembership } from './access';
+import { preparedPerConnection } from './prepared';
 import { API_TOKEN_PREFIX, hashSecretToken } from './tokens';
 
 const TOKEN_TOUCH_INTERVAL_MS = 60_000;
@@ -18,24 +19,44 @@ export async function getMemberships(database: Database, userId: string): Promis
 }
 
 /**
- * The identity of a user signed in at signedInAt (ms since the epoch) in session `sessionId`, or
- * null when the user no longer exists, the session was signed out, or it began before the
- * password last changed or was reset.
+ * The user, whether the session was ended, and one row per membership (team columns null when the
+ * user has none), in one statement: it runs on every signed-in request, so it is built once per
+ * connection and its SQL reused.
  */
-export async function identityForUser(database: Database, userId: string, signedInAt: number, sessionId?: string): Promise<Identity | null> {
-  const [user] = await database.db
+const identityQuery = preparedPerConnection((db: DrizzleDb) =>
+  db
     .select({
       id: users.id,
       email: users.email,
       name: users.name,
       sessionsValidFrom: users.sessionsValidFrom,
-      ended: sessionId ? sql<number>`exists (select 1 from ${endedSessions} where ${endedSessions.sessionId} = ${sessionId})` : sql<number>`0`,
+      ended: sql<number>`exists (select 1 from ${endedSessions} where ${endedSessions.sessionId} = ${sql.placeholder('sessionId')})`,
+      teamId: teams.id,
+      slug: teams.slug,
+      teamName: teams.name,
+      role: memberships.role,
     })
     .from(users)
-    .where(eq(users.id, userId));
+    .leftJoin(memberships, eq(memberships.userId, users.id))
+    .leftJoin(teams, eq(teams.id, memberships.teamId))
+    .where(eq(users.id, sql.placeholder('userId')))
+    .orderBy(teams.name, teams.slug)
+    .prepare(),
+);
+
+/**
+ * The identity of a user signed in at signedInAt (ms since the epoch) in session `sessionId`, or
+ * null when the user no longer exists, the session was signed out, or it began before the
+ * password last changed or was reset.
+ */
+export async function identityForUser(database: Database, userId: string, signedInAt: number, sessionId?: string): Promise<Identity | null> {
+  // Without a session id nothing can have ended it: `= NULL` matches no row.
+  const rows = await identityQuery(database.db).all({ userId, sessionId: sessionId ?? null });
+  const user = rows[0];
   if (!user?.email || user.ended) return null;
   if (user.sessionsValidFrom && signedInAt < user.sessionsValidFrom.getTime()) return null;
-  return { user: { id: user.id, email: user.email, name: user.name }, via: 'session', memberships: await getMemberships(database, user.id) };
+  const memberships = rows.flatMap(({ teamId, slug, teamName, role }) => (teamId !== null && slug !== null && teamName !== null && role !== null ? [{ teamId, slug, name: teamName, role }] : []));
+  return { user: { id: user.id, email: user.email, name: user.name }, via: 'session', memberships };
 }
 
 /**

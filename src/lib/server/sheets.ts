@@ -1,4 +1,4 @@
-import { and, asc, count, desc, eq, getTableColumns, inArray, isNull, or, sql, type SQL } from 'drizzle-orm';
+import { and, asc, count, desc, eq, getTableColumns, isNull, or, sql, type SQL } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/sqlite-core';
 import type { Database, DrizzleDb, Transaction } from '../../db';
 import type { CreatedSheet, LatestRevision, RevisionPage, SheetListPage } from '../contract';
@@ -10,6 +10,7 @@ import type { SheetSummary, StoredDocument } from '../sheet/summary';
 import type { SheetDocument } from '../sheet/types';
 import type { ListRevisionsQuery, ListSheetsQuery } from '../validation/sheets';
 import { insertAudit } from './audit';
+import { preparedPerConnection } from './prepared';
 import { documentIssues } from './http';
 import { readSheetFile } from './sheet-files';
 
@@ -211,22 +212,32 @@ export async function findReviewState(db: DrizzleDb | Transaction, sheetId: stri
   return row ?? null;
 }
 
-/** A live sheet by id with where it stands in review, or null when it does not exist or was deleted. */
-export async function findSheet(database: Database, sheetId: string) {
-  const [sheet] = await database.db
+const findSheetQuery = preparedPerConnection((db: DrizzleDb) =>
+  db
     .select({ ...getTableColumns(sheets), reviewState: latestReviewState, lastCheckedRevision })
     .from(sheets)
-    .where(and(eq(sheets.id, sheetId), isNull(sheets.deletedAt)));
+    .where(and(eq(sheets.id, sql.placeholder('sheetId')), isNull(sheets.deletedAt)))
+    .prepare(),
+);
+
+/** A live sheet by id with where it stands in review, or null when it does not exist or was deleted. */
+export async function findSheet(database: Database, sheetId: string) {
+  const [sheet] = await findSheetQuery(database.db).all({ sheetId });
   return sheet ?? null;
 }
 
-/** One revision of a sheet with its author's name, or null. */
-export async function getRevision(database: Database, sheetId: string, number: number) {
-  const [row] = await database.db
+const revisionQuery = preparedPerConnection((db: DrizzleDb) =>
+  db
     .select({ revision: sheetRevisions, authorName: users.name })
     .from(sheetRevisions)
     .leftJoin(users, eq(users.id, sheetRevisions.authorId))
-    .where(and(eq(sheetRevisions.sheetId, sheetId), eq(sheetRevisions.number, number)));
+    .where(and(eq(sheetRevisions.sheetId, sql.placeholder('sheetId')), eq(sheetRevisions.number, sql.placeholder('number'))))
+    .prepare(),
+);
+
+/** One revision of a sheet with its author's name, or null. */
+export async function getRevision(database: Database, sheetId: string, number: number) {
+  const [row] = await revisionQuery(database.db).all({ sheetId, number });
   return row ? { ...row.revision, authorName: row.authorName } : null;
 }
 
@@ -290,10 +301,9 @@ export async function forkSheet(
   );
 }
 
-/** The live sheets forked from `sheetId` in any of `teamIds` (the teams the caller may read), oldest first. */
-export async function listForks(database: Database, sheetId: string, teamIds: readonly string[]) {
-  if (teamIds.length === 0) return [];
-  return database.db
+// The teams travel as one JSON array, so one statement serves any number of them.
+const forksQuery = preparedPerConnection((db: DrizzleDb) =>
+  db
     .select({
       id: sheets.id,
       teamId: sheets.teamId,
@@ -305,34 +315,53 @@ export async function listForks(database: Database, sheetId: string, teamIds: re
     })
     .from(sheets)
     .leftJoin(users, eq(users.id, sheets.createdBy))
-    .where(and(eq(sheets.forkedFromSheetId, sheetId), inArray(sheets.teamId, [...teamIds]), isNull(sheets.deletedAt)))
-    .orderBy(asc(sheets.createdAt));
+    .where(
+      and(
+        eq(sheets.forkedFromSheetId, sql.placeholder('sheetId')),
+        sql`${sheets.teamId} IN (SELECT value FROM json_each(${sql.placeholder('teamIds')}))`,
+        isNull(sheets.deletedAt),
+      ),
+    )
+    .orderBy(asc(sheets.createdAt))
+    .prepare(),
+);
+
+/** The live sheets forked from `sheetId` in any of `teamIds` (the teams the caller may read), oldest first. */
+export async function listForks(database: Database, sheetId: string, teamIds: readonly string[]) {
+  if (teamIds.length === 0) return [];
+  return forksQuery(database.db).all({ sheetId, teamIds: JSON.stringify(teamIds) });
 }
 
-/** One page of a team's sheets matching the query, with the total count. */
-export async function listSheets(database: Database, query: ListSheetsQuery): Promise<SheetListPage> {
-  const latest = database.db
+/** Which optional filters a sheet list has and how it is sorted: one prepared pair of statements each. */
+function listShape(query: ListSheetsQuery): string {
+  const warnings = query.warnings === 'any' || query.warnings === 'clean' ? query.warnings : 'level';
+  return [query.sort, query.q ? 'q' : '', query.author ? 'author' : '', warnings].join(' ');
+}
+
+/** The page and the count of a sheet list of one shape (listShape), with placeholders for the values. */
+const listQueries = preparedPerConnection((db: DrizzleDb, shape: string) => {
+  const [sort, q, author, warnings] = shape.split(' ');
+  const latest = db
     .select({ sheetId: sheetRevisions.sheetId, summary: sheetRevisions.summary, number: sheetRevisions.number })
     .from(sheetRevisions)
     .as('latest');
-  const filters: SQL[] = [eq(sheets.teamId, query.team), isNull(sheets.deletedAt)];
-  if (query.q) {
-    const pattern = `%${query.q.replace(/[%_]/g, (c) => `\\${c}`)}%`;
+  const filters: SQL[] = [eq(sheets.teamId, sql.placeholder('team')), isNull(sheets.deletedAt)];
+  if (q) {
+    const pattern = sql.placeholder('pattern');
     filters.push(
       or(sql`${sheets.title} LIKE ${pattern} ESCAPE '\\'`, sql`EXISTS (SELECT 1 FROM json_each(${sheets.tags}) WHERE value LIKE ${pattern} ESCAPE '\\')`)!,
     );
   }
-  if (query.author) filters.push(eq(sheets.createdBy, query.author));
-  if (query.warnings === 'clean') filters.push(sql`json_extract(${latest.summary}, '$.worst') = 'none'`);
-  else if (query.warnings !== 'any') filters.push(sql`json_extract(${latest.summary}, '$.worst') = ${query.warnings}`);
+  if (author) filters.push(eq(sheets.createdBy, sql.placeholder('author')));
+  if (warnings === 'clean') filters.push(sql`json_extract(${latest.summary}, '$.worst') = 'none'`);
+  else if (warnings === 'level') filters.push(sql`json_extract(${latest.summary}, '$.worst') = ${sql.placeholder('warnings')}`);
   const where = and(...filters);
   // The origin's title is shown only when it lives in the same team, so a fork never reveals another team's sheet.
   const origin = alias(sheets, 'origin');
-  const order = query.sort === 'title' ? asc(sheets.title) : query.sort === 'created' ? desc(sheets.createdAt) : desc(sheets.updatedAt);
+  const order = sort === 'title' ? asc(sheets.title) : sort === 'created' ? desc(sheets.createdAt) : desc(sheets.updatedAt);
   const join = and(eq(latest.sheetId, sheets.id), eq(latest.number, sheets.latestRevision));
-
-  const [rows, [{ total }]] = await Promise.all([
-    database.db
+  return {
+    page: db
       .select({
         id: sheets.id,
         title: sheets.title,
@@ -354,9 +383,24 @@ export async function listSheets(database: Database, query: ListSheetsQuery): Pr
       .leftJoin(origin, and(eq(origin.id, sheets.forkedFromSheetId), eq(origin.teamId, sheets.teamId), isNull(origin.deletedAt)))
       .where(where)
       .orderBy(order)
-      .limit(query.pageSize)
-      .offset((query.page - 1) * query.pageSize),
-    database.db.select({ total: count() }).from(sheets).leftJoin(latest, join).where(where),
-  ]);
-  return { items: rows, total, page: query.page, pageSize: query.pageSize };
+      .limit(sql.placeholder('limit'))
+      .offset(sql.placeholder('offset'))
+      .prepare(),
+    count: db.select({ total: count() }).from(sheets).leftJoin(latest, join).where(where).prepare(),
+  };
+});
+
+/** One page of a team's sheets matching the query, with the total count. */
+export async function listSheets(database: Database, query: ListSheetsQuery): Promise<SheetListPage> {
+  const { page, count: total } = listQueries(database.db, listShape(query));
+  const values = {
+    team: query.team,
+    pattern: query.q ? `%${query.q.replace(/[%_]/g, (c) => `\\${c}`)}%` : null,
+    author: query.author ?? null,
+    warnings: query.warnings,
+    limit: query.pageSize,
+    offset: (query.page - 1) * query.pageSize,
+  };
+  const [rows, [{ total: matching }]] = await Promise.all([page.all(values), total.all(values)]);
+  return { items: rows, total: matching, page: query.page, pageSize: query.pageSize };
 }

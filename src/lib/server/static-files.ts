@@ -1,10 +1,14 @@
 import type { IncomingMessage, ServerResponse } from 'node:http';
+import { readdirSync } from 'node:fs';
 import { resolve } from 'node:path';
 import send from 'send';
 import type { NodeHandler } from './edge';
 
 /** Astro names its bundles after their content, so a browser may keep them for a year (common practice for hashed assets). */
 const ONE_YEAR_MS = 365 * 24 * 60 * 60 * 1000;
+
+/** A path segment that means the same file name decoded or not, and is no dotfile, `.` or `..`. */
+const PLAIN_NAME = /^[A-Za-z0-9_-][A-Za-z0-9._-]*$/;
 
 /**
  * Astro's built handler (`mode: 'middleware'`, which starts no server of its own) behind the
@@ -14,6 +18,10 @@ const ONE_YEAR_MS = 365 * 24 * 60 * 60 * 1000;
  */
 export function withStaticFiles(app: NodeHandler, clientDir: string): NodeHandler {
   const root = resolve(clientDir);
+  // The build's files do not change while it runs. A path whose first segment is a plain name none
+  // of them has (every API route) goes straight to the app, without send's file lookup; names that
+  // send would decode or normalise (percent signs, dots) still take the lookup.
+  const topLevel = new Set(readdirSync(root));
   return (req: IncomingMessage, res: ServerResponse) => {
     const url = req.url ?? '/';
     try {
@@ -25,6 +33,8 @@ export function withStaticFiles(app: NodeHandler, clientDir: string): NodeHandle
     }
     if (req.method !== 'GET' && req.method !== 'HEAD') return app(req, res);
     const pathname = url.split(/[?#]/, 1)[0];
+    const first = pathname.split('/', 2)[1];
+    if (PLAIN_NAME.test(first) && !topLevel.has(first)) return app(req, res);
     const hashed = pathname.startsWith('/_astro/');
     let fileFound = false;
     // Before a file is found, an error means no such file (or a path outside root, a dotfile):

@@ -44,10 +44,16 @@ describe('withStaticFiles', () => {
   });
 
   it('hands missing files, folders, paths out of the folder and other methods to the app', async () => {
-    for (const path of ['/sign-in', '/', '/_astro', '/_astro/', '/_astro/missing.js', '/..%2f..%2fpackage.json']) {
+    for (const path of ['/sign-in', '/', '/_astro', '/_astro/', '/_astro/missing.js', '/..%2f..%2fpackage.json', '/api/sheets', '/api/sheets?team=x', '/.hidden', '/favicon.svg/x']) {
       expect(await (await fetch(`${base}${path}`)).text()).toBe(`app GET ${path}`);
     }
     expect(await (await fetch(`${base}/favicon.svg`, { method: 'POST' })).text()).toBe('app POST /favicon.svg');
+  });
+
+  it('serves files under names send decodes or normalises, which skip no lookup', async () => {
+    for (const path of ['/favicon%2Esvg', '/./favicon.svg', '/_astro/../favicon.svg', '/%5Fastro/page.Ab12Cd.js']) {
+      expect((await fetch(`${base}${path}`)).headers.get('content-type'), path).toMatch(/^image\/svg\+xml|^text\/javascript/);
+    }
   });
 
   it('refuses a path that cannot be decoded', async () => {
