@@ -1,7 +1,7 @@
 import { execFile } from 'node:child_process';
 import { promisify } from 'node:util';
 import { createClient } from '@libsql/client';
-import { count, eq, inArray } from 'drizzle-orm';
+import { count, eq, inArray, sql } from 'drizzle-orm';
 import { afterEach, describe, expect, it } from 'vitest';
 import { isBusyError, migrateDatabase, openDatabase, type Database } from '../../../src/db';
 import { sheetRevisions, sheets, teams } from '../../../src/db/schema';
@@ -75,6 +75,31 @@ describe('writes through the queue', () => {
     const titles = (await database.db.select({ title: sheets.title }).from(sheets)).map((r) => r.title);
     expect(titles).toEqual(['after']);
     expect((await presentSheetIds(database, [later.sheetId])).size).toBe(1);
+  });
+});
+
+describe('the write connection of a SQLite file', () => {
+  // SQLite documentation, PRAGMA synchronous: 1 is NORMAL, 2 is FULL; in WAL mode NORMAL keeps
+  // every commit across a crash of the application (not across a power cut).
+  const synchronousOf = async (run: (query: ReturnType<typeof sql>) => Promise<unknown[]>) => (await run(sql`PRAGMA synchronous`))[0];
+
+  it('runs queued writes with synchronous = NORMAL in WAL mode, leaving the connections for reads at the default', async () => {
+    const { database } = await freshDatabase();
+    expect(await synchronousOf((q) => database.write((db) => db.all(q)))).toEqual({ synchronous: 1 });
+    expect(await synchronousOf((q) => database.transaction((tx) => tx.all(q)))).toEqual({ synchronous: 1 });
+    expect(await synchronousOf((q) => database.db.all(q))).toEqual({ synchronous: 2 });
+    expect((await database.db.all(sql`PRAGMA journal_mode`))[0]).toEqual({ journal_mode: 'wal' });
+  });
+
+  it('sets synchronous = NORMAL again on the connection that replaces one after a busy error', async () => {
+    const { database, teamId, url } = await freshDatabase(undefined, { busyTimeoutMs: 200 });
+    const blocker = createClient({ url, timeout: 5_000 });
+    const held = await blocker.transaction('write');
+    await held.execute("INSERT INTO app_meta (key, value) VALUES ('lock', 'held')");
+    await expect(createTestSheet(database, teamId, 'blocked')).rejects.toSatisfy(isBusyError);
+    await held.rollback();
+    blocker.close();
+    expect(await synchronousOf((q) => database.write((db) => db.all(q)))).toEqual({ synchronous: 1 });
   });
 });
 
