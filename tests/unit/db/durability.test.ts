@@ -5,7 +5,7 @@ import { count, eq, inArray, sql } from 'drizzle-orm';
 import { afterEach, describe, expect, it } from 'vitest';
 import { isBusyError, migrateDatabase, openDatabase, type Database } from '../../../src/db';
 import { sheetRevisions, sheets, teams } from '../../../src/db/schema';
-import { saveRevision } from '../../../src/lib/server/sheets';
+import { deleteSheet, saveRevision } from '../../../src/lib/server/sheets';
 import { createTestSheet, exampleSheetDocument } from '../../helpers/test-sheets';
 import { tempDatabaseUrl } from '../../helpers/temp';
 
@@ -114,6 +114,20 @@ describe('saveRevision', () => {
     expect(await save(2, 'pad 3')).toMatchObject({ ok: true, value: { revision: 3 } });
     const numbers = (await database.db.select({ n: sheetRevisions.number }).from(sheetRevisions).where(eq(sheetRevisions.sheetId, sheetId))).map((r) => r.n);
     expect(numbers.sort()).toEqual([1, 2, 3]);
+  });
+
+  it('answers not-found for a sheet deleted after its page was opened, and stores nothing for it', async () => {
+    const { database, teamId } = await freshDatabase();
+    const { sheetId } = await createTestSheet(database, teamId, 'gone');
+    await deleteSheet(database, sheetId, { userId: null });
+    expect(await saveRevision(database, { sheetId, baseRevision: 1, document: exampleSheetDocument, actor: { userId: null } })).toMatchObject({
+      ok: false,
+      error: { kind: 'not-found' },
+    });
+    const numbers = (await database.db.select({ n: sheetRevisions.number }).from(sheetRevisions).where(eq(sheetRevisions.sheetId, sheetId))).map((r) => r.n);
+    expect(numbers).toEqual([1]);
+    const [sheet] = await database.db.select({ latest: sheets.latestRevision }).from(sheets).where(eq(sheets.id, sheetId));
+    expect(sheet.latest).toBe(1);
   });
 
   it('answers not-found for an unknown sheet', async () => {
