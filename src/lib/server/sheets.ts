@@ -150,27 +150,15 @@ export async function saveRevision(
   const checked = checkDocument(input.document);
   if (!checked.ok) return checked;
   const { doc, summary, stored } = checked.value;
+  const number = input.baseRevision + 1;
   return database.transaction(async (tx): Promise<Result<{ revision: number; summary: SheetSummary }, DomainError | StaleSave>> => {
-    const [sheet] = await tx
-      .select({ latest: sheets.latestRevision, teamId: sheets.teamId })
-      .from(sheets)
-      .where(and(eq(sheets.id, input.sheetId), isNull(sheets.deletedAt)));
-    if (!sheet) return fail({ kind: 'not-found', message: 'Not found.' });
-    if (sheet.latest !== input.baseRevision) {
-      const [latest] = await tx
-        .select({ number: sheetRevisions.number, inputs: sheetRevisions.inputs, message: sheetRevisions.message, authorName: users.name })
-        .from(sheetRevisions)
-        .leftJoin(users, eq(users.id, sheetRevisions.authorId))
-        .where(and(eq(sheetRevisions.sheetId, input.sheetId), eq(sheetRevisions.number, sheet.latest)));
-      return fail({
-        kind: 'stale',
-        message: `Revision ${sheet.latest} was saved after the revision ${input.baseRevision} you started from. Nothing was overwritten: reload, or save your version as a fork.`,
-        path: 'baseRevision',
-        latestRevision: sheet.latest,
-        latest,
-      });
-    }
-    const number = input.baseRevision + 1;
+    // Claims the next number only while the base is still the latest: one statement checks and moves the sheet on, and the queue's transaction keeps the check and the insert together.
+    const [moved] = await tx
+      .update(sheets)
+      .set({ latestRevision: number, title: doc.title, tags: doc.tags, updatedAt: sql`(unixepoch('subsec') * 1000)` })
+      .where(and(eq(sheets.id, input.sheetId), isNull(sheets.deletedAt), eq(sheets.latestRevision, input.baseRevision)))
+      .returning({ teamId: sheets.teamId });
+    if (!moved) return refuseSave(tx, input);
     await tx.insert(sheetRevisions).values({
       sheetId: input.sheetId,
       number,
@@ -180,12 +168,29 @@ export async function saveRevision(
       message: input.message ?? '',
       authorId: input.actor.userId,
     });
-    await tx
-      .update(sheets)
-      .set({ latestRevision: number, title: doc.title, tags: doc.tags, updatedAt: sql`(unixepoch('subsec') * 1000)` })
-      .where(eq(sheets.id, input.sheetId));
-    await insertAudit(tx, { teamId: sheet.teamId, actorId: input.actor.userId, action: 'sheet.save', subject: input.sheetId, detail: { revision: number }, address: input.actor.address });
+    await insertAudit(tx, { teamId: moved.teamId, actorId: input.actor.userId, action: 'sheet.save', subject: input.sheetId, detail: { revision: number }, address: input.actor.address });
     return succeed({ revision: number, summary });
+  });
+}
+
+/** Why a save did not move its sheet on: the sheet is missing or deleted, or a later revision was saved (stale, with that revision so the editor can rebase). */
+async function refuseSave(tx: Transaction, input: { sheetId: string; baseRevision: number }): Promise<Result<never, DomainError | StaleSave>> {
+  const [sheet] = await tx
+    .select({ latest: sheets.latestRevision })
+    .from(sheets)
+    .where(and(eq(sheets.id, input.sheetId), isNull(sheets.deletedAt)));
+  if (!sheet) return fail({ kind: 'not-found', message: 'Not found.' });
+  const [latest] = await tx
+    .select({ number: sheetRevisions.number, inputs: sheetRevisions.inputs, message: sheetRevisions.message, authorName: users.name })
+    .from(sheetRevisions)
+    .leftJoin(users, eq(users.id, sheetRevisions.authorId))
+    .where(and(eq(sheetRevisions.sheetId, input.sheetId), eq(sheetRevisions.number, sheet.latest)));
+  return fail({
+    kind: 'stale',
+    message: `Revision ${sheet.latest} was saved after the revision ${input.baseRevision} you started from. Nothing was overwritten: reload, or save your version as a fork.`,
+    path: 'baseRevision',
+    latestRevision: sheet.latest,
+    latest,
   });
 }
 

@@ -1,11 +1,11 @@
 import { execFile } from 'node:child_process';
 import { promisify } from 'node:util';
 import { createClient } from '@libsql/client';
-import { count, eq, inArray } from 'drizzle-orm';
+import { count, eq, inArray, sql } from 'drizzle-orm';
 import { afterEach, describe, expect, it } from 'vitest';
 import { isBusyError, migrateDatabase, openDatabase, type Database } from '../../../src/db';
 import { sheetRevisions, sheets, teams } from '../../../src/db/schema';
-import { saveRevision } from '../../../src/lib/server/sheets';
+import { deleteSheet, saveRevision } from '../../../src/lib/server/sheets';
 import { createTestSheet, exampleSheetDocument } from '../../helpers/test-sheets';
 import { tempDatabaseUrl } from '../../helpers/temp';
 
@@ -78,6 +78,31 @@ describe('writes through the queue', () => {
   });
 });
 
+describe('the write connection of a SQLite file', () => {
+  // SQLite documentation, PRAGMA synchronous: 1 is NORMAL, 2 is FULL; in WAL mode NORMAL keeps
+  // every commit across a crash of the application (not across a power cut).
+  const synchronousOf = async (run: (query: ReturnType<typeof sql>) => Promise<unknown[]>) => (await run(sql`PRAGMA synchronous`))[0];
+
+  it('runs queued writes with synchronous = NORMAL in WAL mode, leaving the connections for reads at the default', async () => {
+    const { database } = await freshDatabase();
+    expect(await synchronousOf((q) => database.write((db) => db.all(q)))).toEqual({ synchronous: 1 });
+    expect(await synchronousOf((q) => database.transaction((tx) => tx.all(q)))).toEqual({ synchronous: 1 });
+    expect(await synchronousOf((q) => database.db.all(q))).toEqual({ synchronous: 2 });
+    expect((await database.db.all(sql`PRAGMA journal_mode`))[0]).toEqual({ journal_mode: 'wal' });
+  });
+
+  it('sets synchronous = NORMAL again on the connection that replaces one after a busy error', async () => {
+    const { database, teamId, url } = await freshDatabase(undefined, { busyTimeoutMs: 200 });
+    const blocker = createClient({ url, timeout: 5_000 });
+    const held = await blocker.transaction('write');
+    await held.execute("INSERT INTO app_meta (key, value) VALUES ('lock', 'held')");
+    await expect(createTestSheet(database, teamId, 'blocked')).rejects.toSatisfy(isBusyError);
+    await held.rollback();
+    blocker.close();
+    expect(await synchronousOf((q) => database.write((db) => db.all(q)))).toEqual({ synchronous: 1 });
+  });
+});
+
 describe('saveRevision', () => {
   it('numbers revisions 1, 2, 3 and refuses a save based on a stale revision', async () => {
     const { database, teamId } = await freshDatabase();
@@ -89,6 +114,20 @@ describe('saveRevision', () => {
     expect(await save(2, 'pad 3')).toMatchObject({ ok: true, value: { revision: 3 } });
     const numbers = (await database.db.select({ n: sheetRevisions.number }).from(sheetRevisions).where(eq(sheetRevisions.sheetId, sheetId))).map((r) => r.n);
     expect(numbers.sort()).toEqual([1, 2, 3]);
+  });
+
+  it('answers not-found for a sheet deleted after its page was opened, and stores nothing for it', async () => {
+    const { database, teamId } = await freshDatabase();
+    const { sheetId } = await createTestSheet(database, teamId, 'gone');
+    await deleteSheet(database, sheetId, { userId: null });
+    expect(await saveRevision(database, { sheetId, baseRevision: 1, document: exampleSheetDocument, actor: { userId: null } })).toMatchObject({
+      ok: false,
+      error: { kind: 'not-found' },
+    });
+    const numbers = (await database.db.select({ n: sheetRevisions.number }).from(sheetRevisions).where(eq(sheetRevisions.sheetId, sheetId))).map((r) => r.n);
+    expect(numbers).toEqual([1]);
+    const [sheet] = await database.db.select({ latest: sheets.latestRevision }).from(sheets).where(eq(sheets.id, sheetId));
+    expect(sheet.latest).toBe(1);
   });
 
   it('answers not-found for an unknown sheet', async () => {
