@@ -35,6 +35,9 @@ import {
   type VariableScope,
 } from './units';
 import { twistAboutContact, twistAboutOrigin } from './twist-entry';
+import { formatIssuePath } from './document-path';
+
+export { formatIssuePath };
 
 export const SHEET_FORMAT = 'slipless.sheet';
 export const SHEET_VERSION = 1;
@@ -781,16 +784,6 @@ export type ParseSheetResult = { ok: true; doc: SheetDocument } | { ok: false; i
  * otherwise be answered with thousands of issues, each located in the text by a search.
  */
 export const MAX_SHEET_ISSUES = 50;
-
-/** Path of an input location as text: object keys joined by dots, array indices in brackets. */
-export function formatIssuePath(path: readonly PropertyKey[]): string {
-  let text = '';
-  for (const key of path) {
-    if (typeof key === 'number') text += `[${key}]`;
-    else text += text === '' ? String(key) : `.${String(key)}`;
-  }
-  return text === '' ? '(document)' : text;
-}
 
 function missingCount(issues: readonly z.core.$ZodIssue[]): number {
   return issues.filter((issue) => issue.message === MISSING || issue.code === 'unrecognized_keys').length;
