@@ -1,11 +1,12 @@
 /**
  * The message protocol of the compute worker, as a pure function so that it can be tested
  * without a worker: a document as written goes in, the parsed SI document, the JSON-ready
- * results, the derivation entries and every located issue come out.
+ * results, the derivation entries, every located issue and how each written quantity reads come out.
  */
 import type { PlainSheetResult } from '../lib/kinematics';
 import type { DerivationEntry } from '../lib/sheet/derivation';
 import { evaluateSheet } from '../lib/sheet/evaluate';
+import { readDocument, type DocumentReadings } from '../lib/sheet/readings';
 import type { SheetIssue } from '../lib/sheet/schema';
 import type { SheetDocument } from '../lib/sheet/types';
 
@@ -27,9 +28,11 @@ export type ComputeReply =
       result: PlainSheetResult;
       /** Absent when the request did not ask for it. */
       derivation?: DerivationEntry[];
+      /** How the document's quantity texts and variables read, for the editor's hints. */
+      readings: DocumentReadings;
       elapsedMs: number;
     }
-  | { type: 'computed'; id: number; ok: false; issues: SheetIssue[]; elapsedMs: number }
+  | { type: 'computed'; id: number; ok: false; issues: SheetIssue[]; readings: DocumentReadings; elapsedMs: number }
   | { type: 'refused'; message: string };
 
 function isComputeRequest(message: unknown): message is ComputeRequest {
@@ -42,13 +45,14 @@ function isComputeRequest(message: unknown): message is ComputeRequest {
 export function computeSheet(message: unknown, now: () => number = () => performance.now()): ComputeReply {
   if (!isComputeRequest(message)) return { type: 'refused', message: 'expected {type: "compute", id: integer, document}' };
   const started = now();
+  const readings = readDocument(message.document);
   if (message.derive === false) {
     const plain = evaluateSheet(message.document);
-    if (!plain.ok) return { type: 'computed', id: message.id, ok: false, issues: plain.error.issues, elapsedMs: now() - started };
-    return { type: 'computed', id: message.id, ok: true, document: plain.value.doc, result: plain.value.result, elapsedMs: now() - started };
+    if (!plain.ok) return { type: 'computed', id: message.id, ok: false, issues: plain.error.issues, readings, elapsedMs: now() - started };
+    return { type: 'computed', id: message.id, ok: true, document: plain.value.doc, result: plain.value.result, readings, elapsedMs: now() - started };
   }
   const evaluated = evaluateSheet(message.document, { derive: true });
-  if (!evaluated.ok) return { type: 'computed', id: message.id, ok: false, issues: evaluated.error.issues, elapsedMs: now() - started };
+  if (!evaluated.ok) return { type: 'computed', id: message.id, ok: false, issues: evaluated.error.issues, readings, elapsedMs: now() - started };
   const { doc, result, derivation } = evaluated.value;
-  return { type: 'computed', id: message.id, ok: true, document: doc, result, derivation, elapsedMs: now() - started };
+  return { type: 'computed', id: message.id, ok: true, document: doc, result, derivation, readings, elapsedMs: now() - started };
 }

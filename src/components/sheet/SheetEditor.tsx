@@ -1,12 +1,12 @@
-import { lazy, memo, Suspense, useCallback, useDeferredValue, useEffect, useMemo, useState } from 'react';
+import { lazy, memo, Suspense, useCallback, useDeferredValue, useEffect, useMemo, useRef, useState } from 'react';
 import type { WarningCode } from '../../lib/kinematics';
 import { formatWhen } from '../../lib/client/api';
-import type { SheetLink, SheetPageData } from '../../lib/contract';
+import { parseKeepingNonFinite, type SheetLink, type SheetPageData } from '../../lib/contract';
 import { setAt, type DocumentPath } from '../../lib/sheet/document-path';
 import type { ExportSource } from '../../lib/sheet/run-export';
 import { keepGenerators, type WrittenGenerator } from '../../lib/sheet/matrix-edit';
 import { displayUnitsOf, type DisplayUnits } from '../../lib/sheet/display-units';
-import { parseVariables } from '../../lib/sheet/units';
+import type { DocumentReadings, FieldReading } from '../../lib/sheet/readings';
 import { describeWarning } from '../../lib/sheet/warning-notes';
 import DisplayUnitsFields from './DisplayUnitsFields';
 import { SheetEditingContext, type MarginWarning, type SheetEditing } from './editor-context';
@@ -22,6 +22,7 @@ import SavePanel from './SavePanel';
 import SceneView from './SceneView';
 import TitleBlock from './TitleBlock';
 import { useCompute, type ComputedSheet } from './useCompute';
+import type { ComputeReply } from '../../workers/compute-protocol';
 import WhenSeen from './WhenSeen';
 
 const RunPanel = lazy(() => import('./RunPanel'));
@@ -97,12 +98,36 @@ function readDraft(sheetId: string): Draft | null {
 
 const same = (a: unknown, b: unknown) => JSON.stringify(a) === JSON.stringify(b);
 
-function Editor({ data }: { data: SheetPageData }) {
+const NO_VARIABLES: DocumentReadings['variables'] = { values: [], issues: [] };
+
+/**
+ * The field readings of the newest reply, keeping the previous reading object wherever it did not
+ * change, so that only the fields whose reading changed re-render.
+ */
+function useStableReadings(next: Readonly<Record<string, FieldReading>> | undefined): Readonly<Record<string, FieldReading>> {
+  const previous = useRef<Readonly<Record<string, FieldReading>>>({});
+  return useMemo(() => {
+    const kept: Record<string, FieldReading> = {};
+    for (const [path, reading] of Object.entries(next ?? {})) {
+      const before = previous.current[path];
+      kept[path] = before && before.text === reading.text && before.kind === reading.kind && Object.is(before.value, reading.value) ? before : reading;
+    }
+    previous.current = kept;
+    return kept;
+  }, [next]);
+}
+
+function Editor({ data, evaluation }: { data: SheetPageData; evaluation: string }) {
   const sheetId = data.sheet.id;
   const readOnly = !data.canEdit;
   const initial = data.revision.inputs as RawDocument;
   const [base, setBase] = useState({ revision: data.revision.number, document: initial });
   const [document, setDocument] = useState<RawDocument>(initial);
+  // The server's evaluation of the revision as drawn: results before any worker exists.
+  const [first] = useState(() => {
+    const reply = evaluation ? parseKeepingNonFinite<ComputeReply>(evaluation) : null;
+    return reply?.type === 'computed' ? { document: initial, reply } : undefined;
+  });
   const [restored, setRestored] = useState<string | null>(null);
   const [latestRevision, setLatestRevision] = useState(data.sheet.latestRevision);
 
@@ -133,7 +158,7 @@ function Editor({ data }: { data: SheetPageData }) {
   // The worker derives step by step only once the derivation section has been on screen.
   const [deriving, setDeriving] = useState(false);
   const startDeriving = useCallback(() => setDeriving(true), []);
-  const { reply, lastGood, pending } = useCompute(document, { derive: deriving });
+  const { reply, lastGood, pending } = useCompute(document, { derive: deriving, initial: first });
   const deferred = useDeferredValue(lastGood);
   // Run and sweep exports name the sheet, the revision the edits started from, and whether there are unsaved edits.
   const exportTitle = deferred?.document.title ?? data.sheet.title;
@@ -148,7 +173,8 @@ function Editor({ data }: { data: SheetPageData }) {
   }, [reply]);
 
   const variablesText = typeof document.variables === 'string' ? document.variables : '';
-  const variables = useMemo(() => parseVariables(variablesText), [variablesText]);
+  const readings = useStableReadings(reply?.readings.fields);
+  const variableReadings = reply?.readings.variables ?? NO_VARIABLES;
   const issues = useMemo(() => new Map((reply && !reply.ok ? reply.issues : []).map((i) => [i.path, i.message])), [reply]);
   const displayChoice = document.display;
   const units = useMemo(() => displayUnitsOf({ display: displayChoice }), [displayChoice]);
@@ -162,8 +188,8 @@ function Editor({ data }: { data: SheetPageData }) {
     [sheetId, data.sheet.title, base.revision, latestRevision, data.canEdit, data.forkedFrom, data.forks, readOnly],
   );
   const editing: SheetEditing = useMemo(
-    () => ({ document, update, issues, variables: variables.values, units, readOnly }),
-    [document, update, issues, variables, units, readOnly],
+    () => ({ document, update, issues, readings, units, readOnly }),
+    [document, update, issues, readings, units, readOnly],
   );
 
   const result = lastGood?.result ?? null;
@@ -235,7 +261,7 @@ function Editor({ data }: { data: SheetPageData }) {
               <WhenSeen early={lastGood !== null} fallback={<pre className="min-h-[7rem] border border-rule p-2 font-mono text-sm whitespace-pre-wrap">{variablesText}</pre>}>
                 <VariablesEditor
                   text={variablesText}
-                  reading={variables}
+                  reading={variableReadings}
                   readOnly={readOnly}
                   onChange={(text) => update(['variables'], text === '' ? undefined : text)}
                 />
@@ -261,7 +287,8 @@ function Editor({ data }: { data: SheetPageData }) {
               <ResultsSection result={result} units={units} stale={pending || (reply !== null && !reply.ok)} />
               {lastGood && (
                 <p className="mt-2 text-xs text-graphite">
-                  Solved in a background worker in <span className="num" data-compute-ms>{lastGood.elapsedMs.toFixed(1)}</span> ms.
+                  {/* The first results come with the page (id 0); every later one from the worker. */}
+                  Solved {lastGood.id === 0 ? 'on the server' : 'in a background worker'} in <span className="num" data-compute-ms>{lastGood.elapsedMs.toFixed(1)}</span> ms.
                 </p>
               )}
             </PadSection>
@@ -318,10 +345,10 @@ function Editor({ data }: { data: SheetPageData }) {
 }
 
 /** The sheet editor island: the pad, live results from a worker, the 3D view, save and fork. */
-export default function SheetEditor({ data }: { data: SheetPageData }) {
+export default function SheetEditor({ data, evaluation = '' }: { data: SheetPageData; evaluation?: string }) {
   return (
     <QueryRoot>
-      <Editor data={data} />
+      <Editor data={data} evaluation={evaluation} />
     </QueryRoot>
   );
 }

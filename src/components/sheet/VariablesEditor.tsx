@@ -2,7 +2,7 @@ import { defaultKeymap, history, historyKeymap } from '@codemirror/commands';
 import { EditorState, RangeSetBuilder, StateEffect, StateField } from '@codemirror/state';
 import { Decoration, EditorView, keymap, lineNumbers, WidgetType, type DecorationSet } from '@codemirror/view';
 import { useEffect, useRef } from 'react';
-import { formatVariableValue, type ParsedVariables } from '../../lib/sheet/units';
+import type { VariableReadings } from '../../lib/sheet/readings';
 
 /** Text at the end of a line: the variable's SI value, or what is wrong with the line. */
 class LineNote extends WidgetType {
@@ -23,12 +23,12 @@ class LineNote extends WidgetType {
   }
 }
 
-const setReading = StateEffect.define<ParsedVariables>();
+const setReading = StateEffect.define<VariableReadings>();
 
-function decorationsFor(state: EditorState, reading: ParsedVariables): DecorationSet {
+function decorationsFor(state: EditorState, reading: VariableReadings): DecorationSet {
   const byLine = new Map<number, { error?: string; column?: number; value?: string }>();
   for (const issue of reading.issues) if (!byLine.has(issue.line)) byLine.set(issue.line, { error: issue.message, column: issue.column });
-  for (const [name, line] of reading.lines) byLine.set(line, { value: formatVariableValue(reading.values.get(name)!) });
+  for (const { line, value } of reading.values) byLine.set(line, { value });
   const builder = new RangeSetBuilder<Decoration>();
   for (let number = 1; number <= state.doc.lines; number++) {
     const note = byLine.get(number);
@@ -74,7 +74,7 @@ export default function VariablesEditor({
   readOnly,
 }: {
   text: string;
-  reading: ParsedVariables;
+  reading: VariableReadings;
   onChange: (text: string) => void;
   readOnly: boolean;
 }) {

@@ -1,7 +1,7 @@
 import { createContext, useContext } from 'react';
 import type { DisplayUnits } from '../../lib/sheet/display-units';
 import type { DocumentPath } from '../../lib/sheet/document-path';
-import type { VariableScope } from '../../lib/sheet/units';
+import type { FieldReading } from '../../lib/sheet/readings';
 import type { WarningNote } from '../../lib/sheet/warning-notes';
 
 /** A warning beside the section whose inputs cause it, with its numbers. */
@@ -13,7 +13,8 @@ export interface SheetEditing {
   update: (path: DocumentPath, value: unknown) => void;
   /** Issues of the sheet reader by path text ("hand.fingers[0].roller.radius"). */
   issues: ReadonlyMap<string, string>;
-  variables: VariableScope;
+  /** How the latest evaluation read each quantity written as text, by path text. */
+  readings: Readonly<Record<string, FieldReading>>;
   /** The sheet's display units, which field hints read values back in. */
   units: DisplayUnits;
   readOnly: boolean;

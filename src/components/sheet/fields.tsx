@@ -1,6 +1,6 @@
 import { useId } from 'react';
 import { getAt, pathText, type DocumentPath } from '../../lib/sheet/document-path';
-import type { QuantityKind } from '../../lib/sheet/units';
+import type { QuantityKind } from '../../lib/sheet/quantity-kinds';
 import { useSheetEditing } from './editor-context';
 import type { PlausibleLengthKind } from '../../lib/sheet/plausibility';
 import QuantityField, { storedValue } from './QuantityField';
@@ -15,14 +15,15 @@ function issueAt(issues: ReadonlyMap<string, string>, path: DocumentPath): strin
 
 /** A quantity of the document at path. */
 export function Quantity({ path, label, kind, placeholder, plausible }: { path: DocumentPath; label: string; kind: Kind; placeholder?: string; plausible?: PlausibleLengthKind }) {
-  const { document, update, issues, variables, units, readOnly } = useSheetEditing();
+  const { document, update, issues, readings, units, readOnly } = useSheetEditing();
+  const at = pathText(path);
   return (
     <QuantityField
       label={label}
       kind={kind}
-      path={pathText(path)}
+      path={at}
       value={getAt(document, path)}
-      variables={variables}
+      reading={readings[at]}
       units={units}
       plausible={plausible}
       issue={issueAt(issues, path)}

@@ -492,3 +492,21 @@ export function unitFactor(from: string, to: string): number {
   }
   return factor;
 }
+
+/** A quantity written as text, read without a field's kind: the kind it has and its SI value, or why it does not read. */
+export type QuantityTextReading =
+  | { ok: true; kind: Exclude<QuantityKind, 'any'> | null; value: number }
+  | { ok: false; message: string };
+
+/**
+ * Reads a quantity text the way parseQuantity reads it for a field of its own kind (same expression,
+ * same SI unit per kind), so one reading serves whichever field holds the text; a plain-number
+ * result or another dimension has kind null (value in base SI units).
+ */
+export function readQuantityText(text: string, variables?: VariableScope): QuantityTextReading {
+  const evaluated = evaluateExpression(text, variables, undefined);
+  if (!evaluated.ok) return { ok: false, message: evaluated.message };
+  if (typeof evaluated.value === 'number') return { ok: true, kind: null, value: evaluated.value };
+  const kind = kindOfValue(evaluated.value);
+  return { ok: true, kind, value: kind ? evaluated.value.toNumber(QUANTITY_KINDS[kind].si) : evaluated.value.toSI().toNumber() };
+}
