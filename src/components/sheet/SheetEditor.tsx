@@ -22,6 +22,7 @@ import SavePanel from './SavePanel';
 import SceneView from './SceneView';
 import TitleBlock from './TitleBlock';
 import { useCompute, type ComputedSheet } from './useCompute';
+import { useIdle } from './useIdle';
 import type { ComputeReply } from '../../workers/compute-protocol';
 import WhenSeen from './WhenSeen';
 
@@ -46,15 +47,22 @@ interface MatrixContext {
 }
 
 const SideViews = memo(function SideViews({ solved, units, matrix, source }: { solved: Solved | null; units: DisplayUnits; matrix: MatrixContext; source: ExportSource }) {
+  // The run, sweep and matrix panels (and their charts) load once the page is idle, after the sheet is usable.
+  const idle = useIdle();
+  const loading = <p className="text-sm text-graphite">Loading runs and sweeps…</p>;
   if (!solved) return <div className="h-80 border-2 border-ink bg-paper-deep" />;
   return (
     <>
       <SceneView document={solved.document} result={solved.result} />
-      <Suspense fallback={<p className="text-sm text-graphite">Loading runs and sweeps…</p>}>
-        <RunPanel document={solved.document} units={units} source={source} />
-        <SweepPanel document={solved.document} units={units} source={source} />
-        <MatrixPanel document={solved.document} {...matrix} />
-      </Suspense>
+      {idle ? (
+        <Suspense fallback={loading}>
+          <RunPanel document={solved.document} units={units} source={source} />
+          <SweepPanel document={solved.document} units={units} source={source} />
+          <MatrixPanel document={solved.document} {...matrix} />
+        </Suspense>
+      ) : (
+        loading
+      )}
     </>
   );
 });
@@ -158,6 +166,7 @@ function Editor({ data, evaluation }: { data: SheetPageData; evaluation: string 
   // The worker derives step by step only once the derivation section has been on screen.
   const [deriving, setDeriving] = useState(false);
   const startDeriving = useCallback(() => setDeriving(true), []);
+  const idle = useIdle();
   const { reply, lastGood, pending } = useCompute(document, { derive: deriving, initial: first });
   const deferred = useDeferredValue(lastGood);
   // Run and sweep exports name the sheet, the revision the edits started from, and whether there are unsaved edits.
@@ -257,8 +266,8 @@ function Editor({ data, evaluation }: { data: SheetPageData; evaluation: string 
               <MotionSection />
             </PadSection>
             <PadSection id="variables" number={4} title="Variables">
-              {/* Also loaded once the first results show, so the editor is ready by the time anyone scrolls to it. */}
-              <WhenSeen early={lastGood !== null} fallback={<pre className="min-h-[7rem] border border-rule p-2 font-mono text-sm whitespace-pre-wrap">{variablesText}</pre>}>
+              {/* Also loaded once the page is idle, so the editor is ready by the time anyone scrolls to it. */}
+              <WhenSeen early={idle} fallback={<pre className="min-h-[7rem] border border-rule p-2 font-mono text-sm whitespace-pre-wrap">{variablesText}</pre>}>
                 <VariablesEditor
                   text={variablesText}
                   reading={variableReadings}

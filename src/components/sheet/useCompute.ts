@@ -1,5 +1,6 @@
 import { useEffect, useRef, useState } from 'react';
 import type { ComputeReply, ComputeRequest } from '../../workers/compute-protocol';
+import { whenIdle } from './useIdle';
 
 type Computed = Extract<ComputeReply, { type: 'computed' }>;
 /** A successful evaluation of the sheet editor's worker. */
@@ -30,16 +31,6 @@ interface ComputeState<Reply extends ComputedLike> {
   reply: Reply | null;
   lastGood: Extract<Reply, { ok: true }> | null;
   pending: boolean;
-}
-
-/** Runs once the page is idle (or after a short wait where idle callbacks do not exist); returns the cancel. */
-function whenIdle(run: () => void): () => void {
-  if (typeof requestIdleCallback === 'function') {
-    const handle = requestIdleCallback(run, { timeout: 2000 });
-    return () => cancelIdleCallback(handle);
-  }
-  const handle = setTimeout(run, 200);
-  return () => clearTimeout(handle);
 }
 
 /**
