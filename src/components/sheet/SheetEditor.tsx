@@ -1,4 +1,4 @@
-import { lazy, memo, Suspense, useCallback, useDeferredValue, useEffect, useMemo, useRef, useState } from 'react';
+import { lazy, memo, Suspense, useCallback, useDeferredValue, useEffect, useLayoutEffect, useMemo, useRef, useState, type ReactNode } from 'react';
 import type { WarningCode } from '../../lib/kinematics';
 import { formatWhen } from '../../lib/client/api';
 import { parseKeepingNonFinite, type SheetLink, type SheetPageData } from '../../lib/contract';
@@ -9,7 +9,7 @@ import { displayUnitsOf, type DisplayUnits } from '../../lib/sheet/display-units
 import type { DocumentReadings, FieldReading } from '../../lib/sheet/readings';
 import { describeWarning } from '../../lib/sheet/warning-notes';
 import DisplayUnitsFields from './DisplayUnitsFields';
-import { SheetEditingContext, type MarginWarning, type SheetEditing } from './editor-context';
+import { DocumentStoreContext, SheetEditingContext, SheetFieldsContext, type DocumentStore, type MarginWarning, type SheetEditing, type SheetFields } from './editor-context';
 import { TextField } from './fields';
 import HandSection from './HandSection';
 import MotionSection from './MotionSection';
@@ -110,19 +110,68 @@ const NO_VARIABLES: DocumentReadings['variables'] = { values: [], issues: [] };
 
 /**
  * The field readings of the newest reply, keeping the previous reading object wherever it did not
- * change, so that only the fields whose reading changed re-render.
+ * change (and the previous record when none did), so that only the fields whose reading changed re-render.
  */
 function useStableReadings(next: Readonly<Record<string, FieldReading>> | undefined): Readonly<Record<string, FieldReading>> {
   const previous = useRef<Readonly<Record<string, FieldReading>>>({});
   return useMemo(() => {
     const kept: Record<string, FieldReading> = {};
+    let changed = false;
     for (const [path, reading] of Object.entries(next ?? {})) {
       const before = previous.current[path];
-      kept[path] = before && before.text === reading.text && before.kind === reading.kind && Object.is(before.value, reading.value) ? before : reading;
+      const same = before && before.text === reading.text && before.kind === reading.kind && Object.is(before.value, reading.value);
+      kept[path] = same ? before : reading;
+      changed ||= !same;
     }
+    if (!changed && Object.keys(kept).length === Object.keys(previous.current).length) return previous.current;
     previous.current = kept;
     return kept;
   }, [next]);
+}
+
+/** The issues of the newest reply by path, the previous map while they are the same (fields re-render only when theirs change). */
+function useStableIssues(next: readonly { path: string; message: string }[]): ReadonlyMap<string, string> {
+  const previous = useRef<ReadonlyMap<string, string>>(new Map());
+  return useMemo(() => {
+    const issues = new Map(next.map((i) => [i.path, i.message]));
+    const same = issues.size === previous.current.size && [...issues].every(([path, message]) => previous.current.get(path) === message);
+    if (!same) previous.current = issues;
+    return previous.current;
+  }, [next]);
+}
+
+const NO_ISSUES: readonly { path: string; message: string }[] = [];
+
+/** The document as a store that fields subscribe to by path, so a keystroke re-renders only the fields whose value changed. */
+function useDocumentStore(document: Record<string, unknown>): DocumentStore {
+  const current = useRef(document);
+  current.current = document;
+  const [store] = useState(() => {
+    const listeners = new Set<() => void>();
+    return {
+      listeners,
+      get: () => current.current,
+      subscribe: (listener: () => void) => {
+        listeners.add(listener);
+        return () => listeners.delete(listener);
+      },
+    };
+  });
+  useLayoutEffect(() => {
+    for (const listener of store.listeners) listener();
+  }, [document, store]);
+  return store;
+}
+
+/** The editor's three contexts: sections read the whole document, fields their own value through the store. */
+function EditorContexts({ editing, fields, store, children }: { editing: SheetEditing; fields: SheetFields; store: DocumentStore; children: ReactNode }) {
+  return (
+    <SheetEditingContext.Provider value={editing}>
+      <SheetFieldsContext.Provider value={fields}>
+        <DocumentStoreContext.Provider value={store}>{children}</DocumentStoreContext.Provider>
+      </SheetFieldsContext.Provider>
+    </SheetEditingContext.Provider>
+  );
 }
 
 function Editor({ data, evaluation }: { data: SheetPageData; evaluation: string }) {
@@ -184,7 +233,7 @@ function Editor({ data, evaluation }: { data: SheetPageData; evaluation: string 
   const variablesText = typeof document.variables === 'string' ? document.variables : '';
   const readings = useStableReadings(reply?.readings.fields);
   const variableReadings = reply?.readings.variables ?? NO_VARIABLES;
-  const issues = useMemo(() => new Map((reply && !reply.ok ? reply.issues : []).map((i) => [i.path, i.message])), [reply]);
+  const issues = useStableIssues(reply && !reply.ok ? reply.issues : NO_ISSUES);
   const displayChoice = document.display;
   const units = useMemo(() => displayUnitsOf({ display: displayChoice }), [displayChoice]);
   const matrixContext: MatrixContext = useMemo(
@@ -196,10 +245,9 @@ function Editor({ data, evaluation }: { data: SheetPageData; evaluation: string 
     }),
     [sheetId, data.sheet.title, base.revision, latestRevision, data.canEdit, data.forkedFrom, data.forks, readOnly],
   );
-  const editing: SheetEditing = useMemo(
-    () => ({ document, update, issues, readings, units, readOnly }),
-    [document, update, issues, readings, units, readOnly],
-  );
+  const fields: SheetFields = useMemo(() => ({ update, issues, readings, units, readOnly }), [update, issues, readings, units, readOnly]);
+  const editing: SheetEditing = useMemo(() => ({ ...fields, document }), [fields, document]);
+  const store = useDocumentStore(document);
 
   const result = lastGood?.result ?? null;
   const margin = useMemo(() => {
@@ -212,7 +260,7 @@ function Editor({ data, evaluation }: { data: SheetPageData; evaluation: string 
   const fingerNames = useMemo(() => result?.fingers.map((f) => f.name) ?? [], [result]);
 
   return (
-    <SheetEditingContext.Provider value={editing}>
+    <EditorContexts editing={editing} fields={fields} store={store}>
       <div className="mx-auto max-w-[100rem] px-4 py-6">
         <TitleBlock
           sheetId={sheetId}
@@ -349,7 +397,7 @@ function Editor({ data, evaluation }: { data: SheetPageData; evaluation: string 
           </aside>
         </div>
       </div>
-    </SheetEditingContext.Provider>
+    </EditorContexts>
   );
 }
 
