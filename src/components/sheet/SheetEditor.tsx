@@ -106,7 +106,7 @@ function readDraft(sheetId: string): Draft | null {
 
 const same = (a: unknown, b: unknown) => JSON.stringify(a) === JSON.stringify(b);
 
-const NO_VARIABLES: DocumentReadings['variables'] = { values: [], issues: [] };
+const NO_VARIABLES: DocumentReadings['variables'] = { text: '', values: [], issues: [] };
 
 /**
  * The field readings of the newest reply, keeping the previous reading object wherever it did not

@@ -50,7 +50,8 @@ const readingField = StateField.define<DecorationSet>({
   create: () => Decoration.none,
   update(decorations, transaction) {
     for (const effect of transaction.effects) if (effect.is(setReading)) return decorationsFor(transaction.state, effect.value);
-    return decorations.map(transaction.changes);
+    // The notes of the text before an edit would be wrong beside the new text; the reading of the new text follows within the keystroke.
+    return transaction.docChanged ? Decoration.none : decorations;
   },
   provide: (field) => EditorView.decorations.from(field),
 });
@@ -66,7 +67,7 @@ const theme = EditorView.theme({
   '.cm-variable-error': { color: 'var(--color-sienna)', fontSize: '11px', fontFamily: 'var(--font-sans)' },
 });
 
-/** The variables text in a code editor; each line shows its value or, inline, what is wrong with it. */
+/** The variables text in a code editor; each line shows its value or, inline, what is wrong with it (as the evaluation read this text). */
 export default function VariablesEditor({
   text,
   reading,
@@ -113,7 +114,7 @@ export default function VariablesEditor({
     if (!editor) return;
     const current = editor.state.doc.toString();
     const changes = current === text ? [] : [{ from: 0, to: current.length, insert: text }];
-    editor.dispatch({ changes, effects: setReading.of(reading) });
+    editor.dispatch({ changes, effects: reading.text === text ? setReading.of(reading) : [] });
   }, [text, reading]);
 
   return <div ref={host} />;

@@ -16,6 +16,8 @@ export interface FieldReading {
 
 /** The variables text read line by line: each defined variable's SI value as text, and every line's problem. */
 export interface VariableReadings {
+  /** The text these lines were read from (the editor shows them only beside that text). */
+  text: string;
   values: { line: number; value: string }[];
   issues: VariableIssue[];
 }
@@ -44,12 +46,14 @@ function collect(value: unknown, path: (string | number)[], scope: VariableScope
 /** Reads every quantity written as text in a document as written (also one that does not read as a sheet), over its variables. */
 export function readDocument(document: unknown): DocumentReadings {
   const text = document !== null && typeof document === 'object' ? (document as { variables?: unknown }).variables : undefined;
-  const parsed = parseVariables(typeof text === 'string' ? text : '');
+  const variablesText = typeof text === 'string' ? text : '';
+  const parsed = parseVariables(variablesText);
   const fields: Record<string, FieldReading> = {};
   collect(document, [], parsed.values, fields);
   return {
     fields,
     variables: {
+      text: variablesText,
       values: [...parsed.lines].map(([name, line]) => ({ line, value: formatVariableValue(parsed.values.get(name)!) })),
       issues: parsed.issues,
     },

@@ -69,6 +69,7 @@ describe('computeSheet (the compute worker protocol)', () => {
     expect(fields['hand.fingers[1].roller.radius']).toEqual({ text: '30 deg', kind: 'angle', value: expect.closeTo(Math.PI / 6, 15) });
     // Free text is never read as a quantity.
     expect(Object.keys(fields).some((path) => path === 'title' || path === 'description')).toBe(false);
+    expect(variables.text).toBe(doc.variables);
     expect(variables.values).toEqual([{ line: 1, value: '0.014 m' }]);
     expect(variables.issues).toEqual([expect.objectContaining({ line: 2 })]);
     expect(structuredClone(reply)).toEqual(reply);
