@@ -1,11 +1,12 @@
 /**
  * The message protocol of the compute worker, as a pure function so that it can be tested
  * without a worker: a document as written goes in, the parsed SI document, the JSON-ready
- * results, the derivation entries and every located issue come out.
+ * results, the derivation entries, every located issue and how each written quantity reads come out.
  */
 import type { PlainSheetResult } from '../lib/kinematics';
 import type { DerivationEntry } from '../lib/sheet/derivation';
 import { evaluateSheet } from '../lib/sheet/evaluate';
+import { readDocument, type DocumentReadings } from '../lib/sheet/readings';
 import type { SheetIssue } from '../lib/sheet/schema';
 import type { SheetDocument } from '../lib/sheet/types';
 
@@ -29,9 +30,11 @@ export type ComputeReply =
       derivation?: DerivationEntry[];
       /** True when `result` has no grasp quality yet: a second reply with the same id brings the complete result. */
       graspQualityPending?: true;
+      /** How the document's quantity texts and variables read, for the editor's hints. */
+      readings: DocumentReadings;
       elapsedMs: number;
     }
-  | { type: 'computed'; id: number; ok: false; issues: SheetIssue[]; elapsedMs: number }
+  | { type: 'computed'; id: number; ok: false; issues: SheetIssue[]; readings: DocumentReadings; elapsedMs: number }
   | { type: 'refused'; message: string };
 
 function isComputeRequest(message: unknown): message is ComputeRequest {
@@ -44,15 +47,16 @@ function isComputeRequest(message: unknown): message is ComputeRequest {
 export function computeSheet(message: unknown, now: () => number = () => performance.now()): ComputeReply {
   if (!isComputeRequest(message)) return { type: 'refused', message: 'expected {type: "compute", id: integer, document}' };
   const started = now();
+  const readings = readDocument(message.document);
   if (message.derive === false) {
     const plain = evaluateSheet(message.document);
-    if (!plain.ok) return { type: 'computed', id: message.id, ok: false, issues: plain.error.issues, elapsedMs: now() - started };
-    return { type: 'computed', id: message.id, ok: true, document: plain.value.doc, result: plain.value.result, elapsedMs: now() - started };
+    if (!plain.ok) return { type: 'computed', id: message.id, ok: false, issues: plain.error.issues, readings, elapsedMs: now() - started };
+    return { type: 'computed', id: message.id, ok: true, document: plain.value.doc, result: plain.value.result, readings, elapsedMs: now() - started };
   }
   const evaluated = evaluateSheet(message.document, { derive: true });
-  if (!evaluated.ok) return { type: 'computed', id: message.id, ok: false, issues: evaluated.error.issues, elapsedMs: now() - started };
+  if (!evaluated.ok) return { type: 'computed', id: message.id, ok: false, issues: evaluated.error.issues, readings, elapsedMs: now() - started };
   const { doc, result, derivation } = evaluated.value;
-  return { type: 'computed', id: message.id, ok: true, document: doc, result, derivation, elapsedMs: now() - started };
+  return { type: 'computed', id: message.id, ok: true, document: doc, result, derivation, readings, elapsedMs: now() - started };
 }
 
 /** The replies to one message: `first` at once and, when the contacts were not seen before, `later` the complete one. */
@@ -70,21 +74,22 @@ export interface ComputeSteps {
 export function computeSheetInSteps(message: unknown, now: () => number = () => performance.now()): ComputeSteps {
   if (!isComputeRequest(message) || message.derive !== false) return { first: computeSheet(message, now) };
   const started = now();
+  const readings = readDocument(message.document);
   const evaluated = evaluateSheet(message.document, { graspQualityLater: true });
   const elapsedMs = now() - started;
-  if (!evaluated.ok) return { first: { type: 'computed', id: message.id, ok: false, issues: evaluated.error.issues, elapsedMs } };
+  if (!evaluated.ok) return { first: { type: 'computed', id: message.id, ok: false, issues: evaluated.error.issues, readings, elapsedMs } };
   const { id } = message;
   const { doc, result, graspQualityLater } = evaluated.value;
-  if (!graspQualityLater) return { first: { type: 'computed', id, ok: true, document: doc, result, elapsedMs } };
+  if (!graspQualityLater) return { first: { type: 'computed', id, ok: true, document: doc, result, readings, elapsedMs } };
   return {
-    first: { type: 'computed', id, ok: true, document: doc, result, graspQualityPending: true, elapsedMs },
+    first: { type: 'computed', id, ok: true, document: doc, result, graspQualityPending: true, readings, elapsedMs },
     later: () => {
       const laterStarted = now();
       const complete = graspQualityLater();
       const total = elapsedMs + now() - laterStarted;
       return complete.ok
-        ? { type: 'computed', id, ok: true, document: doc, result: complete.value, elapsedMs: total }
-        : { type: 'computed', id, ok: false, issues: complete.error.issues, elapsedMs: total };
+        ? { type: 'computed', id, ok: true, document: doc, result: complete.value, readings, elapsedMs: total }
+        : { type: 'computed', id, ok: false, issues: complete.error.issues, readings, elapsedMs: total };
     },
   };
 }

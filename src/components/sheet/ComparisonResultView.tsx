@@ -4,7 +4,7 @@ import { SeverityKey } from '../charts/WarningStrip';
 import { button } from './sheet-styles';
 import type { LogComparison } from '../../lib/logs/compare';
 import { SOLUTION_NAMES } from '../../lib/sheet/commanded';
-import { DEFAULT_COMMANDED } from '../../lib/sheet/schema';
+import { DEFAULT_COMMANDED } from '../../lib/sheet/sheet-constants';
 import { jointPlots, seriesBounds, slipPlot, warningBands, type ComparisonPlot } from '../../lib/view/comparison-plots';
 import { formatValue } from '../../lib/view/comparison-side-by-side';
 import { PALETTE, SEVERITY_COLOURS } from '../../lib/view/palette';

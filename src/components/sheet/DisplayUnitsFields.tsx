@@ -1,12 +1,12 @@
 import { useId } from 'react';
 import { DISPLAY_UNIT_CHOICES, type DisplayUnits } from '../../lib/sheet/display-units';
-import { useSheetEditing } from './editor-context';
+import { useSheetFields } from './editor-context';
 import { selectInput, smallLabel } from './sheet-styles';
 
 const PARTS = Object.keys(DISPLAY_UNIT_CHOICES) as (keyof DisplayUnits)[];
 
 function UnitChoice({ part }: { part: keyof DisplayUnits }) {
-  const { units, update, issues, readOnly } = useSheetEditing();
+  const { units, update, issues, readOnly } = useSheetFields();
   const id = useId();
   const choice = DISPLAY_UNIT_CHOICES[part];
   const issue = issues.get(`display.${part}`);

@@ -1,4 +1,4 @@
-import { useState } from 'react';
+import { lazy, Suspense, useState } from 'react';
 import { getAt, pathText, type DocumentPath } from '../../lib/sheet/document-path';
 import { createHandFromTemplate, HAND_TEMPLATES } from '../../lib/sheet/templates';
 import type { SheetDocument } from '../../lib/sheet/types';
@@ -6,8 +6,24 @@ import { useSheetEditing } from './editor-context';
 import ConfirmDialog from './ConfirmDialog';
 import { Choice, DirectionVector, PlainNumber, Quantity, QuantityVector, TextField } from './fields';
 import { GraspQualityFields } from './GraspQualityFields';
-import UrdfImportDialog from './UrdfImportDialog';
+import UrdfOpenButton from './UrdfOpenButton';
 import { button, selectInput } from './sheet-styles';
+
+// The URDF reader and its preview worker load when the import is first asked for.
+const UrdfImportDialog = lazy(() => import('./UrdfImportDialog'));
+
+function UrdfImport() {
+  const { readOnly } = useSheetEditing();
+  const [asked, setAsked] = useState(false);
+  const opener = <UrdfOpenButton disabled={readOnly} onOpen={() => setAsked(true)} />;
+  return asked ? (
+    <Suspense fallback={opener}>
+      <UrdfImportDialog openOnMount />
+    </Suspense>
+  ) : (
+    opener
+  );
+}
 
 const ROLES = ['base', 'pivot', 'roll', 'other'] as const;
 
@@ -210,7 +226,7 @@ export default function HandSection({ parsed }: { parsed: SheetDocument | null }
               </p>
               <p className="mt-2">The new hand stays an unsaved change until you save a revision; the last saved revision keeps the current one.</p>
             </ConfirmDialog>
-            <UrdfImportDialog />
+            <UrdfImport />
           </div>
         )}
       </div>

@@ -1,6 +1,6 @@
 import { useId, useState } from 'react';
 import { getAt, pathText, type DocumentPath } from '../../lib/sheet/document-path';
-import { ROTATION_METRIC_KEYS } from '../../lib/sheet/schema';
+import { ROTATION_METRIC_KEYS } from '../../lib/sheet/sheet-constants';
 import ConfirmDialog from './ConfirmDialog';
 import { useSheetEditing } from './editor-context';
 import { Choice, HIDDEN_LABELS, PlainNumber, Quantity } from './fields';

@@ -1,7 +1,7 @@
 import { useId } from 'react';
 import { getAt, pathText, setAt, type DocumentPath } from '../../lib/sheet/document-path';
-import { COMMANDED_SOLUTIONS, DEFAULT_COMMANDED } from '../../lib/sheet/schema';
-import type { QuantityKind } from '../../lib/sheet/units';
+import { COMMANDED_SOLUTIONS, DEFAULT_COMMANDED } from '../../lib/sheet/sheet-constants';
+import type { QuantityKind } from '../../lib/sheet/quantity-kinds';
 import { useSheetEditing } from './editor-context';
 import { selectInput } from './sheet-styles';
 import { OrientationFields } from './ObjectSection';
@@ -19,7 +19,7 @@ const ACCELERATION: DocumentPath = ['object', 'acceleration'];
 function OptionalVector({ path, label, kind, store, test }: {
   path: DocumentPath; label: string; kind: Exclude<QuantityKind, 'any'>; store: (next: unknown[]) => void; test?: string;
 }) {
-  const { document, issues, variables, units, readOnly } = useSheetEditing();
+  const { document, issues, readings, units, readOnly } = useSheetEditing();
   const vector = getAt(document, path);
   const components: unknown[] = Array.isArray(vector) ? vector : [];
   const whole = issues.get(pathText(path));
@@ -35,7 +35,7 @@ function OptionalVector({ path, label, kind, store, test }: {
             kind={kind}
             path={pathText([...path, index])}
             value={components[index]}
-            variables={variables}
+            reading={readings[pathText([...path, index])]}
             units={units}
             issue={issues.get(pathText([...path, index]))}
             disabled={readOnly}

@@ -1,7 +1,8 @@
-import { memo, useCallback, useEffect, useId, useLayoutEffect, useMemo, useRef, useState } from 'react';
+import { memo, useCallback, useEffect, useId, useLayoutEffect, useRef, useState } from 'react';
 import { DEFAULT_DISPLAY_UNITS, shownUnit, toShown, type DisplayUnits } from '../../lib/sheet/display-units';
 import { lengthNote, type PlausibleLengthKind } from '../../lib/sheet/plausibility';
-import { parseQuantity, QUANTITY_KINDS, type QuantityKind, type VariableScope } from '../../lib/sheet/units';
+import { QUANTITY_KINDS, type QuantityKind } from '../../lib/sheet/quantity-kinds';
+import type { FieldReading } from '../../lib/sheet/readings';
 import { fieldInput } from './sheet-styles';
 
 type Kind = Exclude<QuantityKind, 'any'>;
@@ -26,8 +27,9 @@ export interface QuantityFieldProps {
   onChange: (value: number | string | undefined) => void;
   /** Blank is allowed and means the default shown as placeholder. */
   optional?: { placeholder: string };
-  variables: VariableScope;
-  /** Issue the sheet reader found at this field (shown when the field itself reads fine). */
+  /** How the evaluation read this field's text (over the sheet's variables); shown while it is the text in the field. */
+  reading?: FieldReading;
+  /** Issue the sheet reader found at this field. */
   issue?: string;
   disabled?: boolean;
   /** Path of the field in the document, for tests and for locating issues. */
@@ -41,10 +43,12 @@ export interface QuantityFieldProps {
 /**
  * A quantity input: takes a number in SI, a value with a unit or an expression over the sheet's
  * variables; shows how it reads (prominently for a bare number, which is SI) in SI and in the
- * sheet's display unit, notes an implausible length, and flags a wrong dimension as it is typed.
+ * sheet's display unit, notes an implausible length, and flags a wrong dimension. A bare number
+ * reads here; text reads in the evaluation (the worker, or the server for the page as drawn), which
+ * answers within the keystroke, so the page carries no expression reader.
  * No picker of its own: the sheet's one display-unit choice keeps a hand's tab stops to its fields.
  */
-function QuantityFieldView({ label, value, kind, onChange, variables, issue, disabled, path, optional, units = DEFAULT_DISPLAY_UNITS, plausible = 'hand' }: QuantityFieldProps) {
+function QuantityFieldView({ label, value, kind, onChange, reading, issue, disabled, path, optional, units = DEFAULT_DISPLAY_UNITS, plausible = 'hand' }: QuantityFieldProps) {
   const id = useId();
   const written = value === undefined || value === null ? '' : String(value);
   const [text, setText] = useState(written);
@@ -53,13 +57,16 @@ function QuantityFieldView({ label, value, kind, onChange, variables, issue, dis
     setText((current) => (String(storedValue(current)) === written ? current : written));
   }, [written]);
 
-  const read = useMemo(() => (text.trim() === '' ? null : parseQuantity(storedValue(text), kind, variables)), [text, kind, variables]);
   const blank = text.trim() === '';
-  const message = blank ? (optional ? issue : 'required') : read && !read.ok ? read.message : issue;
+  const stored = storedValue(text);
+  const bare = typeof stored === 'number';
+  const textReading = reading && reading.text === text && reading.kind === kind ? reading.value : null;
+  // The SI value the field reads as, or null while it does not read (the issue then says why).
+  const read = blank ? null : typeof stored === 'number' ? (Number.isFinite(stored) ? stored : null) : textReading;
+  const message = blank ? (optional ? issue : 'required') : issue;
   const si = QUANTITY_KINDS[kind].si === 's^-1' ? '1/s' : QUANTITY_KINDS[kind].si;
   const shown = shownUnit(si, units);
-  const bare = typeof storedValue(text) === 'number';
-  const note = read?.ok && kind === 'length' ? lengthNote(read.value, plausible, bare, units) : null;
+  const note = read !== null && kind === 'length' ? lengthNote(read, plausible, bare, units) : null;
 
   return (
     <div className="min-w-0" data-quantity={path}>
@@ -74,22 +81,22 @@ function QuantityFieldView({ label, value, kind, onChange, variables, issue, dis
         spellCheck={false}
         placeholder={optional?.placeholder}
         aria-invalid={message ? true : undefined}
-        aria-describedby={[read?.ok && `${id}-value`, message && `${id}-error`].filter(Boolean).join(' ') || undefined}
+        aria-describedby={[read !== null && `${id}-value`, message && `${id}-error`].filter(Boolean).join(' ') || undefined}
         onChange={(event) => {
           setText(event.target.value);
           onChange(optional && event.target.value.trim() === '' ? undefined : storedValue(event.target.value));
         }}
       />
-      {read?.ok && (
+      {read !== null && (
         // The reading stays beside a limit the sheet reader refuses (85 m for a roller), so the person sees how the value was read.
         <span id={`${id}-value`} className="mt-0.5 flex min-w-0 flex-wrap items-baseline gap-x-1 text-[11px] leading-tight text-graphite" data-reading={bare ? 'bare' : 'unit'}>
           {bare && <span className="font-semibold text-ink">reads as</span>}
           <span className={`num ${bare ? 'font-semibold text-ink' : ''}`} data-si>
-            {formatted(read.value)} {si}
+            {formatted(read)} {si}
           </span>
           {shown !== si && (
             <span className="num" data-shown>
-              = {formatted(toShown(read.value, si, units))} {shown}
+              = {formatted(toShown(read, si, units))} {shown}
             </span>
           )}
         </span>
@@ -111,7 +118,7 @@ function QuantityFieldView({ label, value, kind, onChange, variables, issue, dis
 /** Same field, same look: every prop but onChange (a fresh closure on each render of the caller), the optional placeholder by value. */
 function sameField(a: QuantityFieldProps, b: QuantityFieldProps): boolean {
   return (
-    a.label === b.label && a.value === b.value && a.kind === b.kind && a.variables === b.variables && a.issue === b.issue && a.disabled === b.disabled &&
+    a.label === b.label && a.value === b.value && a.kind === b.kind && a.reading === b.reading && a.issue === b.issue && a.disabled === b.disabled &&
     a.path === b.path && a.units === b.units && a.plausible === b.plausible && a.optional?.placeholder === b.optional?.placeholder
   );
 }

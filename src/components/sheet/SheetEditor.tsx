@@ -1,15 +1,15 @@
-import { lazy, memo, Suspense, useCallback, useDeferredValue, useEffect, useMemo, useState } from 'react';
+import { lazy, memo, Suspense, useCallback, useDeferredValue, useEffect, useLayoutEffect, useMemo, useRef, useState, type ReactNode } from 'react';
 import type { WarningCode } from '../../lib/kinematics';
 import { formatWhen } from '../../lib/client/api';
-import type { SheetLink, SheetPageData } from '../../lib/contract';
+import { parseKeepingNonFinite, type SheetLink, type SheetPageData } from '../../lib/contract';
 import { setAt, type DocumentPath } from '../../lib/sheet/document-path';
 import type { ExportSource } from '../../lib/sheet/run-export';
 import { keepGenerators, type WrittenGenerator } from '../../lib/sheet/matrix-edit';
 import { displayUnitsOf, type DisplayUnits } from '../../lib/sheet/display-units';
-import { parseVariables } from '../../lib/sheet/units';
+import type { DocumentReadings, FieldReading } from '../../lib/sheet/readings';
 import { describeWarning } from '../../lib/sheet/warning-notes';
 import DisplayUnitsFields from './DisplayUnitsFields';
-import { SheetEditingContext, type MarginWarning, type SheetEditing } from './editor-context';
+import { DocumentStoreContext, SheetEditingContext, SheetFieldsContext, type DocumentStore, type MarginWarning, type SheetEditing, type SheetFields } from './editor-context';
 import { TextField } from './fields';
 import HandSection from './HandSection';
 import MotionSection from './MotionSection';
@@ -22,6 +22,8 @@ import SavePanel from './SavePanel';
 import SceneView from './SceneView';
 import TitleBlock from './TitleBlock';
 import { useCompute, type ComputedSheet } from './useCompute';
+import { useIdle } from './useIdle';
+import type { ComputeReply } from '../../workers/compute-protocol';
 import WhenSeen from './WhenSeen';
 
 const RunPanel = lazy(() => import('./RunPanel'));
@@ -45,15 +47,22 @@ interface MatrixContext {
 }
 
 const SideViews = memo(function SideViews({ solved, units, matrix, source }: { solved: Solved | null; units: DisplayUnits; matrix: MatrixContext; source: ExportSource }) {
+  // The run, sweep and matrix panels (and their charts) load once the page is idle, after the sheet is usable.
+  const idle = useIdle();
+  const loading = <p className="text-sm text-graphite">Loading runs and sweeps…</p>;
   if (!solved) return <div className="h-80 border-2 border-ink bg-paper-deep" />;
   return (
     <>
       <SceneView document={solved.document} result={solved.result} />
-      <Suspense fallback={<p className="text-sm text-graphite">Loading runs and sweeps…</p>}>
-        <RunPanel document={solved.document} units={units} source={source} />
-        <SweepPanel document={solved.document} units={units} source={source} />
-        <MatrixPanel document={solved.document} {...matrix} />
-      </Suspense>
+      {idle ? (
+        <Suspense fallback={loading}>
+          <RunPanel document={solved.document} units={units} source={source} />
+          <SweepPanel document={solved.document} units={units} source={source} />
+          <MatrixPanel document={solved.document} {...matrix} />
+        </Suspense>
+      ) : (
+        loading
+      )}
     </>
   );
 });
@@ -97,12 +106,85 @@ function readDraft(sheetId: string): Draft | null {
 
 const same = (a: unknown, b: unknown) => JSON.stringify(a) === JSON.stringify(b);
 
-function Editor({ data }: { data: SheetPageData }) {
+const NO_VARIABLES: DocumentReadings['variables'] = { text: '', values: [], issues: [] };
+
+/**
+ * The field readings of the newest reply, keeping the previous reading object wherever it did not
+ * change (and the previous record when none did), so that only the fields whose reading changed re-render.
+ */
+function useStableReadings(next: Readonly<Record<string, FieldReading>> | undefined): Readonly<Record<string, FieldReading>> {
+  const previous = useRef<Readonly<Record<string, FieldReading>>>({});
+  return useMemo(() => {
+    const kept: Record<string, FieldReading> = {};
+    let changed = false;
+    for (const [path, reading] of Object.entries(next ?? {})) {
+      const before = previous.current[path];
+      const same = before && before.text === reading.text && before.kind === reading.kind && Object.is(before.value, reading.value);
+      kept[path] = same ? before : reading;
+      changed ||= !same;
+    }
+    if (!changed && Object.keys(kept).length === Object.keys(previous.current).length) return previous.current;
+    previous.current = kept;
+    return kept;
+  }, [next]);
+}
+
+/** The issues of the newest reply by path, the previous map while they are the same (fields re-render only when theirs change). */
+function useStableIssues(next: readonly { path: string; message: string }[]): ReadonlyMap<string, string> {
+  const previous = useRef<ReadonlyMap<string, string>>(new Map());
+  return useMemo(() => {
+    const issues = new Map(next.map((i) => [i.path, i.message]));
+    const same = issues.size === previous.current.size && [...issues].every(([path, message]) => previous.current.get(path) === message);
+    if (!same) previous.current = issues;
+    return previous.current;
+  }, [next]);
+}
+
+const NO_ISSUES: readonly { path: string; message: string }[] = [];
+
+/** The document as a store that fields subscribe to by path, so a keystroke re-renders only the fields whose value changed. */
+function useDocumentStore(document: Record<string, unknown>): DocumentStore {
+  const current = useRef(document);
+  current.current = document;
+  const [store] = useState(() => {
+    const listeners = new Set<() => void>();
+    return {
+      listeners,
+      get: () => current.current,
+      subscribe: (listener: () => void) => {
+        listeners.add(listener);
+        return () => listeners.delete(listener);
+      },
+    };
+  });
+  useLayoutEffect(() => {
+    for (const listener of store.listeners) listener();
+  }, [document, store]);
+  return store;
+}
+
+/** The editor's three contexts: sections read the whole document, fields their own value through the store. */
+function EditorContexts({ editing, fields, store, children }: { editing: SheetEditing; fields: SheetFields; store: DocumentStore; children: ReactNode }) {
+  return (
+    <SheetEditingContext.Provider value={editing}>
+      <SheetFieldsContext.Provider value={fields}>
+        <DocumentStoreContext.Provider value={store}>{children}</DocumentStoreContext.Provider>
+      </SheetFieldsContext.Provider>
+    </SheetEditingContext.Provider>
+  );
+}
+
+function Editor({ data, evaluation }: { data: SheetPageData; evaluation: string }) {
   const sheetId = data.sheet.id;
   const readOnly = !data.canEdit;
   const initial = data.revision.inputs as RawDocument;
   const [base, setBase] = useState({ revision: data.revision.number, document: initial });
   const [document, setDocument] = useState<RawDocument>(initial);
+  // The server's evaluation of the revision as drawn: results before any worker exists.
+  const [first] = useState(() => {
+    const reply = evaluation ? parseKeepingNonFinite<ComputeReply>(evaluation) : null;
+    return reply?.type === 'computed' ? { document: initial, reply } : undefined;
+  });
   const [restored, setRestored] = useState<string | null>(null);
   const [latestRevision, setLatestRevision] = useState(data.sheet.latestRevision);
 
@@ -133,7 +215,8 @@ function Editor({ data }: { data: SheetPageData }) {
   // The worker derives step by step only once the derivation section has been on screen.
   const [deriving, setDeriving] = useState(false);
   const startDeriving = useCallback(() => setDeriving(true), []);
-  const { reply, lastGood, pending } = useCompute(document, { derive: deriving });
+  const idle = useIdle();
+  const { reply, lastGood, pending } = useCompute(document, { derive: deriving, initial: first });
   const deferred = useDeferredValue(lastGood);
   // Run and sweep exports name the sheet, the revision the edits started from, and whether there are unsaved edits.
   const exportTitle = deferred?.document.title ?? data.sheet.title;
@@ -148,8 +231,9 @@ function Editor({ data }: { data: SheetPageData }) {
   }, [reply]);
 
   const variablesText = typeof document.variables === 'string' ? document.variables : '';
-  const variables = useMemo(() => parseVariables(variablesText), [variablesText]);
-  const issues = useMemo(() => new Map((reply && !reply.ok ? reply.issues : []).map((i) => [i.path, i.message])), [reply]);
+  const readings = useStableReadings(reply?.readings.fields);
+  const variableReadings = reply?.readings.variables ?? NO_VARIABLES;
+  const issues = useStableIssues(reply && !reply.ok ? reply.issues : NO_ISSUES);
   const displayChoice = document.display;
   const units = useMemo(() => displayUnitsOf({ display: displayChoice }), [displayChoice]);
   const matrixContext: MatrixContext = useMemo(
@@ -161,10 +245,9 @@ function Editor({ data }: { data: SheetPageData }) {
     }),
     [sheetId, data.sheet.title, base.revision, latestRevision, data.canEdit, data.forkedFrom, data.forks, readOnly],
   );
-  const editing: SheetEditing = useMemo(
-    () => ({ document, update, issues, variables: variables.values, units, readOnly }),
-    [document, update, issues, variables, units, readOnly],
-  );
+  const fields: SheetFields = useMemo(() => ({ update, issues, readings, units, readOnly }), [update, issues, readings, units, readOnly]);
+  const editing: SheetEditing = useMemo(() => ({ ...fields, document }), [fields, document]);
+  const store = useDocumentStore(document);
 
   const result = lastGood?.result ?? null;
   const margin = useMemo(() => {
@@ -177,7 +260,7 @@ function Editor({ data }: { data: SheetPageData }) {
   const fingerNames = useMemo(() => result?.fingers.map((f) => f.name) ?? [], [result]);
 
   return (
-    <SheetEditingContext.Provider value={editing}>
+    <EditorContexts editing={editing} fields={fields} store={store}>
       <div className="mx-auto max-w-[100rem] px-4 py-6">
         <TitleBlock
           sheetId={sheetId}
@@ -231,11 +314,11 @@ function Editor({ data }: { data: SheetPageData }) {
               <MotionSection />
             </PadSection>
             <PadSection id="variables" number={4} title="Variables">
-              {/* Also loaded once the first results show, so the editor is ready by the time anyone scrolls to it. */}
-              <WhenSeen early={lastGood !== null} fallback={<pre className="min-h-[7rem] border border-rule p-2 font-mono text-sm whitespace-pre-wrap">{variablesText}</pre>}>
+              {/* Also loaded once the page is idle, so the editor is ready by the time anyone scrolls to it. */}
+              <WhenSeen early={idle} fallback={<pre className="min-h-[7rem] border border-rule p-2 font-mono text-sm whitespace-pre-wrap">{variablesText}</pre>}>
                 <VariablesEditor
                   text={variablesText}
-                  reading={variables}
+                  reading={variableReadings}
                   readOnly={readOnly}
                   onChange={(text) => update(['variables'], text === '' ? undefined : text)}
                 />
@@ -261,7 +344,8 @@ function Editor({ data }: { data: SheetPageData }) {
               <ResultsSection result={result} units={units} stale={pending || (reply !== null && !reply.ok)} />
               {lastGood && (
                 <p className="mt-2 text-xs text-graphite">
-                  Solved in a background worker in <span className="num" data-compute-ms>{lastGood.elapsedMs.toFixed(1)}</span> ms.
+                  {/* The first results come with the page (id 0); every later one from the worker. */}
+                  Solved {lastGood.id === 0 ? 'on the server' : 'in a background worker'} in <span className="num" data-compute-ms>{lastGood.elapsedMs.toFixed(1)}</span> ms.
                 </p>
               )}
             </PadSection>
@@ -313,15 +397,15 @@ function Editor({ data }: { data: SheetPageData }) {
           </aside>
         </div>
       </div>
-    </SheetEditingContext.Provider>
+    </EditorContexts>
   );
 }
 
 /** The sheet editor island: the pad, live results from a worker, the 3D view, save and fork. */
-export default function SheetEditor({ data }: { data: SheetPageData }) {
+export default function SheetEditor({ data, evaluation = '' }: { data: SheetPageData; evaluation?: string }) {
   return (
     <QueryRoot>
-      <Editor data={data} />
+      <Editor data={data} evaluation={evaluation} />
     </QueryRoot>
   );
 }

@@ -1,5 +1,5 @@
 import { getAt } from '../../lib/sheet/document-path';
-import { DEFAULT_SOLVER } from '../../lib/sheet/schema';
+import { DEFAULT_SOLVER } from '../../lib/sheet/sheet-constants';
 import { useSheetEditing } from './editor-context';
 import { PlainNumber, Quantity, Toggle } from './fields';
 import { button } from './sheet-styles';

@@ -18,6 +18,7 @@ import { useSheetEditing } from './editor-context';
 import SceneView from './SceneView';
 import { button, fieldInput, primaryButton, selectInput, smallLabel } from './sheet-styles';
 import { useCompute } from './useCompute';
+import UrdfOpenButton from './UrdfOpenButton';
 
 const ROLES: readonly JointRole[] = ['base', 'pivot', 'roll', 'other'];
 
@@ -209,7 +210,8 @@ function draftsFor(robot: UrdfRobot, palm: string): Record<string, ChainDraft> {
  * per chain to a tip link), assign each joint's role, and see the hand solved in the 3D view before it replaces
  * the sheet's hand through the ordinary edit (so it is saved, or discarded, like any other change).
  */
-export default function UrdfImportDialog() {
+/** The URDF import dialog; `openOnMount` opens it as it loads (it loads when its button is first pressed). */
+export default function UrdfImportDialog({ openOnMount = false }: { openOnMount?: boolean }) {
   const { document, update, readOnly } = useSheetEditing();
   const dialog = useRef<HTMLDialogElement>(null);
   const [loaded, setLoaded] = useState<Loaded | null>(null);
@@ -218,6 +220,14 @@ export default function UrdfImportDialog() {
   // The preview's worker runs only while the dialog is open.
   const [open, setOpen] = useState(false);
   const [previewRefused, setPreviewRefused] = useState(false);
+  const show = () => {
+    dialog.current?.showModal();
+    setOpen(true);
+  };
+  useEffect(() => {
+    if (openOnMount) show();
+    // Only as it loads: later renders leave the dialog as the person left it.
+  }, []);
 
   async function read(file: File) {
     const text = await file.text();
@@ -248,19 +258,7 @@ export default function UrdfImportDialog() {
 
   return (
     <>
-      <button
-        type="button"
-        className={button}
-        disabled={readOnly}
-        onClick={() => {
-          dialog.current?.showModal();
-          setOpen(true);
-        }}
-        data-testid="urdf-open"
-        title="Read joint axes and origins from a robot description (URDF)"
-      >
-        Import from URDF
-      </button>
+      <UrdfOpenButton disabled={readOnly} onOpen={show} />
       <dialog
         ref={dialog}
         className="m-auto max-h-[calc(100vh-2rem)] w-[min(64rem,calc(100vw-2rem))] overflow-y-auto border-2 border-ink bg-paper p-0 text-ink shadow-[6px_6px_0_0_var(--color-ink)] backdrop:bg-ink/40"

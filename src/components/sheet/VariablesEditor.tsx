@@ -2,7 +2,7 @@ import { defaultKeymap, history, historyKeymap } from '@codemirror/commands';
 import { EditorState, RangeSetBuilder, StateEffect, StateField } from '@codemirror/state';
 import { Decoration, EditorView, keymap, lineNumbers, WidgetType, type DecorationSet } from '@codemirror/view';
 import { useEffect, useRef } from 'react';
-import { formatVariableValue, type ParsedVariables } from '../../lib/sheet/units';
+import type { VariableReadings } from '../../lib/sheet/readings';
 
 /** Text at the end of a line: the variable's SI value, or what is wrong with the line. */
 class LineNote extends WidgetType {
@@ -23,12 +23,12 @@ class LineNote extends WidgetType {
   }
 }
 
-const setReading = StateEffect.define<ParsedVariables>();
+const setReading = StateEffect.define<VariableReadings>();
 
-function decorationsFor(state: EditorState, reading: ParsedVariables): DecorationSet {
+function decorationsFor(state: EditorState, reading: VariableReadings): DecorationSet {
   const byLine = new Map<number, { error?: string; column?: number; value?: string }>();
   for (const issue of reading.issues) if (!byLine.has(issue.line)) byLine.set(issue.line, { error: issue.message, column: issue.column });
-  for (const [name, line] of reading.lines) byLine.set(line, { value: formatVariableValue(reading.values.get(name)!) });
+  for (const { line, value } of reading.values) byLine.set(line, { value });
   const builder = new RangeSetBuilder<Decoration>();
   for (let number = 1; number <= state.doc.lines; number++) {
     const note = byLine.get(number);
@@ -50,7 +50,8 @@ const readingField = StateField.define<DecorationSet>({
   create: () => Decoration.none,
   update(decorations, transaction) {
     for (const effect of transaction.effects) if (effect.is(setReading)) return decorationsFor(transaction.state, effect.value);
-    return decorations.map(transaction.changes);
+    // The notes of the text before an edit would be wrong beside the new text; the reading of the new text follows within the keystroke.
+    return transaction.docChanged ? Decoration.none : decorations;
   },
   provide: (field) => EditorView.decorations.from(field),
 });
@@ -66,7 +67,7 @@ const theme = EditorView.theme({
   '.cm-variable-error': { color: 'var(--color-sienna)', fontSize: '11px', fontFamily: 'var(--font-sans)' },
 });
 
-/** The variables text in a code editor; each line shows its value or, inline, what is wrong with it. */
+/** The variables text in a code editor; each line shows its value or, inline, what is wrong with it (as the evaluation read this text). */
 export default function VariablesEditor({
   text,
   reading,
@@ -74,7 +75,7 @@ export default function VariablesEditor({
   readOnly,
 }: {
   text: string;
-  reading: ParsedVariables;
+  reading: VariableReadings;
   onChange: (text: string) => void;
   readOnly: boolean;
 }) {
@@ -113,7 +114,7 @@ export default function VariablesEditor({
     if (!editor) return;
     const current = editor.state.doc.toString();
     const changes = current === text ? [] : [{ from: 0, to: current.length, insert: text }];
-    editor.dispatch({ changes, effects: setReading.of(reading) });
+    editor.dispatch({ changes, effects: reading.text === text ? setReading.of(reading) : [] });
   }, [text, reading]);
 
   return <div ref={host} />;

@@ -1,7 +1,7 @@
-import { useId } from 'react';
-import { getAt, pathText, type DocumentPath } from '../../lib/sheet/document-path';
-import type { QuantityKind } from '../../lib/sheet/units';
-import { useSheetEditing } from './editor-context';
+import { memo, useId } from 'react';
+import { pathText, type DocumentPath } from '../../lib/sheet/document-path';
+import type { QuantityKind } from '../../lib/sheet/quantity-kinds';
+import { useDocumentAt, useSheetFields } from './editor-context';
 import type { PlausibleLengthKind } from '../../lib/sheet/plausibility';
 import QuantityField, { storedValue } from './QuantityField';
 import { fieldInput, selectInput } from './sheet-styles';
@@ -13,25 +13,39 @@ function issueAt(issues: ReadonlyMap<string, string>, path: DocumentPath): strin
   return issues.get(pathText(path));
 }
 
+/**
+ * Same props, paths compared by their text (callers build path arrays afresh on each render): a field
+ * then re-renders only when its own value in the document, its issue or reading, or the units change.
+ */
+function samePropsByPath<P extends object>(a: P, b: P): boolean {
+  const keys = Object.keys(a) as (keyof P)[];
+  if (keys.length !== Object.keys(b).length) return false;
+  return keys.every((key) =>
+    key === 'path' ? pathText(a[key] as DocumentPath) === pathText(b[key] as DocumentPath) : Object.is(a[key], b[key]),
+  );
+}
+
 /** A quantity of the document at path. */
-export function Quantity({ path, label, kind, placeholder, plausible }: { path: DocumentPath; label: string; kind: Kind; placeholder?: string; plausible?: PlausibleLengthKind }) {
-  const { document, update, issues, variables, units, readOnly } = useSheetEditing();
+export const Quantity = memo(function Quantity({ path, label, kind, placeholder, plausible }: { path: DocumentPath; label: string; kind: Kind; placeholder?: string; plausible?: PlausibleLengthKind }) {
+  const { update, issues, readings, units, readOnly } = useSheetFields();
+  const value = useDocumentAt(path);
+  const at = pathText(path);
   return (
     <QuantityField
       label={label}
       kind={kind}
-      path={pathText(path)}
-      value={getAt(document, path)}
-      variables={variables}
+      path={at}
+      value={value}
+      reading={readings[at]}
       units={units}
       plausible={plausible}
       issue={issueAt(issues, path)}
       disabled={readOnly}
       optional={placeholder === undefined ? undefined : { placeholder }}
-      onChange={(value) => update(path, value)}
+      onChange={(next) => update(path, next)}
     />
   );
-}
+}, samePropsByPath);
 
 /**
  * The x, y, z (or w, x, y, z) heads over a vector's inputs. Each input is labelled in full
@@ -52,8 +66,8 @@ export function ComponentHeads({ parts }: { parts: readonly string[] }) {
 export const HIDDEN_LABELS = '[&_label]:sr-only';
 
 /** Three quantities [x, y, z] at path. */
-export function QuantityVector({ path, label, kind, plausible }: { path: DocumentPath; label: string; kind: Kind; plausible?: PlausibleLengthKind }) {
-  const { issues } = useSheetEditing();
+export const QuantityVector = memo(function QuantityVector({ path, label, kind, plausible }: { path: DocumentPath; label: string; kind: Kind; plausible?: PlausibleLengthKind }) {
+  const { issues } = useSheetFields();
   const whole = issueAt(issues, path);
   return (
     <fieldset className="min-w-0">
@@ -67,13 +81,13 @@ export function QuantityVector({ path, label, kind, plausible }: { path: Documen
       {whole && <span className="block text-[11px] text-sienna" role="alert">{whole}</span>}
     </fieldset>
   );
-}
+}, samePropsByPath);
 
 /** A unitless number at path (axis and quaternion components, ratios, counts). */
-export function PlainNumber({ path, label, integer }: { path: DocumentPath; label: string; integer?: boolean }) {
-  const { document, update, issues, readOnly } = useSheetEditing();
+export const PlainNumber = memo(function PlainNumber({ path, label, integer }: { path: DocumentPath; label: string; integer?: boolean }) {
+  const { update, issues, readOnly } = useSheetFields();
   const id = useId();
-  const value = getAt(document, path);
+  const value = useDocumentAt(path);
   const issue = issueAt(issues, path);
   return (
     <div className="min-w-0">
@@ -90,11 +104,11 @@ export function PlainNumber({ path, label, integer }: { path: DocumentPath; labe
       {issue && <span className="block text-[11px] leading-tight text-sienna" role="alert">{issue}</span>}
     </div>
   );
-}
+}, samePropsByPath);
 
 /** A direction [x, y, z] of plain numbers at path. */
-export function DirectionVector({ path, label }: { path: DocumentPath; label: string }) {
-  const { issues } = useSheetEditing();
+export const DirectionVector = memo(function DirectionVector({ path, label }: { path: DocumentPath; label: string }) {
+  const { issues } = useSheetFields();
   const whole = issueAt(issues, path);
   return (
     <fieldset className="min-w-0">
@@ -108,13 +122,14 @@ export function DirectionVector({ path, label }: { path: DocumentPath; label: st
       {whole && <span className="block text-[11px] text-sienna" role="alert">{whole}</span>}
     </fieldset>
   );
-}
+}, samePropsByPath);
 
 /** A text field at path. */
-export function TextField({ path, label }: { path: DocumentPath; label: string }) {
-  const { document, update, issues, readOnly } = useSheetEditing();
+export const TextField = memo(function TextField({ path, label }: { path: DocumentPath; label: string }) {
+  const { update, issues, readOnly } = useSheetFields();
   const id = useId();
   const issue = issueAt(issues, path);
+  const value = useDocumentAt(path);
   return (
     <div className="min-w-0">
       <label htmlFor={id} className="block text-[11px] uppercase tracking-wide text-graphite">{label}</label>
@@ -122,25 +137,25 @@ export function TextField({ path, label }: { path: DocumentPath; label: string }
         id={id}
         className={`${fieldInput} font-sans`}
         disabled={readOnly}
-        value={String(getAt(document, path) ?? '')}
+        value={String(value ?? '')}
         aria-invalid={issue ? true : undefined}
         onChange={(event) => update(path, event.target.value)}
       />
       {issue && <span className="block text-[11px] text-sienna" role="alert">{issue}</span>}
     </div>
   );
-}
+}, samePropsByPath);
 
 /**
  * A choice among fixed values at path. With `fallback`, an absent field shows the default it reads as, and choosing
  * that default leaves it absent, so a sheet that never chose stays as it was written.
  */
-export function Choice({ path, label, options, onChoose, fallback, test }: {
+export const Choice = memo(function Choice({ path, label, options, onChoose, fallback, test }: {
   path: DocumentPath; label: string; options: readonly string[]; onChoose?: (value: string) => void; fallback?: string; test?: string;
 }) {
-  const { document, update, readOnly } = useSheetEditing();
+  const { update, readOnly } = useSheetFields();
   const id = useId();
-  const current = getAt(document, path);
+  const current = useDocumentAt(path);
   const store = (value: string) => update(path, value === fallback && current === undefined ? undefined : value);
   return (
     <div>
@@ -159,16 +174,16 @@ export function Choice({ path, label, options, onChoose, fallback, test }: {
       </select>
     </div>
   );
-}
+}, samePropsByPath);
 
 /** A yes/no switch at path. */
-export function Toggle({ path, label, fallback }: { path: DocumentPath; label: string; fallback: boolean }) {
-  const { document, update, readOnly } = useSheetEditing();
-  const value = getAt(document, path);
+export const Toggle = memo(function Toggle({ path, label, fallback }: { path: DocumentPath; label: string; fallback: boolean }) {
+  const { update, readOnly } = useSheetFields();
+  const value = useDocumentAt(path);
   return (
     <label className="flex items-center gap-2 text-sm">
       <input type="checkbox" disabled={readOnly} checked={typeof value === 'boolean' ? value : fallback} onChange={(event) => update(path, event.target.checked)} />
       {label}
     </label>
   );
-}
+}, samePropsByPath);

@@ -1,5 +1,6 @@
 import { useEffect, useRef, useState } from 'react';
 import type { ComputeReply, ComputeRequest } from '../../workers/compute-protocol';
+import { afterNextPaint } from './useIdle';
 
 type Computed = Extract<ComputeReply, { type: 'computed' }>;
 /** A successful evaluation of the sheet editor's worker. */
@@ -18,6 +19,12 @@ interface ComputeOptions {
   extra?: Readonly<Record<string, unknown>>;
   /** Ask for the step-by-step derivation too (the sheet page asks once it is on screen). */
   derive?: boolean;
+  /**
+   * The reply for this document without the derivation, evaluated before the page was drawn (the sheet
+   * page's server render): shown at once, and the worker is started once the hydrated page has been
+   * painted (or at the first change), so it never delays the first results yet is warm for the first edit.
+   */
+  initial?: { document: unknown; reply: ComputedLike };
 }
 
 interface ComputeState<Reply extends ComputedLike> {
@@ -35,17 +42,22 @@ export function useCompute(document: unknown, options?: ComputeOptions): Compute
 export function useCompute<Reply extends ComputedLike>(document: unknown, options: ComputeOptions): ComputeState<Reply>;
 export function useCompute(
   document: unknown,
-  { create = createComputeWorker, extra, derive = true }: ComputeOptions = {},
+  { create = createComputeWorker, extra, derive = true, initial }: ComputeOptions = {},
 ): { reply: ComputedLike | null; lastGood: ComputedLike | null; pending: boolean } {
   const worker = useRef<Worker | null>(null);
   const latest = useRef(0);
   const busy = useRef(false);
   const waiting = useRef<ComputeRequest | null>(null);
-  const [reply, setReply] = useState<ComputedLike | null>(null);
-  const [lastGood, setLastGood] = useState<ComputedLike | null>(null);
-  const [pending, setPending] = useState(true);
+  const [reply, setReply] = useState<ComputedLike | null>(initial?.reply ?? null);
+  const [lastGood, setLastGood] = useState<ComputedLike | null>(initial?.reply.ok ? initial.reply : null);
+  const [pending, setPending] = useState(!initial);
+  // Set once the worker should exist: at once without a first reply, else after the first paint or when asked for more than the first reply.
+  const [wanted, setWanted] = useState(!initial);
+
+  useEffect(() => (wanted ? undefined : afterNextPaint(() => setWanted(true))), [wanted]);
 
   useEffect(() => {
+    if (!wanted) return;
     const created = create();
     busy.current = false;
     created.onmessage = (event: MessageEvent<ComputedLike | { type: 'refused' }>) => {
@@ -70,18 +82,24 @@ export function useCompute(
       created.postMessage(waiting.current);
       waiting.current = null;
     }
-    return () => created.terminate();
-  }, [create]);
+    return () => {
+      created.terminate();
+      worker.current = null;
+    };
+  }, [create, wanted]);
 
   useEffect(() => {
+    // The first reply already answers the document as drawn, as long as no derivation is asked for.
+    if (initial && document === initial.document && !derive && latest.current === 0) return;
     setPending(true);
+    setWanted(true);
     const request: ComputeRequest = { type: 'compute', id: ++latest.current, document, derive, ...extra };
     if (busy.current || !worker.current) waiting.current = request;
     else {
       busy.current = true;
       worker.current.postMessage(request);
     }
-  }, [document, derive, extra]);
+  }, [document, derive, extra, initial]);
 
   return { reply, lastGood, pending };
 }

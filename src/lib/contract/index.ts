@@ -11,3 +11,4 @@ export * from './log-uploads';
 export * from './log-comparisons';
 export * from './matrix';
 export * from './search';
+export * from './non-finite-json';

@@ -1,12 +1,13 @@
 import { and, desc, eq } from 'drizzle-orm';
 import type { Database } from '../../db';
 import { reviews, users } from '../../db/schema';
-import type { SheetPageData } from '../contract';
+import { stringifyKeepingNonFinite, type SheetPageData } from '../contract';
 import { fail, succeed, type Result } from '../result';
 import { can } from '../roles';
 import type { Identity } from './access';
 import { findSheet, getRevision, listForks } from './sheets';
 import { sheetQuery } from '../validation/sheet-exchange';
+import { computeSheet } from '../../workers/compute-protocol';
 
 
 type SheetRow = NonNullable<Awaited<ReturnType<typeof findSheet>>>;
@@ -58,4 +59,12 @@ export async function loadSheetPage(database: Database, identity: Identity, shee
         .sort((a, b) => Number(b.teamId === sheet.teamId) - Number(a.teamId === sheet.teamId))
         .map((m) => ({ teamId: m.teamId, name: m.name })),
   });
+}
+
+/**
+ * The sheet page's first evaluation, as the compute worker would answer it (without the derivation),
+ * as text for the editor island: results show as soon as the page is drawn, before any worker starts.
+ */
+export function evaluateForPage(inputs: unknown): string {
+  return stringifyKeepingNonFinite(computeSheet({ type: 'compute', id: 0, document: inputs, derive: false }));
 }

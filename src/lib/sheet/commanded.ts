@@ -5,7 +5,7 @@
  * so its commanded rate is that change over the step. A leaf module the browser may import.
  */
 import type { PlainSheetResult } from '../kinematics';
-import { commandedSolutionOf } from './schema';
+import { commandedSolutionOf } from './sheet-constants';
 import type { CommandedSolution, SheetDocument } from './types';
 
 /** A steered pivot: the angle it turns to, the change from its current angle (rad) and the rate that change needs over the time step (rad/s). */

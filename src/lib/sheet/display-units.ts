@@ -3,7 +3,6 @@
  * read by the results, the derivation, the comparison and the report. Inside the core and in every
  * export the numbers stay SI; only what a person reads follows this choice. A leaf module the browser may import.
  */
-import { unitFactor } from './units';
 
 export const LENGTH_UNITS = ['mm', 'm'] as const;
 export const ANGLE_UNITS = ['deg', 'rad'] as const;
@@ -60,8 +59,27 @@ export function shownUnit(siUnit: string, units: DisplayUnits, fallback = siUnit
   }
 }
 
-/** An SI value in the unit the choice shows it in (mathjs conversion); other units unchanged. */
+/**
+ * How many of each shown unit make one of its SI unit, for the pairs shownUnit can give. A table
+ * rather than mathjs, so pages that only show numbers load no expression reader; the unit tests
+ * hold every entry against mathjs' own conversion.
+ */
+export const DISPLAY_FACTORS: Readonly<Record<string, number>> = {
+  'm mm': 1000,
+  'm/s mm/s': 1000,
+  'rad deg': 180 / Math.PI,
+  'rad/s rpm': 60 / (2 * Math.PI),
+};
+
+/** How many `unit` make one `siUnit` (1 when they are the same); only for the pairs the display choice gives. */
+export function displayFactor(siUnit: string, unit: string): number {
+  if (unit === siUnit) return 1;
+  const factor = DISPLAY_FACTORS[`${siUnit} ${unit}`];
+  if (factor === undefined) throw new RangeError(`no display factor from ${siUnit} to ${unit}`);
+  return factor;
+}
+
+/** An SI value in the unit the choice shows it in; other units unchanged. */
 export function toShown(valueSI: number, siUnit: string, units: DisplayUnits): number {
-  const unit = shownUnit(siUnit, units);
-  return unit === siUnit ? valueSI : valueSI * unitFactor(siUnit, unit);
+  return valueSI * displayFactor(siUnit, shownUnit(siUnit, units));
 }

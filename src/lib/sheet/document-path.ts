@@ -4,10 +4,19 @@
  * The editor never mutates a document: every change returns a copy sharing untouched branches.
  */
 import { scalarFirst } from './number-format';
-import { formatIssuePath } from './schema';
 
 export type DocumentPath = readonly (string | number)[];
 export type JsonValue = null | boolean | number | string | JsonValue[] | { [key: string]: JsonValue };
+
+/** Path of an input location as text: object keys joined by dots, array indices in brackets. */
+export function formatIssuePath(path: readonly PropertyKey[]): string {
+  let text = '';
+  for (const key of path) {
+    if (typeof key === 'number') text += `[${key}]`;
+    else text += text === '' ? String(key) : `.${String(key)}`;
+  }
+  return text === '' ? '(document)' : text;
+}
 
 /** The value at path, or undefined when the path does not resolve. */
 export function getAt(root: unknown, path: DocumentPath): unknown {

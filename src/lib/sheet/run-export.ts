@@ -9,7 +9,7 @@ import { SAFETY_CAUTION_TEXT, SAFETY_CSV_COMMENT } from '../safety';
 import { describeCommanded, sweptCommandedRates } from './commanded';
 import { csvTable } from './results-csv';
 import { RESULT_CONVENTIONS } from './results-json';
-import { commandedSolutionOf } from './schema';
+import { commandedSolutionOf } from './sheet-constants';
 import type { CommandedSolution, SheetDocument } from './types';
 import { siUnitAt } from '../view/sweep-inputs';
 

@@ -35,9 +35,10 @@ import {
   type VariableScope,
 } from './units';
 import { twistAboutContact, twistAboutOrigin } from './twist-entry';
+import { formatIssuePath } from './document-path';
+import { COMMANDED_SOLUTIONS, DEFAULT_COMMANDED, DEFAULT_RUN, DEFAULT_SOLVER, ROTATION_METRIC_KEYS, SHEET_FORMAT, SHEET_VERSION, commandedSolutionOf } from './sheet-constants';
 
-export const SHEET_FORMAT = 'slipless.sheet';
-export const SHEET_VERSION = 1;
+export { formatIssuePath, COMMANDED_SOLUTIONS, DEFAULT_COMMANDED, DEFAULT_RUN, DEFAULT_SOLVER, ROTATION_METRIC_KEYS, SHEET_FORMAT, SHEET_VERSION, commandedSolutionOf };
 
 /** Largest deviation of |q| from 1 accepted without `normalize: true`. */
 export const QUATERNION_NORM_TOLERANCE = 1e-6;
@@ -45,24 +46,6 @@ export const MAX_FINGERS = 8;
 export const MAX_JOINTS_PER_FINGER = 12;
 const MIN_AXIS_NORM = 1e-12;
 const MISSING = 'required field is missing';
-
-/** Which solution's joint rates are commanded; absent from a document means the first, what runs followed before the choice existed. */
-export const COMMANDED_SOLUTIONS = ['steer-and-roll', 'full'] as const satisfies readonly CommandedSolution[];
-export const DEFAULT_COMMANDED: CommandedSolution = 'steer-and-roll';
-
-/** The commanded solution of a parsed document, the default when it names none. */
-export function commandedSolutionOf(doc: Pick<SheetDocument, 'commanded'>): CommandedSolution {
-  return doc.commanded ?? DEFAULT_COMMANDED;
-}
-
-export const DEFAULT_SOLVER: SolverSettings = {
-  damping: 1e-4,
-  singularRatio: 1e-3,
-  axisDistance: 1e-3,
-  minTangentialSpeed: 1e-5,
-  contactTolerance: 2e-4,
-  softFinger: false,
-};
 
 /** Largest friction coefficient accepted: past 5 a contact holds by adhesion, not Coulomb friction. */
 export const MAX_FRICTION = 5;
@@ -75,15 +58,6 @@ export const MAX_CONE_EDGES = 32;
  */
 export const MAX_CONE_GENERATORS = 96;
 export const DEFAULT_GRASP_QUALITY: GraspQualitySettings = { coneEdges: DEFAULT_CONE_EDGES, torsionalFriction: 0 };
-
-export const DEFAULT_RUN: Omit<RunSettings, 'noise'> = {
-  gain: 2,
-  dt: 0.005,
-  maxTicks: 2000,
-  positionTolerance: 1e-4,
-  angleTolerance: 1e-3,
-  stopOnSingular: true,
-};
 
 /**
  * Error text for a field: "required" when it is absent, the given expectation for a wrong type;
@@ -598,7 +572,6 @@ named(sweepSchema, 'Sweep', 'Vary one numeric input (JSON pointer into the SI do
 /** Most targets of a matrix (listed and generated) and most start poses: targets times starts runs, each up to the run's tick limit. */
 export const MAX_MATRIX_TARGETS = 500;
 export const MAX_MATRIX_STARTS = 20;
-export const ROTATION_METRIC_KEYS = ['phi2', 'phi3', 'phi4', 'phi5', 'phi6'] as const;
 
 const groupLabel = z.string({ error: expect('expected a group label (text)') }).trim().min(1, { error: 'must not be empty' }).max(60);
 const matrixOrientation = z.union([quaternionSchema, axisAngleSchema]);
@@ -781,16 +754,6 @@ export type ParseSheetResult = { ok: true; doc: SheetDocument } | { ok: false; i
  * otherwise be answered with thousands of issues, each located in the text by a search.
  */
 export const MAX_SHEET_ISSUES = 50;
-
-/** Path of an input location as text: object keys joined by dots, array indices in brackets. */
-export function formatIssuePath(path: readonly PropertyKey[]): string {
-  let text = '';
-  for (const key of path) {
-    if (typeof key === 'number') text += `[${key}]`;
-    else text += text === '' ? String(key) : `.${String(key)}`;
-  }
-  return text === '' ? '(document)' : text;
-}
 
 function missingCount(issues: readonly z.core.$ZodIssue[]): number {
   return issues.filter((issue) => issue.message === MISSING || issue.code === 'unrecognized_keys').length;

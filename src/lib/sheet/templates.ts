@@ -5,7 +5,7 @@
  * centre). The palm lies in the plane z = 0 and the object sits centred above it on the z axis.
  */
 import { closestSurfacePoint, shapeFromInput, signedDistance, support, vec3, type ConvexShape } from '../kinematics';
-import { DEFAULT_RUN, DEFAULT_SOLVER, SHEET_FORMAT, SHEET_VERSION } from './schema';
+import { DEFAULT_RUN, DEFAULT_SOLVER, SHEET_FORMAT, SHEET_VERSION } from './sheet-constants';
 import type { FingerInput, JointInput, ObjectShape, SheetDocument, Vec3Tuple } from './types';
 
 const deg = Math.PI / 180;

@@ -12,6 +12,9 @@ import {
   type MathNode, type Unit,
 } from 'mathjs';
 import { BoundedCache } from './bounded-cache';
+import { QUANTITY_KINDS, type QuantityKind } from './quantity-kinds';
+
+export { QUANTITY_KINDS, type QuantityKind };
 
 /**
  * A private mathjs instance so that the extra units below never leak into other users of mathjs;
@@ -50,32 +53,10 @@ math.import(
   { override: true },
 );
 
-export type QuantityKind = 'length' | 'angle' | 'time' | 'speed' | 'angularSpeed' | 'acceleration' | 'angularAcceleration' | 'rate' | 'any';
-
 /** A quantity as written in a sheet document: a number in SI units or a string with a unit. */
 export type QuantityInput = number | string;
 
 export type QuantityResult = { ok: true; value: number } | { ok: false; message: string };
-
-interface KindInfo {
-  /** SI unit in which plain numbers are read and in which the core works. */
-  si: string;
-  /** Noun used in messages ("expected a length"). */
-  noun: string;
-  /** Example of a unit string for messages. */
-  example: string;
-}
-
-export const QUANTITY_KINDS: Record<Exclude<QuantityKind, 'any'>, KindInfo> = {
-  length: { si: 'm', noun: 'a length', example: '12 mm' },
-  angle: { si: 'rad', noun: 'an angle', example: '30 deg' },
-  time: { si: 's', noun: 'a time', example: '5 ms' },
-  speed: { si: 'm/s', noun: 'a speed', example: '20 mm/s' },
-  angularSpeed: { si: 'rad/s', noun: 'an angular speed', example: '0.5 rad/s' },
-  acceleration: { si: 'm/s^2', noun: 'an acceleration', example: '2 m/s^2' },
-  angularAcceleration: { si: 'rad/s^2', noun: 'an angular acceleration', example: '5 rad/s^2' },
-  rate: { si: 's^-1', noun: 'a rate', example: '2 /s' },
-};
 
 const referenceUnits = new Map<string, Unit>(
   Object.entries(QUANTITY_KINDS).map(([kind, info]) => [kind, math.unit(info.si)]),
@@ -566,4 +547,22 @@ export function unitFactor(from: string, to: string): number {
     factors.set(key, factor);
   }
   return factor;
+}
+
+/** A quantity written as text, read without a field's kind: the kind it has and its SI value, or why it does not read. */
+export type QuantityTextReading =
+  | { ok: true; kind: Exclude<QuantityKind, 'any'> | null; value: number }
+  | { ok: false; message: string };
+
+/**
+ * Reads a quantity text the way parseQuantity reads it for a field of its own kind (same expression,
+ * same SI unit per kind), so one reading serves whichever field holds the text; a plain-number
+ * result or another dimension has kind null (value in base SI units).
+ */
+export function readQuantityText(text: string, variables?: VariableScope): QuantityTextReading {
+  const evaluated = evaluateExpression(text, variables, undefined);
+  if (!evaluated.ok) return { ok: false, message: evaluated.message };
+  if (typeof evaluated.value === 'number') return { ok: true, kind: null, value: evaluated.value };
+  const kind = kindOfValue(evaluated.value);
+  return { ok: true, kind, value: kind ? evaluated.value.toNumber(QUANTITY_KINDS[kind].si) : evaluated.value.toSI().toNumber() };
 }

@@ -1,6 +1,5 @@
 /** Preparing columns for uPlot, which reads null as a gap but cannot place NaN, infinities or, on a log axis, values <= 0. */
-import { shownUnit, type DisplayUnits } from '../sheet/display-units';
-import { unitFactor } from '../sheet/units';
+import { displayFactor, shownUnit, type DisplayUnits } from '../sheet/display-units';
 
 /**
  * An SI column in the unit the sheet's display choice shows it in, with that unit for the axis
@@ -9,8 +8,8 @@ import { unitFactor } from '../sheet/units';
 export function shownColumn(values: Float64Array, siUnit: string, units: DisplayUnits): { values: Float64Array; unit: string } {
   const unit = shownUnit(siUnit, units);
   if (unit === siUnit) return { values, unit };
-  // The units a sheet shows are proportional to SI, so one factor (a mathjs conversion) serves the whole column.
-  const factor = unitFactor(siUnit, unit);
+  // The units a sheet shows are proportional to SI, so one factor serves the whole column.
+  const factor = displayFactor(siUnit, unit);
   return { values: values.map((v) => v * factor), unit };
 }
 

@@ -8,7 +8,7 @@ import {
 } from '../kinematics';
 import { describeCommanded, sweptCommandedRates } from '../sheet/commanded';
 import { followedSlip, runExportTable, sweepExportTable, type ExportTable } from '../sheet/run-export';
-import { commandedSolutionOf } from '../sheet/schema';
+import { commandedSolutionOf } from '../sheet/sheet-constants';
 import type { CommandedSolution, RunSettings, SheetDocument } from '../sheet/types';
 
 export interface JointSeries {

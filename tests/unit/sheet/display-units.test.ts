@@ -5,7 +5,7 @@ import { renderToStaticMarkup } from 'react-dom/server';
 import { describe, expect, it } from 'vitest';
 import DerivationSection from '../../../src/components/sheet/DerivationSection';
 import ResultsSection from '../../../src/components/sheet/ResultsSection';
-import { DEFAULT_DISPLAY_UNITS, displayUnitsOf, shownUnit, toShown, type DisplayUnits } from '../../../src/lib/sheet/display-units';
+import { DEFAULT_DISPLAY_UNITS, DISPLAY_FACTORS, displayFactor, displayUnitsOf, shownUnit, toShown, type DisplayUnits } from '../../../src/lib/sheet/display-units';
 import { evaluateSheet } from '../../../src/lib/sheet/evaluate';
 import { displayUnit, displayValue, findOutput, formatShownQuantity } from '../../../src/lib/sheet/outputs';
 import { parseSheet } from '../../../src/lib/sheet/schema';
@@ -36,6 +36,32 @@ describe('unitFactor (mathjs conversions)', () => {
 
   it('is 1 between a unit and itself', () => {
     expect(unitFactor('rad/s', 'rad/s')).toBe(1);
+  });
+});
+
+describe('display factors (a table, no mathjs on the page)', () => {
+  it('holds every pair the display choice can give, each agreeing with the mathjs package', () => {
+    // Reference: a default mathjs instance; it has no rpm, so rpm is written as the cycle per minute it is (ISO 80000-3).
+    const reference = (unit: string) => unit.replace('rpm', 'cycle/min');
+    const pairs = new Set<string>();
+    for (const length of ['mm', 'm'] as const)
+      for (const angle of ['deg', 'rad'] as const)
+        for (const angularSpeed of ['rad/s', 'rpm'] as const)
+          for (const si of ['m', 'm/s', 'rad', 'rad/s']) {
+            const shown = shownUnit(si, { length, angle, angularSpeed });
+            if (shown !== si) pairs.add(`${si} ${shown}`);
+          }
+    expect([...pairs].sort()).toEqual(Object.keys(DISPLAY_FACTORS).sort());
+    for (const pair of pairs) {
+      const [si, shown] = pair.split(' ') as [string, string];
+      expect(displayFactor(si, shown), pair).toBeNear(referenceUnit(1, si).toNumber(reference(shown)), { rel: 1e-15 });
+      expect(displayFactor(si, shown), pair).toBeNear(unitFactor(si, shown), { rel: 1e-15 });
+    }
+  });
+
+  it('is 1 for a unit shown as itself and refuses a pair the choice never gives', () => {
+    expect(displayFactor('m/s^2', 'm/s^2')).toBe(1);
+    expect(() => displayFactor('m', 'in')).toThrow(RangeError);
   });
 });
 

@@ -99,7 +99,7 @@ describe('evaluateSheet', () => {
   it('lets every caller report a thrown solve: worker, sheet service, file import and CSV export', () => {
     control.failure = new Error('no basis');
     const issue = { path: '(document)', message: 'the sheet could not be solved: no basis' };
-    expect(computeSheet({ type: 'compute', id: 4, document: sheet() }, () => 0)).toEqual({ type: 'computed', id: 4, ok: false, issues: [issue], elapsedMs: 0 });
+    expect(computeSheet({ type: 'compute', id: 4, document: sheet() }, () => 0)).toEqual({ type: 'computed', id: 4, ok: false, issues: [issue], readings: expect.any(Object), elapsedMs: 0 });
     expect(checkDocument(sheet())).toMatchObject({ ok: false, error: { kind: 'invalid', message: issue.message, path: 'document.(document)', issues: [issue] } });
     expect(readSheetFile(text)).toEqual({ ok: false, stage: 'document', issues: [{ ...issue, line: 1, column: 1 }] });
     expect(exportResultsCsv(sheet())).toEqual({ ok: false, issues: [issue] });

@@ -52,7 +52,40 @@ describe('computeSheet (the compute worker protocol)', () => {
         { path: 'variables', line: 2, column: expect.any(Number), message: expect.stringMatching(/^line 2: /) },
         { path: 'hand.fingers[1].roller.radius', message: 'expected a length, got 30 deg' },
       ],
+      readings: expect.any(Object),
     });
+  });
+
+  it('tells how each quantity text and variable reads, also when the sheet does not read', () => {
+    const doc = sheet();
+    doc.variables = 'rollerRadius = 14 mm\nbad = 2 +';
+    doc.hand.fingers[0].roller.radius = 'rollerRadius + 2 mm';
+    doc.hand.fingers[1].roller.radius = '30 deg';
+    const reply = computeSheet({ type: 'compute', id: 8, document: doc });
+    if (reply.type !== 'computed') throw new Error('expected a reply');
+    const { fields, variables } = reply.readings;
+    // 14 mm + 2 mm = 0.016 m (SI prefix milli = 1e-3, SI brochure 9th ed.); 30 deg = pi/6 rad (SI brochure Table 8).
+    expect(fields['hand.fingers[0].roller.radius']).toEqual({ text: 'rollerRadius + 2 mm', kind: 'length', value: expect.closeTo(0.016, 15) });
+    expect(fields['hand.fingers[1].roller.radius']).toEqual({ text: '30 deg', kind: 'angle', value: expect.closeTo(Math.PI / 6, 15) });
+    // Free text is never read as a quantity.
+    expect(Object.keys(fields).some((path) => path === 'title' || path === 'description')).toBe(false);
+    expect(variables.text).toBe(doc.variables);
+    expect(variables.values).toEqual([{ line: 1, value: '0.014 m' }]);
+    expect(variables.issues).toEqual([expect.objectContaining({ line: 2 })]);
+    expect(structuredClone(reply)).toEqual(reply);
+  });
+
+  it('reads each quantity text as the sheet reader does for its field (the SI value it solves with)', () => {
+    const reply = computeSheet({ type: 'compute', id: 9, document: sheet(), derive: false });
+    if (reply.type !== 'computed' || !reply.ok) throw new Error('expected results');
+    const written = Object.entries(reply.readings.fields);
+    const doc = reply.document as unknown as { object: { shape: { radius: number }; pose: { position: number[] } } };
+    // Reference: the parsed document the core solves (the sheet reader's parseQuantity per field kind).
+    expect(reply.readings.fields['object.shape.radius']).toEqual({ text: '26 mm', kind: 'length', value: doc.object.shape.radius });
+    expect(reply.readings.fields['object.pose.position[2]']).toEqual({ text: '90 mm', kind: 'length', value: doc.object.pose.position[2] });
+    // 30 deg/s = pi/6 rad/s (SI brochure Table 8).
+    expect(reply.readings.fields['object.twist.angular[2]']).toEqual({ text: '30 deg/s', kind: 'angularSpeed', value: expect.closeTo(Math.PI / 6, 15) });
+    for (const [, reading] of written) expect(Number.isFinite(reading.value)).toBe(true);
   });
 
   it('refuses messages that are not compute requests', () => {
