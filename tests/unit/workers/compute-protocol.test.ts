@@ -1,5 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
+import { readDocument } from '../../../src/lib/sheet/readings';
 import { computeSheet, computeSheetInSteps } from '../../../src/workers/compute-protocol';
 
 const sheet = () => JSON.parse(readFileSync(new URL('../../../content/sheets/line4-bearing-housing-quarter-turn.json', import.meta.url), 'utf8'));
@@ -133,7 +134,10 @@ describe('computeSheetInSteps (the grasp quality of new contacts in a second rep
     doc.hand.fingers[1].roller.radius = '30 deg';
     const steps = computeSheetInSteps({ type: 'compute', id: 15, document: doc, derive: false }, () => 0);
     expect(steps.later).toBeUndefined();
-    expect(steps.first).toEqual({ type: 'computed', id: 15, ok: false, elapsedMs: 0, issues: [{ path: 'hand.fingers[1].roller.radius', message: 'expected a length, got 30 deg' }] });
+    expect(steps.first).toEqual({
+      type: 'computed', id: 15, ok: false, elapsedMs: 0, readings: readDocument(doc),
+      issues: [{ path: 'hand.fingers[1].roller.radius', message: 'expected a length, got 30 deg' }],
+    });
     expect(computeSheetInSteps(null).first).toMatchObject({ type: 'refused' });
   });
 });
