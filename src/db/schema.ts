@@ -138,7 +138,11 @@ export const sheetRevisions = sqliteTable(
     reviewState: text('review_state', { enum: REVIEW_STATES }).notNull().default('draft'),
     createdAt: createdAt(),
   },
-  (r) => [uniqueIndex('sheet_revisions_number_idx').on(r.sheetId, r.number)],
+  (r) => [
+    uniqueIndex('sheet_revisions_number_idx').on(r.sheetId, r.number),
+    // The sheet list's "last checked revision" is a max over a sheet's checked revisions: without this it read every revision of every listed sheet.
+    index('sheet_revisions_review_idx').on(r.sheetId, r.reviewState, r.number),
+  ],
 );
 
 export const comments = sqliteTable('comments', {

@@ -1,0 +1,1 @@
+CREATE INDEX `sheet_revisions_review_idx` ON `sheet_revisions` (`sheet_id`,`review_state`,`number`);
