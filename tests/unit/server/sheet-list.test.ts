@@ -111,4 +111,14 @@ describe('listing a team\'s sheets', () => {
     expect(answer.items).toEqual([]);
     expect(answer.total).toBe(rows.length);
   });
+
+  it('gives the total on a page past the end and on an empty first page, where no row carries the count', async () => {
+    const database = await getDatabase();
+    const all = expected({ team, warnings: 'any' });
+    const past = await listSheets(database, { team, warnings: 'any', sort: 'title', page: all.length + 1, pageSize: 1 });
+    expect(past.items).toEqual([]);
+    expect(past.total).toBe(all.length);
+    const none = await listSheets(database, { team, warnings: 'any', sort: 'title', q: 'no sheet is called this', page: 1, pageSize: 5 });
+    expect(none).toMatchObject({ items: [], total: 0 });
+  });
 });
