@@ -381,8 +381,6 @@ const listQueries = preparedPerConnection((db: DrizzleDb, shape: string) => {
         authorName: users.name,
         updatedAt: sheets.updatedAt,
         summary: latest.summary,
-        // The count of every matching row, computed with the page (a window over the whole result, before LIMIT).
-        matching: sql<number>`count(*) over ()`.mapWith(Number),
       })
       .from(sheets)
       .leftJoin(latest, join)
@@ -408,8 +406,6 @@ export async function listSheets(database: Database, query: ListSheetsQuery): Pr
     limit: query.pageSize,
     offset: (query.page - 1) * query.pageSize,
   };
-  const rows = await page.all(values);
-  // A page past the end has no row to carry the count, so only then is it asked for on its own.
-  const matching = rows.length > 0 ? rows[0].matching : query.page > 1 ? (await total.all(values))[0].total : 0;
-  return { items: rows.map(({ matching: _, ...item }) => item), total: matching, page: query.page, pageSize: query.pageSize };
+  const [rows, [{ total: matching }]] = await Promise.all([page.all(values), total.all(values)]);
+  return { items: rows, total: matching, page: query.page, pageSize: query.pageSize };
 }
