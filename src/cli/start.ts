@@ -68,6 +68,10 @@ const metrics = appMetrics();
 const app: NodeHandler = (req, res) => handler(req, res, undefined, localsOf(req));
 const observed = observeRequests(withStaticFiles(app, resolve('dist/client')), { logger, metrics, metricsToken: process.env.METRICS_TOKEN?.trim() || null });
 const server = createServer(edgeListener(observed, edge));
+// An idle keep-alive connection stays open longer than a client or load balancer keeps its own (60 s is a usual
+// balancer idle timeout): when the server closes first, a request sent on the closing socket meets a reset.
+server.keepAliveTimeout = 65_000;
+server.headersTimeout = 66_000;
 let stopping = false;
 for (const signal of ['SIGTERM', 'SIGINT'] as const) {
   process.once(signal, () => {
