@@ -3,6 +3,7 @@ import { EditorState, RangeSetBuilder, StateEffect, StateField } from '@codemirr
 import { Decoration, EditorView, keymap, lineNumbers, WidgetType, type DecorationSet } from '@codemirror/view';
 import { useEffect, useRef } from 'react';
 import type { VariableReadings } from '../../lib/sheet/readings';
+import { TypedTextEcho } from '../../lib/view/typed-text-echo';
 
 /** Text at the end of a line: the variable's SI value, or what is wrong with the line. */
 class LineNote extends WidgetType {
@@ -83,6 +84,8 @@ export default function VariablesEditor({
   const view = useRef<EditorView | null>(null);
   const changed = useRef(onChange);
   changed.current = onChange;
+  const echo = useRef<TypedTextEcho | null>(null);
+  echo.current ??= new TypedTextEcho(text);
 
   useEffect(() => {
     const editor = new EditorView({
@@ -99,7 +102,10 @@ export default function VariablesEditor({
           EditorState.readOnly.of(readOnly),
           EditorView.contentAttributes.of({ 'aria-label': 'Variables, one name = value per line', 'data-variables-editor': '' }),
           EditorView.updateListener.of((update) => {
-            if (update.docChanged) changed.current(update.state.doc.toString());
+            if (!update.docChanged) return;
+            const typed = update.state.doc.toString();
+            echo.current!.send(typed);
+            changed.current(typed);
           }),
         ],
       }),
@@ -113,8 +119,12 @@ export default function VariablesEditor({
     const editor = view.current;
     if (!editor) return;
     const current = editor.state.doc.toString();
-    const changes = current === text ? [] : [{ from: 0, to: current.length, insert: text }];
-    editor.dispatch({ changes, effects: reading.text === text ? setReading.of(reading) : [] });
+    const fromElsewhere = echo.current!.replaces(text, current);
+    const shown = fromElsewhere ? text : current;
+    editor.dispatch({
+      changes: fromElsewhere ? [{ from: 0, to: current.length, insert: text }] : [],
+      effects: reading.text === shown ? setReading.of(reading) : [],
+    });
   }, [text, reading]);
 
   return <div ref={host} />;
