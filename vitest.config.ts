@@ -48,6 +48,8 @@ export default getViteConfig({
           fileParallelism: false,
           testTimeout: 60_000,
           hookTimeout: 120_000,
+          // A browser on a busy machine can take seconds to hydrate an island; vitest's default of 1 s made polls flaky, not stricter.
+          expect: { poll: { timeout: 15_000 } },
         },
       },
     ],

@@ -26,7 +26,8 @@ describe('a checker on a sheet', () => {
     const panel = page.locator('[data-review-panel]');
     await panel.scrollIntoViewIfNeeded();
     // The status is fetched by the island, so seeing it means the island is live.
-    await expect.poll(() => panel.locator('[data-review-status]').innerText()).toMatch(/Status: (draft|checked|returned for correction)/);
+    // The panel hydrates when the page is idle, which a busy machine can put off for many seconds.
+    await expect.poll(() => panel.locator('[data-review-status]').innerText(), { timeout: 30_000 }).toMatch(/Status: (draft|checked|returned for correction)/);
     await panel.getByLabel('about').selectOption('results');
     await panel.locator('textarea').fill('Roll rates checked against $\\dot\\theta = v_t / r$; within limits.');
     await panel.getByRole('button', { name: 'Add remark' }).click();

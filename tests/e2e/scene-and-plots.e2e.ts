@@ -106,14 +106,17 @@ describe('3D view, its SVG fallback, runs and sweeps on the sheet page', () => {
   it('draws the scene with WebGL into a canvas that is not blank', async () => {
     await openSheet(page, timedSheetId);
     const view = page.getByTestId('scene-view');
-    expect(await view.getAttribute('data-webgl')).toBe('true');
+    // The view learns whether WebGL works once its island has loaded the 3D code.
+    await expect.poll(() => view.getAttribute('data-webgl'), { timeout: 30_000 }).toBe('true');
     const canvas = view.getByTestId('scene-3d').locator('canvas');
     await canvas.waitFor();
-    await page.waitForTimeout(500);
-    const stats = await pixelStats(page, await canvas.screenshot());
-    // Object, three rollers, chains, arrows and the palm grid: a good share of inked pixels in many colours.
-    expect(stats.inked / stats.total).toBeGreaterThan(0.05);
-    expect(stats.colours).toBeGreaterThan(20);
+    // Object, three rollers, chains, arrows and the palm grid: a good share of inked pixels in many colours (a busy machine may take a few frames to draw it).
+    await expect
+      .poll(async () => {
+        const stats = await pixelStats(page, await canvas.screenshot());
+        return stats.inked / stats.total > 0.05 && stats.colours > 20 ? 'drawn' : `inked ${(stats.inked / stats.total).toFixed(3)}, ${stats.colours} colours`;
+      }, { timeout: 15_000, interval: 250 })
+      .toBe('drawn');
     expect(await view.getByTestId('scene-legend').innerText()).toMatch(/Contact normal[\s\S]*Object velocity[\s\S]*Roll direction/);
 
     // Dragging orbits the camera: the picture changes.
@@ -123,8 +126,7 @@ describe('3D view, its SVG fallback, runs and sweeps on the sheet page', () => {
     await page.mouse.down();
     await page.mouse.move(box.x + box.width / 2 + 120, box.y + box.height / 2 + 40, { steps: 8 });
     await page.mouse.up();
-    await page.waitForTimeout(200);
-    expect((await canvas.screenshot()).toString('base64')).not.toBe(before);
+    await expect.poll(async () => (await canvas.screenshot()).toString('base64'), { timeout: 10_000, interval: 200 }).not.toBe(before);
     await saveScreenshot(page, 'scene-3d');
     await page.screenshot({ path: 'test-results/screenshots/scene-3d-viewport.png' });
     await canvas.screenshot({ path: 'test-results/screenshots/scene-3d-canvas.png' });
