@@ -91,9 +91,7 @@ describe('sheet editor', () => {
     const gapAfter = await changedText(page, '0.contact.gap', gapBefore);
     // The roller centre stays put, so 4 mm more radius closes the gap by 4 mm.
     expect(Number(gapAfter) - Number(gapBefore)).toBeCloseTo(-4, 3);
-    await page.waitForTimeout(800);
-    const viewAfter = await sceneImage(page);
-    expect(viewAfter.toString('base64')).not.toBe(viewBefore.toString('base64'));
+    await expect.poll(async () => (await sceneImage(page)).toString('base64')).not.toBe(viewBefore.toString('base64'));
     await saveScreenshot(page, 'sheet-editor-radius-16mm');
     await saveSection(page, '#results', 'sheet-editor-results');
   });
