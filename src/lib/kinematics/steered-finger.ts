@@ -7,7 +7,7 @@
  */
 import type { SolverSettings } from '../sheet/types';
 import type { Contact } from './contact';
-import { columnPairSingularValues, jacobianSingularValues, largestEigenvalue3 } from './eigen3';
+import { columnPairSingularValues, jacobianSingularValues, largestGramEigenvalue } from './eigen3';
 import type { FullSolution } from './full-solution';
 import type { Finger } from './hand';
 import { dampedLeastSquares, type LinalgWorkspace } from './linalg';
@@ -129,7 +129,7 @@ export function solveSteeredFinger(
     const e2 = abx * abx + aby * aby + abz * abz + acx * acx + acy * acy + acz * acz + bcx * bcx + bcy * bcy + bcz * bcz;
     const det = j00 * bcx + j01 * bcy + j02 * bcz;
     const s = full.singularValues;
-    const largest = largestEigenvalue3(g00, g11, g22, g10, g20, g21);
+    const largest = largestGramEigenvalue(g00, g11, g22, g10, g20, g21, e2, det * det);
     const s1Squared = largest > 0 ? largest : 0;
     const sigma1 = Math.sqrt(s1Squared);
     let sigma2 = 0, sigma3 = 0;

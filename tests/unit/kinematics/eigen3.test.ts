@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { EigenvalueDecomposition, Matrix as MlMatrix, SingularValueDecomposition, determinant } from 'ml-matrix';
-import { columnPairSingularValues, jacobianSingularValues, largestEigenvalue3, symmetricEigen3Packed } from '../../../src/lib/kinematics/eigen3';
+import { columnPairSingularValues, jacobianSingularValues, largestEigenvalue3, largestGramEigenvalue, symmetricEigen3Packed } from '../../../src/lib/kinematics/eigen3';
 import { matrixFromRows } from '../../../src/lib/kinematics/linalg';
 import { createRandom, nextGaussian } from '../../../src/lib/kinematics/random';
 
@@ -67,6 +67,44 @@ describe('largestEigenvalue3', () => {
       const reference = Math.max(...new EigenvalueDecomposition(new MlMatrix([[a00, a01, a02], [a01, a11, a12], [a02, a12, a22]])).realEigenvalues);
       expect(Math.abs(largestEigenvalue3(a00, a11, a22, a01, a02, a12) - reference) / reference).toBeLessThan(tolerance);
     }
+  });
+});
+
+describe('largestGramEigenvalue', () => {
+  /** J J^T packed as [g00, g11, g22, g01, g02, g12], with the sums of squared 2 x 2 and 3 x 3 minors of J (Cauchy-Binet). */
+  function gramOf(rows: number[][]): { gram: number[]; minors: number; determinant: number } {
+    const j = new MlMatrix(rows);
+    const g = j.mmul(j.transpose());
+    const minors = g.get(0, 0) * g.get(1, 1) - g.get(0, 1) ** 2 + g.get(0, 0) * g.get(2, 2) - g.get(0, 2) ** 2 + g.get(1, 1) * g.get(2, 2) - g.get(1, 2) ** 2;
+    return { gram: [g.get(0, 0), g.get(1, 1), g.get(2, 2), g.get(0, 1), g.get(0, 2), g.get(1, 2)], minors, determinant: determinant(g) };
+  }
+  const largestOf = (gram: number[]) => {
+    const [a00, a11, a22, a01, a02, a12] = gram;
+    return Math.max(...new EigenvalueDecomposition(new MlMatrix([[a00, a01, a02], [a01, a11, a12], [a02, a12, a22]])).realEigenvalues);
+  };
+
+  it('matches ml-matrix EigenvalueDecomposition and the trigonometric closed form (Smith 1961) on seeded contact-like Jacobians', () => {
+    const random = createRandom(53);
+    // Column scales as in a finger: a long lever, a shorter one, and one from nearly nothing (a pivot through the contact) to comparable.
+    for (const [second, third] of [[0.2, 1e-9], [0.2, 0.05], [0.5, 0.3], [0.9, 0.6], [1, 1]]) {
+      for (let trial = 0; trial < 50; trial++) {
+        const scales = [1, second, third];
+        const rows = Array.from({ length: 3 }, () => scales.map((scale) => 0.08 * scale * nextGaussian(random)));
+        const { gram, minors, determinant: det } = gramOf(rows);
+        const [a00, a11, a22, a01, a02, a12] = gram;
+        const ours = largestGramEigenvalue(a00, a11, a22, a01, a02, a12, minors, det);
+        expect(Math.abs(ours - largestOf(gram)) / ours).toBeLessThan(1e-13);
+        expect(Math.abs(ours - largestEigenvalue3(a00, a11, a22, a01, a02, a12)) / ours).toBeLessThan(1e-13);
+      }
+    }
+  });
+
+  it('gives the exact largest eigenvalue of diagonal Gram matrices, with two or three equal ones handed to the closed form', () => {
+    // diag(9, 4, 0): minors 36, determinant 0; diag(4, 4, 1) and diag(2, 2, 2) have a repeated largest eigenvalue.
+    expect(largestGramEigenvalue(9, 4, 0, 0, 0, 0, 36, 0)).toBe(9);
+    expect(Math.abs(largestGramEigenvalue(4, 4, 1, 0, 0, 0, 24, 16) - 4) / 4).toBeLessThan(1e-8);
+    expect(Math.abs(largestGramEigenvalue(2, 2, 2, 0, 0, 0, 12, 8) - 2) / 2).toBeLessThan(1e-14);
+    expect(largestGramEigenvalue(0, 0, 0, 0, 0, 0, 0, 0)).toBe(0);
   });
 });
 
