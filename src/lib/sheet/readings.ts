@@ -41,7 +41,7 @@ function collect(value: unknown, pathText: string, scope: VariableScope, out: Re
   }
   if (value === null || typeof value !== 'object') return;
   if (Array.isArray(value)) value.forEach((item, index) => collect(item, appendPathKey(pathText, index), scope, out));
-  else for (const [key, item] of Object.entries(value)) if (pathText !== '' || !TEXT_FIELDS.has(key)) collect(item, appendPathKey(pathText, key), scope, out);
+  else for (const key of Object.keys(value)) if (pathText !== '' || !TEXT_FIELDS.has(key)) collect((value as Record<string, unknown>)[key], appendPathKey(pathText, key), scope, out);
 }
 
 /**

@@ -843,6 +843,12 @@ function convertContactTwist(doc: SheetDocument): SheetIssue | undefined {
  */
 let compiledSheetSchema: typeof sheetSchema | undefined;
 
+/** The generated reader of sheetSchema, made now if it was not yet (a tenth of a second or more): the compute worker makes it before its first edit arrives. */
+export function prepareSheetReader(): typeof sheetSchema {
+  compiledSheetSchema ??= z.compile(sheetSchema);
+  return compiledSheetSchema;
+}
+
 const missingMessage = (issue: z.core.$ZodRawIssue) => (issue.code === 'invalid_type' && issue.input === undefined ? MISSING : undefined);
 
 /**
@@ -857,8 +863,7 @@ export function parseSheet(input: unknown): ParseSheetResult {
   activeBudget = budget;
   let result;
   try {
-    compiledSheetSchema ??= z.compile(sheetSchema);
-    result = compiledSheetSchema.safeParse(input, { error: missingMessage });
+    result = prepareSheetReader().safeParse(input, { error: missingMessage });
     // A refused document was read twice, the generated reader's partial pass and then zod's own, on one budget; the
     // second reading is the full pass's answer as long as the budget never ran out, else it is read again on its own.
     if (!result.success && budget.remaining <= 0) {
