@@ -1,8 +1,11 @@
 /// <reference lib="webworker" />
 /** Solves sheets off the page's thread so that typing never waits for the computation. */
+import { prepareSheetReader } from '../lib/sheet/schema';
 import { computeSheetInSteps } from './compute-protocol';
 
 const scope = self as unknown as DedicatedWorkerGlobalScope;
+// The page starts this worker once it has painted, before the first edit: the sheet reader is made meanwhile, not on that edit.
+setTimeout(prepareSheetReader, 0);
 let pendingGraspQuality: ReturnType<typeof setTimeout> | undefined;
 scope.onmessage = (event: MessageEvent<unknown>) => {
   // A newer document makes the older one's grasp quality moot: the page keeps only the newest reply.

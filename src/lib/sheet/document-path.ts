@@ -11,11 +11,14 @@ export type JsonValue = null | boolean | number | string | JsonValue[] | { [key:
 /** Path of an input location as text: object keys joined by dots, array indices in brackets. */
 export function formatIssuePath(path: readonly PropertyKey[]): string {
   let text = '';
-  for (const key of path) {
-    if (typeof key === 'number') text += `[${key}]`;
-    else text += text === '' ? String(key) : `.${String(key)}`;
-  }
+  for (const key of path) text = appendPathKey(text, key);
   return text === '' ? '(document)' : text;
+}
+
+/** The text of a path one key longer than the path written `text` ('' for the document itself), as formatIssuePath writes it. */
+export function appendPathKey(text: string, key: PropertyKey): string {
+  if (typeof key === 'number') return `${text}[${key}]`;
+  return text === '' ? String(key) : `${text}.${String(key)}`;
 }
 
 /** The value at path, or undefined when the path does not resolve. */

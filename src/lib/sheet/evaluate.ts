@@ -110,7 +110,8 @@ function firstNonFinite(result: PlainSheetResult, value: unknown, path: (string 
     }
     return undefined;
   }
-  for (const name of Object.keys(value)) {
+  // for...in rather than Object.keys: no array of names per object (a plain result has no inherited enumerable keys).
+  for (const name in value) {
     path.push(name);
     const found = firstNonFinite(result, (value as Record<string, unknown>)[name], path, name);
     path.pop();

@@ -480,16 +480,27 @@ export function parseVariables(text: string, budget?: ExpressionBudget): ParsedV
   return { values, lines, issues };
 }
 
-/** Distinct variables texts remembered (each at most MAX_VARIABLES_TEXT characters with its values). */
+/** Distinct variables texts remembered (each at most MAX_VARIABLES_TEXT characters with its values), read on a budget and without. */
 const SHEET_VARIABLES_CACHE_SIZE = 64;
 const sheetVariables = new BoundedCache<string, { parsed: ParsedVariables; spent: number }>(SHEET_VARIABLES_CACHE_SIZE);
+const unbudgetedSheetVariables = new BoundedCache<string, ParsedVariables>(SHEET_VARIABLES_CACHE_SIZE);
 
 /**
- * A sheet's variables text read as parseVariables does on a sheet's new budget, once per distinct text: a sheet is read
- * again on every keystroke and every save, and its variables rarely change. The result is shared, so callers only read
- * it; its values are sealed, so quantities over them are evaluated once too. A budget already drawn on reads as usual.
+ * A sheet's variables text read as parseVariables does on a sheet's new budget (or, without one, on none: the editor's
+ * hints show every line however long the expressions are together), once per distinct text: a sheet is read again on
+ * every keystroke and every save, and its variables rarely change. The result is shared, so callers only read it; its
+ * values are sealed, so quantities over them are evaluated once too. A budget already drawn on reads as usual.
  */
-export function readSheetVariables(text: string, budget: ExpressionBudget): ParsedVariables {
+export function readSheetVariables(text: string, budget?: ExpressionBudget): ParsedVariables {
+  if (budget === undefined) {
+    let parsed = unbudgetedSheetVariables.get(text);
+    if (parsed === undefined) {
+      parsed = parseVariables(text);
+      sealedScopes.add(parsed.values);
+      unbudgetedSheetVariables.set(text, parsed);
+    }
+    return parsed;
+  }
   if (budget.remaining !== MAX_SHEET_OPERATIONS) return parseVariables(text, budget);
   const known = sheetVariables.get(text);
   if (known !== undefined) {
@@ -562,7 +573,21 @@ export type QuantityTextReading =
 export function readQuantityText(text: string, variables?: VariableScope): QuantityTextReading {
   const evaluated = evaluateExpression(text, variables, undefined);
   if (!evaluated.ok) return { ok: false, message: evaluated.message };
-  if (typeof evaluated.value === 'number') return { ok: true, kind: null, value: evaluated.value };
-  const kind = kindOfValue(evaluated.value);
-  return { ok: true, kind, value: kind ? evaluated.value.toNumber(QUANTITY_KINDS[kind].si) : evaluated.value.toSI().toNumber() };
+  // As in parseQuantity: an evaluation the expression cache keeps keeps its reading, since converting is the costly part.
+  const kept = !evaluated.usesVariables || (variables !== undefined && sealedScopes.has(variables));
+  let reading = kept ? textReadings.get(evaluated) : undefined;
+  if (reading === undefined) {
+    reading = readingOf(evaluated.value);
+    if (kept) textReadings.set(evaluated, reading);
+  }
+  return reading;
+}
+
+/** The readings of kept evaluations (see readQuantityText); each is handed to every caller, who only reads it. */
+const textReadings = new WeakMap<Evaluated, QuantityTextReading>();
+
+function readingOf(value: VariableValue): QuantityTextReading {
+  if (typeof value === 'number') return { ok: true, kind: null, value };
+  const kind = kindOfValue(value);
+  return { ok: true, kind, value: kind ? value.toNumber(QUANTITY_KINDS[kind].si) : value.toSI().toNumber() };
 }

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { BoundedCache } from '../../../src/lib/sheet/bounded-cache';
+import { createRandom, nextUniform } from '../../../src/lib/kinematics/random';
 
 // Least-recently-used eviction as textbooks define it (common practice; e.g. Tanenbaum, Modern Operating Systems, 4th ed., 3.4.6).
 describe('BoundedCache', () => {
@@ -24,4 +25,28 @@ describe('BoundedCache', () => {
     expect(cache.get('a')).toBe(10);
     expect(cache.get('b')).toBe(2);
   });
+
+  it('follows a list kept in recency order through a long seeded run of reads and writes', () => {
+    // The reference is the textbook's own model: a list ordered from least to most recently used, the front evicted.
+    const source = createRandom(15);
+    const random = () => nextUniform(source);
+    const cache = new BoundedCache<number, number>(5);
+    const recency: { key: number; value: number }[] = [];
+    for (let step = 0; step < 2000; step++) {
+      const key = Math.floor(random() * 9);
+      const at = recency.findIndex((entry) => entry.key === key);
+      if (random() < 0.5) {
+        const expected = at >= 0 ? recency.splice(at, 1)[0] : undefined;
+        if (expected) recency.push(expected);
+        expect(cache.get(key)).toBe(expected?.value);
+      } else {
+        if (at >= 0) recency.splice(at, 1);
+        else if (recency.length === 5) recency.shift();
+        recency.push({ key, value: step });
+        cache.set(key, step);
+      }
+      expect(cache.size).toBe(recency.length);
+    }
+  });
 });
+
