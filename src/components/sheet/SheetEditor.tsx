@@ -142,6 +142,15 @@ function useStableIssues(next: readonly { path: string; message: string }[]): Re
 
 const NO_ISSUES: readonly { path: string; message: string }[] = [];
 
+/** The variables' reading of the newest reply, the previous object while it reads the same: the variables editor then redraws only when its own lines read differently. */
+function useStableVariables(next: DocumentReadings['variables']): DocumentReadings['variables'] {
+  const previous = useRef(next);
+  return useMemo(() => {
+    if (JSON.stringify(previous.current) !== JSON.stringify(next)) previous.current = next;
+    return previous.current;
+  }, [next]);
+}
+
 /**
  * The editor's three contexts: what never changes with a keystroke, and two stores (the document, and
  * how the evaluation read it) that sections and fields subscribe to by path, so a keystroke or a
@@ -224,7 +233,7 @@ function Editor({ data, evaluation }: { data: SheetPageData; evaluation: string 
 
   const variablesText = typeof document.variables === 'string' ? document.variables : '';
   const readings = useStableReadings(reply?.readings.fields);
-  const variableReadings = reply?.readings.variables ?? NO_VARIABLES;
+  const variableReadings = useStableVariables(reply?.readings.variables ?? NO_VARIABLES);
   const issues = useStableIssues(reply && !reply.ok ? reply.issues : NO_ISSUES);
   const displayChoice = document.display;
   const units = useMemo(() => displayUnitsOf({ display: displayChoice }), [displayChoice]);
