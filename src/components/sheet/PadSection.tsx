@@ -18,8 +18,7 @@ export default function PadSection({
   children: ReactNode;
 }) {
   return (
-    // Off screen, a section is neither styled, laid out nor painted (content-visibility), so the long pad costs the first frame and each edit only what is in view.
-    <section id={id} aria-labelledby={`${id}-title`} className="grid gap-x-5 border-b border-rule py-5 [contain-intrinsic-size:auto_40rem] [content-visibility:auto] lg:grid-cols-[minmax(0,1fr)_13rem]">
+    <section id={id} aria-labelledby={`${id}-title`} className="grid gap-x-5 border-b border-rule py-5 lg:grid-cols-[minmax(0,1fr)_13rem]">
       <div className="min-w-0">
         <h2 id={`${id}-title`} className={`${sectionHeading} mb-3 flex items-baseline gap-3`}>
           <span className="num text-graphite">{number}.</span>
