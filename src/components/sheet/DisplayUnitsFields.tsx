@@ -1,15 +1,15 @@
 import { useId } from 'react';
 import { DISPLAY_UNIT_CHOICES, type DisplayUnits } from '../../lib/sheet/display-units';
-import { useSheetFields } from './editor-context';
+import { useIssueAt, useSheetFields } from './editor-context';
 import { selectInput, smallLabel } from './sheet-styles';
 
 const PARTS = Object.keys(DISPLAY_UNIT_CHOICES) as (keyof DisplayUnits)[];
 
 function UnitChoice({ part }: { part: keyof DisplayUnits }) {
-  const { units, update, issues, readOnly } = useSheetFields();
+  const { units, update, readOnly } = useSheetFields();
   const id = useId();
   const choice = DISPLAY_UNIT_CHOICES[part];
-  const issue = issues.get(`display.${part}`);
+  const issue = useIssueAt(['display', part]);
   return (
     <div>
       <label htmlFor={id} className={smallLabel}>{choice.label}</label>

@@ -1,8 +1,8 @@
-import { lazy, Suspense, useState } from 'react';
-import { getAt, pathText, type DocumentPath } from '../../lib/sheet/document-path';
+import { lazy, memo, Suspense, useState } from 'react';
+import { getAt, type DocumentPath } from '../../lib/sheet/document-path';
 import { createHandFromTemplate, HAND_TEMPLATES } from '../../lib/sheet/templates';
 import type { SheetDocument } from '../../lib/sheet/types';
-import { useSheetEditing } from './editor-context';
+import { useCurrentDocument, useDocumentAt, useDocumentSelect, useIssueAt, useSheetFields } from './editor-context';
 import ConfirmDialog from './ConfirmDialog';
 import { Choice, DirectionVector, PlainNumber, Quantity, QuantityVector, TextField } from './fields';
 import { GraspQualityFields } from './GraspQualityFields';
@@ -13,7 +13,7 @@ import { button, selectInput } from './sheet-styles';
 const UrdfImportDialog = lazy(() => import('./UrdfImportDialog'));
 
 function UrdfImport() {
-  const { readOnly } = useSheetEditing();
+  const { readOnly } = useSheetFields();
   const [asked, setAsked] = useState(false);
   const opener = <UrdfOpenButton disabled={readOnly} onOpen={() => setAsked(true)} />;
   return asked ? (
@@ -31,18 +31,25 @@ const AXES = ['x', 'y', 'z'] as const;
 
 /** The issue the sheet reader found with a whole vector (not with one of its parts). */
 function VectorIssue({ path }: { path: DocumentPath }) {
-  const { issues } = useSheetEditing();
-  const issue = issues.get(pathText(path));
+  const issue = useIssueAt(path);
   return issue ? <span className="block text-[11px] leading-tight text-sienna" role="alert">{issue}</span> : null;
 }
 
+/** The length of the list at path as written (0 when there is none). */
+function useListLength(path: DocumentPath): number {
+  return useDocumentSelect((document) => {
+    const list = getAt(document, path);
+    return Array.isArray(list) ? list.length : 0;
+  });
+}
+
 /** One joint as a row of the finger's table; every input keeps its full name for assistive technology and tests. */
-function JointRow({ finger, joint }: { finger: number; joint: number }) {
-  const { document, update, readOnly } = useSheetEditing();
+const JointRow = memo(function JointRow({ finger, joint }: { finger: number; joint: number }) {
+  const { update, readOnly } = useSheetFields();
   const base = ['hand', 'fingers', finger, 'joints', joint];
-  const name = String(getAt(document, [...base, 'name']) ?? '') || `joint ${joint + 1}`;
-  const limits = getAt(document, [...base, 'limits']);
-  const rateLimit = getAt(document, [...base, 'rateLimit']);
+  const name = String(useDocumentAt([...base, 'name']) ?? '') || `joint ${joint + 1}`;
+  const limits = useDocumentAt([...base, 'limits']);
+  const rateLimit = useDocumentAt([...base, 'rateLimit']);
   return (
     <tr className="border-b border-rule/60 align-top" data-joint={`${finger}.${joint}`}>
       <td className="py-1 pr-2">
@@ -108,7 +115,7 @@ function JointRow({ finger, joint }: { finger: number; joint: number }) {
       </td>
     </tr>
   );
-}
+});
 
 /** Column heads of the joint table; a vector's head names its x, y and z columns. */
 function JointHead() {
@@ -145,10 +152,12 @@ function JointHead() {
 const COMPACT_CELLS =
   '[&_label]:sr-only [&_input]:px-1 [&_input]:text-xs [&_button]:px-1 [&_select]:px-1 [&_select]:text-xs [&_td:not(:focus-within)_span:has(>[data-si])]:hidden';
 
-function RollerFields({ finger }: { finger: number }) {
-  const { document, update } = useSheetEditing();
+const RollerFields = memo(function RollerFields({ finger }: { finger: number }) {
+  const { update } = useSheetFields();
+  const current = useCurrentDocument();
   const base = ['hand', 'fingers', finger, 'roller'];
-  const roller = (getAt(document, base) ?? {}) as Record<string, unknown>;
+  const kind = useDocumentAt([...base, 'kind']);
+  const roller = () => (getAt(current(), base) ?? {}) as Record<string, unknown>;
   return (
     <div className="space-y-2 bg-paper-deep/40 p-2">
       <div className="grid grid-cols-[8rem_1fr_1fr] items-end gap-3">
@@ -160,28 +169,63 @@ function RollerFields({ finger }: { finger: number }) {
             update(
               base,
               kind === 'cylinder'
-                ? { kind, radius: roller.radius, center: roller.center, halfWidth: '6 mm', axis: [0, 0, 1] }
-                : { kind, radius: roller.radius, center: roller.center },
+                ? { kind, radius: roller().radius, center: roller().center, halfWidth: '6 mm', axis: [0, 0, 1] }
+                : { kind, radius: roller().radius, center: roller().center },
             )
           }
         />
         <Quantity path={[...base, 'radius']} label="roller radius" kind="length" plausible="roller" />
-        {roller.kind === 'cylinder' && <Quantity path={[...base, 'halfWidth']} label="half width" kind="length" plausible="roller" />}
+        {kind === 'cylinder' && <Quantity path={[...base, 'halfWidth']} label="half width" kind="length" plausible="roller" />}
       </div>
       <div className="grid gap-3 md:grid-cols-2">
         <QuantityVector path={[...base, 'center']} label="roller centre at home" kind="length" />
-        {roller.kind === 'cylinder' && <DirectionVector path={[...base, 'axis']} label="roller axis" />}
+        {kind === 'cylinder' && <DirectionVector path={[...base, 'axis']} label="roller axis" />}
       </div>
     </div>
   );
-}
+});
+
+/** One finger: its name, friction, roller and the table of its joints. */
+const FingerPanel = memo(function FingerPanel({ finger }: { finger: number }) {
+  const base = ['hand', 'fingers', finger];
+  const name = String(useDocumentAt([...base, 'name']) ?? '');
+  const joints = useListLength([...base, 'joints']);
+  const rollerKind = String(useDocumentAt([...base, 'roller', 'kind']) ?? '');
+  return (
+    <details open className="border border-rule bg-paper" data-finger={finger}>
+      <summary className="cursor-pointer px-3 py-2 text-sm font-semibold">
+        Finger {finger + 1}: {name}{' '}
+        <span className="font-normal text-graphite">
+          · {joints} joints · {rollerKind} roller
+        </span>
+      </summary>
+      <div className="space-y-2 px-3 pb-3">
+        <div className="grid w-[28rem] grid-cols-[3fr_2fr] gap-3">
+          <TextField path={[...base, 'name']} label="finger name" />
+          <PlainNumber path={[...base, 'friction']} label="friction coefficient (empty = 0.5)" />
+        </div>
+        <RollerFields finger={finger} />
+        <div className="overflow-x-auto">
+          <table className={`w-full min-w-[48rem] table-fixed text-sm ${COMPACT_CELLS}`} data-hand-table={finger} aria-label={`Joints of finger ${finger + 1}: ${name}`}>
+            <JointHead />
+            <tbody>
+              {Array.from({ length: joints }, (_, j) => (
+                <JointRow key={j} finger={finger} joint={j} />
+              ))}
+            </tbody>
+          </table>
+        </div>
+      </div>
+    </details>
+  );
+});
 
 /** Hand: from a template, or edited finger by finger in a compact table of its joints. */
-export default function HandSection({ parsed }: { parsed: SheetDocument | null }) {
-  const { document, update, readOnly } = useSheetEditing();
+function HandSection({ parsed }: { parsed: SheetDocument | null }) {
+  const { update, readOnly } = useSheetFields();
   const [template, setTemplate] = useState(HAND_TEMPLATES[0].id);
   const [confirming, setConfirming] = useState(false);
-  const fingers = (getAt(document, ['hand', 'fingers']) ?? []) as Record<string, unknown>[];
+  const fingers = useListLength(['hand', 'fingers']);
   const chosen = HAND_TEMPLATES.find((t) => t.id === template) ?? HAND_TEMPLATES[0];
   return (
     <div className="space-y-3">
@@ -221,7 +265,7 @@ export default function HandSection({ parsed }: { parsed: SheetDocument | null }
               }}
             >
               <p>
-                All {fingers.length} fingers of this hand, with their joints, rollers and limits, give way to the template {chosen.name} ({chosen.fingers.length} fingers),
+                All {fingers} fingers of this hand, with their joints, rollers and limits, give way to the template {chosen.name} ({chosen.fingers.length} fingers),
                 placed against the object.
               </p>
               <p className="mt-2">The new hand stays an unsaved change until you save a revision; the last saved revision keeps the current one.</p>
@@ -230,34 +274,12 @@ export default function HandSection({ parsed }: { parsed: SheetDocument | null }
           </div>
         )}
       </div>
-      {fingers.map((finger, i) => (
-        <details key={i} open className="border border-rule bg-paper" data-finger={i}>
-          <summary className="cursor-pointer px-3 py-2 text-sm font-semibold">
-            Finger {i + 1}: {String(finger.name ?? '')}{' '}
-            <span className="font-normal text-graphite">
-              · {Array.isArray(finger.joints) ? finger.joints.length : 0} joints · {String((finger.roller as { kind?: string } | undefined)?.kind ?? '')} roller
-            </span>
-          </summary>
-          <div className="space-y-2 px-3 pb-3">
-            <div className="grid w-[28rem] grid-cols-[3fr_2fr] gap-3">
-              <TextField path={['hand', 'fingers', i, 'name']} label="finger name" />
-              <PlainNumber path={['hand', 'fingers', i, 'friction']} label="friction coefficient (empty = 0.5)" />
-            </div>
-            <RollerFields finger={i} />
-            <div className="overflow-x-auto">
-              <table className={`w-full min-w-[48rem] table-fixed text-sm ${COMPACT_CELLS}`} data-hand-table={i} aria-label={`Joints of finger ${i + 1}: ${String(finger.name ?? '')}`}>
-                <JointHead />
-                <tbody>
-                  {(Array.isArray(finger.joints) ? finger.joints : []).map((_, j) => (
-                    <JointRow key={j} finger={i} joint={j} />
-                  ))}
-                </tbody>
-              </table>
-            </div>
-          </div>
-        </details>
+      {Array.from({ length: fingers }, (_, i) => (
+        <FingerPanel key={i} finger={i} />
       ))}
       <GraspQualityFields />
     </div>
   );
 }
+
+export default memo(HandSection);

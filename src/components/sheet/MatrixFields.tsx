@@ -1,8 +1,8 @@
-import { useId, useState } from 'react';
-import { getAt, pathText, type DocumentPath } from '../../lib/sheet/document-path';
+import { memo, useId, useState } from 'react';
+import { getAt, type DocumentPath } from '../../lib/sheet/document-path';
 import { ROTATION_METRIC_KEYS } from '../../lib/sheet/sheet-constants';
 import ConfirmDialog from './ConfirmDialog';
-import { useSheetEditing } from './editor-context';
+import { useCurrentDocument, useDocumentAt, useDocumentSelect, useIssueAt, useSheetFields } from './editor-context';
 import { Choice, HIDDEN_LABELS, PlainNumber, Quantity } from './fields';
 import { OrientationFields } from './ObjectSection';
 import { button, fieldInput, smallLabel } from './sheet-styles';
@@ -21,10 +21,10 @@ function listAt(document: unknown, path: DocumentPath): unknown[] {
 
 /** An optional label: clearing it removes the key, since the sheet reader refuses an empty label. */
 function OptionalText({ path, label }: { path: DocumentPath; label: string }) {
-  const { document, update, issues, readOnly } = useSheetEditing();
+  const { update, readOnly } = useSheetFields();
   const id = useId();
-  const issue = issues.get(pathText(path));
-  const value = getAt(document, path);
+  const issue = useIssueAt(path);
+  const value = useDocumentAt(path);
   return (
     <div className="min-w-0">
       <label htmlFor={id} className={smallLabel}>{label}</label>
@@ -43,37 +43,39 @@ function OptionalText({ path, label }: { path: DocumentPath; label: string }) {
 
 /** The issue the sheet reader gives for a whole list or entry (its fields show their own). */
 function WholeIssue({ path }: { path: DocumentPath }) {
-  const { issues } = useSheetEditing();
-  const issue = issues.get(pathText(path));
+  const issue = useIssueAt(path);
   return issue ? <p className="text-[11px] text-sienna" role="alert">{issue}</p> : null;
 }
 
 function RemoveButton({ list, index, what }: { list: DocumentPath; index: number; what: string }) {
-  const { document, update, readOnly } = useSheetEditing();
+  const { update, readOnly } = useSheetFields();
+  const current = useCurrentDocument();
   if (readOnly) return null;
   return (
-    <button type="button" className="px-1 text-sm text-sienna hover:underline" aria-label={`Remove ${what} ${index + 1}`} onClick={() => update(list, listAt(document, list).filter((_, i) => i !== index))}>
+    <button type="button" className="px-1 text-sm text-sienna hover:underline" aria-label={`Remove ${what} ${index + 1}`} onClick={() => update(list, listAt(current(), list).filter((_, i) => i !== index))}>
       remove
     </button>
   );
 }
 
 function AddButton({ list, entry, children }: { list: DocumentPath; entry: unknown; children: string }) {
-  const { document, update, readOnly } = useSheetEditing();
+  const { update, readOnly } = useSheetFields();
+  const current = useCurrentDocument();
   if (readOnly) return null;
   return (
-    <button type="button" className={button} onClick={() => update(list, [...listAt(document, list), entry])}>
+    <button type="button" className={button} onClick={() => update(list, [...listAt(current(), list), entry])}>
       {children}
     </button>
   );
 }
 
 /** One listed target: axis and angle in a row, or the four quaternion components when written so. */
-function TargetRow({ index }: { index: number }) {
-  const { document } = useSheetEditing();
+const TargetRow = memo(function TargetRow({ index }: { index: number }) {
   const at = [...TARGETS, index];
-  const orientation = getAt(document, [...at, 'orientation']);
-  const axisAngle = orientation !== null && typeof orientation === 'object' && 'axis' in orientation;
+  const axisAngle = useDocumentSelect((document) => {
+    const orientation = getAt(document, [...at, 'orientation']);
+    return orientation !== null && typeof orientation === 'object' && 'axis' in orientation;
+  });
   return (
     <tr className={`border-b border-rule align-top ${HIDDEN_LABELS}`} data-testid="matrix-target-row">
       <td className="num py-1 pr-2 text-xs">{index + 1}</td>
@@ -106,18 +108,20 @@ function TargetRow({ index }: { index: number }) {
       </td>
     </tr>
   );
-}
+});
 
 /** One generator: its kind, count, and the spread angle or the random seed. */
-function GeneratorRow({ index }: { index: number }) {
-  const { document, update } = useSheetEditing();
+const GeneratorRow = memo(function GeneratorRow({ index }: { index: number }) {
+  const { update } = useSheetFields();
+  const current = useCurrentDocument();
   const at = [...GENERATORS, index];
-  const kind = getAt(document, [...at, 'kind']);
-  const count = getAt(document, [...at, 'count']);
-  const group = getAt(document, [...at, 'group']);
+  const kind = useDocumentAt([...at, 'kind']);
   // Changing the kind keeps the count and group and starts the kind's own field afresh (spread angle or seed).
-  const choose = (next: string) =>
-    update(at, { kind: next, count, ...(next === 'spread-axes' ? { angle: getAt(document, [...at, 'angle']) ?? '60 deg' } : { seed: getAt(document, [...at, 'seed']) ?? 1 }), ...(group === undefined ? {} : { group }) });
+  const choose = (next: string) => {
+    const document = current();
+    const group = getAt(document, [...at, 'group']);
+    update(at, { kind: next, count: getAt(document, [...at, 'count']), ...(next === 'spread-axes' ? { angle: getAt(document, [...at, 'angle']) ?? '60 deg' } : { seed: getAt(document, [...at, 'seed']) ?? 1 }), ...(group === undefined ? {} : { group }) });
+  };
   return (
     <div className="grid grid-cols-[9rem_6rem_1fr_1fr_auto] items-start gap-2" data-testid="matrix-generator-row">
       <Choice path={[...at, 'kind']} label={`generator ${index + 1} kind`} options={GENERATOR_KINDS} onChoose={choose} />
@@ -132,16 +136,16 @@ function GeneratorRow({ index }: { index: number }) {
       </div>
     </div>
   );
-}
+});
 
 /**
  * The sheet's test matrix as written: listed targets, start poses, generators and the error metric.
  * Absent until asked for; an empty one reads as an issue at its targets until a target or generator is added.
  */
 export default function MatrixFields() {
-  const { document, update, readOnly, units } = useSheetEditing();
+  const { update, readOnly, units } = useSheetFields();
   const [confirming, setConfirming] = useState(false);
-  const matrix = getAt(document, MATRIX);
+  const matrix = useDocumentAt(MATRIX);
   if (matrix === undefined) {
     return (
       <div className="space-y-2" data-testid="matrix-fields">
@@ -154,9 +158,9 @@ export default function MatrixFields() {
       </div>
     );
   }
-  const targets = listAt(document, TARGETS);
-  const starts = listAt(document, STARTS);
-  const generators = listAt(document, GENERATORS);
+  const targets = listAt(matrix, ['targets']);
+  const starts = listAt(matrix, ['starts']);
+  const generators = listAt(matrix, ['generators']);
   const zeroAngle = `0 ${units.angle}`;
   return (
     <div className="space-y-4" data-testid="matrix-fields">

@@ -1,8 +1,8 @@
-import { useId } from 'react';
+import { memo, useId } from 'react';
 import { getAt, pathText, setAt, type DocumentPath } from '../../lib/sheet/document-path';
 import { COMMANDED_SOLUTIONS, DEFAULT_COMMANDED } from '../../lib/sheet/sheet-constants';
 import type { QuantityKind } from '../../lib/sheet/quantity-kinds';
-import { useSheetEditing } from './editor-context';
+import { useCurrentDocument, useDocumentAt, useIssueAt, useReadingAt, useSheetFields } from './editor-context';
 import { selectInput } from './sheet-styles';
 import { OrientationFields } from './ObjectSection';
 import { Choice, ComponentHeads, HIDDEN_LABELS, PlainNumber, Quantity, QuantityVector, Toggle } from './fields';
@@ -11,6 +11,7 @@ import QuantityField from './QuantityField';
 import SolverSettingsFields from './SolverSettingsFields';
 
 const ACCELERATION: DocumentPath = ['object', 'acceleration'];
+const OPTIONAL_ZERO = { placeholder: '0' };
 
 /**
  * Three optional quantities [x, y, z] at `path`, each blank one shown as 0; `store` gets the components
@@ -19,27 +20,21 @@ const ACCELERATION: DocumentPath = ['object', 'acceleration'];
 function OptionalVector({ path, label, kind, store, test }: {
   path: DocumentPath; label: string; kind: Exclude<QuantityKind, 'any'>; store: (next: unknown[]) => void; test?: string;
 }) {
-  const { document, issues, readings, units, readOnly } = useSheetEditing();
-  const vector = getAt(document, path);
+  const vector = useDocumentAt(path);
   const components: unknown[] = Array.isArray(vector) ? vector : [];
-  const whole = issues.get(pathText(path));
+  const whole = useIssueAt(path);
   return (
     <fieldset className="min-w-0" data-testid={test}>
       <legend className="text-[11px] font-semibold text-ink">{label}</legend>
       <ComponentHeads parts={['x', 'y', 'z']} />
       <div className={`grid grid-cols-3 gap-2 ${HIDDEN_LABELS}`}>
         {(['x', 'y', 'z'] as const).map((axis, index) => (
-          <QuantityField
+          <OptionalComponent
             key={axis}
+            path={[...path, index]}
             label={`${label} ${axis}`}
             kind={kind}
-            path={pathText([...path, index])}
             value={components[index]}
-            reading={readings[pathText([...path, index])]}
-            units={units}
-            issue={issues.get(pathText([...path, index]))}
-            disabled={readOnly}
-            optional={{ placeholder: '0' }}
             onChange={(value) => store([0, 1, 2].map((k) => (k === index ? value : components[k])))}
           />
         ))}
@@ -49,17 +44,42 @@ function OptionalVector({ path, label, kind, store, test }: {
   );
 }
 
+/** One component of an optional vector, with its own reading and issue. */
+function OptionalComponent({ path, label, kind, value, onChange }: {
+  path: DocumentPath; label: string; kind: Exclude<QuantityKind, 'any'>; value: unknown; onChange: (value: number | string | undefined) => void;
+}) {
+  const { units, readOnly } = useSheetFields();
+  const at = pathText(path);
+  const reading = useReadingAt(at);
+  const issue = useIssueAt(path);
+  return (
+    <QuantityField
+      label={label}
+      kind={kind}
+      path={at}
+      value={value}
+      reading={reading}
+      units={units}
+      issue={issue}
+      disabled={readOnly}
+      optional={OPTIONAL_ZERO}
+      onChange={onChange}
+    />
+  );
+}
+
 /**
  * One part of the object's optional acceleration: blank components are stored as 0, and a part
  * left all blank or zero is removed (and the acceleration once both parts are gone), so a sheet
  * without an acceleration stays as it was written.
  */
 function AccelerationVector({ part, label, kind }: { part: 'linear' | 'angular'; label: string; kind: Exclude<QuantityKind, 'any'> }) {
-  const { document, update } = useSheetEditing();
+  const { update } = useSheetFields();
+  const current = useCurrentDocument();
   const store = (next: unknown[]) => {
     // A zero vector means the same as none, so clearing or zeroing every component removes the part.
     const blank = next.every((x) => x === undefined || x === 0);
-    const rest = setAt(getAt(document, ACCELERATION) ?? {}, [part], blank ? undefined : next.map((x) => x ?? 0));
+    const rest = setAt(getAt(current(), ACCELERATION) ?? {}, [part], blank ? undefined : next.map((x) => x ?? 0));
     update(ACCELERATION, Object.keys(rest as object).length === 0 ? undefined : rest);
   };
   return <OptionalVector path={[...ACCELERATION, part]} label={label} kind={kind} store={store} />;
@@ -69,7 +89,7 @@ const TWIST: DocumentPath = ['object', 'twist'];
 
 /** The point the entered twist is about: blank components are 0, and all blank removes it (the object origin). */
 function TwistPoint({ frame }: { frame: string }) {
-  const { update } = useSheetEditing();
+  const { update } = useSheetFields();
   const path = [...TWIST, 'about'];
   return (
     <OptionalVector
@@ -88,12 +108,14 @@ const contactOption = (finger: string) => `the contact of ${finger}`;
 
 /** What the entered twist is about: the object origin, a point typed in, or a finger's contact, which the sheet finds before converting. */
 function TwistReference() {
-  const { document, issues, update, readOnly } = useSheetEditing();
+  const { update, readOnly } = useSheetFields();
   const id = useId();
   const path = [...TWIST, 'about'];
-  const issue = issues.get(pathText([...path, 'contact'])) ?? (Array.isArray(getAt(document, path)) ? undefined : issues.get(pathText(path)));
-  const about = getAt(document, path);
-  const fingers = getAt(document, ['hand', 'fingers']);
+  const about = useDocumentAt(path);
+  const contactIssue = useIssueAt([...path, 'contact']);
+  const wholeIssue = useIssueAt(path);
+  const issue = contactIssue ?? (Array.isArray(about) ? undefined : wholeIssue);
+  const fingers = useDocumentAt(['hand', 'fingers']);
   const names = (Array.isArray(fingers) ? fingers : []).map((f: unknown) => (f !== null && typeof f === 'object' ? (f as { name?: unknown }).name : undefined))
     .filter((n): n is string => typeof n === 'string' && n !== '');
   const contact = about !== null && typeof about === 'object' && !Array.isArray(about) ? (about as { contact?: unknown }).contact : undefined;
@@ -117,11 +139,10 @@ function TwistReference() {
 }
 
 /** Motion: the object's twist and acceleration, the target pose of a run and the run settings. */
-export default function MotionSection() {
+function MotionSection() {
   const run = ['motion', 'run'];
-  const { document } = useSheetEditing();
-  const frame = getAt(document, [...TWIST, 'frame']) === 'object' ? 'object' : 'palm';
-  const written = getAt(document, [...TWIST, 'about']);
+  const frame = useDocumentAt([...TWIST, 'frame']) === 'object' ? 'object' : 'palm';
+  const written = useDocumentAt([...TWIST, 'about']);
   const about = written !== undefined;
   const point = Array.isArray(written);
   return (
@@ -159,3 +180,5 @@ export default function MotionSection() {
     </div>
   );
 }
+
+export default memo(MotionSection);

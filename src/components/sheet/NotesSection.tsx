@@ -1,13 +1,14 @@
 import { useDeferredValue, useId, useMemo } from 'react';
 import { renderNotes } from '../../lib/sheet/notes';
-import { useSheetEditing } from './editor-context';
+import { useDocumentAt, useSheetFields } from './editor-context';
 import { fieldInput } from './sheet-styles';
 
 /** Notes in Markdown with math; the rendered page beside the text. */
 export default function NotesSection() {
-  const { document, update, readOnly } = useSheetEditing();
+  const { update, readOnly } = useSheetFields();
   const id = useId();
-  const text = typeof document.notes === 'string' ? document.notes : '';
+  const notes = useDocumentAt(['notes']);
+  const text = typeof notes === 'string' ? notes : '';
   const deferred = useDeferredValue(text);
   const html = useMemo(() => renderNotes(deferred), [deferred]);
   return (

@@ -1,6 +1,7 @@
+import { memo } from 'react';
+import { useDocumentSelect, useDocumentAt, useSheetFields } from './editor-context';
 import { getAt } from '../../lib/sheet/document-path';
-import { useSheetEditing } from './editor-context';
-import { Choice, ComponentHeads, DirectionVector, HIDDEN_LABELS, PlainNumber, Quantity, QuantityVector } from './fields';
+import { Choice, ComponentHeads, DirectionVector, HIDDEN_LABELS, PlainNumber, Quantity, QuantityVector, samePropsByPath } from './fields';
 import { selectInput } from './sheet-styles';
 
 const SHAPES = ['sphere', 'box', 'cylinder', 'capsule', 'ellipsoid'] as const;
@@ -21,10 +22,12 @@ export function defaultShape(kind: string): Record<string, unknown> {
 }
 
 /** The orientation of a pose, as a unit quaternion or an axis and angle, at path. */
-export function OrientationFields({ path }: { path: (string | number)[] }) {
-  const { document, update, readOnly } = useSheetEditing();
-  const orientation = getAt(document, path) as Record<string, unknown> | undefined;
-  const form = orientation && 'axis' in orientation ? 'axis-angle' : 'quaternion';
+export const OrientationFields = memo(function OrientationFields({ path }: { path: (string | number)[] }) {
+  const { update, readOnly } = useSheetFields();
+  const form = useDocumentSelect((document) => {
+    const orientation = getAt(document, path);
+    return orientation !== null && typeof orientation === 'object' && 'axis' in orientation ? 'axis-angle' : 'quaternion';
+  });
   return (
     <div className="space-y-2">
       <label className="flex items-center gap-2 text-[11px] uppercase tracking-wide text-graphite">
@@ -56,32 +59,34 @@ export function OrientationFields({ path }: { path: (string | number)[] }) {
       )}
     </div>
   );
-}
+}, samePropsByPath);
 
 /** Object: shape and dimensions, pose. */
-export default function ObjectSection() {
-  const { document, update } = useSheetEditing();
-  const shape = (getAt(document, ['object', 'shape']) ?? {}) as Record<string, unknown>;
+function ObjectSection() {
+  const { update } = useSheetFields();
+  const shapeKind = useDocumentAt(['object', 'shape', 'kind']);
   const at = (...rest: string[]) => ['object', 'shape', ...rest];
   return (
     <div className="space-y-4">
       <div className="grid grid-cols-[10rem_1fr] items-end gap-4">
         <Choice path={['object', 'shape', 'kind']} label="shape" options={SHAPES} onChoose={(kind) => update(['object', 'shape'], defaultShape(kind))} />
         <div className="grid grid-cols-3 gap-3">
-          {shape.kind === 'sphere' && <Quantity path={at('radius')} label="radius" kind="length" plausible="object" />}
-          {(shape.kind === 'cylinder' || shape.kind === 'capsule') && (
+          {shapeKind === 'sphere' && <Quantity path={at('radius')} label="radius" kind="length" plausible="object" />}
+          {(shapeKind === 'cylinder' || shapeKind === 'capsule') && (
             <>
               <Quantity path={at('radius')} label="radius" kind="length" plausible="object" />
               <Quantity path={at('halfLength')} label="half length" kind="length" plausible="object" />
             </>
           )}
-          {shape.kind === 'box' && <Quantity path={at('filletRadius')} label="fillet radius" kind="length" />}
+          {shapeKind === 'box' && <Quantity path={at('filletRadius')} label="fillet radius" kind="length" />}
         </div>
       </div>
-      {shape.kind === 'box' && <QuantityVector path={at('halfExtents')} label="half extents" kind="length" plausible="object" />}
-      {shape.kind === 'ellipsoid' && <QuantityVector path={at('semiAxes')} label="semi-axes" kind="length" plausible="object" />}
+      {shapeKind === 'box' && <QuantityVector path={at('halfExtents')} label="half extents" kind="length" plausible="object" />}
+      {shapeKind === 'ellipsoid' && <QuantityVector path={at('semiAxes')} label="semi-axes" kind="length" plausible="object" />}
       <QuantityVector path={['object', 'pose', 'position']} label="position of the object origin (palm frame)" kind="length" />
       <OrientationFields path={['object', 'pose', 'orientation']} />
     </div>
   );
 }
+
+export default memo(ObjectSection);

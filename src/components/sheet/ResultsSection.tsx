@@ -6,7 +6,8 @@ import { displayNumber, displayUnit, displayValue, findOutput, formatShownNumber
 import { CurvatureTable } from './CurvatureTable';
 import { SafetyCaution } from './SafetyCaution';
 
-function Row({ label, value, unit, test }: { label: string; value: string; unit: string; test?: string }) {
+/** A row re-renders only when its text changes: most rows of the results keep their values across an edit. */
+const Row = memo(function Row({ label, value, unit, test }: { label: string; value: string; unit: string; test?: string }) {
   return (
     <tr className="border-b border-rule/60">
       <th scope="row" className="py-0.5 pr-3 text-left font-normal text-graphite">{label}</th>
@@ -14,7 +15,7 @@ function Row({ label, value, unit, test }: { label: string; value: string; unit:
       <td className="py-0.5 text-xs text-graphite">{unit}</td>
     </tr>
   );
-}
+});
 
 /** A catalogue output of finger `finger` (or of the grasp) as one row, in its display unit; `test` marks the cell for browser tests. */
 function OutputRow({ id, result, finger = -1, test = false, units }: { id: string; result: PlainSheetResult; finger?: number; test?: boolean; units: DisplayUnits }) {
@@ -53,11 +54,37 @@ const [fullRank, rankTolerance, driveSingularValues, driveRank, graspSingularVal
   'full.rank', 'full.rankTolerance', 'steer.driveSingularValues', 'driveRank', 'grasp.singularValues',
 ].map(findOutput);
 
+/** One joint's row of the joint table: its name and the cells' text; re-renders only when a text changes. */
+const JointValues = memo(
+  function JointValues({ name, finger, joint, cells }: { name: string; finger: number; joint: number; cells: readonly string[] }) {
+    return (
+      <tr className="border-b border-rule/60">
+        <td className="py-0.5">{name}</td>
+        {JOINT_COLUMNS.map((column, c) => (
+          <td key={column.id} className="num text-right" data-result={column.id === 'full.rates' || column.id === 'commanded.rates' ? `${finger}.${column.id}.${joint}` : undefined}>
+            {cells[c]}
+          </td>
+        ))}
+      </tr>
+    );
+  },
+  (a, b) => a.name === b.name && a.finger === b.finger && a.joint === b.joint && a.cells.every((cell, c) => cell === b.cells[c]),
+);
+
 /** One table per finger (its contact and its rates) and one for the grasp, labels, units and readers from the output catalogue; the full solution beside steer-and-roll. */
 function ResultsSection({ result, stale, units = DEFAULT_DISPLAY_UNITS }: { result: PlainSheetResult | null; stale: boolean; units?: DisplayUnits }) {
   if (!result) return <p className="text-sm text-graphite">No results until the sheet reads without errors.</p>;
+  // The tables follow the result alone: marking them stale while an edit computes re-renders only this wrapper.
   return (
     <div className={`space-y-5 transition-opacity ${stale ? 'opacity-60' : ''}`} aria-busy={stale}>
+      <ResultTables result={result} units={units} />
+    </div>
+  );
+}
+
+const ResultTables = memo(function ResultTables({ result, units }: { result: PlainSheetResult; units: DisplayUnits }) {
+  return (
+    <>
       {result.commanded && (
         <p className="border-l-4 border-ink pl-3 text-sm" data-testid="commanded-solution" data-solution={result.commanded.solution}>
           Commanded to the controller: <strong>{describeCommanded(result.commanded.solution, result.commanded.fingers)}</strong>; a steered pivot
@@ -121,14 +148,7 @@ function ResultsSection({ result, stale, units = DEFAULT_DISPLAY_UNITS }: { resu
                 </thead>
                 <tbody>
                   {f.jointNames.map((name, k) => (
-                    <tr key={name} className="border-b border-rule/60">
-                      <td className="py-0.5">{name}</td>
-                      {JOINT_COLUMNS.map((column) => (
-                        <td key={column.id} className="num text-right" data-result={column.id === 'full.rates' || column.id === 'commanded.rates' ? `${i}.${column.id}.${k}` : undefined}>
-                          {jointCell(column, result, i, k, units)}
-                        </td>
-                      ))}
-                    </tr>
+                    <JointValues key={name} name={name} finger={i} joint={k} cells={JOINT_COLUMNS.map((column) => jointCell(column, result, i, k, units))} />
                   ))}
                 </tbody>
               </table>
@@ -219,8 +239,8 @@ function ResultsSection({ result, stale, units = DEFAULT_DISPLAY_UNITS }: { resu
         )}
       </div>
       <SafetyCaution />
-    </div>
+    </>
   );
-}
+});
 
 export default memo(ResultsSection);

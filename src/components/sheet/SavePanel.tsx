@@ -92,8 +92,9 @@ export default function SavePanel(props: SavePanelProps) {
     },
   });
 
+  // Both lists show only in the conflict panel: no diff of the whole document on every keystroke otherwise.
   const theirChanges = theirs ? diffDocuments(baseDocument, theirs.inputs) : [];
-  const myChanges = diffDocuments(baseDocument, document);
+  const myChanges = theirs ? diffDocuments(baseDocument, document) : [];
 
   function reapply() {
     if (!theirs || conflict === null) return;

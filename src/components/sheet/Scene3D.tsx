@@ -28,13 +28,33 @@ function objectGeometry(shape: ObjectShape): THREE.BufferGeometry {
   }
 }
 
-function rollerGeometry(roller: ViewRoller): THREE.BufferGeometry {
-  if (roller.kind === 'sphere') return new THREE.SphereGeometry(roller.radius, 32, 20);
-  return new THREE.CylinderGeometry(roller.radius, roller.radius, 2 * roller.halfWidth, 40);
+/**
+ * Materials and unit geometries shared by every drawing of the scene: an edit only moves and scales
+ * objects, so three.js never compiles a shader program again (a fresh material whose predecessor
+ * was disposed made it compile and link anew on every keystroke, the largest cost of an edit).
+ */
+const SHARED = {
+  sphere: new THREE.SphereGeometry(1, 32, 20),
+  /** Axis along y, height 1, radius 1. */
+  cylinder: new THREE.CylinderGeometry(1, 1, 1, 40),
+  contact: new THREE.SphereGeometry(1, 16, 12),
+  shaft: new THREE.CylinderGeometry(1, 1, 1, 10),
+  cone: new THREE.ConeGeometry(1, 1, 16),
+  chain: new THREE.LineBasicMaterial({ color: SCENE_COLOURS.chain }),
+  plain: new Map<string, THREE.MeshBasicMaterial>(),
+};
+
+/** The one unlit material of a colour (arrows, contact points). */
+function plainMaterial(colour: string): THREE.MeshBasicMaterial {
+  let material = SHARED.plain.get(colour);
+  if (!material) SHARED.plain.set(colour, (material = new THREE.MeshBasicMaterial({ color: colour })));
+  return material;
 }
 
 function SceneObject({ model }: { model: SceneModel['object'] }) {
-  const geometry = useMemo(() => objectGeometry(model.shape), [model.shape]);
+  // Each model carries a fresh copy of the shape: keyed by its numbers, an edit elsewhere keeps the geometry and its edges.
+  const shapeKey = JSON.stringify(model.shape);
+  const geometry = useMemo(() => objectGeometry(JSON.parse(shapeKey) as ObjectShape), [shapeKey]);
   const edges = useMemo(() => new THREE.EdgesGeometry(geometry, 30), [geometry]);
   useEffect(() => () => (geometry.dispose(), edges.dispose()), [geometry, edges]);
   const [x, y, z, w] = model.orientation;
@@ -51,11 +71,11 @@ function SceneObject({ model }: { model: SceneModel['object'] }) {
 }
 
 function Roller({ roller }: { roller: ViewRoller }) {
-  const geometry = useMemo(() => rollerGeometry(roller), [roller.kind, roller.radius, roller.halfWidth]);
-  useEffect(() => () => geometry.dispose(), [geometry]);
   const orientation = useMemo(() => new THREE.Quaternion().setFromUnitVectors(new THREE.Vector3(0, 1, 0), vector(roller.axis).normalize()), [roller.axis]);
+  const sphere = roller.kind === 'sphere';
+  const scale: Vec3Tuple = sphere ? [roller.radius, roller.radius, roller.radius] : [roller.radius, 2 * roller.halfWidth, roller.radius];
   return (
-    <mesh geometry={geometry} position={roller.center} quaternion={orientation}>
+    <mesh geometry={sphere ? SHARED.sphere : SHARED.cylinder} position={roller.center} quaternion={orientation} scale={scale}>
       <meshStandardMaterial color={SCENE_COLOURS.roller} roughness={0.5} metalness={0.1} />
     </mesh>
   );
@@ -66,10 +86,12 @@ const Y_AXIS = new THREE.Vector3(0, 1, 0);
 /** A solid arrow (shaft and cone) from origin along the unit direction; thick enough to see at any zoom, unlike 1-pixel lines. */
 function arrowMesh(origin: THREE.Vector3, direction: THREE.Vector3, length: number, colour: string, shaftRadius: number): THREE.Group {
   const head = Math.min(0.35 * length, 6 * shaftRadius);
-  const material = new THREE.MeshBasicMaterial({ color: colour });
-  const shaft = new THREE.Mesh(new THREE.CylinderGeometry(shaftRadius, shaftRadius, length - head, 10), material);
+  const material = plainMaterial(colour);
+  const shaft = new THREE.Mesh(SHARED.shaft, material);
+  shaft.scale.set(shaftRadius, length - head, shaftRadius);
   shaft.position.y = (length - head) / 2;
-  const cone = new THREE.Mesh(new THREE.ConeGeometry(2.4 * shaftRadius, head, 16), material);
+  const cone = new THREE.Mesh(SHARED.cone, material);
+  cone.scale.set(2.4 * shaftRadius, head, 2.4 * shaftRadius);
   cone.position.y = length - head / 2;
   const arrow = new THREE.Group().add(shaft, cone);
   arrow.position.copy(origin);
@@ -77,14 +99,13 @@ function arrowMesh(origin: THREE.Vector3, direction: THREE.Vector3, length: numb
   return arrow;
 }
 
-/** Plain three.js objects (lines, arrows, helpers) for the parts R3F has no element for. */
+/** Finger chains and contact arrows as plain three.js objects (R3F has no element for lines); only the chains' small geometries are new per model. */
 function useLineObjects(model: SceneModel) {
   return useMemo(() => {
     const group = new THREE.Group();
     const size = model.bounds.radius;
-    const chainMaterial = new THREE.LineBasicMaterial({ color: SCENE_COLOURS.chain });
     for (const chain of model.chains) {
-      group.add(new THREE.Line(new THREE.BufferGeometry().setFromPoints(chain.map(vector)), chainMaterial));
+      group.add(new THREE.Line(new THREE.BufferGeometry().setFromPoints(chain.map(vector)), SHARED.chain));
     }
     const arrow = (origin: Vec3Tuple, direction: Vec3Tuple, length: number, colour: string) => {
       if (length > 0) group.add(arrowMesh(vector(origin), vector(direction).normalize(), length, colour, 0.012 * size));
@@ -95,11 +116,6 @@ function useLineObjects(model: SceneModel) {
       arrow(contact.point, contact.velocity, speed * model.arrows.lengthPerSpeed, SCENE_COLOURS.velocity);
       if (contact.rollDirection) arrow(contact.point, contact.rollDirection, 0.7 * model.arrows.unitLength, SCENE_COLOURS.roll);
     }
-    const palm = new THREE.GridHelper(4 * size, 20, PALETTE.rule, PALETTE.grid);
-    palm.rotateX(Math.PI / 2);
-    palm.position.set(model.bounds.center[0], model.bounds.center[1], 0);
-    group.add(palm);
-    group.add(new THREE.AxesHelper(0.4 * size));
     return group;
   }, [model]);
 }
@@ -109,14 +125,23 @@ function LinesAndArrows({ model }: { model: SceneModel }) {
   useEffect(
     () => () =>
       group.traverse((node) => {
-        if (node instanceof THREE.Line || node instanceof THREE.Mesh) {
-          node.geometry.dispose();
-          (node.material as THREE.Material).dispose();
-        }
+        if (node instanceof THREE.Line) node.geometry.dispose();
       }),
     [group],
   );
   return <primitive object={group} />;
+}
+
+/** The palm plane's grid and the palm axes, made once per view and placed and scaled to the scene's bounds. */
+function PalmGuides({ center, radius }: { center: Vec3Tuple; radius: number }) {
+  const [grid, axes] = useMemo(() => [new THREE.GridHelper(4, 20, PALETTE.rule, PALETTE.grid).rotateX(Math.PI / 2), new THREE.AxesHelper(0.4)], []);
+  useEffect(() => () => (grid.dispose(), axes.dispose()), [grid, axes]);
+  return (
+    <>
+      <primitive object={grid} position={[center[0], center[1], 0]} scale={radius} />
+      <primitive object={axes} scale={radius} />
+    </>
+  );
 }
 
 /** Orbit, pan and zoom around the scene centre; the camera is placed once per `viewKey` so updates keep the user's view. */
@@ -163,12 +188,10 @@ export default function Scene3D({ model, viewKey }: { model: SceneModel; viewKey
         <Roller key={i} roller={roller} />
       ))}
       {model.contacts.map((contact, i) => (
-        <mesh key={i} position={contact.point}>
-          <sphereGeometry args={[model.bounds.radius * 0.02, 16, 12]} />
-          <meshBasicMaterial color={SCENE_COLOURS.contact} />
-        </mesh>
+        <mesh key={i} position={contact.point} geometry={SHARED.contact} material={plainMaterial(SCENE_COLOURS.contact)} scale={model.bounds.radius * 0.02} />
       ))}
       <LinesAndArrows model={model} />
+      <PalmGuides center={model.bounds.center} radius={model.bounds.radius} />
     </Canvas>
   );
 }

@@ -5,6 +5,7 @@ import { SCENE_COLOURS } from '../../lib/view/palette';
 import { buildSceneModel, type SceneModel } from '../../lib/view/scene-model';
 import { secondaryButton } from '../form-parts';
 import SceneFallback from './SceneFallback';
+import { whenIdle } from './useIdle';
 
 /** three.js and React Three Fiber load only once the view is on screen, keeping them out of the page's first script. */
 const Scene3D = lazy(() => import('./Scene3D'));
@@ -86,7 +87,8 @@ export default function SceneView({ document, result }: { document: SheetDocumen
   const [viewKey, setViewKey] = useState(0);
   const boxRef = useRef<HTMLDivElement>(null);
 
-  useEffect(() => setWebgl(hasWebGL()), []);
+  // A WebGL context takes a good part of a second to create in a software renderer: probed once the page is idle, never before the first frame.
+  useEffect(() => whenIdle(() => setWebgl(hasWebGL())), []);
 
   useEffect(() => {
     const box = boxRef.current;

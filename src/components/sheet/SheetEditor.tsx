@@ -1,4 +1,4 @@
-import { lazy, memo, Suspense, useCallback, useDeferredValue, useEffect, useLayoutEffect, useMemo, useRef, useState, type ReactNode } from 'react';
+import { lazy, memo, Suspense, useCallback, useDeferredValue, useEffect, useMemo, useRef, useState, type ReactNode } from 'react';
 import type { WarningCode } from '../../lib/kinematics';
 import { formatWhen } from '../../lib/client/api';
 import { parseKeepingNonFinite, type SheetLink, type SheetPageData } from '../../lib/contract';
@@ -9,7 +9,7 @@ import { displayUnitsOf, type DisplayUnits } from '../../lib/sheet/display-units
 import type { DocumentReadings, FieldReading } from '../../lib/sheet/readings';
 import { describeWarning } from '../../lib/sheet/warning-notes';
 import DisplayUnitsFields from './DisplayUnitsFields';
-import { DocumentStoreContext, SheetEditingContext, SheetFieldsContext, type DocumentStore, type MarginWarning, type SheetEditing, type SheetFields } from './editor-context';
+import { DocumentStoreContext, SheetFieldsContext, SheetReadingContext, useStore, type DocumentStore, type MarginWarning, type SheetFields, type SheetReading, type Store } from './editor-context';
 import { TextField } from './fields';
 import HandSection from './HandSection';
 import MotionSection from './MotionSection';
@@ -22,7 +22,7 @@ import SavePanel from './SavePanel';
 import SceneView from './SceneView';
 import TitleBlock from './TitleBlock';
 import { useCompute, type ComputedSheet } from './useCompute';
-import { useIdle } from './useIdle';
+import { useIdle, whenIdle } from './useIdle';
 import type { ComputeReply } from '../../workers/compute-protocol';
 import WhenSeen from './WhenSeen';
 
@@ -142,35 +142,27 @@ function useStableIssues(next: readonly { path: string; message: string }[]): Re
 
 const NO_ISSUES: readonly { path: string; message: string }[] = [];
 
-/** The document as a store that fields subscribe to by path, so a keystroke re-renders only the fields whose value changed. */
-function useDocumentStore(document: Record<string, unknown>): DocumentStore {
-  const current = useRef(document);
-  current.current = document;
-  const [store] = useState(() => {
-    const listeners = new Set<() => void>();
-    return {
-      listeners,
-      get: () => current.current,
-      subscribe: (listener: () => void) => {
-        listeners.add(listener);
-        return () => listeners.delete(listener);
-      },
-    };
-  });
-  useLayoutEffect(() => {
-    for (const listener of store.listeners) listener();
-  }, [document, store]);
-  return store;
+/** The variables' reading of the newest reply, the previous object while it reads the same: the variables editor then redraws only when its own lines read differently. */
+function useStableVariables(next: DocumentReadings['variables']): DocumentReadings['variables'] {
+  const previous = useRef(next);
+  return useMemo(() => {
+    if (JSON.stringify(previous.current) !== JSON.stringify(next)) previous.current = next;
+    return previous.current;
+  }, [next]);
 }
 
-/** The editor's three contexts: sections read the whole document, fields their own value through the store. */
-function EditorContexts({ editing, fields, store, children }: { editing: SheetEditing; fields: SheetFields; store: DocumentStore; children: ReactNode }) {
+/**
+ * The editor's three contexts: what never changes with a keystroke, and two stores (the document, and
+ * how the evaluation read it) that sections and fields subscribe to by path, so a keystroke or a
+ * result re-renders only what shows a changed value, issue or reading.
+ */
+function EditorContexts({ fields, document, reading, children }: { fields: SheetFields; document: DocumentStore; reading: Store<SheetReading>; children: ReactNode }) {
   return (
-    <SheetEditingContext.Provider value={editing}>
-      <SheetFieldsContext.Provider value={fields}>
-        <DocumentStoreContext.Provider value={store}>{children}</DocumentStoreContext.Provider>
-      </SheetFieldsContext.Provider>
-    </SheetEditingContext.Provider>
+    <SheetFieldsContext.Provider value={fields}>
+      <DocumentStoreContext.Provider value={document}>
+        <SheetReadingContext.Provider value={reading}>{children}</SheetReadingContext.Provider>
+      </DocumentStoreContext.Provider>
+    </SheetFieldsContext.Provider>
   );
 }
 
@@ -198,13 +190,22 @@ function Editor({ data, evaluation }: { data: SheetPageData; evaluation: string 
     }
   }, [sheetId, readOnly]);
 
-  const dirty = !same(document, base.document);
+  const dirty = useMemo(() => !same(document, base.document), [document, base.document]);
   useEffect(() => {
     if (readOnly) return;
-    if (dirty) {
-      const draft: Draft = { baseRevision: base.revision, baseDocument: base.document, document, savedAt: new Date().toISOString() };
-      window.localStorage.setItem(draftKey(sheetId), JSON.stringify(draft));
-    } else window.localStorage.removeItem(draftKey(sheetId));
+    // Written once the page is idle, so a keystroke's own task stays short, and at once if the page is left before that.
+    const write = () => {
+      if (dirty) {
+        const draft: Draft = { baseRevision: base.revision, baseDocument: base.document, document, savedAt: new Date().toISOString() };
+        window.localStorage.setItem(draftKey(sheetId), JSON.stringify(draft));
+      } else window.localStorage.removeItem(draftKey(sheetId));
+    };
+    const cancel = whenIdle(write);
+    window.addEventListener('pagehide', write);
+    return () => {
+      cancel();
+      window.removeEventListener('pagehide', write);
+    };
   }, [document, base, dirty, sheetId, readOnly]);
 
   const update = useCallback((path: DocumentPath, value: unknown) => {
@@ -232,7 +233,7 @@ function Editor({ data, evaluation }: { data: SheetPageData; evaluation: string 
 
   const variablesText = typeof document.variables === 'string' ? document.variables : '';
   const readings = useStableReadings(reply?.readings.fields);
-  const variableReadings = reply?.readings.variables ?? NO_VARIABLES;
+  const variableReadings = useStableVariables(reply?.readings.variables ?? NO_VARIABLES);
   const issues = useStableIssues(reply && !reply.ok ? reply.issues : NO_ISSUES);
   const displayChoice = document.display;
   const units = useMemo(() => displayUnitsOf({ display: displayChoice }), [displayChoice]);
@@ -245,9 +246,10 @@ function Editor({ data, evaluation }: { data: SheetPageData; evaluation: string 
     }),
     [sheetId, data.sheet.title, base.revision, latestRevision, data.canEdit, data.forkedFrom, data.forks, readOnly],
   );
-  const fields: SheetFields = useMemo(() => ({ update, issues, readings, units, readOnly }), [update, issues, readings, units, readOnly]);
-  const editing: SheetEditing = useMemo(() => ({ ...fields, document }), [fields, document]);
-  const store = useDocumentStore(document);
+  const fields: SheetFields = useMemo(() => ({ update, units, readOnly }), [update, units, readOnly]);
+  const documentStore = useStore(document);
+  const readingStore = useStore(useMemo(() => ({ issues, readings }), [issues, readings]));
+  const changeVariables = useCallback((text: string) => update(['variables'], text === '' ? undefined : text), [update]);
 
   const result = lastGood?.result ?? null;
   const margin = useMemo(() => {
@@ -260,7 +262,7 @@ function Editor({ data, evaluation }: { data: SheetPageData; evaluation: string 
   const fingerNames = useMemo(() => result?.fingers.map((f) => f.name) ?? [], [result]);
 
   return (
-    <EditorContexts editing={editing} fields={fields} store={store}>
+    <EditorContexts fields={fields} document={documentStore} reading={readingStore}>
       <div className="mx-auto max-w-[100rem] px-4 py-6">
         <TitleBlock
           sheetId={sheetId}
@@ -320,7 +322,7 @@ function Editor({ data, evaluation }: { data: SheetPageData; evaluation: string 
                   text={variablesText}
                   reading={variableReadings}
                   readOnly={readOnly}
-                  onChange={(text) => update(['variables'], text === '' ? undefined : text)}
+                  onChange={changeVariables}
                 />
               </WhenSeen>
               <p className="mt-1 text-xs text-graphite">

@@ -1,6 +1,6 @@
 import { getAt } from '../../lib/sheet/document-path';
 import { DEFAULT_SOLVER } from '../../lib/sheet/sheet-constants';
-import { useSheetEditing } from './editor-context';
+import { useDocumentSelect, useSheetFields } from './editor-context';
 import { PlainNumber, Quantity, Toggle } from './fields';
 import { button } from './sheet-styles';
 
@@ -13,8 +13,8 @@ const NOISE = ['motion', 'run', 'noise'];
  * checked by the sheet reader, its problems shown at the field.
  */
 export default function SolverSettingsFields() {
-  const { document, update, readOnly } = useSheetEditing();
-  const noise = getAt(document, NOISE);
+  const { update, readOnly } = useSheetFields();
+  const noise = useDocumentSelect((document) => getAt(document, NOISE) !== undefined);
   return (
     <div className="space-y-3">
       <fieldset data-solver-settings>
@@ -32,7 +32,7 @@ export default function SolverSettingsFields() {
       </fieldset>
       <fieldset data-noise-settings>
         <legend className="text-[11px] font-semibold text-ink">run noise (measurement noise added to the object pose each step)</legend>
-        {noise === undefined ? (
+        {!noise ? (
           // Empty fields, required until filled: invented noise would change every run without anyone choosing it.
           <button type="button" className={`${button} text-xs`} disabled={readOnly} onClick={() => update(NOISE, {})}>
             Add run noise

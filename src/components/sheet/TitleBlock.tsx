@@ -1,3 +1,4 @@
+import { memo } from 'react';
 import { REVIEW_STATE_LABELS, type ReviewState, type SheetLink } from '../../lib/contract';
 import { SafetyCaution } from './SafetyCaution';
 import { revisionLabel } from '../../lib/view/revision';
@@ -30,7 +31,7 @@ function Cell({ label, children, wide, span3 }: { label: string; children: React
 }
 
 /** The drawing-office title block (after ISO 7200): what the sheet is, which revision, who made and checked it. */
-export default function TitleBlock(props: TitleBlockProps) {
+function TitleBlock(props: TitleBlockProps) {
   const { sheetId, revision, latestRevision } = props;
   const date = new Date(props.date);
   const checkedAt = props.checkedAt ? new Date(props.checkedAt) : null;
@@ -117,3 +118,5 @@ export default function TitleBlock(props: TitleBlockProps) {
     </header>
   );
 }
+
+export default memo(TitleBlock);

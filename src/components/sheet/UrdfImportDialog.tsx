@@ -14,7 +14,7 @@ import {
   type UrdfRobot,
 } from '../../lib/sheet/urdf';
 import { Excerpt } from '../sheets/ImportDialog';
-import { useSheetEditing } from './editor-context';
+import { useDocumentSelect, useSheetFields } from './editor-context';
 import SceneView from './SceneView';
 import { button, fieldInput, primaryButton, selectInput, smallLabel } from './sheet-styles';
 import { useCompute } from './useCompute';
@@ -212,7 +212,9 @@ function draftsFor(robot: UrdfRobot, palm: string): Record<string, ChainDraft> {
  */
 /** The URDF import dialog; `openOnMount` opens it as it loads (it loads when its button is first pressed). */
 export default function UrdfImportDialog({ openOnMount = false }: { openOnMount?: boolean }) {
-  const { document, update, readOnly } = useSheetEditing();
+  const { update, readOnly } = useSheetFields();
+  // The candidate hand goes into the whole document as it is now.
+  const document = useDocumentSelect((whole) => whole);
   const dialog = useRef<HTMLDialogElement>(null);
   const [loaded, setLoaded] = useState<Loaded | null>(null);
   const [palm, setPalm] = useState('');

@@ -1,23 +1,19 @@
 import { memo, useId } from 'react';
 import { pathText, type DocumentPath } from '../../lib/sheet/document-path';
 import type { QuantityKind } from '../../lib/sheet/quantity-kinds';
-import { useDocumentAt, useSheetFields } from './editor-context';
+import { useDocumentAt, useIssueAt, useReadingAt, useSheetFields } from './editor-context';
 import type { PlausibleLengthKind } from '../../lib/sheet/plausibility';
 import QuantityField, { storedValue } from './QuantityField';
 import { fieldInput, selectInput } from './sheet-styles';
 
 type Kind = Exclude<QuantityKind, 'any'>;
 
-/** Issue at the path or, for a vector, at the whole vector. */
-function issueAt(issues: ReadonlyMap<string, string>, path: DocumentPath): string | undefined {
-  return issues.get(pathText(path));
-}
-
 /**
  * Same props, paths compared by their text (callers build path arrays afresh on each render): a field
- * then re-renders only when its own value in the document, its issue or reading, or the units change.
+ * then re-renders only when its own value in the document, its issue or reading (each subscribed to by
+ * path), or the units change.
  */
-function samePropsByPath<P extends object>(a: P, b: P): boolean {
+export function samePropsByPath<P extends object>(a: P, b: P): boolean {
   const keys = Object.keys(a) as (keyof P)[];
   if (keys.length !== Object.keys(b).length) return false;
   return keys.every((key) =>
@@ -27,19 +23,21 @@ function samePropsByPath<P extends object>(a: P, b: P): boolean {
 
 /** A quantity of the document at path. */
 export const Quantity = memo(function Quantity({ path, label, kind, placeholder, plausible }: { path: DocumentPath; label: string; kind: Kind; placeholder?: string; plausible?: PlausibleLengthKind }) {
-  const { update, issues, readings, units, readOnly } = useSheetFields();
+  const { update, units, readOnly } = useSheetFields();
   const value = useDocumentAt(path);
   const at = pathText(path);
+  const reading = useReadingAt(at);
+  const issue = useIssueAt(path);
   return (
     <QuantityField
       label={label}
       kind={kind}
       path={at}
       value={value}
-      reading={readings[at]}
+      reading={reading}
       units={units}
       plausible={plausible}
-      issue={issueAt(issues, path)}
+      issue={issue}
       disabled={readOnly}
       optional={placeholder === undefined ? undefined : { placeholder }}
       onChange={(next) => update(path, next)}
@@ -67,8 +65,7 @@ export const HIDDEN_LABELS = '[&_label]:sr-only';
 
 /** Three quantities [x, y, z] at path. */
 export const QuantityVector = memo(function QuantityVector({ path, label, kind, plausible }: { path: DocumentPath; label: string; kind: Kind; plausible?: PlausibleLengthKind }) {
-  const { issues } = useSheetFields();
-  const whole = issueAt(issues, path);
+  const whole = useIssueAt(path);
   return (
     <fieldset className="min-w-0">
       <legend className="text-[11px] font-semibold text-ink">{label}</legend>
@@ -85,10 +82,10 @@ export const QuantityVector = memo(function QuantityVector({ path, label, kind, 
 
 /** A unitless number at path (axis and quaternion components, ratios, counts). */
 export const PlainNumber = memo(function PlainNumber({ path, label, integer }: { path: DocumentPath; label: string; integer?: boolean }) {
-  const { update, issues, readOnly } = useSheetFields();
+  const { update, readOnly } = useSheetFields();
   const id = useId();
   const value = useDocumentAt(path);
-  const issue = issueAt(issues, path);
+  const issue = useIssueAt(path);
   return (
     <div className="min-w-0">
       <label htmlFor={id} className="block text-[11px] uppercase tracking-wide text-graphite">{label}</label>
@@ -108,8 +105,7 @@ export const PlainNumber = memo(function PlainNumber({ path, label, integer }: {
 
 /** A direction [x, y, z] of plain numbers at path. */
 export const DirectionVector = memo(function DirectionVector({ path, label }: { path: DocumentPath; label: string }) {
-  const { issues } = useSheetFields();
-  const whole = issueAt(issues, path);
+  const whole = useIssueAt(path);
   return (
     <fieldset className="min-w-0">
       <legend className="text-[11px] font-semibold text-ink">{label}</legend>
@@ -126,9 +122,9 @@ export const DirectionVector = memo(function DirectionVector({ path, label }: { 
 
 /** A text field at path. */
 export const TextField = memo(function TextField({ path, label }: { path: DocumentPath; label: string }) {
-  const { update, issues, readOnly } = useSheetFields();
+  const { update, readOnly } = useSheetFields();
   const id = useId();
-  const issue = issueAt(issues, path);
+  const issue = useIssueAt(path);
   const value = useDocumentAt(path);
   return (
     <div className="min-w-0">
