@@ -1,8 +1,8 @@
 import { memo, useId } from 'react';
-import { getAt, pathText, setAt, type DocumentPath } from '../../lib/sheet/document-path';
+import { getAt, setAt, type DocumentPath } from '../../lib/sheet/document-path';
 import { COMMANDED_SOLUTIONS, DEFAULT_COMMANDED } from '../../lib/sheet/sheet-constants';
 import type { QuantityKind } from '../../lib/sheet/quantity-kinds';
-import { useCurrentDocument, useDocumentAt, useIssueAt, useReadingAt, useSheetFields } from './editor-context';
+import { useCurrentDocument, useDocumentAt, useIssueAt, useQuantityFeedback, useSheetFields } from './editor-context';
 import { selectInput } from './sheet-styles';
 import { OrientationFields } from './ObjectSection';
 import { Choice, ComponentHeads, HIDDEN_LABELS, PlainNumber, Quantity, QuantityVector, Toggle } from './fields';
@@ -49,9 +49,7 @@ function OptionalComponent({ path, label, kind, value, onChange }: {
   path: DocumentPath; label: string; kind: Exclude<QuantityKind, 'any'>; value: unknown; onChange: (value: number | string | undefined) => void;
 }) {
   const { units, readOnly } = useSheetFields();
-  const at = pathText(path);
-  const reading = useReadingAt(at);
-  const issue = useIssueAt(path);
+  const { at, reading, issue } = useQuantityFeedback(path);
   return (
     <QuantityField
       label={label}

@@ -103,3 +103,9 @@ export function useIssueAt(path: DocumentPath): string | undefined {
 export function useReadingAt(at: string): FieldReading | undefined {
   return useSheetReading((reading) => reading.readings[at]);
 }
+
+/** What a quantity field at path shows beside its value: its path text, the evaluation's reading and the reader's issue. */
+export function useQuantityFeedback(path: DocumentPath): { at: string; reading: FieldReading | undefined; issue: string | undefined } {
+  const at = pathText(path);
+  return { at, reading: useReadingAt(at), issue: useIssueAt(path) };
+}

@@ -1,7 +1,7 @@
 import { memo, useId } from 'react';
 import { pathText, type DocumentPath } from '../../lib/sheet/document-path';
 import type { QuantityKind } from '../../lib/sheet/quantity-kinds';
-import { useDocumentAt, useIssueAt, useReadingAt, useSheetFields } from './editor-context';
+import { useDocumentAt, useIssueAt, useQuantityFeedback, useSheetFields } from './editor-context';
 import type { PlausibleLengthKind } from '../../lib/sheet/plausibility';
 import QuantityField, { storedValue } from './QuantityField';
 import { fieldInput, selectInput } from './sheet-styles';
@@ -25,9 +25,7 @@ export function samePropsByPath<P extends object>(a: P, b: P): boolean {
 export const Quantity = memo(function Quantity({ path, label, kind, placeholder, plausible }: { path: DocumentPath; label: string; kind: Kind; placeholder?: string; plausible?: PlausibleLengthKind }) {
   const { update, units, readOnly } = useSheetFields();
   const value = useDocumentAt(path);
-  const at = pathText(path);
-  const reading = useReadingAt(at);
-  const issue = useIssueAt(path);
+  const { at, reading, issue } = useQuantityFeedback(path);
   return (
     <QuantityField
       label={label}
