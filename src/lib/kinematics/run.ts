@@ -152,116 +152,85 @@ export function runSheet(doc: SheetDocument, options: RunOptions = {}): RunRecor
   return runScene(createScene(doc), options.settings ?? doc.motion.run, options);
 }
 
-/** Runs from the scene's current object pose and joint angles toward its document's target; the scene ends in the final state. */
+/** Everything one run's ticks read and write, made once per run so that the per-tick functions below stay small and hot. */
+interface RunLoop {
+  scene: Scene;
+  result: SheetResult;
+  columns: Columns;
+  settings: RunSettings;
+  random: RandomSource | null;
+  jointCounts: number[];
+  /** A document without the choice commands steer-and-roll, as runs did before it existed. */
+  steerChosen: boolean;
+  geodesicIndex: number;
+  targetPosition: Float64Array;
+  targetOrientation: Float64Array;
+  /** The truth: object origin (m) and orientation [x, y, z, w], world frame. */
+  position: Float64Array;
+  orientation: Float64Array;
+  measuredPosition: Float64Array;
+  measuredOrientation: Float64Array;
+  error: Float64Array;
+  linear: Float64Array;
+  angular: Float64Array;
+  noiseRotation: Float64Array;
+  noiseQuat: Float64Array;
+  distances: Float64Array;
+}
+
+/**
+ * Runs from the scene's current object pose and joint angles toward its document's target; the scene ends in the final state.
+ * The loop only calls recordTick and advanceTick: a long loop body is compiled by on-stack replacement, and V8 drops that
+ * code at the next full garbage collection, so a run after one would spend its first thousands of ticks interpreted.
+ */
 export function runScene(scene: Scene, settings: RunSettings, options: RunOptions = {}): RunRecord {
-  const { gain, dt, maxTicks, positionTolerance, angleTolerance, stopOnSingular, noise } = settings;
+  const { maxTicks, noise } = settings;
   const target = scene.document.motion.target;
-  const targetPosition = Float64Array.from(target.position);
-  const targetOrientation = fromSheet(target.orientation, new Float64Array(4));
   const fingers = scene.fingers;
   const jointCounts = fingers.map((f) => f.jointCount);
   const random: RandomSource | null = noise ? createRandom(noise.seed) : null;
-  const columns = createColumns(Math.min(maxTicks, INITIAL_CAPACITY), jointCounts, random !== null);
-  const result: SheetResult = createResult(scene);
   const object = scene.object;
-
-  const position = Float64Array.from(object.position);
-  const orientation = Float64Array.from(object.orientation);
-  const measuredPosition = new Float64Array(3);
-  const measuredOrientation = new Float64Array(4);
-  const error = new Float64Array(6);
-  const linear = new Float64Array(3);
-  const angular = new Float64Array(3);
-  const noiseRotation = new Float64Array(3);
-  const noiseQuat = new Float64Array(4);
-  const distances = new Float64Array(METRIC_COUNT);
+  const loop: RunLoop = {
+    scene,
+    result: createResult(scene),
+    columns: createColumns(Math.min(maxTicks, INITIAL_CAPACITY), jointCounts, random !== null),
+    settings,
+    random,
+    jointCounts,
+    steerChosen: scene.document.commanded !== 'full',
+    geodesicIndex: ROTATION_METRICS.findIndex((m) => m.key === 'phi6'),
+    targetPosition: Float64Array.from(target.position),
+    targetOrientation: fromSheet(target.orientation, new Float64Array(4)),
+    position: Float64Array.from(object.position),
+    orientation: Float64Array.from(object.orientation),
+    measuredPosition: new Float64Array(3),
+    measuredOrientation: new Float64Array(4),
+    error: new Float64Array(6),
+    linear: new Float64Array(3),
+    angular: new Float64Array(3),
+    noiseRotation: new Float64Array(3),
+    noiseQuat: new Float64Array(4),
+    distances: new Float64Array(METRIC_COUNT),
+  };
   const progressEvery = Math.max(1, options.progressEvery ?? 500);
-  const geodesicIndex = ROTATION_METRICS.findIndex((m) => m.key === 'phi6');
-  // A document without the choice commands steer-and-roll, as runs did before it existed.
-  const steerChosen = scene.document.commanded !== 'full';
 
   let stopReason: RunStopReason = 'tick-limit';
   let tick = 0;
   while (tick < maxTicks) {
-    if (tick === columns.capacity) growColumns(columns, maxTicks);
-    measure(position, orientation, measuredPosition, measuredOrientation, random, noise, noiseRotation, noiseQuat);
-    poseError(measuredPosition, measuredOrientation, targetPosition, targetOrientation, error);
-    linear[0] = gain * error[0]; linear[1] = gain * error[1]; linear[2] = gain * error[2];
-    angular[0] = gain * error[3]; angular[1] = gain * error[4]; angular[2] = gain * error[5];
-    copyInto(measuredPosition, object.position, 0);
-    copyInto(measuredOrientation, object.orientation, 0);
-    copyInto(linear, object.linearVelocity, 0);
-    copyInto(angular, object.angularVelocity, 0);
-    solveScene(scene, result, 'run');
-
-    columns.time[tick] = tick * dt;
-    copyInto(position, columns.position, 3 * tick);
-    copyInto(orientation, columns.orientation, 4 * tick);
-    if (random !== null) {
-      copyInto(measuredPosition, columns.measuredPosition, 3 * tick);
-      copyInto(measuredOrientation, columns.measuredOrientation, 4 * tick);
-    }
-    copyInto(linear, columns.twist, 6 * tick);
-    copyInto(angular, columns.twist, 6 * tick + 3);
-    let mask = result.warningList.mask;
-    let worstRank = result.warningList.worstRank;
-    for (let i = 0; i < fingers.length; i++) {
-      const n = jointCounts[i]!;
-      const angles = fingers[i]!.angles;
-      const solved = result.fingers[i]!;
-      const steered = steerChosen && solved.steer.available;
-      const rates = steered ? solved.steer.rates : solved.full.rates;
-      const angleColumn = columns.jointAngles[i]!;
-      const rateColumn = columns.jointRates[i]!;
-      for (let k = 0, o = n * tick; k < n; k++, o++) {
-        angleColumn[o] = angles[k]!;
-        rateColumn[o] = rates[k]!;
-      }
-      if (steered) {
-        // The solve cannot know dt: a steered pivot turns to its new angle within the tick, so its rate is pivotChange / dt.
-        const pivot = fingers[i]!.pivotIndex;
-        const pivotRate = solved.steer.pivotChange / dt;
-        rateColumn[n * tick + pivot] = pivotRate;
-        if (Math.abs(pivotRate) > fingers[i]!.rateLimits[pivot]!) {
-          mask |= RATE_LIMIT_BIT;
-          if (RATE_LIMIT_RANK > worstRank) worstRank = RATE_LIMIT_RANK;
-        }
-      }
-      columns.solution[fingers.length * tick + i] = steered ? STEER_AND_ROLL : FULL;
-      columns.slipResidual[fingers.length * tick + i] = steered ? solved.steer.residualNorm : solved.full.residualNorm;
-    }
-    const dx = targetPosition[0]! - position[0]!, dy = targetPosition[1]! - position[1]!, dz = targetPosition[2]! - position[2]!;
-    const positionError = Math.sqrt(dx * dx + dy * dy + dz * dz);
-    columns.positionError[tick] = positionError;
-    rotationDistances(orientation, targetOrientation, distances);
-    copyInto(distances, columns.orientationError, METRIC_COUNT * tick);
-    columns.warningMask[tick] = mask >>> 0;
-    columns.worstSeverity[tick] = worstRank;
+    if (tick === loop.columns.capacity) growColumns(loop.columns, maxTicks);
+    const stop = recordTick(loop, tick);
     tick++;
-
     if (tick % progressEvery === 0) options.onProgress?.(tick, maxTicks);
-    if (positionError <= positionTolerance && distances[geodesicIndex]! <= angleTolerance) {
-      stopReason = 'converged';
+    if (stop !== null) {
+      stopReason = stop;
       break;
     }
-    if (stopOnSingular && result.worstSeverity === 'singular') {
-      stopReason = 'singular';
-      break;
-    }
-    for (let i = 0; i < fingers.length; i++) {
-      const finger = fingers[i]!;
-      const angles = finger.angles;
-      const n = jointCounts[i]!;
-      const rateColumn = columns.jointRates[i]!;
-      for (let k = 0, o = n * (tick - 1); k < n; k++, o++) angles[k] = angles[k]! + rateColumn[o]! * dt;
-      // Exactly the steered angle, not the rate times dt rounded back.
-      if (columns.solution[fingers.length * (tick - 1) + i] === STEER_AND_ROLL) angles[finger.pivotIndex] = result.fingers[i]!.steer.pivotAngle;
-    }
-    integratePose(position, orientation, linear, angular, dt, position, orientation);
+    advanceTick(loop, tick - 1);
   }
-  object.position.set(position);
-  object.orientation.set(orientation);
+  object.position.set(loop.position);
+  object.orientation.set(loop.orientation);
 
+  const columns = loop.columns;
   return {
     tickCount: tick,
     stopReason,
@@ -283,6 +252,89 @@ export function runScene(scene: Scene, settings: RunSettings, options: RunOption
     warningMask: columns.warningMask.subarray(0, tick),
     worstSeverity: columns.worstSeverity.subarray(0, tick),
   };
+}
+
+/** Measures the pose, commands gain * pose error, solves the fingers and records row `tick`; returns why the run stops there, or null. */
+function recordTick(loop: RunLoop, tick: number): RunStopReason | null {
+  const { scene, result, columns, settings, jointCounts, position, orientation, measuredPosition, measuredOrientation, linear, angular, error, distances } = loop;
+  const { gain, dt, positionTolerance, angleTolerance, stopOnSingular } = settings;
+  const object = scene.object;
+  const fingers = scene.fingers;
+  measure(position, orientation, measuredPosition, measuredOrientation, loop.random, settings.noise, loop.noiseRotation, loop.noiseQuat);
+  poseError(measuredPosition, measuredOrientation, loop.targetPosition, loop.targetOrientation, error);
+  linear[0] = gain * error[0]!; linear[1] = gain * error[1]!; linear[2] = gain * error[2]!;
+  angular[0] = gain * error[3]!; angular[1] = gain * error[4]!; angular[2] = gain * error[5]!;
+  copyInto(measuredPosition, object.position, 0);
+  copyInto(measuredOrientation, object.orientation, 0);
+  copyInto(linear, object.linearVelocity, 0);
+  copyInto(angular, object.angularVelocity, 0);
+  solveScene(scene, result, 'run');
+
+  columns.time[tick] = tick * dt;
+  copyInto(position, columns.position, 3 * tick);
+  copyInto(orientation, columns.orientation, 4 * tick);
+  if (loop.random !== null) {
+    copyInto(measuredPosition, columns.measuredPosition, 3 * tick);
+    copyInto(measuredOrientation, columns.measuredOrientation, 4 * tick);
+  }
+  copyInto(linear, columns.twist, 6 * tick);
+  copyInto(angular, columns.twist, 6 * tick + 3);
+  let mask = result.warningList.mask;
+  let worstRank = result.warningList.worstRank;
+  for (let i = 0; i < fingers.length; i++) {
+    const n = jointCounts[i]!;
+    const angles = fingers[i]!.angles;
+    const solved = result.fingers[i]!;
+    const steered = loop.steerChosen && solved.steer.available;
+    const rates = steered ? solved.steer.rates : solved.full.rates;
+    const angleColumn = columns.jointAngles[i]!;
+    const rateColumn = columns.jointRates[i]!;
+    for (let k = 0, o = n * tick; k < n; k++, o++) {
+      angleColumn[o] = angles[k]!;
+      rateColumn[o] = rates[k]!;
+    }
+    if (steered) {
+      // The solve cannot know dt: a steered pivot turns to its new angle within the tick, so its rate is pivotChange / dt.
+      const pivot = fingers[i]!.pivotIndex;
+      const pivotRate = solved.steer.pivotChange / dt;
+      rateColumn[n * tick + pivot] = pivotRate;
+      if (Math.abs(pivotRate) > fingers[i]!.rateLimits[pivot]!) {
+        mask |= RATE_LIMIT_BIT;
+        if (RATE_LIMIT_RANK > worstRank) worstRank = RATE_LIMIT_RANK;
+      }
+    }
+    columns.solution[fingers.length * tick + i] = steered ? STEER_AND_ROLL : FULL;
+    columns.slipResidual[fingers.length * tick + i] = steered ? solved.steer.residualNorm : solved.full.residualNorm;
+  }
+  const targetPosition = loop.targetPosition;
+  const dx = targetPosition[0]! - position[0]!, dy = targetPosition[1]! - position[1]!, dz = targetPosition[2]! - position[2]!;
+  const positionError = Math.sqrt(dx * dx + dy * dy + dz * dz);
+  columns.positionError[tick] = positionError;
+  rotationDistances(orientation, loop.targetOrientation, distances);
+  copyInto(distances, columns.orientationError, METRIC_COUNT * tick);
+  columns.warningMask[tick] = mask >>> 0;
+  columns.worstSeverity[tick] = worstRank;
+
+  if (positionError <= positionTolerance && distances[loop.geodesicIndex]! <= angleTolerance) return 'converged';
+  if (stopOnSingular && result.worstSeverity === 'singular') return 'singular';
+  return null;
+}
+
+/** Moves the truth on by the rates recorded in row `tick`: joint angles by rate * dt (a steered pivot to its steered angle), the pose by the commanded twist. */
+function advanceTick(loop: RunLoop, tick: number): void {
+  const { scene, result, columns, jointCounts } = loop;
+  const dt = loop.settings.dt;
+  const fingers = scene.fingers;
+  for (let i = 0; i < fingers.length; i++) {
+    const finger = fingers[i]!;
+    const angles = finger.angles;
+    const n = jointCounts[i]!;
+    const rateColumn = columns.jointRates[i]!;
+    for (let k = 0, o = n * tick; k < n; k++, o++) angles[k] = angles[k]! + rateColumn[o]! * dt;
+    // Exactly the steered angle, not the rate times dt rounded back.
+    if (columns.solution[fingers.length * tick + i] === STEER_AND_ROLL) angles[finger.pivotIndex] = result.fingers[i]!.steer.pivotAngle;
+  }
+  integratePose(loop.position, loop.orientation, loop.linear, loop.angular, dt, loop.position, loop.orientation);
 }
 
 /** Measured pose: the truth, or with noise p + N(0, s_p^2) per axis (m) and exp(N(0, s_a^2) per axis) q (rad, world frame). */
