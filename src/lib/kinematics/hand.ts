@@ -5,6 +5,7 @@
  * the current axis of joint k is the home axis moved by the joints before it.
  */
 import type { FingerInput, JointRole } from '../sheet/types';
+import { mapPacked } from './hidden-classes';
 import { cross, perpendicular, type Vec3Like } from './vec3';
 
 export type RollerKind = 'sphere' | 'cylinder';
@@ -60,11 +61,11 @@ function firstIndexOf(roles: JointRole[], role: JointRole): number {
 /** Finger compiled from its sheet input, with forward kinematics already run (palm frame, SI). */
 export function createFinger(input: FingerInput): Finger {
   const n = input.joints.length;
-  const roles = input.joints.map((j) => j.role);
+  const roles = mapPacked(input.joints, (j) => j.role);
   const finger: Finger = {
     name: input.name,
     jointCount: n,
-    jointNames: input.joints.map((j) => j.name),
+    jointNames: mapPacked(input.joints, (j) => j.name),
     roles,
     baseIndex: firstIndexOf(roles, 'base'),
     pivotIndex: firstIndexOf(roles, 'pivot'),

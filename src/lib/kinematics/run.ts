@@ -9,6 +9,7 @@
  * damped least-squares rates. Everything recorded lives in typed-array columns, one entry (or one row) per tick.
  */
 import type { RunSettings, SheetDocument } from '../sheet/types';
+import { keepLatest, mapPacked } from './hidden-classes';
 import { ROTATION_METRICS, rotationDistances } from './metrics';
 import { fromSheet, multiply } from './quat';
 import { createRandom, nextGaussian, type RandomSource } from './random';
@@ -104,8 +105,8 @@ function createColumns(capacity: number, jointCounts: readonly number[], noisy: 
     measuredPosition: noisy ? new Float64Array(3 * capacity) : position,
     measuredOrientation: noisy ? new Float64Array(4 * capacity) : orientation,
     twist: new Float64Array(6 * capacity),
-    jointAngles: jointCounts.map((n) => new Float64Array(n * capacity)),
-    jointRates: jointCounts.map((n) => new Float64Array(n * capacity)),
+    jointAngles: mapPacked(jointCounts, (n) => new Float64Array(n * capacity)),
+    jointRates: mapPacked(jointCounts, (n) => new Float64Array(n * capacity)),
     solution: new Uint8Array(jointCounts.length * capacity),
     slipResidual: new Float64Array(jointCounts.length * capacity),
     positionError: new Float64Array(capacity),
@@ -131,8 +132,8 @@ function growColumns(c: Columns, limit: number): void {
   c.measuredPosition = noisy ? grown(c.measuredPosition, 3 * capacity) : c.position;
   c.measuredOrientation = noisy ? grown(c.measuredOrientation, 4 * capacity) : c.orientation;
   c.twist = grown(c.twist, 6 * capacity);
-  c.jointAngles = c.jointAngles.map((column) => grown(column, (column.length / c.capacity) * capacity));
-  c.jointRates = c.jointRates.map((column) => grown(column, (column.length / c.capacity) * capacity));
+  c.jointAngles = mapPacked(c.jointAngles, (column) => grown(column, (column.length / c.capacity) * capacity));
+  c.jointRates = mapPacked(c.jointRates, (column) => grown(column, (column.length / c.capacity) * capacity));
   c.solution = grown(c.solution, (c.solution.length / c.capacity) * capacity);
   c.slipResidual = grown(c.slipResidual, (c.slipResidual.length / c.capacity) * capacity);
   c.positionError = grown(c.positionError, capacity);
@@ -187,10 +188,10 @@ export function runScene(scene: Scene, settings: RunSettings, options: RunOption
   const { maxTicks, noise } = settings;
   const target = scene.document.motion.target;
   const fingers = scene.fingers;
-  const jointCounts = fingers.map((f) => f.jointCount);
+  const jointCounts = mapPacked(fingers, (f) => f.jointCount);
   const random: RandomSource | null = noise ? createRandom(noise.seed) : null;
   const object = scene.object;
-  const loop: RunLoop = {
+  const loop: RunLoop = keepLatest('run', {
     scene,
     result: createResult(scene),
     columns: createColumns(Math.min(maxTicks, INITIAL_CAPACITY), jointCounts, random !== null),
@@ -211,7 +212,7 @@ export function runScene(scene: Scene, settings: RunSettings, options: RunOption
     noiseRotation: new Float64Array(3),
     noiseQuat: new Float64Array(4),
     distances: new Float64Array(METRIC_COUNT),
-  };
+  });
   const progressEvery = Math.max(1, options.progressEvery ?? 500);
 
   let stopReason: RunStopReason = 'tick-limit';

@@ -6,6 +6,7 @@
 import type { CommandedRates } from '../sheet/commanded';
 import type { SheetDocument, SolverSettings } from '../sheet/types';
 import type { FingerAcceleration } from './acceleration';
+import { keepLatest, mapPacked } from './hidden-classes';
 import { computeContact, createContact, createContactWorkspace, createObject, updateObjectRotation, type Contact, type ContactWorkspace, type RigidObject } from './contact';
 import type { ContactCurvature } from './curvature';
 import { computeGrasp, createGraspResult, createGraspWorkspace, type GraspResult, type GraspWorkspace } from './grasp';
@@ -81,14 +82,14 @@ export interface SheetResult {
 
 /** Compiles a sheet document into a reusable scene (world frame, SI). */
 export function createScene(doc: SheetDocument): Scene {
-  const fingers = doc.hand.fingers.map(createFinger);
+  const fingers = mapPacked(doc.hand.fingers, createFinger);
   const maxJoints = fingers.reduce((m, f) => Math.max(m, f.jointCount), 1);
   const count = Math.max(1, fingers.length);
-  return {
+  return keepLatest('scene', {
     document: doc,
     object: createObject(doc.object),
     fingers,
-    settings: { ...doc.solver },
+    settings: solverSettings(doc.solver),
     workspace: {
       contact: createContactWorkspace(),
       full: createFullSolveWorkspace(maxJoints),
@@ -97,15 +98,27 @@ export function createScene(doc: SheetDocument): Scene {
       contactPoints: new Float64Array(3 * count),
       contactNormals: new Float64Array(3 * count),
     },
+  });
+}
+
+/** A copy of the sheet's solver settings with every field in one order, so that every scene's settings share one hidden class (an object spread does not ensure it). */
+function solverSettings(solver: SolverSettings): SolverSettings {
+  return {
+    damping: solver.damping,
+    singularRatio: solver.singularRatio,
+    axisDistance: solver.axisDistance,
+    minTangentialSpeed: solver.minTangentialSpeed,
+    contactTolerance: solver.contactTolerance,
+    softFinger: solver.softFinger,
   };
 }
 
 /** Empty result shaped for the scene, to pass as `out` to solveScene. */
 export function createResult(scene: Scene): SheetResult {
   const warningList = createWarningList();
-  return {
+  return keepLatest('result', {
     object: { position: new Float64Array(3), orientation: new Float64Array(4), linearVelocity: new Float64Array(3), angularVelocity: new Float64Array(3) },
-    fingers: scene.fingers.map((f) => ({
+    fingers: mapPacked(scene.fingers, (f) => ({
       name: f.name,
       jointNames: f.jointNames.slice(),
       jointAngles: new Float64Array(f.jointCount),
@@ -124,7 +137,7 @@ export function createResult(scene: Scene): SheetResult {
     warnings: warningList.items,
     worstSeverity: 'none',
     warningList,
-  };
+  });
 }
 
 /**

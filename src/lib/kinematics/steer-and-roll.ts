@@ -5,6 +5,7 @@
  * after steering.
  */
 import type { SolverSettings } from '../sheet/types';
+import { indicesWhere } from './hidden-classes';
 import type { Contact } from './contact';
 import { columnPairSingularValues, jacobianSingularValues } from './eigen3';
 import type { FullSolution } from './full-solution';
@@ -97,7 +98,7 @@ export function createSteerWorkspace(maxJoints: number): SteerWorkspace {
 /** Empty steer-and-roll solution shaped for the finger's joints and base joints. */
 export function createSteerAndRoll(finger: Pick<Finger, 'jointCount' | 'roles'>): SteerAndRoll {
   const jointCount = finger.jointCount;
-  const baseJoints = finger.roles.flatMap((role, k) => (role === 'base' ? [k] : []));
+  const baseJoints = indicesWhere(finger.roles, (role) => role === 'base');
   return {
     available: false,
     baseJoints,
