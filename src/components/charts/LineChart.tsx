@@ -198,11 +198,16 @@ export default function LineChart({ title, x, xLabel, yLabel, series, height = 2
       plugins: shaded.length > 0 || bands.length > 0 ? [shadingPlugin(shaded, bands, x)] : [],
     };
     const data = [x, ...series.map((s) => plottable(s.values, logY))] as uPlot.AlignedData;
-    const chart = new uPlot(options, data, container);
+    const chart = new uPlot(options, data);
     // uPlot's stylesheet is not in a cascade layer, so it outranks utility classes; an inline font wins.
     chart.root.style.fontFamily = '"IBM Plex Sans", sans-serif';
     chart.root.style.fontSize = '12px';
     chartRef.current = chart;
+    // uPlot draws in a microtask; the chart joins the page in the next one, once drawn. Drawn inside the page, each font
+    // change on its canvas made the browser restyle and lay out the panel (a size container) first, once per chart.
+    queueMicrotask(() => {
+      if (chartRef.current === chart) container.appendChild(chart.root);
+    });
     const wheel = zoom?.onWheel(chart);
     if (wheel) chart.over.addEventListener('wheel', wheel, { passive: false });
     if (bounds && rangeRef.current) chart.setScale('x', rangeRef.current);
