@@ -22,8 +22,13 @@ export type WorkerReply =
 
 export type PostReply = (reply: WorkerReply, transfer: ArrayBuffer[]) => void;
 
-/** About this many progress messages per run, whatever its length. */
-const PROGRESS_MESSAGES = 200;
+/** The run looks at the clock about this many times, whatever its length. */
+const PROGRESS_CHECKS = 200;
+/**
+ * Progress goes out at most once in this many milliseconds: each message costs the worker and the page a task, and the
+ * page shows at most one a frame, so a short run posts none and a long one a few a frame's worth apart.
+ */
+export const PROGRESS_INTERVAL_MS = 30;
 
 function isJob(value: unknown): value is WorkerJob {
   if (value === null || typeof value !== 'object') return false;
@@ -39,12 +44,18 @@ export function performJob(job: unknown, post: PostReply, now: () => number = ()
     post({ kind: 'failed', message: 'The worker received a message that is not a run, sweep or matrix job.' }, []);
     return;
   }
-  const onProgress = (done: number, total: number) => post({ kind: 'progress', done, total }, []);
+  const started = now();
+  let lastProgress = started;
+  const onProgress = (done: number, total: number) => {
+    const at = now();
+    if (at - lastProgress < PROGRESS_INTERVAL_MS) return;
+    lastProgress = at;
+    post({ kind: 'progress', done, total }, []);
+  };
   try {
-    const started = now();
     if (job.kind === 'run') {
       const settings = job.settings ?? job.document.motion.run;
-      const progressEvery = Math.max(1, Math.ceil(settings.maxTicks / PROGRESS_MESSAGES));
+      const progressEvery = Math.max(1, Math.ceil(settings.maxTicks / PROGRESS_CHECKS));
       const record = runSheet(job.document, { settings, onProgress, progressEvery });
       const series = runSeries(job.document, record, now() - started);
       post({ kind: 'run-done', series }, transferablesOf(series));

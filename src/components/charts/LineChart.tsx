@@ -1,4 +1,4 @@
-import { useEffect, useRef } from 'react';
+import { useEffect, useLayoutEffect, useRef } from 'react';
 import uPlot from 'uplot';
 import 'uplot/dist/uPlot.min.css';
 import { formatTick, indexRangesToX, plottable, seriesStyle } from '../../lib/view/chart-data';
@@ -164,6 +164,13 @@ export default function LineChart({ title, x, xLabel, yLabel, series, height = 2
   const onScreenRef = useRef(true);
   const behindRef = useRef(false);
   const hasGaps = series.some((s) => plottable(s.values, logY) !== s.values);
+  const widthRef = useRef(0);
+
+  // Every chart of a render reads its width here, before any of them builds (below): a read after another chart has
+  // changed the page would make the browser lay the whole page out again, once per chart.
+  useLayoutEffect(() => {
+    widthRef.current = containerRef.current?.clientWidth ?? 0;
+  }, [title, x, xLabel, yLabel, series, height, logY, shaded, bands, syncKey, zoomable]);
 
   useEffect(() => {
     const container = containerRef.current;
@@ -171,7 +178,7 @@ export default function LineChart({ title, x, xLabel, yLabel, series, height = 2
     const bounds = zoomable ? boundsOf(x) : null;
     const zoom = bounds ? zoomHandlers(bounds, () => rangeRef.current, (range) => askRef.current?.(range)) : null;
     const options: uPlot.Options = {
-      width: Math.max(240, container.clientWidth),
+      width: Math.max(240, widthRef.current),
       height,
       scales: { x: { time: false }, y: logY ? { distr: 3, range: logRange } : {} },
       axes: [axis(xLabel, false), axis(yLabel, true)],
@@ -191,11 +198,16 @@ export default function LineChart({ title, x, xLabel, yLabel, series, height = 2
       plugins: shaded.length > 0 || bands.length > 0 ? [shadingPlugin(shaded, bands, x)] : [],
     };
     const data = [x, ...series.map((s) => plottable(s.values, logY))] as uPlot.AlignedData;
-    const chart = new uPlot(options, data, container);
+    const chart = new uPlot(options, data);
     // uPlot's stylesheet is not in a cascade layer, so it outranks utility classes; an inline font wins.
     chart.root.style.fontFamily = '"IBM Plex Sans", sans-serif';
     chart.root.style.fontSize = '12px';
     chartRef.current = chart;
+    // uPlot draws in a microtask; the chart joins the page in the next one, once drawn. Drawn inside the page, each font
+    // change on its canvas made the browser restyle and lay out the panel (a size container) first, once per chart.
+    queueMicrotask(() => {
+      if (chartRef.current === chart) container.appendChild(chart.root);
+    });
     const wheel = zoom?.onWheel(chart);
     if (wheel) chart.over.addEventListener('wheel', wheel, { passive: false });
     if (bounds && rangeRef.current) chart.setScale('x', rangeRef.current);

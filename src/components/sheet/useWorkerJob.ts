@@ -1,4 +1,5 @@
 import { useCallback, useEffect, useRef, useState } from 'react';
+import { flushSync } from 'react-dom';
 import type { LogComparison } from '../../lib/logs/compare';
 import type { MatrixResult } from '../../lib/sheet/matrix';
 import { formatBytes } from '../../lib/view/bytes';
@@ -125,7 +126,9 @@ export function useWorkerJob<J, T>(kind: WorkerKind<J, T>, options: { warm?: boo
     cancelAnimationFrame(frameRef.current);
     frameRef.current = 0;
     runningRef.current = false;
-    setState(final);
+    // The outcome renders, and its effects (the charts) draw, in the task that received it: otherwise the browser may
+    // paint the page between the results' markup and their charts, a full page paint more before the plots show.
+    flushSync(() => setState(final));
     settleRef.current?.(final);
     settleRef.current = null;
   }, []);

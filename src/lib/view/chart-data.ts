@@ -10,7 +10,10 @@ export function shownColumn(values: Float64Array, siUnit: string, units: Display
   if (unit === siUnit) return { values, unit };
   // The units a sheet shows are proportional to SI, so one factor serves the whole column.
   const factor = displayFactor(siUnit, unit);
-  return { values: values.map((v) => v * factor), unit };
+  // A plain loop: TypedArray.map with a callback took several milliseconds per run's charts.
+  const shown = new Float64Array(values.length);
+  for (let i = 0; i < values.length; i++) shown[i] = values[i]! * factor;
+  return { values: shown, unit };
 }
 
 /** The column as uPlot can draw it: unchanged when every value is plottable, else a copy with null in the gaps. */

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { runSheet } from '../../../src/lib/kinematics';
 import { runMatrix } from '../../../src/lib/sheet/matrix';
 import { createSheetFromTemplate } from '../../../src/lib/sheet/templates';
-import { performJob, type WorkerReply } from '../../../src/workers/run-protocol';
+import { performJob, PROGRESS_INTERVAL_MS, type WorkerReply } from '../../../src/workers/run-protocol';
 
 function sheet(maxTicks: number) {
   const doc = createSheetFromTemplate('tri-radial', { kind: 'sphere', radius: 0.03 });
@@ -10,11 +10,11 @@ function sheet(maxTicks: number) {
   return doc;
 }
 
-/** Runs a job and collects what the worker would post. */
-function perform(job: unknown) {
+/** Runs a job and collects what the worker would post, on a clock that moves `step` ms each time it is read. */
+function perform(job: unknown, step = 7) {
   const replies: { reply: WorkerReply; transfer: ArrayBuffer[] }[] = [];
   let clock = 100;
-  performJob(job, (reply, transfer) => replies.push({ reply, transfer }), () => (clock += 7));
+  performJob(job, (reply, transfer) => replies.push({ reply, transfer }), () => (clock += step));
   return replies;
 }
 
@@ -22,21 +22,23 @@ describe('performJob', () => {
   it('runs a matrix job, reporting progress once per run and then the result of runMatrix for the same settings', () => {
     const doc = sheet(50);
     const settings = { targets: [{ orientation: { w: Math.cos(0.1), x: Math.sin(0.1), y: 0, z: 0 } }], starts: [], generators: [{ kind: 'random' as const, count: 2, seed: 4 }], metric: 'phi3' as const };
-    const replies = perform({ kind: 'matrix', document: doc, settings });
+    // Each run reads the clock once for its progress: 3 runs of PROGRESS_INTERVAL_MS each report every one.
+    const replies = perform({ kind: 'matrix', document: doc, settings }, PROGRESS_INTERVAL_MS);
     expect(replies.filter((r) => r.reply.kind === 'progress').map((r) => r.reply)).toEqual([1, 2, 3].map((done) => ({ kind: 'progress', done, total: 3 })));
     const last = replies.at(-1)!.reply;
     expect(last.kind).toBe('matrix-done');
     if (last.kind !== 'matrix-done') return;
     expect(last.result).toEqual(runMatrix(doc, settings));
-    expect(last.elapsedMs).toBe(7);
+    expect(last.elapsedMs).toBe(4 * PROGRESS_INTERVAL_MS);
   });
 
-  it('runs the sheet to its tick limit, reporting progress about 200 times and then one result', () => {
+  it('runs the sheet to its tick limit, looking at the clock 200 times, reporting progress at most once per interval, and then one result', () => {
     const doc = sheet(1000);
+    // The clock moves 7 ms a look: progress goes out at every fifth look (35 ms after the one before), 40 of the 200.
     const replies = perform({ kind: 'run', document: doc });
     const progress = replies.filter((r) => r.reply.kind === 'progress').map((r) => r.reply as { done: number; total: number });
-    expect(progress).toHaveLength(200);
-    expect(progress[0]).toEqual({ kind: 'progress', done: 5, total: 1000 });
+    expect(progress).toHaveLength(40);
+    expect(progress[0]).toEqual({ kind: 'progress', done: 25, total: 1000 });
     expect(progress.at(-1)).toEqual({ kind: 'progress', done: 1000, total: 1000 });
     const last = replies.at(-1)!;
     expect(last.reply.kind).toBe('run-done');
@@ -44,7 +46,7 @@ describe('performJob', () => {
     const series = last.reply.series;
     expect(series.tickCount).toBe(1000);
     expect(series.stopReason).toBe('tick-limit');
-    expect(series.elapsedMs).toBe(7);
+    expect(series.elapsedMs).toBe(201 * 7);
     const record = runSheet(doc);
     expect(Array.from(series.positionError)).toEqual(Array.from(record.positionError));
     expect(last.transfer).toContain(series.positionError.buffer);
@@ -58,9 +60,12 @@ describe('performJob', () => {
     expect(last.kind === 'run-done' && last.series.tickCount).toBe(30);
   });
 
-  it('sweeps with progress after every value', () => {
-    const replies = perform({ kind: 'sweep', document: sheet(10), settings: { path: '/hand/fingers/0/roller/radius', from: 0.011, to: 0.013, steps: 5 } });
-    expect(replies.filter((r) => r.reply.kind === 'progress').map((r) => (r.reply as { done: number }).done)).toEqual([1, 2, 3, 4, 5]);
+  it('sweeps with progress after every value that took an interval, and none for values done sooner', () => {
+    const settings = { path: '/hand/fingers/0/roller/radius', from: 0.011, to: 0.013, steps: 5 };
+    const slow = perform({ kind: 'sweep', document: sheet(10), settings }, PROGRESS_INTERVAL_MS);
+    expect(slow.filter((r) => r.reply.kind === 'progress').map((r) => (r.reply as { done: number }).done)).toEqual([1, 2, 3, 4, 5]);
+    const replies = perform({ kind: 'sweep', document: sheet(10), settings }, 1);
+    expect(replies.filter((r) => r.reply.kind === 'progress')).toEqual([]);
     const last = replies.at(-1)!.reply;
     expect(last.kind).toBe('sweep-done');
     if (last.kind !== 'sweep-done') return;
