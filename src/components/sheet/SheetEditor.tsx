@@ -1,4 +1,4 @@
-import { lazy, memo, Suspense, useCallback, useDeferredValue, useEffect, useMemo, useRef, useState, type ReactNode } from 'react';
+import { lazy, memo, startTransition, Suspense, useCallback, useEffect, useMemo, useRef, useState, type ReactNode } from 'react';
 import type { WarningCode } from '../../lib/kinematics';
 import { formatWhen } from '../../lib/client/api';
 import { parseKeepingNonFinite, type SheetLink, type SheetPageData } from '../../lib/contract';
@@ -22,7 +22,7 @@ import SavePanel from './SavePanel';
 import SceneView from './SceneView';
 import TitleBlock from './TitleBlock';
 import { useCompute, type ComputedSheet } from './useCompute';
-import { useIdle, whenIdle } from './useIdle';
+import { afterNextPaint, useIdle, whenIdle } from './useIdle';
 import type { ComputeReply } from '../../workers/compute-protocol';
 import WhenSeen from './WhenSeen';
 
@@ -36,7 +36,7 @@ const MatrixPanel = lazy(() => import('./MatrixPanel'));
 
 type Solved = ComputedSheet;
 
-/** The 3D view and the run and sweep panels, redrawn after the results table (they follow a deferred copy); their charts show the sheet's display units. */
+/** The 3D view and the run and sweep panels, redrawn after the results table (they follow a copy set once the results are painted); their charts show the sheet's display units. */
 /** What the matrix panel needs of the page: the saved revision being edited, whether the caller may write, and the related sheets. */
 interface MatrixContext {
   sheet: { id: string; title: string; revision: number; latestRevision: number };
@@ -140,6 +140,17 @@ function useStableIssues(next: readonly { path: string; message: string }[]): Re
   }, [next]);
 }
 
+/**
+ * The value once a frame has been painted since it changed, set as a transition: the 3D view, runs and derivation
+ * redraw after the results are on screen, never in the frame that shows them (React's own deferred value renders
+ * them at once after the results' commit, and one long component there held back that frame).
+ */
+function usePaintedValue<Value>(value: Value): Value {
+  const [painted, setPainted] = useState(value);
+  useEffect(() => (painted === value ? undefined : afterNextPaint(() => startTransition(() => setPainted(value)))), [value, painted]);
+  return painted;
+}
+
 const NO_ISSUES: readonly { path: string; message: string }[] = [];
 
 /** The variables' reading of the newest reply, the previous object while it reads the same: the variables editor then redraws only when its own lines read differently. */
@@ -218,7 +229,7 @@ function Editor({ data, evaluation }: { data: SheetPageData; evaluation: string 
   const startDeriving = useCallback(() => setDeriving(true), []);
   const idle = useIdle();
   const { reply, lastGood, pending } = useCompute(document, { derive: deriving, initial: first });
-  const deferred = useDeferredValue(lastGood);
+  const deferred = usePaintedValue(lastGood);
   // Run and sweep exports name the sheet, the revision the edits started from, and whether there are unsaved edits.
   const exportTitle = deferred?.document.title ?? data.sheet.title;
   const exportSource: ExportSource = useMemo(

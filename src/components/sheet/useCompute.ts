@@ -27,6 +27,13 @@ interface ComputeOptions {
   initial?: { document: unknown; reply: ComputedLike };
 }
 
+/** The inputs of one request, compared by identity: a reply answers what is shown when all three are the same. */
+interface Asked {
+  document: unknown;
+  derive: boolean;
+  extra: Readonly<Record<string, unknown>> | undefined;
+}
+
 interface ComputeState<Reply extends ComputedLike> {
   reply: Reply | null;
   lastGood: Extract<Reply, { ok: true }> | null;
@@ -51,7 +58,10 @@ export function useCompute(
   const waiting = useRef<ComputeRequest | null>(null);
   const [reply, setReply] = useState<ComputedLike | null>(initial?.reply ?? null);
   const [lastGood, setLastGood] = useState<ComputedLike | null>(initial?.reply.ok ? initial.reply : null);
-  const [pending, setPending] = useState(!initial);
+  // What the newest request asked and what the shown reply answered: pending is read from the two in the render of the
+  // change itself, so a keystroke renders the editor once rather than again from an effect that marks it pending.
+  const requested = useRef<Asked | null>(null);
+  const [answered, setAnswered] = useState<Asked | null>(initial ? { document: initial.document, derive: false, extra } : null);
   // Set once the worker should exist: at once without a first reply, else after the first paint or when asked for more than the first reply.
   const [wanted, setWanted] = useState(!initial);
 
@@ -77,7 +87,7 @@ export function useCompute(
       marked.current = message.id;
       setReply(message);
       if (message.ok) setLastGood(message);
-      setPending(false);
+      setAnswered(requested.current);
     };
     worker.current = created;
     if (waiting.current) {
@@ -94,8 +104,8 @@ export function useCompute(
   useEffect(() => {
     // The first reply already answers the document as drawn, as long as no derivation is asked for.
     if (initial && document === initial.document && !derive && latest.current === 0) return;
-    setPending(true);
     setWanted(true);
+    requested.current = { document, derive, extra };
     const request: ComputeRequest = { type: 'compute', id: ++latest.current, document, derive, ...extra };
     if (busy.current || !worker.current) waiting.current = request;
     else {
@@ -104,5 +114,6 @@ export function useCompute(
     }
   }, [document, derive, extra, initial]);
 
+  const pending = answered === null || answered.document !== document || answered.derive !== derive || answered.extra !== extra;
   return { reply, lastGood, pending };
 }
