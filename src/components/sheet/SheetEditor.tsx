@@ -36,7 +36,6 @@ const MatrixPanel = lazy(() => import('./MatrixPanel'));
 
 type Solved = ComputedSheet;
 
-/** The 3D view and the run and sweep panels, redrawn after the results table (they follow a copy set once the results are painted); their charts show the sheet's display units. */
 /** What the matrix panel needs of the page: the saved revision being edited, whether the caller may write, and the related sheets. */
 interface MatrixContext {
   sheet: { id: string; title: string; revision: number; latestRevision: number };
@@ -46,6 +45,7 @@ interface MatrixContext {
   keep?: (generators: WrittenGenerator[]) => void;
 }
 
+/** The 3D view and the run and sweep panels, redrawn after the results table (they follow a copy set once the results are painted); their charts show the sheet's display units. */
 const SideViews = memo(function SideViews({ solved, units, matrix, source }: { solved: Solved | null; units: DisplayUnits; matrix: MatrixContext; source: ExportSource }) {
   // The run, sweep and matrix panels (and their charts) load once the page is idle, after the sheet is usable.
   const idle = useIdle();
