@@ -7,7 +7,7 @@ import type { PlainSheetResult } from '../lib/kinematics';
 import type { DerivationEntry } from '../lib/sheet/derivation';
 import { evaluateSheet } from '../lib/sheet/evaluate';
 import { readDocument, type DocumentReadings } from '../lib/sheet/readings';
-import type { SheetIssue } from '../lib/sheet/schema';
+import { createEditReader, type SheetIssue } from '../lib/sheet/schema';
 import type { SheetDocument } from '../lib/sheet/types';
 
 export interface ComputeRequest {
@@ -37,6 +37,9 @@ export type ComputeReply =
   | { type: 'computed'; id: number; ok: false; issues: SheetIssue[]; readings: DocumentReadings; elapsedMs: number }
   | { type: 'refused'; message: string };
 
+/** The worker's documents come from one editor, each an edit of the one before. */
+const read = createEditReader();
+
 function isComputeRequest(message: unknown): message is ComputeRequest {
   if (message === null || typeof message !== 'object') return false;
   const { type, id, derive } = message as Record<string, unknown>;
@@ -49,11 +52,11 @@ export function computeSheet(message: unknown, now: () => number = () => perform
   const started = now();
   const readings = readDocument(message.document);
   if (message.derive === false) {
-    const plain = evaluateSheet(message.document);
+    const plain = evaluateSheet(message.document, { read });
     if (!plain.ok) return { type: 'computed', id: message.id, ok: false, issues: plain.error.issues, readings, elapsedMs: now() - started };
     return { type: 'computed', id: message.id, ok: true, document: plain.value.doc, result: plain.value.result, readings, elapsedMs: now() - started };
   }
-  const evaluated = evaluateSheet(message.document, { derive: true });
+  const evaluated = evaluateSheet(message.document, { derive: true, read });
   if (!evaluated.ok) return { type: 'computed', id: message.id, ok: false, issues: evaluated.error.issues, readings, elapsedMs: now() - started };
   const { doc, result, derivation } = evaluated.value;
   return { type: 'computed', id: message.id, ok: true, document: doc, result, derivation, readings, elapsedMs: now() - started };
@@ -75,7 +78,7 @@ export function computeSheetInSteps(message: unknown, now: () => number = () => 
   if (!isComputeRequest(message) || message.derive !== false) return { first: computeSheet(message, now) };
   const started = now();
   const readings = readDocument(message.document);
-  const evaluated = evaluateSheet(message.document, { graspQualityLater: true });
+  const evaluated = evaluateSheet(message.document, { graspQualityLater: true, read });
   const elapsedMs = now() - started;
   if (!evaluated.ok) return { first: { type: 'computed', id: message.id, ok: false, issues: evaluated.error.issues, readings, elapsedMs } };
   const { id } = message;

@@ -9,7 +9,7 @@ import { fail, succeed, type DomainError, type Result } from '../result';
 import { commandedRates } from './commanded';
 import { deriveSheet, type DerivationEntry } from './derivation';
 import { knownSheetGraspQuality, sheetGraspQuality } from './grasp-quality-cache';
-import { formatIssuePath, parseSheet, type SheetIssue } from './schema';
+import { formatIssuePath, parseSheet, type SheetIssue, type SheetReader } from './schema';
 import type { SheetSummary } from './summary';
 import type { SheetDocument } from './types';
 
@@ -48,6 +48,8 @@ export interface EvaluateOptions {
    * once: it is the one costly part (milliseconds), and any move of a contact asks for it anew. Ignored with derive.
    */
   graspQualityLater?: boolean;
+  /** Reads the document (parseSheet when absent): the compute worker's edit reader (createEditReader) reads an edit by its changed field. */
+  read?: SheetReader;
 }
 
 /** The stored summary of a solved sheet: finger count, worst warning severity, the sorted distinct warning codes and how many were raised. */
@@ -148,7 +150,7 @@ function withGraspQuality(doc: SheetDocument, solved: SheetResult, result: Plain
 export function evaluateSheet(input: unknown, options: EvaluateOptions & { derive: true }): Result<DerivedSheetEvaluation, EvaluationError>;
 export function evaluateSheet(input: unknown, options?: EvaluateOptions): Result<SheetEvaluation, EvaluationError>;
 export function evaluateSheet(input: unknown, options: EvaluateOptions = {}): Result<SheetEvaluation | DerivedSheetEvaluation, EvaluationError> {
-  const parsed = parseSheet(input);
+  const parsed = (options.read ?? parseSheet)(input);
   if (!parsed.ok) {
     return fail({ kind: 'invalid', stage: 'document', message: parsed.issues[0]?.message ?? 'Invalid sheet document.', issues: parsed.issues });
   }

@@ -26,6 +26,7 @@ import type {
 import { ANGLE_UNITS, ANGULAR_SPEED_UNITS, DEFAULT_DISPLAY_UNITS, LENGTH_UNITS, type DisplayUnits } from './display-units';
 import {
   createExpressionBudget,
+  expressionOperations,
   MAX_EXPRESSION_LENGTH,
   QUANTITY_KINDS,
   parseQuantity,
@@ -851,11 +852,14 @@ export function prepareSheetReader(): typeof sheetSchema {
 
 const missingMessage = (issue: z.core.$ZodRawIssue) => (issue.code === 'invalid_type' && issue.input === undefined ? MISSING : undefined);
 
-/**
- * Reads an untrusted sheet document (JSON value) into a SheetDocument in SI units, or lists
- * located issues. Quantity fields may be expressions over the document's `variables`.
- */
-export function parseSheet(input: unknown): ParseSheetResult {
+/** A document read, with the operations its expressions left of the sheet's budget when it was accepted. */
+interface SheetRead {
+  result: ParseSheetResult;
+  remaining: number;
+  scope: VariableScope | undefined;
+}
+
+function readSheet(input: unknown): SheetRead {
   const budget = createExpressionBudget();
   const variables = readDocumentVariables(input, budget);
   const leftForFields = budget.remaining;
@@ -874,13 +878,219 @@ export function parseSheet(input: unknown): ParseSheetResult {
     activeVariables = undefined;
     activeBudget = undefined;
   }
+  const read = (parsed: ParseSheetResult): SheetRead => ({ result: parsed, remaining: budget.remaining, scope: variables.scope });
   if (result.success && variables.issues.length === 0) {
     const contactIssue = convertContactTwist(result.data);
-    if (contactIssue) return { ok: false, issues: [contactIssue] };
+    if (contactIssue) return read({ ok: false, issues: [contactIssue] });
     const sweepIssues = result.data.sweep ? sweepEndIssues(result.data, result.data.sweep) : [];
-    return sweepIssues.length === 0 ? { ok: true, doc: result.data } : { ok: false, issues: sweepIssues };
+    return read(sweepIssues.length === 0 ? { ok: true, doc: result.data } : { ok: false, issues: sweepIssues });
   }
   const issues: SheetIssue[] = variables.issues.slice(0, MAX_SHEET_ISSUES);
   if (!result.success) flattenIssues(result.error.issues, [], issues);
-  return { ok: false, issues };
+  return read({ ok: false, issues });
+}
+
+/**
+ * Reads an untrusted sheet document (JSON value) into a SheetDocument in SI units, or lists
+ * located issues. Quantity fields may be expressions over the document's `variables`.
+ */
+export function parseSheet(input: unknown): ParseSheetResult {
+  return readSheet(input).result;
+}
+
+/** Matches any index of a list in an EditableField's path. */
+const ANY_INDEX = -1;
+
+/**
+ * A field that the read document holds at the same path as the written one, with a value its own schema gives and no
+ * other field's check reads: a change of it alone is read by that schema alone. `schema` gives the field's schema in
+ * the last document read (undefined when that document reads the field some other way).
+ */
+interface EditableField {
+  path: readonly (string | typeof ANY_INDEX)[];
+  schema: (doc: SheetDocument) => z.ZodType<number> | undefined;
+}
+
+const always = (schema: z.ZodType<number>) => () => schema;
+/** The object's pose and twist pass through as written only while the twist is written about the origin in the palm frame. */
+const whileTwistAtOrigin = (schema: z.ZodType<number>) => (doc: SheetDocument) => (doc.object.twist.entered === undefined ? schema : undefined);
+const SHAPE_RADIUS: Partial<Record<ObjectShape['kind'], z.ZodType<number>>> = { sphere: positiveLength, cylinder: positiveLength, capsule: positiveLength };
+const SHAPE_HALF_LENGTH: Partial<Record<ObjectShape['kind'], z.ZodType<number>>> = { cylinder: positiveLength, capsule: nonNegativeLength };
+
+const EDITABLE_FIELDS: readonly EditableField[] = [
+  { path: ['hand', 'fingers', ANY_INDEX, 'roller', 'radius'], schema: always(positiveLength) },
+  { path: ['hand', 'fingers', ANY_INDEX, 'roller', 'halfWidth'], schema: always(positiveLength) },
+  { path: ['hand', 'fingers', ANY_INDEX, 'roller', 'center', ANY_INDEX], schema: always(length) },
+  { path: ['hand', 'fingers', ANY_INDEX, 'joints', ANY_INDEX, 'angle'], schema: always(angle) },
+  { path: ['hand', 'fingers', ANY_INDEX, 'joints', ANY_INDEX, 'point', ANY_INDEX], schema: always(length) },
+  { path: ['hand', 'fingers', ANY_INDEX, 'joints', ANY_INDEX, 'rateLimit'], schema: always(positiveAngularSpeed) },
+  { path: ['object', 'shape', 'radius'], schema: (doc) => SHAPE_RADIUS[doc.object.shape.kind] },
+  { path: ['object', 'shape', 'halfLength'], schema: (doc) => SHAPE_HALF_LENGTH[doc.object.shape.kind] },
+  { path: ['object', 'pose', 'position', ANY_INDEX], schema: whileTwistAtOrigin(length) },
+  { path: ['object', 'twist', 'linear', ANY_INDEX], schema: whileTwistAtOrigin(speed) },
+  { path: ['object', 'twist', 'angular', ANY_INDEX], schema: whileTwistAtOrigin(angularSpeed) },
+  { path: ['object', 'acceleration', 'linear', ANY_INDEX], schema: always(acceleration) },
+  { path: ['object', 'acceleration', 'angular', ANY_INDEX], schema: always(angularAcceleration) },
+  { path: ['motion', 'target', 'position', ANY_INDEX], schema: always(length) },
+  { path: ['motion', 'run', 'gain'], schema: always(positiveRate) },
+  { path: ['motion', 'run', 'dt'], schema: always(positiveTime) },
+  { path: ['motion', 'run', 'positionTolerance'], schema: always(positiveLength) },
+  { path: ['motion', 'run', 'angleTolerance'], schema: always(positiveAngle) },
+  { path: ['solver', 'damping'], schema: always(damping) },
+  { path: ['solver', 'axisDistance'], schema: always(nonNegativeLength) },
+  { path: ['solver', 'minTangentialSpeed'], schema: always(nonNegativeSpeed) },
+  { path: ['solver', 'contactTolerance'], schema: always(nonNegativeLength) },
+];
+
+function editableSchema(path: readonly (string | number)[], doc: SheetDocument): z.ZodType<number> | undefined {
+  const field = EDITABLE_FIELDS.find((candidate) =>
+    candidate.path.length === path.length && candidate.path.every((segment, i) => (segment === ANY_INDEX ? typeof path[i] === 'number' : segment === path[i])));
+  return field?.schema(doc);
+}
+
+/** Where two JSON trees differ, when they differ in one value that is not a list or an object. */
+interface TreeDifference {
+  at: (string | number)[] | undefined;
+  /** They differ in more than one value, in shape, or `next` holds something other than JSON. */
+  more: boolean;
+}
+
+const isPlainRecord = (value: object): value is Record<string, unknown> => {
+  const prototype = Object.getPrototypeOf(value);
+  return prototype === Object.prototype || prototype === null;
+};
+
+/** Compares `next` with `previous` (a JSON tree) below `path` (a stack, as it is on return) and notes the difference in `found`. */
+function compareTrees(previous: unknown, next: unknown, path: (string | number)[], found: TreeDifference): void {
+  const previousIsTree = previous !== null && typeof previous === 'object';
+  const nextIsTree = next !== null && typeof next === 'object';
+  if (!previousIsTree || !nextIsTree) {
+    // Object.is: -0 is read as written, so a sign is a change.
+    if (Object.is(previous, next)) return;
+    if (previousIsTree || nextIsTree || found.at !== undefined) found.more = true;
+    else found.at = [...path];
+    return;
+  }
+  if (Array.isArray(previous)) {
+    if (!Array.isArray(next) || next.length !== previous.length) {
+      found.more = true;
+      return;
+    }
+    for (let i = 0; i < next.length && !found.more; i++) {
+      path.push(i);
+      compareTrees(previous[i], next[i], path, found);
+      path.pop();
+    }
+    return;
+  }
+  if (Array.isArray(next) || !isPlainRecord(next)) {
+    found.more = true;
+    return;
+  }
+  const before = previous as Record<string, unknown>;
+  const keys = Object.keys(next);
+  if (keys.length !== Object.keys(before).length) {
+    found.more = true;
+    return;
+  }
+  for (let i = 0; i < keys.length && !found.more; i++) {
+    const key = keys[i];
+    if (!Object.hasOwn(before, key)) {
+      found.more = true;
+      return;
+    }
+    path.push(key);
+    compareTrees(before[key], next[key], path, found);
+    path.pop();
+  }
+}
+
+/** A copy of a JSON tree that nobody else holds. */
+function copyTree(value: unknown): unknown {
+  if (value === null || typeof value !== 'object') return value;
+  if (Array.isArray(value)) return value.map(copyTree);
+  const copy: Record<string, unknown> = {};
+  for (const key of Object.keys(value)) copy[key] = copyTree((value as Record<string, unknown>)[key]);
+  return copy;
+}
+
+/** `tree` with `value` at `path`: the objects and lists on the path are copied, everything else is shared. */
+function withValueAt(tree: unknown, path: readonly (string | number)[], depth: number, value: unknown): unknown {
+  if (depth === path.length) return value;
+  const key = path[depth];
+  if (Array.isArray(tree)) {
+    const copy = tree.slice();
+    copy[key as number] = withValueAt(tree[key as number], path, depth + 1, value);
+    return copy;
+  }
+  const record = tree as Record<string, unknown>;
+  return { ...record, [key]: withValueAt(record[key], path, depth + 1, value) };
+}
+
+/** What an edit reader keeps of the last document it accepted. */
+interface AcceptedSheet {
+  /** The document as written (a copy of its own). */
+  written: unknown;
+  doc: SheetDocument;
+  remaining: number;
+  scope: VariableScope | undefined;
+}
+
+/** Reads a sheet document as parseSheet does; see createEditReader. */
+export type SheetReader = (input: unknown) => ParseSheetResult;
+
+/**
+ * A reader for the documents of one editor, which differ from the last one by an edit: a document that differs from the
+ * last one accepted in one field of EDITABLE_FIELDS alone is read by that field's schema alone, on what the last reading
+ * left of the expression budget, and gives the last document with that value; every other document is read whole by
+ * parseSheet, as is a field its schema refuses (so every issue is zod's own, located as ever). The documents it gives
+ * share the parts an edit did not change, so nobody may change them.
+ */
+export function createEditReader(): SheetReader {
+  let accepted: AcceptedSheet | undefined;
+  const readWhole = (input: unknown): ParseSheetResult => {
+    const read = readSheet(input);
+    if (read.result.ok) accepted = { written: copyTree(input), doc: read.result.doc, remaining: read.remaining, scope: read.scope };
+    return read.result;
+  };
+  return (input) => {
+    const last = accepted;
+    // A twist about a finger's contact and a sweep's ends are read from the whole hand, so any change reads the whole document.
+    if (last === undefined || last.doc.sweep !== undefined || last.doc.object.twist.entered?.contact !== undefined) return readWhole(input);
+    const found: TreeDifference = { at: undefined, more: false };
+    compareTrees(last.written, input, [], found);
+    if (found.more) return readWhole(input);
+    const path = found.at;
+    if (path === undefined) return { ok: true, doc: last.doc };
+    const schema = editableSchema(path, last.doc);
+    if (schema === undefined) return readWhole(input);
+    let holder = last.written as Record<string | number, unknown>;
+    for (let i = 0; i < path.length - 1; i++) holder = holder[path[i]] as Record<string | number, unknown>;
+    const key = path[path.length - 1];
+    const before = holder[key];
+    const value = readAt(input, path);
+    const budget = { remaining: last.remaining + (typeof before === 'string' ? expressionOperations(before) : 0) };
+    activeVariables = last.scope;
+    activeBudget = budget;
+    let read;
+    try {
+      read = schema.safeParse(value, { error: missingMessage });
+    } finally {
+      activeVariables = undefined;
+      activeBudget = undefined;
+    }
+    // With nothing left of the budget the whole reading might refuse a later field: it says which.
+    if (!read.success || budget.remaining <= 0) return readWhole(input);
+    holder[key] = value;
+    const doc = withValueAt(last.doc, path, 0, read.data) as SheetDocument;
+    accepted = { written: last.written, doc, remaining: budget.remaining, scope: last.scope };
+    return { ok: true, doc };
+  };
+}
+
+/** The value at `path` in a JSON tree whose path is known to resolve. */
+function readAt(tree: unknown, path: readonly (string | number)[]): unknown {
+  let node = tree;
+  for (const key of path) node = (node as Record<string | number, unknown>)[key];
+  return node;
 }

@@ -272,6 +272,12 @@ function compileExpression(text: string): Compiled {
   return entry;
 }
 
+/** The operations a text takes of a sheet's budget when it is read as a quantity (none when it does not read). */
+export function expressionOperations(text: string): number {
+  const entry = compileExpression(text.trim());
+  return 'error' in entry ? 0 : entry.nodes;
+}
+
 /** mathjs messages in the product's words ("Undefined symbol foo" names an unknown unit or variable). */
 function readableMathError(error: unknown): string {
   const text = error instanceof Error ? error.message : String(error);
