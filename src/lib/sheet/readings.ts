@@ -31,17 +31,58 @@ export interface DocumentReadings {
 /** Free text of the document, never a quantity. */
 const TEXT_FIELDS: ReadonlySet<string> = new Set(['title', 'description', 'notes', 'variables', 'tags', 'format']);
 
-/** Reads every string under `value`, whose path is written `pathText` ('' for the document itself), into `out`. */
-function collect(value: unknown, pathText: string, scope: VariableScope, out: Record<string, FieldReading>): void {
+/**
+ * What a path of the documents read last held: its text, the scope it was read over and its reading (null when it does
+ * not read as a quantity), and the paths below it. An edit changes a text or two, so every other text's reading is the
+ * one its path already holds, and no path text is written anew.
+ */
+interface PathReading {
+  readonly path: string;
+  text: string | undefined;
+  scope: VariableScope | undefined;
+  reading: FieldReading | null;
+  below: Map<string | number, PathReading> | undefined;
+}
+
+/** Most paths remembered: a document has a few hundred; past this (keys nobody writes twice) the memory starts afresh. */
+const MAX_PATH_READINGS = 20_000;
+let pathCount = 0;
+let rootReading: PathReading = { path: '', text: undefined, scope: undefined, reading: null, below: undefined };
+
+function pathBelow(node: PathReading, key: string | number): PathReading {
+  node.below ??= new Map();
+  let child = node.below.get(key);
+  if (child === undefined) {
+    child = { path: appendPathKey(node.path, key), text: undefined, scope: undefined, reading: null, below: undefined };
+    node.below.set(key, child);
+    pathCount += 1;
+  }
+  return child;
+}
+
+function readingOfText(text: string, scope: VariableScope): FieldReading | null {
+  if (text.trim() === '' || text.length > MAX_EXPRESSION_LENGTH) return null;
+  const read = readQuantityText(text, scope);
+  return read.ok ? { text, kind: read.kind, value: read.value } : null;
+}
+
+/** Reads every string under `value`, whose path `node` holds ('' for the document itself), into `out`. */
+function collect(value: unknown, node: PathReading, scope: VariableScope, out: Record<string, FieldReading>): void {
   if (typeof value === 'string') {
-    if (value.trim() === '' || value.length > MAX_EXPRESSION_LENGTH) return;
-    const read = readQuantityText(value, scope);
-    if (read.ok) out[pathText === '' ? '(document)' : pathText] = { text: value, kind: read.kind, value: read.value };
+    if (node.text !== value || node.scope !== scope) {
+      node.reading = readingOfText(value, scope);
+      node.text = value;
+      node.scope = scope;
+    }
+    if (node.reading !== null) out[node.path === '' ? '(document)' : node.path] = node.reading;
     return;
   }
   if (value === null || typeof value !== 'object') return;
-  if (Array.isArray(value)) value.forEach((item, index) => collect(item, appendPathKey(pathText, index), scope, out));
-  else for (const key of Object.keys(value)) if (pathText !== '' || !TEXT_FIELDS.has(key)) collect((value as Record<string, unknown>)[key], appendPathKey(pathText, key), scope, out);
+  if (Array.isArray(value)) {
+    for (let index = 0; index < value.length; index++) collect(value[index], pathBelow(node, index), scope, out);
+    return;
+  }
+  for (const key of Object.keys(value)) if (node.path !== '' || !TEXT_FIELDS.has(key)) collect((value as Record<string, unknown>)[key], pathBelow(node, key), scope, out);
 }
 
 /**
@@ -64,7 +105,11 @@ export function readDocument(document: unknown): DocumentReadings {
   const text = document !== null && typeof document === 'object' ? (document as { variables?: unknown }).variables : undefined;
   const variablesText = typeof text === 'string' ? text : '';
   const parsed = readSheetVariables(variablesText);
+  if (pathCount > MAX_PATH_READINGS) {
+    rootReading = { path: '', text: undefined, scope: undefined, reading: null, below: undefined };
+    pathCount = 0;
+  }
   const fields: Record<string, FieldReading> = {};
-  collect(document, '', parsed.values, fields);
+  collect(document, rootReading, parsed.values, fields);
   return { fields, variables: readVariables(variablesText, parsed) };
 }
