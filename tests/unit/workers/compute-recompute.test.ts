@@ -9,6 +9,7 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it, vi } from 'vitest';
 import { createRandom, nextUniform } from '../../../src/lib/kinematics/random';
+import { createEditReader, parseSheet } from '../../../src/lib/sheet/schema';
 import { computeSheetInSteps, type ComputeReply } from '../../../src/workers/compute-protocol';
 
 type Doc = Record<string, any>;
@@ -54,6 +55,20 @@ const EDITS: Edit[] = [
   { name: 'a duplicate finger name (an issue)', apply: (doc) => { doc.hand.fingers[doc.hand.fingers.length - 1].name = doc.hand.fingers[0].name; } },
   { name: 'variables used by a field', apply: (doc, pick) => { doc.variables = `r = ${20 + pick(10)} mm\nspin = ${pick(40)} deg/s`; doc.object.shape.radius = 'r + 1 mm'; doc.object.twist.angular[2] = 'spin'; } },
   { name: 'a variables line that does not read (an issue)', apply: (doc) => { doc.variables = `${doc.variables ?? ''}\nbad = 2 +`; } },
+  // Fields the worker reads by their own schema when nothing else changed (createEditReader), and edits around them.
+  { name: 'roller centre', apply: (doc, pick) => { doc.hand.fingers[pick(doc.hand.fingers.length)].roller.center[pick(3)] = (pick(9) - 4) / 1000; } },
+  { name: 'joint point, a signed zero', apply: (doc, pick) => { doc.hand.fingers[pick(doc.hand.fingers.length)].joints[0].point[0] = pick(2) === 0 ? -0 : 0; } },
+  { name: 'joint rate limit', apply: (doc, pick) => { doc.hand.fingers[pick(doc.hand.fingers.length)].joints[pick(3)].rateLimit = `${1 + pick(30)} rad/s`; } },
+  { name: 'a long rate limit (past the operations limit when the others are long)', apply: (doc, pick) => { doc.hand.fingers[pick(doc.hand.fingers.length)].joints[pick(3)].rateLimit = longRate(20 + pick(300)); } },
+  { name: 'object height', apply: (doc, pick) => { doc.object.pose.position[2] = `${85 + pick(10)} mm`; } },
+  { name: 'object half length', apply: (doc, pick) => { doc.object.shape.halfLength = `${5 + pick(10)} mm`; } },
+  { name: 'object linear speed', apply: (doc, pick) => { doc.object.twist.linear[pick(3)] = `${pick(20) - 10} mm/s`; } },
+  { name: 'twist in the object frame', apply: (doc) => { doc.object.twist.frame = 'object'; } },
+  { name: 'object acceleration', apply: (doc, pick) => { doc.object.acceleration = { linear: [0, 0, (pick(10) - 5) / 10], angular: [0, 0, pick(10)] }; } },
+  { name: 'target position', apply: (doc, pick) => { doc.motion.target.position[pick(3)] = `${pick(20) - 10} mm`; } },
+  { name: 'run step', apply: (doc, pick) => { doc.motion.run.dt = `${1 + pick(9)} ms`; } },
+  { name: 'solver contact tolerance', apply: (doc, pick) => { doc.solver = { ...doc.solver, contactTolerance: `${pick(3) / 10} mm` }; } },
+  { name: 'a joint angle that is not a quantity (an issue)', apply: (doc) => { doc.hand.fingers[0].joints[1].angle = true; } },
   { name: 'title', apply: (doc, pick) => { doc.title = `Housing ${pick(1000)}`; } },
   { name: 'a finger removed', apply: (doc) => { if (doc.hand.fingers.length > 1) doc.hand.fingers.pop(); } },
   { name: 'twist about a finger contact', apply: (doc) => { doc.object.twist.about = { contact: doc.hand.fingers[0].name }; } },
@@ -87,5 +102,43 @@ describe('the compute worker recomputing after edits', () => {
     // The run went through issues and results alike.
     expect(failed).toBeGreaterThan(5);
     expect(failed).toBeLessThan(steps.length - 5);
+  });
+
+  it('reads a run of one-field edits as a whole reading does, sharing what the edit left alone', () => {
+    const source = createRandom(20261204);
+    const pick = (n: number) => Math.floor(nextUniform(source) * n);
+    // Values as typed: texts with units, plain SI numbers, a signed zero, and now and then one the field refuses.
+    const length = () => [`${pick(40) - 20} mm`, (pick(40) - 20) / 1000, -0, '-3 mm * 0', 'r'][pick(5)];
+    const positive = (unit: string) => [`${1 + pick(20)} ${unit}`, 1 + pick(5), `-${1 + pick(5)} ${unit}`, `${pick(3)} ${unit}`][pick(4)];
+    const fields: ((doc: Doc) => void)[] = [
+      (doc) => { doc.hand.fingers[pick(3)].roller.radius = positive('mm'); },
+      (doc) => { doc.hand.fingers[pick(3)].roller.center[pick(3)] = length(); },
+      (doc) => { doc.hand.fingers[pick(3)].joints[pick(3)].angle = [`${pick(60) - 30} deg`, (pick(10) - 5) / 10, -0, '12 mm'][pick(4)]; },
+      (doc) => { doc.hand.fingers[pick(3)].joints[pick(3)].point[pick(3)] = length(); },
+      (doc) => { doc.hand.fingers[pick(3)].joints[pick(3)].rateLimit = positive('rad/s'); },
+      (doc) => { doc.object.shape.radius = positive('mm'); },
+      (doc) => { doc.object.shape.halfLength = positive('mm'); },
+      (doc) => { doc.object.pose.position[pick(3)] = length(); },
+      (doc) => { doc.object.twist.linear[pick(3)] = [`${pick(20) - 10} mm/s`, -0, '1 rad/s'][pick(3)]; },
+      (doc) => { doc.object.twist.angular[pick(3)] = [`${pick(90) - 45} deg/s`, -0, '1 m/s'][pick(3)]; },
+      (doc) => { doc.motion.target.position[pick(3)] = length(); },
+      (doc) => { doc.motion.run.gain = positive('/s'); },
+      (doc) => { doc.motion.run.dt = positive('ms'); },
+    ];
+    const read = createEditReader();
+    let doc: Doc = JSON.parse(demoText);
+    let last = read(structuredClone(doc));
+    let shared = 0;
+    for (let step = 0; step < 300; step++) {
+      fields[pick(fields.length)]!(doc);
+      const next = read(structuredClone(doc));
+      const whole = parseSheet(structuredClone(doc));
+      expect(next, `step ${step}`).toStrictEqual(whole);
+      if (next.ok && last.ok && next.doc.motion.run === last.doc.motion.run && next.doc.object === last.doc.object) shared += 1;
+      if (!next.ok && pick(2) === 0) doc = JSON.parse(demoText);
+      last = next;
+    }
+    // Most edits were read by their field alone: the parts they left alone are the last document's own.
+    expect(shared).toBeGreaterThan(50);
   });
 });
