@@ -1,4 +1,4 @@
-import { keepPreviousData, useQuery, useQueryClient } from '@tanstack/react-query';
+import { keepPreviousData, useQuery } from '@tanstack/react-query';
 import { createColumnHelper, flexRender, getCoreRowModel, useReactTable, type Row, type SortingState } from '@tanstack/react-table';
 import { memo, useEffect, useMemo, useState } from 'react';
 import { formatWhen, requestJson } from '../../lib/client/api';
@@ -175,38 +175,28 @@ const SheetRows = memo(function SheetRows({ rows }: { rows: Row<Wire<SheetRow>>[
   ));
 });
 
-/** The list page for `filters`: its cache key and request. */
-function listQuery(teamId: string, filters: Filters) {
-  return {
-    queryKey: ['sheets', teamId, filters],
-    // A query left behind by a newer filter is aborted (react-query aborts the signal once no one reads the query), so no stale answer shows or holds the connection.
-    queryFn: ({ signal }: { signal: AbortSignal }) => {
-      const params = new URLSearchParams({ team: teamId, warnings: filters.warnings, sort: filters.sort, page: String(filters.page), pageSize: String(filters.pageSize) });
-      if (filters.q) params.set('q', filters.q);
-      if (filters.author) params.set('author', filters.author);
-      return requestJson<Wire<SheetListPage>>(`/api/sheets?${params}`, { signal });
-    },
-  };
-}
-
 function SheetList({ teamId, teamName, canWrite, authors, initialSearch }: SheetTableProps) {
   const [filters, setFilters] = useState<Filters>(() => readFilters(initialSearch));
   const [search, setSearch] = useState(filters.q);
   const update = (change: Partial<Filters>) => setFilters((current) => ({ ...current, page: 1, ...change }));
 
-  const queryClient = useQueryClient();
   // Every key searches at once (the list answers well within a keystroke's pause); the query below keeps only the newest answer.
-  // The request goes out in the keystroke's own task, before the list renders: the query then finds it under way.
   const typeSearch = (text: string) => {
     setSearch(text);
-    const q = text.trim();
-    if (q === filters.q) return;
-    const next = { ...filters, q, page: 1 };
-    void queryClient.prefetchQuery(listQuery(teamId, next));
-    setFilters(next);
+    setFilters((current) => (current.q === text.trim() ? current : { ...current, q: text.trim(), page: 1 }));
   };
 
-  const query = useQuery({ ...listQuery(teamId, filters), placeholderData: keepPreviousData });
+  const query = useQuery({
+    queryKey: ['sheets', teamId, filters],
+    // A query left behind by a newer filter is aborted (react-query aborts the signal once no one reads the query), so no stale answer shows or holds the connection.
+    queryFn: ({ signal }) => {
+      const params = new URLSearchParams({ team: teamId, warnings: filters.warnings, sort: filters.sort, page: String(filters.page), pageSize: String(filters.pageSize) });
+      if (filters.q) params.set('q', filters.q);
+      if (filters.author) params.set('author', filters.author);
+      return requestJson<Wire<SheetListPage>>(`/api/sheets?${params}`, { signal });
+    },
+    placeholderData: keepPreviousData,
+  });
 
   // Declared after the query so that its request goes out first: replacing the URL takes the browser several milliseconds.
   useEffect(() => {
