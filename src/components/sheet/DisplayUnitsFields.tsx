@@ -1,4 +1,4 @@
-import { useId } from 'react';
+import { memo, useId } from 'react';
 import { DISPLAY_UNIT_CHOICES, type DisplayUnits } from '../../lib/sheet/display-units';
 import { useIssueAt, useSheetFields } from './editor-context';
 import { selectInput, smallLabel } from './sheet-styles';
@@ -23,8 +23,11 @@ function UnitChoice({ part }: { part: keyof DisplayUnits }) {
   );
 }
 
-/** The sheet's one choice of display units: results, derivation, comparison and report follow it; inputs and exports stay SI. */
-export default function DisplayUnitsFields() {
+/**
+ * The sheet's one choice of display units: results, derivation, comparison and report follow it; inputs and exports stay SI.
+ * Without props, it re-renders only through the units it reads, not with every edit of the sheet.
+ */
+const DisplayUnitsFields = memo(function DisplayUnitsFields() {
   return (
     <fieldset className="min-w-0" data-display-units>
       <legend className="text-[11px] font-semibold text-ink">show numbers in (inputs and exports stay SI)</legend>
@@ -35,4 +38,6 @@ export default function DisplayUnitsFields() {
       </div>
     </fieldset>
   );
-}
+});
+
+export default DisplayUnitsFields;

@@ -2,7 +2,7 @@ import { memo, useId } from 'react';
 import { getAt, setAt, type DocumentPath } from '../../lib/sheet/document-path';
 import { COMMANDED_SOLUTIONS, DEFAULT_COMMANDED } from '../../lib/sheet/sheet-constants';
 import type { QuantityKind } from '../../lib/sheet/quantity-kinds';
-import { useCurrentDocument, useDocumentAt, useIssueAt, useQuantityFeedback, useSheetFields } from './editor-context';
+import { useCurrentDocument, useDocumentAt, useDocumentSelect, useIssueAt, useQuantityFeedback, useSheetFields } from './editor-context';
 import { selectInput } from './sheet-styles';
 import { OrientationFields } from './ObjectSection';
 import { Choice, ComponentHeads, HIDDEN_LABELS, PlainNumber, Quantity, QuantityVector, Toggle } from './fields';
@@ -104,6 +104,13 @@ const ORIGIN = 'the object origin';
 const POINT = 'a point';
 const contactOption = (finger: string) => `the contact of ${finger}`;
 
+/** The named fingers' names, in order, as JSON text. */
+function fingerNamesText(document: Record<string, unknown>): string {
+  const fingers = getAt(document, ['hand', 'fingers']);
+  const names = (Array.isArray(fingers) ? fingers : []).map((f: unknown) => (f !== null && typeof f === 'object' ? (f as { name?: unknown }).name : undefined));
+  return JSON.stringify(names.filter((n): n is string => typeof n === 'string' && n !== ''));
+}
+
 /** What the entered twist is about: the object origin, a point typed in, or a finger's contact, which the sheet finds before converting. */
 function TwistReference() {
   const { update, readOnly } = useSheetFields();
@@ -113,9 +120,8 @@ function TwistReference() {
   const contactIssue = useIssueAt([...path, 'contact']);
   const wholeIssue = useIssueAt(path);
   const issue = contactIssue ?? (Array.isArray(about) ? undefined : wholeIssue);
-  const fingers = useDocumentAt(['hand', 'fingers']);
-  const names = (Array.isArray(fingers) ? fingers : []).map((f: unknown) => (f !== null && typeof f === 'object' ? (f as { name?: unknown }).name : undefined))
-    .filter((n): n is string => typeof n === 'string' && n !== '');
+  // The names as one text: the choice then re-renders when a finger is renamed, added or removed, not on every edit of a finger.
+  const names = JSON.parse(useDocumentSelect(fingerNamesText)) as string[];
   const contact = about !== null && typeof about === 'object' && !Array.isArray(about) ? (about as { contact?: unknown }).contact : undefined;
   const current = about === undefined ? ORIGIN : typeof contact === 'string' ? contactOption(contact) : POINT;
   const options = [ORIGIN, POINT, ...names.map(contactOption)];

@@ -1,7 +1,7 @@
 import { defaultKeymap, history, historyKeymap } from '@codemirror/commands';
 import { EditorState, RangeSetBuilder, StateEffect, StateField } from '@codemirror/state';
 import { Decoration, EditorView, keymap, lineNumbers, WidgetType, type DecorationSet } from '@codemirror/view';
-import { useEffect, useRef } from 'react';
+import { memo, useEffect, useRef } from 'react';
 import type { VariableReadings } from '../../lib/sheet/readings';
 import { TypedTextEcho } from '../../lib/view/typed-text-echo';
 
@@ -69,7 +69,7 @@ const theme = EditorView.theme({
 });
 
 /** The variables text in a code editor; each line shows its value or, inline, what is wrong with it (as the evaluation read this text). */
-export default function VariablesEditor({
+function VariablesEditor({
   text,
   reading,
   onChange,
@@ -129,3 +129,6 @@ export default function VariablesEditor({
 
   return <div ref={host} />;
 }
+
+/** Redrawn only when its text, reading or access change, not on every edit elsewhere in the sheet. */
+export default memo(VariablesEditor);

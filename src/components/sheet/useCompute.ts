@@ -1,4 +1,5 @@
 import { useEffect, useRef, useState } from 'react';
+import { flushSync } from 'react-dom';
 import type { ComputeReply, ComputeRequest } from '../../workers/compute-protocol';
 import { afterNextPaint } from './useIdle';
 
@@ -85,9 +86,13 @@ export function useCompute(
       // a grasp quality that follows in a second reply is not part of it.
       if (message.id !== marked.current) performance.mark('slipless:worker-compute', { detail: message.elapsedMs });
       marked.current = message.id;
-      setReply(message);
-      if (message.ok) setLastGood(message);
-      setAnswered(requested.current);
+      // Rendered in this message's own task: left to the scheduler, the render waited a task, and a frame due in between
+      // was drawn without the results, holding them back by a frame.
+      flushSync(() => {
+        setReply(message);
+        if (message.ok) setLastGood(message);
+        setAnswered(requested.current);
+      });
     };
     worker.current = created;
     if (waiting.current) {
