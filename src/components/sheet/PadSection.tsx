@@ -18,7 +18,7 @@ export default function PadSection({
   children: ReactNode;
 }) {
   return (
-    <section id={id} aria-labelledby={`${id}-title`} className="offscreen-lazy grid gap-x-5 border-b border-rule py-5 lg:grid-cols-[minmax(0,1fr)_13rem]">
+    <section id={id} aria-labelledby={`${id}-title`} className="grid gap-x-5 border-b border-rule py-5 lg:grid-cols-[minmax(0,1fr)_13rem]">
       <div className="min-w-0">
         <h2 id={`${id}-title`} className={`${sectionHeading} mb-3 flex items-baseline gap-3`}>
           <span className="num text-graphite">{number}.</span>

@@ -307,7 +307,8 @@ function Editor({ data, evaluation }: { data: SheetPageData; evaluation: string 
         )}
         {readOnly && <p className="mt-3 text-sm text-graphite">Read only: your role can view this sheet but not change it.</p>}
         <div className="mt-4 grid gap-6 xl:grid-cols-[minmax(0,1fr)_30rem]">
-          <div className="pad-grid min-w-0 border-2 border-ink bg-paper/95 px-5" data-pad>
+          {/* Off-screen sections are skipped while the page loads (see .pad-loading in global.css). */}
+          <div className={`pad-grid min-w-0 border-2 border-ink bg-paper/95 px-5${idle ? '' : ' pad-loading'}`} data-pad>
             <PadSection id="sheet-summary" number={0} title="Sheet">
               <div className="grid gap-3 md:grid-cols-2">
                 <TextField path={['title']} label="title" />
