@@ -22,7 +22,7 @@ import SavePanel from './SavePanel';
 import SceneView from './SceneView';
 import TitleBlock from './TitleBlock';
 import { useCompute, type ComputedSheet } from './useCompute';
-import { afterNextPaint, useHydrated, useIdle, whenIdle } from './useIdle';
+import { afterNextPaint, useIdle, whenIdle } from './useIdle';
 import type { ComputeReply } from '../../workers/compute-protocol';
 import WhenSeen from './WhenSeen';
 
@@ -228,7 +228,6 @@ function Editor({ data, evaluation }: { data: SheetPageData; evaluation: string 
   const [deriving, setDeriving] = useState(false);
   const startDeriving = useCallback(() => setDeriving(true), []);
   const idle = useIdle();
-  const hydrated = useHydrated();
   const { reply, lastGood, pending } = useCompute(document, { derive: deriving, initial: first });
   const deferred = usePaintedValue(lastGood);
   // Run and sweep exports name the sheet, the revision the edits started from, and whether there are unsaved edits.
@@ -308,8 +307,7 @@ function Editor({ data, evaluation }: { data: SheetPageData; evaluation: string 
         )}
         {readOnly && <p className="mt-3 text-sm text-graphite">Read only: your role can view this sheet but not change it.</p>}
         <div className="mt-4 grid gap-6 xl:grid-cols-[minmax(0,1fr)_30rem]">
-          {/* Off-screen sections are skipped until the editor has hydrated (see .pad-loading in global.css). */}
-          <div className={`pad-grid min-w-0 border-2 border-ink bg-paper/95 px-5${hydrated ? '' : ' pad-loading'}`} data-pad>
+          <div className="pad-grid min-w-0 border-2 border-ink bg-paper/95 px-5" data-pad>
             <PadSection id="sheet-summary" number={0} title="Sheet">
               <div className="grid gap-3 md:grid-cols-2">
                 <TextField path={['title']} label="title" />

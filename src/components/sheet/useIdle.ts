@@ -28,10 +28,3 @@ export function useIdle(): boolean {
   useEffect(() => (idle ? undefined : whenIdle(() => setIdle(true))), [idle]);
   return idle;
 }
-
-/** False in the server's HTML and while hydrating it, true from the commit after: what only the first frames need. */
-export function useHydrated(): boolean {
-  const [hydrated, setHydrated] = useState(false);
-  useEffect(() => setHydrated(true), []);
-  return hydrated;
-}
