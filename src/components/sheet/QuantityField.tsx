@@ -3,7 +3,7 @@ import { DEFAULT_DISPLAY_UNITS, shownUnit, toShown, type DisplayUnits } from '..
 import { lengthNote, type PlausibleLengthKind } from '../../lib/sheet/plausibility';
 import { QUANTITY_KINDS, type QuantityKind } from '../../lib/sheet/quantity-kinds';
 import type { FieldReading } from '../../lib/sheet/readings';
-import { fieldInput } from './sheet-styles';
+import { fieldInput, fieldReading, readingBare, smallLabel } from './sheet-styles';
 
 type Kind = Exclude<QuantityKind, 'any'>;
 
@@ -70,7 +70,7 @@ function QuantityFieldView({ label, value, kind, onChange, reading, issue, disab
 
   return (
     <div className="min-w-0" data-quantity={path}>
-      <label htmlFor={id} className="block text-[11px] uppercase tracking-wide text-graphite truncate">
+      <label htmlFor={id} className={`${smallLabel} truncate`}>
         {label}
       </label>
       <input
@@ -89,9 +89,9 @@ function QuantityFieldView({ label, value, kind, onChange, reading, issue, disab
       />
       {read !== null && (
         // The reading stays beside a limit the sheet reader refuses (85 m for a roller), so the person sees how the value was read.
-        <span id={`${id}-value`} className="mt-0.5 flex min-w-0 flex-wrap items-baseline gap-x-1 text-[11px] leading-tight text-graphite" data-reading={bare ? 'bare' : 'unit'}>
-          {bare && <span className="font-semibold text-ink">reads as</span>}
-          <span className={`num ${bare ? 'font-semibold text-ink' : ''}`} data-si>
+        <span id={`${id}-value`} className={fieldReading} data-reading={bare ? 'bare' : 'unit'}>
+          {bare && <span className={readingBare}>reads as</span>}
+          <span className={bare ? `num ${readingBare}` : 'num'} data-si>
             {formatted(read)} {si}
           </span>
           {shown !== si && (

@@ -5,14 +5,15 @@ import { DEFAULT_DISPLAY_UNITS, type DisplayUnits } from '../../lib/sheet/displa
 import { displayNumber, displayUnit, displayValue, findOutput, formatShownNumber, labelWithFrame, STEER_FEEDFORWARD_REASONS, type OutputDefinition } from '../../lib/sheet/outputs';
 import { CurvatureTable } from './CurvatureTable';
 import { SafetyCaution } from './SafetyCaution';
+import { resultLabel, resultRow, resultUnit, resultValue } from './sheet-styles';
 
 /** A row re-renders only when its text changes: most rows of the results keep their values across an edit. */
 const Row = memo(function Row({ label, value, unit, test }: { label: string; value: string; unit: string; test?: string }) {
   return (
-    <tr className="border-b border-rule/60">
-      <th scope="row" className="py-0.5 pr-3 text-left font-normal text-graphite">{label}</th>
-      <td className="num py-0.5 pr-2 text-right" data-result={test}>{value}</td>
-      <td className="py-0.5 text-xs text-graphite">{unit}</td>
+    <tr className={resultRow}>
+      <th scope="row" className={resultLabel}>{label}</th>
+      <td className={resultValue} data-result={test}>{value}</td>
+      <td className={resultUnit}>{unit}</td>
     </tr>
   );
 });
@@ -58,7 +59,7 @@ const [fullRank, rankTolerance, driveSingularValues, driveRank, graspSingularVal
 const JointValues = memo(
   function JointValues({ name, finger, joint, cells }: { name: string; finger: number; joint: number; cells: readonly string[] }) {
     return (
-      <tr className="border-b border-rule/60">
+      <tr className={resultRow}>
         <td className="py-0.5">{name}</td>
         {JOINT_COLUMNS.map((column, c) => (
           <td key={column.id} className="num text-right" data-result={column.id === 'full.rates' || column.id === 'commanded.rates' ? `${finger}.${column.id}.${joint}` : undefined}>
@@ -173,8 +174,8 @@ const ResultTables = memo(function ResultTables({ result, units }: { result: Pla
                       <OutputRow id="acceleration.steer.rollAcceleration" result={result} finger={i} units={units} test />
                     </>
                   ) : (
-                    <tr className="border-b border-rule/60">
-                      <td colSpan={3} className="py-0.5 text-xs text-graphite" data-result={`${i}.acceleration.steer.reason`}>
+                    <tr className={resultRow}>
+                      <td colSpan={3} className={resultUnit} data-result={`${i}.acceleration.steer.reason`}>
                         steer-and-roll feed-forward not defined: {STEER_FEEDFORWARD_REASONS[f.acceleration.steer.status]}
                       </td>
                     </tr>

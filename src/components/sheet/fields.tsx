@@ -4,7 +4,7 @@ import type { QuantityKind } from '../../lib/sheet/quantity-kinds';
 import { useDocumentAt, useIssueAt, useQuantityFeedback, useSheetFields } from './editor-context';
 import type { PlausibleLengthKind } from '../../lib/sheet/plausibility';
 import QuantityField, { storedValue } from './QuantityField';
-import { fieldInput, selectInput } from './sheet-styles';
+import { fieldInput, selectInput, smallLabel } from './sheet-styles';
 
 type Kind = Exclude<QuantityKind, 'any'>;
 
@@ -86,7 +86,7 @@ export const PlainNumber = memo(function PlainNumber({ path, label, integer }: {
   const issue = useIssueAt(path);
   return (
     <div className="min-w-0">
-      <label htmlFor={id} className="block text-[11px] uppercase tracking-wide text-graphite">{label}</label>
+      <label htmlFor={id} className={smallLabel}>{label}</label>
       <input
         id={id}
         className={fieldInput}
@@ -126,7 +126,7 @@ export const TextField = memo(function TextField({ path, label }: { path: Docume
   const value = useDocumentAt(path);
   return (
     <div className="min-w-0">
-      <label htmlFor={id} className="block text-[11px] uppercase tracking-wide text-graphite">{label}</label>
+      <label htmlFor={id} className={smallLabel}>{label}</label>
       <input
         id={id}
         className={`${fieldInput} font-sans`}
@@ -153,7 +153,7 @@ export const Choice = memo(function Choice({ path, label, options, onChoose, fal
   const store = (value: string) => update(path, value === fallback && current === undefined ? undefined : value);
   return (
     <div>
-      <label htmlFor={id} className="block text-[11px] uppercase tracking-wide text-graphite">{label}</label>
+      <label htmlFor={id} className={smallLabel}>{label}</label>
       <select
         id={id}
         className={selectInput}

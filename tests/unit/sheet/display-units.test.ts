@@ -117,7 +117,7 @@ describe('numbers in the chosen units', () => {
     const html = renderToStaticMarkup(createElement(ResultsSection, { result, stale: false, units: OTHERS }));
     const rate = result.fingers[0].full.rates[0];
     expect(html).toContain(`data-result="0.full.rates.0">${displayValue(findOutput('full.rates'), rate, OTHERS)}</td>`);
-    expect(html).toContain(`data-result="0.contact.gap">${displayValue(findOutput('contact.gap'), result.fingers[0].contact.gap, OTHERS)}</td><td class="py-0.5 text-xs text-graphite">m</td>`);
+    expect(html).toContain(`data-result="0.contact.gap">${displayValue(findOutput('contact.gap'), result.fingers[0].contact.gap, OTHERS)}</td><td class="result-unit">m</td>`);
     expect(html).toContain('joint rates, rpm, and angles, rad');
   });
 

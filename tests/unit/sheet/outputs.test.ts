@@ -137,7 +137,7 @@ describe('the surfaces that read the catalogue', () => {
     expect(html).toContain('<th class="py-1 text-right font-normal">angle</th><th class="py-1 text-right font-normal">commanded</th><th class="py-1 text-right font-normal">full</th>');
     expect(html).toContain(`data-result="0.commanded.rates.1">${displayValue(findOutput('commanded.rates'), result.commanded!.fingers[0]!.joints[1]!.rate)}</td>`);
     expect(html).toContain('data-testid="commanded-solution" data-solution="steer-and-roll"');
-    expect(html).toContain(`data-result="0.contact.gap">${displayValue(findOutput('contact.gap'), first.contact.gap)}</td><td class="py-0.5 text-xs text-graphite">mm</td>`);
+    expect(html).toContain(`data-result="0.contact.gap">${displayValue(findOutput('contact.gap'), first.contact.gap)}</td><td class="result-unit">mm</td>`);
     expect(html).toContain(`data-result="0.full.rates.0">${displayValue(findOutput('full.rates'), first.full.rates[0])}</td>`);
     expect(html).toContain('data-result="grasp.rank">');
   });
