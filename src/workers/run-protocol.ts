@@ -27,7 +27,7 @@ export type PostReply = (reply: WorkerReply, transfer: ArrayBuffer[]) => void;
 /**
  * Short runs of the sheet, their results dropped, so that its first real run finds the run's code compiled: cold, V8
  * spends its first two runs in a worker interpreting and recompiling (a 2,000-tick run took 600 ms, then 270 ms, then
- * 60 ms in Chromium). The page gives the settings (the sheet's, with fewer ticks), so that they arrive with the same
+ * 60 ms in Chromium at load 13). The page gives the settings (the sheet's, with fewer ticks), so that they arrive with the same
  * hidden class as a job's.
  */
 export interface WarmUp {

@@ -46,7 +46,7 @@ function runKind<K extends 'run-done' | 'sweep-done'>(doneKind: K): WorkerKind<W
   };
 }
 
-/** Ticks of each warm-up run: enough for the run's hot functions to be compiled, a few frames' work for a cold worker. */
+/** Ticks of each warm-up run: enough for the run's hot functions to be compiled, about a tenth of a second's work for a cold worker. */
 const WARM_UP_TICKS = 500;
 
 /** Runs toward the sheet's target, in ticks; a warm-up makes short runs of the expected sheet. */
