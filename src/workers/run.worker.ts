@@ -1,9 +1,8 @@
 /// <reference lib="webworker" />
-/** Runs and sweeps off the main thread; one job per worker, which the page terminates to cancel. */
-import { performJob } from './run-protocol';
+/** Runs and sweeps off the main thread; one job at a time; the page terminates the worker to cancel one. */
+import { createMessageHandler } from './run-protocol';
 
 declare const self: DedicatedWorkerGlobalScope;
 
-self.onmessage = (event: MessageEvent<unknown>) => {
-  performJob(event.data, (reply, transfer) => self.postMessage(reply, { transfer }));
-};
+const handle = createMessageHandler((reply, transfer) => self.postMessage(reply, { transfer }));
+self.onmessage = (event: MessageEvent<unknown>) => handle(event.data);

@@ -77,7 +77,7 @@ function RunResults({ series, stale, units, source }: { series: RunSeries; stale
 
 /** Runs the sheet's closed loop toward motion.target in a worker and plots what happened over time, step by step. */
 export default function RunPanel({ document, units, source }: { document: SheetDocument; units: DisplayUnits; source: ExportSource }) {
-  const { state, start, cancel } = useWorkerJob(RUN_JOBS, { warm: true });
+  const { state, start, cancel } = useWorkerJob(RUN_JOBS, { warmWith: { kind: 'run', document } });
   const ranWith = useRef<SheetDocument | null>(null);
   const run = document.motion.run;
   const runButton = useRef<HTMLButtonElement>(null);

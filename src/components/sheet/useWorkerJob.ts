@@ -5,7 +5,7 @@ import type { MatrixResult } from '../../lib/sheet/matrix';
 import { formatBytes } from '../../lib/view/bytes';
 import type { RunSeries, SweepSeries } from '../../lib/view/series';
 import type { LogCompareReply, LogCompareRequest } from '../../workers/log-compare-protocol';
-import type { WorkerJob, WorkerReply } from '../../workers/run-protocol';
+import type { WarmUp, WorkerJob, WorkerReply } from '../../workers/run-protocol';
 
 export type JobState<T> =
   | { status: 'idle' }
@@ -29,6 +29,8 @@ export interface WorkerKind<J, T> {
   /** Posted to cancel. Without one, cancel terminates the worker: a loop that never yields cannot hear a message. */
   cancelMessage?: unknown;
   post: (worker: Worker, job: J) => void;
+  /** Posted once to a worker made ahead of its first job, with the job the page expects: work that compiles that job's code, answered by nothing. */
+  warmUp?: (worker: Worker, expected: J) => void;
 }
 
 function runKind<K extends 'run-done' | 'sweep-done'>(doneKind: K): WorkerKind<WorkerJob, K extends 'run-done' ? RunSeries : SweepSeries> {
@@ -44,8 +46,19 @@ function runKind<K extends 'run-done' | 'sweep-done'>(doneKind: K): WorkerKind<W
   };
 }
 
-/** Runs toward the sheet's target, in ticks. */
-export const RUN_JOBS = runKind('run-done');
+/** Ticks of each warm-up run: enough for the run's hot functions to be compiled, about a tenth of a second's work for a cold worker. */
+const WARM_UP_TICKS = 500;
+
+/** Runs toward the sheet's target, in ticks; a warm-up makes short runs of the expected sheet. */
+export const RUN_JOBS: WorkerKind<WorkerJob, RunSeries> = {
+  ...runKind('run-done'),
+  warmUp: (worker, expected) => {
+    if (expected.kind !== 'run') return;
+    const settings = expected.settings ?? expected.document.motion.run;
+    const warmUp: WarmUp = { kind: 'warm-up', document: expected.document, settings: { ...settings, maxTicks: Math.min(settings.maxTicks, WARM_UP_TICKS) } };
+    worker.postMessage(warmUp);
+  },
+};
 /** Sweeps of one input, in values. */
 export const SWEEP_JOBS = runKind('sweep-done');
 
@@ -112,7 +125,7 @@ export const LOG_COMPARE_JOBS: WorkerKind<LogCompareRequest, LocalComparison> = 
  * worker, so no late reply of the old job is read as the new one's. Unmounting terminates it too.
  * `start` resolves with the job's final state.
  */
-export function useWorkerJob<J, T>(kind: WorkerKind<J, T>, options: { warm?: boolean } = {}) {
+export function useWorkerJob<J, T>(kind: WorkerKind<J, T>, options: { warmWith?: J } = {}) {
   const [state, setState] = useState<JobState<T>>({ status: 'idle' });
   const workerRef = useRef<Worker | null>(null);
   const runningRef = useRef(false);
@@ -192,10 +205,16 @@ export function useWorkerJob<J, T>(kind: WorkerKind<J, T>, options: { warm?: boo
     [cancel, finish, kind, terminate],
   );
 
-  // A warm worker has loaded and compiled its script before the first job, so a click only posts the job.
-  const warm = options.warm ?? false;
+  // A warm worker has loaded its script, and warmed up with the job expected, before the first job, so a click only posts
+  // the job. Only the worker's creation waits for the expected job; later versions of it are not posted.
+  const expectedRef = useRef(options.warmWith);
+  expectedRef.current = options.warmWith;
+  const warm = options.warmWith !== undefined;
   useEffect(() => {
-    if (warm && !workerRef.current) workerRef.current = kind.create();
+    if (!warm || workerRef.current) return;
+    const worker = kind.create();
+    workerRef.current = worker;
+    if (expectedRef.current !== undefined) kind.warmUp?.(worker, expectedRef.current);
   }, [warm, kind]);
 
   useEffect(() => () => {

@@ -21,8 +21,8 @@ export interface WarningOccurrence {
   code: WarningCode;
   severity: WarningSeverity;
   title: string;
-  /** Indices (ticks or sweep steps) at which the warning was raised. */
-  indices: number[];
+  /** Indices (ticks or sweep steps) at which the warning was raised; a typed array, so the worker hands it over without copying. */
+  indices: Uint32Array;
 }
 
 export interface RunSeries {
@@ -104,9 +104,12 @@ export function runSeries(doc: SheetDocument, record: RunRecord, elapsedMs: numb
   for (let i = 0; i < n; i++) ticks[i] = i;
   const warnings: WarningOccurrence[] = [];
   WARNING_CODES.forEach((code, bit) => {
-    const indices: number[] = [];
-    for (let i = 0; i < n; i++) if ((record.warningMask[i]! & (1 << bit)) !== 0) indices.push(i);
-    if (indices.length > 0) warnings.push({ code, severity: WARNING_CATALOGUE[code].severity, title: WARNING_CATALOGUE[code].title, indices });
+    let raised = 0;
+    for (let i = 0; i < n; i++) if ((record.warningMask[i]! & (1 << bit)) !== 0) raised++;
+    if (raised === 0) return;
+    const indices = new Uint32Array(raised);
+    for (let i = 0, k = 0; i < n; i++) if ((record.warningMask[i]! & (1 << bit)) !== 0) indices[k++] = i;
+    warnings.push({ code, severity: WARNING_CATALOGUE[code].severity, title: WARNING_CATALOGUE[code].title, indices });
   });
   const commanded = commandedSolutionOf(doc);
   // What each finger followed at the first tick (its joint roles decide, and they do not change); a run of no ticks reads as the choice.
@@ -167,7 +170,7 @@ export function sweepSeries(doc: SheetDocument, record: SweepRecord, elapsedMs: 
     code,
     severity: WARNING_CATALOGUE[code].severity,
     title: WARNING_CATALOGUE[code].title,
-    indices: byCode.get(code)!,
+    indices: Uint32Array.from(byCode.get(code)!),
   }));
   const worstSeverity = new Uint8Array(steps);
   record.worstSeverity.forEach((level, i) => (worstSeverity[i] = SEVERITY_INDEX.get(level)!));

@@ -54,7 +54,7 @@ describe('runSeries', () => {
     for (const warning of series.warnings) {
       const bit = WARNING_CODES.indexOf(warning.code);
       const expected = Array.from(record.warningMask.keys()).filter((t) => (record.warningMask[t]! & (1 << bit)) !== 0);
-      expect(warning.indices).toEqual(expected);
+      expect(Array.from(warning.indices)).toEqual(expected);
     }
     const masked = Array.from(record.warningMask).some((m) => m !== 0);
     expect(series.warnings.length > 0).toBe(masked);
@@ -65,6 +65,8 @@ describe('runSeries', () => {
     expect(new Set(buffers).size).toBe(buffers.length);
     expect(buffers).toContain(series.jointAngles[0]!.values.buffer);
     expect(buffers).toContain(series.worstSeverity.buffer);
+    expect(series.warnings.length).toBeGreaterThan(0);
+    for (const warning of series.warnings) expect(buffers).toContain(warning.indices.buffer);
   });
 });
 

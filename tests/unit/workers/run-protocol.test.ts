@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { runSheet } from '../../../src/lib/kinematics';
 import { runMatrix } from '../../../src/lib/sheet/matrix';
 import { createSheetFromTemplate } from '../../../src/lib/sheet/templates';
-import { performJob, PROGRESS_INTERVAL_MS, type WorkerReply } from '../../../src/workers/run-protocol';
+import { createMessageHandler, performJob, PROGRESS_INTERVAL_MS, WARM_UP_ROUNDS, type WorkerReply } from '../../../src/workers/run-protocol';
 
 function sheet(maxTicks: number) {
   const doc = createSheetFromTemplate('tri-radial', { kind: 'sphere', radius: 0.03 });
@@ -79,5 +79,57 @@ describe('performJob', () => {
     for (const junk of [null, 'run', { kind: 'run' }, { kind: 'sweep', document: {} }, { kind: 'explode', document: {} }]) {
       expect(perform(junk)).toEqual([{ reply: { kind: 'failed', message: expect.stringMatching(/not a run, sweep or matrix job/) }, transfer: [] }]);
     }
+  });
+});
+
+describe('createMessageHandler', () => {
+  /** A handler whose deferred tasks wait in a queue the test runs. */
+  function handler() {
+    const replies: WorkerReply[] = [];
+    const queue: (() => void)[] = [];
+    const handle = createMessageHandler((reply) => replies.push(reply), (next) => queue.push(next));
+    return { replies, queue, handle };
+  }
+
+  it('makes the warm-up rounds one deferred task each, answering nothing', () => {
+    const doc = sheet(1000);
+    const { replies, queue, handle } = handler();
+    handle({ kind: 'warm-up', document: doc, settings: { ...doc.motion.run, maxTicks: 20 } });
+    let tasks = 0;
+    while (queue.length > 0) {
+      queue.shift()!();
+      tasks++;
+    }
+    // One task per round, and the last round's task finds nothing left to do.
+    expect(tasks).toBe(WARM_UP_ROUNDS + 1);
+    expect(replies).toEqual([]);
+  });
+
+  it('answers a job posted during a warm-up at once, as runSheet computes it, and makes no more warm-up rounds', () => {
+    const doc = sheet(300);
+    const { replies, queue, handle } = handler();
+    handle({ kind: 'warm-up', document: doc, settings: { ...doc.motion.run, maxTicks: 20 } });
+    queue.shift()!();
+    handle({ kind: 'run', document: doc });
+    const last = replies.at(-1)!;
+    expect(last.kind).toBe('run-done');
+    if (last.kind !== 'run-done') return;
+    // The warm-up's runs leave nothing behind that a later run reads: the fresh core's own run is the reference.
+    expect(Array.from(last.series.positionError)).toEqual(Array.from(runSheet(doc).positionError));
+    expect(last.series.tickCount).toBe(300);
+    queue.shift()!();
+    expect(queue).toEqual([]);
+  });
+
+  it('drops a warm-up whose sheet cannot run without a word, and still answers the job after it with the failure', () => {
+    const doc = sheet(10);
+    const broken = { ...doc, hand: { ...doc.hand, fingers: 'none' } };
+    const { replies, queue, handle } = handler();
+    handle({ kind: 'warm-up', document: broken, settings: doc.motion.run });
+    queue.shift()!();
+    expect(queue).toEqual([]);
+    expect(replies).toEqual([]);
+    handle({ kind: 'run', document: broken });
+    expect(replies).toEqual([{ kind: 'failed', message: expect.any(String) }]);
   });
 });
