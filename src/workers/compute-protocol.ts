@@ -7,7 +7,7 @@ import type { PlainSheetResult } from '../lib/kinematics';
 import type { DerivationEntry } from '../lib/sheet/derivation';
 import { evaluateSheet } from '../lib/sheet/evaluate';
 import { readDocument, type DocumentReadings } from '../lib/sheet/readings';
-import { createEditReader, type SheetIssue } from '../lib/sheet/schema';
+import { parseSheet, type SheetIssue, type SheetReader } from '../lib/sheet/schema';
 import type { SheetDocument } from '../lib/sheet/types';
 
 export interface ComputeRequest {
@@ -37,17 +37,18 @@ export type ComputeReply =
   | { type: 'computed'; id: number; ok: false; issues: SheetIssue[]; readings: DocumentReadings; elapsedMs: number }
   | { type: 'refused'; message: string };
 
-/** The worker's documents come from one editor, each an edit of the one before. */
-const read = createEditReader();
-
 function isComputeRequest(message: unknown): message is ComputeRequest {
   if (message === null || typeof message !== 'object') return false;
   const { type, id, derive } = message as Record<string, unknown>;
   return type === 'compute' && typeof id === 'number' && Number.isInteger(id) && (derive === undefined || typeof derive === 'boolean');
 }
 
-/** Answers one message: reads, solves and (unless asked not to) derives the sheet, or reports where it is wrong. */
-export function computeSheet(message: unknown, now: () => number = () => performance.now()): ComputeReply {
+/**
+ * Answers one message: reads, solves and (unless asked not to) derives the sheet, or reports where it is wrong. The
+ * worker reads with its own edit reader (createEditReader), since its documents come from one editor; the server reads
+ * every document whole.
+ */
+export function computeSheet(message: unknown, now: () => number = () => performance.now(), read: SheetReader = parseSheet): ComputeReply {
   if (!isComputeRequest(message)) return { type: 'refused', message: 'expected {type: "compute", id: integer, document}' };
   const started = now();
   const readings = readDocument(message.document);
@@ -74,8 +75,8 @@ export interface ComputeSteps {
  * reply: the page shows every other result at once (the grasp quality is the one costly part, and any move of a contact
  * asks for it anew). With the derivation the reply is complete at once, since the derivation shows the grasp quality.
  */
-export function computeSheetInSteps(message: unknown, now: () => number = () => performance.now()): ComputeSteps {
-  if (!isComputeRequest(message) || message.derive !== false) return { first: computeSheet(message, now) };
+export function computeSheetInSteps(message: unknown, now: () => number = () => performance.now(), read: SheetReader = parseSheet): ComputeSteps {
+  if (!isComputeRequest(message) || message.derive !== false) return { first: computeSheet(message, now, read) };
   const started = now();
   const readings = readDocument(message.document);
   const evaluated = evaluateSheet(message.document, { graspQualityLater: true, read });

@@ -9,7 +9,7 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it, vi } from 'vitest';
 import { createRandom, nextUniform } from '../../../src/lib/kinematics/random';
-import { createEditReader, parseSheet } from '../../../src/lib/sheet/schema';
+import { createEditReader, parseSheet, type SheetReader } from '../../../src/lib/sheet/schema';
 import { computeSheetInSteps, type ComputeReply } from '../../../src/workers/compute-protocol';
 
 type Doc = Record<string, any>;
@@ -28,8 +28,8 @@ async function coldWorker(): Promise<Protocol> {
 }
 
 /** The reply the page ends with (the second one when the grasp quality came later), and the first without the grasp quality. */
-function answers(protocol: Pick<Protocol, 'computeSheetInSteps'>, message: unknown): { final: ComputeReply; first: ComputeReply } {
-  const { first, later } = protocol.computeSheetInSteps(message, () => 0);
+function answers(protocol: Pick<Protocol, 'computeSheetInSteps'>, message: unknown, read?: SheetReader): { final: ComputeReply; first: ComputeReply } {
+  const { first, later } = protocol.computeSheetInSteps(message, () => 0, read);
   const final = later ? later() : first;
   if (first.type !== 'computed' || !first.ok) return { final, first };
   const { graspQuality: _quality, ...result } = first.result;
@@ -89,11 +89,13 @@ describe('the compute worker recomputing after edits', () => {
     const order = [...EDITS, ...EDITS].map((edit) => ({ edit, key: nextUniform(source) })).sort((a, b) => a.key - b.key).map(({ edit }) => edit);
     const steps = order.flatMap((edit) => (pick(3) === 0 ? [edit, undefined] : [edit]));
     let failed = 0;
+    // The warm worker reads as the page's worker does, with one edit reader; the cold one reads every document whole.
+    const readEdit = createEditReader();
     for (const [step, edit] of steps.entries()) {
       if (edit) edit.apply(doc, pick);
       else doc = clean();
       const message = { type: 'compute', id: step, document: structuredClone(doc), derive: pick(4) === 0 ? undefined : false };
-      const warm = answers({ computeSheetInSteps }, message);
+      const warm = answers({ computeSheetInSteps }, message, readEdit);
       const cold = answers(await coldWorker(), structuredClone(message));
       expect(warm.final, `step ${step}: ${edit?.name ?? 'restored'}`).toStrictEqual(cold.final);
       expect(warm.first, `step ${step}: ${edit?.name ?? 'restored'}, first reply`).toStrictEqual(cold.first);
