@@ -1,6 +1,6 @@
 import { useEffect, useRef, useState } from 'react';
 import { flushSync } from 'react-dom';
-import type { ComputeReply, ComputeRequest } from '../../workers/compute-protocol';
+import type { ComputeReply, ComputeRequest, ComputeWarmUp } from '../../workers/compute-protocol';
 import { afterNextPaint } from './useIdle';
 
 type Computed = Extract<ComputeReply, { type: 'computed' }>;
@@ -23,7 +23,8 @@ interface ComputeOptions {
   /**
    * The reply for this document without the derivation, evaluated before the page was drawn (the sheet
    * page's server render): shown at once, and the worker is started once the hydrated page has been
-   * painted (or at the first change), so it never delays the first results yet is warm for the first edit.
+   * painted (or at the first change), so it never delays the first results yet is warm for the first edit. The worker
+   * is given this document to warm up with (ComputeWarmUp), so only the compute worker takes `initial`.
    */
   initial?: { document: unknown; reply: ComputedLike };
 }
@@ -99,6 +100,10 @@ export function useCompute(
       busy.current = true;
       created.postMessage(waiting.current);
       waiting.current = null;
+    } else if (initial) {
+      // Recomputes edits of the sheet shown while the page is idle; a request stops it and is answered at once.
+      const warmUp: ComputeWarmUp = { type: 'warm-up', document: initial.document };
+      created.postMessage(warmUp);
     }
     return () => {
       created.terminate();

@@ -942,10 +942,36 @@ const EDITABLE_FIELDS: readonly EditableField[] = [
   { path: ['solver', 'contactTolerance'], schema: always(nonNegativeLength) },
 ];
 
-function editableSchema(path: readonly (string | number)[], doc: SheetDocument): z.ZodType<number> | undefined {
-  const field = EDITABLE_FIELDS.find((candidate) =>
+const EDITABLE_DEPTH = Math.max(...EDITABLE_FIELDS.map((field) => field.path.length));
+
+function editableField(path: readonly (string | number)[]): EditableField | undefined {
+  return EDITABLE_FIELDS.find((candidate) =>
     candidate.path.length === path.length && candidate.path.every((segment, i) => (segment === ANY_INDEX ? typeof path[i] === 'number' : segment === path[i])));
-  return field?.schema(doc);
+}
+
+function editableSchema(path: readonly (string | number)[], doc: SheetDocument): z.ZodType<number> | undefined {
+  return editableField(path)?.schema(doc);
+}
+
+/** The paths of a document as written whose value, changed alone, createEditReader may read by that field's schema alone, in document order. */
+export function editablePaths(written: unknown): (string | number)[][] {
+  const found: (string | number)[][] = [];
+  const walk = (node: unknown, path: (string | number)[]) => {
+    if (node === null || typeof node !== 'object') {
+      if (editableField(path) !== undefined) found.push([...path]);
+      return;
+    }
+    // No editable field lies deeper: a document nested without bound is not walked further.
+    if (path.length >= EDITABLE_DEPTH) return;
+    const keys: (string | number)[] = Array.isArray(node) ? node.map((_, index) => index) : Object.keys(node);
+    for (const key of keys) {
+      path.push(key);
+      walk((node as Record<string | number, unknown>)[key], path);
+      path.pop();
+    }
+  };
+  walk(written, []);
+  return found;
 }
 
 /** Where two JSON trees differ, when they differ in one value that is not a list or an object. */

@@ -1,7 +1,7 @@
 import { readFileSync } from 'node:fs';
-import { describe, expect, it } from 'vitest';
+import { describe, expect, it, vi } from 'vitest';
 import { readDocument } from '../../../src/lib/sheet/readings';
-import { computeSheet, computeSheetInSteps } from '../../../src/workers/compute-protocol';
+import { WARM_UP_ROUNDS, computeSheet, computeSheetInSteps, createComputeHandler, type ComputeReply } from '../../../src/workers/compute-protocol';
 
 const sheet = () => JSON.parse(readFileSync(new URL('../../../content/sheets/line4-bearing-housing-quarter-turn.json', import.meta.url), 'utf8'));
 
@@ -139,5 +139,71 @@ describe('computeSheetInSteps (the grasp quality of new contacts in a second rep
       issues: [{ path: 'hand.fingers[1].roller.radius', message: 'expected a length, got 30 deg' }],
     });
     expect(computeSheetInSteps(null).first).toMatchObject({ type: 'refused' });
+  });
+});
+
+describe('createComputeHandler (requests, and the warm-up while the page is idle)', () => {
+  /** A handler whose deferred tasks wait in a queue the test runs. */
+  function handler(create: typeof createComputeHandler = createComputeHandler) {
+    const replies: ComputeReply[] = [];
+    const queue: (() => void)[] = [];
+    const handle = create((reply) => replies.push(reply), (next) => queue.push(next));
+    return { replies, queue, handle, runQueue: () => { while (queue.length > 0) queue.shift()!(); } };
+  }
+  const edited = (radius: string) => {
+    const doc = sheet();
+    doc.hand.fingers[2].roller.radius = radius;
+    return doc;
+  };
+  /** The reply the page ends with for each id (the second one when the grasp quality came later; a cached one comes at once). */
+  const finalReplies = (replies: readonly ComputeReply[]) =>
+    [...new Map(replies.map((reply) => [reply.type === 'computed' ? reply.id : -1, { ...reply, elapsedMs: 0 }])).values()];
+
+  it('makes the warm-up rounds one deferred task each, answering nothing', () => {
+    const { replies, queue, handle } = handler();
+    handle({ type: 'warm-up', document: sheet() });
+    let tasks = 0;
+    while (queue.length > 0) {
+      queue.shift()!();
+      tasks++;
+    }
+    // One task per round, and the last round's task finds nothing left to do.
+    expect(tasks).toBe(WARM_UP_ROUNDS + 1);
+    expect(replies).toEqual([]);
+  });
+
+  it('answers requests made during a warm-up as a cold worker without one answers them, and makes no more rounds', async () => {
+    const warm = handler();
+    warm.handle({ type: 'warm-up', document: sheet() });
+    for (let round = 0; round < 5; round++) warm.queue.shift()!();
+    const requests = ['13.5 mm', '13 mm', '12.5 mm'].map((radius, k) => ({ type: 'compute', id: k + 1, document: edited(radius), derive: false }));
+    for (const request of requests) {
+      warm.handle(request);
+      warm.runQueue();
+    }
+    expect(warm.queue).toEqual([]);
+    // The reference: the worker's modules loaded afresh (every cache empty), no warm-up.
+    vi.resetModules();
+    const fresh = await import('../../../src/workers/compute-protocol');
+    const cold = handler(fresh.createComputeHandler);
+    for (const request of requests) {
+      cold.handle(request);
+      cold.runQueue();
+    }
+    expect(finalReplies(warm.replies).map((reply) => reply.type === 'computed' && reply.ok && reply.id)).toEqual([1, 2, 3]);
+    expect(finalReplies(warm.replies)).toEqual(finalReplies(cold.replies));
+  });
+
+  it('drops a warm-up of a document that does not read, or is no document, without a word', () => {
+    const { replies, handle, runQueue } = handler();
+    const broken = sheet();
+    broken.hand.fingers = 'none';
+    let deep: unknown = '1 mm';
+    for (let level = 0; level < 100_000; level++) deep = [deep];
+    for (const document of [broken, null, 'a sheet', { hand: { fingers: [{ roller: { radius: deep } }] } }]) {
+      handle({ type: 'warm-up', document });
+      runQueue();
+    }
+    expect(replies).toEqual([]);
   });
 });
