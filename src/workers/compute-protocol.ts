@@ -66,6 +66,11 @@ function isComputeRequest(message: unknown): message is ComputeRequest {
   return type === 'compute' && typeof id === 'number' && Number.isInteger(id) && (derive === undefined || typeof derive === 'boolean');
 }
 
+/** The refusal of a document nested deeper than its readings go, located where it passes that depth (no sheet nests so deep). */
+function tooDeep(id: number, issue: SheetIssue, readings: DocumentReadings, elapsedMs: number): ComputeReply {
+  return { type: 'computed', id, ok: false, issues: [issue], readings, elapsedMs };
+}
+
 /**
  * Answers one message: reads, solves and (unless asked not to) derives the sheet, or reports where it is wrong. The
  * worker reads with its own edit reader (createEditReader), since its documents come from one editor; the server reads
@@ -75,6 +80,7 @@ export function computeSheet(message: unknown, now: () => number = () => perform
   if (!isComputeRequest(message)) return { type: 'refused', message: 'expected {type: "compute", id: integer, document}' };
   const started = now();
   const readings = readDocument(message.document);
+  if (readings.tooDeep) return tooDeep(message.id, readings.tooDeep, readings, now() - started);
   if (message.derive === false) {
     const plain = evaluateSheet(message.document, { read });
     if (!plain.ok) return { type: 'computed', id: message.id, ok: false, issues: plain.error.issues, readings, elapsedMs: now() - started };
@@ -102,6 +108,7 @@ export function computeSheetInSteps(message: unknown, now: () => number = () => 
   if (!isComputeRequest(message) || message.derive !== false) return { first: computeSheet(message, now, read) };
   const started = now();
   const readings = readDocument(message.document);
+  if (readings.tooDeep) return { first: tooDeep(message.id, readings.tooDeep, readings, now() - started) };
   const evaluated = evaluateSheet(message.document, { graspQualityLater: true, read });
   const elapsedMs = now() - started;
   if (!evaluated.ok) return { first: { type: 'computed', id: message.id, ok: false, issues: evaluated.error.issues, readings, elapsedMs } };

@@ -26,7 +26,15 @@ export interface DocumentReadings {
   /** By path text ("hand.fingers[0].roller.radius"); only texts that read as a quantity. */
   fields: Record<string, FieldReading>;
   variables: VariableReadings;
+  /** Where the document nests deeper than MAX_DOCUMENT_DEPTH (nothing below is read); such a document is refused there. */
+  tooDeep?: { path: string; message: string };
 }
+
+/**
+ * Levels of lists and objects the readings go into. A sheet has about eight; the server's JSON limits stop deeper
+ * documents, but the worker takes whatever the page sends, and 100,000 nested lists would overflow the stack.
+ */
+export const MAX_DOCUMENT_DEPTH = 64;
 
 /** Free text of the document, never a quantity. */
 const TEXT_FIELDS: ReadonlySet<string> = new Set(['title', 'description', 'notes', 'variables', 'tags', 'format']);
@@ -66,8 +74,11 @@ function readingOfText(text: string, scope: VariableScope): FieldReading | null 
   return read.ok ? { text, kind: read.kind, value: read.value } : null;
 }
 
-/** Reads every string under `value`, whose path `node` holds ('' for the document itself), into `out`. */
-function collect(value: unknown, node: PathReading, scope: VariableScope, out: Record<string, FieldReading>): void {
+/**
+ * Reads every string under `value`, whose path `node` holds ('' for the document itself) `depth` levels down, into
+ * `out`, every path but those below MAX_DOCUMENT_DEPTH; gives the first node at that depth that holds a list or an object, if any.
+ */
+function collect(value: unknown, node: PathReading, scope: VariableScope, out: Record<string, FieldReading>, depth: number): PathReading | undefined {
   if (typeof value === 'string') {
     if (node.text !== value || node.scope !== scope) {
       node.reading = readingOfText(value, scope);
@@ -75,14 +86,24 @@ function collect(value: unknown, node: PathReading, scope: VariableScope, out: R
       node.scope = scope;
     }
     if (node.reading !== null) out[node.path === '' ? '(document)' : node.path] = node.reading;
-    return;
+    return undefined;
   }
-  if (value === null || typeof value !== 'object') return;
+  if (value === null || typeof value !== 'object') return undefined;
+  if (depth === MAX_DOCUMENT_DEPTH) return node;
+  let tooDeep: PathReading | undefined;
   if (Array.isArray(value)) {
-    for (let index = 0; index < value.length; index++) collect(value[index], pathBelow(node, index), scope, out);
-    return;
+    for (let index = 0; index < value.length; index++) {
+      const below = collect(value[index], pathBelow(node, index), scope, out, depth + 1);
+      tooDeep ??= below;
+    }
+    return tooDeep;
   }
-  for (const key of Object.keys(value)) if (node.path !== '' || !TEXT_FIELDS.has(key)) collect((value as Record<string, unknown>)[key], pathBelow(node, key), scope, out);
+  for (const key of Object.keys(value)) {
+    if (node.path === '' && TEXT_FIELDS.has(key)) continue;
+    const below = collect((value as Record<string, unknown>)[key], pathBelow(node, key), scope, out, depth + 1);
+    tooDeep ??= below;
+  }
+  return tooDeep;
 }
 
 /**
@@ -100,7 +121,7 @@ function readVariables(text: string, parsed: ParsedVariables): VariableReadings 
   return readings;
 }
 
-/** Reads every quantity written as text in a document as written (also one that does not read as a sheet), over its variables. */
+/** Reads every quantity written as text in a document as written (also one that does not read as a sheet), over its variables, down to MAX_DOCUMENT_DEPTH. */
 export function readDocument(document: unknown): DocumentReadings {
   const text = document !== null && typeof document === 'object' ? (document as { variables?: unknown }).variables : undefined;
   const variablesText = typeof text === 'string' ? text : '';
@@ -110,6 +131,8 @@ export function readDocument(document: unknown): DocumentReadings {
     pathCount = 0;
   }
   const fields: Record<string, FieldReading> = {};
-  collect(document, rootReading, parsed.values, fields);
-  return { fields, variables: readVariables(variablesText, parsed) };
+  const tooDeep = collect(document, rootReading, parsed.values, fields, 0);
+  const readings: DocumentReadings = { fields, variables: readVariables(variablesText, parsed) };
+  if (tooDeep) readings.tooDeep = { path: tooDeep.path, message: `the document nests lists and objects more than ${MAX_DOCUMENT_DEPTH} levels deep here` };
+  return readings;
 }

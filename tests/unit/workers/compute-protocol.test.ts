@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it, vi } from 'vitest';
-import { readDocument } from '../../../src/lib/sheet/readings';
+import { MAX_DOCUMENT_DEPTH, readDocument } from '../../../src/lib/sheet/readings';
 import { WARM_UP_ROUNDS, computeSheet, computeSheetInSteps, createComputeHandler, type ComputeReply } from '../../../src/workers/compute-protocol';
 
 const sheet = () => JSON.parse(readFileSync(new URL('../../../content/sheets/line4-bearing-housing-quarter-turn.json', import.meta.url), 'utf8'));
@@ -87,6 +87,27 @@ describe('computeSheet (the compute worker protocol)', () => {
     // 30 deg/s = pi/6 rad/s (SI brochure Table 8).
     expect(reply.readings.fields['object.twist.angular[2]']).toEqual({ text: '30 deg/s', kind: 'angularSpeed', value: expect.closeTo(Math.PI / 6, 15) });
     for (const [, reading] of written) expect(Number.isFinite(reading.value)).toBe(true);
+  });
+
+  it('refuses a document nested deeper than a sheet nests where it passes the bound, without overflowing the stack', () => {
+    let deep: unknown = '1 mm';
+    for (let level = 0; level < 100_000; level++) deep = [deep];
+    const doc = sheet();
+    doc.hand.fingers[0].roller.radius = deep;
+    doc.hand.fingers[1].roller.radius = '12 mm';
+    const reply = computeSheet({ type: 'compute', id: 3, document: doc, derive: false }, () => 0);
+    // The radius is 5 levels down (hand, fingers, 0, roller, radius); 59 lists further the next list is past the bound.
+    const where = `hand.fingers[0].roller.radius${'[0]'.repeat(MAX_DOCUMENT_DEPTH - 5)}`;
+    expect(reply).toMatchObject({ ok: false, issues: [{ path: where, message: expect.stringContaining(`${MAX_DOCUMENT_DEPTH} levels`) }] });
+    expect(computeSheetInSteps({ type: 'compute', id: 4, document: doc, derive: false }).first).toMatchObject({ ok: false, issues: [{ path: where }] });
+    // The other fields still read.
+    if (reply.type !== 'computed') throw new Error('expected a reply');
+    expect(reply.readings.fields['hand.fingers[1].roller.radius']).toMatchObject({ kind: 'length', value: 0.012 });
+    // A sheet as deep as it may be is read as ever.
+    let atBound: unknown = '1 mm';
+    for (let level = 0; level < MAX_DOCUMENT_DEPTH - 5; level++) atBound = [atBound];
+    doc.hand.fingers[0].roller.radius = atBound;
+    expect(computeSheet({ type: 'compute', id: 5, document: doc, derive: false })).toMatchObject({ ok: false, issues: [{ path: 'hand.fingers[0].roller.radius' }] });
   });
 
   it('refuses messages that are not compute requests', () => {
