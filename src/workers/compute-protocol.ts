@@ -8,7 +8,8 @@ import type { DerivationEntry } from '../lib/sheet/derivation';
 import { evaluateSheet } from '../lib/sheet/evaluate';
 import { getAt, setAt } from '../lib/sheet/document-path';
 import { readDocument, type DocumentReadings } from '../lib/sheet/readings';
-import { createEditReader, editablePaths, parseSheet, type SheetIssue, type SheetReader } from '../lib/sheet/schema';
+import { QUANTITY_KINDS } from '../lib/sheet/quantity-kinds';
+import { createEditReader, editablePaths, parseSheet, type EditablePath, type SheetIssue, type SheetReader } from '../lib/sheet/schema';
 import type { SheetDocument } from '../lib/sheet/types';
 
 export interface ComputeRequest {
@@ -131,10 +132,13 @@ export function computeSheetInSteps(message: unknown, now: () => number = () => 
 /** A number as written, with or without a unit after it ("13.5 mm", "-2 deg", "0.01"). */
 const WRITTEN_NUMBER = /^\s*(-?\d+(?:\.\d+)?(?:e[-+]?\d+)?)(\s*[^\d\s.].*)?$/i;
 
-/** The written value moved away from zero by `step` (relative; `step` itself for zero), or undefined when it is not a written number. */
-function nearbyValue(value: unknown, step: number): unknown {
+/**
+ * The field's value moved away from zero by `step` (relative; `step` itself for zero), written as text as a user types
+ * it (a number in SI gets its kind's SI unit), or undefined when it is not a written number (an expression).
+ */
+function nearbyText(value: unknown, kind: EditablePath['kind'], step: number): string | undefined {
   const move = (n: number) => (n === 0 ? step : n * (1 + step));
-  if (typeof value === 'number') return Number.isFinite(value) ? move(value) : undefined;
+  if (typeof value === 'number') return Number.isFinite(value) ? `${move(value)} ${QUANTITY_KINDS[kind].si}` : undefined;
   if (typeof value !== 'string') return undefined;
   const match = WRITTEN_NUMBER.exec(value);
   return match ? `${move(Number(match[1]))}${match[2] ?? ''}` : undefined;
@@ -165,7 +169,7 @@ export function createComputeHandler(post: (reply: ComputeReply) => void, defer:
   };
 
   function warmUp(shown: object, asked: number): void {
-    const paths = editablePaths(shown);
+    const fields = editablePaths(shown);
     let reader = createEditReader();
     let edited: unknown = shown;
     let round = 0;
@@ -176,10 +180,10 @@ export function createComputeHandler(post: (reply: ComputeReply) => void, defer:
         if (round === WARM_UP_ROUNDS - 1) edited = shown;
         else {
           if (round % WHOLE_READ_EVERY === 0) reader = createEditReader();
-          const path = paths[round % Math.max(paths.length, 1)];
-          const value = path === undefined ? undefined : nearbyValue(getAt(edited, path), 1e-3);
+          const field = fields[round % Math.max(fields.length, 1)];
+          const text = field === undefined ? undefined : nearbyText(getAt(edited, field.path), field.kind, 1e-3);
           // A structured clone each round, as each request arrives.
-          edited = structuredClone(path === undefined || value === undefined ? edited : setAt(edited, path, value));
+          edited = structuredClone(field === undefined || text === undefined ? edited : setAt(edited, field.path, text));
         }
         round++;
         computeSheetInSteps({ type: 'compute', id: 0, document: edited, derive: false }, () => 0, reader).later?.();

@@ -908,6 +908,8 @@ const ANY_INDEX = -1;
  */
 interface EditableField {
   path: readonly (string | typeof ANY_INDEX)[];
+  /** The kind its schema reads (its SI unit is the one a plain number is read in). */
+  kind: Exclude<QuantityKind, 'any'>;
   schema: (doc: SheetDocument) => z.ZodType<number> | undefined;
 }
 
@@ -918,28 +920,28 @@ const SHAPE_RADIUS: Partial<Record<ObjectShape['kind'], z.ZodType<number>>> = { 
 const SHAPE_HALF_LENGTH: Partial<Record<ObjectShape['kind'], z.ZodType<number>>> = { cylinder: positiveLength, capsule: nonNegativeLength };
 
 const EDITABLE_FIELDS: readonly EditableField[] = [
-  { path: ['hand', 'fingers', ANY_INDEX, 'roller', 'radius'], schema: always(positiveLength) },
-  { path: ['hand', 'fingers', ANY_INDEX, 'roller', 'halfWidth'], schema: always(positiveLength) },
-  { path: ['hand', 'fingers', ANY_INDEX, 'roller', 'center', ANY_INDEX], schema: always(length) },
-  { path: ['hand', 'fingers', ANY_INDEX, 'joints', ANY_INDEX, 'angle'], schema: always(angle) },
-  { path: ['hand', 'fingers', ANY_INDEX, 'joints', ANY_INDEX, 'point', ANY_INDEX], schema: always(length) },
-  { path: ['hand', 'fingers', ANY_INDEX, 'joints', ANY_INDEX, 'rateLimit'], schema: always(positiveAngularSpeed) },
-  { path: ['object', 'shape', 'radius'], schema: (doc) => SHAPE_RADIUS[doc.object.shape.kind] },
-  { path: ['object', 'shape', 'halfLength'], schema: (doc) => SHAPE_HALF_LENGTH[doc.object.shape.kind] },
-  { path: ['object', 'pose', 'position', ANY_INDEX], schema: whileTwistAtOrigin(length) },
-  { path: ['object', 'twist', 'linear', ANY_INDEX], schema: whileTwistAtOrigin(speed) },
-  { path: ['object', 'twist', 'angular', ANY_INDEX], schema: whileTwistAtOrigin(angularSpeed) },
-  { path: ['object', 'acceleration', 'linear', ANY_INDEX], schema: always(acceleration) },
-  { path: ['object', 'acceleration', 'angular', ANY_INDEX], schema: always(angularAcceleration) },
-  { path: ['motion', 'target', 'position', ANY_INDEX], schema: always(length) },
-  { path: ['motion', 'run', 'gain'], schema: always(positiveRate) },
-  { path: ['motion', 'run', 'dt'], schema: always(positiveTime) },
-  { path: ['motion', 'run', 'positionTolerance'], schema: always(positiveLength) },
-  { path: ['motion', 'run', 'angleTolerance'], schema: always(positiveAngle) },
-  { path: ['solver', 'damping'], schema: always(damping) },
-  { path: ['solver', 'axisDistance'], schema: always(nonNegativeLength) },
-  { path: ['solver', 'minTangentialSpeed'], schema: always(nonNegativeSpeed) },
-  { path: ['solver', 'contactTolerance'], schema: always(nonNegativeLength) },
+  { path: ['hand', 'fingers', ANY_INDEX, 'roller', 'radius'], kind: 'length', schema: always(positiveLength) },
+  { path: ['hand', 'fingers', ANY_INDEX, 'roller', 'halfWidth'], kind: 'length', schema: always(positiveLength) },
+  { path: ['hand', 'fingers', ANY_INDEX, 'roller', 'center', ANY_INDEX], kind: 'length', schema: always(length) },
+  { path: ['hand', 'fingers', ANY_INDEX, 'joints', ANY_INDEX, 'angle'], kind: 'angle', schema: always(angle) },
+  { path: ['hand', 'fingers', ANY_INDEX, 'joints', ANY_INDEX, 'point', ANY_INDEX], kind: 'length', schema: always(length) },
+  { path: ['hand', 'fingers', ANY_INDEX, 'joints', ANY_INDEX, 'rateLimit'], kind: 'angularSpeed', schema: always(positiveAngularSpeed) },
+  { path: ['object', 'shape', 'radius'], kind: 'length', schema: (doc) => SHAPE_RADIUS[doc.object.shape.kind] },
+  { path: ['object', 'shape', 'halfLength'], kind: 'length', schema: (doc) => SHAPE_HALF_LENGTH[doc.object.shape.kind] },
+  { path: ['object', 'pose', 'position', ANY_INDEX], kind: 'length', schema: whileTwistAtOrigin(length) },
+  { path: ['object', 'twist', 'linear', ANY_INDEX], kind: 'speed', schema: whileTwistAtOrigin(speed) },
+  { path: ['object', 'twist', 'angular', ANY_INDEX], kind: 'angularSpeed', schema: whileTwistAtOrigin(angularSpeed) },
+  { path: ['object', 'acceleration', 'linear', ANY_INDEX], kind: 'acceleration', schema: always(acceleration) },
+  { path: ['object', 'acceleration', 'angular', ANY_INDEX], kind: 'angularAcceleration', schema: always(angularAcceleration) },
+  { path: ['motion', 'target', 'position', ANY_INDEX], kind: 'length', schema: always(length) },
+  { path: ['motion', 'run', 'gain'], kind: 'rate', schema: always(positiveRate) },
+  { path: ['motion', 'run', 'dt'], kind: 'time', schema: always(positiveTime) },
+  { path: ['motion', 'run', 'positionTolerance'], kind: 'length', schema: always(positiveLength) },
+  { path: ['motion', 'run', 'angleTolerance'], kind: 'angle', schema: always(positiveAngle) },
+  { path: ['solver', 'damping'], kind: 'length', schema: always(damping) },
+  { path: ['solver', 'axisDistance'], kind: 'length', schema: always(nonNegativeLength) },
+  { path: ['solver', 'minTangentialSpeed'], kind: 'speed', schema: always(nonNegativeSpeed) },
+  { path: ['solver', 'contactTolerance'], kind: 'length', schema: always(nonNegativeLength) },
 ];
 
 const EDITABLE_DEPTH = Math.max(...EDITABLE_FIELDS.map((field) => field.path.length));
@@ -953,12 +955,19 @@ function editableSchema(path: readonly (string | number)[], doc: SheetDocument):
   return editableField(path)?.schema(doc);
 }
 
-/** The paths of a document as written whose value, changed alone, createEditReader may read by that field's schema alone, in document order. */
-export function editablePaths(written: unknown): (string | number)[][] {
-  const found: (string | number)[][] = [];
+/** A field of a document as written that createEditReader may read by its own schema when it alone changes. */
+export interface EditablePath {
+  path: (string | number)[];
+  kind: Exclude<QuantityKind, 'any'>;
+}
+
+/** The editable fields of a document as written (see EditablePath), in document order. */
+export function editablePaths(written: unknown): EditablePath[] {
+  const found: EditablePath[] = [];
   const walk = (node: unknown, path: (string | number)[]) => {
     if (node === null || typeof node !== 'object') {
-      if (editableField(path) !== undefined) found.push([...path]);
+      const field = editableField(path);
+      if (field !== undefined) found.push({ path: [...path], kind: field.kind });
       return;
     }
     // No editable field lies deeper: a document nested without bound is not walked further.
