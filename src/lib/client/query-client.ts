@@ -1,4 +1,9 @@
-import { QueryClient } from '@tanstack/react-query';
+import { QueryClient, notifyManager } from '@tanstack/react-query';
+
+// An answer reaches the components in the task that received it rather than in a setTimeout of its own (TanStack's
+// default): on a busy page that task waited behind others, and a frame drawn meanwhile showed the old rows. A microtask
+// still batches every update made in the same task.
+notifyManager.setScheduler(queueMicrotask);
 
 /**
  * The one query policy of every island:
