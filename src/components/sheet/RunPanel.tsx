@@ -1,4 +1,4 @@
-import { useMemo, useRef, type ReactNode } from 'react';
+import { memo, useMemo, useRef, type ReactNode } from 'react';
 import LineChart, { type LineSeries, type ShadedStretch } from '../charts/LineChart';
 import WarningStrip from '../charts/WarningStrip';
 import { primaryButton } from '../form-parts';
@@ -50,8 +50,6 @@ function runCharts(series: RunSeries, units: DisplayUnits) {
  * the next run's results replace them in one commit. Out of date, they are no longer the panel's run-results.
  */
 function RunResults({ series, stale, units, source, progress }: { series: RunSeries; stale: boolean; units: DisplayUnits; source: ExportSource; progress?: ReactNode }) {
-  const charts = useMemo(() => runCharts(series, units), [series, units]);
-  const common = { x: series.time, xLabel: 'time (s)', shaded: charts.shaded, syncKey: 'sheet-run' };
   const outOfDate = progress !== undefined;
   return (
     <div className="space-y-4" data-testid={outOfDate ? 'run-results-out-of-date' : 'run-results'} aria-busy={outOfDate || undefined}>
@@ -73,6 +71,17 @@ function RunResults({ series, stale, units, source, progress }: { series: RunSer
           {stale && <span className="ml-2 text-ochre">The sheet has changed since this run; run again to update.</span>}
         </p>
       </div>
+      <RunPlots series={series} units={units} source={source} />
+    </div>
+  );
+}
+
+/** The warnings, exports and plots of a run: memoised, so the progress drawn over out-of-date results renders none of them again. */
+const RunPlots = memo(function RunPlots({ series, units, source }: { series: RunSeries; units: DisplayUnits; source: ExportSource }) {
+  const charts = useMemo(() => runCharts(series, units), [series, units]);
+  const common = { x: series.time, xLabel: 'time (s)', shaded: charts.shaded, syncKey: 'sheet-run' };
+  return (
+    <>
       <WarningStrip count={series.tickCount} worst={series.worstSeverity} warnings={series.warnings} axisLabel="time steps" />
       <SafetyCaution />
       <ExportButtons table={series.table} source={source} />
@@ -83,9 +92,9 @@ function RunResults({ series, stale, units, source, progress }: { series: RunSer
         <LineChart title="Orientation error (dimensionless metrics)" yLabel="1" series={charts.orientationRatios} {...common} />
         <LineChart title="Position error" yLabel={units.length} series={charts.position} {...common} />
       </div>
-    </div>
+    </>
   );
-}
+});
 
 /** Runs the sheet's closed loop toward motion.target in a worker and plots what happened over time, step by step. */
 export default function RunPanel({ document, units, source }: { document: SheetDocument; units: DisplayUnits; source: ExportSource }) {
