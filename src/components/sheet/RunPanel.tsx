@@ -1,4 +1,4 @@
-import { useMemo, useRef } from 'react';
+import { memo, useMemo, useRef, type ReactNode } from 'react';
 import LineChart, { type LineSeries, type ShadedStretch } from '../charts/LineChart';
 import WarningStrip from '../charts/WarningStrip';
 import { primaryButton } from '../form-parts';
@@ -44,12 +44,22 @@ function runCharts(series: RunSeries, units: DisplayUnits) {
   };
 }
 
-function RunResults({ series, stale, units, source }: { series: RunSeries; stale: boolean; units: DisplayUnits; source: ExportSource }) {
-  const charts = useMemo(() => runCharts(series, units), [series, units]);
-  const common = { x: series.time, xLabel: 'time (s)', shaded: charts.shaded, syncKey: 'sheet-run' };
+/**
+ * A run's outcome and plots. While the next run goes (`progress` given) they stay on screen, out of date, under the
+ * progress: the click then repaints the status box alone, where taking the plots away repainted most of the page, and
+ * the next run's results replace them in one commit. Out of date, they are no longer the panel's run-results.
+ */
+function RunResults({ series, stale, units, source, progress }: { series: RunSeries; stale: boolean; units: DisplayUnits; source: ExportSource; progress?: ReactNode }) {
+  const outOfDate = progress !== undefined;
   return (
-    <div className="space-y-4" data-testid="run-results">
-      <div className="border-l-4 border-verdigris pl-3 text-sm" role="status">
+    <div className="space-y-4" data-testid={outOfDate ? 'run-results-out-of-date' : 'run-results'} aria-busy={outOfDate || undefined}>
+      <div className="relative border-l-4 border-verdigris pl-3 text-sm" role="status">
+        {outOfDate && (
+          <div className="absolute inset-0 space-y-1 bg-paper">
+            {progress}
+            <p className="text-xs text-ochre">Running again: the plots below are from the previous run.</p>
+          </div>
+        )}
         <p data-testid="run-stop-reason">{describeStopReason(series.stopReason)}</p>
         <p className="text-xs" data-testid="run-solution">Joint rates followed: {series.followed}</p>
         <p className="text-xs text-graphite">
@@ -61,6 +71,17 @@ function RunResults({ series, stale, units, source }: { series: RunSeries; stale
           {stale && <span className="ml-2 text-ochre">The sheet has changed since this run; run again to update.</span>}
         </p>
       </div>
+      <RunPlots series={series} units={units} source={source} />
+    </div>
+  );
+}
+
+/** The warnings, exports and plots of a run: memoised, so the progress drawn over out-of-date results renders none of them again. */
+const RunPlots = memo(function RunPlots({ series, units, source }: { series: RunSeries; units: DisplayUnits; source: ExportSource }) {
+  const charts = useMemo(() => runCharts(series, units), [series, units]);
+  const common = { x: series.time, xLabel: 'time (s)', shaded: charts.shaded, syncKey: 'sheet-run' };
+  return (
+    <>
       <WarningStrip count={series.tickCount} worst={series.worstSeverity} warnings={series.warnings} axisLabel="time steps" />
       <SafetyCaution />
       <ExportButtons table={series.table} source={source} />
@@ -71,22 +92,30 @@ function RunResults({ series, stale, units, source }: { series: RunSeries; stale
         <LineChart title="Orientation error (dimensionless metrics)" yLabel="1" series={charts.orientationRatios} {...common} />
         <LineChart title="Position error" yLabel={units.length} series={charts.position} {...common} />
       </div>
-    </div>
+    </>
   );
-}
+});
 
 /** Runs the sheet's closed loop toward motion.target in a worker and plots what happened over time, step by step. */
 export default function RunPanel({ document, units, source }: { document: SheetDocument; units: DisplayUnits; source: ExportSource }) {
   const { state, start, cancel } = useWorkerJob(RUN_JOBS, { warmWith: { kind: 'run', document } });
   const ranWith = useRef<SheetDocument | null>(null);
+  // Each run's results are a new element (keyed by the run's number), so nothing of the last run's stays in them.
+  const runNumber = useRef(0);
+  const previous = useRef<{ series: RunSeries; key: number; stale: boolean } | null>(null);
   const run = document.motion.run;
   const runButton = useRef<HTMLButtonElement>(null);
   useShortcut('run', () => runButton.current?.click());
 
   function startRun() {
+    previous.current = state.status === 'done' ? { series: state.result, key: runNumber.current, stale: ranWith.current !== document } : null;
+    runNumber.current++;
     ranWith.current = document;
     start({ kind: 'run', document });
   }
+
+  const progress = <JobProgress state={state} unit="time steps" onCancel={cancel} />;
+  const shownBefore = state.status === 'running' ? previous.current : null;
 
   return (
     <section className="@container space-y-4 border-2 border-ink bg-paper p-3" aria-label="Run toward the target pose" data-testid="run-panel">
@@ -110,11 +139,15 @@ export default function RunPanel({ document, units, source }: { document: SheetD
           aria-keyshortcuts={SHORTCUTS.run.keys}
           title={withShortcut('Run toward the target pose', 'run')}
         >
-          {state.status === 'done' ? 'Run again' : 'Run'}
+          {state.status === 'done' || shownBefore ? 'Run again' : 'Run'}
         </button>
       </div>
-      <JobProgress state={state} unit="time steps" onCancel={cancel} />
-      {state.status === 'done' && <RunResults series={state.result} stale={ranWith.current !== document} units={units} source={source} />}
+      {!shownBefore && progress}
+      {state.status === 'done' ? (
+        <RunResults key={runNumber.current} series={state.result} stale={ranWith.current !== document} units={units} source={source} />
+      ) : (
+        shownBefore && <RunResults key={shownBefore.key} series={shownBefore.series} stale={shownBefore.stale} units={units} source={source} progress={progress} />
+      )}
     </section>
   );
 }

@@ -2,6 +2,7 @@ import { useCallback, useEffect, useRef, useState } from 'react';
 import { flushSync } from 'react-dom';
 import type { LogComparison } from '../../lib/logs/compare';
 import type { MatrixResult } from '../../lib/sheet/matrix';
+import type { RunSettings } from '../../lib/sheet/types';
 import { formatBytes } from '../../lib/view/bytes';
 import type { RunSeries, SweepSeries } from '../../lib/view/series';
 import type { LogCompareReply, LogCompareRequest } from '../../workers/log-compare-protocol';
@@ -48,14 +49,26 @@ function runKind<K extends 'run-done' | 'sweep-done'>(doneKind: K): WorkerKind<W
 
 /** Ticks of each warm-up run: enough for the run's hot functions to be compiled, about a tenth of a second's work for a cold worker. */
 const WARM_UP_TICKS = 500;
+/** Largest gain × time step a warm-up stretches to: beyond it the controller overshoots, a motion the sheet's own run never makes. */
+const WARM_UP_MAX_STEP = 0.5;
+
+/**
+ * The sheet's run settings for a warm-up: at most WARM_UP_TICKS ticks with the time step stretched so that they span the
+ * whole run. Its last ticks, near the target, take branches (tiny errors, warnings of a slowing object) that the first
+ * ticks never reach: a warm-up of the first 500 ticks alone left the real run to compile them.
+ */
+export function warmUpSettings(settings: RunSettings): RunSettings {
+  const maxTicks = Math.min(settings.maxTicks, WARM_UP_TICKS);
+  const dt = Math.max(settings.dt, Math.min(settings.dt * (settings.maxTicks / Math.max(1, maxTicks)), WARM_UP_MAX_STEP / settings.gain));
+  return { ...settings, dt, maxTicks };
+}
 
 /** Runs toward the sheet's target, in ticks; a warm-up makes short runs of the expected sheet. */
 export const RUN_JOBS: WorkerKind<WorkerJob, RunSeries> = {
   ...runKind('run-done'),
   warmUp: (worker, expected) => {
     if (expected.kind !== 'run') return;
-    const settings = expected.settings ?? expected.document.motion.run;
-    const warmUp: WarmUp = { kind: 'warm-up', document: expected.document, settings: { ...settings, maxTicks: Math.min(settings.maxTicks, WARM_UP_TICKS) } };
+    const warmUp: WarmUp = { kind: 'warm-up', document: expected.document, settings: warmUpSettings(expected.settings ?? expected.document.motion.run) };
     worker.postMessage(warmUp);
   },
 };
