@@ -35,6 +35,22 @@ export async function waitForHydration(inside: Locator): Promise<void> {
   await inside.locator('xpath=ancestor-or-self::astro-island[1]').and(inside.page().locator('astro-island:not([ssr])')).waitFor({ timeout: 30_000 });
 }
 
+/**
+ * The text a person sees in an element, read once it is scrolled into view: the sheet's pad sections below the first
+ * screen skip their rendering until they near the viewport (content-visibility), and until then their innerText is "".
+ */
+export async function shownText(element: Locator): Promise<string> {
+  await element.scrollIntoViewIfNeeded();
+  // The browser renders a skipped section at the first frame after it came near the viewport, not at the scroll itself.
+  await element.evaluate(
+    (shown) => new Promise<void>((resolve) => {
+      const check = () => (shown.checkVisibility({ contentVisibilityAuto: true }) ? resolve() : requestAnimationFrame(check));
+      check();
+    }),
+  );
+  return element.innerText();
+}
+
 /** The base URL of the server that tests/e2e/server.ts started for this run. */
 export function baseUrl(): string {
   return inject('baseUrl');

@@ -3,7 +3,7 @@ import type { Browser, Page } from 'playwright-core';
 import { mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { copyDemoSheet } from './demo-copy';
-import { baseUrl, deleteCreatedSheets, launchBrowser, saveScreenshot, SCREENSHOT_DIR, signIn } from './browser';
+import { baseUrl, deleteCreatedSheets, launchBrowser, saveScreenshot, SCREENSHOT_DIR, signIn, shownText } from './browser';
 
 const EDITOR = { email: 'editor@tarnwhistle.example', password: 'slipless-demo' };
 const DEMO_SHEET = 'Bearing housing: index a quarter turn';
@@ -39,7 +39,7 @@ async function runAndRead(): Promise<string> {
   const panel = page.getByTestId('run-panel');
   await panel.getByRole('button', { name: /^Run( again)?$/ }).click();
   await panel.getByTestId('run-results').waitFor();
-  return panel.getByTestId('run-solution').innerText();
+  return shownText(panel.getByTestId('run-solution'));
 }
 
 async function sweepAndRead(): Promise<string> {
@@ -47,7 +47,7 @@ async function sweepAndRead(): Promise<string> {
   await panel.getByLabel('Steps').fill('5');
   await panel.getByRole('button', { name: 'Sweep' }).click();
   await panel.getByTestId('sweep-results').waitFor();
-  return panel.getByTestId('sweep-solution').innerText();
+  return shownText(panel.getByTestId('sweep-solution'));
 }
 
 describe('the commanded solution', () => {
@@ -56,16 +56,16 @@ describe('the commanded solution', () => {
     const banner = page.getByTestId('commanded-solution');
     await banner.waitFor();
     expect(await banner.getAttribute('data-solution')).toBe('steer-and-roll');
-    expect(await banner.innerText()).toMatch(/Commanded to the controller: steer-and-roll.*time step of 5 ms/s);
+    expect(await shownText(banner)).toMatch(/Commanded to the controller: steer-and-roll.*time step of 5 ms/s);
     expect(await page.getByTestId('commanded-choice').inputValue()).toBe('steer-and-roll');
-    expect(await cell('0.commanded.solution').innerText()).toBe('steer-and-roll');
+    expect(await shownText(cell('0.commanded.solution'))).toBe('steer-and-roll');
     // The pivot starts at 10° and steers back: a change of some degrees, whose rate over 5 ms is far from the 0 rad/s the steer-and-roll rates give it.
-    const change = Number(await cell('0.commanded.pivot.change').innerText());
-    const rate = Number(await cell('0.commanded.pivot.rate').innerText());
+    const change = Number(await shownText(cell('0.commanded.pivot.change')));
+    const rate = Number(await shownText(cell('0.commanded.pivot.rate')));
     expect(Math.abs(change)).toBeGreaterThan(1);
     // rate = change / time step (common practice: a backward difference), change shown in degrees, to the 4 digits shown.
     expect(rate).toBeCloseTo(((change * Math.PI) / 180) / 0.005, -1);
-    expect(Number(await cell('0.commanded.rates.1').innerText())).toBe(rate);
+    expect(Number(await shownText(cell('0.commanded.rates.1')))).toBe(rate);
     expect(await runAndRead()).toContain('steer-and-roll');
     expect(await sweepAndRead()).toContain('steer-and-roll');
     await saveScreenshot(page, 'commanded-steer-and-roll');
@@ -78,7 +78,7 @@ describe('the commanded solution', () => {
     for (const label of ['contact point x (palm frame)', 'normal n (palm frame)', 'tangential velocity (palm frame)']) {
       expect(await results.locator('th', { hasText: label }).count()).toBeGreaterThan(0);
     }
-    expect(await page.getByTestId('commanded-solution').innerText()).toContain('Every vector is in the palm frame');
+    expect(await shownText(page.getByTestId('commanded-solution'))).toContain('Every vector is in the palm frame');
     for (const legend of ['twist: origin velocity (palm frame)', 'twist: angular velocity (palm frame)', 'target position (palm frame)']) {
       expect(await page.locator('legend', { hasText: legend }).count()).toBe(1);
     }
@@ -103,9 +103,9 @@ describe('the commanded solution', () => {
   it('follows "full" in the results, the run, the sweep and the CSV export once chosen, and says so', async () => {
     await page.getByTestId('commanded-choice').selectOption('full');
     await page.locator('[data-testid="commanded-solution"][data-solution="full"]').waitFor();
-    expect(await cell('0.commanded.solution').innerText()).toBe('full');
+    expect(await shownText(cell('0.commanded.solution'))).toBe('full');
     expect(await page.locator('[data-result="0.commanded.pivot.rate"]').count()).toBe(0);
-    for (let k = 0; k < 3; k++) expect(await cell(`0.commanded.rates.${k}`).innerText()).toBe(await cell(`0.full.rates.${k}`).innerText());
+    for (let k = 0; k < 3; k++) expect(await shownText(cell(`0.commanded.rates.${k}`))).toBe(await shownText(cell(`0.full.rates.${k}`)));
     expect(await runAndRead()).toContain('full solution');
     expect(await sweepAndRead()).toContain('full solution');
     expect(await page.getByTestId('sweep-panel').locator('figcaption', { hasText: 'Commanded joint rates: full solution' }).count()).toBe(1);

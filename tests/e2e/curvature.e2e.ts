@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
 import { mkdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { baseUrl, deleteCreatedSheets, launchBrowser, SCREENSHOT_DIR, signIn } from './browser';
+import { baseUrl, deleteCreatedSheets, launchBrowser, SCREENSHOT_DIR, signIn, shownText } from './browser';
 import { evaluateSheet } from '../../src/lib/sheet/evaluate';
 import { displayValue, findOutput } from '../../src/lib/sheet/outputs';
 
@@ -40,9 +40,9 @@ describe('curvature on the sheet page', () => {
     const relative = page.locator('[data-result="0.curvature.relative"]').first();
     await relative.waitFor();
     const definition = findOutput('curvature.relative');
-    await expect(relative.innerText()).resolves.toBe(displayValue(definition, definition.read(result, 0)));
+    await expect(shownText(relative)).resolves.toBe(displayValue(definition, definition.read(result, 0)));
     const speed = findOutput('curvature.wander.rollerSpeed');
-    await expect(page.locator('[data-result="0.curvature.wander"]').first().innerText()).resolves.toContain(
+    await expect(shownText(page.locator('[data-result="0.curvature.wander"]').first())).resolves.toContain(
       `moves over the roller at ${displayValue(speed, speed.read(result, 0))} mm/s`,
     );
     mkdirSync(SCREENSHOT_DIR, { recursive: true });

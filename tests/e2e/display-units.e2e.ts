@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
 import { mkdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { baseUrl, deleteCreatedSheets, launchBrowser, saveScreenshot, SCREENSHOT_DIR, signIn } from './browser';
+import { baseUrl, deleteCreatedSheets, launchBrowser, saveScreenshot, SCREENSHOT_DIR, signIn, shownText } from './browser';
 import { SAFETY_CAUTION } from '../../src/lib/safety';
 import type { DisplayUnits } from '../../src/lib/sheet/display-units';
 import { evaluateSheet } from '../../src/lib/sheet/evaluate';
@@ -55,7 +55,7 @@ describe('display units, warnings with their numbers, the safety label', () => {
   it('switches the units: results and derivation follow', async () => {
     const rates = findOutput('full.rates');
     const gap = findOutput('contact.gap');
-    await expect(cell(page, '0.full.rates.2').innerText()).resolves.toBe(displayValue(rates, result.fingers[0].full.rates[2]));
+    await expect(shownText(cell(page, '0.full.rates.2'))).resolves.toBe(displayValue(rates, result.fingers[0].full.rates[2]));
     await page.locator('[data-display-unit="angularSpeed"]').selectOption('rpm');
     await page.locator('[data-display-unit="length"]').selectOption('m');
     // 1 rpm = 2π/60 rad/s (ISO 80000-3); the expected text comes from the catalogue with the same choice.
@@ -65,7 +65,7 @@ describe('display units, warnings with their numbers, the safety label', () => {
     // The derivation (and KaTeX) load once its section nears the screen.
     await page.locator('#derivation').scrollIntoViewIfNeeded();
     await derivationValue.waitFor({ timeout: 20_000 });
-    await expect(derivationValue.innerText()).resolves.toMatch(/ m$/);
+    await expect(shownText(derivationValue)).resolves.toMatch(/ m$/);
     await page.locator('#results').scrollIntoViewIfNeeded();
     await saveScreenshot(page, 'display-units-results-m-rpm');
   });
@@ -73,10 +73,10 @@ describe('display units, warnings with their numbers, the safety label', () => {
   it('shows a warning note with its value, threshold, finger and joint', async () => {
     const note = page.locator('[data-margin="motion"] [data-warning="RATE_LIMIT_EXCEEDED"]').first();
     await note.waitFor();
-    await expect(note.locator('[data-warning-where]').innerText()).resolves.toBe('finger "north", joint "north-roll"');
-    await expect(note.locator('[data-warning-value]').innerText()).resolves.toMatch(/^[\d.]+ rpm$/);
+    await expect(shownText(note.locator('[data-warning-where]'))).resolves.toBe('finger "north", joint "north-roll"');
+    await expect(shownText(note.locator('[data-warning-value]'))).resolves.toMatch(/^[\d.]+ rpm$/);
     // 0.001 rad/s × 60/(2π) = 0.009549 rpm.
-    await expect(note.locator('[data-warning-threshold]').innerText()).resolves.toBe('0.009549 rpm');
+    await expect(shownText(note.locator('[data-warning-threshold]'))).resolves.toBe('0.009549 rpm');
     mkdirSync(SCREENSHOT_DIR, { recursive: true });
     await note.screenshot({ path: join(SCREENSHOT_DIR, 'display-units-warning-note.png') });
   });
@@ -86,9 +86,9 @@ describe('display units, warnings with their numbers, the safety label', () => {
     const input = radius.locator('input');
     const written = await input.inputValue();
     await input.fill('85');
-    await expect(radius.locator('[data-reading="bare"]').innerText()).resolves.toContain('reads as');
-    await expect(radius.locator('[data-si]').innerText()).resolves.toBe('85 m');
-    await expect(radius.locator('[data-input-note]').innerText()).resolves.toContain('did you mean 85 mm?');
+    await expect(shownText(radius.locator('[data-reading="bare"]'))).resolves.toContain('reads as');
+    await expect(shownText(radius.locator('[data-si]'))).resolves.toBe('85 m');
+    await expect(shownText(radius.locator('[data-input-note]'))).resolves.toContain('did you mean 85 mm?');
     await radius.screenshot({ path: join(SCREENSHOT_DIR, 'display-units-bare-number.png') });
     await input.fill(written);
     expect(await radius.locator('[data-input-note]').count()).toBe(0);
@@ -126,7 +126,7 @@ describe('display units, warnings with their numbers, the safety label', () => {
     await panel.getByRole('button', { name: /^Run( again)?$/ }).click();
     const caution = panel.locator('[data-testid="run-results"] [data-safety-caution]');
     await caution.waitFor({ timeout: 30_000 });
-    await expect(caution.locator('[data-safety-label]').innerText()).resolves.toMatch(/^safety$/i);
+    await expect(shownText(caution.locator('[data-safety-label]'))).resolves.toMatch(/^safety$/i);
     // The charts follow the choice made above (rpm, m; angles left in degrees); uPlot draws axis labels on its canvas, so the figure names its y unit.
     const chart = (title: string | RegExp) => panel.locator('[data-testid="line-chart"]').filter({ has: page.locator('figcaption', { hasText: title }) });
     await expect(chart(/^Joint rates followed/).getAttribute('data-y-label')).resolves.toBe('rpm');

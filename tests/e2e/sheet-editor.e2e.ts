@@ -3,7 +3,7 @@ import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { mkdirSync, readFileSync } from 'node:fs';
 import { gzipSync } from 'node:zlib';
 import { join } from 'node:path';
-import { baseUrl, launchBrowser, saveScreenshot, SCREENSHOT_DIR, signIn } from './browser';
+import { baseUrl, launchBrowser, saveScreenshot, SCREENSHOT_DIR, signIn, shownText } from './browser';
 
 const EDITOR = { email: 'editor@tarnwhistle.example', password: 'slipless-demo' };
 const THREE_FINGER_SHEET = 'Bearing housing: index a quarter turn';
@@ -20,7 +20,7 @@ const cell = (p: Page, key: string) => p.locator(`[data-result="${key}"]`).first
 /** Waits until the results cell shows something other than `before`; returns the new text. */
 async function changedText(p: Page, key: string, before: string): Promise<string> {
   await p.waitForFunction(([k, b]) => document.querySelector(`[data-result="${k}"]`)?.textContent !== b, [key, before] as const, { timeout: 10_000 });
-  return cell(p, key).innerText();
+  return (await cell(p, key).textContent()) ?? '';
 }
 
 /** A viewport-sized picture of one part of the page, for looking at details. */
@@ -58,7 +58,7 @@ describe('sheet editor', () => {
       if (url.pathname.endsWith('.js')) scripts.add(url.pathname);
     });
     await page.goto(`${baseUrl()}/sheets/${sheetId}`, { waitUntil: 'networkidle' });
-    await expect(page.locator('[data-sheet-title]').innerText()).resolves.toBe(THREE_FINGER_SHEET);
+    await expect(shownText(page.locator('[data-sheet-title]'))).resolves.toBe(THREE_FINGER_SHEET);
     await cell(page, '0.contact.gap').waitFor();
     await page.locator('[data-testid="scene-view"]').waitFor();
     expect(await page.locator('[data-safety-caution]').count()).toBeGreaterThan(0);
@@ -78,16 +78,16 @@ describe('sheet editor', () => {
   it('flags a wrong dimension next to the field at once', async () => {
     const radius = field(page, RADIUS);
     await radius.locator('input').fill('16 deg');
-    await expect(radius.getByRole('alert').innerText()).resolves.toContain('expected a length');
+    await expect(shownText(radius.getByRole('alert'))).resolves.toContain('expected a length');
   });
 
   it('changes the roller radius with units; the results and the view update', async () => {
-    const gapBefore = await cell(page, '0.contact.gap').innerText();
+    const gapBefore = await shownText(cell(page, '0.contact.gap'));
     await page.waitForTimeout(500);
     const viewBefore = await sceneImage(page);
     const radius = field(page, RADIUS);
     await radius.locator('input').fill('16 mm');
-    await expect(radius.locator('[data-si]').innerText()).resolves.toBe('0.016 m');
+    await expect(shownText(radius.locator('[data-si]'))).resolves.toBe('0.016 m');
     const gapAfter = await changedText(page, '0.contact.gap', gapBefore);
     // The roller centre stays put, so 4 mm more radius closes the gap by 4 mm.
     expect(Number(gapAfter) - Number(gapBefore)).toBeCloseTo(-4, 3);
@@ -98,30 +98,30 @@ describe('sheet editor', () => {
 
   it('takes the object acceleration beside the twist; the feed-forward adds it at every contact', async () => {
     const key = '0.acceleration.objectPoint';
-    const before = await cell(page, key).innerText();
+    const before = await shownText(cell(page, key));
     const x = (text: string) => Number(text.replace(/[()]/g, '').split(',')[0]);
     const linear = field(page, 'object.acceleration.linear[0]');
     await linear.locator('input').fill('1 m/s^2');
-    await expect(linear.locator('[data-si]').innerText()).resolves.toBe('1 m/s^2');
+    await expect(shownText(linear.locator('[data-si]'))).resolves.toBe('1 m/s^2');
     const after = await changedText(page, key, before);
     // a(x) = a_o + alpha x r + omega x (omega x r): the origin's acceleration adds one to one (Craig, ch. 6).
     expect(x(after) - x(before)).toBeCloseTo(1, 3);
     await saveSection(page, '[data-acceleration="0"]', 'sheet-editor-acceleration');
     // The table names the contact model the feed-forward used, in its caption and its first row.
-    const model = await cell(page, '0.acceleration.model').innerText();
-    const caption = (await page.locator('[data-acceleration="0"] caption').innerText()).toLowerCase();
+    const model = await shownText(cell(page, '0.acceleration.model'));
+    const caption = (await shownText(page.locator('[data-acceleration="0"] caption'))).toLowerCase();
     expect(caption).toContain(model === 'rolling-contact' ? 'rolling contact' : 'material points');
     // Beside it the steer-and-roll feed-forward: its pivot rate and base and roll accelerations, or the reason it is not defined.
-    const steer = await cell(page, '0.acceleration.steer.status').innerText();
+    const steer = await shownText(cell(page, '0.acceleration.steer.status'));
     if (steer === 'defined') {
-      expect(Number.isFinite(Number(await cell(page, '0.acceleration.steer.pivotRate').innerText()))).toBe(true);
-      expect(Number.isFinite(Number(await cell(page, '0.acceleration.steer.rollAcceleration').innerText()))).toBe(true);
+      expect(Number.isFinite(Number(await shownText(cell(page, '0.acceleration.steer.pivotRate'))))).toBe(true);
+      expect(Number.isFinite(Number(await shownText(cell(page, '0.acceleration.steer.rollAcceleration'))))).toBe(true);
     } else {
-      await expect(cell(page, '0.acceleration.steer.reason').innerText()).resolves.toContain('not defined');
+      await expect(shownText(cell(page, '0.acceleration.steer.reason'))).resolves.toContain('not defined');
     }
     await linear.locator('input').fill('');
     await changedText(page, key, after);
-    await expect(cell(page, key).innerText()).resolves.toBe(before);
+    await expect(shownText(cell(page, key))).resolves.toBe(before);
   });
 
   it('uses a variable from the variables editor in a field, and shows a bad line inline', async () => {
@@ -129,14 +129,14 @@ describe('sheet editor', () => {
     await editor.click();
     await page.keyboard.type('rollerRadius = 15 mm\nbroken = 3 furlongz');
     await page.locator('.cm-variable-value').first().waitFor();
-    await expect(page.locator('.cm-variable-value').first().innerText()).resolves.toContain('0.015 m');
-    await expect(page.locator('.cm-variable-error').first().innerText()).resolves.toContain('unknown name "furlongz"');
-    const gapBefore = await cell(page, '0.contact.gap').innerText();
+    await expect(shownText(page.locator('.cm-variable-value').first())).resolves.toContain('0.015 m');
+    await expect(shownText(page.locator('.cm-variable-error').first())).resolves.toContain('unknown name "furlongz"');
+    const gapBefore = await shownText(cell(page, '0.contact.gap'));
     await field(page, RADIUS).locator('input').fill('rollerRadius + 1 mm');
-    await expect(field(page, RADIUS).locator('[data-si]').innerText()).resolves.toBe('0.016 m');
+    await expect(shownText(field(page, RADIUS).locator('[data-si]'))).resolves.toBe('0.016 m');
     await field(page, 'hand.fingers[1].roller.radius').locator('input').fill('rollerRadius');
-    await changedText(page, '1.contact.gap', await cell(page, '1.contact.gap').innerText()).catch(() => undefined);
-    expect(await cell(page, '0.contact.gap').innerText()).toBe(gapBefore);
+    await changedText(page, '1.contact.gap', await shownText(cell(page, '1.contact.gap'))).catch(() => undefined);
+    expect(await shownText(cell(page, '0.contact.gap'))).toBe(gapBefore);
     // Remove the broken line so the sheet reads cleanly for saving.
     await editor.click();
     await page.keyboard.press('Control+End');
@@ -164,10 +164,10 @@ describe('sheet editor', () => {
       await page.evaluate(() => performance.clearMeasures('slipless:edit-to-result'));
       const computeMs: number[] = [];
       for (const value of ['13.5 mm', '13 mm', '12.5 mm', '13 mm', '12 mm', '12.5 mm', '13 mm', '13.5 mm', '12.5 mm']) {
-        const before = await cell(page, '2.contact.gap').innerText();
+        const before = (await cell(page, '2.contact.gap').textContent()) ?? '';
         await input.fill(value);
         await changedText(page, '2.contact.gap', before);
-        computeMs.push(Number(await page.locator('[data-compute-ms]').innerText()));
+        computeMs.push(Number(await page.locator('[data-compute-ms]').textContent()));
         await page.waitForTimeout(400);
       }
       const times = await page.evaluate(() => performance.getEntriesByName('slipless:edit-to-result').map((m) => m.duration));
@@ -189,11 +189,11 @@ describe('sheet editor', () => {
   });
 
   it('saves with a message', async () => {
-    const before = Number(await page.locator('[data-revision]').innerText());
+    const before = Number(await shownText(page.locator('[data-revision]')));
     await page.getByLabel('revision message').fill('Larger rollers on the first two fingers');
     await page.getByRole('button', { name: 'Save revision' }).click();
     await page.waitForFunction((n) => document.querySelector('[data-revision]')?.textContent === String(n), before + 1);
-    await expect(page.locator('[data-save-status]').innerText()).resolves.toContain('All changes saved');
+    await expect(shownText(page.locator('[data-save-status]'))).resolves.toContain('All changes saved');
     await saveScreenshot(page, 'sheet-editor-saved');
   });
 
@@ -204,7 +204,7 @@ describe('sheet editor', () => {
     // This page makes a change and saves first ...
     await field(other, 'hand.fingers[2].roller.radius').locator('input').fill('13 mm');
     await other.getByLabel('revision message').fill('Third roller 13 mm');
-    const saved = Number(await other.locator('[data-revision]').innerText()) + 1;
+    const saved = Number(await shownText(other.locator('[data-revision]'))) + 1;
     await other.getByRole('button', { name: 'Save revision' }).click();
     await other.waitForFunction((n) => document.querySelector('[data-revision]')?.textContent === String(n), saved);
     await other.close();
@@ -215,8 +215,8 @@ describe('sheet editor', () => {
     const conflict = page.locator('[data-conflict]');
     await conflict.waitFor();
     await conflict.locator('[data-changes="theirs"]').waitFor();
-    await expect(conflict.locator('[data-changes="theirs"]').innerText()).resolves.toContain('hand.fingers[2].roller.radius');
-    await expect(conflict.locator('[data-changes="mine"]').innerText()).resolves.toContain('object.pose.position[2]');
+    await expect(shownText(conflict.locator('[data-changes="theirs"]'))).resolves.toContain('hand.fingers[2].roller.radius');
+    await expect(shownText(conflict.locator('[data-changes="mine"]'))).resolves.toContain('object.pose.position[2]');
     await saveSection(page, '[data-conflict]', 'sheet-editor-conflict');
     await conflict.getByRole('button', { name: /Re-apply mine/ }).click();
     await page.waitForFunction((n) => document.querySelector('[data-revision]')?.textContent === String(n), saved + 1);
@@ -229,7 +229,7 @@ describe('sheet editor', () => {
     await page.waitForURL((url) => url.pathname.startsWith('/sheets/') && !url.pathname.includes(sheetId));
     await page.locator('[data-forked-from]').waitFor();
     await cell(page, '0.contact.gap').waitFor();
-    const before = await cell(page, '0.contact.gap').innerText();
+    const before = await shownText(cell(page, '0.contact.gap'));
     await field(page, RADIUS).locator('input').fill('18 mm');
     await changedText(page, '0.contact.gap', before);
     await page.getByLabel('revision message').fill('Try 18 mm on the first roller');

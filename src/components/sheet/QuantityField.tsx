@@ -79,6 +79,8 @@ function QuantityFieldView({ label, value, kind, onChange, reading, issue, disab
         value={text}
         disabled={disabled}
         spellCheck={false}
+        // Not personal data, and no autofill scan of the fields while the page is parsed (see fields.tsx).
+        autoComplete="off"
         placeholder={optional?.placeholder}
         aria-invalid={message ? true : undefined}
         aria-describedby={[read !== null && `${id}-value`, message && `${id}-error`].filter(Boolean).join(' ') || undefined}

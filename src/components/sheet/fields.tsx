@@ -8,6 +8,10 @@ import { fieldInput, selectInput, smallLabel } from './sheet-styles';
 
 type Kind = Exclude<QuantityKind, 'any'>;
 
+// The fields say autoComplete="off" (QuantityField too): they hold engineering quantities, never personal data, and
+// without it Chromium's autofill looks over the page's fields after each chunk the parser adds, forcing a style and
+// layout of the whole page each time while the sheet loads.
+
 /**
  * Same props, paths compared by their text (callers build path arrays afresh on each render): a field
  * then re-renders only when its own value in the document, its issue or reading (each subscribed to by
@@ -91,6 +95,7 @@ export const PlainNumber = memo(function PlainNumber({ path, label, integer }: {
         id={id}
         className={fieldInput}
         inputMode={integer ? 'numeric' : 'decimal'}
+        autoComplete="off"
         disabled={readOnly}
         value={value === undefined ? '' : String(value)}
         aria-invalid={issue ? true : undefined}
@@ -130,6 +135,7 @@ export const TextField = memo(function TextField({ path, label }: { path: Docume
       <input
         id={id}
         className={`${fieldInput} font-sans`}
+        autoComplete="off"
         disabled={readOnly}
         value={String(value ?? '')}
         aria-invalid={issue ? true : undefined}
@@ -157,6 +163,7 @@ export const Choice = memo(function Choice({ path, label, options, onChoose, fal
       <select
         id={id}
         className={selectInput}
+        autoComplete="off"
         disabled={readOnly}
         data-testid={test}
         value={String(current ?? fallback ?? '')}
