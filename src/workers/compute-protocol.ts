@@ -11,6 +11,7 @@ import { readDocument, type DocumentReadings } from '../lib/sheet/readings';
 import { QUANTITY_KINDS } from '../lib/sheet/quantity-kinds';
 import { createEditReader, editablePaths, parseSheet, type EditablePath, type SheetIssue, type SheetReader } from '../lib/sheet/schema';
 import type { SheetDocument } from '../lib/sheet/types';
+import { warmUpInTasks } from './warm-up';
 
 export interface ComputeRequest {
   type: 'compute';
@@ -172,27 +173,18 @@ export function createComputeHandler(post: (reply: ComputeReply) => void, defer:
     const fields = editablePaths(shown);
     let reader = createEditReader();
     let edited: unknown = shown;
-    let round = 0;
-    const next = () => {
-      if (asked !== messages || round === WARM_UP_ROUNDS) return;
-      try {
-        // The last round reads the document shown again, so the readings kept between documents are its own again.
-        if (round === WARM_UP_ROUNDS - 1) edited = shown;
-        else {
-          if (round % WHOLE_READ_EVERY === 0) reader = createEditReader();
-          const field = fields[round % Math.max(fields.length, 1)];
-          const text = field === undefined ? undefined : nearbyText(getAt(edited, field.path), field.kind, 1e-3);
-          // A structured clone each round, as each request arrives.
-          edited = structuredClone(field === undefined || text === undefined ? edited : setAt(edited, field.path, text));
-        }
-        round++;
-        computeSheetInSteps({ type: 'compute', id: 0, document: edited, derive: false }, () => 0, reader).later?.();
-      } catch {
-        // A document the worker cannot take fails its real request with the reason; the warm-up has nothing to report.
-        return;
+    const round = (index: number) => {
+      // The last round reads the document shown again, so the readings kept between documents are its own again.
+      if (index === WARM_UP_ROUNDS - 1) edited = shown;
+      else {
+        if (index % WHOLE_READ_EVERY === 0) reader = createEditReader();
+        const field = fields[index % Math.max(fields.length, 1)];
+        const text = field === undefined ? undefined : nearbyText(getAt(edited, field.path), field.kind, 1e-3);
+        // A structured clone each round, as each request arrives.
+        edited = structuredClone(field === undefined || text === undefined ? edited : setAt(edited, field.path, text));
       }
-      defer(next);
+      computeSheetInSteps({ type: 'compute', id: 0, document: edited, derive: false }, () => 0, reader).later?.();
     };
-    defer(next);
+    warmUpInTasks(WARM_UP_ROUNDS, round, () => asked === messages, defer);
   }
 }

@@ -9,6 +9,7 @@ import { runSheet, sweepSheet } from '../lib/kinematics';
 import { runMatrix, type MatrixResult } from '../lib/sheet/matrix';
 import type { MatrixSettings, RunSettings, SheetDocument, SweepSettings } from '../lib/sheet/types';
 import { runSeries, sweepSeries, transferablesOf, type RunSeries, type SweepSeries } from '../lib/view/series';
+import { warmUpInTasks } from './warm-up';
 
 export type WorkerJob =
   | { kind: 'run'; document: SheetDocument; settings?: RunSettings }
@@ -73,27 +74,15 @@ function runToSeries(document: SheetDocument, settings: RunSettings, onProgress:
  * and stops making them once a job has arrived (that job's own run compiles the rest).
  */
 export function createMessageHandler(post: PostReply, defer: (next: () => void) => void = (next) => setTimeout(next, 0)): (message: unknown) => void {
-  let roundsLeft = 0;
+  // Counts messages: a warm-up goes on only while no message came after it.
+  let messages = 0;
   return (message) => {
+    const asked = ++messages;
     if (!isWarmUp(message)) {
-      roundsLeft = 0;
       performJob(message, post);
       return;
     }
-    roundsLeft = WARM_UP_ROUNDS;
-    const round = () => {
-      if (roundsLeft === 0) return;
-      roundsLeft--;
-      try {
-        runToSeries(message.document, message.settings, () => {}, () => 0);
-      } catch {
-        // A sheet that cannot run fails its real run with the message; the warm-up has nothing to report.
-        roundsLeft = 0;
-        return;
-      }
-      defer(round);
-    };
-    defer(round);
+    warmUpInTasks(WARM_UP_ROUNDS, () => runToSeries(message.document, message.settings, () => {}, () => 0), () => asked === messages, defer);
   };
 }
 
