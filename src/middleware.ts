@@ -10,8 +10,15 @@ import { needsSignIn, signInLocation } from './lib/server/page-access';
 import { publicOrigin, publicUrl } from './lib/server/public-origin';
 import { isSameOriginWrite, withSecurityHeaders } from './lib/server/request-guard';
 import { readSessionCookie } from './lib/server/session-cookie';
+import { warmUpSheetPage } from './lib/server/warm-up-sheet-page';
 
 let staleSessionReported = false;
+
+// The built app loads this module at its first request (in practice the health check): from then on, between
+// requests, it runs the sheet page's code on a built-in sheet so that nobody's first sheet waits for it to compile.
+if (import.meta.env.PROD) {
+  setTimeout(() => warmUpSheetPage().catch((error: Error) => console.warn(`The sheet page's warm-up failed: ${error.message}`)), 0);
+}
 
 /** Resolves the session cookie to an identity; a cookie signed with an old secret counts as signed out. */
 async function sessionIdentity(request: Request): Promise<Identity | null> {

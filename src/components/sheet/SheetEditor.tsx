@@ -306,8 +306,23 @@ function Editor({ data, evaluation }: { data: SheetPageData; evaluation: string 
           </p>
         )}
         {readOnly && <p className="mt-3 text-sm text-graphite">Read only: your role can view this sheet but not change it.</p>}
-        <div className="mt-4 grid gap-6 xl:grid-cols-[minmax(0,1fr)_30rem]">
-          <div className="pad-grid min-w-0 border-2 border-ink bg-paper/95 px-5" data-pad>
+        {/*
+          The summary comes first in the HTML, so the browser shows results after reading a quarter of the page
+          rather than all of it; beside the pad it floats right and, a float being pinned within the whole block
+          (a grid item only within its cell), stays in view while the pad scrolls past. The views, runs and sweeps
+          come after the pad, so keyboard focus goes summary, pad, views: top to bottom, then left to right.
+        */}
+        <div className="mt-4 flow-root">
+          <aside className="mb-6 xl:sticky xl:top-0 xl:z-20 xl:float-right xl:mb-4 xl:w-[30rem] xl:bg-paper xl:pt-2" aria-label="Results summary">
+            <ResultsSummary result={result} document={lastGood?.document ?? null} stale={pending || (reply !== null && !reply.ok)} />
+            {lastGood && (
+              <p className="mt-2 text-xs text-graphite">
+                {/* The first results come with the page (id 0); every later one from the worker. */}
+                Solved {lastGood.id === 0 ? 'on the server' : 'in a background worker'} in <span className="num" data-compute-ms>{lastGood.elapsedMs.toFixed(1)}</span> ms.
+              </p>
+            )}
+          </aside>
+          <div className="pad-grid min-w-0 border-2 border-ink bg-paper/95 px-5 xl:float-left xl:w-[calc(100%-31.5rem)]" data-pad>
             <PadSection id="sheet-summary" number={0} title="Sheet">
               <div className="grid gap-3 md:grid-cols-2">
                 <TextField path={['title']} label="title" />
@@ -355,12 +370,6 @@ function Editor({ data, evaluation }: { data: SheetPageData; evaluation: string 
                 </p>
               )}
               <ResultsSection result={result} units={units} stale={pending || (reply !== null && !reply.ok)} />
-              {lastGood && (
-                <p className="mt-2 text-xs text-graphite">
-                  {/* The first results come with the page (id 0); every later one from the worker. */}
-                  Solved {lastGood.id === 0 ? 'on the server' : 'in a background worker'} in <span className="num" data-compute-ms>{lastGood.elapsedMs.toFixed(1)}</span> ms.
-                </p>
-              )}
             </PadSection>
             <PadSection id="derivation" number={6} title="Derivation">
               <WhenSeen onShow={startDeriving} fallback={<p className="text-sm text-graphite">Waiting for results.</p>}>
@@ -401,11 +410,7 @@ function Editor({ data, evaluation }: { data: SheetPageData; evaluation: string 
               </div>
             )}
           </div>
-          <aside className="space-y-4" aria-label="Summary, views, runs and sweeps">
-            {/* The aside spans the pad's height, so the summary stays pinned while everything below it scrolls past. */}
-            <div className="sticky top-0 z-20 bg-paper pt-2">
-              <ResultsSummary result={result} document={lastGood?.document ?? null} stale={pending || (reply !== null && !reply.ok)} />
-            </div>
+          <aside className="mt-6 space-y-4 xl:float-right xl:clear-right xl:mt-0 xl:w-[30rem]" aria-label="Views, runs and sweeps">
             <SideViews solved={deferred} units={units} matrix={matrixContext} source={exportSource} />
           </aside>
         </div>
