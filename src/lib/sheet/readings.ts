@@ -5,7 +5,7 @@
  * imports only the types.
  */
 import { MAX_EXPRESSION_LENGTH, formatVariableValue, readQuantityText, readSheetVariables, type ParsedVariables, type QuantityKind, type VariableIssue, type VariableScope } from './units';
-import { appendPathKey } from './document-path';
+import { appendPathKey, copyTree, findSingleChange, formatIssuePath, nestsWithin, replaceInTree } from './document-path';
 
 /** One quantity field written as text: the text read, the kind it has (null for none a field takes) and its SI value in that kind's unit. */
 export interface FieldReading {
@@ -121,8 +121,8 @@ function readVariables(text: string, parsed: ParsedVariables): VariableReadings 
   return readings;
 }
 
-/** Reads every quantity written as text in a document as written (also one that does not read as a sheet), over its variables, down to MAX_DOCUMENT_DEPTH. */
-export function readDocument(document: unknown): DocumentReadings {
+/** The readings of a whole document and the variables' scope its texts were read over. */
+function readWhole(document: unknown): { readings: DocumentReadings; scope: VariableScope } {
   const text = document !== null && typeof document === 'object' ? (document as { variables?: unknown }).variables : undefined;
   const variablesText = typeof text === 'string' ? text : '';
   const parsed = readSheetVariables(variablesText);
@@ -134,5 +134,61 @@ export function readDocument(document: unknown): DocumentReadings {
   const tooDeep = collect(document, rootReading, parsed.values, fields, 0);
   const readings: DocumentReadings = { fields, variables: readVariables(variablesText, parsed) };
   if (tooDeep) readings.tooDeep = { path: tooDeep.path, message: `the document nests lists and objects more than ${MAX_DOCUMENT_DEPTH} levels deep here` };
+  return { readings, scope: parsed.values };
+}
+
+/** Reads every quantity written as text in a document as written (also one that does not read as a sheet), over its variables, down to MAX_DOCUMENT_DEPTH. */
+export function readDocument(document: unknown): DocumentReadings {
+  return readWhole(document).readings;
+}
+
+/** What a readings reader keeps of the last document it read. */
+interface ReadDocument {
+  /** The document as written (a copy of its own). */
+  written: unknown;
+  readings: DocumentReadings;
+  scope: VariableScope;
+}
+
+/**
+ * A reader of readings (as readDocument gives them) for the documents of one editor, each an edit of the one before: a
+ * document that differs from the last one read in one value outside the free text (the variables included) reads that
+ * value alone and keeps every other reading, without walking the document; any other document is read whole. The
+ * readings it gives share what an edit left alone, so nobody may change them.
+ */
+export function createReadingsReader(): (document: unknown) => DocumentReadings {
+  let last: ReadDocument | undefined;
+  return (document) => {
+    const change = last === undefined ? 'more' : findSingleChange(last.written, document);
+    if (change === 'none') return last!.readings;
+    const edited = change === 'more' ? undefined : readingsAfterEdit(last!, change, document);
+    if (edited !== undefined) return edited;
+    const { readings, scope } = readWhole(document);
+    // A document nested past the readings' depth (in its free text too, which they skip) could overflow the stack when copied.
+    last = readings.tooDeep || !nestsWithin(document, MAX_DOCUMENT_DEPTH) ? undefined : { written: copyTree(document), readings, scope };
+    return readings;
+  };
+}
+
+/**
+ * The readings of `document`, which differs from `last` in the one value at `path`, and `last` moved on to it; or undefined
+ * when that value needs the whole document read (the variables, a reading that comes or goes, the document itself).
+ */
+function readingsAfterEdit(last: ReadDocument, path: (string | number)[], document: unknown): DocumentReadings | undefined {
+  const top = path[0];
+  if (typeof top !== 'string') return undefined;
+  let value: unknown = document;
+  for (const key of path) value = (value as Record<string | number, unknown>)[key];
+  let readings = last.readings;
+  if (!TEXT_FIELDS.has(top)) {
+    const key = formatIssuePath(path);
+    const reading = typeof value === 'string' ? readingOfText(value, last.scope) : null;
+    const before = Object.hasOwn(readings.fields, key);
+    // A reading that comes or goes would move the key in the fields' order: the whole reading gives that order.
+    if (before !== (reading !== null)) return undefined;
+    if (reading !== null) readings = { fields: { ...readings.fields, [key]: reading }, variables: readings.variables };
+  } else if (top === 'variables') return undefined;
+  replaceInTree(last.written, path, value);
+  last.readings = readings;
   return readings;
 }

@@ -36,7 +36,7 @@ import {
   type VariableScope,
 } from './units';
 import { twistAboutContact, twistAboutOrigin } from './twist-entry';
-import { formatIssuePath } from './document-path';
+import { copyTree, findSingleChange, formatIssuePath, getAt, replaceInTree } from './document-path';
 import { COMMANDED_SOLUTIONS, DEFAULT_COMMANDED, DEFAULT_RUN, DEFAULT_SOLVER, ROTATION_METRIC_KEYS, SHEET_FORMAT, SHEET_VERSION, commandedSolutionOf } from './sheet-constants';
 
 export { formatIssuePath, COMMANDED_SOLUTIONS, DEFAULT_COMMANDED, DEFAULT_RUN, DEFAULT_SOLVER, ROTATION_METRIC_KEYS, SHEET_FORMAT, SHEET_VERSION, commandedSolutionOf };
@@ -983,72 +983,6 @@ export function editablePaths(written: unknown): EditablePath[] {
   return found;
 }
 
-/** Where two JSON trees differ, when they differ in one value that is not a list or an object. */
-interface TreeDifference {
-  at: (string | number)[] | undefined;
-  /** They differ in more than one value, in shape, or `next` holds something other than JSON. */
-  more: boolean;
-}
-
-const isPlainRecord = (value: object): value is Record<string, unknown> => {
-  const prototype = Object.getPrototypeOf(value);
-  return prototype === Object.prototype || prototype === null;
-};
-
-/** Compares `next` with `previous` (a JSON tree) below `path` (a stack, as it is on return) and notes the difference in `found`. */
-function compareTrees(previous: unknown, next: unknown, path: (string | number)[], found: TreeDifference): void {
-  const previousIsTree = previous !== null && typeof previous === 'object';
-  const nextIsTree = next !== null && typeof next === 'object';
-  if (!previousIsTree || !nextIsTree) {
-    // Object.is: -0 is read as written, so a sign is a change.
-    if (Object.is(previous, next)) return;
-    if (previousIsTree || nextIsTree || found.at !== undefined) found.more = true;
-    else found.at = [...path];
-    return;
-  }
-  if (Array.isArray(previous)) {
-    if (!Array.isArray(next) || next.length !== previous.length) {
-      found.more = true;
-      return;
-    }
-    for (let i = 0; i < next.length && !found.more; i++) {
-      path.push(i);
-      compareTrees(previous[i], next[i], path, found);
-      path.pop();
-    }
-    return;
-  }
-  if (Array.isArray(next) || !isPlainRecord(next)) {
-    found.more = true;
-    return;
-  }
-  const before = previous as Record<string, unknown>;
-  const keys = Object.keys(next);
-  if (keys.length !== Object.keys(before).length) {
-    found.more = true;
-    return;
-  }
-  for (let i = 0; i < keys.length && !found.more; i++) {
-    const key = keys[i];
-    if (!Object.hasOwn(before, key)) {
-      found.more = true;
-      return;
-    }
-    path.push(key);
-    compareTrees(before[key], next[key], path, found);
-    path.pop();
-  }
-}
-
-/** A copy of a JSON tree that nobody else holds. */
-function copyTree(value: unknown): unknown {
-  if (value === null || typeof value !== 'object') return value;
-  if (Array.isArray(value)) return value.map(copyTree);
-  const copy: Record<string, unknown> = {};
-  for (const key of Object.keys(value)) copy[key] = copyTree((value as Record<string, unknown>)[key]);
-  return copy;
-}
-
 /** `tree` with `value` at `path`: the objects and lists on the path are copied, everything else is shared. */
 function withValueAt(tree: unknown, path: readonly (string | number)[], depth: number, value: unknown): unknown {
   if (depth === path.length) return value;
@@ -1092,18 +1026,14 @@ export function createEditReader(): SheetReader {
     const last = accepted;
     // A twist about a finger's contact and a sweep's ends are read from the whole hand, so any change reads the whole document.
     if (last === undefined || last.doc.sweep !== undefined || last.doc.object.twist.entered?.contact !== undefined) return readWhole(input);
-    const found: TreeDifference = { at: undefined, more: false };
-    compareTrees(last.written, input, [], found);
-    if (found.more) return readWhole(input);
-    const path = found.at;
-    if (path === undefined) return { ok: true, doc: last.doc };
+    const change = findSingleChange(last.written, input);
+    if (change === 'more') return readWhole(input);
+    if (change === 'none') return { ok: true, doc: last.doc };
+    const path = change;
     const schema = editableSchema(path, last.doc);
     if (schema === undefined) return readWhole(input);
-    let holder = last.written as Record<string | number, unknown>;
-    for (let i = 0; i < path.length - 1; i++) holder = holder[path[i]] as Record<string | number, unknown>;
-    const key = path[path.length - 1];
-    const before = holder[key];
-    const value = readAt(input, path);
+    const before = getAt(last.written, path);
+    const value = getAt(input, path);
     const budget = { remaining: last.remaining + (typeof before === 'string' ? expressionOperations(before) : 0) };
     activeVariables = last.scope;
     activeBudget = budget;
@@ -1116,16 +1046,9 @@ export function createEditReader(): SheetReader {
     }
     // With nothing left of the budget the whole reading might refuse a later field: it says which.
     if (!read.success || budget.remaining <= 0) return readWhole(input);
-    holder[key] = value;
+    replaceInTree(last.written, path, value);
     const doc = withValueAt(last.doc, path, 0, read.data) as SheetDocument;
     accepted = { written: last.written, doc, remaining: budget.remaining, scope: last.scope };
     return { ok: true, doc };
   };
-}
-
-/** The value at `path` in a JSON tree whose path is known to resolve. */
-function readAt(tree: unknown, path: readonly (string | number)[]): unknown {
-  let node = tree;
-  for (const key of path) node = (node as Record<string | number, unknown>)[key];
-  return node;
 }
