@@ -6,7 +6,7 @@
 import type { PlainSheetResult } from '../lib/kinematics';
 import type { DerivationEntry } from '../lib/sheet/derivation';
 import { evaluateSheet } from '../lib/sheet/evaluate';
-import { getAt, setAt } from '../lib/sheet/document-path';
+import { createDocumentTrail, getAt, setAt } from '../lib/sheet/document-path';
 import { createReadingsReader, readDocument, type DocumentReadings } from '../lib/sheet/readings';
 import { QUANTITY_KINDS } from '../lib/sheet/quantity-kinds';
 import { createEditReader, editablePaths, parseSheet, type EditablePath, type SheetIssue, type SheetReader } from '../lib/sheet/schema';
@@ -82,9 +82,13 @@ export interface DocumentReaders {
 /** Every document read whole, as the server reads them. */
 const WHOLE_DOCUMENTS: DocumentReaders = { readings: readDocument, sheet: parseSheet };
 
-/** Readers for the documents of one editor, each an edit of the one before: an edit is read by what it changed (see createReadingsReader, createEditReader). */
+/**
+ * Readers for the documents of one editor, each an edit of the one before: an edit is read by what it changed (see
+ * createReadingsReader, createEditReader), found once for both on their one trail.
+ */
 export function createEditReaders(): DocumentReaders {
-  return { readings: createReadingsReader(), sheet: createEditReader() };
+  const trail = createDocumentTrail();
+  return { readings: createReadingsReader(trail), sheet: createEditReader(trail) };
 }
 
 /**

@@ -196,17 +196,67 @@ function compareTrees(previous: unknown, next: unknown, path: (string | number)[
 
 /**
  * How `next` differs from `previous` (a JSON tree): 'none', the path of the one value that is not a list or an object
- * it differs in, or 'more' (more than one value, the shape, or `next` holds something other than JSON). For the
- * readers of one editor's documents, each an edit of the one before, without diffDocuments' list of changes.
+ * it differs in, or 'more' (more than one value, the shape, or `next` holds something other than JSON).
  */
-export function findSingleChange(previous: unknown, next: unknown): (string | number)[] | 'none' | 'more' {
+function findSingleChange(previous: unknown, next: unknown): (string | number)[] | 'none' | 'more' {
   const found: TreeDifference = { at: undefined, more: false };
   compareTrees(previous, next, [], found);
   return found.more ? 'more' : (found.at ?? 'none');
 }
 
+/** Where the trail's latest document stands against the one before it: see DocumentTrail. */
+export interface TrailStep {
+  /** Counts the documents followed: a reader that last read step n - 1 reads step n as `change` of that one. */
+  step: number;
+  /** The path of the one value that changed ('none', or 'more' for anything else, the first document too). */
+  change: (string | number)[] | 'none' | 'more';
+  /** The value the change replaced (undefined unless `change` is a path). */
+  before: unknown;
+}
+
+/** The documents of one editor as they come, each compared once with the one before, for every reader of it. */
+export interface DocumentTrail {
+  /** The step of `document`: the latest step when it is the document followed last (the same object), else a new one. */
+  follow(document: unknown): TrailStep;
+}
+
+/**
+ * Levels of lists and objects a document trail copies; a sheet has about eight. Its readings go as deep (readings.ts): the
+ * page's worker takes whatever it is sent, and 100,000 nested lists would overflow the stack.
+ */
+export const MAX_DOCUMENT_DEPTH = 64;
+
+/**
+ * A trail of one editor's documents, each an edit of the one before (compared without diffDocuments' list of changes).
+ * It keeps a copy of the latest document of its own, unless that nests deeper than MAX_DOCUMENT_DEPTH (copying it could
+ * overflow the stack; the next document is then 'more'). A document followed may not change afterwards.
+ */
+export function createDocumentTrail(): DocumentTrail {
+  let latest: unknown;
+  let written: unknown;
+  let copied = false;
+  let current: TrailStep = { step: 0, change: 'more', before: undefined };
+  return {
+    follow(document) {
+      if (current.step > 0 && document === latest) return current;
+      const change = copied ? findSingleChange(written, document) : 'more';
+      let before: unknown;
+      if (change === 'more') {
+        copied = nestsWithin(document, MAX_DOCUMENT_DEPTH);
+        written = copied ? copyTree(document) : undefined;
+      } else if (change !== 'none') {
+        before = getAt(written, change);
+        replaceInTree(written, change, getAt(document, change));
+      }
+      latest = document;
+      current = { step: current.step + 1, change, before };
+      return current;
+    },
+  };
+}
+
 /** A copy of a JSON tree that nobody else holds. */
-export function copyTree(value: unknown): unknown {
+function copyTree(value: unknown): unknown {
   if (value === null || typeof value !== 'object') return value;
   if (Array.isArray(value)) return value.map(copyTree);
   const copy: Record<string, unknown> = {};
@@ -215,7 +265,7 @@ export function copyTree(value: unknown): unknown {
 }
 
 /** Whether a JSON tree nests lists and objects `levels` deep at most (walked no further). */
-export function nestsWithin(value: unknown, levels: number): boolean {
+function nestsWithin(value: unknown, levels: number): boolean {
   if (value === null || typeof value !== 'object') return true;
   if (levels === 0) return false;
   for (const key in value) if (!nestsWithin((value as Record<string, unknown>)[key], levels - 1)) return false;
@@ -223,7 +273,7 @@ export function nestsWithin(value: unknown, levels: number): boolean {
 }
 
 /** The value at `path` of a JSON tree (one of its own, whose path resolves) set to `value` in place. */
-export function replaceInTree(tree: unknown, path: readonly (string | number)[], value: unknown): void {
+function replaceInTree(tree: unknown, path: readonly (string | number)[], value: unknown): void {
   let holder = tree as Record<string | number, unknown>;
   for (let i = 0; i < path.length - 1; i++) holder = holder[path[i]] as Record<string | number, unknown>;
   holder[path[path.length - 1]] = value;

@@ -5,7 +5,9 @@
  * imports only the types.
  */
 import { MAX_EXPRESSION_LENGTH, formatVariableValue, readQuantityText, readSheetVariables, type ParsedVariables, type QuantityKind, type VariableIssue, type VariableScope } from './units';
-import { appendPathKey, copyTree, findSingleChange, formatIssuePath, nestsWithin, replaceInTree } from './document-path';
+import { MAX_DOCUMENT_DEPTH, appendPathKey, createDocumentTrail, formatIssuePath, type DocumentTrail } from './document-path';
+
+export { MAX_DOCUMENT_DEPTH };
 
 /** One quantity field written as text: the text read, the kind it has (null for none a field takes) and its SI value in that kind's unit. */
 export interface FieldReading {
@@ -29,12 +31,6 @@ export interface DocumentReadings {
   /** Where the document nests deeper than MAX_DOCUMENT_DEPTH (nothing below is read); such a document is refused there. */
   tooDeep?: { path: string; message: string };
 }
-
-/**
- * Levels of lists and objects the readings go into. A sheet has about eight; the server's JSON limits stop deeper
- * documents, but the worker takes whatever the page sends, and 100,000 nested lists would overflow the stack.
- */
-export const MAX_DOCUMENT_DEPTH = 64;
 
 /** Free text of the document, never a quantity. */
 const TEXT_FIELDS: ReadonlySet<string> = new Set(['title', 'description', 'notes', 'variables', 'tags', 'format']);
@@ -144,51 +140,52 @@ export function readDocument(document: unknown): DocumentReadings {
 
 /** What a readings reader keeps of the last document it read. */
 interface ReadDocument {
-  /** The document as written (a copy of its own). */
-  written: unknown;
+  /** Its step on the reader's trail. */
+  step: number;
   readings: DocumentReadings;
   scope: VariableScope;
 }
 
 /**
- * A reader of readings (as readDocument gives them) for the documents of one editor, each an edit of the one before: a
- * document that differs from the last one read in one value outside the free text (the variables included) reads that
- * value alone and keeps every other reading, without walking the document; any other document is read whole. The
- * readings it gives share what an edit left alone, so nobody may change them.
+ * A reader of readings (as readDocument gives them) for the documents of one editor, each an edit of the one before, on
+ * their trail (one of its own when absent; the compute worker shares one with its edit reader): a document that differs
+ * from the last one read in one value outside the free text (the variables included) reads that value alone and keeps
+ * every other reading, without walking the document; any other document is read whole. The readings it gives share
+ * what an edit left alone, so nobody may change them.
  */
-export function createReadingsReader(): (document: unknown) => DocumentReadings {
+export function createReadingsReader(trail: DocumentTrail = createDocumentTrail()): (document: unknown) => DocumentReadings {
   let last: ReadDocument | undefined;
   return (document) => {
-    const change = last === undefined ? 'more' : findSingleChange(last.written, document);
-    if (change === 'none') return last!.readings;
-    const edited = change === 'more' ? undefined : readingsAfterEdit(last!, change, document);
-    if (edited !== undefined) return edited;
+    const { step, change } = trail.follow(document);
+    if (last !== undefined && last.step === step) return last.readings;
+    if (last !== undefined && last.step === step - 1 && change !== 'more') {
+      const readings = change === 'none' ? last.readings : readingsAfterEdit(last, change, document);
+      if (readings !== undefined) {
+        last = { step, readings, scope: last.scope };
+        return readings;
+      }
+    }
     const { readings, scope } = readWhole(document);
-    // A document nested past the readings' depth (in its free text too, which they skip) could overflow the stack when copied.
-    last = readings.tooDeep || !nestsWithin(document, MAX_DOCUMENT_DEPTH) ? undefined : { written: copyTree(document), readings, scope };
+    last = readings.tooDeep ? undefined : { step, readings, scope };
     return readings;
   };
 }
 
 /**
- * The readings of `document`, which differs from `last` in the one value at `path`, and `last` moved on to it; or undefined
- * when that value needs the whole document read (the variables, a reading that comes or goes, the document itself).
+ * The readings of `document`, which differs from the one `last` read in the one value at `path`; undefined when that
+ * value needs the whole document read (the variables, a reading that comes or goes, the document itself).
  */
 function readingsAfterEdit(last: ReadDocument, path: (string | number)[], document: unknown): DocumentReadings | undefined {
   const top = path[0];
-  if (typeof top !== 'string') return undefined;
+  if (typeof top !== 'string' || top === 'variables') return undefined;
+  // Free text is never read as a quantity.
+  if (TEXT_FIELDS.has(top)) return last.readings;
   let value: unknown = document;
   for (const key of path) value = (value as Record<string | number, unknown>)[key];
-  let readings = last.readings;
-  if (!TEXT_FIELDS.has(top)) {
-    const key = formatIssuePath(path);
-    const reading = typeof value === 'string' ? readingOfText(value, last.scope) : null;
-    const before = Object.hasOwn(readings.fields, key);
-    // A reading that comes or goes would move the key in the fields' order: the whole reading gives that order.
-    if (before !== (reading !== null)) return undefined;
-    if (reading !== null) readings = { fields: { ...readings.fields, [key]: reading }, variables: readings.variables };
-  } else if (top === 'variables') return undefined;
-  replaceInTree(last.written, path, value);
-  last.readings = readings;
-  return readings;
+  const key = formatIssuePath(path);
+  const reading = typeof value === 'string' ? readingOfText(value, last.scope) : null;
+  const fields = last.readings.fields;
+  // A reading that comes or goes would move the key in the fields' order: the whole reading gives that order.
+  if (Object.hasOwn(fields, key) !== (reading !== null)) return undefined;
+  return reading === null ? last.readings : { fields: { ...fields, [key]: reading }, variables: last.readings.variables };
 }
