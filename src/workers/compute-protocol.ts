@@ -3,7 +3,7 @@
  * without a worker: a document as written goes in, the parsed SI document, the JSON-ready
  * results, the derivation entries, every located issue and how each written quantity reads come out.
  */
-import type { PlainSheetResult } from '../lib/kinematics';
+import { createFingerCompiler, type FingerCompiler, type PlainSheetResult } from '../lib/kinematics';
 import type { DerivationEntry } from '../lib/sheet/derivation';
 import { evaluateSheet } from '../lib/sheet/evaluate';
 import { createDocumentTrail, getAt, setAt } from '../lib/sheet/document-path';
@@ -73,10 +73,12 @@ function tooDeep(id: number, issue: SheetIssue, readings: DocumentReadings, elap
   return { type: 'computed', id, ok: false, issues: [issue], readings, elapsedMs };
 }
 
-/** How a document is read: its quantity texts (for the editor's hints) and the sheet. */
+/** How a document is read: its quantity texts (for the editor's hints) and the sheet, and how its fingers are compiled for the solve. */
 export interface DocumentReaders {
   readings: (document: unknown) => DocumentReadings;
   sheet: SheetReader;
+  /** createFinger when absent. */
+  compileFinger?: FingerCompiler;
 }
 
 /** Every document read whole, as the server reads them. */
@@ -84,11 +86,12 @@ const WHOLE_DOCUMENTS: DocumentReaders = { readings: readDocument, sheet: parseS
 
 /**
  * Readers for the documents of one editor, each an edit of the one before: an edit is read by what it changed (see
- * createReadingsReader, createEditReader), found once for both on their one trail.
+ * createReadingsReader, createEditReader), found once for both on their one trail, and the fingers it left alone are
+ * not compiled again (createFingerCompiler).
  */
 export function createEditReaders(): DocumentReaders {
   const trail = createDocumentTrail();
-  return { readings: createReadingsReader(trail), sheet: createEditReader(trail) };
+  return { readings: createReadingsReader(trail), sheet: createEditReader(trail), compileFinger: createFingerCompiler() };
 }
 
 /**
@@ -99,15 +102,15 @@ export function createEditReaders(): DocumentReaders {
 export function computeSheet(message: unknown, now: () => number = () => performance.now(), readers: DocumentReaders = WHOLE_DOCUMENTS): ComputeReply {
   if (!isComputeRequest(message)) return { type: 'refused', message: 'expected {type: "compute", id: integer, document}' };
   const started = now();
-  const read = readers.sheet;
+  const { sheet: read, compileFinger } = readers;
   const readings = readers.readings(message.document);
   if (readings.tooDeep) return tooDeep(message.id, readings.tooDeep, readings, now() - started);
   if (message.derive === false) {
-    const plain = evaluateSheet(message.document, { read });
+    const plain = evaluateSheet(message.document, { read, compileFinger });
     if (!plain.ok) return { type: 'computed', id: message.id, ok: false, issues: plain.error.issues, readings, elapsedMs: now() - started };
     return { type: 'computed', id: message.id, ok: true, document: plain.value.doc, result: plain.value.result, readings, elapsedMs: now() - started };
   }
-  const evaluated = evaluateSheet(message.document, { derive: true, read });
+  const evaluated = evaluateSheet(message.document, { derive: true, read, compileFinger });
   if (!evaluated.ok) return { type: 'computed', id: message.id, ok: false, issues: evaluated.error.issues, readings, elapsedMs: now() - started };
   const { doc, result, derivation } = evaluated.value;
   return { type: 'computed', id: message.id, ok: true, document: doc, result, derivation, readings, elapsedMs: now() - started };
@@ -130,7 +133,7 @@ export function computeSheetInSteps(message: unknown, now: () => number = () => 
   const started = now();
   const readings = readers.readings(message.document);
   if (readings.tooDeep) return { first: tooDeep(message.id, readings.tooDeep, readings, now() - started) };
-  const evaluated = evaluateSheet(message.document, { graspQualityLater: true, read: readers.sheet });
+  const evaluated = evaluateSheet(message.document, { graspQualityLater: true, read: readers.sheet, compileFinger: readers.compileFinger });
   const elapsedMs = now() - started;
   if (!evaluated.ok) return { first: { type: 'computed', id: message.id, ok: false, issues: evaluated.error.issues, readings, elapsedMs } };
   const { id } = message;

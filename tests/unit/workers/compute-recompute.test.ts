@@ -72,6 +72,10 @@ const EDITS: Edit[] = [
   { name: 'a joint angle that is not a quantity (an issue)', apply: (doc) => { doc.hand.fingers[0].joints[1].angle = true; } },
   { name: 'title', apply: (doc, pick) => { doc.title = `Housing ${pick(1000)}`; } },
   { name: 'a finger removed', apply: (doc) => { if (doc.hand.fingers.length > 1) doc.hand.fingers.pop(); } },
+  // The worker keeps each finger compiled while its input stays the same (createFingerCompiler): a finger added, units and the display change none of the others.
+  { name: 'a finger added', apply: (doc, pick) => { doc.hand.fingers.push({ ...structuredClone(doc.hand.fingers[0]), name: `extra-${pick(1000)}` }); } },
+  { name: 'a finger written in other units', apply: (doc, pick) => { doc.hand.fingers[pick(doc.hand.fingers.length)].roller.radius = `${(10 + pick(60) / 10) / 1000} m`; } },
+  { name: 'display units', apply: (doc, pick) => { doc.display = { length: ['mm', 'm'][pick(2)], angle: ['deg', 'rad'][pick(2)] }; } },
   { name: 'twist about a finger contact', apply: (doc) => { doc.object.twist.about = { contact: doc.hand.fingers[0].name }; } },
   { name: 'rate limits near the operations limit', apply: (doc) => { for (const finger of doc.hand.fingers) for (const joint of finger.joints) joint.rateLimit = longRate(90); } },
   {
