@@ -5,7 +5,7 @@
  * imports only the types.
  */
 import { MAX_EXPRESSION_LENGTH, formatVariableValue, readQuantityText, readSheetVariables, type ParsedVariables, type QuantityKind, type VariableIssue, type VariableScope } from './units';
-import { MAX_DOCUMENT_DEPTH, appendPathKey, createDocumentTrail, formatIssuePath, type DocumentTrail } from './document-path';
+import { MAX_DOCUMENT_DEPTH, appendPathKey, createDocumentTrail, formatIssuePath, getAt, type DocumentTrail } from './document-path';
 
 export { MAX_DOCUMENT_DEPTH };
 
@@ -149,7 +149,7 @@ interface ReadDocument {
 /**
  * A reader of readings (as readDocument gives them) for the documents of one editor, each an edit of the one before, on
  * their trail (one of its own when absent; the compute worker shares one with its edit reader): a document that differs
- * from the last one read in one value outside the free text (the variables included) reads that value alone and keeps
+ * from the last one read in one value other than the variables reads that value alone (none in free text) and keeps
  * every other reading, without walking the document; any other document is read whole. The readings it gives share
  * what an edit left alone, so nobody may change them.
  */
@@ -180,8 +180,7 @@ function readingsAfterEdit(last: ReadDocument, path: (string | number)[], docume
   if (typeof top !== 'string' || top === 'variables') return undefined;
   // Free text is never read as a quantity.
   if (TEXT_FIELDS.has(top)) return last.readings;
-  let value: unknown = document;
-  for (const key of path) value = (value as Record<string | number, unknown>)[key];
+  const value = getAt(document, path);
   const key = formatIssuePath(path);
   const reading = typeof value === 'string' ? readingOfText(value, last.scope) : null;
   const fields = last.readings.fields;
