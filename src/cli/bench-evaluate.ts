@@ -23,8 +23,8 @@ import { commandedRates } from '../lib/sheet/commanded';
 import { evaluateSheet } from '../lib/sheet/evaluate';
 import { sheetGraspQuality } from '../lib/sheet/grasp-quality-cache';
 import { readDocument } from '../lib/sheet/readings';
-import { createEditReader, parseSheet, prepareSheetReader } from '../lib/sheet/schema';
-import { computeSheet, computeSheetInSteps } from '../workers/compute-protocol';
+import { parseSheet, prepareSheetReader } from '../lib/sheet/schema';
+import { computeSheet, computeSheetInSteps, createEditReaders } from '../workers/compute-protocol';
 
 const quick = process.argv.includes('--quick');
 const sheetArgument = process.argv.indexOf('--sheet');
@@ -38,7 +38,7 @@ const fresh = (): Record<string, any> => JSON.parse(text);
 
 /** The page benchmark's edits: the field it types into and the values it types in turn. */
 /** Reads as the compute worker does: each document an edit of the one before. */
-const readEdit = createEditReader();
+const readEdits = createEditReaders();
 
 const PAGE_EDITS = 11;
 const PAGE_EDIT_VALUES = ['13.5 mm', '13 mm', '12.5 mm', '12 mm'];
@@ -51,7 +51,7 @@ function pageEditsInAFreshWorker(): number[] {
   for (let k = 0; k < PAGE_EDITS; k++) {
     const doc = fresh();
     doc.hand.fingers[2].roller.radius = PAGE_EDIT_VALUES[k % PAGE_EDIT_VALUES.length];
-    const { first, later } = computeSheetInSteps({ type: 'compute', id: k + 1, document: doc, derive: false }, undefined, readEdit);
+    const { first, later } = computeSheetInSteps({ type: 'compute', id: k + 1, document: doc, derive: false }, undefined, readEdits);
     if (first.type !== 'computed' || !first.ok) throw new Error('the edited sheet did not compute');
     times.push(first.elapsedMs);
     later?.();
@@ -130,7 +130,7 @@ const lines: Line[] = [
     label: `worker recompute after an edit: ${edit.label}`,
     prepare: (n) => Array.from({ length: n }, () => { const doc = fresh(); edit.apply(doc, editCounter++); return { type: 'compute', id: editCounter, document: doc, derive: false }; }),
     call: (message) => {
-      const reply = computeSheet(message, undefined, readEdit);
+      const reply = computeSheet(message, undefined, readEdits);
       if (reply.type !== 'computed' || !reply.ok) throw new Error('the edited sheet did not compute');
     },
   })),
@@ -138,7 +138,7 @@ const lines: Line[] = [
     label: `worker first reply after an edit: ${edit.label}`,
     prepare: (n) => Array.from({ length: n }, () => { const doc = fresh(); edit.apply(doc, editCounter++); return { type: 'compute', id: editCounter, document: doc, derive: false }; }),
     call: (message) => {
-      const { first } = computeSheetInSteps(message, undefined, readEdit);
+      const { first } = computeSheetInSteps(message, undefined, readEdits);
       if (first.type !== 'computed' || !first.ok) throw new Error('the edited sheet did not compute');
     },
   })),

@@ -3,11 +3,11 @@
  * without a worker: a document as written goes in, the parsed SI document, the JSON-ready
  * results, the derivation entries, every located issue and how each written quantity reads come out.
  */
-import type { PlainSheetResult } from '../lib/kinematics';
+import { createFingerCompiler, type FingerCompiler, type PlainSheetResult } from '../lib/kinematics';
 import type { DerivationEntry } from '../lib/sheet/derivation';
 import { evaluateSheet } from '../lib/sheet/evaluate';
-import { getAt, setAt } from '../lib/sheet/document-path';
-import { readDocument, type DocumentReadings } from '../lib/sheet/readings';
+import { createDocumentTrail, getAt, setAt } from '../lib/sheet/document-path';
+import { createReadingsReader, readDocument, type DocumentReadings } from '../lib/sheet/readings';
 import { QUANTITY_KINDS } from '../lib/sheet/quantity-kinds';
 import { createEditReader, editablePaths, parseSheet, type EditablePath, type SheetIssue, type SheetReader } from '../lib/sheet/schema';
 import type { SheetDocument } from '../lib/sheet/types';
@@ -53,9 +53,12 @@ export interface ComputeWarmUp {
 
 /**
  * Recomputes a warm-up makes, one per task, so that a request posted meanwhile waits for one at most. Each is an edit of
- * one field; every WHOLE_READ_EVERY-th reads the document whole, as the worker's first request does.
+ * one field; every WHOLE_READ_EVERY-th reads the document whole, as the worker's first request does. After 40 rounds
+ * Chromium still ran much of an edit's code unoptimised (the page's edits took 1.1 to 1.8 ms, 0.8 to 0.9 after 200):
+ * the code of one recompute runs once per round, so it takes a few hundred rounds, a few hundred milliseconds of an idle
+ * worker, to be optimised.
  */
-export const WARM_UP_ROUNDS = 40;
+export const WARM_UP_ROUNDS = 200;
 const WHOLE_READ_EVERY = 8;
 
 function isWarmUp(message: unknown): message is ComputeWarmUp {
@@ -73,22 +76,44 @@ function tooDeep(id: number, issue: SheetIssue, readings: DocumentReadings, elap
   return { type: 'computed', id, ok: false, issues: [issue], readings, elapsedMs };
 }
 
+/** How a document is read: its quantity texts (for the editor's hints) and the sheet, and how its fingers are compiled for the solve. */
+export interface DocumentReaders {
+  readings: (document: unknown) => DocumentReadings;
+  sheet: SheetReader;
+  /** createFinger when absent. */
+  compileFinger?: FingerCompiler;
+}
+
+/** Every document read whole, as the server reads them. */
+const WHOLE_DOCUMENTS: DocumentReaders = { readings: readDocument, sheet: parseSheet };
+
+/**
+ * Readers for the documents of one editor, each an edit of the one before: an edit is read by what it changed (see
+ * createReadingsReader, createEditReader), found once for both on their one trail, and the fingers it left alone are
+ * not compiled again (createFingerCompiler).
+ */
+export function createEditReaders(): DocumentReaders {
+  const trail = createDocumentTrail();
+  return { readings: createReadingsReader(trail), sheet: createEditReader(trail), compileFinger: createFingerCompiler() };
+}
+
 /**
  * Answers one message: reads, solves and (unless asked not to) derives the sheet, or reports where it is wrong. The
- * worker reads with its own edit reader (createEditReader), since its documents come from one editor; the server reads
+ * worker reads with its own edit readers (createEditReaders), since its documents come from one editor; the server reads
  * every document whole.
  */
-export function computeSheet(message: unknown, now: () => number = () => performance.now(), read: SheetReader = parseSheet): ComputeReply {
+export function computeSheet(message: unknown, now: () => number = () => performance.now(), readers: DocumentReaders = WHOLE_DOCUMENTS): ComputeReply {
   if (!isComputeRequest(message)) return { type: 'refused', message: 'expected {type: "compute", id: integer, document}' };
   const started = now();
-  const readings = readDocument(message.document);
+  const { sheet: read, compileFinger } = readers;
+  const readings = readers.readings(message.document);
   if (readings.tooDeep) return tooDeep(message.id, readings.tooDeep, readings, now() - started);
   if (message.derive === false) {
-    const plain = evaluateSheet(message.document, { read });
+    const plain = evaluateSheet(message.document, { read, compileFinger });
     if (!plain.ok) return { type: 'computed', id: message.id, ok: false, issues: plain.error.issues, readings, elapsedMs: now() - started };
     return { type: 'computed', id: message.id, ok: true, document: plain.value.doc, result: plain.value.result, readings, elapsedMs: now() - started };
   }
-  const evaluated = evaluateSheet(message.document, { derive: true, read });
+  const evaluated = evaluateSheet(message.document, { derive: true, read, compileFinger });
   if (!evaluated.ok) return { type: 'computed', id: message.id, ok: false, issues: evaluated.error.issues, readings, elapsedMs: now() - started };
   const { doc, result, derivation } = evaluated.value;
   return { type: 'computed', id: message.id, ok: true, document: doc, result, derivation, readings, elapsedMs: now() - started };
@@ -106,12 +131,12 @@ export interface ComputeSteps {
  * reply: the page shows every other result at once (the grasp quality is the one costly part, and any move of a contact
  * asks for it anew). With the derivation the reply is complete at once, since the derivation shows the grasp quality.
  */
-export function computeSheetInSteps(message: unknown, now: () => number = () => performance.now(), read: SheetReader = parseSheet): ComputeSteps {
-  if (!isComputeRequest(message) || message.derive !== false) return { first: computeSheet(message, now, read) };
+export function computeSheetInSteps(message: unknown, now: () => number = () => performance.now(), readers: DocumentReaders = WHOLE_DOCUMENTS): ComputeSteps {
+  if (!isComputeRequest(message) || message.derive !== false) return { first: computeSheet(message, now, readers) };
   const started = now();
-  const readings = readDocument(message.document);
+  const readings = readers.readings(message.document);
   if (readings.tooDeep) return { first: tooDeep(message.id, readings.tooDeep, readings, now() - started) };
-  const evaluated = evaluateSheet(message.document, { graspQualityLater: true, read });
+  const evaluated = evaluateSheet(message.document, { graspQualityLater: true, read: readers.sheet, compileFinger: readers.compileFinger });
   const elapsedMs = now() - started;
   if (!evaluated.ok) return { first: { type: 'computed', id: message.id, ok: false, issues: evaluated.error.issues, readings, elapsedMs } };
   const { id } = message;
@@ -146,14 +171,14 @@ function nearbyText(value: unknown, kind: EditablePath['kind'], step: number): s
 }
 
 /**
- * The compute worker's answer to each message: a request is answered at once with the worker's own edit reader, and a
+ * The compute worker's answer to each message: a request is answered at once with the worker's own edit readers, and a
  * grasp quality that follows in a second reply goes out after a deferred task unless a newer message came meanwhile;
- * a warm-up makes its rounds one per deferred task, on an edit reader of its own (the requests' reader never sees its
+ * a warm-up makes its rounds one per deferred task, on edit readers of its own (the requests' readers never see its
  * documents), and stops once a request arrives.
  */
 export function createComputeHandler(post: (reply: ComputeReply) => void, defer: (next: () => void) => void = (next) => setTimeout(next, 0)): (message: unknown) => void {
   // This worker's documents come from one editor, each an edit of the one before.
-  const readEdit = createEditReader();
+  const readEdits = createEditReaders();
   // Counts messages: deferred work checks that no message came after the one it belongs to.
   let messages = 0;
   return (message) => {
@@ -162,7 +187,7 @@ export function createComputeHandler(post: (reply: ComputeReply) => void, defer:
       if (message.document !== null && typeof message.document === 'object') warmUp(message.document, asked);
       return;
     }
-    const { first, later } = computeSheetInSteps(message, () => performance.now(), readEdit);
+    const { first, later } = computeSheetInSteps(message, () => performance.now(), readEdits);
     post(first);
     // A newer document makes this one's grasp quality moot (the page keeps only the newest reply); after a deferred
     // task, so that a document the page sent meanwhile is read first.
@@ -171,19 +196,19 @@ export function createComputeHandler(post: (reply: ComputeReply) => void, defer:
 
   function warmUp(shown: object, asked: number): void {
     const fields = editablePaths(shown);
-    let reader = createEditReader();
+    let readers = createEditReaders();
     let edited: unknown = shown;
     const round = (index: number) => {
       // The last round reads the document shown again, so the readings kept between documents are its own again.
       if (index === WARM_UP_ROUNDS - 1) edited = shown;
       else {
-        if (index % WHOLE_READ_EVERY === 0) reader = createEditReader();
+        if (index % WHOLE_READ_EVERY === 0) readers = createEditReaders();
         const field = fields[index % Math.max(fields.length, 1)];
         const text = field === undefined ? undefined : nearbyText(getAt(edited, field.path), field.kind, 1e-3);
         // A structured clone each round, as each request arrives.
         edited = structuredClone(field === undefined || text === undefined ? edited : setAt(edited, field.path, text));
       }
-      computeSheetInSteps({ type: 'compute', id: 0, document: edited, derive: false }, () => 0, reader).later?.();
+      computeSheetInSteps({ type: 'compute', id: 0, document: edited, derive: false }, () => 0, readers).later?.();
     };
     warmUpInTasks(WARM_UP_ROUNDS, round, () => asked === messages, defer);
   }

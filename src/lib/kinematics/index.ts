@@ -78,9 +78,9 @@ export type { JudgedBasis, SheetWarning, WarningCode, WarningInfo, WarningSeveri
 export { computeGraspQuality, describeWrench, FORCE_CLOSURE_TOLERANCE, MAX_FACE_COMBINATIONS } from './grasp-quality';
 export type { GraspQuality, GraspQualityInput } from './grasp-quality';
 export {
-  computeSheetGraspQuality, sheetGraspQualityInput, createResult, createScene, DEFAULT_CONE_EDGES, DEFAULT_FRICTION, setJointAngles, setObjectPose, setObjectTwist, solveScene, solveSheet, toPlainResult,
+  computeSheetGraspQuality, sheetGraspQualityInput, createFingerCompiler, createResult, createScene, DEFAULT_CONE_EDGES, DEFAULT_FRICTION, setJointAngles, setObjectPose, setObjectTwist, solveScene, solveSheet, toPlainResult,
 } from './scene';
-export type { FingerResult, PlainSheetResult, Scene, SheetResult } from './scene';
+export type { FingerCompiler, FingerResult, PlainSheetResult, Scene, SheetResult } from './scene';
 export { createFingerAcceleration, jacobianRateTimesRates, objectPointAcceleration, rollingTerm, solveAccelerations, solveFingerAcceleration } from './acceleration';
 export type { AccelerationModel, FingerAcceleration } from './acceleration';
 export { solveSteerAcceleration } from './steer-acceleration';

@@ -4,7 +4,7 @@
  * solveScene(scene, out) allocates nothing.
  */
 import type { CommandedRates } from '../sheet/commanded';
-import type { SheetDocument, SolverSettings } from '../sheet/types';
+import type { FingerInput, SheetDocument, SolverSettings } from '../sheet/types';
 import type { FingerAcceleration } from './acceleration';
 import { keepLatest, mapPacked } from './hidden-classes';
 import { computeContact, createContact, createContactWorkspace, createObject, updateObjectRotation, type Contact, type ContactWorkspace, type RigidObject } from './contact';
@@ -80,9 +80,12 @@ export interface SheetResult {
   warningList: WarningList;
 }
 
-/** Compiles a sheet document into a reusable scene (world frame, SI). */
-export function createScene(doc: SheetDocument): Scene {
-  const fingers = mapPacked(doc.hand.fingers, createFinger);
+/** Compiles a finger input for a scene (palm frame, SI): createFinger, or a compiler that hands out fingers compiled before (createFingerCompiler). */
+export type FingerCompiler = (input: Readonly<FingerInput>) => Finger;
+
+/** Compiles a sheet document into a reusable scene (world frame, SI), each finger by `compileFinger`. */
+export function createScene(doc: SheetDocument, compileFinger: FingerCompiler = createFinger): Scene {
+  const fingers = mapPacked(doc.hand.fingers, compileFinger);
   const maxJoints = fingers.reduce((m, f) => Math.max(m, f.jointCount), 1);
   const count = Math.max(1, fingers.length);
   return keepLatest('scene', {
@@ -202,9 +205,27 @@ export function solveScene(scene: Scene, out: SheetResult = createResult(scene),
   return out;
 }
 
-/** Compiles and solves a sheet in one call (world frame, SI). */
-export function solveSheet(doc: SheetDocument): SheetResult {
-  return solveScene(createScene(doc));
+/** Compiles and solves a sheet in one call (world frame, SI), each finger by `compileFinger`. */
+export function solveSheet(doc: SheetDocument, compileFinger: FingerCompiler = createFinger): SheetResult {
+  return solveScene(createScene(doc, compileFinger));
+}
+
+/**
+ * A finger compiler for the one-off solves of one editor's documents (solveSheet), which share the finger inputs an edit
+ * left alone: the same input object gives the finger compiled from it before. A solve changes nothing in a finger but
+ * what forwardKinematics computes from its angles, so such a finger is the one createFinger would give; a scene whose
+ * joint angles are changed (a run) must compile its own.
+ */
+export function createFingerCompiler(): FingerCompiler {
+  const compiled = new WeakMap<Readonly<FingerInput>, Finger>();
+  return (input) => {
+    let finger = compiled.get(input);
+    if (finger === undefined) {
+      finger = createFinger(input);
+      compiled.set(input, finger);
+    }
+    return finger;
+  };
 }
 
 /** Friction coefficient of a finger that states none (dimensionless): rubber on cardboard, about 0.5 (common practice). */

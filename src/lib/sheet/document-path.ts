@@ -136,3 +136,145 @@ export function describeValue(value: unknown): string {
   const text = typeof value === 'string' ? value : JSON.stringify(value, scalarFirst);
   return text.length > 80 ? `${text.slice(0, 77)}...` : text;
 }
+
+/** Where two JSON trees differ, when they differ in one value that is not a list or an object. */
+interface TreeDifference {
+  at: (string | number)[] | undefined;
+  /** They differ in more than one value, in shape, or `next` holds something other than JSON. */
+  more: boolean;
+}
+
+const isPlainRecord = (value: object): value is Record<string, unknown> => {
+  const prototype = Object.getPrototypeOf(value);
+  return prototype === Object.prototype || prototype === null;
+};
+
+/** Compares `next` with `previous` (a JSON tree) below `path` (a stack, as it is on return) and notes the difference in `found`. */
+function compareTrees(previous: unknown, next: unknown, path: (string | number)[], found: TreeDifference): void {
+  const previousIsTree = previous !== null && typeof previous === 'object';
+  const nextIsTree = next !== null && typeof next === 'object';
+  if (!previousIsTree || !nextIsTree) {
+    // Object.is: -0 is read as written, so a sign is a change.
+    if (Object.is(previous, next)) return;
+    if (previousIsTree || nextIsTree || found.at !== undefined) found.more = true;
+    else found.at = [...path];
+    return;
+  }
+  if (Array.isArray(previous)) {
+    if (!Array.isArray(next) || next.length !== previous.length) {
+      found.more = true;
+      return;
+    }
+    for (let i = 0; i < next.length && !found.more; i++) {
+      path.push(i);
+      compareTrees(previous[i], next[i], path, found);
+      path.pop();
+    }
+    return;
+  }
+  if (Array.isArray(next) || !isPlainRecord(next)) {
+    found.more = true;
+    return;
+  }
+  const before = previous as Record<string, unknown>;
+  const keys = Object.keys(next);
+  if (keys.length !== Object.keys(before).length) {
+    found.more = true;
+    return;
+  }
+  for (let i = 0; i < keys.length && !found.more; i++) {
+    const key = keys[i];
+    if (!Object.hasOwn(before, key)) {
+      found.more = true;
+      return;
+    }
+    path.push(key);
+    compareTrees(before[key], next[key], path, found);
+    path.pop();
+  }
+}
+
+/**
+ * How `next` differs from `previous` (a JSON tree): 'none', the path of the one value that is not a list or an object
+ * it differs in, or 'more' (more than one value, the shape, or `next` holds something other than JSON).
+ */
+function findSingleChange(previous: unknown, next: unknown): (string | number)[] | 'none' | 'more' {
+  const found: TreeDifference = { at: undefined, more: false };
+  compareTrees(previous, next, [], found);
+  return found.more ? 'more' : (found.at ?? 'none');
+}
+
+/** Where the trail's latest document stands against the one before it: see DocumentTrail. */
+export interface TrailStep {
+  /** Counts the documents followed: a reader that last read step n - 1 reads step n as `change` of that one. */
+  step: number;
+  /** The path of the one value that changed ('none', or 'more' for anything else, the first document too). */
+  change: (string | number)[] | 'none' | 'more';
+  /** The value the change replaced (undefined unless `change` is a path). */
+  before: unknown;
+}
+
+/** The documents of one editor as they come, each compared once with the one before, for every reader of it. */
+export interface DocumentTrail {
+  /** The step of `document`: the latest step when it is the document followed last (the same object), else a new one. */
+  follow(document: unknown): TrailStep;
+}
+
+/**
+ * Levels of lists and objects a document trail copies; a sheet has about eight. Its readings go as deep (readings.ts): the
+ * page's worker takes whatever it is sent, and 100,000 nested lists would overflow the stack.
+ */
+export const MAX_DOCUMENT_DEPTH = 64;
+
+/**
+ * A trail of one editor's documents, each an edit of the one before (compared without diffDocuments' list of changes).
+ * It keeps a copy of the latest document of its own, unless that nests deeper than MAX_DOCUMENT_DEPTH (copying it could
+ * overflow the stack; the next document is then 'more'). A document followed may not change afterwards.
+ */
+export function createDocumentTrail(): DocumentTrail {
+  let latest: unknown;
+  let written: unknown;
+  let copied = false;
+  let current: TrailStep = { step: 0, change: 'more', before: undefined };
+  return {
+    follow(document) {
+      if (current.step > 0 && document === latest) return current;
+      const change = copied ? findSingleChange(written, document) : 'more';
+      let before: unknown;
+      if (change === 'more') {
+        copied = nestsWithin(document, MAX_DOCUMENT_DEPTH);
+        written = copied ? copyTree(document) : undefined;
+      } else if (change !== 'none') {
+        before = getAt(written, change);
+        replaceInTree(written, change, getAt(document, change));
+      }
+      latest = document;
+      current = { step: current.step + 1, change, before };
+      return current;
+    },
+  };
+}
+
+/** A copy of a JSON tree that nobody else holds. */
+function copyTree(value: unknown): unknown {
+  if (value === null || typeof value !== 'object') return value;
+  if (Array.isArray(value)) return value.map(copyTree);
+  const copy: Record<string, unknown> = {};
+  for (const key of Object.keys(value)) copy[key] = copyTree((value as Record<string, unknown>)[key]);
+  return copy;
+}
+
+/** Whether a JSON tree nests lists and objects `levels` deep at most (walked no further). */
+function nestsWithin(value: unknown, levels: number): boolean {
+  if (value === null || typeof value !== 'object') return true;
+  if (levels === 0) return false;
+  for (const key in value) if (!nestsWithin((value as Record<string, unknown>)[key], levels - 1)) return false;
+  return true;
+}
+
+/** The value at `path` of a JSON tree (one of its own, whose path resolves) set to `value` in place. */
+function replaceInTree(tree: unknown, path: readonly (string | number)[], value: unknown): void {
+  let holder = tree as Record<string | number, unknown>;
+  for (let i = 0; i < path.length - 1; i++) holder = holder[path[i]] as Record<string | number, unknown>;
+  holder[path[path.length - 1]] = value;
+}

@@ -4,7 +4,7 @@
  * compute worker, the sheet service, file import and export, the comparison, the report and the
  * compute command all call it, so a sheet reads and solves the same way everywhere.
  */
-import { sheetCurvature, solveAccelerations, solveSheet, toPlainResult, type PlainSheetResult, type SheetResult } from '../kinematics';
+import { sheetCurvature, solveAccelerations, solveSheet, toPlainResult, type FingerCompiler, type PlainSheetResult, type SheetResult } from '../kinematics';
 import { fail, succeed, type DomainError, type Result } from '../result';
 import { commandedRates } from './commanded';
 import { deriveSheet, type DerivationEntry } from './derivation';
@@ -50,6 +50,8 @@ export interface EvaluateOptions {
   graspQualityLater?: boolean;
   /** Reads the document (parseSheet when absent): the compute worker's edit reader (createEditReader) reads an edit by its changed field. */
   read?: SheetReader;
+  /** Compiles each finger for the solve (createFinger when absent): the compute worker's createFingerCompiler keeps the fingers an edit left alone. */
+  compileFinger?: FingerCompiler;
 }
 
 /** The stored summary of a solved sheet: finger count, worst warning severity, the sorted distinct warning codes and how many were raised. */
@@ -156,7 +158,7 @@ export function evaluateSheet(input: unknown, options: EvaluateOptions = {}): Re
   }
   const doc = parsed.doc;
   try {
-    const solved = solveSheet(doc);
+    const solved = solveSheet(doc, options.compileFinger);
     // The feed-forward's rolling term needs each contact's motion over the surfaces, so the curvature comes first.
     const curvatures = sheetCurvature(doc, solved);
     solveAccelerations(solved, doc.object.acceleration, doc.solver, curvatures, doc.hand.fingers);

@@ -5,7 +5,9 @@
  * imports only the types.
  */
 import { MAX_EXPRESSION_LENGTH, formatVariableValue, readQuantityText, readSheetVariables, type ParsedVariables, type QuantityKind, type VariableIssue, type VariableScope } from './units';
-import { appendPathKey } from './document-path';
+import { MAX_DOCUMENT_DEPTH, appendPathKey, createDocumentTrail, formatIssuePath, getAt, type DocumentTrail } from './document-path';
+
+export { MAX_DOCUMENT_DEPTH };
 
 /** One quantity field written as text: the text read, the kind it has (null for none a field takes) and its SI value in that kind's unit. */
 export interface FieldReading {
@@ -29,12 +31,6 @@ export interface DocumentReadings {
   /** Where the document nests deeper than MAX_DOCUMENT_DEPTH (nothing below is read); such a document is refused there. */
   tooDeep?: { path: string; message: string };
 }
-
-/**
- * Levels of lists and objects the readings go into. A sheet has about eight; the server's JSON limits stop deeper
- * documents, but the worker takes whatever the page sends, and 100,000 nested lists would overflow the stack.
- */
-export const MAX_DOCUMENT_DEPTH = 64;
 
 /** Free text of the document, never a quantity. */
 const TEXT_FIELDS: ReadonlySet<string> = new Set(['title', 'description', 'notes', 'variables', 'tags', 'format']);
@@ -121,8 +117,8 @@ function readVariables(text: string, parsed: ParsedVariables): VariableReadings 
   return readings;
 }
 
-/** Reads every quantity written as text in a document as written (also one that does not read as a sheet), over its variables, down to MAX_DOCUMENT_DEPTH. */
-export function readDocument(document: unknown): DocumentReadings {
+/** The readings of a whole document and the variables' scope its texts were read over. */
+function readWhole(document: unknown): { readings: DocumentReadings; scope: VariableScope } {
   const text = document !== null && typeof document === 'object' ? (document as { variables?: unknown }).variables : undefined;
   const variablesText = typeof text === 'string' ? text : '';
   const parsed = readSheetVariables(variablesText);
@@ -134,5 +130,61 @@ export function readDocument(document: unknown): DocumentReadings {
   const tooDeep = collect(document, rootReading, parsed.values, fields, 0);
   const readings: DocumentReadings = { fields, variables: readVariables(variablesText, parsed) };
   if (tooDeep) readings.tooDeep = { path: tooDeep.path, message: `the document nests lists and objects more than ${MAX_DOCUMENT_DEPTH} levels deep here` };
-  return readings;
+  return { readings, scope: parsed.values };
+}
+
+/** Reads every quantity written as text in a document as written (also one that does not read as a sheet), over its variables, down to MAX_DOCUMENT_DEPTH. */
+export function readDocument(document: unknown): DocumentReadings {
+  return readWhole(document).readings;
+}
+
+/** What a readings reader keeps of the last document it read. */
+interface ReadDocument {
+  /** Its step on the reader's trail. */
+  step: number;
+  readings: DocumentReadings;
+  scope: VariableScope;
+}
+
+/**
+ * A reader of readings (as readDocument gives them) for the documents of one editor, each an edit of the one before, on
+ * their trail (one of its own when absent; the compute worker shares one with its edit reader): a document that differs
+ * from the last one read in one value other than the variables reads that value alone (none in free text) and keeps
+ * every other reading, without walking the document; any other document is read whole. The readings it gives share
+ * what an edit left alone, so nobody may change them.
+ */
+export function createReadingsReader(trail: DocumentTrail = createDocumentTrail()): (document: unknown) => DocumentReadings {
+  let last: ReadDocument | undefined;
+  return (document) => {
+    const { step, change } = trail.follow(document);
+    if (last !== undefined && last.step === step) return last.readings;
+    if (last !== undefined && last.step === step - 1 && change !== 'more') {
+      const readings = change === 'none' ? last.readings : readingsAfterEdit(last, change, document);
+      if (readings !== undefined) {
+        last = { step, readings, scope: last.scope };
+        return readings;
+      }
+    }
+    const { readings, scope } = readWhole(document);
+    last = readings.tooDeep ? undefined : { step, readings, scope };
+    return readings;
+  };
+}
+
+/**
+ * The readings of `document`, which differs from the one `last` read in the one value at `path`; undefined when that
+ * value needs the whole document read (the variables, a reading that comes or goes, the document itself).
+ */
+function readingsAfterEdit(last: ReadDocument, path: (string | number)[], document: unknown): DocumentReadings | undefined {
+  const top = path[0];
+  if (typeof top !== 'string' || top === 'variables') return undefined;
+  // Free text is never read as a quantity.
+  if (TEXT_FIELDS.has(top)) return last.readings;
+  const value = getAt(document, path);
+  const key = formatIssuePath(path);
+  const reading = typeof value === 'string' ? readingOfText(value, last.scope) : null;
+  const fields = last.readings.fields;
+  // A reading that comes or goes would move the key in the fields' order: the whole reading gives that order.
+  if (Object.hasOwn(fields, key) !== (reading !== null)) return undefined;
+  return reading === null ? last.readings : { fields: { ...fields, [key]: reading }, variables: last.readings.variables };
 }

@@ -36,7 +36,7 @@ import {
   type VariableScope,
 } from './units';
 import { twistAboutContact, twistAboutOrigin } from './twist-entry';
-import { formatIssuePath } from './document-path';
+import { createDocumentTrail, formatIssuePath, getAt, type DocumentTrail } from './document-path';
 import { COMMANDED_SOLUTIONS, DEFAULT_COMMANDED, DEFAULT_RUN, DEFAULT_SOLVER, ROTATION_METRIC_KEYS, SHEET_FORMAT, SHEET_VERSION, commandedSolutionOf } from './sheet-constants';
 
 export { formatIssuePath, COMMANDED_SOLUTIONS, DEFAULT_COMMANDED, DEFAULT_RUN, DEFAULT_SOLVER, ROTATION_METRIC_KEYS, SHEET_FORMAT, SHEET_VERSION, commandedSolutionOf };
@@ -983,72 +983,6 @@ export function editablePaths(written: unknown): EditablePath[] {
   return found;
 }
 
-/** Where two JSON trees differ, when they differ in one value that is not a list or an object. */
-interface TreeDifference {
-  at: (string | number)[] | undefined;
-  /** They differ in more than one value, in shape, or `next` holds something other than JSON. */
-  more: boolean;
-}
-
-const isPlainRecord = (value: object): value is Record<string, unknown> => {
-  const prototype = Object.getPrototypeOf(value);
-  return prototype === Object.prototype || prototype === null;
-};
-
-/** Compares `next` with `previous` (a JSON tree) below `path` (a stack, as it is on return) and notes the difference in `found`. */
-function compareTrees(previous: unknown, next: unknown, path: (string | number)[], found: TreeDifference): void {
-  const previousIsTree = previous !== null && typeof previous === 'object';
-  const nextIsTree = next !== null && typeof next === 'object';
-  if (!previousIsTree || !nextIsTree) {
-    // Object.is: -0 is read as written, so a sign is a change.
-    if (Object.is(previous, next)) return;
-    if (previousIsTree || nextIsTree || found.at !== undefined) found.more = true;
-    else found.at = [...path];
-    return;
-  }
-  if (Array.isArray(previous)) {
-    if (!Array.isArray(next) || next.length !== previous.length) {
-      found.more = true;
-      return;
-    }
-    for (let i = 0; i < next.length && !found.more; i++) {
-      path.push(i);
-      compareTrees(previous[i], next[i], path, found);
-      path.pop();
-    }
-    return;
-  }
-  if (Array.isArray(next) || !isPlainRecord(next)) {
-    found.more = true;
-    return;
-  }
-  const before = previous as Record<string, unknown>;
-  const keys = Object.keys(next);
-  if (keys.length !== Object.keys(before).length) {
-    found.more = true;
-    return;
-  }
-  for (let i = 0; i < keys.length && !found.more; i++) {
-    const key = keys[i];
-    if (!Object.hasOwn(before, key)) {
-      found.more = true;
-      return;
-    }
-    path.push(key);
-    compareTrees(before[key], next[key], path, found);
-    path.pop();
-  }
-}
-
-/** A copy of a JSON tree that nobody else holds. */
-function copyTree(value: unknown): unknown {
-  if (value === null || typeof value !== 'object') return value;
-  if (Array.isArray(value)) return value.map(copyTree);
-  const copy: Record<string, unknown> = {};
-  for (const key of Object.keys(value)) copy[key] = copyTree((value as Record<string, unknown>)[key]);
-  return copy;
-}
-
 /** `tree` with `value` at `path`: the objects and lists on the path are copied, everything else is shared. */
 function withValueAt(tree: unknown, path: readonly (string | number)[], depth: number, value: unknown): unknown {
   if (depth === path.length) return value;
@@ -1062,10 +996,10 @@ function withValueAt(tree: unknown, path: readonly (string | number)[], depth: n
   return { ...record, [key]: withValueAt(record[key], path, depth + 1, value) };
 }
 
-/** What an edit reader keeps of the last document it accepted. */
+/** What an edit reader keeps of the last document it read, when that was accepted. */
 interface AcceptedSheet {
-  /** The document as written (a copy of its own). */
-  written: unknown;
+  /** Its step on the reader's trail. */
+  step: number;
   doc: SheetDocument;
   remaining: number;
   scope: VariableScope | undefined;
@@ -1075,57 +1009,48 @@ interface AcceptedSheet {
 export type SheetReader = (input: unknown) => ParseSheetResult;
 
 /**
- * A reader for the documents of one editor, which differ from the last one by an edit: a document that differs from the
- * last one accepted in one field of EDITABLE_FIELDS alone is read by that field's schema alone, on what the last reading
- * left of the expression budget, and gives the last document with that value; every other document is read whole by
- * parseSheet, as is a field its schema refuses (so every issue is zod's own, located as ever). The documents it gives
- * share the parts an edit did not change, so nobody may change them.
+ * A reader for the documents of one editor, each an edit of the one before, on their trail (one of its own when absent;
+ * the compute worker shares one with its readings reader): a document that differs from the last one read, accepted, in
+ * one field of EDITABLE_FIELDS alone is read by that field's schema alone, on what the last reading left of the
+ * expression budget, and gives the last document with that value; every other document is read whole by parseSheet, as
+ * is a field its schema refuses (so every issue is zod's own, located as ever). The documents it gives share the parts
+ * an edit did not change, so nobody may change them.
  */
-export function createEditReader(): SheetReader {
+export function createEditReader(trail: DocumentTrail = createDocumentTrail()): SheetReader {
   let accepted: AcceptedSheet | undefined;
-  const readWhole = (input: unknown): ParseSheetResult => {
+  const readWhole = (input: unknown, step: number): ParseSheetResult => {
     const read = readSheet(input);
-    if (read.result.ok) accepted = { written: copyTree(input), doc: read.result.doc, remaining: read.remaining, scope: read.scope };
+    accepted = read.result.ok ? { step, doc: read.result.doc, remaining: read.remaining, scope: read.scope } : undefined;
     return read.result;
   };
   return (input) => {
+    const { step, change, before } = trail.follow(input);
     const last = accepted;
+    if (last !== undefined && last.step === step) return { ok: true, doc: last.doc };
     // A twist about a finger's contact and a sweep's ends are read from the whole hand, so any change reads the whole document.
-    if (last === undefined || last.doc.sweep !== undefined || last.doc.object.twist.entered?.contact !== undefined) return readWhole(input);
-    const found: TreeDifference = { at: undefined, more: false };
-    compareTrees(last.written, input, [], found);
-    if (found.more) return readWhole(input);
-    const path = found.at;
-    if (path === undefined) return { ok: true, doc: last.doc };
-    const schema = editableSchema(path, last.doc);
-    if (schema === undefined) return readWhole(input);
-    let holder = last.written as Record<string | number, unknown>;
-    for (let i = 0; i < path.length - 1; i++) holder = holder[path[i]] as Record<string | number, unknown>;
-    const key = path[path.length - 1];
-    const before = holder[key];
-    const value = readAt(input, path);
+    if (last === undefined || last.step !== step - 1 || change === 'more' || last.doc.sweep !== undefined || last.doc.object.twist.entered?.contact !== undefined) {
+      return readWhole(input, step);
+    }
+    if (change === 'none') {
+      accepted = { ...last, step };
+      return { ok: true, doc: last.doc };
+    }
+    const schema = editableSchema(change, last.doc);
+    if (schema === undefined) return readWhole(input, step);
     const budget = { remaining: last.remaining + (typeof before === 'string' ? expressionOperations(before) : 0) };
     activeVariables = last.scope;
     activeBudget = budget;
     let read;
     try {
-      read = schema.safeParse(value, { error: missingMessage });
+      read = schema.safeParse(getAt(input, change), { error: missingMessage });
     } finally {
       activeVariables = undefined;
       activeBudget = undefined;
     }
     // With nothing left of the budget the whole reading might refuse a later field: it says which.
-    if (!read.success || budget.remaining <= 0) return readWhole(input);
-    holder[key] = value;
-    const doc = withValueAt(last.doc, path, 0, read.data) as SheetDocument;
-    accepted = { written: last.written, doc, remaining: budget.remaining, scope: last.scope };
+    if (!read.success || budget.remaining <= 0) return readWhole(input, step);
+    const doc = withValueAt(last.doc, change, 0, read.data) as SheetDocument;
+    accepted = { step, doc, remaining: budget.remaining, scope: last.scope };
     return { ok: true, doc };
   };
-}
-
-/** The value at `path` in a JSON tree whose path is known to resolve. */
-function readAt(tree: unknown, path: readonly (string | number)[]): unknown {
-  let node = tree;
-  for (const key of path) node = (node as Record<string | number, unknown>)[key];
-  return node;
 }

@@ -9,8 +9,9 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it, vi } from 'vitest';
 import { createRandom, nextUniform } from '../../../src/lib/kinematics/random';
-import { createEditReader, parseSheet, type SheetReader } from '../../../src/lib/sheet/schema';
-import { computeSheetInSteps, type ComputeReply } from '../../../src/workers/compute-protocol';
+import { MAX_DOCUMENT_DEPTH, createReadingsReader, readDocument } from '../../../src/lib/sheet/readings';
+import { createEditReader, parseSheet } from '../../../src/lib/sheet/schema';
+import { computeSheetInSteps, createEditReaders, type ComputeReply, type DocumentReaders } from '../../../src/workers/compute-protocol';
 
 type Doc = Record<string, any>;
 type Protocol = typeof import('../../../src/workers/compute-protocol');
@@ -28,8 +29,8 @@ async function coldWorker(): Promise<Protocol> {
 }
 
 /** The reply the page ends with (the second one when the grasp quality came later), and the first without the grasp quality. */
-function answers(protocol: Pick<Protocol, 'computeSheetInSteps'>, message: unknown, read?: SheetReader): { final: ComputeReply; first: ComputeReply } {
-  const { first, later } = protocol.computeSheetInSteps(message, () => 0, read);
+function answers(protocol: Pick<Protocol, 'computeSheetInSteps'>, message: unknown, readers?: DocumentReaders): { final: ComputeReply; first: ComputeReply } {
+  const { first, later } = protocol.computeSheetInSteps(message, () => 0, readers);
   const final = later ? later() : first;
   if (first.type !== 'computed' || !first.ok) return { final, first };
   const { graspQuality: _quality, ...result } = first.result;
@@ -71,6 +72,10 @@ const EDITS: Edit[] = [
   { name: 'a joint angle that is not a quantity (an issue)', apply: (doc) => { doc.hand.fingers[0].joints[1].angle = true; } },
   { name: 'title', apply: (doc, pick) => { doc.title = `Housing ${pick(1000)}`; } },
   { name: 'a finger removed', apply: (doc) => { if (doc.hand.fingers.length > 1) doc.hand.fingers.pop(); } },
+  // The worker keeps each finger compiled while its input stays the same (createFingerCompiler): a finger added, units and the display change none of the others.
+  { name: 'a finger added', apply: (doc, pick) => { doc.hand.fingers.push({ ...structuredClone(doc.hand.fingers[0]), name: `extra-${pick(1000)}` }); } },
+  { name: 'a finger written in other units', apply: (doc, pick) => { doc.hand.fingers[pick(doc.hand.fingers.length)].roller.radius = `${(10 + pick(60) / 10) / 1000} m`; } },
+  { name: 'display units', apply: (doc, pick) => { doc.display = { length: ['mm', 'm'][pick(2)], angle: ['deg', 'rad'][pick(2)] }; } },
   { name: 'twist about a finger contact', apply: (doc) => { doc.object.twist.about = { contact: doc.hand.fingers[0].name }; } },
   { name: 'rate limits near the operations limit', apply: (doc) => { for (const finger of doc.hand.fingers) for (const joint of finger.joints) joint.rateLimit = longRate(90); } },
   {
@@ -89,13 +94,13 @@ describe('the compute worker recomputing after edits', () => {
     const order = [...EDITS, ...EDITS].map((edit) => ({ edit, key: nextUniform(source) })).sort((a, b) => a.key - b.key).map(({ edit }) => edit);
     const steps = order.flatMap((edit) => (pick(3) === 0 ? [edit, undefined] : [edit]));
     let failed = 0;
-    // The warm worker reads as the page's worker does, with one edit reader; the cold one reads every document whole.
-    const readEdit = createEditReader();
+    // The warm worker reads as the page's worker does, with one set of edit readers; the cold one reads every document whole.
+    const readEdits = createEditReaders();
     for (const [step, edit] of steps.entries()) {
       if (edit) edit.apply(doc, pick);
       else doc = clean();
       const message = { type: 'compute', id: step, document: structuredClone(doc), derive: pick(4) === 0 ? undefined : false };
-      const warm = answers({ computeSheetInSteps }, message, readEdit);
+      const warm = answers({ computeSheetInSteps }, message, readEdits);
       const cold = answers(await coldWorker(), structuredClone(message));
       expect(warm.final, `step ${step}: ${edit?.name ?? 'restored'}`).toStrictEqual(cold.final);
       expect(warm.first, `step ${step}: ${edit?.name ?? 'restored'}, first reply`).toStrictEqual(cold.first);
@@ -143,4 +148,38 @@ describe('the compute worker recomputing after edits', () => {
     // Most edits were read by their field alone: the parts they left alone are the last document's own.
     expect(shared).toBeGreaterThan(50);
   });
+
+  it('reads the readings of a run of edits as readDocument reads each document whole, in the same order', () => {
+    const source = createRandom(20261205);
+    const pick = (n: number) => Math.floor(nextUniform(source) * n);
+    const nested = (levels: number): unknown => (levels === 0 ? 'deep' : [nested(levels - 1)]);
+    const edits: ((doc: Doc) => void)[] = [
+      (doc) => { doc.hand.fingers[pick(doc.hand.fingers.length)].roller.radius = [`${10 + pick(60) / 10} mm`, 'r + 1 mm', '', 'radiu', 12][pick(5)]; },
+      (doc) => { doc.hand.fingers[pick(doc.hand.fingers.length)].joints[pick(3)].angle = [`${pick(20) - 10} deg`, '12 mm', (pick(10) - 5) / 10][pick(3)]; },
+      (doc) => { doc.object.twist.angular[2] = [`${pick(90)} deg/s`, 'spin', 'spin * 2'][pick(3)]; },
+      // The variables: every text that names one reads anew.
+      (doc) => { doc.variables = [`r = ${20 + pick(10)} mm\nspin = ${pick(40)} deg/s`, 'r = 3 mm', ''][pick(3)]; },
+      // Free text, never read as a quantity.
+      (doc) => { doc.title = `${pick(100)} mm`; },
+      (doc) => { doc.tags = [`${pick(5)} mm`]; },
+      // Structural changes: a finger removed or put back, a key added.
+      (doc) => { if (doc.hand.fingers.length > 1) doc.hand.fingers.pop(); else doc.hand.fingers = JSON.parse(demoText).hand.fingers; },
+      (doc) => { doc.hand.fingers[0].note = `${pick(9)} mm`; },
+      // Nested past the readings' depth, in a quantity's place and in free text.
+      (doc) => { doc.object.shape.radius = nested(MAX_DOCUMENT_DEPTH + 2); },
+      (doc) => { doc.notes = nested(MAX_DOCUMENT_DEPTH * 4); },
+    ];
+    const read = createReadingsReader();
+    let doc: Doc = JSON.parse(demoText);
+    for (let step = 0; step < 400; step++) {
+      // Mostly the page's kind of edit, one field at a time; now and then the sheet as it was.
+      if (pick(12) === 0) doc = JSON.parse(demoText);
+      else edits[pick(4) === 0 ? pick(edits.length) : pick(4)]!(doc);
+      const warm = read(structuredClone(doc));
+      const whole = readDocument(structuredClone(doc));
+      expect(warm, `step ${step}`).toStrictEqual(whole);
+      expect(Object.keys(warm.fields), `step ${step}`).toEqual(Object.keys(whole.fields));
+    }
+  });
 });
+
