@@ -11,7 +11,7 @@ import { createReadingsReader, readDocument, type DocumentReadings } from '../li
 import { QUANTITY_KINDS } from '../lib/sheet/quantity-kinds';
 import { createEditReader, editablePaths, parseSheet, type EditablePath, type SheetIssue, type SheetReader } from '../lib/sheet/schema';
 import type { SheetDocument } from '../lib/sheet/types';
-import { warmUpInTasks } from './warm-up';
+import { nextTask, warmUpInTasks } from './warm-up';
 
 export interface ComputeRequest {
   type: 'compute';
@@ -54,11 +54,11 @@ export interface ComputeWarmUp {
 /**
  * Recomputes a warm-up makes, one per task, so that a request posted meanwhile waits for one at most. Each is an edit of
  * one field; every WHOLE_READ_EVERY-th reads the document whole, as the worker's first request does. After 40 rounds
- * Chromium still ran much of an edit's code unoptimised (the page's edits took 1.1 to 1.8 ms, 0.8 to 0.9 after 200):
- * the code of one recompute runs once per round, so it takes a few hundred rounds, a few hundred milliseconds of an idle
- * worker, to be optimised.
+ * Chromium still ran much of an edit's code unoptimised (the page's edits took 1.1 to 1.8 ms, 0.9 to 1.0 after 200 and
+ * 0.6 to 0.7 after 1,000): the code of one recompute runs once per round, so it takes many rounds, about a second of an
+ * idle worker, to be optimised. A request stops the warm-up wherever it is.
  */
-export const WARM_UP_ROUNDS = 200;
+export const WARM_UP_ROUNDS = 1000;
 const WHOLE_READ_EVERY = 8;
 
 function isWarmUp(message: unknown): message is ComputeWarmUp {
@@ -176,7 +176,7 @@ function nearbyText(value: unknown, kind: EditablePath['kind'], step: number): s
  * a warm-up makes its rounds one per deferred task, on edit readers of its own (the requests' readers never see its
  * documents), and stops once a request arrives.
  */
-export function createComputeHandler(post: (reply: ComputeReply) => void, defer: (next: () => void) => void = (next) => setTimeout(next, 0)): (message: unknown) => void {
+export function createComputeHandler(post: (reply: ComputeReply) => void, defer: (next: () => void) => void = nextTask): (message: unknown) => void {
   // This worker's documents come from one editor, each an edit of the one before.
   const readEdits = createEditReaders();
   // Counts messages: deferred work checks that no message came after the one it belongs to.

@@ -9,7 +9,7 @@ import { runSheet, sweepSheet } from '../lib/kinematics';
 import { runMatrix, type MatrixResult } from '../lib/sheet/matrix';
 import type { MatrixSettings, RunSettings, SheetDocument, SweepSettings } from '../lib/sheet/types';
 import { runSeries, sweepSeries, transferablesOf, type RunSeries, type SweepSeries } from '../lib/view/series';
-import { warmUpInTasks } from './warm-up';
+import { nextTask, warmUpInTasks } from './warm-up';
 
 export type WorkerJob =
   | { kind: 'run'; document: SheetDocument; settings?: RunSettings }
@@ -73,7 +73,7 @@ function runToSeries(document: SheetDocument, settings: RunSettings, onProgress:
  * The worker's answer to each message: a job is carried out at once; a warm-up makes its rounds one per deferred task
  * and stops making them once a job has arrived (that job's own run compiles the rest).
  */
-export function createMessageHandler(post: PostReply, defer: (next: () => void) => void = (next) => setTimeout(next, 0)): (message: unknown) => void {
+export function createMessageHandler(post: PostReply, defer: (next: () => void) => void = nextTask): (message: unknown) => void {
   // Counts messages: a warm-up goes on only while no message came after it.
   let messages = 0;
   return (message) => {
