@@ -70,6 +70,23 @@ describe('sheet list, history and comparison', () => {
     await waitForRows((t) => t.length >= 8);
   });
 
+  it('asks the server once per typed key and shows the newest answer', async () => {
+    const asked: string[] = [];
+    const record = (request: { url: () => string }) => {
+      const url = new URL(request.url());
+      if (url.pathname === '/api/sheets') asked.push(url.searchParams.get('q') ?? '');
+    };
+    page.on('request', record);
+    await page.getByTestId('sheet-search').pressSequentially('peg');
+    const titles = await waitForRows((t) => t.length === 2);
+    page.off('request', record);
+    expect(titles.sort()).toEqual(['Peg: tilt about the grip line', 'Peg: tilt with 16 mm rollers']);
+    // One request per key: the query the render makes finds the one the keystroke sent rather than asking again.
+    expect(asked).toEqual(['p', 'pe', 'peg']);
+    await page.getByTestId('sheet-search').fill('');
+    await waitForRows((t) => t.length >= 8);
+  });
+
   it('filters by warning status', async () => {
     const all = await shownTitles();
     await page.getByTestId('warning-filter').selectOption('clean');
