@@ -14,11 +14,11 @@ import { matrixStepper } from '../sheet/matrix';
 import { notFound } from './access';
 import { insertAudit } from './audit';
 import { getRevision } from './sheets';
+import { yieldToEventLoop } from './slices';
 
 /** Longest a matrix computes on the server; past it the finished runs are stored as an incomplete result. */
 export const MATRIX_TIME_LIMIT_MS = 20_000;
 
-const yieldToEventLoop = () => new Promise<void>((resolve) => setImmediate(resolve));
 
 /** The stored matrix result of revision `number` of the sheet; not found when the revision or its result does not exist. */
 export async function getMatrixResult(database: Database, sheetId: string, number: number): Promise<Result<MatrixResultRecord>> {

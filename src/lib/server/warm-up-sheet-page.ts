@@ -2,6 +2,7 @@ import type { ComponentType } from 'react';
 import type { SheetPageData } from '../contract';
 import { createSheetFromTemplate } from '../sheet/templates';
 import { sheetJointNames } from '../view/log-mapping-draft';
+import { yieldToEventLoop } from './slices';
 
 /** Page renders of the invented sheet: the sheet page answered in about 450, 120 and 110 ms before its answers settled near 45 ms. */
 const WARM_UP_RENDERS = 4;
@@ -20,8 +21,6 @@ export function inventedPageData(): SheetPageData {
     forkTargets: [],
   };
 }
-
-const nextTurn = () => new Promise<void>((resolve) => setImmediate(resolve));
 
 /**
  * Runs the sheet page's server work (its first evaluation, the server render of its islands through React's
@@ -44,11 +43,11 @@ export async function warmUpSheetPage(): Promise<void> {
   const render = async <P extends object>(island: ComponentType<P>, props: P) =>
     new Response(await ReactDOMServer.renderToReadableStream(React.createElement(island, props))).text();
   for (let round = 0; round < WARM_UP_RENDERS; round++) {
-    await nextTurn();
+    await yieldToEventLoop();
     const evaluation = evaluateForPage(data.revision.inputs);
-    await nextTurn();
+    await yieldToEventLoop();
     await render(SheetEditor, { data, evaluation });
-    await nextTurn();
+    await yieldToEventLoop();
     await render(ReviewPanel, { sheetId, revision, canComment: true, canReview: true });
     await render(LogsPanel, { sheetId, revision, canUpload: true, jointNames: sheetJointNames(data.revision.inputs) });
   }
