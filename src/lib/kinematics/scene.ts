@@ -319,7 +319,8 @@ function toPlain(value: unknown): unknown {
     const record = value as Record<string, unknown>;
     if (record.data instanceof Float64Array && typeof record.rows === 'number' && typeof record.cols === 'number') return matrixToRows(record as unknown as Matrix);
     const out: Record<string, unknown> = {};
-    for (const key of Object.keys(record)) {
+    // for...in rather than Object.keys: no array of names per object (a result has no inherited enumerable keys).
+    for (const key in record) {
       if (key === 'warningList') continue;
       out[key] = toPlain(record[key]);
     }

@@ -105,10 +105,13 @@ function firstNonFinite(result: PlainSheetResult, value: unknown, path: (string 
     return allowed ? undefined : { path: [...path], value };
   }
   if (value === null || typeof value !== 'object') return undefined;
+  // A finite number is passed over where it is read, without a call or a step on the path: most of the result is.
   if (Array.isArray(value)) {
     for (let i = 0; i < value.length; i++) {
+      const item: unknown = value[i];
+      if (typeof item === 'number' && Number.isFinite(item)) continue;
       path.push(i);
-      const found = firstNonFinite(result, value[i], path, key);
+      const found = firstNonFinite(result, item, path, key);
       path.pop();
       if (found) return found;
     }
@@ -116,8 +119,10 @@ function firstNonFinite(result: PlainSheetResult, value: unknown, path: (string 
   }
   // for...in rather than Object.keys: no array of names per object (a plain result has no inherited enumerable keys).
   for (const name in value) {
+    const item = (value as Record<string, unknown>)[name];
+    if (typeof item === 'number' && Number.isFinite(item)) continue;
     path.push(name);
-    const found = firstNonFinite(result, (value as Record<string, unknown>)[name], path, name);
+    const found = firstNonFinite(result, item, path, name);
     path.pop();
     if (found) return found;
   }

@@ -39,6 +39,16 @@ describe('grasp quality cache', () => {
     expect(sheetGraspQuality(slippery.doc, slippery.solved).sumQuality).not.toBe(sheetGraspQuality(moved.doc, moved.solved).sumQuality);
   });
 
+  it('computes anew when only the torque length is stated (twice the length the sheet takes when it states none)', () => {
+    const unstated = solvedDemo();
+    const defaultLength = computeGraspQuality(sheetGraspQualityInput(unstated.doc, unstated.solved)).torqueLength;
+    sheetGraspQuality(unstated.doc, unstated.solved);
+    const { doc, solved } = solvedDemo((d) => { d.graspQuality = { torqueLength: defaultLength * 2 }; });
+    const reference = computeGraspQuality(sheetGraspQualityInput(doc, solved));
+    expect(reference.torqueLength).toBe(defaultLength * 2);
+    expect(sheetGraspQuality(doc, solved)).toEqual(reference);
+  });
+
   it('hands out a copy: changing one answer leaves the next as computed', () => {
     const { doc, solved } = solvedDemo();
     const first = sheetGraspQuality(doc, solved);
