@@ -3,9 +3,9 @@
  * without a worker: a document as written goes in, the parsed SI document, the JSON-ready
  * results, the derivation entries, every located issue and how each written quantity reads come out.
  */
-import { createFingerCompiler, type FingerCompiler, type PlainSheetResult } from '../lib/kinematics';
+import type { PlainSheetResult } from '../lib/kinematics';
 import type { DerivationEntry } from '../lib/sheet/derivation';
-import { evaluateSheet } from '../lib/sheet/evaluate';
+import { createFingerMemory, evaluateSheet, type FingerMemory } from '../lib/sheet/evaluate';
 import { createDocumentTrail, getAt, setAt } from '../lib/sheet/document-path';
 import { createReadingsReader, readDocument, type DocumentReadings } from '../lib/sheet/readings';
 import { QUANTITY_KINDS } from '../lib/sheet/quantity-kinds';
@@ -76,12 +76,12 @@ function tooDeep(id: number, issue: SheetIssue, readings: DocumentReadings, elap
   return { type: 'computed', id, ok: false, issues: [issue], readings, elapsedMs };
 }
 
-/** How a document is read: its quantity texts (for the editor's hints) and the sheet, and how its fingers are compiled for the solve. */
+/** How a document is read: its quantity texts (for the editor's hints) and the sheet, and what is kept of its fingers between evaluations. */
 export interface DocumentReaders {
   readings: (document: unknown) => DocumentReadings;
   sheet: SheetReader;
-  /** createFinger when absent. */
-  compileFinger?: FingerCompiler;
+  /** Nothing is kept when absent. */
+  fingers?: FingerMemory;
 }
 
 /** Every document read whole, as the server reads them. */
@@ -90,11 +90,11 @@ const WHOLE_DOCUMENTS: DocumentReaders = { readings: readDocument, sheet: parseS
 /**
  * Readers for the documents of one editor, each an edit of the one before: an edit is read by what it changed (see
  * createReadingsReader, createEditReader), found once for both on their one trail, and the fingers it left alone are
- * not compiled again (createFingerCompiler).
+ * not compiled again, nor their curvature, acceleration and plain result computed again (createFingerMemory).
  */
 export function createEditReaders(): DocumentReaders {
   const trail = createDocumentTrail();
-  return { readings: createReadingsReader(trail), sheet: createEditReader(trail), compileFinger: createFingerCompiler() };
+  return { readings: createReadingsReader(trail), sheet: createEditReader(trail), fingers: createFingerMemory() };
 }
 
 /**
@@ -105,15 +105,15 @@ export function createEditReaders(): DocumentReaders {
 export function computeSheet(message: unknown, now: () => number = () => performance.now(), readers: DocumentReaders = WHOLE_DOCUMENTS): ComputeReply {
   if (!isComputeRequest(message)) return { type: 'refused', message: 'expected {type: "compute", id: integer, document}' };
   const started = now();
-  const { sheet: read, compileFinger } = readers;
+  const { sheet: read, fingers } = readers;
   const readings = readers.readings(message.document);
   if (readings.tooDeep) return tooDeep(message.id, readings.tooDeep, readings, now() - started);
   if (message.derive === false) {
-    const plain = evaluateSheet(message.document, { read, compileFinger });
+    const plain = evaluateSheet(message.document, { read, fingers });
     if (!plain.ok) return { type: 'computed', id: message.id, ok: false, issues: plain.error.issues, readings, elapsedMs: now() - started };
     return { type: 'computed', id: message.id, ok: true, document: plain.value.doc, result: plain.value.result, readings, elapsedMs: now() - started };
   }
-  const evaluated = evaluateSheet(message.document, { derive: true, read, compileFinger });
+  const evaluated = evaluateSheet(message.document, { derive: true, read, fingers });
   if (!evaluated.ok) return { type: 'computed', id: message.id, ok: false, issues: evaluated.error.issues, readings, elapsedMs: now() - started };
   const { doc, result, derivation } = evaluated.value;
   return { type: 'computed', id: message.id, ok: true, document: doc, result, derivation, readings, elapsedMs: now() - started };
@@ -136,7 +136,7 @@ export function computeSheetInSteps(message: unknown, now: () => number = () => 
   const started = now();
   const readings = readers.readings(message.document);
   if (readings.tooDeep) return { first: tooDeep(message.id, readings.tooDeep, readings, now() - started) };
-  const evaluated = evaluateSheet(message.document, { graspQualityLater: true, read: readers.sheet, compileFinger: readers.compileFinger });
+  const evaluated = evaluateSheet(message.document, { graspQualityLater: true, read: readers.sheet, fingers: readers.fingers });
   const elapsedMs = now() - started;
   if (!evaluated.ok) return { first: { type: 'computed', id: message.id, ok: false, issues: evaluated.error.issues, readings, elapsedMs } };
   const { id } = message;

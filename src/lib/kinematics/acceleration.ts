@@ -196,14 +196,25 @@ export function solveFingerAcceleration(
 
 const ZERO_ACCELERATION: Readonly<ObjectAcceleration> = { linear: [0, 0, 0], angular: [0, 0, 0] };
 
-/** Fills every finger's acceleration feed-forward of a solved sheet and of its steer-and-roll solution, once per evaluation, from the object's acceleration (zero when absent), each contact's curvature from sheetCurvature and the hand's finger inputs (world frame, SI). */
+/**
+ * Fills every finger's acceleration feed-forward of a solved sheet and of its steer-and-roll solution, once per evaluation, from the
+ * object's acceleration (zero when absent), each contact's curvature from sheetCurvature and the hand's finger inputs; a finger
+ * with an entry in `known` takes it as it is (an earlier evaluation's, from the same finger input, object and solver settings)
+ * (world frame, SI).
+ */
 export function solveAccelerations(
   result: SheetResult, acceleration: Readonly<ObjectAcceleration> | undefined, settings: Readonly<SolverSettings>, curvatures: readonly Readonly<ContactCurvature>[],
-  fingers: readonly Readonly<Pick<FingerInput, 'joints' | 'roller'>>[],
+  fingers: readonly Readonly<Pick<FingerInput, 'joints' | 'roller'>>[], known: readonly (FingerAcceleration | undefined)[] = [],
 ): SheetResult {
   const maxJoints = result.fingers.reduce((m, f) => Math.max(m, f.jointAngles.length), 4);
-  const ws = createLinalgWorkspace(4, maxJoints);
+  let ws: LinalgWorkspace | undefined;
   result.fingers.forEach((finger, i) => {
+    const knownAcceleration = known[i];
+    if (knownAcceleration !== undefined) {
+      finger.acceleration = knownAcceleration;
+      return;
+    }
+    ws ??= createLinalgWorkspace(4, maxJoints);
     finger.acceleration = solveFingerAcceleration(
       finger, result.object.position, result.object.angularVelocity, acceleration ?? ZERO_ACCELERATION, curvatures[i], settings.damping,
       createFingerAcceleration(finger.jointAngles.length, finger.steer.baseJoints.length), ws,

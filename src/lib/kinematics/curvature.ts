@@ -341,9 +341,12 @@ export function contactCurvature(shape: ConvexShape, objectRotation: ArrayLike<n
   return { object, roller: rollerCurvature, relative, wander };
 }
 
-/** Curvature and rolling kinematics of every finger's contact of a solved sheet (palm frame, SI), in finger order. */
-export function sheetCurvature(doc: SheetDocument, result: SheetResult): ContactCurvature[] {
+/**
+ * Curvature and rolling kinematics of every finger's contact of a solved sheet (palm frame, SI), in finger order; a finger
+ * with an entry in `known` takes it as it is (an earlier evaluation's, from the same finger input, object and solver settings).
+ */
+export function sheetCurvature(doc: SheetDocument, result: SheetResult, known: readonly (ContactCurvature | undefined)[] = []): ContactCurvature[] {
   const shape = shapeFromInput(doc.object.shape);
   const rotation = toMatrix3(result.object.orientation);
-  return result.fingers.map((finger, i) => contactCurvature(shape, rotation, result.object.angularVelocity, doc.hand.fingers[i].roller, finger));
+  return result.fingers.map((finger, i) => known[i] ?? contactCurvature(shape, rotation, result.object.angularVelocity, doc.hand.fingers[i].roller, finger));
 }

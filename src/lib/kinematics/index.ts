@@ -80,7 +80,7 @@ export type { GraspQuality, GraspQualityInput } from './grasp-quality';
 export {
   computeSheetGraspQuality, sheetGraspQualityInput, createFingerCompiler, createResult, createScene, DEFAULT_CONE_EDGES, DEFAULT_FRICTION, setJointAngles, setObjectPose, setObjectTwist, solveScene, solveSheet, toPlainResult,
 } from './scene';
-export type { FingerCompiler, FingerResult, PlainSheetResult, Scene, SheetResult } from './scene';
+export type { FingerCompiler, FingerResult, PlainFingerResult, PlainSheetResult, Scene, SheetResult } from './scene';
 export { createFingerAcceleration, jacobianRateTimesRates, objectPointAcceleration, rollingTerm, solveAccelerations, solveFingerAcceleration } from './acceleration';
 export type { AccelerationModel, FingerAcceleration } from './acceleration';
 export { solveSteerAcceleration } from './steer-acceleration';

@@ -296,11 +296,24 @@ type Plain<T> = T extends Float64Array
  * SheetResult with typed arrays as plain arrays and matrices as rows (JSON-ready). The evaluation
  * pipeline adds each finger's contact curvature (sheetCurvature) and the commanded rates (sheet/commanded.ts); runs and sweeps leave them out.
  */
-export type PlainSheetResult = Omit<Plain<SheetResult>, 'fingers'> & { fingers: (Plain<FingerResult> & { curvature?: ContactCurvature })[]; commanded?: CommandedRates };
+export type PlainSheetResult = Omit<Plain<SheetResult>, 'fingers'> & { fingers: PlainFingerResult[]; commanded?: CommandedRates };
 
-/** JSON-ready copy of a result: Float64Arrays become arrays, matrices become arrays of rows, non-finite numbers stay as they are. */
-export function toPlainResult(result: SheetResult): PlainSheetResult {
-  return toPlain(result) as PlainSheetResult;
+/** FingerResult JSON-ready, with the contact curvature the evaluation pipeline adds. */
+export type PlainFingerResult = Plain<FingerResult> & { curvature?: ContactCurvature };
+
+/**
+ * JSON-ready copy of a result: Float64Arrays become arrays, matrices become arrays of rows, non-finite numbers stay as they are;
+ * a finger with an entry in `converted` takes it as it is (an earlier evaluation's copy of the same finger's result).
+ */
+export function toPlainResult(result: SheetResult, converted: readonly (PlainFingerResult | undefined)[] = []): PlainSheetResult {
+  const plain: Record<string, unknown> = {};
+  for (const key in result) {
+    if (key === 'warningList') continue;
+    plain[key] = key === 'fingers'
+      ? mapPacked(result.fingers, (finger, i) => converted[i] ?? toPlain(finger))
+      : toPlain(result[key as keyof SheetResult]);
+  }
+  return plain as PlainSheetResult;
 }
 
 /** Runs once per evaluation over every number of the result: plain loops, since Array.from and Object.entries allocate per element. */

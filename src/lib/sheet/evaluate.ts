@@ -4,14 +4,17 @@
  * compute worker, the sheet service, file import and export, the comparison, the report and the
  * compute command all call it, so a sheet reads and solves the same way everywhere.
  */
-import { sheetCurvature, solveAccelerations, solveSheet, toPlainResult, type FingerCompiler, type PlainSheetResult, type SheetResult } from '../kinematics';
+import {
+  createFingerCompiler, sheetCurvature, solveAccelerations, solveSheet, toPlainResult,
+  type ContactCurvature, type FingerAcceleration, type FingerCompiler, type PlainFingerResult, type PlainSheetResult, type SheetResult,
+} from '../kinematics';
 import { fail, succeed, type DomainError, type Result } from '../result';
 import { commandedRates } from './commanded';
 import { deriveSheet, type DerivationEntry } from './derivation';
 import { knownSheetGraspQuality, sheetGraspQuality } from './grasp-quality-cache';
 import { formatIssuePath, parseSheet, type SheetIssue, type SheetReader } from './schema';
 import type { SheetSummary } from './summary';
-import type { SheetDocument } from './types';
+import type { FingerInput, SheetDocument, SolverSettings } from './types';
 
 /** A document that read and solved: the SI document, the JSON-ready result and its stored summary. */
 export interface SheetEvaluation {
@@ -50,8 +53,51 @@ export interface EvaluateOptions {
   graspQualityLater?: boolean;
   /** Reads the document (parseSheet when absent): the compute worker's edit reader (createEditReader) reads an edit by its changed field. */
   read?: SheetReader;
-  /** Compiles each finger for the solve (createFinger when absent): the compute worker's createFingerCompiler keeps the fingers an edit left alone. */
-  compileFinger?: FingerCompiler;
+  /** What the evaluations of one editor's documents keep of each finger (see createFingerMemory); nothing when absent. */
+  fingers?: FingerMemory;
+}
+
+/** What an evaluation keeps of one finger: valid for a later document while its finger input, object and solver settings are the same objects. */
+interface KeptFinger {
+  object: SheetDocument['object'];
+  solver: SolverSettings;
+  curvature: ContactCurvature;
+  acceleration: FingerAcceleration;
+  plain: PlainFingerResult;
+}
+
+/**
+ * What the evaluations of one editor's documents (each an edit of the one before, sharing the parts the edit left alone)
+ * keep of each finger: its compiled chain while its input is the same object (createFingerCompiler), and its curvature,
+ * acceleration and checked plain result while its input, the object and the solver settings are the same objects, since
+ * those are all they are computed from. The solve, the warnings, the grasp and everything else are computed anew.
+ * The plain results share the fingers kept, so nobody may change them.
+ */
+export interface FingerMemory {
+  compile: FingerCompiler;
+  kept: WeakMap<Readonly<FingerInput>, KeptFinger>;
+}
+
+/** An empty FingerMemory for one editor's documents. */
+export function createFingerMemory(): FingerMemory {
+  return { compile: createFingerCompiler(), kept: new WeakMap() };
+}
+
+/** The fingers of `doc` that `memory` kept for this object and these solver settings, by index (undefined for the others). */
+function keptFingers(memory: FingerMemory | undefined, doc: SheetDocument): (KeptFinger | undefined)[] {
+  if (memory === undefined) return [];
+  return doc.hand.fingers.map((input) => {
+    const kept = memory.kept.get(input);
+    return kept !== undefined && kept.object === doc.object && kept.solver === doc.solver ? kept : undefined;
+  });
+}
+
+/** Keeps the fingers of an evaluation that passed the check and were not kept already (see FingerMemory). */
+function keepFingers(memory: FingerMemory, doc: SheetDocument, solved: SheetResult, curvatures: readonly ContactCurvature[], result: PlainSheetResult, kept: readonly (KeptFinger | undefined)[]): void {
+  doc.hand.fingers.forEach((input, i) => {
+    if (kept[i] !== undefined) return;
+    memory.kept.set(input, { object: doc.object, solver: doc.solver, curvature: curvatures[i], acceleration: solved.fingers[i].acceleration!, plain: result.fingers[i] });
+  });
 }
 
 /** The stored summary of a solved sheet: finger count, worst warning severity, the sorted distinct warning codes and how many were raised. */
@@ -129,6 +175,29 @@ function firstNonFinite(result: PlainSheetResult, value: unknown, path: (string 
   return undefined;
 }
 
+/**
+ * firstNonFinite over a whole plain result, in the same order, passing over the fingers kept from an earlier evaluation
+ * (checked then, and nothing in a finger's check looks outside the finger).
+ */
+function firstNonFiniteOfResult(result: PlainSheetResult, kept: readonly (KeptFinger | undefined)[]): { path: (string | number)[]; value: number } | undefined {
+  const path: (string | number)[] = [];
+  for (const name in result) {
+    if (name !== 'fingers') {
+      const found = firstNonFinite(result, (result as unknown as Record<string, unknown>)[name], [name], name);
+      if (found) return found;
+      continue;
+    }
+    for (let i = 0; i < result.fingers.length; i++) {
+      if (kept[i] !== undefined) continue;
+      path.push(name, i);
+      const found = firstNonFinite(result, result.fingers[i], path, name);
+      path.length = 0;
+      if (found) return found;
+    }
+  }
+  return undefined;
+}
+
 /** The finger and joint an output path belongs to, in words, e.g. ` (finger "left", joint "left-roll")`. */
 function describeOwner(doc: SheetDocument, path: readonly (string | number)[]): string {
   if (path[0] !== 'fingers' || typeof path[1] !== 'number') return '';
@@ -163,17 +232,20 @@ export function evaluateSheet(input: unknown, options: EvaluateOptions = {}): Re
   }
   const doc = parsed.doc;
   try {
-    const solved = solveSheet(doc, options.compileFinger);
+    const memory = options.fingers;
+    const kept = keptFingers(memory, doc);
+    const solved = solveSheet(doc, memory?.compile);
     // The feed-forward's rolling term needs each contact's motion over the surfaces, so the curvature comes first.
-    const curvatures = sheetCurvature(doc, solved);
-    solveAccelerations(solved, doc.object.acceleration, doc.solver, curvatures, doc.hand.fingers);
+    const curvatures = sheetCurvature(doc, solved, kept.map((finger) => finger?.curvature));
+    solveAccelerations(solved, doc.object.acceleration, doc.solver, curvatures, doc.hand.fingers, kept.map((finger) => finger?.acceleration));
     const quality = options.graspQualityLater && !options.derive ? knownSheetGraspQuality(doc, solved) : sheetGraspQuality(doc, solved);
     if (quality) solved.graspQuality = quality;
-    const result = toPlainResult(solved);
-    curvatures.forEach((curvature, i) => { result.fingers[i].curvature = curvature; });
+    const result = toPlainResult(solved, kept.map((finger) => finger?.plain));
+    curvatures.forEach((curvature, i) => { if (kept[i] === undefined) result.fingers[i].curvature = curvature; });
     result.commanded = commandedRates(doc, result);
-    const bad = firstNonFinite(result, result, [], undefined);
+    const bad = firstNonFiniteOfResult(result, kept);
     if (bad) return fail(notFiniteError(doc, bad));
+    if (memory) keepFingers(memory, doc, solved, curvatures, result, kept);
     const evaluation: SheetEvaluation = { doc, result, summary: summarize(doc, solved) };
     if (!quality) evaluation.graspQualityLater = () => withGraspQuality(doc, solved, result);
     return succeed(options.derive ? { ...evaluation, derivation: deriveSheet(doc, solved) } : evaluation);
