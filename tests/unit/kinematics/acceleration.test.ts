@@ -317,6 +317,14 @@ describe('where the contact point\'s motion is not defined', () => {
     expect(Array.from(acc.target.subarray(0, 3))).toBeNear(Array.from(acc.objectPoint).map((x, c) => x - acc.jacobianRate[c]), { abs: 1e-15 });
   });
 
+  it('takes a finger\'s known acceleration as it is', () => {
+    const doc = lineContactSheet();
+    const solved = solveSheet(doc);
+    const curvatures = sheetCurvature(doc, solved, [undefined]);
+    const known = solveAccelerations(solveSheet(doc), doc.object.acceleration, doc.solver, curvatures, doc.hand.fingers).fingers[0].acceleration!;
+    expect(solveAccelerations(solved, doc.object.acceleration, doc.solver, curvatures, doc.hand.fingers, [known]).fingers[0].acceleration).toBe(known);
+  });
+
   it('matches the material points when no curvature is given for the finger', () => {
     const doc = reachingSheet();
     const acc = solveAccelerations(solveSheet(doc), doc.object.acceleration, doc.solver, [], doc.hand.fingers).fingers[0].acceleration!;

@@ -378,3 +378,14 @@ describe('contact-point velocities against finite differences of the solved cont
     expect(overRollerPalm.map((v, k) => v - overObjectPalm[k])).toBeNear(curvature.wander.tangentialSlip, { abs: 1e-5 * curvature.wander.rollerSpeed! });
   });
 });
+
+describe('sheetCurvature', () => {
+  it('takes a finger\'s known curvature as it is and computes the others', () => {
+    const doc = rollingSheet('sphere', [0.4, 0.7, 0.5]);
+    const result = solveSheet(doc);
+    const [computed] = sheetCurvature(doc, result);
+    const [known] = sheetCurvature(doc, result, [computed]);
+    expect(known).toBe(computed);
+    expect(sheetCurvature(doc, result, [undefined])).toStrictEqual([computed]);
+  });
+});

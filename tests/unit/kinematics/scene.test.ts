@@ -65,4 +65,14 @@ describe('toPlainResult', () => {
     const round = JSON.parse(JSON.stringify(plain));
     expect(round.fingers[1].contact.objectPoint).toEqual(plain.fingers[1].contact.objectPoint);
   });
+
+  it('takes a finger converted before as it is and converts the others', () => {
+    const solved = solveSheet(threeFingerSheet());
+    const whole = toPlainResult(solved);
+    const converted = toPlainResult(solved).fingers[1];
+    const plain = toPlainResult(solved, [undefined, converted]);
+    expect(plain.fingers[1]).toBe(converted);
+    expect(plain).toStrictEqual(whole);
+    expect(Object.keys(plain)).toEqual(Object.keys(whole));
+  });
 });

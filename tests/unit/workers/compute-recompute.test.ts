@@ -155,7 +155,10 @@ describe('the compute worker recomputing after edits', () => {
       expect(warm.final, `step ${step}`).toStrictEqual(whole.final);
       expect(warm.first, `step ${step}, first reply`).toStrictEqual(whole.first);
       const reply = warm.final;
-      if (reply.type === 'computed' && reply.ok && last?.type === 'computed' && last.ok) keptFingers += reply.result.fingers.filter((f) => last.result.fingers.includes(f)).length;
+      if (reply.type === 'computed' && reply.ok && last?.type === 'computed' && last.ok) {
+        const before = last.result.fingers;
+        keptFingers += reply.result.fingers.filter((f) => before.includes(f)).length;
+      }
       last = reply;
     }
     // The run kept fingers from one reply to the next.
