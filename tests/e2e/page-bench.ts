@@ -319,7 +319,8 @@ try {
             const matches = () => {
               const table = document.querySelector('[data-testid="sheet-table"]');
               const first = table?.querySelector('tbody tr[data-sheet-title]');
-              return table?.getAttribute('aria-busy') === 'false' && new URL(location.href).searchParams.get('q') === w && first !== null;
+              // The rows of this word's answer: the fixture sheets are tagged with one of the two words, and their titles hold neither.
+              return table?.getAttribute('aria-busy') === 'false' && (first?.textContent ?? '').includes(w);
             };
             const observer = new MutationObserver(() => {
               if (!matches()) return;

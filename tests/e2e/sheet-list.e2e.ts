@@ -62,7 +62,8 @@ describe('sheet list, history and comparison', () => {
     await page.getByTestId('sheet-search').fill('peg');
     const byTitle = await waitForRows((t) => t.length === 2);
     expect(byTitle.sort()).toEqual(['Peg: tilt about the grip line', 'Peg: tilt with 16 mm rollers']);
-    expect(new URL(page.url()).searchParams.get('q')).toBe('peg');
+    // The URL follows once the keystroke's frame is painted.
+    await expect.poll(() => new URL(page.url()).searchParams.get('q')).toBe('peg');
     await page.getByTestId('sheet-search').fill('review');
     expect(await waitForRows((t) => t.length === 1)).toEqual(['Retrofit fingers: mounting review']);
     await saveScreenshot(page, 'sheet-list-search');

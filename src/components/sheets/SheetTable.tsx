@@ -1,6 +1,6 @@
 import { keepPreviousData, queryOptions, useQuery, useQueryClient } from '@tanstack/react-query';
 import { createColumnHelper, flexRender, getCoreRowModel, useReactTable, type Row, type SortingState } from '@tanstack/react-table';
-import { memo, useMemo, useState } from 'react';
+import { memo, useEffect, useMemo, useState } from 'react';
 import { formatWhen, requestJson } from '../../lib/client/api';
 import { REVIEW_STATE_LABELS, type SheetListPage, type SheetRow, type Wire } from '../../lib/contract';
 import { SHEET_SORTS, WARNING_FILTERS } from '../../lib/validation/sheets';
@@ -9,6 +9,7 @@ import QueryRoot from '../QueryRoot';
 import ImportDialog from './ImportDialog';
 import WarningBadge from './WarningBadge';
 import { revisionLabel } from '../../lib/view/revision';
+import { afterNextPaint } from '../sheet/useIdle';
 
 type Sort = (typeof SHEET_SORTS)[number];
 type WarningFilter = (typeof WARNING_FILTERS)[number];
@@ -23,6 +24,8 @@ interface Filters {
 }
 
 const PAGE_SIZES = [10, 20, 50];
+/** How long the list waits for an answer before it dims the rows it shows (common practice: no busy state under ~0.2 s). */
+const SLOW_ANSWER_MS = 200;
 const DEFAULTS: Filters = { q: '', author: '', warnings: 'any', sort: 'updated', page: 1, pageSize: 20 };
 const WARNING_LABELS: Record<WarningFilter, string> = {
   any: 'Any status',
@@ -175,6 +178,23 @@ const SheetRows = memo(function SheetRows({ rows }: { rows: Row<Wire<SheetRow>>[
   ));
 });
 
+/**
+ * True once `on` has stayed true for `delayMs`: a list that answers quickly is not dimmed and lit again, which cost a
+ * frame of its own (and a layer for the table) on a keystroke's way to its rows.
+ */
+function useTrueAfter(on: boolean, delayMs: number): boolean {
+  const [late, setLate] = useState(false);
+  useEffect(() => {
+    if (!on) return undefined;
+    const timer = setTimeout(() => setLate(true), delayMs);
+    return () => {
+      clearTimeout(timer);
+      setLate(false);
+    };
+  }, [on, delayMs]);
+  return on && late;
+}
+
 /** One page of the team's sheets as the filters ask for it. */
 function sheetsPageQuery(teamId: string, filters: Filters) {
   return queryOptions({
@@ -194,13 +214,9 @@ function SheetList({ teamId, teamName, canWrite, authors, initialSearch }: Sheet
   const queryClient = useQueryClient();
   const [filters, setFilters] = useState<Filters>(() => readFilters(initialSearch));
   const [search, setSearch] = useState(filters.q);
-  // The page URL follows the list in the event itself, before React renders the change: replacing the URL makes Chromium
-  // check that the typed form is still shown, which forces style and layout of whatever changed in the page. Here that is
-  // the typed field alone; after the render it was the whole table, 20-40 ms on the keystroke's path to its rows.
-  // The request goes out from the event too: started by the query after the render, it waited for the whole re-render
-  // of the form and table (6 to 44 ms after the keystroke). The render's query finds it under the same key and waits for it.
+  // The request goes out from the event: started by the query after the render, it waited for the whole re-render of the
+  // form and table (6 to 44 ms after the keystroke). The render's query finds it under the same key and waits for it.
   const show = (next: Filters) => {
-    window.history.replaceState(null, '', `${window.location.pathname}${filtersToSearch(next)}`);
     void queryClient.prefetchQuery(sheetsPageQuery(teamId, next));
     setFilters(next);
   };
@@ -214,6 +230,15 @@ function SheetList({ teamId, teamName, canWrite, authors, initialSearch }: Sheet
 
   const query = useQuery(sheetsPageQuery(teamId, filters));
 
+  // The page URL follows the rows shown, once they are painted: replacing the URL costs Chromium a few milliseconds (and
+  // lays out whatever changed since the last frame), which on the keystroke's path delayed its request and rows.
+  const shownSearch = query.isPlaceholderData ? undefined : filtersToSearch(filters);
+  useEffect(() => {
+    if (shownSearch === undefined || shownSearch === window.location.search) return undefined;
+    return afterNextPaint(() => window.history.replaceState(null, '', `${window.location.pathname}${shownSearch}`));
+  }, [shownSearch]);
+
+  const slowFetch = useTrueAfter(query.isFetching, SLOW_ANSWER_MS);
   const columns = useColumns();
   const pageCount = query.data ? Math.max(1, Math.ceil(query.data.total / filters.pageSize)) : 1;
   const sorting: SortingState = filters.sort === 'created' ? [] : [{ id: filters.sort, desc: filters.sort === 'updated' }];
@@ -315,8 +340,7 @@ function SheetList({ teamId, teamName, canWrite, authors, initialSearch }: Sheet
         </p>
       ) : (
         <div className="overflow-x-auto border-2 border-ink bg-paper">
-          {/* A layer of its own (will-change), so that dimming the rows while a newer list loads repaints nothing and lays out nothing. */}
-          <table className={`w-full text-sm border-collapse will-change-[opacity] ${query.isFetching ? 'opacity-70' : ''}`} data-testid="sheet-table" aria-busy={query.isFetching}>
+          <table className={`w-full text-sm border-collapse ${slowFetch ? 'opacity-70' : ''}`} data-testid="sheet-table" aria-busy={query.isFetching}>
             <thead>
               {table.getHeaderGroups().map((group) => (
                 <tr key={group.id} className="text-left border-b-2 border-ink bg-paper-deep">
